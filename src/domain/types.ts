@@ -127,3 +127,23 @@ export interface FileReport {
 export interface IngestReport {
   files: FileReport[];
 }
+
+/** Everything ingest read from a portfolio folder. Tariffs are kept as parsed by src/tariff. */
+export interface Portfolio<TariffT = unknown> {
+  /** Absolute path of the folder read. */
+  root: string;
+  settings: PortfolioSettings;
+  buildings: Building[];
+  meters: Meter[];
+  bills: Bill[];
+  billLines: BillLine[];
+  /** Keyed by meter_id. */
+  intervals: Map<string, IntervalSeries>;
+  /** Keyed by station_id; hourly, gaps filled up to the configured limit. */
+  weather: Map<string, WeatherSeries>;
+  /** Typical-year hourly temperatures by station, when weather/normals has them. */
+  normals: Map<string, WeatherSeries>;
+  /** Keyed by tariff id. */
+  tariffs: Map<string, TariffT>;
+  report: IngestReport;
+}
