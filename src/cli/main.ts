@@ -1,0 +1,169 @@
+/**
+ * The `ohmbook` command line. The only module that reads argv, writes to stdout/stderr
+ * and decides exit codes; everything else returns values or throws OhmbookError.
+ *
+ * Exit codes (see README): 0 ok; 1 input errors or usage error; 3 `--fail-on` threshold crossed.
+ */
+import { parseArgs } from "node:util";
+import { resolve } from "node:path";
+import { fileURLToPath } from "node:url";
+import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
+import { formatIssue } from "../core/issues.ts";
+import { consoleReporter } from "./progress.ts";
+
+const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
+
+Usage:
+  ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--strict] [--quiet] [--json]
+  ohmbook check [DIR] [--quiet] [--json]
+  ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
+                | --intervals CSV --meter ID --from D --to D) [--timezone ZONE] [--json]
+  ohmbook init DIR
+
+DIR defaults to data/demo; OUT defaults to _site.
+Exit codes: 0 ok, 1 input or usage errors (nothing written), 3 findings reached --fail-on.`;
+
+export interface CliIo {
+  out: (s: string) => void;
+  err: (s: string) => void;
+  isTty: boolean;
+}
+
+const processIo: CliIo = {
+  out: (s) => process.stdout.write(s),
+  err: (s) => process.stderr.write(s),
+  isTty: Boolean(process.stderr.isTTY),
+};
+
+/** Runs one CLI invocation and returns its exit code (never throws). */
+export async function runCli(argv: string[], io: CliIo = processIo): Promise<number> {
+  const [command, ...rest] = argv;
+  try {
+    switch (command) {
+      case "build":
+        return await commandBuild(rest, io);
+      case "check":
+        return await commandCheck(rest, io);
+      case "price": {
+        const { runPrice } = await import("./price.ts");
+        return await runPrice(rest, { out: (s) => io.out(s.endsWith("\n") ? s : `${s}\n`), err: (s) => io.err(s.endsWith("\n") ? s : `${s}\n`) });
+      }
+      case "init":
+        return await commandInit(rest, io);
+      case undefined:
+      case "help":
+      case "--help":
+      case "-h":
+        io.out(`${HELP}\n`);
+        return command === undefined ? 1 : 0;
+      default:
+        throw new UsageError(`unknown command '${command}'; expected build, check, price or init`);
+    }
+  } catch (error) {
+    return reportError(error, io);
+  }
+}
+
+function reportError(error: unknown, io: CliIo): number {
+  if (error instanceof InputError) {
+    for (const issue of error.issues) io.err(`${formatIssue(issue)}\n`);
+    io.err(`ohmbook: ${error.message}; nothing was written\n`);
+    return 1;
+  }
+  if (error instanceof UsageError) {
+    io.err(`ohmbook: ${error.message}\nRun 'ohmbook help' for usage.\n`);
+    return 1;
+  }
+  if (error instanceof OhmbookError) {
+    io.err(`ohmbook: ${error.message}\n`);
+    return 1;
+  }
+  // A bug, not a user error: say so plainly, keep the detail for the report.
+  const detail = error instanceof Error ? (error.stack ?? error.message) : String(error);
+  io.err(`ohmbook: internal error — please report it with this detail:\n${detail}\n`);
+  return 1;
+}
+
+function parse(args: string[], options: Parameters<typeof parseArgs>[0]["options"]) {
+  try {
+    return parseArgs({ args, options, allowPositionals: true, strict: true });
+  } catch (error) {
+    throw new UsageError(error instanceof Error ? error.message : String(error));
+  }
+}
+
+async function commandBuild(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parse(args, {
+    out: { type: "string", short: "o" },
+    "fail-on": { type: "string" },
+    strict: { type: "boolean" },
+    quiet: { type: "boolean", short: "q" },
+    json: { type: "boolean" },
+  });
+  if (positionals.length > 1) throw new UsageError(`build takes one folder, got ${positionals.length}`);
+  const failOn = values["fail-on"] as string | undefined;
+  if (failOn !== undefined && failOn !== "warning" && failOn !== "error") {
+    throw new UsageError(`--fail-on must be 'warning' or 'error', got '${failOn}'`);
+  }
+  const quiet = Boolean(values.quiet) || Boolean(values.json);
+  const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
+  const { buildPortfolioSite } = await import("../pipeline/build.ts");
+  const result = await buildPortfolioSite({
+    dir: positionals[0] ?? "data/demo",
+    outDir: (values.out as string | undefined) ?? "_site",
+    strict: Boolean(values.strict),
+    reporter,
+  });
+  for (const issue of result.issues) if (!quiet || issue.severity === "error") io.err(`${formatIssue(issue)}\n`);
+  const crossed = failOn ? result.findingsAtOrAbove(failOn) : 0;
+  if (values.json) {
+    io.out(`${JSON.stringify(result.summary, null, 2)}\n`);
+  } else if (!quiet) {
+    io.out(`${result.summaryText}\n`);
+  }
+  if (failOn && crossed > 0) {
+    io.err(`ohmbook: ${crossed} finding(s) at or above '${failOn}' (--fail-on)\n`);
+    return 3;
+  }
+  return 0;
+}
+
+async function commandCheck(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parse(args, {
+    quiet: { type: "boolean", short: "q" },
+    json: { type: "boolean" },
+  });
+  const dir = positionals[0] ?? "data/demo";
+  const { loadPortfolio } = await import("../ingest/index.ts");
+  const result = await loadPortfolio(dir);
+  const errors = result.issues.filter((i) => i.severity === "error");
+  if (values.json) {
+    io.out(`${JSON.stringify({ ok: errors.length === 0, issues: result.issues, files: result.portfolio?.report.files ?? [] }, null, 2)}\n`);
+  } else {
+    for (const issue of result.issues) {
+      if (!values.quiet || issue.severity === "error") io.out(`${formatIssue(issue)}\n`);
+    }
+    if (!values.quiet) {
+      const warnings = result.issues.length - errors.length;
+      io.out(errors.length === 0 ? `${dir}: no errors (${warnings} warning(s))\n` : `${dir}: ${errors.length} error(s), ${warnings} warning(s)\n`);
+    }
+  }
+  return errors.length === 0 ? 0 : 1;
+}
+
+async function commandInit(args: string[], io: CliIo): Promise<number> {
+  const { positionals } = parse(args, {});
+  if (positionals.length !== 1) throw new UsageError("init needs exactly one folder: ohmbook init DIR");
+  const { writeStarterPortfolio } = await import("./init.ts");
+  const written = await writeStarterPortfolio(positionals[0]!);
+  io.out(`Wrote a starter portfolio to ${positionals[0]} (${written.length} files). Next: ohmbook check ${positionals[0]}\n`);
+  return 0;
+}
+
+// Run when executed directly (tsx src/cli/main.ts …), not when imported by tests.
+const invokedDirectly = process.argv[1] !== undefined && resolve(process.argv[1]) === fileURLToPath(import.meta.url);
+if (invokedDirectly) {
+  runCli(process.argv.slice(2)).then((code) => {
+    process.exitCode = code;
+  });
+}
