@@ -1,0 +1,209 @@
+/**
+ * `ohmbook build`: the whole pipeline, stage by stage —
+ * ingest → price every bill → reconcile with interval data → audit → baselines → view models → site.
+ * Computation stages are pure; this module only sequences them, isolates failures per building,
+ * and hands the results to the site writer (the only stage that writes files).
+ */
+import { InputError } from "../core/errors.ts";
+import type { InputIssue } from "../core/issues.ts";
+import type { Building, Portfolio } from "../domain/types.ts";
+import { loadPortfolio } from "../ingest/index.ts";
+import type { Tariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
+import { runAudit } from "../audit/index.ts";
+import type { Finding } from "../audit/types.ts";
+import type { Reporter } from "../cli/progress.ts";
+import { silentReporter } from "../cli/progress.ts";
+import type { PricedBill } from "./priceBills.ts";
+import { priceMeterBills } from "./priceBills.ts";
+import { reconcileBuilding } from "./reconcile.ts";
+import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
+import { monthlyMeteredByMeter } from "./monthly.ts";
+import { buildDataFiles } from "./outputs.ts";
+import { buildSiteModel } from "../report/index.ts";
+import { writeSite } from "../site/writeSite.ts";
+
+export interface BuildOptions {
+  dir: string;
+  outDir: string;
+  /** Any rejected row or failing building fails the build (exit 1, nothing written). */
+  strict: boolean;
+  reporter?: Reporter;
+  /** Build date `YYYY-MM-DD`; injected so builds are reproducible. Default: today (UTC). */
+  buildDate?: string;
+}
+
+export interface BuildResult {
+  issues: InputIssue[];
+  summary: BuildSummary;
+  summaryText: string;
+  /** How many findings are at or above a severity (for `--fail-on`). */
+  findingsAtOrAbove(severity: "warning" | "error"): number;
+}
+
+export interface BuildSummary {
+  outDir: string;
+  buildings: number;
+  bills: number;
+  billsPriced: number;
+  findings: { error: number; warning: number; info: number };
+  amountAtStake: number;
+  rowsRejected: number;
+  buildingsFailed: { buildingId: string; reason: string }[];
+}
+
+/** Everything computed for one building; a building that fails carries only `failure`. */
+export interface BuildingResults {
+  building: Building;
+  priced: Map<string, PricedBill>;
+  findings: Finding[];
+  baselines: MeterBaseline[];
+  failure: string | null;
+}
+
+const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
+
+/**
+ * Runs the pipeline and writes the site atomically.
+ * @throws InputError when inputs are unusable (or, with `strict`, when any row was rejected).
+ */
+export async function buildPortfolioSite(options: BuildOptions): Promise<BuildResult> {
+  const reporter = options.reporter ?? silentReporter;
+  const buildDate = options.buildDate ?? new Date().toISOString().slice(0, 10);
+
+  reporter.stage(`Reading ${options.dir}`);
+  const loaded = await loadPortfolio(options.dir);
+  const issues = loaded.issues;
+  const errors = issues.filter((i) => i.severity === "error");
+  if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
+  if (options.strict && errors.length > 0) throw new InputError(issues);
+  const portfolio = loaded.portfolio as Portfolio<Tariff>;
+
+  reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
+  const results: BuildingResults[] = [];
+  portfolio.buildings.forEach((building, index) => {
+    reporter.step(index, portfolio.buildings.length, building.buildingId);
+    results.push(analyseBuilding(portfolio, building));
+  });
+  reporter.step(portfolio.buildings.length, portfolio.buildings.length, "done");
+  reporter.finish();
+
+  const failed = results.filter((r) => r.failure !== null);
+  if (options.strict && failed.length > 0) {
+    throw new InputError(
+      failed.map((r) => ({
+        file: r.building.source.file,
+        line: r.building.source.line,
+        column: 0,
+        severity: "error" as const,
+        message: `building ${r.building.buildingId} could not be analysed: ${r.failure}`,
+      })),
+    );
+  }
+
+  const findings = results.flatMap((r) => r.findings);
+  const priced = new Map<string, PricedBill>();
+  for (const r of results) for (const [id, p] of r.priced) priced.set(id, p);
+  const monthlyMetered = monthlyMeteredByMeter(portfolio);
+
+  reporter.stage(`Writing the site to ${options.outDir}`);
+  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps ?? [] });
+  const model = buildSiteModel({
+    portfolio,
+    priced,
+    monthlyMetered,
+    issues,
+    buildDate,
+    findings,
+    models: results.flatMap((r) => r.baselines.map((b) => b.summary)),
+  });
+  await writeSite(model, dataFiles, options.outDir);
+
+  const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;
+  const summary: BuildSummary = {
+    outDir: options.outDir,
+    buildings: portfolio.buildings.length,
+    bills: portfolio.bills.length,
+    billsPriced: [...priced.values()].filter((p) => p.computed !== null).length,
+    findings: { error: count("error"), warning: count("warning"), info: count("info") },
+    amountAtStake: roundCents(findings.reduce((s, f) => s + (f.severity !== "info" && f.amountAtStake ? f.amountAtStake : 0), 0)),
+    rowsRejected: portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0),
+    buildingsFailed: failed.map((r) => ({ buildingId: r.building.buildingId, reason: r.failure! })),
+  };
+  return {
+    issues,
+    summary,
+    summaryText: summaryText(summary, portfolio.settings.currency),
+    findingsAtOrAbove: (severity) => findings.filter((f) => SEVERITY_RANK[f.severity] >= SEVERITY_RANK[severity]).length,
+  };
+}
+
+/** Prices, reconciles, audits and models one building; any failure is caught and reported. */
+export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building): BuildingResults {
+  const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], failure: null };
+  try {
+    const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
+    const priced = new Map<string, PricedBill>();
+    for (const meter of meters) {
+      const tariff = portfolio.tariffs.get(meter.tariffId);
+      const bills = portfolio.bills.filter((b) => b.meterId === meter.meterId);
+      const meterPriced = priceMeterBills({
+        meter,
+        bills,
+        timezone: building.timezone,
+        series: portfolio.intervals.get(meter.meterId),
+        price: tariff ? (request) => priceBill(tariff, request) : null,
+        pricerError: `tariff '${meter.tariffId}' could not be loaded (see the tariff file's errors)`,
+      });
+      for (const [id, p] of meterPriced) priced.set(id, p);
+    }
+    const metered = reconcileBuilding(portfolio, building);
+    const baselines = fitBuildingBaselines(portfolio, building);
+    const findings = runAudit({
+      portfolio: scopeToBuilding(portfolio, building),
+      priced: new Map([...priced].map(([id, p]) => [id, p.computed])),
+      metered,
+      tolerances: portfolio.settings.tolerances,
+      expectedUsage: expectedUsageFromBaselines(baselines),
+    });
+    return { building, priced, findings, baselines, failure: null };
+  } catch (error) {
+    return { ...empty, failure: error instanceof Error ? error.message : String(error) };
+  }
+}
+
+function scopeToBuilding(portfolio: Portfolio<Tariff>, building: Building): Portfolio<Tariff> {
+  const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
+  const ids = new Set(meters.map((m) => m.meterId));
+  const bills = portfolio.bills.filter((b) => ids.has(b.meterId));
+  const billIds = new Set(bills.map((b) => b.billId));
+  return {
+    ...portfolio,
+    buildings: [building],
+    meters,
+    bills,
+    billLines: portfolio.billLines.filter((l) => billIds.has(l.billId)),
+  };
+}
+
+function expectedUsageFromBaselines(baselines: MeterBaseline[]) {
+  const map = new Map<string, { p50: number; low: number; high: number }>();
+  for (const b of baselines) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
+  return map;
+}
+
+function roundCents(x: number): number {
+  return Math.round(x * 100) / 100;
+}
+
+function summaryText(s: BuildSummary, currency: string): string {
+  const money = new Intl.NumberFormat("en-US", { style: "currency", currency }).format(s.amountAtStake);
+  const lines = [
+    `Built ${s.buildings} building page(s) into ${s.outDir}`,
+    `  ${s.billsPriced} of ${s.bills} bills re-priced; findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info; ${money} at stake`,
+  ];
+  if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
+  for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
+  lines.push(`View it: serve the folder over HTTP (e.g. npx vite preview --outDir ${s.outDir}) and open the address shown.`);
+  return lines.join("\n");
+}
