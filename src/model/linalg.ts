@@ -1,0 +1,118 @@
+/**
+ * Householder QR least squares for small dense problems (a handful of columns, up to a
+ * few thousand rows). QR works on X directly, so its accuracy depends on cond(X), not
+ * cond(X)² as the normal equations would; that matters for temperature regressors that
+ * are far from zero (e.g. 30–80 °F next to an intercept column).
+ */
+import { ModelInputError } from "./errors.ts";
+
+/** A dense matrix as an array of rows. */
+export type Matrix = readonly (readonly number[])[];
+
+/** The factorization X = QR, kept in the compact Householder form (after JAMA / LINPACK). */
+export interface QrFactorization {
+  rows: number;
+  cols: number;
+  /** Column-major m×n: Householder vectors below the diagonal, R above it. */
+  qr: Float64Array;
+  /** Diagonal of R. */
+  rDiag: Float64Array;
+}
+
+/** Below this |R_jj| / ‖column j‖ a column is treated as a linear combination of earlier ones. */
+const RANK_TOLERANCE = 1e-10;
+
+/**
+ * Householder QR of an m×n matrix with m ≥ n.
+ * @throws ModelInputError when m < n, when rows are ragged or non-finite, or when a column is
+ *   (numerically) a linear combination of earlier columns: which column is named in the message.
+ */
+export function householderQr(x: Matrix, columnNames?: readonly string[]): QrFactorization {
+  const m = x.length;
+  const n = m === 0 ? 0 : x[0].length;
+  if (m < n || n === 0) throw new ModelInputError(`need at least as many rows as columns (rows=${m}, columns=${n})`);
+  const qr = new Float64Array(m * n);
+  const colNorm = new Float64Array(n);
+  for (let i = 0; i < m; i++) {
+    const row = x[i];
+    if (row.length !== n) throw new ModelInputError(`row ${i} has ${row.length} values, expected ${n}`);
+    for (let j = 0; j < n; j++) {
+      const v = row[j];
+      if (!Number.isFinite(v)) throw new ModelInputError(`non-finite value at row ${i}, column ${j}`);
+      qr[j * m + i] = v;
+    }
+  }
+  for (let j = 0; j < n; j++) {
+    let s = 0;
+    for (let i = 0; i < m; i++) s = Math.hypot(s, qr[j * m + i]);
+    colNorm[j] = s;
+  }
+  const rDiag = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    let nrm = 0;
+    for (let i = k; i < m; i++) nrm = Math.hypot(nrm, qr[k * m + i]);
+    if (nrm === 0 || nrm <= RANK_TOLERANCE * colNorm[k]) {
+      const name = columnNames?.[k] ?? `column ${k}`;
+      throw new ModelInputError(`design matrix is rank-deficient: ${name} is constant or a combination of earlier columns`);
+    }
+    if (qr[k * m + k] < 0) nrm = -nrm;
+    for (let i = k; i < m; i++) qr[k * m + i] /= nrm;
+    qr[k * m + k] += 1;
+    for (let j = k + 1; j < n; j++) {
+      let s = 0;
+      for (let i = k; i < m; i++) s += qr[k * m + i] * qr[j * m + i];
+      s = -s / qr[k * m + k];
+      for (let i = k; i < m; i++) qr[j * m + i] += s * qr[k * m + i];
+    }
+    rDiag[k] = -nrm;
+  }
+  return { rows: m, cols: n, qr, rDiag };
+}
+
+/** Least-squares solution of X b ≈ y from a QR factorization of X. */
+export function qrSolve(f: QrFactorization, y: ArrayLike<number>): Float64Array {
+  const { rows: m, cols: n, qr, rDiag } = f;
+  if (y.length !== m) throw new ModelInputError(`right-hand side has ${y.length} values, expected ${m}`);
+  const b = Float64Array.from(y as ArrayLike<number>);
+  // Apply Qᵀ to y.
+  for (let k = 0; k < n; k++) {
+    let s = 0;
+    for (let i = k; i < m; i++) s += qr[k * m + i] * b[i];
+    s = -s / qr[k * m + k];
+    for (let i = k; i < m; i++) b[i] += s * qr[k * m + i];
+  }
+  // Back-substitute R b = Qᵀy.
+  const out = new Float64Array(n);
+  for (let k = n - 1; k >= 0; k--) {
+    let s = b[k];
+    for (let j = k + 1; j < n; j++) s -= qr[j * m + k] * out[j];
+    out[k] = s / rDiag[k];
+  }
+  return out;
+}
+
+/** (XᵀX)⁻¹ = R⁻¹R⁻ᵀ from a QR factorization, as an n×n array of rows. */
+export function qrUnscaledCovariance(f: QrFactorization): number[][] {
+  const { rows: m, cols: n, qr, rDiag } = f;
+  const r = (i: number, j: number): number => (i === j ? rDiag[i] : qr[j * m + i]);
+  // Invert the upper-triangular R column by column.
+  const rInv: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  for (let j = 0; j < n; j++) {
+    rInv[j][j] = 1 / r(j, j);
+    for (let i = j - 1; i >= 0; i--) {
+      let s = 0;
+      for (let k = i + 1; k <= j; k++) s += r(i, k) * rInv[k][j];
+      rInv[i][j] = -s / r(i, i);
+    }
+  }
+  const cov: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  for (let i = 0; i < n; i++) {
+    for (let j = i; j < n; j++) {
+      let s = 0;
+      for (let k = Math.max(i, j); k < n; k++) s += rInv[i][k] * rInv[j][k];
+      cov[i][j] = s;
+      cov[j][i] = s;
+    }
+  }
+  return cov;
+}
