@@ -50,6 +50,22 @@ export interface ComputedLine {
   amount: number;
   note: string | null;
   status: LineStatus;
+  /**
+   * The pieces a line is made of when it has more than one rate (blocks, time-of-use periods,
+   * per-period demand, versions of a prorated bill): each piece's quantity × rate = amount
+   * (unrounded). Absent for single-rate lines.
+   */
+  parts?: LinePart[];
+}
+
+/** One piece of a multi-rate line, e.g. the peak part of a time-of-use energy charge. */
+export interface LinePart {
+  label: string;
+  quantity: number;
+  unit: string;
+  rate: number;
+  /** quantity × rate (× weight for a prorated bill), not rounded. */
+  amount: number;
 }
 
 export interface ComputedBill {

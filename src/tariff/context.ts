@@ -1,0 +1,130 @@
+/**
+ * Everything about one bill that does not depend on the tariff version: usage in the tariff's
+ * unit, billing days, the bill's interval data cut to the service period with local times
+ * computed once. Built by price.ts, read by price-version.ts.
+ */
+import type { PriceRequest } from "./types.ts";
+import type { Tariff } from "./model.ts";
+import { assertZone, localMidnightMs, localTimes, type LocalTimes } from "./calendar.ts";
+import { daysBetween, isIsoDate } from "./dates.ts";
+import { PricingError } from "./errors.ts";
+import { canonicalUnit, unitFactor } from "./units.ts";
+
+export interface BillIntervals {
+  startMs: Float64Array;
+  /** Usage per interval in the tariff's unit. */
+  usage: Float64Array;
+  /** Energy per interval in kWh (electricity only; else null). */
+  kwh: Float64Array | null;
+  intervalMinutes: number;
+  /** How many intervals a complete period would have. */
+  expectedCount: number;
+  local: LocalTimes;
+}
+
+export interface BillContext {
+  tariff: Tariff;
+  req: PriceRequest;
+  days: number;
+  startMs: number;
+  endMs: number;
+  /** Billed usage in the tariff's unit. */
+  usage: number;
+  /** Unit factor request unit -> tariff unit. */
+  usageFactor: number;
+  requestUnit: string;
+  intervals: BillIntervals | null;
+  /** Lazily built local times of each hour of the period, for estimates without intervals. */
+  hourly(): { startMs: Float64Array; local: LocalTimes };
+}
+
+function lowerBound(a: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = a.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (a[mid] < x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/**
+ * Validates a request against a tariff and prepares the bill context.
+ *
+ * @throws PricingError for impossible dates, an unknown zone, a unit that cannot be converted,
+ *   a non-finite usage or a power factor outside (0, 1].
+ */
+export function billContext(tariff: Tariff, req: PriceRequest): BillContext {
+  if (!isIsoDate(req.periodStart) || !isIsoDate(req.periodEnd)) {
+    throw new PricingError(`billing period ${req.periodStart} to ${req.periodEnd}: dates must be YYYY-MM-DD`);
+  }
+  const days = daysBetween(req.periodStart, req.periodEnd);
+  if (days <= 0) throw new PricingError(`billing period ends (${req.periodEnd}) on or before it starts (${req.periodStart})`);
+  assertZone(req.timezone);
+  if (!Number.isFinite(req.usage)) throw new PricingError(`usage ${req.usage} is not a number`);
+  const requestUnit = canonicalUnit(tariff.commodity, req.usageUnit);
+  const usageFactor = unitFactor(tariff.commodity, req.usageUnit, tariff.usageUnit, tariff.heatContentThermPerCcf);
+  if (usageFactor === null || requestUnit === null) {
+    throw new PricingError(
+      `cannot convert ${req.usageUnit} to ${tariff.usageUnit} for a ${tariff.commodity} tariff ('${tariff.id}')`,
+    );
+  }
+  if (req.powerFactor != null && !(req.powerFactor > 0 && req.powerFactor <= 1)) {
+    throw new PricingError(`power factor ${req.powerFactor} is outside 0 < pf <= 1`);
+  }
+  if (req.demandKw != null && !(Number.isFinite(req.demandKw) && req.demandKw >= 0)) {
+    throw new PricingError(`demand ${req.demandKw} kW is not a non-negative number`);
+  }
+  const startMs = localMidnightMs(req.periodStart, req.timezone);
+  const endMs = localMidnightMs(req.periodEnd, req.timezone);
+
+  let intervals: BillIntervals | null = null;
+  const iv = req.intervals;
+  if (iv && iv.startMs.length > 0) {
+    if (!(iv.intervalMinutes > 0) || iv.startMs.length !== iv.values.length) {
+      throw new PricingError("interval data is malformed (length mismatch or interval length not positive)");
+    }
+    const a = lowerBound(iv.startMs, startMs);
+    const b = lowerBound(iv.startMs, endMs);
+    const start = iv.startMs.subarray(a, b);
+    const raw = iv.values.subarray(a, b);
+    const usage = usageFactor === 1 ? raw : raw.map((v) => v * usageFactor);
+    let kwh: Float64Array | null = null;
+    if (tariff.commodity === "electricity") {
+      const f = unitFactor("electricity", req.usageUnit, "kWh") as number;
+      kwh = f === 1 ? raw : raw.map((v) => v * f);
+    }
+    intervals = {
+      startMs: start,
+      usage,
+      kwh,
+      intervalMinutes: iv.intervalMinutes,
+      expectedCount: Math.round((endMs - startMs) / (iv.intervalMinutes * 60_000)),
+      local: localTimes(start, req.timezone),
+    };
+  }
+
+  let hourlyCache: { startMs: Float64Array; local: LocalTimes } | null = null;
+  return {
+    tariff,
+    req,
+    days,
+    startMs,
+    endMs,
+    usage: req.usage * usageFactor,
+    usageFactor,
+    requestUnit,
+    intervals,
+    hourly() {
+      if (hourlyCache === null) {
+        const n = Math.round((endMs - startMs) / 3_600_000);
+        const s = new Float64Array(n);
+        for (let i = 0; i < n; i++) s[i] = startMs + i * 3_600_000;
+        hourlyCache = { startMs: s, local: localTimes(s, req.timezone) };
+      }
+      return hourlyCache;
+    },
+  };
+}
+

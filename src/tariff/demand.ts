@@ -1,0 +1,101 @@
+/**
+ * Maximum demand from interval energy (common practice; tariffs differ): each interval's
+ * average power is kW = kWh × 60 / interval minutes, and billing demand is the highest
+ * average over any `window_minutes` of consecutive intervals. A window is counted only when
+ * its intervals are contiguous (no gap in the data) and, for a period demand, when all of them
+ * start inside that period.
+ */
+import { PricingError } from "./errors.ts";
+
+export interface WindowDemand {
+  /** Highest window average in kW, or null when no complete window exists. */
+  kw: number | null;
+  /** Intervals per window actually used. */
+  intervalsPerWindow: number;
+}
+
+/**
+ * Number of intervals in a demand window. A window shorter than one interval uses one interval
+ * (the finest the data can say).
+ *
+ * @throws PricingError when the window is longer than an interval but not a whole multiple of it.
+ */
+export function intervalsPerWindow(windowMinutes: number, intervalMinutes: number): number {
+  if (windowMinutes <= intervalMinutes) return 1;
+  const k = windowMinutes / intervalMinutes;
+  if (!Number.isInteger(k)) {
+    throw new PricingError(
+      `a ${windowMinutes}-minute demand window is not a whole number of ${intervalMinutes}-minute intervals`,
+    );
+  }
+  return k;
+}
+
+/**
+ * Highest rolling-window average demand, kW.
+ *
+ * @param startMs interval starts (UTC ms), increasing
+ * @param kwh energy per interval in kWh (multiplier applied)
+ * @param periodIdx optional period index per interval; with `period`, only windows wholly inside it count
+ * @example 15-minute data with a 25 kWh interval and a 15-minute window -> 100 kW
+ */
+export function maxWindowDemandKw(
+  startMs: Float64Array,
+  kwh: Float64Array,
+  intervalMinutes: number,
+  windowMinutes: number,
+  periodIdx: Int8Array | null = null,
+  period = -1,
+): WindowDemand {
+  const k = intervalsPerWindow(windowMinutes, intervalMinutes);
+  const stepMs = intervalMinutes * 60_000;
+  const spanMs = (k - 1) * stepMs;
+  const hours = (k * intervalMinutes) / 60;
+  let best = -Infinity;
+  let sum = 0;
+  let inside = 0; // intervals of the current window inside the period
+  for (let i = 0; i < kwh.length; i++) {
+    sum += kwh[i];
+    if (periodIdx !== null && periodIdx[i] === period) inside++;
+    if (i >= k) {
+      sum -= kwh[i - k];
+      if (periodIdx !== null && periodIdx[i - k] === period) inside--;
+    }
+    if (i < k - 1) continue;
+    if (startMs[i] - startMs[i - k + 1] !== spanMs) continue;
+    if (periodIdx !== null && inside !== k) continue;
+    const kw = sum / hours;
+    if (kw > best) best = kw;
+  }
+  return { kw: best === -Infinity ? null : best, intervalsPerWindow: k };
+}
+
+/**
+ * Billing demand after a ratchet and a minimum: max(measured, percent/100 × highest of the last
+ * `months` previous billing demands, minimumKw).
+ *
+ * @example billingDemandKw(300, [500, 400], { percent: 80, months: 11 }, 10) // 400
+ */
+export function billingDemandKw(
+  measuredKw: number,
+  previousBillingDemandsKw: readonly number[],
+  ratchet: { percent: number; months: number } | null,
+  minimumKw: number | null,
+): { kw: number; by: "measured" | "ratchet" | "minimum"; ratchetKw: number | null } {
+  let kw = measuredKw;
+  let by: "measured" | "ratchet" | "minimum" = "measured";
+  let ratchetKw: number | null = null;
+  if (ratchet !== null && previousBillingDemandsKw.length > 0) {
+    const recent = previousBillingDemandsKw.slice(-ratchet.months);
+    ratchetKw = (Math.max(...recent) * ratchet.percent) / 100;
+    if (ratchetKw > kw) {
+      kw = ratchetKw;
+      by = "ratchet";
+    }
+  }
+  if (minimumKw !== null && minimumKw > kw) {
+    kw = minimumKw;
+    by = "minimum";
+  }
+  return { kw, by, ratchetKw };
+}
