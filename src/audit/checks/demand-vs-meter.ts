@@ -1,0 +1,42 @@
+/**
+ * demand-vs-meter — billed maximum demand vs the highest rolling-window average kW in the
+ * interval data over the bill period (window: demandWindowMinutes, default 15).
+ *
+ * Compared when coverage ≥ minCoverage (the usage check reports low coverage). Finding when
+ * |billed − metered| / metered > demand_pct. Severity: error when the bill exceeds the meter's
+ * peak by more than 5 × demand_pct (demand the meter never saw), otherwise warning.
+ * Amount = billed total − total re-priced with the metered peak (null without a reprice hook).
+ */
+import { billFinding, type AuditContext } from "../context.ts";
+import { formatMoney, formatPct, formatQty } from "../format.ts";
+import { exceedsPct } from "../tolerances.ts";
+import type { Finding } from "../types.ts";
+import { comparableMetered, moneyAtStakeOnQuantities } from "./metered.ts";
+
+/** demand-vs-meter findings for every bill with a printed demand and comparable interval data. */
+export function checkDemandVsMeter(ctx: AuditContext): Finding[] {
+  const out: Finding[] = [];
+  for (const bill of ctx.input.portfolio.bills) {
+    if (bill.demandKw === null) continue;
+    const m = comparableMetered(ctx, bill);
+    if (m === null || m.peakKw === null) continue;
+    if (!exceedsPct(bill.demandKw, m.peakKw, ctx.tol.demandPct)) continue;
+    const diff = bill.demandKw - m.peakKw;
+    const rel = m.peakKw === 0 ? Infinity : diff / m.peakKw;
+    const money = moneyAtStakeOnQuantities(ctx, bill, bill.usage, m.peakKw);
+    const notes = [`Peak = highest ${ctx.tol.demandWindowMinutes}-minute average over intervals wholly inside the period; coverage ${formatPct(m.coverage)}.`];
+    if (money) notes.push(`Re-priced with the metered peak: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
+    out.push(billFinding(ctx, bill, {
+      check: "demand-vs-meter",
+      severity: rel > (5 * ctx.tol.demandPct) / 100 ? "error" : "warning",
+      amountAtStake: money?.amount ?? null,
+      title: diff > 0 ? "Billed demand higher than the meter's peak" : "Billed demand lower than the meter's peak",
+      message: `Bill ${bill.billId} shows ${formatQty(bill.demandKw)} kW of demand but the meter's highest ${ctx.tol.demandWindowMinutes}-minute average was ${formatQty(m.peakKw)} kW (${rel > 0 ? "+" : ""}${Number.isFinite(rel) ? formatPct(rel) : "n/a"}, tolerance ${ctx.tol.demandPct} %).`,
+      evidence: {
+        rows: [{ label: "Demand (kW)", billed: bill.demandKw, expected: Number(m.peakKw.toFixed(3)), difference: Number(diff.toFixed(3)) }],
+        notes,
+      },
+    }));
+  }
+  return out;
+}

@@ -1,0 +1,79 @@
+/**
+ * missing-bill — the meter's interval data covers a stretch that no bill covers.
+ *
+ * Stretches considered, in the building's local dates:
+ *  - between bills (after the latest end so far, before the next start): warning when the
+ *    interval data covers at least half of the stretch (otherwise period-gap reports it);
+ *  - after the last bill up to the last day of data (or as_of): warning when longer than
+ *    trailingMissingDays (a bill should have arrived by then);
+ *  - before the first bill: info when longer than trailingMissingDays (data often predates bills);
+ *  - a meter with interval data and no bills at all: one warning.
+ * Amount null (the usage is shown as evidence; nothing was overbilled).
+ */
+import { DateTime } from "luxon";
+import type { Bill } from "../../domain/types.ts";
+import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
+import { addDays, daysBetween, minDate } from "../dates.ts";
+import { formatPct, formatQty } from "../format.ts";
+import { meteredForPeriod } from "../reconcile.ts";
+import type { Finding, Severity } from "../types.ts";
+
+const MIN_GAP_COVERAGE = 0.5;
+
+/** missing-bill findings for every meter with interval data. */
+export function checkMissingBill(ctx: AuditContext): Finding[] {
+  const out: Finding[] = [];
+  for (const [meterId, series] of ctx.input.portfolio.intervals) {
+    const meter = ctx.meters.get(meterId);
+    const zone = meter ? ctx.buildings.get(meter.buildingId)?.timezone : undefined;
+    if (!meter || !zone || series.startMs.length === 0) continue;
+    let firstIdx = 0;
+    while (firstIdx < series.values.length && !Number.isFinite(series.values[firstIdx])) firstIdx++;
+    let lastIdx = series.values.length - 1;
+    while (lastIdx >= 0 && !Number.isFinite(series.values[lastIdx])) lastIdx--;
+    if (firstIdx > lastIdx) continue;
+    const dataStart = DateTime.fromMillis(series.startMs[firstIdx], { zone }).toISODate()!;
+    let dataEnd = addDays(DateTime.fromMillis(series.startMs[lastIdx], { zone }).toISODate()!, 1);
+    const asOf = ctx.input.portfolio.settings.asOf;
+    if (asOf) dataEnd = minDate(dataEnd, addDays(asOf, 1));
+    const unit = meter.unit;
+
+    const stretch = (from: string, to: string, severity: Severity, why: string, related: Bill[]): void => {
+      if (to <= from) return;
+      const m = meteredForPeriod(series, meter.multiplier, from, to, zone);
+      if (m.coverage < MIN_GAP_COVERAGE) return;
+      const days = daysBetween(from, to);
+      out.push({
+        buildingId: buildingOf(ctx, meterId), meterId, billId: null, periodStart: from, periodEnd: to,
+        check: "missing-bill", severity, amountAtStake: null,
+        title: "Metered use with no bill",
+        message: `The interval meter recorded ${formatQty(m.usage)} ${unit} over the ${days} day${days === 1 ? "" : "s"} from ${from} to ${to}, but no bill of meter ${meterId} covers them (${why}).`,
+        evidence: {
+          rows: [{ label: `Usage (${unit})`, billed: null, expected: Number(m.usage.toFixed(3)) }],
+          notes: [`Interval coverage of the stretch ${formatPct(m.coverage)}.`],
+        },
+        relatedBillIds: related.map((b) => b.billId),
+      });
+    };
+
+    const bills = billsInSequence(ctx, meterId);
+    if (bills.length === 0) {
+      stretch(dataStart, dataEnd, "warning", "the meter has no bills at all", []);
+      continue;
+    }
+    if (daysBetween(dataStart, bills[0].periodStart) > ctx.tol.trailingMissingDays) {
+      stretch(dataStart, bills[0].periodStart, "info", "interval data starts before the first bill", [bills[0]]);
+    }
+    let latest = bills[0];
+    for (const bill of bills.slice(1)) {
+      if (bill.periodStart > latest.periodEnd) {
+        stretch(latest.periodEnd, bill.periodStart, "warning", `between bills ${latest.billId} and ${bill.billId}`, [latest, bill]);
+      }
+      if (bill.periodEnd > latest.periodEnd) latest = bill;
+    }
+    if (daysBetween(latest.periodEnd, dataEnd) > ctx.tol.trailingMissingDays) {
+      stretch(latest.periodEnd, dataEnd, "warning", `after the last bill ${latest.billId}, longer than ${ctx.tol.trailingMissingDays} days`, [latest]);
+    }
+  }
+  return out;
+}

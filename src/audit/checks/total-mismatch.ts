@@ -1,0 +1,68 @@
+/**
+ * total-mismatch — the billed total vs the total the tariff gives for the billed quantities.
+ *
+ * Compared only when every computed line is `exact`. Finding when the difference exceeds BOTH
+ * cost_abs and cost_pct (of the computed total): severity error, amount = billed − computed.
+ * A bill that could not be priced, or only partly exactly, gets an `info` finding naming what
+ * could not be compared (amount null).
+ */
+import type { Bill } from "../../domain/types.ts";
+import type { ComputedBill } from "../../tariff/types.ts";
+import { billFinding, type AuditContext } from "../context.ts";
+import { formatMoney } from "../format.ts";
+import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
+import type { EvidenceRow, Finding } from "../types.ts";
+import { groupLines } from "./labels.ts";
+
+/** Evidence rows: every charge (printed vs computed) and the total. Shared with other checks. */
+export function billVsComputedRows(ctx: AuditContext, bill: Bill, computed: ComputedBill): EvidenceRow[] {
+  const printed = ctx.linesByBill.get(bill.billId) ?? [];
+  const rows: EvidenceRow[] = groupLines(printed, computed.lines).map((g) => ({
+    label: g.computedLines.length
+      ? `${g.label}${g.computedLines.map((l) => (l.quantity !== null && l.rate !== null ? ` (${l.quantity} ${l.unit} × ${l.rate})` : "")).join("")}${g.exact ? "" : " [not exact]"}`
+      : `${g.label} [no tariff charge]`,
+    billed: g.printed === null ? null : roundCents(g.printed),
+    expected: g.computed === null ? null : roundCents(g.computed),
+    difference: g.printed !== null && g.computed !== null ? roundCents(g.printed - g.computed) : null,
+  }));
+  rows.push({ label: "Total", billed: roundCents(bill.total), expected: roundCents(computed.total), difference: roundCents(bill.total - computed.total) });
+  return rows;
+}
+
+/** total-mismatch findings for every bill. */
+export function checkTotalMismatch(ctx: AuditContext): Finding[] {
+  const out: Finding[] = [];
+  for (const bill of ctx.input.portfolio.bills) {
+    const computed = ctx.input.priced.get(bill.billId) ?? null;
+    if (computed === null) {
+      out.push(billFinding(ctx, bill, {
+        check: "total-mismatch", severity: "info", amountAtStake: null,
+        title: "Bill not re-priced",
+        message: `Bill ${bill.billId} could not be re-priced (no usable tariff), so its total of ${formatMoney(bill.total, ctx.currency)} was not checked.`,
+        evidence: { rows: [], notes: [] },
+      }));
+      continue;
+    }
+    const rows = billVsComputedRows(ctx, bill, computed);
+    const notes = [...computed.notes];
+    if (!computed.exact) {
+      const inexact = computed.lines.filter((l) => l.status !== "exact").map((l) => `${l.label} (${l.status})`);
+      out.push(billFinding(ctx, bill, {
+        check: "total-mismatch", severity: "info", amountAtStake: null,
+        title: "Bill only partly recomputed",
+        message: `The total of bill ${bill.billId} was not compared because these charges cannot be recomputed exactly: ${inexact.join(", ")}.`,
+        evidence: { rows, notes },
+      }));
+      continue;
+    }
+    const diff = roundCents(bill.total - computed.total);
+    if (!exceedsMoneyTolerance(diff, computed.total, ctx.tol)) continue;
+    out.push(billFinding(ctx, bill, {
+      check: "total-mismatch", severity: "error", amountAtStake: diff,
+      title: diff > 0 ? "Bill total higher than the tariff gives" : "Bill total lower than the tariff gives",
+      message: `Billed ${formatMoney(bill.total, ctx.currency)} but the tariff gives ${formatMoney(computed.total, ctx.currency)} for the billed quantities, a difference of ${formatMoney(diff, ctx.currency)}.`,
+      evidence: { rows, notes },
+    }));
+  }
+  return out;
+}

@@ -1,0 +1,50 @@
+/**
+ * usage-vs-meter — billed usage vs the sum of the meter's intervals over the bill period.
+ *
+ * Compared when interval coverage ≥ minCoverage; a period with some data but less coverage
+ * gets an `info` finding saying it was not compared. Finding when |billed − metered| /
+ * metered > usage_pct. Severity: error beyond 5 × usage_pct (plainly wrong), else warning.
+ * Amount = billed total − total re-priced on metered usage (null without a reprice hook).
+ */
+import { billFinding, type AuditContext } from "../context.ts";
+import { formatMoney, formatPct, formatQty } from "../format.ts";
+import { exceedsPct } from "../tolerances.ts";
+import type { Finding } from "../types.ts";
+import { moneyAtStakeOnQuantities } from "./metered.ts";
+
+/** usage-vs-meter findings (and low-coverage notices) for every bill with interval data. */
+export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
+  const out: Finding[] = [];
+  for (const bill of ctx.input.portfolio.bills) {
+    const m = ctx.input.metered.get(bill.billId) ?? null;
+    if (m === null || m.intervals === 0) continue;
+    const unit = ctx.meters.get(bill.meterId)?.unit ?? "";
+    if (m.coverage < ctx.tol.minCoverage) {
+      out.push(billFinding(ctx, bill, {
+        check: "usage-vs-meter", severity: "info", amountAtStake: null,
+        title: "Too little interval data to check usage",
+        message: `Only ${formatPct(m.coverage)} of the expected intervals (${m.intervals} of ${m.expectedIntervals}) are present for bill ${bill.billId}, below the ${formatPct(ctx.tol.minCoverage)} needed, so its usage and demand were not compared with the meter.`,
+        evidence: { rows: [{ label: `Usage (${unit})`, billed: bill.usage, expected: null }], notes: [`Metered sum of the intervals present: ${formatQty(m.usage)} ${unit}.`] },
+      }));
+      continue;
+    }
+    if (!exceedsPct(bill.usage, m.usage, ctx.tol.usagePct)) continue;
+    const diff = bill.usage - m.usage;
+    const rel = m.usage === 0 ? Infinity : diff / m.usage;
+    const money = moneyAtStakeOnQuantities(ctx, bill, m.usage, bill.demandKw);
+    const notes = [`Interval coverage ${formatPct(m.coverage)} (${m.intervals} of ${m.expectedIntervals} intervals), multiplier applied.`];
+    if (money) notes.push(`Re-priced on metered usage: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
+    out.push(billFinding(ctx, bill, {
+      check: "usage-vs-meter",
+      severity: Math.abs(rel) > (5 * ctx.tol.usagePct) / 100 ? "error" : "warning",
+      amountAtStake: money?.amount ?? null,
+      title: diff > 0 ? "Billed usage higher than the meter recorded" : "Billed usage lower than the meter recorded",
+      message: `Bill ${bill.billId} charges ${formatQty(bill.usage)} ${unit} but the interval meter recorded ${formatQty(m.usage)} ${unit} over the same period (${rel > 0 ? "+" : ""}${Number.isFinite(rel) ? formatPct(rel) : "n/a"}, tolerance ${ctx.tol.usagePct} %).`,
+      evidence: {
+        rows: [{ label: `Usage (${unit})`, billed: bill.usage, expected: Number(m.usage.toFixed(3)), difference: Number(diff.toFixed(3)) }],
+        notes,
+      },
+    }));
+  }
+  return out;
+}

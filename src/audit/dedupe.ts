@@ -1,0 +1,101 @@
+/**
+ * Cascade suppression: one cause, one finding. A root-cause finding keeps its money; the
+ * findings it explains are removed and summarised in its evidence notes.
+ *
+ * Rules, applied in this order (a finding already absorbed cannot absorb others):
+ *  1. duplicate-bill absorbs every other finding on the duplicate bill itself;
+ *  2. multiplier-suspect absorbs usage-vs-meter, demand-vs-meter, total-mismatch, rate-suspect
+ *     and usage-outlier on the bills it covers;
+ *  3. rate-suspect absorbs total-mismatch, line-mismatch and unexplained-line on its bill;
+ *  4. estimated-read absorbs usage-vs-meter, demand-vs-meter and usage-outlier on the bills it
+ *     covers (an estimate or its true-up explains usage that differs from the meter);
+ *  5. usage-vs-meter absorbs usage-outlier on its bill (the billed usage itself is wrong);
+ *  6. missing-bill absorbs a period-gap over the same days (interval data proves use);
+ *  7. period-overlap absorbs a period-gap next to one of its bills (shifted dates cause both);
+ *  8. line-mismatch + unexplained-line findings of a bill absorb its total-mismatch when their
+ *     amounts add up to the total difference within the money tolerance.
+ */
+import { exceedsMoneyTolerance } from "./tolerances.ts";
+import type { AuditTolerances, CheckCode, Finding } from "./types.ts";
+
+type Scope = "own" | "covered" | "same-days" | "neighbour";
+
+interface Rule {
+  root: CheckCode;
+  victims: CheckCode[] | "all";
+  scope: Scope;
+}
+
+const RULES: Rule[] = [
+  { root: "duplicate-bill", victims: "all", scope: "own" },
+  { root: "multiplier-suspect", victims: ["usage-vs-meter", "demand-vs-meter", "total-mismatch", "rate-suspect", "usage-outlier"], scope: "covered" },
+  { root: "rate-suspect", victims: ["total-mismatch", "line-mismatch", "unexplained-line"], scope: "own" },
+  { root: "estimated-read", victims: ["usage-vs-meter", "demand-vs-meter", "usage-outlier"], scope: "covered" },
+  { root: "usage-vs-meter", victims: ["usage-outlier"], scope: "own" },
+  { root: "missing-bill", victims: ["period-gap"], scope: "same-days" },
+  { root: "period-overlap", victims: ["period-gap"], scope: "neighbour" },
+];
+
+function covered(f: Finding): Set<string> {
+  const s = new Set(f.relatedBillIds ?? []);
+  if (f.billId !== null) s.add(f.billId);
+  return s;
+}
+
+function applies(root: Finding, victim: Finding, scope: Scope): boolean {
+  if (root.meterId !== victim.meterId || root === victim) return false;
+  switch (scope) {
+    case "own":
+      return root.billId !== null && victim.billId === root.billId;
+    case "covered":
+      return victim.billId !== null && covered(root).has(victim.billId);
+    case "same-days":
+      return root.periodStart !== null && root.periodEnd !== null && victim.periodStart !== null && victim.periodEnd !== null &&
+        root.periodStart < victim.periodEnd && victim.periodStart < root.periodEnd;
+    case "neighbour": {
+      const rootBills = covered(root);
+      return (victim.relatedBillIds ?? []).some((id) => rootBills.has(id));
+    }
+  }
+}
+
+function note(victim: Finding): string {
+  return `Also explains ${victim.check}${victim.billId && victim.billId !== null ? ` on ${victim.billId}` : ""}: ${victim.message}`;
+}
+
+/**
+ * Removes findings explained by a root cause (rules above) and records them on the root.
+ * Pure: returns new finding objects for roots; the input array is not mutated.
+ */
+export function dedupeFindings(findings: Finding[], tol: Pick<AuditTolerances, "costAbs" | "costPct">): Finding[] {
+  const live = findings.map((f) => ({ ...f, evidence: { rows: [...f.evidence.rows], notes: [...f.evidence.notes] } }));
+  const absorbed = new Set<Finding>();
+
+  for (const rule of RULES) {
+    for (const root of live) {
+      if (root.check !== rule.root || absorbed.has(root)) continue;
+      for (const victim of live) {
+        if (absorbed.has(victim) || victim === root) continue;
+        if (rule.victims !== "all" && !rule.victims.includes(victim.check)) continue;
+        if (!applies(root, victim, rule.scope)) continue;
+        absorbed.add(victim);
+        root.evidence.notes.push(note(victim));
+      }
+    }
+  }
+
+  // rule 8: printed-line findings that add up to the total difference explain it
+  for (const total of live) {
+    if (total.check !== "total-mismatch" || absorbed.has(total) || total.amountAtStake === null) continue;
+    const lines = live.filter((f) => !absorbed.has(f) && f.billId === total.billId && f.meterId === total.meterId &&
+      (f.check === "line-mismatch" || f.check === "unexplained-line") && f.amountAtStake !== null);
+    if (lines.length === 0) continue;
+    const sum = lines.reduce((s, f) => s + (f.amountAtStake ?? 0), 0);
+    if (exceedsMoneyTolerance(total.amountAtStake - sum, total.amountAtStake, tol)) continue;
+    absorbed.add(total);
+    const biggest = lines.reduce((a, b) => (Math.abs(b.amountAtStake ?? 0) > Math.abs(a.amountAtStake ?? 0) ? b : a));
+    biggest.evidence.notes.push(note(total));
+  }
+
+  return live.filter((f) => !absorbed.has(f));
+}

@@ -1,0 +1,128 @@
+/**
+ * Types of the bill audit (src/audit). The audit runs after pricing: it receives every bill
+ * already re-priced by the tariff engine and already reconciled against interval data, and
+ * returns findings. Nothing here reads files or the clock.
+ *
+ * Severity rule, used by every check:
+ *   - `error`   money or data plainly wrong (a total that the tariff cannot produce, a bill paid
+ *               twice, demand higher than the meter ever saw beyond tolerance, a multiplier error);
+ *   - `warning` likely wrong, needs a look (a gap in billing, usage off the meter, a streak of
+ *               estimates, usage far from the same month last year, an unexplained printed line);
+ *   - `info`    worth knowing (a single estimated read, a bill that could not be fully
+ *               recomputed, a period with too little interval data to compare).
+ */
+import type { Bill, Meter, Portfolio, Tolerances } from "../domain/types.ts";
+import type { ComputedBill } from "../tariff/types.ts";
+
+/** Stable check codes, as listed in the outputs contract. */
+export const CHECK_CODES = [
+  "total-mismatch",
+  "line-mismatch",
+  "unexplained-line",
+  "usage-vs-meter",
+  "demand-vs-meter",
+  "period-gap",
+  "period-overlap",
+  "duplicate-bill",
+  "estimated-read",
+  "usage-outlier",
+  "multiplier-suspect",
+  "missing-bill",
+  "rate-suspect",
+] as const;
+
+export type CheckCode = (typeof CHECK_CODES)[number];
+
+export type Severity = "error" | "warning" | "info";
+
+/** Larger = more serious; used for sorting and `--fail-on`. */
+export const SEVERITY_RANK: Record<Severity, number> = { error: 2, warning: 1, info: 0 };
+
+export interface EvidenceRow {
+  label: string;
+  billed: string | number | null;
+  expected: string | number | null;
+  difference?: string | number | null;
+}
+
+export interface Evidence {
+  rows: EvidenceRow[];
+  notes: string[];
+}
+
+export interface Finding {
+  buildingId: string;
+  meterId: string;
+  billId: string | null;
+  periodStart: string | null;
+  periodEnd: string | null;
+  check: CheckCode;
+  severity: Severity;
+  /** Currency; positive = the bill looks too high, negative = too low; null = not money. */
+  amountAtStake: number | null;
+  /** Plain-language title for the page. */
+  title: string;
+  /** One sentence with the numbers. */
+  message: string;
+  evidence: Evidence;
+  /**
+   * Other bills this finding speaks for (a streak of estimates, a run of multiplier errors,
+   * the two bills on either side of a gap). Used to stop one cause cascading into more findings.
+   */
+  relatedBillIds?: string[];
+}
+
+/**
+ * A bill's period reconciled against the meter's interval data.
+ * `usage` has the meter multiplier applied and is in the bill's unit.
+ */
+export interface MeteredPeriod {
+  usage: number;
+  /** Highest rolling-window average demand in the period, kW; null when not electricity or no full window. */
+  peakKw: number | null;
+  /** Share (0–1) of the expected intervals that are present. */
+  coverage: number;
+  /** Intervals present with a finite value. */
+  intervals: number;
+  /** Intervals the half-open local period holds under the zone's rules (DST-aware). */
+  expectedIntervals: number;
+}
+
+/** Portfolio tolerances plus the audit's own knobs (all stated on the methods page). */
+export interface AuditTolerances extends Tolerances {
+  /** Below this interval coverage (0–1) metered comparisons are not made. Default 0.9. */
+  minCoverage: number;
+  /** Consecutive estimated reads that make a streak (warning). Default 2. */
+  estimateStreakMin: number;
+  /** Interim outlier rule: flag use/day beyond this ratio (or its inverse) of the same month a year earlier. Default 2. */
+  outlierRatio: number;
+  /** Rolling window for metered peak demand, minutes. Default 15. */
+  demandWindowMinutes: number;
+  /** Interval data with no bill for longer than this many days after the last bill is a missing bill. Default 45. */
+  trailingMissingDays: number;
+}
+
+/** What the audit may ask the tariff engine to price instead of the bill as billed. */
+export type RepriceAlternative =
+  /** Same tariff, corrected quantities (metered usage and/or demand). */
+  | { kind: "quantities"; usage: number; demandKw: number | null }
+  /** Another tariff, or one dated version of a tariff applied to the whole period (`versionFrom`). */
+  | { kind: "rate"; tariffId: string; versionFrom: string | null; label: string };
+
+export type RepriceFn = (bill: Bill, alternative: RepriceAlternative) => ComputedBill | null;
+
+export interface AuditInput {
+  portfolio: Portfolio;
+  /** Computed bill per bill id; null = could not be priced (tariff missing or unpriceable). */
+  priced: Map<string, ComputedBill | null>;
+  /** Metered reconciliation per bill id; null or absent = no interval data for the meter. */
+  metered: Map<string, MeteredPeriod | null>;
+  /** Overrides on top of portfolio.settings.tolerances and the audit defaults. */
+  tolerances?: Partial<AuditTolerances>;
+  /** Re-pricing hook (the tariff engine, wired in by the caller). Without it money at stake for meter checks is null. */
+  reprice?: RepriceFn;
+  /** Alternatives tried by rate-suspect; default: every other tariff id in the portfolio, all versions. */
+  rateAlternatives?: (bill: Bill, meter: Meter) => Extract<RepriceAlternative, { kind: "rate" }>[];
+  /** Expected usage per bill id from a baseline model (bill unit); replaces the interim outlier rule. */
+  expectedUsage?: Map<string, { p50: number; low: number; high: number }>;
+}
