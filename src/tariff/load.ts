@@ -168,7 +168,7 @@ function readTariff(c: Checker, root: Node, file: string): Tariff | null {
   if (heatF) {
     if (commodity !== null && commodity !== "gas") {
       // The format's own example carries it on an electricity tariff, so it is not an error.
-      c.warning(heatF.key, `heat_content is used for gas only; it has no effect on a ${commodity} tariff`, "remove heat_content");
+      c.warning(heatF.key, `heat_content is used for gas only; it has no effect on this ${commodity} tariff`, "remove heat_content");
     }
     {
       const v = readNumber(c, heatF, "heat_content (therm per ccf)", { above: 0 });

@@ -1,0 +1,299 @@
+/**
+ * `ohmbook price`: prices one bill from a tariff file and prints every line and the total.
+ *
+ *   ohmbook price --tariff FILE --usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
+ *   ohmbook price --tariff FILE --intervals CSV --meter ID --from D --to D [--multiplier M]
+ *   common: [--timezone Z] [--previous-demands KW,KW,…] [--shape FILE] [--json]
+ *
+ * Dates are the first day of service and the first day not billed (as on bills.csv).
+ * Time zone: interval timestamps without an offset, time-of-use periods and holidays are read in
+ * --timezone; the default is UTC so that a result never depends on the machine it runs on.
+ */
+import { readFile } from "node:fs/promises";
+import { parseArgs } from "node:util";
+import { parse as parseCsv } from "csv-parse/sync";
+import { DateTime, IANAZone } from "luxon";
+import { OhmbookError, UsageError } from "../core/errors.ts";
+import { formatIssue } from "../core/issues.ts";
+import { loadTariff } from "../tariff/load.ts";
+import { priceBill } from "../tariff/price.ts";
+import type { Tariff } from "../tariff/model.ts";
+import type { ComputedBill, ComputedLine, IntervalUsage, PriceRequest } from "../tariff/types.ts";
+
+export interface PriceIo {
+  out: (s: string) => void;
+  err: (s: string) => void;
+}
+
+const USAGE = `usage: ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
+                     | --intervals CSV --meter ID --from D --to D [--multiplier M] [--unit U])
+                     [--timezone ZONE] [--previous-demands KW,KW,...] [--json]
+  --from D / --to D   first day of service / first day not billed (YYYY-MM-DD)
+  --timezone ZONE     IANA zone for time-of-use periods, holidays and interval timestamps
+                      without an offset (default UTC)
+  --previous-demands  billing demands of earlier bills, oldest first, for ratchets`;
+
+const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
+
+function num(name: string, s: string | undefined, rule: (n: number) => boolean = () => true, ruleText = ""): number | undefined {
+  if (s === undefined) return undefined;
+  if (!NUMBER.test(s.trim())) throw new UsageError(`--${name} '${s}' is not a number (write digits with a '.' decimal point, no separators or units)`);
+  const n = Number(s);
+  if (!rule(n)) throw new UsageError(`--${name} ${s} is out of range${ruleText ? `: ${ruleText}` : ""}`);
+  return n;
+}
+
+function date(name: string, s: string | undefined): string {
+  if (s === undefined) throw new UsageError(`--${name} is required (YYYY-MM-DD)\n${USAGE}`);
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(s) || !DateTime.fromISO(s, { zone: "UTC" }).isValid) throw new UsageError(`--${name} '${s}' is not a date written YYYY-MM-DD`);
+  return s;
+}
+
+interface CsvIntervals {
+  intervals: IntervalUsage;
+  rowsForMeter: number;
+  rowsOtherMeters: number;
+}
+
+/**
+ * Reads `meter_id,timestamp,value` (optional `interval_minutes`) rows of one meter. Timestamps
+ * with an offset are taken as written; without one they are local time in `zone`.
+ */
+function readIntervalCsv(text: string, file: string, meterId: string, zone: string, multiplier: number): CsvIntervals {
+  let records: string[][];
+  try {
+    records = parseCsv(text, { bom: true, skip_empty_lines: true, trim: true, relax_column_count: false }) as string[][];
+  } catch (e) {
+    throw new UsageError(`${file}: not readable as CSV: ${(e as Error).message}`);
+  }
+  if (records.length === 0) throw new UsageError(`${file}:1:1: the file is empty; expected a header meter_id,timestamp,value`);
+  const header = records[0].map((h) => h.toLowerCase());
+  const col = (name: string): number => header.indexOf(name);
+  const [iMeter, iTs, iVal, iMin] = [col("meter_id"), col("timestamp"), col("value"), col("interval_minutes")];
+  const missing = ["meter_id", "timestamp", "value"].filter((c) => col(c) < 0);
+  if (missing.length > 0) throw new UsageError(`${file}:1:1: missing column(s) ${missing.join(", ")}; found ${records[0].join(", ")}`);
+  const rows: { ms: number; value: number; line: number; minutes: number | null }[] = [];
+  let other = 0;
+  const meters = new Set<string>();
+  for (let r = 1; r < records.length; r++) {
+    const rec = records[r];
+    const line = r + 1;
+    meters.add(rec[iMeter]);
+    if (rec[iMeter] !== meterId) {
+      other++;
+      continue;
+    }
+    const ts = rec[iTs];
+    const hasOffset = /(Z|[+-]\d{2}:?\d{2})$/i.test(ts);
+    const dt = hasOffset ? DateTime.fromISO(ts, { setZone: true }) : DateTime.fromISO(ts, { zone });
+    if (!dt.isValid) throw new UsageError(`${file}:${line}:${iTs + 1}: timestamp '${ts}' is not ISO 8601 (e.g. 2025-01-31T13:45:00-05:00)`);
+    const v = rec[iVal];
+    if (!NUMBER.test(v)) throw new UsageError(`${file}:${line}:${iVal + 1}: value '${v}' is not a number`);
+    let minutes: number | null = null;
+    if (iMin >= 0 && rec[iMin] !== "") {
+      if (!NUMBER.test(rec[iMin]) || !(Number(rec[iMin]) > 0)) throw new UsageError(`${file}:${line}:${iMin + 1}: interval_minutes '${rec[iMin]}' is not a positive number`);
+      minutes = Number(rec[iMin]);
+    }
+    rows.push({ ms: dt.toMillis(), value: Number(v) * multiplier, line, minutes });
+  }
+  if (rows.length === 0) {
+    throw new UsageError(`${file}: no rows for meter '${meterId}'; meters in the file: ${[...meters].slice(0, 10).join(", ") || "none"}`);
+  }
+  rows.sort((a, b) => a.ms - b.ms);
+  for (let i = 1; i < rows.length; i++) {
+    if (rows[i].ms === rows[i - 1].ms) {
+      throw new UsageError(`${file}:${rows[i].line}:${iTs + 1}: timestamp repeats the one on line ${rows[i - 1].line} for meter '${meterId}'`);
+    }
+  }
+  let minutes = rows.find((r) => r.minutes !== null)?.minutes ?? null;
+  if (minutes === null) {
+    const counts = new Map<number, number>();
+    for (let i = 1; i < rows.length; i++) {
+      const d = (rows[i].ms - rows[i - 1].ms) / 60_000;
+      counts.set(d, (counts.get(d) ?? 0) + 1);
+    }
+    let best = 0;
+    for (const [d, n] of counts) if (n > (counts.get(best) ?? 0)) best = d;
+    if (!(best > 0)) throw new UsageError(`${file}: cannot infer the interval length of meter '${meterId}' from one row; add an interval_minutes column`);
+    minutes = best;
+  }
+  return {
+    intervals: {
+      startMs: Float64Array.from(rows, (r) => r.ms),
+      values: Float64Array.from(rows, (r) => r.value),
+      intervalMinutes: minutes,
+    },
+    rowsForMeter: rows.length,
+    rowsOtherMeters: other,
+  };
+}
+
+function money(n: number): string {
+  return n.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 });
+}
+
+function qty(n: number | null): string {
+  return n === null ? "" : n.toLocaleString("en-US", { maximumFractionDigits: 4 });
+}
+
+function rateText(l: ComputedLine): string {
+  if (l.rate === null) return "see note";
+  if (l.kind === "percent") return `${Number((l.rate * 100).toFixed(6))}%`;
+  if (l.kind === "power-factor") return `× ${Number(l.rate.toFixed(6))}`;
+  return String(Number(l.rate.toFixed(6)));
+}
+
+const STATUS_TEXT: Record<string, string> = { exact: "", estimated: "[estimated] ", "needs-interval-data": "[needs interval data] " };
+
+/** The computed bill as an aligned plain-text table (label, quantity, unit, rate, amount, note) and total. */
+export function formatBillTable(tariff: Tariff, req: PriceRequest, bill: ComputedBill): string {
+  const rows = bill.lines.map((l) => [l.label, qty(l.quantity), l.unit, rateText(l), money(l.amount), `${STATUS_TEXT[l.status]}${l.note ?? ""}`]);
+  const head = ["Charge", "Quantity", "Unit", "Rate", `Amount (${tariff.currency})`, "Note"];
+  const all = [head, ...rows, ["Total", "", "", "", money(bill.total), bill.exact ? "" : "not exact: see the marked lines"]];
+  const widths = head.map((_, c) => Math.max(...all.map((r) => r[c].length)));
+  const right = [false, true, false, true, true, false];
+  const fmtRow = (r: string[]): string =>
+    r
+      .map((cell, c) => (c === r.length - 1 ? cell : right[c] ? cell.padStart(widths[c]) : cell.padEnd(widths[c])))
+      .join("  ")
+      .trimEnd();
+  const rule = widths.slice(0, 5).map((w) => "-".repeat(w)).join("  ");
+  const days = bill.versions.reduce((s, v) => s + v.days, 0);
+  const out = [
+    `${tariff.name} (${tariff.id})`,
+    `Billing period ${req.periodStart} to ${req.periodEnd} (${days} days), time zone ${req.timezone}`,
+    `Usage ${qty(req.usage)} ${req.usageUnit}${req.demandKw != null ? `, demand ${qty(req.demandKw)} kW` : ""}${req.powerFactor != null ? `, power factor ${req.powerFactor}` : ""}${req.intervals ? `, ${req.intervals.startMs.length} intervals` : ""}`,
+    `Tariff version(s): ${bill.versions.map((v) => `from ${v.from}, ${v.days} days`).join("; ")}`,
+    "",
+    fmtRow(head),
+    rule,
+    ...rows.map(fmtRow),
+    rule,
+    fmtRow(all[all.length - 1]),
+  ];
+  if (bill.billingDemandKw !== null) out.push("", `Billing demand: ${qty(bill.billingDemandKw)} kW`);
+  if (bill.notes.length > 0) out.push("", ...bill.notes.map((n) => `- ${n}`));
+  return `${out.join("\n")}\n`;
+}
+
+async function readText(path: string, what: string): Promise<string> {
+  try {
+    return await readFile(path, "utf8");
+  } catch (e) {
+    throw new UsageError(`cannot read ${what} '${path}': ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
+  }
+}
+
+/**
+ * Runs `ohmbook price` with the arguments after the command name.
+ *
+ * @returns exit code: 0 priced; 1 usage, tariff-file or pricing error (message on `io.err`)
+ */
+export async function runPrice(argv: string[], io: PriceIo): Promise<number> {
+  try {
+    return await price(argv, io);
+  } catch (e) {
+    if (e instanceof OhmbookError) {
+      io.err(`ohmbook price: ${e.message}\n`);
+      return 1;
+    }
+    io.err(`ohmbook price: unexpected error: ${e instanceof Error ? e.message : String(e)}\n`);
+    return 1;
+  }
+}
+
+async function price(argv: string[], io: PriceIo): Promise<number> {
+  let values: Record<string, string | boolean | undefined>;
+  try {
+    ({ values } = parseArgs({
+      args: argv,
+      strict: true,
+      allowPositionals: false,
+      options: {
+        tariff: { type: "string" },
+        usage: { type: "string" },
+        from: { type: "string" },
+        to: { type: "string" },
+        demand: { type: "string" },
+        pf: { type: "string" },
+        unit: { type: "string" },
+        intervals: { type: "string" },
+        meter: { type: "string" },
+        multiplier: { type: "string" },
+        timezone: { type: "string" },
+        "previous-demands": { type: "string" },
+        json: { type: "boolean" },
+        help: { type: "boolean", short: "h" },
+      },
+    }));
+  } catch (e) {
+    throw new UsageError(`${(e as Error).message}\n${USAGE}`);
+  }
+  const s = (k: string): string | undefined => values[k] as string | undefined;
+  if (values.help) {
+    io.out(`${USAGE}\n`);
+    return 0;
+  }
+  const tariffPath = s("tariff");
+  if (!tariffPath) throw new UsageError(`--tariff is required\n${USAGE}`);
+  if (s("usage") === undefined && s("intervals") === undefined) throw new UsageError(`give --usage N or --intervals CSV --meter ID\n${USAGE}`);
+  if (s("intervals") !== undefined && !s("meter")) throw new UsageError("--intervals needs --meter ID (the meter_id whose rows to use)");
+  if (s("intervals") === undefined && (s("meter") !== undefined || s("multiplier") !== undefined)) {
+    throw new UsageError("--meter and --multiplier apply only with --intervals");
+  }
+  const from = date("from", s("from"));
+  const to = date("to", s("to"));
+  if (to <= from) throw new UsageError(`--to ${to} must be after --from ${from} (--to is the first day not billed)`);
+  const timezone = s("timezone") ?? "UTC";
+  if (!IANAZone.isValidZone(timezone)) throw new UsageError(`--timezone '${timezone}' is not an IANA zone name (e.g. America/Chicago)`);
+  const demandKw = num("demand", s("demand"), (n) => n >= 0, "demand must be 0 or more kW");
+  const pf = num("pf", s("pf"), (n) => n > 0 && n <= 1, "0 < pf <= 1");
+  const multiplier = num("multiplier", s("multiplier"), (n) => n > 0, "must be positive") ?? 1;
+  const previous = s("previous-demands");
+  const previousBillingDemandsKw = previous === undefined ? [] : previous.split(",").map((p) => num("previous-demands", p.trim(), (n) => n >= 0) as number);
+
+  const { tariff, issues } = loadTariff(await readText(tariffPath, "tariff file"), tariffPath);
+  for (const issue of issues) io.err(`${formatIssue(issue)}\n`);
+  if (!tariff) {
+    io.err(`ohmbook price: the tariff file has ${issues.filter((i) => i.severity === "error").length} error(s); nothing priced\n`);
+    return 1;
+  }
+  const unit = s("unit") ?? tariff.usageUnit;
+
+  let intervals: IntervalUsage | null = null;
+  let usage = num("usage", s("usage"));
+  const csvPath = s("intervals");
+  if (csvPath !== undefined) {
+    const read = readIntervalCsv(await readText(csvPath, "interval file"), csvPath, s("meter") as string, timezone, multiplier);
+    intervals = read.intervals;
+    const startMs = DateTime.fromISO(from, { zone: timezone }).toMillis();
+    const endMs = DateTime.fromISO(to, { zone: timezone }).toMillis();
+    let inPeriod = 0;
+    let sum = 0;
+    for (let i = 0; i < intervals.startMs.length; i++) {
+      if (intervals.startMs[i] >= startMs && intervals.startMs[i] < endMs) {
+        inPeriod++;
+        sum += intervals.values[i];
+      }
+    }
+    if (inPeriod === 0) throw new UsageError(`${csvPath}: meter '${s("meter")}' has no intervals between ${from} and ${to} (${timezone})`);
+    io.err(
+      `${csvPath}: ${read.rowsForMeter} rows for meter '${s("meter")}' (${inPeriod} in the period, ${read.rowsForMeter - inPeriod} outside it), ${read.rowsOtherMeters} rows of other meters not used; ${intervals.intervalMinutes}-minute intervals, multiplier ${multiplier}\n`,
+    );
+    usage ??= sum;
+  }
+  const req: PriceRequest = {
+    periodStart: from,
+    periodEnd: to,
+    timezone,
+    usage: usage as number,
+    usageUnit: unit,
+    demandKw: demandKw ?? null,
+    powerFactor: pf ?? null,
+    intervals,
+    previousBillingDemandsKw,
+  };
+  const bill = priceBill(tariff, req);
+  io.out(values.json ? `${JSON.stringify(bill, null, 2)}\n` : formatBillTable(tariff, req, bill));
+  return 0;
+}
