@@ -1,0 +1,92 @@
+/**
+ * Small robust-statistics primitives used by the detectors. All skip NaN (the cleaning
+ * layer's missing-value policy: NaN means "no usable value" and is never counted).
+ */
+
+/** Normal-consistency constant: 1.4826 × MAD estimates σ for Gaussian data (1 / Φ⁻¹(0.75)). */
+export const MAD_TO_SIGMA = 1.4826;
+
+/**
+ * Median of the finite entries of `values` (NaN skipped); NaN when there are none.
+ * Does not modify its input.
+ * @example medianOf([3, 1, NaN, 2]) // 2
+ * @example medianOf([4, 1, 3, 2]) // 2.5 (mean of the two middle values)
+ */
+export function medianOf(values: ArrayLike<number>): number {
+  const finite: number[] = [];
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (Number.isFinite(v)) finite.push(v);
+  }
+  return medianSortedInPlace(finite);
+}
+
+/**
+ * Median absolute deviation from the median, unscaled: median(|x − median(x)|). NaN skipped.
+ * Multiply by `MAD_TO_SIGMA` for a robust σ.
+ * @example madOf([1, 2, 3, 4, 100]) // 1 (median 3; deviations 2,1,0,1,97 → median 1)
+ */
+export function madOf(values: ArrayLike<number>): number {
+  const m = medianOf(values);
+  if (Number.isNaN(m)) return NaN;
+  const dev: number[] = [];
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (Number.isFinite(v)) dev.push(Math.abs(v - m));
+  }
+  return medianSortedInPlace(dev);
+}
+
+/**
+ * Quantile `q` (0…1) of the finite entries, by linear interpolation between order statistics
+ * (the "type 7" definition, R's and numpy's default). NaN when there are no finite entries.
+ * @example quantileOf([1, 2, 3, 4, 5], 0.9) // 4.6
+ */
+export function quantileOf(values: ArrayLike<number>, q: number): number {
+  const finite: number[] = [];
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (Number.isFinite(v)) finite.push(v);
+  }
+  if (finite.length === 0) return NaN;
+  finite.sort((a, b) => a - b);
+  const pos = (finite.length - 1) * Math.min(1, Math.max(0, q));
+  const lo = Math.floor(pos);
+  const hi = Math.ceil(pos);
+  return finite[lo]! + (finite[hi]! - finite[lo]!) * (pos - lo);
+}
+
+/**
+ * Rolling median with a centred window of `2 × halfWindow + 1` positions, truncated at the
+ * ends; NaN entries inside a window are skipped, and a window with no finite entry gives NaN.
+ * Positions are array positions (the caller makes sure neighbours are neighbours in time).
+ * A median keeps steps sharp (a morning ramp-up is followed, not smeared), which is why spikes
+ * are measured against it rather than against a rolling mean.
+ * @example rollingMedian([1, 9, 2, 3, 100, 4], 1) // [5, 2, 3, 3, 4, 52]
+ */
+export function rollingMedian(values: ArrayLike<number>, halfWindow: number): Float64Array {
+  const n = values.length;
+  const out = new Float64Array(n);
+  const h = Math.max(0, Math.floor(halfWindow));
+  const buf: number[] = [];
+  for (let i = 0; i < n; i++) {
+    buf.length = 0;
+    const from = Math.max(0, i - h);
+    const to = Math.min(n - 1, i + h);
+    for (let j = from; j <= to; j++) {
+      const v = values[j]!;
+      if (Number.isFinite(v)) buf.push(v);
+    }
+    out[i] = medianSortedInPlace(buf);
+  }
+  return out;
+}
+
+/** Sorts `xs` in place and returns its median (NaN when empty). */
+function medianSortedInPlace(xs: number[]): number {
+  const n = xs.length;
+  if (n === 0) return NaN;
+  if (n > 1) xs.sort((a, b) => a - b);
+  const mid = n >> 1;
+  return n % 2 === 1 ? xs[mid]! : (xs[mid - 1]! + xs[mid]!) / 2;
+}
