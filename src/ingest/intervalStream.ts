@@ -1,0 +1,396 @@
+/**
+ * Purpose-built streaming reader for interval files (`meter_id,timestamp,value[,interval_minutes]`,
+ * any column order). Works on raw bytes chunk by chunk — a file's text is never held whole —
+ * and hands each accepted row to a sink, so callers can collect series or aggregate on the fly.
+ * Quoted fields are rare in these files; a line containing a quote takes a slower,
+ * fully RFC 4180 path for that line. A quoted field spanning lines is rejected.
+ */
+import type { InputIssue } from "../core/issues.ts";
+import type { FileReport } from "../domain/types.ts";
+import { numberProblem, parseStrictNumber } from "./fields.ts";
+import { LocalTimeResolver, isValidZone } from "./localTime.ts";
+import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampBytes } from "./timestamp.ts";
+import { splitCsvLine } from "./splitCsvLine.ts";
+
+/** Receives accepted rows. `instantMs` is the UTC instant of the timestamp as written (start or end). */
+export interface IntervalSink {
+  /** Called before the first row of each meter in each file; returns the index passed to row(). */
+  meter(meterId: string): number;
+  /** `intervalMinutes` is NaN when the file has no interval_minutes column or the cell is empty. */
+  row(meterIndex: number, instantMs: number, value: number, line: number, intervalMinutes: number): void;
+}
+
+export interface IntervalParseOptions {
+  /** Path shown in issues, e.g. `data/demo/intervals/2024.csv`. */
+  fileLabel: string;
+  /** IANA zone of the meter's building, or null when the meter is unknown (rows rejected). */
+  zoneOfMeter: (meterId: string) => string | null;
+  sink: IntervalSink;
+  /** Detailed issues per file before the rest are summarized (default 1000). */
+  maxDetailedIssues?: number;
+}
+
+export interface IntervalFileResult {
+  report: FileReport;
+  issues: InputIssue[];
+  /** True when the file could not be read at all (no header / missing column). */
+  skipped: boolean;
+}
+
+const ALLOWED_MINUTES = new Set([5, 15, 30, 60]);
+const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
+const KNOWN_COLUMNS = ["meter_id", "timestamp", "value", "interval_minutes"];
+
+interface MeterSlot {
+  meterId: string;
+  sinkIndex: number;
+  resolver: LocalTimeResolver | null;
+  lastInstantMs: number;
+  /** Rows rejected because the meter is unknown. */
+  unknownRows: number;
+  firstLine: number;
+}
+
+/**
+ * Reads one interval file from a byte stream, validating every row strictly (ISO timestamps,
+ * plain decimal numbers, known meters, real local times) and streaming accepted rows to
+ * `options.sink`. Local timestamps are converted with the meter's zone; in the repeated
+ * fall-back hour a wall time seen twice in a row is the later instant. Duplicates, order and
+ * interval length are NOT judged here (see assembleIntervals.ts) because they need all files.
+ * Example: `await parseIntervalStream(fs.createReadStream(p), { fileLabel, zoneOfMeter, sink })`.
+ */
+export async function parseIntervalStream(
+  stream: AsyncIterable<Uint8Array | string>,
+  options: IntervalParseOptions,
+): Promise<IntervalFileResult> {
+  const { fileLabel, zoneOfMeter, sink } = options;
+  const maxDetailed = options.maxDetailedIssues ?? 1000;
+  const report: FileReport = { file: fileLabel, rowsRead: 0, rowsUsed: 0, rowsRejected: 0, rejections: [], warnings: [] };
+  const issues: InputIssue[] = [];
+  let detailed = 0;
+  let suppressed = 0;
+
+  const reject = (line: number, column: number, message: string, hint: string): void => {
+    report.rowsRejected++;
+    if (detailed < maxDetailed) {
+      detailed++;
+      issues.push({ file: fileLabel, line, column, severity: "error", message, hint });
+      report.rejections.push({ line, reason: message });
+    } else suppressed++;
+  };
+
+  // Column positions, -1 when absent.
+  let colMeter = -1;
+  let colTs = -1;
+  let colValue = -1;
+  let colMinutes = -1;
+  let nCols = 0;
+  let headerDone = false;
+  let skipped = false;
+  let lineNo = 0;
+
+  const fieldStart = new Int32Array(64);
+  const fieldEnd = new Int32Array(64);
+  const ts = newTimestampScratch();
+  const slots = new Map<string, MeterSlot>();
+  const resolvers = new Map<string, LocalTimeResolver>();
+  let cur: MeterSlot | null = null;
+  let curIdBytes = new Uint8Array(64);
+  let curIdLen = -1;
+  const decoder = new TextDecoder();
+
+  const slotFor = (meterId: string, line: number): MeterSlot => {
+    let slot = slots.get(meterId);
+    if (slot) return slot;
+    const zone = zoneOfMeter(meterId);
+    let resolver: LocalTimeResolver | null = null;
+    if (zone !== null && isValidZone(zone)) {
+      resolver = resolvers.get(zone) ?? new LocalTimeResolver(zone);
+      resolvers.set(zone, resolver);
+    }
+    slot = {
+      meterId,
+      sinkIndex: zone === null ? -1 : sink.meter(meterId),
+      resolver,
+      lastInstantMs: Number.NaN,
+      unknownRows: 0,
+      firstLine: line,
+    };
+    slots.set(meterId, slot);
+    return slot;
+  };
+
+  const readHeader = (text: string): void => {
+    const split = splitCsvLine(text);
+    const names = (split.fields ?? text.split(",")).map((n) => n.trim().toLowerCase());
+    nCols = names.length;
+    colMeter = names.indexOf("meter_id");
+    colTs = names.indexOf("timestamp");
+    colValue = names.indexOf("value");
+    colMinutes = names.indexOf("interval_minutes");
+    const missing = ["meter_id", "timestamp", "value"].filter((n) => !names.includes(n));
+    if (missing.length > 0) {
+      skipped = true;
+      issues.push({
+        file: fileLabel, line: lineNo, column: 0, severity: "error",
+        message: `interval file has no ${missing.join(", ")} column (header: ${text.slice(0, 80)})`,
+        hint: "the first line must name the columns: meter_id,timestamp,value[,interval_minutes]",
+      });
+      return;
+    }
+    const unknown = names.filter((n) => !KNOWN_COLUMNS.includes(n));
+    if (unknown.length > 0) {
+      const msg = `unknown column(s) ignored: ${unknown.join(", ")}`;
+      report.warnings.push(msg);
+      issues.push({
+        file: fileLabel, line: lineNo, column: names.indexOf(unknown[0]) + 1, severity: "warning",
+        message: msg, hint: "known columns: meter_id, timestamp, value, interval_minutes",
+      });
+    }
+  };
+
+  /** Validates one data row whose fields are at fieldStart/fieldEnd in `b`. */
+  const processFields = (b: Uint8Array, n: number): void => {
+    const line = lineNo;
+    if (n !== nCols) {
+      reject(line, 0, `row has ${n} fields, the header has ${nCols}`, "check for a stray comma or a missing cell");
+      return;
+    }
+    // Meter id, with surrounding spaces ignored; compared by bytes with the previous row.
+    let ms = fieldStart[colMeter];
+    let me = fieldEnd[colMeter];
+    while (ms < me && (b[ms] === 32 || b[ms] === 9)) ms++;
+    while (me > ms && (b[me - 1] === 32 || b[me - 1] === 9)) me--;
+    const idLen = me - ms;
+    if (idLen === 0) {
+      reject(line, colMeter + 1, "meter_id is empty", "every row needs the meter_id of meters.csv");
+      return;
+    }
+    let same = idLen === curIdLen;
+    if (same) {
+      for (let k = 0; k < idLen; k++) {
+        if (b[ms + k] !== curIdBytes[k]) {
+          same = false;
+          break;
+        }
+      }
+    }
+    if (!same) {
+      const id = decoder.decode(b.subarray(ms, me));
+      cur = slotFor(id, line);
+      if (idLen > curIdBytes.length) curIdBytes = new Uint8Array(idLen * 2);
+      curIdBytes.set(b.subarray(ms, me));
+      curIdLen = idLen;
+    }
+    const slot = cur as MeterSlot;
+    if (slot.sinkIndex < 0) {
+      slot.unknownRows++;
+      report.rowsRejected++;
+      return;
+    }
+
+    // Timestamp.
+    let ts0 = fieldStart[colTs];
+    let ts1 = fieldEnd[colTs];
+    while (ts0 < ts1 && b[ts0] === 32) ts0++;
+    while (ts1 > ts0 && b[ts1 - 1] === 32) ts1--;
+    if (ts0 === ts1) {
+      reject(line, colTs + 1, "timestamp is empty", TIMESTAMP_HINT);
+      return;
+    }
+    if (!parseTimestampBytes(b, ts0, ts1, ts)) {
+      const text = decoder.decode(b.subarray(ts0, ts1));
+      reject(line, colTs + 1, `timestamp ${JSON.stringify(text)} ${ts.error}`, TIMESTAMP_HINT);
+      return;
+    }
+
+    // Value: fast exact path for up to 15 significant digits, strict everywhere.
+    let vs = fieldStart[colValue];
+    let ve = fieldEnd[colValue];
+    while (vs < ve && b[vs] === 32) vs++;
+    while (ve > vs && b[ve - 1] === 32) ve--;
+    if (vs === ve) {
+      reject(line, colValue + 1, "value is empty", "drop the row or give the reading; missing intervals are detected later");
+      return;
+    }
+    let p = vs;
+    let neg = false;
+    if (b[p] === 45 || b[p] === 43) {
+      neg = b[p] === 45;
+      p++;
+    }
+    let mant = 0;
+    let digits = 0;
+    let frac = 0;
+    let dot = false;
+    for (; p < ve; p++) {
+      const c = b[p];
+      if (c >= 48 && c <= 57) {
+        mant = mant * 10 + (c - 48);
+        digits++;
+        if (dot) frac++;
+      } else if (c === 46 && !dot) dot = true;
+      else break;
+    }
+    let value: number;
+    if (p === ve && digits > 0 && digits <= 15) {
+      value = frac === 0 ? mant : mant / POW10[frac];
+      if (neg) value = -value;
+    } else {
+      const text = decoder.decode(b.subarray(vs, ve));
+      const parsed = parseStrictNumber(text, "value");
+      if (!parsed.ok) {
+        reject(line, colValue + 1, parsed.problem.message, parsed.problem.hint);
+        return;
+      }
+      value = parsed.value;
+    }
+
+    let minutes = Number.NaN;
+    if (colMinutes >= 0) {
+      const s0 = fieldStart[colMinutes];
+      const s1 = fieldEnd[colMinutes];
+      if (s1 > s0) {
+        const text = decoder.decode(b.subarray(s0, s1)).trim();
+        const m = text === "" ? Number.NaN : Number(text);
+        if (text !== "" && !ALLOWED_MINUTES.has(m)) {
+          const problem = /^\d+$/.test(text) ? null : numberProblem(text, "interval_minutes");
+          reject(
+            line, colMinutes + 1,
+            problem ? problem.message : `interval_minutes ${text} is not one of 5, 15, 30, 60`,
+            "interval_minutes must be 5, 15, 30 or 60 (or leave it empty to infer it)",
+          );
+          return;
+        }
+        minutes = m;
+      }
+    }
+
+    let instant: number;
+    if (ts.offsetMinutes === ts.offsetMinutes) instant = ts.wallMs - ts.offsetMinutes * 60000;
+    else if (slot.resolver === null) {
+      reject(line, colTs + 1, `timestamp has no UTC offset and meter ${slot.meterId} has no valid building time zone`,
+        "fix the building's timezone in buildings.csv or add an offset like -05:00");
+      return;
+    } else {
+      instant = slot.resolver.resolve(ts.wallMs, slot.lastInstantMs);
+      if (instant !== instant) {
+        const text = decoder.decode(b.subarray(ts0, ts1));
+        reject(
+          line, colTs + 1,
+          `local time ${text} does not exist in ${slot.resolver.zoneName} (clocks jump forward for daylight saving time)`,
+          "a logger on local time never writes this hour; check the device clock, or write timestamps with a UTC offset",
+        );
+        return;
+      }
+    }
+    slot.lastInstantMs = instant;
+    report.rowsUsed++;
+    sink.row(slot.sinkIndex, instant, value, line, minutes);
+  };
+
+  /** Handles bytes [s, e) of one physical line (newline excluded): header, blank or data row. */
+  const processLine = (b: Uint8Array, s: number, e: number): void => {
+    lineNo++;
+    if (e > s && b[e - 1] === 13) e--;
+    if (lineNo === 1 && e - s >= 3 && b[s] === 0xef && b[s + 1] === 0xbb && b[s + 2] === 0xbf) s += 3;
+    if (e === s || skipped) return; // blank line: not a row
+    if (!headerDone) {
+      headerDone = true;
+      readHeader(decoder.decode(b.subarray(s, e)));
+      return;
+    }
+    report.rowsRead++;
+    let n = 0;
+    fieldStart[0] = s;
+    for (let j = s; j < e; j++) {
+      const c = b[j];
+      if (c === 44) {
+        fieldEnd[n] = j;
+        if (n < 62) n++;
+        fieldStart[n] = j + 1;
+      } else if (c === 34) {
+        processQuoted(decoder.decode(b.subarray(s, e)));
+        return;
+      }
+    }
+    fieldEnd[n] = e;
+    processFields(b, n + 1);
+  };
+
+  const encoder = new TextEncoder();
+  const processQuoted = (text: string): void => {
+    const split = splitCsvLine(text);
+    if (split.fields === null) {
+      reject(lineNo, split.errorColumn, `malformed quoted field: ${split.error}`,
+        'quote a whole cell as "..." and double any quote inside it ("")');
+      return;
+    }
+    const parts = split.fields.map((f) => encoder.encode(f));
+    const total = parts.reduce((a, p) => a + p.length, 0);
+    const joined = new Uint8Array(total);
+    let off = 0;
+    const n = Math.min(parts.length, 63);
+    for (let k = 0; k < n; k++) {
+      joined.set(parts[k], off);
+      fieldStart[k] = off;
+      off += parts[k].length;
+      fieldEnd[k] = off;
+    }
+    curIdLen = -1; // the bytes moved to another buffer; force a fresh meter lookup
+    processFields(joined, parts.length);
+  };
+
+  // Lines are cut out of each chunk in place; only a line straddling two chunks is copied.
+  let carry: Uint8Array | null = null;
+  for await (const raw of stream) {
+    const chunk: Uint8Array =
+      typeof raw === "string" ? encoder.encode(raw) : new Uint8Array(raw.buffer, raw.byteOffset, raw.byteLength);
+    const len = chunk.length;
+    let s = 0;
+    if (carry !== null) {
+      const nl = chunk.indexOf(10);
+      if (nl === -1) {
+        const grown: Uint8Array = new Uint8Array(carry.length + len);
+        grown.set(carry, 0);
+        grown.set(chunk, carry.length);
+        carry = grown;
+        continue;
+      }
+      const joined = new Uint8Array(carry.length + nl);
+      joined.set(carry, 0);
+      joined.set(chunk.subarray(0, nl), carry.length);
+      processLine(joined, 0, joined.length);
+      carry = null;
+      s = nl + 1;
+    }
+    for (let j = s; j < len; j++) {
+      if (chunk[j] === 10) {
+        processLine(chunk, s, j);
+        s = j + 1;
+      }
+    }
+    carry = s < len ? chunk.slice(s) : null;
+    if (skipped) break;
+  }
+  if (carry !== null && !skipped) processLine(carry, 0, carry.length);
+
+  if (!headerDone && !skipped) {
+    skipped = true;
+    issues.push({ file: fileLabel, line: 0, column: 0, severity: "error", message: "interval file is empty",
+      hint: "remove the file or add a header line meter_id,timestamp,value and rows" });
+  }
+  for (const slot of slots.values()) {
+    if (slot.unknownRows > 0) {
+      const message = `meter_id ${JSON.stringify(slot.meterId)} is not in meters.csv: ${slot.unknownRows} row(s) rejected`;
+      issues.push({ file: fileLabel, line: slot.firstLine, column: colMeter + 1, severity: "error", message,
+        hint: "add the meter to meters.csv or correct the meter_id" });
+      report.rejections.push({ line: slot.firstLine, reason: message });
+    }
+  }
+  if (suppressed > 0) {
+    issues.push({ file: fileLabel, line: 0, column: 0, severity: "error",
+      message: `${suppressed} more rejected row(s) not listed one by one`, hint: "fix the rows above first; the rest are often the same problem" });
+  }
+  return { report, issues, skipped };
+}

@@ -1,0 +1,117 @@
+/**
+ * Local wall-clock time → UTC instant in one IANA zone, DST-aware, without calling luxon per
+ * row: the zone offset is cached per local day, and only days next to a DST transition are
+ * resolved per hour (and per row inside the transition hour itself).
+ */
+import { IANAZone } from "luxon";
+
+const DAY_MS = 86400000;
+const HOUR_MS = 3600000;
+/** Far enough past any real UTC offset (−12 h … +14 h) that a window covers a whole local day. */
+const SLACK_MS = 18 * HOUR_MS;
+
+/** Outcome of {@link LocalTimeResolver.resolve} besides the instant. */
+export type LocalTimeKind = "unique" | "repeated" | "nonexistent";
+
+export class LocalTimeResolver {
+  readonly zoneName: string;
+  private readonly zone: IANAZone;
+  /** Per local day: offset in ms when constant all day, NaN when the day needs hourly care. */
+  private readonly dayOffset = new Map<number, number>();
+  /** Per local hour on transition days: offset in ms, NaN inside a transition hour. */
+  private readonly hourOffset = new Map<number, number>();
+  private lastDay = Number.NaN;
+  private lastDayOffsetMs = 0;
+  /** Set by the last call to resolve(). */
+  kind: LocalTimeKind = "unique";
+
+  /** @throws Error when `zoneName` is not a valid IANA zone (validate it beforehand). */
+  constructor(zoneName: string) {
+    const zone = IANAZone.create(zoneName);
+    if (!zone.isValid) throw new Error(`unknown time zone ${zoneName}`);
+    this.zoneName = zoneName;
+    this.zone = zone;
+  }
+
+  private offsetMs(instantMs: number): number {
+    return this.zone.offset(instantMs) * 60000;
+  }
+
+  /**
+   * Converts a wall-clock time (epoch ms as if the wall time were UTC) to the UTC instant.
+   * In a repeated (fall-back) hour the earlier instant is chosen unless the same meter's
+   * previous reading `previousInstantMs` is already at or after it — then the later one,
+   * so a wall time seen twice in a row is read as the repeated hour. Returns NaN for a
+   * wall time skipped by spring-forward. Example (America/New_York): 2024-11-03 01:30
+   * → 05:30Z, then 01:30 again → 06:30Z; 2024-03-10 02:30 → NaN.
+   */
+  resolve(wallMs: number, previousInstantMs: number): number {
+    const day = Math.floor(wallMs / DAY_MS);
+    if (day === this.lastDay && this.lastDayOffsetMs === this.lastDayOffsetMs) {
+      this.kind = "unique";
+      return wallMs - this.lastDayOffsetMs;
+    }
+    let off = this.dayOffset.get(day);
+    if (off === undefined) {
+      const a = this.offsetMs(day * DAY_MS - SLACK_MS);
+      const b = this.offsetMs((day + 1) * DAY_MS + SLACK_MS);
+      off = a === b ? a : Number.NaN;
+      this.dayOffset.set(day, off);
+    }
+    this.lastDay = day;
+    this.lastDayOffsetMs = off;
+    if (off === off) {
+      this.kind = "unique";
+      return wallMs - off;
+    }
+    const hour = Math.floor(wallMs / HOUR_MS);
+    let hOff = this.hourOffset.get(hour);
+    if (hOff === undefined) {
+      const w0 = hour * HOUR_MS;
+      const o0 = this.exactOffsets(w0);
+      const o1 = this.exactOffsets(w0 + HOUR_MS - 1);
+      hOff = o0.length === 1 && o1.length === 1 && o0[0] === o1[0] ? o0[0] : Number.NaN;
+      this.hourOffset.set(hour, hOff);
+    }
+    if (hOff === hOff) {
+      this.kind = "unique";
+      return wallMs - hOff;
+    }
+    const offs = this.exactOffsets(wallMs);
+    if (offs.length === 0) {
+      this.kind = "nonexistent";
+      return Number.NaN;
+    }
+    if (offs.length === 1) {
+      this.kind = "unique";
+      return wallMs - offs[0];
+    }
+    this.kind = "repeated";
+    const early = wallMs - Math.max(offs[0], offs[1]);
+    const late = wallMs - Math.min(offs[0], offs[1]);
+    return previousInstantMs >= early ? late : early;
+  }
+
+  /** Every offset (ms) under which `wallMs` is a real local time: 0, 1 or 2 of them. */
+  private exactOffsets(wallMs: number): number[] {
+    const a = this.offsetMs(wallMs - DAY_MS);
+    const b = this.offsetMs(wallMs + DAY_MS);
+    const out: number[] = [];
+    if (this.offsetMs(wallMs - a) === a) out.push(a);
+    if (b !== a && this.offsetMs(wallMs - b) === b) out.push(b);
+    return out;
+  }
+}
+
+/** Memo of zone checks: luxon builds an Intl formatter for each check. */
+const zoneValidity = new Map<string, boolean>();
+
+/** True when `name` is an IANA zone luxon knows (e.g. "America/Chicago"). */
+export function isValidZone(name: string): boolean {
+  let valid = zoneValidity.get(name);
+  if (valid === undefined) {
+    valid = IANAZone.isValidZone(name);
+    zoneValidity.set(name, valid);
+  }
+  return valid;
+}

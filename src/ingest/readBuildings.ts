@@ -1,0 +1,54 @@
+/** buildings.csv → Building[] (strict; see inputs contract). */
+import type { Building } from "../domain/types.ts";
+import type { FileContext } from "./fileContext.ts";
+import { readCsvTable, type TableResult } from "./csvTable.ts";
+import { isValidZone } from "./localTime.ts";
+
+/** 1 ft² = 0.09290304 m² exactly (international foot = 0.3048 m). */
+export const M2_PER_FT2 = 0.09290304;
+const ID_RE = /^[A-Za-z0-9_-]+$/;
+
+export const BUILDINGS_SPEC = {
+  required: ["building_id", "name", "floor_area", "timezone", "weather_station"],
+  optional: ["area_unit", "use_type", "tenant_page"],
+} as const;
+
+/** Reads buildings.csv; `name` is kept exactly as written (escaping is the site's job). */
+export async function readBuildings(path: string, ctx: FileContext): Promise<{ buildings: Building[]; table: TableResult }> {
+  const buildings: Building[] = [];
+  const seen = new Map<string, number>();
+  const table = await readCsvTable(path, ctx, BUILDINGS_SPEC, (row) => {
+    const id = row.text("building_id", true);
+    if (id !== null && !ID_RE.test(id)) {
+      row.problem("building_id", `building_id ${JSON.stringify(id)} may only use letters, digits, "_" and "-"`, "e.g. HQ-01");
+    } else if (id !== null && seen.has(id)) {
+      row.problem("building_id", `building_id ${id} repeats line ${seen.get(id)}`, "building_id must be unique");
+    }
+    const name = row.raw("name");
+    if (name === null) row.problem("name", "name is empty", "give the building a display name");
+    const floorArea = row.number("floor_area", true, (v) => (v > 0 ? null : "must be greater than 0"));
+    const areaUnit = row.choice("area_unit", ["ft2", "m2"] as const, "ft2");
+    const timezone = row.text("timezone", true);
+    if (timezone !== null && !isValidZone(timezone)) {
+      row.problem("timezone", `timezone ${JSON.stringify(timezone)} is not an IANA time zone`, "e.g. America/Chicago, Europe/Berlin");
+    }
+    const station = row.text("weather_station", true);
+    const tenant = row.text("tenant_page", false);
+    let tenantPage = false;
+    if (tenant !== null) {
+      const t = tenant.toLowerCase();
+      if (t === "yes" || t === "true") tenantPage = true;
+      else if (t !== "no" && t !== "false") row.problem("tenant_page", `tenant_page ${JSON.stringify(tenant)} must be yes or no`, "write yes, no, or leave empty");
+    }
+    if (row.failed || id === null || name === null || floorArea === null || areaUnit === null || timezone === null || station === null) return;
+    seen.set(id, row.line);
+    buildings.push({
+      buildingId: id, name, floorArea, areaUnit,
+      floorAreaM2: areaUnit === "m2" ? floorArea : floorArea * M2_PER_FT2,
+      timezone, weatherStation: station,
+      useType: row.raw("use_type"), tenantPage,
+      source: { file: ctx.file, line: row.line },
+    });
+  });
+  return { buildings, table };
+}
