@@ -70,7 +70,7 @@ export function checkMultiplierSuspect(ctx: AuditContext): Finding[] {
         periodStart: first.periodStart, periodEnd: last.periodEnd,
         check: "multiplier-suspect", severity: "warning", amountAtStake: null,
         title: "Bills and meter data differ by a constant ratio",
-        message: `On ${points.length - nearOne} of ${points.length} bills of meter ${meterId} the billed usage is the interval data ${factorText(baselineFactor)}, so either the multiplier in meters.csv or the utility's meter multiplier is wrong.`,
+        message: `On ${points.filter((p) => Math.abs(p.ratio / baselineFactor - 1) <= relTol).length} of ${points.length} bills of meter ${meterId} the billed usage is the interval data ${factorText(baselineFactor)}, so either the multiplier in meters.csv or the utility's meter multiplier is wrong.`,
         evidence: {
           rows: points.map((p) => ({ label: `${p.bill.billId} usage (${unit})`, billed: p.bill.usage, expected: Number(p.metered.toFixed(3)), difference: `ratio ${p.ratio.toFixed(3)}` })),
           notes: [`Median billed/metered ratio ${baseline.toFixed(3)}.`],
