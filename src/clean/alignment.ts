@@ -1,0 +1,339 @@
+/**
+ * Meter–weather time alignment: is the meter's clock offset from the weather's by whole hours?
+ *
+ * Sign convention: `suggestedOffsetHours` = (meter timestamp − true time), in hours. A meter
+ * whose readings are stamped 3 h late gets +3, and the correction is to SUBTRACT 3 h from its
+ * timestamps. For a building in UTC−4 (summer, America/New_York): local wall-clock times stored
+ * as if they were UTC give −4; UTC times read as local wall-clock give +4. Interval-END stamping
+ * (a reading stamped when its interval closes) is an offset of one interval: +1 for hourly data,
+ * but only +0.25 h for 15-minute data, which a whole-hour scan reports as 0 — that case is
+ * handled by the `interval_timestamp: end` setting, not by this scan.
+ *
+ * Method (why it works): a building's load repeats weekly (schedule) and temperature repeats
+ * daily, so ANY offset lines the two cycles up somehow, and a raw load–temperature correlation
+ * is maximal wherever the occupied hours meet the warm afternoon — not at the true offset.
+ * We therefore remove the periodic parts first: hourly load minus its mean for that local hour
+ * of the week, temperature minus its mean for that hour of the day, both within blocks of
+ * `blockDays` (seasons change both). What is left is weather that does not repeat (a hot
+ * afternoon, a cool front) and the load's response to it, which happens at the true time. For
+ * each offset h in −maxOffsetHours…+maxOffsetHours the score is the squared correlation of
+ * load anomaly at meter hour H with temperature anomaly at hour H − h, averaged over blocks
+ * weighted by pairs (squared, so heating seasons count as much as cooling ones). By the
+ * Frisch–Waugh–Lovell theorem this is the partial R² of temperature in a regression of load on
+ * temperature plus time-of-week dummies. A schedule with no offset cannot create a false peak
+ * elsewhere, because the schedule's share of the load is removed before any correlation.
+ */
+import { IANAZone } from "luxon";
+import type { IntervalSeries, WeatherSeries } from "../domain/types.ts";
+
+const HOUR_MS = 3_600_000;
+const DAY_MS = 86_400_000;
+
+export interface AlignmentOptions {
+  /** Intervals to leave out (mask from `detectAnomalies`: 1 = excluded). */
+  mask?: Uint8Array;
+  /** Offsets scanned: −max…+max whole hours. Default 14. */
+  maxOffsetHours?: number;
+  /** Length of the blocks within which periodic means are removed, days. Default 56. */
+  blockDays?: number;
+  /** `strong` needs at least this many days of paired data. Default 28. */
+  minDaysForStrong?: number;
+  /** `strong` needs a best score (partial R²) of at least this. Default 0.05. */
+  minScoreForStrong?: number;
+  /** `strong` needs the best to beat the runner-up by this share of the best score. Default 0.02. */
+  minMarginForStrong?: number;
+  /** A non-zero suggestion is strong only if it beats offset 0 by this share of the best score. Default 0.2. */
+  minGainOverZeroForStrong?: number;
+}
+
+export interface AlignmentEvidence {
+  method: "partial-r2-time-of-week";
+  /** Score (partial R² of temperature, 0…1) with the timestamps as they are. */
+  scoreAtZero: number;
+  scoreAtBest: number;
+  /** Offset with the second-highest score (usually a neighbour of the best). */
+  secondBestOffset: number;
+  /** (scoreAtBest − score at secondBestOffset) / scoreAtBest; 0 when there is no signal. */
+  margin: number;
+  /** Days of paired load and temperature at the best offset. */
+  days: number;
+  /** Score per offset, from −max to +max. */
+  scores: Array<{ offsetHours: number; score: number }>;
+  /** Plain-language reading of the suggestion (e.g. local time stored as UTC). */
+  note: string;
+}
+
+export interface AlignmentSuggestion {
+  meterId: string;
+  suggestedOffsetHours: number;
+  evidence: AlignmentEvidence;
+  /**
+   * Rule: days ≥ minDaysForStrong AND scoreAtBest ≥ minScoreForStrong AND margin ≥
+   * minMarginForStrong AND (suggestion 0, or (scoreAtBest − scoreAtZero)/scoreAtBest ≥
+   * minGainOverZeroForStrong). Only a strong suggestion may be applied automatically.
+   */
+  strong: boolean;
+}
+
+/**
+ * Scans whole-hour offsets between a meter and its weather and suggests the best (see the file
+ * comment for method and sign). With no usable data the suggestion is 0, not strong, and the
+ * note says why.
+ * @throws RangeError when `timezoneOfBuilding` is not a valid IANA zone.
+ * @example suggestAlignment(series, weather, "America/New_York").suggestedOffsetHours // 3 when stamps are 3 h late
+ */
+export function suggestAlignment(
+  series: IntervalSeries,
+  weather: WeatherSeries,
+  timezoneOfBuilding: string,
+  options: AlignmentOptions = {},
+): AlignmentSuggestion {
+  const maxOffset = Math.max(0, Math.floor(options.maxOffsetHours ?? 14));
+  const blockDays = options.blockDays ?? 56;
+  const zone = IANAZone.create(timezoneOfBuilding);
+  if (!zone.isValid) throw new RangeError(`unknown time zone '${timezoneOfBuilding}'`);
+
+  const hourly = hourlyLoad(series, options.mask);
+  const offsets: number[] = [];
+  for (let h = -maxOffset; h <= maxOffset; h++) offsets.push(h);
+  const empty = (note: string): AlignmentSuggestion => ({
+    meterId: series.meterId,
+    suggestedOffsetHours: 0,
+    evidence: {
+      method: "partial-r2-time-of-week",
+      scoreAtZero: 0,
+      scoreAtBest: 0,
+      secondBestOffset: 0,
+      margin: 0,
+      days: 0,
+      scores: offsets.map((offsetHours) => ({ offsetHours, score: 0 })),
+      note,
+    },
+    strong: false,
+  });
+  if (!hourly) return empty("no complete hours of interval data (or intervals longer than an hour)");
+
+  const blockHours = Math.max(24, Math.round(blockDays * 24));
+  const loadAnom = loadAnomalies(hourly, zone, blockHours);
+  const tempAnom = temperatureAnomalies(weather, hourly.firstHour, blockHours);
+
+  const scores: number[] = [];
+  const pairCounts: number[] = [];
+  for (const h of offsets) {
+    const r = scoreOffset(loadAnom, hourly.firstHour, tempAnom, h, blockHours);
+    scores.push(r.score);
+    pairCounts.push(r.pairs);
+  }
+  if (pairCounts.every((p) => p === 0)) return empty("interval data and weather do not overlap");
+
+  let best = 0;
+  for (let k = 1; k < offsets.length; k++) {
+    // Ties go to the smaller |offset| (the data as given).
+    if (scores[k]! > scores[best]! || (scores[k] === scores[best] && Math.abs(offsets[k]!) < Math.abs(offsets[best]!))) best = k;
+  }
+  let second = best === 0 ? 1 : 0;
+  for (let k = 0; k < offsets.length; k++) if (k !== best && scores[k]! > scores[second]!) second = k;
+  if (offsets.length === 1) second = best;
+
+  const zeroIdx = offsets.indexOf(0);
+  const scoreAtBest = scores[best]!;
+  const scoreAtZero = scores[zeroIdx]!;
+  const margin = scoreAtBest > 0 ? (scoreAtBest - scores[second]!) / scoreAtBest : 0;
+  const days = Math.floor(pairCounts[best]! / 24);
+  const suggested = scoreAtBest > 0 ? offsets[best]! : 0;
+  const gainOverZero = scoreAtBest > 0 ? (scoreAtBest - scoreAtZero) / scoreAtBest : 0;
+  const strong =
+    days >= (options.minDaysForStrong ?? 28) &&
+    scoreAtBest >= (options.minScoreForStrong ?? 0.05) &&
+    margin >= (options.minMarginForStrong ?? 0.02) &&
+    (suggested === 0 || gainOverZero >= (options.minGainOverZeroForStrong ?? 0.2));
+
+  return {
+    meterId: series.meterId,
+    suggestedOffsetHours: suggested,
+    evidence: {
+      method: "partial-r2-time-of-week",
+      scoreAtZero,
+      scoreAtBest,
+      secondBestOffset: offsets[second]!,
+      margin,
+      days,
+      scores: offsets.map((offsetHours, k) => ({ offsetHours, score: scores[k]! })),
+      note: describe(suggested, series, zone, scoreAtBest),
+    },
+    strong,
+  };
+}
+
+interface HourlyLoad {
+  /** Absolute hour number (epoch ms / 1 h) of hourly[0]. */
+  firstHour: number;
+  /** Load per hour; NaN unless every interval of the hour is present and unmasked. */
+  load: Float64Array;
+}
+
+/** Sums intervals into UTC hours; an hour counts only when all of its intervals are there. */
+function hourlyLoad(series: IntervalSeries, mask?: Uint8Array): HourlyLoad | null {
+  const n = series.startMs.length;
+  if (n === 0 || series.intervalMinutes > 60 || 60 % series.intervalMinutes !== 0) return null;
+  const perHour = 60 / series.intervalMinutes;
+  const firstHour = Math.floor(series.startMs[0]! / HOUR_MS);
+  const lastHour = Math.floor(series.startMs[n - 1]! / HOUR_MS);
+  const len = lastHour - firstHour + 1;
+  const sum = new Float64Array(len);
+  const count = new Int32Array(len);
+  for (let i = 0; i < n; i++) {
+    const v = series.values[i]!;
+    if (!Number.isFinite(v) || (mask && mask[i])) continue;
+    const k = Math.floor(series.startMs[i]! / HOUR_MS) - firstHour;
+    sum[k] += v;
+    count[k]++;
+  }
+  const load = new Float64Array(len);
+  let any = false;
+  for (let k = 0; k < len; k++) {
+    load[k] = count[k] === perHour ? sum[k]! : NaN;
+    if (count[k] === perHour) any = true;
+  }
+  return any ? { firstHour, load } : null;
+}
+
+/** Load minus its block's mean for the same local hour of the week (NaN with < 2 samples). */
+function loadAnomalies(hourly: HourlyLoad, zone: IANAZone, blockHours: number): Float64Array {
+  const len = hourly.load.length;
+  const slot = localHourOfWeek(hourly.firstHour, len, zone);
+  const out = new Float64Array(len).fill(NaN);
+  for (let b0 = 0; b0 < len; b0 += blockHours) {
+    const b1 = blockEnd(b0, len, blockHours);
+    const sum = new Float64Array(168);
+    const cnt = new Int32Array(168);
+    for (let k = b0; k < b1; k++) {
+      const v = hourly.load[k]!;
+      if (Number.isNaN(v)) continue;
+      sum[slot[k]!] += v;
+      cnt[slot[k]!]++;
+    }
+    for (let k = b0; k < b1; k++) {
+      const s = slot[k]!;
+      if (!Number.isNaN(hourly.load[k]!) && cnt[s]! >= 2) out[k] = hourly.load[k]! - sum[s]! / cnt[s]!;
+    }
+    if (b1 === len) break;
+    b0 = b1 - blockHours;
+  }
+  return out;
+}
+
+/** A short last block (< half a block) is merged into the previous one. */
+function blockEnd(b0: number, len: number, blockHours: number): number {
+  const b1 = b0 + blockHours;
+  return len - b1 < blockHours / 2 ? len : b1;
+}
+
+/** Local hour of the week (0 = Monday 00:00 local) for each hour; the zone offset is looked up once a day unless it changes within the day. */
+function localHourOfWeek(firstHour: number, len: number, zone: IANAZone): Int32Array {
+  const slot = new Int32Array(len);
+  let dayStart = -1;
+  let dayOffsetMin = 0;
+  let changes = false;
+  for (let k = 0; k < len; k++) {
+    const ms = (firstHour + k) * HOUR_MS;
+    const day = Math.floor(ms / DAY_MS);
+    if (day !== dayStart) {
+      dayStart = day;
+      dayOffsetMin = zone.offset(day * DAY_MS);
+      changes = zone.offset(day * DAY_MS + DAY_MS - 1) !== dayOffsetMin;
+    }
+    const offMin = changes ? zone.offset(ms) : dayOffsetMin;
+    const localHour = Math.floor((ms + offMin * 60_000) / HOUR_MS);
+    // Epoch hour 0 was Thursday 00:00; +72 h makes Monday 00:00 slot 0.
+    slot[k] = (((localHour + 72) % 168) + 168) % 168;
+  }
+  return slot;
+}
+
+/**
+ * Temperature minus its block's mean for the same UTC hour of the day, indexed by absolute
+ * hour. The diurnal cycle follows the sun, not the clock, so UTC hours suit it (no DST jump).
+ * Blocks are aligned with the load's blocks (same origin).
+ */
+function temperatureAnomalies(weather: WeatherSeries, origin: number, blockHours: number): { firstHour: number; anom: Float64Array } {
+  const firstHour = Math.round(weather.startMs / HOUR_MS);
+  const len = weather.tempC.length;
+  const anom = new Float64Array(len).fill(NaN);
+  const blockOf = (k: number): number => Math.floor((firstHour + k - origin) / blockHours);
+  const groups = new Map<number, { sum: Float64Array; cnt: Int32Array }>();
+  for (let k = 0; k < len; k++) {
+    const t = weather.tempC[k]!;
+    if (!Number.isFinite(t)) continue;
+    const b = blockOf(k);
+    let g = groups.get(b);
+    if (!g) groups.set(b, (g = { sum: new Float64Array(24), cnt: new Int32Array(24) }));
+    const h = (((firstHour + k) % 24) + 24) % 24;
+    g.sum[h] += t;
+    g.cnt[h]++;
+  }
+  for (let k = 0; k < len; k++) {
+    const t = weather.tempC[k]!;
+    if (!Number.isFinite(t)) continue;
+    const g = groups.get(blockOf(k))!;
+    const h = (((firstHour + k) % 24) + 24) % 24;
+    if (g.cnt[h]! >= 2) anom[k] = t - g.sum[h]! / g.cnt[h]!;
+  }
+  return { firstHour, anom };
+}
+
+/** Pair-weighted mean over load blocks of corr²(load anomaly at H, temperature anomaly at H − h). */
+function scoreOffset(
+  loadAnom: Float64Array,
+  loadFirstHour: number,
+  temp: { firstHour: number; anom: Float64Array },
+  h: number,
+  blockHours: number,
+): { score: number; pairs: number } {
+  const len = loadAnom.length;
+  let weighted = 0;
+  let pairs = 0;
+  for (let b0 = 0; b0 < len; b0 += blockHours) {
+    const b1 = blockEnd(b0, len, blockHours);
+    let n = 0, sx = 0, sy = 0, sxx = 0, syy = 0, sxy = 0;
+    for (let k = b0; k < b1; k++) {
+      const x = loadAnom[k]!;
+      if (Number.isNaN(x)) continue;
+      const tk = loadFirstHour + k - h - temp.firstHour;
+      if (tk < 0 || tk >= temp.anom.length) continue;
+      const y = temp.anom[tk]!;
+      if (Number.isNaN(y)) continue;
+      n++;
+      sx += x;
+      sy += y;
+      sxx += x * x;
+      syy += y * y;
+      sxy += x * y;
+    }
+    if (n >= 3) {
+      const cxx = sxx - (sx * sx) / n;
+      const cyy = syy - (sy * sy) / n;
+      const cxy = sxy - (sx * sy) / n;
+      const r2 = cxx > 0 && cyy > 0 ? (cxy * cxy) / (cxx * cyy) : 0;
+      weighted += n * r2;
+      pairs += n;
+    }
+    if (b1 === len) break;
+    b0 = b1 - blockHours;
+  }
+  return { score: pairs > 0 ? weighted / pairs : 0, pairs };
+}
+
+function describe(offset: number, series: IntervalSeries, zone: IANAZone, score: number): string {
+  if (!(score > 0)) return "no load–temperature relationship found; timestamps left as they are";
+  if (offset === 0) return "timestamps agree with the weather";
+  const n = series.startMs.length;
+  const mid = series.startMs[Math.floor(n / 2)]!;
+  const zoneHours = zone.offset(mid) / 60;
+  const late = offset > 0 ? `${offset} h late` : `${-offset} h early`;
+  const parts = [`meter timestamps look ${late}; subtract ${offset} h to correct`];
+  if (zoneHours !== 0 && offset === zoneHours) parts.push("consistent with local clock times stored as UTC");
+  if (zoneHours !== 0 && offset === -zoneHours) parts.push("consistent with UTC times read as local clock times");
+  if (offset * 60 === series.intervalMinutes) parts.push("consistent with interval-end timestamps");
+  return parts.join("; ");
+}
