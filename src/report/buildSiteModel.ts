@@ -1,0 +1,60 @@
+/** Assembles the whole site's view model from pipeline results. Pure: no I/O, no clock. */
+import type { Bill } from "../domain/types.ts";
+import type { ReportInput } from "./input.ts";
+import type { SiteModel } from "./siteModel.ts";
+import { buildBuildingPage, type BuildingContext } from "./buildingPage.ts";
+import { buildIndexPage, windowText } from "./indexPage.ts";
+import { buildMethodsPage } from "./methodsPage.ts";
+import { buildDataPage } from "./dataPage.ts";
+import { trailingYear } from "./periods.ts";
+import { formatDate } from "./format.ts";
+import { canonicalFor } from "./nav.ts";
+
+/**
+ * Turns pipeline results into the view models of every page: index, one page per building
+ * (in buildings.csv order), methods and data. Does not mutate its input.
+ * @example buildSiteModel(input).buildings.map((b) => b.path) // ["buildings/B1.html", ...]
+ */
+export function buildSiteModel(input: ReportInput): SiteModel {
+  const { portfolio } = input;
+  const { settings } = portfolio;
+  const currency = settings.currency;
+  const window = trailingYear(settings, portfolio.bills);
+
+  const billsByMeter = new Map<string, Bill[]>();
+  for (const b of portfolio.bills) {
+    const list = billsByMeter.get(b.meterId);
+    if (list) list.push(b);
+    else billsByMeter.set(b.meterId, [b]);
+  }
+  for (const list of billsByMeter.values()) {
+    list.sort((a, b) => (a.periodStart < b.periodStart ? -1 : a.periodStart > b.periodStart ? 1 : a.billId < b.billId ? -1 : 1));
+  }
+
+  const contexts: BuildingContext[] = portfolio.buildings.map((building) => ({
+    building,
+    meters: portfolio.meters.filter((m) => m.buildingId === building.buildingId),
+    billsByMeter,
+    window,
+    currency,
+  }));
+
+  const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({
+    ...page,
+    canonical: canonicalFor(settings.basePath, page.path),
+  });
+
+  return {
+    meta: {
+      portfolioName: settings.name,
+      currency,
+      buildDate: formatDate(input.buildDate),
+      buildDateIso: input.buildDate,
+      basePath: settings.basePath,
+    },
+    index: withCanonical(buildIndexPage(input, contexts, window)),
+    buildings: contexts.map((ctx) => withCanonical(buildBuildingPage(input, ctx))),
+    methods: withCanonical(buildMethodsPage(currency, windowText(window))),
+    data: withCanonical(buildDataPage(portfolio.report, input.issues)),
+  };
+}

@@ -1,0 +1,152 @@
+/**
+ * Formatting of numbers, money and dates for pages. Pure; fixed locale so builds are
+ * reproducible on any machine. Non-finite numbers never reach a page as "NaN": they
+ * become the placeholder `NOT_AVAILABLE`.
+ */
+
+/** Shown wherever a value is absent or not a finite number. */
+export const NOT_AVAILABLE = "—";
+
+/** Locale of every page: fixed so output does not depend on the build machine. */
+export const LOCALE = "en-US";
+
+const moneyFormatters = new Map<string, Intl.NumberFormat>();
+
+function moneyFormatter(currency: string, digits: number): Intl.NumberFormat {
+  const key = `${currency}:${digits}`;
+  let f = moneyFormatters.get(key);
+  if (!f) {
+    f = new Intl.NumberFormat(LOCALE, {
+      style: "currency",
+      currency,
+      minimumFractionDigits: digits,
+      maximumFractionDigits: digits,
+    });
+    moneyFormatters.set(key, f);
+  }
+  return f;
+}
+
+/**
+ * Money in the portfolio currency (ISO 4217), two decimals.
+ * @example formatMoney(1234.5, "USD") // "$1,234.50"
+ */
+export function formatMoney(amount: number | null | undefined, currency: string): string {
+  if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
+  // -0 would print as "-$0.00"
+  return moneyFormatter(currency, 2).format(amount === 0 ? 0 : amount);
+}
+
+/**
+ * Money with an explicit sign, for differences (billed − recomputed).
+ * @example formatMoneySigned(4.5, "USD") // "+$4.50"
+ */
+export function formatMoneySigned(amount: number | null | undefined, currency: string): string {
+  if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
+  const rounded = Math.round(amount * 100) / 100;
+  if (rounded === 0) return formatMoney(0, currency);
+  return (rounded > 0 ? "+" : "−") + formatMoney(Math.abs(rounded), currency);
+}
+
+/**
+ * A per-unit rate with enough decimals to show tariff precision (up to 6).
+ * @example formatRate(0.123456, "USD", "kWh") // "$0.123456 per kWh"
+ */
+export function formatRate(rate: number | null | undefined, currency: string, unit: string): string {
+  if (rate == null || !Number.isFinite(rate)) return NOT_AVAILABLE;
+  const f = new Intl.NumberFormat(LOCALE, {
+    style: "currency",
+    currency,
+    minimumFractionDigits: 2,
+    maximumFractionDigits: 6,
+  });
+  return unit ? `${f.format(rate)} per ${unit}` : f.format(rate);
+}
+
+/**
+ * A quantity with thousands separators and at most `maxDigits` decimals.
+ * @example formatNumber(1234567.891) // "1,234,568"; formatNumber(12.345, 1) // "12.3"
+ */
+export function formatNumber(value: number | null | undefined, maxDigits = 0): string {
+  if (value == null || !Number.isFinite(value)) return NOT_AVAILABLE;
+  const s = new Intl.NumberFormat(LOCALE, { maximumFractionDigits: maxDigits }).format(value);
+  return s === "-0" ? "0" : s;
+}
+
+/**
+ * A quantity with its unit; decimals chosen by size so small numbers stay readable.
+ * @example formatQuantity(12345.6, "kWh") // "12,346 kWh"; formatQuantity(3.456, "kW") // "3.46 kW"
+ */
+export function formatQuantity(value: number | null | undefined, unit: string): string {
+  if (value == null || !Number.isFinite(value)) return NOT_AVAILABLE;
+  const abs = Math.abs(value);
+  const digits = abs >= 1000 ? 0 : abs >= 100 ? 1 : abs >= 1 ? 2 : 4;
+  const n = formatNumber(value, digits);
+  return unit ? `${n} ${unit}` : n;
+}
+
+/**
+ * Percentage from a fraction.
+ * @example formatPercent(0.256) // "25.6%"
+ */
+export function formatPercent(fraction: number | null | undefined, digits = 1): string {
+  if (fraction == null || !Number.isFinite(fraction)) return NOT_AVAILABLE;
+  return new Intl.NumberFormat(LOCALE, { style: "percent", maximumFractionDigits: digits }).format(fraction);
+}
+
+const dateFormatter = new Intl.DateTimeFormat(LOCALE, {
+  day: "numeric",
+  month: "short",
+  year: "numeric",
+  timeZone: "UTC",
+});
+const monthFormatter = new Intl.DateTimeFormat(LOCALE, { month: "short", year: "numeric", timeZone: "UTC" });
+
+/** Days since 1970-01-01 of an ISO calendar date; throws on a malformed date (a pipeline bug). */
+export function isoDateToDayNumber(isoDate: string): number {
+  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(isoDate);
+  if (!m) throw new RangeError(`not an ISO date (YYYY-MM-DD): ${isoDate}`);
+  return Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])) / 86_400_000;
+}
+
+/** ISO calendar date of a day number (inverse of `isoDateToDayNumber`). */
+export function dayNumberToIsoDate(day: number): string {
+  return new Date(day * 86_400_000).toISOString().slice(0, 10);
+}
+
+/**
+ * A calendar date as people read it; the date is a calendar day, so no time zone shift.
+ * @example formatDate("2025-01-31") // "Jan 31, 2025"
+ */
+export function formatDate(isoDate: string | null | undefined): string {
+  if (!isoDate) return NOT_AVAILABLE;
+  return dateFormatter.format(new Date(isoDateToDayNumber(isoDate) * 86_400_000));
+}
+
+/**
+ * A calendar month `YYYY-MM` as people read it.
+ * @example formatMonth("2025-03") // "Mar 2025"
+ */
+export function formatMonth(month: string): string {
+  return monthFormatter.format(new Date(isoDateToDayNumber(`${month}-01`) * 86_400_000));
+}
+
+/**
+ * A half-open service period [start, end) shown with its last day of service, inclusive.
+ * @example formatPeriod("2025-01-01", "2025-02-01") // "Jan 1, 2025 – Jan 31, 2025"
+ */
+export function formatPeriod(periodStart: string, periodEnd: string): string {
+  const lastDay = dayNumberToIsoDate(isoDateToDayNumber(periodEnd) - 1);
+  return `${formatDate(periodStart)} – ${formatDate(lastDay)}`;
+}
+
+/**
+ * Serializes a value as JSON for a `<script type="application/json">` block: `<` becomes
+ * `\u003c` so no `</script>` or `<!--` inside a string can end the block early.
+ */
+export function jsonForScript(value: unknown): string {
+  return JSON.stringify(value)
+    .replace(/</g, "\\u003c")
+    .replace(/\u2028/g, "\\u2028")
+    .replace(/\u2029/g, "\\u2029");
+}

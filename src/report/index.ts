@@ -1,0 +1,6 @@
+/** The report stage: pipeline results → page view models. */
+export type { ReportInput, PricedBill, MonthlyMetered, ReportFinding, ReportModelSummary, ReportForecastMonth } from "./input.ts";
+export type * from "./siteModel.ts";
+export { buildSiteModel } from "./buildSiteModel.ts";
+export { describeDataFiles, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";
+export { jsonForScript } from "./format.ts";

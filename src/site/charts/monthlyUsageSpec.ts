@@ -1,0 +1,32 @@
+/** Vega-Lite spec for monthly use: bars per calendar month, stacked by series (meter). */
+import type { ChartModel } from "../../report/siteModel.ts";
+import { chartConfig } from "./palette.ts";
+
+/**
+ * Builds a Vega-Lite v6 spec from a monthly-usage chart model. Pure. Months are ordinal
+ * `YYYY-MM` strings rather than temporal values, so no time zone can shift a bar.
+ * @example monthlyUsageSpec(chart).mark // { type: "bar", tooltip: true }
+ */
+export function monthlyUsageSpec(chart: Pick<ChartModel, "title" | "description" | "valueLabel" | "data">): Record<string, unknown> {
+  return {
+    $schema: "https://vega.github.io/schema/vega-lite/v6.json",
+    title: chart.title,
+    description: chart.description,
+    width: "container",
+    height: 220,
+    autosize: { type: "fit-x", contains: "padding" },
+    data: { values: chart.data.map((d) => ({ month: d.month, series: d.series, value: d.value })) },
+    mark: { type: "bar", tooltip: true },
+    encoding: {
+      x: { field: "month", type: "ordinal", title: "Month", axis: { labelAngle: -45 } },
+      y: { field: "value", type: "quantitative", title: chart.valueLabel, stack: "zero" },
+      color: { field: "series", type: "nominal", title: "Meter" },
+      tooltip: [
+        { field: "month", type: "ordinal", title: "Month" },
+        { field: "series", type: "nominal", title: "Meter" },
+        { field: "value", type: "quantitative", title: chart.valueLabel, format: ",.0f" },
+      ],
+    },
+    config: chartConfig(),
+  };
+}

@@ -1,0 +1,157 @@
+/**
+ * Writes the static site: Eleventy renders the view models through content/ templates, the
+ * Vite plugin bundles the client scripts and styles, then the data files are added. Built in
+ * a scratch folder next to `outDir` and swapped in by rename, so a failed build never leaves
+ * a half-written site and a reader never sees one mid-build.
+ */
+import { mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from "node:fs/promises";
+import { basename, dirname, join, resolve, sep } from "node:path";
+import { fileURLToPath } from "node:url";
+import { createRequire } from "node:module";
+import Eleventy from "@11ty/eleventy";
+import EleventyVitePlugin from "@11ty/eleventy-plugin-vite";
+import type { SiteModel } from "../report/siteModel.ts";
+import { prepareSite } from "./prepareSite.ts";
+
+/** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
+const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "..", "..");
+const CONTENT_DIR = join(PROJECT_ROOT, "content");
+const ELEVENTY_CONFIG = join(PROJECT_ROOT, ".eleventy.js");
+
+/** Raised when the site cannot be written; the previous site (if any) is left untouched. */
+export class SiteWriteError extends Error {
+  constructor(message: string, options?: { cause?: unknown }) {
+    super(message, options);
+    this.name = "SiteWriteError";
+  }
+}
+
+export interface WriteSiteOptions {
+  /** Let Eleventy and Vite log progress and errors to the console. Default false. */
+  verbose?: boolean;
+}
+
+/** Prefix of the scratch folders of builds into `outDir`. */
+function scratchPrefix(outDir: string): string {
+  return `.${basename(outDir)}.ohmbook-build-`;
+}
+
+/**
+ * Removes scratch folders a killed build left next to `outDir` (including the Vite plugin's
+ * temporary folder inside them, which would otherwise make the next build fail).
+ */
+async function removeStaleScratch(outDir: string): Promise<void> {
+  const parent = dirname(outDir);
+  const prefix = scratchPrefix(outDir);
+  let names: string[] = [];
+  try {
+    names = await readdir(parent);
+  } catch {
+    return;
+  }
+  await Promise.all(names.filter((n) => n.startsWith(prefix)).map((n) => rm(join(parent, n), { recursive: true, force: true })));
+}
+
+/** Checks a data-file name stays inside data/ (no absolute paths, no `..`). */
+function safeDataPath(dataDir: string, name: string): string {
+  const target = resolve(dataDir, name);
+  if (name === "" || !target.startsWith(dataDir + sep)) {
+    throw new SiteWriteError(`data file name "${name}" would be written outside data/`);
+  }
+  return target;
+}
+
+async function exists(path: string): Promise<boolean> {
+  try {
+    await stat(path);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+function viteOptions(verbose: boolean): Record<string, unknown> {
+  const require = createRequire(join(PROJECT_ROOT, "package.json"));
+  return {
+    // Relative asset URLs: the site works under any path prefix and from a plain file server.
+    base: "./",
+    configFile: false,
+    logLevel: verbose ? "info" : "silent",
+    clearScreen: false,
+    resolve: {
+      // The scratch folder may sit outside the project, where bare imports would not resolve.
+      // Object form: the plugin deep-merges its own object-form alias with ours.
+      alias: { "vega-embed": require.resolve("vega-embed") },
+    },
+    build: {
+      emptyOutDir: true,
+      // One shared bundle of the vega runtime is expected to be large; it is cached across pages.
+      chunkSizeWarningLimit: 2000,
+      reportCompressedSize: false,
+    },
+  };
+}
+
+/**
+ * Renders `model` into `outDir` with every file in `dataFiles` (name relative to data/ → text)
+ * under `outDir/data/`. Replaces `outDir` only when the whole build succeeded.
+ * `options.verbose` lets Eleventy and Vite log to the console (for debugging a build).
+ * @throws SiteWriteError when rendering, bundling or writing fails (outDir unchanged).
+ * @example await writeSite(buildSiteModel(input), { "findings.csv": csv }, "_site");
+ */
+export async function writeSite(
+  model: SiteModel,
+  dataFiles: Record<string, string>,
+  outDir: string,
+  options: WriteSiteOptions = {},
+): Promise<void> {
+  const verbose = options.verbose ?? false;
+  const out = resolve(outDir);
+  await mkdir(dirname(out), { recursive: true });
+  await removeStaleScratch(out);
+  const scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
+  const stage = join(scratch, "site");
+  try {
+    const ready = await prepareSite(model, dataFiles);
+    const eleventy = new Eleventy(CONTENT_DIR, stage, {
+      quietMode: !verbose,
+      configPath: ELEVENTY_CONFIG,
+      config(eleventyConfig) {
+        eleventyConfig.addGlobalData("site", ready);
+        eleventyConfig.addPassthroughCopy({ [join(CONTENT_DIR, "assets")]: "assets" });
+        eleventyConfig.addPlugin(EleventyVitePlugin, {
+          tempFolderName: join(scratch, ".11ty-vite"),
+          viteOptions: viteOptions(verbose),
+        });
+      },
+    });
+    // Library code does not print: errors reach the caller as SiteWriteError instead.
+    if (!verbose) eleventy.disableLogger();
+    await eleventy.write();
+    if (!(await exists(join(stage, "index.html")))) {
+      throw new SiteWriteError("the site build produced no index.html");
+    }
+    const dataDir = join(stage, "data");
+    await mkdir(dataDir, { recursive: true });
+    for (const [name, text] of Object.entries(dataFiles)) {
+      const target = safeDataPath(dataDir, name);
+      await mkdir(dirname(target), { recursive: true });
+      await writeFile(target, text, "utf8");
+    }
+    // Swap: move the old site aside, the new one in, then delete the old one.
+    const previous = join(scratch, "previous");
+    const hadPrevious = await exists(out);
+    if (hadPrevious) await rename(out, previous);
+    try {
+      await rename(stage, out);
+    } catch (error) {
+      if (hadPrevious) await rename(previous, out);
+      throw error;
+    }
+  } catch (error) {
+    if (error instanceof SiteWriteError) throw error;
+    throw new SiteWriteError(`could not write the site to ${outDir}: ${(error as Error).message}`, { cause: error });
+  } finally {
+    await rm(scratch, { recursive: true, force: true });
+  }
+}
