@@ -3,7 +3,7 @@
  * Strict by design: an unknown key, a rate for an undefined period, blocks out of order or
  * versions out of order are errors with file:line:column and a hint, never guesses.
  */
-import { isScalar, LineCounter, parseDocument, type Node } from "yaml";
+import { isMap, isScalar, LineCounter, parseDocument, type Node } from "yaml";
 import type { InputIssue } from "../core/issues.ts";
 import { COMMODITIES, type Commodity } from "../domain/types.ts";
 import { isIsoDate } from "./dates.ts";
@@ -100,11 +100,11 @@ export function loadTariff(text: string, file: string): { tariff: Tariff | null;
   const c = new Checker(file, lineCounter);
   if (doc.errors.length > 0) {
     for (const e of doc.errors) {
-      const p = e.linePos?.[0];
+      const p = e.linePos?.[0] ?? lineCounter.linePos(e.pos[0]);
       c.issues.push({
         file,
-        line: p?.line ?? 0,
-        column: p?.col ?? 0,
+        line: p.line,
+        column: p.col,
         severity: "error",
         message: `YAML syntax: ${e.message.split("\n")[0]}`,
         hint: "check indentation, colons and quotes near this position",
@@ -150,7 +150,7 @@ function readTariff(c: Checker, root: Node, file: string): Tariff | null {
     if (s !== null) {
       usageUnit = canonicalUnit(commodity, s);
       if (usageUnit === null) {
-        c.error(where(unitF), `usage_unit '${s}' is not a ${commodity} unit`, `use one of ${UNITS_BY_COMMODITY[commodity].join(", ")}`);
+        c.error(where(unitF), `usage_unit '${s}' is not a unit for ${commodity}`, `use one of ${UNITS_BY_COMMODITY[commodity].join(", ")}`);
       }
     }
   }
@@ -315,7 +315,7 @@ function readSeasons(c: Checker, f: Field): Season[] {
       for (const m of ms) {
         const prev = owner.get(m);
         if (prev !== undefined) {
-          c.error(node, `season '${sf.name}' includes ${MONTHS[m - 1]}, which is already in season '${prev}'`, "each month may belong to one season only");
+          c.error(node, `season '${sf.name}' includes ${MONTHS[m - 1][0].toUpperCase()}${MONTHS[m - 1].slice(1)}, which is already in season '${prev}'`, "each month may belong to one season only");
         } else {
           owner.set(m, sf.name);
           months.push(m);
@@ -418,8 +418,19 @@ function readCharges(c: Checker, f: Field, what: string): ParsedCharge[] {
   return out;
 }
 
+/** The charge kind a mapping node names, when it names exactly one. */
+function kindOf(node: AnyNode): (typeof KIND_KEYS)[number] | null {
+  if (!isMap(node)) return null;
+  const keys = node.items.map((p) => (isScalar(p.key) ? String(p.key.value) : ""));
+  const kinds = KIND_KEYS.filter((k) => keys.includes(k));
+  return kinds.length === 1 ? kinds[0] : null;
+}
+
 function readCharge(c: Checker, node: AnyNode): ParsedCharge | null {
-  const m = readMap(c, node, ALL_CHARGE_KEYS, "a charge");
+  const known = kindOf(node);
+  const m = known
+    ? readMap(c, node, ["label", known, ...EXTRA_KEYS[known]], `a ${known.replace("_", " ")} charge`)
+    : readMap(c, node, ALL_CHARGE_KEYS, "a charge");
   if (!m) return null;
   const labelF = m.get("label");
   if (!labelF) {
