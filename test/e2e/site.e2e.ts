@@ -1,0 +1,175 @@
+/**
+ * The built site in a real browser (Debian's chromium through playwright-core), served from a
+ * sub-path: every page loads without console errors, charts become interactive vega views,
+ * table sorting works, links resolve under the sub-path, axe-core finds no violations, and no
+ * request leaves 127.0.0.1. Screenshots go to test-artifacts/.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { existsSync } from "node:fs";
+import { mkdir, mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
+import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { writeSite } from "../../src/site/writeSite.ts";
+import { EVIL_NAME, fixtureInput } from "../report/fixture.ts";
+import { serveStatic, type RunningServer } from "./staticServer.ts";
+
+const CHROMIUM = "/usr/bin/chromium";
+const HAVE_CHROMIUM = existsSync(CHROMIUM);
+const PREFIX = "/reports/";
+const ARTIFACTS = resolve("test-artifacts");
+const AXE = resolve("node_modules/axe-core/axe.min.js");
+const PAGES = ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html"];
+
+if (!HAVE_CHROMIUM) {
+  console.warn(`e2e skipped: ${CHROMIUM} not found (install Debian's chromium: apt-get install -y chromium)`);
+}
+
+interface AxeResult {
+  violations: { id: string; impact: string; nodes: { target: string[] }[] }[];
+}
+
+async function runAxe(page: Page): Promise<AxeResult> {
+  await page.addScriptTag({ path: AXE });
+  return page.evaluate(async () => {
+    const r = await (window as unknown as { axe: { run: (d: Document) => Promise<AxeResult> } }).axe.run(document);
+    return { violations: r.violations.map((v) => ({ id: v.id, impact: v.impact, nodes: v.nodes.map((n) => ({ target: n.target })) })) };
+  });
+}
+
+describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /reports/", () => {
+  let work: string;
+  let server: RunningServer;
+  let context: BrowserContext;
+  const outsideRequests: string[] = [];
+  const dialogs: string[] = [];
+
+  beforeAll(async () => {
+    work = await mkdtemp(join(tmpdir(), "ohmbook-e2e-"));
+    const site = join(work, "site");
+    await writeSite(buildSiteModel(fixtureInput()), { "findings.csv": "building_id\nB1\n", "portfolio.json": "[]\n" }, site);
+    server = await serveStatic(site, PREFIX);
+    await mkdir(ARTIFACTS, { recursive: true });
+    context = await chromium.launchPersistentContext(join(work, "profile"), {
+      executablePath: CHROMIUM,
+      headless: true,
+      args: [
+        "--headless",
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-quic",
+        "--no-first-run",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--disable-sync",
+      ],
+      viewport: { width: 1280, height: 900 },
+    });
+    // Block, and record, anything not addressed to our own server.
+    await context.route("**/*", (route) => {
+      const url = new URL(route.request().url());
+      if (url.protocol === "data:" || url.hostname === "127.0.0.1") return route.continue();
+      outsideRequests.push(url.href);
+      return route.abort();
+    });
+  });
+
+  afterAll(async () => {
+    await context?.close();
+    await server?.close();
+    if (work) await rm(work, { recursive: true, force: true });
+  });
+
+  async function open(path: string): Promise<{ page: Page; errors: string[] }> {
+    const page = await context.newPage();
+    const errors: string[] = [];
+    page.on("console", (m) => {
+      if (m.type() === "error") errors.push(m.text());
+    });
+    page.on("pageerror", (e) => errors.push(String(e)));
+    page.on("dialog", (d) => {
+      dialogs.push(d.message());
+      void d.dismiss();
+    });
+    const response = await page.goto(`${server.origin}${PREFIX}${path}`, { waitUntil: "networkidle" });
+    expect(response?.status(), path).toBe(200);
+    return { page, errors };
+  }
+
+  it("axe-core can fail: an image without alt text is a violation (proves the zero below means something)", async () => {
+    const page = await context.newPage();
+    await page.setContent('<!doctype html><html lang="en"><head><title>t</title></head><body><main><h1>t</h1><img src="data:,"></main></body></html>');
+    const result = await runAxe(page);
+    expect(result.violations.map((v) => v.id)).toContain("image-alt");
+    await page.close();
+  });
+
+  for (const path of PAGES) {
+    it(`${path}: loads cleanly, charts interactive, links resolve, no axe violations`, async () => {
+      const { page, errors } = await open(path);
+      // Charts: every figure swaps its SVG fallback for a live vega view.
+      const charts = await page.locator("figure[data-chart]").count();
+      if (charts > 0) {
+        await page.waitForFunction(
+          () => Array.from(document.querySelectorAll("figure[data-chart]")).every((f) => (f as HTMLElement).dataset.chartState),
+          undefined,
+          { timeout: 20_000 },
+        );
+        const states = await page.$$eval("figure[data-chart]", (fs) =>
+          fs.map((f) => ({
+            state: (f as HTMLElement).dataset.chartState,
+            hasView: typeof (f as unknown as { vegaView?: { data: unknown } }).vegaView?.data === "function",
+            liveSvg: f.querySelector(".chart-live svg") !== null,
+            marks: f.querySelectorAll(".chart-live .mark-rect path").length,
+          })),
+        );
+        for (const s of states) expect(s).toMatchObject({ state: "interactive", hasView: true, liveSvg: true });
+        expect(states.every((s) => s.marks > 0)).toBe(true);
+      }
+      // Links: every same-origin link stays under the prefix and answers 200.
+      const hrefs = await page.$$eval("a[href]", (as) => as.map((a) => (a as HTMLAnchorElement).href));
+      for (const href of hrefs) {
+        const url = new URL(href);
+        if (url.origin !== server.origin) continue;
+        expect(url.pathname.startsWith(PREFIX), href).toBe(true);
+        const r = await fetch(`${url.origin}${url.pathname}`);
+        expect(r.status, href).toBe(200);
+      }
+      const axe = await runAxe(page);
+      expect(axe.violations, JSON.stringify(axe.violations, null, 1)).toEqual([]);
+      await page.screenshot({ path: join(ARTIFACTS, `${path.replace(/\//g, "_").replace(/\.html$/, "")}.png`), fullPage: true });
+      expect(errors).toEqual([]);
+      await page.close();
+    });
+  }
+
+  it("sorts the building table by floor area, both directions", async () => {
+    const { page } = await open("index.html");
+    const areas = () =>
+      page.$$eval("table[data-sortable] tbody tr", (rows) => rows.map((r) => Number((r as HTMLTableRowElement).cells[2].dataset.sort)));
+    const header = page.locator("table[data-sortable] thead th").nth(2);
+    await header.locator("button").click();
+    expect(await header.getAttribute("aria-sort")).toBe("ascending");
+    const asc = await areas();
+    expect(asc).toEqual([...asc].sort((a, b) => a - b));
+    await header.locator("button").click();
+    expect(await header.getAttribute("aria-sort")).toBe("descending");
+    const desc = await areas();
+    expect(desc).toEqual([...asc].sort((a, b) => b - a));
+    expect(desc).not.toEqual(asc);
+    await page.close();
+  });
+
+  it("shows a building named like a script tag as text, running nothing", async () => {
+    const { page } = await open("buildings/B2.html");
+    expect(await page.locator("h1").textContent()).toBe(EVIL_NAME);
+    expect(dialogs).toEqual([]);
+    await page.close();
+  });
+
+  it("asked no host other than 127.0.0.1", () => {
+    expect(outsideRequests).toEqual([]);
+    expect(server.requests.every((p) => p.startsWith(PREFIX))).toBe(true);
+  });
+});
