@@ -130,7 +130,7 @@ describe("loadTariff: errors point at the right line and column", () => {
 `;
     const errors = errorsOf(yaml);
     expect(errors[0]).toMatch(/^9:13 block 1 of 'Delivery' has no up_to but is not the last block/);
-    expect(errors[1]).toMatch(/^10:13 the last block of 'Delivery' must not have up_to/);
+    expect(errors[1]).toMatch(/^10:15 the last block of 'Delivery' must not have up_to/);
   });
 
   it("periods without a catch-all", () => {
