@@ -40,10 +40,10 @@ export interface AlignmentOptions {
   minDaysForStrong?: number;
   /** `strong` needs a best score (partial R²) of at least this. Default 0.05. */
   minScoreForStrong?: number;
-  /** `strong` needs the best to beat the runner-up by this share of the best score. Default 0.02. */
+  /** `strong` needs the best to beat the runner-up by this share of the best score. Default 0.01. */
   minMarginForStrong?: number;
-  /** A non-zero suggestion is strong only if it beats offset 0 by this share of the best score. Default 0.2. */
-  minGainOverZeroForStrong?: number;
+  /** `strong` needs this share of leave-one-week-out rescans to keep the same best offset. Default 0.8. */
+  minJackknifeAgreementForStrong?: number;
 }
 
 export interface AlignmentEvidence {
@@ -57,6 +57,10 @@ export interface AlignmentEvidence {
   margin: number;
   /** Days of paired load and temperature at the best offset. */
   days: number;
+  /** Leave-one-week-out rescans done (weeks with at least 3 days of pairs). */
+  jackknifeRuns: number;
+  /** Of those, rescans whose best offset is still `suggestedOffsetHours`. */
+  jackknifeAgreeing: number;
   /** Score per offset, from −max to +max. */
   scores: Array<{ offsetHours: number; score: number }>;
   /** Plain-language reading of the suggestion (e.g. local time stored as UTC). */
@@ -68,9 +72,10 @@ export interface AlignmentSuggestion {
   suggestedOffsetHours: number;
   evidence: AlignmentEvidence;
   /**
-   * Rule: days ≥ minDaysForStrong AND scoreAtBest ≥ minScoreForStrong AND margin ≥
-   * minMarginForStrong AND (suggestion 0, or (scoreAtBest − scoreAtZero)/scoreAtBest ≥
-   * minGainOverZeroForStrong). Only a strong suggestion may be applied automatically.
+   * Rule (defaults in `AlignmentOptions`): days ≥ 28 AND scoreAtBest ≥ 0.05 AND margin ≥ 0.01
+   * AND at least 80 % of the leave-one-week-out rescans keep the same best offset (jackknife),
+   * so that no single odd week decides the answer. Only a strong suggestion may be applied
+   * automatically.
    */
   strong: boolean;
 }
@@ -106,6 +111,8 @@ export function suggestAlignment(
       secondBestOffset: 0,
       margin: 0,
       days: 0,
+      jackknifeRuns: 0,
+      jackknifeAgreeing: 0,
       scores: offsets.map((offsetHours) => ({ offsetHours, score: 0 })),
       note,
     },
@@ -113,27 +120,59 @@ export function suggestAlignment(
   });
   if (!hourly) return empty("no complete hours of interval data (or intervals longer than an hour)");
 
-  const blockHours = Math.max(24, Math.round(blockDays * 24));
-  const loadAnom = loadAnomalies(hourly, zone, blockHours);
-  const tempAnom = temperatureAnomalies(weather, hourly.firstHour, blockHours);
+  const blockWeeks = Math.max(1, Math.round(blockDays / 7));
+  const { blockOf, blocks } = blockPartition(hourly.load.length, blockWeeks * 168);
+  const loadAnom = loadAnomalies(hourly, zone, blockOf, blocks);
+  const tempAnom = temperatureAnomalies(weather, hourly.firstHour, blockOf, blocks);
 
-  const scores: number[] = [];
-  const pairCounts: number[] = [];
-  for (const h of offsets) {
-    const r = scoreOffset(loadAnom, hourly.firstHour, tempAnom, h, blockHours);
-    scores.push(r.score);
-    pairCounts.push(r.pairs);
-  }
+  // Per offset and week: moments of the pairs. Blocks are whole weeks, so block moments are
+  // sums of week moments, and leaving a week out is a subtraction.
+  const weeks = Math.ceil(hourly.load.length / 168);
+  const weekMoments = offsets.map((h) => weeklyMoments(loadAnom, hourly.firstHour, tempAnom, h));
+  const blockMoments = weekMoments.map((byWeek) => {
+    const byBlock: Moments[] = Array.from({ length: blocks }, () => new Float64Array(6));
+    byWeek.forEach((m, w) => {
+      const target = byBlock[blockOf(w * 168)]!;
+      for (let q = 0; q < 6; q++) target[q] += m[q]!;
+    });
+    return byBlock;
+  });
+  const scoreWithout = (k: number, leftOut: number): { score: number; pairs: number } => {
+    let weighted = 0;
+    let pairs = 0;
+    blockMoments[k]!.forEach((m, b) => {
+      let use = m;
+      if (leftOut >= 0 && blockOf(leftOut * 168) === b) {
+        use = m.slice();
+        const out = weekMoments[k]![leftOut]!;
+        for (let q = 0; q < 6; q++) use[q] -= out[q]!;
+      }
+      weighted += use[0]! * r2Of(use);
+      pairs += use[0]!;
+    });
+    return { score: pairs > 0 ? weighted / pairs : 0, pairs };
+  };
+  const full = offsets.map((_, k) => scoreWithout(k, -1));
+  const scores = full.map((r) => r.score);
+  const pairCounts = full.map((r) => r.pairs);
   if (pairCounts.every((p) => p === 0)) return empty("interval data and weather do not overlap");
 
-  let best = 0;
-  for (let k = 1; k < offsets.length; k++) {
-    // Ties go to the smaller |offset| (the data as given).
-    if (scores[k]! > scores[best]! || (scores[k] === scores[best] && Math.abs(offsets[k]!) < Math.abs(offsets[best]!))) best = k;
-  }
-  let second = best === 0 ? 1 : 0;
+  const best = argBest(offsets, scores);
+  let second = best === 0 ? Math.min(1, offsets.length - 1) : 0;
   for (let k = 0; k < offsets.length; k++) if (k !== best && scores[k]! > scores[second]!) second = k;
-  if (offsets.length === 1) second = best;
+
+  // Jackknife: leave each week (with at least 3 days of pairs) out in turn and see whether the
+  // best offset stays the same. A suggestion carried by one odd week does not survive this.
+  let jackknifeRuns = 0;
+  let jackknifeAgreeing = 0;
+  if (weeks > 1) {
+    for (let w = 0; w < weeks; w++) {
+      if (weekMoments[best]![w]![0]! < 72) continue;
+      jackknifeRuns++;
+      if (argBest(offsets, offsets.map((_, k) => scoreWithout(k, w).score)) === best) jackknifeAgreeing++;
+    }
+  }
+  const agreement = jackknifeRuns > 0 ? jackknifeAgreeing / jackknifeRuns : 0;
 
   const zeroIdx = offsets.indexOf(0);
   const scoreAtBest = scores[best]!;
@@ -141,12 +180,11 @@ export function suggestAlignment(
   const margin = scoreAtBest > 0 ? (scoreAtBest - scores[second]!) / scoreAtBest : 0;
   const days = Math.floor(pairCounts[best]! / 24);
   const suggested = scoreAtBest > 0 ? offsets[best]! : 0;
-  const gainOverZero = scoreAtBest > 0 ? (scoreAtBest - scoreAtZero) / scoreAtBest : 0;
   const strong =
     days >= (options.minDaysForStrong ?? 28) &&
     scoreAtBest >= (options.minScoreForStrong ?? 0.05) &&
-    margin >= (options.minMarginForStrong ?? 0.02) &&
-    (suggested === 0 || gainOverZero >= (options.minGainOverZeroForStrong ?? 0.2));
+    margin >= (options.minMarginForStrong ?? 0.01) &&
+    agreement >= (options.minJackknifeAgreementForStrong ?? 0.8);
 
   return {
     meterId: series.meterId,
@@ -158,11 +196,22 @@ export function suggestAlignment(
       secondBestOffset: offsets[second]!,
       margin,
       days,
+      jackknifeRuns,
+      jackknifeAgreeing,
       scores: offsets.map((offsetHours, k) => ({ offsetHours, score: scores[k]! })),
       note: describe(suggested, series, zone, scoreAtBest),
     },
     strong,
   };
+}
+
+/** Index of the highest score; ties go to the smaller |offset| (the data as given). */
+function argBest(offsets: readonly number[], scores: readonly number[]): number {
+  let best = 0;
+  for (let k = 1; k < offsets.length; k++) {
+    if (scores[k]! > scores[best]! || (scores[k] === scores[best] && Math.abs(offsets[k]!) < Math.abs(offsets[best]!))) best = k;
+  }
+  return best;
 }
 
 interface HourlyLoad {
@@ -199,34 +248,36 @@ function hourlyLoad(series: IntervalSeries, mask?: Uint8Array): HourlyLoad | nul
 }
 
 /** Load minus its block's mean for the same local hour of the week (NaN with < 2 samples). */
-function loadAnomalies(hourly: HourlyLoad, zone: IANAZone, blockHours: number): Float64Array {
+function loadAnomalies(hourly: HourlyLoad, zone: IANAZone, blockOf: (k: number) => number, blocks: number): Float64Array {
   const len = hourly.load.length;
   const slot = localHourOfWeek(hourly.firstHour, len, zone);
+  const sum = new Float64Array(168 * blocks);
+  const cnt = new Int32Array(168 * blocks);
+  for (let k = 0; k < len; k++) {
+    const v = hourly.load[k]!;
+    if (Number.isNaN(v)) continue;
+    const g = blockOf(k) * 168 + slot[k]!;
+    sum[g] += v;
+    cnt[g]++;
+  }
   const out = new Float64Array(len).fill(NaN);
-  for (let b0 = 0; b0 < len; b0 += blockHours) {
-    const b1 = blockEnd(b0, len, blockHours);
-    const sum = new Float64Array(168);
-    const cnt = new Int32Array(168);
-    for (let k = b0; k < b1; k++) {
-      const v = hourly.load[k]!;
-      if (Number.isNaN(v)) continue;
-      sum[slot[k]!] += v;
-      cnt[slot[k]!]++;
-    }
-    for (let k = b0; k < b1; k++) {
-      const s = slot[k]!;
-      if (!Number.isNaN(hourly.load[k]!) && cnt[s]! >= 2) out[k] = hourly.load[k]! - sum[s]! / cnt[s]!;
-    }
-    if (b1 === len) break;
-    b0 = b1 - blockHours;
+  for (let k = 0; k < len; k++) {
+    const g = blockOf(k) * 168 + slot[k]!;
+    if (!Number.isNaN(hourly.load[k]!) && cnt[g]! >= 2) out[k] = hourly.load[k]! - sum[g]! / cnt[g]!;
   }
   return out;
 }
 
-/** A short last block (< half a block) is merged into the previous one. */
-function blockEnd(b0: number, len: number, blockHours: number): number {
-  const b1 = b0 + blockHours;
-  return len - b1 < blockHours / 2 ? len : b1;
+/**
+ * Block of each hour k (counted from the load's first hour): whole blocks of `blockHours`,
+ * a short last block (< half a block) merged into the one before; hours before the start fall
+ * in block 0 and hours after the end in the last block.
+ */
+function blockPartition(len: number, blockHours: number): { blockOf: (k: number) => number; blocks: number } {
+  const full = Math.floor(len / blockHours);
+  const rest = len - full * blockHours;
+  const blocks = Math.max(1, rest >= blockHours / 2 || full === 0 ? full + 1 : full);
+  return { blocks, blockOf: (k) => Math.min(blocks - 1, Math.max(0, Math.floor(k / blockHours))) };
 }
 
 /** Local hour of the week (0 = Monday 00:00 local) for each hour; the zone offset is looked up once a day unless it changes within the day. */
@@ -254,74 +305,77 @@ function localHourOfWeek(firstHour: number, len: number, zone: IANAZone): Int32A
 /**
  * Temperature minus its block's mean for the same UTC hour of the day, indexed by absolute
  * hour. The diurnal cycle follows the sun, not the clock, so UTC hours suit it (no DST jump).
- * Blocks are aligned with the load's blocks (same origin).
+ * Blocks are the load's blocks (`blockOf` counts hours from `origin`).
  */
-function temperatureAnomalies(weather: WeatherSeries, origin: number, blockHours: number): { firstHour: number; anom: Float64Array } {
+function temperatureAnomalies(
+  weather: WeatherSeries,
+  origin: number,
+  blockOf: (k: number) => number,
+  blocks: number,
+): { firstHour: number; anom: Float64Array } {
   const firstHour = Math.round(weather.startMs / HOUR_MS);
   const len = weather.tempC.length;
-  const anom = new Float64Array(len).fill(NaN);
-  const blockOf = (k: number): number => Math.floor((firstHour + k - origin) / blockHours);
-  const groups = new Map<number, { sum: Float64Array; cnt: Int32Array }>();
+  const sum = new Float64Array(24 * blocks);
+  const cnt = new Int32Array(24 * blocks);
+  const groupOf = (k: number): number => blockOf(firstHour + k - origin) * 24 + ((((firstHour + k) % 24) + 24) % 24);
   for (let k = 0; k < len; k++) {
     const t = weather.tempC[k]!;
     if (!Number.isFinite(t)) continue;
-    const b = blockOf(k);
-    let g = groups.get(b);
-    if (!g) groups.set(b, (g = { sum: new Float64Array(24), cnt: new Int32Array(24) }));
-    const h = (((firstHour + k) % 24) + 24) % 24;
-    g.sum[h] += t;
-    g.cnt[h]++;
+    sum[groupOf(k)] += t;
+    cnt[groupOf(k)]++;
   }
+  const anom = new Float64Array(len).fill(NaN);
   for (let k = 0; k < len; k++) {
     const t = weather.tempC[k]!;
-    if (!Number.isFinite(t)) continue;
-    const g = groups.get(blockOf(k))!;
-    const h = (((firstHour + k) % 24) + 24) % 24;
-    if (g.cnt[h]! >= 2) anom[k] = t - g.sum[h]! / g.cnt[h]!;
+    const g = groupOf(k);
+    if (Number.isFinite(t) && cnt[g]! >= 2) anom[k] = t - sum[g]! / cnt[g]!;
   }
   return { firstHour, anom };
 }
 
-/** Pair-weighted mean over load blocks of corr²(load anomaly at H, temperature anomaly at H − h). */
-function scoreOffset(
+/** Sums for one correlation: n, Σx, Σy, Σx², Σy², Σxy. */
+type Moments = Float64Array;
+
+/** Squared correlation from moments; 0 when either side has no variance or n < 3. */
+function r2Of(m: Moments): number {
+  const n = m[0]!;
+  if (n < 3) return 0;
+  const cxx = m[3]! - (m[1]! * m[1]!) / n;
+  const cyy = m[4]! - (m[2]! * m[2]!) / n;
+  const cxy = m[5]! - (m[1]! * m[2]!) / n;
+  return cxx > 0 && cyy > 0 ? (cxy * cxy) / (cxx * cyy) : 0;
+}
+
+/**
+ * Moments of (load anomaly at H, temperature anomaly at H − h), one set per week of the load
+ * (week w = hours [168w, 168w + 168) from the load's first hour). Blocks are whole weeks, so
+ * block moments are sums of week moments.
+ */
+function weeklyMoments(
   loadAnom: Float64Array,
   loadFirstHour: number,
   temp: { firstHour: number; anom: Float64Array },
   h: number,
-  blockHours: number,
-): { score: number; pairs: number } {
+): Moments[] {
   const len = loadAnom.length;
-  let weighted = 0;
-  let pairs = 0;
-  for (let b0 = 0; b0 < len; b0 += blockHours) {
-    const b1 = blockEnd(b0, len, blockHours);
-    let n = 0, sx = 0, sy = 0, sxx = 0, syy = 0, sxy = 0;
-    for (let k = b0; k < b1; k++) {
-      const x = loadAnom[k]!;
-      if (Number.isNaN(x)) continue;
-      const tk = loadFirstHour + k - h - temp.firstHour;
-      if (tk < 0 || tk >= temp.anom.length) continue;
-      const y = temp.anom[tk]!;
-      if (Number.isNaN(y)) continue;
-      n++;
-      sx += x;
-      sy += y;
-      sxx += x * x;
-      syy += y * y;
-      sxy += x * y;
-    }
-    if (n >= 3) {
-      const cxx = sxx - (sx * sx) / n;
-      const cyy = syy - (sy * sy) / n;
-      const cxy = sxy - (sx * sy) / n;
-      const r2 = cxx > 0 && cyy > 0 ? (cxy * cxy) / (cxx * cyy) : 0;
-      weighted += n * r2;
-      pairs += n;
-    }
-    if (b1 === len) break;
-    b0 = b1 - blockHours;
+  const weeks = Math.ceil(len / 168);
+  const out: Moments[] = Array.from({ length: weeks }, () => new Float64Array(6));
+  for (let k = 0; k < len; k++) {
+    const x = loadAnom[k]!;
+    if (Number.isNaN(x)) continue;
+    const tk = loadFirstHour + k - h - temp.firstHour;
+    if (tk < 0 || tk >= temp.anom.length) continue;
+    const y = temp.anom[tk]!;
+    if (Number.isNaN(y)) continue;
+    const m = out[Math.floor(k / 168)]!;
+    m[0]++;
+    m[1] += x;
+    m[2] += y;
+    m[3] += x * x;
+    m[4] += y * y;
+    m[5] += x * y;
   }
-  return { score: pairs > 0 ? weighted / pairs : 0, pairs };
+  return out;
 }
 
 function describe(offset: number, series: IntervalSeries, zone: IANAZone, score: number): string {

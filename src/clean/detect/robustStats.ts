@@ -13,12 +13,7 @@ export const MAD_TO_SIGMA = 1.4826;
  * @example medianOf([4, 1, 3, 2]) // 2.5 (mean of the two middle values)
  */
 export function medianOf(values: ArrayLike<number>): number {
-  const finite: number[] = [];
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i]!;
-    if (Number.isFinite(v)) finite.push(v);
-  }
-  return medianSortedInPlace(finite);
+  return medianOfSorted(finiteSorted(values));
 }
 
 /**
@@ -27,14 +22,11 @@ export function medianOf(values: ArrayLike<number>): number {
  * @example madOf([1, 2, 3, 4, 100]) // 1 (median 3; deviations 2,1,0,1,97 → median 1)
  */
 export function madOf(values: ArrayLike<number>): number {
-  const m = medianOf(values);
+  const sorted = finiteSorted(values);
+  const m = medianOfSorted(sorted);
   if (Number.isNaN(m)) return NaN;
-  const dev: number[] = [];
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i]!;
-    if (Number.isFinite(v)) dev.push(Math.abs(v - m));
-  }
-  return medianSortedInPlace(dev);
+  for (let i = 0; i < sorted.length; i++) sorted[i] = Math.abs(sorted[i]! - m);
+  return medianOfSorted(sorted.sort());
 }
 
 /**
@@ -43,17 +35,12 @@ export function madOf(values: ArrayLike<number>): number {
  * @example quantileOf([1, 2, 3, 4, 5], 0.9) // 4.6
  */
 export function quantileOf(values: ArrayLike<number>, q: number): number {
-  const finite: number[] = [];
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i]!;
-    if (Number.isFinite(v)) finite.push(v);
-  }
-  if (finite.length === 0) return NaN;
-  finite.sort((a, b) => a - b);
-  const pos = (finite.length - 1) * Math.min(1, Math.max(0, q));
+  const sorted = finiteSorted(values);
+  if (sorted.length === 0) return NaN;
+  const pos = (sorted.length - 1) * Math.min(1, Math.max(0, q));
   const lo = Math.floor(pos);
   const hi = Math.ceil(pos);
-  return finite[lo]! + (finite[hi]! - finite[lo]!) * (pos - lo);
+  return sorted[lo]! + (sorted[hi]! - sorted[lo]!) * (pos - lo);
 }
 
 /**
@@ -68,25 +55,41 @@ export function rollingMedian(values: ArrayLike<number>, halfWindow: number): Fl
   const n = values.length;
   const out = new Float64Array(n);
   const h = Math.max(0, Math.floor(halfWindow));
-  const buf: number[] = [];
+  const buf = new Float64Array(2 * h + 1);
   for (let i = 0; i < n; i++) {
-    buf.length = 0;
-    const from = Math.max(0, i - h);
+    let m = 0;
     const to = Math.min(n - 1, i + h);
-    for (let j = from; j <= to; j++) {
+    for (let j = Math.max(0, i - h); j <= to; j++) {
       const v = values[j]!;
-      if (Number.isFinite(v)) buf.push(v);
+      if (!Number.isFinite(v)) continue;
+      // Insertion sort: windows are small (9 for 15-minute data), so this beats a general sort.
+      let k = m++;
+      while (k > 0 && buf[k - 1]! > v) {
+        buf[k] = buf[k - 1]!;
+        k--;
+      }
+      buf[k] = v;
     }
-    out[i] = medianSortedInPlace(buf);
+    out[i] = m === 0 ? NaN : m % 2 === 1 ? buf[m >> 1]! : (buf[(m >> 1) - 1]! + buf[m >> 1]!) / 2;
   }
   return out;
 }
 
-/** Sorts `xs` in place and returns its median (NaN when empty). */
-function medianSortedInPlace(xs: number[]): number {
+/** The finite entries, sorted ascending, as a new typed array (numeric sort, no comparator). */
+function finiteSorted(values: ArrayLike<number>): Float64Array {
+  const out = new Float64Array(values.length);
+  let m = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (Number.isFinite(v)) out[m++] = v;
+  }
+  return out.subarray(0, m).sort();
+}
+
+/** Median of an ascending array (NaN when empty). */
+function medianOfSorted(xs: Float64Array): number {
   const n = xs.length;
   if (n === 0) return NaN;
-  if (n > 1) xs.sort((a, b) => a - b);
   const mid = n >> 1;
   return n % 2 === 1 ? xs[mid]! : (xs[mid - 1]! + xs[mid]!) / 2;
 }
