@@ -3,7 +3,7 @@
  * demand and how complete the data is. Pure: the caller passes the series and the zone.
  */
 import { DateTime } from "luxon";
-import type { Bill, IntervalSeries, Portfolio } from "../domain/types.ts";
+import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import type { MeteredPeriod } from "./types.ts";
 
 /**
@@ -100,6 +100,7 @@ export function meteredForPeriod(
     coverage: expectedIntervals === 0 ? 0 : Math.min(1, intervals / expectedIntervals),
     intervals,
     expectedIntervals,
+    peakWindowMinutes: windowMinutes,
   };
 }
 
@@ -114,10 +115,15 @@ export function kwhPerBillUnit(commodity: string, unit: string): number | null {
 
 /**
  * Builds `AuditInput.metered` for every bill of every meter that has interval data
- * (bills of meters without data are absent from the map).
+ * (bills of meters without data are absent from the map; a bill whose zone or dates cannot
+ * be resolved maps to null rather than throwing). `windowMinutesFor` lets the caller use each
+ * meter's tariff demand window (default 15 minutes).
  * @example meteredForBills(portfolio).get("E1:2024-01-01")?.coverage
  */
-export function meteredForBills(portfolio: Portfolio, windowMinutes = 15): Map<string, MeteredPeriod | null> {
+export function meteredForBills(
+  portfolio: Portfolio,
+  windowMinutesFor: (meter: Meter) => number = () => 15,
+): Map<string, MeteredPeriod | null> {
   const out = new Map<string, MeteredPeriod | null>();
   const meters = new Map(portfolio.meters.map((m) => [m.meterId, m]));
   const zones = new Map(portfolio.buildings.map((b) => [b.buildingId, b.timezone]));
@@ -127,11 +133,15 @@ export function meteredForBills(portfolio: Portfolio, windowMinutes = 15): Map<s
     if (!meter || !series) continue;
     const zone = zones.get(meter.buildingId);
     if (!zone) continue;
-    out.set(
-      bill.billId,
-      meteredForPeriod(series, meter.multiplier, bill.periodStart, bill.periodEnd, zone, windowMinutes,
-        kwhPerBillUnit(meter.commodity, meter.unit)),
-    );
+    try {
+      out.set(
+        bill.billId,
+        meteredForPeriod(series, meter.multiplier, bill.periodStart, bill.periodEnd, zone, windowMinutesFor(meter),
+          kwhPerBillUnit(meter.commodity, meter.unit)),
+      );
+    } catch {
+      out.set(bill.billId, null); // invalid zone/date: ingest reports it; the audit just cannot compare
+    }
   }
   return out;
 }

@@ -9,6 +9,7 @@ import type { AuditTolerances } from "./types.ts";
 export const AUDIT_DEFAULTS: Omit<AuditTolerances, keyof Tolerances> = {
   minCoverage: 0.9,
   estimateStreakMin: 2,
+  loneEstimateSeverity: "info",
   outlierRatio: 2,
   demandWindowMinutes: 15,
   trailingMissingDays: 45,

@@ -86,6 +86,8 @@ export interface MeteredPeriod {
   intervals: number;
   /** Intervals the half-open local period holds under the zone's rules (DST-aware). */
   expectedIntervals: number;
+  /** Rolling window used for `peakKw`, minutes (absent = the audit's demandWindowMinutes). */
+  peakWindowMinutes?: number;
 }
 
 /** Portfolio tolerances plus the audit's own knobs (all stated on the methods page). */
@@ -94,6 +96,8 @@ export interface AuditTolerances extends Tolerances {
   minCoverage: number;
   /** Consecutive estimated reads that make a streak (warning). Default 2. */
   estimateStreakMin: number;
+  /** Severity of a lone estimated read (not part of a streak). Default info: estimates are routine. */
+  loneEstimateSeverity: "info" | "warning";
   /** Interim outlier rule: flag use/day beyond this ratio (or its inverse) of the same month a year earlier. Default 2. */
   outlierRatio: number;
   /** Rolling window for metered peak demand, minutes. Default 15. */

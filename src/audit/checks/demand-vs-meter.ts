@@ -24,14 +24,15 @@ export function checkDemandVsMeter(ctx: AuditContext): Finding[] {
     const diff = bill.demandKw - m.peakKw;
     const rel = m.peakKw === 0 ? Infinity : diff / m.peakKw;
     const money = moneyAtStakeOnQuantities(ctx, bill, bill.usage, m.peakKw);
-    const notes = [`Peak = highest ${ctx.tol.demandWindowMinutes}-minute average over intervals wholly inside the period; coverage ${formatPct(m.coverage)}.`];
+    const window = m.peakWindowMinutes ?? ctx.tol.demandWindowMinutes;
+    const notes = [`Peak = highest ${window}-minute average over intervals wholly inside the period; coverage ${formatPct(m.coverage)}.`];
     if (money) notes.push(`Re-priced with the metered peak: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
     out.push(billFinding(ctx, bill, {
       check: "demand-vs-meter",
       severity: rel > (5 * ctx.tol.demandPct) / 100 ? "error" : "warning",
       amountAtStake: money?.amount ?? null,
       title: diff > 0 ? "Billed demand higher than the meter's peak" : "Billed demand lower than the meter's peak",
-      message: `Bill ${bill.billId} shows ${formatQty(bill.demandKw)} kW of demand but the meter's highest ${ctx.tol.demandWindowMinutes}-minute average was ${formatQty(m.peakKw)} kW (${rel > 0 ? "+" : ""}${Number.isFinite(rel) ? formatPct(rel) : "n/a"}, tolerance ${ctx.tol.demandPct} %).`,
+      message: `Bill ${bill.billId} shows ${formatQty(bill.demandKw)} kW of demand but the meter's highest ${window}-minute average was ${formatQty(m.peakKw)} kW (${rel > 0 ? "+" : ""}${Number.isFinite(rel) ? formatPct(rel) : "n/a"}, tolerance ${ctx.tol.demandPct} %).`,
       evidence: {
         rows: [{ label: "Demand (kW)", billed: bill.demandKw, expected: Number(m.peakKw.toFixed(3)), difference: Number(diff.toFixed(3)) }],
         notes,

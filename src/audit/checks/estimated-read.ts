@@ -3,7 +3,7 @@
  *
  *  - A streak of ≥ estimateStreakMin consecutive estimated bills (default 2): ONE warning for
  *    the streak (bill = its first bill, period = the whole streak), naming the true-up bill.
- *  - A lone estimated bill: info.
+ *  - A lone estimated bill: info (loneEstimateSeverity; estimates are routine, streaks are not).
  *  - The first actual bill after any estimate (the true-up): info, with its use per day vs
  *    the estimates' (a catch-up can land in a higher block or season).
  * Amount null (the money, if any, comes from the usage-vs-meter comparison merged into it).
@@ -51,7 +51,7 @@ export function checkEstimatedRead(ctx: AuditContext): Finding[] {
         });
       } else {
         out.push(billFinding(ctx, streak[0], {
-          check: "estimated-read", severity: "info", amountAtStake: null,
+          check: "estimated-read", severity: ctx.tol.loneEstimateSeverity, amountAtStake: null,
           title: "Estimated meter read",
           message: `Bill ${streak[0].billId} was based on an estimated read of ${formatQty(streak[0].usage)} ${unit}; the next actual read corrects it.`,
           evidence: { rows, notes: [trueUpNote] },

@@ -10,13 +10,13 @@
  *  - a meter with interval data and no bills at all: one warning.
  * Amount null (the usage is shown as evidence; nothing was overbilled).
  */
-import { DateTime } from "luxon";
+import { DateTime, IANAZone } from "luxon";
 import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
 import { addDays, daysBetween, minDate } from "../dates.ts";
 import { formatPct, formatQty } from "../format.ts";
 import { meteredForPeriod } from "../reconcile.ts";
-import type { Finding, Severity } from "../types.ts";
+import type { Finding, MeteredPeriod, Severity } from "../types.ts";
 
 const MIN_GAP_COVERAGE = 0.5;
 
@@ -32,6 +32,7 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
     let lastIdx = series.values.length - 1;
     while (lastIdx >= 0 && !Number.isFinite(series.values[lastIdx])) lastIdx--;
     if (firstIdx > lastIdx) continue;
+    if (!IANAZone.isValidZone(zone)) continue;
     const dataStart = DateTime.fromMillis(series.startMs[firstIdx], { zone }).toISODate()!;
     let dataEnd = addDays(DateTime.fromMillis(series.startMs[lastIdx], { zone }).toISODate()!, 1);
     const asOf = ctx.input.portfolio.settings.asOf;
@@ -40,7 +41,12 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
 
     const stretch = (from: string, to: string, severity: Severity, why: string, related: Bill[]): void => {
       if (to <= from) return;
-      const m = meteredForPeriod(series, meter.multiplier, from, to, zone);
+      let m: MeteredPeriod;
+      try {
+        m = meteredForPeriod(series, meter.multiplier, from, to, zone, 15, null);
+      } catch {
+        return; // unresolvable zone or date: ingest reports it
+      }
       if (m.coverage < MIN_GAP_COVERAGE) return;
       const days = daysBetween(from, to);
       out.push({
