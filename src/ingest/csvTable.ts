@@ -72,7 +72,7 @@ export class Row {
     }
     const rule = check?.(parsed.value);
     if (rule) {
-      this.problem(name, `${name} ${v} ${rule}`);
+      this.problem(name, `${name} ${v} ${rule}`, `correct the value: ${name} ${rule}`);
       return null;
     }
     return parsed.value;
@@ -128,10 +128,12 @@ export async function readCsvTable(path: string, ctx: FileContext, spec: TableSp
     return { notFound: true, missingColumns: [] };
   }
   const parser = createReadStream(path).pipe(
-    parse({ bom: true, relax_column_count: true, info: true, skip_empty_lines: true }),
+    // relax_quotes: a quote inside an unquoted cell (`He said "hi"`) is kept as text, not an error.
+    parse({ bom: true, relax_column_count: true, relax_quotes: true, info: true, skip_empty_lines: true }),
   );
   let columns: Map<string, number> | null = null;
   let width = 0;
+  let aborted = false;
   try {
     for await (const rec of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) {
       const line = rec.info.lines - countNewlines(rec.record);
@@ -170,12 +172,13 @@ export async function readCsvTable(path: string, ctx: FileContext, spec: TableSp
       if (!row.failed) ctx.use();
     }
   } catch (err) {
+    aborted = true;
     const e = err as { message?: string; lines?: number };
     ctx.error(e.lines ?? 0, 0, `cannot read the rest of the file: ${e.message ?? String(err)}`,
       'check quoting: a quoted cell must end with a quote, and quotes inside it are doubled ("")');
   }
   if (columns === null) {
-    ctx.error(0, 0, "file is empty (no header row)", `add a header naming: ${spec.required.join(", ")}`);
+    if (!aborted) ctx.error(0, 0, "file is empty (no header row)", `add a header naming: ${spec.required.join(", ")}`);
     return { notFound: false, missingColumns: [...spec.required] };
   }
   return { notFound: false, missingColumns: [] };

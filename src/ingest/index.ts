@@ -234,6 +234,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     collector.fileIndex = i;
     const res = await parseIntervalStream(createReadStream(abs("intervals", intervalNames[i]), { highWaterMark: 1 << 20 }), {
       fileLabel: intervalLabels[i], zoneOfMeter, sink: collector,
+      unknownMeterReason: (id) => (rejectedMeters.has(id) ? `was rejected in ${rejectedMeters.get(id)}` : null),
     });
     intervalReports.push(res.report);
     issues.push(...res.issues);

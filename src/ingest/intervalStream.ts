@@ -26,6 +26,8 @@ export interface IntervalParseOptions {
   /** IANA zone of the meter's building, or null when the meter is unknown (rows rejected). */
   zoneOfMeter: (meterId: string) => string | null;
   sink: IntervalSink;
+  /** Why a meter is unknown, when the caller knows better than "not in meters.csv". */
+  unknownMeterReason?: (meterId: string) => string | null;
   /** Detailed issues per file before the rest are summarized (default 1000). */
   maxDetailedIssues?: number;
 }
@@ -382,9 +384,10 @@ export async function parseIntervalStream(
   }
   for (const slot of slots.values()) {
     if (slot.unknownRows > 0) {
-      const message = `meter_id ${JSON.stringify(slot.meterId)} is not in meters.csv: ${slot.unknownRows} row(s) rejected`;
+      const why = options.unknownMeterReason?.(slot.meterId) ?? null;
+      const message = `meter_id ${JSON.stringify(slot.meterId)} ${why ?? "is not in meters.csv"}: ${slot.unknownRows} row(s) rejected`;
       issues.push({ file: fileLabel, line: slot.firstLine, column: colMeter + 1, severity: "error", message,
-        hint: "add the meter to meters.csv or correct the meter_id" });
+        hint: why ? "fix that meter row first" : "add the meter to meters.csv or correct the meter_id" });
       report.rejections.push({ line: slot.firstLine, reason: message });
     }
   }

@@ -73,7 +73,7 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
 
   if (doc.errors.length > 0) {
     for (const e of doc.errors) {
-      const pos = e.linePos?.[0];
+      const pos = e.linePos?.[0] ?? lc.linePos(e.pos[0]);
       issues.push({ file, line: pos?.line ?? 0, column: pos?.col ?? 0, severity: "error",
         message: `YAML syntax: ${e.message.split("\n")[0]}`, hint: "check indentation and that every { [ \" is closed" });
     }
