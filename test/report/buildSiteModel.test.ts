@@ -1,0 +1,104 @@
+import { describe, expect, it } from "vitest";
+import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { EVIL_NAME, fixtureInput } from "./fixture.ts";
+
+describe("buildSiteModel on the fixture portfolio", () => {
+  const input = fixtureInput();
+  const model = buildSiteModel(input);
+  const b1 = model.buildings.find((b) => b.buildingId === "B1")!;
+  const e1 = b1.meters.find((m) => m.meterId === "E1")!;
+
+  it("has one page per building, slugged by building id, with relative links", () => {
+    expect(model.buildings.map((b) => b.path)).toEqual(["buildings/B1.html", "buildings/B2.html"]);
+    expect(model.index.buildingsTable.rows.map((r) => r[0].href)).toEqual(["buildings/B1.html", "buildings/B2.html"]);
+    expect(b1.root).toBe("../");
+    expect(b1.nav.map((n) => n.href)).toEqual(["../index.html", "../methods.html", "../data.html"]);
+    expect(model.index.nav.every((n) => !n.href.startsWith("/"))).toBe(true);
+  });
+
+  it("uses base_path only for canonical links", () => {
+    expect(b1.canonical).toBe("/reports/buildings/B1.html");
+    expect(model.index.canonical).toBe("/reports/index.html");
+  });
+
+  it("passes user text through unchanged, for the template to escape", () => {
+    expect(model.buildings[1].title).toBe(EVIL_NAME);
+    expect(model.index.buildingsTable.rows[1][0].text).toBe(EVIL_NAME);
+  });
+
+  it("never puts NaN, Infinity or undefined text into the model", () => {
+    const json = JSON.stringify(model);
+    expect(json).not.toMatch(/NaN|Infinity|undefined|Invalid Date/);
+  });
+
+  it("shows billed − recomputed per bill (hand-computed: the fixture prices E1-05 $12.34 below its total)", () => {
+    const row = e1.billsTable.rows[4];
+    expect(row[0].text).toBe("May 5, 2024 – Jun 4, 2024");
+    expect(row[7]).toMatchObject({ text: "+$12.34", sort: "12.34", tone: "pos" });
+    expect(e1.billsTable.rows[0][7].text).toBe("$0.00");
+  });
+
+  it("says why a bill was not priced", () => {
+    const g1 = b1.meters.find((m) => m.meterId === "G1")!;
+    expect(g1.billsTable.rows[0][6].text).toBe("not priced: tariff T-gas has no version before 2024-03-01");
+    expect(g1.math[0]).toMatchObject({ state: "not-priced", reason: "tariff T-gas has no version before 2024-03-01" });
+  });
+
+  it("shows each computed line as quantity × rate = amount with its status", () => {
+    const math = e1.math[0];
+    expect(math.state).toBe("priced");
+    expect(math.lines[0]).toMatchObject({ label: "Customer charge", quantity: "1 bill", rate: "$25.00 per bill", amount: "$25.00", status: "exact" });
+    expect(math.lines[2]).toMatchObject({ quantity: "—", status: "needs interval data" });
+    expect(math.total).toBe(math.billed);
+  });
+
+  it("sums the last 12 months of billed cost (window aligned with read dates, so whole bills)", () => {
+    // Latest bill end 2025-03-05 → window 2024-03-05 … 2025-03-04: bills 03..14 of E1 and G1.
+    expect(model.index.windowText).toBe("Mar 5, 2024 – Mar 4, 2025");
+    const inWindow = input.portfolio.bills.filter((b) => b.meterId !== "E2" && b.periodStart >= "2024-03-05");
+    expect(inWindow).toHaveLength(24);
+    const expected = inWindow.reduce((s, b) => s + b.total, 0);
+    const shown = b1.summary.find((f) => f.label === "Billed cost, last 12 months")!.value;
+    expect(shown).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(expected));
+  });
+
+  it("charts monthly use per commodity, conserving each meter's billed usage", () => {
+    const elec = b1.commodities.find((c) => c.commodity === "electricity")!;
+    expect(elec.charts).toHaveLength(1);
+    const sum = elec.charts[0].data.filter((d) => d.series === "E1").reduce((s, d) => s + d.value, 0);
+    const billed = input.portfolio.bills.filter((b) => b.meterId === "E1").reduce((s, b) => s + b.usage, 0);
+    expect(sum).toBeCloseTo(billed, 1); // values rounded to 0.001 per month
+    expect(elec.charts[0].table.rows.length).toBe(new Set(elec.charts[0].data.map((d) => d.month)).size);
+  });
+
+  it("lists interval data coverage by month", () => {
+    expect(e1.meteredTable!.rows[0].map((c) => c.text)).toEqual(["Nov 2024", "28,501 kWh", "2,880 of 2,884", "99.9%"]);
+  });
+
+  it("puts findings on the building page, largest money first, and totals the money at stake", () => {
+    expect(b1.findingsTable!.rows[0][0].text).toBe("Bill total differs from the tariff");
+    expect(model.index.headline.find((h) => h.label.startsWith("Money at stake"))!.value).toBe("$12.34");
+    expect(model.buildings[1].findingsTable!.rows).toEqual([]);
+  });
+
+  it("reports ingest issues on the data page", () => {
+    expect(model.data.issueSummary).toBe("1 error and 1 warning were found in the input files.");
+    expect(model.data.issuesTable.rows[0][0].text).toBe("bills.csv:9:3");
+  });
+
+  it("does not mutate its input", () => {
+    const fresh = fixtureInput();
+    buildSiteModel(fresh);
+    expect(fresh.portfolio.bills).toEqual(fixtureInput().portfolio.bills);
+    expect([...fresh.priced.entries()]).toEqual([...fixtureInput().priced.entries()]);
+  });
+
+  it("handles a portfolio with no bills without NaN", () => {
+    const empty = fixtureInput();
+    empty.portfolio.bills = [];
+    empty.priced = new Map();
+    const m = buildSiteModel(empty);
+    expect(JSON.stringify(m)).not.toMatch(/NaN|undefined/);
+    expect(m.index.windowText).toBe("no bills");
+  });
+});

@@ -1,0 +1,44 @@
+import { describe, expect, it } from "vitest";
+import { addMonthsIso, prorateToWindow, spreadOverMonths, trailingYear } from "../../src/report/periods.ts";
+import type { Bill } from "../../src/domain/types.ts";
+
+const bill = (start: string, end: string): Bill => ({
+  billId: "x", meterId: "m", periodStart: start, periodEnd: end, usage: 1, readType: "actual",
+  demandKw: null, powerFactor: null, total: 1, statementDate: null, source: { file: "bills.csv", line: 2 },
+});
+
+describe("trailingYear", () => {
+  it("ends the day after as_of and starts 12 months earlier", () => {
+    expect(trailingYear({ asOf: "2025-12-31" }, [])).toEqual({ start: "2025-01-01", end: "2026-01-01" });
+  });
+  it("otherwise ends at the latest bill end", () => {
+    expect(trailingYear({ asOf: null }, [bill("2024-01-05", "2024-02-05"), bill("2025-02-05", "2025-03-05")])).toEqual({ start: "2024-03-05", end: "2025-03-05" });
+  });
+  it("is null without bills", () => {
+    expect(trailingYear({ asOf: null }, [])).toBeNull();
+  });
+});
+
+describe("addMonthsIso", () => {
+  it("clamps to the month's last day (hand-computed)", () => {
+    expect(addMonthsIso("2024-01-31", 1)).toBe("2024-02-29");
+    expect(addMonthsIso("2025-03-05", -12)).toBe("2024-03-05");
+    expect(addMonthsIso("2025-01-01", -1)).toBe("2024-12-01");
+  });
+});
+
+describe("proration by days (hand-computed)", () => {
+  it("takes the share of days inside the window", () => {
+    // 31 days 2025-12-15..2026-01-15, 17 of them in 2025.
+    expect(prorateToWindow(310, "2025-12-15", "2026-01-15", { start: "2025-01-01", end: "2026-01-01" })).toBeCloseTo(170, 10);
+    expect(prorateToWindow(310, "2026-01-15", "2026-02-15", { start: "2025-01-01", end: "2026-01-01" })).toBe(0);
+  });
+  it("spreads a period over calendar months and conserves the amount", () => {
+    // 2025-01-16..2025-02-17 = 32 days: 16 in January, 16 in February.
+    const parts = spreadOverMonths(64, "2025-01-16", "2025-02-17");
+    expect(parts).toEqual([{ month: "2025-01", amount: 32 }, { month: "2025-02", amount: 32 }]);
+    const long = spreadOverMonths(1000, "2024-11-20", "2025-02-03");
+    expect(long.map((p) => p.month)).toEqual(["2024-11", "2024-12", "2025-01", "2025-02"]);
+    expect(long.reduce((s, p) => s + p.amount, 0)).toBeCloseTo(1000, 9);
+  });
+});

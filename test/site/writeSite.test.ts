@@ -1,0 +1,105 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mkdir, mkdtemp, readFile, readdir, rm, stat, writeFile } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { SiteWriteError, writeSite } from "../../src/site/writeSite.ts";
+import { fixtureInput } from "../report/fixture.ts";
+
+const DATA = { "findings.csv": "building_id,check\nB1,total-mismatch\n", "portfolio.json": "[]\n" };
+
+describe("writeSite", () => {
+  let work: string;
+  let out: string;
+
+  beforeAll(async () => {
+    work = await mkdtemp(join(tmpdir(), "ohmbook-site-"));
+    out = join(work, "site");
+    // A stale scratch folder from a killed build, with the Vite plugin's temp folder inside.
+    await mkdir(join(work, ".site.ohmbook-build-stale", ".11ty-vite"), { recursive: true });
+    await writeFile(join(work, ".site.ohmbook-build-stale", ".11ty-vite", "x.html"), "old");
+    await writeSite(buildSiteModel(fixtureInput()), DATA, out);
+  }, 60_000);
+
+  afterAll(async () => {
+    await rm(work, { recursive: true, force: true });
+  });
+
+  it("writes index, building, methods and data pages, data files and a bundled script", async () => {
+    const files = await readdir(out, { recursive: true });
+    for (const f of ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html", "data/findings.csv", "data/portfolio.json"]) {
+      expect(files).toContain(f);
+    }
+    expect(await readFile(join(out, "data/findings.csv"), "utf8")).toBe(DATA["findings.csv"]);
+    const js = files.filter((f) => /^assets\/.*\.js$/.test(f));
+    expect(js).toHaveLength(1);
+    // The bundle holds vega-embed (and with it vega), not a bare import the browser cannot resolve.
+    const bundle = await readFile(join(out, js[0]), "utf8");
+    expect(bundle).not.toMatch(/from\s*["']vega-embed["']/);
+    expect(bundle.length).toBeGreaterThan(300_000);
+  });
+
+  it("leaves no scratch folders behind, including a stale one from a killed build", async () => {
+    expect((await readdir(work)).sort()).toEqual(["site"]);
+  });
+
+  it("links assets and pages relatively, so any path prefix works", async () => {
+    const page = await readFile(join(out, "buildings/B1.html"), "utf8");
+    expect(page).toMatch(/<script type="module" crossorigin src="\.\.\/assets\/site-[\w-]+\.js"><\/script>/);
+    expect(page).toMatch(/<link rel="stylesheet" crossorigin href="\.\.\/assets\/site-[\w-]+\.css">/);
+    const hrefs = [...page.matchAll(/\shref="([^"]*)"/g)].map((m) => m[1]);
+    const absolute = hrefs.filter((h) => h.startsWith("/") || /^[a-z]+:\/\//.test(h));
+    // Only the canonical link may be root-based (it carries base_path by design).
+    expect(absolute).toEqual(["/reports/buildings/B1.html"]);
+  });
+
+  it("escapes a building name that is a script tag", async () => {
+    const page = await readFile(join(out, "buildings/B2.html"), "utf8");
+    expect(page).toContain("&lt;script&gt;alert(1)&lt;/script&gt; &amp; &quot;Annex&quot;");
+    expect(page).not.toContain("<script>alert(1)");
+    const index = await readFile(join(out, "index.html"), "utf8");
+    expect(index).not.toContain("<script>alert(1)");
+  });
+
+  it("embeds each chart as SVG fallback, JSON spec and data table", async () => {
+    const page = await readFile(join(out, "buildings/B1.html"), "utf8");
+    const figures = page.match(/<figure class="chart"/g) ?? [];
+    expect(figures).toHaveLength(2);
+    const specs = [...page.matchAll(/<script type="application\/json" class="chart-spec">(.*?)<\/script>/gs)].map((m) => m[1]);
+    expect(specs).toHaveLength(2);
+    for (const s of specs) {
+      expect(s).not.toContain("<");
+      expect(JSON.parse(s).$schema).toContain("vega-lite");
+    }
+    expect(page.match(/<svg[^>]*role="img"/g)).toHaveLength(2);
+    expect(page).toContain("<summary>Numbers behind this chart</summary>");
+  });
+
+  it("has the accessibility basics without JavaScript", async () => {
+    const page = await readFile(join(out, "index.html"), "utf8");
+    expect(page).toContain('<html lang="en">');
+    expect(page).toContain('<link rel="icon" href="data:,">');
+    expect(page).toContain('<a class="skip-link" href="#main">');
+    expect(page).toContain('<main id="main"');
+    expect(page).toMatch(/<caption>Buildings:/);
+    expect(page).toContain('<th scope="col"');
+    expect(page).toContain('<th scope="row"');
+  });
+
+  it("keeps the previous site when a build fails, and leaves nothing half-written", async () => {
+    const before = await readFile(join(out, "index.html"), "utf8");
+    const model = buildSiteModel(fixtureInput());
+    // Two buildings on one page path: Eleventy refuses duplicate output paths.
+    model.buildings[1] = { ...model.buildings[1], path: model.buildings[0].path };
+    await expect(writeSite(model, DATA, out)).rejects.toBeInstanceOf(SiteWriteError);
+    expect(await readFile(join(out, "index.html"), "utf8")).toBe(before);
+    expect((await readdir(work)).sort()).toEqual(["site"]);
+  }, 60_000);
+
+  it("creates no output folder when the first build fails", async () => {
+    const fresh = join(work, "never");
+    await expect(writeSite(buildSiteModel(fixtureInput()), { "../escape.csv": "x" }, fresh)).rejects.toThrow(/outside data/);
+    await expect(stat(fresh)).rejects.toThrow();
+    expect((await readdir(work)).sort()).toEqual(["site"]);
+  }, 60_000);
+});
