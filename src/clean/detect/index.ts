@@ -11,5 +11,5 @@ export { detectResets, DEFAULT_RESET_CONFIG, type ResetConfig } from "./resets.t
 export { detectWeatherGaps } from "./weatherGaps.ts";
 export { maskFromDetections } from "./mask.ts";
 export { typicalLevel } from "./typicalLevel.ts";
-export { medianOf, madOf, quantileOf, rollingMedian, MAD_TO_SIGMA } from "./robustStats.ts";
+export { medianOf, madOf, quantileOf, rollingMedian, rollingMedianBounds, MAD_TO_SIGMA } from "./robustStats.ts";
 export { detectionsToRows, DATA_QUALITY_COLUMNS, type DataQualityRow } from "./rows.ts";

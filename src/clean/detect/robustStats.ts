@@ -52,8 +52,24 @@ export function quantileOf(values: ArrayLike<number>, q: number): number {
  * @example rollingMedian([1, 9, 2, 3, 100, 4], 1) // [5, 2, 3, 3, 4, 52]
  */
 export function rollingMedian(values: ArrayLike<number>, halfWindow: number): Float64Array {
+  const { lo, hi } = rollingMedianBounds(values, halfWindow);
+  const out = new Float64Array(lo.length);
+  for (let i = 0; i < out.length; i++) out[i] = (lo[i]! + hi[i]!) / 2;
+  return out;
+}
+
+/**
+ * The two middle order statistics of each rolling window (equal when the window holds an odd
+ * number of finite values). Any value in [lo, hi] is a median of the window. When NaNs or a
+ * series end leave an even count at a step (four night readings, four day readings), the
+ * midpoint would sit halfway up the step; measuring a reading against the nearer bound
+ * instead keeps an ordinary step from looking like a spike.
+ * @example rollingMedianBounds([1, 9, 2, 3, 100, 4], 1).lo // [1, 2, 3, 3, 4, 4]
+ */
+export function rollingMedianBounds(values: ArrayLike<number>, halfWindow: number): { lo: Float64Array; hi: Float64Array } {
   const n = values.length;
-  const out = new Float64Array(n);
+  const lo = new Float64Array(n);
+  const hi = new Float64Array(n);
   const h = Math.max(0, Math.floor(halfWindow));
   const buf = new Float64Array(2 * h + 1);
   for (let i = 0; i < n; i++) {
@@ -70,9 +86,17 @@ export function rollingMedian(values: ArrayLike<number>, halfWindow: number): Fl
       }
       buf[k] = v;
     }
-    out[i] = m === 0 ? NaN : m % 2 === 1 ? buf[m >> 1]! : (buf[(m >> 1) - 1]! + buf[m >> 1]!) / 2;
+    if (m === 0) {
+      lo[i] = NaN;
+      hi[i] = NaN;
+    } else if (m % 2 === 1) {
+      lo[i] = hi[i] = buf[m >> 1]!;
+    } else {
+      lo[i] = buf[(m >> 1) - 1]!;
+      hi[i] = buf[m >> 1]!;
+    }
   }
-  return out;
+  return { lo, hi };
 }
 
 /** The finite entries, sorted ascending, as a new typed array (numeric sort, no comparator). */

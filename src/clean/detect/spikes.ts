@@ -1,5 +1,5 @@
 import type { IntervalSeries } from "../../domain/types.ts";
-import { MAD_TO_SIGMA, medianOf, rollingMedian } from "./robustStats.ts";
+import { MAD_TO_SIGMA, medianOf, rollingMedianBounds } from "./robustStats.ts";
 import { detectionForRun, flaggedRuns, fmt, followsDirectly, intervalMs, intervalsForHours } from "./seriesGrid.ts";
 import type { Detection } from "./types.ts";
 
@@ -32,7 +32,8 @@ const DAY_MS = 86_400_000;
 
 /**
  * Spikes, up or down: readings far from the rolling median of their neighbours.
- * Residual rᵢ = xᵢ − median(x over ±halfWindowHours); σ for the interval's time-of-day slot
+ * Residual rᵢ = xᵢ − median(x over ±halfWindowHours) (with an even number of readings in the
+ * window, the distance to the nearer middle value); σ for the interval's time-of-day slot
  * (UTC) = 1.4826 × median |r| over all days at that slot; flagged when
  * |rᵢ| > sigmas × σ AND |rᵢ| > max(minShareOfLevel × level, minAbsolute).
  * Why this does not flag an office's morning ramp-up: a median follows a step (the window is
@@ -55,9 +56,15 @@ export function detectSpikes(
   for (let i = 0; i < n; i++) x[i] = skip && skip[i] ? NaN : series.values[i]!;
 
   const half = intervalsForHours(series, cfg.halfWindowHours);
-  const med = rollingMedianOnGrid(series, x, half);
+  const { lo, hi } = rollingMedianOnGrid(series, x, half);
   const resid = new Float64Array(n);
-  for (let i = 0; i < n; i++) resid[i] = x[i]! - med[i]!;
+  const med = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const xi = x[i]!;
+    // Distance to the nearer of the window's two middle values (0 when between them).
+    med[i] = xi > hi[i]! ? hi[i]! : xi < lo[i]! ? lo[i]! : xi;
+    resid[i] = xi - med[i]!;
+  }
 
   // Robust σ per time-of-day slot: one median of |r| per slot over all days.
   const step = intervalMs(series);
@@ -94,17 +101,20 @@ export function detectSpikes(
 
 /**
  * Rolling median that never reaches across a gap in time: the series is cut into segments of
- * adjacent intervals and each segment gets its own `rollingMedian`.
+ * adjacent intervals and each segment gets its own `rollingMedianBounds`.
  */
-function rollingMedianOnGrid(series: IntervalSeries, x: Float64Array, half: number): Float64Array {
+function rollingMedianOnGrid(series: IntervalSeries, x: Float64Array, half: number): { lo: Float64Array; hi: Float64Array } {
   const n = x.length;
-  const out = new Float64Array(n);
+  const lo = new Float64Array(n);
+  const hi = new Float64Array(n);
   let a = 0;
   while (a < n) {
     let b = a + 1;
     while (b < n && followsDirectly(series, b)) b++;
-    out.set(rollingMedian(x.subarray(a, b), half), a);
+    const seg = rollingMedianBounds(x.subarray(a, b), half);
+    lo.set(seg.lo, a);
+    hi.set(seg.hi, a);
     a = b;
   }
-  return out;
+  return { lo, hi };
 }
