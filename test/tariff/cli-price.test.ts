@@ -1,0 +1,110 @@
+/** `ohmbook price` (src/cli/price.ts) end to end on temporary files. Amounts hand-computed. */
+import { mkdtempSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+import { runPrice } from "../../src/cli/price.ts";
+
+const dir = mkdtempSync(join(tmpdir(), "ohmbook-price-"));
+const tariffPath = join(dir, "lvp.yaml");
+writeFileSync(
+  tariffPath,
+  `id: lvp-cli
+name: Larkspur Valley Power test schedule
+commodity: electricity
+usage_unit: kWh
+versions:
+  - from: 2025-01-01
+    periods:
+      peak: { days: weekdays, hours: "12:00-14:00" }
+      off-peak: {}
+    charges:
+      - { label: Customer charge, fixed: 12.75 }
+      - { label: Energy, energy: 0.1125 }
+      - { label: Facility demand, demand: 10.00, window_minutes: 30 }
+      - { label: Peak energy adder, energy: { peak: 0.05, off-peak: 0 } }
+      - { label: Tax, percent: 5 }
+`,
+);
+
+async function run(...argv: string[]) {
+  let out = "";
+  let err = "";
+  const code = await runPrice(argv, { out: (s) => (out += s), err: (s) => (err += s) });
+  return { code, out, err };
+}
+
+describe("runPrice", () => {
+  it("prints an aligned table with every line and the total (--usage)", async () => {
+    const r = await run("--tariff", tariffPath, "--usage", "1250", "--from", "2025-01-01", "--to", "2025-02-01", "--demand", "40");
+    expect(r.code).toBe(0);
+    // Customer 12.75; Energy 1,250 × 0.1125 = 140.625 -> 140.63; Demand 40 × 10 = 400.00;
+    // Peak adder without intervals: January has 23 weekdays × 2 h = 46 peak hours of 744;
+    // 1,250 × 46/744 = 77.2849 kWh × 0.05 = 3.8642 -> 3.86 (marked needs interval data)
+    // Tax 5 % × (12.75 + 140.63 + 400.00 + 3.86 = 557.24) = 27.862 -> 27.86; total 585.10
+    expect(r.out).toMatch(/^Customer charge +1 +bill +12\.75 +12\.75$/m);
+    expect(r.out).toMatch(/^Energy +1,250 +kWh +0\.1125 +140\.63$/m);
+    expect(r.out).toMatch(/^Peak energy adder .* 3\.86 +\[needs interval data\]/m);
+    expect(r.out).toMatch(/^Tax +557\.24 +USD +5% +27\.86/m);
+    expect(r.out).toMatch(/^Total +585\.10 +not exact/m);
+  });
+
+  it("--json prints the computed bill", async () => {
+    const r = await run("--tariff", tariffPath, "--usage", "1250", "--from", "2025-01-01", "--to", "2025-02-01", "--demand", "40", "--json");
+    expect(r.code).toBe(0);
+    const bill = JSON.parse(r.out);
+    expect(bill.total).toBe(585.1);
+    expect(bill.lines).toHaveLength(5);
+    expect(bill.lines[1]).toMatchObject({ label: "Energy", quantity: 1250, unit: "kWh", rate: 0.1125, amount: 140.63, status: "exact" });
+  });
+
+  it("prices from an interval CSV with a multiplier", async () => {
+    // 2025-01-15 (Wednesday), 15-minute rows of 0.5 kWh × multiplier 10 = 5 kWh (20 kW),
+    // except 12:00 and 12:15 at 1.5 × 10 = 15 kWh. Another meter's rows are ignored.
+    const rows = ["meter_id,timestamp,value"];
+    for (let i = 0; i < 96; i++) {
+      const t = new Date(Date.UTC(2025, 0, 15) + i * 900_000).toISOString().replace(".000Z", "Z");
+      rows.push(`M1,${t},${i === 48 || i === 49 ? 1.5 : 0.5}`);
+      rows.push(`M2,${t},9`);
+    }
+    const csv = join(dir, "intervals.csv");
+    writeFileSync(csv, `${rows.join("\n")}\n`);
+    const r = await run("--tariff", tariffPath, "--intervals", csv, "--meter", "M1", "--multiplier", "10", "--from", "2025-01-15", "--to", "2025-01-16", "--json");
+    expect(r.code).toBe(0);
+    const bill = JSON.parse(r.out);
+    // usage = 94 × 5 + 2 × 15 = 500 kWh; Energy 500 × 0.1125 = 56.25
+    // demand: 30-minute max = (15 + 15) kWh / 0.5 h = 60 kW × 10 = 600.00
+    // peak adder: peak 12:00–14:00 = 8 intervals: 2 × 15 + 6 × 5 = 60 kWh × 0.05 = 3.00
+    // tax 5 % × (12.75 + 56.25 + 600.00 + 3.00 = 672.00) = 33.60; total 705.60
+    expect(bill.lines.map((l: { amount: number }) => l.amount)).toEqual([12.75, 56.25, 600, 3, 33.6]);
+    expect(bill.total).toBe(705.6);
+    expect(bill.exact).toBe(true);
+    expect(r.err).toMatch(/96 rows for meter 'M1' \(96 in the period, 0 outside it\), 96 rows of other meters not used; 15-minute intervals/);
+  });
+
+  it("a broken tariff file: file:line:column on stderr, exit 1", async () => {
+    const bad = join(dir, "bad.yaml");
+    writeFileSync(bad, "id: x\ncommodity: electricity\nusage_unit: kWh\nversions:\n  - from: 2025-01-01\n    charges:\n      - { label: A, fixd: 3 }\n");
+    const r = await run("--tariff", bad, "--usage", "1", "--from", "2025-01-01", "--to", "2025-02-01");
+    expect(r.code).toBe(1);
+    expect(r.out).toBe("");
+    expect(r.err).toContain(`${bad}:7:21: error: unknown key 'fixd' in a charge`);
+  });
+
+  it("bad arguments and unpriceable requests: one clear line, exit 1, no stack", async () => {
+    const cases = [
+      [["--tariff", tariffPath, "--usage", "1,250", "--from", "2025-01-01", "--to", "2025-02-01"], /--usage '1,250' is not a number/],
+      [["--tariff", tariffPath, "--usage", "1", "--from", "2025-01-01"], /--to is required/],
+      [["--tariff", tariffPath, "--usage", "1", "--from", "2024-01-01", "--to", "2024-02-01"], /no version of tariff 'lvp-cli' is in force on 2024-01-01/],
+      [["--tariff", tariffPath, "--usage", "1", "--unit", "gal", "--from", "2025-01-01", "--to", "2025-02-01"], /cannot convert gal to kWh/],
+      [["--tariff", join(dir, "missing.yaml"), "--usage", "1", "--from", "2025-01-01", "--to", "2025-02-01"], /cannot read tariff file .*ENOENT/],
+      [["--tariff", tariffPath, "--usage", "1", "--from", "2025-01-01", "--to", "2025-02-01", "--bogus"], /Unknown option '--bogus'/],
+    ] as const;
+    for (const [argv, message] of cases) {
+      const r = await run(...argv);
+      expect(r.code, argv.join(" ")).toBe(1);
+      expect(r.err).toMatch(message);
+      expect(r.err).not.toMatch(/\n\s+at /);
+    }
+  });
+});
