@@ -180,7 +180,7 @@ export const METERS: MeterDef[] = [
   { meterId: "SCH-E", buildingId: "birchfield-school", commodity: "electricity", unit: "kWh", tariffId: "harrow-sc", multiplier: 1, account: "HV-5120-7781",
     electric: { baseKw: 34, occupiedKw: 120, coolKwPerC: 7.5, coolBalanceC: 17, heatKwPerC: 0, heatBalanceC: 0 } },
   { meterId: "SCH-G", buildingId: "birchfield-school", commodity: "gas", unit: "ccf", tariffId: "harrow-gas", multiplier: 1, account: "HV-5120-7782",
-    gas: { baseThermsPerDay: 6, heatThermsPerDegC: 12, heatBalanceC: 15 } },
+    gas: { baseThermsPerDay: 18, heatThermsPerDegC: 12, heatBalanceC: 15 } },
   { meterId: "SCH-W", buildingId: "birchfield-school", commodity: "water", unit: "ccf", tariffId: "harrow-water", multiplier: 1, account: "HWB-301-0092",
     water: { baseGalPerDay: 350, occupiedGalPerDay: 2300, summerUplift: 0.1 } },
   // Millbrook Market Hall: retail, open every day.
@@ -188,7 +188,7 @@ export const METERS: MeterDef[] = [
     electric: { baseKw: 42, occupiedKw: 105, coolKwPerC: 6.5, coolBalanceC: 15, heatKwPerC: 0, heatBalanceC: 0 },
     printsDemand: true, printsLines: true },
   { meterId: "MKT-G", buildingId: "millbrook-market", commodity: "gas", unit: "therm", tariffId: "prairie-gas", multiplier: 1, account: "PCE-300-88413",
-    gas: { baseThermsPerDay: 4, heatThermsPerDegC: 6.2, heatBalanceC: 13 } },
+    gas: { baseThermsPerDay: 16, heatThermsPerDegC: 6.2, heatBalanceC: 13 } },
   { meterId: "MKT-W", buildingId: "millbrook-market", commodity: "water", unit: "gal", tariffId: "prairie-water", multiplier: 1, account: "PCW-07-1144",
     water: { baseGalPerDay: 260, occupiedGalPerDay: 720, summerUplift: 0.25 } },
   // Cedar Flats: warehouse with electric unit heaters, interval data in local time.
@@ -201,7 +201,7 @@ export const METERS: MeterDef[] = [
   { meterId: "CLN-E", buildingId: "willow-clinic", commodity: "electricity", unit: "kWh", tariffId: "prairie-gs", multiplier: 1, account: "PCE-300-91550",
     electric: { baseKw: 22, occupiedKw: 58, coolKwPerC: 3.4, coolBalanceC: 16, heatKwPerC: 0, heatBalanceC: 0 }, printsDemand: true },
   { meterId: "CLN-G", buildingId: "willow-clinic", commodity: "gas", unit: "therm", tariffId: "prairie-gas", multiplier: 1, account: "PCE-300-91551",
-    gas: { baseThermsPerDay: 5, heatThermsPerDegC: 3.1, heatBalanceC: 14 } },
+    gas: { baseThermsPerDay: 11, heatThermsPerDegC: 3.1, heatBalanceC: 14 } },
   { meterId: "CLN-W", buildingId: "willow-clinic", commodity: "water", unit: "gal", tariffId: "prairie-water", multiplier: 1, account: "PCW-07-3318",
     water: { baseGalPerDay: 150, occupiedGalPerDay: 900, summerUplift: 0.06 }, printsLines: true },
   // Fenwick library: all-electric heat pumps.

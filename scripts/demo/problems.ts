@@ -107,15 +107,16 @@ export function plantProblems(meters: Map<string, MeterBills>, buildingOfMeter: 
   // 3. An unexplained extra printed line.
   {
     const mb = get("ASH-G");
-    const k = indexByEndMonth(mb, "2024-02");
+    // A summer bill, so the fee is well above the audit's relative tolerance (0.5 % of the total).
+    const k = indexByEndMonth(mb, "2024-08");
     const bill = mb.priced[k].bill;
-    const fee = 18.5;
-    setBill("ASH-G", k, { ...bill, lines: [...bill.lines, { label: "Meter reading surcharge", amount: fee }], total: round2(bill.total + fee) });
+    const fee = 42.75;
+    setBill("ASH-G", k, { ...bill, lines: [...bill.lines, { label: "Meter access fee", amount: fee }], total: round2(bill.total + fee) });
     add({
       meterId: "ASH-G",
       billIds: [bill.billId],
       checks: ["unexplained-line", "total-mismatch"],
-      change: "an extra printed line \"Meter reading surcharge\" of 18.50 that no tariff charge explains, added to the total",
+      change: "an extra printed line \"Meter access fee\" of 42.75 that no tariff charge explains, added to the total",
       amountAtStakeUsd: fee,
       note: "",
     });
@@ -155,7 +156,7 @@ export function plantProblems(meters: Map<string, MeterBills>, buildingOfMeter: 
       checks: ["period-overlap"],
       change: `period_start moved back 5 days to ${start}, overlapping the previous bill; the 5 days' usage is billed again`,
       amountAtStakeUsd: round2(computed.total - pb.computed.total),
-      note: "amount = cost of re-billing the overlapping days at this bill's rates",
+      note: "amount = this bill's total minus the total of its true (non-overlapping) period; prorating the bill by days gives a somewhat different figure",
     });
   }
 
@@ -309,7 +310,7 @@ export function plantProblems(meters: Map<string, MeterBills>, buildingOfMeter: 
     const id = "ASH-W";
     const mb = get(id);
     const k0 = indexByEndMonth(mb, "2025-08");
-    const leakCcf = [235, 270];
+    const leakCcf = [520, 610];
     let delta = 0;
     const ids: string[] = [];
     for (let j = 0; j < 2; j++) {
