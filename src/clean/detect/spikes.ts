@@ -34,7 +34,7 @@ const DAY_MS = 86_400_000;
  * Spikes, up or down: readings far from the rolling median of their neighbours.
  * Residual rᵢ = xᵢ − median(x over ±halfWindowHours) (with an even number of readings in the
  * window, the distance to the nearer middle value); σ for the interval's time-of-day slot
- * (UTC) = 1.4826 × median |r| over all days at that slot; flagged when
+ * (UTC) = 1.4826 × median |r| over all days in a group of 2 × halfWindow + 1 consecutive slots; flagged when
  * |rᵢ| > sigmas × σ AND |rᵢ| > max(minShareOfLevel × level, minAbsolute).
  * Why this does not flag an office's morning ramp-up: a median follows a step (the window is
  * mostly "before" or mostly "after"), so a ramp leaves small residuals, and the slot's σ is
@@ -66,19 +66,27 @@ export function detectSpikes(
     resid[i] = xi - med[i]!;
   }
 
-  // Robust σ per time-of-day slot: one median of |r| per slot over all days.
+  // Robust σ per time-of-day group: groups of 2 × half + 1 consecutive slots (about ±1 h), so a
+  // short series (few days, so few readings per slot) still has a median one spike cannot move.
   const step = intervalMs(series);
   const slots = Math.ceil(DAY_MS / step);
-  const bySlot: number[][] = Array.from({ length: slots }, () => []);
-  const slotOf = new Int32Array(n);
+  const width = Math.min(slots, 2 * half + 1);
+  const groups = Math.ceil(slots / width);
+  const groupOf = new Int32Array(n);
+  const counts = new Int32Array(groups);
   for (let i = 0; i < n; i++) {
     const t = series.startMs[i]!;
-    const s = Math.min(slots - 1, Math.floor((((t % DAY_MS) + DAY_MS) % DAY_MS) / step));
-    slotOf[i] = s;
-    if (Number.isFinite(resid[i]!)) bySlot[s]!.push(Math.abs(resid[i]!));
+    const slot = Math.min(slots - 1, Math.floor((((t % DAY_MS) + DAY_MS) % DAY_MS) / step));
+    groupOf[i] = Math.floor(slot / width);
+    if (Number.isFinite(resid[i]!)) counts[groupOf[i]!]++;
   }
-  const sigma = new Float64Array(slots);
-  for (let s = 0; s < slots; s++) sigma[s] = MAD_TO_SIGMA * medianOf(bySlot[s]!);
+  const absByGroup = Array.from(counts, (c) => new Float64Array(c));
+  counts.fill(0);
+  for (let i = 0; i < n; i++) {
+    if (Number.isFinite(resid[i]!)) absByGroup[groupOf[i]!]![counts[groupOf[i]!]!++] = Math.abs(resid[i]!);
+  }
+  const sigma = Float64Array.from(absByGroup, (xs) => MAD_TO_SIGMA * medianOf(xs));
+  const slotOf = groupOf;
 
   const floor = Math.max(cfg.minShareOfLevel * level, cfg.minAbsolute);
   const isSpike = (i: number): boolean => {
