@@ -39,6 +39,8 @@ export interface OfficeOptions {
   /** Nights and weekends read exactly 0 (a building that is switched off). */
   offWhenClosed?: boolean;
   startMs?: number;
+  /** Cooling load per °C above 18 °C when occupied (kWh per 15 min). Default 3; 0 = no weather response. */
+  coolingPerDegree?: number;
 }
 
 export interface Office {
@@ -85,7 +87,7 @@ export function makeOffice(opts: OfficeOptions = {}): Office {
     const weekday = dow < 5;
     const occupied = weekday && hourOfDay >= 7 && hourOfDay < 19;
     const t = tempC[Math.floor((ms - wStart) / HOUR_MS)]!;
-    const cooling = 3 * Math.max(t - 18, 0) * (occupied ? 1 : 0.2);
+    const cooling = (opts.coolingPerDegree ?? 3) * Math.max(t - 18, 0) * (occupied ? 1 : 0.2);
     let v: number;
     if (opts.offWhenClosed && !occupied) v = 0;
     else if (occupied) v = (50 + cooling) * (1 + 0.04 * g());
