@@ -161,3 +161,31 @@ describe("loadPortfolio fatal cases", () => {
     expect(r.issues.some((i) => i.severity === "error" && message.test(i.message))).toBe(true);
   });
 });
+
+describe("loadPortfolio weather rules", () => {
+  const dirs: string[] = [];
+  afterAll(async () => {
+    for (const d of dirs) await rm(d, { recursive: true, force: true });
+  });
+
+  it("reads offset-less weather in the buildings' zone, warns when they disagree, converts daily °F", async () => {
+    const dir = await mkdtemp(join(tmpdir(), "ohmbook-ingest-"));
+    dirs.push(dir);
+    await cp(GOOD, dir, { recursive: true });
+    await writeFile(join(dir, "buildings.csv"),
+      "building_id,name,floor_area,timezone,weather_station\nA,Alpha,100,America/New_York,KQQ\nB,Beta,100,America/Chicago,KQQ\nLF-01,Gamma,100,America/New_York,KXAA\nLF-02,Delta,100,America/New_York,KXAA\n");
+    await writeFile(join(dir, "weather", "kqq.csv"), "station_id,timestamp,temperature_c\nKQQ,2024-01-10T00:00,4\nKQQ,2024-01-10T01:00,6\n");
+    await writeFile(join(dir, "weather", "kqq-daily.csv"), "station_id,date,tmax_f,tmin_f\nKQQ,2024-01-11,50,32\n");
+    const r = await loadPortfolio(dir);
+    expect(r.issues.filter((i) => i.severity === "error").map(formatIssue)).toEqual([]);
+    expect(r.issues.filter((i) => /different time zones/.test(i.message))).toHaveLength(1);
+    const w = r.portfolio!.weather.get("KQQ")!;
+    // Read in the first building's zone (New York, UTC−5 in January): 00:00 local = 05:00Z.
+    expect(w.startMs).toBe(Date.UTC(2024, 0, 10, 5));
+    expect(Array.from(w.tempC.slice(0, 2))).toEqual([4, 6]);
+    // Daily 50/32 °F = 10/0 °C; 15:00 local on the 11th (20:00Z) is the maximum.
+    const k = (Date.UTC(2024, 0, 11, 20) - w.startMs) / 3600000;
+    expect(w.tempC[k]).toBeCloseTo(10, 9);
+  });
+});
+
