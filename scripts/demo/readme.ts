@@ -43,8 +43,12 @@ ${intervalNotes.map((n) => `  - ${n}`).join("\n")}
 - Building \`ashelm\` is named \`Ash & Elm "Commons" <North>\` to exercise HTML escaping.
 
 ## Planted problems
-Everything else is meant to be clean. Amount at stake is in USD, signed: positive = the
-bill is too high. Checks are the audit codes of the output contract; the first is the main one.
+Everything else is meant to be clean (an audit run over this folder should find these and
+nothing else). Amount at stake is in USD, signed: positive = the bill is too high; it is the
+billed total minus the total of the same bill done right, both from the tariff engine.
+Checks are audit codes of the output contract that the problem can raise: the first is the
+problem itself, the others follow from it (e.g. \`total-mismatch\` when the audit re-prices
+from interval data) and may be merged into one finding by the audit.
 
 | # | building | meter | bill_id | checks | what was changed | at stake | note |
 |---|---|---|---|---|---|---|---|
