@@ -43,6 +43,12 @@ const ALLOWED_MINUTES = new Set([5, 15, 30, 60]);
 const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
 const KNOWN_COLUMNS = ["meter_id", "timestamp", "value", "interval_minutes"];
 
+/** Byte classes for the line scan: 1 comma, 2 newline, 3 double quote, 0 anything else. */
+const BYTE_CLASS = new Uint8Array(256);
+BYTE_CLASS[44] = 1;
+BYTE_CLASS[10] = 2;
+BYTE_CLASS[34] = 3;
+
 interface MeterSlot {
   meterId: string;
   sinkIndex: number;
@@ -291,11 +297,20 @@ export async function parseIntervalStream(
     sink.row(slot.sinkIndex, instant, value, line, minutes);
   };
 
-  /** Handles bytes [s, e) of one physical line (newline excluded): header, blank or data row. */
-  const processLine = (b: Uint8Array, s: number, e: number): void => {
+  /**
+   * Handles one physical line [s, e) (newline excluded) whose `n` fields were already split at
+   * fieldStart/fieldEnd by the caller's scan; `quoted` when the line contains a double quote.
+   */
+  const processLine = (b: Uint8Array, s: number, e: number, n: number, quoted: boolean): void => {
     lineNo++;
-    if (e > s && b[e - 1] === 13) e--;
-    if (lineNo === 1 && e - s >= 3 && b[s] === 0xef && b[s + 1] === 0xbb && b[s + 2] === 0xbf) s += 3;
+    if (e > s && b[e - 1] === 13) {
+      e--;
+      fieldEnd[n - 1] = e;
+    }
+    if (lineNo === 1 && e - s >= 3 && b[s] === 0xef && b[s + 1] === 0xbb && b[s + 2] === 0xbf) {
+      s += 3;
+      fieldStart[0] = s;
+    }
     if (e === s || skipped) return; // blank line: not a row
     if (!headerDone) {
       headerDone = true;
@@ -303,7 +318,14 @@ export async function parseIntervalStream(
       return;
     }
     report.rowsRead++;
+    if (quoted) processQuoted(decoder.decode(b.subarray(s, e)));
+    else processFields(b, n);
+  };
+
+  /** Splits [s, e) into fields and processes it (used for the few lines that straddle chunks). */
+  const splitAndProcess = (b: Uint8Array, s: number, e: number): void => {
     let n = 0;
+    let quoted = false;
     fieldStart[0] = s;
     for (let j = s; j < e; j++) {
       const c = b[j];
@@ -311,13 +333,10 @@ export async function parseIntervalStream(
         fieldEnd[n] = j;
         if (n < 62) n++;
         fieldStart[n] = j + 1;
-      } else if (c === 34) {
-        processQuoted(decoder.decode(b.subarray(s, e)));
-        return;
-      }
+      } else if (c === 34) quoted = true;
     }
     fieldEnd[n] = e;
-    processFields(b, n + 1);
+    processLine(b, s, e, n + 1, quoted);
   };
 
   const encoder = new TextEncoder();
@@ -343,7 +362,8 @@ export async function parseIntervalStream(
     processFields(joined, parts.length);
   };
 
-  // Lines are cut out of each chunk in place; only a line straddling two chunks is copied.
+  // One pass over each chunk finds line ends and field separators together; lines are
+  // processed in place, only a line straddling two chunks is copied.
   let carry: Uint8Array | null = null;
   for await (const raw of stream) {
     const chunk: Uint8Array =
@@ -362,20 +382,33 @@ export async function parseIntervalStream(
       const joined = new Uint8Array(carry.length + nl);
       joined.set(carry, 0);
       joined.set(chunk.subarray(0, nl), carry.length);
-      processLine(joined, 0, joined.length);
+      splitAndProcess(joined, 0, joined.length);
       carry = null;
       s = nl + 1;
     }
+    let n = 0;
+    let quoted = false;
+    fieldStart[0] = s;
     for (let j = s; j < len; j++) {
-      if (chunk[j] === 10) {
-        processLine(chunk, s, j);
+      const cls = BYTE_CLASS[chunk[j]];
+      if (cls === 0) continue;
+      if (cls === 1) {
+        fieldEnd[n] = j;
+        if (n < 62) n++;
+        fieldStart[n] = j + 1;
+      } else if (cls === 2) {
+        fieldEnd[n] = j;
+        processLine(chunk, s, j, n + 1, quoted);
         s = j + 1;
-      }
+        n = 0;
+        quoted = false;
+        fieldStart[0] = s;
+      } else quoted = true;
     }
     carry = s < len ? chunk.slice(s) : null;
     if (skipped) break;
   }
-  if (carry !== null && !skipped) processLine(carry, 0, carry.length);
+  if (carry !== null && !skipped) splitAndProcess(carry, 0, carry.length);
 
   if (!headerDone && !skipped) {
     skipped = true;

@@ -13,10 +13,13 @@ export interface TimestampScratch {
   offsetMinutes: number;
   /** Empty when valid; otherwise why not. */
   error: string;
+  /** The last valid date part (10 bytes) and its day start: consecutive rows mostly share the day. */
+  lastDate: Uint8Array;
+  lastDayMs: number;
 }
 
 export function newTimestampScratch(): TimestampScratch {
-  return { wallMs: 0, offsetMinutes: Number.NaN, error: "" };
+  return { wallMs: 0, offsetMinutes: Number.NaN, error: "", lastDate: new Uint8Array(10), lastDayMs: Number.NaN };
 }
 
 /** Hint shown with every timestamp rejection. */
@@ -43,28 +46,40 @@ export function parseTimestampBytes(buf: Uint8Array, start: number, end: number,
     return false;
   }
   const i = start;
-  const y1 = d2(buf, i);
-  const y2 = d2(buf, i + 2);
-  const mo = d2(buf, i + 5);
-  const d = d2(buf, i + 8);
   const sep = buf[i + 10];
   const h = d2(buf, i + 11);
   const mi = d2(buf, i + 14);
-  if (
-    y1 < 0 || y2 < 0 || mo < 0 || d < 0 || h < 0 || mi < 0 ||
-    buf[i + 4] !== 45 || buf[i + 7] !== 45 || (sep !== 84 && sep !== 32) || buf[i + 13] !== 58
-  ) {
+  if (h < 0 || mi < 0 || (sep !== 84 && sep !== 32) || buf[i + 13] !== 58) {
     out.error = "is not an ISO 8601 timestamp";
-    return false;
-  }
-  const y = y1 * 100 + y2;
-  if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo)) {
-    out.error = "is not a real calendar day";
     return false;
   }
   if (h > 23 || mi > 59) {
     out.error = "has an hour or minute out of range";
     return false;
+  }
+  const last = out.lastDate;
+  let dayMs = out.lastDayMs;
+  if (
+    dayMs !== dayMs || buf[i + 9] !== last[9] || buf[i + 8] !== last[8] || buf[i + 7] !== last[7] || buf[i + 6] !== last[6] ||
+    buf[i + 5] !== last[5] || buf[i + 4] !== last[4] || buf[i + 3] !== last[3] || buf[i + 2] !== last[2] ||
+    buf[i + 1] !== last[1] || buf[i] !== last[0]
+  ) {
+    const y1 = d2(buf, i);
+    const y2 = d2(buf, i + 2);
+    const mo = d2(buf, i + 5);
+    const d = d2(buf, i + 8);
+    if (y1 < 0 || y2 < 0 || mo < 0 || d < 0 || buf[i + 4] !== 45 || buf[i + 7] !== 45) {
+      out.error = "is not an ISO 8601 timestamp";
+      return false;
+    }
+    const y = y1 * 100 + y2;
+    if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo)) {
+      out.error = "is not a real calendar day";
+      return false;
+    }
+    dayMs = daysFromCivil(y, mo, d) * 86400000;
+    for (let k = 0; k < 10; k++) last[k] = buf[i + k];
+    out.lastDayMs = dayMs;
   }
   let p = i + 16;
   let ms = 0;
@@ -92,7 +107,7 @@ export function parseTimestampBytes(buf: Uint8Array, start: number, end: number,
       ms = Math.round(ms);
     }
   }
-  out.wallMs = daysFromCivil(y, mo, d) * 86400000 + h * 3600000 + mi * 60000 + ms;
+  out.wallMs = dayMs + h * 3600000 + mi * 60000 + ms;
   if (p === end) return true;
   const c = buf[p];
   if (c === 90 && p + 1 === end) {

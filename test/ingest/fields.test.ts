@@ -60,3 +60,13 @@ describe("parseTimestampString", () => {
     },
   );
 });
+
+describe("parseTimestampString reuses the previous day only when all ten date bytes match", () => {
+  it("still rejects a bad separator right after a valid timestamp of the same day", () => {
+    const ts = newTimestampScratch();
+    expect(parseTimestampString("2024-03-10T01:00", ts)).toBe(true);
+    expect(parseTimestampString("2024/03/10T01:15", ts)).toBe(false);
+    expect(parseTimestampString("2024-03-10T01:30", ts) && ts.wallMs === Date.UTC(2024, 2, 10, 1, 30)).toBe(true);
+    expect(parseTimestampString("2024-03-11T00:00", ts) && ts.wallMs === Date.UTC(2024, 2, 11)).toBe(true);
+  });
+});
