@@ -25,9 +25,9 @@
  */
 import { IANAZone } from "luxon";
 import type { IntervalSeries, WeatherSeries } from "../domain/types.ts";
+import { localClockMs } from "./detect/localClock.ts";
 
 const HOUR_MS = 3_600_000;
-const DAY_MS = 86_400_000;
 
 export interface AlignmentOptions {
   /** Intervals to leave out (mask from `detectAnomalies`: 1 = excluded). */
@@ -122,7 +122,7 @@ export function suggestAlignment(
 
   const blockWeeks = Math.max(1, Math.round(blockDays / 7));
   const { blockOf, blocks } = blockPartition(hourly.load.length, blockWeeks * 168);
-  const loadAnom = loadAnomalies(hourly, zone, blockOf, blocks);
+  const loadAnom = loadAnomalies(hourly, timezoneOfBuilding, blockOf, blocks);
   const tempAnom = temperatureAnomalies(weather, hourly.firstHour, blockOf, blocks);
 
   // Per offset and week: moments of the pairs. Blocks are whole weeks, so block moments are
@@ -248,9 +248,9 @@ function hourlyLoad(series: IntervalSeries, mask?: Uint8Array): HourlyLoad | nul
 }
 
 /** Load minus its block's mean for the same local hour of the week (NaN with < 2 samples). */
-function loadAnomalies(hourly: HourlyLoad, zone: IANAZone, blockOf: (k: number) => number, blocks: number): Float64Array {
+function loadAnomalies(hourly: HourlyLoad, timezone: string, blockOf: (k: number) => number, blocks: number): Float64Array {
   const len = hourly.load.length;
-  const slot = localHourOfWeek(hourly.firstHour, len, zone);
+  const slot = localHourOfWeek(hourly.firstHour, len, timezone);
   const sum = new Float64Array(168 * blocks);
   const cnt = new Int32Array(168 * blocks);
   for (let k = 0; k < len; k++) {
@@ -280,26 +280,11 @@ function blockPartition(len: number, blockHours: number): { blockOf: (k: number)
   return { blocks, blockOf: (k) => Math.min(blocks - 1, Math.max(0, Math.floor(k / blockHours))) };
 }
 
-/** Local hour of the week (0 = Monday 00:00 local) for each hour; the zone offset is looked up once a day unless it changes within the day. */
-function localHourOfWeek(firstHour: number, len: number, zone: IANAZone): Int32Array {
-  const slot = new Int32Array(len);
-  let dayStart = -1;
-  let dayOffsetMin = 0;
-  let changes = false;
-  for (let k = 0; k < len; k++) {
-    const ms = (firstHour + k) * HOUR_MS;
-    const day = Math.floor(ms / DAY_MS);
-    if (day !== dayStart) {
-      dayStart = day;
-      dayOffsetMin = zone.offset(day * DAY_MS);
-      changes = zone.offset(day * DAY_MS + DAY_MS - 1) !== dayOffsetMin;
-    }
-    const offMin = changes ? zone.offset(ms) : dayOffsetMin;
-    const localHour = Math.floor((ms + offMin * 60_000) / HOUR_MS);
-    // Epoch hour 0 was Thursday 00:00; +72 h makes Monday 00:00 slot 0.
-    slot[k] = (((localHour + 72) % 168) + 168) % 168;
-  }
-  return slot;
+/** Local hour of the week (0 = Monday 00:00 local) for each hour from `firstHour`. */
+function localHourOfWeek(firstHour: number, len: number, timezone: string): Int32Array {
+  const clock = localClockMs(Float64Array.from({ length: len }, (_, k) => (firstHour + k) * HOUR_MS), timezone);
+  // Epoch hour 0 was Thursday 00:00; +72 h makes Monday 00:00 slot 0.
+  return Int32Array.from(clock, (ms) => (((Math.floor(ms / HOUR_MS) + 72) % 168) + 168) % 168);
 }
 
 /**

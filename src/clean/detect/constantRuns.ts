@@ -21,13 +21,14 @@ export const DEFAULT_CONSTANT_RUN_CONFIG: Readonly<ConstantRunConfig> = Object.f
  * Runs of one repeated non-zero value (a stuck register or a gateway repeating its last
  * reading). Real load wanders; the same exact reading for hours is rare unless the meter's
  * resolution is coarse and the building idles — so, as for zeros, hours of the week where
- * other weeks also repeat readings are not reported. Kind `constant-run`, action `excluded`.
+ * other weeks also repeat readings are not reported (by local clock when `clockMs` is given). Kind `constant-run`, action `excluded`.
  * @example 12.5 kWh every 15 min for 10 h in the middle of a working day → one detection, 40 intervals
  */
 export function detectConstantRuns(
   series: IntervalSeries,
   config: Partial<ConstantRunConfig> = {},
   skip?: Uint8Array,
+  clockMs?: Float64Array,
 ): Detection[] {
   const cfg = { ...DEFAULT_CONSTANT_RUN_CONFIG, ...config };
   const v = series.values;
@@ -43,5 +44,6 @@ export function detectConstantRuns(
     (i) => v[i] === v[i - 1],
     (i) => v[i] !== 0 && repeats(i),
     skip,
+    clockMs,
   );
 }

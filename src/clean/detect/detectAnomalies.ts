@@ -9,6 +9,13 @@ import { detectSpikes } from "./spikes.ts";
 import { typicalLevel } from "./typicalLevel.ts";
 import type { Detection, DetectionResult } from "./types.ts";
 import { detectZeroRuns } from "./zeroRuns.ts";
+import { localClockMs } from "./localClock.ts";
+
+/** Facts about the meter that are not settings. */
+export interface DetectContext {
+  /** IANA zone of the building: "same hour on other days" is then read on its local clock. */
+  timezone?: string;
+}
 
 /**
  * Runs every interval detector on one meter and returns the detections (sorted by start) and
@@ -18,10 +25,18 @@ import { detectZeroRuns } from "./zeroRuns.ts";
  * earlier one already excluded, and spikes are measured with those intervals left out of the
  * rolling median. The typical level (p90 of |value|) is taken with resets and negatives left out.
  * Non-finite values are treated as unusable: masked, never reported as a kind of their own.
+ * With `context.timezone`, time-of-day and time-of-week comparisons use the building's local
+ * clock (a schedule does not move at DST changes); without it, UTC.
+ * @throws RangeError when `context.timezone` is not a valid IANA zone.
  * @example detectAnomalies(series).detections.filter(d => d.kind === "spike")
  */
-export function detectAnomalies(series: IntervalSeries, config: DetectConfigInput = {}): DetectionResult {
+export function detectAnomalies(
+  series: IntervalSeries,
+  config: DetectConfigInput = {},
+  context: DetectContext = {},
+): DetectionResult {
   const cfg = resolveDetectConfig(config);
+  const clockMs = context.timezone === undefined ? undefined : localClockMs(series.startMs, context.timezone);
   const n = series.values.length;
   const taken = new Uint8Array(n);
   const detections: Detection[] = [];
@@ -36,9 +51,9 @@ export function detectAnomalies(series: IntervalSeries, config: DetectConfigInpu
   take(detectResets(series, firstLevel, cfg.reset));
   take(detectNegatives(series, cfg.negative, taken));
   const level = typicalLevel(series, taken);
-  take(detectZeroRuns(series, cfg.zeroRun, taken));
-  take(detectConstantRuns(series, cfg.constantRun, taken));
-  take(detectSpikes(series, level, cfg.spike, taken));
+  take(detectZeroRuns(series, cfg.zeroRun, taken, clockMs));
+  take(detectConstantRuns(series, cfg.constantRun, taken, clockMs));
+  take(detectSpikes(series, level, cfg.spike, taken, clockMs));
 
   detections.sort((a, b) => a.startMs - b.startMs || a.kind.localeCompare(b.kind));
   const mask = maskFromDetections(series, detections);

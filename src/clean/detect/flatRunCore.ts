@@ -29,8 +29,15 @@ export interface FlatRunConfig {
 const WEEK_MS = 7 * 86_400_000;
 const DAY_MS = 86_400_000;
 
-/** Per-interval slot (position within the comparison period) and the period's slot count. */
-export function comparisonSlots(series: IntervalSeries, minWeeksForWeekly: number): { slot: Int32Array; slots: number; period: "week" | "day" } {
+/**
+ * Per-interval slot (position within the comparison period) and the period's slot count.
+ * Slots are taken on `clockMs` (local wall-clock ms from `localClockMs`) when given, else UTC.
+ */
+export function comparisonSlots(
+  series: IntervalSeries,
+  minWeeksForWeekly: number,
+  clockMs?: Float64Array,
+): { slot: Int32Array; slots: number; period: "week" | "day" } {
   const n = series.startMs.length;
   const spanMs = n > 0 ? series.startMs[n - 1]! - series.startMs[0]! + intervalMs(series) : 0;
   const weekly = spanMs >= minWeeksForWeekly * WEEK_MS;
@@ -39,7 +46,7 @@ export function comparisonSlots(series: IntervalSeries, minWeeksForWeekly: numbe
   const slots = Math.ceil(periodMs / step);
   const slot = new Int32Array(n);
   for (let i = 0; i < n; i++) {
-    const t = series.startMs[i]!;
+    const t = clockMs ? clockMs[i]! : series.startMs[i]!;
     const inPeriod = ((t % periodMs) + periodMs) % periodMs;
     slot[i] = Math.min(slots - 1, Math.floor(inPeriod / step));
   }
@@ -51,6 +58,7 @@ export function comparisonSlots(series: IntervalSeries, minWeeksForWeekly: numbe
  * before (adjacent in time), then keeps those the history does not explain.
  * `usual(i)` says whether interval i would count as flat on another week (for zeros: value 0;
  * for constants: part of any repeat) — it is tallied per slot over the whole series.
+ * `clockMs` (optional, from `localClockMs`) puts the slots on the building's local clock.
  */
 export function unusualFlatRuns(
   series: IntervalSeries,
@@ -60,11 +68,12 @@ export function unusualFlatRuns(
   sameAsPrevious: (i: number) => boolean,
   usual: (i: number) => boolean,
   skip?: Uint8Array,
+  clockMs?: Float64Array,
 ): Detection[] {
   const n = series.values.length;
   const minLen = Math.max(cfg.minRunIntervals, intervalsForHours(series, cfg.minRunHours));
   const alwaysLen = intervalsForHours(series, cfg.alwaysFlagHours);
-  const { slot, slots, period } = comparisonSlots(series, cfg.minWeeksForWeekly);
+  const { slot, slots, period } = comparisonSlots(series, cfg.minWeeksForWeekly, clockMs);
 
   const total = new Int32Array(slots);
   const usualCount = new Int32Array(slots);

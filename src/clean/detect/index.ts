@@ -1,7 +1,8 @@
 /** Interval and weather data-quality detectors (issue 5). */
 export type { Detection, DetectionAction, DetectionKind, DetectionResult } from "./types.ts";
 export { DEFAULT_DETECT_CONFIG, resolveDetectConfig, type DetectConfig, type DetectConfigInput } from "./config.ts";
-export { detectAnomalies } from "./detectAnomalies.ts";
+export { detectAnomalies, type DetectContext } from "./detectAnomalies.ts";
+export { localClockMs } from "./localClock.ts";
 export { detectZeroRuns, DEFAULT_ZERO_RUN_CONFIG, type ZeroRunConfig } from "./zeroRuns.ts";
 export { detectConstantRuns, DEFAULT_CONSTANT_RUN_CONFIG, type ConstantRunConfig } from "./constantRuns.ts";
 export { detectSpikes, DEFAULT_SPIKE_CONFIG, type SpikeConfig } from "./spikes.ts";

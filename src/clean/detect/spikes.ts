@@ -34,7 +34,7 @@ const DAY_MS = 86_400_000;
  * Spikes, up or down: readings far from the rolling median of their neighbours.
  * Residual rᵢ = xᵢ − median(x over ±halfWindowHours) (with an even number of readings in the
  * window, the distance to the nearer middle value); σ for the interval's time-of-day slot
- * (UTC) = 1.4826 × median |r| over all days in a group of 2 × halfWindow + 1 consecutive slots; flagged when
+ * (local clock when `clockMs` is given, else UTC) = 1.4826 × median |r| over all days in a group of 2 × halfWindow + 1 consecutive slots; flagged when
  * |rᵢ| > sigmas × σ AND |rᵢ| > max(minShareOfLevel × level, minAbsolute).
  * Why this does not flag an office's morning ramp-up: a median follows a step (the window is
  * mostly "before" or mostly "after"), so a ramp leaves small residuals, and the slot's σ is
@@ -48,6 +48,7 @@ export function detectSpikes(
   level: number,
   config: Partial<SpikeConfig> = {},
   skip?: Uint8Array,
+  clockMs?: Float64Array,
 ): Detection[] {
   const cfg = { ...DEFAULT_SPIKE_CONFIG, ...config };
   const n = series.values.length;
@@ -75,7 +76,7 @@ export function detectSpikes(
   const groupOf = new Int32Array(n);
   const counts = new Int32Array(groups);
   for (let i = 0; i < n; i++) {
-    const t = series.startMs[i]!;
+    const t = clockMs ? clockMs[i]! : series.startMs[i]!;
     const slot = Math.min(slots - 1, Math.floor((((t % DAY_MS) + DAY_MS) % DAY_MS) / step));
     groupOf[i] = Math.floor(slot / width);
     if (Number.isFinite(resid[i]!)) counts[groupOf[i]!]++;

@@ -26,10 +26,10 @@ export const DEFAULT_ZERO_RUN_CONFIG: Readonly<ZeroRunConfig> = Object.freeze({
  * Runs of exact zeros that the meter's own history does not explain (communication outage,
  * dead meter). A zero run at hours of the week that read zero on most other weeks (a building
  * shut at night or at weekends) is not reported; the usual hours at the edges of a reported run
- * are trimmed off. Kind `zero-run`, action `excluded`.
+ * are trimmed off. `clockMs` (from `localClockMs`) compares by local clock instead of UTC. Kind `zero-run`, action `excluded`.
  * @example an office at 0 kWh every night → nothing; the same office at 0 one Tuesday 07:00–19:00 → one 12-h detection
  */
-export function detectZeroRuns(series: IntervalSeries, config: Partial<ZeroRunConfig> = {}, skip?: Uint8Array): Detection[] {
+export function detectZeroRuns(series: IntervalSeries, config: Partial<ZeroRunConfig> = {}, skip?: Uint8Array, clockMs?: Float64Array): Detection[] {
   const cfg = { ...DEFAULT_ZERO_RUN_CONFIG, ...config };
   const v = series.values;
   return unusualFlatRuns(
@@ -40,5 +40,6 @@ export function detectZeroRuns(series: IntervalSeries, config: Partial<ZeroRunCo
     () => true,
     (i) => v[i] === 0,
     skip,
+    clockMs,
   );
 }

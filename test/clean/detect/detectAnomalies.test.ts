@@ -3,10 +3,11 @@
  * with planted faults must yield exactly those faults, with the right kind, start and length;
  * its clean twin — ordinary nights near zero, low weekends — must yield nothing.
  */
+import { DateTime } from "luxon";
 import { describe, expect, it } from "vitest";
 import { detectAnomalies } from "../../../src/clean/detect/index.ts";
 import type { IntervalSeries } from "../../../src/domain/types.ts";
-import { dropRange, indexAt, makeOffice } from "./syntheticOffice.ts";
+import { dropRange, indexAt, makeOffice, ZONE } from "./syntheticOffice.ts";
 
 interface Planted {
   kind: string;
@@ -115,5 +116,33 @@ describe("speed", () => {
     const ms = performance.now() - t0;
     // Generous bound so a busy CI machine does not fail it; the point is "not seconds".
     expect(ms).toBeLessThan(100);
+  });
+});
+
+describe("across a DST change (America/New_York, 9 March 2025)", () => {
+  // Eight weeks from Monday 17 February 2025, local midnight (EST, UTC−5).
+  const start = Date.UTC(2025, 1, 17, 5);
+  const indexOfLocal = (s: IntervalSeries, isoLocal: string): number =>
+    s.startMs.indexOf(DateTime.fromISO(isoLocal, { zone: ZONE }).toMillis());
+
+  it("a building off every night and weekend on the local clock: nothing flagged", () => {
+    const { series } = makeOffice({ seed: 21, startMs: start, offWhenClosed: true });
+    expect(detectAnomalies(series, {}, { timezone: ZONE }).detections).toEqual([]);
+  });
+
+  it("an outage after the change is reported on its local working hours", () => {
+    const { series } = makeOffice({ seed: 21, startMs: start, offWhenClosed: true });
+    const v = Float64Array.from(series.values);
+    const a = indexOfLocal(series, "2025-03-18T07:00");
+    for (let i = a; i < a + 48; i++) v[i] = 0;
+    const { detections } = detectAnomalies({ ...series, values: v }, {}, { timezone: ZONE });
+    expect(detections.map((d) => [d.kind, new Date(d.startMs).toISOString(), d.intervals])).toEqual([
+      ["zero-run", "2025-03-18T11:00:00.000Z", 48], // 07:00 EDT
+    ]);
+  });
+
+  it("the clean twin with ordinary nights and weekends stays clean", () => {
+    const { series } = makeOffice({ seed: 22, startMs: start });
+    expect(detectAnomalies(series, {}, { timezone: ZONE }).detections).toEqual([]);
   });
 });

@@ -1,11 +1,12 @@
 /**
  * Invented test data: an office-like 15-minute load and hourly temperature, seeded so every
- * run is the same. Building in America/New_York, 8 weeks from Monday 2025-06-02 (EDT, UTC−4,
- * no DST change inside). Occupied 07:00–19:00 local on weekdays; nights low (~2 kWh per
+ * run is the same. Building in America/New_York (schedule on the local clock, DST-aware via
+ * luxon), by default 8 weeks from Monday 2025-06-02 (EDT, UTC−4, no DST change inside). Occupied 07:00–19:00 local on weekdays; nights low (~2 kWh per
  * interval, small noise); weekends low (~5); cooling load proportional to degrees above 18 °C,
  * full when occupied and 20 % otherwise. Temperature = diurnal cycle (peak 15:00 local) + a
  * day-to-day anomaly (AR(1) over days) + an hourly AR(1) wiggle.
  */
+import { DateTime } from "luxon";
 import type { IntervalSeries, WeatherSeries } from "../../../src/domain/types.ts";
 
 export const HOUR_MS = 3_600_000;
@@ -67,7 +68,7 @@ export function makeOffice(opts: OfficeOptions = {}): Office {
     const ms = wStart + k * HOUR_MS;
     if (k % 24 === 0) dayAnom = 0.7 * dayAnom + 2.5 * g();
     hourAnom = 0.8 * hourAnom + 0.8 * g();
-    const localHour = (((ms / HOUR_MS + LOCAL_OFFSET_HOURS) % 24) + 24) % 24;
+    const localHour = (((ms / HOUR_MS + utcOffsetHours(ms)) % 24) + 24) % 24;
     const diurnal = 5 * Math.cos((2 * Math.PI * (localHour - 15)) / 24);
     tempC[k] = 24 + diurnal + dayAnom + hourAnom;
   }
@@ -81,7 +82,7 @@ export function makeOffice(opts: OfficeOptions = {}): Office {
   for (let i = 0; i < n; i++) {
     const ms = start + i * intervalMinutes * 60_000;
     startMs[i] = ms;
-    const localMs = ms + LOCAL_OFFSET_HOURS * HOUR_MS;
+    const localMs = ms + utcOffsetHours(ms) * HOUR_MS;
     const dow = (Math.floor(localMs / DAY_MS) + 3) % 7; // 0 = Monday (1970-01-01 was a Thursday)
     const hourOfDay = ((localMs % DAY_MS) + DAY_MS) % DAY_MS / HOUR_MS;
     const weekday = dow < 5;
@@ -98,7 +99,17 @@ export function makeOffice(opts: OfficeOptions = {}): Office {
   return { series: { meterId: "M1", intervalMinutes, startMs, values }, weather };
 }
 
-/** Index of the interval starting at local day `day` (0 = first Monday) and local `hour`. */
+/** UTC offset of America/New_York at an instant, hours (−5 in winter, −4 in summer). */
+export function utcOffsetHours(ms: number): number {
+  // Cached per UTC hour: luxon is exact but slow, and a year of 15-minute data asks 35,040 times.
+  const hour = Math.floor(ms / HOUR_MS);
+  let off = offsetCache.get(hour);
+  if (off === undefined) offsetCache.set(hour, (off = DateTime.fromMillis(hour * HOUR_MS, { zone: ZONE }).offset / 60));
+  return off;
+}
+const offsetCache = new Map<number, number>();
+
+/** Index of the interval starting at local day `day` (0 = first Monday) and local `hour`; valid while no DST change lies between the start and that day. */
 export function indexAt(series: IntervalSeries, day: number, hour: number, minute = 0): number {
   return ((day * 24 + hour) * 60 + minute) / series.intervalMinutes;
 }
