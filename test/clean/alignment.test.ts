@@ -27,6 +27,39 @@ describe("suggestAlignment", () => {
     });
   }
 
+  it("why periodic parts are removed: a plain load–temperature correlation picks the wrong hour here", () => {
+    // Same data, no offset. Correlating raw hourly load with temperature at H − h peaks where the
+    // 07:00–19:00 schedule's middle meets the 15:00 temperature peak, not at 0.
+    const { series, weather } = makeOffice({ seed: 42 });
+    const hourly = new Map<number, number>();
+    series.startMs.forEach((t, i) => {
+      const h = Math.floor(t / 3_600_000);
+      hourly.set(h, (hourly.get(h) ?? 0) + series.values[i]!);
+    });
+    const w0 = weather.startMs / 3_600_000;
+    const naive = (h: number): number => {
+      const xs: number[] = [];
+      const ys: number[] = [];
+      for (const [H, load] of hourly) {
+        xs.push(load);
+        ys.push(weather.tempC[H - h - w0]!);
+      }
+      const mx = xs.reduce((a, b) => a + b) / xs.length;
+      const my = ys.reduce((a, b) => a + b) / ys.length;
+      let sxy = 0, sxx = 0, syy = 0;
+      xs.forEach((x, i) => {
+        sxy += (x - mx) * (ys[i]! - my);
+        sxx += (x - mx) ** 2;
+        syy += (ys[i]! - my) ** 2;
+      });
+      return sxy / Math.sqrt(sxx * syy);
+    };
+    const offsets = Array.from({ length: 29 }, (_, k) => k - 14);
+    const naiveBest = offsets.reduce((b, h) => (naive(h) > naive(b) ? h : b), 0);
+    expect(naiveBest).not.toBe(0);
+    expect(suggestAlignment(series, weather, ZONE).suggestedOffsetHours).toBe(0);
+  });
+
   it("the evidence lists every offset −14…+14 and the runner-up", () => {
     const { series, weather } = makeOffice({ seed: 5 });
     const r = suggestAlignment(shiftStamps(series, 3), weather, ZONE);
