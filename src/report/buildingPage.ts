@@ -199,6 +199,7 @@ function commodityCharts(buildingId: string, commodity: string, meters: Meter[],
       title: `${label} use by month (${unit})`,
       description: `Bar chart of billed ${label.toLowerCase()} use per calendar month in ${unit} for building ${buildingId}, ${formatMonth(months[0])} to ${formatMonth(months[months.length - 1])}, one colour per meter; billing periods are spread over months by days.`,
       valueLabel: `Usage (${unit})`,
+      seriesLabel: "Meter",
       data,
       table: {
         caption: `${label} use by month (${unit}), by meter`,

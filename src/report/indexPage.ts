@@ -7,6 +7,7 @@ import { buildingPath, navFor } from "./nav.ts";
 import { prorateToWindow, type DayWindow } from "./periods.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { windowCost } from "./buildingPage.ts";
+import { monthlyCostChart } from "./costChart.ts";
 
 /** Usage in the window by unit, e.g. "12,345 kWh; 40 MWh", or "—" when none. */
 function usageByUnit(meters: Meter[], billsByMeter: Map<string, Bill[]>, window: DayWindow | null): TableCell {
@@ -89,8 +90,11 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
       value: `${formatMoney(p50, currency)} (range ${formatMoney(p10, currency)} – ${formatMoney(p90, currency)})`,
     });
   }
+  const costChart = monthlyCostChart(input.portfolio.bills, input.portfolio.meters, currency);
   return {
     title: settings.name,
+    charts: costChart ? [costChart] : [],
+    lede: `Utility bills for ${formatNumber(contexts.length)} ${contexts.length === 1 ? "building" : "buildings"}, each re-priced from its tariff and checked. Figures for the last 12 months cover ${windowText(window)}.`,
     root: "",
     path: "index.html",
     nav: navFor("index", ""),

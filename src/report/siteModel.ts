@@ -50,12 +50,14 @@ export interface ChartDatum {
 export interface ChartModel {
   /** Unique within the page; used as the DOM id. */
   id: string;
-  kind: "monthly-usage";
+  kind: "monthly-usage" | "monthly-cost";
   title: string;
   /** One-sentence description for screen readers and the figure caption. */
   description: string;
   /** Axis label for values, e.g. "Usage (kWh)". */
   valueLabel: string;
+  /** Legend title of the series, e.g. "Meter" or "Commodity". */
+  seriesLabel: string;
   data: ChartDatum[];
   /** The same numbers as a table: the text equivalent of the chart. */
   table: TableModel;
@@ -88,11 +90,15 @@ export interface IndexBuildingRow {
 }
 
 export interface IndexPage extends PageBase {
+  /** Opening sentence, e.g. "Utility bills for 6 buildings, each re-priced from its tariff and checked." */
+  lede: string;
   headline: LabelValue[];
   buildingsTable: TableModel;
   /** Sentence naming the 12-month window used, e.g. "Jan 1, 2025 – Dec 31, 2025". */
   windowText: string;
   buildings: IndexBuildingRow[];
+  /** Portfolio charts (monthly billed cost by commodity). */
+  charts: ChartModel[];
 }
 
 export interface MathLine {

@@ -12,6 +12,7 @@ import { renderSvg } from "./charts/renderSvg.ts";
 export function chartSpec(chart: ChartModel): Record<string, unknown> {
   switch (chart.kind) {
     case "monthly-usage":
+    case "monthly-cost":
       return monthlyUsageSpec(chart);
   }
 }
@@ -39,8 +40,11 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
   }
   const sizes: Record<string, number> = {};
   for (const [name, text] of Object.entries(dataFiles)) sizes[name] = Buffer.byteLength(text, "utf8");
+  const indexCharts = [];
+  for (const chart of model.index.charts) indexCharts.push(await prepareChart(chart));
   return {
     ...model,
+    index: { ...model.index, charts: indexCharts },
     buildings,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
   };

@@ -11,6 +11,7 @@ import { createRequire } from "node:module";
 import Eleventy from "@11ty/eleventy";
 import EleventyVitePlugin from "@11ty/eleventy-plugin-vite";
 import type { SiteModel } from "../report/siteModel.ts";
+import { OhmbookError } from "../core/errors.ts";
 import { prepareSite } from "./prepareSite.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
@@ -19,12 +20,7 @@ const CONTENT_DIR = join(PROJECT_ROOT, "content");
 const ELEVENTY_CONFIG = join(PROJECT_ROOT, ".eleventy.js");
 
 /** Raised when the site cannot be written; the previous site (if any) is left untouched. */
-export class SiteWriteError extends Error {
-  constructor(message: string, options?: { cause?: unknown }) {
-    super(message, options);
-    this.name = "SiteWriteError";
-  }
-}
+export class SiteWriteError extends OhmbookError {}
 
 export interface WriteSiteOptions {
   /** Let Eleventy and Vite log progress and errors to the console. Default false. */
@@ -107,6 +103,8 @@ export async function writeSite(
 ): Promise<void> {
   const verbose = options.verbose ?? false;
   const out = resolve(outDir);
+  // Refuse bad data-file names before any work (and before touching the disk).
+  for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
   await mkdir(dirname(out), { recursive: true });
   await removeStaleScratch(out);
   const scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));

@@ -71,6 +71,17 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(elec.charts[0].table.rows.length).toBe(new Set(elec.charts[0].data.map((d) => d.month)).size);
   });
 
+  it("charts the portfolio's monthly billed cost by commodity, conserving the billed totals", () => {
+    const chart = model.index.charts[0];
+    expect(chart.kind).toBe("monthly-cost");
+    expect([...new Set(chart.data.map((d) => d.series))]).toEqual(["Electricity", "Gas"]);
+    const billed = input.portfolio.bills.reduce((s, b) => s + b.total, 0);
+    const charted = chart.data.reduce((s, d) => s + d.value, 0);
+    // Each month-and-commodity value is rounded to the cent: at most 0.005 off per datum.
+    expect(Math.abs(charted - billed)).toBeLessThanOrEqual(0.005 * chart.data.length);
+    expect(model.index.lede).toBe("Utility bills for 2 buildings, each re-priced from its tariff and checked. Figures for the last 12 months cover Mar 5, 2024 – Mar 4, 2025.");
+  });
+
   it("lists interval data coverage by month", () => {
     expect(e1.meteredTable!.rows[0].map((c) => c.text)).toEqual(["Nov 2024", "28,501 kWh", "2,880 of 2,884", "99.9%"]);
   });

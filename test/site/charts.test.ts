@@ -28,8 +28,8 @@ describe("monthlyUsageSpec", () => {
 
   it("every chart of the fixture site is valid against the schema", () => {
     const model = buildSiteModel(fixtureInput());
-    const charts = model.buildings.flatMap((b) => b.commodities.flatMap((c) => c.charts));
-    expect(charts.length).toBeGreaterThan(0);
+    const charts = [...model.index.charts, ...model.buildings.flatMap((b) => b.commodities.flatMap((c) => c.charts))];
+    expect(charts.map((c) => c.kind)).toEqual(["monthly-cost", "monthly-usage", "monthly-usage", "monthly-usage"]);
     for (const c of charts) expect(validate(monthlyUsageSpec(c), schema, schema)).toEqual([]);
   });
 

@@ -75,6 +75,12 @@ describe("writeSite", () => {
     expect(page).toContain("<summary>Numbers behind this chart</summary>");
   });
 
+  it("puts the portfolio cost chart on the index", async () => {
+    const index = await readFile(join(out, "index.html"), "utf8");
+    expect(index).toContain('id="chart-portfolio-cost"');
+    expect(index.match(/<svg[^>]*role="img"/g)).toHaveLength(1);
+  });
+
   it("has the accessibility basics without JavaScript", async () => {
     const page = await readFile(join(out, "index.html"), "utf8");
     expect(page).toContain('<html lang="en">');

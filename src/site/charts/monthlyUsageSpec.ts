@@ -1,4 +1,4 @@
-/** Vega-Lite spec for monthly use: bars per calendar month, stacked by series (meter). */
+/** Vega-Lite spec for monthly values (use or cost): bars per calendar month, stacked by series. */
 import type { ChartModel } from "../../report/siteModel.ts";
 import { chartConfig } from "./palette.ts";
 
@@ -7,7 +7,11 @@ import { chartConfig } from "./palette.ts";
  * `YYYY-MM` strings rather than temporal values, so no time zone can shift a bar.
  * @example monthlyUsageSpec(chart).mark // { type: "bar", tooltip: true }
  */
-export function monthlyUsageSpec(chart: Pick<ChartModel, "title" | "description" | "valueLabel" | "data">): Record<string, unknown> {
+export function monthlyUsageSpec(
+  chart: Pick<ChartModel, "title" | "description" | "valueLabel" | "data"> & Partial<Pick<ChartModel, "seriesLabel" | "kind">>,
+): Record<string, unknown> {
+  const seriesLabel = chart.seriesLabel ?? "Meter";
+  const valueFormat = chart.kind === "monthly-cost" ? ",.2f" : ",.0f";
   return {
     $schema: "https://vega.github.io/schema/vega-lite/v6.json",
     title: chart.title,
@@ -20,11 +24,11 @@ export function monthlyUsageSpec(chart: Pick<ChartModel, "title" | "description"
     encoding: {
       x: { field: "month", type: "ordinal", title: "Month", axis: { labelAngle: -45 } },
       y: { field: "value", type: "quantitative", title: chart.valueLabel, stack: "zero" },
-      color: { field: "series", type: "nominal", title: "Meter" },
+      color: { field: "series", type: "nominal", title: seriesLabel },
       tooltip: [
         { field: "month", type: "ordinal", title: "Month" },
-        { field: "series", type: "nominal", title: "Meter" },
-        { field: "value", type: "quantitative", title: chart.valueLabel, format: ",.0f" },
+        { field: "series", type: "nominal", title: seriesLabel },
+        { field: "value", type: "quantitative", title: chart.valueLabel, format: valueFormat },
       ],
     },
     config: chartConfig(),
