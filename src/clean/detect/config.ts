@@ -44,3 +44,63 @@ export function resolveDetectConfig(input: DetectConfigInput = {}): DetectConfig
     reset: { ...DEFAULT_RESET_CONFIG, ...input.reset },
   };
 }
+
+/** A problem in the `cleaning:` settings, with its YAML key path (e.g. `cleaning.spike.sigmas`). */
+export interface CleaningConfigIssue {
+  path: string;
+  message: string;
+}
+
+const SECTION_KEYS: Record<string, keyof DetectConfig> = {
+  zero_run: "zeroRun",
+  constant_run: "constantRun",
+  spike: "spike",
+  negative: "negative",
+  missing: "missing",
+  reset: "reset",
+};
+
+const camelToSnake = (k: string): string => k.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+
+/**
+ * Reads the `cleaning:` mapping of portfolio.yaml (as parsed YAML) into a `DetectConfigInput`.
+ * Keys are snake_case versions of the config fields (`cleaning: { spike: { half_window_hours: 2 } }`);
+ * every value must be a finite number ≥ 0. Unknown keys and bad values are returned as issues
+ * (and left at their defaults), never thrown. `undefined`/`null` means "all defaults".
+ * @example parseCleaningConfig({ zero_run: { min_run_hours: 6 } }).config.zeroRun?.minRunHours // 6
+ */
+export function parseCleaningConfig(raw: unknown): { config: DetectConfigInput; issues: CleaningConfigIssue[] } {
+  const issues: CleaningConfigIssue[] = [];
+  const config: Record<string, Record<string, number>> = {};
+  if (raw === undefined || raw === null) return { config, issues };
+  if (typeof raw !== "object" || Array.isArray(raw)) {
+    issues.push({ path: "cleaning", message: "expected a mapping of detector names to settings" });
+    return { config, issues };
+  }
+  for (const [sectionKey, sectionValue] of Object.entries(raw)) {
+    const section = SECTION_KEYS[sectionKey];
+    const path = `cleaning.${sectionKey}`;
+    if (!section) {
+      issues.push({ path, message: `unknown detector '${sectionKey}'; known: ${Object.keys(SECTION_KEYS).join(", ")}` });
+      continue;
+    }
+    if (typeof sectionValue !== "object" || sectionValue === null || Array.isArray(sectionValue)) {
+      issues.push({ path, message: "expected a mapping of settings" });
+      continue;
+    }
+    const known = new Map(Object.keys(DEFAULT_DETECT_CONFIG[section]).map((k) => [camelToSnake(k), k]));
+    for (const [key, value] of Object.entries(sectionValue)) {
+      const field = known.get(key);
+      if (!field) {
+        issues.push({ path: `${path}.${key}`, message: `unknown setting; known: ${[...known.keys()].join(", ")}` });
+        continue;
+      }
+      if (typeof value !== "number" || !Number.isFinite(value) || value < 0) {
+        issues.push({ path: `${path}.${key}`, message: `expected a number ≥ 0, got ${JSON.stringify(value)}` });
+        continue;
+      }
+      (config[section] ??= {})[field] = value;
+    }
+  }
+  return { config: config as DetectConfigInput, issues };
+}

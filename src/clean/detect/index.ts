@@ -1,6 +1,13 @@
 /** Interval and weather data-quality detectors (issue 5). */
 export type { Detection, DetectionAction, DetectionKind, DetectionResult } from "./types.ts";
-export { DEFAULT_DETECT_CONFIG, resolveDetectConfig, type DetectConfig, type DetectConfigInput } from "./config.ts";
+export {
+  DEFAULT_DETECT_CONFIG,
+  parseCleaningConfig,
+  resolveDetectConfig,
+  type CleaningConfigIssue,
+  type DetectConfig,
+  type DetectConfigInput,
+} from "./config.ts";
 export { detectAnomalies, type DetectContext } from "./detectAnomalies.ts";
 export { localClockMs } from "./localClock.ts";
 export { detectZeroRuns, DEFAULT_ZERO_RUN_CONFIG, type ZeroRunConfig } from "./zeroRuns.ts";

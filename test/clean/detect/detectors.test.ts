@@ -8,6 +8,7 @@ import {
   detectSpikes,
   detectWeatherGaps,
   detectZeroRuns,
+  parseCleaningConfig,
   resolveDetectConfig,
   DEFAULT_DETECT_CONFIG,
   typicalLevel,
@@ -169,5 +170,23 @@ describe("configuration", () => {
     expect(c.spike.sigmas).toBe(10);
     expect(c.spike.halfWindowHours).toBe(DEFAULT_DETECT_CONFIG.spike.halfWindowHours);
     expect(c.zeroRun).toEqual(DEFAULT_DETECT_CONFIG.zeroRun);
+  });
+});
+
+describe("parseCleaningConfig (portfolio.yaml `cleaning:`)", () => {
+  it("maps snake_case keys onto the config and reports unknown keys and bad values with their path", () => {
+    const { config, issues } = parseCleaningConfig({
+      zero_run: { min_run_hours: 6, always_flag_hours: 48 },
+      spike: { sigmas: "eight", half_window_hours: 2 },
+      spikes: {},
+      reset: { catch_up_levels: -1, colour: 3 },
+    });
+    expect(config).toEqual({ zeroRun: { minRunHours: 6, alwaysFlagHours: 48 }, spike: { halfWindowHours: 2 } });
+    expect(issues.map((i) => i.path)).toEqual(["cleaning.spike.sigmas", "cleaning.spikes", "cleaning.reset.catch_up_levels", "cleaning.reset.colour"]);
+    expect(resolveDetectConfig(config).zeroRun.minRunHours).toBe(6);
+  });
+  it("absent means defaults; a non-mapping is one issue", () => {
+    expect(parseCleaningConfig(undefined)).toEqual({ config: {}, issues: [] });
+    expect(parseCleaningConfig([1]).issues).toHaveLength(1);
   });
 });
