@@ -45,6 +45,29 @@ describe("cascade suppression", () => {
     const f = runAudit(input(portfolio({ bills: [b], billLines: lines }), { priced: new Map([[b.billId, c]]) }));
     expect(f.map((x) => [x.check, x.amountAtStake])).toEqual([["total-mismatch", 32.4], ["line-mismatch", 12.4]]);
   });
+  it("a demand-vs-meter explains the total-mismatch and a coincidental rate-suspect; without reprice it takes the total's amount", () => {
+    const b = bill("2024-01-01", "2024-02-01", { total: 2200, demandKw: 120 });
+    // the engine priced demand from the interval peak (100 kW): computed 2,000.00
+    const rp: RepriceFn = (_b, alt) => (alt.kind === "rate" ? computed([["Demand", 2195]]) : null);
+    const f = runAudit(input(portfolio({ bills: [b], tariffs: ["T1", "T-OLD"] }), {
+      priced: new Map([[b.billId, computed([["Demand", 2000]])]]),
+      metered: new Map([[b.billId, metered(1000, { peakKw: 100 })]]),
+      reprice: rp,
+    }));
+    expect(f.map((x) => [x.check, x.severity, x.amountAtStake])).toEqual([["demand-vs-meter", "error", 200]]);
+    expect(f[0].evidence.notes.filter((n) => n.startsWith("Also explains")).map((n) => n.split(" ")[2])).toEqual(["total-mismatch", "rate-suspect"]);
+  });
+  it("an estimate absorbs its usage-vs-meter without taking its severity", () => {
+    const bills = year(Array(12).fill(1000), (i) => (i === 4 ? { readType: "estimated", usage: 1300 } : i === 5 ? { usage: 700 } : {}));
+    const f = runAudit(input(portfolio({ bills }), {
+      priced: new Map(bills.map((b) => [b.billId, computed([["Energy", 150]])])),
+      metered: new Map(bills.map((b) => [b.billId, metered(1000)])),
+    }));
+    expect(f.map((x) => [x.check, x.severity, x.billId])).toEqual([
+      ["estimated-read", "info", "E1:2024-05-01"],
+      ["estimated-read", "info", "E1:2024-06-01"],
+    ]);
+  });
   it("a rate-suspect absorbs the total-mismatch of its bill", () => {
     const b = bill("2024-01-01", "2024-02-01", { total: 171.2 });
     const rp: RepriceFn = (_b, alt) => (alt.kind === "rate" ? computed([["Energy", 171.2]]) : null);

@@ -4,7 +4,7 @@
  *
  * Tried only when the bill's own re-pricing is exact and its total mismatch exceeds the money
  * tolerance, and a reprice hook is given. An alternative (exact re-pricing) is a match when its
- * difference is within the money tolerance, or at most a tenth of the own difference.
+ * difference is within the money tolerance, or at most 2 % of the own difference (far closer).
  * Severity error; amount = billed − computed under the bill's own tariff (what was overpaid).
  */
 import { billFinding, type AuditContext } from "../context.ts";
@@ -36,7 +36,7 @@ export function checkRateSuspect(ctx: AuditContext): Finding[] {
       if (best === null || Math.abs(diff) < Math.abs(best.diff)) best = { alt, total: priced.total, diff };
     }
     if (best === null) continue;
-    const matches = !exceedsMoneyTolerance(best.diff, best.total, ctx.tol) || Math.abs(best.diff) * 10 <= Math.abs(ownDiff);
+    const matches = !exceedsMoneyTolerance(best.diff, best.total, ctx.tol) || Math.abs(best.diff) <= 0.02 * Math.abs(ownDiff);
     if (!matches) continue;
     out.push(billFinding(ctx, bill, {
       check: "rate-suspect", severity: "error", amountAtStake: ownDiff,

@@ -112,6 +112,30 @@ describe("usage-outlier", () => {
     const f = checkUsageOutlier(ctx(bills));
     expect(f.map((x) => x.billId)).toEqual(["E1:2024-07-01"]);
   });
+  it("two consecutive abnormal bills (a leak) make ONE finding covering both", () => {
+    const bills = twoYears(2500).map((b) => (b.billId === "E1:2025-08-01" ? { ...b, usage: 2600 } : b));
+    const f = checkUsageOutlier(ctx(bills));
+    expect(f).toHaveLength(1);
+    expect(f[0]).toMatchObject({ billId: "E1:2025-07-01", periodStart: "2025-07-01", periodEnd: "2025-09-01" });
+    expect(f[0].relatedBillIds).toContain("E1:2025-08-01");
+  });
+  it("on a meter whose use swings with the seasons (P90/P10 > 1.5) the limit is 2^1.5 ≈ 2.83", () => {
+    // heating-gas-like year: winter 3,000, summer 300 kWh-equivalent (invented)
+    const gas = [3000, 2600, 1800, 900, 400, 300, 300, 300, 400, 1000, 2000, 2800];
+    const mk = (may2025: number) => {
+      const y1 = year(gas);
+      const y2 = year(gas.map((u, i) => (i === 4 ? may2025 : u))).map((b) => {
+        const st = b.periodStart.replace("2024", "2025");
+        const en = b.periodEnd.replace("2025", "2026").replace("2024", "2025");
+        return { ...b, billId: `E1:${st}`, periodStart: st, periodEnd: en };
+      });
+      return [...y1, ...y2];
+    };
+    expect(checkUsageOutlier(ctx(mk(1000)))).toEqual([]); // ×2.5: a cold May can do that
+    const f = checkUsageOutlier(ctx(mk(1200))); // ×3.0
+    expect(f.map((x) => x.billId)).toEqual(["E1:2025-05-01"]);
+    expect(f[0].message).toContain("swings with the seasons");
+  });
   it("clean twin: July 2025 at 1,200 (×1.2) → nothing", () => {
     expect(checkUsageOutlier(ctx(twoYears(1200)))).toEqual([]);
   });
