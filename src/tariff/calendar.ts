@@ -1,8 +1,9 @@
 /**
- * Local calendar for time-of-use pricing: which local day, month and minute each instant falls
- * on in the tariff's zone, and which period applies. Luxon is consulted once per local day (and
- * per instant only on the two DST-change days of a year); everything else is array lookups, so
- * a month of 15-minute data costs a few dozen time-zone conversions, not thousands.
+ * Local calendar for time-of-use pricing: which local day, month and wall-clock minute each
+ * instant falls on in the tariff's zone, and which period applies. The zone's UTC offset is
+ * piecewise constant, so it is looked up (through Luxon) a handful of times per bill, the DST
+ * changes are located by bisection, and every instant is then placed by plain arithmetic:
+ * a month of 15-minute data costs a few dozen zone look-ups, not thousands.
  */
 import { DateTime, IANAZone } from "luxon";
 import { PricingError } from "./errors.ts";
@@ -16,8 +17,6 @@ export interface LocalDay {
   month: number;
   /** 1 = Monday … 7 = Sunday. */
   isoWeekday: number;
-  startMs: number;
-  endMs: number;
 }
 
 export interface LocalTimes {
@@ -29,36 +28,114 @@ export interface LocalTimes {
 }
 
 const DAY_MS = 86_400_000;
+/** Offsets are re-checked at least this often; no zone changes its offset twice within a week. */
+const PROBE_MS = 7 * DAY_MS;
 
 /** Throws a PricingError unless `zone` is an IANA zone name Luxon knows. */
+const knownZones = new Set<string>();
+
 export function assertZone(zone: string): void {
-  if (!IANAZone.isValidZone(zone)) {
+  if (knownZones.has(zone)) return;
+  if (IANAZone.isValidZone(zone)) {
+    knownZones.add(zone);
+  } else {
     throw new PricingError(`unknown time zone '${zone}' (use an IANA name such as America/New_York or UTC)`);
   }
 }
 
-/** UTC instant (ms) of local midnight starting `date` in `zone`. */
+const midnightCache = new Map<string, number>();
+
+/** UTC instant (ms) of local midnight starting `date` in `zone` (cached). */
 export function localMidnightMs(date: string, zone: string): number {
+  const key = `${zone}|${date}`;
+  const hit = midnightCache.get(key);
+  if (hit !== undefined) return hit;
   assertZone(zone);
-  return DateTime.fromISO(date, { zone }).startOf("day").toMillis();
+  const ms = DateTime.fromISO(date, { zone }).startOf("day").toMillis();
+  if (midnightCache.size > 50_000) midnightCache.clear();
+  midnightCache.set(key, ms);
+  return ms;
 }
 
-function dayOf(t: number, zone: string): LocalDay {
-  const local = DateTime.fromMillis(t, { zone });
-  const start = local.startOf("day");
-  const next = start.plus({ days: 1 }).startOf("day");
-  return {
-    date: start.toISODate() as string,
-    month: start.month,
-    isoWeekday: start.weekday,
-    startMs: start.toMillis(),
-    endMs: next.toMillis(),
-  };
+/** A stretch of time with one UTC offset. */
+interface OffsetSegment {
+  startMs: number;
+  offsetMs: number;
+}
+
+const yearSegments = new Map<string, OffsetSegment[]>();
+
+/**
+ * Offset changes of `zone` during one UTC calendar year, cached: offsets probed weekly, each
+ * change located to the second by bisection. The first segment starts at the year's start.
+ */
+function segmentsOfYear(zone: string, year: number): OffsetSegment[] {
+  const key = `${zone}|${year}`;
+  const hit = yearSegments.get(key);
+  if (hit) return hit;
+  const z = IANAZone.create(zone);
+  const off = (t: number) => z.offset(t) * 60_000;
+  const fromMs = Date.UTC(year, 0, 1);
+  const toMs = Date.UTC(year + 1, 0, 1);
+  let t = fromMs;
+  let cur = off(t);
+  const out: OffsetSegment[] = [{ startMs: fromMs, offsetMs: cur }];
+  while (t < toMs) {
+    const next = Math.min(t + PROBE_MS, toMs);
+    const o = off(next);
+    if (o !== cur) {
+      let lo = t;
+      let hi = next;
+      while (hi - lo > 1000) {
+        const mid = lo + Math.floor((hi - lo) / 2000) * 1000;
+        if (off(mid) === cur) lo = mid;
+        else hi = mid;
+      }
+      cur = off(hi);
+      if (hi < toMs) out.push({ startMs: hi, offsetMs: cur });
+      t = hi;
+      continue;
+    }
+    t = next;
+  }
+  yearSegments.set(key, out);
+  return out;
+}
+
+/** The offset segments of `zone` covering [fromMs, toMs]; the first one is open to the past. */
+export function offsetSegments(zone: string, fromMs: number, toMs: number): OffsetSegment[] {
+  const y0 = new Date(fromMs).getUTCFullYear();
+  const y1 = new Date(toMs).getUTCFullYear();
+  const out: OffsetSegment[] = [];
+  for (let y = y0; y <= y1; y++) {
+    for (const seg of segmentsOfYear(zone, y)) {
+      if (out.length > 0 && out[out.length - 1].offsetMs === seg.offsetMs) continue;
+      out.push(seg);
+    }
+  }
+  out[0] = { startMs: Number.NEGATIVE_INFINITY, offsetMs: out[0].offsetMs };
+  return out;
+}
+
+/** Civil date of a day number (days since 1970-01-01), after H. Hinnant's days_from_civil inverse. */
+function civil(dayNum: number): LocalDay {
+  const z = dayNum + 719468;
+  const era = Math.floor(z / 146097);
+  const doe = z - era * 146097;
+  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365);
+  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100));
+  const mp = Math.floor((5 * doy + 2) / 153);
+  const d = doy - Math.floor((153 * mp + 2) / 5) + 1;
+  const m = mp < 10 ? mp + 3 : mp - 9;
+  const y = yoe + era * 400 + (m <= 2 ? 1 : 0);
+  const isoWeekday = ((((dayNum + 3) % 7) + 7) % 7) + 1; // 1970-01-01 was a Thursday (4)
+  const date = `${String(y).padStart(4, "0")}-${String(m).padStart(2, "0")}-${String(d).padStart(2, "0")}`;
+  return { date, month: m, isoWeekday };
 }
 
 /**
- * Local day and wall-clock minute of each instant. Instants should be sorted (then one Luxon
- * call per day); unsorted input is still correct, only slower.
+ * Local day and wall-clock minute of each instant in `zone`. On a 25-hour day the repeated hour
+ * gets the same minutes twice; on a 23-hour day the skipped hour never appears.
  */
 export function localTimes(startMs: Float64Array, zone: string): LocalTimes {
   assertZone(zone);
@@ -66,32 +143,36 @@ export function localTimes(startMs: Float64Array, zone: string): LocalTimes {
   const dayIndex = new Int32Array(n);
   const minuteOfDay = new Int16Array(n);
   const days: LocalDay[] = [];
-  const byDate = new Map<string, number>();
-  let cur: LocalDay | null = null;
-  let curIdx = -1;
-  let regular = true;
+  if (n === 0) return { dayIndex, minuteOfDay, days };
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    if (startMs[i] < lo) lo = startMs[i];
+    if (startMs[i] > hi) hi = startMs[i];
+  }
+  const segs = offsetSegments(zone, lo, hi);
+  const byDay = new Map<number, number>();
+  let seg = 0;
+  let lastDayNum = Number.NaN;
+  let lastIdx = -1;
   for (let i = 0; i < n; i++) {
     const t = startMs[i];
-    if (cur === null || t < cur.startMs || t >= cur.endMs) {
-      const day = dayOf(t, zone);
-      let idx = byDate.get(day.date);
+    if (t < segs[seg].startMs) seg = 0; // unsorted input: restart the scan
+    while (seg + 1 < segs.length && t >= segs[seg + 1].startMs) seg++;
+    const local = t + segs[seg].offsetMs;
+    const dayNum = Math.floor(local / DAY_MS);
+    if (dayNum !== lastDayNum) {
+      let idx = byDay.get(dayNum);
       if (idx === undefined) {
         idx = days.length;
-        days.push(day);
-        byDate.set(day.date, idx);
+        days.push(civil(dayNum));
+        byDay.set(dayNum, idx);
       }
-      cur = days[idx];
-      curIdx = idx;
-      regular = cur.endMs - cur.startMs === DAY_MS;
+      lastDayNum = dayNum;
+      lastIdx = idx;
     }
-    dayIndex[i] = curIdx;
-    if (regular) {
-      minuteOfDay[i] = Math.floor((t - cur.startMs) / 60_000);
-    } else {
-      // A 23- or 25-hour day: the wall clock jumps, so ask Luxon for this instant.
-      const local = DateTime.fromMillis(t, { zone });
-      minuteOfDay[i] = local.hour * 60 + local.minute;
-    }
+    dayIndex[i] = lastIdx;
+    minuteOfDay[i] = Math.floor((local - dayNum * DAY_MS) / 60_000);
   }
   return { dayIndex, minuteOfDay, days };
 }

@@ -9,6 +9,7 @@ import { hourOfWeek, periodIndices } from "./calendar.ts";
 import { billingDemandKw, maxWindowDemandKw } from "./demand.ts";
 import { MINIMUM_BILL_LABEL } from "./load.ts";
 import { roundCents, sumAmounts } from "./rounding.ts";
+import { groupedNumber } from "./format.ts";
 
 export interface VersionResult {
   lines: ComputedLine[];
@@ -25,9 +26,7 @@ export function worstStatus(statuses: Iterable<LineStatus>): LineStatus {
   return worst;
 }
 
-function fmt(n: number, digits = 4): string {
-  return Number(n.toFixed(digits)).toLocaleString("en-US", { maximumFractionDigits: digits });
-}
+const fmt = groupedNumber;
 
 /** Shares of usage by period, with how they were obtained. */
 interface PeriodSplit {
