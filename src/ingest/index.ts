@@ -7,7 +7,7 @@ import { createReadStream } from "node:fs";
 import { readFile, readdir, stat } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import type { InputIssue } from "../core/issues.ts";
-import type { FileReport, Portfolio, PortfolioSettings, WeatherSeries } from "../domain/types.ts";
+import type { FileReport, Portfolio, PortfolioSettings } from "../domain/types.ts";
 import { assembleIntervals } from "./assembleIntervals.ts";
 import { FileContext } from "./fileContext.ts";
 import { IntervalCollector } from "./intervalCollector.ts";
@@ -16,9 +16,9 @@ import { DEFAULT_SETTINGS, parsePortfolioYaml } from "./portfolioYaml.ts";
 import { readBillLines, readBills } from "./readBills.ts";
 import { readBuildings } from "./readBuildings.ts";
 import { readMeters } from "./readMeters.ts";
-import { readWeatherFile, type StationReadings } from "./readWeather.ts";
 import { loadTariffFiles, type Tariff } from "./tariffs.ts";
-import { buildWeatherSeries, type WeatherGap } from "./weatherGrid.ts";
+import type { WeatherGap } from "./weatherGrid.ts";
+import { loadWeatherFolder } from "./loadWeather.ts";
 
 export type { WeatherGap } from "./weatherGrid.ts";
 export type { Tariff } from "./tariffs.ts";
@@ -164,61 +164,9 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
   }
 
   // weather/*.csv and weather/normals/*.csv
-  const zonesOfStation = new Map<string, string[]>();
-  for (const b of buildings) {
-    const list = zonesOfStation.get(b.weatherStation) ?? [];
-    if (!list.includes(b.timezone)) list.push(b.timezone);
-    zonesOfStation.set(b.weatherStation, list);
-  }
-  const zoneWarned = new Set<string>();
-  const weatherGaps: WeatherGap[] = [];
-  const readStations = async (sub: string[], allowDaily: boolean): Promise<Map<string, StationReadings>> => {
-    const byStation = new Map<string, StationReadings>();
-    for (const name of await listFiles(abs(...sub), [".csv"])) {
-      const ctx = open(label(...sub, name));
-      await readWeatherFile(abs(...sub, name), ctx, byStation, (station) => {
-        const zones = zonesOfStation.get(station);
-        if (!zones) return null;
-        if (zones.length > 1 && !zoneWarned.has(station)) {
-          zoneWarned.add(station);
-          ctx.warn(0, 0, `buildings using station ${station} are in different time zones (${zones.join(", ")}); local timestamps are read in ${zones[0]}`,
-            "write weather timestamps with a UTC offset");
-        }
-        return zones[0];
-      }, allowDaily);
-      close(ctx);
-    }
-    return byStation;
-  };
-  const toSeries = (byStation: Map<string, StationReadings>, collectGaps: boolean): Map<string, WeatherSeries> => {
-    const out = new Map<string, WeatherSeries>();
-    for (const [station, r] of [...byStation].sort((a, b) => (a[0] < b[0] ? -1 : 1))) {
-      const built = buildWeatherSeries(station, r.hourly, r.daily, zonesOfStation.get(station)?.[0] ?? "UTC", settings.weatherMaxGapHours);
-      if (!built) continue;
-      out.set(station, built.series);
-      if (collectGaps) weatherGaps.push(...built.gaps);
-    }
-    return out;
-  };
-  const weather = toSeries(await readStations(["weather"], true), true);
-  const normals = toSeries(await readStations(["weather", "normals"], false), false);
-  for (const g of weatherGaps) {
-    const hoursText = `${g.hours} hour(s) from ${new Date(g.startMs).toISOString()}`;
-    issues.push({
-      file: label("weather"), line: 0, column: 0, severity: "warning",
-      message: g.action === "interpolated"
-        ? `station ${g.stationId}: gap of ${hoursText} filled by linear interpolation`
-        : `station ${g.stationId}: gap of ${hoursText} is longer than ${settings.weatherMaxGapHours} h and stays missing`,
-      hint: g.action === "interpolated" ? "nothing to do; the filled hours are marked" : "add the missing readings, or raise weather_max_gap_hours in portfolio.yaml",
-    });
-  }
-  for (const b of buildings) {
-    if (!weather.has(b.weatherStation)) {
-      issues.push({ file: b.source.file, line: b.source.line, column: 0, severity: "warning",
-        message: `building ${b.buildingId}: weather_station ${b.weatherStation} has no data in weather/`,
-        hint: "add the station's readings to weather/ or correct the station id; weather normalization is skipped without them" });
-    }
-  }
+  const w = await loadWeatherFolder({ buildings, maxGapHours: settings.weatherMaxGapHours, listFiles, abs, label, open, close });
+  const { weather, normals, gaps: weatherGaps } = w;
+  issues.push(...w.issues);
 
   // intervals/*.csv
   const intervalNames = await listFiles(abs("intervals"), [".csv"]);

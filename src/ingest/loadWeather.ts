@@ -1,0 +1,98 @@
+/**
+ * The weather part of ingest: reads weather/*.csv and weather/normals/*.csv, resolves each
+ * station's time zone from the buildings using it, builds the hourly series and reports gaps
+ * and buildings whose station has no data.
+ */
+import type { InputIssue } from "../core/issues.ts";
+import type { Building, WeatherSeries } from "../domain/types.ts";
+import type { FileContext } from "./fileContext.ts";
+import { readWeatherFile, type StationReadings } from "./readWeather.ts";
+import { buildWeatherSeries, type WeatherGap } from "./weatherGrid.ts";
+
+export interface WeatherFolderInput {
+  buildings: readonly Building[];
+  maxGapHours: number;
+  /** Sorted file names with one of `exts` in a folder (empty when absent). */
+  listFiles: (dir: string, exts: readonly string[]) => Promise<string[]>;
+  /** Absolute path / issue label of a path inside the portfolio folder. */
+  abs: (...parts: string[]) => string;
+  label: (...parts: string[]) => string;
+  /** Opens / closes a file's report in the caller's bookkeeping. */
+  open: (file: string) => FileContext;
+  close: (ctx: FileContext) => void;
+}
+
+export interface WeatherFolderResult {
+  weather: Map<string, WeatherSeries>;
+  normals: Map<string, WeatherSeries>;
+  gaps: WeatherGap[];
+  /** Gap reports and missing-station warnings (file issues go through `close`). */
+  issues: InputIssue[];
+}
+
+/**
+ * Loads all weather of a portfolio folder. Timestamps without offset are read in the zone of
+ * the first building using the station (a warning when those buildings' zones differ).
+ */
+export async function loadWeatherFolder(input: WeatherFolderInput): Promise<WeatherFolderResult> {
+  const { buildings, maxGapHours, listFiles, abs, label, open, close } = input;
+  const issues: InputIssue[] = [];
+  const gaps: WeatherGap[] = [];
+  const zonesOfStation = new Map<string, string[]>();
+  for (const b of buildings) {
+    const list = zonesOfStation.get(b.weatherStation) ?? [];
+    if (!list.includes(b.timezone)) list.push(b.timezone);
+    zonesOfStation.set(b.weatherStation, list);
+  }
+  const zoneWarned = new Set<string>();
+
+  const readStations = async (sub: string[], allowDaily: boolean): Promise<Map<string, StationReadings>> => {
+    const byStation = new Map<string, StationReadings>();
+    for (const name of await listFiles(abs(...sub), [".csv"])) {
+      const ctx = open(label(...sub, name));
+      await readWeatherFile(abs(...sub, name), ctx, byStation, (station) => {
+        const zones = zonesOfStation.get(station);
+        if (!zones) return null;
+        if (zones.length > 1 && !zoneWarned.has(station)) {
+          zoneWarned.add(station);
+          ctx.warn(0, 0, `buildings using station ${station} are in different time zones (${zones.join(", ")}); local timestamps are read in ${zones[0]}`,
+            "write weather timestamps with a UTC offset");
+        }
+        return zones[0];
+      }, allowDaily);
+      close(ctx);
+    }
+    return byStation;
+  };
+  const toSeries = (byStation: Map<string, StationReadings>, collectGaps: boolean): Map<string, WeatherSeries> => {
+    const out = new Map<string, WeatherSeries>();
+    for (const [station, r] of [...byStation].sort((a, b) => (a[0] < b[0] ? -1 : 1))) {
+      const built = buildWeatherSeries(station, r.hourly, r.daily, zonesOfStation.get(station)?.[0] ?? "UTC", maxGapHours);
+      if (!built) continue;
+      out.set(station, built.series);
+      if (collectGaps) gaps.push(...built.gaps);
+    }
+    return out;
+  };
+
+  const weather = toSeries(await readStations(["weather"], true), true);
+  const normals = toSeries(await readStations(["weather", "normals"], false), false);
+  for (const g of gaps) {
+    const span = `${g.hours} hour(s) from ${new Date(g.startMs).toISOString()}`;
+    issues.push({
+      file: label("weather"), line: 0, column: 0, severity: "warning",
+      message: g.action === "interpolated"
+        ? `station ${g.stationId}: gap of ${span} filled by linear interpolation`
+        : `station ${g.stationId}: gap of ${span} is longer than ${maxGapHours} h and stays missing`,
+      hint: g.action === "interpolated" ? "nothing to do; the filled hours are marked" : "add the missing readings, or raise weather_max_gap_hours in portfolio.yaml",
+    });
+  }
+  for (const b of buildings) {
+    if (!weather.has(b.weatherStation)) {
+      issues.push({ file: b.source.file, line: b.source.line, column: 0, severity: "warning",
+        message: `building ${b.buildingId}: weather_station ${b.weatherStation} has no data in weather/`,
+        hint: "add the station's readings to weather/ or correct the station id; weather normalization is skipped without them" });
+    }
+  }
+  return { weather, normals, gaps, issues };
+}
