@@ -34,7 +34,7 @@ export interface AlignmentOptions {
   mask?: Uint8Array;
   /** Offsets scanned: −max…+max whole hours. Default 14. */
   maxOffsetHours?: number;
-  /** Length of the blocks within which periodic means are removed, days. Default 56. */
+  /** Length of the blocks within which periodic means are removed, days, rounded to whole weeks. Default 56 (8 weeks). */
   blockDays?: number;
   /** `strong` needs at least this many days of paired data. Default 28. */
   minDaysForStrong?: number;
