@@ -45,6 +45,8 @@ export async function loadWeatherFolder(input: WeatherFolderInput): Promise<Weat
     zonesOfStation.set(b.weatherStation, list);
   }
   const zoneWarned = new Set<string>();
+  /** First file each station was read from, so gap reports can name a file. */
+  const fileOfStation = new Map<string, string>();
 
   const readStations = async (sub: string[], allowDaily: boolean): Promise<Map<string, StationReadings>> => {
     const byStation = new Map<string, StationReadings>();
@@ -60,6 +62,7 @@ export async function loadWeatherFolder(input: WeatherFolderInput): Promise<Weat
         }
         return zones[0];
       }, allowDaily);
+      for (const station of byStation.keys()) if (!fileOfStation.has(station)) fileOfStation.set(station, ctx.file);
       close(ctx);
     }
     return byStation;
@@ -80,7 +83,7 @@ export async function loadWeatherFolder(input: WeatherFolderInput): Promise<Weat
   for (const g of gaps) {
     const span = `${g.hours} hour(s) from ${new Date(g.startMs).toISOString()}`;
     issues.push({
-      file: label("weather"), line: 0, column: 0, severity: "warning",
+      file: fileOfStation.get(g.stationId) ?? label("weather"), line: 0, column: 0, severity: "warning",
       message: g.action === "interpolated"
         ? `station ${g.stationId}: gap of ${span} filled by linear interpolation`
         : `station ${g.stationId}: gap of ${span} is longer than ${maxGapHours} h and stays missing`,
