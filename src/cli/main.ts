@@ -84,7 +84,7 @@ function reportError(error: unknown, io: CliIo): number {
   return 1;
 }
 
-function parse(args: string[], options: Parameters<typeof parseArgs>[0]["options"]) {
+function parse(args: string[], options: NonNullable<NonNullable<Parameters<typeof parseArgs>[0]>["options"]>) {
   try {
     return parseArgs({ args, options, allowPositionals: true, strict: true });
   } catch (error) {

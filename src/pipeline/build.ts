@@ -16,7 +16,9 @@ import type { Reporter } from "../cli/progress.ts";
 import { silentReporter } from "../cli/progress.ts";
 import type { PricedBill } from "./priceBills.ts";
 import { priceMeterBills } from "./priceBills.ts";
-import { reconcileBuilding } from "./reconcile.ts";
+import { meteredForBills } from "../audit/reconcile.ts";
+import { assessIntervalMeters } from "./dataQuality.ts";
+import { makeRepricer } from "./reprice.ts";
 import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { buildDataFiles } from "./outputs.ts";
@@ -107,7 +109,8 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   reporter.stage(`Writing the site to ${options.outDir}`);
-  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps ?? [] });
+  const quality = assessIntervalMeters(portfolio);
+  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality });
   const model = buildSiteModel({
     portfolio,
     priced,
@@ -157,13 +160,14 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
       });
       for (const [id, p] of meterPriced) priced.set(id, p);
     }
-    const metered = reconcileBuilding(portfolio, building);
+    const scoped = scopeToBuilding(portfolio, building);
+    const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)));
     const baselines = fitBuildingBaselines(portfolio, building);
     const findings = runAudit({
-      portfolio: scopeToBuilding(portfolio, building),
+      portfolio: scoped,
       priced: new Map([...priced].map(([id, p]) => [id, p.computed])),
       metered,
-      tolerances: portfolio.settings.tolerances,
+      reprice: makeRepricer(scoped),
       expectedUsage: expectedUsageFromBaselines(baselines),
     });
     return { building, priced, findings, baselines, failure: null };
@@ -190,6 +194,14 @@ function expectedUsageFromBaselines(baselines: MeterBaseline[]) {
   const map = new Map<string, { p50: number; low: number; high: number }>();
   for (const b of baselines) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
   return map;
+}
+
+/** The demand window of a tariff's first demand charge (15 minutes when it has none). */
+function demandWindowMinutes(tariff: Tariff | undefined): number {
+  for (const version of tariff?.versions ?? []) {
+    for (const charge of version.charges) if (charge.kind === "demand") return charge.windowMinutes;
+  }
+  return 15;
 }
 
 function roundCents(x: number): number {

@@ -1,0 +1,215 @@
+/**
+ * Bill-level weather baselines per meter: each bill becomes a point (mean outdoor temperature
+ * over its service period, use per day), a change-point model is chosen among 1P…5P
+ * (src/model/changePoint.ts, ASHRAE RP-1050 forms with Guideline 14 statistics), and the
+ * chosen model gives
+ *   - weather-normalized annual use: Σ over the 12 months of a typical year of
+ *     predicted use/day at that month's typical mean temperature × days in the month (365-day year);
+ *   - an expected-usage band per bill for the `usage-outlier` audit check.
+ * Estimated reads are left out of the fit (the utility's guess is not the building's use).
+ */
+import { DateTime } from "luxon";
+import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
+import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "../model/changePoint.ts";
+import { GUIDELINE14_LIMITS } from "../model/stats.ts";
+import { daysBetween } from "../core/time.ts";
+import { startOfLocalDayMs } from "../core/time.ts";
+import type { ReportModelSummary } from "../report/input.ts";
+
+const HOUR_MS = 3_600_000;
+/** Share of a period's hours that must have a temperature for the bill to be a model point. */
+const MIN_WEATHER_COVERAGE = 0.8;
+/** Fewest points for a model at all (a 5P needs more; the search enforces points per segment). */
+const MIN_POINTS = 9;
+/** Prediction-interval level for the outlier band: wide on purpose, to keep false alarms rare. */
+export const OUTLIER_BAND_LEVEL = 0.99;
+
+export interface MeterBaseline {
+  meterId: string;
+  buildingId: string;
+  /** Temperature unit of the model's x axis. */
+  tempUnit: "C" | "F";
+  /** Points used in the fit (and bills left out, with why). */
+  points: (ChangePointPoint & { billId: string })[];
+  excluded: { billId: string; reason: string }[];
+  /** Chosen model; null when none passed (too few points or no form met the shape rules). */
+  fit: ChangePointFit | null;
+  /** Every form tried, with statistics or the reason it failed. */
+  tried: { kind: string; accepted: boolean; reasons: string[]; cvRmsePct: number | null; nmbePct: number | null; r2: number | null; n: number; p: number }[];
+  /** Typical-year mean temperature for each calendar month (index 0 = January), model units. */
+  typicalMonthlyTemp: number[] | null;
+  typicalSource: "normals" | "history" | null;
+  /** Weather-normalized annual use in the meter's unit; null without a model or typical year. */
+  normalizedAnnual: number | null;
+  /** Whether the fit meets the Guideline 14 monthly limits (CV(RMSE) ≤ 15 %, |NMBE| ≤ 5 %). */
+  meetsGuideline14: boolean;
+  /** Expected usage band per bill id (bill unit), only from a model that meets Guideline 14. */
+  expectedByBill: Map<string, { p50: number; low: number; high: number }>;
+  summary: ReportModelSummary;
+}
+
+/** Mean temperature over [startMs, endMs) from an hourly series, with the share of hours covered. */
+export function meanTemperature(weather: WeatherSeries, startMs: number, endMs: number): { meanC: number; coverage: number } {
+  const first = Math.max(0, Math.floor((startMs - weather.startMs) / HOUR_MS));
+  const last = Math.min(weather.tempC.length, Math.ceil((endMs - weather.startMs) / HOUR_MS));
+  let sum = 0;
+  let count = 0;
+  for (let i = first; i < last; i++) {
+    const t = weather.tempC[i]!;
+    if (Number.isFinite(t)) {
+      sum += t;
+      count++;
+    }
+  }
+  const hours = (endMs - startMs) / HOUR_MS;
+  return { meanC: count > 0 ? sum / count : NaN, coverage: hours > 0 ? count / hours : 0 };
+}
+
+/**
+ * Typical mean temperature per calendar month (°C) in `zone`: from a normals year when given,
+ * else the average of every hour in the history that falls in that month (all years pooled).
+ */
+export function typicalMonthlyTempC(weather: WeatherSeries, zone: string): number[] | null {
+  const sums = new Array<number>(12).fill(0);
+  const counts = new Array<number>(12).fill(0);
+  // Month boundaries change only 12 times a year: walk month by month rather than per hour.
+  let cursor = DateTime.fromMillis(weather.startMs, { zone }).startOf("month");
+  const endMs = weather.startMs + weather.tempC.length * HOUR_MS;
+  while (cursor.toMillis() < endMs) {
+    const next = cursor.plus({ months: 1 });
+    const from = Math.max(0, Math.ceil((cursor.toMillis() - weather.startMs) / HOUR_MS));
+    const to = Math.min(weather.tempC.length, Math.ceil((next.toMillis() - weather.startMs) / HOUR_MS));
+    for (let i = from; i < to; i++) {
+      const t = weather.tempC[i]!;
+      if (Number.isFinite(t)) {
+        sums[cursor.month - 1]! += t;
+        counts[cursor.month - 1]!++;
+      }
+    }
+    cursor = next;
+  }
+  if (counts.some((c) => c < 24 * 20)) return null; // a month with under 20 days of data is not typical of anything
+  return sums.map((s, i) => s / counts[i]!);
+}
+
+const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+function toUnit(tempC: number, unit: "C" | "F"): number {
+  return unit === "F" ? tempC * 1.8 + 32 : tempC;
+}
+
+/** Fits the baseline of one meter from its bills and its building's weather. */
+export function fitMeterBaseline(options: {
+  meter: Meter;
+  building: Building;
+  bills: Bill[];
+  weather: WeatherSeries | undefined;
+  normals: WeatherSeries | undefined;
+  tempUnit: "C" | "F";
+}): MeterBaseline {
+  const { meter, building, weather, normals, tempUnit } = options;
+  const points: MeterBaseline["points"] = [];
+  const excluded: MeterBaseline["excluded"] = [];
+  const billTemps = new Map<string, number>();
+  const seen = new Set<string>();
+  for (const bill of [...options.bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart))) {
+    const days = daysBetween(bill.periodStart, bill.periodEnd);
+    if (!weather) {
+      excluded.push({ billId: bill.billId, reason: `no weather for station ${building.weatherStation}` });
+      continue;
+    }
+    const { meanC, coverage } = meanTemperature(weather, startOfLocalDayMs(bill.periodStart, building.timezone), startOfLocalDayMs(bill.periodEnd, building.timezone));
+    if (coverage < MIN_WEATHER_COVERAGE || !Number.isFinite(meanC)) {
+      excluded.push({ billId: bill.billId, reason: `weather covers ${(coverage * 100).toFixed(0)} % of the period` });
+      continue;
+    }
+    billTemps.set(bill.billId, toUnit(meanC, tempUnit));
+    const key = `${bill.periodStart}/${bill.periodEnd}`;
+    if (bill.readType === "estimated") {
+      excluded.push({ billId: bill.billId, reason: "estimated read" });
+      continue;
+    }
+    if (seen.has(key)) {
+      excluded.push({ billId: bill.billId, reason: "same period as an earlier bill" });
+      continue;
+    }
+    seen.add(key);
+    points.push({ billId: bill.billId, temp: toUnit(meanC, tempUnit), usePerDay: bill.usage / days, days });
+  }
+
+  let fit: ChangePointFit | null = null;
+  let tried: MeterBaseline["tried"] = [];
+  if (points.length >= MIN_POINTS) {
+    const selection = selectChangePointModel(points, { weightByDays: true });
+    fit = selection.chosen;
+    tried = selection.tried.map((c) => ({
+      kind: c.kind,
+      accepted: c.accepted,
+      reasons: c.reasons,
+      cvRmsePct: c.fit?.stats.cvRmsePct ?? null,
+      nmbePct: c.fit?.stats.nmbePct ?? null,
+      r2: c.fit?.stats.rSquared ?? null,
+      n: points.length,
+      p: c.fit?.parameterCount ?? 0,
+    }));
+  }
+
+  const typicalSeries = normals ?? weather;
+  const typicalC = typicalSeries ? typicalMonthlyTempC(typicalSeries, building.timezone) : null;
+  const typicalMonthlyTemp = typicalC ? typicalC.map((t) => toUnit(t, tempUnit)) : null;
+  const normalizedAnnual =
+    fit && typicalMonthlyTemp ? typicalMonthlyTemp.reduce((s, t, m) => s + Math.max(0, fit!.predict(t)) * DAYS_IN_MONTH[m]!, 0) : null;
+
+  const limits = GUIDELINE14_LIMITS.monthly;
+  const meetsGuideline14 = fit !== null && fit.stats.cvRmsePct <= limits.cvRmsePct && Math.abs(fit.stats.nmbePct) <= limits.nmbeAbsPct;
+  const expectedByBill = new Map<string, { p50: number; low: number; high: number }>();
+  if (fit && meetsGuideline14) {
+    for (const bill of options.bills) {
+      const temp = billTemps.get(bill.billId);
+      if (temp === undefined) continue;
+      const days = daysBetween(bill.periodStart, bill.periodEnd);
+      const band = fit.predictWithInterval(temp, OUTLIER_BAND_LEVEL, days);
+      expectedByBill.set(bill.billId, { p50: band.fit * days, low: Math.max(0, band.lower * days), high: band.upper * days });
+    }
+  }
+
+  return {
+    meterId: meter.meterId,
+    buildingId: meter.buildingId,
+    tempUnit,
+    points,
+    excluded,
+    fit,
+    tried,
+    typicalMonthlyTemp,
+    typicalSource: typicalC ? (normals ? "normals" : "history") : null,
+    normalizedAnnual,
+    meetsGuideline14,
+    expectedByBill,
+    summary: {
+      meterId: meter.meterId,
+      kind: fit?.kind ?? "none",
+      cvRmsePct: fit?.stats.cvRmsePct ?? null,
+      nmbePct: fit?.stats.nmbePct ?? null,
+      r2: fit?.stats.rSquared ?? null,
+      n: points.length,
+    },
+  };
+}
+
+/** Baselines for every meter of a building. */
+export function fitBuildingBaselines(portfolio: Portfolio, building: Building): MeterBaseline[] {
+  const tempUnit = portfolio.settings.degreeDayBase.unit;
+  return portfolio.meters
+    .filter((m) => m.buildingId === building.buildingId)
+    .map((meter) =>
+      fitMeterBaseline({
+        meter,
+        building,
+        bills: portfolio.bills.filter((b) => b.meterId === meter.meterId),
+        weather: portfolio.weather.get(building.weatherStation),
+        normals: portfolio.normals.get(building.weatherStation),
+        tempUnit,
+      }),
+    );
+}

@@ -1,0 +1,172 @@
+/**
+ * The machine-readable files every build publishes under OUT/data/ (contract: outputs.md),
+ * as text keyed by file name. Pure: the site writer does the writing.
+ */
+import type { Portfolio } from "../domain/types.ts";
+import type { Tariff } from "../tariff/index.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/index.ts";
+import type { Finding } from "../audit/types.ts";
+import { findingsToCsvText, toFindingsJson, billsRecomputedRows } from "../audit/output.ts";
+import { detectionsToRows } from "../clean/detect/rows.ts";
+import type { Detection } from "../clean/detect/index.ts";
+import type { MonthTotal } from "../ingest/monthlyTotals.ts";
+import type { WeatherGap } from "../ingest/weatherGrid.ts";
+import { toCsv } from "../core/csv.ts";
+import type { BuildingResults } from "./build.ts";
+import type { PricedBill } from "./priceBills.ts";
+import type { MeterBaseline } from "./baselines.ts";
+import type { MeterQuality } from "./dataQuality.ts";
+import { weatherGapDetections } from "./dataQuality.ts";
+import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT } from "./usageSummary.ts";
+import { unitFactor } from "../tariff/units.ts";
+
+export interface OutputsInput {
+  portfolio: Portfolio<Tariff>;
+  results: BuildingResults[];
+  findings: Finding[];
+  priced: Map<string, PricedBill>;
+  monthlyMetered: Map<string, MonthTotal[]>;
+  weatherGaps: WeatherGap[];
+  quality: MeterQuality[];
+}
+
+const json = (value: unknown): string => `${JSON.stringify(value, null, 2)}\n`;
+const round = (x: number | null, digits: number): number | null => (x === null || !Number.isFinite(x) ? null : Number(x.toFixed(digits)));
+
+/** Every data file, name → text. */
+export function buildDataFiles(input: OutputsInput): Record<string, string> {
+  const { portfolio, findings, priced } = input;
+  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
+  const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
+  return {
+    "portfolio.json": json(portfolioJson(input)),
+    "findings.json": json(toFindingsJson(findings)),
+    "findings.csv": findingsToCsvText(findings),
+    "bills-recomputed.csv": billsRecomputedCsv(input, (id) => buildingOfMeter.get(id) ?? "", computed),
+    "ingest-report.json": json({ files: portfolio.report.files }),
+    "data-quality.csv": dataQualityCsv(input),
+    "alignment.json": json(alignmentJson(input.quality)),
+    "models.json": json(modelsJson(input.results.flatMap((r) => r.baselines))),
+  };
+}
+
+function billsRecomputedCsv(
+  input: OutputsInput,
+  buildingOfMeter: (meterId: string) => string,
+  computed: Map<string, import("../tariff/types.ts").ComputedBill | null>,
+): string {
+  const rows = billsRecomputedRows(input.portfolio.bills, buildingOfMeter, computed).map((row) => ({
+    ...row,
+    not_priced_reason: input.priced.get(row.bill_id)?.error ?? "",
+  }));
+  const columns = ["building_id", "meter_id", "bill_id", "period_start", "period_end", "billed_total", "computed_total", "difference", "exact", "not_priced_reason"];
+  return toCsv(columns, rows);
+}
+
+function dataQualityCsv(input: OutputsInput): string {
+  const detections: Detection[] = [...input.quality.flatMap((q) => q.detections), ...weatherGapDetections(input.weatherGaps)];
+  const buildingOfMeter = new Map(input.portfolio.meters.map((m) => [m.meterId, m.buildingId]));
+  const buildingsOfStation = (stationId: string) => input.portfolio.buildings.filter((b) => b.weatherStation === stationId).map((b) => b.buildingId);
+  const rows = detectionsToRows(detections, (id) => buildingOfMeter.get(id) ?? "", buildingsOfStation);
+  return toCsv(["building_id", "meter_id", "start", "end", "kind", "intervals", "action"], rows as unknown as Record<string, string>[]);
+}
+
+function alignmentJson(quality: MeterQuality[]) {
+  return quality.map((q) => ({
+    meter_id: q.meterId,
+    suggested_offset_hours: q.alignment?.suggestedOffsetHours ?? null,
+    applied_offset_hours: q.appliedOffsetHours,
+    strong: q.alignment?.strong ?? false,
+    evidence: q.alignment ? q.alignment.evidence : { note: q.alignmentSkipped },
+  }));
+}
+
+function modelsJson(baselines: MeterBaseline[]) {
+  return baselines.map((b) => ({
+    meter_id: b.meterId,
+    building_id: b.buildingId,
+    level: "bill",
+    x: `mean outdoor temperature over the billing period (°${b.tempUnit})`,
+    y: "use per day (meter unit)",
+    n: b.points.length,
+    excluded: b.excluded,
+    tried: b.tried.map((t) => ({
+      kind: t.kind,
+      accepted: t.accepted,
+      reasons: t.reasons,
+      training: { cv_rmse: round(t.cvRmsePct, 4), nmbe: round(t.nmbePct, 4), r2: round(t.r2, 6), n: t.n, p: t.p },
+    })),
+    chosen: b.fit
+      ? {
+          kind: b.fit.kind,
+          coefficients: b.fit.beta,
+          breakpoints: b.fit.breakpoints,
+          cv_rmse: round(b.fit.stats.cvRmsePct, 4),
+          nmbe: round(b.fit.stats.nmbePct, 4),
+          r2: round(b.fit.stats.rSquared, 6),
+          n: b.points.length,
+          p: b.fit.parameterCount,
+          meets_guideline_14: b.meetsGuideline14,
+        }
+      : null,
+    normalized_annual: round(b.normalizedAnnual, 3),
+    typical_year_source: b.typicalSource,
+  }));
+}
+
+function portfolioJson(input: OutputsInput) {
+  const { portfolio, results } = input;
+  const asOf = effectiveAsOf(portfolio);
+  const heatContent = (tariffId: string) => portfolio.tariffs.get(tariffId)?.heatContentThermPerCcf ?? DEFAULT_HEAT_CONTENT_THERM_PER_CCF;
+  return {
+    name: portfolio.settings.name,
+    currency: portfolio.settings.currency,
+    as_of: asOf,
+    buildings: results.map((r) => {
+      const b = r.building;
+      const meters = portfolio.meters.filter((m) => m.buildingId === b.buildingId);
+      const usage = asOf ? buildingUsageLast12m(b, meters, portfolio.bills, asOf, (m) => heatContent(m.tariffId)) : [];
+      const commodities: Record<string, unknown> = {};
+      for (const u of usage) {
+        const own = r.baselines.filter((x) => meters.find((m) => m.meterId === x.meterId)?.commodity === u.commodity);
+        // Normalized use adds up only when every meter of the commodity has a model.
+        let normalized: number | null = own.length > 0 ? 0 : null;
+        for (const x of own) {
+          const meter = meters.find((m) => m.meterId === x.meterId)!;
+          const f = unitFactor(u.commodity, meter.unit, REPORT_UNIT[u.commodity], heatContent(meter.tariffId));
+          normalized = normalized === null || x.normalizedAnnual === null || f === null ? null : normalized + x.normalizedAnnual * f;
+        }
+        const kwhPer = KWH_PER_REPORT_UNIT[u.commodity];
+        const single = own.length === 1 ? own[0]! : null;
+        commodities[u.commodity] = {
+          actual_last_12m: round(u.actualLast12m, 3),
+          actual_coverage: round(u.coverage, 4),
+          normalized_annual: round(normalized, 3),
+          unit: u.unit,
+          eui_kwh_m2: kwhPer !== null && u.actualLast12m !== null ? round((u.actualLast12m * kwhPer) / b.floorAreaM2, 3) : null,
+          model: single?.fit
+            ? {
+                kind: single.fit.kind,
+                cv_rmse: round(single.fit.stats.cvRmsePct, 4),
+                nmbe: round(single.fit.stats.nmbePct, 4),
+                r2: round(single.fit.stats.rSquared, 6),
+                n: single.points.length,
+              }
+            : own.length > 1
+              ? { kind: "per-meter", meters: own.map((x) => ({ meter_id: x.meterId, kind: x.fit?.kind ?? null, cv_rmse: round(x.fit?.stats.cvRmsePct ?? null, 4), nmbe: round(x.fit?.stats.nmbePct ?? null, 4), r2: round(x.fit?.stats.rSquared ?? null, 6), n: x.points.length })) }
+              : null,
+        };
+      }
+      const count = (s: string) => r.findings.filter((f) => f.severity === s).length;
+      return {
+        building_id: b.buildingId,
+        name: b.name,
+        floor_area_m2: round(b.floorAreaM2, 3),
+        ...commodities,
+        forecast_cost_next_12m: null,
+        findings_count: { error: count("error"), warning: count("warning"), info: count("info") },
+        analysis_error: r.failure,
+      };
+    }),
+  };
+}
