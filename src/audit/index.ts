@@ -5,6 +5,7 @@
  *   findingsToCsvRows(f)       -> rows of findings.csv      (./output.ts)
  *   toFindingsJson(f)          -> findings.json objects     (./output.ts)
  *   meteredForBills(portfolio) -> AuditInput.metered        (./reconcile.ts)
+ *   makeRepricer({portfolio, priced, price}) -> { reprice, rateAlternatives } (./wiring.ts)
  */
 import { buildContext } from "./context.ts";
 import { checkDemandVsMeter } from "./checks/demand-vs-meter.ts";
@@ -27,6 +28,7 @@ export * from "./types.ts";
 export { meteredForPeriod, meteredForBills, localMidnightMs } from "./reconcile.ts";
 export { findingsToCsvRows, findingsToCsvText, toFindingsJson, billsRecomputedRows, FINDINGS_CSV_COLUMNS } from "./output.ts";
 export { resolveTolerances, exceedsMoneyTolerance, AUDIT_DEFAULTS } from "./tolerances.ts";
+export { makeRepricer, intervalUsageForBill, pinVersion } from "./wiring.ts";
 
 const CHECKS = [
   checkTotalMismatch, checkLineMismatch, checkUnexplainedLine, checkUsageVsMeter, checkDemandVsMeter,

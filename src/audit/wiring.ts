@@ -1,0 +1,122 @@
+/**
+ * Helpers for the caller that wires the tariff engine into the audit. The engine's price
+ * function is PASSED IN (never imported here), so the audit stays independent of pricing.
+ *
+ *   const { reprice, rateAlternatives } = makeRepricer({ portfolio, priced, price: priceBill });
+ *   runAudit({ portfolio, priced, metered, reprice, rateAlternatives });
+ */
+import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
+import type { Tariff } from "../tariff/model.ts";
+import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
+import { sortBills } from "./context.ts";
+import { localMidnightMs } from "./reconcile.ts";
+import type { RepriceAlternative, RepriceFn } from "./types.ts";
+
+type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;
+
+/** First index i with sorted[i] >= value. */
+function lowerBound(sorted: Float64Array, value: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid] < value) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/**
+ * The meter's intervals inside the bill's half-open local period, multiplier applied, or null
+ * when there are none or fewer than `minCoverage` of the expected intervals (then the engine
+ * prices from billed quantities, as for the original pricing).
+ */
+export function intervalUsageForBill(
+  series: IntervalSeries | undefined, multiplier: number, bill: Bill, timezone: string, minCoverage = 0.9,
+): IntervalUsage | null {
+  if (!series || series.startMs.length === 0) return null;
+  const a = localMidnightMs(bill.periodStart, timezone);
+  const b = localMidnightMs(bill.periodEnd, timezone);
+  const from = lowerBound(series.startMs, a);
+  const to = lowerBound(series.startMs, b);
+  const expected = (b - a) / (series.intervalMinutes * 60_000);
+  if (to <= from || to - from < minCoverage * expected) return null;
+  const values = new Float64Array(to - from);
+  for (let i = from; i < to; i++) values[i - from] = series.values[i] * multiplier;
+  return { startMs: series.startMs.subarray(from, to), values, intervalMinutes: series.intervalMinutes };
+}
+
+/** The tariff with only `versionFrom`'s version, in force for any date (for "priced on the wrong version"). */
+export function pinVersion(tariff: Tariff, versionFrom: string): Tariff | null {
+  const v = tariff.versions.find((x) => x.from === versionFrom);
+  return v ? { ...tariff, versions: [{ ...v, from: "0001-01-01", until: null }] } : null;
+}
+
+/**
+ * Builds the audit's `reprice` and `rateAlternatives` hooks from the engine's price function.
+ * - quantities: the bill re-priced with other usage/demand, same intervals, same ratchet history
+ *   (billing demands of the meter's earlier bills, from `priced`);
+ * - rate: another tariff of the same commodity, or one version of the meter's own tariff
+ *   applied to the whole period. Alternatives: every version of the own tariff, then every other
+ *   tariff of the meter's commodity.
+ * Any pricing error yields null (the audit then just has no amount / no alternative).
+ */
+export function makeRepricer(opts: {
+  portfolio: Portfolio<Tariff>;
+  priced: Map<string, ComputedBill | null>;
+  price: (tariff: Tariff, request: PriceRequest) => ComputedBill;
+  minCoverage?: number;
+}): { reprice: RepriceFn; rateAlternatives: (bill: Bill, meter: Meter) => RateAlternative[] } {
+  const { portfolio, priced, price } = opts;
+  const meters = new Map(portfolio.meters.map((m) => [m.meterId, m]));
+  const zones = new Map(portfolio.buildings.map((b) => [b.buildingId, b.timezone]));
+  const earlierDemands = new Map<string, number[]>();
+  const byMeter = new Map<string, Bill[]>();
+  for (const b of portfolio.bills) byMeter.set(b.meterId, [...(byMeter.get(b.meterId) ?? []), b]);
+  for (const bills of byMeter.values()) {
+    const demands: number[] = [];
+    for (const b of sortBills(bills)) {
+      earlierDemands.set(b.billId, [...demands]);
+      const kw = priced.get(b.billId)?.billingDemandKw;
+      if (kw !== null && kw !== undefined) demands.push(kw);
+    }
+  }
+
+  const reprice: RepriceFn = (bill, alt) => {
+    const meter = meters.get(bill.meterId);
+    const zone = meter ? zones.get(meter.buildingId) : undefined;
+    if (!meter || !zone) return null;
+    let tariff: Tariff | null | undefined = portfolio.tariffs.get(alt.kind === "rate" ? alt.tariffId : meter.tariffId);
+    if (tariff && alt.kind === "rate" && alt.versionFrom !== null) tariff = pinVersion(tariff, alt.versionFrom);
+    if (!tariff) return null;
+    try {
+      return price(tariff, {
+        periodStart: bill.periodStart,
+        periodEnd: bill.periodEnd,
+        timezone: zone,
+        usage: alt.kind === "quantities" ? alt.usage : bill.usage,
+        usageUnit: meter.unit,
+        demandKw: alt.kind === "quantities" ? alt.demandKw : bill.demandKw,
+        powerFactor: bill.powerFactor,
+        intervals: intervalUsageForBill(portfolio.intervals.get(bill.meterId), meter.multiplier, bill, zone, opts.minCoverage),
+        previousBillingDemandsKw: earlierDemands.get(bill.billId) ?? [],
+      });
+    } catch {
+      return null;
+    }
+  };
+
+  const rateAlternatives = (_bill: Bill, meter: Meter): RateAlternative[] => {
+    const own = portfolio.tariffs.get(meter.tariffId);
+    const out: RateAlternative[] = [];
+    for (const v of own?.versions ?? []) {
+      out.push({ kind: "rate", tariffId: meter.tariffId, versionFrom: v.from, label: `the ${v.from} version of tariff ${meter.tariffId}` });
+    }
+    for (const [id, t] of portfolio.tariffs) {
+      if (id !== meter.tariffId && t.commodity === meter.commodity) out.push({ kind: "rate", tariffId: id, versionFrom: null, label: `tariff ${id}` });
+    }
+    return out;
+  };
+
+  return { reprice, rateAlternatives };
+}
