@@ -140,6 +140,7 @@ function rateText(l: ComputedLine): string {
   if (l.rate === null) return "see note";
   if (l.kind === "percent") return `${Number((l.rate * 100).toFixed(6))}%`;
   if (l.kind === "power-factor") return `× ${Number(l.rate.toFixed(6))}`;
+  if (l.kind === "fixed" || l.kind === "minimum-bill") return money(l.rate);
   return String(Number(l.rate.toFixed(6)));
 }
 

@@ -183,7 +183,7 @@ function readTariff(c: Checker, root: Node, file: string): Tariff | null {
   if (versionsF) {
     const items = readSeq(c, versionsF.value, "versions", versionsF.key);
     if (items && items.length === 0) c.error(versionsF.key, "versions is empty", "add at least one version with from: and charges:");
-    for (const item of items ?? []) rawVersions.push(readVersion(c, item, commodity));
+    for (const item of items ?? []) rawVersions.push(readVersion(c, item));
   }
   checkVersionOrder(c, rawVersions);
   const resolved = resolveVersions(c, rawVersions);
@@ -216,7 +216,7 @@ function readTariff(c: Checker, root: Node, file: string): Tariff | null {
   };
 }
 
-function readVersion(c: Checker, node: AnyNode, commodity: Commodity | null): RawVersion {
+function readVersion(c: Checker, node: AnyNode): RawVersion {
   const raw: RawVersion = { node, from: null, fromNode: node, inherit: false, inheritNode: null };
   const m = readMap(c, node, VERSION_KEYS, "a version");
   if (!m) return raw;
@@ -260,7 +260,6 @@ function readVersion(c: Checker, node: AnyNode, commodity: Commodity | null): Ra
   if (!chargesF && !raw.inherit) c.error(node, "a version needs charges (or inherit: true to start from the previous version)");
   const minF = m.get("minimum_bill");
   if (minF) raw.minimumBill = readNumber(c, minF, "minimum_bill", { min: 0 });
-  void commodity;
   return raw;
 }
 
@@ -637,10 +636,6 @@ function checkVersion(c: Checker, v: ResolvedVersion, commodity: Commodity | nul
   });
   if (v.periods.length > 0 && !v.periods.some((p) => p.period.catchAll)) {
     c.error(v.periodsNode, `periods need a catch-all period for all remaining hours (the version from ${from} has none)`, "add a last period with an empty mapping, e.g. off-peak: {}");
-  }
-  const hasHourRules = v.periods.some((p) => p.period.days !== "all");
-  if (v.holidays !== null && !hasHourRules && v.periods.length > 0) {
-    // Harmless, but usually a sign the days: keys were forgotten.
   }
 
   const labelsAbove: string[] = [];

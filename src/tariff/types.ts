@@ -3,7 +3,7 @@
  * demo generator, CLI `price`) depend only on these names. Extend freely; do not break.
  *
  *   loadTariff(text, file)  -> { tariff: Tariff | null, issues: InputIssue[] }   (src/tariff/load.ts)
- *   priceBill(request)      -> ComputedBill                                     (src/tariff/price.ts)
+ *   priceBill(tariff, request) -> ComputedBill                                  (src/tariff/price.ts)
  */
 import type { Commodity } from "../domain/types.ts";
 
