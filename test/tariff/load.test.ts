@@ -275,3 +275,61 @@ versions:
     expect(errorsOf("id: x\ncommodity: water\nversions:\n  - from: 2025-01-01\n    charges: [{ label: A, fixed: 1 }]\n")[0]).toMatch(/^1:1 missing required key 'usage_unit'/);
   });
 });
+
+describe("loadTariff never throws", () => {
+  const VALID = `id: lvp-fuzz
+commodity: electricity
+usage_unit: kWh
+versions:
+  - from: 2024-01-01
+    seasons: { summer: Jun-Sep, winter: Oct-May }
+    holidays: us-federal
+    periods:
+      peak: { season: summer, days: weekdays, hours: "14:00-19:00" }
+      off-peak: {}
+    charges:
+      - { label: Customer charge, fixed: 24.50 }
+      - label: Delivery
+        blocks: [{ up_to: 500, rate: 0.061 }, { rate: 0.044 }]
+      - { label: Energy, energy: { peak: 0.238, off-peak: 0.097 } }
+      - { label: Demand, demand: 13.8, ratchet: { percent: 80, months: 11 } }
+      - { label: PF, power_factor: { target: 0.9 } }
+      - { label: Tax, percent: 7.25, of: [Energy] }
+    minimum_bill: 40
+  - from: 2025-01-01
+    inherit: true
+    charges_override:
+      - { label: Energy, energy: { peak: 0.25, off-peak: 0.1 } }
+`;
+
+  it("on a file with lines deleted, duplicated or cut: issues with positions, no exception", async () => {
+    const fc = (await import("fast-check")).default;
+    const lines = VALID.split("\n");
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: lines.length - 1 }), fc.integer({ min: 0, max: 2 }), fc.integer({ min: 0, max: 60 }), (i, op, cut) => {
+        const copy = [...lines];
+        if (op === 0) copy.splice(i, 1);
+        else if (op === 1) copy.splice(i, 0, copy[i]);
+        else copy[i] = copy[i].slice(0, cut);
+        const { tariff, issues } = loadTariff(copy.join("\n"), "f.yaml");
+        if (tariff === null) {
+          const errors = issues.filter((x) => x.severity === "error");
+          expect(errors.length).toBeGreaterThan(0);
+          for (const e of errors) expect(e.line).toBeGreaterThan(0);
+        }
+      }),
+      { numRuns: 400 },
+    );
+  });
+
+  it("on arbitrary text", async () => {
+    const fc = (await import("fast-check")).default;
+    fc.assert(
+      fc.property(fc.string({ maxLength: 200 }), (text) => {
+        const { tariff, issues } = loadTariff(text, "f.yaml");
+        expect(tariff === null ? issues.length > 0 : true).toBe(true);
+      }),
+      { numRuns: 300 },
+    );
+  });
+});
