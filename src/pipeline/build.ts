@@ -168,7 +168,10 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
       priced: new Map([...priced].map(([id, p]) => [id, p.computed])),
       metered,
       reprice: makeRepricer(scoped),
-      expectedUsage: expectedUsageFromBaselines(baselines),
+      // The bill-level change-point band is not passed as `expectedUsage` yet: on mean period
+      // temperature it misjudges shoulder months of heating meters (measured on the demo: five
+      // clean bills outside the 99 % band), so the audit keeps its labelled interim rule until
+      // the degree-day / interval models of the baseline issue replace it.
     });
     return { building, priced, findings, baselines, failure: null };
   } catch (error) {
@@ -188,12 +191,6 @@ function scopeToBuilding(portfolio: Portfolio<Tariff>, building: Building): Port
     bills,
     billLines: portfolio.billLines.filter((l) => billIds.has(l.billId)),
   };
-}
-
-function expectedUsageFromBaselines(baselines: MeterBaseline[]) {
-  const map = new Map<string, { p50: number; low: number; high: number }>();
-  for (const b of baselines) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
-  return map;
 }
 
 /** The demand window of a tariff's first demand charge (15 minutes when it has none). */
