@@ -25,3 +25,13 @@ export function moneyAtStakeOnQuantities(
   if (repriced === null) return null;
   return { amount: roundCents(bill.total - repriced.total), repricedTotal: repriced.total };
 }
+
+/**
+ * Metered usage over the whole period: the sum of the intervals present scaled up by their
+ * coverage (missing intervals assumed to use the period's average), so a period with a few
+ * missing intervals is not compared as if complete. Equal to `usage` at full coverage.
+ * @example fullPeriodUsage({ usage: 950, coverage: 0.95, ... }) // 1000
+ */
+export function fullPeriodUsage(m: MeteredPeriod): number {
+  return m.coverage > 0 && m.coverage < 1 ? m.usage / m.coverage : m.usage;
+}

@@ -17,7 +17,7 @@ import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
 import { formatMoney, formatQty } from "../format.ts";
 import { roundCents } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
-import { comparableMetered, moneyAtStakeOnQuantities } from "./metered.ts";
+import { comparableMetered, fullPeriodUsage, moneyAtStakeOnQuantities } from "./metered.ts";
 
 export const COMMON_RATIOS = [2, 10, 20, 30, 40, 50, 60, 80, 100, 120, 150, 160, 200, 240, 300, 400, 500, 600, 800, 1000, 1200];
 
@@ -54,8 +54,9 @@ export function checkMultiplierSuspect(ctx: AuditContext): Finding[] {
     const points: { bill: Bill; ratio: number; metered: number }[] = [];
     for (const bill of billsInSequence(ctx, meterId)) {
       const m = comparableMetered(ctx, bill);
-      if (m === null || !(m.usage > 0) || !(bill.usage > 0)) continue;
-      points.push({ bill, ratio: bill.usage / m.usage, metered: m.usage });
+      const meteredUsage = m === null ? 0 : fullPeriodUsage(m);
+      if (!(meteredUsage > 0) || !(bill.usage > 0)) continue;
+      points.push({ bill, ratio: bill.usage / meteredUsage, metered: meteredUsage });
     }
     if (points.length === 0) continue;
     const nearOne = points.filter((p) => Math.abs(p.ratio - 1) <= relTol).length;

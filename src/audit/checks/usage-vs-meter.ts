@@ -3,14 +3,14 @@
  *
  * Compared when interval coverage ≥ minCoverage; a period with some data but less coverage
  * gets an `info` finding saying it was not compared. Finding when |billed − metered| /
- * metered > usage_pct. Severity: error beyond 5 × usage_pct (plainly wrong), else warning.
+ * metered > usage_pct, the metered sum scaled up by its coverage when a few intervals are missing. Severity: error beyond 5 × usage_pct (plainly wrong), else warning.
  * Amount = billed total − total re-priced on metered usage (null without a reprice hook).
  */
 import { billFinding, type AuditContext } from "../context.ts";
 import { formatMoney, formatPct, formatQty } from "../format.ts";
 import { exceedsPct } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
-import { moneyAtStakeOnQuantities } from "./metered.ts";
+import { fullPeriodUsage, moneyAtStakeOnQuantities } from "./metered.ts";
 
 /** usage-vs-meter findings (and low-coverage notices) for every bill with interval data. */
 export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
@@ -28,20 +28,22 @@ export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
       }));
       continue;
     }
-    if (!exceedsPct(bill.usage, m.usage, ctx.tol.usagePct)) continue;
-    const diff = bill.usage - m.usage;
-    const rel = m.usage === 0 ? Infinity : diff / m.usage;
-    const money = moneyAtStakeOnQuantities(ctx, bill, m.usage, bill.demandKw);
+    const meteredUsage = fullPeriodUsage(m);
+    if (!exceedsPct(bill.usage, meteredUsage, ctx.tol.usagePct)) continue;
+    const diff = bill.usage - meteredUsage;
+    const rel = meteredUsage === 0 ? Infinity : diff / meteredUsage;
+    const money = moneyAtStakeOnQuantities(ctx, bill, meteredUsage, bill.demandKw);
     const notes = [`Interval coverage ${formatPct(m.coverage)} (${m.intervals} of ${m.expectedIntervals} intervals), multiplier applied.`];
+    if (m.coverage < 1) notes.push(`Metered sum of the intervals present ${formatQty(m.usage)} ${unit}, scaled by the coverage to ${formatQty(meteredUsage)} ${unit}.`);
     if (money) notes.push(`Re-priced on metered usage: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
     out.push(billFinding(ctx, bill, {
       check: "usage-vs-meter",
       severity: Math.abs(rel) > (5 * ctx.tol.usagePct) / 100 ? "error" : "warning",
       amountAtStake: money?.amount ?? null,
       title: diff > 0 ? "Billed usage higher than the meter recorded" : "Billed usage lower than the meter recorded",
-      message: `Bill ${bill.billId} charges ${formatQty(bill.usage)} ${unit} but the interval meter recorded ${formatQty(m.usage)} ${unit} over the same period (${rel > 0 ? "+" : ""}${Number.isFinite(rel) ? formatPct(rel) : "n/a"}, tolerance ${ctx.tol.usagePct} %).`,
+      message: `Bill ${bill.billId} charges ${formatQty(bill.usage)} ${unit} but the interval meter recorded ${formatQty(meteredUsage)} ${unit}${m.coverage < 1 ? ` (scaled from ${formatPct(m.coverage)} coverage)` : ""} over the same period (${rel > 0 ? "+" : ""}${Number.isFinite(rel) ? formatPct(rel) : "n/a"}, tolerance ${ctx.tol.usagePct} %).`,
       evidence: {
-        rows: [{ label: `Usage (${unit})`, billed: bill.usage, expected: Number(m.usage.toFixed(3)), difference: Number(diff.toFixed(3)) }],
+        rows: [{ label: `Usage (${unit})`, billed: bill.usage, expected: Number(meteredUsage.toFixed(3)), difference: Number(diff.toFixed(3)) }],
         notes,
       },
     }));

@@ -36,6 +36,16 @@ describe("usage-vs-meter", () => {
     const b = bill("2024-01-01", "2024-02-01", { usage: 1015 });
     expect(checkUsageVsMeter(ctxFor([b], () => metered(1000)))).toEqual([]);
   });
+  it("coverage 95 %: the metered sum is scaled to the full period before comparing (hand-computed)", () => {
+    const b = bill("2024-01-01", "2024-02-01", { usage: 1000 });
+    // 950 over 95 % of the intervals → 1,000 for the period: consistent, no finding
+    expect(checkUsageVsMeter(ctxFor([b], () => metered(950, { coverage: 0.95, intervals: 2736 })))).toEqual([]);
+    // 900 over 95 % → 947.37; billed 1,000 is +5.6 % → warning, message names the scaling
+    const f = checkUsageVsMeter(ctxFor([b], () => metered(900, { coverage: 0.95, intervals: 2736 })));
+    expect(f).toHaveLength(1);
+    expect(f[0].message).toContain("947.37");
+    expect(f[0].message).toContain("scaled from 95.0 % coverage");
+  });
   it("coverage 80 % < 90 %: not compared, info says why", () => {
     const b = bill("2024-01-01", "2024-02-01", { usage: 5000 });
     const f = checkUsageVsMeter(ctxFor([b], () => metered(800, { coverage: 0.8, intervals: 2304 })));
