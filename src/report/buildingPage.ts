@@ -27,6 +27,7 @@ import {
 import { buildingPath, navFor } from "./nav.ts";
 import { periodDays, prorateToWindow, spreadOverMonths, type DayWindow } from "./periods.ts";
 import { checkTitle, commodityLabel, lineStatusLabel } from "./labels.ts";
+import { partialMonthsNote } from "./coverage.ts";
 
 /** Everything about one building the page builder needs, pre-grouped by the caller. */
 export interface BuildingContext {
@@ -126,7 +127,7 @@ function billsTable(meter: Meter, bills: Bill[], input: ReportInput, currency: s
         { text: formatPeriod(b.periodStart, b.periodEnd), sort: b.periodStart },
         { text: formatNumber(periodDays(b.periodStart, b.periodEnd)), sort: String(periodDays(b.periodStart, b.periodEnd)) },
         { text: formatQuantity(b.usage, meter.unit), sort: String(b.usage) },
-        { text: b.readType, tone: b.readType === "estimated" ? "neg" : undefined },
+        { text: b.readType, tone: b.readType === "estimated" ? "warn" : undefined },
         b.demandKw == null ? { text: NOT_AVAILABLE, sort: "" } : { text: formatQuantity(b.demandKw, "kW"), sort: String(b.demandKw) },
         { text: formatMoney(b.total, currency), sort: String(b.total) },
         priced?.computed
@@ -174,6 +175,7 @@ function commodityCharts(buildingId: string, commodity: string, meters: Meter[],
   const charts: ChartModel[] = [];
   for (const [unit, unitMeters] of byUnit) {
     const sums = new Map<string, number>(); // key month|meter
+    const unitBills = unitMeters.flatMap((m) => ctx.billsByMeter.get(m.meterId) ?? []);
     for (const m of unitMeters) {
       for (const b of ctx.billsByMeter.get(m.meterId) ?? []) {
         for (const s of spreadOverMonths(b.usage, b.periodStart, b.periodEnd)) {
@@ -197,7 +199,7 @@ function commodityCharts(buildingId: string, commodity: string, meters: Meter[],
       id,
       kind: "monthly-usage",
       title: `${label} use by month (${unit})`,
-      description: `Bar chart of billed ${label.toLowerCase()} use per calendar month in ${unit} for building ${buildingId}, ${formatMonth(months[0])} to ${formatMonth(months[months.length - 1])}, one colour per meter; billing periods are spread over months by days.`,
+      description: `Bar chart of billed ${label.toLowerCase()} use per calendar month in ${unit} for building ${buildingId}, ${formatMonth(months[0])} to ${formatMonth(months[months.length - 1])}, one colour per meter; billing periods are spread over months by days. ${partialMonthsNote(unitBills)}`.trim(),
       valueLabel: `Usage (${unit})`,
       seriesLabel: "Meter",
       data,

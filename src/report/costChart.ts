@@ -4,6 +4,7 @@ import type { ChartDatum, ChartModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatMonth } from "./format.ts";
 import { spreadOverMonths } from "./periods.ts";
 import { commodityLabel } from "./labels.ts";
+import { partialMonthsNote } from "./coverage.ts";
 
 /**
  * Monthly billed cost by commodity over all bills, each bill spread over calendar months by
@@ -36,7 +37,7 @@ export function monthlyCostChart(bills: readonly Bill[], meters: readonly Meter[
     id: "chart-portfolio-cost",
     kind: "monthly-cost",
     title: `Billed cost by month (${currency})`,
-    description: `Bar chart of billed cost per calendar month in ${currency} for the whole portfolio, ${formatMonth(months[0])} to ${formatMonth(months[months.length - 1])}, stacked by commodity; billing periods are spread over months by days.`,
+    description: `Bar chart of billed cost per calendar month in ${currency} for the whole portfolio, ${formatMonth(months[0])} to ${formatMonth(months[months.length - 1])}, stacked by commodity; billing periods are spread over months by days. ${partialMonthsNote(bills)}`.trim(),
     valueLabel: `Cost (${currency})`,
     seriesLabel: "Commodity",
     data,

@@ -61,7 +61,7 @@ function ingestTable(report: IngestReport): TableModel {
       { text: f.file },
       { text: formatNumber(f.rowsRead), sort: String(f.rowsRead) },
       { text: formatNumber(f.rowsUsed), sort: String(f.rowsUsed) },
-      { text: formatNumber(f.rowsRejected), sort: String(f.rowsRejected), tone: f.rowsRejected > 0 ? ("neg" as const) : undefined },
+      { text: formatNumber(f.rowsRejected), sort: String(f.rowsRejected), tone: f.rowsRejected > 0 ? ("warn" as const) : undefined },
       { text: formatNumber(f.warnings.length), sort: String(f.warnings.length) },
     ]),
   };
@@ -79,7 +79,7 @@ function issuesTable(issues: InputIssue[]): TableModel {
     ],
     rows: issues.map((i) => [
       { text: `${i.file}:${i.line}:${i.column}` },
-      { text: i.severity, tone: i.severity === "error" ? ("neg" as const) : undefined },
+      { text: i.severity, tone: i.severity === "error" ? ("warn" as const) : undefined },
       { text: i.message },
       { text: i.hint ?? "" },
     ]),

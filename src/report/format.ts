@@ -10,21 +10,21 @@ export const NOT_AVAILABLE = "—";
 /** Locale of every page: fixed so output does not depend on the build machine. */
 export const LOCALE = "en-US";
 
-const moneyFormatters = new Map<string, Intl.NumberFormat>();
+// Building an Intl.NumberFormat costs far more than using one; pages format thousands of values.
+const formatterCache = new Map<string, Intl.NumberFormat>();
 
-function moneyFormatter(currency: string, digits: number): Intl.NumberFormat {
-  const key = `${currency}:${digits}`;
-  let f = moneyFormatters.get(key);
+function cachedFormatter(options: Intl.NumberFormatOptions): Intl.NumberFormat {
+  const key = JSON.stringify(options);
+  let f = formatterCache.get(key);
   if (!f) {
-    f = new Intl.NumberFormat(LOCALE, {
-      style: "currency",
-      currency,
-      minimumFractionDigits: digits,
-      maximumFractionDigits: digits,
-    });
-    moneyFormatters.set(key, f);
+    f = new Intl.NumberFormat(LOCALE, options);
+    formatterCache.set(key, f);
   }
   return f;
+}
+
+function moneyFormatter(currency: string, digits: number): Intl.NumberFormat {
+  return cachedFormatter({ style: "currency", currency, minimumFractionDigits: digits, maximumFractionDigits: digits });
 }
 
 /**
@@ -54,12 +54,7 @@ export function formatMoneySigned(amount: number | null | undefined, currency: s
  */
 export function formatRate(rate: number | null | undefined, currency: string, unit: string): string {
   if (rate == null || !Number.isFinite(rate)) return NOT_AVAILABLE;
-  const f = new Intl.NumberFormat(LOCALE, {
-    style: "currency",
-    currency,
-    minimumFractionDigits: 2,
-    maximumFractionDigits: 6,
-  });
+  const f = cachedFormatter({ style: "currency", currency, minimumFractionDigits: 2, maximumFractionDigits: 6 });
   return unit ? `${f.format(rate)} per ${unit}` : f.format(rate);
 }
 
@@ -69,7 +64,7 @@ export function formatRate(rate: number | null | undefined, currency: string, un
  */
 export function formatNumber(value: number | null | undefined, maxDigits = 0): string {
   if (value == null || !Number.isFinite(value)) return NOT_AVAILABLE;
-  const s = new Intl.NumberFormat(LOCALE, { maximumFractionDigits: maxDigits }).format(value);
+  const s = cachedFormatter({ maximumFractionDigits: maxDigits }).format(value);
   return s === "-0" ? "0" : s;
 }
 
@@ -91,7 +86,7 @@ export function formatQuantity(value: number | null | undefined, unit: string): 
  */
 export function formatPercent(fraction: number | null | undefined, digits = 1): string {
   if (fraction == null || !Number.isFinite(fraction)) return NOT_AVAILABLE;
-  return new Intl.NumberFormat(LOCALE, { style: "percent", maximumFractionDigits: digits }).format(fraction);
+  return cachedFormatter({ style: "percent", maximumFractionDigits: digits }).format(fraction);
 }
 
 const dateFormatter = new Intl.DateTimeFormat(LOCALE, {

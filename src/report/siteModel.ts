@@ -17,8 +17,8 @@ export interface TableCell {
   sort?: string;
   /** Optional link target (relative). */
   href?: string;
-  /** Extra CSS class for emphasis, e.g. `diff-pos`. */
-  tone?: "pos" | "neg" | "muted";
+  /** Emphasis: `pos` bill higher than recomputed, `neg` lower, `warn` a problem, `muted` absent. */
+  tone?: "pos" | "neg" | "muted" | "warn";
 }
 
 export interface TableColumn {

@@ -42,3 +42,16 @@ describe("proration by days (hand-computed)", () => {
     expect(long.reduce((s, p) => s + p.amount, 0)).toBeCloseTo(1000, 9);
   });
 });
+
+import { partialMonthsNote } from "../../src/report/coverage.ts";
+
+describe("partialMonthsNote (hand-computed)", () => {
+  it("names edge months that bills cover only in part", () => {
+    expect(partialMonthsNote([{ periodStart: "2024-01-05", periodEnd: "2024-02-05" }, { periodStart: "2024-02-05", periodEnd: "2025-03-05" }])).toBe(
+      "Jan 2024 and Mar 2025 are only partly covered by bills.",
+    );
+    expect(partialMonthsNote([{ periodStart: "2024-01-01", periodEnd: "2024-03-01" }])).toBe("");
+    expect(partialMonthsNote([{ periodStart: "2024-01-01", periodEnd: "2024-02-15" }])).toBe("Feb 2024 is only partly covered by bills.");
+    expect(partialMonthsNote([])).toBe("");
+  });
+});
