@@ -94,11 +94,19 @@ export function dedupeFindings(findings: Finding[], tol: Pick<AuditTolerances, "
     if (escalate && SEVERITY_RANK[victim.severity] > SEVERITY_RANK[root.severity]) root.severity = victim.severity;
   };
 
+  // every rule relates findings of one meter only: index by meter so large portfolios stay linear-ish
+  const byMeter = new Map<string, Finding[]>();
+  for (const f of live) {
+    const list = byMeter.get(f.meterId);
+    if (list) list.push(f);
+    else byMeter.set(f.meterId, [f]);
+  }
+
   for (const rule of RULES) {
     for (const root of live) {
       if (root.check !== rule.root || absorbed.has(root)) continue;
       if (rule.skipInfoRoot && root.severity === "info") continue;
-      for (const victim of live) {
+      for (const victim of byMeter.get(root.meterId) ?? []) {
         if (absorbed.has(victim) || victim === root) continue;
         if (rule.victims !== "all" && !rule.victims.includes(victim.check)) continue;
         if (!applies(root, victim, rule.scope)) continue;
@@ -111,7 +119,7 @@ export function dedupeFindings(findings: Finding[], tol: Pick<AuditTolerances, "
   // rule 9: printed-line findings that add up to the total difference explain it
   for (const total of live) {
     if (total.check !== "total-mismatch" || absorbed.has(total) || total.amountAtStake === null) continue;
-    const lines = live.filter((f) => !absorbed.has(f) && f.billId === total.billId && f.meterId === total.meterId &&
+    const lines = (byMeter.get(total.meterId) ?? []).filter((f) => !absorbed.has(f) && f.billId === total.billId &&
       (f.check === "line-mismatch" || f.check === "unexplained-line") && f.amountAtStake !== null);
     if (lines.length === 0) continue;
     const sum = lines.reduce((s, f) => s + (f.amountAtStake ?? 0), 0);

@@ -72,7 +72,11 @@ export function makeRepricer(opts: {
   const zones = new Map(portfolio.buildings.map((b) => [b.buildingId, b.timezone]));
   const earlierDemands = new Map<string, number[]>();
   const byMeter = new Map<string, Bill[]>();
-  for (const b of portfolio.bills) byMeter.set(b.meterId, [...(byMeter.get(b.meterId) ?? []), b]);
+  for (const b of portfolio.bills) {
+    const list = byMeter.get(b.meterId);
+    if (list) list.push(b);
+    else byMeter.set(b.meterId, [b]);
+  }
   for (const bills of byMeter.values()) {
     const demands: number[] = [];
     for (const b of sortBills(bills)) {
