@@ -8,7 +8,7 @@
 import type { InputIssue } from "../core/issues.ts";
 import type { FileReport } from "../domain/types.ts";
 import { numberProblem, parseStrictNumber } from "./fields.ts";
-import { LocalTimeResolver, isValidZone } from "./localTime.ts";
+import { type LocalTimeResolver, isValidZone, sharedResolver } from "./localTime.ts";
 import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampBytes } from "./timestamp.ts";
 import { splitCsvLine } from "./splitCsvLine.ts";
 
@@ -101,7 +101,6 @@ export async function parseIntervalStream(
   const fieldEnd = new Int32Array(64);
   const ts = newTimestampScratch();
   const slots = new Map<string, MeterSlot>();
-  const resolvers = new Map<string, LocalTimeResolver>();
   let cur: MeterSlot | null = null;
   let curIdBytes = new Uint8Array(64);
   let curIdLen = -1;
@@ -112,10 +111,7 @@ export async function parseIntervalStream(
     if (slot) return slot;
     const zone = zoneOfMeter(meterId);
     let resolver: LocalTimeResolver | null = null;
-    if (zone !== null && isValidZone(zone)) {
-      resolver = resolvers.get(zone) ?? new LocalTimeResolver(zone);
-      resolvers.set(zone, resolver);
-    }
+    if (zone !== null && isValidZone(zone)) resolver = sharedResolver(zone);
     slot = {
       meterId,
       sinkIndex: zone === null ? -1 : sink.meter(meterId),

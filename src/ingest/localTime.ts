@@ -103,6 +103,21 @@ export class LocalTimeResolver {
   }
 }
 
+const shared = new Map<string, LocalTimeResolver>();
+
+/**
+ * A resolver for `zoneName` shared by every reader in the process, so the per-day offset
+ * cache is built once per zone rather than once per file. The zone must be valid.
+ */
+export function sharedResolver(zoneName: string): LocalTimeResolver {
+  let r = shared.get(zoneName);
+  if (r === undefined) {
+    r = new LocalTimeResolver(zoneName);
+    shared.set(zoneName, r);
+  }
+  return r;
+}
+
 /** Memo of zone checks: luxon builds an Intl formatter for each check. */
 const zoneValidity = new Map<string, boolean>();
 

@@ -6,7 +6,7 @@
 import { open } from "node:fs/promises";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type Row } from "./csvTable.ts";
-import { LocalTimeResolver } from "./localTime.ts";
+import { sharedResolver } from "./localTime.ts";
 import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampString } from "./timestamp.ts";
 import type { DailyReading, HourlyReading } from "./weatherGrid.ts";
 
@@ -94,7 +94,6 @@ export async function readWeatherFile(
   if (layout === "hourly") {
     const tcol = unit === "f" ? "temperature_f" : "temperature_c";
     const ts = newTimestampScratch();
-    const resolvers = new Map<string, LocalTimeResolver>();
     const lastInstant = new Map<string, number>();
     let warnedUtc = false;
     await readCsvTable(path, ctx, { required: ["station_id", "timestamp", tcol], optional: [] }, (row) => {
@@ -118,12 +117,7 @@ export async function readWeatherFile(
           }
           instant = ts.wallMs;
         } else {
-          let r = resolvers.get(zone);
-          if (!r) {
-            r = new LocalTimeResolver(zone);
-            resolvers.set(zone, r);
-          }
-          instant = r.resolve(ts.wallMs, lastInstant.get(station) ?? Number.NaN);
+          instant = sharedResolver(zone).resolve(ts.wallMs, lastInstant.get(station) ?? Number.NaN);
           if (Number.isNaN(instant)) {
             row.problem("timestamp", `local time ${text} does not exist in ${zone} (clocks jump forward for daylight saving time)`,
               "write weather timestamps with a UTC offset");
