@@ -117,7 +117,9 @@ export function loadTariff(text: string, file: string): { tariff: Tariff | null;
     return { tariff: null, issues: c.issues };
   }
   const tariff = readTariff(c, doc.contents as Node, file);
-  return { tariff: c.failed ? null : tariff, issues: c.issues };
+  // Report in file order, as an editor would list them.
+  const issues = [...c.issues].sort((a, b) => a.line - b.line || a.column - b.column);
+  return { tariff: c.failed ? null : tariff, issues };
 }
 
 function readTariff(c: Checker, root: Node, file: string): Tariff | null {
@@ -337,7 +339,8 @@ function readHolidays(c: Checker, f: Field): HolidayRule {
     }
     return { kind: "dates", dates };
   }
-  c.error(where(f), "holidays must be us-federal or a list of dates", "e.g. holidays: us-federal, or holidays: [2025-12-26, 2026-01-02]");
+  const got = isScalar(f.value) ? String(f.value.value) : "";
+  c.error(where(f), "holidays must be us-federal or a list of dates", `${didYouMean(got, ["us-federal"])}e.g. holidays: us-federal, or holidays: [2025-12-26, 2026-01-02]`);
   return null;
 }
 
@@ -357,7 +360,9 @@ function parseHours(s: string): HourRange | string {
 function readPeriods(c: Checker, f: Field): ParsedPeriod[] {
   const out: ParsedPeriod[] = [];
   for (const pf of readNamedMap(c, f.value, "periods", f.key) ?? []) {
-    const m = readMap(c, pf.value, PERIOD_KEYS, `period '${pf.name}'`, pf.key);
+    // `off-peak:` with nothing after it reads as null; treat it like `{}`, as a person means it.
+    const empty = pf.value == null || (isScalar(pf.value) && pf.value.value === null);
+    const m = empty ? new Map<string, Field>() : readMap(c, pf.value, PERIOD_KEYS, `period '${pf.name}'`, pf.key);
     if (!m) continue;
     const period: Period = { name: pf.name, season: null, days: "all", hours: null, catchAll: m.size === 0 };
     const seasonF = m.get("season");
@@ -366,7 +371,7 @@ function readPeriods(c: Checker, f: Field): ParsedPeriod[] {
     if (daysF) {
       const d = readString(c, daysF, `period '${pf.name}': days`);
       if (d === "weekdays" || d === "weekends" || d === "all") period.days = d;
-      else if (d !== null) c.error(where(daysF), `period '${pf.name}': days '${d}' is not known`, "use weekdays, weekends or all (holidays count as weekends)");
+      else if (d !== null) c.error(where(daysF), `period '${pf.name}': days '${d}' is not known`, `${didYouMean(d, ["weekdays", "weekends", "all"])}use weekdays, weekends or all (holidays count as weekends)`);
     }
     const hoursF = m.get("hours");
     if (hoursF) {

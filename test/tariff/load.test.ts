@@ -251,7 +251,10 @@ versions:
     periods: { on: { hours: "14:00-19:00" }, rest: {} }
 `;
     const errors = errorsOf(yaml);
-    expect(errors[0]).toMatch(/^7:42 period 'peak' is not defined; defined periods: on, rest \(charge inherited by the version from 2025-06-01\)/);
+    expect(errors.find((e) => e.includes("'peak' is not defined"))).toMatch(
+      /^7:42 period 'peak' is not defined; defined periods: on, rest \(charge inherited by the version from 2025-06-01\)/,
+    );
+    expect(errors.find((e) => e.includes("no rate for"))).toMatch(/^7:40 energy charge 'Energy' has no rate for period\(s\) on \(charge inherited/);
   });
 
   it("YAML syntax errors carry a position", () => {
