@@ -156,6 +156,20 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     await page.close();
   });
 
+  it("prints a building page as a clean report: no navigation, static charts, tables kept", async () => {
+    const { page } = await open("buildings/B1.html");
+    await page.waitForFunction(() => document.querySelector("figure[data-chart]")?.getAttribute("data-chart-state") === "interactive");
+    await page.emulateMedia({ media: "print" });
+    expect(await page.locator(".site-header nav").isVisible()).toBe(false);
+    expect(await page.locator(".chart-live").first().isVisible()).toBe(false);
+    expect(await page.locator(".chart-fallback svg").first().isVisible()).toBe(true);
+    expect(await page.locator("table").first().isVisible()).toBe(true);
+    await page.pdf({ path: join(ARTIFACTS, "buildings_B1-print.pdf"), format: "A4", printBackground: false });
+    await page.emulateMedia({ media: "screen" });
+    expect(await page.locator(".site-header nav").isVisible()).toBe(true);
+    await page.close();
+  });
+
   it("sorts the building table by floor area, both directions", async () => {
     const { page } = await open("index.html");
     const areas = () =>
