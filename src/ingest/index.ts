@@ -7,7 +7,7 @@ import { createReadStream } from "node:fs";
 import { readFile, readdir, stat } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import type { InputIssue } from "../core/issues.ts";
-import type { FileReport, Portfolio, PortfolioSettings } from "../domain/types.ts";
+import type { FileReport, IngestReport, Portfolio, PortfolioSettings } from "../domain/types.ts";
 import { assembleIntervals } from "./assembleIntervals.ts";
 import { FileContext } from "./fileContext.ts";
 import { IntervalCollector } from "./intervalCollector.ts";
@@ -36,6 +36,8 @@ export interface LoadResult {
   fatal: boolean;
   /** Every weather gap, filled or not. */
   weatherGaps: WeatherGap[];
+  /** One FileReport per file read; also present when the portfolio is null (fatal). */
+  report: IngestReport;
 }
 
 export interface LoadOptions {
@@ -204,5 +206,5 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
         intervals: assembled.series, weather, normals, tariffs: tLoad.tariffs,
         report: { files },
       };
-  return { portfolio, issues, fatal, weatherGaps };
+  return { portfolio, issues, fatal, weatherGaps, report: { files } };
 }

@@ -114,6 +114,19 @@ describe("loadPortfolio on bad input", () => {
     for (const i of (await load()).issues.filter((x) => x.severity === "error")) expect(i.hint, formatIssue(i)).toBeTruthy();
   });
 
+  it("weather: text and implausible temperatures and a nonexistent local time are rejected; °F converted", async () => {
+    const r = await load();
+    const rep = r.portfolio!.report.files.find((f) => f.file.endsWith("kbbb-more.csv"))!;
+    expect([rep.rowsRead, rep.rowsUsed, rep.rowsRejected]).toEqual([4, 1, 3]);
+    expect((await find("weather/kbbb-more.csv", 2))[0]).toMatchObject({ column: 3 });
+    expect((await find("weather/kbbb-more.csv", 3))[0].message).toMatch(/plausible/);
+    expect((await find("weather/kbbb-more.csv", 4))[0].message).toMatch(/does not exist in America\/New_York/);
+    const w = r.portfolio!.weather.get("KBBB")!;
+    // 35.6 °F = 2 °C at 04:00Z; 02:00 and 03:00 interpolated between 2 °C (01:00) and 2 °C.
+    expect(w.tempC[4]).toBeCloseTo(2, 12);
+    expect(Array.from(w.filled.slice(0, 5))).toEqual([0, 0, 1, 1, 0]);
+  });
+
   it("intervals: files merged per meter, sorted, first duplicate kept, negatives kept and warned", async () => {
     const r = await load();
     const s = r.portfolio!.intervals.get("E1")!;
@@ -159,6 +172,41 @@ describe("loadPortfolio fatal cases", () => {
     expect(r.fatal).toBe(true);
     expect(r.portfolio).toBeNull();
     expect(r.issues.some((i) => i.severity === "error" && message.test(i.message))).toBe(true);
+  });
+});
+
+describe("loadPortfolio key uniqueness", () => {
+  const dirs: string[] = [];
+  afterAll(async () => {
+    for (const d of dirs) await rm(d, { recursive: true, force: true });
+  });
+  const copy = async (): Promise<string> => {
+    const dir = await mkdtemp(join(tmpdir(), "ohmbook-ingest-"));
+    dirs.push(dir);
+    await cp(GOOD, dir, { recursive: true });
+    return dir;
+  };
+
+  it("an explicit bill_id used twice rejects the second row", async () => {
+    const dir = await copy();
+    await writeFile(join(dir, "bills.csv"), "bill_id,meter_id,period_start,period_end,usage,total\nB1,E-100,2024-01-01,2024-02-01,10,5\nB1,E-100,2024-02-01,2024-03-01,10,5\n");
+    await writeFile(join(dir, "bill_lines.csv"), "bill_id,label,amount\nB1,Energy,5\n");
+    const r = await loadPortfolio(dir);
+    expect(r.portfolio!.bills.map((b) => b.billId)).toEqual(["B1"]);
+    const e = r.issues.filter((i) => i.severity === "error");
+    expect(e).toHaveLength(1);
+    expect(e[0]).toMatchObject({ line: 3, column: 1 });
+  });
+
+  it("two tariff files with the same id: the second is rejected", async () => {
+    const dir = await copy();
+    await cp(join(dir, "tariffs", "fen-gs.yaml"), join(dir, "tariffs", "fen-gs-copy.yaml"));
+    const r = await loadPortfolio(dir);
+    const e = r.issues.filter((i) => i.severity === "error");
+    expect(e).toHaveLength(1);
+    expect(e[0].file).toBe(join(dir, "tariffs", "fen-gs.yaml"));
+    expect(e[0].message).toMatch(/already used by .*fen-gs-copy.yaml/);
+    expect(r.portfolio!.tariffs.size).toBe(2);
   });
 });
 
