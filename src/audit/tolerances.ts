@@ -12,7 +12,7 @@ export const AUDIT_DEFAULTS: Omit<AuditTolerances, keyof Tolerances> = {
   loneEstimateSeverity: "info",
   outlierRatio: 2,
   demandWindowMinutes: 15,
-  trailingMissingDays: 45,
+  trailingMissingDays: null,
 };
 
 /**

@@ -102,8 +102,12 @@ export interface AuditTolerances extends Tolerances {
   outlierRatio: number;
   /** Rolling window for metered peak demand, minutes. Default 15. */
   demandWindowMinutes: number;
-  /** Interval data with no bill for longer than this many days after the last bill is a missing bill. Default 45. */
-  trailingMissingDays: number;
+  /**
+   * Interval data with no bill for longer than this many days after a meter's last bill (up to
+   * as_of, default the portfolio's last bill end) is a missing bill. Null (default) = 75 % of the
+   * meter's median billing period, i.e. most of a billing cycle has passed without a bill.
+   */
+  trailingMissingDays: number | null;
 }
 
 /** What the audit may ask the tariff engine to price instead of the bill as billed. */

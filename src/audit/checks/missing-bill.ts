@@ -4,9 +4,10 @@
  * Stretches considered, in the building's local dates:
  *  - between bills (after the latest end so far, before the next start): warning when the
  *    interval data covers at least half of the stretch (otherwise period-gap reports it);
- *  - after the last bill up to the last day of data (or as_of): warning when longer than
- *    trailingMissingDays (a bill should have arrived by then);
- *  - before the first bill: info when longer than trailingMissingDays (data often predates bills);
+ *  - after the meter's last bill up to the last day of data, capped at as_of (default: the last
+ *    bill end in the portfolio): warning when longer than trailingMissingDays (default 75 % of the
+ *    meter's median billing period: most of a cycle has passed and no bill covers it);
+ *  - before the first bill: info when longer than that (data often predates bills);
  *  - a meter with interval data and no bills at all: one warning.
  * Amount null (the usage is shown as evidence; nothing was overbilled).
  */
@@ -20,9 +21,20 @@ import type { Finding, MeteredPeriod, Severity } from "../types.ts";
 
 const MIN_GAP_COVERAGE = 0.5;
 
+function medianBillingDays(bills: Bill[]): number {
+  const d = bills.map((b) => daysBetween(b.periodStart, b.periodEnd)).sort((a, b) => a - b);
+  if (d.length === 0) return 30;
+  const mid = d.length >> 1;
+  return d.length % 2 ? d[mid] : (d[mid - 1] + d[mid]) / 2;
+}
+
 /** missing-bill findings for every meter with interval data. */
 export function checkMissingBill(ctx: AuditContext): Finding[] {
   const out: Finding[] = [];
+  const p = ctx.input.portfolio;
+  const lastBillEnd = p.bills.reduce((m, b) => (b.periodEnd > m ? b.periodEnd : m), "");
+  // as_of covers bills with period_end <= as_of + 1 day; default = the last bill end
+  const asOfEnd = p.settings.asOf ? addDays(p.settings.asOf, 1) : lastBillEnd || "9999-12-31";
   for (const [meterId, series] of ctx.input.portfolio.intervals) {
     const meter = ctx.meters.get(meterId);
     const zone = meter ? ctx.buildings.get(meter.buildingId)?.timezone : undefined;
@@ -35,8 +47,7 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
     if (!IANAZone.isValidZone(zone)) continue;
     const dataStart = DateTime.fromMillis(series.startMs[firstIdx], { zone }).toISODate()!;
     let dataEnd = addDays(DateTime.fromMillis(series.startMs[lastIdx], { zone }).toISODate()!, 1);
-    const asOf = ctx.input.portfolio.settings.asOf;
-    if (asOf) dataEnd = minDate(dataEnd, addDays(asOf, 1));
+    dataEnd = minDate(dataEnd, asOfEnd);
     const unit = meter.unit;
 
     const stretch = (from: string, to: string, severity: Severity, why: string, related: Bill[]): void => {
@@ -63,11 +74,12 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
     };
 
     const bills = billsInSequence(ctx, meterId);
+    const limitDays = ctx.tol.trailingMissingDays ?? 0.75 * medianBillingDays(bills);
     if (bills.length === 0) {
       stretch(dataStart, dataEnd, "warning", "the meter has no bills at all", []);
       continue;
     }
-    if (daysBetween(dataStart, bills[0].periodStart) > ctx.tol.trailingMissingDays) {
+    if (daysBetween(dataStart, bills[0].periodStart) > limitDays) {
       stretch(dataStart, bills[0].periodStart, "info", "interval data starts before the first bill", [bills[0]]);
     }
     let latest = bills[0];
@@ -77,8 +89,8 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
       }
       if (bill.periodEnd > latest.periodEnd) latest = bill;
     }
-    if (daysBetween(latest.periodEnd, dataEnd) > ctx.tol.trailingMissingDays) {
-      stretch(latest.periodEnd, dataEnd, "warning", `after the last bill ${latest.billId}, longer than ${ctx.tol.trailingMissingDays} days`, [latest]);
+    if (daysBetween(latest.periodEnd, dataEnd) > limitDays) {
+      stretch(latest.periodEnd, dataEnd, "warning", `after the last bill ${latest.billId}, longer than ${formatQty(limitDays, 1)} days`, [latest]);
     }
   }
   return out;

@@ -158,11 +158,17 @@ describe("missing-bill", () => {
     expect(f[0]).toMatchObject({ check: "missing-bill", severity: "warning", periodStart: "2024-03-01", periodEnd: "2024-04-01" });
     expect(f[0].evidence.rows[0].expected).toBe(743);
   });
-  it("planted: data runs 60 days past the last bill (> 45) → warning", () => {
-    const bills = year(Array(12).fill(700)).slice(0, 4); // through 2024-05-01
-    const f = checkMissingBill(ctx(bills, {}, [data]));
+  it("planted: the last bill (June) is missing, as_of 2024-06-30 → warning over 2024-06-01..07-01 (30 days > 75 % of 31)", () => {
+    const bills = year(Array(12).fill(700)).slice(0, 5); // through 2024-06-01
+    const f = checkMissingBill(ctx(bills, {}, [data], "2024-06-30"));
     expect(f).toHaveLength(1);
-    expect(f[0]).toMatchObject({ periodStart: "2024-05-01", periodEnd: "2024-07-01", severity: "warning" });
+    expect(f[0]).toMatchObject({ periodStart: "2024-06-01", periodEnd: "2024-07-01", severity: "warning" });
+  });
+  it("without as_of, data after the portfolio's last bill end is not a missing bill", () => {
+    expect(checkMissingBill(ctx(year(Array(12).fill(700)).slice(0, 5), {}, [data]))).toEqual([]);
+  });
+  it("a few days of data past the last bill (before as_of) are not a missing bill", () => {
+    expect(checkMissingBill(ctx(year(Array(12).fill(700)).slice(0, 5), {}, [series("2024-01-01", "2024-06-10", () => 1, 60)], "2024-06-30"))).toEqual([]);
   });
   it("clean twin: every month billed → nothing", () => {
     expect(checkMissingBill(ctx(year(Array(12).fill(700)).slice(0, 6), {}, [data]))).toEqual([]);
