@@ -3,7 +3,7 @@
  *
  *   ohmbook price --tariff FILE --usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
  *   ohmbook price --tariff FILE --intervals CSV --meter ID --from D --to D [--multiplier M]
- *   common: [--timezone Z] [--previous-demands KW,KW,…] [--shape FILE] [--json]
+ *   common: [--timezone Z] [--previous-demands KW,KW,…] [--json]
  *
  * Dates are the first day of service and the first day not billed (as on bills.csv).
  * Time zone: interval timestamps without an offset, time-of-use periods and holidays are read in
@@ -26,11 +26,13 @@ export interface PriceIo {
 }
 
 const USAGE = `usage: ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
-                     | --intervals CSV --meter ID --from D --to D [--multiplier M] [--unit U])
+                     | --intervals CSV --meter ID --from D --to D [--multiplier M] [--unit U]
+                       [--timestamps start|end])
                      [--timezone ZONE] [--previous-demands KW,KW,...] [--json]
   --from D / --to D   first day of service / first day not billed (YYYY-MM-DD)
   --timezone ZONE     IANA zone for time-of-use periods, holidays and interval timestamps
                       without an offset (default UTC)
+  --timestamps        whether interval timestamps mark the interval start (default) or end
   --previous-demands  billing demands of earlier bills, oldest first, for ratchets`;
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
@@ -59,7 +61,7 @@ interface CsvIntervals {
  * Reads `meter_id,timestamp,value` (optional `interval_minutes`) rows of one meter. Timestamps
  * with an offset are taken as written; without one they are local time in `zone`.
  */
-function readIntervalCsv(text: string, file: string, meterId: string, zone: string, multiplier: number): CsvIntervals {
+function readIntervalCsv(text: string, file: string, meterId: string, zone: string, multiplier: number, stampsEnd: boolean): CsvIntervals {
   let records: string[][];
   try {
     records = parseCsv(text, { bom: true, skip_empty_lines: true, trim: true, relax_column_count: false }) as string[][];
@@ -117,9 +119,10 @@ function readIntervalCsv(text: string, file: string, meterId: string, zone: stri
     if (!(best > 0)) throw new UsageError(`${file}: cannot infer the interval length of meter '${meterId}' from one row; add an interval_minutes column`);
     minutes = best;
   }
+  const shiftMs = stampsEnd ? minutes * 60_000 : 0; // an end stamp names the interval that just finished
   return {
     intervals: {
-      startMs: Float64Array.from(rows, (r) => r.ms),
+      startMs: Float64Array.from(rows, (r) => r.ms - shiftMs),
       values: Float64Array.from(rows, (r) => r.value),
       intervalMinutes: minutes,
     },
@@ -223,6 +226,7 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
         multiplier: { type: "string" },
         timezone: { type: "string" },
         "previous-demands": { type: "string" },
+        timestamps: { type: "string" },
         json: { type: "boolean" },
         help: { type: "boolean", short: "h" },
       },
@@ -239,8 +243,8 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
   if (!tariffPath) throw new UsageError(`--tariff is required\n${USAGE}`);
   if (s("usage") === undefined && s("intervals") === undefined) throw new UsageError(`give --usage N or --intervals CSV --meter ID\n${USAGE}`);
   if (s("intervals") !== undefined && !s("meter")) throw new UsageError("--intervals needs --meter ID (the meter_id whose rows to use)");
-  if (s("intervals") === undefined && (s("meter") !== undefined || s("multiplier") !== undefined)) {
-    throw new UsageError("--meter and --multiplier apply only with --intervals");
+  if (s("intervals") === undefined && (s("meter") !== undefined || s("multiplier") !== undefined || s("timestamps") !== undefined)) {
+    throw new UsageError("--meter, --multiplier and --timestamps apply only with --intervals");
   }
   const from = date("from", s("from"));
   const to = date("to", s("to"));
@@ -265,7 +269,9 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
   let usage = num("usage", s("usage"));
   const csvPath = s("intervals");
   if (csvPath !== undefined) {
-    const read = readIntervalCsv(await readText(csvPath, "interval file"), csvPath, s("meter") as string, timezone, multiplier);
+    const stamps = s("timestamps") ?? "start";
+    if (stamps !== "start" && stamps !== "end") throw new UsageError(`--timestamps must be start or end, got '${stamps}'`);
+    const read = readIntervalCsv(await readText(csvPath, "interval file"), csvPath, s("meter") as string, timezone, multiplier, stamps === "end");
     intervals = read.intervals;
     const startMs = DateTime.fromISO(from, { zone: timezone }).toMillis();
     const endMs = DateTime.fromISO(to, { zone: timezone }).toMillis();

@@ -82,6 +82,18 @@ describe("runPrice", () => {
     expect(r.err).toMatch(/96 rows for meter 'M1' \(96 in the period, 0 outside it\), 96 rows of other meters not used; 15-minute intervals/);
   });
 
+  it("--timestamps end shifts each reading to the interval it closes", async () => {
+    // Two hourly readings stamped at their end: 01:00 and 02:00 UTC -> intervals 00:00 and 01:00 of
+    // 2025-01-15, both inside the one-day bill. 10 kWh each: Energy 20 × 0.1125 = 2.25;
+    // demand 10 kWh / 1 h = 10 kW (window shorter than the interval: the hourly value) × 10 = 100.00
+    // Tax 5 % × (12.75 + 2.25 + 100.00 + 0.00 = 115.00) = 5.75; total 120.75
+    const csv = join(dir, "end.csv");
+    writeFileSync(csv, "meter_id,timestamp,value\nM9,2025-01-15T01:00:00Z,10\nM9,2025-01-15T02:00:00Z,10\n");
+    const r = await run("--tariff", tariffPath, "--intervals", csv, "--meter", "M9", "--timestamps", "end", "--from", "2025-01-15", "--to", "2025-01-16", "--json");
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.out).total).toBe(120.75);
+  });
+
   it("a broken tariff file: file:line:column on stderr, exit 1", async () => {
     const bad = join(dir, "bad.yaml");
     writeFileSync(bad, "id: x\ncommodity: electricity\nusage_unit: kWh\nversions:\n  - from: 2025-01-01\n    charges:\n      - { label: A, fixd: 3 }\n");
