@@ -76,6 +76,14 @@ export function billContext(tariff: Tariff, req: PriceRequest): BillContext {
   if (req.demandKw != null && !(Number.isFinite(req.demandKw) && req.demandKw >= 0)) {
     throw new PricingError(`demand ${req.demandKw} kW is not a non-negative number`);
   }
+  const shape = req.loadShapeByHourOfWeek;
+  if (shape != null && (shape.length !== 168 || !shape.every((v) => Number.isFinite(v) && v >= 0))) {
+    throw new PricingError(`the load shape must have 168 non-negative hour-of-week values (Monday 00:00 first); got ${shape.length}`);
+  }
+  const prev = req.previousBillingDemandsKw ?? [];
+  if (!prev.every((v) => Number.isFinite(v) && v >= 0)) {
+    throw new PricingError("previous billing demands must be non-negative numbers (kW)");
+  }
   const startMs = localMidnightMs(req.periodStart, req.timezone);
   const endMs = localMidnightMs(req.periodEnd, req.timezone);
 

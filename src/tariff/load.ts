@@ -106,11 +106,11 @@ export function loadTariff(text: string, file: string): { tariff: Tariff | null;
         line: p.line,
         column: p.col,
         severity: "error",
-        message: `YAML syntax: ${e.message.split("\n")[0]}`,
-        hint: "check indentation, colons and quotes near this position",
+        message: e.code === "DUPLICATE_KEY" ? `key '${(/^[^:\n]*/.exec(text.slice(e.pos[0]))?.[0] ?? "").trim()}' appears twice in the same mapping` : `YAML syntax: ${e.message.split("\n")[0]}`,
+        hint: e.code === "DUPLICATE_KEY" ? "keep one of them" : "check indentation (spaces, not tabs), colons and quotes near this position",
       });
     }
-    return { tariff: null, issues: c.issues };
+    return { tariff: null, issues: [...c.issues].sort((a, b) => a.line - b.line || a.column - b.column) };
   }
   if (doc.contents === null) {
     c.issues.push({ file, line: 0, column: 0, severity: "error", message: "the tariff file is empty", hint: "start with id:, commodity:, usage_unit: and versions:" });

@@ -267,6 +267,12 @@ versions:
     expect(errorsOf(yaml)[0]).toMatch(/^9:1 YAML syntax:/);
   });
 
+  it("a duplicated key names the key", () => {
+    expect(errorsOf(`${HEAD}  - from: 2025-01-01\n    charges:\n      - label: A\n        fixed: 1\n        fixed: 2\n`)).toEqual([
+      "9:9 key 'fixed' appears twice in the same mapping | keep one of them",
+    ]);
+  });
+
   it("a usage unit of another commodity, and an unknown commodity", () => {
     expect(errorsOf("id: x\ncommodity: electricity\nusage_unit: therm\nversions:\n  - from: 2025-01-01\n    charges: [{ label: A, fixed: 1 }]\n")[0]).toBe(
       "3:13 usage_unit 'therm' is not a unit for electricity | use one of kWh, MWh",

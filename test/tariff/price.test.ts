@@ -109,6 +109,14 @@ versions:
     expect(() => priceBill(SMALL, base({ usage: 10, usageUnit: "therm" }))).toThrow(/cannot convert therm to kWh/);
   });
 
+  it("malformed request data is a PricingError with a reason", () => {
+    expect(() => priceBill(SMALL, base({ usage: 1, timezone: "Mars/Olympus" }))).toThrow(/unknown time zone 'Mars\/Olympus'/);
+    expect(() => priceBill(SMALL, base({ usage: 1, periodEnd: "2025-01-01" }))).toThrow(/ends \(2025-01-01\) on or before it starts/);
+    expect(() => priceBill(SMALL, base({ usage: 1, loadShapeByHourOfWeek: [1, 2] }))).toThrow(/168 non-negative/);
+    expect(() => priceBill(SMALL, base({ usage: 1, previousBillingDemandsKw: [Number.NaN] }))).toThrow(PricingError);
+    expect(() => priceBill(SMALL, base({ usage: 1, powerFactor: 1.2 }))).toThrow(/outside 0 < pf <= 1/);
+  });
+
   it("a bill before the first version is a PricingError", () => {
     expect(() => priceBill(SMALL, base({ periodStart: "2024-12-20", usage: 1 }))).toThrow(/no version of tariff 'lvp-small' is in force on 2024-12-20/);
   });
