@@ -92,7 +92,8 @@ function billMath(bill: Bill, meter: Meter, priced: PricedBill | undefined, curr
     lines: computed.lines.map((l) => ({
       label: l.label,
       kind: l.kind,
-      quantity: l.quantity == null ? NOT_AVAILABLE : formatQuantity(l.quantity, l.unit),
+      // Percent lines apply to an amount of money: their quantity's unit is the currency.
+      quantity: l.quantity == null ? NOT_AVAILABLE : l.unit === currency ? formatMoney(l.quantity, currency) : formatQuantity(l.quantity, l.unit),
       rate: l.rate == null ? NOT_AVAILABLE : l.kind === "percent" ? formatPercent(l.rate, 4) : formatRate(l.rate, currency, l.unit),
       amount: formatMoney(l.amount, currency),
       status: lineStatusLabel(l.status),

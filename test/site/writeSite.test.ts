@@ -53,6 +53,18 @@ describe("writeSite", () => {
     expect(absolute).toEqual(["/reports/buildings/B1.html"]);
   });
 
+  it("regression: with base_path / the canonical link stays a page URL (Vite once bundled the page into assets/)", async () => {
+    const input = fixtureInput();
+    input.portfolio.settings.basePath = "/";
+    const rootOut = join(work, "root-site");
+    await writeSite(buildSiteModel(input), {}, rootOut);
+    const page = await readFile(join(rootOut, "buildings/B1.html"), "utf8");
+    expect(page).toMatch(/<link rel="canonical" href="\/buildings\/B1\.html"\s*>/);
+    const assets = await readdir(join(rootOut, "assets"));
+    expect(assets.filter((f) => f.endsWith(".html"))).toEqual([]);
+    await rm(rootOut, { recursive: true, force: true });
+  }, 60_000);
+
   it("escapes a building name that is a script tag", async () => {
     const page = await readFile(join(out, "buildings/B2.html"), "utf8");
     expect(page).toContain("&lt;script&gt;alert(1)&lt;/script&gt; &amp; &quot;Annex&quot;");
