@@ -77,6 +77,7 @@ function readIntervalCsv(text: string, file: string, meterId: string, zone: stri
   const rows: { ms: number; value: number; line: number; minutes: number | null }[] = [];
   let other = 0;
   const meters = new Set<string>();
+  const seen = new Set<number>();
   for (let r = 1; r < records.length; r++) {
     const rec = records[r];
     const line = r + 1;
@@ -96,7 +97,15 @@ function readIntervalCsv(text: string, file: string, meterId: string, zone: stri
       if (!NUMBER.test(rec[iMin]) || !(Number(rec[iMin]) > 0)) throw new UsageError(`${file}:${line}:${iMin + 1}: interval_minutes '${rec[iMin]}' is not a positive number`);
       minutes = Number(rec[iMin]);
     }
-    rows.push({ ms: dt.toMillis(), value: Number(v) * multiplier, line, minutes });
+    let ms = dt.toMillis();
+    if (!hasOffset) {
+      // Autumn DST: a wall time in the repeated hour happens twice; the first row is the first
+      // pass, a repeat of it is the second pass (both readings are real).
+      const candidates = instantsOfWallTime(ms, zone);
+      ms = candidates.find((t) => !seen.has(t)) ?? candidates[0] ?? ms;
+    }
+    seen.add(ms);
+    rows.push({ ms, value: Number(v) * multiplier, line, minutes });
   }
   if (rows.length === 0) {
     throw new UsageError(`${file}: no rows for meter '${meterId}'; meters in the file: ${[...meters].slice(0, 10).join(", ") || "none"}`);
@@ -129,6 +138,22 @@ function readIntervalCsv(text: string, file: string, meterId: string, zone: stri
     rowsForMeter: rows.length,
     rowsOtherMeters: other,
   };
+}
+
+/**
+ * Every instant whose local wall-clock time in `zone` equals that of `ms`, earliest first: two in
+ * the repeated hour when clocks go back, one otherwise (none in the skipped spring hour).
+ */
+function instantsOfWallTime(ms: number, zone: string): number[] {
+  const z = IANAZone.create(zone);
+  const wallMs = ms + z.offset(ms) * 60_000;
+  const offsets = new Set([z.offset(ms - 3 * 3_600_000), z.offset(ms), z.offset(ms + 3 * 3_600_000)]);
+  const out: number[] = [];
+  for (const o of offsets) {
+    const t = wallMs - o * 60_000;
+    if (z.offset(t) === o && !out.includes(t)) out.push(t);
+  }
+  return out.sort((a, b) => a - b);
 }
 
 function money(n: number): string {

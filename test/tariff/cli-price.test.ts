@@ -1,5 +1,5 @@
 /** `ohmbook price` (src/cli/price.ts) end to end on temporary files. Amounts hand-computed. */
-import { mkdtempSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
@@ -92,6 +92,24 @@ describe("runPrice", () => {
     const r = await run("--tariff", tariffPath, "--intervals", csv, "--meter", "M9", "--timestamps", "end", "--from", "2025-01-15", "--to", "2025-01-16", "--json");
     expect(r.code).toBe(0);
     expect(JSON.parse(r.out).total).toBe(120.75);
+  });
+
+  it("local timestamps without offset: the repeated autumn hour is read as its second pass", async () => {
+    // America/New_York, 2024-11-03 (25 h): hourly rows 00:00, 01:00, 01:00 (again), 02:00 … 23:00 local,
+    // 25 rows of 2 kWh. All 25 are distinct intervals: usage 50 kWh × 0.1125 = 5.625 -> 5.63 (Energy line)
+    const rows = ["meter_id,timestamp,value", "M5,2024-11-03T00:00:00,2", "M5,2024-11-03T01:00:00,2", "M5,2024-11-03T01:00:00,2"];
+    for (let h = 2; h < 24; h++) rows.push(`M5,2024-11-03T${String(h).padStart(2, "0")}:00:00,2`);
+    const csv = join(dir, "fallback.csv");
+    writeFileSync(csv, `${rows.join("\n")}\n`);
+    const old = join(dir, "lvp-2024.yaml");
+    writeFileSync(old, readFileSync(tariffPath, "utf8").replace("from: 2025-01-01", "from: 2024-01-01"));
+    const r = await run("--tariff", old, "--intervals", csv, "--meter", "M5", "--timezone", "America/New_York", "--from", "2024-11-03", "--to", "2024-11-04", "--json");
+    expect(r.code, r.err).toBe(0);
+    expect(r.err).toMatch(/25 rows for meter 'M5' \(25 in the period, 0 outside it\)/);
+    const bill = JSON.parse(r.out);
+    expect(bill.lines[1]).toMatchObject({ label: "Energy", quantity: 50, amount: 5.63 });
+    // demand: 2 kWh per hour = 2 kW (hourly data, 30-minute window -> hourly value) × 10 = 20.00
+    expect(bill.lines[2]).toMatchObject({ label: "Facility demand", quantity: 2, amount: 20 });
   });
 
   it("a broken tariff file: file:line:column on stderr, exit 1", async () => {
