@@ -44,7 +44,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     const bills = ctx.meters.flatMap((m) => ctx.billsByMeter.get(m.meterId) ?? []);
     const cost = windowCost(bills, window);
     totalCost += cost ?? 0;
-    const rejected = input.rejectedRowsByBuilding?.get(b.buildingId);
+    const rejectedMap = input.rejectedRowsByBuilding;
+    const rejected = rejectedMap?.get(b.buildingId) ?? 0;
     return [
       { text: b.name, href: buildingPath(b.buildingId), sort: b.name.toLowerCase() },
       { text: b.useType ?? NOT_AVAILABLE },
@@ -58,7 +59,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
         ),
       ),
       { text: formatNumber(bills.length), sort: String(bills.length) },
-      rejected == null ? { text: "not attributed", sort: "", tone: "muted" as const } : { text: formatNumber(rejected), sort: String(rejected) },
+      // The column exists only when ingest attributed rejected rows to buildings.
+      ...(rejectedMap ? [{ text: formatNumber(rejected), sort: String(rejected), tone: rejected > 0 ? ("warn" as const) : undefined }] : []),
     ];
   });
   const headline: LabelValue[] = [
@@ -70,6 +72,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
   let notPriced = 0;
   for (const b of input.portfolio.bills) if (!input.priced.get(b.billId)?.computed) notPriced++;
   headline.push({ label: "Bills not re-priced", value: formatNumber(notPriced) });
+  const rowsRejected = input.portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0);
+  headline.push({ label: "Input rows rejected (see Data)", value: formatNumber(rowsRejected) });
   if (input.findings) {
     let atStake = 0;
     for (const f of input.findings) if (f.amountAtStake != null && f.amountAtStake > 0) atStake += f.amountAtStake;
@@ -113,7 +117,7 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
         { label: "Gas use", numeric: true },
         { label: "Water use", numeric: true },
         { label: "Bills", numeric: true },
-        { label: "Rows rejected", numeric: true },
+        ...(input.rejectedRowsByBuilding ? [{ label: "Rows rejected", numeric: true }] : []),
       ],
       rows,
     },

@@ -113,3 +113,17 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(m.index.windowText).toBe("no bills");
   });
 });
+
+describe("rows rejected", () => {
+  it("shows a per-building column only when ingest attributed rejections, and always the portfolio total", () => {
+    const plain = buildSiteModel(fixtureInput());
+    expect(plain.index.buildingsTable.columns.map((c) => c.label)).not.toContain("Rows rejected");
+    expect(plain.index.headline.find((h) => h.label.startsWith("Input rows rejected"))!.value).toBe("2");
+    const input = fixtureInput();
+    input.rejectedRowsByBuilding = new Map([["B2", 3]]);
+    const m = buildSiteModel(input);
+    const col = m.index.buildingsTable.columns.findIndex((c) => c.label === "Rows rejected");
+    expect(m.index.buildingsTable.rows.map((r) => r[col].text)).toEqual(["0", "3"]);
+    expect(m.index.buildingsTable.rows.every((r) => r.length === m.index.buildingsTable.columns.length)).toBe(true);
+  });
+});
