@@ -23,19 +23,3 @@ export function addDays(isoDate: string, days: number): string {
   const t = Date.UTC(+isoDate.slice(0, 4), +isoDate.slice(5, 7) - 1, +isoDate.slice(8, 10)) + days * 86_400_000;
   return new Date(t).toISOString().slice(0, 10);
 }
-
-/** Index range [from, to) of sorted `startMs` with from <= t < to for the instants in [lo, hi). */
-export function sliceByTime(startMs: Float64Array, loMs: number, hiMs: number): [number, number] {
-  return [lowerBound(startMs, loMs), lowerBound(startMs, hiMs)];
-}
-
-function lowerBound(sorted: Float64Array, value: number): number {
-  let lo = 0;
-  let hi = sorted.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (sorted[mid]! < value) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}

@@ -18,7 +18,7 @@ import type { PricedBill } from "./priceBills.ts";
 import { priceMeterBills } from "./priceBills.ts";
 import { meteredForBills } from "../audit/reconcile.ts";
 import { assessIntervalMeters } from "./dataQuality.ts";
-import { makeRepricer } from "./reprice.ts";
+import { makeRepricer } from "../audit/wiring.ts";
 import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { buildDataFiles } from "./outputs.ts";
@@ -163,11 +163,12 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
     const scoped = scopeToBuilding(portfolio, building);
     const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)));
     const baselines = fitBuildingBaselines(portfolio, building);
+    const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
     const findings = runAudit({
       portfolio: scoped,
-      priced: new Map([...priced].map(([id, p]) => [id, p.computed])),
+      priced: computed,
       metered,
-      reprice: makeRepricer(scoped),
+      ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill }),
       // The bill-level change-point band is not passed as `expectedUsage` yet: on mean period
       // temperature it misjudges shoulder months of heating meters (measured on the demo: five
       // clean bills outside the 99 % band), so the audit keeps its labelled interim rule until

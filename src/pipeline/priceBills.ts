@@ -3,35 +3,13 @@
  * see the billing demand of the bills before them. Pure apart from the injected pricer.
  */
 import type { Bill, IntervalSeries, Meter } from "../domain/types.ts";
-import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
-import { sliceByTime, startOfLocalDayMs } from "../core/time.ts";
+import type { ComputedBill, PriceRequest } from "../tariff/types.ts";
+import { intervalUsageForBill } from "../audit/wiring.ts";
 
-export interface PricedBill {
-  computed: ComputedBill | null;
-  /** Why the bill could not be priced (no tariff, unit mismatch, no version in force …). */
-  error: string | null;
-}
+export type { PricedBill } from "../report/input.ts";
+import type { PricedBill } from "../report/input.ts";
 
 export type Pricer = (request: PriceRequest) => ComputedBill;
-
-/**
- * Interval energy inside one bill's half-open local-time period, multiplier applied.
- * Returns null when the meter has no interval data touching the period.
- */
-export function intervalsForPeriod(
-  series: IntervalSeries | undefined,
-  multiplier: number,
-  periodStart: string,
-  periodEnd: string,
-  timezone: string,
-): IntervalUsage | null {
-  if (!series || series.startMs.length === 0) return null;
-  const [from, to] = sliceByTime(series.startMs, startOfLocalDayMs(periodStart, timezone), startOfLocalDayMs(periodEnd, timezone));
-  if (to <= from) return null;
-  const values = new Float64Array(to - from);
-  for (let i = from; i < to; i++) values[i - from] = series.values[i]! * multiplier;
-  return { startMs: series.startMs.subarray(from, to), values, intervalMinutes: series.intervalMinutes };
-}
 
 /**
  * Prices `bills` (any order) of `meter`; returns results keyed by bill_id.
@@ -57,12 +35,7 @@ export function priceMeterBills(options: {
       results.set(bill.billId, { computed: null, error: options.pricerError ?? `tariff '${meter.tariffId}' is not available` });
       continue;
     }
-    let intervals = intervalsForPeriod(series, meter.multiplier, bill.periodStart, bill.periodEnd, timezone);
-    if (intervals) {
-      const periodMs = startOfLocalDayMs(bill.periodEnd, timezone) - startOfLocalDayMs(bill.periodStart, timezone);
-      const expected = periodMs / (intervals.intervalMinutes * 60_000);
-      if (intervals.values.length < minCoverage * expected) intervals = null;
-    }
+    const intervals = intervalUsageForBill(series, meter.multiplier, bill, timezone, minCoverage);
     try {
       const computed = price({
         periodStart: bill.periodStart,

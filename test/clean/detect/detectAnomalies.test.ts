@@ -106,43 +106,15 @@ describe("a building that is truly off when closed", () => {
   });
 });
 
-describe("speed", () => {
-  it("a year of 15-minute data takes well under 100 ms once warm (measured ≈ 20 ms)", () => {
-    const { series } = plantFaults(makeOffice({ weeks: 52, seed: 5 }).series);
+// Speed is measured by `npm run bench` (bench/cleaning.ts), not asserted here: timed unit tests
+// fail on busy machines without telling anything about correctness.
+describe("a year of data", () => {
+  it("runs over a year of 15-minute data and still finds the planted faults", () => {
+    const { series, planted } = plantFaults(makeOffice({ weeks: 52, seed: 5 }).series);
     expect(series.values.length).toBeGreaterThan(34_900);
-    detectAnomalies(series); // warm-up: the first call includes JIT compilation
-    const t0 = performance.now();
-    detectAnomalies(series);
-    const ms = performance.now() - t0;
-    // Generous bound so a busy CI machine does not fail it; the point is "not seconds".
-    expect(ms).toBeLessThan(100);
-  });
-});
-
-describe("across a DST change (America/New_York, 9 March 2025)", () => {
-  // Eight weeks from Monday 17 February 2025, local midnight (EST, UTC−5).
-  const start = Date.UTC(2025, 1, 17, 5);
-  const indexOfLocal = (s: IntervalSeries, isoLocal: string): number =>
-    s.startMs.indexOf(DateTime.fromISO(isoLocal, { zone: ZONE }).toMillis());
-
-  it("a building off every night and weekend on the local clock: nothing flagged", () => {
-    const { series } = makeOffice({ seed: 21, startMs: start, offWhenClosed: true });
-    expect(detectAnomalies(series, {}, { timezone: ZONE }).detections).toEqual([]);
-  });
-
-  it("an outage after the change is reported on its local working hours", () => {
-    const { series } = makeOffice({ seed: 21, startMs: start, offWhenClosed: true });
-    const v = Float64Array.from(series.values);
-    const a = indexOfLocal(series, "2025-03-18T07:00");
-    for (let i = a; i < a + 48; i++) v[i] = 0;
-    const { detections } = detectAnomalies({ ...series, values: v }, {}, { timezone: ZONE });
-    expect(detections.map((d) => [d.kind, new Date(d.startMs).toISOString(), d.intervals])).toEqual([
-      ["zero-run", "2025-03-18T11:00:00.000Z", 48], // 07:00 EDT
-    ]);
-  });
-
-  it("the clean twin with ordinary nights and weekends stays clean", () => {
-    const { series } = makeOffice({ seed: 22, startMs: start });
-    expect(detectAnomalies(series, {}, { timezone: ZONE }).detections).toEqual([]);
+    const { detections, mask } = detectAnomalies(series);
+    const found = detections.map((d) => ({ kind: d.kind, startMs: d.startMs, intervals: d.intervals }));
+    for (const p of planted) expect(found).toContainEqual(p);
+    expect(mask.length).toBe(series.values.length);
   });
 });
