@@ -104,6 +104,24 @@ versions:
     expect(priceBill(t, base({ usage: 10, usageUnit: "ccf" })).total).toBe(37.4);
   });
 
+  it("gas billed in kWh and in m3, priced per therm", () => {
+    const t = tariffOf(`
+id: lvp-gas-units
+commodity: gas
+usage_unit: therm
+versions:
+  - from: 2025-01-01
+    charges:
+      - { label: Commodity, energy: 1.00 }
+`);
+    // 293.071 kWh / 29.3071 kWh per therm = 10 therm × 1.00 = 10.00
+    expect(priceBill(t, base({ usage: 293.071, usageUnit: "kWh" })).total).toBe(10);
+    // 100 m3 = 3,531.4667 ft3 = 35.314667 ccf × 1.037 (default heat content) = 36.6213 therm -> 36.62
+    const bill = priceBill(t, base({ usage: 100, usageUnit: "m3" }));
+    expect(bill.total).toBe(36.62);
+    expect(bill.notes.join(" ")).toMatch(/heat content 1.037 therm\/ccf, the default/);
+  });
+
   it("an impossible conversion is a PricingError, not a crash", () => {
     expect(() => priceBill(SMALL, base({ usage: 10, usageUnit: "therm" }))).toThrow(PricingError);
     expect(() => priceBill(SMALL, base({ usage: 10, usageUnit: "therm" }))).toThrow(/cannot convert therm to kWh/);
