@@ -7,7 +7,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { existsSync, readFileSync } from "node:fs";
-import { mkdir, mkdtemp, rm } from "node:fs/promises";
+import { mkdir, mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises";
+import { gzipSync } from "node:zlib";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
@@ -43,6 +44,8 @@ async function runAxe(page: Page): Promise<AxeResult> {
 
 describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /reports/", () => {
   let work: string;
+  let site: string;
+  let buildMs = 0;
   let server: RunningServer;
   let context: BrowserContext;
   const outsideRequests: string[] = [];
@@ -50,8 +53,10 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
 
   beforeAll(async () => {
     work = await mkdtemp(join(tmpdir(), "ohmbook-e2e-"));
-    const site = join(work, "site");
+    site = join(work, "site");
+    const t0 = performance.now();
     await writeSite(buildSiteModel(fixtureInput()), { "findings.csv": "building_id\nB1\n", "portfolio.json": "[]\n" }, site);
+    buildMs = Math.round(performance.now() - t0);
     server = await serveStatic(site, PREFIX);
     await mkdir(ARTIFACTS, { recursive: true });
     context = await chromium.launchPersistentContext(join(work, "profile"), {
@@ -168,6 +173,31 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     await page.emulateMedia({ media: "screen" });
     expect(await page.locator(".site-header nav").isVisible()).toBe(true);
     await page.close();
+  });
+
+  it("shows a tooltip when the pointer rests on a bar", async () => {
+    const { page } = await open("buildings/B1.html");
+    await page.waitForFunction(() => document.querySelector("figure[data-chart]")?.getAttribute("data-chart-state") === "interactive");
+    const bar = page.locator("figure[data-chart] .chart-live .mark-rect path").first();
+    await bar.hover({ force: true });
+    const tooltip = page.locator("#vg-tooltip-element");
+    await expect.poll(async () => (await tooltip.count()) > 0 && (await tooltip.isVisible()), { timeout: 5000 }).toBe(true);
+    expect(await tooltip.textContent()).toMatch(/Month.*Meter.*Usage \(kWh\)/s);
+    await page.close();
+  });
+
+  it("records the page weight of a building page (HTML + JS + CSS, raw and gzip) in test-artifacts", async () => {
+    const files = [join(site, "buildings/B1.html"), ...(await readdir(join(site, "assets"))).map((f) => join(site, "assets", f))];
+    const weights = await Promise.all(
+      files.map(async (f) => {
+        const body = await readFile(f);
+        return { file: f.slice(site.length + 1), bytes: body.length, gzipBytes: gzipSync(body, { level: 9 }).length };
+      }),
+    );
+    const total = { bytes: weights.reduce((s, w) => s + w.bytes, 0), gzipBytes: weights.reduce((s, w) => s + w.gzipBytes, 0) };
+    await writeFile(join(ARTIFACTS, "page-weight.json"), JSON.stringify({ page: "buildings/B1.html", buildMs, files: weights, total }, null, 2));
+    // Budget: the vega runtime dominates (about 300 kB gzip); fail loudly if a change doubles it.
+    expect(total.gzipBytes).toBeLessThan(450_000);
   });
 
   it("sorts the building table by floor area, both directions", async () => {
