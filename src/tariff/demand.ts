@@ -71,6 +71,40 @@ export function maxWindowDemandKw(
 }
 
 /**
+ * Highest rolling-window average demand inside each period, kW, in one pass: a window counts for
+ * period p only when its intervals are contiguous and all start in p.
+ *
+ * @returns one value per period index; null where no complete window lies inside the period
+ * @example periods [0,0,1,1] with 15-minute kWh [5,5,30,30] and a 30-minute window -> [20, 120]
+ */
+export function maxWindowDemandByPeriodKw(
+  startMs: Float64Array,
+  kwh: Float64Array,
+  intervalMinutes: number,
+  windowMinutes: number,
+  periodIdx: Int8Array,
+  periodCount: number,
+): (number | null)[] {
+  const k = intervalsPerWindow(windowMinutes, intervalMinutes);
+  const stepMs = intervalMinutes * 60_000;
+  const hours = (k * intervalMinutes) / 60;
+  const best = new Float64Array(periodCount).fill(-Infinity);
+  let sum = 0;
+  let run = 0; // consecutive contiguous intervals in the same period, ending at i
+  for (let i = 0; i < kwh.length; i++) {
+    sum += kwh[i];
+    if (i >= k) sum -= kwh[i - k];
+    run = i > 0 && periodIdx[i] === periodIdx[i - 1] && startMs[i] - startMs[i - 1] === stepMs ? run + 1 : 1;
+    if (run >= k) {
+      const p = periodIdx[i];
+      const kw = sum / hours;
+      if (p >= 0 && kw > best[p]) best[p] = kw;
+    }
+  }
+  return Array.from(best, (b) => (b === -Infinity ? null : b));
+}
+
+/**
  * Billing demand after a ratchet and a minimum: max(measured, percent/100 × highest of the last
  * `months` previous billing demands, minimumKw).
  *

@@ -6,7 +6,7 @@ import type { ComputedLine, LinePart, LineStatus } from "./types.ts";
 import type { Charge, RateSpec, TariffVersion } from "./model.ts";
 import type { BillContext } from "./context.ts";
 import { hourOfWeek, periodIndices } from "./calendar.ts";
-import { billingDemandKw, maxWindowDemandKw } from "./demand.ts";
+import { billingDemandKw, maxWindowDemandByPeriodKw, maxWindowDemandKw } from "./demand.ts";
 import { MINIMUM_BILL_LABEL } from "./load.ts";
 import { roundCents, sumAmounts } from "./rounding.ts";
 import { groupedNumber } from "./format.ts";
@@ -226,11 +226,10 @@ function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "demand" 
   let status: LineStatus = "exact";
   let note: string;
   if (iv && iv.kwh && iv.startMs.length > 0) {
-    const idx = st.intervalPeriods();
+    const byPeriod = maxWindowDemandByPeriodKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes, st.intervalPeriods(), version.periods.length);
     for (const name of names) {
       const p = version.periods.findIndex((x) => x.name === name);
-      const d = maxWindowDemandKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes, idx, p);
-      let kw = d.kw ?? 0;
+      let kw = byPeriod[p] ?? 0;
       if (charge.minimumKw !== null && kw < charge.minimumKw) kw = charge.minimumKw;
       parts.push({ label: name, quantity: kw, unit: "kW", rate: rates[name], amount: kw * rates[name] });
     }
