@@ -74,6 +74,9 @@ function viteOptions(verbose: boolean): Record<string, unknown> {
     configFile: false,
     logLevel: verbose ? "info" : "silent",
     clearScreen: false,
+    // Inline (empty) PostCSS config: Vite would otherwise search the output's parent folders
+    // and could pick up an unrelated project's config.
+    css: { postcss: {} },
     resolve: {
       // The scratch folder may sit outside the project, where bare imports would not resolve.
       // Object form: the plugin deep-merges its own object-form alias with ours.

@@ -60,6 +60,13 @@ describe("renderSvg", () => {
     expect(svg).not.toContain("NaN");
   });
 
+  it("escapes user text inside the SVG (meter ids appear in the legend and axis)", async () => {
+    const evil = "<script>alert(1)</script>&";
+    const svg = await renderSvg(monthlyUsageSpec({ ...chart, data: [{ month: "2025-01", series: evil, value: 1 }] }));
+    expect(svg).not.toContain("<script>");
+    expect(svg).toContain("&lt;script&gt;alert(1)&lt;/script&gt;&amp;");
+  });
+
   it("rejects a spec that does not compile", async () => {
     await expect(renderSvg({ mark: "bar", encoding: { x: { field: "a", type: "nonsense" } }, data: { values: [] } })).rejects.toThrow();
   });
