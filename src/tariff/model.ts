@@ -5,6 +5,9 @@
  */
 import type { Commodity } from "../domain/types.ts";
 
+/** Label of the line the minimum bill adds; percent lines may name it in `of`. */
+export const MINIMUM_BILL_LABEL = "Minimum bill adjustment";
+
 /** Which days a time-of-use period covers. Observed holidays count as weekends. */
 export type DayKind = "weekdays" | "weekends" | "all";
 

@@ -7,7 +7,7 @@ import type { Charge, RateSpec, TariffVersion } from "./model.ts";
 import type { BillContext } from "./context.ts";
 import { hourOfWeek, periodIndices } from "./calendar.ts";
 import { billingDemandKw, maxWindowDemandByPeriodKw, maxWindowDemandKw } from "./demand.ts";
-import { MINIMUM_BILL_LABEL } from "./load.ts";
+import { MINIMUM_BILL_LABEL } from "./model.ts";
 import { roundCents, sumAmounts } from "./rounding.ts";
 import { groupedNumber } from "./format.ts";
 
