@@ -48,6 +48,38 @@ async function removeStaleScratch(outDir: string): Promise<void> {
   await Promise.all(names.filter((n) => n.startsWith(prefix)).map((n) => rm(join(parent, n), { recursive: true, force: true })));
 }
 
+/** File every site carries so a later build knows the folder is ours to replace. */
+export const SITE_MARKER = ".ohmbook-site";
+
+function isInside(child: string, parent: string): boolean {
+  return child === parent || child.startsWith(parent.endsWith(sep) ? parent : parent + sep);
+}
+
+/**
+ * Refuses to replace a folder that is not a site ohmbook wrote: the swap deletes the old
+ * folder, so `--out .` or `--out ~/Documents` must never get that far.
+ */
+async function assertReplaceable(out: string): Promise<void> {
+  if (isInside(process.cwd(), out) || isInside(PROJECT_ROOT, out)) {
+    throw new SiteWriteError(`refusing to write the site to ${out}: it contains the current folder or the ohmbook installation; choose an output folder of its own, e.g. _site`);
+  }
+  let entries: string[];
+  try {
+    entries = await readdir(out);
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code === "ENOENT") return;
+    if ((error as NodeJS.ErrnoException).code === "ENOTDIR") {
+      throw new SiteWriteError(`refusing to write the site to ${out}: it is a file, not a folder`);
+    }
+    throw error;
+  }
+  if (entries.length > 0 && !entries.includes(SITE_MARKER)) {
+    throw new SiteWriteError(
+      `refusing to replace ${out}: it is not empty and was not written by ohmbook (no ${SITE_MARKER} file); delete it or choose another output folder`,
+    );
+  }
+}
+
 /** Checks a data-file name stays inside data/ (no absolute paths, no `..`). */
 function safeDataPath(dataDir: string, name: string): string {
   const target = resolve(dataDir, name);
@@ -108,6 +140,7 @@ export async function writeSite(
   const out = resolve(outDir);
   // Refuse bad data-file names before any work (and before touching the disk).
   for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
+  await assertReplaceable(out);
   await mkdir(dirname(out), { recursive: true });
   await removeStaleScratch(out);
   const scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
@@ -139,6 +172,7 @@ export async function writeSite(
       await mkdir(dirname(target), { recursive: true });
       await writeFile(target, text, "utf8");
     }
+    await writeFile(join(stage, SITE_MARKER), "This folder is a static site written by ohmbook; the next build replaces it whole.\n", "utf8");
     // Swap: move the old site aside, the new one in, then delete the old one.
     const previous = join(scratch, "previous");
     const hadPrevious = await exists(out);

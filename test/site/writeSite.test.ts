@@ -27,7 +27,7 @@ describe("writeSite", () => {
 
   it("writes index, building, methods and data pages, data files and a bundled script", async () => {
     const files = await readdir(out, { recursive: true });
-    for (const f of ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html", "data/findings.csv", "data/portfolio.json"]) {
+    for (const f of [".ohmbook-site", "index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html", "data/findings.csv", "data/portfolio.json"]) {
       expect(files).toContain(f);
     }
     expect(await readFile(join(out, "data/findings.csv"), "utf8")).toBe(DATA["findings.csv"]);
@@ -113,6 +113,19 @@ describe("writeSite", () => {
     expect(await readFile(join(out, "index.html"), "utf8")).toBe(before);
     expect((await readdir(work)).sort()).toEqual(["site"]);
   }, 60_000);
+
+  it("refuses to replace a folder it did not write, the current folder, or a file", async () => {
+    const foreign = join(work, "foreign");
+    await mkdir(foreign);
+    await writeFile(join(foreign, "thesis.docx"), "precious");
+    const model = buildSiteModel(fixtureInput());
+    await expect(writeSite(model, {}, foreign)).rejects.toThrow(/not written by ohmbook/);
+    expect(await readFile(join(foreign, "thesis.docx"), "utf8")).toBe("precious");
+    await expect(writeSite(model, {}, process.cwd())).rejects.toThrow(/current folder/);
+    await expect(writeSite(model, {}, join(process.cwd(), ".."))).rejects.toThrow(/current folder/);
+    await expect(writeSite(model, {}, join(foreign, "thesis.docx"))).rejects.toThrow(/is a file/);
+    await rm(foreign, { recursive: true, force: true });
+  });
 
   it("creates no output folder when the first build fails", async () => {
     const fresh = join(work, "never");
