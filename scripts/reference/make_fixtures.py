@@ -156,7 +156,9 @@ def sse(kind, t, y, w, bps):
 
 
 def best_breakpoints(kind, t, y, w, min_pts=3):
-    """Exact search: on each interval between sorted temperatures the active set is fixed and
+    """Segment rule as in ohmbook: at least min_pts temperatures at or below the lower
+    breakpoint and at or above the upper one.
+    Exact search: on each interval between sorted temperatures the active set is fixed and
     SSE is smooth in the breakpoint, so a bounded 1-D minimisation per interval (or a bounded
     2-D one per pair of intervals for 5P) finds the global minimum."""
     s = np.sort(t)
@@ -169,7 +171,7 @@ def best_breakpoints(kind, t, y, w, min_pts=3):
             r = optimize.minimize_scalar(lambda v: sse(kind, t, y, w, [v]), bounds=(a, b), method="bounded",
                                          options={"xatol": 1e-10})
             for v, f in ((r.x, r.fun), (a, sse(kind, t, y, w, [a])), (b, sse(kind, t, y, w, [b]))):
-                if f < best[0] and np.sum(t < v) >= min_pts and np.sum(t > v) >= min_pts:
+                if f < best[0] and np.sum(t <= v) >= min_pts and np.sum(t >= v) >= min_pts:
                     best = (f, [float(v)])
     else:
         for i, (a1, b1) in enumerate(intervals):
@@ -180,7 +182,7 @@ def best_breakpoints(kind, t, y, w, min_pts=3):
                 r = optimize.minimize(lambda v: sse(kind, t, y, w, v), x0, method="L-BFGS-B",
                                       bounds=[(a1, b1), (a2, b2)], options={"ftol": 1e-15, "gtol": 1e-12})
                 v = r.x
-                if v[0] < v[1] and r.fun < best[0] and np.sum(t < v[0]) >= min_pts and np.sum(t > v[1]) >= min_pts:
+                if v[0] < v[1] and r.fun < best[0] and np.sum(t <= v[0]) >= min_pts and np.sum(t >= v[1]) >= min_pts:
                     best = (float(r.fun), [float(v[0]), float(v[1])])
     return best[1], best[0]
 

@@ -8,13 +8,16 @@
  *   3PC: Y = β₁ + β₂·(X − β₃)⁺                     cooling, β₂ > 0
  *   3PH: Y = β₁ + β₂·(X − β₃)⁻                     heating, β₂ < 0
  *   4P:  Y = β₁ + β₂·(X − β₄)⁻ + β₃·(X − β₄)⁺
- *   5P:  Y = β₁ + β₂·(X − β₄)⁻ + β₃·(X − β₅)⁺      β₂ < 0 < β₃, β₄ < β₅
+ *   5P:  Y = β₁ + β₂·(X − β₄)⁻ + β₃·(X − β₅)⁺      β₂ < 0 < β₃, β₄ ≤ β₅
+ *
+ * (β₄ = β₅ is allowed: a 5P without a dead band. Without it the best 5P can be an infimum
+ * that no admissible pair reaches; such a fit loses to the 4P on CV(RMSE) anyway.)
  *
  * with (x)⁺ = max(x, 0), (x)⁻ = min(x, 0). Temperature may be in °F or °C; breakpoints come
- * out in the same unit. Breakpoints are found by a coarse grid (uniform steps plus every
- * observed temperature) and then successively finer grids around the best point, minimising
- * the (weighted) sum of squared errors; the slopes and intercept come from least squares with
- * the breakpoints held fixed.
+ * out in the same unit. Breakpoints minimise the (weighted) sum of squared errors; instead of
+ * a coarse-then-fine grid, which can stop in the wrong valley, each interval between observed
+ * temperatures is solved exactly (Hudson 1966; see fitChangePoint). The slopes and intercept
+ * come from least squares with the breakpoints held fixed.
  *
  * Degrees of freedom: p counts breakpoints as parameters (3PH has p = 3), so Guideline 14
  * statistics, the RMSE and the prediction interval all use n − p. Coefficient t values come
@@ -23,7 +26,7 @@
  */
 import { fitOls } from "./ols.ts";
 import type { IntervalPrediction, OlsFit } from "./ols.ts";
-import { householderQr, qrSolve } from "./linalg.ts";
+import { leastSquaresInPlace } from "./linalg.ts";
 import { guideline14Stats, mean } from "./stats.ts";
 import type { Guideline14Stats } from "./stats.ts";
 import { studentTQuantile } from "./studentT.ts";
@@ -58,10 +61,11 @@ const BREAKPOINT_COUNT: Record<ChangePointKind, number> = { "1P": 0, "2P": 0, "3
 export interface ChangePointFitOptions {
   /** Weight each period by its billing days (weighted least squares). Default false. */
   weightByDays?: boolean;
-  /** Minimum points strictly below the lower and strictly above the upper breakpoint. Default 3. */
+  /**
+   * Minimum points at or below the lower breakpoint and at or above the upper one. Default 3.
+   * A point exactly at a breakpoint lies on both segments, so it counts on both sides.
+   */
   minPointsPerSegment?: number;
-  /** Steps of the coarse uniform breakpoint grid (observed temperatures are added). Default 20. */
-  coarseSteps?: number;
   /** Guideline 14 limits to judge against. Default "monthly". */
   resolution?: "monthly" | "hourly";
 }
@@ -133,12 +137,12 @@ function segmentCountsOk(kind: ChangePointKind, temps: readonly number[], bps: r
   if (BREAKPOINT_COUNT[kind] === 0) return true;
   const lo = bps[0];
   const hi = bps[bps.length - 1];
-  if (bps.length === 2 && !(lo < hi)) return false;
+  if (bps.length === 2 && !(lo <= hi)) return false;
   let below = 0;
   let above = 0;
   for (const t of temps) {
-    if (t < lo) below++;
-    if (t > hi) above++;
+    if (t <= lo) below++;
+    if (t >= hi) above++;
   }
   return below >= minPts && above >= minPts;
 }
@@ -160,7 +164,7 @@ export function fitChangePointAt(
     throw new ModelInputError(`${kind} needs ${BREAKPOINT_COUNT[kind]} breakpoint(s), got ${breakpoints.length}`);
   }
   const bps = [...breakpoints];
-  if (bps.length === 2 && !(bps[0] < bps[1])) throw new ModelInputError(`5P breakpoints must increase, got ${bps.join(", ")}`);
+  if (bps.length === 2 && !(bps[0] <= bps[1])) throw new ModelInputError(`5P breakpoints must not decrease, got ${bps.join(", ")}`);
   const p = CHANGE_POINT_PARAMETER_COUNT[kind];
   const n = points.length;
   if (n <= p) throw new ModelInputError(`${kind} needs more than ${p} points, got ${n}`);
@@ -205,33 +209,94 @@ export function fitChangePointAt(
   return { kind, beta, breakpoints: bps, slopes, parameterCount: p, stats, rmse, ols, predict, predictWithInterval };
 }
 
-/** Weighted SSE at fixed breakpoints, or Infinity when the design is singular. */
-function sseAt(kind: ChangePointKind, temps: readonly number[], y: Float64Array, sqrtW: Float64Array, bps: readonly number[]): number {
-  const rows = temps.map((t, i) => [1, ...designRow(kind, t, bps)].map((v) => v * sqrtW[i]));
-  const wy = y.map((v, i) => v * sqrtW[i]);
-  try {
-    const qr = householderQr(rows);
-    const b = qrSolve(qr, wy);
-    let sse = 0;
-    for (let i = 0; i < rows.length; i++) {
-      let f = 0;
-      for (let j = 0; j < b.length; j++) f += rows[i][j] * b[j];
-      sse += (wy[i] - f) ** 2;
+/** A column of a search design, as a function of temperature. */
+type Column = (t: number) => number;
+
+const ONE: Column = () => 1;
+
+/**
+ * Workspace for the breakpoint searches: fits small weighted least-squares problems in
+ * preallocated arrays (thousands of fits per meter, so no allocation per fit).
+ */
+class SearchWorkspace {
+  private readonly a: Float64Array;
+  private readonly rhs: Float64Array;
+  readonly coef = new Float64Array(6);
+  constructor(
+    private readonly temps: readonly number[],
+    private readonly y: Float64Array,
+    private readonly sqrtW: Float64Array,
+  ) {
+    this.a = new Float64Array(temps.length * 6);
+    this.rhs = new Float64Array(temps.length);
+  }
+  /** Weighted SSE of y on the given columns (NaN when singular); coefficients in `coef`. */
+  fit(columns: readonly Column[]): number {
+    const m = this.temps.length;
+    for (let i = 0; i < m; i++) {
+      const w = this.sqrtW[i];
+      const t = this.temps[i];
+      for (let c = 0; c < columns.length; c++) this.a[c * m + i] = w * columns[c](t);
+      this.rhs[i] = w * this.y[i];
     }
-    return sse;
-  } catch (e) {
-    if (e instanceof ModelInputError) return Number.POSITIVE_INFINITY;
-    throw e;
+    return leastSquaresInPlace(this.a, this.rhs, m, columns.length, this.coef);
+  }
+  /** Weighted SSE of a change-point form at fixed breakpoints; Infinity when singular. */
+  sseAt(kind: ChangePointKind, bps: readonly number[]): number {
+    const sse = this.fit([ONE, ...hingeColumns(kind, bps)]);
+    return Number.isNaN(sse) ? Number.POSITIVE_INFINITY : sse;
   }
 }
 
-function linspace(lo: number, hi: number, steps: number): number[] {
-  if (steps <= 0 || hi === lo) return [lo];
-  return Array.from({ length: steps + 1 }, (_, i) => lo + ((hi - lo) * i) / steps);
+function hingeColumns(kind: ChangePointKind, bps: readonly number[]): Column[] {
+  switch (kind) {
+    case "1P":
+      return [];
+    case "2P":
+      return [(t) => t];
+    case "3PC":
+      return [(t) => Math.max(t - bps[0], 0)];
+    case "3PH":
+      return [(t) => Math.min(t - bps[0], 0)];
+    case "4P":
+      return [(t) => Math.min(t - bps[0], 0), (t) => Math.max(t - bps[0], 0)];
+    case "5P":
+      return [(t) => Math.min(t - bps[0], 0), (t) => Math.max(t - bps[1], 0)];
+  }
 }
 
 /**
- * Fit one change-point form, searching the breakpoint(s) by coarse-then-fine grids.
+ * Candidate breakpoints for one hinge in the closed interval [k0, k1] between two consecutive
+ * observed temperatures (Hudson 1966, JASA 61). Inside the interval the set of points on the
+ * hinge's active side is fixed and the hinge column is x·a − b·a, so least squares on the
+ * fixed columns plus x·a and a, unconstrained, gives c_xa and c_a, and b* = −c_a/c_xa meets
+ * the continuity constraint: when b* lies inside, it is the best breakpoint of the interval;
+ * otherwise the best is an end. The midpoint is added for degenerate intervals (e.g. all
+ * active points at one temperature), where SSE is flat inside but differs at the ends.
+ * @param activeAbove true for a (x − b)⁺ hinge, false for (x − b)⁻.
+ */
+function intervalCandidates(ws: SearchWorkspace, k0: number, k1: number, fixed: readonly Column[], activeAbove: boolean): number[] {
+  const out = [k0, k1, (k0 + k1) / 2];
+  const a: Column = activeAbove ? (t) => (t >= k1 ? 1 : 0) : (t) => (t <= k0 ? 1 : 0);
+  const sse = ws.fit([...fixed, (t) => t * a(t), a]);
+  if (!Number.isNaN(sse)) {
+    const k = fixed.length;
+    const b = -ws.coef[k + 1] / ws.coef[k];
+    if (Number.isFinite(b) && b > k0 && b < k1) out.push(b);
+  }
+  return out;
+}
+
+/**
+ * Fit one change-point form, searching its breakpoint(s) for the least (weighted) SSE.
+ *
+ * One breakpoint (3PC, 3PH, 4P): every interval between consecutive observed temperatures is
+ * solved exactly (see intervalCandidates), so the search is exhaustive.
+ * Two breakpoints (5P): the optimum lies either where both hinges are at their stationary
+ * points (solved for every pair of intervals), or with one breakpoint at an observed
+ * temperature and the other solved exactly (every knot × every interval), or at an interior
+ * point that is neither; the last case is covered by exact coordinate descent from the best
+ * few pairs. A property test compares the result with a fine two-dimensional scan.
  * @throws ModelInputError when there are too few points for the form or no admissible breakpoint.
  * @example fitChangePoint(points, "3PH").breakpoints // [55]
  */
@@ -245,50 +310,113 @@ export function fitChangePoint(
   const weightByDays = options.weightByDays ?? false;
   checkPoints(points, weightByDays);
   const minPts = options.minPointsPerSegment ?? 3;
-  const steps = options.coarseSteps ?? 20;
   const temps = points.map((pt) => pt.temp);
   const y = Float64Array.from(points, (pt) => pt.usePerDay);
   const sqrtW = Float64Array.from(points, (pt) => (weightByDays ? Math.sqrt(pt.days as number) : 1));
-  const sorted = [...temps].sort((a, b) => a - b);
-  const n = sorted.length;
+  const n = temps.length;
   if (n < 2 * minPts || n <= CHANGE_POINT_PARAMETER_COUNT[kind]) {
     throw new ModelInputError(`${kind} needs at least ${Math.max(2 * minPts, CHANGE_POINT_PARAMETER_COUNT[kind] + 1)} points, got ${n}`);
   }
-  const lo = sorted[Math.max(minPts - 1, 0)];
-  const hi = sorted[n - minPts];
-  const coarse = [...new Set([...linspace(lo, hi, steps), ...sorted.filter((t) => t >= lo && t <= hi)])].sort((a, b) => a - b);
-  let step = (hi - lo) / steps;
+  const ws = new SearchWorkspace(temps, y, sqrtW);
+  const knots = [...new Set(temps)].sort((a, b) => a - b);
   const ok = (bps: number[]): boolean => segmentCountsOk(kind, temps, bps, minPts);
   let best: number[] | null = null;
   let bestSse = Number.POSITIVE_INFINITY;
-  const consider = (bps: number[]): void => {
-    if (!ok(bps)) return;
-    const sse = sseAt(kind, temps, y, sqrtW, bps);
+  /** SSE at `bps` (Infinity when inadmissible); remembers the best seen. */
+  const consider = (bps: number[]): number => {
+    if (!ok(bps)) return Number.POSITIVE_INFINITY;
+    const sse = ws.sseAt(kind, bps);
     if (sse < bestSse) {
       bestSse = sse;
       best = bps;
     }
+    return sse;
   };
+  const below = (b: number): number => temps.filter((t) => t <= b).length;
+  const above = (b: number): number => temps.filter((t) => t >= b).length;
+
   if (nb === 1) {
-    for (const b of coarse) consider([b]);
+    const fixed: Column[] = kind === "4P" ? [ONE, (t) => t] : [ONE];
+    const activeAbove = kind !== "3PH";
+    for (let i = 0; i + 1 < knots.length; i++) {
+      if (below(knots[i + 1]) < minPts || above(knots[i]) < minPts) continue;
+      for (const b of intervalCandidates(ws, knots[i], knots[i + 1], fixed, activeAbove)) consider([b]);
+    }
   } else {
-    for (let i = 0; i < coarse.length; i++) for (let j = i + 1; j < coarse.length; j++) consider([coarse[i], coarse[j]]);
-  }
-  if (best === null) throw new ModelInputError(`${kind}: no breakpoint leaves ${minPts} points on each side`);
-  // Refine: successively finer grids around the best point; each pass shrinks the step tenfold (1D) or fivefold (2D).
-  const passes = nb === 1 ? 5 : 6;
-  for (let pass = 0; pass < passes; pass++) {
-    const centre: number[] = best;
-    if (nb === 1) {
-      for (const b of linspace(centre[0] - step, centre[0] + step, 20)) consider([b]);
-      step /= 10;
-    } else {
-      const g1 = linspace(centre[0] - step, centre[0] + step, 10);
-      const g2 = linspace(centre[1] - step, centre[1] + step, 10);
-      for (const a of g1) for (const b of g2) if (a < b) consider([a, b]);
-      step /= 5;
+    // 5P: Y = β₁ + β₂(X − b₁)⁻ + β₃(X − b₂)⁺.
+    // Intervals where each breakpoint can lie (closure admissible on its own side).
+    const lowIdx: number[] = [];
+    const highIdx: number[] = [];
+    for (let i = 0; i + 1 < knots.length; i++) {
+      if (below(knots[i + 1]) >= minPts) lowIdx.push(i);
+      if (above(knots[i]) >= minPts) highIdx.push(i);
+    }
+    /** Best of the exact candidates for one breakpoint with the other fixed. */
+    const solveOne = (which: 0 | 1, other: number, i: number): { bps: number[]; sse: number } | null => {
+      const fixed: Column[] = which === 1 ? [ONE, (t) => Math.min(t - other, 0)] : [ONE, (t) => Math.max(t - other, 0)];
+      let arg: { bps: number[]; sse: number } | null = null;
+      const cands = intervalCandidates(ws, knots[i], knots[i + 1], fixed, which === 1);
+      // When both breakpoints share an interval, also try the middle of the part left free.
+      if (which === 1 && other > knots[i] && other < knots[i + 1]) cands.push((other + knots[i + 1]) / 2);
+      if (which === 0 && other > knots[i] && other < knots[i + 1]) cands.push((knots[i] + other) / 2);
+      for (const b of cands) {
+        const bps = which === 1 ? [other, b] : [b, other];
+        const sse = consider(bps);
+        if (Number.isFinite(sse) && (arg === null || sse < arg.sse)) arg = { bps, sse };
+      }
+      return arg;
+    };
+    /** A starting point inside a pair of intervals: the midpoints, or the thirds of a shared interval. */
+    const pairStart = (i: number, j: number): number[] => {
+      const [a0, a1, c0, c1] = [knots[i], knots[i + 1], knots[j], knots[j + 1]];
+      return i === j ? [a0 + (a1 - a0) / 3, a0 + (2 * (a1 - a0)) / 3] : [(a0 + a1) / 2, (c0 + c1) / 2];
+    };
+    // (1) Both hinges stationary, per pair of intervals.
+    const pairScores: { i: number; j: number; sse: number }[] = [];
+    for (const i of lowIdx) {
+      for (const j of highIdx) {
+        if (j < i) continue;
+        const [a0, a1, c0, c1] = [knots[i], knots[i + 1], knots[j], knots[j + 1]];
+        const l: Column = (t) => (t <= a0 ? 1 : 0);
+        const r: Column = (t) => (t >= c1 ? 1 : 0);
+        const sse = ws.fit([ONE, (t) => t * l(t), l, (t) => t * r(t), r]);
+        if (!Number.isNaN(sse)) {
+          const b1 = -ws.coef[2] / ws.coef[1];
+          const b2 = -ws.coef[4] / ws.coef[3];
+          if (b1 > a0 && b1 < a1 && b2 > c0 && b2 < c1 && b1 <= b2) consider([b1, b2]);
+        }
+        pairScores.push({ i, j, sse: consider(pairStart(i, j)) });
+      }
+    }
+    // (2) One breakpoint at an observed temperature, the other solved exactly.
+    for (const e of knots) {
+      for (const j of highIdx) if (knots[j + 1] > e) solveOne(1, e, j);
+      for (const i of lowIdx) if (knots[i] < e) solveOne(0, e, i);
+    }
+    // (3) Exact coordinate descent inside the most promising pairs.
+    pairScores.sort((p, q) => p.sse - q.sse);
+    const starts: { i: number; j: number; bps: number[] }[] = pairScores
+      .slice(0, 8)
+      .map((p) => ({ i: p.i, j: p.j, bps: pairStart(p.i, p.j) }));
+    const b0: number[] | null = best;
+    if (b0 !== null) {
+      const bb: number[] = b0;
+      const i = Math.max(0, knots.findIndex((k, idx) => idx + 1 < knots.length && bb[0] >= k && bb[0] <= knots[idx + 1]));
+      const j = Math.max(0, knots.findIndex((k, idx) => idx + 1 < knots.length && bb[1] >= k && bb[1] <= knots[idx + 1]));
+      starts.push({ i, j, bps: bb });
+    }
+    for (const s of starts) {
+      let cur = s.bps;
+      for (let round = 0; round < 6 && cur[0] <= cur[1]; round++) {
+        const n1 = solveOne(0, cur[1], s.i);
+        if (n1 === null) break;
+        const n2 = solveOne(1, n1.bps[0], s.j);
+        if (n2 === null || (n2.bps[0] === cur[0] && n2.bps[1] === cur[1])) break;
+        cur = n2.bps;
+      }
     }
   }
+  if (best === null) throw new ModelInputError(`${kind}: no breakpoint leaves ${minPts} points on each side`);
   return fitChangePointAt(points, kind, best, options);
 }
 

@@ -38,19 +38,22 @@ export function householderQr(x: Matrix, columnNames?: readonly string[]): QrFac
     if (row.length !== n) throw new ModelInputError(`row ${i} has ${row.length} values, expected ${n}`);
     for (let j = 0; j < n; j++) {
       const v = row[j];
-      if (!Number.isFinite(v)) throw new ModelInputError(`non-finite value at row ${i}, column ${j}`);
+      if (!Number.isFinite(v) || Math.abs(v) > 1e150) throw new ModelInputError(`non-finite or huge value at row ${i}, column ${j}`);
       qr[j * m + i] = v;
     }
   }
+  // Plain sums of squares: Math.hypot is slow in V8, and meter and weather magnitudes are far
+  // from overflow (|v| < 1e150).
   for (let j = 0; j < n; j++) {
     let s = 0;
-    for (let i = 0; i < m; i++) s = Math.hypot(s, qr[j * m + i]);
-    colNorm[j] = s;
+    for (let i = 0; i < m; i++) s += qr[j * m + i] ** 2;
+    colNorm[j] = Math.sqrt(s);
   }
   const rDiag = new Float64Array(n);
   for (let k = 0; k < n; k++) {
-    let nrm = 0;
-    for (let i = k; i < m; i++) nrm = Math.hypot(nrm, qr[k * m + i]);
+    let nrm2 = 0;
+    for (let i = k; i < m; i++) nrm2 += qr[k * m + i] ** 2;
+    let nrm = Math.sqrt(nrm2);
     if (nrm === 0 || nrm <= RANK_TOLERANCE * colNorm[k]) {
       const name = columnNames?.[k] ?? `column ${k}`;
       throw new ModelInputError(`design matrix is rank-deficient: ${name} is constant or a combination of earlier columns`);
@@ -115,4 +118,47 @@ export function qrUnscaledCovariance(f: QrFactorization): number[][] {
     }
   }
   return cov;
+}
+
+/**
+ * Least squares in place, for tight loops (breakpoint searches): `a` is an m×k column-major
+ * matrix and `y` a vector, both overwritten. Same Householder method and rank test as
+ * householderQr. Returns the residual sum of squares, or NaN when the matrix is
+ * rank-deficient; writes the coefficients into `coef` when given.
+ */
+export function leastSquaresInPlace(a: Float64Array, y: Float64Array, m: number, k: number, coef?: Float64Array): number {
+  const rDiag = new Float64Array(k);
+  for (let c = 0; c < k; c++) {
+    let colNorm2 = 0;
+    for (let i = 0; i < m; i++) colNorm2 += a[c * m + i] ** 2;
+    let nrm2 = 0;
+    for (let i = c; i < m; i++) nrm2 += a[c * m + i] ** 2;
+    let nrm = Math.sqrt(nrm2);
+    // colNorm2 is of the column after earlier reflections, whose norm they preserve.
+    if (nrm === 0 || nrm <= RANK_TOLERANCE * Math.sqrt(colNorm2)) return Number.NaN;
+    if (a[c * m + c] < 0) nrm = -nrm;
+    for (let i = c; i < m; i++) a[c * m + i] /= nrm;
+    a[c * m + c] += 1;
+    for (let j = c + 1; j < k; j++) {
+      let s = 0;
+      for (let i = c; i < m; i++) s += a[c * m + i] * a[j * m + i];
+      s = -s / a[c * m + c];
+      for (let i = c; i < m; i++) a[j * m + i] += s * a[c * m + i];
+    }
+    let s = 0;
+    for (let i = c; i < m; i++) s += a[c * m + i] * y[i];
+    s = -s / a[c * m + c];
+    for (let i = c; i < m; i++) y[i] += s * a[c * m + i];
+    rDiag[c] = -nrm;
+  }
+  let sse = 0;
+  for (let i = k; i < m; i++) sse += y[i] * y[i];
+  if (coef) {
+    for (let c = k - 1; c >= 0; c--) {
+      let s = y[c];
+      for (let j = c + 1; j < k; j++) s -= a[j * m + c] * coef[j];
+      coef[c] = s / rDiag[c];
+    }
+  }
+  return sse;
 }

@@ -138,6 +138,6 @@ describe("change-point selection rules and input checks", () => {
   });
   it("missing billing days with weightByDays is an error naming the point", () => {
     expect(() => fitChangePoint([{ temp: 1, usePerDay: 2 }, ...constructed], "3PH", { weightByDays: true })).toThrow(ModelInputError);
-    expect(() => fitChangePointAt(constructed, "5P", [60, 50])).toThrow(/increase/);
+    expect(() => fitChangePointAt(constructed, "5P", [60, 50])).toThrow(/must not decrease/);
   });
 });
