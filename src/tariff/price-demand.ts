@@ -1,0 +1,102 @@
+/**
+ * Demand charges for one version: whole-period demand (interval data, else the billed demand)
+ * with ratchet and minimum, and demand inside time-of-use periods (exact from interval data,
+ * estimated from a load shape, or the billed demand as an upper bound).
+ */
+import type { ComputedLine, LinePart, LineStatus } from "./types.ts";
+import type { Charge } from "./model.ts";
+import { billingDemandKw, maxWindowDemandByPeriodKw, maxWindowDemandKw } from "./demand.ts";
+import { groupedNumber } from "./format.ts";
+import { line } from "./lines.ts";
+import { sumAmounts } from "./rounding.ts";
+import type { VersionState } from "./version-state.ts";
+
+const fmt = groupedNumber;
+
+/** Prices one demand charge; `billingKw` is set for whole-period demand. */
+export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "demand" }>, prev: readonly number[]): { line: ComputedLine; billingKw: number | null } {
+  const { ctx, version } = st;
+  const iv = ctx.intervals;
+  const req = ctx.req;
+  const windowText = `${charge.windowMinutes}-minute`;
+  if ("flat" in charge.rate) {
+    let measured: number | null = null;
+    let status: LineStatus = "exact";
+    let source: string;
+    if (iv && iv.kwh && iv.startMs.length > 0) {
+      const d = maxWindowDemandKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes);
+      measured = d.kw;
+      source = `highest ${d.intervalsPerWindow * iv.intervalMinutes}-minute average from interval data`;
+    } else {
+      source = "";
+    }
+    if (measured === null && req.demandKw != null) {
+      measured = req.demandKw;
+      source = "billed maximum demand";
+    }
+    if (measured === null) {
+      status = "needs-interval-data";
+      source = "no demand on the bill and no interval data: measured demand taken as 0";
+    }
+    const b = billingDemandKw(measured ?? 0, prev, charge.ratchet, charge.minimumKw);
+    const why =
+      b.by === "ratchet"
+        ? `ratchet: ${charge.ratchet!.percent}% of the highest of the last ${Math.min(prev.length, charge.ratchet!.months)} billing demands = ${fmt(b.kw)} kW, above measured ${fmt(measured ?? 0)} kW`
+        : b.by === "minimum"
+          ? `minimum ${fmt(b.kw)} kW applies (measured ${fmt(measured ?? 0)} kW)`
+          : `${source}`;
+    const note = b.by === "measured" ? why : `${why}; ${source}`;
+    return { line: line(charge, b.kw, "kW", charge.rate.flat, b.kw * charge.rate.flat, note, status), billingKw: b.kw };
+  }
+
+  // Demand inside periods: only windows wholly inside the period count.
+  const rates = charge.rate.byPeriod;
+  const names = version.periods.map((p) => p.name).filter((n) => n in rates);
+  const parts: LinePart[] = [];
+  let status: LineStatus = "exact";
+  let note: string;
+  if (iv && iv.kwh && iv.startMs.length > 0) {
+    const byPeriod = maxWindowDemandByPeriodKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes, st.intervalPeriods(), version.periods.length);
+    for (const name of names) {
+      const p = version.periods.findIndex((x) => x.name === name);
+      let kw = byPeriod[p] ?? 0;
+      if (charge.minimumKw !== null && kw < charge.minimumKw) kw = charge.minimumKw;
+      parts.push({ label: name, quantity: kw, unit: "kW", rate: rates[name], amount: kw * rates[name] });
+    }
+    note = `highest ${windowText} average inside each period, from interval data`;
+  } else if (req.demandKw != null) {
+    const shaped = st.hasShape();
+    let overallMax = 0;
+    const maxIn = new Array<number>(version.periods.length).fill(0);
+    if (shaped) {
+      const w = st.hourWeights();
+      const idx = st.hourlyPeriods();
+      for (let i = 0; i < w.length; i++) {
+        if (w[i] > overallMax) overallMax = w[i];
+        if (w[i] > maxIn[idx[i]]) maxIn[idx[i]] = w[i];
+      }
+    }
+    for (const name of names) {
+      const p = version.periods.findIndex((x) => x.name === name);
+      let kw = shaped && overallMax > 0 ? (req.demandKw * maxIn[p]) / overallMax : req.demandKw;
+      if (charge.minimumKw !== null && kw < charge.minimumKw) kw = charge.minimumKw;
+      parts.push({ label: name, quantity: kw, unit: "kW", rate: rates[name], amount: kw * rates[name] });
+    }
+    status = shaped ? "estimated" : "needs-interval-data";
+    note = shaped
+      ? "estimated: billed maximum demand scaled by the load shape's highest hour in each period (no interval data)"
+      : "needs interval data: billed maximum demand used for each period (an upper bound)";
+  } else {
+    for (const name of names) parts.push({ label: name, quantity: 0, unit: "kW", rate: rates[name], amount: 0 });
+    status = "needs-interval-data";
+    note = "needs interval data: no interval data and no billed demand";
+  }
+  const amount = sumAmounts(parts.map((p) => p.amount));
+  const single = parts.length === 1;
+  const detail = parts.map((p) => `${p.label} ${fmt(p.quantity)} kW × ${fmt(p.rate, 6)}`).join(" + ");
+  return {
+    line: line(charge, single ? parts[0].quantity : null, "kW", single ? parts[0].rate : null, amount, `${detail}; ${note}`, status, parts),
+    billingKw: null,
+  };
+}
+

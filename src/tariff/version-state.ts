@@ -1,0 +1,106 @@
+/**
+ * Work shared by the charges of one tariff version on one bill: period index of every interval,
+ * and the split of usage by period (exact from interval data, else estimated from a load shape
+ * or by hours). Computed lazily, once.
+ */
+import type { LineStatus } from "./types.ts";
+import type { TariffVersion } from "./model.ts";
+import type { BillContext } from "./context.ts";
+import { hourOfWeek, periodIndices } from "./calendar.ts";
+import { groupedNumber } from "./format.ts";
+import { sumAmounts } from "./rounding.ts";
+
+const fmt = groupedNumber;
+
+/** Shares of usage by period, with how they were obtained. */
+export interface PeriodSplit {
+  /** Usage per period index, in the tariff unit. */
+  usage: number[];
+  total: number;
+  status: LineStatus;
+  note: string | null;
+}
+
+/** Per-version cache of work shared by several charges. */
+export class VersionState {
+  private periodIdx: Int8Array | null = null;
+  private hourlyIdx: Int8Array | null = null;
+  private split: PeriodSplit | null = null;
+  constructor(
+    readonly ctx: BillContext,
+    readonly version: TariffVersion,
+  ) {}
+
+  intervalPeriods(): Int8Array {
+    if (this.periodIdx === null) this.periodIdx = periodIndices(this.ctx.intervals!.local, this.version);
+    return this.periodIdx;
+  }
+
+  hourlyPeriods(): Int8Array {
+    if (this.hourlyIdx === null) this.hourlyIdx = periodIndices(this.ctx.hourly().local, this.version);
+    return this.hourlyIdx;
+  }
+
+  /** Weight of each hour of the period: the load shape when known, else 1 (split by hours). */
+  hourWeights(): Float64Array {
+    const h = this.ctx.hourly();
+    const shape = this.ctx.req.loadShapeByHourOfWeek;
+    const w = new Float64Array(h.startMs.length);
+    if (shape && shape.length === 168) {
+      const how = hourOfWeek(h.local);
+      for (let i = 0; i < w.length; i++) w[i] = Math.max(0, shape[how[i]] ?? 0);
+    } else {
+      w.fill(1);
+    }
+    return w;
+  }
+
+  hasShape(): boolean {
+    const s = this.ctx.req.loadShapeByHourOfWeek;
+    return !!s && s.length === 168 && s.some((v) => v > 0);
+  }
+
+  periodSplit(): PeriodSplit {
+    if (this.split) return this.split;
+    const n = this.version.periods.length;
+    const usage = new Array<number>(n).fill(0);
+    const iv = this.ctx.intervals;
+    const unit = this.ctx.tariff.usageUnit;
+    if (iv && iv.startMs.length > 0) {
+      const idx = this.intervalPeriods();
+      for (let i = 0; i < idx.length; i++) usage[idx[i]] += iv.usage[i];
+      const metered = sumAmounts(usage);
+      if (iv.startMs.length >= iv.expectedCount) {
+        this.split = { usage, total: metered, status: "exact", note: `from ${iv.startMs.length} intervals of interval data` };
+        return this.split;
+      }
+      if (metered > 0) {
+        const scaled = usage.map((u) => (u / metered) * this.ctx.usage);
+        this.split = {
+          usage: scaled,
+          total: this.ctx.usage,
+          status: "estimated",
+          note: `estimated: interval data covers ${iv.startMs.length} of ${iv.expectedCount} intervals, so billed ${fmt(this.ctx.usage)} ${unit} is split by the metered shares`,
+        };
+        return this.split;
+      }
+    }
+    const w = this.hourWeights();
+    const idx = this.hourlyPeriods();
+    const byPeriod = new Array<number>(n).fill(0);
+    for (let i = 0; i < idx.length; i++) byPeriod[idx[i]] += w[i];
+    const sumW = sumAmounts(byPeriod);
+    const shares = byPeriod.map((x) => (sumW > 0 ? x / sumW : 1 / n));
+    const shaped = this.hasShape();
+    this.split = {
+      usage: shares.map((s) => s * this.ctx.usage),
+      total: this.ctx.usage,
+      status: shaped ? "estimated" : "needs-interval-data",
+      note: shaped
+        ? "estimated from the building's typical load shape (no interval data); needs interval data to be exact"
+        : "needs interval data: usage split in proportion to the hours of each period (estimate)",
+    };
+    return this.split;
+  }
+}
+
