@@ -10,10 +10,9 @@
  *   4P:  Y = β₁ + β₂·(X − β₄)⁻ + β₃·(X − β₄)⁺
  *   5P:  Y = β₁ + β₂·(X − β₄)⁻ + β₃·(X − β₅)⁺      β₂ < 0 < β₃, β₄ ≤ β₅
  *
- * (β₄ = β₅ is allowed: a 5P without a dead band. Without it the best 5P can be an infimum
- * that no admissible pair reaches; such a fit loses to the 4P on CV(RMSE) anyway.)
- *
- * with (x)⁺ = max(x, 0), (x)⁻ = min(x, 0). Temperature may be in °F or °C; breakpoints come
+ * with (x)⁺ = max(x, 0), (x)⁻ = min(x, 0). The published 5P has β₄ < β₅; β₄ = β₅ (no dead
+ * band) is allowed here because otherwise the best 5P can be a limit that no admissible pair
+ * reaches; such a fit has the 4P's shape with one more parameter, so it loses to the 4P. Temperature may be in °F or °C; breakpoints come
  * out in the same unit. Breakpoints minimise the (weighted) sum of squared errors; instead of
  * a coarse-then-fine grid, which can stop in the wrong valley, each interval between observed
  * temperatures is solved exactly (Hudson 1966; see fitChangePoint). The slopes and intercept
@@ -22,7 +21,7 @@
  * Degrees of freedom: p counts breakpoints as parameters (3PH has p = 3), so Guideline 14
  * statistics, the RMSE and the prediction interval all use n − p. Coefficient t values come
  * from the least-squares fit with breakpoints fixed (df = n − k, k = non-breakpoint
- * coefficients), as the Inverse Modeling Toolkit reports them.
+ * coefficients); they ignore the uncertainty of the breakpoint search and so are optimistic.
  */
 import { fitOls } from "./ols.ts";
 import type { IntervalPrediction, OlsFit } from "./ols.ts";
