@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { existsSync, readFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import {
   celsiusToFahrenheit,
   coolingDegreeDaysUkMaxMin,
@@ -93,9 +93,9 @@ describe("units", () => {
 
 // NOAA 1981–2010 normals, Seattle–Tacoma airport: annual HDD65 = 4,697 (NOAA normals as republished;
 // project references). The vega-datasets npm package ships NOAA's hourly normals for Seattle in °C.
-// It is not a dependency yet, so this check runs only where it is installed.
+// (a devDependency, so this check always runs).
 const normalsPath = new URL("../../node_modules/vega-datasets/data/seattle-weather-hourly-normals.csv", import.meta.url);
-describe.skipIf(!existsSync(normalsPath))("Seattle hourly normals (needs devDependency vega-datasets)", () => {
+describe("Seattle hourly normals (vega-datasets)", () => {
   it("integrated annual HDD65 lands within −2 %…+8 % of NOAA's 4,697", () => {
     const lines = readFileSync(normalsPath, "utf8").trim().split("\n");
     const header = lines[0].split(",");
