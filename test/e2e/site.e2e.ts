@@ -6,40 +6,22 @@
  * request leaves 127.0.0.1. Screenshots go to test-artifacts/.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { existsSync, readFileSync } from "node:fs";
 import { mkdir, mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises";
 import { gzipSync } from "node:zlib";
 import { tmpdir } from "node:os";
-import { join, resolve } from "node:path";
-import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { join } from "node:path";
+import type { BrowserContext, Page } from "playwright-core";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { writeSite } from "../../src/site/writeSite.ts";
 import { EVIL_NAME, fixtureInput } from "../report/fixture.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
+import { ARTIFACTS, CHROMIUM, HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
 
-const CHROMIUM = "/usr/bin/chromium";
-const HAVE_CHROMIUM = existsSync(CHROMIUM);
 const PREFIX = "/reports/";
-const ARTIFACTS = resolve("test-artifacts");
-const AXE = resolve("node_modules/axe-core/axe.min.js");
 const PAGES = ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html"];
 
 if (!HAVE_CHROMIUM) {
   console.warn(`e2e skipped: ${CHROMIUM} not found (install Debian's chromium: apt-get install -y chromium)`);
-}
-
-interface AxeResult {
-  violations: { id: string; impact: string; nodes: { target: string[] }[] }[];
-}
-
-async function runAxe(page: Page): Promise<AxeResult> {
-  // Evaluated through the DevTools protocol: the pages' Content-Security-Policy forbids inline
-  // scripts (and eval), which addScriptTag would need.
-  await page.evaluate(readFileSync(AXE, "utf8"));
-  return page.evaluate(async () => {
-    const r = await (window as unknown as { axe: { run: (d: Document) => Promise<AxeResult> } }).axe.run(document);
-    return { violations: r.violations.map((v) => ({ id: v.id, impact: v.impact, nodes: v.nodes.map((n) => ({ target: n.target })) })) };
-  });
 }
 
 describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /reports/", () => {
@@ -59,28 +41,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     buildMs = Math.round(performance.now() - t0);
     server = await serveStatic(site, PREFIX);
     await mkdir(ARTIFACTS, { recursive: true });
-    context = await chromium.launchPersistentContext(join(work, "profile"), {
-      executablePath: CHROMIUM,
-      headless: true,
-      args: [
-        "--headless",
-        "--no-sandbox",
-        "--disable-gpu",
-        "--disable-quic",
-        "--no-first-run",
-        "--disable-background-networking",
-        "--disable-component-update",
-        "--disable-sync",
-      ],
-      viewport: { width: 1280, height: 900 },
-    });
-    // Block, and record, anything not addressed to our own server.
-    await context.route("**/*", (route) => {
-      const url = new URL(route.request().url());
-      if (url.protocol === "data:" || url.hostname === "127.0.0.1") return route.continue();
-      outsideRequests.push(url.href);
-      return route.abort();
-    });
+    context = await launchBrowser(join(work, "profile"), outsideRequests);
   });
 
   afterAll(async () => {
@@ -89,20 +50,8 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     if (work) await rm(work, { recursive: true, force: true });
   });
 
-  async function open(path: string): Promise<{ page: Page; errors: string[] }> {
-    const page = await context.newPage();
-    const errors: string[] = [];
-    page.on("console", (m) => {
-      if (m.type() === "error") errors.push(m.text());
-    });
-    page.on("pageerror", (e) => errors.push(String(e)));
-    page.on("dialog", (d) => {
-      dialogs.push(d.message());
-      void d.dismiss();
-    });
-    const response = await page.goto(`${server.origin}${PREFIX}${path}`, { waitUntil: "networkidle" });
-    expect(response?.status(), path).toBe(200);
-    return { page, errors };
+  function open(path: string): Promise<{ page: Page; errors: string[] }> {
+    return openPage(context, `${server.origin}${PREFIX}${path}`, dialogs);
   }
 
   it("axe-core can fail: an image without alt text is a violation (proves the zero below means something)", async () => {
@@ -116,34 +65,8 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
   for (const path of PAGES) {
     it(`${path}: loads cleanly, charts interactive, links resolve, no axe violations`, async () => {
       const { page, errors } = await open(path);
-      // Charts: every figure swaps its SVG fallback for a live vega view.
-      const charts = await page.locator("figure[data-chart]").count();
-      if (charts > 0) {
-        await page.waitForFunction(
-          () => Array.from(document.querySelectorAll("figure[data-chart]")).every((f) => (f as HTMLElement).dataset.chartState),
-          undefined,
-          { timeout: 20_000 },
-        );
-        const states = await page.$$eval("figure[data-chart]", (fs) =>
-          fs.map((f) => ({
-            state: (f as HTMLElement).dataset.chartState,
-            hasView: typeof (f as unknown as { vegaView?: { data: unknown } }).vegaView?.data === "function",
-            liveSvg: f.querySelector(".chart-live svg") !== null,
-            marks: f.querySelectorAll(".chart-live .mark-rect path").length,
-          })),
-        );
-        for (const s of states) expect(s).toMatchObject({ state: "interactive", hasView: true, liveSvg: true });
-        expect(states.every((s) => s.marks > 0)).toBe(true);
-      }
-      // Links: every same-origin link stays under the prefix and answers 200.
-      const hrefs = await page.$$eval("a[href]", (as) => as.map((a) => (a as HTMLAnchorElement).href));
-      for (const href of hrefs) {
-        const url = new URL(href);
-        if (url.origin !== server.origin) continue;
-        expect(url.pathname.startsWith(PREFIX), href).toBe(true);
-        const r = await fetch(`${url.origin}${url.pathname}`);
-        expect(r.status, href).toBe(200);
-      }
+      await expectChartsLive(page);
+      await expectLinksResolve(page, server.origin, PREFIX);
       const axe = await runAxe(page);
       expect(axe.violations, JSON.stringify(axe.violations, null, 1)).toEqual([]);
       await page.screenshot({ path: join(ARTIFACTS, `${path.replace(/\//g, "_").replace(/\.html$/, "")}.png`), fullPage: true });

@@ -1,0 +1,63 @@
+/**
+ * The demo portfolio (data/demo) built by the whole pipeline and read in chromium under a
+ * sub-path: every page loads without console errors, its charts go live, its links resolve,
+ * axe-core finds no violations, and nothing is fetched from another host.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { existsSync } from "node:fs";
+import { mkdtemp, readdir, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
+import type { BrowserContext } from "playwright-core";
+import { buildPortfolioSite } from "../../src/pipeline/build.ts";
+import { serveStatic, type RunningServer } from "./staticServer.ts";
+import { HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
+
+const DEMO = resolve("data/demo");
+const PREFIX = "/portfolio/reports/";
+
+describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium", () => {
+  let work: string;
+  let server: RunningServer;
+  let context: BrowserContext;
+  let pages: string[] = [];
+  const outsideRequests: string[] = [];
+  const dialogs: string[] = [];
+
+  beforeAll(async () => {
+    work = await mkdtemp(join(tmpdir(), "ohmbook-demo-e2e-"));
+    const site = join(work, "site");
+    await buildPortfolioSite({ dir: DEMO, outDir: site, strict: false, buildDate: "2026-01-15" });
+    pages = ["index.html", "methods.html", "data.html", ...(await readdir(join(site, "buildings"))).map((f) => `buildings/${f}`)];
+    server = await serveStatic(site, PREFIX);
+    context = await launchBrowser(join(work, "profile"), outsideRequests);
+  }, 180_000);
+
+  afterAll(async () => {
+    await context?.close();
+    await server?.close();
+    if (work) await rm(work, { recursive: true, force: true });
+  });
+
+  it("has an index, a methods page, a data page and building pages", () => {
+    expect(pages.filter((p) => p.startsWith("buildings/")).length).toBeGreaterThanOrEqual(6);
+  });
+
+  it("every page: no console errors, live charts, links resolve, no axe violations", async () => {
+    for (const path of pages) {
+      const { page, errors } = await openPage(context, `${server.origin}${PREFIX}${path}`, dialogs);
+      const charts = await expectChartsLive(page);
+      if (path.startsWith("buildings/")) expect(charts, path).toBeGreaterThan(0);
+      await expectLinksResolve(page, server.origin, PREFIX);
+      const axe = await runAxe(page);
+      expect(axe.violations, `${path}: ${JSON.stringify(axe.violations)}`).toEqual([]);
+      expect(errors, path).toEqual([]);
+      await page.close();
+    }
+    expect(dialogs).toEqual([]);
+  }, 300_000);
+
+  it("asked no host other than 127.0.0.1", () => {
+    expect(outsideRequests).toEqual([]);
+  });
+});
