@@ -32,9 +32,14 @@ function scratchPrefix(outDir: string): string {
   return `.${basename(outDir)}.ohmbook-build-`;
 }
 
+/** Scratch folders older than this are leftovers of a killed build (no build takes an hour). */
+const STALE_SCRATCH_MS = 60 * 60 * 1000;
+
 /**
- * Removes scratch folders a killed build left next to `outDir` (including the Vite plugin's
- * temporary folder inside them, which would otherwise make the next build fail).
+ * Removes scratch folders a killed build left next to `outDir`, with the Vite plugin's
+ * temporary folder inside them. Each build uses its own fresh scratch folder (so a leftover
+ * cannot break it, unlike the plugin's default shared `.11ty-vite`); only old ones are removed,
+ * so a concurrent build into the same folder keeps its own.
  */
 async function removeStaleScratch(outDir: string): Promise<void> {
   const parent = dirname(outDir);
@@ -45,7 +50,16 @@ async function removeStaleScratch(outDir: string): Promise<void> {
   } catch {
     return;
   }
-  await Promise.all(names.filter((n) => n.startsWith(prefix)).map((n) => rm(join(parent, n), { recursive: true, force: true })));
+  const now = Date.now();
+  await Promise.all(
+    names
+      .filter((n) => n.startsWith(prefix))
+      .map(async (n) => {
+        const path = join(parent, n);
+        const info = await stat(path).catch(() => null);
+        if (info && now - info.mtimeMs > STALE_SCRATCH_MS) await rm(path, { recursive: true, force: true });
+      }),
+  );
 }
 
 /** File every site carries so a later build knows the folder is ours to replace. */

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { mkdir, mkdtemp, readFile, readdir, rm, stat, writeFile } from "node:fs/promises";
+import { mkdir, mkdtemp, readFile, readdir, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
@@ -18,6 +18,10 @@ describe("writeSite", () => {
     // A stale scratch folder from a killed build, with the Vite plugin's temp folder inside.
     await mkdir(join(work, ".site.ohmbook-build-stale", ".11ty-vite"), { recursive: true });
     await writeFile(join(work, ".site.ohmbook-build-stale", ".11ty-vite", "x.html"), "old");
+    const twoHoursAgo = new Date(Date.now() - 2 * 3600_000);
+    await utimes(join(work, ".site.ohmbook-build-stale"), twoHoursAgo, twoHoursAgo);
+    // A scratch folder of a build running right now must be left alone.
+    await mkdir(join(work, ".site.ohmbook-build-running"));
     await writeSite(buildSiteModel(fixtureInput()), DATA, out);
   }, 60_000);
 
@@ -39,8 +43,9 @@ describe("writeSite", () => {
     expect(bundle.length).toBeGreaterThan(300_000);
   });
 
-  it("leaves no scratch folders behind, including a stale one from a killed build", async () => {
-    expect((await readdir(work)).sort()).toEqual(["site"]);
+  it("leaves no scratch folders behind, removes a stale one from a killed build, keeps a running build's", async () => {
+    expect((await readdir(work)).sort()).toEqual([".site.ohmbook-build-running", "site"]);
+    await rm(join(work, ".site.ohmbook-build-running"), { recursive: true });
   });
 
   it("links assets and pages relatively, so any path prefix works", async () => {
