@@ -86,6 +86,7 @@ export function buildBuildingPage(input: ReportInput, ctx: BuildingContext): Omi
     commodities,
     meters: meterSections,
     findingsTable: findingsTable(b.buildingId, input, currency),
+    downloads: [],
     forecastTable: forecastTable(b.buildingId, input, currency),
     modelsTable: modelsTable(meters, input),
   };

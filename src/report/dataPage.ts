@@ -25,6 +25,11 @@ export function formatBytes(bytes: number): string {
   return `${formatNumber(bytes / 1_000_000, 1)} MB`;
 }
 
+/** Folder under data/ whose files belong to one building and are listed on its page. */
+export function buildingDataFolder(buildingId: string): string {
+  return `buildings/${buildingId}/`;
+}
+
 /**
  * Rows of the downloads table for files with known byte sizes, in a stable order
  * (known files in outputs.md order, then others alphabetically).

@@ -27,6 +27,23 @@ function moneyFormatter(currency: string, digits: number): Intl.NumberFormat {
   return cachedFormatter({ style: "currency", currency, minimumFractionDigits: digits, maximumFractionDigits: digits });
 }
 
+/** Whether Intl accepts `currency` as an ISO 4217 code (it rejects anything not three letters). */
+function isCurrencyCode(currency: string): boolean {
+  try {
+    moneyFormatter(currency, 2);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** Formats money; an unusable currency code degrades to "1,234.50 XX" instead of throwing. */
+function money(amount: number, currency: string, digits: number): string {
+  if (isCurrencyCode(currency)) return moneyFormatter(currency, digits).format(amount);
+  const n = cachedFormatter({ minimumFractionDigits: digits, maximumFractionDigits: digits }).format(amount);
+  return currency ? `${n} ${currency}` : n;
+}
+
 /**
  * Money in the portfolio currency (ISO 4217), two decimals.
  * @example formatMoney(1234.5, "USD") // "$1,234.50"
@@ -34,7 +51,7 @@ function moneyFormatter(currency: string, digits: number): Intl.NumberFormat {
 export function formatMoney(amount: number | null | undefined, currency: string): string {
   if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
   // -0 would print as "-$0.00"
-  return moneyFormatter(currency, 2).format(amount === 0 ? 0 : amount);
+  return money(amount === 0 ? 0 : amount, currency, 2);
 }
 
 /**
@@ -54,8 +71,10 @@ export function formatMoneySigned(amount: number | null | undefined, currency: s
  */
 export function formatRate(rate: number | null | undefined, currency: string, unit: string): string {
   if (rate == null || !Number.isFinite(rate)) return NOT_AVAILABLE;
-  const f = cachedFormatter({ style: "currency", currency, minimumFractionDigits: 2, maximumFractionDigits: 6 });
-  return unit ? `${f.format(rate)} per ${unit}` : f.format(rate);
+  const text = isCurrencyCode(currency)
+    ? cachedFormatter({ style: "currency", currency, minimumFractionDigits: 2, maximumFractionDigits: 6 }).format(rate)
+    : `${cachedFormatter({ minimumFractionDigits: 2, maximumFractionDigits: 6 }).format(rate)} ${currency}`.trim();
+  return unit ? `${text} per ${unit}` : text;
 }
 
 /**

@@ -148,6 +148,8 @@ export interface BuildingPage extends PageBase {
   commodities: CommoditySection[];
   meters: MeterSection[];
   findingsTable: TableModel | null;
+  /** This building's own data files (`data/buildings/<id>/…`), filled by the site writer. */
+  downloads: DataFileRow[];
   forecastTable: TableModel | null;
   modelsTable: TableModel | null;
 }

@@ -3,7 +3,7 @@
  * and the downloads list from the data files actually written. Returns a new model.
  */
 import type { ChartModel, SiteModel } from "../report/siteModel.ts";
-import { describeDataFiles } from "../report/dataPage.ts";
+import { buildingDataFolder, describeDataFiles } from "../report/dataPage.ts";
 import { jsonForScript } from "../report/format.ts";
 import { monthlyUsageSpec } from "./charts/monthlyUsageSpec.ts";
 import { renderSvg } from "./charts/renderSvg.ts";
@@ -23,10 +23,13 @@ async function prepareChart(chart: ChartModel): Promise<ChartModel> {
 }
 
 /**
- * Fills every chart's `spec`, `specJson` and `svg`, and the data page's file list.
+ * Fills every chart's `spec`, `specJson` and `svg`, the data page's file list, and each
+ * building's own downloads (files under `data/buildings/<building_id>/`).
  * @example const ready = await prepareSite(model, { "findings.csv": "..." });
  */
 export async function prepareSite(model: SiteModel, dataFiles: Record<string, string>): Promise<SiteModel> {
+  const sizes: Record<string, number> = {};
+  for (const [name, text] of Object.entries(dataFiles)) sizes[name] = Buffer.byteLength(text, "utf8");
   const buildings = [];
   for (const page of model.buildings) {
     const commodities = [];
@@ -36,10 +39,11 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
       for (const chart of section.charts) charts.push(await prepareChart(chart));
       commodities.push({ ...section, charts });
     }
-    buildings.push({ ...page, commodities });
+    const folder = buildingDataFolder(page.buildingId);
+    const own: Record<string, number> = {};
+    for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
+    buildings.push({ ...page, commodities, downloads: describeDataFiles(own, page.root) });
   }
-  const sizes: Record<string, number> = {};
-  for (const [name, text] of Object.entries(dataFiles)) sizes[name] = Buffer.byteLength(text, "utf8");
   const indexCharts = [];
   for (const chart of model.index.charts) indexCharts.push(await prepareChart(chart));
   return {

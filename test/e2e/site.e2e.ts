@@ -37,7 +37,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     work = await mkdtemp(join(tmpdir(), "ohmbook-e2e-"));
     site = join(work, "site");
     const t0 = performance.now();
-    await writeSite(buildSiteModel(fixtureInput()), { "findings.csv": "building_id\nB1\n", "portfolio.json": "[]\n" }, site);
+    await writeSite(buildSiteModel(fixtureInput()), { "findings.csv": "building_id\nB1\n", "portfolio.json": "[]\n", "buildings/B1/bills.csv": "bill_id\n" }, site);
     buildMs = Math.round(performance.now() - t0);
     server = await serveStatic(site, PREFIX);
     await mkdir(ARTIFACTS, { recursive: true });

@@ -22,6 +22,10 @@ describe("money", () => {
     expect(formatMoney(99, "EUR")).toBe("€99.00");
     expect(formatMoney(1000, "CAD")).toBe("CA$1,000.00");
   });
+  it("degrades to number + code when the currency code is unusable, never throwing", () => {
+    expect(formatMoney(1234.5, "DOLLARS")).toBe("1,234.50 DOLLARS");
+    expect(formatRate(0.1, "DOLLARS", "kWh")).toBe("0.10 DOLLARS per kWh");
+  });
   it("gives differences an explicit sign and no negative zero", () => {
     expect(formatMoneySigned(12.34, "USD")).toBe("+$12.34");
     expect(formatMoneySigned(-3, "USD")).toBe("−$3.00");

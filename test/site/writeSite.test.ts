@@ -6,7 +6,11 @@ import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { SiteWriteError, writeSite } from "../../src/site/writeSite.ts";
 import { fixtureInput } from "../report/fixture.ts";
 
-const DATA = { "findings.csv": "building_id,check\nB1,total-mismatch\n", "portfolio.json": "[]\n" };
+const DATA = {
+  "findings.csv": "building_id,check\nB1,total-mismatch\n",
+  "portfolio.json": "[]\n",
+  "buildings/B1/bills.csv": "bill_id\nE1-01\n",
+};
 
 describe("writeSite", () => {
   let work: string;
@@ -90,6 +94,14 @@ describe("writeSite", () => {
     }
     expect(page.match(/<svg[^>]*role="img"/g)).toHaveLength(2);
     expect(page).toContain("<summary>Numbers behind this chart</summary>");
+  });
+
+  it("lists a building's own files (data/buildings/<id>/) on its page, relative to it", async () => {
+    const b1 = await readFile(join(out, "buildings/B1.html"), "utf8");
+    expect(b1).toContain('<a href="../data/buildings/B1/bills.csv" download>buildings/B1/bills.csv</a>');
+    expect(await readFile(join(out, "data/buildings/B1/bills.csv"), "utf8")).toBe(DATA["buildings/B1/bills.csv"]);
+    const b2 = await readFile(join(out, "buildings/B2.html"), "utf8");
+    expect(b2).not.toContain("data/buildings/B1/");
   });
 
   it("puts the portfolio cost chart on the index", async () => {
