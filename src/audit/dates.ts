@@ -1,21 +1,9 @@
 /** Calendar-day arithmetic on ISO `YYYY-MM-DD` strings (no time zone involved: whole days). */
 
-const DAY_MS = 86_400_000;
+import { addDays, daysBetween } from "../core/time.ts";
 
-function dayNumber(isoDate: string): number {
-  const [y, m, d] = isoDate.split("-").map(Number);
-  return Date.UTC(y, m - 1, d) / DAY_MS;
-}
-
-/** Days from `start` to `end` (end exclusive). @example daysBetween("2024-01-01","2024-02-01") // 31 */
-export function daysBetween(start: string, end: string): number {
-  return dayNumber(end) - dayNumber(start);
-}
-
-/** The date `days` after `isoDate`. @example addDays("2024-02-28", 2) // "2024-03-01" */
-export function addDays(isoDate: string, days: number): string {
-  return new Date((dayNumber(isoDate) + days) * DAY_MS).toISOString().slice(0, 10);
-}
+/** Days from `start` to `end` (end exclusive), and the date `days` after a date: see src/core/time.ts. */
+export { addDays, daysBetween };
 
 /** Later of two ISO dates. */
 export function maxDate(a: string, b: string): string {

@@ -2,32 +2,11 @@
  * Reconciliation of one bill period against a meter's interval data: metered usage, peak
  * demand and how complete the data is. Pure: the caller passes the series and the zone.
  */
-import { DateTime } from "luxon";
+import { localMidnightMs, lowerBound } from "../core/time.ts";
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import type { MeteredPeriod } from "./types.ts";
 
-/**
- * UTC instant (epoch ms) of local midnight starting `isoDate` in `timezone`.
- * Luxon resolves the zone rules (a midnight that does not exist moves forward).
- * @throws Error when the zone or date is invalid.
- */
-export function localMidnightMs(isoDate: string, timezone: string): number {
-  const dt = DateTime.fromISO(isoDate, { zone: timezone }).startOf("day");
-  if (!dt.isValid) throw new Error(`invalid date ${isoDate} in zone ${timezone}: ${dt.invalidExplanation ?? ""}`);
-  return dt.toMillis();
-}
-
-/** First index i with sorted[i] >= value (binary search). */
-function lowerBound(sorted: Float64Array, value: number): number {
-  let lo = 0;
-  let hi = sorted.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (sorted[mid] < value) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
+export { localMidnightMs };
 
 /**
  * Metered usage, peak demand and coverage of the half-open local period

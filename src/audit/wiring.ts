@@ -9,22 +9,11 @@ import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts"
 import type { Tariff } from "../tariff/model.ts";
 import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
 import { sortBills } from "./context.ts";
-import { localMidnightMs } from "./reconcile.ts";
+import { localMidnightMs, lowerBound } from "../core/time.ts";
 import type { RepriceAlternative, RepriceFn } from "./types.ts";
 
 type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;
 
-/** First index i with sorted[i] >= value. */
-function lowerBound(sorted: Float64Array, value: number): number {
-  let lo = 0;
-  let hi = sorted.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (sorted[mid] < value) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
 
 /**
  * The meter's intervals inside the bill's half-open local period, multiplier applied, or null

@@ -106,9 +106,4 @@ export function daysFromCivil(y: number, m: number, d: number): number {
   return era * 146097 + doe - 719468;
 }
 
-/** Number of days from date `a` to date `b` (both `YYYY-MM-DD`); positive when b is later. */
-export function daysBetween(a: string, b: string): number {
-  const da = daysFromCivil(Number(a.slice(0, 4)), Number(a.slice(5, 7)), Number(a.slice(8, 10)));
-  const db = daysFromCivil(Number(b.slice(0, 4)), Number(b.slice(5, 7)), Number(b.slice(8, 10)));
-  return db - da;
-}
+export { daysBetween } from "../core/time.ts";

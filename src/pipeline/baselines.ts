@@ -12,8 +12,7 @@ import { DateTime } from "luxon";
 import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
 import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "../model/changePoint.ts";
 import { GUIDELINE14_LIMITS } from "../model/stats.ts";
-import { daysBetween } from "../core/time.ts";
-import { startOfLocalDayMs } from "../core/time.ts";
+import { daysBetween, localMidnightMs } from "../core/time.ts";
 import type { ReportModelSummary } from "../report/input.ts";
 
 const HOUR_MS = 3_600_000;
@@ -118,7 +117,7 @@ export function fitMeterBaseline(options: {
       excluded.push({ billId: bill.billId, reason: `no weather for station ${building.weatherStation}` });
       continue;
     }
-    const { meanC, coverage } = meanTemperature(weather, startOfLocalDayMs(bill.periodStart, building.timezone), startOfLocalDayMs(bill.periodEnd, building.timezone));
+    const { meanC, coverage } = meanTemperature(weather, localMidnightMs(bill.periodStart, building.timezone), localMidnightMs(bill.periodEnd, building.timezone));
     if (coverage < MIN_WEATHER_COVERAGE || !Number.isFinite(meanC)) {
       excluded.push({ billId: bill.billId, reason: `weather covers ${(coverage * 100).toFixed(0)} % of the period` });
       continue;

@@ -8,6 +8,7 @@ import type { Tariff } from "./model.ts";
 import { assertZone, localMidnightMs, localTimes, type LocalTimes } from "./calendar.ts";
 import { daysBetween, isIsoDate } from "./dates.ts";
 import { PricingError } from "./errors.ts";
+import { lowerBound } from "../core/time.ts";
 import { canonicalUnit, unitFactor } from "./units.ts";
 
 export interface BillIntervals {
@@ -38,16 +39,6 @@ export interface BillContext {
   hourly(): { startMs: Float64Array; local: LocalTimes };
 }
 
-function lowerBound(a: Float64Array, x: number): number {
-  let lo = 0;
-  let hi = a.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (a[mid] < x) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
 
 /**
  * Validates a request against a tariff and prepares the bill context.

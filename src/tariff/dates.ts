@@ -15,12 +15,5 @@ export function dayNumber(date: string): number {
   return Date.UTC(Number(date.slice(0, 4)), Number(date.slice(5, 7)) - 1, Number(date.slice(8, 10))) / 86_400_000;
 }
 
-/** Number of days from `from` to `to` (`to` exclusive), e.g. 2024-01-01 -> 2024-02-01 = 31. */
-export function daysBetween(from: string, to: string): number {
-  return dayNumber(to) - dayNumber(from);
-}
-
-/** The date `n` days after `date`. */
-export function addDays(date: string, n: number): string {
-  return new Date((dayNumber(date) + n) * 86_400_000).toISOString().slice(0, 10);
-}
+/** Whole-day differences and additions are shared with the other stages. */
+export { addDays, daysBetween } from "../core/time.ts";

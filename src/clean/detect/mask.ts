@@ -1,5 +1,6 @@
 import type { IntervalSeries } from "../../domain/types.ts";
 import type { Detection } from "./types.ts";
+import { lowerBound } from "../../core/time.ts";
 
 /**
  * Training mask from detections: mask[i] = 1 when interval i of `series` starts inside
@@ -17,13 +18,3 @@ export function maskFromDetections(series: IntervalSeries, detections: readonly 
   return mask;
 }
 
-function lowerBound(sorted: Float64Array, value: number): number {
-  let lo = 0;
-  let hi = sorted.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (sorted[mid]! < value) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
