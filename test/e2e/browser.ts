@@ -13,8 +13,9 @@ export const ARTIFACTS = resolve("test-artifacts");
 const AXE_SOURCE_PATH = resolve("node_modules/axe-core/axe.min.js");
 
 /** Launches chromium with a fresh profile; every request to a host other than 127.0.0.1 is aborted and recorded. */
-export async function launchBrowser(profileDir: string, outsideRequests: string[]): Promise<BrowserContext> {
+export async function launchBrowser(profileDir: string, outsideRequests: string[], javaScriptEnabled = true): Promise<BrowserContext> {
   const context = await chromium.launchPersistentContext(profileDir, {
+    javaScriptEnabled,
     executablePath: CHROMIUM,
     headless: true,
     args: [

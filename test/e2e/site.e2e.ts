@@ -123,6 +123,21 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     expect(total.gzipBytes).toBeLessThan(450_000);
   });
 
+  it("without JavaScript: static SVG charts and plain tables are there", async () => {
+    const noJs = await launchBrowser(join(work, "profile-nojs"), outsideRequests, false);
+    try {
+      const page = await noJs.newPage();
+      await page.goto(`${server.origin}${PREFIX}buildings/B1.html`, { waitUntil: "networkidle" });
+      expect(await page.locator(".chart-fallback svg").first().isVisible()).toBe(true);
+      expect(await page.locator(".chart-live").count()).toBe(0);
+      expect(await page.locator("table[data-sortable] tbody tr").first().isVisible()).toBe(true);
+      expect(await page.locator("th button.sort").count()).toBe(0);
+      await page.screenshot({ path: join(ARTIFACTS, "buildings_B1-no-javascript.png"), fullPage: false });
+    } finally {
+      await noJs.close();
+    }
+  });
+
   it("sorts the building table by floor area, both directions", async () => {
     const { page } = await open("index.html");
     const areas = () =>
