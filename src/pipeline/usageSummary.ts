@@ -1,6 +1,8 @@
 /**
  * Last-12-months usage per building and commodity, in one reporting unit per commodity
  * (electricity kWh, gas therm, water gal), from bills prorated by days at the window edges.
+ * Each meter's window is the 365 days ending at the earlier of `as_of` and its last read, so
+ * a bill not yet received for the final weeks does not read as a drop in use.
  */
 import type { Bill, Building, Commodity, Meter, Portfolio } from "../domain/types.ts";
 import { addDays, daysBetween } from "../core/time.ts";
@@ -54,7 +56,6 @@ export function buildingUsageLast12m(
   asOf: string,
   heatContentByMeter: (meter: Meter) => number = () => DEFAULT_HEAT_CONTENT_THERM_PER_CCF,
 ): CommodityUsage[] {
-  const { start, end } = last12MonthsWindow(asOf);
   const out: CommodityUsage[] = [];
   for (const commodity of ["electricity", "gas", "water"] as const) {
     const own = meters.filter((m) => m.buildingId === building.buildingId && m.commodity === commodity);
@@ -63,6 +64,9 @@ export function buildingUsageLast12m(
     let touched = false;
     let coveredDays = 0;
     for (const meter of own) {
+      let lastRead: string | null = null;
+      for (const bill of bills) if (bill.meterId === meter.meterId && (lastRead === null || bill.periodEnd > lastRead)) lastRead = bill.periodEnd;
+      const { start, end } = last12MonthsWindow(lastRead !== null && lastRead <= addDays(asOf, 1) ? addDays(lastRead, -1) : asOf);
       const factor = unitFactor(commodity, meter.unit, REPORT_UNIT[commodity], heatContentByMeter(meter)) ?? NaN;
       const days = new Set<string>();
       for (const bill of bills) {
