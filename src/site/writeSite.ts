@@ -112,9 +112,22 @@ async function exists(path: string): Promise<boolean> {
   }
 }
 
-function viteOptions(verbose: boolean): Record<string, unknown> {
+function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<string, unknown> {
   const require = createRequire(join(PROJECT_ROOT, "package.json"));
   return {
+    // When Vite fails, the Eleventy plugin's attempt to restore its folder can fail too and hide
+    // the real cause; keep Vite's own error so the caller sees it.
+    plugins: [
+      {
+        name: "ohmbook-keep-build-error",
+        buildEnd(error?: Error) {
+          if (error) onError(error);
+        },
+        renderError(error?: Error) {
+          if (error) onError(error);
+        },
+      },
+    ],
     // Relative asset URLs: the site works under any path prefix and from a plain file server.
     base: "./",
     configFile: false,
@@ -159,6 +172,7 @@ export async function writeSite(
   await removeStaleScratch(out);
   const scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
   const stage = join(scratch, "site");
+  let bundleError: Error | null = null;
   try {
     const ready = await prepareSite(model, dataFiles);
     const eleventy = new Eleventy(CONTENT_DIR, stage, {
@@ -169,7 +183,9 @@ export async function writeSite(
         eleventyConfig.addPassthroughCopy({ [join(CONTENT_DIR, "assets")]: "assets" });
         eleventyConfig.addPlugin(EleventyVitePlugin, {
           tempFolderName: join(scratch, ".11ty-vite"),
-          viteOptions: viteOptions(verbose),
+          viteOptions: viteOptions(verbose, (error) => {
+            bundleError ??= error;
+          }),
         });
       },
     });
@@ -199,7 +215,11 @@ export async function writeSite(
     }
   } catch (error) {
     if (error instanceof SiteWriteError) throw error;
-    throw new SiteWriteError(`could not write the site to ${outDir}: ${(error as Error).message}`, { cause: error });
+    const cause: Error = bundleError ?? (error as Error);
+    const stageName = bundleError ? "bundling scripts and styles (Vite)" : "rendering pages";
+    // Vite colours its messages for terminals; the CLI prints this text as is.
+    const message = cause.message.replace(/\u001b\[[0-9;]*m/g, "");
+    throw new SiteWriteError(`could not write the site to ${outDir} while ${stageName}: ${message}`, { cause });
   } finally {
     await rm(scratch, { recursive: true, force: true });
   }
