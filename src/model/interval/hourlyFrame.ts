@@ -1,0 +1,116 @@
+/**
+ * Hourly training table of one meter: interval data summed to UTC hours, hours with any
+ * masked, non-finite or missing interval left out (and counted by reason), joined to the
+ * hourly temperature and the features of hourlyFeatures.ts.
+ */
+import type { IntervalSeries, WeatherSeries } from "../../domain/types.ts";
+import { ModelInputError } from "../errors.ts";
+import { HOUR_MS, hourlyFeaturesAt, selectFeatureRows } from "./hourlyFeatures.ts";
+import type { HourlyFeatureOptions } from "./hourlyFeatures.ts";
+import type { HourlyAccounting, HourlyFrame } from "./types.ts";
+
+export interface HourlyFrameOptions extends HourlyFeatureOptions {
+  /** Meter multiplier applied to every value (default 1): energy = value × multiplier. */
+  multiplier?: number;
+}
+
+/**
+ * Build the hourly training table. An hour is used only when it holds every one of its
+ * 60 / intervalMinutes intervals, none masked, all finite, and it has a temperature.
+ * Each excluded hour is counted under the first reason that applies, in the order
+ * masked → nonFinite → incomplete → noWeather, so hoursUsed + Σ excluded = hoursSpanned.
+ * @param mask same length as series.values; 1 = interval excluded from training (cleaning).
+ * @throws ModelInputError when the interval length does not divide an hour, the mask
+ *   length differs, the multiplier is not positive, or the zone is unknown.
+ * @example hourlyFrame(series15min, mask, weather, "America/Chicago").accounting.hoursUsed
+ */
+export function hourlyFrame(
+  series: IntervalSeries,
+  mask: Uint8Array | null,
+  weather: WeatherSeries,
+  zone: string,
+  options: HourlyFrameOptions = {},
+): HourlyFrame {
+  const minutes = series.intervalMinutes;
+  if (!(Number.isInteger(minutes) && minutes > 0 && 60 % minutes === 0)) {
+    throw new ModelInputError(`meter ${series.meterId}: interval models need intervals that divide an hour (1–60 min), got ${minutes} min`);
+  }
+  const multiplier = options.multiplier ?? 1;
+  if (!(multiplier > 0 && Number.isFinite(multiplier))) throw new ModelInputError(`multiplier must be positive, got ${multiplier}`);
+  const n = series.values.length;
+  if (mask && mask.length !== n) throw new ModelInputError(`mask has ${mask.length} entries but the series has ${n} intervals`);
+  const perHour = 60 / minutes;
+  const accounting: HourlyAccounting = {
+    intervalsRead: n,
+    intervalsUsed: 0,
+    hoursSpanned: 0,
+    hoursUsed: 0,
+    excluded: { masked: 0, nonFinite: 0, incomplete: 0, noWeather: 0 },
+    derivedFeatureFallbacks: 0,
+  };
+  if (n === 0) return { ...emptyFrame(), accounting };
+  const firstHour = Math.floor(series.startMs[0]! / HOUR_MS) * HOUR_MS;
+  const lastHour = Math.floor(series.startMs[n - 1]! / HOUR_MS) * HOUR_MS;
+  const hours = Math.round((lastHour - firstHour) / HOUR_MS) + 1;
+  accounting.hoursSpanned = hours;
+  const sum = new Float64Array(hours);
+  const count = new Uint16Array(hours);
+  const masked = new Uint8Array(hours);
+  const bad = new Uint8Array(hours);
+  for (let i = 0; i < n; i++) {
+    const h = Math.floor((series.startMs[i]! - firstHour) / HOUR_MS);
+    const v = series.values[i]!;
+    count[h]!++;
+    if (mask && mask[i]) masked[h] = 1;
+    else if (!Number.isFinite(v)) bad[h] = 1;
+    else sum[h]! += v * multiplier;
+  }
+  const candidates: number[] = [];
+  for (let h = 0; h < hours; h++) {
+    if (masked[h]) accounting.excluded.masked++;
+    else if (bad[h]) accounting.excluded.nonFinite++;
+    else if (count[h]! < perHour) accounting.excluded.incomplete++;
+    else candidates.push(firstHour + h * HOUR_MS);
+  }
+  const table = hourlyFeaturesAt(weather, zone, candidates, options);
+  const keep: number[] = [];
+  for (let r = 0; r < candidates.length; r++) {
+    if (Number.isFinite(table.features.tempC[r]!)) keep.push(r);
+    else accounting.excluded.noWeather++;
+  }
+  const features = selectFeatureRows(table.features, keep);
+  const kwh = new Float64Array(keep.length);
+  for (let r = 0; r < keep.length; r++) {
+    const h = Math.round((features.hourStartMs[r]! - firstHour) / HOUR_MS);
+    kwh[r] = sum[h]!;
+    accounting.intervalsUsed += count[h]!;
+  }
+  accounting.hoursUsed = keep.length;
+  // hourlyFeaturesAt counts fallbacks only on hours with a temperature, i.e. exactly the kept ones.
+  accounting.derivedFeatureFallbacks = table.derivedFallbacks;
+  return { ...features, kwh, accounting };
+}
+
+function emptyFrame(): Omit<HourlyFrame, "accounting"> {
+  return {
+    hourStartMs: new Float64Array(0),
+    hourOfWeek: new Uint8Array(0),
+    holiday: new Uint8Array(0),
+    tempC: new Float64Array(0),
+    tempSmoothC: new Float64Array(0),
+    tempSlopeCPerHour: new Float64Array(0),
+    tempLagC: new Float64Array(0),
+    tempRollingMeanC: new Float64Array(0),
+    kwh: new Float64Array(0),
+  };
+}
+
+/**
+ * Rows `indices` of a frame (features and target); accounting is carried over unchanged.
+ * @example selectFrameRows(frame, [0, 1, 2]).kwh.length // 3
+ */
+export function selectFrameRows(frame: HourlyFrame, indices: ArrayLike<number>): HourlyFrame {
+  const kwh = new Float64Array(indices.length);
+  for (let i = 0; i < indices.length; i++) kwh[i] = frame.kwh[indices[i]!]!;
+  return { ...selectFeatureRows(frame, indices), kwh, accounting: frame.accounting };
+}

@@ -1,0 +1,201 @@
+/**
+ * Time-of-week-and-temperature regression (TOWT; Mathieu, Price, Kiliccote & Piette 2011,
+ * "Quantifying changes in building electricity use, with application to demand response",
+ * IEEE Trans. Smart Grid 2(3)): hourly energy = α(hour of week) + piecewise-linear function
+ * of outdoor temperature, with separate temperature slopes for occupied and unoccupied hours
+ * of the week. Fitted by ordinary least squares (../ols.ts).
+ *
+ * Occupancy (as the method describes): fit energy on temperature alone (intercept +
+ * piecewise-linear components); an hour of the week is "occupied" when more than
+ * `occupancyThreshold` (default 0.65, the published value as remembered) of its residuals are
+ * positive, i.e. the building uses more at that hour than temperature explains.
+ */
+import { fitOls } from "../ols.ts";
+import type { OlsFit } from "../ols.ts";
+import { temperatureComponents } from "../../clean/timeOfWeek.ts";
+import { ModelInputError } from "../errors.ts";
+import type { FittedHourlyModel, HourlyFeatures, HourlyModelSpec } from "./types.ts";
+
+/** The published knots 40, 50, 60, 70, 80 °F converted exactly to °C. */
+export const DEFAULT_TOWT_KNOTS_C: readonly number[] = [40, 50, 60, 70, 80].map((f) => ((f - 32) * 5) / 9);
+
+export interface TowtOptions {
+  /** Knots of the piecewise-linear temperature term, °C, increasing. Default {@link DEFAULT_TOWT_KNOTS_C}. */
+  knotsC?: readonly number[];
+  /** A knot is dropped while a temperature segment of a mode holds fewer points than this. Default 20. */
+  minPointsPerSegment?: number;
+  /** Share of positive temperature-only residuals above which an hour of week is occupied. Default 0.65. */
+  occupancyThreshold?: number;
+  /** Fixed occupancy by hour of week (168 entries of 0/1) instead of the residual rule. */
+  occupancy?: ArrayLike<number>;
+  /** Add one coefficient for occupied hours on holidays (when at least 8 such rows exist). Default true. */
+  holidayTerm?: boolean;
+}
+
+/** Training input of TOWT: the columns it uses. */
+export interface TowtData {
+  hourOfWeek: ArrayLike<number>;
+  holiday: ArrayLike<number>;
+  tempC: ArrayLike<number>;
+  kwh: ArrayLike<number>;
+}
+
+export interface TowtModel extends FittedHourlyModel {
+  readonly kind: "towt";
+  /** 1 = occupied, per hour of week 0 … 167. */
+  occupied: Uint8Array;
+  /** Knots kept after the per-mode data check. */
+  knotsOccupiedC: number[];
+  knotsUnoccupiedC: number[];
+  /** Names of the design columns, in coefficient order (no intercept). */
+  columnNames: string[];
+  ols: OlsFit;
+}
+
+const MIN_HOLIDAY_ROWS = 8;
+
+/**
+ * Knots kept for a set of temperatures: while some segment (t < k₀, kⱼ₋₁ ≤ t < kⱼ, t ≥ k_last)
+ * holds fewer than `minPoints` values, drop the knot on that segment's left (the first knot for
+ * the first segment), merging it with its neighbour. Without this the design would have a
+ * constant (collinear) component.
+ * @example selectKnots([1, 2, 3, 30], [10, 20], 1) // [20] (nothing in 10 … 20, so 10 goes)
+ */
+export function selectKnots(temps: ArrayLike<number>, knots: readonly number[], minPoints: number): number[] {
+  const ks = [...knots];
+  for (;;) {
+    if (ks.length === 0) return ks;
+    const counts = new Array<number>(ks.length + 1).fill(0);
+    for (let i = 0; i < temps.length; i++) {
+      let s = 0;
+      while (s < ks.length && temps[i]! >= ks[s]!) s++;
+      counts[s]!++;
+    }
+    const thin = counts.findIndex((c) => c < minPoints);
+    if (thin < 0) return ks;
+    ks.splice(thin === 0 ? 0 : thin - 1, 1);
+  }
+}
+
+function components(t: number, knots: number[]): number[] {
+  return knots.length === 0 ? [t] : temperatureComponents(t, knots);
+}
+
+/**
+ * Occupancy by hour of week from a temperature-only fit (see the module comment).
+ * Hours of week with no data are unoccupied.
+ * @example occupancyFromResiduals(data, DEFAULT_TOWT_KNOTS_C, 20, 0.65)[9] // 1 for a 9 am weekday office hour
+ */
+export function occupancyFromResiduals(data: TowtData, knotsC: readonly number[], minPoints: number, threshold: number): Uint8Array {
+  const knots = selectKnots(data.tempC, knotsC, minPoints);
+  const x = Array.from({ length: data.kwh.length }, (_, i) => components(data.tempC[i]!, knots));
+  const fit = fitOls(x, data.kwh);
+  const pos = new Float64Array(168);
+  const all = new Float64Array(168);
+  for (let i = 0; i < data.kwh.length; i++) {
+    const h = data.hourOfWeek[i]!;
+    all[h]!++;
+    if (fit.residuals[i]! > 0) pos[h]!++;
+  }
+  const occ = new Uint8Array(168);
+  for (let h = 0; h < 168; h++) occ[h] = all[h]! > 0 && pos[h]! / all[h]! > threshold ? 1 : 0;
+  return occ;
+}
+
+/**
+ * Fit TOWT. Design (no separate intercept): one indicator per hour of week seen in training,
+ * piecewise-linear temperature components for occupied rows and for unoccupied rows (each mode
+ * with its own knots, see {@link selectKnots}; a mode with no rows has no columns), and an
+ * optional holiday×occupied term.
+ * @throws ModelInputError when there are fewer rows than coefficients or the design is singular.
+ * @example fitTowt(frame).predict(frame) // fitted hourly kWh
+ */
+export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
+  const knotsC = options.knotsC ?? DEFAULT_TOWT_KNOTS_C;
+  const minPoints = options.minPointsPerSegment ?? 20;
+  const threshold = options.occupancyThreshold ?? 0.65;
+  const n = data.kwh.length;
+  if (n === 0) throw new ModelInputError("TOWT needs training rows, got none");
+  let occupied: Uint8Array;
+  if (options.occupancy) {
+    if (options.occupancy.length !== 168) throw new ModelInputError(`occupancy needs 168 entries, got ${options.occupancy.length}`);
+    occupied = Uint8Array.from(options.occupancy, (v) => (v ? 1 : 0));
+  } else {
+    occupied = occupancyFromResiduals(data, knotsC, minPoints, threshold);
+  }
+  const seen = new Int16Array(168).fill(-1);
+  const hoursSeen: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const h = data.hourOfWeek[i]!;
+    if (seen[h] === -1) {
+      seen[h] = 0;
+      hoursSeen.push(h);
+    }
+  }
+  hoursSeen.sort((a, b) => a - b);
+  hoursSeen.forEach((h, j) => (seen[h] = j));
+  const occTemps: number[] = [];
+  const unoccTemps: number[] = [];
+  let holidayOccRows = 0;
+  for (let i = 0; i < n; i++) {
+    const occ = occupied[data.hourOfWeek[i]!]!;
+    (occ ? occTemps : unoccTemps).push(data.tempC[i]!);
+    if (occ && data.holiday[i]) holidayOccRows++;
+  }
+  const knotsOcc = occTemps.length ? selectKnots(occTemps, knotsC, minPoints) : [];
+  const knotsUnocc = unoccTemps.length ? selectKnots(unoccTemps, knotsC, minPoints) : [];
+  const nOcc = occTemps.length ? knotsOcc.length + 1 : 0;
+  const nUnocc = unoccTemps.length ? knotsUnocc.length + 1 : 0;
+  const useHoliday = (options.holidayTerm ?? true) && holidayOccRows >= MIN_HOLIDAY_ROWS && holidayOccRows < occTemps.length;
+  const nHow = hoursSeen.length;
+  const k = nHow + nOcc + nUnocc + (useHoliday ? 1 : 0);
+  const columnNames = [
+    ...hoursSeen.map((h) => `how${h}`),
+    ...Array.from({ length: nOcc }, (_, j) => `tempOcc${j}`),
+    ...Array.from({ length: nUnocc }, (_, j) => `tempUnocc${j}`),
+    ...(useHoliday ? ["holidayOccupied"] : []),
+  ];
+  const row = (h: number, hol: number, t: number, howCol: number): number[] => {
+    const r = new Array<number>(k).fill(0);
+    if (howCol >= 0) r[howCol] = 1;
+    if (occupied[h]) {
+      const c = components(t, knotsOcc);
+      for (let j = 0; j < nOcc; j++) r[nHow + j] = c[j]!;
+      if (useHoliday && hol) r[k - 1] = 1;
+    } else if (nUnocc > 0) {
+      const c = components(t, knotsUnocc);
+      for (let j = 0; j < nUnocc; j++) r[nHow + nOcc + j] = c[j]!;
+    }
+    return r;
+  };
+  const x = Array.from({ length: n }, (_, i) => row(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, seen[data.hourOfWeek[i]!]!));
+  const ols = fitOls(x, data.kwh, { intercept: false, columnNames });
+  const beta = ols.coefficients;
+  // Hours of week never seen in training borrow the mean indicator of their mode (or of all hours).
+  const fallback = new Float64Array(2);
+  for (const mode of [0, 1]) {
+    const hs = hoursSeen.filter((h) => occupied[h] === mode);
+    const src = hs.length ? hs : hoursSeen;
+    fallback[mode] = src.reduce((s, h) => s + beta[seen[h]!]!, 0) / src.length;
+  }
+  const predict = (f: HourlyFeatures): Float64Array => {
+    const out = new Float64Array(f.tempC.length);
+    for (let i = 0; i < out.length; i++) {
+      const h = f.hourOfWeek[i]!;
+      const r = row(h, f.holiday[i]!, f.tempC[i]!, -1);
+      let s = seen[h]! >= 0 ? beta[seen[h]!]! : fallback[occupied[h]!]!;
+      for (let j = nHow; j < k; j++) s += r[j]! * beta[j]!;
+      out[i] = s;
+    }
+    return out;
+  };
+  return { kind: "towt", parameterCount: ols.k, occupied, knotsOccupiedC: knotsOcc, knotsUnoccupiedC: knotsUnocc, columnNames, ols, predict };
+}
+
+/**
+ * TOWT as a model spec for cross-validation and the baseline entry point.
+ * @example towtSpec().fit(frame).kind // "towt"
+ */
+export function towtSpec(options: TowtOptions = {}): HourlyModelSpec {
+  return { kind: "towt", fit: (train) => fitTowt(train, options) };
+}
