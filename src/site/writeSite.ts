@@ -25,6 +25,8 @@ export class SiteWriteError extends OhmbookError {}
 export interface WriteSiteOptions {
   /** Let Eleventy and Vite log progress and errors to the console. Default false. */
   verbose?: boolean;
+  /** Template folder (layouts, pages, assets); default the project's content/. */
+  contentDir?: string;
 }
 
 /** Prefix of the scratch folders of builds into `outDir`. */
@@ -164,6 +166,7 @@ export async function writeSite(
   options: WriteSiteOptions = {},
 ): Promise<void> {
   const verbose = options.verbose ?? false;
+  const contentDir = resolve(options.contentDir ?? CONTENT_DIR);
   const out = resolve(outDir);
   // Refuse bad data-file names before any work (and before touching the disk).
   for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
@@ -175,12 +178,12 @@ export async function writeSite(
   let bundleError: Error | null = null;
   try {
     const ready = await prepareSite(model, dataFiles);
-    const eleventy = new Eleventy(CONTENT_DIR, stage, {
+    const eleventy = new Eleventy(contentDir, stage, {
       quietMode: !verbose,
       configPath: ELEVENTY_CONFIG,
       config(eleventyConfig) {
         eleventyConfig.addGlobalData("site", ready);
-        eleventyConfig.addPassthroughCopy({ [join(CONTENT_DIR, "assets")]: "assets" });
+        eleventyConfig.addPassthroughCopy({ [join(contentDir, "assets")]: "assets" });
         eleventyConfig.addPlugin(EleventyVitePlugin, {
           tempFolderName: join(scratch, ".11ty-vite"),
           viteOptions: viteOptions(verbose, (error) => {

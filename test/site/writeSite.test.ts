@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { mkdir, mkdtemp, readFile, readdir, rm, stat, utimes, writeFile } from "node:fs/promises";
+import { cp, mkdir, mkdtemp, readFile, readdir, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { join, resolve } from "node:path";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { SiteWriteError, writeSite } from "../../src/site/writeSite.ts";
 import { fixtureInput } from "../report/fixture.ts";
@@ -143,6 +143,20 @@ describe("writeSite", () => {
     await expect(writeSite(model, {}, join(foreign, "thesis.docx"))).rejects.toThrow(/is a file/);
     await rm(foreign, { recursive: true, force: true });
   });
+
+  it("reports Vite's own error when bundling fails, and writes nothing", async () => {
+    const content = join(work, "content-broken");
+    await cp(resolve("content"), content, { recursive: true });
+    await writeFile(join(content, "assets", "site.js"), 'import missing from "./does-not-exist.js";\nmissing();\n');
+    const target = join(work, "broken-out");
+    const error = await writeSite(buildSiteModel(fixtureInput()), {}, target, { contentDir: content }).catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(SiteWriteError);
+    expect((error as Error).message).toMatch(/bundling scripts and styles \(Vite\).*does-not-exist\.js/s);
+    expect((error as Error).message).not.toContain("\u001b[");
+    await expect(stat(target)).rejects.toThrow();
+    await rm(content, { recursive: true, force: true });
+    expect((await readdir(work)).sort()).toEqual(["site"]);
+  }, 60_000);
 
   it("creates no output folder when the first build fails", async () => {
     const fresh = join(work, "never");
