@@ -1,0 +1,133 @@
+/**
+ * Compares, meter by meter, the bill-level baselines on a portfolio folder (default data/demo):
+ *   CP     the pipeline's mean-temperature change-point model (src/pipeline/baselines.ts) and
+ *          its 99 % least-squares prediction band;
+ *   CP+LOO the same chosen change-point form with the leave-one-out band (src/model/outlierBand.ts);
+ *   DD     the variable-base degree-day model (src/model/degreeDayRegression.ts) with its 99 %
+ *          least-squares prediction band (bases fixed);
+ *   DD+LOO the degree-day model with the leave-one-out band.
+ * Prints CV(RMSE), NMBE and R² of each fit and the bills outside each band.
+ *
+ *   npx tsx scripts/compare-monthly-baselines.ts [PORTFOLIO_DIR] [--relative] [--min=0.1]
+ * (--relative: relative leave-one-out residuals instead of use per day; --min: minimum half-width share)
+ */
+import { loadPortfolio } from "../src/ingest/index.ts";
+import { fitMeterBaseline, OUTLIER_BAND_LEVEL } from "../src/pipeline/baselines.ts";
+import { fitChangePoint, type ChangePointPoint } from "../src/model/changePoint.ts";
+import {
+  fitDegreeDayForm,
+  fitDegreeDayModel,
+  temperatureProfileForPeriod,
+  type DegreeDayPeriod,
+  type TemperatureProfile,
+} from "../src/model/degreeDayRegression.ts";
+import { outlierBand, type BandPoint } from "../src/model/outlierBand.ts";
+import { daysBetween, localMidnightMs } from "../src/core/time.ts";
+import type { Bill } from "../src/domain/types.ts";
+
+const MIN_POINTS = 9;
+const MIN_WEATHER_COVERAGE = 0.8;
+
+const dir = process.argv.slice(2).find((a) => !a.startsWith("--")) ?? "data/demo";
+const residualScale = process.argv.includes("--relative") ? "relative" : "absolute";
+const minArg = process.argv.find((a) => a.startsWith("--min="));
+const minRelativeHalfWidth = minArg ? Number(minArg.slice(6)) : 0.1;
+const { portfolio } = await loadPortfolio(dir);
+if (!portfolio) throw new Error(`${dir}: portfolio could not be loaded`);
+const unit = portfolio.settings.degreeDayBase.unit;
+const toUnit = (c: number): number => (unit === "F" ? c * 1.8 + 32 : c);
+
+const fmt = (v: number | null | undefined, d = 1): string => (v === null || v === undefined || !Number.isFinite(v) ? "—" : v.toFixed(d));
+const outsideList = (bills: Bill[], bands: Map<string, { low: number; high: number }>): string[] =>
+  bills.filter((b) => {
+    const band = bands.get(b.billId);
+    return band !== undefined && (b.usage < band.low || b.usage > band.high);
+  }).map((b) => b.billId.replace(/^[A-Z]+-[A-Z]-/, ""));
+
+const rows: string[][] = [];
+const outside: Record<string, Set<string>> = { CP: new Set(), "CP+LOO": new Set(), DD: new Set(), "DD+LOO": new Set() };
+for (const building of portfolio.buildings) {
+  const weather = portfolio.weather.get(building.weatherStation);
+  for (const meter of portfolio.meters.filter((m) => m.buildingId === building.buildingId)) {
+    const bills = portfolio.bills.filter((b) => b.meterId === meter.meterId).sort((a, b) => a.periodStart.localeCompare(b.periodStart));
+    const cp = fitMeterBaseline({ meter, building, bills, weather, normals: portfolio.normals.get(building.weatherStation), tempUnit: unit });
+
+    // The same training set as the pipeline: actual reads, one bill per period, weather ≥ 80 %.
+    type Pt = { profile: TemperatureProfile; temp: number; usePerDay: number; days: number };
+    const all: BandPoint<Pt>[] = [];
+    const train: BandPoint<Pt>[] = [];
+    const seen = new Set<string>();
+    for (const bill of bills) {
+      if (!weather) continue;
+      const startMs = localMidnightMs(bill.periodStart, building.timezone);
+      const endMs = localMidnightMs(bill.periodEnd, building.timezone);
+      const profileC = temperatureProfileForPeriod({ startMs: weather.startMs, temps: weather.tempC }, startMs, endMs);
+      if (profileC.hoursCovered < MIN_WEATHER_COVERAGE * profileC.hoursTotal) continue;
+      const profile = unit === "F" ? temperatureProfileForPeriod({ startMs: weather.startMs, temps: weather.tempC.map(toUnit) }, startMs, endMs) : profileC;
+      const h = profile.sortedTemps.length;
+      const days = daysBetween(bill.periodStart, bill.periodEnd);
+      const pt: BandPoint<Pt> = {
+        id: bill.billId,
+        point: { profile, temp: profile.cumHourTemps[h] / profile.cumHours[h], usePerDay: bill.usage / days, days },
+        usePerDay: bill.usage / days,
+        days,
+      };
+      all.push(pt);
+      const key = `${bill.periodStart}/${bill.periodEnd}`;
+      if (bill.readType === "estimated" || seen.has(key)) continue;
+      seen.add(key);
+      train.push(pt);
+    }
+    if (train.length < MIN_POINTS) {
+      rows.push([meter.meterId, "too few points"]);
+      continue;
+    }
+    const periods: DegreeDayPeriod[] = train.map((t) => t.point);
+    const dd = fitDegreeDayModel(periods, { tempUnit: unit }).chosen;
+
+    const cpParam = cp.expectedByBill; // empty when the CP fit misses Guideline 14
+    const cpLoo = cp.fit
+      ? outlierBand(train, (pts: Pt[]) => {
+          const f = fitChangePoint(pts as ChangePointPoint[], cp.fit!.kind, { weightByDays: true });
+          return { predictPerDay: (p: Pt) => f.predict(p.temp) };
+        }, all, { residualScale, minRelativeHalfWidth })
+      : null;
+    const ddParam = new Map<string, { low: number; high: number }>();
+    if (dd) {
+      for (const t of all) {
+        const band = dd.predictWithInterval(t.point.profile, OUTLIER_BAND_LEVEL, t.days);
+        ddParam.set(t.id, { low: Math.max(0, band.lower * t.days), high: band.upper * t.days });
+      }
+    }
+    const ddLoo = dd
+      ? outlierBand(train, (pts: Pt[]) => {
+          const f = fitDegreeDayForm(pts, dd.form, { tempUnit: unit });
+          return { predictPerDay: (p: Pt) => f.predictPerDay(p.profile) };
+        }, all, { residualScale, minRelativeHalfWidth })
+      : null;
+
+    const lists = {
+      CP: outsideList(bills, cpParam),
+      "CP+LOO": cpLoo ? outsideList(bills, cpLoo.bands) : [],
+      DD: outsideList(bills, ddParam),
+      "DD+LOO": ddLoo ? outsideList(bills, ddLoo.bands) : [],
+    };
+    for (const [k, v] of Object.entries(lists)) for (const b of v) outside[k].add(`${meter.meterId}-${b}`);
+    const bases = dd ? [dd.heatingBase, dd.coolingBase].filter((b) => b !== null).map((b) => fmt(b, 2)).join("/") : "";
+    rows.push([
+      meter.meterId,
+      `${cp.fit?.kind ?? "none"} ${fmt(cp.fit?.stats.cvRmsePct)} ${fmt(cp.fit?.stats.nmbePct, 2)} ${fmt(cp.fit?.stats.rSquared, 3)}${cp.meetsGuideline14 ? "" : " (G14 ✗: no band)"}`,
+      `${dd?.form ?? "none"}${bases ? `@${bases}` : ""} ${fmt(dd?.stats.cvRmsePct)} ${fmt(dd?.stats.nmbePct, 2)} ${fmt(dd?.stats.rSquared, 3)}`,
+      `CP: ${lists.CP.join(" ") || "-"}`,
+      `CP+LOO: ${lists["CP+LOO"].join(" ") || "-"}${cpLoo ? ` (s ${(cpLoo.scale * (residualScale === "relative" ? 100 : 1)).toFixed(residualScale === "relative" ? 1 : 2)}${residualScale === "relative" ? " %" : ""}, k ${cpLoo.k.toFixed(2)})` : ""}`,
+      `DD: ${lists.DD.join(" ") || "-"}`,
+      `DD+LOO: ${lists["DD+LOO"].join(" ") || "-"}${ddLoo ? ` (s ${(ddLoo.scale * (residualScale === "relative" ? 100 : 1)).toFixed(residualScale === "relative" ? 1 : 2)}${residualScale === "relative" ? " %" : ""}, k ${ddLoo.k.toFixed(2)}, rejected ${ddLoo.rejected.join(" ") || "-"})` : ""}`,
+    ]);
+  }
+}
+
+process.stdout.write(`portfolio ${dir}, temperatures in °${unit}, LOO residuals ${residualScale}\n`);
+process.stdout.write("meter | CP form CV(RMSE)% NMBE% R² | DD form@base CV(RMSE)% NMBE% R² | bills outside each band\n");
+for (const r of rows) process.stdout.write(`${r[0].padEnd(6)} | ${r.slice(1, 3).join(" | ")}\n         ${r.slice(3).join("\n         ")}\n`);
+process.stdout.write("\nBills outside each band (all meters):\n");
+for (const [k, v] of Object.entries(outside)) process.stdout.write(`  ${k.padEnd(7)} ${v.size}: ${[...v].join(", ") || "-"}\n`);
