@@ -1,0 +1,209 @@
+/**
+ * Next months' usage and cost of one meter, with P10/P50/P90 from scenarios.
+ *
+ * Scenarios = weather years × model prediction noise (usageScenarios.ts). Every scenario is
+ * priced month by month through the tariff (priceMonth.ts) — blocks, demand charges, ratchets
+ * and minimum bills are not linear, so the mean usage is never priced in place of the
+ * scenarios. Quantiles (quantiles.ts, type 7) are taken per month and, separately, over the
+ * scenario totals (the P90 of a year is not the sum of twelve monthly P90s).
+ */
+import type { Bill, Commodity, IntervalSeries, Meter } from "../domain/types.ts";
+import type { ChangePointFit } from "../model/changePoint.ts";
+import type { Tariff } from "../tariff/model.ts";
+import { addDays, localMidnightMs } from "../core/time.ts";
+import { bandOf, type Band } from "./quantiles.ts";
+import { monthsAfter, type CalendarMonth } from "./months.ts";
+import { escalationFactorForMonth } from "./escalation.ts";
+import { scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
+import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
+import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
+import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
+import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
+import { mulberry32, seedFromString } from "./random.ts";
+
+export const DEFAULT_SCENARIOS = 300;
+export const DEFAULT_SEED = 20_260_101;
+
+export interface MeterForecastInput {
+  meter: Meter;
+  /** IANA zone of the meter's building. */
+  timezone: string;
+  tariff: Tariff | null;
+  /** Last day of data, `YYYY-MM-DD`; the forecast starts with the next calendar month. */
+  asOf: string;
+  months: number;
+  /** The meter's change-point baseline fitted on data up to asOf; null = fallback. */
+  fit: ChangePointFit | null;
+  /** Typical temperature per calendar month (index 0 = Jan) in the model's unit; null = fallback. */
+  typicalMonthlyTemp: number[] | null;
+  /** The station's historical weather years (model unit), identical for all meters of a building. */
+  weatherYears: WeatherYear[];
+  /** The meter's bills up to asOf (fallback usage, demand ratios, power factor). */
+  bills: Bill[];
+  /** Interval data (before the multiplier), used only before asOf. */
+  intervals?: IntervalSeries | null;
+  /** Billing demands (kW) of the meter's recent bills, oldest first, for ratchets. */
+  previousBillingDemandsKw?: number[];
+  /** Hour-of-week share of use from an interval meter of the building (bill-only meters on TOU). */
+  loadShapeByHourOfWeek?: number[] | null;
+  /** Yearly price drift after the last tariff version (0.03 = 3 %). */
+  escalation: number;
+  scenarios?: number;
+  seed?: number;
+  /** Multiplies the prediction noise; 1 = the model's own interval (see calibrateNoise). */
+  calibration?: number;
+}
+
+export interface MonthForecast {
+  month: string;
+  usage: Band;
+  cost: Band;
+  /** Escalation factor applied to the month's priced totals (1 before/at the last version). */
+  escalationFactor: number;
+  /** `intervals` = scaled interval shape; `bill` = monthly usage (+ load shape or demand ratio). */
+  pricedFrom: "intervals" | "bill";
+  /** True when the engine estimated any line (e.g. time-of-use split from a load shape). */
+  estimated: boolean;
+}
+
+export interface MeterForecast {
+  meterId: string;
+  buildingId: string;
+  commodity: Commodity;
+  unit: string;
+  method: UsageMethod | "none";
+  months: MonthForecast[];
+  /** Quantiles of the scenario totals over all forecast months. */
+  total: { usage: Band; cost: Band } | null;
+  /** cost[s][k] for scenario s, month k (for roll-ups that keep scenarios aligned). */
+  scenarioCosts: Float64Array[];
+  /** Weather-year index of each scenario (−1 = no weather). */
+  weatherIndex: Int32Array;
+  /** Calendar month of the last tariff version's start, the escalation base. */
+  escalationFrom: string | null;
+  notes: string[];
+  /** Why the meter has no forecast (no tariff, no bills, pricing failed); null when it has one. */
+  error: string | null;
+}
+
+/**
+ * Forecasts one meter (see the module comment).
+ * @example forecastMeter({ meter, timezone: "America/New_York", tariff, asOf: "2025-12-31", months: 12, fit, typicalMonthlyTemp, weatherYears, bills, escalation: 0.03 })
+ */
+export function forecastMeter(input: MeterForecastInput): MeterForecast {
+  const months = monthsAfter(input.asOf, input.months);
+  const scenarios = Math.max(1, Math.floor(input.scenarios ?? DEFAULT_SCENARIOS));
+  const calibration = input.calibration ?? 1;
+  const base: MeterForecast = {
+    meterId: input.meter.meterId,
+    buildingId: input.meter.buildingId,
+    commodity: input.meter.commodity,
+    unit: input.meter.unit,
+    method: "none",
+    months: [],
+    total: null,
+    scenarioCosts: [],
+    weatherIndex: new Int32Array(0),
+    escalationFrom: null,
+    notes: [],
+    error: null,
+  };
+  const usage = usageScenariosFor(input, months, scenarios, calibration);
+  if (!usage) return { ...base, error: "no bills to forecast from" };
+  base.method = usage.method;
+  base.weatherIndex = usage.weatherIndex;
+  base.notes.push(usage.note);
+  const tariff = input.tariff;
+  if (!tariff || tariff.versions.length === 0) return { ...base, error: `tariff '${input.meter.tariffId}' is not available`, ...usageOnly(usage, months) };
+
+  const contexts = pricingContexts(input, tariff, months);
+  const lastFrom = tariff.versions[tariff.versions.length - 1]!.from;
+  base.escalationFrom = lastFrom;
+  if (contexts.some((c) => c.shape)) {
+    base.notes.push(`interval shape: same calendar month ${contexts.find((c) => c.shape)!.shape!.weeksBack} weeks earlier, scaled to each scenario's usage`);
+  }
+  const scenarioCosts: Float64Array[] = [];
+  const exactByMonth = months.map(() => true);
+  try {
+    for (let s = 0; s < scenarios; s++) {
+      const previous = [...(input.previousBillingDemandsKw ?? [])];
+      const row = new Float64Array(months.length);
+      months.forEach((_, k) => {
+        const priced = priceForecastMonth(contexts[k]!, usage.usage[s]![k]!, previous);
+        row[k] = priced.cost;
+        if (!priced.exact) exactByMonth[k] = false;
+        if (priced.billingDemandKw !== null) previous.push(priced.billingDemandKw);
+      });
+      scenarioCosts.push(row);
+    }
+  } catch (error) {
+    return { ...base, error: `pricing failed: ${error instanceof Error ? error.message : String(error)}`, ...usageOnly(usage, months) };
+  }
+  const monthsOut: MonthForecast[] = months.map((m, k) => ({
+    month: m.month,
+    usage: bandOf(usage.usage.map((u) => u[k]!)),
+    cost: bandOf(scenarioCosts.map((c) => c[k]!)),
+    escalationFactor: contexts[k]!.escalationFactor,
+    pricedFrom: contexts[k]!.shape ? "intervals" : "bill",
+    estimated: !exactByMonth[k],
+  }));
+  const sum = (xs: Float64Array): number => xs.reduce((a, b) => a + b, 0);
+  return {
+    ...base,
+    months: monthsOut,
+    total: { usage: bandOf(usage.usage.map(sum)), cost: bandOf(scenarioCosts.map(sum)) },
+    scenarioCosts,
+  };
+}
+
+function usageScenariosFor(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
+  const rng = mulberry32(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
+  if (input.fit && input.typicalMonthlyTemp) {
+    return modelUsageScenarios({
+      fit: input.fit,
+      typicalMonthlyTemp: input.typicalMonthlyTemp,
+      temperatureSets: scenarioTemperatures(input.typicalMonthlyTemp, input.weatherYears),
+      months,
+      scenarios,
+      calibration,
+      rng,
+    });
+  }
+  return fallbackUsageScenarios({ bills: input.bills, months, scenarios, calibration, rng });
+}
+
+/** Months with usage bands but no cost (the meter could not be priced). */
+function usageOnly(usage: UsageScenarios, months: CalendarMonth[]): Pick<MeterForecast, "months"> {
+  return {
+    months: months.map((m, k) => ({
+      month: m.month,
+      usage: bandOf(usage.usage.map((u) => u[k]!)),
+      cost: { p10: NaN, p50: NaN, p90: NaN },
+      escalationFactor: 1,
+      pricedFrom: "bill" as const,
+      estimated: true,
+    })),
+  };
+}
+
+function pricingContexts(input: MeterForecastInput, tariff: Tariff, months: CalendarMonth[]): MonthPricingContext[] {
+  // Interval readings after the as-of day are not used (a backtest must not see its future).
+  const untilMs = localMidnightMs(addDays(input.asOf, 1), input.timezone);
+  const kw = kwPerUsePerDayByMonth(input.bills);
+  const pf = recentPowerFactor(input.bills);
+  const lastFrom = tariff.versions[tariff.versions.length - 1]!.from;
+  return months.map((m) => {
+    const shape: MonthShape | null = input.intervals ? monthShapeFromIntervals(input.intervals, input.timezone, m, untilMs) : null;
+    return {
+      tariff,
+      timezone: input.timezone,
+      usageUnit: input.meter.unit,
+      month: m,
+      shape,
+      loadShapeByHourOfWeek: input.loadShapeByHourOfWeek ?? null,
+      kwPerUsePerDay: kw ? kw[m.calendarMonth - 1]! : null,
+      powerFactor: pf,
+      escalationFactor: escalationFactorForMonth(input.escalation, lastFrom, m),
+    };
+  });
+}

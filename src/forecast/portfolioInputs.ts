@@ -1,0 +1,115 @@
+/**
+ * Builds each meter's forecast input from a portfolio as it stood on an as-of date: bills that
+ * ended after it, weather and interval readings after it are cut off, and the baseline is
+ * refitted on what is left (so the track record's "forecast made a year earlier" sees only
+ * what was known then).
+ */
+import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
+import type { Tariff } from "../tariff/model.ts";
+import { priceBill } from "../tariff/price.ts";
+import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
+import { fitMeterBaseline } from "../pipeline/baselines.ts";
+import { priceMeterBills } from "../pipeline/priceBills.ts";
+import { loadShapeByHourOfWeek } from "./profile.ts";
+import { weatherYears, type WeatherYear } from "./weatherYears.ts";
+import type { MeterForecastInput } from "./forecastMeter.ts";
+
+const HOUR_MS = 3_600_000;
+
+export interface ForecastRunOptions {
+  /** Last day of data, `YYYY-MM-DD`. */
+  asOf: string;
+  /** Forecast horizon in calendar months (portfolio.yaml `forecast_months`). */
+  months: number;
+  scenarios?: number;
+  seed?: number;
+  calibration?: number;
+}
+
+/** Bills whose period ends by the day after `asOf` (the ingest rule for as_of). */
+export function billsKnownAt(bills: readonly Bill[], asOf: string): Bill[] {
+  const limit = addDays(asOf, 1);
+  return bills.filter((b) => b.periodEnd <= limit);
+}
+
+/** The hourly series cut before `untilMs`. */
+export function weatherBefore(w: WeatherSeries | undefined, untilMs: number): WeatherSeries | undefined {
+  if (!w) return undefined;
+  const hours = Math.max(0, Math.min(w.tempC.length, Math.ceil((untilMs - w.startMs) / HOUR_MS)));
+  return { ...w, tempC: w.tempC.subarray(0, hours), filled: w.filled.subarray(0, hours) };
+}
+
+/** Interval readings starting before `untilMs`. */
+export function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): IntervalSeries | undefined {
+  if (!s) return undefined;
+  const n = lowerBound(s.startMs, untilMs);
+  return n === 0 ? undefined : { ...s, startMs: s.startMs.subarray(0, n), values: s.values.subarray(0, n) };
+}
+
+function hasRatchetOrDemand(tariff: Tariff | undefined): boolean {
+  return !!tariff?.versions.some((v) => v.charges.some((c) => c.kind === "demand"));
+}
+
+/**
+ * Forecast inputs of every meter of `building` as of `options.asOf`.
+ * Ratchet history: the billing demands of the last 12 known bills, re-priced through the tariff.
+ * Load shape for bill-only meters: hour-of-week shape of the building's first interval meter of
+ * the same commodity; interval meters use their own for months their data cannot shape.
+ */
+export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: Building, options: ForecastRunOptions): MeterForecastInput[] {
+  const untilMs = localMidnightMs(addDays(options.asOf, 1), building.timezone);
+  const tempUnit = portfolio.settings.degreeDayBase.unit;
+  const weather = weatherBefore(portfolio.weather.get(building.weatherStation), untilMs);
+  const normals = portfolio.normals.get(building.weatherStation);
+  const years: WeatherYear[] = weatherYears(weather, building.timezone, tempUnit, untilMs);
+  const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
+  const series = new Map<string, IntervalSeries>();
+  for (const m of meters) {
+    const s = intervalsBefore(portfolio.intervals.get(m.meterId), untilMs);
+    if (s) series.set(m.meterId, s);
+  }
+  const shapes = new Map<string, number[] | null>();
+  const shapeOf = (meter: Meter): number[] | null => {
+    if (!shapes.has(meter.meterId)) {
+      const own = series.get(meter.meterId);
+      const donor = own ?? meters.filter((m) => m.commodity === meter.commodity).map((m) => series.get(m.meterId)).find((s) => s !== undefined);
+      shapes.set(meter.meterId, donor ? loadShapeByHourOfWeek(donor, building.timezone, untilMs) : null);
+    }
+    return shapes.get(meter.meterId)!;
+  };
+  return meters.map((meter) => {
+    const bills = billsKnownAt(portfolio.bills.filter((b) => b.meterId === meter.meterId), options.asOf);
+    const baseline = fitMeterBaseline({ meter, building, bills, weather, normals, tempUnit });
+    const tariff = portfolio.tariffs.get(meter.tariffId) ?? null;
+    return {
+      meter,
+      timezone: building.timezone,
+      tariff,
+      asOf: options.asOf,
+      months: options.months,
+      fit: baseline.fit,
+      typicalMonthlyTemp: baseline.typicalMonthlyTemp,
+      weatherYears: years,
+      bills,
+      intervals: series.get(meter.meterId) ?? null,
+      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? recentBillingDemands(meter, bills, tariff!, building.timezone, series.get(meter.meterId)) : [],
+      loadShapeByHourOfWeek: shapeOf(meter),
+      escalation: portfolio.settings.escalation[meter.commodity] ?? 0,
+      scenarios: options.scenarios,
+      seed: options.seed,
+      calibration: options.calibration,
+    };
+  });
+}
+
+/** Billing demands of the last 12 bills (oldest first), from re-pricing the known bills in order. */
+function recentBillingDemands(meter: Meter, bills: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined): number[] {
+  const priced = priceMeterBills({ meter, bills, timezone, series, price: (r) => priceBill(tariff, r) });
+  const ordered = [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
+  const demands: number[] = [];
+  for (const b of ordered) {
+    const d = priced.get(b.billId)?.computed?.billingDemandKw;
+    if (d !== null && d !== undefined) demands.push(d);
+  }
+  return demands.slice(-12);
+}

@@ -1,0 +1,58 @@
+/**
+ * Prices one forecast month of one meter as a bill whose period is the calendar month, through
+ * the tariff version(s) in force (the engine prorates a month that straddles a version change),
+ * then applies the escalation factor for months after the last version (escalation.ts).
+ *
+ * What the engine gets besides usage:
+ *   - interval meters with a month shape: the shape scaled to the usage (exact TOU and demand);
+ *   - otherwise measured demand = usage per day × the meter's kW per (unit per day), averaged
+ *     over its bills of the same calendar month (all bills when that month has none), and the
+ *     building's hour-of-week load shape for time-of-use splits (lines marked estimated);
+ *   - power factor: mean of the meter's last 12 bills that print one;
+ *   - ratchets: the billing demands of the meter's recent bills, then of the scenario's own
+ *     earlier forecast months.
+ */
+import type { Tariff } from "../tariff/model.ts";
+import { priceBill } from "../tariff/price.ts";
+import type { CalendarMonth } from "./months.ts";
+import { scaleShape, type MonthShape } from "./profile.ts";
+
+export interface MonthPricingContext {
+  tariff: Tariff;
+  timezone: string;
+  /** Meter's usage unit (bills). */
+  usageUnit: string;
+  month: CalendarMonth;
+  shape: MonthShape | null;
+  loadShapeByHourOfWeek: number[] | null;
+  /** kW of measured demand per (usage unit per day); null when bills print no demand. */
+  kwPerUsePerDay: number | null;
+  powerFactor: number | null;
+  escalationFactor: number;
+}
+
+export interface PricedMonth {
+  /** Priced total × escalation factor, currency. */
+  cost: number;
+  billingDemandKw: number | null;
+  /** True when every line was exact (interval-priced or no time-of-use split needed). */
+  exact: boolean;
+}
+
+/** Prices `usage` (meter unit) for the context's month. @throws PricingError from the engine. */
+export function priceForecastMonth(ctx: MonthPricingContext, usage: number, previousBillingDemandsKw: number[]): PricedMonth {
+  const { month } = ctx;
+  const bill = priceBill(ctx.tariff, {
+    periodStart: month.start,
+    periodEnd: month.end,
+    timezone: ctx.timezone,
+    usage,
+    usageUnit: ctx.usageUnit,
+    demandKw: ctx.shape || ctx.kwPerUsePerDay === null ? null : (ctx.kwPerUsePerDay * usage) / month.days,
+    powerFactor: ctx.powerFactor,
+    intervals: ctx.shape ? scaleShape(ctx.shape, usage) : null,
+    previousBillingDemandsKw,
+    loadShapeByHourOfWeek: ctx.shape ? null : ctx.loadShapeByHourOfWeek,
+  });
+  return { cost: bill.total * ctx.escalationFactor, billingDemandKw: bill.billingDemandKw, exact: bill.exact };
+}

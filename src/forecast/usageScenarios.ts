@@ -1,0 +1,150 @@
+/**
+ * Usage scenarios of one meter for the forecast months.
+ *
+ * With a change-point model (use per day vs mean temperature, fitted on bills weighted by
+ * billing days), scenario s of month k:
+ *
+ *   usePerDay = ŷ(T_s,k) + c · λ_s · ( z0_s · SEmean(T) + z_s,k · sqrt(SEpred(T)² − SEmean(T)²) )
+ *   usage     = max(0, usePerDay) · days in month
+ *
+ * T_s,k is the scenario temperature (weather year w = s mod W, see weatherYears.ts); SEpred and
+ * SEmean come from the fit's prediction interval for a period of that many days; z0 (shared by
+ * the scenario's months: the fitted line is uncertain as a whole) and z_s,k (each month's own
+ * scatter) are standard normals; λ_s = sqrt(df/V), V ~ χ²(n − p), makes each month's error a
+ * Student-t with n − p degrees of freedom scaled by SEpred — the model's own prediction
+ * interval; c is the calibration factor (1 = as the model says).
+ *
+ * Without a model (too few bills, no weather, no typical year) the fallback is the same
+ * calendar month's use per day averaged over the history (bills spread over months by days),
+ * with a relative scatter estimated from how that month varied between years (pooled over
+ * months; 10 % when no month was seen twice), drawn the same way.
+ */
+import type { Bill } from "../domain/types.ts";
+import type { ChangePointFit } from "../model/changePoint.ts";
+import type { CalendarMonth } from "./months.ts";
+import { spreadBillsByMonth } from "./months.ts";
+import { standardNormal, studentScale, type Uniform } from "./random.ts";
+
+/** Relative scatter assumed for the fallback when no calendar month appears in two years. */
+export const FALLBACK_DEFAULT_RELATIVE_SD = 0.1;
+
+export type UsageMethod = "change-point" | "same-month-average";
+
+export interface UsageScenarios {
+  method: UsageMethod;
+  /** usage[s][k]: scenario s, forecast month k, meter unit. */
+  usage: Float64Array[];
+  /** Weather year index used by each scenario (−1 without weather). */
+  weatherIndex: Int32Array;
+  /** Use per day at typical temperature (or the fallback average), per forecast month. */
+  typicalUsePerDay: number[];
+  /** Words for the page: how the noise was drawn. */
+  note: string;
+}
+
+export interface ModelUsageOptions {
+  fit: ChangePointFit;
+  /** Typical temperature per calendar month (index 0 = Jan), model unit. */
+  typicalMonthlyTemp: readonly number[];
+  /** Scenario temperature sets (each 12 monthly values), from scenarioTemperatures. */
+  temperatureSets: readonly (readonly number[])[];
+  months: readonly CalendarMonth[];
+  scenarios: number;
+  calibration: number;
+  rng: Uniform;
+}
+
+/** Usage scenarios from a change-point model (see the module comment for the formula). */
+export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
+  const { fit, months } = o;
+  const df = Math.max(1, fit.stats.n - fit.parameterCount);
+  const usage: Float64Array[] = [];
+  const weatherIndex = new Int32Array(o.scenarios);
+  for (let s = 0; s < o.scenarios; s++) {
+    const w = s % o.temperatureSets.length;
+    weatherIndex[s] = w;
+    const temps = o.temperatureSets[w]!;
+    const lambda = studentScale(o.rng, df);
+    const z0 = standardNormal(o.rng);
+    const row = new Float64Array(months.length);
+    months.forEach((m, k) => {
+      const t = temps[m.calendarMonth - 1]!;
+      const band = fit.predictWithInterval(t, 0.8, m.days);
+      const own = Math.sqrt(Math.max(0, band.sePrediction ** 2 - band.seMean ** 2));
+      const z = standardNormal(o.rng);
+      const perDay = band.fit + o.calibration * lambda * (z0 * band.seMean + z * own);
+      row[k] = Math.max(0, perDay) * m.days;
+    });
+    usage.push(row);
+  }
+  return {
+    method: "change-point",
+    usage,
+    weatherIndex,
+    typicalUsePerDay: months.map((m) => fit.predict(o.typicalMonthlyTemp[m.calendarMonth - 1]!)),
+    note: `${fit.kind} change-point model at ${o.temperatureSets.length} weather year(s); prediction noise Student-t with ${df} df × calibration ${o.calibration}`,
+  };
+}
+
+export interface FallbackUsageOptions {
+  bills: readonly Bill[];
+  months: readonly CalendarMonth[];
+  scenarios: number;
+  calibration: number;
+  rng: Uniform;
+}
+
+/**
+ * Same-calendar-month average use per day, with relative noise (see the module comment).
+ * Returns null when the meter has no usable bills at all.
+ */
+export function fallbackUsageScenarios(o: FallbackUsageOptions): UsageScenarios | null {
+  const spread = [...spreadBillsByMonth(o.bills, (b) => b.usage).values()].filter((m) => m.coveredDays >= 0.9 * m.days);
+  if (spread.length === 0) return null;
+  const byCalendar = new Map<number, number[]>();
+  for (const m of spread) {
+    const cm = Number(m.month.slice(5, 7));
+    const perDay = m.amount / m.coveredDays;
+    byCalendar.set(cm, [...(byCalendar.get(cm) ?? []), perDay]);
+  }
+  const all = spread.map((m) => m.amount / m.coveredDays);
+  const overall = all.reduce((a, b) => a + b, 0) / all.length;
+  const meanOf = (cm: number): number => {
+    const xs = byCalendar.get(cm);
+    return xs && xs.length > 0 ? xs.reduce((a, b) => a + b, 0) / xs.length : overall;
+  };
+  // Pooled relative deviation from each calendar month's mean, with one df lost per month mean.
+  let ss = 0;
+  let count = 0;
+  let groups = 0;
+  for (const [cm, xs] of byCalendar) {
+    if (xs.length < 2) continue;
+    groups++;
+    const mu = meanOf(cm);
+    for (const x of xs) {
+      if (mu > 0) {
+        ss += (x / mu - 1) ** 2;
+        count++;
+      }
+    }
+  }
+  const df = count - groups;
+  const relSd = df >= 1 ? Math.sqrt(ss / df) : FALLBACK_DEFAULT_RELATIVE_SD;
+  const usage: Float64Array[] = [];
+  for (let s = 0; s < o.scenarios; s++) {
+    const lambda = df >= 1 ? studentScale(o.rng, df) : 1;
+    const row = new Float64Array(o.months.length);
+    o.months.forEach((m, k) => {
+      const z = standardNormal(o.rng);
+      row[k] = Math.max(0, meanOf(m.calendarMonth) * (1 + o.calibration * lambda * relSd * z)) * m.days;
+    });
+    usage.push(row);
+  }
+  return {
+    method: "same-month-average",
+    usage,
+    weatherIndex: new Int32Array(o.scenarios).fill(-1),
+    typicalUsePerDay: o.months.map((m) => meanOf(m.calendarMonth)),
+    note: `no weather model: same calendar month's use per day averaged over the history; relative scatter ${(relSd * 100).toFixed(1)} %${df >= 1 ? ` (Student-t, ${df} df)` : " (assumed)"} × calibration ${o.calibration}`,
+  };
+}
