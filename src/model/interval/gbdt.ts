@@ -1,0 +1,322 @@
+/**
+ * Histogram-based gradient-boosted regression trees with squared-error (L2) loss
+ * (Friedman 2001, "Greedy function approximation: a gradient boosting machine"; the
+ * histogram split search of LightGBM, Ke et al. 2017). Each tree is grown depth-first on the
+ * negative gradients (residuals), leaves take the mean residual, shrunk by the learning rate.
+ *
+ * Options: shrinkage, maximum depth, minimum rows per leaf, ≤ 255 quantile bins per feature,
+ * seeded row subsampling, early stopping on a trailing validation block (time order).
+ */
+import { ModelInputError } from "../errors.ts";
+import { binColumn, binCuts } from "./gbdtBins.ts";
+import type { FeatureBins } from "./gbdtBins.ts";
+import { mulberry32 } from "./rng.ts";
+
+export interface GbdtOptions {
+  /** Number of boosting rounds (trees). Default 200. */
+  nTrees?: number;
+  /** Shrinkage applied to each tree's leaf values, in (0, 1]. Default 0.1. */
+  learningRate?: number;
+  /** Maximum tree depth (root = depth 0). Default 6. */
+  maxDepth?: number;
+  /** Minimum training rows in a leaf. Default 20. */
+  minSamplesLeaf?: number;
+  /** Bins per feature (2 … 255). Default 64. */
+  maxBins?: number;
+  /** L2 penalty on leaf values (λ in G²/(n + λ)). Default 0. */
+  l2Leaf?: number;
+  /** Fraction of rows drawn (without replacement) for each tree. Default 1 (no subsampling). */
+  subsample?: number;
+  /** Seed of the subsampling generator. Default 1. */
+  seed?: number;
+  /**
+   * Early stopping: the last `validationRows` rows (the latest in time when rows are in time
+   * order) are held out; boosting stops when their loss has not improved for `patience`
+   * rounds, and the model keeps the best round. With `refit` (default true) the model is then
+   * refitted on all rows with that many trees.
+   */
+  earlyStopping?: { validationRows: number; patience?: number; refit?: boolean };
+}
+
+/** One tree in flat arrays; node 0 is the root; feature −1 marks a leaf. */
+export interface GbdtTree {
+  feature: Int16Array;
+  /** Go left when x ≤ threshold (NaN goes right). */
+  threshold: Float64Array;
+  left: Int32Array;
+  right: Int32Array;
+  /** Leaf output, already multiplied by the learning rate. */
+  value: Float64Array;
+  /** Bin index of each split (the threshold is that bin's upper cut). */
+  splitBin: Int16Array;
+}
+
+export interface GbdtModel {
+  baseScore: number;
+  trees: GbdtTree[];
+  featureCount: number;
+  /** Training mean squared error after each round (before any refit: of the rows trained on). */
+  trainLoss: number[];
+  /** Validation mean squared error after each round, when early stopping was used. */
+  validationLoss: number[] | null;
+  /** Number of trees kept. */
+  bestIteration: number;
+  /** Predict for feature columns (same order as in training). */
+  predict(columns: readonly ArrayLike<number>[]): Float64Array;
+}
+
+function resolve(o: GbdtOptions): Required<Omit<GbdtOptions, "earlyStopping">> {
+  const r = {
+    nTrees: o.nTrees ?? 200,
+    learningRate: o.learningRate ?? 0.1,
+    maxDepth: o.maxDepth ?? 6,
+    minSamplesLeaf: o.minSamplesLeaf ?? 20,
+    maxBins: o.maxBins ?? 64,
+    l2Leaf: o.l2Leaf ?? 0,
+    subsample: o.subsample ?? 1,
+    seed: o.seed ?? 1,
+  };
+  if (!(Number.isInteger(r.nTrees) && r.nTrees >= 1)) throw new ModelInputError(`nTrees must be a positive integer, got ${r.nTrees}`);
+  if (!(r.learningRate > 0 && r.learningRate <= 1)) throw new ModelInputError(`learningRate must be in (0, 1], got ${r.learningRate}`);
+  if (!(Number.isInteger(r.maxDepth) && r.maxDepth >= 1 && r.maxDepth <= 16)) throw new ModelInputError(`maxDepth must be an integer in 1 … 16, got ${r.maxDepth}`);
+  if (!(Number.isInteger(r.minSamplesLeaf) && r.minSamplesLeaf >= 1)) throw new ModelInputError(`minSamplesLeaf must be a positive integer, got ${r.minSamplesLeaf}`);
+  if (!(r.l2Leaf >= 0)) throw new ModelInputError(`l2Leaf must be ≥ 0, got ${r.l2Leaf}`);
+  if (!(r.subsample > 0 && r.subsample <= 1)) throw new ModelInputError(`subsample must be in (0, 1], got ${r.subsample}`);
+  return r;
+}
+
+/**
+ * Fit gradient-boosted trees to y from feature columns.
+ * @param columns one array per feature, each of y's length (finite values expected; NaN goes right).
+ * @throws ModelInputError on bad options, ragged columns, non-finite y, or no rows.
+ * @example fitGbdt([x], y, { nTrees: 100 }).predict([x])
+ */
+export function fitGbdt(columns: readonly ArrayLike<number>[], y: ArrayLike<number>, options: GbdtOptions = {}): GbdtModel {
+  const o = resolve(options);
+  const n = y.length;
+  if (n === 0) throw new ModelInputError("gradient boosting needs at least one row");
+  if (columns.length === 0) throw new ModelInputError("gradient boosting needs at least one feature");
+  for (const [j, c] of columns.entries()) if (c.length !== n) throw new ModelInputError(`feature ${j} has ${c.length} rows, y has ${n}`);
+  for (let i = 0; i < n; i++) if (!Number.isFinite(y[i]!)) throw new ModelInputError(`y[${i}] is not a finite number`);
+
+  const es = options.earlyStopping;
+  if (!es) return boost(columns, y, n, o, null, o.nTrees);
+  const nVal = es.validationRows;
+  if (!(Number.isInteger(nVal) && nVal >= 1 && nVal < n)) throw new ModelInputError(`validationRows must be an integer in 1 … ${n - 1}, got ${nVal}`);
+  const nTrain = n - nVal;
+  const first = boost(columns, y, nTrain, o, { patience: es.patience ?? 20 }, o.nTrees);
+  if (es.refit === false) return first;
+  const refit = boost(columns, y, n, o, null, first.bestIteration);
+  return { ...refit, validationLoss: first.validationLoss };
+}
+
+/** Boost on rows 0 … nTrain − 1; with `stop`, rows nTrain … end are the validation block. */
+function boost(
+  columns: readonly ArrayLike<number>[],
+  y: ArrayLike<number>,
+  nTrain: number,
+  o: ReturnType<typeof resolve>,
+  stop: { patience: number } | null,
+  nTrees: number,
+): GbdtModel {
+  const n = y.length;
+  const f = columns.length;
+  const trainCols = columns.map((c) => Array.prototype.slice.call(c, 0, nTrain) as number[]);
+  const bins: FeatureBins[] = trainCols.map((c) => binCuts(c, o.maxBins));
+  const binned = columns.map((c, j) => binColumn(bins[j]!, c));
+  const nb = o.maxBins + 1; // NaN bin included
+  let base = 0;
+  for (let i = 0; i < nTrain; i++) base += y[i]!;
+  base /= nTrain;
+  const pred = new Float64Array(n).fill(base);
+  const grad = new Float64Array(nTrain);
+  const trees: GbdtTree[] = [];
+  const trainLoss: number[] = [];
+  const validationLoss: number[] | null = stop ? [] : null;
+  let best = 0;
+  let bestLoss = Number.POSITIVE_INFINITY;
+  const rand = mulberry32(o.seed);
+  const all = new Int32Array(nTrain);
+  for (let i = 0; i < nTrain; i++) all[i] = i;
+  const sampleSize = Math.max(1, Math.round(o.subsample * nTrain));
+  const histG = new Float64Array(f * nb);
+  const histN = new Float64Array(f * nb);
+
+  for (let t = 0; t < nTrees; t++) {
+    for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!; // negative gradient of ½(y − ŷ)²
+    let rows: Int32Array;
+    if (sampleSize < nTrain) {
+      // partial Fisher–Yates: the first sampleSize entries become a uniform sample
+      const perm = Int32Array.from(all);
+      for (let i = 0; i < sampleSize; i++) {
+        const j = i + Math.floor(rand() * (nTrain - i));
+        const tmp = perm[i]!;
+        perm[i] = perm[j]!;
+        perm[j] = tmp;
+      }
+      rows = perm.subarray(0, sampleSize);
+    } else rows = Int32Array.from(all);
+    const tree = growTree(rows, grad, binned, bins, o, histG, histN, nb);
+    trees.push(tree);
+    for (let i = 0; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
+    let sse = 0;
+    for (let i = 0; i < nTrain; i++) sse += (y[i]! - pred[i]!) ** 2;
+    trainLoss.push(sse / nTrain);
+    if (stop && validationLoss) {
+      let v = 0;
+      for (let i = nTrain; i < n; i++) v += (y[i]! - pred[i]!) ** 2;
+      v /= n - nTrain;
+      validationLoss.push(v);
+      if (v < bestLoss) {
+        bestLoss = v;
+        best = t + 1;
+      } else if (t + 1 - best >= stop.patience) break;
+    }
+  }
+  const kept = stop ? trees.slice(0, Math.max(best, 1)) : trees;
+  return {
+    baseScore: base,
+    trees: kept,
+    featureCount: f,
+    trainLoss,
+    validationLoss,
+    bestIteration: kept.length,
+    predict: (cols) => predictTrees(base, kept, cols, f),
+  };
+}
+
+interface NodeTask {
+  node: number;
+  start: number;
+  end: number;
+  depth: number;
+}
+
+function growTree(
+  rows: Int32Array,
+  grad: Float64Array,
+  binned: Uint8Array[],
+  bins: FeatureBins[],
+  o: ReturnType<typeof resolve>,
+  histG: Float64Array,
+  histN: Float64Array,
+  nb: number,
+): GbdtTree {
+  const feature: number[] = [];
+  const threshold: number[] = [];
+  const splitBin: number[] = [];
+  const left: number[] = [];
+  const right: number[] = [];
+  const value: number[] = [];
+  const newNode = (): number => {
+    feature.push(-1);
+    threshold.push(0);
+    splitBin.push(-1);
+    left.push(-1);
+    right.push(-1);
+    value.push(0);
+    return feature.length - 1;
+  };
+  const f = binned.length;
+  const stack: NodeTask[] = [{ node: newNode(), start: 0, end: rows.length, depth: 0 }];
+  while (stack.length) {
+    const { node, start, end, depth } = stack.pop()!;
+    const count = end - start;
+    let gSum = 0;
+    for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
+    value[node] = (o.learningRate * gSum) / (count + o.l2Leaf);
+    if (depth >= o.maxDepth || count < 2 * o.minSamplesLeaf) continue;
+    histG.fill(0);
+    histN.fill(0);
+    for (let j = 0; j < f; j++) {
+      const col = binned[j]!;
+      const off = j * nb;
+      for (let r = start; r < end; r++) {
+        const i = rows[r]!;
+        const b = off + col[i]!;
+        histG[b]! += grad[i]!;
+        histN[b]!++;
+      }
+    }
+    const parentScore = (gSum * gSum) / (count + o.l2Leaf);
+    let bestGain = 1e-12 * Math.max(parentScore, 1e-300);
+    let bestF = -1;
+    let bestBin = -1;
+    for (let j = 0; j < f; j++) {
+      const off = j * nb;
+      const nCuts = bins[j]!.cuts.length;
+      let gl = 0;
+      let nl = 0;
+      for (let b = 0; b < nCuts; b++) {
+        gl += histG[off + b]!;
+        nl += histN[off + b]!;
+        const nr = count - nl;
+        if (nl < o.minSamplesLeaf) continue;
+        if (nr < o.minSamplesLeaf) break;
+        const gr = gSum - gl;
+        const gain = (gl * gl) / (nl + o.l2Leaf) + (gr * gr) / (nr + o.l2Leaf) - parentScore;
+        if (gain > bestGain) {
+          bestGain = gain;
+          bestF = j;
+          bestBin = b;
+        }
+      }
+    }
+    if (bestF < 0) continue;
+    // partition rows[start, end) in place: bin ≤ bestBin first
+    const col = binned[bestF]!;
+    let i = start;
+    let k = end - 1;
+    while (i <= k) {
+      if (col[rows[i]!]! <= bestBin) i++;
+      else {
+        const tmp = rows[i]!;
+        rows[i] = rows[k]!;
+        rows[k] = tmp;
+        k--;
+      }
+    }
+    feature[node] = bestF;
+    threshold[node] = bins[bestF]!.cuts[bestBin]!;
+    splitBin[node] = bestBin;
+    const l = newNode();
+    const r = newNode();
+    left[node] = l;
+    right[node] = r;
+    stack.push({ node: r, start: i, end, depth: depth + 1 }, { node: l, start, end: i, depth: depth + 1 });
+  }
+  return {
+    feature: Int16Array.from(feature),
+    threshold: Float64Array.from(threshold),
+    left: Int32Array.from(left),
+    right: Int32Array.from(right),
+    value: Float64Array.from(value),
+    splitBin: Int16Array.from(splitBin),
+  };
+}
+
+/** Leaf value for row i, walking by bins (bin ≤ splitBin ⇔ x ≤ threshold). */
+function leafValueBinned(tree: GbdtTree, binned: Uint8Array[], i: number): number {
+  let node = 0;
+  while (tree.feature[node]! >= 0) {
+    node = binned[tree.feature[node]!]![i]! <= tree.splitBin[node]! ? tree.left[node]! : tree.right[node]!;
+  }
+  return tree.value[node]!;
+}
+
+function predictTrees(base: number, trees: GbdtTree[], cols: readonly ArrayLike<number>[], f: number): Float64Array {
+  if (cols.length !== f) throw new ModelInputError(`model was trained on ${f} features, got ${cols.length}`);
+  const n = cols[0]!.length;
+  const out = new Float64Array(n).fill(base);
+  for (const tree of trees) {
+    for (let i = 0; i < n; i++) {
+      let node = 0;
+      while (tree.feature[node]! >= 0) {
+        const x = cols[tree.feature[node]!]![i]!;
+        node = x <= tree.threshold[node]! ? tree.left[node]! : tree.right[node]!;
+      }
+      out[i]! += tree.value[node]!;
+    }
+  }
+  return out;
+}
