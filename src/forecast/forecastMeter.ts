@@ -13,7 +13,7 @@ import type { Tariff } from "../tariff/model.ts";
 import { addDays, localMidnightMs } from "../core/time.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { monthsAfter, type CalendarMonth } from "./months.ts";
-import { escalationFactorForMonth } from "./escalation.ts";
+import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
 import { scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
 import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
 import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
@@ -79,7 +79,7 @@ export interface MeterForecast {
   scenarioCosts: Float64Array[];
   /** Weather-year index of each scenario (−1 = no weather). */
   weatherIndex: Int32Array;
-  /** Calendar month of the last tariff version's start, the escalation base. */
+  /** Date escalation compounds from: the later of the last tariff version's start and the day after as-of. */
   escalationFrom: string | null;
   notes: string[];
   /** Why the meter has no forecast (no tariff, no bills, pricing failed); null when it has one. */
@@ -108,7 +108,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
     notes: [],
     error: null,
   };
-  const usage = usageScenariosFor(input, months, scenarios, calibration);
+  const usage = meterUsageScenarios(input, months, scenarios, calibration);
   if (!usage) return { ...base, error: "no bills to forecast from" };
   base.method = usage.method;
   base.weatherIndex = usage.weatherIndex;
@@ -116,9 +116,8 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
   const tariff = input.tariff;
   if (!tariff || tariff.versions.length === 0) return { ...base, error: `tariff '${input.meter.tariffId}' is not available`, ...usageOnly(usage, months) };
 
-  const contexts = pricingContexts(input, tariff, months);
-  const lastFrom = tariff.versions[tariff.versions.length - 1]!.from;
-  base.escalationFrom = lastFrom;
+  const contexts = meterPricingContexts(input, tariff, months);
+  base.escalationFrom = escalationBase(tariff.versions[tariff.versions.length - 1]!.from, input.asOf);
   if (contexts.some((c) => c.shape)) {
     base.notes.push(`interval shape: same calendar month ${contexts.find((c) => c.shape)!.shape!.weeksBack} weeks earlier, scaled to each scenario's usage`);
   }
@@ -156,7 +155,8 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
   };
 }
 
-function usageScenariosFor(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
+/** The meter's usage scenarios (model or fallback), seeded per meter so every call draws the same numbers. */
+export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
   const rng = mulberry32(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
   if (input.fit && input.typicalMonthlyTemp) {
     return modelUsageScenarios({
@@ -186,12 +186,13 @@ function usageOnly(usage: UsageScenarios, months: CalendarMonth[]): Pick<MeterFo
   };
 }
 
-function pricingContexts(input: MeterForecastInput, tariff: Tariff, months: CalendarMonth[]): MonthPricingContext[] {
+/** How each forecast month of the meter is priced (shape, demand ratio, power factor, escalation). */
+export function meterPricingContexts(input: MeterForecastInput, tariff: Tariff, months: CalendarMonth[]): MonthPricingContext[] {
   // Interval readings after the as-of day are not used (a backtest must not see its future).
   const untilMs = localMidnightMs(addDays(input.asOf, 1), input.timezone);
   const kw = kwPerUsePerDayByMonth(input.bills);
   const pf = recentPowerFactor(input.bills);
-  const lastFrom = tariff.versions[tariff.versions.length - 1]!.from;
+  const escalationFrom = escalationBase(tariff.versions[tariff.versions.length - 1]!.from, input.asOf);
   return months.map((m) => {
     const shape: MonthShape | null = input.intervals ? monthShapeFromIntervals(input.intervals, input.timezone, m, untilMs) : null;
     return {
@@ -203,7 +204,7 @@ function pricingContexts(input: MeterForecastInput, tariff: Tariff, months: Cale
       loadShapeByHourOfWeek: input.loadShapeByHourOfWeek ?? null,
       kwPerUsePerDay: kw ? kw[m.calendarMonth - 1]! : null,
       powerFactor: pf,
-      escalationFactor: escalationFactorForMonth(input.escalation, lastFrom, m),
+      escalationFactor: escalationFactorForMonth(input.escalation, escalationFrom, m),
     };
   });
 }

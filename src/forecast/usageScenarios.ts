@@ -60,19 +60,24 @@ export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
   const df = Math.max(1, fit.stats.n - fit.parameterCount);
   const usage: Float64Array[] = [];
   const weatherIndex = new Int32Array(o.scenarios);
+  // Each month sees only as many temperatures as there are weather years: compute the
+  // prediction interval once per (weather year, month).
+  const bands = o.temperatureSets.map((temps) =>
+    months.map((m) => {
+      const band = fit.predictWithInterval(temps[m.calendarMonth - 1]!, 0.8, m.days);
+      return { fit: band.fit, seMean: band.seMean, own: Math.sqrt(Math.max(0, band.sePrediction ** 2 - band.seMean ** 2)) };
+    }),
+  );
   for (let s = 0; s < o.scenarios; s++) {
     const w = s % o.temperatureSets.length;
     weatherIndex[s] = w;
-    const temps = o.temperatureSets[w]!;
     const lambda = studentScale(o.rng, df);
     const z0 = standardNormal(o.rng);
     const row = new Float64Array(months.length);
     months.forEach((m, k) => {
-      const t = temps[m.calendarMonth - 1]!;
-      const band = fit.predictWithInterval(t, 0.8, m.days);
-      const own = Math.sqrt(Math.max(0, band.sePrediction ** 2 - band.seMean ** 2));
+      const band = bands[w]![k]!;
       const z = standardNormal(o.rng);
-      const perDay = band.fit + o.calibration * lambda * (z0 * band.seMean + z * own);
+      const perDay = band.fit + o.calibration * lambda * (z0 * band.seMean + z * band.own);
       row[k] = Math.max(0, perDay) * m.days;
     });
     usage.push(row);

@@ -1,0 +1,211 @@
+/**
+ * Track record: the forecast made as of one year before the last data, against what the bills
+ * then cost.
+ *
+ * - Backtest as-of = as-of − 12 months. Bills ending after it (+1 day), weather and interval
+ *   readings after it are not used; the baseline is refitted (portfolioInputs.ts).
+ * - Actual monthly cost: billed totals (bills up to the real as-of) spread over calendar months
+ *   by days; a re-issued statement with the same period counts once. Only forecast months the
+ *   bills cover completely are compared.
+ * - Naive forecast ("same month last year"): the cost per day of the same calendar month a year
+ *   earlier, from the bills known at the backtest as-of, × the month's days (a month at least
+ *   half covered by those bills is enough; otherwise that month has no naive value).
+ * - Model annual forecast: the median over scenarios of the scenario's cost summed over the
+ *   compared months (not the sum of monthly medians).
+ * Metrics: accuracy.ts. Naive metrics are computed over the compared months that have a naive
+ * value; the month counts are reported with them.
+ */
+import type { Bill, Portfolio } from "../domain/types.ts";
+import type { Tariff } from "../tariff/model.ts";
+import { forecastMeter, type MeterForecast, type MeterForecastInput } from "./forecastMeter.ts";
+import { billsKnownAt, buildingForecastInputs } from "./portfolioInputs.ts";
+import { minusMonths, shiftMonth, spreadBillsByMonth } from "./months.ts";
+import { annualErrorPct, coverageShare, cvRmsePct } from "./accuracy.ts";
+import { bandOf, type Band } from "./quantiles.ts";
+
+export interface MonthComparison {
+  month: string;
+  actualCost: number;
+  forecastCost: Band;
+  naiveCost: number | null;
+  inside: boolean;
+}
+
+export interface AccuracySummary {
+  /** Months compared. */
+  months: number;
+  forecastTotal: number;
+  actualTotal: number;
+  annualErrorPct: number;
+  cvRmsePct: number;
+  /** Share (0–1) of months inside P10–P90; null for the naive forecast (it has no band). */
+  coverage: number | null;
+}
+
+export interface MeterTrackRecord {
+  meterId: string;
+  buildingId: string;
+  comparisons: MonthComparison[];
+  model: AccuracySummary | null;
+  naive: AccuracySummary | null;
+  /** Why there is no comparison (no forecast, no complete actual month), else null. */
+  note: string | null;
+}
+
+export interface TrackRecord {
+  /** The real as-of and the backtest's (12 months earlier). */
+  asOf: string;
+  backtestAsOf: string;
+  calibration: number;
+  meters: MeterTrackRecord[];
+  buildings: { buildingId: string; model: AccuracySummary | null; naive: AccuracySummary | null }[];
+  overall: { model: AccuracySummary | null; naive: AccuracySummary | null; meanAbsAnnualErrorPct: { model: number | null; naive: number | null } };
+}
+
+/** Billed cost per calendar month (bills spread by days), of the bills known at `asOf`. */
+export function actualMonthlyCost(bills: readonly Bill[], asOf: string): Map<string, { cost: number; complete: boolean; coveredDays: number; days: number }> {
+  const out = new Map<string, { cost: number; complete: boolean; coveredDays: number; days: number }>();
+  for (const [month, s] of spreadBillsByMonth(billsKnownAt(bills, asOf), (b) => b.total)) {
+    out.set(month, { cost: s.amount, complete: s.coveredDays >= s.days, coveredDays: s.coveredDays, days: s.days });
+  }
+  return out;
+}
+
+/**
+ * Naive cost of `month`: same month a year earlier, per day × days, from bills known at
+ * `knownAsOf` (null when under half of that month is covered).
+ * @example a year-earlier January billed 3,100 over its 31 days → 3,100 for this January
+ */
+export function naiveSameMonthLastYear(bills: readonly Bill[], knownAsOf: string, month: string, days: number): number | null {
+  const prior = actualMonthlyCost(bills, knownAsOf).get(shiftMonth(month, -12));
+  if (!prior || prior.coveredDays < 0.5 * prior.days) return null;
+  return (prior.cost / prior.coveredDays) * days;
+}
+
+/** Compares one meter's backtest forecast with its actual bills (see the module comment). */
+export function compareWithActuals(forecast: MeterForecast, allBills: readonly Bill[], asOf: string, backtestAsOf: string): MeterTrackRecord {
+  const base = { meterId: forecast.meterId, buildingId: forecast.buildingId, comparisons: [], model: null, naive: null };
+  if (forecast.error !== null) return { ...base, note: `no forecast: ${forecast.error}` };
+  const actual = actualMonthlyCost(allBills, asOf);
+  const comparisons: MonthComparison[] = [];
+  const indices: number[] = [];
+  forecast.months.forEach((m, k) => {
+    const a = actual.get(m.month);
+    if (!a || !a.complete) return;
+    const days = a.days;
+    const naive = naiveSameMonthLastYear(allBills, backtestAsOf, m.month, days);
+    comparisons.push({ month: m.month, actualCost: a.cost, forecastCost: m.cost, naiveCost: naive, inside: a.cost >= m.cost.p10 && a.cost <= m.cost.p90 });
+    indices.push(k);
+  });
+  if (comparisons.length === 0) return { ...base, note: "no forecast month is completely covered by later bills" };
+  const scenarioSums = forecast.scenarioCosts.map((row) => indices.reduce((s, k) => s + row[k]!, 0));
+  const model = summarize(
+    comparisons.map((c) => c.actualCost),
+    comparisons.map((c) => c.forecastCost.p50),
+    bandOf(scenarioSums).p50,
+    comparisons.map((c) => c.forecastCost),
+  );
+  const withNaive = comparisons.filter((c) => c.naiveCost !== null);
+  const naive = withNaive.length > 0
+    ? summarize(withNaive.map((c) => c.actualCost), withNaive.map((c) => c.naiveCost!), withNaive.reduce((s, c) => s + c.naiveCost!, 0), null)
+    : null;
+  return { ...base, comparisons, model, naive, note: null };
+}
+
+function summarize(actual: number[], forecast: number[], forecastTotal: number, bands: Band[] | null): AccuracySummary | null {
+  const actualTotal = actual.reduce((a, b) => a + b, 0);
+  if (!(actualTotal > 0)) return null;
+  return {
+    months: actual.length,
+    forecastTotal,
+    actualTotal,
+    annualErrorPct: annualErrorPct(forecastTotal, actualTotal),
+    cvRmsePct: cvRmsePct(actual, forecast),
+    coverage: bands ? coverageShare(actual, bands) : null,
+  };
+}
+
+/**
+ * Pools several meters' comparisons: totals are summed (the model's per-meter medians are
+ * added, the building's own scenario sum is not recomputed), CV(RMSE) is over the months every
+ * meter compared (summed per month), coverage is the share of all meter-months inside.
+ */
+export function pooledAccuracy(records: readonly MeterTrackRecord[], which: "model" | "naive"): AccuracySummary | null {
+  const usable = records.filter((r) => r[which] !== null);
+  if (usable.length === 0) return null;
+  const actualTotal = usable.reduce((s, r) => s + r[which]!.actualTotal, 0);
+  const forecastTotal = usable.reduce((s, r) => s + r[which]!.forecastTotal, 0);
+  const common = usable
+    .map((r) => new Set(r.comparisons.filter((c) => which === "model" || c.naiveCost !== null).map((c) => c.month)))
+    .reduce((a, b) => new Set([...a].filter((m) => b.has(m))));
+  const months = [...common].sort();
+  const a = months.map((m) => usable.reduce((s, r) => s + r.comparisons.find((c) => c.month === m)!.actualCost, 0));
+  const f = months.map((m) =>
+    usable.reduce((s, r) => {
+      const c = r.comparisons.find((x) => x.month === m)!;
+      return s + (which === "model" ? c.forecastCost.p50 : c.naiveCost!);
+    }, 0),
+  );
+  const all = usable.flatMap((r) => r.comparisons);
+  return {
+    months: months.length,
+    forecastTotal,
+    actualTotal,
+    annualErrorPct: annualErrorPct(forecastTotal, actualTotal),
+    cvRmsePct: months.length > 0 ? cvRmsePct(a, f) : NaN,
+    coverage: which === "model" ? all.filter((c) => c.inside).length / all.length : null,
+  };
+}
+
+export interface TrackRecordOptions {
+  /** The real as-of (last day of data). */
+  asOf: string;
+  /** Months compared (12). */
+  months?: number;
+  scenarios?: number;
+  seed?: number;
+  calibration?: number;
+}
+
+/** The backtest as-of: one year before `asOf`. @example backtestAsOf("2025-12-31") // "2024-12-31" */
+export function backtestAsOf(asOf: string): string {
+  return minusMonths(asOf, 12);
+}
+
+/** Every meter's forecast inputs as of the backtest date. */
+export function backtestInputs(portfolio: Portfolio<Tariff>, options: TrackRecordOptions): MeterForecastInput[] {
+  const asOf = backtestAsOf(options.asOf);
+  return portfolio.buildings.flatMap((b) =>
+    buildingForecastInputs(portfolio, b, { asOf, months: options.months ?? 12, scenarios: options.scenarios, seed: options.seed, calibration: options.calibration }),
+  );
+}
+
+/**
+ * The track record of the whole portfolio (see the module comment); `inputs` may be passed to
+ * reuse backtest inputs already built (e.g. by calibrateNoise).
+ * @example trackRecord(portfolio, { asOf: "2025-12-31" }).overall.model?.annualErrorPct
+ */
+export function trackRecord(portfolio: Portfolio<Tariff>, options: TrackRecordOptions, inputs = backtestInputs(portfolio, options)): TrackRecord {
+  const bt = backtestAsOf(options.asOf);
+  const calibration = options.calibration ?? 1;
+  const meters = inputs.map((input) => {
+    const forecast = forecastMeter({ ...input, calibration });
+    return compareWithActuals(forecast, portfolio.bills.filter((b) => b.meterId === input.meter.meterId), options.asOf, bt);
+  });
+  const buildings = portfolio.buildings.map((b) => {
+    const own = meters.filter((m) => m.buildingId === b.buildingId);
+    return { buildingId: b.buildingId, model: pooledAccuracy(own, "model"), naive: pooledAccuracy(own, "naive") };
+  });
+  const meanAbs = (which: "model" | "naive"): number | null => {
+    const xs = meters.map((m) => m[which]?.annualErrorPct).filter((x): x is number => x !== undefined);
+    return xs.length > 0 ? xs.reduce((s, x) => s + Math.abs(x), 0) / xs.length : null;
+  };
+  return {
+    asOf: options.asOf,
+    backtestAsOf: bt,
+    calibration,
+    meters,
+    buildings,
+    overall: { model: pooledAccuracy(meters, "model"), naive: pooledAccuracy(meters, "naive"), meanAbsAnnualErrorPct: { model: meanAbs("model"), naive: meanAbs("naive") } },
+  };
+}
