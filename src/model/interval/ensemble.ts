@@ -1,0 +1,127 @@
+/**
+ * Ensemble of hourly models by a generalized weighted mean ŷ = (Σ wᵢ ŷᵢ^p)^(1/p), with the
+ * weights (a simplex grid) and the exponent chosen on the cross-validation folds' predictions.
+ * The ensemble is used only when it beats the best single model on those folds by at least
+ * `minGainPct` (relative): the grid contains every single model, so without a margin it could
+ * "win" by noise-fitting alone.
+ */
+import { ModelInputError } from "../errors.ts";
+import { generalizedWeightedMean } from "./generalizedMean.ts";
+
+export interface EnsembleSearchOptions {
+  /** Exponents tried. Default [−1, 0, 0.5, 1, 2] (harmonic, geometric, …, quadratic). */
+  exponents?: readonly number[];
+  /** Weight grid step; weights are multiples of it summing to 1. Default 0.1. */
+  weightStep?: number;
+  /** Minimum relative CV(RMSE) gain over the best single model, percent. Default 1. */
+  minGainPct?: number;
+}
+
+export interface EnsembleChoice {
+  kinds: string[];
+  weights: number[];
+  exponent: number;
+  /** Out-of-sample CV(RMSE), % (n in the denominator) of the ensemble on the folds. */
+  cvRmsePct: number;
+  bestSingleKind: string;
+  bestSingleCvRmsePct: number;
+  /** (best single − ensemble) / best single, percent; positive = the ensemble is better. */
+  gainPct: number;
+  /** Whether the ensemble beat the best single model by at least minGainPct. */
+  used: boolean;
+}
+
+/**
+ * Weight vectors on the simplex with the given step, e.g. m = 2, step 0.5 → [1,0], [0.5,0.5], [0,1].
+ * @example simplexGrid(2, 0.5).length // 3
+ */
+export function simplexGrid(m: number, step: number): number[][] {
+  const parts = Math.round(1 / step);
+  if (!(parts >= 1 && Math.abs(parts * step - 1) < 1e-9)) throw new ModelInputError(`weight step must divide 1, got ${step}`);
+  const out: number[][] = [];
+  const rec = (prefix: number[], left: number): void => {
+    if (prefix.length === m - 1) {
+      out.push([...prefix, left].map((k) => k / parts));
+      return;
+    }
+    for (let k = left; k >= 0; k--) rec([...prefix, k], left - k);
+  };
+  if (m >= 1) rec([], parts);
+  return out;
+}
+
+/**
+ * Combine rows of member predictions with one weight vector and exponent. Predictions at or
+ * below `floor` are raised to it first (power means with p ≤ 0 need positive values).
+ */
+export function combinePredictions(members: readonly ArrayLike<number>[], weights: readonly number[], exponent: number, floor: number): Float64Array {
+  const n = members[0]?.length ?? 0;
+  const out = new Float64Array(n);
+  const v = new Float64Array(members.length);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < members.length; j++) v[j] = exponent === 1 ? members[j]![i]! : Math.max(members[j]![i]!, floor);
+    out[i] = generalizedWeightedMean(v, weights, exponent);
+  }
+  return out;
+}
+
+function cvRmseN(actual: ArrayLike<number>, pred: ArrayLike<number>, mean: number): number {
+  let s = 0;
+  for (let i = 0; i < actual.length; i++) s += (actual[i]! - pred[i]!) ** 2;
+  return (100 * Math.sqrt(s / actual.length)) / mean;
+}
+
+/**
+ * Grid search of weights and exponent on aligned fold predictions.
+ * @param actual the measured values of the validation rows.
+ * @param members each model's predictions on the same rows.
+ * @throws ModelInputError with no members, misaligned lengths, or a zero mean.
+ * @example searchEnsemble(actual, [towtPred, gbdtPred], ["towt", "gbdt"]).used
+ */
+export function searchEnsemble(
+  actual: ArrayLike<number>,
+  members: readonly ArrayLike<number>[],
+  kinds: readonly string[],
+  options: EnsembleSearchOptions = {},
+): EnsembleChoice {
+  const m = members.length;
+  if (m === 0 || kinds.length !== m) throw new ModelInputError("ensemble search needs at least one member and a kind for each");
+  for (const p of members) if (p.length !== actual.length) throw new ModelInputError("member predictions and actual values differ in length");
+  let mean = 0;
+  for (let i = 0; i < actual.length; i++) mean += actual[i]!;
+  mean /= actual.length;
+  if (!(mean !== 0 && Number.isFinite(mean))) throw new ModelInputError("CV(RMSE) undefined: mean of the validation values is 0");
+  // floor for power means: a tiny share of the mean keeps logs finite without moving real values
+  const floor = Math.abs(mean) * 1e-6;
+  let bestSingle = 0;
+  const single = members.map((p) => cvRmseN(actual, p, mean));
+  single.forEach((v, j) => {
+    if (v < single[bestSingle]!) bestSingle = j;
+  });
+  let best: { weights: number[]; exponent: number; cv: number } = {
+    weights: members.map((_, j) => (j === bestSingle ? 1 : 0)),
+    exponent: 1,
+    cv: single[bestSingle]!,
+  };
+  const exponents = options.exponents ?? [-1, 0, 0.5, 1, 2];
+  for (const w of simplexGrid(m, options.weightStep ?? 0.1)) {
+    if (w.filter((x) => x > 0).length < 2) continue; // single models are scored above
+    for (const e of exponents) {
+      const cv = cvRmseN(actual, combinePredictions(members, w, e, floor), mean);
+      if (cv < best.cv) best = { weights: w, exponent: e, cv };
+    }
+  }
+  // an exact single model (CV(RMSE) = 0) cannot be beaten: gain 0 rather than 0/0
+  const gainPct = single[bestSingle]! > 0 ? (100 * (single[bestSingle]! - best.cv)) / single[bestSingle]! : 0;
+  const used = best.weights.filter((x) => x > 0).length >= 2 && gainPct >= (options.minGainPct ?? 1);
+  return {
+    kinds: [...kinds],
+    weights: best.weights,
+    exponent: best.exponent,
+    cvRmsePct: best.cv,
+    bestSingleKind: kinds[bestSingle]!,
+    bestSingleCvRmsePct: single[bestSingle]!,
+    gainPct,
+    used,
+  };
+}

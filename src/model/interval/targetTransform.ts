@@ -1,0 +1,75 @@
+/**
+ * Target transforms that wrap any hourly model: fit on a transformed target, predict back
+ * on the original scale.
+ * - log1p: fit log(1 + y), predict expm1(ŷ). Back-transforming a mean of logs gives something
+ *   close to a median, which is biased low for a right-skewed load; the optional smearing
+ *   factor of Duan (1983, JASA 78(383)) multiplies exp(ŷ) by the mean of exp(training residual).
+ * - per floor area: fit y / area, predict ŷ · area (an energy use intensity per hour); neutral
+ *   for a single meter's own model, it puts buildings on one scale in pooled models.
+ */
+import { ModelInputError } from "../errors.ts";
+import type { FittedHourlyModel, HourlyFrame, HourlyModelSpec } from "./types.ts";
+
+export interface Log1pOptions {
+  /** Apply Duan's smearing correction to the back-transform. Default false (median-like predictions). */
+  smearing?: boolean;
+}
+
+/**
+ * Wrap a model so it fits log1p(y) and predicts expm1(ŷ) (optionally smearing-corrected).
+ * @throws ModelInputError (at fit) when some y ≤ −1.
+ * @example withLog1pTarget(gbdtSpec()).kind // "gbdt+log1p"
+ */
+export function withLog1pTarget(spec: HourlyModelSpec, options: Log1pOptions = {}): HourlyModelSpec {
+  const kind = `${spec.kind}+log1p${options.smearing ? "-smearing" : ""}`;
+  return {
+    kind,
+    fit(train: HourlyFrame): FittedHourlyModel {
+      const z = new Float64Array(train.kwh.length);
+      for (let i = 0; i < z.length; i++) {
+        if (!(train.kwh[i]! > -1)) throw new ModelInputError(`log1p target needs values > −1, got ${train.kwh[i]} at row ${i}`);
+        z[i] = Math.log1p(train.kwh[i]!);
+      }
+      const inner = spec.fit({ ...train, kwh: z });
+      let smear = 1;
+      if (options.smearing) {
+        const fitted = inner.predict(train);
+        let s = 0;
+        for (let i = 0; i < z.length; i++) s += Math.exp(z[i]! - fitted[i]!);
+        smear = s / z.length;
+      }
+      return {
+        kind,
+        parameterCount: inner.parameterCount,
+        predict(f) {
+          const p = inner.predict(f);
+          // E[y] ≈ exp(ŷ)·smear − 1 (for smear = 1 this is expm1, computed accurately)
+          for (let i = 0; i < p.length; i++) p[i] = smear === 1 ? Math.expm1(p[i]!) : Math.exp(p[i]!) * smear - 1;
+          return p;
+        },
+      };
+    },
+  };
+}
+
+/**
+ * Wrap a model so it fits energy per floor area (kWh/m² per hour) and scales predictions back.
+ * @throws ModelInputError when the area is not positive.
+ * @example withPerAreaTarget(towtSpec(), 5000).fit(frame).predict(frame) // kWh, same as towtSpec() for OLS
+ */
+export function withPerAreaTarget(spec: HourlyModelSpec, floorAreaM2: number): HourlyModelSpec {
+  if (!(floorAreaM2 > 0 && Number.isFinite(floorAreaM2))) throw new ModelInputError(`floor area must be positive, got ${floorAreaM2} m²`);
+  const kind = `${spec.kind}+per-area`;
+  return {
+    kind,
+    fit(train) {
+      const z = train.kwh.map((v) => v / floorAreaM2);
+      const inner = spec.fit({ ...train, kwh: z });
+      return {
+        kind,
+        parameterCount: inner.parameterCount,
+        predict: (f) => inner.predict(f).map((v) => v * floorAreaM2),
+      };
+    },
+  };
+}
