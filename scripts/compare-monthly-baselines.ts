@@ -21,7 +21,7 @@ import {
   type DegreeDayPeriod,
   type TemperatureProfile,
 } from "../src/model/degreeDayRegression.ts";
-import { outlierBand, type BandPoint } from "../src/model/outlierBand.ts";
+import { degreeDayOutlierBand, outlierBand, type BandPoint } from "../src/model/outlierBand.ts";
 import { daysBetween, localMidnightMs } from "../src/core/time.ts";
 import type { Bill } from "../src/domain/types.ts";
 
@@ -42,8 +42,10 @@ const outsideList = (bills: Bill[], bands: Map<string, { low: number; high: numb
   bills.filter((b) => {
     const band = bands.get(b.billId);
     return band !== undefined && (b.usage < band.low || b.usage > band.high);
-  }).map((b) => b.billId.replace(/^[A-Z]+-[A-Z]-/, ""));
+  }).map((b) => short(b.billId));
 
+const short = (billId: string): string => billId.replace(/^[A-Z]+-[A-Z]-/, "");
+const fmtScale = (s: number): string => (residualScale === "relative" ? `${(100 * s).toFixed(1)} %` : `${s.toPrecision(3)}/day`);
 const rows: string[][] = [];
 const outside: Record<string, Set<string>> = { CP: new Set(), "CP+LOO": new Set(), DD: new Set(), "DD+LOO": new Set() };
 for (const building of portfolio.buildings) {
@@ -99,18 +101,17 @@ for (const building of portfolio.buildings) {
         ddParam.set(t.id, { low: Math.max(0, band.lower * t.days), high: band.upper * t.days });
       }
     }
-    const ddLoo = dd
-      ? outlierBand(train, (pts: Pt[]) => {
-          const f = fitDegreeDayForm(pts, dd.form, { tempUnit: unit });
-          return { predictPerDay: (p: Pt) => f.predictPerDay(p.profile) };
-        }, all, { residualScale, minRelativeHalfWidth })
-      : null;
+    const ddLoo = degreeDayOutlierBand(
+      train.map((t) => ({ id: t.id, ...t.point })),
+      all.map((t) => ({ id: t.id, ...t.point })),
+      { tempUnit: unit, residualScale, minRelativeHalfWidth },
+    );
 
     const lists = {
       CP: outsideList(bills, cpParam),
       "CP+LOO": cpLoo ? outsideList(bills, cpLoo.bands) : [],
       DD: outsideList(bills, ddParam),
-      "DD+LOO": ddLoo ? outsideList(bills, ddLoo.bands) : [],
+      "DD+LOO": outsideList(bills, ddLoo.bands),
     };
     for (const [k, v] of Object.entries(lists)) for (const b of v) outside[k].add(`${meter.meterId}-${b}`);
     const bases = dd ? [dd.heatingBase, dd.coolingBase].filter((b) => b !== null).map((b) => fmt(b, 2)).join("/") : "";
@@ -119,9 +120,15 @@ for (const building of portfolio.buildings) {
       `${cp.fit?.kind ?? "none"} ${fmt(cp.fit?.stats.cvRmsePct)} ${fmt(cp.fit?.stats.nmbePct, 2)} ${fmt(cp.fit?.stats.rSquared, 3)}${cp.meetsGuideline14 ? "" : " (G14 ✗: no band)"}`,
       `${dd?.form ?? "none"}${bases ? `@${bases}` : ""} ${fmt(dd?.stats.cvRmsePct)} ${fmt(dd?.stats.nmbePct, 2)} ${fmt(dd?.stats.rSquared, 3)}`,
       `CP: ${lists.CP.join(" ") || "-"}`,
-      `CP+LOO: ${lists["CP+LOO"].join(" ") || "-"}${cpLoo ? ` (s ${(cpLoo.scale * (residualScale === "relative" ? 100 : 1)).toFixed(residualScale === "relative" ? 1 : 2)}${residualScale === "relative" ? " %" : ""}, k ${cpLoo.k.toFixed(2)})` : ""}`,
+      `CP+LOO: ${lists["CP+LOO"].join(" ") || "-"}${cpLoo ? ` (s ${fmtScale(cpLoo.scale)}, k ${cpLoo.k.toFixed(2)}; refitted out: ${cpLoo.rejected.map(short).join(" ") || "-"})` : ""}`,
       `DD: ${lists.DD.join(" ") || "-"}`,
-      `DD+LOO: ${lists["DD+LOO"].join(" ") || "-"}${ddLoo ? ` (s ${(ddLoo.scale * (residualScale === "relative" ? 100 : 1)).toFixed(residualScale === "relative" ? 1 : 2)}${residualScale === "relative" ? " %" : ""}, k ${ddLoo.k.toFixed(2)}, rejected ${ddLoo.rejected.join(" ") || "-"})` : ""}`,
+      `DD+LOO: ${lists["DD+LOO"].join(" ") || "-"}` +
+        (ddLoo.band && ddLoo.fit
+          ? ` (final ${ddLoo.fit.form}${[ddLoo.fit.heatingBase, ddLoo.fit.coolingBase].filter((b) => b !== null).map((b) => `@${fmt(b, 2)}`).join("/")}` +
+            ` CV ${fmt(ddLoo.fit.stats.cvRmsePct)} NMBE ${fmt(ddLoo.fit.stats.nmbePct, 2)} R² ${fmt(ddLoo.fit.stats.rSquared, 3)};` +
+            ` s ${fmtScale(ddLoo.band.scale)}, k ${ddLoo.band.k.toFixed(2)}, at minimum width ${[...ddLoo.bands.values()].filter((b) => b.atMinimumWidth).length}/${ddLoo.bands.size};` +
+            ` refitted out: ${ddLoo.rejected.map(short).join(" ") || "-"})`
+          : " (no model)"),
     ]);
   }
 }

@@ -37,6 +37,8 @@
  */
 import { studentTQuantile } from "./studentT.ts";
 import { ModelInputError } from "./errors.ts";
+import { fitDegreeDayForm, fitDegreeDayModel } from "./degreeDayRegression.ts";
+import type { DegreeDayFit, DegreeDayForm, DegreeDayPeriod, DegreeDaySelection, DegreeDaySelectionOptions } from "./degreeDayRegression.ts";
 
 /** Anything that predicts use per day for a point. */
 export interface BandModel<P> {
@@ -171,4 +173,64 @@ export function outlierBand<P>(
     for (const t of targets) bands.set(t.id, bandFor(t));
     return { bands, model, looResiduals: loo, scale, k, effectiveDf, rejected };
   }
+}
+
+/** A bill for {@link degreeDayOutlierBand}: its period and an id. */
+export interface DegreeDayBandBill extends DegreeDayPeriod {
+  id: string;
+}
+
+export interface DegreeDayOutlierBand {
+  /** The model chosen on the training bills left after rejection; null when none could be fitted. */
+  fit: DegreeDayFit | null;
+  /** Every form tried in that final selection. */
+  tried: DegreeDaySelection["tried"];
+  /** Bands for every target bill (empty when no model). */
+  bands: Map<string, BillBand>;
+  /** Training bills refitted out because they fell outside the first band (e.g. a leak). */
+  rejected: string[];
+  /** Leave-one-out statistics of the final band; null when no model. */
+  band: Pick<OutlierBandResult<DegreeDayPeriod>, "looResiduals" | "scale" | "k" | "effectiveDf"> | null;
+}
+
+/**
+ * The recommended `usage-outlier` band: variable-base degree-day model (fitDegreeDayModel) with a
+ * leave-one-out band (outlierBand). Steps: choose the form on all training bills and band them;
+ * drop the training bills outside that band; choose the form again on the rest (so a summer
+ * leak cannot pass for cooling) and band every target bill from leave-one-out residuals of that
+ * final form, bases re-searched in each leave-one-out fit.
+ * @param train actual reads, one bill per period, with enough weather.
+ * @param targets every bill that needs a band, including estimated reads and duplicates.
+ * @example degreeDayOutlierBand(train, allBills, { tempUnit: "C" }).bands.get("ASH-W-2025-08")
+ */
+export function degreeDayOutlierBand(
+  train: readonly DegreeDayBandBill[],
+  targets: readonly DegreeDayBandBill[],
+  options: DegreeDaySelectionOptions & Omit<OutlierBandOptions, "rejectionRounds"> = {},
+): DegreeDayOutlierBand {
+  const asBand = (b: DegreeDayBandBill): BandPoint<DegreeDayPeriod> => ({ id: b.id, point: b, usePerDay: b.usePerDay, days: b.days });
+  const refit = (form: DegreeDayForm) => (pts: DegreeDayPeriod[]): BandModel<DegreeDayPeriod> => {
+    const f = fitDegreeDayForm(pts, form, options);
+    return { predictPerDay: (p) => f.predictPerDay(p.profile) };
+  };
+  const none = (tried: DegreeDaySelection["tried"], rejected: string[]): DegreeDayOutlierBand => ({ fit: null, tried, bands: new Map(), rejected, band: null });
+  const bandOptions = { ...options, rejectionRounds: 0 };
+
+  const first = fitDegreeDayModel(train, options);
+  if (!first.chosen) return none(first.tried, []);
+  const firstBand = outlierBand(train.map(asBand), refit(first.chosen.form), train.map(asBand), bandOptions);
+  const rejected = firstBand
+    ? train.filter((b) => {
+        const band = firstBand.bands.get(b.id)!;
+        const used = b.usePerDay * b.days;
+        return used < band.low || used > band.high;
+      }).map((b) => b.id)
+    : [];
+  const kept = train.filter((b) => !rejected.includes(b.id));
+  const final = fitDegreeDayModel(kept, options);
+  if (!final.chosen) return none(final.tried, rejected);
+  const finalBand = outlierBand(kept.map(asBand), refit(final.chosen.form), targets.map(asBand), bandOptions);
+  if (!finalBand) return { ...none(final.tried, rejected), fit: final.chosen };
+  const { looResiduals, scale, k, effectiveDf } = finalBand;
+  return { fit: final.chosen, tried: final.tried, bands: finalBand.bands, rejected, band: { looResiduals, scale, k, effectiveDf } };
 }
