@@ -47,6 +47,8 @@ const outsideList = (bills: Bill[], bands: Map<string, { low: number; high: numb
 const short = (billId: string): string => billId.replace(/^[A-Z]+-[A-Z]-/, "");
 const fmtScale = (s: number): string => (residualScale === "relative" ? `${(100 * s).toFixed(1)} %` : `${s.toPrecision(3)}/day`);
 const rows: string[][] = [];
+let ddMs = 0;
+let ddMeters = 0;
 const outside: Record<string, Set<string>> = { CP: new Set(), "CP+LOO": new Set(), DD: new Set(), "DD+LOO": new Set() };
 for (const building of portfolio.buildings) {
   const weather = portfolio.weather.get(building.weatherStation);
@@ -101,11 +103,14 @@ for (const building of portfolio.buildings) {
         ddParam.set(t.id, { low: Math.max(0, band.lower * t.days), high: band.upper * t.days });
       }
     }
+    const ddStarted = performance.now();
     const ddLoo = degreeDayOutlierBand(
       train.map((t) => ({ id: t.id, ...t.point })),
       all.map((t) => ({ id: t.id, ...t.point })),
       { tempUnit: unit, residualScale, minRelativeHalfWidth },
     );
+    ddMs += performance.now() - ddStarted;
+    ddMeters++;
 
     const lists = {
       CP: outsideList(bills, cpParam),
@@ -138,3 +143,4 @@ process.stdout.write("meter | CP form CV(RMSE)% NMBE% R² | DD form@base CV(RMSE
 for (const r of rows) process.stdout.write(`${r[0].padEnd(6)} | ${r.slice(1, 3).join(" | ")}\n         ${r.slice(3).join("\n         ")}\n`);
 process.stdout.write("\nBills outside each band (all meters):\n");
 for (const [k, v] of Object.entries(outside)) process.stdout.write(`  ${k.padEnd(7)} ${v.size}: ${[...v].join(", ") || "-"}\n`);
+process.stdout.write(`\ndegreeDayOutlierBand: ${(ddMs / Math.max(1, ddMeters)).toFixed(0)} ms per meter on average (${ddMeters} meters)\n`);
