@@ -187,14 +187,14 @@ function usageOnly(usage: UsageScenarios, months: CalendarMonth[]): Pick<MeterFo
 }
 
 /** How each forecast month of the meter is priced (shape, demand ratio, power factor, escalation). */
-export function meterPricingContexts(input: MeterForecastInput, tariff: Tariff, months: CalendarMonth[]): MonthPricingContext[] {
+export function meterPricingContexts(input: MeterForecastInput, tariff: Tariff, months: CalendarMonth[], minYearsBack = 1): MonthPricingContext[] {
   // Interval readings after the as-of day are not used (a backtest must not see its future).
   const untilMs = localMidnightMs(addDays(input.asOf, 1), input.timezone);
   const kw = kwPerUsePerDayByMonth(input.bills);
   const pf = recentPowerFactor(input.bills);
   const escalationFrom = escalationBase(tariff.versions[tariff.versions.length - 1]!.from, input.asOf);
   return months.map((m) => {
-    const shape: MonthShape | null = input.intervals ? monthShapeFromIntervals(input.intervals, input.timezone, m, untilMs) : null;
+    const shape: MonthShape | null = input.intervals ? monthShapeFromIntervals(input.intervals, input.timezone, m, untilMs, 3, minYearsBack) : null;
     return {
       tariff,
       timezone: input.timezone,

@@ -1,20 +1,24 @@
 /**
- * The whole portfolio's forecast as of a date: every meter's forecast, the CSV rows and each
- * building's cost range. Pure: the portfolio and the as-of date come in, plain data goes out.
+ * The whole portfolio's forecast as of a date: every meter's forecast, the CSV rows, each
+ * building's cost range and the drivers of its change vs last year. Pure: the portfolio and
+ * the as-of date come in, plain data goes out.
  */
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
 import { forecastMeter, type MeterForecast } from "./forecastMeter.ts";
 import { buildingForecastInputs, type ForecastRunOptions } from "./portfolioInputs.ts";
 import { buildingCostBand, buildingMonthlyCostBands, forecastRows, type ForecastRow } from "./rollup.ts";
-import type { Band } from "./quantiles.ts";
+import { buildingChangeDrivers, type BuildingDrivers } from "./drivers.ts";
+import { bandOf, type Band } from "./quantiles.ts";
 
 export interface BuildingForecast {
   buildingId: string;
   meters: MeterForecast[];
   /** Next-12-month cost range (scenario sums across the building's meters); null when nothing was priced. */
   costNext12m: Band | null;
+  /** Building cost range per forecast month (scenario sums per month). */
   monthly: { month: string; cost: Band }[];
+  drivers: BuildingDrivers;
 }
 
 export interface PortfolioForecast {
@@ -22,16 +26,44 @@ export interface PortfolioForecast {
   calibration: number;
   buildings: BuildingForecast[];
   rows: ForecastRow[];
+  /**
+   * Portfolio next-12-month range: scenario s summed over every priced meter. Buildings on one
+   * station share weather years; across stations scenario s pairs weather years by index.
+   */
+  costNext12m: Band | null;
 }
 
 /**
  * Forecasts every meter of every building.
- * @example forecastPortfolio(portfolio, { asOf: "2025-12-31", months: 12 }).rows // forecast.csv rows
+ * @example forecastPortfolio(portfolio, { asOf: "2025-12-31", months: 12, calibration: 3 }).rows // forecast.csv rows
  */
 export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: ForecastRunOptions): PortfolioForecast {
   const buildings = portfolio.buildings.map((building) => {
-    const meters = buildingForecastInputs(portfolio, building, options).map(forecastMeter);
-    return { buildingId: building.buildingId, meters, costNext12m: buildingCostBand(meters, 12), monthly: buildingMonthlyCostBands(meters) };
+    const inputs = buildingForecastInputs(portfolio, building, options);
+    const meters = inputs.map(forecastMeter);
+    return {
+      buildingId: building.buildingId,
+      meters,
+      costNext12m: buildingCostBand(meters, 12),
+      monthly: buildingMonthlyCostBands(meters),
+      drivers: buildingChangeDrivers(building.buildingId, inputs, meters),
+    };
   });
-  return { asOf: options.asOf, calibration: options.calibration ?? 1, buildings, rows: forecastRows(buildings.flatMap((b) => b.meters)) };
+  const all = buildings.flatMap((b) => b.meters);
+  return {
+    asOf: options.asOf,
+    calibration: options.calibration ?? 1,
+    buildings,
+    rows: forecastRows(all),
+    costNext12m: portfolioBand(all),
+  };
+}
+
+function portfolioBand(meters: readonly MeterForecast[]): Band | null {
+  const priced = meters.filter((m) => m.error === null && m.scenarioCosts.length > 0);
+  if (priced.length === 0) return null;
+  const n = Math.min(...priced.map((m) => m.scenarioCosts.length));
+  const sums = new Float64Array(n);
+  for (const m of priced) for (let s = 0; s < n; s++) sums[s] += m.scenarioCosts[s]!.slice(0, 12).reduce((a, b) => a + b, 0);
+  return bandOf(sums);
 }

@@ -8,7 +8,7 @@ import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } 
 import type { Tariff } from "../tariff/model.ts";
 import { priceBill } from "../tariff/price.ts";
 import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
-import { fitMeterBaseline } from "../pipeline/baselines.ts";
+import { fitMeterBaseline, type MeterBaseline } from "../pipeline/baselines.ts";
 import { priceMeterBills } from "../pipeline/priceBills.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
@@ -17,6 +17,11 @@ import type { MeterForecastInput } from "./forecastMeter.ts";
 const HOUR_MS = 3_600_000;
 
 export interface ForecastRunOptions {
+  /**
+   * Baselines already fitted on the same data (by meter id), to skip refitting. Only for the
+   * real forecast: the backtest must refit on truncated data, so it never passes these.
+   */
+  baselines?: ReadonlyMap<string, Pick<MeterBaseline, "fit" | "typicalMonthlyTemp">>;
   /** Last day of data, `YYYY-MM-DD`. */
   asOf: string;
   /** Forecast horizon in calendar months (portfolio.yaml `forecast_months`). */
@@ -68,18 +73,19 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
     const s = intervalsBefore(portfolio.intervals.get(m.meterId), untilMs);
     if (s) series.set(m.meterId, s);
   }
+  // One hour-of-week shape per interval meter, shared by the bill-only meters that borrow it.
   const shapes = new Map<string, number[] | null>();
   const shapeOf = (meter: Meter): number[] | null => {
-    if (!shapes.has(meter.meterId)) {
-      const own = series.get(meter.meterId);
-      const donor = own ?? meters.filter((m) => m.commodity === meter.commodity).map((m) => series.get(m.meterId)).find((s) => s !== undefined);
-      shapes.set(meter.meterId, donor ? loadShapeByHourOfWeek(donor, building.timezone, untilMs) : null);
-    }
-    return shapes.get(meter.meterId)!;
+    const donorId = series.has(meter.meterId)
+      ? meter.meterId
+      : meters.find((m) => m.commodity === meter.commodity && series.has(m.meterId))?.meterId;
+    if (donorId === undefined) return null;
+    if (!shapes.has(donorId)) shapes.set(donorId, loadShapeByHourOfWeek(series.get(donorId)!, building.timezone, untilMs));
+    return shapes.get(donorId)!;
   };
   return meters.map((meter) => {
     const bills = billsKnownAt(portfolio.bills.filter((b) => b.meterId === meter.meterId), options.asOf);
-    const baseline = fitMeterBaseline({ meter, building, bills, weather, normals, tempUnit });
+    const baseline = options.baselines?.get(meter.meterId) ?? fitMeterBaseline({ meter, building, bills, weather, normals, tempUnit });
     const tariff = portfolio.tariffs.get(meter.tariffId) ?? null;
     return {
       meter,

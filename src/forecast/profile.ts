@@ -32,19 +32,20 @@ export interface MonthShape {
 }
 
 /**
- * The normalised shape of `month` from `series`, or null when no copy 1–`maxYearsBack` 52-week
- * steps back (before `untilMs`) covers 90 % of the month.
+ * The normalised shape of `month` from `series`, or null when no copy `minYearsBack`…`maxYearsBack`
+ * 52-week steps back (before `untilMs`) covers 90 % of the month. minYearsBack = 0 takes the
+ * month's own readings (for pricing a past month).
  * @example a March 2026 forecast takes the 15-minute readings of 2025-03-02 … 2025-04-01 (364 days earlier)
  */
 export function monthShapeFromIntervals(
-  series: IntervalSeries, zone: string, month: CalendarMonth, untilMs: number, maxYearsBack = 3,
+  series: IntervalSeries, zone: string, month: CalendarMonth, untilMs: number, maxYearsBack = 3, minYearsBack = 1,
 ): MonthShape | null {
   const stepMs = series.intervalMinutes * 60_000;
   const a = localMidnightMs(month.start, zone);
   const b = localMidnightMs(month.end, zone);
   const n = Math.round((b - a) / stepMs);
   if (n <= 0) return null;
-  for (let j = 1; j <= maxYearsBack; j++) {
+  for (let j = minYearsBack; j <= maxYearsBack; j++) {
     const shift = j * WEEK52_MS;
     if (b - shift > untilMs) continue;
     const startMs = new Float64Array(n);

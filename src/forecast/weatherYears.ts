@@ -4,7 +4,7 @@
  *
  * A weather year is a calendar year of the station's history with at least 20 days of hourly
  * data in each of its 12 months (when no year is complete, every year with any usable month is
- * kept and its missing months take the typical temperature). Scenario temperature for a month:
+ * used and its missing months take the typical temperature). Scenario temperature for a month:
  *
  *   T = typical_m + (T_{year,m} − mean over weather years of T_{·,m})
  *
@@ -25,7 +25,8 @@ export interface WeatherYear {
 
 /**
  * Calendar years of `weather` (local to `zone`) with monthly mean temperatures, using only
- * hours before `untilMs` (so a backtest cannot see the future).
+ * hours before `untilMs` (so a backtest cannot see the future). Every year with a usable month
+ * is returned; scenarioYears picks the ones used as scenarios.
  */
 export function weatherYears(weather: WeatherSeries | undefined, zone: string, unit: "C" | "F", untilMs = Infinity): WeatherYear[] {
   if (!weather || weather.tempC.length === 0) return [];
@@ -58,8 +59,13 @@ export function weatherYears(weather: WeatherSeries | undefined, zone: string, u
       }),
     }))
     .filter((y) => y.monthlyTemp.some(Number.isFinite));
+  return years;
+}
+
+/** The years used as scenarios: the complete ones, or every year when none is complete. */
+export function scenarioYears(years: readonly WeatherYear[]): WeatherYear[] {
   const complete = years.filter((y) => y.monthlyTemp.every(Number.isFinite));
-  return complete.length > 0 ? complete : years;
+  return complete.length > 0 ? complete : [...years];
 }
 
 /**
@@ -68,7 +74,8 @@ export function weatherYears(weather: WeatherSeries | undefined, zone: string, u
  * years the single scenario is the typical year itself.
  * @example typical [5, …], years with January 3 and 7 → January scenarios 3 and 7 (+ typical 5 − mean 5)
  */
-export function scenarioTemperatures(typical: readonly number[], years: readonly WeatherYear[]): number[][] {
+export function scenarioTemperatures(typical: readonly number[], allYears: readonly WeatherYear[]): number[][] {
+  const years = scenarioYears(allYears);
   if (years.length === 0) return [[...typical]];
   const mean = typical.map((_, m) => {
     const xs = years.map((y) => y.monthlyTemp[m]!).filter(Number.isFinite);

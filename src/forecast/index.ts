@@ -1,0 +1,20 @@
+/**
+ * Next year's cost: usage scenarios from the weather baselines and historical weather years,
+ * each priced through the tariff, with P10/P50/P90, a track record and its calibration.
+ * Pure computation: no file access, no clock (as-of and data are passed in).
+ */
+export { forecastMeter, DEFAULT_SCENARIOS, DEFAULT_SEED, type MeterForecastInput, type MeterForecast, type MonthForecast } from "./forecastMeter.ts";
+export { forecastPortfolio, type PortfolioForecast, type BuildingForecast } from "./forecastPortfolio.ts";
+export { buildingForecastInputs, billsKnownAt, type ForecastRunOptions } from "./portfolioInputs.ts";
+export { forecastRows, buildingCostBand, buildingMonthlyCostBands, type ForecastRow } from "./rollup.ts";
+export { trackRecord, backtestInputs, backtestAsOf, compareWithActuals, actualMonthlyCost, naiveSameMonthLastYear, pooledAccuracy,
+  type TrackRecord, type MeterTrackRecord, type AccuracySummary, type MonthComparison, type TrackRecordOptions } from "./trackRecord.ts";
+export { calibrateNoise, CALIBRATION_GRID, TARGET_COVERAGE, type CalibrationResult } from "./calibrate.ts";
+export { buildingChangeDrivers, meterChangeDrivers, type BuildingDrivers, type MeterDrivers, type ChangeDrivers } from "./drivers.ts";
+export { forecastWithTrackRecord, type ForecastBundle } from "./run.ts";
+export { annualErrorPct, cvRmsePct, coverageShare } from "./accuracy.ts";
+export { escalationFactorForDays, escalationFactorForMonth, escalationBase } from "./escalation.ts";
+export { bandOf, type Band } from "./quantiles.ts";
+export { weatherYears, scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
+export { monthsAfter, spreadBillsByMonth, type CalendarMonth } from "./months.ts";
+export { ForecastInputError } from "./errors.ts";
