@@ -15,8 +15,8 @@ export function csvField(value: CsvCell): string {
  * Serialises rows under a fixed header; columns not present in a row are empty.
  * @example toCsv(["a","b"], [{a: 1, b: "x,y"}]) === 'a,b\n1,"x,y"\n'
  */
-export function toCsv(columns: readonly string[], rows: readonly Record<string, CsvCell>[]): string {
+export function toCsv<Row extends object>(columns: readonly (keyof Row & string)[], rows: readonly Row[]): string {
   const lines = [columns.map(csvField).join(",")];
-  for (const row of rows) lines.push(columns.map((c) => csvField(row[c])).join(","));
+  for (const row of rows) lines.push(columns.map((c) => csvField(row[c] as CsvCell)).join(","));
   return lines.join("\n") + "\n";
 }

@@ -2,12 +2,12 @@
  * The machine-readable files every build publishes under OUT/data/ (contract: outputs.md),
  * as text keyed by file name. Pure: the site writer does the writing.
  */
-import type { Portfolio } from "../domain/types.ts";
+import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/index.ts";
 import type { Finding } from "../audit/types.ts";
 import { findingsToCsvText, toFindingsJson, billsRecomputedRows } from "../audit/output.ts";
-import { detectionsToRows } from "../clean/detect/rows.ts";
+import { detectionsToRows, DATA_QUALITY_COLUMNS, type DataQualityRow } from "../clean/detect/rows.ts";
 import type { Detection } from "../clean/detect/index.ts";
 import type { MonthTotal } from "../ingest/monthlyTotals.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
@@ -33,42 +33,52 @@ export interface OutputsInput {
 const json = (value: unknown): string => `${JSON.stringify(value, null, 2)}\n`;
 const round = (x: number | null, digits: number): number | null => (x === null || !Number.isFinite(x) ? null : Number(x.toFixed(digits)));
 
-/** Every data file, name → text. */
+/**
+ * Every data file, name → text: the portfolio-wide files of outputs.md, and the same tables cut
+ * per building under `buildings/<building_id>/` for the building pages' downloads.
+ */
 export function buildDataFiles(input: OutputsInput): Record<string, string> {
-  const { portfolio, findings, priced } = input;
+  const { portfolio, findings } = input;
   const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
-  const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
-  return {
+  const qualityRows = dataQualityRows(input);
+  const files: Record<string, string> = {
     "portfolio.json": json(portfolioJson(input)),
     "findings.json": json(toFindingsJson(findings)),
     "findings.csv": findingsToCsvText(findings),
-    "bills-recomputed.csv": billsRecomputedCsv(input, (id) => buildingOfMeter.get(id) ?? "", computed),
+    "bills-recomputed.csv": billsRecomputedCsv(input, portfolio.bills, buildingOfMeter),
     "ingest-report.json": json({ files: portfolio.report.files }),
-    "data-quality.csv": dataQualityCsv(input),
+    "data-quality.csv": toCsv(DATA_QUALITY_COLUMNS, qualityRows),
     "alignment.json": json(alignmentJson(input.quality)),
     "models.json": json(modelsJson(input.results.flatMap((r) => r.baselines))),
   };
+  for (const r of input.results) {
+    const id = r.building.buildingId;
+    const meterIds = new Set(portfolio.meters.filter((m) => m.buildingId === id).map((m) => m.meterId));
+    const folder = `buildings/${id}/`;
+    files[`${folder}findings.csv`] = findingsToCsvText(findings.filter((f) => f.buildingId === id));
+    files[`${folder}bills-recomputed.csv`] = billsRecomputedCsv(input, portfolio.bills.filter((b) => meterIds.has(b.meterId)), buildingOfMeter);
+    files[`${folder}data-quality.csv`] = toCsv(DATA_QUALITY_COLUMNS, qualityRows.filter((row) => row.building_id === id));
+    files[`${folder}models.json`] = json(modelsJson(r.baselines));
+  }
+  return files;
 }
 
-function billsRecomputedCsv(
-  input: OutputsInput,
-  buildingOfMeter: (meterId: string) => string,
-  computed: Map<string, import("../tariff/types.ts").ComputedBill | null>,
-): string {
-  const rows = billsRecomputedRows(input.portfolio.bills, buildingOfMeter, computed).map((row) => ({
+function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter: Map<string, string>): string {
+  const computed = new Map([...input.priced].map(([id, p]) => [id, p.computed]));
+  const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", computed).map((row) => ({
     ...row,
     not_priced_reason: input.priced.get(row.bill_id)?.error ?? "",
   }));
-  const columns = ["building_id", "meter_id", "bill_id", "period_start", "period_end", "billed_total", "computed_total", "difference", "exact", "not_priced_reason"];
+  const columns = ["building_id", "meter_id", "bill_id", "period_start", "period_end", "billed_total", "computed_total", "difference", "exact", "not_priced_reason"] as const;
   return toCsv(columns, rows);
 }
 
-function dataQualityCsv(input: OutputsInput): string {
+/** Meter detections and weather gaps as data-quality.csv rows (a weather gap once per building using the station). */
+function dataQualityRows(input: OutputsInput): DataQualityRow[] {
   const detections: Detection[] = [...input.quality.flatMap((q) => q.detections), ...weatherGapDetections(input.weatherGaps)];
   const buildingOfMeter = new Map(input.portfolio.meters.map((m) => [m.meterId, m.buildingId]));
   const buildingsOfStation = (stationId: string) => input.portfolio.buildings.filter((b) => b.weatherStation === stationId).map((b) => b.buildingId);
-  const rows = detectionsToRows(detections, (id) => buildingOfMeter.get(id) ?? "", buildingsOfStation);
-  return toCsv(["building_id", "meter_id", "start", "end", "kind", "intervals", "action"], rows as unknown as Record<string, string>[]);
+  return detectionsToRows(detections, (id) => buildingOfMeter.get(id) ?? "", buildingsOfStation);
 }
 
 function alignmentJson(quality: MeterQuality[]) {
