@@ -42,6 +42,12 @@ export interface MeterBaseline {
   normalizedAnnual: number | null;
   /** Whether the fit meets the Guideline 14 monthly limits (CV(RMSE) ≤ 15 %, |NMBE| ≤ 5 %). */
   meetsGuideline14: boolean;
+  /**
+   * Per bill (with weather): the model's use over the bill's days at the period's actual mean
+   * temperature, and at the typical-year temperature of each of those days' months — the ratio
+   * of the two weather-adjusts the bill (tenant pages, normalized comparisons).
+   */
+  perBill: { billId: string; expectedAtActualWeather: number; expectedAtTypicalWeather: number }[];
   /** Expected usage band per bill id (bill unit), only from a model that meets Guideline 14. */
   expectedByBill: Map<string, { p50: number; low: number; high: number }>;
   summary: ReportModelSummary;
@@ -92,6 +98,11 @@ export function typicalMonthlyTempC(weather: WeatherSeries, zone: string): numbe
 }
 
 const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+/** Calendar month index (0 = January) of the day `offset` days after `isoDate`. */
+function monthIndexOf(isoDate: string, offset: number): number {
+  return new Date(Date.UTC(+isoDate.slice(0, 4), +isoDate.slice(5, 7) - 1, +isoDate.slice(8, 10) + offset)).getUTCMonth();
+}
 
 function toUnit(tempC: number, unit: "C" | "F"): number {
   return unit === "F" ? tempC * 1.8 + 32 : tempC;
@@ -159,6 +170,18 @@ export function fitMeterBaseline(options: {
   const normalizedAnnual =
     fit && typicalMonthlyTemp ? typicalMonthlyTemp.reduce((s, t, m) => s + Math.max(0, fit!.predict(t)) * DAYS_IN_MONTH[m]!, 0) : null;
 
+  const perBill: MeterBaseline["perBill"] = [];
+  if (fit && typicalMonthlyTemp) {
+    for (const bill of options.bills) {
+      const temp = billTemps.get(bill.billId);
+      if (temp === undefined) continue;
+      const days = daysBetween(bill.periodStart, bill.periodEnd);
+      let typical = 0;
+      for (let d = 0; d < days; d++) typical += Math.max(0, fit.predict(typicalMonthlyTemp[monthIndexOf(bill.periodStart, d)]!));
+      perBill.push({ billId: bill.billId, expectedAtActualWeather: Math.max(0, fit.predict(temp)) * days, expectedAtTypicalWeather: typical });
+    }
+  }
+
   const limits = GUIDELINE14_LIMITS.monthly;
   const meetsGuideline14 = fit !== null && fit.stats.cvRmsePct <= limits.cvRmsePct && Math.abs(fit.stats.nmbePct) <= limits.nmbeAbsPct;
   const expectedByBill = new Map<string, { p50: number; low: number; high: number }>();
@@ -184,6 +207,7 @@ export function fitMeterBaseline(options: {
     typicalSource: typicalC ? (normals ? "normals" : "history") : null,
     normalizedAnnual,
     meetsGuideline14,
+    perBill,
     expectedByBill,
     summary: {
       meterId: meter.meterId,

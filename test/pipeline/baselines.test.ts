@@ -70,3 +70,26 @@ describe("fitMeterBaseline", () => {
     expect(baseline.typicalSource).toBe("history");
   });
 });
+
+describe("per-bill weather adjustment", () => {
+  it("is 1:1 when the bill's months are the typical months (constructed: each month's weather is the same every year)", async () => {
+    const { fitMeterBaseline } = await import("../../src/pipeline/baselines.ts");
+    const building: Building = {
+      buildingId: "B", name: "B", floorArea: 1, areaUnit: "m2", floorAreaM2: 1, timezone: "UTC",
+      weatherStation: "W", useType: null, tenantPage: false, source: src,
+    };
+    const meter: Meter = { meterId: "G", buildingId: "B", commodity: "gas", unit: "therm", tariffId: "T", multiplier: 1, account: null, source: src };
+    const bills: Bill[] = [];
+    for (let y = 2023; y <= 2025; y++) for (let m = 0; m < 12; m++) {
+      const s = new Date(Date.UTC(y, m, 1)).toISOString().slice(0, 10);
+      const e = new Date(Date.UTC(y, m + 1, 1)).toISOString().slice(0, 10);
+      const days = (Date.UTC(y, m + 1, 1) - Date.UTC(y, m, 1)) / 86_400_000;
+      bills.push({ billId: s, meterId: "G", periodStart: s, periodEnd: e, usage: (50 + 4 * Math.max(0, 12 - 2 * m)) * days, readType: "actual", demandKw: null, powerFactor: null, total: 0, statementDate: null, source: src });
+    }
+    const b = fitMeterBaseline({ meter, building, bills, weather: steppedWeather(), normals: undefined, tempUnit: "C" });
+    expect(b.perBill).toHaveLength(36);
+    for (const p of b.perBill) expect(p.expectedAtTypicalWeather).toBeCloseTo(p.expectedAtActualWeather, 6);
+    // January 2024: 31 days × (50 + 4·12) = 3,038 therm (hand-computed).
+    expect(b.perBill.find((p) => p.billId === "2024-01-01")!.expectedAtActualWeather).toBeCloseTo(3038, 6);
+  });
+});
