@@ -8,8 +8,9 @@
  *   DD+LOO the degree-day model with the leave-one-out band.
  * Prints CV(RMSE), NMBE and R² of each fit and the bills outside each band.
  *
- *   npx tsx scripts/compare-monthly-baselines.ts [PORTFOLIO_DIR] [--relative] [--min=0.1]
- * (--relative: relative leave-one-out residuals instead of use per day; --min: minimum half-width share)
+ *   npx tsx scripts/compare-monthly-baselines.ts [PORTFOLIO_DIR] [--relative] [--min=0.1] [--unit=C|F]
+ * (--relative: relative leave-one-out residuals instead of use per day; --min: minimum half-width
+ * share; --unit: temperature unit of the models, default the portfolio's degree_day_base unit)
  */
 import { loadPortfolio } from "../src/ingest/index.ts";
 import { fitMeterBaseline, OUTLIER_BAND_LEVEL } from "../src/pipeline/baselines.ts";
@@ -34,7 +35,8 @@ const minArg = process.argv.find((a) => a.startsWith("--min="));
 const minRelativeHalfWidth = minArg ? Number(minArg.slice(6)) : 0.1;
 const { portfolio } = await loadPortfolio(dir);
 if (!portfolio) throw new Error(`${dir}: portfolio could not be loaded`);
-const unit = portfolio.settings.degreeDayBase.unit;
+const unitArg = process.argv.find((a) => a.startsWith("--unit="))?.slice(7);
+const unit: "C" | "F" = unitArg === "F" || unitArg === "C" ? unitArg : portfolio.settings.degreeDayBase.unit;
 const toUnit = (c: number): number => (unit === "F" ? c * 1.8 + 32 : c);
 
 const fmt = (v: number | null | undefined, d = 1): string => (v === null || v === undefined || !Number.isFinite(v) ? "—" : v.toFixed(d));
@@ -52,6 +54,7 @@ let ddMeters = 0;
 const outside: Record<string, Set<string>> = { CP: new Set(), "CP+LOO": new Set(), DD: new Set(), "DD+LOO": new Set() };
 for (const building of portfolio.buildings) {
   const weather = portfolio.weather.get(building.weatherStation);
+  const weatherInUnit = weather && unit === "F" ? weather.tempC.map(toUnit) : null;
   for (const meter of portfolio.meters.filter((m) => m.buildingId === building.buildingId)) {
     const bills = portfolio.bills.filter((b) => b.meterId === meter.meterId).sort((a, b) => a.periodStart.localeCompare(b.periodStart));
     const cp = fitMeterBaseline({ meter, building, bills, weather, normals: portfolio.normals.get(building.weatherStation), tempUnit: unit });
@@ -67,7 +70,7 @@ for (const building of portfolio.buildings) {
       const endMs = localMidnightMs(bill.periodEnd, building.timezone);
       const profileC = temperatureProfileForPeriod({ startMs: weather.startMs, temps: weather.tempC }, startMs, endMs);
       if (profileC.hoursCovered < MIN_WEATHER_COVERAGE * profileC.hoursTotal) continue;
-      const profile = unit === "F" ? temperatureProfileForPeriod({ startMs: weather.startMs, temps: weather.tempC.map(toUnit) }, startMs, endMs) : profileC;
+      const profile = unit === "F" ? temperatureProfileForPeriod({ startMs: weather.startMs, temps: weatherInUnit! }, startMs, endMs) : profileC;
       const h = profile.sortedTemps.length;
       const days = daysBetween(bill.periodStart, bill.periodEnd);
       const pt: BandPoint<Pt> = {

@@ -493,6 +493,12 @@ export interface DegreeDayCandidate {
   fit?: DegreeDayFit;
   accepted: boolean;
   reasons: string[];
+  /**
+   * Remarks that do not reject the form, e.g. a base on the edge of the search range: the
+   * optimum may lie beyond it, and a base at the cold (hot) end makes CDD (HDD) per day almost
+   * linear in temperature, i.e. the model behaves like a straight line in mean temperature.
+   */
+  notes: string[];
 }
 
 export interface DegreeDaySelection {
@@ -516,7 +522,7 @@ export function fitDegreeDayModel(periods: readonly DegreeDayPeriod[], options: 
       fit = fitDegreeDayForm(periods, form, options);
     } catch (e) {
       if (e instanceof ModelInputError) {
-        tried.push({ form, accepted: false, reasons: [e.message] });
+        tried.push({ form, accepted: false, reasons: [e.message], notes: [] });
         continue;
       }
       throw e;
@@ -527,7 +533,12 @@ export function fitDegreeDayModel(periods: readonly DegreeDayPeriod[], options: 
       if (!(Math.abs(s.tValue) >= minAbsT)) reasons.push(`|t| of the ${s.role} slope is ${Math.abs(s.tValue).toFixed(2)} < ${minAbsT}`);
     }
     if (!Number.isFinite(fit.stats.cvRmsePct)) reasons.push("CV(RMSE) is not finite");
-    tried.push({ form, fit, accepted: reasons.length === 0, reasons });
+    const range = options.baseRange ?? DEFAULT_BASE_RANGE[options.tempUnit ?? "C"];
+    const notes: string[] = [];
+    for (const [label, base] of [["heating", fit.heatingBase], ["cooling", fit.coolingBase]] as const) {
+      if (base !== null && (base <= range.min || base >= range.max)) notes.push(`${label} base ${base} is on the edge of the search range ${range.min}…${range.max}`);
+    }
+    tried.push({ form, fit, accepted: reasons.length === 0, reasons, notes });
   }
   let chosen: DegreeDayFit | null = null;
   for (const c of tried) {

@@ -186,6 +186,14 @@ describe("base recovery on constructed data (hourly temperatures, known base and
     expect(sel.chosen!.stats.cvRmsePct).toBeLessThan(3);
   });
 
+  it("a base on the edge of the search range is noted, not rejected", () => {
+    const periods = constructedPeriods(7, (hdd) => 40 + 8 * hdd(15), 0.01);
+    const sel = fitDegreeDayModel(periods, { forms: ["HO"], baseRange: { min: 16, max: 25, step: 0.5, refineStep: 0.05 } });
+    expect(sel.chosen?.heatingBase).toBe(16);
+    expect(sel.tried[0].notes).toEqual(["heating base 16 is on the edge of the search range 16…25"]);
+    expect(fitDegreeDayModel(periods, { forms: ["HO"] }).tried[0].notes).toEqual([]);
+  });
+
   it("no noise: the search finds τH = 15 exactly on its 0.05 °C lattice and a zero-error fit", () => {
     const periods = constructedPeriods(11, (hdd) => 40 + 8 * hdd(15), 0);
     const fit = fitDegreeDayForm(periods, "HO");
