@@ -1,0 +1,68 @@
+import { describe, expect, it } from "vitest";
+import { crossValidate, timeSeriesFolds } from "../../../src/model/interval/timeSeriesCv.ts";
+import type { HourlyFrame, HourlyModelSpec } from "../../../src/model/interval/types.ts";
+import { ModelInputError } from "../../../src/model/errors.ts";
+
+const H = 3_600_000;
+
+function frameOf(n: number, gapAt: number[] = []): HourlyFrame {
+  const hours = Array.from({ length: n + gapAt.length }, (_, i) => i).filter((i) => !gapAt.includes(i));
+  const m = hours.length;
+  const z = () => new Float64Array(m);
+  return {
+    hourStartMs: Float64Array.from(hours, (h) => h * H), hourOfWeek: Uint8Array.from(hours, (h) => h % 168),
+    holiday: new Uint8Array(m), tempC: z(), tempSmoothC: z(), tempSlopeCPerHour: z(), tempLagC: z(), tempRollingMeanC: z(),
+    kwh: Float64Array.from(hours, (h) => 10 + (h % 24)),
+    accounting: { intervalsRead: m, intervalsUsed: m, hoursSpanned: m, hoursUsed: m, excluded: { masked: 0, nonFinite: 0, incomplete: 0, noWeather: 0 }, derivedFeatureFallbacks: 0 },
+  };
+}
+
+describe("expanding-window folds (hand-computed)", () => {
+  it("100 hours, 3 folds of 10 h: blocks [70,80), [80,90), [90,100), training everything before", () => {
+    const f = timeSeriesFolds(frameOf(100).hourStartMs, { folds: 3, validationHours: 10 });
+    expect(f.map((d) => [d.trainEnd, d.validStart, d.validEnd])).toEqual([[70, 70, 80], [80, 80, 90], [90, 90, 100]]);
+    expect(f[2]!.validEndMs).toBe(100 * H);
+  });
+  it("blocks are in time, not row counts: a gap of missing hours shortens a block", () => {
+    const frame = frameOf(95, [72, 73, 74, 75, 76]); // hours 0…99 without 72–76
+    const f = timeSeriesFolds(frame.hourStartMs, { folds: 3, validationHours: 10 });
+    expect(f[0]!.validEnd - f[0]!.validStart).toBe(5);
+    expect(f[1]!.validEnd - f[1]!.validStart).toBe(10);
+  });
+});
+
+describe("crossValidate", () => {
+  it("never trains on the block's hours or later, and scores every block", () => {
+    const seen: number[] = [];
+    const spy: HourlyModelSpec = {
+      kind: "spy",
+      fit(train) {
+        seen.push(train.hourStartMs[train.hourStartMs.length - 1]!);
+        return { kind: "spy", parameterCount: 1, predict: (f) => new Float64Array(f.tempC.length).fill(21.5) };
+      },
+    };
+    const r = crossValidate(frameOf(24 * 30), spy, { folds: 4, validationHours: 48, minTrainRows: 24 });
+    const starts = r.folds.map((f) => f.validStartMs);
+    seen.forEach((last, j) => expect(last).toBeLessThan(starts[j]!));
+    expect(r.validationRows.length).toBe(4 * 48);
+    expect(r.folds.every((f) => f.stats !== null)).toBe(true);
+    // y = 10 + hour of day, prediction 21.5 = its mean → NMBE 0 over whole days
+    expect(Math.abs(r.pooled!.nmbePct)).toBeLessThan(1e-9);
+  });
+  it("skips folds with too little training and records fit failures instead of stopping", () => {
+    let calls = 0;
+    const flaky: HourlyModelSpec = {
+      kind: "flaky",
+      fit() {
+        calls++;
+        if (calls === 1) throw new ModelInputError("singular design");
+        return { kind: "flaky", parameterCount: 2, predict: (f) => new Float64Array(f.tempC.length).fill(20) };
+      },
+    };
+    const r = crossValidate(frameOf(100), flaky, { folds: 3, validationHours: 30, minTrainRows: 20 });
+    expect(r.folds[0]!.problem).toMatch(/only 10 training hours/);
+    expect(r.folds[1]!.problem).toBe("singular design");
+    expect(r.folds[2]!.stats?.n).toBe(30);
+    expect(r.validationRows.length).toBe(30);
+  });
+});
