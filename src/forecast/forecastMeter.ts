@@ -77,6 +77,8 @@ export interface MeterForecast {
   total: { usage: Band; cost: Band } | null;
   /** cost[s][k] for scenario s, month k (for roll-ups that keep scenarios aligned). */
   scenarioCosts: Float64Array[];
+  /** usage[s][k], meter unit: the usage each scenario's cost was priced from. */
+  scenarioUsage: Float64Array[];
   /** Weather-year index of each scenario (−1 = no weather). */
   weatherIndex: Int32Array;
   /** Date escalation compounds from: the later of the last tariff version's start and the day after as-of. */
@@ -103,6 +105,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
     months: [],
     total: null,
     scenarioCosts: [],
+    scenarioUsage: [],
     weatherIndex: new Int32Array(0),
     escalationFrom: null,
     notes: [],
@@ -111,6 +114,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
   const usage = meterUsageScenarios(input, months, scenarios, calibration);
   if (!usage) return { ...base, error: "no bills to forecast from" };
   base.method = usage.method;
+  base.scenarioUsage = usage.usage;
   base.weatherIndex = usage.weatherIndex;
   base.notes.push(usage.note);
   const tariff = input.tariff;

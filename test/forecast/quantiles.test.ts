@@ -1,0 +1,29 @@
+import { describe, expect, it } from "vitest";
+import { quantile } from "simple-statistics";
+import { bandOf } from "../../src/forecast/quantiles.ts";
+
+describe("bandOf (P10/P50/P90, type-7 quantiles)", () => {
+  it("matches simple-statistics quantile on a random sample", () => {
+    const xs = Array.from({ length: 301 }, (_, i) => Math.sin(i * 12.9898) * 43758.5453 % 100);
+    const [p10, p50, p90] = quantile(xs, [0.1, 0.5, 0.9]) as number[];
+    expect(bandOf(xs)).toEqual({ p10, p50, p90 });
+  });
+
+  it("interpolates at index (n − 1)·p, as R type 7 / numpy 'linear' (hand-computed)", () => {
+    // n = 5: P10 index 0.4 → 1 + 0.4·(2 − 1) = 1.4; P90 index 3.6 → 4 + 0.6·(5 − 4) = 4.6.
+    expect(bandOf([5, 1, 4, 2, 3])).toEqual({ p10: 1.4, p50: 3, p90: 4.6 });
+    // The simple-statistics doc example sample, n = 11: indices 1, 5, 9 fall on order statistics.
+    expect(bandOf([3, 6, 7, 8, 8, 9, 10, 13, 15, 16, 20])).toEqual({ p10: 6, p50: 9, p90: 16 });
+  });
+
+  it("is not the nearest-rank definition (which would give 1 and 5 for n = 5)", () => {
+    const b = bandOf([1, 2, 3, 4, 5]);
+    expect(b.p10).not.toBe(1);
+    expect(b.p90).not.toBe(5);
+  });
+
+  it("rejects an empty sample and non-finite values", () => {
+    expect(() => bandOf([])).toThrow(/no scenarios/);
+    expect(() => bandOf([1, NaN])).toThrow(/not a finite number/);
+  });
+});
