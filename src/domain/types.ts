@@ -37,6 +37,13 @@ export interface PortfolioSettings {
   intervalTimestamp: "start" | "end";
   /** Longest weather gap, in hours, filled by linear interpolation. */
   weatherMaxGapHours: number;
+  /** Detector settings from the `cleaning:` block (section → setting → number), camelCase keys. */
+  cleaning: Record<string, Record<string, number>>;
+  /**
+   * Meter clock corrections: hours by which a meter's timestamps run ahead of true time
+   * (they are shifted back by that much), and whether strong suggestions are applied automatically.
+   */
+  alignment: { offsetsHours: Record<string, number>; auto: boolean };
 }
 
 export interface Building {

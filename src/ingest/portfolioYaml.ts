@@ -8,6 +8,19 @@ import type { InputIssue } from "../core/issues.ts";
 import type { Commodity, PortfolioSettings } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import { parseIsoDate } from "./fields.ts";
+import { parseCleaningConfig } from "../clean/detect/config.ts";
+
+/** The node at a key path inside a YAML mapping (for placing an error), or null. */
+function nodeAtPath(node: Node | null | undefined, path: string[]): Node | null {
+  let current: Node | null | undefined = node;
+  for (const key of path) {
+    if (!isMap(current)) return null;
+    const pair = (current.items as Pair<Node, Node | null>[]).find((p) => isScalar(p.key) && String(p.key.value) === key);
+    if (!pair) return null;
+    current = pair.value ?? pair.key;
+  }
+  return current ?? null;
+}
 
 export const DEFAULT_SETTINGS: Omit<PortfolioSettings, "name"> = {
   currency: "USD",
@@ -20,11 +33,13 @@ export const DEFAULT_SETTINGS: Omit<PortfolioSettings, "name"> = {
   basePath: "/",
   intervalTimestamp: "start",
   weatherMaxGapHours: 6,
+  cleaning: {},
+  alignment: { offsetsHours: {}, auto: false },
 };
 
 const TOP_KEYS = [
   "name", "currency", "as_of", "forecast_months", "escalation", "tolerances",
-  "degree_day_base", "base_path", "interval_timestamp", "weather_max_gap_hours",
+  "degree_day_base", "base_path", "interval_timestamp", "weather_max_gap_hours", "cleaning", "alignment",
 ];
 
 export interface SettingsResult {
@@ -192,6 +207,38 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
         if (val === "start" || val === "end") s.intervalTimestamp = val;
         else err(valNode ?? keyNode, `interval_timestamp ${JSON.stringify(val)} must be start or end`, "start (default): the timestamp marks the interval start");
         break;
+      case "cleaning": {
+        const parsed = parseCleaningConfig(val);
+        s.cleaning = parsed.config as Record<string, Record<string, number>>;
+        for (const problem of parsed.issues) err(nodeAtPath(valNode, problem.path.split(".").slice(1)) ?? keyNode, `${problem.path}: ${problem.message}`);
+        break;
+      }
+      case "alignment": {
+        if (!isMap(valNode)) {
+          err(valNode ?? keyNode, "alignment must be a mapping", "e.g. alignment: { auto: false, offsets: { M1: 3 } }");
+          break;
+        }
+        for (const p of valNode.items as Pair<Node, Node | null>[]) {
+          const k = isScalar(p.key) ? String(p.key.value) : "";
+          if (k === "auto") {
+            const raw = isScalar(p.value) ? p.value.value : undefined;
+            if (typeof raw === "boolean") s.alignment.auto = raw;
+            else err(p.value ?? p.key, `alignment.auto ${JSON.stringify(raw)} must be true or false`);
+          } else if (k === "offsets") {
+            if (!isMap(p.value)) {
+              err(p.value ?? p.key, "alignment.offsets must map meter ids to hours", "e.g. offsets: { M1: 3 } when M1's clock runs 3 h ahead");
+              continue;
+            }
+            for (const q of p.value.items as Pair<Node, Node | null>[]) {
+              const meterId = isScalar(q.key) ? String(q.key.value) : "";
+              const hours = isScalar(q.value) ? q.value.value : undefined;
+              if (typeof hours === "number" && Number.isFinite(hours) && Math.abs(hours) <= 14) s.alignment.offsetsHours[meterId] = hours;
+              else err(q.value ?? q.key, `alignment offset for ${meterId} ${JSON.stringify(hours)} must be a number of hours from -14 to 14`);
+            }
+          } else err(p.key, `alignment has unknown key ${JSON.stringify(k)}`, "use auto, offsets");
+        }
+        break;
+      }
       case "weather_max_gap_hours":
         if (typeof val === "number" && Number.isFinite(val) && val >= 0) s.weatherMaxGapHours = val;
         else err(valNode ?? keyNode, `weather_max_gap_hours ${JSON.stringify(val)} must be a number >= 0`, "e.g. weather_max_gap_hours: 6");

@@ -79,7 +79,10 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const errors = issues.filter((i) => i.severity === "error");
   if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
   if (options.strict && errors.length > 0) throw new InputError(issues);
-  const portfolio = loaded.portfolio as Portfolio<Tariff>;
+  reporter.stage("Screening interval data and aligning meter clocks");
+  const quality = assessIntervalMeters(loaded.portfolio);
+  // From here on every stage sees the corrected clocks (flagged readings stay in the record).
+  const portfolio = quality.portfolio as Portfolio<Tariff>;
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const results: BuildingResults[] = [];
@@ -109,8 +112,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   reporter.stage(`Writing the site to ${options.outDir}`);
-  const quality = assessIntervalMeters(portfolio);
-  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality });
+  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters });
   const model = buildSiteModel({
     portfolio,
     priced,

@@ -1,52 +1,92 @@
 /**
- * Data-quality stage: anomaly detection on every interval meter, meter–weather alignment
- * suggestions, and weather gaps — all as `Detection`s so they land in one table
- * (OUT/data/data-quality.csv) and on the building pages.
+ * Data-quality stage: clock alignment of interval meters against the weather, anomaly
+ * detection on every interval meter, and weather gaps — all reported as `Detection`s so they
+ * land in one table (OUT/data/data-quality.csv) and on the building pages.
+ *
+ * Clock offsets are applied only when configured in portfolio.yaml (`alignment.offsets`), or
+ * when `alignment.auto` is on and the scan's suggestion is strong (see src/clean/alignment.ts).
+ * An offset of +h means the meter's timestamps run h hours ahead of true time, so the series is
+ * shifted back by h hours; flagged intervals are marked (mask), never removed.
  */
-import type { Portfolio } from "../domain/types.ts";
+import type { IntervalSeries, Portfolio } from "../domain/types.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
-import { detectAnomalies, type Detection } from "../clean/detect/index.ts";
+import { detectAnomalies, type Detection, type DetectConfigInput } from "../clean/detect/index.ts";
 import { suggestAlignment, type AlignmentSuggestion } from "../clean/alignment.ts";
+
+const HOUR_MS = 3_600_000;
 
 export interface MeterQuality {
   meterId: string;
   buildingId: string;
   detections: Detection[];
-  /** 1 = excluded from model training. */
+  /** 1 = excluded from model training; aligned with the (possibly shifted) series. */
   mask: Uint8Array;
+  /** The scan on the data as read (before any correction). */
   alignment: AlignmentSuggestion | null;
-  /** Offset applied to the meter's timestamps (hours); 0 until a user configures one. */
+  /** Hours the series was shifted back by (0 when none). */
   appliedOffsetHours: number;
+  /** Why an offset was applied: "configured", "automatic (strong evidence)", or null. */
+  appliedBecause: string | null;
   /** Why the alignment scan was not run, when it was not. */
   alignmentSkipped: string | null;
 }
 
-/** Runs the detectors and the alignment scan for every interval meter of the portfolio. */
-export function assessIntervalMeters(portfolio: Portfolio): MeterQuality[] {
+export interface QualityResult {
+  /** The portfolio with corrected interval clocks (the input is not mutated). */
+  portfolio: Portfolio;
+  meters: MeterQuality[];
+}
+
+/** The series with every timestamp moved back by `hours`. */
+export function shiftSeries(series: IntervalSeries, hours: number): IntervalSeries {
+  if (hours === 0) return series;
+  const startMs = new Float64Array(series.startMs.length);
+  for (let i = 0; i < startMs.length; i++) startMs[i] = series.startMs[i]! - hours * HOUR_MS;
+  return { ...series, startMs };
+}
+
+/** Aligns (where allowed) and screens every interval meter of the portfolio. */
+export function assessIntervalMeters(portfolio: Portfolio): QualityResult {
   const buildings = new Map(portfolio.buildings.map((b) => [b.buildingId, b]));
-  const out: MeterQuality[] = [];
+  const { offsetsHours, auto } = portfolio.settings.alignment;
+  const config = portfolio.settings.cleaning as DetectConfigInput;
+  const intervals = new Map(portfolio.intervals);
+  const meters: MeterQuality[] = [];
   for (const meter of portfolio.meters) {
-    const series = portfolio.intervals.get(meter.meterId);
+    const raw = portfolio.intervals.get(meter.meterId);
     const building = buildings.get(meter.buildingId);
-    if (!series || !building) continue;
-    const { detections, mask } = detectAnomalies(series, {}, { timezone: building.timezone });
+    if (!raw || !building) continue;
     const weather = portfolio.weather.get(building.weatherStation);
     let alignment: AlignmentSuggestion | null = null;
     let skipped: string | null = null;
     if (!weather) skipped = `no weather for station ${building.weatherStation}`;
     else if (meter.commodity !== "electricity") skipped = "alignment is scanned for electricity meters only";
-    else alignment = suggestAlignment(series, weather, building.timezone, { mask });
-    out.push({
+    else alignment = suggestAlignment(raw, weather, building.timezone, { mask: detectAnomalies(raw, config, { timezone: building.timezone }).mask });
+
+    let applied = 0;
+    let because: string | null = null;
+    if (meter.meterId in offsetsHours) {
+      applied = offsetsHours[meter.meterId]!;
+      because = "configured in portfolio.yaml";
+    } else if (auto && alignment?.strong && alignment.suggestedOffsetHours !== 0) {
+      applied = alignment.suggestedOffsetHours;
+      because = "applied automatically: strong evidence and alignment.auto is on";
+    }
+    const series = shiftSeries(raw, applied);
+    intervals.set(meter.meterId, series);
+    const { detections, mask } = detectAnomalies(series, config, { timezone: building.timezone });
+    meters.push({
       meterId: meter.meterId,
       buildingId: meter.buildingId,
       detections,
       mask,
       alignment,
-      appliedOffsetHours: 0,
+      appliedOffsetHours: applied,
+      appliedBecause: because,
       alignmentSkipped: skipped,
     });
   }
-  return out;
+  return { portfolio: { ...portfolio, intervals }, meters };
 }
 
 /** Weather gaps as detections (one per gap; `interpolated` when filled, `kept` when left missing). */

@@ -86,6 +86,7 @@ function alignmentJson(quality: MeterQuality[]) {
     meter_id: q.meterId,
     suggested_offset_hours: q.alignment?.suggestedOffsetHours ?? null,
     applied_offset_hours: q.appliedOffsetHours,
+    applied_because: q.appliedBecause,
     strong: q.alignment?.strong ?? false,
     evidence: q.alignment ? q.alignment.evidence : { note: q.alignmentSkipped },
   }));

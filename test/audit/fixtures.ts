@@ -44,6 +44,7 @@ export function portfolio(parts: { bills: Bill[]; billLines?: BillLine[]; meters
       escalation: { electricity: 0, gas: 0, water: 0 }, escalationStated: false,
       tolerances: { usagePct: 2, demandPct: 3, costAbs: 1, costPct: 0.5 },
       degreeDayBase: { heating: 18, cooling: 18, unit: "C" }, basePath: "/", intervalTimestamp: "start", weatherMaxGapHours: 6,
+      cleaning: {}, alignment: { offsetsHours: {}, auto: false },
     },
     buildings: [{ buildingId: "B1", name: "Fixture House", floorArea: 1000, areaUnit: "m2", floorAreaM2: 1000, timezone: ZONE, weatherStation: "W1", useType: null, tenantPage: false, source: { file: "buildings.csv", line: 2 } }],
     meters: parts.meters ?? [meter()],

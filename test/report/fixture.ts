@@ -20,6 +20,8 @@ const settings: PortfolioSettings = {
   basePath: "/reports/",
   intervalTimestamp: "start",
   weatherMaxGapHours: 6,
+  cleaning: {},
+  alignment: { offsetsHours: {}, auto: false },
 };
 
 function building(id: string, name: string, areaFt2: number, useType: string | null): Building {
