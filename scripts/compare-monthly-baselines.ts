@@ -10,7 +10,9 @@
  *
  *   npx tsx scripts/compare-monthly-baselines.ts [PORTFOLIO_DIR] [--relative] [--min=0.1] [--unit=C|F]
  * (--relative: relative leave-one-out residuals instead of use per day; --min: minimum half-width
- * share; --unit: temperature unit of the models, default the portfolio's degree_day_base unit)
+ * share; --unit: temperature unit of the models, default the portfolio's degree_day_base unit;
+ * --gas-heating-only: the DD+LOO band tries only the constant and heating-only forms on gas meters;
+ * --daily: degree-days from daily mean temperatures instead of hourly integration)
  */
 import { loadPortfolio } from "../src/ingest/index.ts";
 import { fitMeterBaseline, OUTLIER_BAND_LEVEL } from "../src/pipeline/baselines.ts";
@@ -48,6 +50,8 @@ const outsideList = (bills: Bill[], bands: Map<string, { low: number; high: numb
 
 const short = (billId: string): string => billId.replace(/^[A-Z]+-[A-Z]-/, "");
 const fmtScale = (s: number): string => (residualScale === "relative" ? `${(100 * s).toFixed(1)} %` : `${s.toPrecision(3)}/day`);
+const gasHeatingOnly = process.argv.includes("--gas-heating-only");
+const blockHours = process.argv.includes("--daily") ? 24 : 1;
 const rows: string[][] = [];
 let ddMs = 0;
 let ddMeters = 0;
@@ -70,7 +74,7 @@ for (const building of portfolio.buildings) {
       const endMs = localMidnightMs(bill.periodEnd, building.timezone);
       const profileC = temperatureProfileForPeriod({ startMs: weather.startMs, temps: weather.tempC }, startMs, endMs);
       if (profileC.hoursCovered < MIN_WEATHER_COVERAGE * profileC.hoursTotal) continue;
-      const profile = unit === "F" ? temperatureProfileForPeriod({ startMs: weather.startMs, temps: weatherInUnit! }, startMs, endMs) : profileC;
+      const profile = temperatureProfileForPeriod({ startMs: weather.startMs, temps: weatherInUnit ?? weather.tempC }, startMs, endMs, { blockHours });
       const h = profile.sortedTemps.length;
       const days = daysBetween(bill.periodStart, bill.periodEnd);
       const pt: BandPoint<Pt> = {
@@ -110,7 +114,7 @@ for (const building of portfolio.buildings) {
     const ddLoo = degreeDayOutlierBand(
       train.map((t) => ({ id: t.id, ...t.point })),
       all.map((t) => ({ id: t.id, ...t.point })),
-      { tempUnit: unit, residualScale, minRelativeHalfWidth },
+      { tempUnit: unit, residualScale, minRelativeHalfWidth, ...(gasHeatingOnly && meter.commodity === "gas" ? { forms: ["constant", "HO"] as const } : {}) },
     );
     ddMs += performance.now() - ddStarted;
     ddMeters++;
@@ -141,7 +145,7 @@ for (const building of portfolio.buildings) {
   }
 }
 
-process.stdout.write(`portfolio ${dir}, temperatures in °${unit}, LOO residuals ${residualScale}\n`);
+process.stdout.write(`portfolio ${dir}, temperatures in °${unit}, LOO residuals ${residualScale}, degree-days from ${blockHours === 24 ? "daily means" : "hourly values"}\n`);
 process.stdout.write("meter | CP form CV(RMSE)% NMBE% R² | DD form@base CV(RMSE)% NMBE% R² | bills outside each band\n");
 for (const r of rows) process.stdout.write(`${r[0].padEnd(6)} | ${r.slice(1, 3).join(" | ")}\n         ${r.slice(3).join("\n         ")}\n`);
 process.stdout.write("\nBills outside each band (all meters):\n");

@@ -79,22 +79,55 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
 /**
  * The profile of the period [startMs, endMs) of an hourly series; hours straddling an edge
  * count by their overlap, as in degreeDaysForPeriod (src/model/degreeDays.ts).
- * @throws ModelInputError when endMs ≤ startMs.
+ *
+ * `blockHours` = 24 averages each run of 24 hours from the period start first (daily means,
+ * the temperatures of the mean-temperature method and of PRISM, Fels 1986), so degree-days
+ * become Σ over days of (τ − daily mean)⁺; the default 1 integrates hourly values. A block's
+ * weight is its covered hours; a block with none is skipped. Bills start at local midnight, so
+ * the blocks are local days except after a DST change inside the period (off by one hour).
+ * @throws ModelInputError when endMs ≤ startMs or blockHours is not a positive integer.
  * @example temperatureProfileForPeriod({ startMs, temps }, billStartMs, billEndMs)
  */
-export function temperatureProfileForPeriod(series: HourlyTemps, startMs: number, endMs: number): TemperatureProfile {
+export function temperatureProfileForPeriod(series: HourlyTemps, startMs: number, endMs: number, options: { blockHours?: number } = {}): TemperatureProfile {
   if (!(endMs > startMs)) throw new ModelInputError(`period end must be after its start (${startMs} … ${endMs})`);
+  const blockHours = options.blockHours ?? 1;
+  if (!(Number.isInteger(blockHours) && blockHours >= 1)) throw new ModelInputError(`blockHours must be a positive integer, got ${blockHours}`);
   const first = Math.max(0, Math.floor((startMs - series.startMs) / HOUR_MS));
   const last = Math.min(series.temps.length - 1, Math.ceil((endMs - series.startMs) / HOUR_MS) - 1);
   const temps: number[] = [];
   const weights: number[] = [];
+  let blockIndex = -1;
+  let blockW = 0;
+  let blockWT = 0;
+  const flush = (): void => {
+    if (blockW > 0) {
+      temps.push(blockWT / blockW);
+      weights.push(blockW);
+    }
+    blockW = 0;
+    blockWT = 0;
+  };
   for (let i = first; i <= last; i++) {
     const h0 = series.startMs + i * HOUR_MS;
     const overlap = (Math.min(h0 + HOUR_MS, endMs) - Math.max(h0, startMs)) / HOUR_MS;
     if (overlap <= 0) continue;
-    temps.push(series.temps[i]);
-    weights.push(overlap);
+    const t = series.temps[i];
+    if (blockHours === 1) {
+      temps.push(t);
+      weights.push(overlap);
+      continue;
+    }
+    const b = Math.floor((Math.max(h0, startMs) - startMs) / (blockHours * HOUR_MS));
+    if (b !== blockIndex) {
+      flush();
+      blockIndex = b;
+    }
+    if (Number.isFinite(t)) {
+      blockW += overlap;
+      blockWT += overlap * t;
+    }
   }
+  flush();
   const profile = temperatureProfileFromHourly(temps, weights);
   // Hours beyond the series are missing too.
   return { ...profile, hoursTotal: (endMs - startMs) / HOUR_MS };

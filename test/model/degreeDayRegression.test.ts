@@ -94,6 +94,43 @@ describe("degree-days per day from the sorted profile", () => {
   });
 });
 
+describe("daily-mean profile (blockHours = 24)", () => {
+  const HOUR = 3_600_000;
+  it("hand-computed (project references): 12 h at 60 °F + 12 h at 70 °F, base 65 → daily mean 65, HDD = CDD = 0 (mean method)", () => {
+    const series = { startMs: 0, temps: [...Array(12).fill(60), ...Array(12).fill(70)] };
+    const profile = temperatureProfileForPeriod(series, 0, 24 * HOUR, { blockHours: 24 });
+    expect(hddPerDay(profile, 65)).toBe(0);
+    expect(cddPerDay(profile, 65)).toBe(0);
+    expect(hddPerDay(profile, 66)).toBeCloseTo(1, 12);
+  });
+
+  it("property: equals the mean over whole days of (base − daily mean)⁺ computed directly", () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 40 }),
+        fc.array(fc.double({ min: -30, max: 40, noNaN: true }), { minLength: 24 * 40, maxLength: 24 * 40 }),
+        fc.double({ min: -20, max: 35, noNaN: true }),
+        (days, temps, base) => {
+          const series = { startMs: 0, temps };
+          const profile = temperatureProfileForPeriod(series, 0, days * 24 * HOUR, { blockHours: 24 });
+          let hdd = 0;
+          for (let d = 0; d < days; d++) {
+            const dayMean = temps.slice(24 * d, 24 * d + 24).reduce((s, t) => s + t, 0) / 24;
+            hdd += Math.max(0, base - dayMean);
+          }
+          expect(hddPerDay(profile, base)).toBeCloseTo(hdd / days, 7);
+          expect(profile.hoursCovered).toBeCloseTo(days * 24, 9);
+        },
+      ),
+      { numRuns: 100 },
+    );
+  });
+
+  it("refuses a block that is not a positive whole number of hours", () => {
+    expect(() => temperatureProfileForPeriod({ startMs: 0, temps: [1, 2] }, 0, 2 * HOUR, { blockHours: 1.5 })).toThrow(ModelInputError);
+  });
+});
+
 describe("degree-day regression at fixed bases against statsmodels WLS (scripts/reference/make_degree_day_fixtures.py)", () => {
   expect(fixture.cases.map((c) => c.form)).toEqual(["HO", "CO", "HC"]);
   for (const c of fixture.cases) {
