@@ -52,15 +52,22 @@ export function simplexGrid(m: number, step: number): number[][] {
 
 /**
  * Combine rows of member predictions with one weight vector and exponent. Predictions at or
- * below `floor` are raised to it first (power means with p ≤ 0 need positive values).
+ * below `floor` are raised to it first (power means with p ≤ 0 need positive values); a row
+ * where any member is NaN gives NaN.
  */
 export function combinePredictions(members: readonly ArrayLike<number>[], weights: readonly number[], exponent: number, floor: number): Float64Array {
   const n = members[0]?.length ?? 0;
   const out = new Float64Array(n);
   const v = new Float64Array(members.length);
   for (let i = 0; i < n; i++) {
-    for (let j = 0; j < members.length; j++) v[j] = exponent === 1 ? members[j]![i]! : Math.max(members[j]![i]!, floor);
-    out[i] = generalizedWeightedMean(v, weights, exponent);
+    let missing = false;
+    for (let j = 0; j < members.length; j++) {
+      const x = members[j]![i]!;
+      if (Number.isNaN(x)) missing = true;
+      v[j] = exponent === 1 ? x : Math.max(x, floor);
+    }
+    // a row some member cannot predict (no weather) has no ensemble value either
+    out[i] = missing ? Number.NaN : generalizedWeightedMean(v, weights, exponent);
   }
   return out;
 }

@@ -182,6 +182,10 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     const out = new Float64Array(f.tempC.length);
     for (let i = 0; i < out.length; i++) {
       const h = f.hourOfWeek[i]!;
+      if (!Number.isFinite(f.tempC[i]!)) {
+        out[i] = Number.NaN; // no temperature, no prediction (callers count these hours)
+        continue;
+      }
       const r = row(h, f.holiday[i]!, f.tempC[i]!, -1);
       let s = seen[h]! >= 0 ? beta[seen[h]!]! : fallback[occupied[h]!]!;
       for (let j = nHow; j < k; j++) s += r[j]! * beta[j]!;

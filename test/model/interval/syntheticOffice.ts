@@ -25,6 +25,8 @@ export interface SyntheticOfficeOptions {
   baseKw?: number;
   /** Relative noise (sd as a share of the true load). Default 0.05. */
   noise?: number;
+  /** Seed of the weather; meters sharing it share a station. Default seed + 1000. */
+  weatherSeed?: number;
 }
 
 /** Hourly weather: seasonal + daily cycle + AR(1) noise, °C. */
@@ -55,7 +57,7 @@ export function syntheticOffice(options: SyntheticOfficeOptions = {}): Synthetic
   const days = options.days ?? 365;
   const rand = mulberry32(options.seed ?? 1);
   const hours = days * 24 + 48;
-  const weather = syntheticWeather(start - 24 * 3_600_000, hours, (options.seed ?? 1) + 1000);
+  const weather = syntheticWeather(start - 24 * 3_600_000, hours, options.weatherSeed ?? (options.seed ?? 1) + 1000);
   const n = days * 96;
   const startMs = new Float64Array(n);
   const values = new Float64Array(n);
