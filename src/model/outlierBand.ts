@@ -185,52 +185,72 @@ export interface DegreeDayOutlierBand {
   fit: DegreeDayFit | null;
   /** Every form tried in that final selection. */
   tried: DegreeDaySelection["tried"];
-  /** Bands for every target bill (empty when no model). */
+  /** Bands for every target bill (empty when no model or too few bills for leave-one-out). */
   bands: Map<string, BillBand>;
-  /** Training bills refitted out because they fell outside the first band (e.g. a leak). */
+  /** Training bills refitted out, in the order they were dropped (e.g. a leak). */
   rejected: string[];
-  /** Leave-one-out statistics of the final band; null when no model. */
+  /** Leave-one-out statistics of the final band; null when no band. */
   band: Pick<OutlierBandResult<DegreeDayPeriod>, "looResiduals" | "scale" | "k" | "effectiveDf"> | null;
+}
+
+export interface DegreeDayOutlierBandOptions extends DegreeDaySelectionOptions, Omit<OutlierBandOptions, "rejectionRounds"> {
+  /** Most training bills refitted out, as a share of them (at least one). Default 0.1. */
+  maxRejectedShare?: number;
 }
 
 /**
  * The recommended `usage-outlier` band: variable-base degree-day model (fitDegreeDayModel) with a
- * leave-one-out band (outlierBand). Steps: choose the form on all training bills and band them;
- * drop the training bills outside that band; choose the form again on the rest (so a summer
- * leak cannot pass for cooling) and band every target bill from leave-one-out residuals of that
- * final form, bases re-searched in each leave-one-out fit.
+ * leave-one-out band (outlierBand), bases re-searched in every leave-one-out fit.
+ * Rejection, one bill at a time: choose the form, band the training bills; if any falls
+ * outside, drop the one furthest outside (relative to its half-width), choose the form again
+ * and repeat, at most ⌈maxRejectedShare · n⌉ times. One at a time because a leak pulls the
+ * fit towards itself: dropping everything outside the first band would also drop clean bills
+ * the contaminated fit mispredicts (on the demo, all nine summer bills of ASH-W), and choosing
+ * the form again keeps a summer leak from passing for cooling. Every target bill, including
+ * estimated reads and duplicates left out of the fit, is banded from the final model.
  * @param train actual reads, one bill per period, with enough weather.
- * @param targets every bill that needs a band, including estimated reads and duplicates.
+ * @param targets every bill that needs a band.
  * @example degreeDayOutlierBand(train, allBills, { tempUnit: "C" }).bands.get("ASH-W-2025-08")
  */
 export function degreeDayOutlierBand(
   train: readonly DegreeDayBandBill[],
   targets: readonly DegreeDayBandBill[],
-  options: DegreeDaySelectionOptions & Omit<OutlierBandOptions, "rejectionRounds"> = {},
+  options: DegreeDayOutlierBandOptions = {},
 ): DegreeDayOutlierBand {
+  const maxShare = options.maxRejectedShare ?? 0.1;
+  if (!(maxShare >= 0 && maxShare < 1)) throw new ModelInputError(`maxRejectedShare must be in [0, 1), got ${maxShare}`);
+  const maxRejected = Math.max(1, Math.ceil(maxShare * train.length));
   const asBand = (b: DegreeDayBandBill): BandPoint<DegreeDayPeriod> => ({ id: b.id, point: b, usePerDay: b.usePerDay, days: b.days });
   const refit = (form: DegreeDayForm) => (pts: DegreeDayPeriod[]): BandModel<DegreeDayPeriod> => {
     const f = fitDegreeDayForm(pts, form, options);
     return { predictPerDay: (p) => f.predictPerDay(p.profile) };
   };
-  const none = (tried: DegreeDaySelection["tried"], rejected: string[]): DegreeDayOutlierBand => ({ fit: null, tried, bands: new Map(), rejected, band: null });
   const bandOptions = { ...options, rejectionRounds: 0 };
-
-  const first = fitDegreeDayModel(train, options);
-  if (!first.chosen) return none(first.tried, []);
-  const firstBand = outlierBand(train.map(asBand), refit(first.chosen.form), train.map(asBand), bandOptions);
-  const rejected = firstBand
-    ? train.filter((b) => {
-        const band = firstBand.bands.get(b.id)!;
-        const used = b.usePerDay * b.days;
-        return used < band.low || used > band.high;
-      }).map((b) => b.id)
-    : [];
-  const kept = train.filter((b) => !rejected.includes(b.id));
-  const final = fitDegreeDayModel(kept, options);
-  if (!final.chosen) return none(final.tried, rejected);
-  const finalBand = outlierBand(kept.map(asBand), refit(final.chosen.form), targets.map(asBand), bandOptions);
-  if (!finalBand) return { ...none(final.tried, rejected), fit: final.chosen };
-  const { looResiduals, scale, k, effectiveDf } = finalBand;
-  return { fit: final.chosen, tried: final.tried, bands: finalBand.bands, rejected, band: { looResiduals, scale, k, effectiveDf } };
+  const rejected: string[] = [];
+  let kept = [...train];
+  for (;;) {
+    const selection = fitDegreeDayModel(kept, options);
+    if (!selection.chosen) return { fit: null, tried: selection.tried, bands: new Map(), rejected, band: null };
+    // Band the kept bills (to find the worst) and the targets in one pass; ids are shared.
+    const keptIds = new Set(kept.map((b) => b.id));
+    const toBand = [...kept, ...targets.filter((t) => !keptIds.has(t.id))].map(asBand);
+    const res = outlierBand(kept.map(asBand), refit(selection.chosen.form), toBand, bandOptions);
+    if (!res) return { fit: selection.chosen, tried: selection.tried, bands: new Map(), rejected, band: null };
+    let worst: { id: string; excess: number } | null = null;
+    for (const b of kept) {
+      const band = res.bands.get(b.id)!;
+      const used = b.usePerDay * b.days;
+      const half = (band.high - band.low) / 2 || Number.MIN_VALUE;
+      const excess = used > band.high ? (used - band.high) / half : used < band.low ? (band.low - used) / half : 0;
+      if (excess > 0 && (worst === null || excess > worst.excess)) worst = { id: b.id, excess };
+    }
+    if (worst === null || rejected.length >= maxRejected) {
+      const bands = new Map<string, BillBand>();
+      for (const t of targets) bands.set(t.id, res.bands.get(t.id)!);
+      const { looResiduals, scale, k, effectiveDf } = res;
+      return { fit: selection.chosen, tried: selection.tried, bands, rejected, band: { looResiduals, scale, k, effectiveDf } };
+    }
+    rejected.push(worst.id);
+    kept = kept.filter((b) => b.id !== worst!.id);
+  }
 }
