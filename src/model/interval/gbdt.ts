@@ -125,6 +125,12 @@ function boost(
   const bins: FeatureBins[] = trainCols.map((c) => binCuts(c, o.maxBins));
   const binned = columns.map((c, j) => binColumn(bins[j]!, c));
   const nb = o.maxBins + 1; // NaN bin included
+  // row-major copy: one row's bins side by side, so the histogram pass reads memory in order
+  const rowBins = new Uint8Array(n * f);
+  for (let j = 0; j < f; j++) {
+    const col = binned[j]!;
+    for (let i = 0; i < n; i++) rowBins[i * f + j] = col[i]!;
+  }
   let base = 0;
   for (let i = 0; i < nTrain; i++) base += y[i]!;
   base /= nTrain;
@@ -139,8 +145,6 @@ function boost(
   const all = new Int32Array(nTrain);
   for (let i = 0; i < nTrain; i++) all[i] = i;
   const sampleSize = Math.max(1, Math.round(o.subsample * nTrain));
-  const histG = new Float64Array(f * nb);
-  const histN = new Float64Array(f * nb);
 
   for (let t = 0; t < nTrees; t++) {
     for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!; // negative gradient of ½(y − ŷ)²
@@ -156,7 +160,7 @@ function boost(
       }
       rows = perm.subarray(0, sampleSize);
     } else rows = Int32Array.from(all);
-    const tree = growTree(rows, grad, binned, bins, o, histG, histN, nb);
+    const tree = growTree(rows, grad, rowBins, bins, o, nb);
     trees.push(tree);
     for (let i = 0; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
     let sse = 0;
@@ -190,16 +194,39 @@ interface NodeTask {
   start: number;
   end: number;
   depth: number;
+  /** Gradient sums and counts per (feature, bin), when already known (histogram subtraction). */
+  histG: Float64Array | null;
+  histN: Float64Array | null;
 }
 
+/** Histograms of rows[start, end) from the row-major bin matrix. */
+function buildHistogram(rows: Int32Array, start: number, end: number, grad: Float64Array, rowBins: Uint8Array, f: number, nb: number): [Float64Array, Float64Array] {
+  const hg = new Float64Array(f * nb);
+  const hn = new Float64Array(f * nb);
+  for (let r = start; r < end; r++) {
+    const i = rows[r]!;
+    const g = grad[i]!;
+    const base = i * f;
+    for (let j = 0; j < f; j++) {
+      const b = j * nb + rowBins[base + j]!;
+      hg[b]! += g;
+      hn[b]!++;
+    }
+  }
+  return [hg, hn];
+}
+
+/**
+ * Grow one tree depth-first. The child with fewer rows gets its histogram built from its rows;
+ * the larger child's is the parent's minus it (the subtraction trick of LightGBM), which
+ * roughly halves the histogram work.
+ */
 function growTree(
   rows: Int32Array,
   grad: Float64Array,
-  binned: Uint8Array[],
+  rowBins: Uint8Array,
   bins: FeatureBins[],
   o: ReturnType<typeof resolve>,
-  histG: Float64Array,
-  histN: Float64Array,
   nb: number,
 ): GbdtTree {
   const feature: number[] = [];
@@ -217,27 +244,20 @@ function growTree(
     value.push(0);
     return feature.length - 1;
   };
-  const f = binned.length;
-  const stack: NodeTask[] = [{ node: newNode(), start: 0, end: rows.length, depth: 0 }];
+  const f = bins.length;
+  const canSplit = (count: number, depth: number): boolean => depth < o.maxDepth && count >= 2 * o.minSamplesLeaf;
+  const stack: NodeTask[] = [{ node: newNode(), start: 0, end: rows.length, depth: 0, histG: null, histN: null }];
   while (stack.length) {
-    const { node, start, end, depth } = stack.pop()!;
+    const task = stack.pop()!;
+    const { node, start, end, depth } = task;
     const count = end - start;
     let gSum = 0;
     for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
     value[node] = (o.learningRate * gSum) / (count + o.l2Leaf);
-    if (depth >= o.maxDepth || count < 2 * o.minSamplesLeaf) continue;
-    histG.fill(0);
-    histN.fill(0);
-    for (let j = 0; j < f; j++) {
-      const col = binned[j]!;
-      const off = j * nb;
-      for (let r = start; r < end; r++) {
-        const i = rows[r]!;
-        const b = off + col[i]!;
-        histG[b]! += grad[i]!;
-        histN[b]!++;
-      }
-    }
+    if (!canSplit(count, depth)) continue;
+    let histG = task.histG;
+    let histN = task.histN;
+    if (!histG || !histN) [histG, histN] = buildHistogram(rows, start, end, grad, rowBins, f, nb);
     const parentScore = (gSum * gSum) / (count + o.l2Leaf);
     let bestGain = 1e-12 * Math.max(parentScore, 1e-300);
     let bestF = -1;
@@ -264,11 +284,10 @@ function growTree(
     }
     if (bestF < 0) continue;
     // partition rows[start, end) in place: bin ≤ bestBin first
-    const col = binned[bestF]!;
     let i = start;
     let k = end - 1;
     while (i <= k) {
-      if (col[rows[i]!]! <= bestBin) i++;
+      if (rowBins[rows[i]! * f + bestF]! <= bestBin) i++;
       else {
         const tmp = rows[i]!;
         rows[i] = rows[k]!;
@@ -283,7 +302,22 @@ function growTree(
     const r = newNode();
     left[node] = l;
     right[node] = r;
-    stack.push({ node: r, start: i, end, depth: depth + 1 }, { node: l, start, end: i, depth: depth + 1 });
+    const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, histG: null, histN: null };
+    const rTask: NodeTask = { node: r, start: i, end, depth: depth + 1, histG: null, histN: null };
+    if (canSplit(i - start, depth + 1) || canSplit(end - i, depth + 1)) {
+      const [small, large] = i - start <= end - i ? [lTask, rTask] : [rTask, lTask];
+      const [sg, sn] = buildHistogram(rows, small.start, small.end, grad, rowBins, f, nb);
+      small.histG = sg;
+      small.histN = sn;
+      // the parent's histogram is not needed any more: reuse it for the larger child
+      for (let b = 0; b < histG.length; b++) {
+        histG[b]! -= sg[b]!;
+        histN[b]! -= sn[b]!;
+      }
+      large.histG = histG;
+      large.histN = histN;
+    }
+    stack.push(rTask, lTask);
   }
   return {
     feature: Int16Array.from(feature),
