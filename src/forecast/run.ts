@@ -1,6 +1,6 @@
 /**
  * One call for the build: calibrate the noise on the backtest year, report the track record
- * (uncalibrated and calibrated), and forecast the next months with the chosen factor.
+ * at the chosen factor, and forecast the next months with it.
  */
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
@@ -12,10 +12,12 @@ import { backtestInputs, trackRecord, type TrackRecord } from "./trackRecord.ts"
 export interface ForecastBundle {
   forecast: PortfolioForecast;
   calibration: CalibrationResult;
-  /** Track record with the chosen factor (its coverage is in-sample: the factor was chosen on it). */
+  /**
+   * Track record with the chosen factor. Its coverage is in-sample (the factor was chosen on the
+   * same months); the coverage with the model's own interval (factor 1) is in
+   * `calibration.coverageByFactor`.
+   */
   trackRecord: TrackRecord;
-  /** Track record with factor 1 (the model's own interval): the out-of-sample coverage. */
-  trackRecordUncalibrated: TrackRecord;
 }
 
 /**
@@ -32,8 +34,7 @@ export function forecastWithTrackRecord(
   const billsByMeter = new Map<string, typeof portfolio.bills>();
   for (const b of portfolio.bills) billsByMeter.set(b.meterId, [...(billsByMeter.get(b.meterId) ?? []), b]);
   const calibration = calibrateNoise(inputs, billsByMeter, options.asOf);
-  const trackRecordUncalibrated = trackRecord(portfolio, { ...trOptions, calibration: 1 }, inputs);
-  const calibrated = calibration.factor === 1 ? trackRecordUncalibrated : trackRecord(portfolio, { ...trOptions, calibration: calibration.factor }, inputs);
+  const record = trackRecord(portfolio, { ...trOptions, calibration: calibration.factor }, inputs);
   const forecast = forecastPortfolio(portfolio, { ...options, calibration: calibration.factor });
-  return { forecast, calibration, trackRecord: calibrated, trackRecordUncalibrated };
+  return { forecast, calibration, trackRecord: record };
 }
