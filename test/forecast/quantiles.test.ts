@@ -9,7 +9,7 @@ describe("bandOf (P10/P50/P90, type-7 quantiles)", () => {
     expect(bandOf(xs)).toEqual({ p10, p50, p90 });
   });
 
-  it("interpolates at index (n − 1)·p, as R type 7 / numpy 'linear' (hand-computed)", () => {
+  it("interpolates at index (n − 1)·p, as R type 7 / numpy 'linear' (hand-computed; numpy.quantile gives the same values)", () => {
     // n = 5: P10 index 0.4 → 1 + 0.4·(2 − 1) = 1.4; P90 index 3.6 → 4 + 0.6·(5 − 4) = 4.6.
     expect(bandOf([5, 1, 4, 2, 3])).toEqual({ p10: 1.4, p50: 3, p90: 4.6 });
     // The simple-statistics doc example sample, n = 11: indices 1, 5, 9 fall on order statistics.
