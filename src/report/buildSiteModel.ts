@@ -9,6 +9,7 @@ import { buildDataPage } from "./dataPage.ts";
 import { trailingYear } from "./periods.ts";
 import { formatDate } from "./format.ts";
 import { canonicalFor } from "./nav.ts";
+import { buildTenantPage } from "./tenantPage.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
@@ -54,6 +55,9 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     },
     index: withCanonical(buildIndexPage(input, contexts, window)),
     buildings: contexts.map((ctx) => withCanonical(buildBuildingPage(input, ctx))),
+    tenants: contexts
+      .filter((ctx) => ctx.building.tenantPage)
+      .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines))),
     methods: withCanonical(buildMethodsPage(currency, windowText(window))),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
   };

@@ -9,6 +9,10 @@ import { commodityLabel } from "./labels.ts";
 import { billMath, billsTable, meteredTable } from "./billTables.ts";
 import { commodityCharts } from "./usageCharts.ts";
 import { findingsTable, forecastTable, modelsTable } from "./analysisTables.ts";
+import { baselineSections } from "./baselineSection.ts";
+import { qualitySections, weatherQualityTable } from "./qualitySection.ts";
+import { forecastSection } from "./forecastSection.ts";
+import { tenantPath } from "./tenantPage.ts";
 
 export { billDifference } from "./billTables.ts";
 
@@ -89,5 +93,11 @@ export function buildBuildingPage(input: ReportInput, ctx: BuildingContext): Omi
     downloads: [],
     forecastTable: forecastTable(b.buildingId, input, currency),
     modelsTable: modelsTable(meters, input),
+    baselines: baselineSections(meters, input.baselines, ctx.billsByMeter),
+    quality: qualitySections(b, meters, input.quality, input.portfolio.intervals),
+    weatherQualityTable: weatherQualityTable(b, input.weatherDetections),
+    forecast: forecastSection(b.buildingId, meters, input, currency),
+    // Relative from buildings/<id>.html to buildings/<id>/tenant.html.
+    tenantHref: b.tenantPage ? tenantPath(b.buildingId).slice("buildings/".length) : null,
   };
 }

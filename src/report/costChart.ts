@@ -1,6 +1,6 @@
 /** Portfolio chart: billed cost per calendar month, stacked by commodity. */
 import type { Bill, Meter } from "../domain/types.ts";
-import type { ChartDatum, ChartModel } from "./siteModel.ts";
+import type { ChartDatum, MonthlyChartModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatMonth } from "./format.ts";
 import { spreadOverMonths } from "./periods.ts";
 import { commodityLabel } from "./labels.ts";
@@ -11,7 +11,7 @@ import { partialMonthsNote } from "./coverage.ts";
  * days. Null when there are no bills.
  * @example monthlyCostChart(bills, meters, "USD")?.data[0] // { month: "2024-01", series: "Electricity", value: 1234.56 }
  */
-export function monthlyCostChart(bills: readonly Bill[], meters: readonly Meter[], currency: string): ChartModel | null {
+export function monthlyCostChart(bills: readonly Bill[], meters: readonly Meter[], currency: string): MonthlyChartModel | null {
   const commodityOf = new Map(meters.map((m) => [m.meterId, commodityLabel(m.commodity)]));
   const sums = new Map<string, Map<string, number>>(); // month → commodity → cost
   for (const b of bills) {

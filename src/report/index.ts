@@ -1,5 +1,5 @@
 /** The report stage: pipeline results → page view models. */
-export type { ReportInput, PricedBill, MonthlyMetered, ReportFinding, ReportModelSummary, ReportForecastMonth } from "./input.ts";
+export type * from "./input.ts";
 export type * from "./siteModel.ts";
 export { buildSiteModel } from "./buildSiteModel.ts";
 export { describeDataFiles, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";

@@ -8,6 +8,9 @@ import { prorateToWindow, type DayWindow } from "./periods.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { windowCost } from "./buildingPage.ts";
 import { monthlyCostChart } from "./costChart.ts";
+import { EUI_BASIS, findingsByCheckChart, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
+import { addMonthsIso } from "./periods.ts";
+import { tenantPath } from "./tenantPage.ts";
 
 /** Usage in the window by unit, e.g. "12,345 kWh; 40 MWh", or "—" when none. */
 function usageByUnit(meters: Meter[], billsByMeter: Map<string, Bill[]>, window: DayWindow | null): TableCell {
@@ -80,7 +83,14 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     headline.push({ label: "Findings", value: formatNumber(input.findings.length) });
     headline.push({ label: "Money at stake (bills that look too high)", value: formatMoney(atStake, currency) });
   }
-  if (input.forecast && input.forecast.length > 0) {
+  const horizon = input.portfolio.settings.forecastMonths;
+  if (input.portfolioForecast) {
+    const f = input.portfolioForecast;
+    headline.push({
+      label: `Forecast cost, next ${formatNumber(horizon)} months`,
+      value: `${formatMoney(f.p50, currency)} (80 % range ${formatMoney(f.p10, currency)} – ${formatMoney(f.p90, currency)})`,
+    });
+  } else if (input.forecast && input.forecast.length > 0) {
     let p10 = 0;
     let p50 = 0;
     let p90 = 0;
@@ -89,15 +99,30 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
       p50 += f.costP50;
       p90 += f.costP90;
     }
+    const months = new Set(input.forecast.map((f) => f.month)).size;
     headline.push({
-      label: "Forecast cost, next period",
-      value: `${formatMoney(p50, currency)} (range ${formatMoney(p10, currency)} – ${formatMoney(p90, currency)})`,
+      label: `Forecast cost, next ${formatNumber(months)} months`,
+      // Sums of monthly percentiles: wider than the true range of the total.
+      value: `${formatMoney(p50, currency)} (at most ${formatMoney(p10, currency)} – ${formatMoney(p90, currency)})`,
+    });
+  }
+  const prior = window ? { start: addMonthsIso(window.start, -12), end: window.start } : null;
+  const change = normalizedChangePct(contexts, input.baselines, window, prior);
+  if (change != null) {
+    const r = Math.round(change * 10) / 10;
+    headline.push({
+      label: "Weather-normalized energy use vs the year before",
+      value: r === 0 ? "no change" : `${r > 0 ? "+" : "−"}${formatNumber(Math.abs(r), 1)} %`,
     });
   }
   const costChart = monthlyCostChart(input.portfolio.bills, input.portfolio.meters, currency);
   return {
     title: settings.name,
     charts: costChart ? [costChart] : [],
+    intensityChart: intensityChart(contexts, window),
+    intensityNote: EUI_BASIS,
+    findingsChart: findingsByCheckChart(input.findings, currency),
+    tenantLinks: contexts.filter((c) => c.building.tenantPage).map((c) => ({ name: c.building.name, href: tenantPath(c.building.buildingId) })),
     lede: `Utility bills for ${formatNumber(contexts.length)} ${contexts.length === 1 ? "building" : "buildings"}, each re-priced from its tariff and checked. Figures for the last 12 months cover ${windowText(window)}.`,
     root: "",
     path: "index.html",

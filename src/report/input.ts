@@ -70,6 +70,145 @@ export interface ReportForecastMonth {
   costP90: number;
 }
 
+/** One problem a data-cleaning detector found in a meter's interval data. */
+export interface ReportDetection {
+  /** Detector code, e.g. `zero-run`, `constant-run`, `spike`, `negative`, `reset`, `duplicate`, `missing`. */
+  kind: string;
+  /** First flagged interval start, UTC epoch ms. */
+  startMs: number;
+  /** End of the last flagged interval (exclusive), UTC epoch ms. */
+  endMs: number;
+  /** Number of intervals involved. */
+  intervals: number;
+  /** What was done, e.g. `excluded from models`, `kept`, `dropped duplicate`. */
+  action: string;
+  /** Plain-words evidence, e.g. "14 h of 0 kWh; the same hours of other weeks average 42 kWh". */
+  detail: string;
+}
+
+/** The clock-offset check of one interval meter against its building's weather. */
+export interface ReportAlignment {
+  /** Offset (hours, −14…+14) with the best load–temperature relationship. */
+  suggestedOffsetHours: number;
+  /** Offset actually applied before modelling (0 when none). */
+  appliedOffsetHours: number;
+  /** Whether the evidence for the suggestion counts as strong. */
+  strong: boolean;
+  /** One plain sentence of evidence or of why nothing was applied. */
+  note: string;
+  /** Score per offset tried (partial R² of temperature, 0…1), any order. */
+  scores: { offsetHours: number; score: number }[];
+}
+
+/** Data-cleaning results for one interval meter. */
+export interface ReportMeterQuality {
+  meterId: string;
+  buildingId: string;
+  intervalMinutes: number;
+  detections: ReportDetection[];
+  /** 1 = interval flagged (excluded from models); same length and order as `portfolio.intervals.get(meterId)`. */
+  mask: Uint8Array;
+  /** Null when alignment was not checked (e.g. no weather). */
+  alignment: ReportAlignment | null;
+}
+
+/** A gap in a weather station's hourly temperatures and what was done about it. */
+export interface ReportWeatherDetection {
+  stationId: string;
+  /** First missing hour, UTC epoch ms. */
+  startMs: number;
+  /** End of the gap (exclusive), UTC epoch ms. */
+  endMs: number;
+  hours: number;
+  /** e.g. `interpolated` or `left missing`. */
+  action: string;
+}
+
+/** One bill as a point of a bill-level baseline (average period temperature vs use per day). */
+export interface ReportBaselinePoint {
+  billId: string;
+  /** Mean outdoor temperature over the bill period, in `tempUnit`. */
+  temp: number;
+  /** Billed use per day, meter unit. */
+  usePerDay: number;
+  /** Reason the bill was left out of the fit (e.g. "estimated read"); absent = used. */
+  excluded?: string;
+}
+
+/** Guideline 14 statistics of a fitted model. */
+export interface ReportFitStats {
+  /** CV(RMSE) in percent, n − p degrees of freedom. */
+  cvRmsePct: number;
+  /** NMBE in percent, n − p degrees of freedom. */
+  nmbePct: number;
+  r2: number;
+  /** Observations fitted. */
+  n: number;
+  /** Model parameters. */
+  p: number;
+}
+
+/** One candidate model the selection considered. */
+export interface ReportModelTried {
+  kind: string;
+  accepted: boolean;
+  /** Plain reasons for rejection or selection, e.g. ["heating slope positive"]. */
+  reasons: string[];
+  cvRmsePct: number | null;
+  nmbePct: number | null;
+  r2: number | null;
+}
+
+/** Model expectations for one bill (meter unit, whole bill period). */
+export interface ReportBillExpectation {
+  billId: string;
+  /** Model use for the period at the period's actual mean temperature. */
+  expectedAtActualWeather: number;
+  /** Model use for the same days at typical-year temperatures. */
+  expectedAtTypicalWeather: number;
+}
+
+/** The bill-level weather baseline of one meter. */
+export interface ReportBaseline {
+  meterId: string;
+  /** Chosen form: `1P`, `2P`, `3PH`, `3PC`, `4P`, `5P`, … or `none` when no model was accepted. */
+  kind: string;
+  tempUnit: "C" | "F";
+  /** Meter usage unit (use per day is in this unit). */
+  unit: string;
+  points: ReportBaselinePoint[];
+  /** The fitted line sampled across the temperature range, ascending temperature. */
+  curve: { temp: number; usePerDay: number }[];
+  stats: ReportFitStats | null;
+  /** Whether CV(RMSE) ≤ 15 % and |NMBE| ≤ 5 % (monthly data, Guideline 14). */
+  meetsGuideline14: boolean;
+  /** Weather-normalized annual use, meter unit; null without a model or typical weather. */
+  normalizedAnnual: number | null;
+  typicalSource: "normals" | "history" | null;
+  tried: ReportModelTried[];
+  perBill: ReportBillExpectation[];
+}
+
+/** Backtest accuracy of the forecast for one meter. */
+export interface ReportTrackRecord {
+  meterId: string;
+  /** Error of the annual cost forecast, percent of actual (signed, + = forecast high). */
+  annualCostErrorPct: number;
+  /** CV(RMSE) of the monthly cost forecast, percent. */
+  monthlyCvRmsePct: number;
+  /** Share of actual months inside the P10–P90 band, 0…1. */
+  coverage: number;
+  /** Annual cost error of the naive "same month last year" forecast, percent. */
+  naiveAnnualCostErrorPct: number;
+}
+
+/** A cost range for the next forecast period (portfolio currency). */
+export interface ReportCostRange {
+  p10: number;
+  p50: number;
+  p90: number;
+}
+
 export interface ReportInput {
   /** The validated portfolio from ingest (buildings, meters, bills, settings, ingest report). */
   portfolio: Portfolio;
@@ -89,4 +228,16 @@ export interface ReportInput {
   models?: ReportModelSummary[];
   /** Cost forecast by meter and month, when the forecast stage ran. */
   forecast?: ReportForecastMonth[];
+  /** Data-cleaning results per interval meter, when the cleaning stage ran. */
+  quality?: ReportMeterQuality[];
+  /** Weather gaps per station and what was done about them. */
+  weatherDetections?: ReportWeatherDetection[];
+  /** Bill-level weather baseline per meter, when the model stage ran. */
+  baselines?: ReportBaseline[];
+  /** Forecast backtest per meter. */
+  trackRecord?: ReportTrackRecord[];
+  /** Forecast cost of the whole forecast horizon per building, with its range (proper percentiles of the sum). */
+  forecastTotals?: (ReportCostRange & { buildingId: string })[];
+  /** Forecast cost of the whole portfolio over the forecast horizon. */
+  portfolioForecast?: ReportCostRange;
 }

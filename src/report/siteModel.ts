@@ -43,28 +43,75 @@ export interface ChartDatum {
   value: number;
 }
 
-/**
- * A chart as the report stage describes it. The site stage fills `spec`, `specJson`, `svg`
- * (src/site/prepareCharts.ts); the template places the SVG fallback, the JSON spec and the table.
- */
-export interface ChartModel {
+/** What every chart carries, whatever its kind. */
+export interface ChartBase {
   /** Unique within the page; used as the DOM id. */
   id: string;
-  kind: "monthly-usage" | "monthly-cost";
   title: string;
   /** One-sentence description for screen readers and the figure caption. */
   description: string;
+  /** The same numbers as a table: the text equivalent of the chart. */
+  table: TableModel;
+  /** Vega-Lite spec (filled by src/site/prepareSite.ts). */
+  spec?: Record<string, unknown>;
+  /** The spec compiled to Vega, as escaped JSON for the page (what the browser runs). */
+  specJson?: string;
+  /** Server-rendered SVG fallback. */
+  svg?: string;
+}
+
+/**
+ * A monthly bar chart (use or cost), stacked by series. The site stage fills `spec`,
+ * `specJson`, `svg`; the template places the SVG fallback, the JSON spec and the table.
+ */
+export interface MonthlyChartModel extends ChartBase {
+  kind: "monthly-usage" | "monthly-cost";
   /** Axis label for values, e.g. "Usage (kWh)". */
   valueLabel: string;
   /** Legend title of the series, e.g. "Meter" or "Commodity". */
   seriesLabel: string;
   data: ChartDatum[];
-  /** The same numbers as a table: the text equivalent of the chart. */
-  table: TableModel;
-  spec?: Record<string, unknown>;
-  specJson?: string;
-  svg?: string;
 }
+
+/** Use per day against period temperature, one point per bill, with the fitted model line. */
+export interface BaselineScatterChartModel extends ChartBase {
+  kind: "baseline-scatter";
+  /** e.g. "Mean outdoor temperature (°C)". */
+  tempLabel: string;
+  /** e.g. "Use per day (kWh)". */
+  useLabel: string;
+  points: { billId: string; period: string; temp: number; usePerDay: number; status: string }[];
+  curve: { temp: number; usePerDay: number }[];
+}
+
+/** Actual use per day of each bill over time, with the model's expectation at the actual weather. */
+export interface BaselineTimeChartModel extends ChartBase {
+  kind: "baseline-time";
+  useLabel: string;
+  /** `mid` is the period's middle day `YYYY-MM-DD` (plotted on a UTC time scale). */
+  bills: { billId: string; period: string; mid: string; actualPerDay: number; expectedPerDay: number }[];
+}
+
+/** Calendar heatmap of interval data: one cell per local day × hour, flagged hours marked. */
+export interface HeatmapChartModel extends ChartBase {
+  kind: "quality-heatmap";
+  /** e.g. "Use per hour (kWh)". */
+  valueLabel: string;
+  /** One row per local day, ascending; `values[h]` the day's use in hour h (null = no data), `flagged[h]` 1 when any interval of that hour was flagged. */
+  days: { day: string; values: (number | null)[]; flagged: number[] }[];
+}
+
+/** Horizontal bars ranking labelled items (e.g. intensity by building, money by check). */
+export interface RankingChartModel extends ChartBase {
+  kind: "ranking";
+  valueLabel: string;
+  /** d3-format of the value in tooltips, e.g. ",.0f". */
+  valueFormat: string;
+  /** Largest first. `note` is an extra tooltip line (e.g. "3 findings"). */
+  items: { label: string; value: number; note: string }[];
+}
+
+export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel;
 
 export interface LabelValue {
   label: string;
@@ -99,6 +146,14 @@ export interface IndexPage extends PageBase {
   buildings: IndexBuildingRow[];
   /** Portfolio charts (monthly billed cost by commodity). */
   charts: ChartModel[];
+  /** EUI ranking (kWh/m²); null when no building has energy use and floor area. */
+  intensityChart: ChartModel | null;
+  /** Sentence naming the site-energy basis of the ranking. */
+  intensityNote: string;
+  /** Findings by check; null when the audit did not run or found nothing. */
+  findingsChart: ChartModel | null;
+  /** Tenant pages, for the index's list. */
+  tenantLinks: { name: string; href: string }[];
 }
 
 export interface MathLine {
@@ -139,7 +194,41 @@ export interface MeterSection {
 export interface CommoditySection {
   commodity: string;
   heading: string;
+  charts: MonthlyChartModel[];
+}
+
+/** The weather baseline of one meter: charts, statistics against Guideline 14, every model tried. */
+export interface BaselineSection {
+  meterId: string;
+  heading: string;
+  /** Plain verdict, e.g. "Meets ASHRAE Guideline 14 for monthly data: …". */
+  verdict: string;
+  /** `ok` meets the thresholds, `warn` does not, `none` no model. */
+  verdictTone: "ok" | "warn" | "none";
+  facts: LabelValue[];
   charts: ChartModel[];
+  /** Statistic, value, Guideline 14 threshold, met? Null without a model. */
+  statsTable: TableModel | null;
+  triedTable: TableModel | null;
+}
+
+/** Data quality of one interval meter: heatmap, every detection, the clock-offset check. */
+export interface QualitySection {
+  meterId: string;
+  heading: string;
+  summary: string;
+  charts: ChartModel[];
+  detectionsTable: TableModel;
+  /** Sentences about the clock-offset check (empty when not checked). */
+  alignment: string[];
+  alignmentTable: TableModel | null;
+}
+
+/** Forecast of one building: totals with range, month by month, and the backtest record. */
+export interface ForecastSection {
+  summary: string;
+  monthlyTable: TableModel | null;
+  trackRecordTable: TableModel | null;
 }
 
 export interface BuildingPage extends PageBase {
@@ -152,6 +241,36 @@ export interface BuildingPage extends PageBase {
   downloads: DataFileRow[];
   forecastTable: TableModel | null;
   modelsTable: TableModel | null;
+  /** One per meter with a baseline (empty when the model stage did not run). */
+  baselines: BaselineSection[];
+  /** One per interval meter with quality results. */
+  quality: QualitySection[];
+  /** Weather gaps of the building's station; null when none were reported. */
+  weatherQualityTable: TableModel | null;
+  forecast: ForecastSection | null;
+  /** Relative link to the tenant page, or null when the building has none. */
+  tenantHref: string | null;
+}
+
+/** One commodity on a tenant page. */
+export interface TenantCommodity {
+  commodity: string;
+  heading: string;
+  /** Plain sentences: this period vs the same period last year, weather-adjusted, per floor area. */
+  sentences: string[];
+  table: TableModel;
+}
+
+/** A plain monthly page for a building's occupants: no audit, no money. */
+export interface TenantPage extends PageBase {
+  buildingId: string;
+  buildingName: string;
+  intro: string;
+  commodities: TenantCommodity[];
+  /** How the figures are made (weather adjustment, conversions). */
+  notes: string[];
+  /** Link back to the building page (relative). */
+  buildingHref: string;
 }
 
 export interface UnitFactorRow {
@@ -195,6 +314,8 @@ export interface SiteModel {
   meta: SiteMeta;
   index: IndexPage;
   buildings: BuildingPage[];
+  /** Tenant pages of buildings with `tenant_page: yes`. */
+  tenants: TenantPage[];
   methods: MethodsPage;
   data: DataPage;
 }

@@ -1,6 +1,6 @@
 /** Monthly-use charts of one building, per commodity. */
 import type { Bill, Meter } from "../domain/types.ts";
-import type { ChartDatum, ChartModel } from "./siteModel.ts";
+import type { ChartDatum, MonthlyChartModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMonth, formatQuantity } from "./format.ts";
 import { spreadOverMonths } from "./periods.ts";
 import { commodityLabel } from "./labels.ts";
@@ -10,10 +10,10 @@ import { partialMonthsNote } from "./coverage.ts";
  * Monthly usage charts for one commodity: one chart per usage unit (meters of one commodity
  * may bill in different units, which must not be added), bills spread over calendar months by days.
  */
-export function commodityCharts(buildingId: string, commodity: string, meters: Meter[], billsByMeter: Map<string, Bill[]>): ChartModel[] {
+export function commodityCharts(buildingId: string, commodity: string, meters: Meter[], billsByMeter: Map<string, Bill[]>): MonthlyChartModel[] {
   const byUnit = new Map<string, Meter[]>();
   for (const m of meters) byUnit.set(m.unit, [...(byUnit.get(m.unit) ?? []), m]);
-  const charts: ChartModel[] = [];
+  const charts: MonthlyChartModel[] = [];
   for (const [unit, unitMeters] of byUnit) {
     const sums = new Map<string, number>(); // key month|meter
     const unitBills = unitMeters.flatMap((m) => billsByMeter.get(m.meterId) ?? []);

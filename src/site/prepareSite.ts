@@ -1,12 +1,15 @@
 /**
- * Completes a site model for rendering: chart specs, their escaped JSON and server SVGs,
- * and the downloads list from the data files actually written. Returns a new model.
+ * Completes a site model for rendering: every chart's Vega-Lite spec, the spec compiled to Vega
+ * (escaped JSON for the page: the browser runs only the vega runtime), its server SVG, and the
+ * downloads lists from the data files actually written. Returns a new model.
  */
 import type { ChartModel, SiteModel } from "../report/siteModel.ts";
 import { buildingDataFolder, describeDataFiles } from "../report/dataPage.ts";
 import { jsonForScript } from "../report/format.ts";
 import { monthlyUsageSpec } from "./charts/monthlyUsageSpec.ts";
-import { renderSvg } from "./charts/renderSvg.ts";
+import { baselineScatterSpec, baselineTimeSpec, heatmapSpec, rankingSpec } from "./charts/analysisSpecs.ts";
+import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
+import { heatmapSvg } from "./charts/heatmapSvg.ts";
 
 /** Vega-Lite spec for a chart model, by kind. */
 export function chartSpec(chart: ChartModel): Record<string, unknown> {
@@ -14,12 +17,35 @@ export function chartSpec(chart: ChartModel): Record<string, unknown> {
     case "monthly-usage":
     case "monthly-cost":
       return monthlyUsageSpec(chart);
+    case "baseline-scatter":
+      return baselineScatterSpec(chart);
+    case "baseline-time":
+      return baselineTimeSpec(chart);
+    case "quality-heatmap":
+      return heatmapSpec(chart);
+    case "ranking":
+      return rankingSpec(chart);
   }
 }
 
-async function prepareChart(chart: ChartModel): Promise<ChartModel> {
+/** Fills `spec`, `specJson` (compiled Vega) and `svg` of one chart. */
+export async function prepareChart<T extends ChartModel>(chart: T): Promise<T> {
   const spec = chartSpec(chart);
-  return { ...chart, spec, specJson: jsonForScript(spec), svg: await renderSvg(spec, chart.description) };
+  const vega = await compileToVega(spec);
+  // The heatmap's SVG from vega would hold one element per cell; ours bands them into paths.
+  const svg = chart.kind === "quality-heatmap" ? heatmapSvg(chart) : await renderSvg(spec, chart.description);
+  return { ...chart, spec, specJson: jsonForScript(vega), svg };
+}
+
+async function prepareAll<T extends ChartModel>(charts: readonly T[]): Promise<T[]> {
+  const out: T[] = [];
+  // Sequential: the headless views are cheap (~20 ms) and this keeps memory flat.
+  for (const c of charts) out.push(await prepareChart(c));
+  return out;
+}
+
+async function prepareMaybe(chart: ChartModel | null): Promise<ChartModel | null> {
+  return chart ? prepareChart(chart) : null;
 }
 
 /**
@@ -33,22 +59,24 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
   const buildings = [];
   for (const page of model.buildings) {
     const commodities = [];
-    for (const section of page.commodities) {
-      const charts = [];
-      // Sequential: the headless views are cheap (~20 ms) and this keeps memory flat.
-      for (const chart of section.charts) charts.push(await prepareChart(chart));
-      commodities.push({ ...section, charts });
-    }
+    for (const section of page.commodities) commodities.push({ ...section, charts: await prepareAll(section.charts) });
+    const baselines = [];
+    for (const section of page.baselines) baselines.push({ ...section, charts: await prepareAll(section.charts) });
+    const quality = [];
+    for (const section of page.quality) quality.push({ ...section, charts: await prepareAll(section.charts) });
     const folder = buildingDataFolder(page.buildingId);
     const own: Record<string, number> = {};
     for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
-    buildings.push({ ...page, commodities, downloads: describeDataFiles(own, page.root) });
+    buildings.push({ ...page, commodities, baselines, quality, downloads: describeDataFiles(own, page.root) });
   }
-  const indexCharts = [];
-  for (const chart of model.index.charts) indexCharts.push(await prepareChart(chart));
   return {
     ...model,
-    index: { ...model.index, charts: indexCharts },
+    index: {
+      ...model.index,
+      charts: await prepareAll(model.index.charts),
+      intensityChart: await prepareMaybe(model.index.intensityChart),
+      findingsChart: await prepareMaybe(model.index.findingsChart),
+    },
     buildings,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
   };

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { EVIL_NAME, fixtureInput } from "./fixture.ts";
+import type { MonthlyChartModel } from "../../src/report/siteModel.ts";
 
 describe("buildSiteModel on the fixture portfolio", () => {
   const input = fixtureInput();
@@ -72,7 +73,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
   });
 
   it("charts the portfolio's monthly billed cost by commodity, conserving the billed totals", () => {
-    const chart = model.index.charts[0];
+    const chart = model.index.charts[0] as MonthlyChartModel;
     expect(chart.kind).toBe("monthly-cost");
     expect([...new Set(chart.data.map((d) => d.series))]).toEqual(["Electricity", "Gas"]);
     const billed = input.portfolio.bills.reduce((s, b) => s + b.total, 0);

@@ -132,3 +132,123 @@ export function fixtureInput(): ReportInput {
     ],
   };
 }
+
+/** 15-minute interval data of E1: a weekday office shape, 2023-12-01 … 2025-03-05 UTC. */
+function officeIntervals(): { startMs: Float64Array; values: Float64Array } {
+  const start = Date.UTC(2023, 11, 1);
+  const end = Date.UTC(2025, 2, 5);
+  const n = (end - start) / 900_000;
+  const startMs = new Float64Array(n);
+  const values = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const t = start + i * 900_000;
+    startMs[i] = t;
+    const localHour = (new Date(t).getUTCHours() + 18) % 24; // about Central time
+    values[i] = localHour >= 7 && localHour < 19 ? 12 + (i % 7) * 0.1 : 4;
+  }
+  return { startMs, values };
+}
+
+/** Local 2025-01-10 02:00–08:00 CST (= 08:00–14:00 UTC): the planted zero run. */
+export const ZERO_RUN = { startMs: Date.UTC(2025, 0, 10, 8), endMs: Date.UTC(2025, 0, 10, 14) };
+
+/**
+ * The fixture with every optional block filled (invented numbers): quality and alignment for
+ * E1, baselines for E1 (with perBill expectations chosen for a hand-computed tenant check) and
+ * G1, forecast with totals and track record, and B1 with a tenant page.
+ */
+export function fullFixtureInput(): ReportInput {
+  const input = fixtureInput();
+  const { portfolio } = input;
+  portfolio.buildings[0].tenantPage = true;
+  const e1 = officeIntervals();
+  portfolio.intervals.set("E1", { meterId: "E1", intervalMinutes: 15, startMs: e1.startMs, values: e1.values });
+  const mask = new Uint8Array(e1.startMs.length);
+  for (let i = 0; i < e1.startMs.length; i++) {
+    if (e1.startMs[i] >= ZERO_RUN.startMs && e1.startMs[i] < ZERO_RUN.endMs) {
+      e1.values[i] = 0;
+      mask[i] = 1;
+    }
+  }
+  const spikeAt = e1.startMs.indexOf(Date.UTC(2025, 1, 3, 20));
+  e1.values[spikeAt] = 400;
+  mask[spikeAt] = 1;
+  input.quality = [
+    {
+      meterId: "E1",
+      buildingId: "B1",
+      intervalMinutes: 15,
+      mask,
+      detections: [
+        { kind: "zero-run", startMs: ZERO_RUN.startMs, endMs: ZERO_RUN.endMs, intervals: 24, action: "excluded from models", detail: "6 h of zeros; the same hours of other weeks average 4 kWh per interval" },
+        { kind: "spike", startMs: Date.UTC(2025, 1, 3, 20), endMs: Date.UTC(2025, 1, 3, 20, 15), intervals: 1, action: "excluded from models", detail: "400 kWh, 31 robust σ above the rolling median" },
+      ],
+      alignment: {
+        suggestedOffsetHours: 3,
+        appliedOffsetHours: 0,
+        strong: true,
+        note: "Automatic correction is off; set the offset in portfolio.yaml to apply it.",
+        scores: Array.from({ length: 29 }, (_, k) => ({ offsetHours: k - 14, score: Math.round((0.62 - Math.abs(k - 17) * 0.03) * 1000) / 1000 })),
+      },
+    },
+  ];
+  input.weatherDetections = [
+    { stationId: "WX1", startMs: Date.UTC(2024, 6, 1, 5), endMs: Date.UTC(2024, 6, 1, 9), hours: 4, action: "interpolated" },
+    { stationId: "WX1", startMs: Date.UTC(2024, 7, 2, 0), endMs: Date.UTC(2024, 7, 2, 10), hours: 10, action: "left missing" },
+  ];
+  const e1Bills = portfolio.bills.filter((b) => b.meterId === "E1");
+  const g1Bills = portfolio.bills.filter((b) => b.meterId === "G1");
+  const tempOf = (i: number) => Math.round((8 - 10 * Math.cos((i / 12) * 2 * Math.PI)) * 10) / 10;
+  const days = (b: Bill) => (Date.parse(b.periodEnd) - Date.parse(b.periodStart)) / 86_400_000;
+  input.baselines = [
+    {
+      meterId: "E1",
+      kind: "3PH",
+      tempUnit: "C",
+      unit: "kWh",
+      points: e1Bills.map((b, i) => ({ billId: b.billId, temp: tempOf(i), usePerDay: b.usage / days(b), ...(b.readType === "estimated" ? { excluded: "estimated read" } : {}) })),
+      curve: [
+        { temp: -2, usePerDay: 1290 },
+        { temp: 15, usePerDay: 700 },
+        { temp: 18, usePerDay: 700 },
+      ],
+      stats: { cvRmsePct: 8.2, nmbePct: 0.4, r2: 0.91, n: 13, p: 3 },
+      meetsGuideline14: true,
+      normalizedAnnual: 360_500,
+      typicalSource: "normals",
+      tried: [
+        { kind: "2P", accepted: true, reasons: ["higher CV(RMSE) than 3PH"], cvRmsePct: 11.3, nmbePct: 0, r2: 0.84 },
+        { kind: "3PH", accepted: true, reasons: ["lowest CV(RMSE) among acceptable forms"], cvRmsePct: 8.2, nmbePct: 0.4, r2: 0.91 },
+        { kind: "3PC", accepted: false, reasons: ["cooling slope negative"], cvRmsePct: 25.1, nmbePct: 0, r2: 0.1 },
+      ],
+      // E1-14 (latest) and E1-02 (a year earlier) carry round ratios for the hand-computed tenant check.
+      perBill: e1Bills.map((b) => ({
+        billId: b.billId,
+        expectedAtActualWeather: b.billId === "E1-14" ? 0.9 * b.usage : b.billId === "E1-02" ? b.usage : 0.98 * b.usage,
+        expectedAtTypicalWeather: b.billId === "E1-02" ? 1.05 * b.usage : b.usage,
+      })),
+    },
+    {
+      meterId: "G1",
+      kind: "none",
+      tempUnit: "C",
+      unit: "therm",
+      points: g1Bills.map((b, i) => ({ billId: b.billId, temp: tempOf(i), usePerDay: b.usage / days(b) })),
+      curve: [],
+      stats: null,
+      meetsGuideline14: false,
+      normalizedAnnual: null,
+      typicalSource: null,
+      tried: [{ kind: "3PH", accepted: false, reasons: ["CV(RMSE) 31 % above the 15 % limit"], cvRmsePct: 31, nmbePct: 2, r2: 0.4 }],
+      perBill: [],
+    },
+  ];
+  input.forecast = ["2025-04", "2025-05", "2025-06"].flatMap((month, k) => [
+    { buildingId: "B1", meterId: "E1", month, usageP50: 30_000, costP10: 3500 + k * 10, costP50: 3700 + k * 10, costP90: 3950 + k * 10 },
+    { buildingId: "B1", meterId: "G1", month, usageP50: 800, costP10: 700, costP50: 760, costP90: 840 },
+  ]);
+  input.forecastTotals = [{ buildingId: "B1", p10: 13_100, p50: 13_410, p90: 13_800 }];
+  input.portfolioForecast = { p10: 13_100, p50: 13_410, p90: 13_800 };
+  input.trackRecord = [{ meterId: "E1", annualCostErrorPct: -2.4, monthlyCvRmsePct: 7.9, coverage: 0.83, naiveAnnualCostErrorPct: 6.1 }];
+  return input;
+}

@@ -3,6 +3,7 @@ import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
 import { monthlyUsageSpec } from "../../src/site/charts/monthlyUsageSpec.ts";
 import { renderSvg } from "../../src/site/charts/renderSvg.ts";
+import { chartSpec } from "../../src/site/prepareSite.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { fixtureInput } from "../report/fixture.ts";
 import { validate } from "./jsonSchema.ts";
@@ -30,7 +31,7 @@ describe("monthlyUsageSpec", () => {
     const model = buildSiteModel(fixtureInput());
     const charts = [...model.index.charts, ...model.buildings.flatMap((b) => b.commodities.flatMap((c) => c.charts))];
     expect(charts.map((c) => c.kind)).toEqual(["monthly-cost", "monthly-usage", "monthly-usage", "monthly-usage"]);
-    for (const c of charts) expect(validate(monthlyUsageSpec(c), schema, schema)).toEqual([]);
+    for (const c of charts) expect(validate(chartSpec(c), schema, schema)).toEqual([]);
   });
 
   it("the schema check can fail: a misspelt mark type and an unknown property are caught", () => {

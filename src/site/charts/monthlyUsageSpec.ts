@@ -1,5 +1,5 @@
 /** Vega-Lite spec for monthly values (use or cost): bars per calendar month, stacked by series. */
-import type { ChartModel } from "../../report/siteModel.ts";
+import type { MonthlyChartModel } from "../../report/siteModel.ts";
 import { chartConfig } from "./palette.ts";
 
 /**
@@ -8,7 +8,7 @@ import { chartConfig } from "./palette.ts";
  * @example monthlyUsageSpec(chart).mark // { type: "bar", tooltip: true }
  */
 export function monthlyUsageSpec(
-  chart: Pick<ChartModel, "title" | "description" | "valueLabel" | "data"> & Partial<Pick<ChartModel, "seriesLabel" | "kind">>,
+  chart: Pick<MonthlyChartModel, "title" | "description" | "valueLabel" | "data"> & Partial<Pick<MonthlyChartModel, "seriesLabel" | "kind">>,
 ): Record<string, unknown> {
   const seriesLabel = chart.seriesLabel ?? "Meter";
   const valueFormat = chart.kind === "monthly-cost" ? ",.2f" : ",.0f";

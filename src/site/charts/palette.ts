@@ -33,3 +33,8 @@ export function chartConfig(): Record<string, unknown> {
     title: { color: INK, fontSize: 14, fontWeight: 600, anchor: "start" },
   };
 }
+
+/** Sequential range of the heatmap, pale to deep teal (our own, not a named scheme). */
+export const HEAT_RANGE = ["#eef5f4", "#a9d0cb", "#4f9a98", "#1f6f78", "#123f47"] as const;
+/** Marks flagged data: strong orange, distinct from the teal ramp. */
+export const FLAG_COLOR = "#e0701a";

@@ -21,6 +21,17 @@ function escapeXml(s: string): string {
 }
 
 /**
+ * Compiles a Vega-Lite spec to a Vega spec, so the browser needs only the vega runtime (not
+ * vega-lite). `width: "container"` is kept: the compiled spec sizes itself to its container.
+ * @throws when the spec does not compile.
+ * @example (await compileToVega(monthlyUsageSpec(chart))).marks.length > 0 // true
+ */
+export async function compileToVega(spec: Record<string, unknown>): Promise<Record<string, unknown>> {
+  const { vl } = await loadLibs();
+  return vl.compile(spec as never).spec as unknown as Record<string, unknown>;
+}
+
+/**
  * Renders a Vega-Lite spec to an accessible SVG string: `role="img"`, `aria-label` and a
  * `<title>` taken from `label` (falling back to the spec's description or title).
  * @throws when the spec does not compile (a programming error in a spec builder).

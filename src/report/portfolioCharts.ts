@@ -1,0 +1,161 @@
+/** Portfolio charts of the index: energy use intensity by building, findings by check; normalized change. */
+import type { Bill, Meter } from "../domain/types.ts";
+import type { ReportBaseline, ReportFinding } from "./input.ts";
+import type { RankingChartModel } from "./siteModel.ts";
+import type { BuildingContext } from "./buildingPage.ts";
+import { formatMoney, formatNumber } from "./format.ts";
+import { prorateToWindow, type DayWindow } from "./periods.ts";
+import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh, KWH_PER_THERM } from "./energy.ts";
+import { checkTitle } from "./labels.ts";
+
+/** Sentence stating how the intensity ranking is computed. */
+export const EUI_BASIS = `Energy use intensity = site energy over the last 12 months ÷ floor area. Site energy = electricity kWh + gas therms × ${KWH_PER_THERM} kWh per therm (gas billed in ccf: × 1.037 therm per ccf first); water is not energy and is left out.`;
+
+/** Site energy (kWh) of a set of meters' bills prorated into a window; null when none converts. */
+export function windowSiteKwh(meters: readonly Meter[], billsByMeter: Map<string, Bill[]>, window: DayWindow): number | null {
+  let total = 0;
+  let any = false;
+  for (const m of meters) {
+    for (const b of billsByMeter.get(m.meterId) ?? []) {
+      const kwh = siteKwh(m.commodity, m.unit, prorateToWindow(b.usage, b.periodStart, b.periodEnd, window));
+      if (kwh == null) continue;
+      total += kwh;
+      any = true;
+    }
+  }
+  return any ? total : null;
+}
+
+/**
+ * Ranking of buildings by EUI (kWh/m²) over the last-12-month window, largest first; null when
+ * no building has energy use and a floor area.
+ */
+export function intensityChart(contexts: readonly BuildingContext[], window: DayWindow | null): RankingChartModel | null {
+  if (!window) return null;
+  const rows: { name: string; kwh: number; area: number; eui: number }[] = [];
+  for (const ctx of contexts) {
+    const kwh = windowSiteKwh(ctx.meters, ctx.billsByMeter, window);
+    if (kwh == null) continue;
+    const eui = euiKwhPerM2(kwh, ctx.building.floorAreaM2);
+    if (eui == null) continue;
+    rows.push({ name: ctx.building.name, kwh, area: ctx.building.floorAreaM2, eui });
+  }
+  if (rows.length === 0) return null;
+  rows.sort((a, b) => b.eui - a.eui);
+  return {
+    id: "chart-portfolio-eui",
+    kind: "ranking",
+    title: "Energy use intensity, last 12 months (kWh per m²)",
+    description: `Horizontal bar chart ranking ${formatNumber(rows.length)} buildings by site energy use per m² of floor area over the last 12 months, highest first; highest ${rows[0].name} at ${formatNumber(rows[0].eui, 0)} kWh/m².`,
+    valueLabel: "kWh per m²",
+    valueFormat: ",.1f",
+    items: rows.map((r) => ({ label: r.name, value: Math.round(r.eui * 10) / 10, note: `${formatNumber(kwhPerM2ToKbtuPerFt2(r.eui), 1)} kBtu/ft²` })),
+    table: {
+      caption: "Energy use intensity by building, last 12 months",
+      sortable: true,
+      columns: [
+        { label: "Building", numeric: false },
+        { label: "Site energy (kWh)", numeric: true },
+        { label: "Floor area (m²)", numeric: true },
+        { label: "kWh per m²", numeric: true },
+        { label: "kBtu per ft²", numeric: true },
+      ],
+      rows: rows.map((r) => [
+        { text: r.name },
+        { text: formatNumber(r.kwh), sort: String(r.kwh) },
+        { text: formatNumber(r.area), sort: String(r.area) },
+        { text: formatNumber(r.eui, 1), sort: String(r.eui) },
+        { text: formatNumber(kwhPerM2ToKbtuPerFt2(r.eui), 1), sort: String(kwhPerM2ToKbtuPerFt2(r.eui)) },
+      ]),
+    },
+  };
+}
+
+/**
+ * Findings grouped by check: money at stake (positive amounts, bills that look too high) as
+ * bars, count in the tooltip and table; null without findings.
+ */
+export function findingsByCheckChart(findings: readonly ReportFinding[] | undefined, currency: string): RankingChartModel | null {
+  if (!findings || findings.length === 0) return null;
+  const groups = new Map<string, { count: number; money: number }>();
+  for (const f of findings) {
+    const g = groups.get(f.check) ?? { count: 0, money: 0 };
+    g.count++;
+    if (f.amountAtStake != null && f.amountAtStake > 0) g.money += f.amountAtStake;
+    groups.set(f.check, g);
+  }
+  const rows = [...groups.entries()].sort(([a, x], [b, y]) => y.money - x.money || y.count - x.count || (a < b ? -1 : 1));
+  return {
+    id: "chart-portfolio-findings",
+    kind: "ranking",
+    title: `Money at stake by check (${currency})`,
+    description: `Horizontal bar chart of the money at stake in bills that look too high, by audit check, largest first; ${formatNumber(findings.length)} findings in ${formatNumber(rows.length)} checks.`,
+    valueLabel: `Money at stake (${currency})`,
+    valueFormat: ",.2f",
+    items: rows.map(([check, g]) => ({ label: checkTitle(check), value: Math.round(g.money * 100) / 100, note: `${g.count} ${g.count === 1 ? "finding" : "findings"}` })),
+    table: {
+      caption: "Findings by check: how many, and the money at stake",
+      sortable: true,
+      columns: [
+        { label: "Check", numeric: false },
+        { label: "Findings", numeric: true },
+        { label: "Money at stake", numeric: true },
+      ],
+      rows: rows.map(([check, g]) => [
+        { text: checkTitle(check) },
+        { text: formatNumber(g.count), sort: String(g.count) },
+        { text: formatMoney(g.money, currency), sort: String(g.money) },
+      ]),
+    },
+  };
+}
+
+/**
+ * Weather-normalized change of portfolio site energy, last 12 months vs the 12 before, in
+ * percent: each bill's use is weather-adjusted (× expected at typical ÷ expected at actual
+ * weather) and prorated into each window. Only meters with a baseline for every bill touching
+ * both windows and bills covering the prior window's start count. Null when none qualifies.
+ */
+export function normalizedChangePct(
+  contexts: readonly BuildingContext[],
+  baselines: readonly ReportBaseline[] | undefined,
+  window: DayWindow | null,
+  priorWindow: DayWindow | null,
+): number | null {
+  if (!baselines || !window || !priorWindow) return null;
+  let now = 0;
+  let before = 0;
+  for (const ctx of contexts) {
+    for (const m of ctx.meters) {
+      const b = baselines.find((x) => x.meterId === m.meterId);
+      if (!b || b.kind === "none") continue;
+      const bills = ctx.billsByMeter.get(m.meterId) ?? [];
+      if (bills.length === 0 || bills[0].periodStart > priorWindow.start || bills[bills.length - 1].periodEnd < window.end) continue;
+      const exp = new Map(b.perBill.map((e) => [e.billId, e]));
+      let n = 0;
+      let p = 0;
+      let complete = true;
+      for (const bill of bills) {
+        const inNow = prorateToWindow(1, bill.periodStart, bill.periodEnd, window);
+        const inBefore = prorateToWindow(1, bill.periodStart, bill.periodEnd, priorWindow);
+        if (inNow === 0 && inBefore === 0) continue;
+        const e = exp.get(bill.billId);
+        if (!e || !(e.expectedAtActualWeather > 0)) {
+          complete = false;
+          break;
+        }
+        const adjusted = siteKwh(m.commodity, m.unit, (bill.usage * e.expectedAtTypicalWeather) / e.expectedAtActualWeather);
+        if (adjusted == null) {
+          complete = false;
+          break;
+        }
+        n += adjusted * inNow;
+        p += adjusted * inBefore;
+      }
+      if (!complete) continue;
+      now += n;
+      before += p;
+    }
+  }
+  return before > 0 ? (100 * (now - before)) / before : null;
+}

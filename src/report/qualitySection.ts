@@ -1,0 +1,268 @@
+/** Building-page view of interval data quality: day × hour heatmap, detections, clock offset. */
+import type { Building, IntervalSeries, Meter } from "../domain/types.ts";
+import type { ReportMeterQuality, ReportWeatherDetection } from "./input.ts";
+import type { HeatmapChartModel, QualitySection, TableModel } from "./siteModel.ts";
+import { NOT_AVAILABLE, formatNumber, formatQuantity } from "./format.ts";
+import { commodityLabel } from "./labels.ts";
+
+const HOUR_MS = 3_600_000;
+/** The heatmap shows at most this many local days, the latest ones (one year plus a leap day). */
+export const HEATMAP_MAX_DAYS = 366;
+
+const partsCache = new Map<string, Intl.DateTimeFormat>();
+function partsFormatter(zone: string): Intl.DateTimeFormat {
+  let f = partsCache.get(zone);
+  if (!f) {
+    f = new Intl.DateTimeFormat("en-US", { timeZone: zone, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", hourCycle: "h23" });
+    partsCache.set(zone, f);
+  }
+  return f;
+}
+
+/**
+ * Local calendar day and hour of a UTC instant in an IANA zone.
+ * @example localDayHour(Date.UTC(2025, 0, 1, 6), "America/Chicago") // { day: "2025-01-01", hour: 0 }
+ */
+export function localDayHour(ms: number, zone: string): { day: string; hour: number } {
+  const parts = partsFormatter(zone).formatToParts(new Date(ms));
+  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? "00";
+  return { day: `${get("year")}-${get("month")}-${get("day")}`, hour: Number(get("hour")) % 24 };
+}
+
+const textFormatCache = new Map<string, Intl.DateTimeFormat>();
+/**
+ * An instant as local date and time in the building's zone, e.g. "Mar 9, 2025, 02:00".
+ */
+export function formatLocalTime(ms: number, zone: string): string {
+  let f = textFormatCache.get(zone);
+  if (!f) {
+    f = new Intl.DateTimeFormat("en-US", { timeZone: zone, year: "numeric", month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
+    textFormatCache.set(zone, f);
+  }
+  return f.format(new Date(ms));
+}
+
+/** Rounds to 3 significant digits: the heatmap shows colour bands, not exact values (table and CSV carry those). */
+function sig3(v: number): number {
+  if (v === 0 || !Number.isFinite(v)) return v;
+  const digits = Math.max(0, 2 - Math.floor(Math.log10(Math.abs(v))));
+  return Math.round(v * 10 ** digits) / 10 ** digits;
+}
+
+/**
+ * Sums interval values (× multiplier) into local day × hour cells for the last `maxDays` local
+ * days of data; an hour is flagged when any of its intervals is flagged in `mask`. In the
+ * autumn DST change the repeated local hour holds both clock hours; in the spring change the
+ * skipped hour stays empty (null).
+ * @example heatmapDays(series, mask, "America/Chicago", 1).length // days with data, ≤ 366
+ */
+export function heatmapDays(
+  series: IntervalSeries,
+  mask: Uint8Array | null,
+  zone: string,
+  multiplier: number,
+  maxDays = HEATMAP_MAX_DAYS,
+): { day: string; values: (number | null)[]; flagged: number[] }[] {
+  const n = series.startMs.length;
+  if (n === 0) return [];
+  const lastDay = localDayHour(series.startMs[n - 1], zone).day;
+  const firstDay = new Date(Date.parse(`${lastDay}T00:00:00Z`) - (maxDays - 1) * 86_400_000).toISOString().slice(0, 10);
+  const byDay = new Map<string, { values: (number | null)[]; flagged: number[] }>();
+  let cachedHour = Number.NaN;
+  let cached = { day: "", hour: 0 };
+  for (let i = 0; i < n; i++) {
+    const hourStart = Math.floor(series.startMs[i] / HOUR_MS) * HOUR_MS;
+    if (hourStart !== cachedHour) {
+      cachedHour = hourStart;
+      cached = localDayHour(series.startMs[i], zone);
+    }
+    if (cached.day < firstDay) continue;
+    let row = byDay.get(cached.day);
+    if (!row) {
+      row = { values: new Array<number | null>(24).fill(null), flagged: new Array<number>(24).fill(0) };
+      byDay.set(cached.day, row);
+    }
+    const v = series.values[i] * multiplier;
+    if (Number.isFinite(v)) row.values[cached.hour] = (row.values[cached.hour] ?? 0) + v;
+    if (mask && mask[i] === 1) row.flagged[cached.hour] = 1;
+  }
+  return [...byDay.entries()]
+    .sort(([a], [b]) => (a < b ? -1 : 1))
+    .map(([day, r]) => ({ day, values: r.values.map((v) => (v == null ? null : sig3(v))), flagged: r.flagged }));
+}
+
+const DETECTION_NAMES: Record<string, string> = {
+  "zero-run": "Run of zero readings",
+  "constant-run": "Run of one repeated value",
+  spike: "Spike",
+  negative: "Negative reading",
+  reset: "Meter reset",
+  duplicate: "Duplicated timestamp",
+  missing: "Missing intervals",
+};
+
+/** @example detectionLabel("zero-run") // "Run of zero readings" */
+export function detectionLabel(kind: string): string {
+  return DETECTION_NAMES[kind] ?? kind;
+}
+
+function detectionsTable(q: ReportMeterQuality, zone: string): TableModel {
+  const rows = [...q.detections].sort((a, b) => a.startMs - b.startMs);
+  return {
+    caption: `Every problem found in meter ${q.meterId}'s interval data (times in ${zone})`,
+    sortable: true,
+    columns: [
+      { label: "What", numeric: false },
+      { label: "From", numeric: false },
+      { label: "To", numeric: false },
+      { label: "Intervals", numeric: true },
+      { label: "Action", numeric: false },
+      { label: "Evidence", numeric: false },
+    ],
+    rows: rows.map((d) => [
+      { text: detectionLabel(d.kind) },
+      { text: formatLocalTime(d.startMs, zone), sort: String(d.startMs) },
+      { text: formatLocalTime(d.endMs, zone), sort: String(d.endMs) },
+      { text: formatNumber(d.intervals), sort: String(d.intervals) },
+      { text: d.action },
+      { text: d.detail || NOT_AVAILABLE },
+    ]),
+  };
+}
+
+const signedHours = (h: number) => (h === 0 ? "0 h" : `${h > 0 ? "+" : "−"}${formatNumber(Math.abs(h), 2)} h`);
+
+/**
+ * Plain sentences about the clock-offset check: what was suggested, on what evidence, what was applied.
+ */
+export function alignmentSentences(a: ReportMeterQuality["alignment"]): string[] {
+  if (!a) return [];
+  const at = (h: number) => a.scores.find((s) => s.offsetHours === h)?.score;
+  const best = at(a.suggestedOffsetHours);
+  const zero = at(0);
+  const out: string[] = [];
+  if (a.suggestedOffsetHours === 0) {
+    out.push("The meter's clock agrees with the weather station's: the load follows temperature best with no shift.");
+  } else {
+    const evidence =
+      best != null && zero != null
+        ? ` (share of the load's day-to-day variation explained by temperature: ${formatNumber(best, 2)} with the shift, ${formatNumber(zero, 2)} without)`
+        : "";
+    out.push(`The load follows outdoor temperature best when the meter's timestamps are shifted by ${signedHours(a.suggestedOffsetHours)}${evidence}. The evidence is ${a.strong ? "strong" : "weak"}.`);
+  }
+  out.push(a.appliedOffsetHours === 0 ? "No shift was applied to the data." : `A shift of ${signedHours(a.appliedOffsetHours)} was applied before modelling.`);
+  if (a.note) out.push(a.note);
+  return out;
+}
+
+function alignmentTable(q: ReportMeterQuality): TableModel | null {
+  const a = q.alignment;
+  if (!a || a.scores.length === 0) return null;
+  return {
+    caption: `Clock-offset scan of meter ${q.meterId}: partial R² of temperature per shift`,
+    sortable: true,
+    columns: [
+      { label: "Shift", numeric: true },
+      { label: "Partial R² of temperature", numeric: true },
+    ],
+    rows: [...a.scores]
+      .sort((x, y) => x.offsetHours - y.offsetHours)
+      .map((s) => [
+        { text: signedHours(s.offsetHours), sort: String(s.offsetHours) },
+        { text: formatNumber(s.score, 3), sort: String(s.score), tone: s.offsetHours === a.suggestedOffsetHours ? ("pos" as const) : undefined },
+      ]),
+  };
+}
+
+function heatmapChart(q: ReportMeterQuality, meter: Meter, series: IntervalSeries, zone: string): HeatmapChartModel | null {
+  const days = heatmapDays(series, q.mask.length === series.startMs.length ? q.mask : null, zone, meter.multiplier);
+  if (days.length === 0) return null;
+  const flaggedHours = days.reduce((s, d) => s + d.flagged.reduce((a, f) => a + f, 0), 0);
+  const valueLabel = `Use per hour (${meter.unit})`;
+  const first = days[0].day;
+  const last = days[days.length - 1].day;
+  return {
+    id: `quality-${meter.meterId.replace(/[^A-Za-z0-9_-]/g, "_")}-heatmap`,
+    kind: "quality-heatmap",
+    title: `Meter ${meter.meterId}: use by day and hour`,
+    description: `Calendar heatmap of meter ${meter.meterId}, ${first} to ${last} (local time, ${zone}): one column per day, one row per hour, darker is more use in ${meter.unit}; ${formatNumber(flaggedHours)} hours holding flagged intervals are marked in orange.`,
+    valueLabel,
+    days,
+    table: {
+      caption: `Meter ${meter.meterId}: use per day and flagged hours (local days)`,
+      sortable: true,
+      columns: [
+        { label: "Day", numeric: false },
+        { label: `Use (${meter.unit})`, numeric: true },
+        { label: "Hours with data", numeric: true },
+        { label: "Flagged hours", numeric: true },
+      ],
+      rows: days.map((d) => {
+        const total = d.values.reduce<number>((s, v) => s + (v ?? 0), 0);
+        const flagged = d.flagged.reduce((s, f) => s + f, 0);
+        return [
+          { text: d.day },
+          { text: formatQuantity(total, meter.unit), sort: String(total) },
+          { text: formatNumber(d.values.filter((v) => v != null).length) },
+          { text: formatNumber(flagged), sort: String(flagged), tone: flagged > 0 ? ("warn" as const) : undefined },
+        ];
+      }),
+    },
+  };
+}
+
+/**
+ * One data-quality section per interval meter of the building that has quality results.
+ */
+export function qualitySections(
+  building: Building,
+  meters: Meter[],
+  quality: readonly ReportMeterQuality[] | undefined,
+  intervals: Map<string, IntervalSeries>,
+): QualitySection[] {
+  if (!quality) return [];
+  const out: QualitySection[] = [];
+  for (const m of meters) {
+    const q = quality.find((x) => x.meterId === m.meterId);
+    if (!q) continue;
+    const series = intervals.get(m.meterId);
+    const chart = series ? heatmapChart(q, m, series, building.timezone) : null;
+    const flagged = q.mask.reduce((s, v) => s + (v === 1 ? 1 : 0), 0);
+    const total = series?.startMs.length ?? q.mask.length;
+    out.push({
+      meterId: m.meterId,
+      heading: `${commodityLabel(m.commodity)} meter ${m.meterId} (${formatNumber(q.intervalMinutes)}-minute data)`,
+      summary:
+        q.detections.length === 0
+          ? `No problems found in ${formatNumber(total)} intervals.`
+          : `${formatNumber(q.detections.length)} ${q.detections.length === 1 ? "problem" : "problems"} found; ${formatNumber(flagged)} of ${formatNumber(total)} intervals are flagged and left out of the models (they stay in the data and in the bill reconciliation's raw sum).`,
+      charts: chart ? [chart] : [],
+      detectionsTable: detectionsTable(q, building.timezone),
+      alignment: alignmentSentences(q.alignment),
+      alignmentTable: alignmentTable(q),
+    });
+  }
+  return out;
+}
+
+/** Weather gaps of one station; null when none were reported for it. */
+export function weatherQualityTable(building: Building, detections: readonly ReportWeatherDetection[] | undefined): TableModel | null {
+  const rows = (detections ?? []).filter((d) => d.stationId === building.weatherStation).sort((a, b) => a.startMs - b.startMs);
+  if (rows.length === 0) return null;
+  return {
+    caption: `Gaps in weather station ${building.weatherStation}'s hourly temperatures (times in ${building.timezone})`,
+    sortable: false,
+    columns: [
+      { label: "From", numeric: false },
+      { label: "To", numeric: false },
+      { label: "Hours", numeric: true },
+      { label: "Action", numeric: false },
+    ],
+    rows: rows.map((d) => [
+      { text: formatLocalTime(d.startMs, building.timezone), sort: String(d.startMs) },
+      { text: formatLocalTime(d.endMs, building.timezone), sort: String(d.endMs) },
+      { text: formatNumber(d.hours) },
+      { text: d.action },
+    ]),
+  };
+}

@@ -1,0 +1,140 @@
+/**
+ * Vega-Lite specs of the analysis charts: baseline scatter with the fitted line, actual vs
+ * expected over time, the data-quality heatmap, and horizontal rankings. Pure.
+ */
+import type { BaselineScatterChartModel, BaselineTimeChartModel, HeatmapChartModel, RankingChartModel } from "../../report/siteModel.ts";
+import { chartConfig, FLAG_COLOR, HEAT_RANGE, SERIES_COLORS } from "./palette.ts";
+
+const SCHEMA = "https://vega.github.io/schema/vega-lite/v6.json";
+
+function base(chart: { title: string; description: string }, height: number | { step: number }): Record<string, unknown> {
+  return {
+    $schema: SCHEMA,
+    title: chart.title,
+    description: chart.description,
+    width: "container",
+    height,
+    autosize: { type: "fit-x", contains: "padding" },
+    config: chartConfig(),
+  };
+}
+
+/**
+ * Use per day against temperature: bill points (colour and shape by whether the bill was in the
+ * fit) and the fitted model as a line.
+ * @example baselineScatterSpec(chart).layer.length // 2 (1 without a curve)
+ */
+export function baselineScatterSpec(chart: BaselineScatterChartModel): Record<string, unknown> {
+  const points = {
+    data: { values: chart.points.map((p) => ({ bill: p.billId, period: p.period, temp: p.temp, use: p.usePerDay, status: p.status })) },
+    mark: { type: "point", filled: true, size: 60, tooltip: true },
+    encoding: {
+      x: { field: "temp", type: "quantitative", title: chart.tempLabel, scale: { zero: false } },
+      y: { field: "use", type: "quantitative", title: chart.useLabel },
+      color: { field: "status", type: "nominal", title: "Bill", scale: { range: [SERIES_COLORS[0], SERIES_COLORS[1], SERIES_COLORS[4]] } },
+      shape: { field: "status", type: "nominal", title: "Bill" },
+      tooltip: [
+        { field: "bill", type: "nominal", title: "Bill" },
+        { field: "period", type: "nominal", title: "Period" },
+        { field: "temp", type: "quantitative", title: chart.tempLabel, format: ",.1f" },
+        { field: "use", type: "quantitative", title: chart.useLabel, format: ",.2f" },
+        { field: "status", type: "nominal", title: "Fit" },
+      ],
+    },
+  };
+  const layer: Record<string, unknown>[] = [points];
+  if (chart.curve.length > 1) {
+    layer.unshift({
+      data: { values: chart.curve.map((c) => ({ temp: c.temp, use: c.usePerDay })) },
+      mark: { type: "line", color: SERIES_COLORS[2], strokeWidth: 2 },
+      encoding: {
+        x: { field: "temp", type: "quantitative" },
+        y: { field: "use", type: "quantitative" },
+      },
+    });
+  }
+  return { ...base(chart, 240), layer };
+}
+
+/**
+ * Actual use per day of each bill (bars at the period's middle day) and the model's expected
+ * use per day at the same weather (line with points), on a UTC time axis.
+ */
+export function baselineTimeSpec(chart: BaselineTimeChartModel): Record<string, unknown> {
+  const x = { field: "mid", type: "temporal", title: "Billing period (middle day)", scale: { type: "utc" }, axis: { format: "%b %Y", formatType: "utc" } };
+  const tooltip = [
+    { field: "period", type: "nominal", title: "Period" },
+    { field: "actual", type: "quantitative", title: `Actual, ${chart.useLabel}`, format: ",.2f" },
+    { field: "expected", type: "quantitative", title: `Expected, ${chart.useLabel}`, format: ",.2f" },
+  ];
+  return {
+    ...base(chart, 220),
+    data: { values: chart.bills.map((b) => ({ bill: b.billId, period: b.period, mid: b.mid, actual: b.actualPerDay, expected: b.expectedPerDay })) },
+    layer: [
+      {
+        mark: { type: "bar", width: 8, tooltip: true },
+        encoding: { x, y: { field: "actual", type: "quantitative", title: chart.useLabel }, color: { datum: "Actual", type: "nominal", title: "Series", scale: { range: [SERIES_COLORS[0], SERIES_COLORS[1]] } }, tooltip },
+      },
+      {
+        mark: { type: "line", point: true, strokeWidth: 2, tooltip: true },
+        encoding: { x, y: { field: "expected", type: "quantitative" }, color: { datum: "Expected by the model", type: "nominal" }, tooltip },
+      },
+    ],
+  };
+}
+
+/**
+ * Day × hour heatmap: one rect per local day and hour, colour by use; flagged hours drawn over
+ * in the flag colour. Days arrive as rows with 24-value arrays (compact on the page) and are
+ * flattened in the browser; the hour is each value's position within its day.
+ */
+export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
+  const x = { field: "day", type: "temporal", timeUnit: "utcyearmonthdate", title: "Day", axis: { format: "%b %Y", formatType: "utc", labelAngle: 0, grid: false, tickCount: 12 } };
+  const y = { field: "hour", type: "ordinal", title: "Hour of day (local)", axis: { values: [0, 6, 12, 18], grid: false } };
+  const tooltip = [
+    { field: "day", type: "temporal", timeUnit: "utcyearmonthdate", title: "Day", format: "%a %b %-d, %Y", formatType: "utc" },
+    { field: "hour", type: "ordinal", title: "Hour" },
+    { field: "value", type: "quantitative", title: chart.valueLabel, format: ",.3~f" },
+    { field: "flag", type: "nominal", title: "Flagged" },
+  ];
+  return {
+    ...base(chart, { step: 8 }),
+    data: { values: chart.days.map((d) => ({ day: d.day, values: d.values, flagged: d.flagged })) },
+    transform: [
+      { flatten: ["values", "flagged"], as: ["value", "f"] },
+      { window: [{ op: "row_number", as: "n" }], groupby: ["day"] },
+      { calculate: "datum.n - 1", as: "hour" },
+      { calculate: "datum.f === 1 ? 'yes' : 'no'", as: "flag" },
+      { filter: "isValid(datum.value)" },
+    ],
+    layer: [
+      {
+        mark: { type: "rect", tooltip: true },
+        encoding: { x, y, color: { field: "value", type: "quantitative", title: chart.valueLabel, scale: { range: [...HEAT_RANGE] }, legend: { orient: "bottom", gradientLength: 160 } }, tooltip },
+      },
+      {
+        transform: [{ filter: "datum.f === 1" }],
+        mark: { type: "rect", color: FLAG_COLOR, tooltip: true },
+        encoding: { x, y, tooltip },
+      },
+    ],
+  };
+}
+
+/** Horizontal bars, largest first; the label axis keeps the given order. */
+export function rankingSpec(chart: RankingChartModel): Record<string, unknown> {
+  return {
+    ...base(chart, { step: 24 }),
+    data: { values: chart.items.map((i, rank) => ({ label: i.label, value: i.value, note: i.note, rank })) },
+    mark: { type: "bar", tooltip: true, color: SERIES_COLORS[0] },
+    encoding: {
+      y: { field: "label", type: "nominal", title: null, sort: { field: "rank", order: "ascending" }, axis: { labelLimit: 220 } },
+      x: { field: "value", type: "quantitative", title: chart.valueLabel },
+      tooltip: [
+        { field: "label", type: "nominal", title: "Item" },
+        { field: "value", type: "quantitative", title: chart.valueLabel, format: chart.valueFormat },
+        { field: "note", type: "nominal", title: "Also" },
+      ],
+    },
+  };
+}
