@@ -15,7 +15,10 @@
  * --daily: degree-days from daily mean temperatures instead of hourly integration)
  */
 import { loadPortfolio } from "../src/ingest/index.ts";
-import { fitMeterBaseline, OUTLIER_BAND_LEVEL } from "../src/pipeline/baselines.ts";
+import { fitMeterBaseline } from "../src/pipeline/baselines.ts";
+
+/** Level of the least-squares prediction band the change-point comparison uses (the earlier rule). */
+const OUTLIER_BAND_LEVEL = 0.99;
 import { fitChangePoint, type ChangePointPoint } from "../src/model/changePoint.ts";
 import {
   fitDegreeDayForm,

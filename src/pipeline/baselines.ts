@@ -1,16 +1,21 @@
 /**
- * Bill-level weather baselines per meter: each bill becomes a point (mean outdoor temperature
- * over its service period, use per day), a change-point model is chosen among 1P…5P
- * (src/model/changePoint.ts, ASHRAE RP-1050 forms with Guideline 14 statistics), and the
- * chosen model gives
- *   - weather-normalized annual use: Σ over the 12 months of a typical year of
- *     predicted use/day at that month's typical mean temperature × days in the month (365-day year);
- *   - an expected-usage band per bill for the `usage-outlier` audit check.
- * Estimated reads are left out of the fit (the utility's guess is not the building's use).
+ * Bill-level weather baselines per meter, two published model families:
+ *  - change-point models of use per day vs mean period temperature (src/model/changePoint.ts,
+ *    ASHRAE RP-1050 forms, 1P…5P, Guideline 14 statistics). The chosen one gives the
+ *    weather-normalized annual use: Σ over the 12 months of a typical year of predicted use/day at
+ *    that month's typical mean temperature × days in the month (365-day year), and the per-bill
+ *    weather adjustment;
+ *  - variable-base degree-day regression (src/model/degreeDayRegression.ts, PRISM-style) with a
+ *    leave-one-out band (src/model/outlierBand.ts): the expected-usage band per bill for the
+ *    `usage-outlier` audit check. Degree-days see the cold days inside a mild month that a mean
+ *    temperature hides, which is what kept the change-point band from judging shoulder months.
+ * Estimated reads are left out of the fits (the utility's guess is not the building's use).
  */
 import { DateTime } from "luxon";
 import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
 import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "../model/changePoint.ts";
+import { temperatureProfileForPeriod, type DegreeDayFit } from "../model/degreeDayRegression.ts";
+import { degreeDayOutlierBand, type DegreeDayBandBill } from "../model/outlierBand.ts";
 import { GUIDELINE14_LIMITS } from "../model/stats.ts";
 import { daysBetween, localMidnightMs } from "../core/time.ts";
 import type { ReportModelSummary } from "../report/input.ts";
@@ -20,8 +25,6 @@ const HOUR_MS = 3_600_000;
 const MIN_WEATHER_COVERAGE = 0.8;
 /** Fewest points for a model at all (a 5P needs more; the search enforces points per segment). */
 const MIN_POINTS = 9;
-/** Prediction-interval level for the outlier band: wide on purpose, to keep false alarms rare. */
-export const OUTLIER_BAND_LEVEL = 0.99;
 
 export interface MeterBaseline {
   meterId: string;
@@ -48,7 +51,9 @@ export interface MeterBaseline {
    * of the two weather-adjusts the bill (tenant pages, normalized comparisons).
    */
   perBill: { billId: string; expectedAtActualWeather: number; expectedAtTypicalWeather: number }[];
-  /** Expected usage band per bill id (bill unit), only from a model that meets Guideline 14. */
+  /** The degree-day model behind the outlier band, and the training bills it refitted out. */
+  degreeDay: { fit: DegreeDayFit; rejected: string[]; tried: { kind: string; accepted: boolean; reasons: string[]; cvRmsePct: number | null; nmbePct: number | null; r2: number | null; p: number }[] } | null;
+  /** Expected usage band per bill id (bill unit) from the degree-day model's leave-one-out band. */
   expectedByBill: Map<string, { p50: number; low: number; high: number }>;
   summary: ReportModelSummary;
 }
@@ -184,16 +189,7 @@ export function fitMeterBaseline(options: {
 
   const limits = GUIDELINE14_LIMITS.monthly;
   const meetsGuideline14 = fit !== null && fit.stats.cvRmsePct <= limits.cvRmsePct && Math.abs(fit.stats.nmbePct) <= limits.nmbeAbsPct;
-  const expectedByBill = new Map<string, { p50: number; low: number; high: number }>();
-  if (fit && meetsGuideline14) {
-    for (const bill of options.bills) {
-      const temp = billTemps.get(bill.billId);
-      if (temp === undefined) continue;
-      const days = daysBetween(bill.periodStart, bill.periodEnd);
-      const band = fit.predictWithInterval(temp, OUTLIER_BAND_LEVEL, days);
-      expectedByBill.set(bill.billId, { p50: band.fit * days, low: Math.max(0, band.lower * days), high: band.upper * days });
-    }
-  }
+  const { degreeDay, expectedByBill } = degreeDayBand(options, tempUnit);
 
   return {
     meterId: meter.meterId,
@@ -208,6 +204,7 @@ export function fitMeterBaseline(options: {
     normalizedAnnual,
     meetsGuideline14,
     perBill,
+    degreeDay,
     expectedByBill,
     summary: {
       meterId: meter.meterId,
@@ -217,6 +214,56 @@ export function fitMeterBaseline(options: {
       r2: fit?.stats.rSquared ?? null,
       n: points.length,
     },
+  };
+}
+
+/**
+ * The degree-day model and its leave-one-out band for every bill with weather (train on actual
+ * reads, one bill per period; band every bill, estimates and repeats included).
+ */
+function degreeDayBand(
+  options: { building: Building; bills: Bill[]; weather: WeatherSeries | undefined },
+  tempUnit: "C" | "F",
+): Pick<MeterBaseline, "degreeDay" | "expectedByBill"> {
+  const expectedByBill = new Map<string, { p50: number; low: number; high: number }>();
+  const { weather, building } = options;
+  if (!weather) return { degreeDay: null, expectedByBill };
+  const temps = tempUnit === "F" ? weather.tempC.map((t) => t * 1.8 + 32) : weather.tempC;
+  const hourly = { startMs: weather.startMs, temps };
+  const targets: DegreeDayBandBill[] = [];
+  const train: DegreeDayBandBill[] = [];
+  const seen = new Set<string>();
+  for (const bill of [...options.bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart))) {
+    const days = daysBetween(bill.periodStart, bill.periodEnd);
+    const profile = temperatureProfileForPeriod(hourly, localMidnightMs(bill.periodStart, building.timezone), localMidnightMs(bill.periodEnd, building.timezone));
+    if (profile.hoursTotal === 0 || profile.hoursCovered / profile.hoursTotal < MIN_WEATHER_COVERAGE) continue;
+    const item = { id: bill.billId, profile, days, usePerDay: bill.usage / days };
+    targets.push(item);
+    const key = `${bill.periodStart}/${bill.periodEnd}`;
+    if (bill.readType === "actual" && !seen.has(key)) {
+      seen.add(key);
+      train.push(item);
+    }
+  }
+  if (train.length < MIN_POINTS) return { degreeDay: null, expectedByBill };
+  const result = degreeDayOutlierBand(train, targets, { tempUnit });
+  if (!result.fit) return { degreeDay: null, expectedByBill };
+  for (const [id, band] of result.bands) expectedByBill.set(id, { p50: band.expected, low: band.low, high: band.high });
+  return {
+    degreeDay: {
+      fit: result.fit,
+      rejected: result.rejected,
+      tried: result.tried.map((c) => ({
+        kind: c.form,
+        accepted: c.accepted,
+        reasons: c.reasons,
+        cvRmsePct: c.fit?.stats.cvRmsePct ?? null,
+        nmbePct: c.fit?.stats.nmbePct ?? null,
+        r2: c.fit?.stats.rSquared ?? null,
+        p: c.fit?.parameterCount ?? 0,
+      })),
+    },
+    expectedByBill,
   };
 }
 

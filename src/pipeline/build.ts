@@ -171,10 +171,7 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
       priced: computed,
       metered,
       ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill }),
-      // The bill-level change-point band is not passed as `expectedUsage` yet: on mean period
-      // temperature it misjudges shoulder months of heating meters (measured on the demo: five
-      // clean bills outside the 99 % band), so the audit keeps its labelled interim rule until
-      // the degree-day / interval models of the baseline issue replace it.
+      expectedUsage: expectedUsageFromBaselines(baselines),
     });
     return { building, priced, findings, baselines, failure: null };
   } catch (error) {
@@ -194,6 +191,13 @@ function scopeToBuilding(portfolio: Portfolio<Tariff>, building: Building): Port
     bills,
     billLines: portfolio.billLines.filter((l) => billIds.has(l.billId)),
   };
+}
+
+/** The degree-day models' leave-one-out bands, by bill id (meters without a model fall back to the audit's interim rule). */
+function expectedUsageFromBaselines(baselines: MeterBaseline[]): Map<string, { p50: number; low: number; high: number }> {
+  const map = new Map<string, { p50: number; low: number; high: number }>();
+  for (const b of baselines) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
+  return map;
 }
 
 /** The demand window of a tariff's first demand charge (15 minutes when it has none). */

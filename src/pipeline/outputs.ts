@@ -122,6 +122,32 @@ function modelsJson(baselines: MeterBaseline[]) {
       : null,
     normalized_annual: round(b.normalizedAnnual, 3),
     typical_year_source: b.typicalSource,
+    used_for: "weather normalization and weather-adjusted comparisons",
+    degree_day: b.degreeDay
+      ? {
+          used_for: "the usage-outlier band (leave-one-out residuals)",
+          x: `heating/cooling degree-days per day at searched bases (°${b.tempUnit}), integrated from hourly temperatures`,
+          tried: b.degreeDay.tried.map((t) => ({
+            kind: t.kind,
+            accepted: t.accepted,
+            reasons: t.reasons,
+            training: { cv_rmse: round(t.cvRmsePct, 4), nmbe: round(t.nmbePct, 4), r2: round(t.r2, 6), p: t.p },
+          })),
+          chosen: {
+            kind: b.degreeDay.fit.form,
+            heating_base: b.degreeDay.fit.heatingBase,
+            cooling_base: b.degreeDay.fit.coolingBase,
+            intercept: b.degreeDay.fit.intercept,
+            slopes: b.degreeDay.fit.slopes.map((sl) => sl.value),
+            cv_rmse: round(b.degreeDay.fit.stats.cvRmsePct, 4),
+            nmbe: round(b.degreeDay.fit.stats.nmbePct, 4),
+            r2: round(b.degreeDay.fit.stats.rSquared, 6),
+            n: b.degreeDay.fit.stats.n,
+            p: b.degreeDay.fit.parameterCount,
+          },
+          refitted_out: b.degreeDay.rejected,
+        }
+      : null,
   }));
 }
 
