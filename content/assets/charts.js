@@ -1,8 +1,61 @@
-// Interactive charts: each server-rendered figure carries its Vega-Lite spec as JSON; replace
-// the static SVG with a live vega view (tooltips on, export menu off). `ast: true` makes vega
-// evaluate expressions with its interpreter instead of generating code with `new Function`,
-// so the pages work under a Content-Security-Policy without 'unsafe-eval'.
-import embed from "vega-embed";
+// Interactive charts: each server-rendered figure carries its spec, compiled to Vega on the
+// server, as JSON; replace the static SVG with a live vega view. Only the vega runtime is
+// shipped (no vega-lite, no vega-embed). `ast: true` + vega-interpreter evaluate expressions
+// without generating code, so the pages work under a Content-Security-Policy without
+// 'unsafe-eval'.
+import { View, parse } from "vega";
+import { expressionInterpreter } from "vega-interpreter";
+
+let tooltipNode = null;
+
+
+/** The one tooltip element of the page, created on first use. */
+function tooltipElement() {
+  if (!tooltipNode) {
+    tooltipNode = document.createElement("div");
+    tooltipNode.id = "chart-tooltip";
+    tooltipNode.setAttribute("role", "tooltip");
+    tooltipNode.hidden = true;
+    document.body.append(tooltipNode);
+  }
+  return tooltipNode;
+}
+
+/**
+ * vega tooltip handler (view.tooltip API): `value` is the item's tooltip — an object of
+ * title → formatted value for Vega-Lite tooltips, or a plain value. Shown next to the pointer,
+ * built with text nodes only (values are user text).
+ */
+function showTooltip(_handler, event, _item, value) {
+  const el = tooltipElement();
+  if (value == null || value === "") {
+    el.hidden = true;
+    return;
+  }
+  el.replaceChildren();
+  if (typeof value === "object") {
+    const table = document.createElement("table");
+    for (const [key, v] of Object.entries(value)) {
+      const tr = table.insertRow();
+      const th = document.createElement("th");
+      th.scope = "row";
+      th.textContent = String(key);
+      const td = tr.insertCell();
+      td.textContent = String(v);
+      tr.prepend(th);
+    }
+    el.append(table);
+  } else {
+    el.textContent = String(value);
+  }
+  el.hidden = false;
+  const pad = 12;
+  const x = event.clientX + pad;
+  const y = event.clientY + pad;
+  const box = el.getBoundingClientRect();
+  el.style.left = `${Math.min(x, window.innerWidth - box.width - pad) + window.scrollX}px`;
+  el.style.top = `${(y + box.height > window.innerHeight ? event.clientY - box.height - pad : y) + window.scrollY}px`;
+}
 
 async function enhance(figure) {
   const specNode = figure.querySelector("script.chart-spec");
@@ -13,15 +66,22 @@ async function enhance(figure) {
   target.className = "chart-live";
   fallback.after(target);
   try {
-    const result = await embed(target, spec, { actions: false, ast: true, renderer: "svg", tooltip: true });
+    const view = new View(parse(spec, null, { ast: true }), {
+      expr: expressionInterpreter,
+      renderer: "svg",
+      container: target,
+      hover: true,
+    });
+    view.tooltip(showTooltip);
+    await view.runAsync();
     const svg = target.querySelector("svg");
     if (svg) {
       svg.setAttribute("role", "img");
-      svg.setAttribute("aria-label", spec.description || spec.title || "Chart");
+      svg.setAttribute("aria-label", spec.description || figure.querySelector("figcaption")?.textContent || "Chart");
     }
     fallback.hidden = true;
     figure.dataset.chartState = "interactive";
-    figure.vegaView = result.view;
+    figure.vegaView = view;
   } catch (error) {
     // Keep the static SVG; the page stays complete.
     target.remove();
@@ -32,5 +92,8 @@ async function enhance(figure) {
 
 /** Replaces each figure[data-chart]'s SVG fallback under `root` with an interactive view. */
 export function enhanceCharts(root) {
+  document.addEventListener("keydown", (e) => {
+    if (e.key === "Escape" && tooltipNode) tooltipNode.hidden = true;
+  });
   return Promise.all(Array.from(root.querySelectorAll("figure[data-chart]")).map(enhance));
 }

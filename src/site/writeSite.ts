@@ -141,7 +141,7 @@ function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<
     resolve: {
       // The scratch folder may sit outside the project, where bare imports would not resolve.
       // Object form: the plugin deep-merges its own object-form alias with ours.
-      alias: { "vega-embed": require.resolve("vega-embed") },
+      alias: { vega: require.resolve("vega"), "vega-interpreter": require.resolve("vega-interpreter") },
     },
     build: {
       emptyOutDir: true,

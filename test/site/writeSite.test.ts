@@ -105,10 +105,12 @@ describe("writeSite", () => {
     expect(b2).not.toContain("data/buildings/B1/");
   });
 
-  it("puts the portfolio cost chart on the index", async () => {
+  it("puts the portfolio charts on the index: cost by month, intensity ranking, findings by check", async () => {
     const index = await readFile(join(out, "index.html"), "utf8");
     expect(index).toContain('id="chart-portfolio-cost"');
-    expect(index.match(/<svg[^>]*role="img"/g)).toHaveLength(1);
+    expect(index).toContain('id="chart-portfolio-eui"');
+    expect(index).toContain('id="chart-portfolio-findings"');
+    expect(index.match(/<svg[^>]*role="img"/g)).toHaveLength(3);
   });
 
   it("has the accessibility basics without JavaScript", async () => {
