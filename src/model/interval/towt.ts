@@ -3,7 +3,8 @@
  * "Quantifying changes in building electricity use, with application to demand response",
  * IEEE Trans. Smart Grid 2(3)): hourly energy = α(hour of week) + piecewise-linear function
  * of outdoor temperature, with separate temperature slopes for occupied and unoccupied hours
- * of the week. Fitted by ordinary least squares (../ols.ts).
+ * of the week. Fitted by ordinary least squares (../ols.ts), by default in the equivalent
+ * "within" form (hour-of-week means removed first), see {@link TowtOptions.solver}.
  *
  * Occupancy (as the method describes): fit energy on temperature alone (intercept +
  * piecewise-linear components); an hour of the week is "occupied" when more than
@@ -30,6 +31,12 @@ export interface TowtOptions {
   occupancy?: ArrayLike<number>;
   /** Add one coefficient for occupied hours on holidays (when at least 8 such rows exist). Default true. */
   holidayTerm?: boolean;
+  /**
+   * "within" (default): remove hour-of-week means first (Frisch–Waugh–Lovell), then fitOls on
+   * the few remaining columns: same coefficients, ~20× faster on a year. "full": fitOls on the
+   * whole 180-column design (all standard errors).
+   */
+  solver?: "full" | "within";
 }
 
 /** Training input of TOWT: the columns it uses. */
@@ -49,6 +56,18 @@ export interface TowtModel extends FittedHourlyModel {
   knotsUnoccupiedC: number[];
   /** Names of the design columns, in coefficient order (no intercept). */
   columnNames: string[];
+  /** Coefficients in `columnNames` order. */
+  coefficients: number[];
+  /** Standard errors in the same order (NaN for the hour-of-week indicators with the "within" solver). */
+  standardErrors: number[];
+  /** s = sqrt(SSE / (n − k)) with k all TOWT coefficients. */
+  residualStdError: number;
+  dfResidual: number;
+  solver: "full" | "within";
+  /**
+   * The least-squares fit actually solved: the whole design ("full"), or the temperature and
+   * holiday columns after removing hour-of-week means ("within"; its residuals are the model's).
+   */
   ols: OlsFit;
 }
 
@@ -168,9 +187,55 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     }
     return r;
   };
-  const x = Array.from({ length: n }, (_, i) => row(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, seen[data.hourOfWeek[i]!]!));
-  const ols = fitOls(x, data.kwh, { intercept: false, columnNames });
-  const beta = ols.coefficients;
+  if (n <= k) throw new ModelInputError(`TOWT needs more hours than coefficients (n=${n}, k=${k})`);
+  const solver = options.solver ?? "within";
+  let ols: OlsFit;
+  let beta: number[];
+  let residualStdError: number;
+  let standardErrors: number[];
+  if (solver === "full") {
+    const x = Array.from({ length: n }, (_, i) => row(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, seen[data.hourOfWeek[i]!]!));
+    ols = fitOls(x, data.kwh, { intercept: false, columnNames });
+    beta = ols.coefficients;
+    residualStdError = ols.residualStdError;
+    standardErrors = ols.standardErrors;
+  } else {
+    // Frisch–Waugh–Lovell: with one indicator per hour of week, regressing on the indicators is
+    // subtracting each hour-of-week group's mean. Fit the other columns on the demeaned data,
+    // then each indicator is its group's mean of y − Xβ. Same β and residuals as the full
+    // design, at the cost of a 13-column instead of a 180-column factorization.
+    const m = k - nHow;
+    const xr = Array.from({ length: n }, (_, i) => row(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, -1).slice(nHow));
+    const groupN = new Float64Array(nHow);
+    const groupY = new Float64Array(nHow);
+    const groupX = Array.from({ length: nHow }, () => new Float64Array(m));
+    for (let i = 0; i < n; i++) {
+      const g = seen[data.hourOfWeek[i]!]!;
+      groupN[g]!++;
+      groupY[g]! += data.kwh[i]!;
+      for (let j = 0; j < m; j++) groupX[g]![j]! += xr[i]![j]!;
+    }
+    for (let g = 0; g < nHow; g++) {
+      groupY[g]! /= groupN[g]!;
+      for (let j = 0; j < m; j++) groupX[g]![j]! /= groupN[g]!;
+    }
+    const yd = new Float64Array(n);
+    const xd = xr.map((r, i) => {
+      const g = seen[data.hourOfWeek[i]!]!;
+      yd[i] = data.kwh[i]! - groupY[g]!;
+      return r.map((v, j) => v - groupX[g]![j]!);
+    });
+    const tail = columnNames.slice(nHow);
+    // m ≥ 1: every row is in one mode, and each mode with rows has at least one temperature column
+    ols = fitOls(xd, yd, { intercept: false, columnNames: tail });
+    const bTail = ols.coefficients;
+    const alpha = Array.from({ length: nHow }, (_, g) => groupY[g]! - bTail.reduce((acc, b, j) => acc + b * groupX[g]![j]!, 0));
+    beta = [...alpha, ...bTail];
+    residualStdError = Math.sqrt(ols.sse / (n - k));
+    // (X̃ᵀX̃)⁻¹ of the demeaned columns is the matching block of the full (XᵀX)⁻¹ (FWL), so only the
+    // residual variance needs the full design's degrees of freedom. Indicator SEs are not computed.
+    standardErrors = [...new Array<number>(nHow).fill(Number.NaN), ...bTail.map((_, j) => residualStdError * Math.sqrt(ols.unscaledCovariance[j]![j]!))];
+  }
   // Hours of week never seen in training borrow the mean indicator of their mode (or of all hours).
   const fallback = new Float64Array(2);
   for (const mode of [0, 1]) {
@@ -193,7 +258,21 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     }
     return out;
   };
-  return { kind: "towt", parameterCount: ols.k, occupied, knotsOccupiedC: knotsOcc, knotsUnoccupiedC: knotsUnocc, columnNames, ols, predict };
+  return {
+    kind: "towt",
+    parameterCount: k,
+    occupied,
+    knotsOccupiedC: knotsOcc,
+    knotsUnoccupiedC: knotsUnocc,
+    columnNames,
+    coefficients: beta,
+    standardErrors,
+    residualStdError,
+    dfResidual: n - k,
+    solver,
+    ols,
+    predict,
+  };
 }
 
 /**

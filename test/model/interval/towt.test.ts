@@ -35,8 +35,22 @@ describe("TOWT against statsmodels OLS (scripts/reference/make_interval_fixtures
   });
   expect(fixture.cases.map((c) => c.name)).toEqual(["six-weeks-wide-range", "four-weeks-cold"]);
   for (const c of fixture.cases) {
-    it(`${c.name}: occupancy, knots and coefficients match to 1e-8`, () => {
+    it(`${c.name} (within solver): coefficients, s and temperature-term SEs match to 1e-8`, () => {
       const m = fitTowt(c, { minPointsPerSegment: c.minPointsPerSegment, occupancyThreshold: c.occupancyThreshold });
+      const e = c.expected;
+      expect(m.solver).toBe("within");
+      expect(Array.from(m.occupied)).toEqual(e.occupied);
+      expect(m.coefficients.length).toBe(e.coefficients.length);
+      // Frisch–Waugh–Lovell is exact algebra; both sides use orthogonal factorizations
+      e.coefficients.forEach((v, j) => expectRel(m.coefficients[j]!, v, 1e-8, `beta ${m.columnNames[j]}`));
+      expectRel(m.residualStdError, e.residualStdError, 1e-8, "s");
+      const nHow = m.columnNames.filter((n) => n.startsWith("how")).length;
+      e.standardErrors.slice(nHow).forEach((v, j) => expectRel(m.standardErrors[nHow + j]!, v, 1e-8, `se ${m.columnNames[nHow + j]}`));
+      expect(m.parameterCount).toBe(e.coefficients.length);
+    });
+
+    it(`${c.name} (full solver): occupancy, knots and coefficients match to 1e-8`, () => {
+      const m = fitTowt(c, { minPointsPerSegment: c.minPointsPerSegment, occupancyThreshold: c.occupancyThreshold, solver: "full" });
       const e = c.expected;
       expect(Array.from(m.occupied)).toEqual(e.occupied);
       expect(m.knotsOccupiedC).toEqual(e.knotsOccupiedC);
