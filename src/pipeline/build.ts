@@ -23,6 +23,8 @@ import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
+import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
+import { effectiveAsOf } from "./usageSummary.ts";
 import { writeSite } from "../site/writeSite.ts";
 
 export interface BuildOptions {
@@ -111,8 +113,11 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   for (const r of results) for (const [id, p] of r.priced) priced.set(id, p);
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
+  reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
+  const forecast = runForecast(portfolio, results, issues);
+
   reporter.stage(`Writing the site to ${options.outDir}`);
-  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters });
+  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast });
   const model = buildSiteModel({
     portfolio,
     priced,
@@ -141,6 +146,30 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
     summaryText: summaryText(summary, portfolio.settings.currency),
     findingsAtOrAbove: (severity) => findings.filter((f) => SEVERITY_RANK[f.severity] >= SEVERITY_RANK[severity]).length,
   };
+}
+
+/**
+ * Backtest, calibration and forecast over the whole portfolio (scenarios share weather years
+ * across buildings). A failure here costs the forecast, never the rest of the site: it becomes a
+ * warning and the pages say no forecast was made.
+ */
+function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[]): ForecastBundle | null {
+  const asOf = effectiveAsOf(portfolio);
+  if (!asOf) return null;
+  const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
+  try {
+    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines });
+  } catch (error) {
+    issues.push({
+      file: "portfolio.yaml",
+      line: 0,
+      column: 0,
+      severity: "warning",
+      message: `no cost forecast was made: ${error instanceof Error ? error.message : String(error)}`,
+      hint: "the rest of the site is complete; please report this with the portfolio folder",
+    });
+    return null;
+  }
 }
 
 /** Prices, reconciles, audits and models one building; any failure is caught and reported. */

@@ -16,6 +16,7 @@ import type { BuildingResults } from "./build.ts";
 import type { PricedBill } from "./priceBills.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
+import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
 import { weatherGapDetections } from "./dataQuality.ts";
 import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT } from "./usageSummary.ts";
 import { unitFactor } from "../tariff/units.ts";
@@ -28,6 +29,8 @@ export interface OutputsInput {
   monthlyMetered: Map<string, MonthTotal[]>;
   weatherGaps: WeatherGap[];
   quality: MeterQuality[];
+  /** Null when no forecast could be made (no as-of date, or the forecast failed). */
+  forecast: ForecastBundle | null;
 }
 
 const json = (value: unknown): string => `${JSON.stringify(value, null, 2)}\n`;
@@ -51,6 +54,7 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
     "alignment.json": json(alignmentJson(input.quality)),
     "models.json": json(modelsJson(input.results.flatMap((r) => r.baselines))),
   };
+  if (input.forecast) files["forecast.csv"] = toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.map(roundForecastRow));
   for (const r of input.results) {
     const id = r.building.buildingId;
     const meterIds = new Set(portfolio.meters.filter((m) => m.buildingId === id).map((m) => m.meterId));
@@ -59,8 +63,15 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
     files[`${folder}bills-recomputed.csv`] = billsRecomputedCsv(input, portfolio.bills.filter((b) => meterIds.has(b.meterId)), buildingOfMeter);
     files[`${folder}data-quality.csv`] = toCsv(DATA_QUALITY_COLUMNS, qualityRows.filter((row) => row.building_id === id));
     files[`${folder}models.json`] = json(modelsJson(r.baselines));
+    if (input.forecast) files[`${folder}forecast.csv`] = toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.filter((row) => row.building_id === id).map(roundForecastRow));
   }
   return files;
+}
+
+const FORECAST_COLUMNS = ["building_id", "meter_id", "month", "usage_p50", "cost_p10", "cost_p50", "cost_p90"] as const;
+
+function roundForecastRow(row: ForecastRow): ForecastRow {
+  return { ...row, usage_p50: Number(row.usage_p50.toFixed(3)), cost_p10: Number(row.cost_p10.toFixed(2)), cost_p50: Number(row.cost_p50.toFixed(2)), cost_p90: Number(row.cost_p90.toFixed(2)) };
 }
 
 function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter: Map<string, string>): string {
@@ -151,14 +162,40 @@ function modelsJson(baselines: MeterBaseline[]) {
   }));
 }
 
+function bandJson(band: Band | null) {
+  return band ? { p10: round(band.p10, 2), p50: round(band.p50, 2), p90: round(band.p90, 2) } : null;
+}
+
+function accuracyJson(a: { months: number; forecastTotal: number; actualTotal: number; annualErrorPct: number; cvRmsePct: number; coverage: number | null } | null) {
+  return a
+    ? { months: a.months, forecast_total: round(a.forecastTotal, 2), actual_total: round(a.actualTotal, 2), annual_error_pct: round(a.annualErrorPct, 3), cv_rmse_pct: round(a.cvRmsePct, 3), coverage: round(a.coverage, 4) }
+    : null;
+}
+
 function portfolioJson(input: OutputsInput) {
   const { portfolio, results } = input;
   const asOf = effectiveAsOf(portfolio);
   const heatContent = (tariffId: string) => portfolio.tariffs.get(tariffId)?.heatContentThermPerCcf ?? DEFAULT_HEAT_CONTENT_THERM_PER_CCF;
+  const fc = input.forecast;
   return {
     name: portfolio.settings.name,
     currency: portfolio.settings.currency,
     as_of: asOf,
+    forecast: fc
+      ? {
+          months: portfolio.settings.forecastMonths,
+          cost_next_12m: bandJson(fc.forecast.costNext12m),
+          escalation: portfolio.settings.escalation,
+          escalation_stated: portfolio.settings.escalationStated,
+          noise_calibration: fc.calibration.factor,
+          track_record: {
+            backtest_as_of: fc.trackRecord.backtestAsOf,
+            model: accuracyJson(fc.trackRecord.overall.model),
+            naive_same_month_last_year: accuracyJson(fc.trackRecord.overall.naive),
+            mean_abs_annual_error_pct: fc.trackRecord.overall.meanAbsAnnualErrorPct,
+          },
+        }
+      : null,
     buildings: results.map((r) => {
       const b = r.building;
       const meters = portfolio.meters.filter((m) => m.buildingId === b.buildingId);
@@ -200,7 +237,7 @@ function portfolioJson(input: OutputsInput) {
         name: b.name,
         floor_area_m2: round(b.floorAreaM2, 3),
         ...commodities,
-        forecast_cost_next_12m: null,
+        forecast_cost_next_12m: bandJson(input.forecast?.forecast.buildings.find((f) => f.buildingId === b.buildingId)?.costNext12m ?? null),
         findings_count: { error: count("error"), warning: count("warning"), info: count("info") },
         analysis_error: r.failure,
       };
