@@ -32,6 +32,16 @@ describe("expanding-window folds (hand-computed)", () => {
 });
 
 describe("crossValidate", () => {
+  it("a block with n ≤ p has no Guideline 14 statistic (n − p ≤ 0) but its rows still count in the pooled ones", () => {
+    const wide: HourlyModelSpec = {
+      kind: "wide",
+      fit: () => ({ kind: "wide", parameterCount: 40, predict: (f) => new Float64Array(f.tempC.length).fill(20) }),
+    };
+    const r = crossValidate(frameOf(200), wide, { folds: 2, validationHours: 30, minTrainRows: 20 });
+    expect(r.folds.map((f) => f.problem)).toEqual(["validation block has 30 hours, not more than p = 40", "validation block has 30 hours, not more than p = 40"]);
+    expect(r.pooled?.n).toBe(60);
+  });
+
   it("never trains on the block's hours or later, and scores every block", () => {
     const seen: number[] = [];
     const spy: HourlyModelSpec = {
