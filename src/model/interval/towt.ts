@@ -8,8 +8,9 @@
  *
  * Occupancy (as the method describes): fit energy on temperature alone (intercept +
  * piecewise-linear components); an hour of the week is "occupied" when more than
- * `occupancyThreshold` (default 0.65, the published value as remembered) of its residuals are
- * positive, i.e. the building uses more at that hour than temperature explains.
+ * `occupancyThreshold` of its residuals are positive, i.e. the building uses more at that hour
+ * than temperature explains. Default 0.65, the value in LBNL's open-source RMV2.0
+ * implementation of the method.
  */
 import { fitOls } from "../ols.ts";
 import type { OlsFit } from "../ols.ts";
