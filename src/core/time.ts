@@ -13,10 +13,18 @@ import { DateTime } from "luxon";
  * @example localMidnightMs("2024-03-10", "America/New_York") // 2024-03-10T05:00:00Z
  */
 export function localMidnightMs(isoDate: string, zone: string): number {
+  const key = `${zone}|${isoDate}`;
+  const hit = midnightCache.get(key);
+  if (hit !== undefined) return hit;
   const dt = DateTime.fromISO(isoDate, { zone }).startOf("day");
   if (!dt.isValid) throw new RangeError(`invalid date '${isoDate}' in zone '${zone}': ${dt.invalidExplanation ?? ""}`);
+  // Bills, forecasts and reconciliation ask for the same few thousand midnights again and again.
+  if (midnightCache.size >= 100_000) midnightCache.clear();
+  midnightCache.set(key, dt.toMillis());
   return dt.toMillis();
 }
+
+const midnightCache = new Map<string, number>();
 
 /** First index i with sorted[i] >= value (binary search over a sorted array). */
 export function lowerBound(sorted: ArrayLike<number>, value: number): number {

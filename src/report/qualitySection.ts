@@ -2,7 +2,7 @@
 import type { Building, IntervalSeries, Meter } from "../domain/types.ts";
 import type { ReportMeterQuality, ReportWeatherDetection } from "./input.ts";
 import type { HeatmapChartModel, QualitySection, TableModel } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatNumber, formatQuantity } from "./format.ts";
+import { NOT_AVAILABLE, formatMonth, formatNumber, formatQuantity } from "./format.ts";
 import { commodityLabel } from "./labels.ts";
 
 const HOUR_MS = 3_600_000;
@@ -188,26 +188,37 @@ function heatmapChart(q: ReportMeterQuality, meter: Meter, series: IntervalSerie
     description: `Calendar heatmap of meter ${meter.meterId}, ${first} to ${last} (local time, ${zone}): one column per day, one row per hour, darker is more use in ${meter.unit}; ${formatNumber(flaggedHours)} hours holding flagged intervals are marked in orange.`,
     valueLabel,
     days,
-    table: {
-      caption: `Meter ${meter.meterId}: use per day and flagged hours (local days)`,
-      sortable: true,
-      columns: [
-        { label: "Day", numeric: false },
-        { label: `Use (${meter.unit})`, numeric: true },
-        { label: "Hours with data", numeric: true },
-        { label: "Flagged hours", numeric: true },
-      ],
-      rows: days.map((d) => {
-        const total = d.values.reduce<number>((s, v) => s + (v ?? 0), 0);
-        const flagged = d.flagged.reduce((s, f) => s + f, 0);
-        return [
-          { text: d.day },
-          { text: formatQuantity(total, meter.unit), sort: String(total) },
-          { text: formatNumber(d.values.filter((v) => v != null).length) },
-          { text: formatNumber(flagged), sort: String(flagged), tone: flagged > 0 ? ("warn" as const) : undefined },
-        ];
-      }),
-    },
+    table: monthlyHeatmapTable(meter, days),
+  };
+}
+
+/** The heatmap's text equivalent, by local calendar month (the detections table lists each flagged run). */
+function monthlyHeatmapTable(meter: Meter, days: HeatmapChartModel["days"]): TableModel {
+  const months = new Map<string, { use: number; days: number; hours: number; flagged: number }>();
+  for (const d of days) {
+    const m = months.get(d.day.slice(0, 7)) ?? { use: 0, days: 0, hours: 0, flagged: 0 };
+    m.days++;
+    for (const v of d.values) if (v != null) { m.use += v; m.hours++; }
+    for (const f of d.flagged) m.flagged += f;
+    months.set(d.day.slice(0, 7), m);
+  }
+  return {
+    caption: `Meter ${meter.meterId}: interval use and flagged hours by month (local time)`,
+    sortable: false,
+    columns: [
+      { label: "Month", numeric: false },
+      { label: `Use (${meter.unit})`, numeric: true },
+      { label: "Days with data", numeric: true },
+      { label: "Hours with data", numeric: true },
+      { label: "Flagged hours", numeric: true },
+    ],
+    rows: [...months.entries()].map(([month, m]) => [
+      { text: formatMonth(month), sort: month },
+      { text: formatQuantity(m.use, meter.unit), sort: String(m.use) },
+      { text: formatNumber(m.days) },
+      { text: formatNumber(m.hours) },
+      { text: formatNumber(m.flagged), tone: m.flagged > 0 ? ("warn" as const) : undefined },
+    ]),
   };
 }
 

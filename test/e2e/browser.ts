@@ -71,7 +71,7 @@ export async function openPage(context: BrowserContext, url: string, dialogs: st
   return { page, errors };
 }
 
-/** Every chart figure must have swapped its SVG fallback for a live vega view with drawn bars. */
+/** Every chart figure must have swapped its SVG fallback for a live vega view with drawn data marks. */
 export async function expectChartsLive(page: Page): Promise<number> {
   const charts = await page.locator("figure[data-chart]").count();
   if (charts === 0) return 0;
@@ -85,7 +85,7 @@ export async function expectChartsLive(page: Page): Promise<number> {
       state: (f as HTMLElement).dataset.chartState,
       hasView: typeof (f as unknown as { vegaView?: { data: unknown } }).vegaView?.data === "function",
       liveSvg: f.querySelector(".chart-live svg") !== null,
-      marks: f.querySelectorAll(".chart-live .mark-rect path").length,
+      marks: f.querySelectorAll(".chart-live g.role-mark path").length,
     })),
   );
   for (const s of states) expect(s).toMatchObject({ state: "interactive", hasView: true, liveSvg: true });

@@ -13,12 +13,12 @@ import { join } from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { writeSite } from "../../src/site/writeSite.ts";
-import { EVIL_NAME, fixtureInput } from "../report/fixture.ts";
+import { EVIL_NAME, fullFixtureInput } from "../report/fixture.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
 import { ARTIFACTS, CHROMIUM, HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
 
 const PREFIX = "/reports/";
-const PAGES = ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html"];
+const PAGES = ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html", "buildings/B1/tenant.html"];
 
 if (!HAVE_CHROMIUM) {
   console.warn(`e2e skipped: ${CHROMIUM} not found (install Debian's chromium: apt-get install -y chromium)`);
@@ -37,7 +37,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     work = await mkdtemp(join(tmpdir(), "ohmbook-e2e-"));
     site = join(work, "site");
     const t0 = performance.now();
-    await writeSite(buildSiteModel(fixtureInput()), { "findings.csv": "building_id\nB1\n", "portfolio.json": "[]\n", "buildings/B1/bills.csv": "bill_id\n" }, site);
+    await writeSite(buildSiteModel(fullFixtureInput()), { "findings.csv": "building_id\nB1\n", "portfolio.json": "[]\n", "buildings/B1/bills.csv": "bill_id\n" }, site);
     buildMs = Math.round(performance.now() - t0);
     server = await serveStatic(site, PREFIX);
     await mkdir(ARTIFACTS, { recursive: true });
@@ -103,7 +103,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     await page.waitForFunction(() => document.querySelector("figure[data-chart]")?.getAttribute("data-chart-state") === "interactive");
     const bar = page.locator("figure[data-chart] .chart-live .mark-rect path").first();
     await bar.hover({ force: true });
-    const tooltip = page.locator("#vg-tooltip-element");
+    const tooltip = page.locator("#chart-tooltip");
     await expect.poll(async () => (await tooltip.count()) > 0 && (await tooltip.isVisible()), { timeout: 5000 }).toBe(true);
     expect(await tooltip.textContent()).toMatch(/Month.*Meter.*Usage \(kWh\)/s);
     await page.close();
@@ -141,8 +141,8 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
   it("sorts the building table by floor area, both directions", async () => {
     const { page } = await open("index.html");
     const areas = () =>
-      page.$$eval("table[data-sortable] tbody tr", (rows) => rows.map((r) => Number((r as HTMLTableRowElement).cells[2].dataset.sort)));
-    const header = page.locator("table[data-sortable] thead th").nth(2);
+      page.$$eval('section[aria-labelledby="buildings-h"] table[data-sortable] tbody tr', (rows) => rows.map((r) => Number((r as HTMLTableRowElement).cells[2].dataset.sort)));
+    const header = page.locator('section[aria-labelledby="buildings-h"] table[data-sortable] thead th').nth(2);
     await header.locator("button").click();
     expect(await header.getAttribute("aria-sort")).toBe("ascending");
     const asc = await areas();

@@ -61,7 +61,7 @@ export function baselineScatterSpec(chart: BaselineScatterChartModel): Record<st
  * use per day at the same weather (line with points), on a UTC time axis.
  */
 export function baselineTimeSpec(chart: BaselineTimeChartModel): Record<string, unknown> {
-  const x = { field: "mid", type: "temporal", title: "Billing period (middle day)", scale: { type: "utc" }, axis: { format: "%b %Y", formatType: "utc" } };
+  const x = { field: "mid", type: "temporal", title: "Billing period (middle day)", scale: { type: "utc" }, axis: { format: "%b %Y" } };
   const tooltip = [
     { field: "period", type: "nominal", title: "Period" },
     { field: "actual", type: "quantitative", title: `Actual, ${chart.useLabel}`, format: ",.2f" },
@@ -89,16 +89,16 @@ export function baselineTimeSpec(chart: BaselineTimeChartModel): Record<string, 
  * flattened in the browser; the hour is each value's position within its day.
  */
 export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
-  const x = { field: "day", type: "temporal", timeUnit: "utcyearmonthdate", title: "Day", axis: { format: "%b %Y", formatType: "utc", labelAngle: 0, grid: false, tickCount: 12 } };
+  const x = { field: "day", type: "temporal", timeUnit: "utcyearmonthdate", title: "Day", axis: { format: "%b %Y", labelAngle: 0, grid: false, tickCount: 12 } };
   const y = { field: "hour", type: "ordinal", title: "Hour of day (local)", axis: { values: [0, 6, 12, 18], grid: false } };
   const tooltip = [
-    { field: "day", type: "temporal", timeUnit: "utcyearmonthdate", title: "Day", format: "%a %b %-d, %Y", formatType: "utc" },
+    { field: "day", type: "temporal", timeUnit: "utcyearmonthdate", title: "Day", format: "%a %b %-d, %Y" },
     { field: "hour", type: "ordinal", title: "Hour" },
     { field: "value", type: "quantitative", title: chart.valueLabel, format: ",.3~f" },
     { field: "flag", type: "nominal", title: "Flagged" },
   ];
   return {
-    ...base(chart, { step: 8 }),
+    ...base(chart, 192),
     data: { values: chart.days.map((d) => ({ day: d.day, values: d.values, flagged: d.flagged })) },
     transform: [
       { flatten: ["values", "flagged"], as: ["value", "f"] },

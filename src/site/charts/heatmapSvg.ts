@@ -35,13 +35,29 @@ export function heatmapSvg(chart: HeatmapChartModel, widthPx = 720): string {
   const paths: string[][] = Array.from({ length: bins }, () => []);
   const flagged: string[] = [];
   const w = fmt(cellW);
+  const binOf = (v: number | null) => (v == null ? -1 : Math.min(bins - 1, Math.floor(((v - min) / span) * bins)));
   chart.days.forEach((d, i) => {
     const x = fmt(left + i * cellW);
-    d.values.forEach((v, h) => {
-      const cell = `M${x} ${top + h * cellH}h${w}v${cellH}h-${w}z`;
-      if (v != null) paths[Math.min(bins - 1, Math.floor(((v - min) / span) * bins))].push(cell);
-      if (d.flagged[h] === 1) flagged.push(cell);
-    });
+    // Consecutive hours of one day in the same band become one rectangle.
+    let h = 0;
+    while (h < 24) {
+      const bin = binOf(d.values[h]);
+      let end = h + 1;
+      while (end < 24 && binOf(d.values[end]) === bin) end++;
+      if (bin >= 0) paths[bin].push(`M${x} ${top + h * cellH}h${w}v${(end - h) * cellH}h-${w}z`);
+      h = end;
+    }
+    h = 0;
+    while (h < 24) {
+      if (d.flagged[h] !== 1) {
+        h++;
+        continue;
+      }
+      let end = h + 1;
+      while (end < 24 && d.flagged[end] === 1) end++;
+      flagged.push(`M${x} ${top + h * cellH}h${w}v${(end - h) * cellH}h-${w}z`);
+      h = end;
+    }
   });
   const label = escapeXml(chart.description);
   const parts: string[] = [];
