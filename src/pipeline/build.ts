@@ -20,6 +20,8 @@ import { meteredForBills } from "../audit/reconcile.ts";
 import { assessIntervalMeters } from "./dataQuality.ts";
 import { makeRepricer } from "../audit/wiring.ts";
 import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
+import { fitBuildingIntervalBaselines } from "./intervalBaselines.ts";
+import type { IntervalBaseline } from "../model/interval/index.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
@@ -62,6 +64,8 @@ export interface BuildingResults {
   priced: Map<string, PricedBill>;
   findings: Finding[];
   baselines: MeterBaseline[];
+  /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
+  intervalBaselines: IntervalBaseline[];
   failure: string | null;
 }
 
@@ -88,9 +92,10 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const results: BuildingResults[] = [];
+  const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
   portfolio.buildings.forEach((building, index) => {
     reporter.step(index, portfolio.buildings.length, building.buildingId);
-    results.push(analyseBuilding(portfolio, building));
+    results.push(analyseBuilding(portfolio, building, masks));
   });
   reporter.step(portfolio.buildings.length, portfolio.buildings.length, "done");
   reporter.finish();
@@ -173,8 +178,8 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
 }
 
 /** Prices, reconciles, audits and models one building; any failure is caught and reported. */
-export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building): BuildingResults {
-  const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], failure: null };
+export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array> = new Map()): BuildingResults {
+  const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], intervalBaselines: [], failure: null };
   try {
     const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
     const priced = new Map<string, PricedBill>();
@@ -202,7 +207,8 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
       ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill }),
       expectedUsage: expectedUsageFromBaselines(baselines),
     });
-    return { building, priced, findings, baselines, failure: null };
+    const intervalBaselines = fitBuildingIntervalBaselines(portfolio, building, masks);
+    return { building, priced, findings, baselines, intervalBaselines, failure: null };
   } catch (error) {
     return { ...empty, failure: error instanceof Error ? error.message : String(error) };
   }

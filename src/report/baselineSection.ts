@@ -122,7 +122,7 @@ function scatterChart(b: ReportBaseline, bills: Map<string, Bill>, idBase: strin
     id: `${idBase}-scatter`,
     kind: "baseline-scatter",
     title: `Meter ${b.meterId}: use per day against outdoor temperature`,
-    description: `Scatter chart of meter ${b.meterId}: one point per bill, the bill period's mean outdoor temperature in ${degree} against use per day in ${b.unit}; ${b.curve.length > 1 ? `the line is the fitted ${modelKindLabel(b.kind)} model` : "no model line"}; hollow points were left out of the fit.`,
+    description: `Scatter chart of meter ${b.meterId}: one point per bill, the bill period's mean outdoor temperature in ${degree} against use per day in ${b.unit}; ${b.curve.length > 1 ? `the line is the fitted ${modelKindLabel(b.kind)} model` : "no model line"}; bills left out of the fit have their own colour and shape.`,
     tempLabel,
     useLabel,
     points,

@@ -91,6 +91,20 @@ export function heatmapDays(
     .map(([day, r]) => ({ day, values: r.values.map((v) => (v == null ? null : sig3(v))), flagged: r.flagged }));
 }
 
+/**
+ * 99th percentile (nearest rank) of the hourly values of unflagged hours; the heatmap's colour
+ * scale stops there. 1 when there are no values.
+ * @example colorScaleMax([{ day: "2025-01-01", values: [1, 2, 3], flagged: [0, 0, 1] }]) // 2
+ */
+export function colorScaleMax(days: readonly { values: readonly (number | null)[]; flagged: readonly number[] }[]): number {
+  const vals: number[] = [];
+  for (const d of days) d.values.forEach((v, h) => v != null && d.flagged[h] !== 1 && vals.push(v));
+  if (vals.length === 0) return 1;
+  vals.sort((a, b) => a - b);
+  const top = vals[Math.min(vals.length - 1, Math.ceil(0.99 * vals.length) - 1)];
+  return top > 0 ? top : 1;
+}
+
 const DETECTION_NAMES: Record<string, string> = {
   "zero-run": "Run of zero readings",
   "constant-run": "Run of one repeated value",
@@ -185,9 +199,10 @@ function heatmapChart(q: ReportMeterQuality, meter: Meter, series: IntervalSerie
     id: `quality-${meter.meterId.replace(/[^A-Za-z0-9_-]/g, "_")}-heatmap`,
     kind: "quality-heatmap",
     title: `Meter ${meter.meterId}: use by day and hour`,
-    description: `Calendar heatmap of meter ${meter.meterId}, ${first} to ${last} (local time, ${zone}): one column per day, one row per hour, darker is more use in ${meter.unit}; ${formatNumber(flaggedHours)} hours holding flagged intervals are marked in orange.`,
+    description: `Calendar heatmap of meter ${meter.meterId}, ${first} to ${last} (local time, ${zone}): one column per day, one row per hour, darker is more use in ${meter.unit} (the darkest shade covers everything from the 99th percentile up); ${formatNumber(flaggedHours)} hours holding flagged intervals are marked in orange.`,
     valueLabel,
     days,
+    colorMax: colorScaleMax(days),
     table: monthlyHeatmapTable(meter, days),
   };
 }

@@ -99,6 +99,8 @@ export interface HeatmapChartModel extends ChartBase {
   valueLabel: string;
   /** One row per local day, ascending; `values[h]` the day's use in hour h (null = no data), `flagged[h]` 1 when any interval of that hour was flagged. */
   days: { day: string; values: (number | null)[]; flagged: number[] }[];
+  /** Top of the colour scale: the 99th percentile of unflagged hours, so one spike does not wash out the rest (higher values show at full colour). */
+  colorMax: number;
 }
 
 /** Horizontal bars ranking labelled items (e.g. intensity by building, money by check). */

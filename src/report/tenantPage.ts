@@ -148,10 +148,11 @@ export function compareCommodity(
   };
 }
 
+/** "3.6 % more per day than in", "the same per day as in". */
 function changeWords(pct: number): string {
   const r = Math.round(pct * 10) / 10;
-  if (r === 0) return "the same as";
-  return `${formatNumber(Math.abs(r), 1)} % ${r > 0 ? "more than" : "less than"}`;
+  if (r === 0) return "the same per day as in";
+  return `${formatNumber(Math.abs(r), 1)} % ${r > 0 ? "more" : "less"} per day than in`;
 }
 
 function tenantCommodity(c: TenantComparison): TenantCommodity {
@@ -161,9 +162,9 @@ function tenantCommodity(c: TenantComparison): TenantCommodity {
   const period = formatPeriod(c.current.start, c.current.end);
   const sentences = [`In the latest billing period (${period}) the building used ${formatQuantity(c.current.use, c.unit)} of ${label.toLowerCase()}${energy && c.commodity === "gas" ? " (as energy)" : ""}, about ${formatQuantity(c.current.usePerDay, c.unit)} a day.`];
   if (c.lastYear && c.changePct != null) {
-    sentences.push(`That is ${changeWords(c.changePct)} a day in the same period last year (${formatPeriod(c.lastYear.start, c.lastYear.end)}).`);
+    sentences.push(`That is ${changeWords(c.changePct)} the same period last year (${formatPeriod(c.lastYear.start, c.lastYear.end)}).`);
     if (c.adjustedChangePct != null) {
-      sentences.push(`Allowing for the weather of each period, use was ${changeWords(c.adjustedChangePct)} last year.`);
+      sentences.push(`Allowing for the weather of each period, use was ${changeWords(c.adjustedChangePct)} the same period last year.`);
     } else {
       sentences.push("There is no weather model for this meter, so the change is not adjusted for weather.");
     }

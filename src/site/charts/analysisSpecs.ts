@@ -110,7 +110,7 @@ export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
     layer: [
       {
         mark: { type: "rect", tooltip: true },
-        encoding: { x, y, color: { field: "value", type: "quantitative", title: chart.valueLabel, scale: { range: [...HEAT_RANGE] }, legend: { orient: "bottom", gradientLength: 160 } }, tooltip },
+        encoding: { x, y, color: { field: "value", type: "quantitative", title: chart.valueLabel, scale: { range: [...HEAT_RANGE], domain: [0, chart.colorMax], clamp: true }, legend: { orient: "bottom", gradientLength: 160 } }, tooltip },
       },
       {
         transform: [{ filter: "datum.f === 1" }],

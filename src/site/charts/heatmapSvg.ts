@@ -14,8 +14,8 @@ const MONTHS = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "
 const fmt = (v: number) => String(Math.round(v * 100) / 100);
 
 /**
- * SVG of a heatmap chart model: colour bands are equal-width bins of the value range
- * (HEAT_RANGE), flagged hours are overlaid in FLAG_COLOR, months labelled along the bottom.
+ * SVG of a heatmap chart model: colour bands are equal-width bins of 0 … colorMax (values above
+ * it fall in the top band), colours HEAT_RANGE; flagged hours are overlaid in FLAG_COLOR; months labelled along the bottom.
  * @example heatmapSvg(chart).startsWith("<svg") // true
  */
 export function heatmapSvg(chart: HeatmapChartModel, widthPx = 720): string {
@@ -26,16 +26,15 @@ export function heatmapSvg(chart: HeatmapChartModel, widthPx = 720): string {
   const n = Math.max(1, chart.days.length);
   const cellW = plotW / n;
   const plotH = 24 * cellH;
-  let min = Infinity;
-  let max = -Infinity;
-  for (const d of chart.days) for (const v of d.values) if (v != null) { min = Math.min(min, v); max = Math.max(max, v); }
-  if (!Number.isFinite(min)) { min = 0; max = 1; }
+  // Same colour domain as the live chart: 0 … colorMax, higher values clamped to the top band.
+  const min = 0;
+  const max = chart.colorMax > 0 ? chart.colorMax : 1;
   const bins = HEAT_RANGE.length;
   const span = max - min || 1;
   const paths: string[][] = Array.from({ length: bins }, () => []);
   const flagged: string[] = [];
   const w = fmt(cellW);
-  const binOf = (v: number | null) => (v == null ? -1 : Math.min(bins - 1, Math.floor(((v - min) / span) * bins)));
+  const binOf = (v: number | null) => (v == null ? -1 : Math.max(0, Math.min(bins - 1, Math.floor(((v - min) / span) * bins))));
   chart.days.forEach((d, i) => {
     const x = fmt(left + i * cellW);
     // Consecutive hours of one day in the same band become one rectangle.
@@ -77,7 +76,7 @@ export function heatmapSvg(chart: HeatmapChartModel, widthPx = 720): string {
   const ly = top + plotH + 34;
   parts.push(`<text x="${left}" y="${ly + 10}" font-size="11" fill="${INK}">${escapeXml(chart.valueLabel)}: ${fmt(min)}</text>`);
   HEAT_RANGE.forEach((c, b) => parts.push(`<rect x="${left + 150 + b * 18}" y="${ly}" width="18" height="12" fill="${c}"/>`));
-  parts.push(`<text x="${left + 150 + bins * 18 + 6}" y="${ly + 10}" font-size="11" fill="${INK}">${fmt(max)}</text>`);
+  parts.push(`<text x="${left + 150 + bins * 18 + 6}" y="${ly + 10}" font-size="11" fill="${INK}">${fmt(max)} or more</text>`);
   parts.push(`<rect x="${left + 300}" y="${ly}" width="12" height="12" fill="${FLAG_COLOR}"/><text x="${left + 318}" y="${ly + 10}" font-size="11" fill="${INK}">flagged hour</text>`);
   parts.push("</svg>");
   return parts.join("");
