@@ -20,8 +20,7 @@ import { meteredForBills } from "../audit/reconcile.ts";
 import { assessIntervalMeters } from "./dataQuality.ts";
 import { makeRepricer } from "../audit/wiring.ts";
 import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
-import { fitBuildingIntervalBaselines } from "./intervalBaselines.ts";
-import type { IntervalBaseline } from "../model/interval/index.ts";
+import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
@@ -65,7 +64,7 @@ export interface BuildingResults {
   findings: Finding[];
   baselines: MeterBaseline[];
   /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
-  intervalBaselines: IntervalBaseline[];
+  intervalBaselines: IntervalBaselineOutcome[];
   failure: string | null;
 }
 

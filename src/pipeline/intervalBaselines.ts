@@ -12,20 +12,30 @@ import { fitIntervalBaseline, type IntervalBaseline, type IntervalBaselineOption
  */
 export const BUILD_INTERVAL_OPTIONS: IntervalBaselineOptions = { cv: { folds: 3 }, tryLog1p: false };
 
+/** One meter's hourly baseline, or why there is none (a meter's failure never stops the building). */
+export interface IntervalBaselineOutcome {
+  meterId: string;
+  baseline: IntervalBaseline | null;
+  problem: string | null;
+}
+
 export function fitBuildingIntervalBaselines(
   portfolio: Portfolio,
   building: Building,
   masks: ReadonlyMap<string, Uint8Array>,
-): IntervalBaseline[] {
+): IntervalBaselineOutcome[] {
   const weather = portfolio.weather.get(building.weatherStation);
-  if (!weather) return [];
-  const out: IntervalBaseline[] = [];
+  const out: IntervalBaselineOutcome[] = [];
   for (const meter of portfolio.meters) {
     if (meter.buildingId !== building.buildingId || meter.commodity !== "electricity") continue;
     const series = portfolio.intervals.get(meter.meterId);
     if (!series || series.startMs.length === 0) continue;
-    out.push(
-      fitIntervalBaseline({
+    if (!weather) {
+      out.push({ meterId: meter.meterId, baseline: null, problem: `no weather for station ${building.weatherStation}` });
+      continue;
+    }
+    try {
+      const baseline = fitIntervalBaseline({
         meterId: meter.meterId,
         series,
         mask: masks.get(meter.meterId) ?? null,
@@ -33,8 +43,11 @@ export function fitBuildingIntervalBaselines(
         zone: building.timezone,
         floorAreaM2: building.floorAreaM2,
         options: { ...BUILD_INTERVAL_OPTIONS, frame: { multiplier: meter.multiplier } },
-      }),
-    );
+      });
+      out.push({ meterId: meter.meterId, baseline, problem: null });
+    } catch (error) {
+      out.push({ meterId: meter.meterId, baseline: null, problem: error instanceof Error ? error.message : String(error) });
+    }
   }
   return out;
 }

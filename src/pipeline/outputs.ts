@@ -16,6 +16,7 @@ import type { BuildingResults } from "./build.ts";
 import type { PricedBill } from "./priceBills.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
+import type { IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
 import { weatherGapDetections } from "./dataQuality.ts";
 import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT } from "./usageSummary.ts";
@@ -52,7 +53,7 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
     "ingest-report.json": json({ files: portfolio.report.files }),
     "data-quality.csv": toCsv(DATA_QUALITY_COLUMNS, qualityRows),
     "alignment.json": json(alignmentJson(input.quality)),
-    "models.json": json(modelsJson(input.results.flatMap((r) => r.baselines))),
+    "models.json": json(modelsJson(input.results)),
   };
   if (input.forecast) files["forecast.csv"] = toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.map(roundForecastRow));
   for (const r of input.results) {
@@ -62,7 +63,7 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
     files[`${folder}findings.csv`] = findingsToCsvText(findings.filter((f) => f.buildingId === id));
     files[`${folder}bills-recomputed.csv`] = billsRecomputedCsv(input, portfolio.bills.filter((b) => meterIds.has(b.meterId)), buildingOfMeter);
     files[`${folder}data-quality.csv`] = toCsv(DATA_QUALITY_COLUMNS, qualityRows.filter((row) => row.building_id === id));
-    files[`${folder}models.json`] = json(modelsJson(r.baselines));
+    files[`${folder}models.json`] = json(modelsJson([r]));
     if (input.forecast) files[`${folder}forecast.csv`] = toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.filter((row) => row.building_id === id).map(roundForecastRow));
   }
   return files;
@@ -103,8 +104,22 @@ function alignmentJson(quality: MeterQuality[]) {
   }));
 }
 
-function modelsJson(baselines: MeterBaseline[]) {
-  return baselines.map((b) => ({
+/** models.json: per meter, the bill-level models (both families) and, for interval meters, the hourly models. */
+function modelsJson(results: BuildingResults[]) {
+  return results.flatMap((r) => r.baselines.map((b) => ({
+    ...billLevelModels(b),
+    hourly: hourlyModels(r.intervalBaselines.find((x) => x.meterId === b.meterId)),
+  })));
+}
+
+function hourlyModels(outcome: IntervalBaselineOutcome | undefined) {
+  if (!outcome) return null;
+  if (!outcome.baseline) return { problem: outcome.problem };
+  return outcome.baseline.summary;
+}
+
+function billLevelModels(b: MeterBaseline) {
+  return ({
     meter_id: b.meterId,
     building_id: b.buildingId,
     level: "bill",
@@ -159,7 +174,7 @@ function modelsJson(baselines: MeterBaseline[]) {
           refitted_out: b.degreeDay.rejected,
         }
       : null,
-  }));
+  });
 }
 
 function bandJson(band: Band | null) {
