@@ -8,10 +8,10 @@
  * much, and the year-2 backtest against two naive baselines (same hour 364 days earlier;
  * mean by hour of week of year 1).
  */
-import { fitIntervalBaseline } from "../../../src/model/interval/fitIntervalBaseline.ts";
-import { hourlyFrame } from "../../../src/model/interval/hourlyFrame.ts";
-import type { IntervalSeries } from "../../../src/domain/types.ts";
-import { syntheticOffice } from "./syntheticOffice.ts";
+import { fitIntervalBaseline } from "../src/model/interval/fitIntervalBaseline.ts";
+import { hourlyFrame } from "../src/model/interval/hourlyFrame.ts";
+import type { IntervalSeries } from "../src/domain/types.ts";
+import { syntheticOffice } from "../test/model/interval/syntheticOffice.ts";
 
 const H = 3_600_000;
 function slice(s: IntervalSeries, a: number, b: number): IntervalSeries {
