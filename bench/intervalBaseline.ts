@@ -1,6 +1,6 @@
 /**
  * Interval-baseline benchmark (a script, not a test):
- *   npx tsx test/model/interval/benchIntervalBaseline.ts
+ *   npx tsx bench/intervalBaseline.ts
  * Two years of invented 15-minute office data per meter (fictional buildings, synthetic
  * weather): fit on year 1 with fitIntervalBaseline (defaults: TOWT, GBDT, GBDT on log1p,
  * 4 folds × 4 weeks, ensemble search), then predict year 2 from its weather. Reports the fit
