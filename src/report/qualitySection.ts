@@ -2,7 +2,7 @@
 import type { Building, IntervalSeries, Meter } from "../domain/types.ts";
 import type { ReportMeterQuality, ReportWeatherDetection } from "./input.ts";
 import type { HeatmapChartModel, QualitySection, TableModel } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatMonth, formatNumber, formatQuantity } from "./format.ts";
+import { NOT_AVAILABLE, formatMonth, formatNumber, formatPercent, formatQuantity } from "./format.ts";
 import { commodityLabel } from "./labels.ts";
 
 const HOUR_MS = 3_600_000;
@@ -145,9 +145,13 @@ function detectionsTable(q: ReportMeterQuality, zone: string): TableModel {
 }
 
 const signedHours = (h: number) => (h === 0 ? "0 h" : `${h > 0 ? "+" : "−"}${formatNumber(Math.abs(h), 2)} h`);
+const hoursText = (h: number) => `${formatNumber(Math.abs(h), 2)} ${Math.abs(h) === 1 ? "hour" : "hours"}`;
 
 /**
- * Plain sentences about the clock-offset check: what was suggested, on what evidence, what was applied.
+ * Plain sentences about the clock-offset check: what was suggested, on what evidence, what was
+ * applied. Sign convention of the cleaning stage: offset = meter timestamp − true time, so +3
+ * means the readings are stamped 3 hours late and the correction moves them 3 hours earlier.
+ * @example alignmentSentences({ suggestedOffsetHours: 3, appliedOffsetHours: 0, strong: true, note: "", scores: [] })[0] // "… stamped 3 hours late …"
  */
 export function alignmentSentences(a: ReportMeterQuality["alignment"]): string[] {
   if (!a) return [];
@@ -156,15 +160,18 @@ export function alignmentSentences(a: ReportMeterQuality["alignment"]): string[]
   const zero = at(0);
   const out: string[] = [];
   if (a.suggestedOffsetHours === 0) {
-    out.push("The meter's clock agrees with the weather station's: the load follows temperature best with no shift.");
+    out.push("The meter's clock agrees with the weather station's: the load follows outdoor temperature best with no shift.");
   } else {
     const evidence =
       best != null && zero != null
-        ? ` (share of the load's day-to-day variation explained by temperature: ${formatNumber(best, 2)} with the shift, ${formatNumber(zero, 2)} without)`
+        ? ` With that correction temperature explains ${formatPercent(best, 0)} of the load's hour-to-hour variation left after its weekly routine, against ${formatPercent(zero, 0)} without it.`
         : "";
-    out.push(`The load follows outdoor temperature best when the meter's timestamps are shifted by ${signedHours(a.suggestedOffsetHours)}${evidence}. The evidence is ${a.strong ? "strong" : "weak"}.`);
+    const late = a.suggestedOffsetHours > 0;
+    out.push(
+      `The meter's readings appear to be stamped ${hoursText(a.suggestedOffsetHours)} ${late ? "late" : "early"} against the weather: the load follows outdoor temperature best when they are moved ${hoursText(a.suggestedOffsetHours)} ${late ? "earlier" : "later"}.${evidence} The evidence is ${a.strong ? "strong" : "weak"}.`,
+    );
   }
-  out.push(a.appliedOffsetHours === 0 ? "No shift was applied to the data." : `A shift of ${signedHours(a.appliedOffsetHours)} was applied before modelling.`);
+  out.push(a.appliedOffsetHours === 0 ? "No correction was applied to the data." : `A correction of ${signedHours(a.appliedOffsetHours)} (offset removed from the timestamps) was applied before modelling.`);
   if (a.note) out.push(a.note);
   return out;
 }
@@ -173,10 +180,10 @@ function alignmentTable(q: ReportMeterQuality): TableModel | null {
   const a = q.alignment;
   if (!a || a.scores.length === 0) return null;
   return {
-    caption: `Clock-offset scan of meter ${q.meterId}: partial R² of temperature per shift`,
+    caption: `Clock-offset scan of meter ${q.meterId}: partial R² of temperature per offset tried (suggested offset highlighted)`,
     sortable: true,
     columns: [
-      { label: "Shift", numeric: true },
+      { label: "Offset tried (meter − true time)", numeric: true },
       { label: "Partial R² of temperature", numeric: true },
     ],
     rows: [...a.scores]

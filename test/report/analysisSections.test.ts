@@ -1,0 +1,217 @@
+import { describe, expect, it } from "vitest";
+import type { Bill, Building, Meter } from "../../src/domain/types.ts";
+import type { ReportBaseline } from "../../src/report/input.ts";
+import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
+import { compareCommodity, weatherAdjusted } from "../../src/report/tenantPage.ts";
+import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
+import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour } from "../../src/report/qualitySection.ts";
+import { findingsByCheckChart, normalizedChangePct } from "../../src/report/portfolioCharts.ts";
+import type { BuildingContext } from "../../src/report/buildingPage.ts";
+import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
+
+describe("energy conversions", () => {
+  it("kBtu per kWh follows from the International Table Btu (NIST SP 811: 1 Btu_IT = 1,055.05585262 J)", () => {
+    // 1 kWh = 3.6e6 J exactly (SI definition of the watt-hour).
+    expect(KBTU_PER_KWH).toBeCloseTo(3.6e6 / 1055.05585262 / 1000, 6);
+  });
+  it("ft² per m² follows from the international foot (0.3048 m exactly)", () => {
+    expect(FT2_PER_M2).toBeCloseTo(1 / 0.3048 ** 2, 4);
+  });
+  it("kWh per therm follows from 1 therm = 100,000 Btu_IT (U.S. EIA) and NIST SP 811", () => {
+    expect(KWH_PER_THERM).toBeCloseTo((100_000 * 1055.05585262) / 3.6e6, 4);
+  });
+  it("converts EUI and site energy (hand-computed)", () => {
+    // 100 kWh/m² × 3.412142 / 10.7639 = 31.69986 kBtu/ft²
+    expect(kwhPerM2ToKbtuPerFt2(100)).toBeCloseTo(31.69986, 4);
+    expect(siteKwh("gas", "therm", 10)).toBeCloseTo(293.071, 6);
+    expect(siteKwh("gas", "ccf", 10)).toBeCloseTo(10 * 1.037 * 29.3071, 6);
+    expect(siteKwh("electricity", "MWh", 2)).toBe(2000);
+    expect(siteKwh("water", "gal", 10)).toBeNull();
+    expect(siteKwh("gas", "m3", 10)).toBeNull();
+    expect(euiKwhPerM2(250_000, 1000)).toBe(250);
+    expect(euiKwhPerM2(250_000, 0)).toBeNull();
+  });
+});
+
+describe("tenant page comparison (fixture E1: latest bill E1-14 vs E1-02)", () => {
+  const input = fullFixtureInput();
+  const { portfolio } = input;
+  const billsByMeter = new Map<string, Bill[]>();
+  for (const b of portfolio.bills) billsByMeter.set(b.meterId, [...(billsByMeter.get(b.meterId) ?? []), b]);
+  const b1 = portfolio.buildings[0];
+  const meters = portfolio.meters.filter((m) => m.buildingId === "B1");
+
+  it("weather adjustment is actual × expected at typical ÷ expected at actual (hand-computed)", () => {
+    expect(weatherAdjusted(1000, 900, 1200)).toBeCloseTo(1333.3333, 4);
+    expect(weatherAdjusted(1000, 0, 1200)).toBeNull();
+    expect(weatherAdjusted(1000, undefined, 1200)).toBeNull();
+  });
+
+  it("compares use per day, weather-adjusted and per floor area (hand-computed)", () => {
+    const c = compareCommodity("electricity", meters, billsByMeter, input.baselines, b1.floorAreaM2)!;
+    // Both bills bill 37,794 kWh (30,000 × (1 + 0.3·cos 30°), rounded); E1-14 has 28 days
+    // (Feb 5 – Mar 5, 2025), E1-02 29 days (Feb 5 – Mar 5, 2024, a leap year).
+    expect(c.current.use).toBe(37_794);
+    expect(c.lastYear!.use).toBe(37_794);
+    expect(c.current.usePerDay).toBeCloseTo(37_794 / 28, 6);
+    expect(c.changePct).toBeCloseTo((29 / 28 - 1) * 100, 6); // 3.5714 %
+    // E1-14: expected 0.9·u at actual, u at typical → ×1/0.9; E1-02: u at actual, 1.05·u at typical → ×1.05.
+    expect(c.current.adjustedPerDay).toBeCloseTo(37_794 / 0.9 / 28, 6); // 1499.76
+    expect(c.lastYear!.adjustedPerDay).toBeCloseTo((37_794 * 1.05) / 29, 6); // 1368.40
+    expect(c.adjustedChangePct).toBeCloseTo((29 / (0.9 * 28 * 1.05) - 1) * 100, 6); // 9.5994 %
+    // 52,000 ft² × 0.09290304 = 4,830.958 m²; 37,794 / 4,830.958 = 7.82330 kWh/m² → 2.47998 kBtu/ft².
+    expect(c.perM2).toBeCloseTo(7.8233, 4);
+    expect(c.perFt2).toBeCloseTo(2.47998, 4);
+  });
+
+  it("gas is site energy in kWh (therm × 29.3071) and unadjusted without a model", () => {
+    const g = compareCommodity("gas", meters, billsByMeter, input.baselines, b1.floorAreaM2)!;
+    expect(g.unit).toBe("kWh");
+    expect(g.current.use).toBeCloseTo(1134 * 29.3071, 6);
+    expect(g.adjustedChangePct).toBeNull();
+  });
+
+  it("the tenant page names no findings, money or bill math", () => {
+    const model = buildSiteModel(input);
+    expect(model.tenants.map((t) => t.path)).toEqual(["buildings/B1/tenant.html"]);
+    const text = JSON.stringify(model.tenants[0]);
+    for (const word of ["finding", "audit", "$", "USD", "cost", "tariff", "recomputed", "at stake", "charge"]) {
+      expect(text.toLowerCase(), word).not.toContain(word.toLowerCase());
+    }
+    expect(model.tenants[0].commodities[0].sentences.join(" ")).toContain("3.6 % more per day than in the same period last year");
+    expect(model.tenants[0].commodities[0].sentences.join(" ")).toContain("9.6 % more per day");
+  });
+});
+
+describe("Guideline 14 verdict", () => {
+  it("limits are inclusive: CV(RMSE) 15 % and |NMBE| 5 % pass, a hair over fails (ASHRAE Guideline 14, monthly)", () => {
+    expect(meetsMonthlyGuideline14({ cvRmsePct: 15, nmbePct: 5 })).toBe(true);
+    expect(meetsMonthlyGuideline14({ cvRmsePct: 15, nmbePct: -5 })).toBe(true);
+    expect(meetsMonthlyGuideline14({ cvRmsePct: 15.001, nmbePct: 0 })).toBe(false);
+    expect(meetsMonthlyGuideline14({ cvRmsePct: 3, nmbePct: -5.001 })).toBe(false);
+  });
+  it("says what failed in plain words", () => {
+    const v = verdictFor({ cvRmsePct: 18.2, nmbePct: 0.5, r2: 0.8, n: 12, p: 3 });
+    expect(v.tone).toBe("warn");
+    expect(v.text).toContain("CV(RMSE) 18.2 % is above 15 %");
+    expect(v.text).not.toContain("NMBE 0.5");
+    expect(verdictFor({ cvRmsePct: 8, nmbePct: 0.4, r2: 0.9, n: 12, p: 3 }).tone).toBe("ok");
+    expect(verdictFor(null).tone).toBe("none");
+  });
+});
+
+describe("data-quality heatmap", () => {
+  const input = fullFixtureInput();
+  const series = input.portfolio.intervals.get("E1")!;
+  const days = heatmapDays(series, input.quality![0].mask, "America/Chicago", 1);
+  const byDay = new Map(days.map((d) => [d.day, d]));
+
+  it("keeps the last 366 local days, 24 hours each (≤ 8,784 cells)", () => {
+    expect(days.length).toBe(366);
+    expect(days[days.length - 1].day).toBe("2025-03-04");
+    expect(days.every((d) => d.values.length === 24 && d.flagged.length === 24)).toBe(true);
+  });
+
+  it("flags the planted zero run at local 02:00–07:59 CST (IANA: America/Chicago is UTC−6 in January)", () => {
+    expect(localDayHour(ZERO_RUN.startMs, "America/Chicago")).toEqual({ day: "2025-01-10", hour: 2 });
+    const d = byDay.get("2025-01-10")!;
+    expect(d.flagged.map((f, h) => (f ? h : -1)).filter((h) => h >= 0)).toEqual([2, 3, 4, 5, 6, 7]);
+    expect(d.values[3]).toBe(0);
+  });
+
+  it("leaves the skipped spring-forward hour empty and holds both repeated autumn hours (IANA rules, 2024)", () => {
+    // 2024-03-10 02:00 does not exist in America/Chicago; 2024-11-03 01:00 happens twice.
+    expect(byDay.get("2024-03-10")!.values[2]).toBeNull();
+    const night = byDay.get("2024-11-04")!.values[1]!; // an ordinary night hour: 4 × 4 kWh
+    expect(byDay.get("2024-11-03")!.values[1]).toBeCloseTo(2 * night, 6);
+  });
+
+  it("colour scale stops at the 99th percentile of unflagged hours (the 400 kWh spike does not set it)", () => {
+    expect(colorScaleMax(days)).toBeLessThan(60);
+    expect(colorScaleMax([{ values: [1, 2, 3], flagged: [0, 0, 1] }])).toBe(2);
+  });
+});
+
+describe("clock-offset sentences", () => {
+  it("reads +3 as stamped 3 hours late, corrected by moving readings earlier (cleaning-stage convention)", () => {
+    const lines = alignmentSentences({ suggestedOffsetHours: 3, appliedOffsetHours: 0, strong: true, note: "", scores: [{ offsetHours: 0, score: 0.1 }, { offsetHours: 3, score: 0.62 }] });
+    expect(lines[0]).toContain("stamped 3 hours late");
+    expect(lines[0]).toContain("moved 3 hours earlier");
+    expect(lines[0]).toContain("62%");
+    expect(lines[1]).toBe("No correction was applied to the data.");
+    expect(alignmentSentences(null)).toEqual([]);
+  });
+});
+
+describe("portfolio charts", () => {
+  it("groups findings by check with count and money at stake (positive amounts only)", () => {
+    const chart = findingsByCheckChart(
+      [
+        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "total-mismatch", severity: "error", amountAtStake: 10, message: "" },
+        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "total-mismatch", severity: "error", amountAtStake: -4, message: "" },
+        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "estimated-read", severity: "info", amountAtStake: null, message: "" },
+      ],
+      "USD",
+    )!;
+    expect(chart.items).toEqual([
+      { label: "Bill total differs from the tariff", value: 10, note: "2 findings" },
+      { label: "Estimated meter read", value: 0, note: "1 finding" },
+    ]);
+  });
+
+  it("ranks EUI from last-12-month site energy (electricity kWh + gas therm × 29.3071) over floor area", () => {
+    const input = fullFixtureInput();
+    const chart = buildSiteModel(input).index.intensityChart!;
+    // The window (Mar 5, 2024 – Mar 4, 2025) holds bills 03..14 of each meter exactly.
+    const sum = (meterId: string) => input.portfolio.bills.filter((b) => b.meterId === meterId && b.periodStart >= "2024-03-05").reduce((s, b) => s + b.usage, 0);
+    const b1 = (sum("E1") + sum("G1") * 29.3071) / (52_000 * 0.09290304);
+    const b2 = sum("E2") / (18_000 * 0.09290304);
+    expect(chart.items.map((i) => i.value)).toEqual([Math.round(b1 * 10) / 10, Math.round(b2 * 10) / 10]);
+  });
+
+  it("weather-normalized change: +10 % when adjusted use rises 10 % (hand-computed)", () => {
+    const building = { buildingId: "X", floorAreaM2: 1000 } as Building;
+    const meter = { meterId: "M", buildingId: "X", commodity: "electricity", unit: "kWh" } as Meter;
+    const bills: Bill[] = [];
+    for (let i = 0; i < 24; i++) {
+      const start = new Date(Date.UTC(2023, i, 1)).toISOString().slice(0, 10);
+      const end = new Date(Date.UTC(2023, i + 1, 1)).toISOString().slice(0, 10);
+      bills.push({ billId: `b${i}`, meterId: "M", periodStart: start, periodEnd: end, usage: 100 } as Bill);
+    }
+    // Year 2 actual weather was harsher: expected at actual 100 → typical 110 in year 1, and
+    // 100 → 121 in year 2: adjusted 110 per bill, then 121 → +10 %.
+    const baseline = { meterId: "M", kind: "3PH", perBill: bills.map((b, i) => ({ billId: b.billId, expectedAtActualWeather: 100, expectedAtTypicalWeather: i < 12 ? 110 : 121 })) } as unknown as ReportBaseline;
+    const ctx: BuildingContext = { building, meters: [meter], billsByMeter: new Map([["M", bills]]), window: null, currency: "USD" };
+    const change = normalizedChangePct([ctx], [baseline], { start: "2024-01-01", end: "2025-01-01" }, { start: "2023-01-01", end: "2024-01-01" });
+    expect(change).toBeCloseTo(10, 9);
+    // Without a baseline for the meter there is nothing to report.
+    expect(normalizedChangePct([ctx], [], { start: "2024-01-01", end: "2025-01-01" }, { start: "2023-01-01", end: "2024-01-01" })).toBeNull();
+  });
+});
+
+describe("building page wiring (full fixture)", () => {
+  const model = buildSiteModel(fullFixtureInput());
+  const [b1, b2] = model.buildings;
+
+  it("has baselines, data quality, forecast and a tenant link for B1 only", () => {
+    expect(b1.baselines.map((s) => [s.meterId, s.verdictTone, s.charts.map((c) => c.kind)])).toEqual([
+      ["E1", "ok", ["baseline-scatter", "baseline-time"]],
+      ["G1", "none", ["baseline-scatter"]],
+    ]);
+    expect(b1.quality).toHaveLength(1);
+    expect(b1.quality[0].detectionsTable.rows).toHaveLength(2);
+    expect(b1.quality[0].detectionsTable.rows[0][1].text).toBe("Jan 10, 2025, 02:00");
+    expect(b1.weatherQualityTable!.rows).toHaveLength(2);
+    expect(b1.forecast!.summary).toContain("$13,410.00");
+    expect(b1.forecast!.trackRecordTable!.rows[0][1].text).toBe("−2.4 %");
+    expect(b1.tenantHref).toBe("B1/tenant.html");
+    expect([b2.baselines, b2.quality, b2.forecast, b2.tenantHref]).toEqual([[], [], null, null]);
+  });
+
+  it("index: forecast range from the portfolio total, tenant link", () => {
+    const f = model.index.headline.find((h) => h.label.startsWith("Forecast cost"))!;
+    expect(f).toEqual({ label: "Forecast cost, next 12 months", value: "$13,410.00 (80 % range $13,100.00 – $13,800.00)" });
+    expect(model.index.tenantLinks).toEqual([{ name: "Heron Street Office", href: "buildings/B1/tenant.html" }]);
+  });
+});
