@@ -22,6 +22,7 @@ import { makeRepricer } from "../audit/wiring.ts";
 import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
 import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
+import { meteredViewsByBill } from "./meteredViews.ts";
 import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
@@ -121,7 +122,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const forecast = runForecast(portfolio, results, issues);
 
   reporter.stage(`Writing the site to ${options.outDir}`);
-  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast });
+  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
   const model = buildSiteModel({
     portfolio,
     priced,

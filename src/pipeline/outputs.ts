@@ -17,6 +17,7 @@ import type { PricedBill } from "./priceBills.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
 import type { IntervalBaselineOutcome } from "./intervalBaselines.ts";
+import type { MeteredViews } from "./meteredViews.ts";
 import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
 import { weatherGapDetections } from "./dataQuality.ts";
 import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT } from "./usageSummary.ts";
@@ -30,6 +31,8 @@ export interface OutputsInput {
   monthlyMetered: Map<string, MonthTotal[]>;
   weatherGaps: WeatherGap[];
   quality: MeterQuality[];
+  /** Raw and cleaned metered usage per bill id (interval meters only); the audit compares the raw sum. */
+  meteredViews: Map<string, MeteredViews>;
   /** Null when no forecast could be made (no as-of date, or the forecast failed). */
   forecast: ForecastBundle | null;
 }
@@ -77,11 +80,20 @@ function roundForecastRow(row: ForecastRow): ForecastRow {
 
 function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter: Map<string, string>): string {
   const computed = new Map([...input.priced].map(([id, p]) => [id, p.computed]));
-  const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", computed).map((row) => ({
-    ...row,
-    not_priced_reason: input.priced.get(row.bill_id)?.error ?? "",
-  }));
-  const columns = ["building_id", "meter_id", "bill_id", "period_start", "period_end", "billed_total", "computed_total", "difference", "exact", "not_priced_reason"] as const;
+  const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", computed).map((row) => {
+    const metered = input.meteredViews.get(row.bill_id);
+    return {
+      ...row,
+      not_priced_reason: input.priced.get(row.bill_id)?.error ?? "",
+      metered_usage_raw: metered ? round(metered.raw, 3) : null,
+      metered_usage_cleaned: metered ? round(metered.cleaned, 3) : null,
+      flagged_intervals: metered?.flaggedIntervals ?? null,
+    };
+  });
+  const columns = [
+    "building_id", "meter_id", "bill_id", "period_start", "period_end", "billed_total", "computed_total", "difference", "exact",
+    "not_priced_reason", "metered_usage_raw", "metered_usage_cleaned", "flagged_intervals",
+  ] as const;
   return toCsv(columns, rows);
 }
 

@@ -149,11 +149,11 @@ export interface IndexPage extends PageBase {
   /** Portfolio charts (monthly billed cost by commodity). */
   charts: ChartModel[];
   /** EUI ranking (kWh/m²); null when no building has energy use and floor area. */
-  intensityChart: ChartModel | null;
+  intensityChart: RankingChartModel | null;
   /** Sentence naming the site-energy basis of the ranking. */
   intensityNote: string;
   /** Findings by check; null when the audit did not run or found nothing. */
-  findingsChart: ChartModel | null;
+  findingsChart: RankingChartModel | null;
   /** Tenant pages, for the index's list. */
   tenantLinks: { name: string; href: string }[];
 }

@@ -44,7 +44,7 @@ async function prepareAll<T extends ChartModel>(charts: readonly T[]): Promise<T
   return out;
 }
 
-async function prepareMaybe(chart: ChartModel | null): Promise<ChartModel | null> {
+async function prepareMaybe<T extends ChartModel>(chart: T | null): Promise<T | null> {
   return chart ? prepareChart(chart) : null;
 }
 
