@@ -73,7 +73,7 @@ export function baselineTimeSpec(chart: BaselineTimeChartModel): Record<string, 
     layer: [
       {
         mark: { type: "bar", width: 8, tooltip: true },
-        encoding: { x, y: { field: "actual", type: "quantitative", title: chart.useLabel }, color: { datum: "Actual", type: "nominal", title: "Series", scale: { range: [SERIES_COLORS[0], SERIES_COLORS[1]] } }, tooltip },
+        encoding: { x, y: { field: "actual", type: "quantitative", title: chart.useLabel }, color: { datum: "Actual", type: "nominal", title: "Series" }, tooltip },
       },
       {
         mark: { type: "line", point: true, strokeWidth: 2, tooltip: true },
@@ -124,7 +124,8 @@ export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
 /** Horizontal bars, largest first; the label axis keeps the given order. */
 export function rankingSpec(chart: RankingChartModel): Record<string, unknown> {
   return {
-    ...base(chart, { step: 24 }),
+    // A fixed height (not a step): a step height with "fit-x" autosize makes vega-lite warn.
+    ...base(chart, Math.max(48, chart.items.length * 26)),
     data: { values: chart.items.map((i, rank) => ({ label: i.label, value: i.value, note: i.note, rank })) },
     mark: { type: "bar", tooltip: true, color: SERIES_COLORS[0] },
     encoding: {

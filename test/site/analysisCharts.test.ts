@@ -1,0 +1,75 @@
+import { describe, expect, it } from "vitest";
+import { readFileSync } from "node:fs";
+import { resolve } from "node:path";
+import type { ChartModel, HeatmapChartModel } from "../../src/report/siteModel.ts";
+import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { chartSpec, prepareChart } from "../../src/site/prepareSite.ts";
+import { heatmapSvg } from "../../src/site/charts/heatmapSvg.ts";
+import { fullFixtureInput } from "../report/fixture.ts";
+import { validate } from "./jsonSchema.ts";
+
+// Sources: the JSON Schemas vega-lite 6.4.3 and vega 6.4.0 ship in node_modules.
+const vlSchema = JSON.parse(readFileSync(resolve("node_modules/vega-lite/build/vega-lite-schema.json"), "utf8")) as Record<string, unknown>;
+
+const model = buildSiteModel(fullFixtureInput());
+const charts: ChartModel[] = [
+  ...model.index.charts,
+  model.index.intensityChart!,
+  model.index.findingsChart!,
+  ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...b.baselines.flatMap((s) => s.charts), ...b.quality.flatMap((s) => s.charts)]),
+];
+
+describe("analysis chart specs", () => {
+  it("covers every chart kind", () => {
+    expect(new Set(charts.map((c) => c.kind))).toEqual(new Set(["monthly-cost", "monthly-usage", "ranking", "baseline-scatter", "baseline-time", "quality-heatmap"]));
+  });
+
+  for (const kind of ["ranking", "baseline-scatter", "baseline-time", "quality-heatmap"]) {
+    it(`${kind}: valid against the Vega-Lite schema`, () => {
+      for (const c of charts.filter((x) => x.kind === kind)) expect(validate(chartSpec(c), vlSchema, vlSchema)).toEqual([]);
+    });
+  }
+
+  it("the validator catches a broken layered spec (a layer with a misspelt mark)", () => {
+    const scatter = charts.find((c) => c.kind === "baseline-scatter")!;
+    const spec = chartSpec(scatter) as { layer: Record<string, unknown>[] };
+    const bad = { ...spec, layer: [{ ...spec.layer[0], mark: { type: "pointt" } }, ...spec.layer.slice(1)] };
+    expect(validate(bad, vlSchema, vlSchema).length).toBeGreaterThan(0);
+  });
+
+  it("ships compiled Vega to the page and renders a server SVG for every kind", async () => {
+    for (const c of charts) {
+      const ready = await prepareChart(c);
+      const vega = JSON.parse(ready.specJson!) as { $schema: string; data: unknown[]; marks: unknown[] };
+      expect(vega.$schema, c.id).toBe("https://vega.github.io/schema/vega/v6.json");
+      expect(vega.marks.length, c.id).toBeGreaterThan(0);
+      expect(ready.svg!.startsWith("<svg"), c.id).toBe(true);
+      expect(ready.svg, c.id).toContain('role="img"');
+      expect(ready.svg, c.id).not.toContain("NaN");
+    }
+  }, 30_000);
+});
+
+describe("heatmap SVG fallback", () => {
+  const heat = charts.find((c) => c.kind === "quality-heatmap") as HeatmapChartModel;
+
+  it("stays small: colour bands share paths and hour runs merge (a year of 8,784 cells in < 40 kB)", () => {
+    const svg = heatmapSvg(heat);
+    expect(svg.length).toBeLessThan(40_000);
+    // One path per used colour band plus one for flagged hours, not one element per cell.
+    expect((svg.match(/<path /g) ?? []).length).toBeLessThanOrEqual(6);
+  });
+
+  it("marks flagged hours: the planted 6-hour zero run and the 1-hour spike", () => {
+    const svg = heatmapSvg(heat);
+    const flagged = /<path fill="#e0701a" d="([^"]*)"/.exec(svg)![1];
+    // Two runs: 6 hours (48 px tall at 8 px per hour) and 1 hour (8 px).
+    expect(flagged.match(/v(\d+)/g)).toEqual(["v48", "v8"]);
+  });
+
+  it("escapes user text in the title and label", () => {
+    const svg = heatmapSvg({ ...heat, title: "<b>&", description: '"x"<script>' });
+    expect(svg).not.toContain("<script>");
+    expect(svg).toContain("&lt;b&gt;&amp;");
+  });
+});
