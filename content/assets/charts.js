@@ -68,16 +68,17 @@ async function enhance(figure) {
   try {
     const view = new View(parse(spec, null, { ast: true }), {
       expr: expressionInterpreter,
-      renderer: "svg",
+      // SVG unless the spec asks for a canvas (the ~9,000-cell heatmap).
+      renderer: spec.usermeta?.renderer === "canvas" ? "canvas" : "svg",
       container: target,
       hover: true,
     });
     view.tooltip(showTooltip);
     await view.runAsync();
-    const svg = target.querySelector("svg");
-    if (svg) {
-      svg.setAttribute("role", "img");
-      svg.setAttribute("aria-label", spec.description || figure.querySelector("figcaption")?.textContent || "Chart");
+    const drawn = target.querySelector("svg, canvas");
+    if (drawn) {
+      drawn.setAttribute("role", "img");
+      drawn.setAttribute("aria-label", spec.description || figure.querySelector("figcaption")?.textContent || "Chart");
     }
     fallback.hidden = true;
     figure.dataset.chartState = "interactive";

@@ -80,14 +80,23 @@ export async function expectChartsLive(page: Page): Promise<number> {
     undefined,
     { timeout: 30_000 },
   );
-  const states = await page.$$eval("figure[data-chart]", (fs) =>
-    fs.map((f) => ({
-      state: (f as HTMLElement).dataset.chartState,
-      hasView: typeof (f as unknown as { vegaView?: { data: unknown } }).vegaView?.data === "function",
-      liveSvg: f.querySelector(".chart-live svg") !== null,
-      marks: f.querySelectorAll(".chart-live g.role-mark path").length,
-    })),
-  );
+  const states = await page.$$eval("figure[data-chart]", (fs) => {
+    type Node = { marktype?: string; role?: string; items?: Node[] };
+    // Data-mark items in a vega scenegraph (what a canvas view drew).
+    const countMarks = (n: Node | undefined): number =>
+      !n ? 0 : (n.role === "mark" && n.marktype !== "group" ? (n.items?.length ?? 0) : 0) + (n.items ?? []).reduce((s, c) => s + countMarks(c), 0);
+    return fs.map((f) => {
+      const view = (f as unknown as { vegaView?: { data: unknown; scenegraph: () => { root: Node } } }).vegaView;
+      const canvas = f.querySelector(".chart-live canvas") !== null;
+      return {
+        state: (f as HTMLElement).dataset.chartState,
+        hasView: typeof view?.data === "function",
+        liveSvg: f.querySelector(".chart-live svg, .chart-live canvas") !== null,
+        // SVG views: drawn data-mark paths; canvas views (the heatmap): items in the scenegraph.
+        marks: canvas ? countMarks(view?.scenegraph().root) : f.querySelectorAll(".chart-live g.role-mark path").length,
+      };
+    });
+  });
   for (const s of states) expect(s).toMatchObject({ state: "interactive", hasView: true, liveSvg: true });
   expect(states.every((s) => s.marks > 0)).toBe(true);
   return charts;

@@ -99,6 +99,9 @@ export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
   ];
   return {
     ...base(chart, 192),
+    // ~9,000 cells: drawn on a canvas in the browser (one element instead of one per cell);
+    // charts.js reads this hint. Tooltips work the same (vega hit-tests the scenegraph).
+    usermeta: { renderer: "canvas" },
     data: { values: chart.days.map((d) => ({ day: d.day, values: d.values, flagged: d.flagged })) },
     transform: [
       { flatten: ["values", "flagged"], as: ["value", "f"] },
