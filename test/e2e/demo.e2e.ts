@@ -28,7 +28,9 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
     work = await mkdtemp(join(tmpdir(), "ohmbook-demo-e2e-"));
     const site = join(work, "site");
     await buildPortfolioSite({ dir: DEMO, outDir: site, strict: false, buildDate: "2026-01-15" });
-    pages = ["index.html", "methods.html", "data.html", ...(await readdir(join(site, "buildings"))).map((f) => `buildings/${f}`)];
+    // Building pages and tenant pages (buildings/<id>/tenant.html).
+    const built = (await readdir(join(site, "buildings"), { recursive: true })).map((f) => f.split("\\").join("/"));
+    pages = ["index.html", "methods.html", "data.html", ...built.filter((f) => f.endsWith(".html")).sort().map((f) => `buildings/${f}`)];
     server = await serveStatic(site, PREFIX);
     context = await launchBrowser(join(work, "profile"), outsideRequests);
   }, 180_000);
@@ -40,14 +42,14 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
   });
 
   it("has an index, a methods page, a data page and building pages", () => {
-    expect(pages.filter((p) => p.startsWith("buildings/")).length).toBeGreaterThanOrEqual(6);
+    expect(pages.filter((p) => /^buildings\/[^/]+\.html$/.test(p)).length).toBeGreaterThanOrEqual(6);
   });
 
   it("every page: no console errors, live charts, links resolve, no axe violations", async () => {
     for (const path of pages) {
       const { page, errors } = await openPage(context, `${server.origin}${PREFIX}${path}`, dialogs);
       const charts = await expectChartsLive(page);
-      if (path.startsWith("buildings/")) expect(charts, path).toBeGreaterThan(0);
+      if (/^buildings\/[^/]+\.html$/.test(path)) expect(charts, path).toBeGreaterThan(0);
       await expectLinksResolve(page, server.origin, PREFIX);
       const axe = await runAxe(page);
       expect(axe.violations, `${path}: ${JSON.stringify(axe.violations)}`).toEqual([]);
