@@ -162,18 +162,22 @@ function timeChart(b: ReportBaseline, meterBills: Bill[], idBase: string): Basel
         mid,
         actualPerDay: round(bill.usage / days, 3),
         expectedPerDay: round(e.expectedAtActualWeather / days, 3),
+        lowPerDay: e.bandLow == null || e.bandHigh == null ? null : round(e.bandLow / days, 3),
+        highPerDay: e.bandLow == null || e.bandHigh == null ? null : round(e.bandHigh / days, 3),
       };
     })
     .filter((r): r is NonNullable<typeof r> => r !== null);
   if (rows.length === 0) return null;
   const useLabel = `Use per day (${b.unit})`;
+  const hasBand = rows.some((r) => r.lowPerDay != null);
   return {
     id: `${idBase}-time`,
     kind: "baseline-time",
     title: `Meter ${b.meterId}: actual use against the model, bill by bill`,
-    description: `Chart over time for meter ${b.meterId}: bars are each bill's actual use per day in ${b.unit}, the line is what the weather model expects for the same period's weather, ${rows[0].period.split(" – ")[0]} to ${rows[rows.length - 1].period.split(" – ")[1]}.`,
+    description: `Chart over time for meter ${b.meterId}: bars are each bill's actual use per day in ${b.unit}, the line is what the weather model expects for the same period's weather${hasBand ? ", the shaded band its prediction band (bills outside it are reported as usage outliers)" : ""}, ${rows[0].period.split(" – ")[0]} to ${rows[rows.length - 1].period.split(" – ")[1]}.`,
     useLabel,
     bills: rows,
+    hasBand,
     table: {
       caption: `Meter ${b.meterId}: actual and expected use per day, by bill`,
       sortable: false,
@@ -181,12 +185,14 @@ function timeChart(b: ReportBaseline, meterBills: Bill[], idBase: string): Basel
         { label: "Period", numeric: false },
         { label: `Actual (${b.unit}/day)`, numeric: true },
         { label: `Expected (${b.unit}/day)`, numeric: true },
+        ...(hasBand ? [{ label: `Band (${b.unit}/day)`, numeric: true }] : []),
         { label: "Difference", numeric: true },
       ],
       rows: rows.map((r) => [
         { text: r.period, sort: r.mid },
         { text: formatQuantity(r.actualPerDay, b.unit) },
         { text: formatQuantity(r.expectedPerDay, b.unit) },
+        ...(hasBand ? [{ text: r.lowPerDay == null || r.highPerDay == null ? NOT_AVAILABLE : `${formatQuantity(r.lowPerDay, "")} – ${formatQuantity(r.highPerDay, b.unit)}` }] : []),
         { text: r.expectedPerDay > 0 ? pct((100 * (r.actualPerDay - r.expectedPerDay)) / r.expectedPerDay) : NOT_AVAILABLE },
       ]),
     },

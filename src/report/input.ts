@@ -166,6 +166,10 @@ export interface ReportBillExpectation {
   expectedAtActualWeather: number;
   /** Model use for the same days at typical-year temperatures. */
   expectedAtTypicalWeather: number;
+  /** Lower edge of the prediction band around `expectedAtActualWeather` (same unit and period), when the model gives one. */
+  bandLow?: number;
+  /** Upper edge of that band. */
+  bandHigh?: number;
 }
 
 /** The bill-level weather baseline of one meter. */

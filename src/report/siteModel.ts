@@ -89,7 +89,9 @@ export interface BaselineTimeChartModel extends ChartBase {
   kind: "baseline-time";
   useLabel: string;
   /** `mid` is the period's middle day `YYYY-MM-DD` (plotted on a UTC time scale). */
-  bills: { billId: string; period: string; mid: string; actualPerDay: number; expectedPerDay: number }[];
+  bills: { billId: string; period: string; mid: string; actualPerDay: number; expectedPerDay: number; lowPerDay: number | null; highPerDay: number | null }[];
+  /** Whether any bill carries a prediction band (then the chart draws it). */
+  hasBand: boolean;
 }
 
 /** Calendar heatmap of interval data: one cell per local day × hour, flagged hours marked. */

@@ -199,6 +199,9 @@ describe("building page wiring (full fixture)", () => {
       ["E1", "ok", ["baseline-scatter", "baseline-time"]],
       ["G1", "none", ["baseline-scatter"]],
     ]);
+    const time = b1.baselines[0].charts[1];
+    expect(time.kind === "baseline-time" && time.hasBand && time.bills[0].lowPerDay! < time.bills[0].highPerDay!).toBe(true);
+    expect(time.table.columns.map((c) => c.label)).toContain("Band (kWh/day)");
     expect(b1.quality).toHaveLength(1);
     expect(b1.quality[0].detectionsTable.rows).toHaveLength(2);
     expect(b1.quality[0].detectionsTable.rows[0][1].text).toBe("Jan 10, 2025, 02:00");

@@ -226,6 +226,8 @@ export function fullFixtureInput(): ReportInput {
         billId: b.billId,
         expectedAtActualWeather: b.billId === "E1-14" ? 0.9 * b.usage : b.billId === "E1-02" ? b.usage : 0.98 * b.usage,
         expectedAtTypicalWeather: b.billId === "E1-02" ? 1.05 * b.usage : b.usage,
+        bandLow: 0.9 * b.usage,
+        bandHigh: 1.08 * b.usage,
       })),
     },
     {

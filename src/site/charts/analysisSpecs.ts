@@ -61,7 +61,7 @@ export function baselineScatterSpec(chart: BaselineScatterChartModel): Record<st
  * use per day at the same weather (line with points), on a UTC time axis.
  */
 export function baselineTimeSpec(chart: BaselineTimeChartModel): Record<string, unknown> {
-  const x = { field: "mid", type: "temporal", title: "Billing period (middle day)", scale: { type: "utc" }, axis: { format: "%b %Y" } };
+  const x = { field: "mid", type: "temporal", title: "Billing period (middle day)", scale: { type: "utc", padding: 8 }, axis: { format: "%b %Y" } };
   const tooltip = [
     { field: "period", type: "nominal", title: "Period" },
     { field: "actual", type: "quantitative", title: `Actual, ${chart.useLabel}`, format: ",.2f" },
@@ -69,8 +69,17 @@ export function baselineTimeSpec(chart: BaselineTimeChartModel): Record<string, 
   ];
   return {
     ...base(chart, 220),
-    data: { values: chart.bills.map((b) => ({ bill: b.billId, period: b.period, mid: b.mid, actual: b.actualPerDay, expected: b.expectedPerDay })) },
+    data: { values: chart.bills.map((b) => ({ bill: b.billId, period: b.period, mid: b.mid, actual: b.actualPerDay, expected: b.expectedPerDay, low: b.lowPerDay, high: b.highPerDay })) },
     layer: [
+      ...(chart.hasBand
+        ? [
+            {
+              transform: [{ filter: "isValid(datum.low) && isValid(datum.high)" }],
+              mark: { type: "area", opacity: 0.25, color: SERIES_COLORS[1] },
+              encoding: { x, y: { field: "low", type: "quantitative" }, y2: { field: "high" } },
+            },
+          ]
+        : []),
       {
         mark: { type: "bar", width: 8, tooltip: true },
         encoding: { x, y: { field: "actual", type: "quantitative", title: chart.useLabel }, color: { datum: "Actual", type: "nominal", title: "Series" }, tooltip },
