@@ -72,7 +72,7 @@ export interface ReportForecastMonth {
 
 /** One problem a data-cleaning detector found in a meter's interval data. */
 export interface ReportDetection {
-  /** Detector code, e.g. `zero-run`, `constant-run`, `spike`, `negative`, `reset`, `duplicate`, `missing`. */
+  /** Kind code of data-quality.csv: `zero-run`, `constant-run`, `spike`, `negative`, `reset`, `duplicate`, `missing`. */
   kind: string;
   /** First flagged interval start, UTC epoch ms. */
   startMs: number;
@@ -80,7 +80,7 @@ export interface ReportDetection {
   endMs: number;
   /** Number of intervals involved. */
   intervals: number;
-  /** What was done, e.g. `excluded from models`, `kept`, `dropped duplicate`. */
+  /** Action code of data-quality.csv: `excluded` | `interpolated` | `kept` | `corrected` (shown in plain words). */
   action: string;
   /** Plain-words evidence, e.g. "14 h of 0 kWh; the same hours of other weeks average 42 kWh". */
   detail: string;
@@ -120,7 +120,7 @@ export interface ReportWeatherDetection {
   /** End of the gap (exclusive), UTC epoch ms. */
   endMs: number;
   hours: number;
-  /** e.g. `interpolated` or `left missing`. */
+  /** Action code as in data-quality.csv, e.g. `interpolated` (gap filled) or `kept` (left missing, reported). */
   action: string;
 }
 

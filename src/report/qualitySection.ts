@@ -113,7 +113,23 @@ const DETECTION_NAMES: Record<string, string> = {
   reset: "Meter reset",
   duplicate: "Duplicated timestamp",
   missing: "Missing intervals",
+  "weather-gap": "Gap in weather data",
 };
+
+const ACTION_NAMES: Record<string, string> = {
+  excluded: "left out of the models (kept in the data)",
+  interpolated: "filled by straight-line interpolation",
+  kept: "reported only; still used",
+  corrected: "corrected",
+};
+
+/**
+ * Plain words for an action code of data-quality.csv (others shown as given).
+ * @example actionLabel("excluded") // "left out of the models (kept in the data)"
+ */
+export function actionLabel(action: string): string {
+  return ACTION_NAMES[action] ?? action;
+}
 
 /** @example detectionLabel("zero-run") // "Run of zero readings" */
 export function detectionLabel(kind: string): string {
@@ -138,7 +154,7 @@ function detectionsTable(q: ReportMeterQuality, zone: string): TableModel {
       { text: formatLocalTime(d.startMs, zone), sort: String(d.startMs) },
       { text: formatLocalTime(d.endMs, zone), sort: String(d.endMs) },
       { text: formatNumber(d.intervals), sort: String(d.intervals) },
-      { text: d.action },
+      { text: actionLabel(d.action) },
       { text: d.detail || NOT_AVAILABLE },
     ]),
   };
@@ -295,7 +311,7 @@ export function weatherQualityTable(building: Building, detections: readonly Rep
       { text: formatLocalTime(d.startMs, building.timezone), sort: String(d.startMs) },
       { text: formatLocalTime(d.endMs, building.timezone), sort: String(d.endMs) },
       { text: formatNumber(d.hours) },
-      { text: d.action },
+      { text: actionLabel(d.action) },
     ]),
   };
 }

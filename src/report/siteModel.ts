@@ -273,8 +273,6 @@ export interface TenantPage extends PageBase {
   commodities: TenantCommodity[];
   /** How the figures are made (weather adjustment, conversions). */
   notes: string[];
-  /** Link back to the building page (relative). */
-  buildingHref: string;
 }
 
 export interface UnitFactorRow {

@@ -235,6 +235,5 @@ export function buildTenantPage(
         : `There are no readings for ${building.name} yet.`,
     commodities,
     notes: [...TENANT_NOTES],
-    buildingHref: `${root}buildings/${encodeURIComponent(building.buildingId)}.html`,
   };
 }

@@ -205,6 +205,7 @@ describe("building page wiring (full fixture)", () => {
     expect(b1.quality).toHaveLength(1);
     expect(b1.quality[0].detectionsTable.rows).toHaveLength(2);
     expect(b1.quality[0].detectionsTable.rows[0][1].text).toBe("Jan 10, 2025, 02:00");
+    expect(b1.quality[0].detectionsTable.rows[0][4].text).toBe("left out of the models (kept in the data)");
     expect(b1.weatherQualityTable!.rows).toHaveLength(2);
     expect(b1.forecast!.summary).toContain("$13,410.00");
     expect(b1.forecast!.trackRecordTable!.rows[0][1].text).toBe("−2.4 %");

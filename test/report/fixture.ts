@@ -180,8 +180,8 @@ export function fullFixtureInput(): ReportInput {
       intervalMinutes: 15,
       mask,
       detections: [
-        { kind: "zero-run", startMs: ZERO_RUN.startMs, endMs: ZERO_RUN.endMs, intervals: 24, action: "excluded from models", detail: "6 h of zeros; the same hours of other weeks average 4 kWh per interval" },
-        { kind: "spike", startMs: Date.UTC(2025, 1, 3, 20), endMs: Date.UTC(2025, 1, 3, 20, 15), intervals: 1, action: "excluded from models", detail: "400 kWh, 31 robust σ above the rolling median" },
+        { kind: "zero-run", startMs: ZERO_RUN.startMs, endMs: ZERO_RUN.endMs, intervals: 24, action: "excluded", detail: "6 h of zeros; the same hours of other weeks average 4 kWh per interval" },
+        { kind: "spike", startMs: Date.UTC(2025, 1, 3, 20), endMs: Date.UTC(2025, 1, 3, 20, 15), intervals: 1, action: "excluded", detail: "400 kWh, 31 robust σ above the rolling median" },
       ],
       alignment: {
         suggestedOffsetHours: 3,
@@ -194,7 +194,7 @@ export function fullFixtureInput(): ReportInput {
   ];
   input.weatherDetections = [
     { stationId: "WX1", startMs: Date.UTC(2024, 6, 1, 5), endMs: Date.UTC(2024, 6, 1, 9), hours: 4, action: "interpolated" },
-    { stationId: "WX1", startMs: Date.UTC(2024, 7, 2, 0), endMs: Date.UTC(2024, 7, 2, 10), hours: 10, action: "left missing" },
+    { stationId: "WX1", startMs: Date.UTC(2024, 7, 2, 0), endMs: Date.UTC(2024, 7, 2, 10), hours: 10, action: "kept" },
   ];
   const e1Bills = portfolio.bills.filter((b) => b.meterId === "E1");
   const g1Bills = portfolio.bills.filter((b) => b.meterId === "G1");
