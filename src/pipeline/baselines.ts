@@ -33,6 +33,8 @@ export interface MeterBaseline {
   tempUnit: "C" | "F";
   /** Points used in the fit (and bills left out, with why). */
   points: (ChangePointPoint & { billId: string })[];
+  /** Every bill with a period temperature, for the scatter: used points and excluded ones with the reason. */
+  scatter: { billId: string; temp: number; usePerDay: number; excluded?: string }[];
   excluded: { billId: string; reason: string }[];
   /** Chosen model; null when none passed (too few points or no form met the shape rules). */
   fit: ChangePointFit | null;
@@ -126,6 +128,7 @@ export function fitMeterBaseline(options: {
   const points: MeterBaseline["points"] = [];
   const excluded: MeterBaseline["excluded"] = [];
   const billTemps = new Map<string, number>();
+  const scatter: MeterBaseline["scatter"] = [];
   const seen = new Set<string>();
   for (const bill of [...options.bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart))) {
     const days = daysBetween(bill.periodStart, bill.periodEnd);
@@ -138,18 +141,17 @@ export function fitMeterBaseline(options: {
       excluded.push({ billId: bill.billId, reason: `weather covers ${(coverage * 100).toFixed(0)} % of the period` });
       continue;
     }
-    billTemps.set(bill.billId, toUnit(meanC, tempUnit));
+    const temp = toUnit(meanC, tempUnit);
+    billTemps.set(bill.billId, temp);
     const key = `${bill.periodStart}/${bill.periodEnd}`;
-    if (bill.readType === "estimated") {
-      excluded.push({ billId: bill.billId, reason: "estimated read" });
-      continue;
-    }
-    if (seen.has(key)) {
-      excluded.push({ billId: bill.billId, reason: "same period as an earlier bill" });
+    const reason = bill.readType === "estimated" ? "estimated read" : seen.has(key) ? "same period as an earlier bill" : null;
+    scatter.push({ billId: bill.billId, temp, usePerDay: bill.usage / days, ...(reason ? { excluded: reason } : {}) });
+    if (reason) {
+      excluded.push({ billId: bill.billId, reason });
       continue;
     }
     seen.add(key);
-    points.push({ billId: bill.billId, temp: toUnit(meanC, tempUnit), usePerDay: bill.usage / days, days });
+    points.push({ billId: bill.billId, temp, usePerDay: bill.usage / days, days });
   }
 
   let fit: ChangePointFit | null = null;
@@ -196,6 +198,7 @@ export function fitMeterBaseline(options: {
     buildingId: meter.buildingId,
     tempUnit,
     points,
+    scatter,
     excluded,
     fit,
     tried,

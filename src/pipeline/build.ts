@@ -23,6 +23,7 @@ import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
 import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "./meteredViews.ts";
+import { toReportInput } from "./reportInput.ts";
 import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
@@ -123,15 +124,9 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
 
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
-  const model = buildSiteModel({
-    portfolio,
-    priced,
-    monthlyMetered,
-    issues,
-    buildDate,
-    findings,
-    models: results.flatMap((r) => r.baselines.map((b) => b.summary)),
-  });
+  const model = buildSiteModel(
+    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, findings, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
+  );
   await writeSite(model, dataFiles, options.outDir);
 
   const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;

@@ -18,6 +18,7 @@ const HOUR_MS = 3_600_000;
 export interface MeterQuality {
   meterId: string;
   buildingId: string;
+  intervalMinutes: number;
   detections: Detection[];
   /** 1 = excluded from model training; aligned with the (possibly shifted) series. */
   mask: Uint8Array;
@@ -78,6 +79,7 @@ export function assessIntervalMeters(portfolio: Portfolio): QualityResult {
     meters.push({
       meterId: meter.meterId,
       buildingId: meter.buildingId,
+      intervalMinutes: series.intervalMinutes,
       detections,
       mask,
       alignment,
