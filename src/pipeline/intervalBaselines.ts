@@ -4,7 +4,12 @@
  * trained on the cleaned view: intervals flagged by the data-quality stage are left out.
  */
 import type { Building, Portfolio } from "../domain/types.ts";
-import { fitIntervalBaseline, type IntervalBaseline, type IntervalBaselineOptions } from "../model/interval/index.ts";
+import { fitIntervalBaseline, hourlyFrame, type IntervalBaseline, type IntervalBaselineOptions } from "../model/interval/index.ts";
+import type { PoolMember } from "../model/interval/pooled.ts";
+
+/** Below this many weeks of data a meter borrows strength from similar meters (the pooled model). */
+export const SHORT_HISTORY_WEEKS = 8;
+const WEEK_MS = 7 * 24 * 3_600_000;
 
 /**
  * Settings used in a build: three 4-week folds and no log1p variant keep a meter-year to a few
@@ -35,6 +40,8 @@ export function fitBuildingIntervalBaselines(
       continue;
     }
     try {
+      const spanWeeks = (series.startMs[series.startMs.length - 1]! - series.startMs[0]!) / WEEK_MS;
+      const pool = spanWeeks < SHORT_HISTORY_WEEKS ? poolFor(portfolio, meter.meterId, building, masks) : undefined;
       const baseline = fitIntervalBaseline({
         meterId: meter.meterId,
         series,
@@ -42,7 +49,7 @@ export function fitBuildingIntervalBaselines(
         weather,
         zone: building.timezone,
         floorAreaM2: building.floorAreaM2,
-        options: { ...BUILD_INTERVAL_OPTIONS, frame: { multiplier: meter.multiplier } },
+        options: { ...BUILD_INTERVAL_OPTIONS, frame: { multiplier: meter.multiplier }, pool, minHistoryWeeks: SHORT_HISTORY_WEEKS },
       });
       out.push({ meterId: meter.meterId, baseline, problem: null });
     } catch (error) {
@@ -50,4 +57,27 @@ export function fitBuildingIntervalBaselines(
     }
   }
   return out;
+}
+
+/**
+ * Hourly tables of the portfolio's other electricity interval meters for a short-history meter:
+ * buildings of the same use type when there are any (similar schedules), else every other one.
+ */
+function poolFor(portfolio: Portfolio, meterId: string, building: Building, masks: ReadonlyMap<string, Uint8Array>): PoolMember[] {
+  const buildings = new Map(portfolio.buildings.map((b) => [b.buildingId, b]));
+  const candidates = portfolio.meters.filter((m) => m.meterId !== meterId && m.commodity === "electricity" && portfolio.intervals.has(m.meterId));
+  const sameUse = candidates.filter((m) => building.useType !== null && buildings.get(m.buildingId)?.useType === building.useType);
+  const chosen = sameUse.length > 0 ? sameUse : candidates;
+  const pool: PoolMember[] = [];
+  for (const m of chosen) {
+    const b = buildings.get(m.buildingId);
+    const weather = b ? portfolio.weather.get(b.weatherStation) : undefined;
+    if (!b || !weather) continue;
+    try {
+      pool.push({ meterId: m.meterId, frame: hourlyFrame(portfolio.intervals.get(m.meterId)!, masks.get(m.meterId) ?? null, weather, b.timezone, { multiplier: m.multiplier }) });
+    } catch {
+      // A meter whose table cannot be built simply does not join the pool.
+    }
+  }
+  return pool;
 }
