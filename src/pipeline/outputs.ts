@@ -22,6 +22,7 @@ import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
 import { weatherGapDetections } from "./dataQuality.ts";
 import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT } from "./usageSummary.ts";
 import { unitFactor } from "../tariff/units.ts";
+import { kwhPerM2ToKbtuPerFt2 } from "../report/energy.ts";
 
 export interface OutputsInput {
   portfolio: Portfolio<Tariff>;
@@ -245,6 +246,7 @@ function portfolioJson(input: OutputsInput) {
           normalized_annual: round(normalized, 3),
           unit: u.unit,
           eui_kwh_m2: kwhPer !== null && u.actualLast12m !== null ? round((u.actualLast12m * kwhPer) / b.floorAreaM2, 3) : null,
+          eui_kbtu_ft2: kwhPer !== null && u.actualLast12m !== null ? round(kwhPerM2ToKbtuPerFt2((u.actualLast12m * kwhPer) / b.floorAreaM2), 3) : null,
           model: single?.fit
             ? {
                 kind: single.fit.kind,
@@ -259,11 +261,18 @@ function portfolioJson(input: OutputsInput) {
         };
       }
       const count = (s: string) => r.findings.filter((f) => f.severity === s).length;
+      // Site energy: electricity kWh + gas therms × 29.3071 kWh/therm (EIA therm, NIST Btu).
+      const energy = usage.filter((u) => KWH_PER_REPORT_UNIT[u.commodity] !== null);
+      const siteKwh = energy.length > 0 && energy.every((u) => u.actualLast12m !== null)
+        ? energy.reduce((sum, u) => sum + u.actualLast12m! * KWH_PER_REPORT_UNIT[u.commodity]!, 0)
+        : null;
       return {
         building_id: b.buildingId,
         name: b.name,
         floor_area_m2: round(b.floorAreaM2, 3),
         ...commodities,
+        site_eui_kwh_m2: siteKwh === null ? null : round(siteKwh / b.floorAreaM2, 3),
+        site_eui_kbtu_ft2: siteKwh === null ? null : round(kwhPerM2ToKbtuPerFt2(siteKwh / b.floorAreaM2), 3),
         forecast_cost_next_12m: bandJson(input.forecast?.forecast.buildings.find((f) => f.buildingId === b.buildingId)?.costNext12m ?? null),
         findings_count: { error: count("error"), warning: count("warning"), info: count("info") },
         analysis_error: r.failure,
