@@ -95,7 +95,8 @@ export function buildBuildingPage(input: ReportInput, ctx: BuildingContext): Omi
     modelsTable: modelsTable(meters, input),
     baselines: baselineSections(meters, input.baselines, ctx.billsByMeter),
     quality: qualitySections(b, meters, input.quality, input.portfolio.intervals),
-    weatherQualityTable: weatherQualityTable(b, input.weatherDetections),
+    weatherQualityTable: weatherQualityTable(b, input.weatherDetections, input.portfolio.settings.weatherMaxGapHours),
+    weatherQualityNote: `Gaps of up to ${formatNumber(input.portfolio.settings.weatherMaxGapHours)} hours are filled by straight-line interpolation between the hours on either side; longer gaps are left missing, so no temperature is made up for them.`,
     forecast: forecastSection(b.buildingId, meters, input, currency),
     // Relative from buildings/<id>.html to buildings/<id>/tenant.html.
     tenantHref: b.tenantPage ? tenantPath(b.buildingId).slice("buildings/".length) : null,

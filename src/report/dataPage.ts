@@ -31,6 +31,21 @@ export function buildingDataFolder(buildingId: string): string {
 }
 
 /**
+ * What one data file holds. A building's own file (`buildings/<id>/forecast.csv`) is described
+ * by its base name as that building's part of the portfolio-wide file.
+ * @example describeDataFile("buildings/B1/forecast.csv") // "This building's rows of forecast.csv: forecast use and cost …"
+ */
+export function describeDataFile(name: string): string {
+  const slash = name.lastIndexOf("/");
+  if (slash === -1) return DATA_FILE_DESCRIPTIONS[name] ?? "Data file written by this build.";
+  const base = name.slice(slash + 1);
+  const what = DATA_FILE_DESCRIPTIONS[base];
+  const part = base.endsWith(".json") ? "entries" : "rows";
+  if (!what) return `This building's ${part} of ${base}.`;
+  return `This building's ${part} of ${base}: ${what.charAt(0).toLowerCase()}${what.slice(1)}`;
+}
+
+/**
  * Rows of the downloads table for files with known byte sizes, in a stable order
  * (known files in outputs.md order, then others alphabetically).
  * @example describeDataFiles({ "findings.csv": 2048 }, "")[0].href // "data/findings.csv"
@@ -46,7 +61,7 @@ export function describeDataFiles(sizes: Record<string, number>, root: string): 
   return names.map((name) => ({
     name,
     href: `${root}data/${name.split("/").map(encodeURIComponent).join("/")}`,
-    description: DATA_FILE_DESCRIPTIONS[name] ?? "Data file written by this build.",
+    description: describeDataFile(name),
     size: formatBytes(sizes[name]),
   }));
 }

@@ -2,5 +2,5 @@
 export type * from "./input.ts";
 export type * from "./siteModel.ts";
 export { buildSiteModel } from "./buildSiteModel.ts";
-export { describeDataFiles, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";
+export { describeDataFiles, describeDataFile, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";
 export { jsonForScript } from "./format.ts";

@@ -119,16 +119,29 @@ const DETECTION_NAMES: Record<string, string> = {
 const ACTION_NAMES: Record<string, string> = {
   excluded: "left out of the models (kept in the data)",
   interpolated: "filled by straight-line interpolation",
-  kept: "reported only; still used",
+  kept: "reported only; still used in the models",
   corrected: "corrected",
 };
 
 /**
- * Plain words for an action code of data-quality.csv (others shown as given).
+ * Plain words for an action code of data-quality.csv on a meter's detection (others shown as
+ * given). For meter data `kept` means reported but still used (src/clean/detect/types.ts).
  * @example actionLabel("excluded") // "left out of the models (kept in the data)"
  */
 export function actionLabel(action: string): string {
   return ACTION_NAMES[action] ?? action;
+}
+
+/**
+ * Plain words for the action on a weather gap. Gaps up to `weather_max_gap_hours` are filled
+ * by interpolation; a longer gap is `kept`: left missing (its hours carry no temperature, so
+ * periods and hours depending on them use what remains).
+ * @example weatherActionLabel("kept", 6) // "left missing (longer than the 6-hour limit for filling)"
+ */
+export function weatherActionLabel(action: string, maxGapHours: number): string {
+  if (action === "kept") return `left missing (longer than the ${formatNumber(maxGapHours)}-hour limit for filling)`;
+  if (action === "interpolated") return "filled by straight-line interpolation";
+  return actionLabel(action);
 }
 
 /** @example detectionLabel("zero-run") // "Run of zero readings" */
@@ -136,7 +149,9 @@ export function detectionLabel(kind: string): string {
   return DETECTION_NAMES[kind] ?? kind;
 }
 
-function detectionsTable(q: ReportMeterQuality, zone: string): TableModel {
+function detectionsTable(q: ReportMeterQuality, zone: string): TableModel | null {
+  // No detections: the section's summary ("No problems found in N intervals") says it all.
+  if (q.detections.length === 0) return null;
   const rows = [...q.detections].sort((a, b) => a.startMs - b.startMs);
   return {
     caption: `Every problem found in meter ${q.meterId}'s interval data (times in ${zone})`,
@@ -175,7 +190,10 @@ export function alignmentSentences(a: ReportMeterQuality["alignment"]): string[]
   const best = at(a.suggestedOffsetHours);
   const zero = at(0);
   const out: string[] = [];
-  if (a.suggestedOffsetHours === 0) {
+  const checked = best != null && best > 0;
+  if (a.suggestedOffsetHours === 0 && !checked) {
+    out.push("The meter's clock could not be checked against the weather station's: no relationship between load and outdoor temperature was found, so the timestamps were left as they are.");
+  } else if (a.suggestedOffsetHours === 0) {
     out.push("The meter's clock agrees with the weather station's: the load follows outdoor temperature best with no shift.");
   } else {
     const evidence =
@@ -188,8 +206,32 @@ export function alignmentSentences(a: ReportMeterQuality["alignment"]): string[]
     );
   }
   out.push(a.appliedOffsetHours === 0 ? "No correction was applied to the data." : `A correction of ${signedHours(a.appliedOffsetHours)} (offset removed from the timestamps) was applied before modelling.`);
-  if (a.note) out.push(a.note);
+  out.push(...noteSentences(a.note, a.scores.length === 0));
   return out;
+}
+
+/**
+ * The cleaning stage's note, folded into the sentences above: parts that repeat them ("timestamps
+ * agree with the weather", "meter timestamps look 3 h late; subtract 3 h", "no load–temperature
+ * relationship found") are dropped; "consistent with …" hints become one sentence; anything else
+ * is kept as a sentence of its own. Without scores the note is why the scan did not run.
+ */
+function noteSentences(note: string, noScan: boolean): string[] {
+  if (!note) return [];
+  if (noScan) return [`The scan did not run: ${note}.`];
+  const parts = note.split(";").map((p) => p.trim()).filter((p) => p.length > 0);
+  const repeats = [/^timestamps agree with the weather$/i, /^meter timestamps look /i, /^subtract /i, /^no load.temperature relationship found/i, /^timestamps left as they are$/i];
+  const kept = parts.filter((p) => !repeats.some((r) => r.test(p)));
+  const consistent = kept.filter((p) => /^consistent with /i.test(p)).map((p) => p.replace(/^consistent with /i, ""));
+  const other = kept.filter((p) => !/^consistent with /i.test(p));
+  const out: string[] = [];
+  if (consistent.length > 0) out.push(`The shift is consistent with ${consistent.join(", or with ")}.`);
+  for (const p of other) out.push(/[.!?]$/.test(p) ? capitalize(p) : `${capitalize(p)}.`);
+  return out;
+}
+
+function capitalize(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
 function alignmentTable(q: ReportMeterQuality): TableModel | null {
@@ -222,7 +264,7 @@ function heatmapChart(q: ReportMeterQuality, meter: Meter, series: IntervalSerie
     id: `quality-${meter.meterId.replace(/[^A-Za-z0-9_-]/g, "_")}-heatmap`,
     kind: "quality-heatmap",
     title: `Meter ${meter.meterId}: use by day and hour`,
-    description: `Calendar heatmap of meter ${meter.meterId}, ${first} to ${last} (local time, ${zone}): one column per day, one row per hour, darker is more use in ${meter.unit} (the darkest shade covers everything from the 99th percentile up); ${formatNumber(flaggedHours)} hours holding flagged intervals are marked in orange.`,
+    description: `Calendar heatmap of meter ${meter.meterId}, ${first} to ${last} (local time, ${zone}): one column per day, one row per hour, darker is more use in ${meter.unit} (the darkest shade covers everything from the 99th percentile up); ${flaggedHours === 0 ? "no hour holds a flagged interval" : `${formatNumber(flaggedHours)} ${flaggedHours === 1 ? "hour holds" : "hours hold"} flagged intervals, marked in orange`}.`,
     valueLabel,
     days,
     colorMax: colorScaleMax(days),
@@ -295,7 +337,7 @@ export function qualitySections(
 }
 
 /** Weather gaps of one station; null when none were reported for it. */
-export function weatherQualityTable(building: Building, detections: readonly ReportWeatherDetection[] | undefined): TableModel | null {
+export function weatherQualityTable(building: Building, detections: readonly ReportWeatherDetection[] | undefined, maxGapHours: number): TableModel | null {
   const rows = (detections ?? []).filter((d) => d.stationId === building.weatherStation).sort((a, b) => a.startMs - b.startMs);
   if (rows.length === 0) return null;
   return {
@@ -311,7 +353,7 @@ export function weatherQualityTable(building: Building, detections: readonly Rep
       { text: formatLocalTime(d.startMs, building.timezone), sort: String(d.startMs) },
       { text: formatLocalTime(d.endMs, building.timezone), sort: String(d.endMs) },
       { text: formatNumber(d.hours) },
-      { text: actionLabel(d.action) },
+      { text: weatherActionLabel(d.action, maxGapHours) },
     ]),
   };
 }

@@ -222,7 +222,8 @@ export interface QualitySection {
   heading: string;
   summary: string;
   charts: ChartModel[];
-  detectionsTable: TableModel;
+  /** Every detection; null when there are none (the summary says so). */
+  detectionsTable: TableModel | null;
   /** Sentences about the clock-offset check (empty when not checked). */
   alignment: string[];
   alignmentTable: TableModel | null;
@@ -251,6 +252,8 @@ export interface BuildingPage extends PageBase {
   quality: QualitySection[];
   /** Weather gaps of the building's station; null when none were reported. */
   weatherQualityTable: TableModel | null;
+  /** How gaps are handled (the interpolation limit), shown above the weather-gap table. */
+  weatherQualityNote: string;
   forecast: ForecastSection | null;
   /** Relative link to the tenant page, or null when the building has none. */
   tenantHref: string | null;

@@ -5,7 +5,8 @@ import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
 import { compareCommodity, weatherAdjusted } from "../../src/report/tenantPage.ts";
 import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
-import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour } from "../../src/report/qualitySection.ts";
+import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour, qualitySections, weatherActionLabel } from "../../src/report/qualitySection.ts";
+import { describeDataFile } from "../../src/report/dataPage.ts";
 import { findingsByCheckChart, normalizedChangePct } from "../../src/report/portfolioCharts.ts";
 import type { BuildingContext } from "../../src/report/buildingPage.ts";
 import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
@@ -142,6 +143,49 @@ describe("clock-offset sentences", () => {
     expect(lines[1]).toBe("No correction was applied to the data.");
     expect(alignmentSentences(null)).toEqual([]);
   });
+
+  it("folds the cleaning stage's raw note in: no repeat of 'timestamps agree', hints kept as a sentence", () => {
+    const scores = [{ offsetHours: 0, score: 0.4 }, { offsetHours: 1, score: 0.3 }];
+    const agree = alignmentSentences({ suggestedOffsetHours: 0, appliedOffsetHours: 0, strong: false, note: "timestamps agree with the weather", scores });
+    expect(agree).toEqual(["The meter's clock agrees with the weather station's: the load follows outdoor temperature best with no shift.", "No correction was applied to the data."]);
+    const late = alignmentSentences({
+      suggestedOffsetHours: 1,
+      appliedOffsetHours: 0,
+      strong: true,
+      note: "meter timestamps look 1 h late; subtract 1 h to correct; consistent with interval-end timestamps",
+      scores: [{ offsetHours: 0, score: 0.3 }, { offsetHours: 1, score: 0.5 }],
+    });
+    expect(late.join(" ")).not.toContain("subtract");
+    expect(late[2]).toBe("The shift is consistent with interval-end timestamps.");
+    const none = alignmentSentences({ suggestedOffsetHours: 0, appliedOffsetHours: 0, strong: false, note: "no load–temperature relationship found; timestamps left as they are", scores: [{ offsetHours: 0, score: 0 }] });
+    expect(none[0]).toContain("could not be checked");
+    expect(none).toHaveLength(2);
+  });
+});
+
+describe("wording fixes", () => {
+  it("a weather gap 'kept' is left missing (longer than weather_max_gap_hours), not 'still used'", () => {
+    expect(weatherActionLabel("kept", 6)).toBe("left missing (longer than the 6-hour limit for filling)");
+    expect(weatherActionLabel("interpolated", 6)).toBe("filled by straight-line interpolation");
+    const model = buildSiteModel(fullFixtureInput());
+    const rows = model.buildings[0].weatherQualityTable!.rows;
+    expect(rows.map((r) => r[3].text)).toEqual(["filled by straight-line interpolation", `left missing (longer than the ${fullFixtureInput().portfolio.settings.weatherMaxGapHours}-hour limit for filling)`]);
+  });
+
+  it("a building's own data file is described by its base name", () => {
+    expect(describeDataFile("buildings/B1/forecast.csv")).toBe("This building's rows of forecast.csv: forecast use and cost by meter and calendar month, with a low, likely and high cost.");
+    expect(describeDataFile("buildings/B1/models.json")).toMatch(/^This building's entries of models.json: every weather model/);
+    expect(describeDataFile("buildings/B1/other.csv")).toBe("This building's rows of other.csv.");
+    expect(describeDataFile("findings.csv")).toMatch(/^Every audit finding/);
+  });
+
+  it("a meter without detections gets no (empty) detections table", () => {
+    const input = fullFixtureInput();
+    input.quality![0].detections = [];
+    const [section] = qualitySections(input.portfolio.buildings[0], input.portfolio.meters, input.quality, input.portfolio.intervals);
+    expect(section.detectionsTable).toBeNull();
+    expect(section.summary).toMatch(/^No problems found in [\d,]+ intervals\.$/);
+  });
 });
 
 describe("portfolio charts", () => {
@@ -203,9 +247,9 @@ describe("building page wiring (full fixture)", () => {
     expect(time.kind === "baseline-time" && time.hasBand && time.bills[0].lowPerDay! < time.bills[0].highPerDay!).toBe(true);
     expect(time.table.columns.map((c) => c.label)).toContain("Band (kWh/day)");
     expect(b1.quality).toHaveLength(1);
-    expect(b1.quality[0].detectionsTable.rows).toHaveLength(2);
-    expect(b1.quality[0].detectionsTable.rows[0][1].text).toBe("Jan 10, 2025, 02:00");
-    expect(b1.quality[0].detectionsTable.rows[0][4].text).toBe("left out of the models (kept in the data)");
+    expect(b1.quality[0].detectionsTable!.rows).toHaveLength(2);
+    expect(b1.quality[0].detectionsTable!.rows[0][1].text).toBe("Jan 10, 2025, 02:00");
+    expect(b1.quality[0].detectionsTable!.rows[0][4].text).toBe("left out of the models (kept in the data)");
     expect(b1.weatherQualityTable!.rows).toHaveLength(2);
     expect(b1.forecast!.summary).toContain("$13,410.00");
     expect(b1.forecast!.trackRecordTable!.rows[0][1].text).toBe("−2.4 %");
