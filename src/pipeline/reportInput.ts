@@ -3,12 +3,14 @@
  * nothing computed here that a page shows without a source in the pipeline.
  */
 import type { InputIssue } from "../core/issues.ts";
-import type { Portfolio } from "../domain/types.ts";
+import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Finding } from "../audit/types.ts";
-import type { ForecastBundle } from "../forecast/index.ts";
+import type { AccuracySummary, BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } from "../forecast/index.ts";
+import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands } from "../forecast/index.ts";
+import { shiftMonth } from "../forecast/months.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
 import type { MonthTotal } from "../ingest/monthlyTotals.ts";
-import type { ReportBaseline, ReportInput, ReportMeterQuality, ReportModelSummary } from "../report/index.ts";
+import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportInput, ReportMeterQuality, ReportModelSummary } from "../report/index.ts";
 import type { BuildingResults } from "./build.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
@@ -67,7 +69,75 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     ).filter((t) => Number.isFinite(t.naiveAnnualCostErrorPct)),
     forecastTotals: forecast?.forecast.buildings.flatMap((b) => (b.costNext12m ? [{ buildingId: b.buildingId, ...b.costNext12m }] : [])),
     portfolioForecast: forecast?.forecast.costNext12m ?? undefined,
+    buildingForecasts: forecast ? forecast.forecast.buildings.map((b) => buildingForecastDetail(b, portfolio.bills, forecast.forecast.asOf, forecast.trackRecord)) : undefined,
+    portfolioTrackRecord: forecast ? { model: accuracy(forecast.trackRecord.overall.model), naive: accuracy(forecast.trackRecord.overall.naive) } : undefined,
   };
+}
+
+/** Longest horizon the budget totals cover (a year). */
+const BUDGET_MONTHS = 12;
+
+/**
+ * One building's forecast for its page: the building's monthly bands (scenario sums, from the
+ * forecast stage), last year's billed cost of the same calendar months, per-commodity monthly
+ * P50 and 12-month band (scenario sums over that commodity's meters: `buildingMonthlyCostBands`
+ * and `buildingCostBand`), the change drivers and the backtest.
+ * @example buildingForecastDetail(b, bills, "2025-12-31", record).byCommodity[0].total // { p10, p50, p90 } of the first 12 months
+ */
+export function buildingForecastDetail(b: BuildingForecast, bills: readonly Bill[], asOf: string, record: TrackRecord | null): ReportBuildingForecast {
+  const priced = b.meters.filter((m) => m.error === null && m.scenarioCosts.length > 0);
+  const months = b.monthly.map((m) => m.month);
+  const lastYear = lastYearCosts(priced, bills, asOf, months);
+  const commodities = [...new Set(priced.map((m) => m.commodity))].sort(commodityOrder);
+  const tr = record?.buildings.find((x) => x.buildingId === b.buildingId);
+  const d = b.drivers;
+  return {
+    buildingId: b.buildingId,
+    monthly: b.monthly.map((m, k) => ({ month: m.month, ...m.cost, lastYearMonth: shiftMonth(m.month, -12), lastYearCost: lastYear[k]! })),
+    totalMonths: Math.min(BUDGET_MONTHS, months.length),
+    byCommodity: commodities.map((c) => {
+      const group = priced.filter((m) => m.commodity === c);
+      return {
+        commodity: c,
+        monthly: buildingMonthlyCostBands(group).map((m) => ({ month: m.month, p50: m.cost.p50 })),
+        total: buildingCostBand(group, BUDGET_MONTHS),
+      };
+    }),
+    drivers:
+      d.months.length > 0
+        ? { months: d.months, lastYearCost: d.lastYearCost, forecastCost: d.forecastCost, change: d.change, weather: d.weather, rates: d.rates, usageTrend: d.usageTrend }
+        : null,
+    trackRecord: tr && (tr.model || tr.naive) ? { model: accuracy(tr.model), naive: accuracy(tr.naive) } : null,
+  };
+}
+
+/**
+ * Billed cost of the same calendar month a year before each forecast month, summed over the
+ * priced meters (bills known at as-of, spread by days). Null for a month that any of those
+ * meters' bills do not cover completely: a partial sum would read as a drop in cost.
+ */
+function lastYearCosts(priced: readonly MeterForecast[], bills: readonly Bill[], asOf: string, months: readonly string[]): (number | null)[] {
+  if (priced.length === 0) return months.map(() => null);
+  const perMeter = priced.map((m) => actualMonthlyCost(bills.filter((x) => x.meterId === m.meterId), asOf));
+  return months.map((month) => {
+    const last = shiftMonth(month, -12);
+    let sum = 0;
+    for (const costs of perMeter) {
+      const c = costs.get(last);
+      if (!c || !c.complete) return null;
+      sum += c.cost;
+    }
+    return sum;
+  });
+}
+
+function commodityOrder(a: string, b: string): number {
+  const order = ["electricity", "gas", "water"];
+  return order.indexOf(a) - order.indexOf(b);
+}
+
+function accuracy(a: AccuracySummary | null): ReportAccuracy | null {
+  return a ? { months: a.months, annualErrorPct: a.annualErrorPct, cvRmsePct: a.cvRmsePct, coverage: a.coverage } : null;
 }
 
 /** One row per model a page lists: the change-point model (normalization), the degree-day model (outlier band), the hourly model. */

@@ -1,11 +1,17 @@
-/** Building-page forecast: totals with range, month by month, and how well it did on past data. */
-import type { Meter } from "../domain/types.ts";
-import type { ReportInput } from "./input.ts";
-import type { ForecastSection, TableModel } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatMoney, formatNumber, formatPercent } from "./format.ts";
+/**
+ * Building-page forecast: totals with range, the monthly chart (P10–P90 band, P50, last year's
+ * bills), a budget by month and commodity, the drivers of the change vs last year, the
+ * escalation assumption, and how well the method did on past data.
+ */
+import type { Commodity, Meter, PortfolioSettings } from "../domain/types.ts";
+import type { ReportAccuracy, ReportBuildingForecast, ReportCostRange, ReportForecastDrivers, ReportInput } from "./input.ts";
+import type { ForecastChartModel, ForecastSection, TableModel } from "./siteModel.ts";
+import { NOT_AVAILABLE, formatMoney, formatMoneySigned, formatMonth, formatNumber, formatPercent } from "./format.ts";
 import { forecastTable } from "./analysisTables.ts";
+import { commodityLabel } from "./labels.ts";
 
-function signedPct(v: number): string {
+/** Signed percent with one decimal and a true minus sign, e.g. "+1.2 %", "−17.7 %". */
+export function signedPct(v: number): string {
   if (!Number.isFinite(v)) return NOT_AVAILABLE;
   const r = Math.round(v * 10) / 10;
   return r === 0 ? "0 %" : `${r > 0 ? "+" : "−"}${formatNumber(Math.abs(r), 1)} %`;
@@ -36,18 +42,196 @@ function trackRecordTable(meters: Meter[], input: ReportInput): TableModel | nul
 }
 
 /**
+ * One line comparing the backtest with the naive "same month last year" forecast: better when
+ * its annual cost error is smaller in size by more than 0.5 percentage points, worse when
+ * larger by more, otherwise about as good; with the share of months inside the 80 % range.
+ * @example trackRecordVerdict({ model: { annualErrorPct: -1.5, … }, naive: { annualErrorPct: 4.2, … } }) // "Better than … missed … by 1.5 % …"
+ */
+export function trackRecordVerdict(record: { model: ReportAccuracy | null; naive: ReportAccuracy | null } | null | undefined): string | null {
+  const model = record?.model;
+  if (!model || !Number.isFinite(model.annualErrorPct)) return null;
+  const missed = `missed the year's cost by ${formatNumber(Math.abs(model.annualErrorPct), 1)} %`;
+  const inside =
+    model.coverage != null ? ` ${formatNumber(Math.round(model.coverage * model.months))} of ${formatNumber(model.months)} months fell inside its 80 % range.` : "";
+  const naive = record?.naive;
+  if (!naive || !Number.isFinite(naive.annualErrorPct)) {
+    return `Forecasting the past year, the method ${missed}; there was no earlier year to compare a naive forecast with.${inside}`;
+  }
+  const gap = Math.abs(naive.annualErrorPct) - Math.abs(model.annualErrorPct);
+  const verdict = gap > 0.5 ? "Better than" : gap < -0.5 ? "Worse than" : "About as good as";
+  return `${verdict} repeating last year's bills: forecasting the past year, the method ${missed}, against ${formatNumber(Math.abs(naive.annualErrorPct), 1)} % for the same month last year.${inside}`;
+}
+
+/** Chart model of the building's monthly forecast; null without monthly bands. */
+export function forecastChart(buildingId: string, f: ReportBuildingForecast, currency: string): ForecastChartModel | null {
+  if (f.monthly.length === 0) return null;
+  const first = f.monthly[0]!.month;
+  const last = f.monthly[f.monthly.length - 1]!.month;
+  const withLast = f.monthly.filter((m) => m.lastYearCost != null).length;
+  return {
+    id: `forecast-${buildingId.replace(/[^A-Za-z0-9_-]/g, "_")}-monthly`,
+    kind: "forecast-band",
+    title: "Cost forecast by month",
+    description: `Forecast cost per month, ${formatMonth(first)} to ${formatMonth(last)}: the shaded band holds 80 % of the outcomes (P10 to P90), the line is the likely cost (P50)${withLast > 0 ? ", and the dots are what the same calendar month cost last year" : ""}.`,
+    valueLabel: `Cost (${currency})`,
+    months: f.monthly.map((m) => ({ month: m.month, p10: m.p10, p50: m.p50, p90: m.p90, lastYear: m.lastYearCost, lastYearMonth: m.lastYearMonth })),
+    table: {
+      caption: "Cost forecast by month for the whole building, with the same month last year (low and high are the 10th and 90th percentiles of the building's monthly cost)",
+      sortable: false,
+      columns: [
+        { label: "Month", numeric: false },
+        { label: "Low (P10)", numeric: true },
+        { label: "Likely (P50)", numeric: true },
+        { label: "High (P90)", numeric: true },
+        { label: "Same month last year, billed", numeric: true },
+      ],
+      rows: f.monthly.map((m) => [
+        { text: formatMonth(m.month), sort: m.month },
+        { text: formatMoney(m.p10, currency) },
+        { text: formatMoney(m.p50, currency) },
+        { text: formatMoney(m.p90, currency) },
+        m.lastYearCost == null ? { text: NOT_AVAILABLE, tone: "muted" as const } : { text: formatMoney(m.lastYearCost, currency) },
+      ]),
+    },
+  };
+}
+
+/**
+ * Budget: likely cost (P50) by month and commodity, then each commodity's total over the first
+ * `totalMonths` months with its 80 % range; with several commodities, a whole-building column
+ * (the building's own monthly bands and `total`). Every figure is a median of its own (of that
+ * commodity's scenario sums), so the months do not add up exactly to the total.
+ */
+export function budgetTable(f: ReportBuildingForecast & { total?: ReportCostRange | null }, currency: string): TableModel | null {
+  if (f.byCommodity.length === 0) return null;
+  const months = f.monthly.map((m) => m.month);
+  const p50At = (c: ReportBuildingForecast["byCommodity"][number], month: string) => c.monthly.find((m) => m.month === month)?.p50;
+  const multi = f.byCommodity.length > 1;
+  const building = multi ? f.monthly : null;
+  const rows = months.map((month, k) => [
+    { text: formatMonth(month), sort: month },
+    ...f.byCommodity.map((c) => ({ text: formatMoney(p50At(c, month), currency) })),
+    ...(building ? [{ text: formatMoney(building[k]!.p50, currency) }] : []),
+  ]);
+  const totalLabel = `Total, ${formatNumber(f.totalMonths)} ${f.totalMonths === 1 ? "month" : "months"} (P50)`;
+  rows.push([
+    { text: totalLabel, sort: "~total" },
+    ...f.byCommodity.map((c) => ({ text: formatMoney(c.total?.p50, currency) })),
+    ...(building ? [{ text: formatMoney(f.total?.p50, currency) }] : []),
+  ]);
+  rows.push([
+    { text: "80 % range of the total (P10 – P90)", sort: "~range" },
+    ...f.byCommodity.map((c) => ({ text: c.total ? `${formatMoney(c.total.p10, currency)} – ${formatMoney(c.total.p90, currency)}` : NOT_AVAILABLE })),
+    ...(building ? [{ text: f.total ? `${formatMoney(f.total.p10, currency)} – ${formatMoney(f.total.p90, currency)}` : NOT_AVAILABLE }] : []),
+  ]);
+  return {
+    caption: `Budget by month and commodity: likely cost (P50). Each figure is the median of its own outcomes, so months and commodities do not add up exactly to the totals.`,
+    sortable: false,
+    columns: [
+      { label: "Month", numeric: false },
+      ...f.byCommodity.map((c) => ({ label: commodityLabel(c.commodity), numeric: true })),
+      ...(building ? [{ label: "Whole building", numeric: true }] : []),
+    ],
+    rows,
+  };
+}
+
+/** "+$1,234.00 (+3.4 %)" style change against a base. */
+function changeText(amount: number, base: number, currency: string): string {
+  return base > 0 ? `${formatMoneySigned(amount, currency)} (${signedPct((100 * amount) / base)})` : formatMoneySigned(amount, currency);
+}
+
+/**
+ * Plain sentences on the change vs last year and its three drivers (they add up to the change).
+ * @example driverSentences(d, "USD")[0] // "Over the same 12 calendar months, next year's likely cost is $… against $… billed last year: +$… (+3.1 %)."
+ */
+export function driverSentences(d: ReportForecastDrivers, currency: string): string[] {
+  const n = d.months.length;
+  const out = [
+    `Over the same ${formatNumber(n)} calendar ${n === 1 ? "month" : "months"} (${formatMonth(d.months[0]!)} to ${formatMonth(d.months[n - 1]!)} last year), next year's likely cost is ${formatMoney(d.forecastCost, currency)} against ${formatMoney(d.lastYearCost, currency)} billed: ${changeText(d.change, d.lastYearCost, currency)}.`,
+  ];
+  const w = Math.round(d.weather * 100) / 100;
+  out.push(
+    w === 0
+      ? "Weather: no effect (last year's weather was close to typical, or no meter has a weather model)."
+      : w > 0
+        ? `Weather: ${formatMoneySigned(w, currency)}. Last year's weather was kinder than a typical year, so a typical year costs more.`
+        : `Weather: ${formatMoneySigned(w, currency)}. Last year's weather was harsher than a typical year, so a typical year costs less.`,
+  );
+  const r = Math.round(d.rates * 100) / 100;
+  out.push(
+    r === 0
+      ? "Rates: no effect (the same prices apply next year)."
+      : `Rates: ${formatMoneySigned(r, currency)}. Last year's use priced at next year's tariffs and escalation ${r > 0 ? "costs more" : "costs less"} than it did at last year's.`,
+  );
+  const u = Math.round(d.usageTrend * 100) / 100;
+  out.push(
+    `Usage trend: ${formatMoneySigned(u, currency)}. The rest of the change: use expected to differ from last year's beyond the weather (and effects such as demand charges or last year's billing quirks).`,
+  );
+  return out;
+}
+
+/** The drivers as a one-row table (last year, forecast, change, weather, rates, usage trend). */
+function driversTable(d: ReportForecastDrivers, currency: string): TableModel {
+  return {
+    caption: "Change against last year's bills over the same calendar months, and what drives it (weather + rates + usage trend = change)",
+    sortable: false,
+    columns: [
+      { label: "Months compared", numeric: false },
+      { label: "Last year, billed", numeric: true },
+      { label: "Forecast (P50)", numeric: true },
+      { label: "Change", numeric: true },
+      { label: "Weather", numeric: true },
+      { label: "Rates", numeric: true },
+      { label: "Usage trend", numeric: true },
+    ],
+    rows: [
+      [
+        { text: `${formatMonth(d.months[0]!)} – ${formatMonth(d.months[d.months.length - 1]!)}` },
+        { text: formatMoney(d.lastYearCost, currency) },
+        { text: formatMoney(d.forecastCost, currency) },
+        { text: changeText(d.change, d.lastYearCost, currency) },
+        { text: formatMoneySigned(d.weather, currency) },
+        { text: formatMoneySigned(d.rates, currency) },
+        { text: formatMoneySigned(d.usageTrend, currency) },
+      ],
+    ],
+  };
+}
+
+/**
+ * The escalation assumption for the building's commodities, and the caution.
+ * @example escalationSentences(settings, ["electricity"]) // ["Prices after the last tariff version on file: 0 % a year assumed (not set in portfolio.yaml).", …]
+ */
+export function escalationSentences(settings: Pick<PortfolioSettings, "escalation" | "escalationStated">, commodities: readonly Commodity[]): string[] {
+  let assumption: string;
+  if (!settings.escalationStated) {
+    assumption = "Prices after the last tariff version on file: 0 % a year assumed (escalation not set in portfolio.yaml).";
+  } else {
+    const parts = commodities.map((c) => `${commodityLabel(c).toLowerCase()} ${formatNumber((settings.escalation[c] ?? 0) * 100, 2)} %`);
+    assumption = `Prices after the last tariff version on file rise by the stated escalation: ${parts.join(", ")} a year, compounded.`;
+  }
+  return [
+    assumption,
+    "Tariff versions dated in the future are used from their start dates. Forecasts are estimates: they assume typical weather and the use the models expect, not the bills to come.",
+  ];
+}
+
+/**
  * The forecast section of one building; null when there is nothing forecast for it.
  * Totals come from `forecastTotals` (percentiles of the building's summed scenarios) when
  * present, otherwise from summing the monthly rows (then the range is the wider sum of
  * per-month percentiles, and the page says so).
  */
 export function forecastSection(buildingId: string, meters: Meter[], input: ReportInput, currency: string): ForecastSection | null {
-  const monthlyTable = forecastTable(buildingId, input, currency);
+  const detail = input.buildingForecasts?.find((b) => b.buildingId === buildingId && b.monthly.length > 0) ?? null;
+  const chart = detail ? forecastChart(buildingId, detail, currency) : null;
+  const monthlyTable = chart ? chart.table : forecastTable(buildingId, input, currency);
   const trackRecord = trackRecordTable(meters, input);
   const total = input.forecastTotals?.find((t) => t.buildingId === buildingId);
   if (!monthlyTable && !trackRecord && !total) return null;
   const months = (input.forecast ?? []).filter((f) => f.buildingId === buildingId);
-  const monthCount = new Set(months.map((f) => f.month)).size;
+  const monthCount = detail ? detail.monthly.length : new Set(months.map((f) => f.month)).size;
   let summary: string;
   if (total) {
     summary = `Likely cost over the next ${formatNumber(monthCount || input.portfolio.settings.forecastMonths)} months: ${formatMoney(total.p50, currency)}, with an 80 % range of ${formatMoney(total.p10, currency)} to ${formatMoney(total.p90, currency)}.`;
@@ -57,5 +241,17 @@ export function forecastSection(buildingId: string, meters: Meter[], input: Repo
   } else {
     summary = "No forecast for the coming months; the track record below shows how the method did on past data.";
   }
-  return { summary, monthlyTable, trackRecordTable: trackRecord };
+  const commodities = [...new Set(meters.map((m) => m.commodity))];
+  const drivers = detail?.drivers ?? null;
+  return {
+    summary,
+    chart,
+    monthlyTable,
+    budgetTable: detail ? budgetTable({ ...detail, total: total ?? null }, currency) : null,
+    drivers: drivers ? driverSentences(drivers, currency) : [],
+    driversTable: drivers ? driversTable(drivers, currency) : null,
+    assumptions: escalationSentences(input.portfolio.settings, commodities),
+    trackRecordTable: trackRecord,
+    trackRecordVerdict: trackRecordVerdict(detail?.trackRecord),
+  };
 }

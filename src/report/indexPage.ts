@@ -11,6 +11,8 @@ import { monthlyCostChart } from "./costChart.ts";
 import { EUI_BASIS, findingsByCheckChart, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
 import { addMonthsIso } from "./periods.ts";
 import { tenantPath } from "./tenantPage.ts";
+import { forecastChangeTable } from "./forecastIndex.ts";
+import { trackRecordVerdict } from "./forecastSection.ts";
 
 /** Usage in the window by unit, e.g. "12,345 kWh; 40 MWh", or "—" when none. */
 function usageByUnit(meters: Meter[], billsByMeter: Map<string, Bill[]>, window: DayWindow | null): TableCell {
@@ -122,6 +124,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     intensityChart: intensityChart(contexts, window),
     intensityNote: EUI_BASIS,
     findingsChart: findingsByCheckChart(input.findings, currency),
+    forecastChangeTable: forecastChangeTable(contexts, input.buildingForecasts, currency),
+    forecastTrackRecord: input.portfolioTrackRecord ? trackRecordVerdict(input.portfolioTrackRecord) : null,
     tenantLinks: contexts.filter((c) => c.building.tenantPage).map((c) => ({ name: c.building.name, href: tenantPath(c.building.buildingId) })),
     lede: `Utility bills for ${formatNumber(contexts.length)} ${contexts.length === 1 ? "building" : "buildings"}, each re-priced from its tariff and checked. Figures for the last 12 months cover ${windowText(window)}.`,
     root: "",

@@ -213,6 +213,48 @@ export interface ReportCostRange {
   p90: number;
 }
 
+/** Why next year's cost differs from last year's over the same calendar months (currency; weather + rates + usageTrend = change). */
+export interface ReportForecastDrivers {
+  /** Last year's months compared, `YYYY-MM` ascending. */
+  months: string[];
+  lastYearCost: number;
+  forecastCost: number;
+  change: number;
+  /** Typical weather priced next year minus last year's weather priced next year. */
+  weather: number;
+  /** Next year's prices minus last year's, on last year's use. */
+  rates: number;
+  /** The remainder: changes in use, model bias, last year's billing quirks. */
+  usageTrend: number;
+}
+
+/** Forecast accuracy over the backtest year (percent; coverage 0…1). */
+export interface ReportAccuracy {
+  months: number;
+  annualErrorPct: number;
+  cvRmsePct: number;
+  /** Null for the naive forecast (no band). */
+  coverage: number | null;
+}
+
+/** One building's forecast beyond the per-meter rows: proper monthly bands, budget by commodity, drivers, track record. */
+export interface ReportBuildingForecast {
+  buildingId: string;
+  /**
+   * Building cost band per forecast month (quantiles of scenario sums over the building's
+   * meters), with last year's billed cost of the same calendar month (null when last year's
+   * bills do not cover that month completely for every forecast meter).
+   */
+  monthly: (ReportCostRange & { month: string; lastYearMonth: string; lastYearCost: number | null })[];
+  /** Months the budget totals cover (the first `totalMonths` forecast months, at most 12). */
+  totalMonths: number;
+  /** Per commodity: P50 per month (median of that commodity's scenario sums) and the total with its band. */
+  byCommodity: { commodity: string; monthly: { month: string; p50: number }[]; total: ReportCostRange | null }[];
+  drivers: ReportForecastDrivers | null;
+  /** The building's backtest, model and naive "same month last year"; null when nothing could be compared. */
+  trackRecord: { model: ReportAccuracy | null; naive: ReportAccuracy | null } | null;
+}
+
 export interface ReportInput {
   /** The validated portfolio from ingest (buildings, meters, bills, settings, ingest report). */
   portfolio: Portfolio;
@@ -244,4 +286,8 @@ export interface ReportInput {
   forecastTotals?: (ReportCostRange & { buildingId: string })[];
   /** Forecast cost of the whole portfolio over the forecast horizon. */
   portfolioForecast?: ReportCostRange;
+  /** Per-building forecast detail (monthly bands, budget by commodity, drivers), when the forecast stage ran. */
+  buildingForecasts?: ReportBuildingForecast[];
+  /** Portfolio backtest (model and naive), when the forecast stage ran. */
+  portfolioTrackRecord?: { model: ReportAccuracy | null; naive: ReportAccuracy | null };
 }

@@ -115,7 +115,16 @@ export interface RankingChartModel extends ChartBase {
   items: { label: string; value: number; note: string }[];
 }
 
-export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel;
+/** Monthly cost forecast: the P10–P90 band as an area, the P50 line, last year's billed cost as points. */
+export interface ForecastChartModel extends ChartBase {
+  kind: "forecast-band";
+  /** e.g. "Cost (USD)". */
+  valueLabel: string;
+  /** One per forecast month; `lastYear` is the billed cost of the same calendar month a year earlier (null = not completely billed). */
+  months: { month: string; p10: number; p50: number; p90: number; lastYear: number | null; lastYearMonth: string }[];
+}
+
+export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel | ForecastChartModel;
 
 export interface LabelValue {
   label: string;
@@ -156,6 +165,10 @@ export interface IndexPage extends PageBase {
   intensityNote: string;
   /** Findings by check; null when the audit did not run or found nothing. */
   findingsChart: RankingChartModel | null;
+  /** Buildings ranked by forecast change vs last year, with the drivers; null without forecast drivers. */
+  forecastChangeTable: TableModel | null;
+  /** Sentence on the portfolio's forecast track record; null without a backtest. */
+  forecastTrackRecord: string | null;
   /** Tenant pages, for the index's list. */
   tenantLinks: { name: string; href: string }[];
 }
@@ -229,11 +242,23 @@ export interface QualitySection {
   alignmentTable: TableModel | null;
 }
 
-/** Forecast of one building: totals with range, month by month, and the backtest record. */
+/** Forecast of one building: totals with range, month by month, budget, drivers, assumptions and the backtest record. */
 export interface ForecastSection {
   summary: string;
+  /** Monthly chart (band, P50, last year); null without the building's monthly bands. */
+  chart: ForecastChartModel | null;
+  /** Month by month with the range; shown when there is no chart (the chart carries the same table). */
   monthlyTable: TableModel | null;
+  /** Likely cost by month and commodity, with each commodity's total and range. */
+  budgetTable: TableModel | null;
+  /** Plain sentences on why next year differs from last year (weather, rates, usage trend). */
+  drivers: string[];
+  driversTable: TableModel | null;
+  /** Escalation assumption and the caution that forecasts are estimates. */
+  assumptions: string[];
   trackRecordTable: TableModel | null;
+  /** One line: the backtest against the naive "same month last year" forecast; null without a backtest. */
+  trackRecordVerdict: string | null;
 }
 
 export interface BuildingPage extends PageBase {

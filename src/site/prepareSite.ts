@@ -10,6 +10,7 @@ import { monthlyUsageSpec } from "./charts/monthlyUsageSpec.ts";
 import { baselineScatterSpec, baselineTimeSpec, heatmapSpec, rankingSpec } from "./charts/analysisSpecs.ts";
 import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
 import { heatmapSvg } from "./charts/heatmapSvg.ts";
+import { forecastSpec } from "./charts/forecastSpec.ts";
 
 /** Vega-Lite spec for a chart model, by kind. */
 export function chartSpec(chart: ChartModel): Record<string, unknown> {
@@ -25,6 +26,8 @@ export function chartSpec(chart: ChartModel): Record<string, unknown> {
       return heatmapSpec(chart);
     case "ranking":
       return rankingSpec(chart);
+    case "forecast-band":
+      return forecastSpec(chart);
   }
 }
 
@@ -67,7 +70,8 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
     const folder = buildingDataFolder(page.buildingId);
     const own: Record<string, number> = {};
     for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
-    buildings.push({ ...page, commodities, baselines, quality, downloads: describeDataFiles(own, page.root) });
+    const forecast = page.forecast ? { ...page.forecast, chart: await prepareMaybe(page.forecast.chart) } : null;
+    buildings.push({ ...page, commodities, baselines, quality, forecast, downloads: describeDataFiles(own, page.root) });
   }
   return {
     ...model,

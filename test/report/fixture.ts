@@ -252,5 +252,28 @@ export function fullFixtureInput(): ReportInput {
   input.forecastTotals = [{ buildingId: "B1", p10: 13_100, p50: 13_410, p90: 13_800 }];
   input.portfolioForecast = { p10: 13_100, p50: 13_410, p90: 13_800 };
   input.trackRecord = [{ meterId: "E1", annualCostErrorPct: -2.4, monthlyCvRmsePct: 7.9, coverage: 0.83, naiveAnnualCostErrorPct: 6.1 }];
+  // The building's own monthly bands are narrower than the sums of per-meter percentiles above;
+  // the commodity medians add up to the building's (invented round numbers).
+  input.buildingForecasts = [
+    {
+      buildingId: "B1",
+      monthly: ["2025-04", "2025-05", "2025-06"].map((month, k) => ({
+        month,
+        p10: 4250 + k * 10,
+        p50: 4460 + k * 10,
+        p90: 4750 + k * 10,
+        lastYearMonth: `2024-0${4 + k}`,
+        lastYearCost: k === 2 ? null : 4300 + k * 80,
+      })),
+      totalMonths: 3,
+      byCommodity: [
+        { commodity: "electricity", monthly: ["2025-04", "2025-05", "2025-06"].map((month, k) => ({ month, p50: 3700 + k * 10 })), total: { p10: 10_800, p50: 11_130, p90: 11_500 } },
+        { commodity: "gas", monthly: ["2025-04", "2025-05", "2025-06"].map((month) => ({ month, p50: 760 })), total: { p10: 2150, p50: 2280, p90: 2420 } },
+      ],
+      drivers: { months: ["2024-04", "2024-05"], lastYearCost: 8680, forecastCost: 8930, change: 250, weather: -120, rates: 300, usageTrend: 70 },
+      trackRecord: { model: { months: 12, annualErrorPct: -2.4, cvRmsePct: 7.9, coverage: 10 / 12 }, naive: { months: 12, annualErrorPct: 6.1, cvRmsePct: 12, coverage: null } },
+    },
+  ];
+  input.portfolioTrackRecord = { model: { months: 12, annualErrorPct: -2.4, cvRmsePct: 7.9, coverage: 10 / 12 }, naive: { months: 12, annualErrorPct: 6.1, cvRmsePct: 12, coverage: null } };
   return input;
 }

@@ -16,15 +16,15 @@ const charts: ChartModel[] = [
   ...model.index.charts,
   model.index.intensityChart!,
   model.index.findingsChart!,
-  ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...b.baselines.flatMap((s) => s.charts), ...b.quality.flatMap((s) => s.charts)]),
+  ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...b.baselines.flatMap((s) => s.charts), ...b.quality.flatMap((s) => s.charts), ...(b.forecast?.chart ? [b.forecast.chart] : [])]),
 ];
 
 describe("analysis chart specs", () => {
   it("covers every chart kind", () => {
-    expect(new Set(charts.map((c) => c.kind))).toEqual(new Set(["monthly-cost", "monthly-usage", "ranking", "baseline-scatter", "baseline-time", "quality-heatmap"]));
+    expect(new Set(charts.map((c) => c.kind))).toEqual(new Set(["monthly-cost", "monthly-usage", "ranking", "baseline-scatter", "baseline-time", "quality-heatmap", "forecast-band"]));
   });
 
-  for (const kind of ["ranking", "baseline-scatter", "baseline-time", "quality-heatmap"]) {
+  for (const kind of ["ranking", "baseline-scatter", "baseline-time", "quality-heatmap", "forecast-band"]) {
     it(`${kind}: valid against the Vega-Lite schema`, () => {
       for (const c of charts.filter((x) => x.kind === kind)) expect(validate(chartSpec(c), vlSchema, vlSchema)).toEqual([]);
     });
@@ -35,6 +35,24 @@ describe("analysis chart specs", () => {
     const spec = chartSpec(scatter) as { layer: Record<string, unknown>[] };
     const bad = { ...spec, layer: [{ ...spec.layer[0], mark: { type: "pointt" } }, ...spec.layer.slice(1)] };
     expect(validate(bad, vlSchema, vlSchema).length).toBeGreaterThan(0);
+  });
+
+  it("forecast-band: band, P50 line and last year's points; a month without last year's cost is filtered, not drawn at 0", async () => {
+    const chart = charts.find((c) => c.kind === "forecast-band")!;
+    const spec = chartSpec(chart) as { layer: { mark: { type: string }; transform?: unknown[] }[]; data: { values: { lastYear: number | null }[] } };
+    expect(spec.layer.map((l) => l.mark.type)).toEqual(["area", "line", "point"]);
+    expect(spec.data.values.map((v) => v.lastYear)).toEqual([4300, 4380, null]);
+    expect(spec.layer[2].transform).toEqual([{ filter: "isValid(datum.lastYear)" }]);
+    const ready = await prepareChart(chart);
+    // Server SVG: the area is one path; last year's diamonds are 2 symbols (the null month is dropped).
+    expect(ready.svg).toContain("mark-area");
+    expect((ready.svg!.match(/<g class="mark-symbol role-mark layer_2_marks"/g) ?? []).length).toBe(1);
+    expect(ready.svg).not.toContain("NaN");
+    // Without any of last year's costs the third layer is left out.
+    const bare = { ...chart, months: (chart as { months: { lastYear: number | null }[] }).months.map((m) => ({ ...m, lastYear: null })) } as ChartModel;
+    const bareSpec = chartSpec(bare) as { layer: unknown[] };
+    expect(bareSpec.layer).toHaveLength(2);
+    expect(validate(bareSpec, vlSchema, vlSchema)).toEqual([]);
   });
 
   it("ships compiled Vega to the page and renders a server SVG for every kind", async () => {
