@@ -5,13 +5,13 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { existsSync } from "node:fs";
-import { mkdtemp, readdir, rm } from "node:fs/promises";
+import { mkdir, mkdtemp, readdir, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { BrowserContext } from "playwright-core";
 import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
-import { HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
+import { ARTIFACTS, HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
 
 const DEMO = resolve("data/demo");
 const PREFIX = "/portfolio/reports/";
@@ -58,6 +58,39 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
     }
     expect(dialogs).toEqual([]);
   }, 300_000);
+
+  it("forecast: the monthly chart is live on every building page with a forecast (band, P50 line, last year's points), with a budget table; the index ranks those buildings", async () => {
+    const buildingPages = pages.filter((p) => /^buildings\/[^/]+\.html$/.test(p));
+    let withForecast = 0;
+    for (const path of buildingPages) {
+      const { page, errors } = await openPage(context, `${server.origin}${PREFIX}${path}`, dialogs);
+      const fig = page.locator('figure[id^="forecast-"]');
+      if ((await fig.count()) === 0) {
+        await page.close();
+        continue;
+      }
+      withForecast++;
+      await page.waitForFunction(() => document.querySelector('figure[id^="forecast-"]')?.getAttribute("data-chart-state") === "interactive");
+      expect(await fig.locator(".chart-live .mark-area path").count(), path).toBe(1);
+      expect(await fig.locator(".chart-live .mark-line path").count(), path).toBe(1);
+      expect(await fig.locator(".chart-live .mark-symbol path").count(), path).toBeGreaterThanOrEqual(12);
+      expect(await page.locator('table:has(caption:text("Budget by month and commodity")) tbody tr').count(), path).toBeGreaterThanOrEqual(3);
+      expect(await page.locator('section[aria-labelledby="forecast-h"]').innerText()).toMatch(/Forecasts are estimates/);
+      if (withForecast === 1) {
+        await mkdir(ARTIFACTS, { recursive: true });
+        await fig.screenshot({ path: join(ARTIFACTS, "demo-forecast-chart.png") });
+      }
+      expect(errors, path).toEqual([]);
+      await page.close();
+    }
+    expect(withForecast).toBeGreaterThanOrEqual(6);
+    const { page } = await openPage(context, `${server.origin}${PREFIX}index.html`, dialogs);
+    const ranked = page.locator('section[aria-labelledby="forecast-h"] table tbody tr');
+    expect(await ranked.count()).toBe(withForecast);
+    const changes = await ranked.evaluateAll((rows) => rows.map((r) => Number((r as HTMLTableRowElement).cells[3].dataset.sort)));
+    expect(changes).toEqual([...changes].sort((a, b) => b - a));
+    await page.close();
+  }, 120_000);
 
   it("asked no host other than 127.0.0.1", () => {
     expect(outsideRequests).toEqual([]);

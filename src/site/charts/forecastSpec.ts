@@ -25,7 +25,10 @@ export function forecastSpec(chart: ForecastChartModel): Record<string, unknown>
     lastYear: m.lastYear,
     lastYearMonth: m.lastYearMonth,
   }));
-  const x = { field: "date", type: "temporal", title: "Month", scale: { type: "utc" }, axis: { format: "%b %Y", labelAngle: 0 } };
+  // One tick per forecast month, at the mid-month the marks sit on (automatic ticks land on
+  // arbitrary days and can repeat a month's label).
+  const ticks = chart.months.map((m) => Date.UTC(Number(m.month.slice(0, 4)), Number(m.month.slice(5, 7)) - 1, 15));
+  const x = { field: "date", type: "temporal", title: "Month", scale: { type: "utc" }, axis: { format: "%b %Y", labelAngle: 0, values: ticks, grid: false } };
   // A datum colour may not carry a scale (Vega-Lite schema); the legend's domain is the sorted
   // series names, which FORECAST_SERIES lists in that order, so the category range maps them.
   const color = (series: string) => ({ datum: series, type: "nominal", title: null });
@@ -40,7 +43,7 @@ export function forecastSpec(chart: ForecastChartModel): Record<string, unknown>
   const layer: Record<string, unknown>[] = [
     {
       mark: { type: "area", opacity: 0.3 },
-      encoding: { x, y: { field: "p10", type: "quantitative", title: chart.valueLabel, scale: { zero: false } }, y2: { field: "p90" }, color: color(FORECAST_SERIES[0]) },
+      encoding: { x, y: { field: "p10", type: "quantitative", title: chart.valueLabel, scale: { zero: true } }, y2: { field: "p90" }, color: color(FORECAST_SERIES[0]) },
     },
     {
       mark: { type: "line", point: true, strokeWidth: 2, tooltip: true },
@@ -54,6 +57,7 @@ export function forecastSpec(chart: ForecastChartModel): Record<string, unknown>
       encoding: { x, y: { field: "lastYear", type: "quantitative" }, color: color(FORECAST_SERIES[2]), tooltip },
     });
   }
+  const base = chartConfig();
   return {
     $schema: SCHEMA,
     title: chart.title,
@@ -61,7 +65,12 @@ export function forecastSpec(chart: ForecastChartModel): Record<string, unknown>
     width: "container",
     height: 240,
     autosize: { type: "fit-x", contains: "padding" },
-    config: { ...chartConfig(), range: { category: [SERIES_COLORS[2], SERIES_COLORS[0], SERIES_COLORS[1]] } },
+    config: {
+      ...base,
+      range: { category: [SERIES_COLORS[2], SERIES_COLORS[0], SERIES_COLORS[1]] },
+      // Full-colour swatches (the band's own opacity would make its swatch faint) and whole labels.
+      legend: { ...(base.legend as Record<string, unknown>), symbolOpacity: 1, labelLimit: 320 },
+    },
     data: { values },
     layer,
   };
