@@ -29,7 +29,10 @@ import type { FittedHourlyModel, HourlyAccounting, HourlyFrame, HourlyModelSpec 
 export interface IntervalBaselineOptions {
   /** Feature options and meter multiplier for the hourly table. */
   frame?: HourlyFrameOptions;
-  /** Cross-validation for meters with enough history. Default 4 folds × 4 weeks. */
+  /**
+   * Cross-validation for meters with enough history. Default 4 folds × 4 weeks spread over the
+   * last year ("spread", scheme "auto"); options given here are merged over that default.
+   */
   cv?: TimeSeriesCvOptions;
   towt?: TowtOptions;
   gbdt?: GbdtHourlyOptions;
@@ -180,7 +183,11 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
   const shortHistory = weeks < minWeeks;
   const usePool = shortHistory && (o.pool?.length ?? 0) > 0;
   // Short histories get shorter folds: 2 blocks of one week after at least one week of training.
-  const cvOptions: TimeSeriesCvOptions = shortHistory ? { folds: 2, validationHours: 168, minTrainRows: 168, ...o.cv } : { ...o.cv };
+  // Longer histories: blocks spread over the last year, so selection and band see every season;
+  // folds train on the rest of the year when less than a year precedes them (see timeSeriesCv.ts).
+  const cvOptions: TimeSeriesCvOptions = shortHistory
+    ? { folds: 2, validationHours: 168, minTrainRows: 168, ...o.cv }
+    : { placement: "spread", scheme: "auto", ...o.cv };
 
   const specs: HourlyModelSpec[] = [towtSpec(o.towt), gbdtSpec(o.gbdt)];
   if (o.tryLog1p ?? true) specs.push(withLog1pTarget(gbdtSpec(o.gbdt)));

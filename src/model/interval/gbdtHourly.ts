@@ -17,14 +17,19 @@ export const GBDT_FEATURE_NAMES = [
   "tempSlopeCPerHour",
   "tempLagC",
   "tempRollingMeanC",
+  "dayOfYear",
 ] as const;
 
 /**
  * Feature columns for the trees. Hour of day and day of week are given beside hour of week
- * so a shallow tree can split "working hours" across all days at once.
- * @example gbdtFeatureColumns(frame).length // 9 (10 with a building index)
+ * so a shallow tree can split "working hours" across all days at once. The local day of the
+ * year (last, unless `calendar` is false) lets the trees learn seasonal schedules — a school's
+ * summer break, a shop's holiday season — from the calendar alone, so it is known for future
+ * hours; without it the trees can only guess the season from the rolling temperature, which
+ * does not repeat from one year to the next.
+ * @example gbdtFeatureColumns(frame).length // 10 (11 with a building index, 9 without the calendar)
  */
-export function gbdtFeatureColumns(f: HourlyFeatures): Float64Array[] {
+export function gbdtFeatureColumns(f: HourlyFeatures, calendar = true): Float64Array[] {
   const n = f.tempC.length;
   const hod = new Float64Array(n);
   const dow = new Float64Array(n);
@@ -43,6 +48,7 @@ export function gbdtFeatureColumns(f: HourlyFeatures): Float64Array[] {
     f.tempLagC,
     f.tempRollingMeanC,
   ];
+  if (calendar) cols.push(Float64Array.from(f.dayOfYear));
   if (f.buildingIndex) cols.push(Float64Array.from(f.buildingIndex));
   return cols;
 }
@@ -52,6 +58,8 @@ export interface GbdtHourlyOptions extends Omit<GbdtOptions, "earlyStopping"> {
   validationHours?: number;
   /** Rounds without improvement before stopping. Default 20. */
   patience?: number;
+  /** Give the trees the local day of the year as a feature. Default true. */
+  calendar?: boolean;
 }
 
 export interface GbdtHourlyModel extends FittedHourlyModel {
@@ -68,11 +76,11 @@ export interface GbdtHourlyModel extends FittedHourlyModel {
  * @example gbdtSpec().fit(frame).predict(frame)
  */
 export function gbdtSpec(options: GbdtHourlyOptions = {}): HourlyModelSpec {
-  const { validationHours = 336, patience = 20, ...gbdtOptions } = options;
+  const { validationHours = 336, patience = 20, calendar = true, ...gbdtOptions } = options;
   return {
     kind: "gbdt",
     fit(train): GbdtHourlyModel {
-      const cols = gbdtFeatureColumns(train);
+      const cols = gbdtFeatureColumns(train, calendar);
       const n = train.kwh.length;
       const useStop = validationHours > 0 && n >= 3 * validationHours;
       const gbdt = fitGbdt(cols, train.kwh, {
@@ -84,7 +92,7 @@ export function gbdtSpec(options: GbdtHourlyOptions = {}): HourlyModelSpec {
         kind: "gbdt",
         parameterCount: cols.length,
         gbdt,
-        predict: (f) => gbdt.predict(gbdtFeatureColumns(f)),
+        predict: (f) => gbdt.predict(gbdtFeatureColumns(f, calendar)),
       };
     },
   };

@@ -1,6 +1,6 @@
 /**
  * Hourly feature columns from a weather series and a time zone: local hour of week,
- * holiday flag, temperature and three derived temperatures (Savitzky–Golay smooth and slope,
+ * holiday flag, local day of year, temperature and three derived temperatures (Savitzky–Golay smooth and slope,
  * a lag, a trailing mean). Used for training tables and for predicting any future hours.
  */
 import { DateTime } from "luxon";
@@ -121,6 +121,7 @@ export function hourlyFeaturesAt(
     hourStartMs: Float64Array.from(hourStartMs),
     hourOfWeek: new Uint8Array(n),
     holiday: new Uint8Array(n),
+    dayOfYear: new Uint16Array(n),
     tempC: new Float64Array(n),
     tempSmoothC: new Float64Array(n),
     tempSlopeCPerHour: new Float64Array(n),
@@ -145,6 +146,7 @@ export function hourlyFeaturesAt(
       lastHoliday = isUsFederalHoliday(local.toISODate()!) ? 1 : 0;
     }
     f.holiday[r] = lastHoliday;
+    f.dayOfYear[r] = local.ordinal;
     const i = Math.round((ms - weather.startMs) / HOUR_MS);
     const t = i >= 0 && i < weather.tempC.length ? weather.tempC[i]! : Number.NaN;
     f.tempC[r] = t;
@@ -194,6 +196,7 @@ export function selectFeatureRows(f: HourlyFeatures, indices: ArrayLike<number>)
     hourStartMs: pick(f.hourStartMs),
     hourOfWeek: pick(f.hourOfWeek),
     holiday: pick(f.holiday),
+    dayOfYear: pick(f.dayOfYear),
     tempC: pick(f.tempC),
     tempSmoothC: pick(f.tempSmoothC),
     tempSlopeCPerHour: pick(f.tempSlopeCPerHour),

@@ -101,6 +101,7 @@ function emptyFrame(): Omit<HourlyFrame, "accounting"> {
     tempSlopeCPerHour: new Float64Array(0),
     tempLagC: new Float64Array(0),
     tempRollingMeanC: new Float64Array(0),
+    dayOfYear: new Uint16Array(0),
     kwh: new Float64Array(0),
   };
 }

@@ -98,6 +98,7 @@ function stackFrames(parts: { frame: HourlyFrame; end: number; scale: number }[]
     hourStartMs: new Float64Array(n),
     hourOfWeek: new Uint8Array(n),
     holiday: new Uint8Array(n),
+    dayOfYear: new Uint16Array(n),
     tempC: new Float64Array(n),
     tempSmoothC: new Float64Array(n),
     tempSlopeCPerHour: new Float64Array(n),
@@ -112,6 +113,7 @@ function stackFrames(parts: { frame: HourlyFrame; end: number; scale: number }[]
     out.hourStartMs[r] = f.hourStartMs[i]!;
     out.hourOfWeek[r] = f.hourOfWeek[i]!;
     out.holiday[r] = f.holiday[i]!;
+    out.dayOfYear[r] = f.dayOfYear[i]!;
     out.tempC[r] = f.tempC[i]!;
     out.tempSmoothC[r] = f.tempSmoothC[i]!;
     out.tempSlopeCPerHour[r] = f.tempSlopeCPerHour[i]!;

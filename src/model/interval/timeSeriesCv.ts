@@ -1,7 +1,21 @@
 /**
- * Time-series cross-validation with an expanding window: k validation blocks of fixed
- * length laid back to back so the last one ends at the last data; each fold trains on every
- * row before its block (never on the future) and is scored on the block.
+ * Time-series cross-validation: k validation blocks of fixed length, scored out of sample.
+ *
+ * Where the blocks sit (`placement`):
+ * - "end": back to back so the last one ends at the last data (the most recent weeks);
+ * - "spread": evenly over the last year of data (the last block still ends at the last data),
+ *   so the scores and the residual band see every season, not only the autumn before a
+ *   December data end.
+ *
+ * What each fold trains on (`scheme`):
+ * - "expanding": every row before its block (never the future);
+ * - "blocked": every row outside the block and a gap of `gapHours` either side (hv-block
+ *   cross-validation, Racine 2000, J. Econometrics 99(1); for regressions on exogenous inputs
+ *   such as weather and calendar, Bergmeir & Benítez 2012, Information Sciences 191, found
+ *   blocked folds sound for time series). With one year of history this is the only way a
+ *   fold sees the rest of the calendar, as the year-ahead model does;
+ * - "auto": "expanding" when at least 364 days of data precede the first block (each block's
+ *   dates were then seen a year earlier), else "blocked".
  */
 import { guideline14Stats } from "../stats.ts";
 import type { Guideline14Stats } from "../stats.ts";
@@ -17,16 +31,27 @@ export interface TimeSeriesCvOptions {
   validationHours?: number;
   /** A fold is skipped when it would train on fewer rows than this. Default 2 weeks (336). */
   minTrainRows?: number;
+  /** Where the blocks sit (see the module comment). Default "end". */
+  placement?: "end" | "spread";
+  /** What each fold trains on (see the module comment). Default "expanding". */
+  scheme?: "expanding" | "blocked" | "auto";
+  /** Blocked folds: hours left out of training on each side of the block. Default 24. */
+  gapHours?: number;
 }
 
-/** One fold's rows: frame indices [trainStart=0, trainEnd) and [validStart, validEnd). */
+/**
+ * One fold's rows: training is frame indices [0, trainEnd) and [trainResume, n); validation is
+ * [validStart, validEnd). For an expanding fold trainResume = n (nothing after the block).
+ */
 export interface FoldDefinition {
   fold: number;
   validStartMs: number;
   validEndMs: number;
   trainEnd: number;
+  trainResume: number;
   validStart: number;
   validEnd: number;
+  scheme: "expanding" | "blocked";
 }
 
 export interface FoldResult extends FoldDefinition {
@@ -66,32 +91,58 @@ function lowerBound(a: Float64Array, v: number): number {
   return lo;
 }
 
+const YEAR_HOURS = 364 * 24;
+
 /**
- * Fold boundaries for rows sorted by `hourStartMs`. Block j (0 = oldest) covers
- * [end − (k − j)·L, end − (k − j − 1)·L) where end is one hour after the last row.
- * @throws ModelInputError on non-positive folds or validation length.
+ * Fold boundaries for rows sorted by `hourStartMs`, with end = one hour after the last row and
+ * L = validationHours. "end": block j (0 = oldest) covers [end − (k − j)·L, end − (k − j − 1)·L).
+ * "spread": the window W = max(k·L, min(364 days, data span)) ending at `end`; block j starts at
+ * end − W + j·(W − L)/(k − 1) (whole hours), so the first starts W before the end and the last
+ * ends at the end.
+ * @throws ModelInputError on non-positive folds, validation length or gap.
  * @example timeSeriesFolds(frame.hourStartMs, { folds: 4, validationHours: 672 }).length // 4
  */
 export function timeSeriesFolds(hourStartMs: Float64Array, options: TimeSeriesCvOptions = {}): FoldDefinition[] {
   const k = options.folds ?? 4;
   const len = options.validationHours ?? 672;
+  const gap = options.gapHours ?? 24;
   if (!(Number.isInteger(k) && k >= 1)) throw new ModelInputError(`folds must be a positive integer, got ${k}`);
   if (!(Number.isInteger(len) && len >= 1)) throw new ModelInputError(`validation length must be a positive whole number of hours, got ${len}`);
+  if (!(Number.isInteger(gap) && gap >= 0)) throw new ModelInputError(`gap must be a whole number of hours ≥ 0, got ${gap}`);
   const n = hourStartMs.length;
   if (n === 0) return [];
+  const first = hourStartMs[0]!;
   const end = hourStartMs[n - 1]! + HOUR_MS;
-  const out: FoldDefinition[] = [];
-  for (let j = 0; j < k; j++) {
-    const validStartMs = end - (k - j) * len * HOUR_MS;
+  const starts: number[] = [];
+  if ((options.placement ?? "end") === "spread" && k > 1) {
+    const spanHours = Math.round((end - first) / HOUR_MS);
+    const w = Math.max(k * len, Math.min(YEAR_HOURS, spanHours));
+    for (let j = 0; j < k; j++) starts.push(end - (w - Math.round((j * (w - len)) / (k - 1))) * HOUR_MS);
+  } else {
+    for (let j = 0; j < k; j++) starts.push(end - (k - j) * len * HOUR_MS);
+  }
+  const wanted = options.scheme ?? "expanding";
+  const scheme: FoldDefinition["scheme"] = wanted === "auto" ? (starts[0]! - first >= YEAR_HOURS * HOUR_MS ? "expanding" : "blocked") : wanted;
+  return starts.map((validStartMs, j) => {
     const validEndMs = validStartMs + len * HOUR_MS;
     const validStart = lowerBound(hourStartMs, validStartMs);
-    out.push({ fold: j, validStartMs, validEndMs, trainEnd: validStart, validStart, validEnd: lowerBound(hourStartMs, validEndMs) });
-  }
-  return out;
+    const validEnd = lowerBound(hourStartMs, validEndMs);
+    const blocked = scheme === "blocked";
+    return {
+      fold: j,
+      validStartMs,
+      validEndMs,
+      trainEnd: blocked ? lowerBound(hourStartMs, validStartMs - gap * HOUR_MS) : validStart,
+      trainResume: blocked ? lowerBound(hourStartMs, validEndMs + gap * HOUR_MS) : n,
+      validStart,
+      validEnd,
+      scheme,
+    };
+  });
 }
 
 /**
- * Cross-validate one model spec over the folds. A fit that throws ModelInputError marks its
+ * Cross-validate one model spec over the folds (see {@link timeSeriesFolds}). A fit that throws ModelInputError marks its
  * fold as failed (with the message) instead of stopping the run.
  * @example crossValidate(frame, towtSpec(), { folds: 4, validationHours: 672 }).pooled?.cvRmsePct
  */
@@ -103,7 +154,7 @@ export function crossValidate(frame: HourlyFrame, spec: HourlyModelSpec, options
   const preds: number[] = [];
   let p = 0;
   for (const d of defs) {
-    const nTrain = d.trainEnd;
+    const nTrain = d.trainEnd + (frame.kwh.length - d.trainResume);
     const nValid = d.validEnd - d.validStart;
     const base = { ...d, nTrain, nValid, stats: null, problem: null };
     if (nValid === 0) {
@@ -111,11 +162,12 @@ export function crossValidate(frame: HourlyFrame, spec: HourlyModelSpec, options
       continue;
     }
     if (nTrain < minTrain) {
-      folds.push({ ...base, problem: `only ${nTrain} training hours before the block (need ${minTrain})` });
+      folds.push({ ...base, problem: `only ${nTrain} training hours ${d.scheme === "expanding" ? "before" : "outside"} the block (need ${minTrain})` });
       continue;
     }
     try {
-      const train = selectFrameRows(frame, range(0, d.trainEnd));
+      const trainIdx = d.trainResume < frame.kwh.length ? concat(range(0, d.trainEnd), range(d.trainResume, frame.kwh.length)) : range(0, d.trainEnd);
+      const train = selectFrameRows(frame, trainIdx);
       const validIdx = range(d.validStart, d.validEnd);
       const valid = selectFrameRows(frame, validIdx);
       const model = spec.fit(train);
@@ -153,5 +205,12 @@ export function crossValidate(frame: HourlyFrame, spec: HourlyModelSpec, options
 function range(a: number, b: number): Int32Array {
   const out = new Int32Array(Math.max(0, b - a));
   for (let i = 0; i < out.length; i++) out[i] = a + i;
+  return out;
+}
+
+function concat(a: Int32Array, b: Int32Array): Int32Array {
+  const out = new Int32Array(a.length + b.length);
+  out.set(a);
+  out.set(b, a.length);
   return out;
 }

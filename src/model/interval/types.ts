@@ -12,6 +12,11 @@ export interface HourlyFeatures {
   hourOfWeek: Uint8Array;
   /** 1 when the local date is an observed U.S. federal holiday. */
   holiday: Uint8Array;
+  /**
+   * Local day of the year, 1 … 366 (the calendar position: lets a model learn seasonal
+   * occupancy such as a school's terms from a year of history; known for any future hour).
+   */
+  dayOfYear: Uint16Array;
   /** Outdoor temperature, °C. */
   tempC: Float64Array;
   /** Savitzky–Golay smoothed temperature, °C. */

@@ -72,6 +72,7 @@ describe("TOWT against statsmodels OLS (scripts/reference/make_interval_fixtures
         tempSlopeCPerHour: new Float64Array(c.kwh.length),
         tempLagC: Float64Array.from(c.tempC),
         tempRollingMeanC: Float64Array.from(c.tempC),
+        dayOfYear: new Uint16Array(c.kwh.length).fill(1),
       });
       e.fitted.forEach((v, i) => expectRel(pred[i]!, v, 1e-8, `fitted ${i}`));
       expect(m.parameterCount).toBe(e.coefficients.length);
