@@ -15,9 +15,9 @@ export const FORECAST_SERIES = ["80 % range (P10–P90)", "Likely (P50)", "Same 
  * @example forecastSpec(chart).layer.length // 3 (2 when no month has last year's cost)
  */
 export function forecastSpec(chart: ForecastChartModel): Record<string, unknown> {
-  // Months as the 15th (UTC) so a month's mark sits mid-month on the time axis.
+  // Each month's marks sit on its first day (UTC), where the month's tick is.
   const values = chart.months.map((m) => ({
-    date: `${m.month}-15`,
+    date: `${m.month}-01`,
     month: formatMonth(m.month),
     p10: m.p10,
     p50: m.p50,
@@ -25,10 +25,10 @@ export function forecastSpec(chart: ForecastChartModel): Record<string, unknown>
     lastYear: m.lastYear,
     lastYearMonth: m.lastYearMonth,
   }));
-  // One tick per forecast month, at the mid-month the marks sit on (automatic ticks land on
-  // arbitrary days and can repeat a month's label).
-  const ticks = chart.months.map((m) => Date.UTC(Number(m.month.slice(0, 4)), Number(m.month.slice(5, 7)) - 1, 15));
-  const x = { field: "date", type: "temporal", title: "Month", scale: { type: "utc" }, axis: { format: "%b %Y", labelAngle: 0, values: ticks, grid: false } };
+  // Ticks on month starts (automatic ticks can land on arbitrary days and repeat a month's
+  // label). Not explicit tick values: vega-lite turns those into datetime() signal
+  // expressions, which the page's CSP-safe expression interpreter does not draw.
+  const x = { field: "date", type: "temporal", title: "Month", scale: { type: "utc" }, axis: { format: "%b %Y", labelAngle: 0, tickCount: { interval: "month", step: 1 }, grid: false } };
   // A datum colour may not carry a scale (Vega-Lite schema); the legend's domain is the sorted
   // series names, which FORECAST_SERIES lists in that order, so the category range maps them.
   const color = (series: string) => ({ datum: series, type: "nominal", title: null });
