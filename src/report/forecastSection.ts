@@ -6,7 +6,7 @@
 import type { Commodity, Meter, PortfolioSettings } from "../domain/types.ts";
 import type { ReportAccuracy, ReportBuildingForecast, ReportCostRange, ReportForecastDrivers, ReportInput } from "./input.ts";
 import type { ForecastChartModel, ForecastSection, TableModel } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatMoney, formatMoneySigned, formatMonth, formatNumber, formatPercent } from "./format.ts";
+import { NOT_AVAILABLE, formatMoney, formatMoneySigned, formatMonth, formatNumber } from "./format.ts";
 import { forecastTable } from "./analysisTables.ts";
 import { commodityLabel } from "./labels.ts";
 
@@ -36,7 +36,7 @@ function trackRecordTable(meters: Meter[], input: ReportInput): TableModel | nul
       { text: signedPct(t.annualCostErrorPct) },
       { text: signedPct(t.naiveAnnualCostErrorPct) },
       { text: Number.isFinite(t.monthlyCvRmsePct) ? `${formatNumber(t.monthlyCvRmsePct, 1)} %` : NOT_AVAILABLE },
-      { text: formatPercent(t.coverage, 0) },
+      { text: Number.isFinite(t.coverage) ? `${formatNumber(t.coverage * 100, 0)} %` : NOT_AVAILABLE },
     ]),
   };
 }
@@ -51,8 +51,8 @@ export function trackRecordVerdict(record: { model: ReportAccuracy | null; naive
   const model = record?.model;
   if (!model || !Number.isFinite(model.annualErrorPct)) return null;
   const missed = `missed the year's cost by ${formatNumber(Math.abs(model.annualErrorPct), 1)} %`;
-  const inside =
-    model.coverage != null ? ` ${formatNumber(Math.round(model.coverage * model.months))} of ${formatNumber(model.months)} months fell inside its 80 % range.` : "";
+  // Coverage of a building or the portfolio is pooled over meter-months, so it is given as a share, not "k of n months".
+  const inside = model.coverage != null ? ` ${formatNumber(model.coverage * 100, 0)} % of the months compared fell inside the 80 % range.` : "";
   const naive = record?.naive;
   if (!naive || !Number.isFinite(naive.annualErrorPct)) {
     return `Forecasting the past year, the method ${missed}; there was no earlier year to compare a naive forecast with.${inside}`;

@@ -54,7 +54,7 @@ describe("building forecast section", () => {
   });
 
   it("track record verdict against the naive forecast", () => {
-    expect(f.trackRecordVerdict).toBe("Better than repeating last year's bills: forecasting the past year, the method missed the year's cost by 2.4 %, against 6.1 % for the same month last year. 10 of 12 months fell inside its 80 % range.");
+    expect(f.trackRecordVerdict).toBe("Better than repeating last year's bills: forecasting the past year, the method missed the year's cost by 2.4 %, against 6.1 % for the same month last year. 83 % of the months compared fell inside the 80 % range.");
     const acc = (e: number) => ({ months: 12, annualErrorPct: e, cvRmsePct: 5, coverage: null });
     expect(trackRecordVerdict({ model: acc(5), naive: acc(-2) })).toMatch(/^Worse than/);
     expect(trackRecordVerdict({ model: acc(3), naive: acc(-3.4) })).toMatch(/^About as good as/);
