@@ -60,6 +60,14 @@ export interface GbdtHourlyOptions extends Omit<GbdtOptions, "earlyStopping"> {
   patience?: number;
   /** Give the trees the local day of the year as a feature. Default true. */
   calendar?: boolean;
+  /**
+   * Which training hours early stopping holds out: "latest" (the last `validationHours`) or
+   * "spread" (whole days, `validationHours / 24` of them, evenly spaced over the window).
+   * Default "spread" with the calendar feature, else "latest": the latest days' day-of-year
+   * values lie beyond every training value, so with the calendar they would judge the trees
+   * on a season they could not have learned and stop boosting far too early.
+   */
+  stoppingRows?: "latest" | "spread";
 }
 
 export interface GbdtHourlyModel extends FittedHourlyModel {
@@ -76,14 +84,21 @@ export interface GbdtHourlyModel extends FittedHourlyModel {
  * @example gbdtSpec().fit(frame).predict(frame)
  */
 export function gbdtSpec(options: GbdtHourlyOptions = {}): HourlyModelSpec {
-  const { validationHours = 336, patience = 20, calendar = true, ...gbdtOptions } = options;
+  const { validationHours = 336, patience = 20, calendar = true, stoppingRows = calendar ? "spread" : "latest", ...gbdtOptions } = options;
   return {
     kind: "gbdt",
     fit(train): GbdtHourlyModel {
-      const cols = gbdtFeatureColumns(train, calendar);
+      let cols = gbdtFeatureColumns(train, calendar);
+      let y: Float64Array = train.kwh;
       const n = train.kwh.length;
       const useStop = validationHours > 0 && n >= 3 * validationHours;
-      const gbdt = fitGbdt(cols, train.kwh, {
+      if (useStop && stoppingRows === "spread") {
+        // fitGbdt holds out the last rows: move the chosen days there (the refit uses every row).
+        const order = spreadHoldoutOrder(n, validationHours);
+        cols = cols.map((c) => Float64Array.from(order, (i) => c[i]!));
+        y = Float64Array.from(order, (i) => train.kwh[i]!);
+      }
+      const gbdt = fitGbdt(cols, y, {
         nTrees: 300,
         ...gbdtOptions,
         ...(useStop ? { earlyStopping: { validationRows: validationHours, patience, refit: true } } : {}),
@@ -96,4 +111,31 @@ export function gbdtSpec(options: GbdtHourlyOptions = {}): HourlyModelSpec {
       };
     },
   };
+}
+
+/**
+ * Row order that puts `holdoutRows` rows at the end, taken as blocks of (up to) 24 consecutive
+ * rows centred in equal parts of the window (never at its edges, whose day of year is the
+ * least covered); every other row keeps its order in front.
+ * @example spreadHoldoutOrder(100, 48).slice(-48) // rows 13 … 36 and 63 … 86
+ */
+export function spreadHoldoutOrder(n: number, holdoutRows: number): Int32Array {
+  const blocks = Math.max(1, Math.round(holdoutRows / 24));
+  const held = new Uint8Array(n);
+  let left = Math.min(holdoutRows, n - 1);
+  for (let j = 0; j < blocks && left > 0; j++) {
+    const len = j === blocks - 1 ? left : Math.min(24, left);
+    const from = Math.max(0, Math.floor(((j + 0.5) * n) / blocks - len / 2));
+    for (let i = from; i < Math.min(n, from + len); i++) {
+      if (!held[i] && left > 0) {
+        held[i] = 1;
+        left--;
+      }
+    }
+  }
+  const out = new Int32Array(n);
+  let k = 0;
+  for (let i = 0; i < n; i++) if (!held[i]) out[k++] = i;
+  for (let i = 0; i < n; i++) if (held[i]) out[k++] = i;
+  return out;
 }

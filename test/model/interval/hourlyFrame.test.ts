@@ -67,6 +67,13 @@ describe("hourly features", () => {
   const temps = Array.from({ length: 24 * 400 }, (_, i) => 10 + 0.5 * (i % 24));
   const weather = weatherFrom(Date.UTC(2023, 11, 1), temps);
 
+  it("day of year is the local date's ordinal (hand-computed: 2024 is a leap year, 1 July = day 183)", () => {
+    // 2024-07-01 05:00 UTC = 00:00 CDT → day 31+29+31+30+31+30+1 = 183; one hour earlier it is
+    // still 30 June locally (182) although UTC says 1 July; 2025-01-01 05:59 UTC = 23:59 CST on 31 Dec 2024 → 366.
+    const t = hourlyFeaturesAt(weather, "America/Chicago", [T0, T0 - H, Date.UTC(2025, 0, 1, 5)]).features;
+    expect(Array.from(t.dayOfYear)).toEqual([183, 182, 366]);
+  });
+
   it("hour of week is local and DST-aware; holidays use observed dates (2024-07-04 is a Thursday)", () => {
     const t = hourlyFeaturesAt(weather, "America/Chicago", [T0, Date.UTC(2024, 6, 4, 15), Date.UTC(2024, 10, 4, 6)]).features;
     expect(t.hourOfWeek[0]).toBe(0); // Monday 00:00 CDT
