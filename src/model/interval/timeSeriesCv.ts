@@ -3,9 +3,10 @@
  *
  * Where the blocks sit (`placement`):
  * - "end": back to back so the last one ends at the last data (the most recent weeks);
- * - "spread": evenly over the last year of data (the last block still ends at the last data),
- *   so the scores and the residual band see every season, not only the autumn before a
- *   December data end.
+ * - "spread": centred in k equal parts of the last year of data, so the scores and the
+ *   residual band see every season, not only the autumn before a December data end. No block
+ *   touches the window's edges: there a model with a calendar feature would have to
+ *   extrapolate to dates it never saw, which a year-ahead prediction does not ask of it.
  *
  * What each fold trains on (`scheme`):
  * - "expanding": every row before its block (never the future);
@@ -96,9 +97,8 @@ const YEAR_HOURS = 364 * 24;
 /**
  * Fold boundaries for rows sorted by `hourStartMs`, with end = one hour after the last row and
  * L = validationHours. "end": block j (0 = oldest) covers [end − (k − j)·L, end − (k − j − 1)·L).
- * "spread": the window W = max(k·L, min(364 days, data span)) ending at `end`; block j starts at
- * end − W + j·(W − L)/(k − 1) (whole hours), so the first starts W before the end and the last
- * ends at the end.
+ * "spread": the window W = max(k·L, min(364 days, data span)) ending at `end`; block j is
+ * centred in the j-th of k equal parts: it starts at end − W + round((j + ½)·W/k − L/2) hours.
  * @throws ModelInputError on non-positive folds, validation length or gap.
  * @example timeSeriesFolds(frame.hourStartMs, { folds: 4, validationHours: 672 }).length // 4
  */
@@ -114,10 +114,10 @@ export function timeSeriesFolds(hourStartMs: Float64Array, options: TimeSeriesCv
   const first = hourStartMs[0]!;
   const end = hourStartMs[n - 1]! + HOUR_MS;
   const starts: number[] = [];
-  if ((options.placement ?? "end") === "spread" && k > 1) {
+  if ((options.placement ?? "end") === "spread") {
     const spanHours = Math.round((end - first) / HOUR_MS);
     const w = Math.max(k * len, Math.min(YEAR_HOURS, spanHours));
-    for (let j = 0; j < k; j++) starts.push(end - (w - Math.round((j * (w - len)) / (k - 1))) * HOUR_MS);
+    for (let j = 0; j < k; j++) starts.push(end - (w - Math.round(((j + 0.5) * w) / k - len / 2)) * HOUR_MS);
   } else {
     for (let j = 0; j < k; j++) starts.push(end - (k - j) * len * HOUR_MS);
   }
