@@ -31,6 +31,40 @@ describe("expanding-window folds (hand-computed)", () => {
   });
 });
 
+describe("spread and blocked folds (hand-computed)", () => {
+  it("100 hours, 2 folds of 10 h spread: blocks centred in halves [20,30) and [70,80); blocked training leaves a 5 h gap", () => {
+    // W = max(2·10, min(364 d, 100 h)) = 100; block j starts at round((j + ½)·100/2 − 10/2) = 20, 70
+    const f = timeSeriesFolds(frameOf(100).hourStartMs, { folds: 2, validationHours: 10, placement: "spread", scheme: "auto", gapHours: 5 });
+    expect(f.map((d) => [d.trainEnd, d.validStart, d.validEnd, d.trainResume])).toEqual([[15, 20, 30, 35], [65, 70, 80, 85]]);
+    expect(f.every((d) => d.scheme === "blocked")).toBe(true); // "auto": only 20 h precede the first block
+  });
+  it("\"auto\" trains expanding once a year of data precedes the first block (two years, 4 × 4 weeks)", () => {
+    // end = 17520 h; W = 8736; first start = 17520 − 8736 + round(0.5·2184 − 336) = 9540 h ≥ 8736 h
+    const f = timeSeriesFolds(frameOf(17520).hourStartMs, { placement: "spread", scheme: "auto" });
+    expect(f.map((d) => d.validStart)).toEqual([9540, 11724, 13908, 16092]);
+    expect(f.every((d) => d.scheme === "expanding" && d.trainEnd === d.validStart && d.trainResume === 17520)).toBe(true);
+  });
+  it("blocked folds train on both sides of the block, never on the block or its gap", () => {
+    const seen: Float64Array[] = [];
+    const spy: HourlyModelSpec = {
+      kind: "spy",
+      fit(train) {
+        seen.push(train.hourStartMs);
+        return { kind: "spy", parameterCount: 1, predict: (f) => new Float64Array(f.tempC.length).fill(21.5) };
+      },
+    };
+    const r = crossValidate(frameOf(24 * 30), spy, { folds: 3, validationHours: 48, minTrainRows: 24, placement: "spread", scheme: "blocked", gapHours: 12 });
+    r.folds.forEach((fold, j) => {
+      const hours = Array.from(seen[j]!, (ms) => ms / H);
+      const a = fold.validStartMs / H;
+      const b = fold.validEndMs / H;
+      expect(hours.some((h) => h < a - 12) && hours.some((h) => h >= b + 12)).toBe(true);
+      expect(hours.every((h) => h < a - 12 || h >= b + 12)).toBe(true);
+      expect(fold.nTrain).toBe(24 * 30 - 48 - 24);
+    });
+  });
+});
+
 describe("crossValidate", () => {
   it("a block with n ≤ p has no Guideline 14 statistic (n − p ≤ 0) but its rows still count in the pooled ones", () => {
     const wide: HourlyModelSpec = {
