@@ -119,13 +119,16 @@ export function budgetTable(f: ReportBuildingForecast & { total?: ReportCostRang
     ...f.byCommodity.map((c) => ({ text: formatMoney(c.total?.p50, currency) })),
     ...(building ? [{ text: formatMoney(f.total?.p50, currency) }] : []),
   ]);
-  rows.push([
-    { text: "80 % range of the total (P10 – P90)", sort: "~range" },
-    ...f.byCommodity.map((c) => ({ text: c.total ? `${formatMoney(c.total.p10, currency)} – ${formatMoney(c.total.p90, currency)}` : NOT_AVAILABLE })),
-    ...(building ? [{ text: f.total ? `${formatMoney(f.total.p10, currency)} – ${formatMoney(f.total.p90, currency)}` : NOT_AVAILABLE }] : []),
-  ]);
+  // The range as two rows (low, high) keeps every cell one number, like the rest of the table.
+  for (const [label, key] of [["Low total (P10)", "p10"], ["High total (P90)", "p90"]] as const) {
+    rows.push([
+      { text: label, sort: `~${key}` },
+      ...f.byCommodity.map((c) => ({ text: formatMoney(c.total?.[key], currency) })),
+      ...(building ? [{ text: formatMoney(f.total?.[key], currency) }] : []),
+    ]);
+  }
   return {
-    caption: `Budget by month and commodity: likely cost (P50). Each figure is the median of its own outcomes, so months and commodities do not add up exactly to the totals.`,
+    caption: `Budget by month and commodity: likely cost (P50), then the ${formatNumber(f.totalMonths)}-month total with its 80 % range (P10 to P90). Each figure is the median of its own outcomes, so months and commodities do not add up exactly to the totals.`,
     sortable: false,
     columns: [
       { label: "Month", numeric: false },

@@ -124,7 +124,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     // Forecast: live chart with the band, the P50 line and last year's two billed months; budget and verdict.
     expect(await page.locator("#forecast-B1-monthly .chart-live .mark-area path").count()).toBe(1);
     expect(await page.locator("#forecast-B1-monthly .chart-live .layer_2_marks path").count()).toBe(2);
-    expect(await page.locator('table:has(caption:text("Budget by month and commodity")) tbody tr').count()).toBe(5);
+    expect(await page.locator('table:has(caption:text("Budget by month and commodity")) tbody tr').count()).toBe(6);
     expect(await page.locator('section[aria-labelledby="forecast-h"]').innerText()).toContain("Better than repeating last year's bills");
     // The heatmap's tooltip: rest the pointer inside the plot (vega hit-tests the canvas).
     const canvas = page.locator("#quality-E1-heatmap .chart-live canvas");

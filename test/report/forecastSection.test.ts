@@ -16,7 +16,7 @@ describe("building forecast section", () => {
     expect(f.monthlyTable!.caption).not.toContain("sums of per-meter");
   });
 
-  it("budget: commodity P50 by month, whole-building column, 3-month totals and ranges", () => {
+  it("budget: commodity P50 by month, whole-building column, 3-month totals with low and high", () => {
     const t = f.budgetTable!;
     expect(t.columns.map((c) => c.label)).toEqual(["Month", "Electricity", "Gas", "Whole building"]);
     expect(t.rows.map((r) => r.map((c) => c.text))).toEqual([
@@ -24,7 +24,8 @@ describe("building forecast section", () => {
       ["May 2025", "$3,710.00", "$760.00", "$4,470.00"],
       ["Jun 2025", "$3,720.00", "$760.00", "$4,480.00"],
       ["Total, 3 months (P50)", "$11,130.00", "$2,280.00", "$13,410.00"],
-      ["80 % range of the total (P10 – P90)", "$10,800.00 – $11,500.00", "$2,150.00 – $2,420.00", "$13,100.00 – $13,800.00"],
+      ["Low total (P10)", "$10,800.00", "$2,150.00", "$13,100.00"],
+      ["High total (P90)", "$11,500.00", "$2,420.00", "$13,800.00"],
     ]);
   });
 
