@@ -123,6 +123,10 @@ export function fitMeterBaseline(options: {
   weather: WeatherSeries | undefined;
   normals: WeatherSeries | undefined;
   tempUnit: "C" | "F";
+  /** Bills to leave out of the change-point fit, with the reason (e.g. the audit found them wrong). */
+  exclude?: ReadonlyMap<string, string>;
+  /** The degree-day band when already computed (it is fitted before the audit, which uses it). */
+  degreeDayResult?: Pick<MeterBaseline, "degreeDay" | "expectedByBill">;
 }): MeterBaseline {
   const { meter, building, weather, normals, tempUnit } = options;
   const points: MeterBaseline["points"] = [];
@@ -144,7 +148,9 @@ export function fitMeterBaseline(options: {
     const temp = toUnit(meanC, tempUnit);
     billTemps.set(bill.billId, temp);
     const key = `${bill.periodStart}/${bill.periodEnd}`;
-    const reason = bill.readType === "estimated" ? "estimated read" : seen.has(key) ? "same period as an earlier bill" : null;
+    const reason =
+      options.exclude?.get(bill.billId) ??
+      (bill.readType === "estimated" ? "estimated read" : seen.has(key) ? "same period as an earlier bill" : null);
     scatter.push({ billId: bill.billId, temp, usePerDay: bill.usage / days, ...(reason ? { excluded: reason } : {}) });
     if (reason) {
       excluded.push({ billId: bill.billId, reason });
@@ -191,7 +197,7 @@ export function fitMeterBaseline(options: {
 
   const limits = GUIDELINE14_LIMITS.monthly;
   const meetsGuideline14 = fit !== null && fit.stats.cvRmsePct <= limits.cvRmsePct && Math.abs(fit.stats.nmbePct) <= limits.nmbeAbsPct;
-  const { degreeDay, expectedByBill } = degreeDayBand(options, tempUnit);
+  const { degreeDay, expectedByBill } = options.degreeDayResult ?? degreeDayBand(options, tempUnit);
 
   return {
     meterId: meter.meterId,
@@ -224,7 +230,7 @@ export function fitMeterBaseline(options: {
  * The degree-day model and its leave-one-out band for every bill with weather (train on actual
  * reads, one bill per period; band every bill, estimates and repeats included).
  */
-function degreeDayBand(
+export function degreeDayBand(
   options: { building: Building; bills: Bill[]; weather: WeatherSeries | undefined },
   tempUnit: "C" | "F",
 ): Pick<MeterBaseline, "degreeDay" | "expectedByBill"> {
@@ -270,8 +276,29 @@ function degreeDayBand(
   };
 }
 
-/** Baselines for every meter of a building. */
-export function fitBuildingBaselines(portfolio: Portfolio, building: Building): MeterBaseline[] {
+/** The degree-day bands of every meter of a building, by meter id (fitted before the audit). */
+export function buildingDegreeDayBands(portfolio: Portfolio, building: Building): Map<string, Pick<MeterBaseline, "degreeDay" | "expectedByBill">> {
+  const tempUnit = portfolio.settings.degreeDayBase.unit;
+  const out = new Map<string, Pick<MeterBaseline, "degreeDay" | "expectedByBill">>();
+  for (const meter of portfolio.meters) {
+    if (meter.buildingId !== building.buildingId) continue;
+    const bills = portfolio.bills.filter((b) => b.meterId === meter.meterId);
+    out.set(meter.meterId, degreeDayBand({ building, bills, weather: portfolio.weather.get(building.weatherStation) }, tempUnit));
+  }
+  return out;
+}
+
+/**
+ * Baselines for every meter of a building. `exclude` leaves bills out of the change-point fits
+ * (the build passes the bills the audit found wrong, so a multiplier error or a leak does not
+ * bend the weather model, the normalized use and the forecast).
+ */
+export function fitBuildingBaselines(
+  portfolio: Portfolio,
+  building: Building,
+  exclude: ReadonlyMap<string, string> = new Map(),
+  degreeDayBands?: ReadonlyMap<string, Pick<MeterBaseline, "degreeDay" | "expectedByBill">>,
+): MeterBaseline[] {
   const tempUnit = portfolio.settings.degreeDayBase.unit;
   return portfolio.meters
     .filter((m) => m.buildingId === building.buildingId)
@@ -283,6 +310,8 @@ export function fitBuildingBaselines(portfolio: Portfolio, building: Building): 
         weather: portfolio.weather.get(building.weatherStation),
         normals: portfolio.normals.get(building.weatherStation),
         tempUnit,
+        exclude,
+        degreeDayResult: degreeDayBands?.get(meter.meterId),
       }),
     );
 }

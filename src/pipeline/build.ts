@@ -19,7 +19,7 @@ import { priceMeterBills } from "./priceBills.ts";
 import { meteredForBills } from "../audit/reconcile.ts";
 import { assessIntervalMeters } from "./dataQuality.ts";
 import { makeRepricer } from "../audit/wiring.ts";
-import { fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
+import { buildingDegreeDayBands, fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
 import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "./meteredViews.ts";
@@ -193,15 +193,16 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
     }
     const scoped = scopeToBuilding(portfolio, building);
     const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)));
-    const baselines = fitBuildingBaselines(portfolio, building);
+    const bands = buildingDegreeDayBands(portfolio, building);
     const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
     const findings = runAudit({
       portfolio: scoped,
       priced: computed,
       metered,
       ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill }),
-      expectedUsage: expectedUsageFromBaselines(baselines),
+      expectedUsage: expectedUsageFromBands(bands),
     });
+    const baselines = fitBuildingBaselines(portfolio, building, billsToLeaveOut(findings), bands);
     const intervalBaselines = fitBuildingIntervalBaselines(portfolio, building, masks);
     return { building, priced, findings, baselines, intervalBaselines, failure: null };
   } catch (error) {
@@ -224,10 +225,23 @@ function scopeToBuilding(portfolio: Portfolio<Tariff>, building: Building): Port
 }
 
 /** The degree-day models' leave-one-out bands, by bill id (meters without a model fall back to the audit's interim rule). */
-function expectedUsageFromBaselines(baselines: MeterBaseline[]): Map<string, { p50: number; low: number; high: number }> {
+function expectedUsageFromBands(bands: ReadonlyMap<string, Pick<MeterBaseline, "expectedByBill">>): Map<string, { p50: number; low: number; high: number }> {
   const map = new Map<string, { p50: number; low: number; high: number }>();
-  for (const b of baselines) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
+  for (const b of bands.values()) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
   return map;
+}
+
+/** Findings whose bill's usage is wrong or not the building's own, so it must not train a weather model. */
+const USAGE_FINDINGS = new Set(["multiplier-suspect", "usage-vs-meter", "usage-outlier", "duplicate-bill", "period-overlap"]);
+
+/** Bills the audit found wrong in their usage, with the reason, to leave out of the change-point fits. */
+function billsToLeaveOut(findings: Finding[]): Map<string, string> {
+  const out = new Map<string, string>();
+  for (const f of findings) {
+    if (f.severity === "info" || !USAGE_FINDINGS.has(f.check)) continue;
+    for (const id of [f.billId, ...(f.relatedBillIds ?? [])]) if (id) out.set(id, `audit finding: ${f.check}`);
+  }
+  return out;
 }
 
 /** The demand window of a tariff's first demand charge (15 minutes when it has none). */
