@@ -13,6 +13,7 @@ import { hourlyFrame } from "./hourlyFrame.ts";
 import type { HourlyFrameOptions } from "./hourlyFrame.ts";
 import { towtSpec } from "./towt.ts";
 import type { TowtOptions } from "./towt.ts";
+import { towtMonthlySpec } from "./towtMonthly.ts";
 import { gbdtSpec } from "./gbdtHourly.ts";
 import type { GbdtHourlyOptions } from "./gbdtHourly.ts";
 import { withLog1pTarget, withPerAreaTarget } from "./targetTransform.ts";
@@ -36,7 +37,12 @@ export interface IntervalBaselineOptions {
   cv?: TimeSeriesCvOptions;
   towt?: TowtOptions;
   gbdt?: GbdtHourlyOptions;
-  /** Also try GBDT on a log1p target. Default true. */
+  /**
+   * Also try the month-segmented TOWT (towtMonthly.ts) when the meter is not short-history.
+   * Default true: TOWT alone cannot learn seasonal schedules such as school terms.
+   */
+  tryTowtMonthly?: boolean;
+  /** Also try GBDT on a log1p target (Duan-smeared back-transform). Default true. */
   tryLog1p?: boolean;
   /** Also try TOWT on energy per floor area (needs floorAreaM2). Default false: for OLS it is the same fit. */
   tryPerArea?: boolean;
@@ -166,7 +172,8 @@ interface Candidate {
 
 /**
  * Fit, cross-validate, compare and choose an hourly baseline for one interval meter.
- * Candidates: TOWT, GBDT, GBDT on log1p (default), TOWT per floor area (optional); for a meter
+ * Candidates: TOWT, month-segmented TOWT (not for short histories), GBDT (with the day-of-year
+ * feature), GBDT on log1p (default), TOWT per floor area (optional); for a meter
  * with less than `minHistoryWeeks` of usable hours and a non-empty `pool`, the pooled GBDT is
  * added and used (its own folds are too short to pick a model reliably).
  * @throws ModelInputError when the meter has no usable hours or no candidate could be fitted.
@@ -189,7 +196,9 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
     ? { folds: 2, validationHours: 168, minTrainRows: 168, ...o.cv }
     : { placement: "spread", scheme: "auto", ...o.cv };
 
-  const specs: HourlyModelSpec[] = [towtSpec(o.towt), gbdtSpec(o.gbdt)];
+  const specs: HourlyModelSpec[] = [towtSpec(o.towt)];
+  if ((o.tryTowtMonthly ?? true) && !shortHistory) specs.push(towtMonthlySpec(o.towt));
+  specs.push(gbdtSpec(o.gbdt));
   if (o.tryLog1p ?? true) specs.push(withLog1pTarget(gbdtSpec(o.gbdt)));
   if (o.tryPerArea && input.floorAreaM2 && input.floorAreaM2 > 0) specs.push(withPerAreaTarget(towtSpec(o.towt), input.floorAreaM2));
   if (usePool) specs.push(pooledGbdtSpec(input.meterId, o.pool!, o.gbdt));

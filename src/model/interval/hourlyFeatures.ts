@@ -122,6 +122,7 @@ export function hourlyFeaturesAt(
     hourOfWeek: new Uint8Array(n),
     holiday: new Uint8Array(n),
     dayOfYear: new Uint16Array(n),
+    month: new Uint8Array(n),
     tempC: new Float64Array(n),
     tempSmoothC: new Float64Array(n),
     tempSlopeCPerHour: new Float64Array(n),
@@ -147,6 +148,7 @@ export function hourlyFeaturesAt(
     }
     f.holiday[r] = lastHoliday;
     f.dayOfYear[r] = local.ordinal;
+    f.month[r] = local.month;
     const i = Math.round((ms - weather.startMs) / HOUR_MS);
     const t = i >= 0 && i < weather.tempC.length ? weather.tempC[i]! : Number.NaN;
     f.tempC[r] = t;
@@ -197,6 +199,7 @@ export function selectFeatureRows(f: HourlyFeatures, indices: ArrayLike<number>)
     hourOfWeek: pick(f.hourOfWeek),
     holiday: pick(f.holiday),
     dayOfYear: pick(f.dayOfYear),
+    month: pick(f.month),
     tempC: pick(f.tempC),
     tempSmoothC: pick(f.tempSmoothC),
     tempSlopeCPerHour: pick(f.tempSlopeCPerHour),

@@ -102,6 +102,7 @@ function emptyFrame(): Omit<HourlyFrame, "accounting"> {
     tempLagC: new Float64Array(0),
     tempRollingMeanC: new Float64Array(0),
     dayOfYear: new Uint16Array(0),
+    month: new Uint8Array(0),
     kwh: new Float64Array(0),
   };
 }

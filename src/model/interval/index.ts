@@ -17,9 +17,11 @@ export { hourlyFeaturesAt, hourGrid, selectFeatureRows, DEFAULT_FEATURE_OPTIONS 
 export type { HourlyFeatureOptions, FeatureTable } from "./hourlyFeatures.ts";
 export { fitTowt, towtSpec, selectKnots, occupancyFromResiduals, DEFAULT_TOWT_KNOTS_C } from "./towt.ts";
 export type { TowtModel, TowtOptions, TowtData } from "./towt.ts";
+export { fitTowtMonthly, towtMonthlySpec, segmentWeight } from "./towtMonthly.ts";
+export type { TowtMonthlyModel, TowtMonthlyOptions } from "./towtMonthly.ts";
 export { fitGbdt } from "./gbdt.ts";
 export type { GbdtModel, GbdtOptions, GbdtTree } from "./gbdt.ts";
-export { gbdtSpec, gbdtFeatureColumns, GBDT_FEATURE_NAMES } from "./gbdtHourly.ts";
+export { gbdtSpec, gbdtFeatureColumns, spreadHoldoutOrder, GBDT_FEATURE_NAMES } from "./gbdtHourly.ts";
 export type { GbdtHourlyOptions, GbdtHourlyModel } from "./gbdtHourly.ts";
 export { withLog1pTarget, withPerAreaTarget } from "./targetTransform.ts";
 export { crossValidate, timeSeriesFolds } from "./timeSeriesCv.ts";

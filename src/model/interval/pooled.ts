@@ -99,6 +99,7 @@ function stackFrames(parts: { frame: HourlyFrame; end: number; scale: number }[]
     hourOfWeek: new Uint8Array(n),
     holiday: new Uint8Array(n),
     dayOfYear: new Uint16Array(n),
+    month: new Uint8Array(n),
     tempC: new Float64Array(n),
     tempSmoothC: new Float64Array(n),
     tempSlopeCPerHour: new Float64Array(n),
@@ -114,6 +115,7 @@ function stackFrames(parts: { frame: HourlyFrame; end: number; scale: number }[]
     out.hourOfWeek[r] = f.hourOfWeek[i]!;
     out.holiday[r] = f.holiday[i]!;
     out.dayOfYear[r] = f.dayOfYear[i]!;
+    out.month[r] = f.month[i]!;
     out.tempC[r] = f.tempC[i]!;
     out.tempSmoothC[r] = f.tempSmoothC[i]!;
     out.tempSlopeCPerHour[r] = f.tempSlopeCPerHour[i]!;

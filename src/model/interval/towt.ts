@@ -46,6 +46,8 @@ export interface TowtData {
   holiday: ArrayLike<number>;
   tempC: ArrayLike<number>;
   kwh: ArrayLike<number>;
+  /** Row weights (> 0) for weighted least squares, e.g. of a month-segmented fit; absent = all 1. */
+  weights?: ArrayLike<number>;
 }
 
 export interface TowtModel extends FittedHourlyModel {
@@ -109,13 +111,16 @@ function components(t: number, knots: number[]): number[] {
 export function occupancyFromResiduals(data: TowtData, knotsC: readonly number[], minPoints: number, threshold: number): Uint8Array {
   const knots = selectKnots(data.tempC, knotsC, minPoints);
   const x = Array.from({ length: data.kwh.length }, (_, i) => components(data.tempC[i]!, knots));
-  const fit = fitOls(x, data.kwh);
+  const w = data.weights;
+  const fit = fitOls(x, data.kwh, w ? { weights: w } : {});
+  // With weights, the share of positive residuals is a weighted share.
   const pos = new Float64Array(168);
   const all = new Float64Array(168);
   for (let i = 0; i < data.kwh.length; i++) {
     const h = data.hourOfWeek[i]!;
-    all[h]!++;
-    if (fit.residuals[i]! > 0) pos[h]!++;
+    const wi = w ? w[i]! : 1;
+    all[h]! += wi;
+    if (fit.residuals[i]! > 0) pos[h]! += wi;
   }
   const occ = new Uint8Array(168);
   for (let h = 0; h < 168; h++) occ[h] = all[h]! > 0 && pos[h]! / all[h]! > threshold ? 1 : 0;
@@ -196,7 +201,7 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
   let standardErrors: number[];
   if (solver === "full") {
     const x = Array.from({ length: n }, (_, i) => row(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, seen[data.hourOfWeek[i]!]!));
-    ols = fitOls(x, data.kwh, { intercept: false, columnNames });
+    ols = fitOls(x, data.kwh, { intercept: false, columnNames, ...(data.weights ? { weights: data.weights } : {}) });
     beta = ols.coefficients;
     residualStdError = ols.residualStdError;
     standardErrors = ols.standardErrors;
@@ -210,11 +215,14 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     const groupN = new Float64Array(nHow);
     const groupY = new Float64Array(nHow);
     const groupX = Array.from({ length: nHow }, () => new Float64Array(m));
+    // Weighted least squares: the same identity holds with weighted group means.
+    const w = data.weights;
     for (let i = 0; i < n; i++) {
       const g = seen[data.hourOfWeek[i]!]!;
-      groupN[g]!++;
-      groupY[g]! += data.kwh[i]!;
-      for (let j = 0; j < m; j++) groupX[g]![j]! += xr[i]![j]!;
+      const wi = w ? w[i]! : 1;
+      groupN[g]! += wi;
+      groupY[g]! += wi * data.kwh[i]!;
+      for (let j = 0; j < m; j++) groupX[g]![j]! += wi * xr[i]![j]!;
     }
     for (let g = 0; g < nHow; g++) {
       groupY[g]! /= groupN[g]!;
@@ -228,7 +236,7 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     });
     const tail = columnNames.slice(nHow);
     // m ≥ 1: every row is in one mode, and each mode with rows has at least one temperature column
-    ols = fitOls(xd, yd, { intercept: false, columnNames: tail });
+    ols = fitOls(xd, yd, { intercept: false, columnNames: tail, ...(w ? { weights: w } : {}) });
     const bTail = ols.coefficients;
     const alpha = Array.from({ length: nHow }, (_, g) => groupY[g]! - bTail.reduce((acc, b, j) => acc + b * groupX[g]![j]!, 0));
     beta = [...alpha, ...bTail];

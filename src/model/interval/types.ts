@@ -17,6 +17,8 @@ export interface HourlyFeatures {
    * occupancy such as a school's terms from a year of history; known for any future hour).
    */
   dayOfYear: Uint16Array;
+  /** Local calendar month, 1 … 12 (for month-segmented models). */
+  month: Uint8Array;
   /** Outdoor temperature, °C. */
   tempC: Float64Array;
   /** Savitzky–Golay smoothed temperature, °C. */

@@ -22,7 +22,7 @@ describe("fitIntervalBaseline on a fictional office (invented data)", () => {
   const pred = b.predictHourly(d.weather, test.hourStartMs[0]!, test.hourStartMs[test.hourStartMs.length - 1]! + H);
 
   it("reports every model with kind, cv_rmse, nmbe, r2, n, p on training and on each fold", () => {
-    expect(b.summary.models.map((m) => m.kind)).toEqual(["towt", "gbdt", "gbdt+log1p"]);
+    expect(b.summary.models.map((m) => m.kind)).toEqual(["towt", "towt-monthly", "gbdt", "gbdt+log1p"]);
     for (const m of b.summary.models) {
       expect(m.train!.n).toBe(84 * 24);
       expect(m.train!.p).toBeGreaterThan(0);
@@ -41,7 +41,7 @@ describe("fitIntervalBaseline on a fictional office (invented data)", () => {
       expect(c.members!.reduce((s, m) => s + m.weight, 0)).toBeCloseTo(1, 12);
       expect(c.versus_kind).toBe(b.chosen.ensemble!.bestSingleKind);
     } else {
-      expect(["towt", "gbdt", "gbdt+log1p"]).toContain(c.kind);
+      expect(["towt", "towt-monthly", "gbdt", "gbdt+log1p"]).toContain(c.kind);
       expect(b.chosen.ensemble!.gainPct).toBeLessThan(1);
     }
     expect(c.cv!.cv_rmse).toBeLessThan(GUIDELINE14_LIMITS.hourly.cvRmsePct);

@@ -72,6 +72,7 @@ describe("hourly features", () => {
     // still 30 June locally (182) although UTC says 1 July; 2025-01-01 05:59 UTC = 23:59 CST on 31 Dec 2024 → 366.
     const t = hourlyFeaturesAt(weather, "America/Chicago", [T0, T0 - H, Date.UTC(2025, 0, 1, 5)]).features;
     expect(Array.from(t.dayOfYear)).toEqual([183, 182, 366]);
+    expect(Array.from(t.month)).toEqual([7, 6, 12]);
   });
 
   it("hour of week is local and DST-aware; holidays use observed dates (2024-07-04 is a Thursday)", () => {

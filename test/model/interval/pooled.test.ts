@@ -11,7 +11,7 @@ function frame(startHour: number, hours: number, level: (h: number) => number): 
     hourStartMs: Float64Array.from(hs, (h) => h * H), hourOfWeek: Uint8Array.from(hs, (h) => h % 168), holiday: new Uint8Array(n),
     tempC: Float64Array.from(hs, (h) => 10 + (h % 24)), tempSmoothC: Float64Array.from(hs, (h) => 10 + (h % 24)),
     tempSlopeCPerHour: new Float64Array(n), tempLagC: Float64Array.from(hs, (h) => 10 + (h % 24)), tempRollingMeanC: new Float64Array(n).fill(21.5),
-    dayOfYear: Uint16Array.from(hs, (h) => 1 + Math.floor(h / 24) % 365),
+    dayOfYear: Uint16Array.from(hs, (h) => 1 + Math.floor(h / 24) % 365), month: Uint8Array.from(hs, (h) => new Date(h * H).getUTCMonth() + 1),
     kwh: Float64Array.from(hs, level),
     accounting: { intervalsRead: n, intervalsUsed: n, hoursSpanned: n, hoursUsed: n, excluded: { masked: 0, nonFinite: 0, incomplete: 0, noWeather: 0 }, derivedFeatureFallbacks: 0 },
   };

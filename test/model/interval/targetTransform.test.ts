@@ -19,7 +19,7 @@ function frameOf(kwh: number[]): HourlyFrame {
   const z = () => new Float64Array(n);
   return {
     hourStartMs: z(), hourOfWeek: new Uint8Array(n), holiday: new Uint8Array(n), tempC: z(), tempSmoothC: z(),
-    tempSlopeCPerHour: z(), tempLagC: z(), tempRollingMeanC: z(), dayOfYear: new Uint16Array(n).fill(1), kwh: Float64Array.from(kwh),
+    tempSlopeCPerHour: z(), tempLagC: z(), tempRollingMeanC: z(), dayOfYear: new Uint16Array(n).fill(1), month: new Uint8Array(n).fill(1), kwh: Float64Array.from(kwh),
     accounting: { intervalsRead: n, intervalsUsed: n, hoursSpanned: n, hoursUsed: n, excluded: { masked: 0, nonFinite: 0, incomplete: 0, noWeather: 0 }, derivedFeatureFallbacks: 0 },
   };
 }

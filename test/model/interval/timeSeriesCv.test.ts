@@ -11,7 +11,7 @@ function frameOf(n: number, gapAt: number[] = []): HourlyFrame {
   const z = () => new Float64Array(m);
   return {
     hourStartMs: Float64Array.from(hours, (h) => h * H), hourOfWeek: Uint8Array.from(hours, (h) => h % 168),
-    holiday: new Uint8Array(m), tempC: z(), tempSmoothC: z(), tempSlopeCPerHour: z(), tempLagC: z(), tempRollingMeanC: z(), dayOfYear: Uint16Array.from(hours, (h) => 1 + (Math.floor(h / 24) % 365)),
+    holiday: new Uint8Array(m), tempC: z(), tempSmoothC: z(), tempSlopeCPerHour: z(), tempLagC: z(), tempRollingMeanC: z(), dayOfYear: Uint16Array.from(hours, (h) => 1 + (Math.floor(h / 24) % 365)), month: Uint8Array.from(hours, (h) => new Date(h * H).getUTCMonth() + 1),
     kwh: Float64Array.from(hours, (h) => 10 + (h % 24)),
     accounting: { intervalsRead: m, intervalsUsed: m, hoursSpanned: m, hoursUsed: m, excluded: { masked: 0, nonFinite: 0, incomplete: 0, noWeather: 0 }, derivedFeatureFallbacks: 0 },
   };

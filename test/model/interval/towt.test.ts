@@ -73,6 +73,7 @@ describe("TOWT against statsmodels OLS (scripts/reference/make_interval_fixtures
         tempLagC: Float64Array.from(c.tempC),
         tempRollingMeanC: Float64Array.from(c.tempC),
         dayOfYear: new Uint16Array(c.kwh.length).fill(1),
+        month: new Uint8Array(c.kwh.length).fill(1),
       });
       e.fitted.forEach((v, i) => expectRel(pred[i]!, v, 1e-8, `fitted ${i}`));
       expect(m.parameterCount).toBe(e.coefficients.length);

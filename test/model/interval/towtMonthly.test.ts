@@ -1,0 +1,58 @@
+import { describe, expect, it } from "vitest";
+import { fitTowtMonthly, segmentWeight, towtMonthlySpec } from "../../../src/model/interval/towtMonthly.ts";
+import { fitTowt, towtSpec } from "../../../src/model/interval/towt.ts";
+import { selectFrameRows } from "../../../src/model/interval/hourlyFrame.ts";
+import { rmse, schoolYear } from "./syntheticSchool.ts";
+
+describe("three-month weighted segments (CalTRACK hourly segmentation, from memory; hand-computed)", () => {
+  it("weights the month 1, its neighbours ½ (December and January are neighbours), others 0", () => {
+    expect([segmentWeight(7, 7, 0.5), segmentWeight(7, 6, 0.5), segmentWeight(7, 8, 0.5), segmentWeight(7, 9, 0.5)]).toEqual([1, 0.5, 0.5, 0]);
+    expect([segmentWeight(1, 12, 0.5), segmentWeight(12, 1, 0.5), segmentWeight(1, 11, 0.5)]).toEqual([0.5, 0.5, 0]);
+  });
+});
+
+describe("weighted TOWT (common practice: integer weights equal repeated rows in least squares)", () => {
+  it("weight 2 on a row gives the same coefficients as the row twice, for both solvers", () => {
+    const f = schoolYear(2021, 3);
+    const rows = Array.from({ length: 24 * 56 }, (_, i) => i); // January–February
+    const base = selectFrameRows(f, rows);
+    const doubled = selectFrameRows(f, [...rows, ...rows.filter((i) => i % 3 === 0)]);
+    const w = rows.map((i) => (i % 3 === 0 ? 2 : 1));
+    for (const solver of ["within", "full"] as const) {
+      const a = fitTowt({ ...base, weights: w }, { solver, occupancyThreshold: 0.65 });
+      const b = fitTowt(doubled, { solver, occupancyThreshold: 0.65 });
+      expect(Array.from(a.occupied)).toEqual(Array.from(b.occupied));
+      a.coefficients.forEach((c, j) => expect(c).toBeCloseTo(b.coefficients[j]!, 8));
+    }
+  });
+});
+
+describe("month-segmented TOWT (invented school-like data)", () => {
+  const year1 = schoolYear(2021, 1);
+  const year2 = schoolYear(2022, 2);
+  const july = Array.from({ length: 31 * 24 }, (_, i) => 181 * 24 + i); // 1–31 July (non-leap year)
+  const inJuly = (p: Float64Array): number[] => july.map((i) => p[i]!);
+  const y2July = july.map((i) => year2.kwh[i]!);
+
+  it("learns the summer break from one year and predicts it in July of the next; plain TOWT cannot", () => {
+    const monthly = towtMonthlySpec().fit(year1).predict(year2);
+    const plain = towtSpec().fit(year1).predict(year2);
+    // Break working hours (a quarter of July's hours) use 9 instead of 60 kWh. Plain TOWT has one
+    // level per hour of week for the whole year; part of the step hides in its occupied
+    // temperature slope (summer is warm), but it stays several kWh off (rmse > 5). The
+    // segmented model sees July itself: what is left is noise, ≈ 1–2 kWh.
+    expect(rmse(y2July, inJuly(plain))).toBeGreaterThan(5);
+    expect(rmse(y2July, inJuly(monthly))).toBeLessThan(3);
+    expect(rmse(year2.kwh, monthly)).toBeLessThan(rmse(year2.kwh, plain));
+  });
+
+  it("months without enough weighted hours fall back to the all-hours fit (January–February only: April … November)", () => {
+    // Jan 744 h, Feb 672 h. Weighted hours: Mar ½·672 = 336 ≥ 336, Dec ½·744 = 372: segments;
+    // April … November have none.
+    const m = fitTowtMonthly(selectFrameRows(year1, Array.from({ length: 59 * 24 }, (_, i) => i)));
+    expect(m.fallbackMonths).toEqual([4, 5, 6, 7, 8, 9, 10, 11]);
+    expect(m.byMonth[5]).toBe(m.byMonth[6]);
+    expect(m.byMonth[0]).not.toBe(m.byMonth[5]);
+    expect(m.parameterCount).toBe(Math.max(...m.byMonth.map((b) => b.parameterCount)));
+  });
+});
