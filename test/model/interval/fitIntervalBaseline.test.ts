@@ -139,6 +139,21 @@ describe("short-history meter with a pool (invented data)", () => {
   });
 });
 
+describe("fitIntervalBaseline default folds on a year of data (invented office)", () => {
+  it("places the 4 validation blocks in 4 different quarters and trains each on the rest of the year", () => {
+    const d = syntheticOffice({ days: 365, seed: 8, weatherSeed: 9 });
+    const b = fitIntervalBaseline({ meterId: "YEAR", series: d.series, mask: null, weather: d.weather, zone: d.zone, floorAreaM2: null, options: { gbdt: { nTrees: 60 }, tryLog1p: false, now: () => 0 } });
+    const folds = b.summary.models[0]!.folds;
+    expect(folds).toHaveLength(4);
+    // Blocks centred in quarters of the last 364 days: Feb, May, Aug, Nov (hand-computed from the rule).
+    expect(folds.map((f) => Math.floor(new Date(f.start).getUTCMonth() / 3))).toEqual([0, 1, 2, 3]);
+    // Blocked training (less than a year precedes the first block): 8,760 − 672 − 2·24 hours.
+    for (const f of folds) expect(f.n_train).toBe(b.summary.hours_used - 672 - 48);
+    expect(b.bandSource).toBe("cross-validation");
+    expect(b.summary.models.map((m) => m.kind)).toEqual(["towt", "towt-monthly", "gbdt"]);
+  });
+});
+
 describe("fitIntervalBaseline input problems", () => {
   it("a fully masked meter is a ModelInputError naming the meter and the exclusion counts", () => {
     const d = syntheticOffice({ days: 3, seed: 2 });
