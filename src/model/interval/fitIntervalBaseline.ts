@@ -1,6 +1,7 @@
 /**
  * One entry point for an interval meter's hourly baseline: build the hourly table, fit every
- * candidate model, cross-validate each on the same expanding-window folds, search a
+ * candidate model, cross-validate each on the same folds (spread over the last year; see
+ * timeSeriesCv.ts for when they train expanding or blocked), search a
  * generalized-mean ensemble, choose (ensemble only when it beats the best single model by the
  * stated margin), and return predictions for any hours with a band from out-of-sample residuals.
  */
