@@ -42,6 +42,7 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     issues: parts.issues,
     buildDate: parts.buildDate,
     rejectedRowsByBuilding: undefined,
+    heatContentByMeter: heatContentByMeter(portfolio),
     findings: parts.findings,
     models: modelSummaries(results),
     baselines: baselines.map((b) => reportBaseline(b, unitOf.get(b.meterId) ?? "")),
@@ -72,6 +73,20 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     buildingForecasts: forecast ? forecast.forecast.buildings.map((b) => buildingForecastDetail(b, portfolio.bills, forecast.forecast.asOf, forecast.trackRecord)) : undefined,
     portfolioTrackRecord: forecast ? { model: accuracy(forecast.trackRecord.overall.model), naive: accuracy(forecast.trackRecord.overall.naive) } : undefined,
   };
+}
+
+/**
+ * Therm per ccf of each meter's tariff, when the tariff states one (the same lookup as
+ * portfolio.json, so pages and JSON convert gas alike). The tariff type is not known here.
+ */
+function heatContentByMeter(portfolio: Portfolio): Map<string, number> {
+  const out = new Map<string, number>();
+  for (const m of portfolio.meters) {
+    const tariff = portfolio.tariffs.get(m.tariffId) as { heatContentThermPerCcf?: unknown } | undefined;
+    const h = tariff?.heatContentThermPerCcf;
+    if (typeof h === "number" && h > 0) out.set(m.meterId, h);
+  }
+  return out;
 }
 
 /** Longest horizon the budget totals cover (a year). */

@@ -3,10 +3,12 @@ import type { Bill } from "../domain/types.ts";
 import type { ReportInput } from "./input.ts";
 import type { SiteModel } from "./siteModel.ts";
 import { buildBuildingPage, type BuildingContext } from "./buildingPage.ts";
-import { buildIndexPage, windowText } from "./indexPage.ts";
+import { buildIndexPage } from "./indexPage.ts";
 import { buildMethodsPage } from "./methodsPage.ts";
 import { buildDataPage } from "./dataPage.ts";
-import { trailingYear } from "./periods.ts";
+import { last12MonthsText } from "./periods.ts";
+import { effectiveAsOf } from "../pipeline/usageSummary.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/units.ts";
 import { formatDate } from "./format.ts";
 import { canonicalFor } from "./nav.ts";
 import { buildTenantPage } from "./tenantPage.ts";
@@ -20,7 +22,9 @@ export function buildSiteModel(input: ReportInput): SiteModel {
   const { portfolio } = input;
   const { settings } = portfolio;
   const currency = settings.currency;
-  const window = trailingYear(settings, portfolio.bills);
+  const asOf = effectiveAsOf(portfolio);
+  const heat = input.heatContentByMeter;
+  const heatContentOf = (m: { meterId: string }): number => heat?.get(m.meterId) ?? DEFAULT_HEAT_CONTENT_THERM_PER_CCF;
 
   const billsByMeter = new Map<string, Bill[]>();
   for (const b of portfolio.bills) {
@@ -36,7 +40,8 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     building,
     meters: portfolio.meters.filter((m) => m.buildingId === building.buildingId),
     billsByMeter,
-    window,
+    asOf,
+    heatContentOf,
     currency,
   }));
 
@@ -53,12 +58,12 @@ export function buildSiteModel(input: ReportInput): SiteModel {
       buildDateIso: input.buildDate,
       basePath: settings.basePath,
     },
-    index: withCanonical(buildIndexPage(input, contexts, window)),
+    index: withCanonical(buildIndexPage(input, contexts, asOf)),
     buildings: contexts.map((ctx) => withCanonical(buildBuildingPage(input, ctx))),
     tenants: contexts
       .filter((ctx) => ctx.building.tenantPage)
       .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines))),
-    methods: withCanonical(buildMethodsPage(currency, windowText(window))),
+    methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf))),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
   };
 }

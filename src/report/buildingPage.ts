@@ -4,7 +4,7 @@ import type { ReportInput } from "./input.ts";
 import type { BuildingPage, CommoditySection, LabelValue, MeterSection } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber, formatQuantity } from "./format.ts";
 import { buildingPath, navFor } from "./nav.ts";
-import { prorateToWindow, type DayWindow } from "./periods.ts";
+import { buildingUsageLast12m, metersCostLast12m, type CommodityUsage } from "../pipeline/usageSummary.ts";
 import { commodityLabel } from "./labels.ts";
 import { billMath, billsTable, meteredTable } from "./billTables.ts";
 import { commodityCharts } from "./usageCharts.ts";
@@ -22,17 +22,29 @@ export interface BuildingContext {
   meters: Meter[];
   /** Bills per meter id, sorted by period start. */
   billsByMeter: Map<string, Bill[]>;
-  window: DayWindow | null;
+  /** As-of date of the portfolio (setting, else the day before the last bill end); null without bills. */
+  asOf: string | null;
+  /** Therm per ccf for a gas meter (its tariff's heat content, else 1.037). */
+  heatContentOf: (meter: Meter) => number;
   currency: string;
 }
 
+/**
+ * Billed cost of a building's meters over the last 12 months (each meter's own window, see
+ * src/pipeline/usageSummary.ts), in currency; null without an as-of date or bills.
+ */
+export function last12mCost(ctx: Pick<BuildingContext, "meters" | "billsByMeter" | "asOf">): number | null {
+  return ctx.asOf === null ? null : metersCostLast12m(ctx.meters, ctx.billsByMeter, ctx.asOf);
+}
 
-/** Billed cost of a building's bills prorated into the window, in currency. */
-export function windowCost(bills: Iterable<Bill>, window: DayWindow | null): number | null {
-  if (!window) return null;
-  let sum = 0;
-  for (const b of bills) sum += prorateToWindow(b.total, b.periodStart, b.periodEnd, window);
-  return sum;
+/**
+ * Last-12-months usage of one building per commodity in its reporting unit (kWh, therm, gal):
+ * the very function portfolio.json uses, so the index and the JSON agree.
+ */
+export function buildingUsage(ctx: BuildingContext): CommodityUsage[] {
+  if (ctx.asOf === null) return [];
+  const bills = ctx.meters.flatMap((m) => ctx.billsByMeter.get(m.meterId) ?? []);
+  return buildingUsageLast12m(ctx.building, ctx.meters, bills, ctx.asOf, ctx.heatContentOf);
 }
 
 /**
@@ -55,7 +67,7 @@ export function buildBuildingPage(input: ReportInput, ctx: BuildingContext): Omi
     { label: "Weather station", value: b.weatherStation },
     { label: "Meters", value: formatNumber(meters.length) },
     { label: "Bills", value: formatNumber(allBills.length) },
-    { label: "Billed cost, last 12 months", value: formatMoney(windowCost(allBills, ctx.window), currency) },
+    { label: "Billed cost, last 12 months", value: formatMoney(last12mCost(ctx), currency) },
   ];
   const commodities: CommoditySection[] = [];
   for (const c of ["electricity", "gas", "water"] as const) {

@@ -1,54 +1,53 @@
 /** View model of the portfolio index: headline figures and the building table. */
-import type { Bill, Meter } from "../domain/types.ts";
-import type { ReportInput } from "./input.ts";
+import type { ReportFinding, ReportInput } from "./input.ts";
 import type { IndexPage, LabelValue, TableCell } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatDate, formatMoney, formatNumber, formatQuantity } from "./format.ts";
+import { NOT_AVAILABLE, formatMoney, formatNumber, formatQuantity } from "./format.ts";
 import { buildingPath, navFor } from "./nav.ts";
-import { prorateToWindow, type DayWindow } from "./periods.ts";
+import type { CommodityUsage } from "../pipeline/usageSummary.ts";
 import type { BuildingContext } from "./buildingPage.ts";
-import { windowCost } from "./buildingPage.ts";
+import { buildingUsage, last12mCost } from "./buildingPage.ts";
 import { monthlyCostChart } from "./costChart.ts";
 import { EUI_BASIS, findingsByCheckChart, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
-import { addMonthsIso } from "./periods.ts";
+import { last12MonthsText } from "./periods.ts";
 import { tenantPath } from "./tenantPage.ts";
 import { forecastChangeTable } from "./forecastIndex.ts";
 import { trackRecordVerdict } from "./forecastSection.ts";
 
-/** Usage in the window by unit, e.g. "12,345 kWh; 40 MWh", or "—" when none. */
-function usageByUnit(meters: Meter[], billsByMeter: Map<string, Bill[]>, window: DayWindow | null): TableCell {
-  if (!window || meters.length === 0) return { text: NOT_AVAILABLE, sort: "" };
-  const byUnit = new Map<string, number>();
-  for (const m of meters) {
-    for (const b of billsByMeter.get(m.meterId) ?? []) {
-      byUnit.set(m.unit, (byUnit.get(m.unit) ?? 0) + prorateToWindow(b.usage, b.periodStart, b.periodEnd, window));
-    }
-  }
-  if (byUnit.size === 0) return { text: NOT_AVAILABLE, sort: "" };
-  const parts = [...byUnit.entries()].map(([unit, v]) => formatQuantity(v, unit));
-  // Sorting mixes units only when a building bills one commodity in two units; sort by the first.
-  return { text: parts.join("; "), sort: String([...byUnit.values()][0]) };
+/** Table cell of one commodity's usage, e.g. "12,345 kWh", or "—" when none. */
+function usageCell(usage: readonly CommodityUsage[], commodity: CommodityUsage["commodity"]): TableCell {
+  const u = usage.find((x) => x.commodity === commodity);
+  if (!u || u.actualLast12m === null) return { text: NOT_AVAILABLE, sort: "" };
+  return { text: formatQuantity(u.actualLast12m, u.unit), sort: String(u.actualLast12m) };
 }
 
-/** Text of a day window, showing its last day inclusive. */
-export function windowText(window: DayWindow | null): string {
-  if (!window) return "no bills";
-  const lastDay = new Date(Date.parse(`${window.end}T00:00:00Z`) - 86_400_000).toISOString().slice(0, 10);
-  return `${formatDate(window.start)} – ${formatDate(lastDay)}`;
+/** Findings of one building and their money at stake (positive amounts only: bills that look too high). */
+export function buildingFindingTotals(findings: readonly ReportFinding[] | undefined, buildingId: string): { count: number; atStake: number } {
+  let count = 0;
+  let atStake = 0;
+  for (const f of findings ?? []) {
+    if (f.buildingId !== buildingId) continue;
+    count++;
+    if (f.amountAtStake != null && f.amountAtStake > 0) atStake += f.amountAtStake;
+  }
+  return { count, atStake };
 }
 
 /**
  * Builds the index page from per-building contexts (in display order).
  * @example buildIndexPage(input, contexts, window).buildingsTable.rows.length // number of buildings
  */
-export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], window: DayWindow | null): Omit<IndexPage, "canonical"> {
+export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], asOf: string | null): Omit<IndexPage, "canonical"> {
   const { settings } = input.portfolio;
   const currency = settings.currency;
   let totalCost = 0;
   const rows: TableCell[][] = contexts.map((ctx) => {
     const b = ctx.building;
     const bills = ctx.meters.flatMap((m) => ctx.billsByMeter.get(m.meterId) ?? []);
-    const cost = windowCost(bills, window);
+    const cost = last12mCost(ctx);
     totalCost += cost ?? 0;
+    const usage = buildingUsage(ctx);
+    const audit = buildingFindingTotals(input.findings, b.buildingId);
+    const auditHref = `${buildingPath(b.buildingId)}#audit-h`;
     const rejectedMap = input.rejectedRowsByBuilding;
     const rejected = rejectedMap?.get(b.buildingId) ?? 0;
     return [
@@ -56,14 +55,14 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
       { text: b.useType ?? NOT_AVAILABLE },
       { text: formatNumber(b.floorAreaM2), sort: String(b.floorAreaM2) },
       { text: formatMoney(cost, currency), sort: cost == null ? "" : String(cost) },
-      ...(["electricity", "gas", "water"] as const).map((c) =>
-        usageByUnit(
-          ctx.meters.filter((m) => m.commodity === c),
-          ctx.billsByMeter,
-          window,
-        ),
-      ),
+      ...(["electricity", "gas", "water"] as const).map((c) => usageCell(usage, c)),
       { text: formatNumber(bills.length), sort: String(bills.length) },
+      ...(input.findings
+        ? [
+            { text: formatNumber(audit.count), sort: String(audit.count), href: auditHref },
+            { text: formatMoney(audit.atStake, currency), sort: String(audit.atStake), href: auditHref, tone: audit.atStake > 0 ? ("warn" as const) : undefined },
+          ]
+        : []),
       // The column exists only when ingest attributed rejected rows to buildings.
       ...(rejectedMap ? [{ text: formatNumber(rejected), sort: String(rejected), tone: rejected > 0 ? ("warn" as const) : undefined }] : []),
     ];
@@ -72,7 +71,7 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     { label: "Buildings", value: formatNumber(contexts.length) },
     { label: "Meters", value: formatNumber(input.portfolio.meters.length) },
     { label: "Bills", value: formatNumber(input.portfolio.bills.length) },
-    { label: "Billed cost, last 12 months", value: window ? formatMoney(totalCost, currency) : NOT_AVAILABLE },
+    { label: "Billed cost, last 12 months", value: asOf ? formatMoney(totalCost, currency) : NOT_AVAILABLE },
   ];
   let notPriced = 0;
   for (const b of input.portfolio.bills) if (!input.priced.get(b.billId)?.computed) notPriced++;
@@ -108,8 +107,7 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
       value: `${formatMoney(p50, currency)} (at most ${formatMoney(p10, currency)} – ${formatMoney(p90, currency)})`,
     });
   }
-  const prior = window ? { start: addMonthsIso(window.start, -12), end: window.start } : null;
-  const change = normalizedChangePct(contexts, input.baselines, window, prior);
+  const change = normalizedChangePct(contexts, input.baselines);
   if (change != null) {
     const r = Math.round(change * 10) / 10;
     headline.push({
@@ -121,21 +119,21 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
   return {
     title: settings.name,
     charts: costChart ? [costChart] : [],
-    intensityChart: intensityChart(contexts, window),
+    intensityChart: intensityChart(contexts),
     intensityNote: EUI_BASIS,
     findingsChart: findingsByCheckChart(input.findings, currency),
     forecastChangeTable: forecastChangeTable(contexts, input.buildingForecasts, currency),
     forecastTrackRecord: input.portfolioTrackRecord ? trackRecordVerdict(input.portfolioTrackRecord) : null,
     tenantLinks: contexts.filter((c) => c.building.tenantPage).map((c) => ({ name: c.building.name, href: tenantPath(c.building.buildingId) })),
-    lede: `Utility bills for ${formatNumber(contexts.length)} ${contexts.length === 1 ? "building" : "buildings"}, each re-priced from its tariff and checked. Figures for the last 12 months cover ${windowText(window)}.`,
+    lede: `Utility bills for ${formatNumber(contexts.length)} ${contexts.length === 1 ? "building" : "buildings"}, each re-priced from its tariff and checked. Figures for the last 12 months cover ${last12MonthsText(asOf)}, so a bill not yet received does not read as a drop.`,
     root: "",
     path: "index.html",
     nav: navFor("index", ""),
     headline,
-    windowText: windowText(window),
+    windowText: last12MonthsText(asOf),
     buildings: contexts.map((c) => ({ buildingId: c.building.buildingId, name: c.building.name, href: buildingPath(c.building.buildingId) })),
     buildingsTable: {
-      caption: `Buildings: floor area, billed cost and billed use over the last 12 months (${windowText(window)})`,
+      caption: `Buildings: floor area, billed cost and billed use over the last 12 months (${last12MonthsText(asOf)}; gas in therms, water in gallons)${input.findings ? ", and each building's audit findings with the money at stake" : ""}`,
       sortable: true,
       columns: [
         { label: "Building", numeric: false },
@@ -146,6 +144,7 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
         { label: "Gas use", numeric: true },
         { label: "Water use", numeric: true },
         { label: "Bills", numeric: true },
+        ...(input.findings ? [{ label: "Findings", numeric: true }, { label: "Money at stake", numeric: true }] : []),
         ...(input.rejectedRowsByBuilding ? [{ label: "Rows rejected", numeric: true }] : []),
       ],
       rows,

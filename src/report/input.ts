@@ -266,6 +266,8 @@ export interface ReportInput {
   issues: InputIssue[];
   /** Build date `YYYY-MM-DD`, injected by the caller (never read from the clock here). */
   buildDate: string;
+  /** Heat content of gas billed in ccf or m³, therm per ccf, keyed by `meterId` (from the meter's tariff; 1.037 when absent). */
+  heatContentByMeter?: Map<string, number>;
   /** Rows rejected at ingest that could be attributed to a building, keyed by `buildingId`. */
   rejectedRowsByBuilding?: Map<string, number>;
   /** Audit findings, when the audit stage ran. */

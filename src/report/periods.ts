@@ -1,15 +1,12 @@
 /**
- * Calendar arithmetic for the report: the trailing 12-month window and spreading a billing
- * period over calendar months by days (the same day-proration rule the tariff engine uses).
+ * Calendar arithmetic for the report: spreading a billing period over calendar months by days
+ * (the same day-proration rule the tariff engine uses). The last-12-months window and its
+ * proration live in src/pipeline/usageSummary.ts, shared with portfolio.json; re-exported here.
  */
-import type { Bill, PortfolioSettings } from "../domain/types.ts";
-import { dayNumberToIsoDate, isoDateToDayNumber } from "./format.ts";
+import { formatDate, isoDateToDayNumber } from "./format.ts";
+import { overlapDays } from "../pipeline/usageSummary.ts";
 
-/** Half-open window of calendar days `[start, end)`, ISO dates. */
-export interface DayWindow {
-  start: string;
-  end: string;
-}
+export { overlapDays, prorateToWindow, type DayWindow } from "../pipeline/usageSummary.ts";
 
 /** Adds whole calendar months to an ISO date (day of month kept; used on 1st-of-month or read dates). */
 export function addMonthsIso(isoDate: string, months: number): string {
@@ -22,41 +19,18 @@ export function addMonthsIso(isoDate: string, months: number): string {
 }
 
 /**
- * The trailing 12 months the index reports on: ends the day after `as_of` when set, else at
- * the latest bill end; starts 12 calendar months earlier. Null when there are no bills.
- * @example trailingYear({asOf: "2025-12-31"}, bills) // { start: "2025-01-01", end: "2026-01-01" }
+ * Words for the "last 12 months" every page uses (one rule, src/pipeline/usageSummary.ts):
+ * per meter, the 365 days up to its last read, ending no later than the as-of date.
+ * @example last12MonthsText("2025-12-31") // "the 12 months up to each meter's last read, ending no later than Dec 31, 2025"
  */
-export function trailingYear(settings: Pick<PortfolioSettings, "asOf">, bills: readonly Bill[]): DayWindow | null {
-  let end: string | null = null;
-  if (settings.asOf) {
-    end = dayNumberToIsoDate(isoDateToDayNumber(settings.asOf) + 1);
-  } else {
-    for (const b of bills) if (end === null || b.periodEnd > end) end = b.periodEnd;
-  }
-  if (end === null) return null;
-  return { start: addMonthsIso(end, -12), end };
-}
-
-/** Days of `[start, end)` inside `window` (0 when disjoint). */
-export function overlapDays(start: string, end: string, window: DayWindow): number {
-  const s = Math.max(isoDateToDayNumber(start), isoDateToDayNumber(window.start));
-  const e = Math.min(isoDateToDayNumber(end), isoDateToDayNumber(window.end));
-  return Math.max(0, e - s);
+export function last12MonthsText(asOf: string | null): string {
+  if (asOf === null) return "no bills";
+  return `the 12 months up to each meter's last read, ending no later than ${formatDate(asOf)}`;
 }
 
 /** Billing days of a half-open period. */
 export function periodDays(start: string, end: string): number {
   return isoDateToDayNumber(end) - isoDateToDayNumber(start);
-}
-
-/**
- * Share of a billing-period amount that falls in `window`, prorated by days.
- * @example prorateToWindow(310, "2025-12-15", "2026-01-15", {start:"2025-01-01", end:"2026-01-01"}) // 170
- */
-export function prorateToWindow(amount: number, start: string, end: string, window: DayWindow): number {
-  const days = periodDays(start, end);
-  if (days <= 0) return 0;
-  return (amount * overlapDays(start, end, window)) / days;
 }
 
 /**

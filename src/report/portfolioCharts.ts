@@ -1,40 +1,26 @@
 /** Portfolio charts of the index: energy use intensity by building, findings by check; normalized change. */
-import type { Bill, Meter } from "../domain/types.ts";
 import type { ReportBaseline, ReportFinding } from "./input.ts";
 import type { RankingChartModel } from "./siteModel.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { formatMoney, formatNumber } from "./format.ts";
-import { prorateToWindow, type DayWindow } from "./periods.ts";
+import { addDays } from "../core/time.ts";
+import { meterYearWindow, prorateToWindow, siteKwhLast12m } from "../pipeline/usageSummary.ts";
+import { buildingUsage } from "./buildingPage.ts";
 import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh, KWH_PER_THERM } from "./energy.ts";
 import { checkTitle } from "./labels.ts";
 
 /** Sentence stating how the intensity ranking is computed. */
-export const EUI_BASIS = `Energy use intensity = site energy over the last 12 months ÷ floor area. Site energy = electricity kWh + gas therms × ${KWH_PER_THERM} kWh per therm (gas billed in ccf: × 1.037 therm per ccf first); water is not energy and is left out.`;
-
-/** Site energy (kWh) of a set of meters' bills prorated into a window; null when none converts. */
-export function windowSiteKwh(meters: readonly Meter[], billsByMeter: Map<string, Bill[]>, window: DayWindow): number | null {
-  let total = 0;
-  let any = false;
-  for (const m of meters) {
-    for (const b of billsByMeter.get(m.meterId) ?? []) {
-      const kwh = siteKwh(m.commodity, m.unit, prorateToWindow(b.usage, b.periodStart, b.periodEnd, window));
-      if (kwh == null) continue;
-      total += kwh;
-      any = true;
-    }
-  }
-  return any ? total : null;
-}
+export const EUI_BASIS = `Energy use intensity = site energy over the last 12 months (each meter's 12 months up to its last read) ÷ floor area. Site energy = electricity kWh + gas therms × ${KWH_PER_THERM} kWh per therm (gas billed in ccf: × the tariff's therm per ccf first, 1.037 when it states none); water is not energy and is left out. The same figures as site_eui_kwh_m2 in portfolio.json.`;
 
 /**
- * Ranking of buildings by EUI (kWh/m²) over the last-12-month window, largest first; null when
- * no building has energy use and a floor area.
+ * Ranking of buildings by EUI (kWh/m²) over the last 12 months (per-meter windows, the same
+ * figure as `site_eui_kwh_m2` in portfolio.json), largest first; null when no building has
+ * energy use and a floor area.
  */
-export function intensityChart(contexts: readonly BuildingContext[], window: DayWindow | null): RankingChartModel | null {
-  if (!window) return null;
+export function intensityChart(contexts: readonly BuildingContext[]): RankingChartModel | null {
   const rows: { name: string; kwh: number; area: number; eui: number }[] = [];
   for (const ctx of contexts) {
-    const kwh = windowSiteKwh(ctx.meters, ctx.billsByMeter, window);
+    const kwh = siteKwhLast12m(buildingUsage(ctx));
     if (kwh == null) continue;
     const eui = euiKwhPerM2(kwh, ctx.building.floorAreaM2);
     if (eui == null) continue;
@@ -113,16 +99,13 @@ export function findingsByCheckChart(findings: readonly ReportFinding[] | undefi
 /**
  * Weather-normalized change of portfolio site energy, last 12 months vs the 12 before, in
  * percent: each bill's use is weather-adjusted (× expected at typical ÷ expected at actual
- * weather) and prorated into each window. Only meters with a baseline for every bill touching
- * both windows and bills covering the prior window's start count. Null when none qualifies.
+ * weather) and prorated into each window. Each meter's window is its own last 12 months (the
+ * 365 days up to its last read, no later than as-of; src/pipeline/usageSummary.ts) and the
+ * 365 days before. Only meters with a baseline for every bill touching both windows and bills
+ * covering the prior window's start count. Null when none qualifies.
  */
-export function normalizedChangePct(
-  contexts: readonly BuildingContext[],
-  baselines: readonly ReportBaseline[] | undefined,
-  window: DayWindow | null,
-  priorWindow: DayWindow | null,
-): number | null {
-  if (!baselines || !window || !priorWindow) return null;
+export function normalizedChangePct(contexts: readonly BuildingContext[], baselines: readonly ReportBaseline[] | undefined): number | null {
+  if (!baselines) return null;
   let now = 0;
   let before = 0;
   for (const ctx of contexts) {
@@ -130,6 +113,9 @@ export function normalizedChangePct(
       const b = baselines.find((x) => x.meterId === m.meterId);
       if (!b || b.kind === "none") continue;
       const bills = ctx.billsByMeter.get(m.meterId) ?? [];
+      const window = ctx.asOf === null ? null : meterYearWindow(bills, ctx.asOf);
+      if (!window) continue;
+      const priorWindow = { start: addDays(window.start, -365), end: window.start };
       if (bills.length === 0 || bills[0].periodStart > priorWindow.start || bills[bills.length - 1].periodEnd < window.end) continue;
       const exp = new Map(b.perBill.map((e) => [e.billId, e]));
       let n = 0;

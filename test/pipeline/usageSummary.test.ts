@@ -1,7 +1,7 @@
 /** Last-12-month usage: proration at the window edges and unit conversion (hand-computed). */
 import { describe, expect, it } from "vitest";
 import type { Bill, Building, Meter } from "../../src/domain/types.ts";
-import { billUsageInWindow, buildingUsageLast12m, last12MonthsWindow } from "../../src/pipeline/usageSummary.ts";
+import { billUsageInWindow, buildingUsageLast12m, last12MonthsWindow, meterYearWindow, metersCostLast12m, prorateToWindow, siteKwhLast12m } from "../../src/pipeline/usageSummary.ts";
 
 const src = { file: "t.csv", line: 1 };
 const building: Building = {
@@ -45,5 +45,37 @@ describe("last-12-months usage", () => {
     expect(gas!.unit).toBe("therm");
     expect(gas!.actualLast12m).toBeCloseTo(1244.4, 6);
     expect(gas!.coverage).toBeCloseTo(360 / 365, 10);
+  });
+
+  it("a meter's window ends at the earlier of as_of and its last read (hand-computed)", () => {
+    const bills = [bill("E", "2025-10-10", "2025-11-10", 1), bill("E", "2025-11-10", "2025-12-10", 1)];
+    // Last read 2025-12-10 (exclusive end) is before as_of 2025-12-31: the 365 days up to it.
+    expect(meterYearWindow(bills, "2025-12-31")).toEqual({ start: "2024-12-10", end: "2025-12-10" });
+    // as_of 2025-11-30 is earlier: the 365 days up to and including as_of.
+    expect(meterYearWindow(bills, "2025-11-30")).toEqual({ start: "2024-12-01", end: "2025-12-01" });
+    // Last read exactly the day after as_of: both rules give the same window.
+    expect(meterYearWindow(bills, "2025-12-09")).toEqual({ start: "2024-12-10", end: "2025-12-10" });
+    expect(meterYearWindow([], "2025-12-31")).toBeNull();
+  });
+
+  it("prorates cost by days inside each meter's own window (hand-computed)", () => {
+    const withTotal = (b: Bill, total: number): Bill => ({ ...b, total });
+    // E: last read 2025-12-10 → window 2024-12-10 … 2025-12-09. Bill 2024-11-25 … 2024-12-25
+    // ($300 over 30 days) counts 15 days = $150; bill 2024-12-25 … 2025-12-10 ($1,000) whole.
+    // W: last read 2025-06-01 → window 2024-06-01 … 2025-05-31; its one bill ($50) is inside.
+    const byMeter = new Map<string, Bill[]>([
+      ["E", [withTotal(bill("E", "2024-11-25", "2024-12-25", 0), 300), withTotal(bill("E", "2024-12-25", "2025-12-10", 0), 1000)]],
+      ["W", [withTotal(bill("W", "2025-05-01", "2025-06-01", 0), 50)]],
+    ]);
+    expect(metersCostLast12m([{ meterId: "E" }, { meterId: "W" }], byMeter, "2025-12-31")).toBeCloseTo(1200, 10);
+    expect(metersCostLast12m([{ meterId: "X" }], byMeter, "2025-12-31")).toBeNull();
+    expect(prorateToWindow(310, "2025-12-15", "2026-01-15", { start: "2025-01-01", end: "2026-01-01" })).toBeCloseTo(170, 10);
+  });
+
+  it("site energy = kWh + therm × 29.3071… (1 therm = 100,000 Btu, U.S. EIA; 1 Btu = 1,055.05585262 J, NIST SP 811); water excluded", () => {
+    const kwhPerTherm = (100_000 * 1055.05585262) / 3_600_000; // 29.30710701…
+    expect(siteKwhLast12m([{ commodity: "electricity", actualLast12m: 1000 }, { commodity: "gas", actualLast12m: 10 }, { commodity: "water", actualLast12m: 5 }])).toBeCloseTo(1000 + 10 * kwhPerTherm, 9);
+    expect(siteKwhLast12m([{ commodity: "electricity", actualLast12m: 1000 }, { commodity: "gas", actualLast12m: null }])).toBeNull();
+    expect(siteKwhLast12m([{ commodity: "water", actualLast12m: 5 }])).toBeNull();
   });
 });

@@ -218,19 +218,21 @@ describe("portfolio charts", () => {
     const building = { buildingId: "X", floorAreaM2: 1000 } as Building;
     const meter = { meterId: "M", buildingId: "X", commodity: "electricity", unit: "kWh" } as Meter;
     const bills: Bill[] = [];
+    // Two non-leap years of calendar-month bills, so each 365-day window is one calendar year.
     for (let i = 0; i < 24; i++) {
-      const start = new Date(Date.UTC(2023, i, 1)).toISOString().slice(0, 10);
-      const end = new Date(Date.UTC(2023, i + 1, 1)).toISOString().slice(0, 10);
+      const start = new Date(Date.UTC(2021, i, 1)).toISOString().slice(0, 10);
+      const end = new Date(Date.UTC(2021, i + 1, 1)).toISOString().slice(0, 10);
       bills.push({ billId: `b${i}`, meterId: "M", periodStart: start, periodEnd: end, usage: 100 } as Bill);
     }
     // Year 2 actual weather was harsher: expected at actual 100 → typical 110 in year 1, and
     // 100 → 121 in year 2: adjusted 110 per bill, then 121 → +10 %.
     const baseline = { meterId: "M", kind: "3PH", perBill: bills.map((b, i) => ({ billId: b.billId, expectedAtActualWeather: 100, expectedAtTypicalWeather: i < 12 ? 110 : 121 })) } as unknown as ReportBaseline;
-    const ctx: BuildingContext = { building, meters: [meter], billsByMeter: new Map([["M", bills]]), window: null, currency: "USD" };
-    const change = normalizedChangePct([ctx], [baseline], { start: "2024-01-01", end: "2025-01-01" }, { start: "2023-01-01", end: "2024-01-01" });
-    expect(change).toBeCloseTo(10, 9);
+    const ctx: BuildingContext = { building, meters: [meter], billsByMeter: new Map([["M", bills]]), asOf: "2022-12-31", heatContentOf: () => 1.037, currency: "USD" };
+    expect(normalizedChangePct([ctx], [baseline])).toBeCloseTo(10, 9);
+    // The window ends at the meter's last read even when as_of is later: same answer.
+    expect(normalizedChangePct([{ ...ctx, asOf: "2023-02-20" }], [baseline])).toBeCloseTo(10, 9);
     // Without a baseline for the meter there is nothing to report.
-    expect(normalizedChangePct([ctx], [], { start: "2024-01-01", end: "2025-01-01" }, { start: "2023-01-01", end: "2024-01-01" })).toBeNull();
+    expect(normalizedChangePct([ctx], [])).toBeNull();
   });
 });
 

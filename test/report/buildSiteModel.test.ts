@@ -54,13 +54,43 @@ describe("buildSiteModel on the fixture portfolio", () => {
   });
 
   it("sums the last 12 months of billed cost (window aligned with read dates, so whole bills)", () => {
-    // Latest bill end 2025-03-05 → window 2024-03-05 … 2025-03-04: bills 03..14 of E1 and G1.
-    expect(model.index.windowText).toBe("Mar 5, 2024 – Mar 4, 2025");
+    // Latest bill end 2025-03-05 → as-of 2025-03-04; E1's and G1's last reads are 2025-03-05, so
+    // each meter's window is the 365 days 2024-03-05 … 2025-03-04: bills 03..14 of E1 and G1.
+    expect(model.index.windowText).toBe("the 12 months up to each meter's last read, ending no later than Mar 4, 2025");
     const inWindow = input.portfolio.bills.filter((b) => b.meterId !== "E2" && b.periodStart >= "2024-03-05");
     expect(inWindow).toHaveLength(24);
     const expected = inWindow.reduce((s, b) => s + b.total, 0);
     const shown = b1.summary.find((f) => f.label === "Billed cost, last 12 months")!.value;
     expect(shown).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(expected));
+  });
+
+  it("uses each meter's own window: a later as_of does not cut unbilled days off the cost (hand-computed)", () => {
+    // as_of 2025-04-20 is after every last read (2025-03-05): each meter's window still ends at
+    // its last read, so the same 24 whole bills count. A calendar window ending on as_of
+    // (2024-04-21 … 2025-04-20) would have dropped most of bill 03 and added no bill for the
+    // unbilled 46 days, showing less than the bills.
+    const later = fixtureInput();
+    later.portfolio.settings = { ...later.portfolio.settings, asOf: "2025-04-20" };
+    const m = buildSiteModel(later);
+    const inWindow = later.portfolio.bills.filter((b) => b.meterId !== "E2" && b.periodStart >= "2024-03-05");
+    const expected = inWindow.reduce((s, b) => s + b.total, 0);
+    const shown = m.buildings.find((b) => b.buildingId === "B1")!.summary.find((f) => f.label === "Billed cost, last 12 months")!.value;
+    expect(shown).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(expected));
+  });
+
+  it("totals findings and money at stake by building on the index, linking to the building's audit section", () => {
+    const cols = model.index.buildingsTable.columns.map((c) => c.label);
+    const iF = cols.indexOf("Findings");
+    const iM = cols.indexOf("Money at stake");
+    expect(iF).toBeGreaterThan(0);
+    const [r1, r2] = model.index.buildingsTable.rows;
+    // Fixture: B1 has a $12.34 total mismatch and an estimated read (no money); B2 has none.
+    expect(r1[iF]).toMatchObject({ text: "2", href: "buildings/B1.html#audit-h" });
+    expect(r1[iM]).toMatchObject({ text: "$12.34", sort: "12.34" });
+    expect(r2[iF].text).toBe("0");
+    expect(r2[iM].text).toBe("$0.00");
+    // The building column sums to the headline figure.
+    expect(model.index.headline.find((h) => h.label.startsWith("Money at stake"))!.value).toBe("$12.34");
   });
 
   it("charts monthly use per commodity, conserving each meter's billed usage", () => {
@@ -80,7 +110,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
     const charted = chart.data.reduce((s, d) => s + d.value, 0);
     // Each month-and-commodity value is rounded to the cent: at most 0.005 off per datum.
     expect(Math.abs(charted - billed)).toBeLessThanOrEqual(0.005 * chart.data.length);
-    expect(model.index.lede).toBe("Utility bills for 2 buildings, each re-priced from its tariff and checked. Figures for the last 12 months cover Mar 5, 2024 – Mar 4, 2025.");
+    expect(model.index.lede).toBe("Utility bills for 2 buildings, each re-priced from its tariff and checked. Figures for the last 12 months cover the 12 months up to each meter's last read, ending no later than Mar 4, 2025, so a bill not yet received does not read as a drop.");
   });
 
   it("lists interval data coverage by month", () => {

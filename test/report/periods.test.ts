@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { addMonthsIso, prorateToWindow, spreadOverMonths, trailingYear } from "../../src/report/periods.ts";
+import { addMonthsIso, last12MonthsText, prorateToWindow, spreadOverMonths } from "../../src/report/periods.ts";
 import type { Bill } from "../../src/domain/types.ts";
 
 const bill = (start: string, end: string): Bill => ({
@@ -7,15 +7,10 @@ const bill = (start: string, end: string): Bill => ({
   demandKw: null, powerFactor: null, total: 1, statementDate: null, source: { file: "bills.csv", line: 2 },
 });
 
-describe("trailingYear", () => {
-  it("ends the day after as_of and starts 12 months earlier", () => {
-    expect(trailingYear({ asOf: "2025-12-31" }, [])).toEqual({ start: "2025-01-01", end: "2026-01-01" });
-  });
-  it("otherwise ends at the latest bill end", () => {
-    expect(trailingYear({ asOf: null }, [bill("2024-01-05", "2024-02-05"), bill("2025-02-05", "2025-03-05")])).toEqual({ start: "2024-03-05", end: "2025-03-05" });
-  });
-  it("is null without bills", () => {
-    expect(trailingYear({ asOf: null }, [])).toBeNull();
+describe("last12MonthsText", () => {
+  it("names the per-meter rule and the as-of date", () => {
+    expect(last12MonthsText("2025-12-31")).toBe("the 12 months up to each meter's last read, ending no later than Dec 31, 2025");
+    expect(last12MonthsText(null)).toBe("no bills");
   });
 });
 
