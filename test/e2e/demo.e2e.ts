@@ -5,7 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { existsSync } from "node:fs";
-import { mkdir, mkdtemp, readdir, rm } from "node:fs/promises";
+import { mkdir, mkdtemp, readFile, readdir, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { BrowserContext } from "playwright-core";
@@ -21,12 +21,14 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
   let server: RunningServer;
   let context: BrowserContext;
   let pages: string[] = [];
+  let siteDir = "";
   const outsideRequests: string[] = [];
   const dialogs: string[] = [];
 
   beforeAll(async () => {
     work = await mkdtemp(join(tmpdir(), "ohmbook-demo-e2e-"));
     const site = join(work, "site");
+    siteDir = site;
     await buildPortfolioSite({ dir: DEMO, outDir: site, strict: false, buildDate: "2026-01-15" });
     // Building pages and tenant pages (buildings/<id>/tenant.html).
     const built = (await readdir(join(site, "buildings"), { recursive: true })).map((f) => f.split("\\").join("/"));
@@ -91,6 +93,46 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
     expect(changes).toEqual([...changes].sort((a, b) => b - a));
     await page.close();
   }, 120_000);
+
+  it("the index's last-12-months use equals portfolio.json's actual_last_12m, and its findings columns equal findings.json", async () => {
+    const json = JSON.parse(await readFile(join(siteDir, "data", "portfolio.json"), "utf8")) as {
+      buildings: { name: string; [commodity: string]: unknown }[];
+    };
+    const findings = JSON.parse(await readFile(join(siteDir, "data", "findings.json"), "utf8")) as unknown;
+    const findingList = (Array.isArray(findings) ? findings : (findings as { findings: unknown[] }).findings) as { building_id: string; amount_at_stake: number | null }[];
+    const { page } = await openPage(context, `${server.origin}${PREFIX}index.html`, dialogs);
+    const table = page.locator('table:has(caption:text("Buildings: floor area"))');
+    const header = await table.locator("thead th").allInnerTexts();
+    const rows = await table.locator("tbody tr").evaluateAll((trs) =>
+      trs.map((tr) => [...(tr as HTMLTableRowElement).cells].map((c) => ({ text: c.textContent?.trim() ?? "", sort: (c as HTMLElement).dataset.sort ?? null, href: c.querySelector("a")?.getAttribute("href") ?? null }))),
+    );
+    await page.close();
+    // Header cells may carry a sort control after the label.
+    const col = (label: string): number => header.findIndex((h) => h.trim().startsWith(label));
+    expect(rows.length).toBe(json.buildings.length);
+    let compared = 0;
+    for (const b of json.buildings) {
+      const row = rows.find((r) => r[0].text === b.name);
+      expect(row, b.name).toBeDefined();
+      for (const [commodity, label] of [["electricity", "Electricity use"], ["gas", "Gas use"], ["water", "Water use"]] as const) {
+        const summary = b[commodity] as { actual_last_12m: number | null } | undefined;
+        const cell = row![col(label)];
+        if (!summary || summary.actual_last_12m === null) {
+          expect(cell.text, `${b.name} ${commodity}`).toBe("—");
+          continue;
+        }
+        // portfolio.json rounds to 3 decimals; the page keeps the full value for sorting.
+        expect(Math.abs(Number(cell.sort) - summary.actual_last_12m), `${b.name} ${commodity}`).toBeLessThanOrEqual(0.0005 + 1e-9);
+        compared++;
+      }
+      const mine = findingList.filter((f) => f.building_id === (b as unknown as { building_id: string }).building_id);
+      const atStake = mine.reduce((s, f) => s + (f.amount_at_stake !== null && f.amount_at_stake > 0 ? f.amount_at_stake : 0), 0);
+      expect(Number(row![col("Findings")].sort), b.name).toBe(mine.length);
+      expect(Number(row![col("Money at stake")].sort), b.name).toBeCloseTo(atStake, 6);
+      expect(row![col("Money at stake")].href, b.name).toMatch(/^buildings\/[^/]+\.html#audit-h$/);
+    }
+    expect(compared).toBeGreaterThanOrEqual(20);
+  }, 60_000);
 
   it("asked no host other than 127.0.0.1", () => {
     expect(outsideRequests).toEqual([]);
