@@ -63,7 +63,7 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     tenants: contexts
       .filter((ctx) => ctx.building.tenantPage)
       .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines))),
-    methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf))),
+    methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf), settings.tolerances)),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
   };
 }

@@ -314,6 +314,10 @@ export interface MethodsPage extends PageBase {
   currency: string;
   unitFactors: UnitFactorRow[];
   windowText: string;
+  /** This portfolio's audit tolerances in words. */
+  tolerances: LabelValue[];
+  /** Every audit check code with its rule, severity, money at stake and source. */
+  checksTable: TableModel;
 }
 
 export interface DataFileRow {
