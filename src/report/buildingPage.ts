@@ -67,7 +67,7 @@ export function buildBuildingPage(input: ReportInput, ctx: BuildingContext): Omi
     { label: "Weather station", value: b.weatherStation },
     { label: "Meters", value: formatNumber(meters.length) },
     { label: "Bills", value: formatNumber(allBills.length) },
-    { label: "Billed cost, last 12 months", value: formatMoney(last12mCost(ctx), currency) },
+    { label: "Billed cost, the 12 months up to each meter's last read", value: formatMoney(last12mCost(ctx), currency) },
   ];
   const commodities: CommoditySection[] = [];
   for (const c of ["electricity", "gas", "water"] as const) {

@@ -60,7 +60,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
     const inWindow = input.portfolio.bills.filter((b) => b.meterId !== "E2" && b.periodStart >= "2024-03-05");
     expect(inWindow).toHaveLength(24);
     const expected = inWindow.reduce((s, b) => s + b.total, 0);
-    const shown = b1.summary.find((f) => f.label === "Billed cost, last 12 months")!.value;
+    const shown = b1.summary.find((f) => f.label === "Billed cost, the 12 months up to each meter's last read")!.value;
     expect(shown).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(expected));
   });
 
@@ -74,7 +74,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
     const m = buildSiteModel(later);
     const inWindow = later.portfolio.bills.filter((b) => b.meterId !== "E2" && b.periodStart >= "2024-03-05");
     const expected = inWindow.reduce((s, b) => s + b.total, 0);
-    const shown = m.buildings.find((b) => b.buildingId === "B1")!.summary.find((f) => f.label === "Billed cost, last 12 months")!.value;
+    const shown = m.buildings.find((b) => b.buildingId === "B1")!.summary.find((f) => f.label === "Billed cost, the 12 months up to each meter's last read")!.value;
     expect(shown).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(expected));
   });
 
@@ -110,7 +110,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
     const charted = chart.data.reduce((s, d) => s + d.value, 0);
     // Each month-and-commodity value is rounded to the cent: at most 0.005 off per datum.
     expect(Math.abs(charted - billed)).toBeLessThanOrEqual(0.005 * chart.data.length);
-    expect(model.index.lede).toBe("Utility bills for 2 buildings, each re-priced from its tariff and checked. Figures for the last 12 months cover the 12 months up to each meter's last read, ending no later than Mar 4, 2025, so a bill not yet received does not read as a drop.");
+    expect(model.index.lede).toBe("Utility bills for 2 buildings, each re-priced from its tariff and checked. “Last 12 months” means the 12 months up to each meter's last read, ending no later than Mar 4, 2025, so a bill not yet received does not read as a drop.");
   });
 
   it("lists interval data coverage by month", () => {
