@@ -20,7 +20,7 @@ import type { IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import type { MeteredViews } from "./meteredViews.ts";
 import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
 import { weatherGapDetections } from "./dataQuality.ts";
-import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT } from "./usageSummary.ts";
+import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT, siteKwhLast12m } from "./usageSummary.ts";
 import { unitFactor } from "../tariff/units.ts";
 import { kwhPerM2ToKbtuPerFt2 } from "../report/energy.ts";
 
@@ -262,10 +262,7 @@ function portfolioJson(input: OutputsInput) {
       }
       const count = (s: string) => r.findings.filter((f) => f.severity === s).length;
       // Site energy: electricity kWh + gas therms × 29.3071 kWh/therm (EIA therm, NIST Btu).
-      const energy = usage.filter((u) => KWH_PER_REPORT_UNIT[u.commodity] !== null);
-      const siteKwh = energy.length > 0 && energy.every((u) => u.actualLast12m !== null)
-        ? energy.reduce((sum, u) => sum + u.actualLast12m! * KWH_PER_REPORT_UNIT[u.commodity]!, 0)
-        : null;
+      const siteKwh = siteKwhLast12m(usage);
       return {
         building_id: b.buildingId,
         name: b.name,
