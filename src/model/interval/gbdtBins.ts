@@ -4,6 +4,7 @@
  * values (the histogram method of LightGBM and scikit-learn's HistGradientBoosting).
  */
 import { ModelInputError } from "../errors.ts";
+import { lowerBound } from "../../core/time.ts";
 
 /** Cut points of one feature: bin(x) = number of cuts c with x > c; NaN goes to the last bin. */
 export interface FeatureBins {
@@ -42,16 +43,8 @@ export function binCuts(values: ArrayLike<number>, maxBins: number): FeatureBins
  * @example binOf({ cuts: Float64Array.of(1.5, 2.5) }, 2) // 1
  */
 export function binOf(bins: FeatureBins, x: number): number {
-  const c = bins.cuts;
-  if (Number.isNaN(x)) return c.length;
-  let lo = 0;
-  let hi = c.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (c[mid]! < x) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
+  if (Number.isNaN(x)) return bins.cuts.length;
+  return lowerBound(bins.cuts, x);
 }
 
 /** Bin a whole column. */

@@ -24,6 +24,7 @@ import { ModelInputError } from "../errors.ts";
 import { HOUR_MS } from "./hourlyFeatures.ts";
 import { selectFrameRows } from "./hourlyFrame.ts";
 import type { HourlyFrame, HourlyModelSpec } from "./types.ts";
+import { lowerBound } from "../../core/time.ts";
 
 export interface TimeSeriesCvOptions {
   /** Number of folds. Default 4. */
@@ -81,16 +82,6 @@ export interface CvResult {
   selectionCvRmsePct: number;
 }
 
-function lowerBound(a: Float64Array, v: number): number {
-  let lo = 0;
-  let hi = a.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (a[mid]! < v) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
 
 const YEAR_HOURS = 364 * 24;
 
