@@ -104,7 +104,7 @@ describe("spec-only portfolio through the CLI", () => {
   beforeAll(async () => {
     out = join(await mkdtemp(join(tmpdir(), "ohmbook-spec-")), "site");
     buildIo = recorder();
-    buildCode = await runCli(["build", FIXTURE, "--out", out, "--quiet"], buildIo);
+    buildCode = await runCli(["build", FIXTURE, "--out", out], buildIo);
   }, TIMEOUT_MS);
 
   it("check exits 0", async () => {
@@ -222,6 +222,39 @@ describe("spec-only portfolio through the CLI", () => {
     const index = await readFile(join(out, "index.html"), "utf8");
     expect(index).toContain("Larkspur &quot;North&quot; Annex &amp; Depot");
   });
+
+  it("forecast.csv has 12 calendar months after as_of for every meter", async () => {
+    const rows = await readCsv(join(out, "data", "forecast.csv"));
+    const months = [
+      "2025-02", "2025-03", "2025-04", "2025-05", "2025-06", "2025-07",
+      "2025-08", "2025-09", "2025-10", "2025-11", "2025-12", "2026-01",
+    ]; // as_of 2025-01-31, forecast_months 12
+    for (const meter of ["N1-E", "N1-G", "S2-E", "S2-G", "E3-W"]) {
+      expect(rows.filter((r) => r.meter_id === meter).map((r) => r.month), meter).toEqual(months);
+    }
+    for (const r of rows) {
+      expect(Number(r.cost_p10)).toBeLessThanOrEqual(Number(r.cost_p50));
+      expect(Number(r.cost_p50)).toBeLessThanOrEqual(Number(r.cost_p90));
+    }
+  });
+
+  // KNOWN PROBLEM (left visible): inputs.md allows a typical year built from fewer than 3 years
+  // of weather history "with a warning". The fixture has 15 months of weather and no normals, yet
+  // no warning appears in `check` output, the build's output, ingest-report.json or any page
+  // (the building pages only say "Typical weather from the station's own history").
+  // Remove `.fails` once such a warning is written somewhere a user sees it.
+  it.fails("a warning says the typical weather year rests on fewer than 3 years of history", async () => {
+    const check = recorder();
+    await runCli(["check", FIXTURE], check);
+    const pages = await Promise.all(
+      (await listFiles(out)).filter((p) => p.endsWith(".html")).map((p) => readFile(p, "utf8")));
+    const said = [
+      check.stdout, check.stderr, buildIo.stdout, buildIo.stderr,
+      await readFile(join(out, "data", "ingest-report.json"), "utf8"),
+      ...pages.map((h) => h.replace(/<[^>]*>/g, " ")),
+    ].join("\n");
+    expect(said).toMatch(/(fewer|less) than (3|three) years|only (\d+(\.\d+)?|one|two) years?|\b[12](\.\d+)? years? of (weather|history)/i);
+  }, TIMEOUT_MS);
 
   it("price --usage --json prices the version-2 MWh bill to the cent (398.32)", async () => {
     // Hand-computed case 1 above; the CLI takes usage in the tariff's usage_unit (kWh).
