@@ -97,5 +97,22 @@ export async function loadWeatherFolder(input: WeatherFolderInput): Promise<Weat
         hint: "add the station's readings to weather/ or correct the station id; weather normalization is skipped without them" });
     }
   }
+  // Without a normals file the typical year is averaged from the history (inputs contract):
+  // fewer than 3 years is allowed, with a warning, because one odd year then weighs heavily.
+  const usedStations = new Set(buildings.map((b) => b.weatherStation));
+  for (const [stationId, series] of weather) {
+    if (!usedStations.has(stationId) || normals.has(stationId)) continue;
+    let hours = 0;
+    for (let i = 0; i < series.tempC.length; i++) if (Number.isFinite(series.tempC[i])) hours++;
+    const years = hours / 8766;
+    if (years < MIN_TYPICAL_YEARS) {
+      issues.push({ file: fileOfStation.get(stationId) ?? label("weather"), line: 0, column: 0, severity: "warning",
+        message: `station ${stationId}: the typical weather year is built from only ${years.toFixed(1)} years of history (fewer than ${MIN_TYPICAL_YEARS}) and no normals file`,
+        hint: `add weather/normals/${stationId}.csv (8,760 hourly rows of a typical year) or more years of history` });
+    }
+  }
   return { weather, normals, gaps, issues };
 }
+
+/** Years of history preferred for a typical year built from the station's own data. */
+const MIN_TYPICAL_YEARS = 3;

@@ -266,7 +266,7 @@ function portfolioJson(input: OutputsInput) {
       return {
         building_id: b.buildingId,
         name: b.name,
-        floor_area_m2: round(b.floorAreaM2, 3),
+        floor_area_m2: b.floorAreaM2,
         ...commodities,
         site_eui_kwh_m2: siteKwh === null ? null : round(siteKwh / b.floorAreaM2, 3),
         site_eui_kbtu_ft2: siteKwh === null ? null : round(kwhPerM2ToKbtuPerFt2(siteKwh / b.floorAreaM2), 3),

@@ -178,10 +178,9 @@ describe("spec-only portfolio through the CLI", () => {
     expect(area["EAST-3"]).toBeCloseTo(12000 * M2_PER_FT2, 2); // explicit ft2 → 1,114.83648
   });
 
-  // KNOWN PROBLEM (left visible): portfolio.json rounds floor_area_m2 to 3 decimals, so
-  // 12,000 ft² is written as 1114.836 instead of the exact 12,000 × 0.09290304 = 1114.83648 m²
-  // (outputs.md states no rounding for this field). Remove `.fails` once the exact value is written.
-  it.fails("portfolio.json floor_area_m2 is the exact ft² × 0.09290304 (no rounding)", async () => {
+  // Regression: portfolio.json once rounded floor_area_m2 to 3 decimals (1114.836 for 12,000 ft²);
+  // the contract states no rounding, so the exact 12,000 × 0.09290304 = 1114.83648 m² is written.
+  it("portfolio.json floor_area_m2 is the exact ft² × 0.09290304 (no rounding)", async () => {
     const area = await areasM2();
     expect(area["SOUTH-2"]).toBeCloseTo(25000 * M2_PER_FT2, 9);
     expect(area["EAST-3"]).toBeCloseTo(12000 * M2_PER_FT2, 9);
@@ -238,12 +237,9 @@ describe("spec-only portfolio through the CLI", () => {
     }
   });
 
-  // KNOWN PROBLEM (left visible): inputs.md allows a typical year built from fewer than 3 years
-  // of weather history "with a warning". The fixture has 15 months of weather and no normals, yet
-  // no warning appears in `check` output, the build's output, ingest-report.json or any page
-  // (the building pages only say "Typical weather from the station's own history").
-  // Remove `.fails` once such a warning is written somewhere a user sees it.
-  it.fails("a warning says the typical weather year rests on fewer than 3 years of history", async () => {
+  // Regression: inputs.md allows a typical year built from fewer than 3 years of weather history
+  // "with a warning"; the fixture has 15 months and no normals, and the warning once was missing.
+  it("a warning says the typical weather year rests on fewer than 3 years of history", async () => {
     const check = recorder();
     await runCli(["check", FIXTURE], check);
     const pages = await Promise.all(
