@@ -5,10 +5,11 @@
  * changes are located by bisection, and every instant is then placed by plain arithmetic:
  * a month of 15-minute data costs a few dozen zone look-ups, not thousands.
  */
-import { DateTime, IANAZone } from "luxon";
+import { IANAZone } from "luxon";
 import { PricingError } from "./errors.ts";
 import { usFederalHolidays } from "./holidays.ts";
 import type { HolidayRule, Period, Season, TariffVersion } from "./model.ts";
+import { localMidnightMs as coreLocalMidnightMs } from "../core/time.ts";
 
 export interface LocalDay {
   /** Local date `YYYY-MM-DD`. */
@@ -43,18 +44,13 @@ export function assertZone(zone: string): void {
   }
 }
 
-const midnightCache = new Map<string, number>();
-
-/** UTC instant (ms) of local midnight starting `date` in `zone` (cached). */
+/**
+ * UTC instant (ms) of local midnight starting `date` in `zone`: the shared, cached helper of
+ * src/core/time.ts, after the zone check that turns a bad zone into a PricingError.
+ */
 export function localMidnightMs(date: string, zone: string): number {
-  const key = `${zone}|${date}`;
-  const hit = midnightCache.get(key);
-  if (hit !== undefined) return hit;
   assertZone(zone);
-  const ms = DateTime.fromISO(date, { zone }).startOf("day").toMillis();
-  if (midnightCache.size > 50_000) midnightCache.clear();
-  midnightCache.set(key, ms);
-  return ms;
+  return coreLocalMidnightMs(date, zone);
 }
 
 /** A stretch of time with one UTC offset. */
