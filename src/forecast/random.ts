@@ -5,6 +5,8 @@
  * small degrees of freedom of a monthly model).
  */
 
+import { mulberry32Uint32 } from "../core/random.ts";
+
 /** A generator of uniforms in (0, 1). */
 export type Uniform = () => number;
 
@@ -13,15 +15,9 @@ export type Uniform = () => number;
  * @example const u = mulberry32(42); u(); // same first value on every run
  */
 export function mulberry32(seed: number): Uniform {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    // Shift into (0, 1): Box–Muller takes log(u) and u = 0 would be -Infinity.
-    return (((t ^ (t >>> 14)) >>> 0) + 0.5) / 4294967296;
-  };
+  const next = mulberry32Uint32(seed);
+  // Shift into (0, 1): Box–Muller takes log(u) and u = 0 would be -Infinity.
+  return () => (next() + 0.5) / 4294967296;
 }
 
 /** A 32-bit seed from a string (FNV-1a), so each meter gets its own stream. */

@@ -1,15 +1,5 @@
 /**
- * Small seeded pseudo-random generator (mulberry32, a public-domain 32-bit generator) so
- * row subsampling is reproducible: the same seed gives the same model on every machine.
- * @example const next = mulberry32(1); next() // a number in [0, 1)
+ * Seeded uniforms in [0, 1) so row subsampling is reproducible: the same seed gives the same
+ * model on every machine (the shared generator in src/core/random.ts).
  */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { mulberry32 } from "../../core/random.ts";
