@@ -4,25 +4,13 @@
  */
 import type { Bill, Building, Meter, Portfolio, PortfolioSettings } from "../../src/domain/types.ts";
 import type { ComputedBill } from "../../src/tariff/types.ts";
+import { DEFAULT_SETTINGS } from "../../src/ingest/portfolioYaml.ts";
 import type { MonthlyMetered, PricedBill, ReportInput } from "../../src/report/input.ts";
 
 export const EVIL_NAME = `<script>alert(1)</script> & "Annex"`;
 
-const settings: PortfolioSettings = {
-  name: "Tern Lake Holdings",
-  currency: "USD",
-  asOf: null,
-  forecastMonths: 12,
-  escalation: { electricity: 0, gas: 0, water: 0 },
-  escalationStated: false,
-  tolerances: { usagePct: 2, demandPct: 3, costAbs: 1, costPct: 0.5 },
-  degreeDayBase: { heating: 18, cooling: 18, unit: "C" },
-  basePath: "/reports/",
-  intervalTimestamp: "start",
-  weatherMaxGapHours: 6,
-  cleaning: {},
-  alignment: { offsetsHours: {}, auto: false },
-};
+// The defaults of portfolio.yaml, with a name and a sub-path to host under.
+const settings: PortfolioSettings = { ...structuredClone(DEFAULT_SETTINGS), name: "Tern Lake Holdings", basePath: "/reports/" };
 
 function building(id: string, name: string, areaFt2: number, useType: string | null): Building {
   return {
