@@ -9,12 +9,42 @@
 import type { Portfolio } from "../domain/types.ts";
 import type { InputIssue } from "../core/issues.ts";
 import type { ComputedBill } from "../tariff/types.ts";
+import type { Dispute } from "../disputes/types.ts";
 
-/** Outcome of re-pricing one bill: a computed bill, or the reason it could not be priced. */
+/**
+ * Outcome of re-pricing one bill. A bill has up to two recomputations, each on one basis only
+ * (bases are never mixed inside one recomputation):
+ *  - `computed`: on the BILLED quantities (usage and demand as printed; interval data, scaled to
+ *    the billed usage, only splits time-of-use periods). Checks the arithmetic and the rates.
+ *  - `metered`: on the METERED quantities (interval sum × multiplier and the meter's peak), when
+ *    interval data covers the period. Checks the quantities.
+ */
 export interface PricedBill {
   computed: ComputedBill | null;
   /** Plain-words reason when `computed` is null (e.g. "tariff T9 not found"). */
   error: string | null;
+  /** Re-priced on metered quantities; null/absent when interval data does not cover the period. */
+  metered?: ComputedBill | null;
+  /** Metered usage the `metered` recomputation used (bill unit, multiplier applied). */
+  meteredUsage?: number | null;
+  /** Metered peak demand (kW) over the period, when the meter is electricity with interval data. */
+  meteredDemandKw?: number | null;
+}
+
+/**
+ * How far a bill could be checked: `exact` (every line of the billed-basis recomputation is
+ * exact, so its total can be compared), `estimated` (time-of-use or period demand split by the
+ * building's load shape: shown, never compared), `needs-interval-data` (such a split could not
+ * even be estimated), `not-priced` (no usable tariff).
+ */
+export type BillCheckState = "exact" | "estimated" | "needs-interval-data" | "not-priced";
+
+/** The check state of a priced bill (see BillCheckState). */
+export function billCheckState(priced: PricedBill | undefined): BillCheckState {
+  const c = priced?.computed;
+  if (!c) return "not-priced";
+  if (c.exact) return "exact";
+  return c.lines.some((l) => l.status === "needs-interval-data") ? "needs-interval-data" : "estimated";
 }
 
 /** One calendar month of interval-meter data for one meter, multiplier applied, in the meter's bill unit. */
@@ -272,6 +302,11 @@ export interface ReportInput {
   rejectedRowsByBuilding?: Map<string, number>;
   /** Audit findings, when the audit stage ran. */
   findings?: ReportFinding[];
+  /**
+   * Claims and back-billing risks built from the findings (src/disputes), largest claim first.
+   * The bills table, the dispute list and disputes.csv all read their money from here.
+   */
+  disputes?: Dispute[];
   /** Chosen model per meter, when the model stage ran. */
   models?: ReportModelSummary[];
   /** Cost forecast by meter and month, when the forecast stage ran. */
