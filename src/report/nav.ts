@@ -1,7 +1,7 @@
 /** Site navigation with links relative to the page showing it, so the site works under any path prefix. */
 import type { NavLink } from "./siteModel.ts";
 
-export type PageKey = "index" | "methods" | "data" | "building";
+export type PageKey = "index" | "disputes" | "methods" | "data" | "building";
 
 /**
  * Navigation links for a page at depth given by `root` ("" at the site root, "../" one level down).
@@ -10,6 +10,7 @@ export type PageKey = "index" | "methods" | "data" | "building";
 export function navFor(current: PageKey, root: string): NavLink[] {
   return [
     { label: "Portfolio", href: `${root}index.html`, current: current === "index" },
+    { label: "Bills to dispute", href: `${root}${DISPUTES_PATH}`, current: current === "disputes" },
     { label: "Methods", href: `${root}methods.html`, current: current === "methods" },
     { label: "Data and downloads", href: `${root}data.html`, current: current === "data" },
   ];
@@ -28,4 +29,31 @@ export function canonicalFor(basePath: string, path: string): string {
 /** Path of a building page relative to the site root; building ids are `[A-Za-z0-9_-]+` (inputs.md). */
 export function buildingPath(buildingId: string): string {
   return `buildings/${encodeURIComponent(buildingId)}.html`;
+}
+
+/** The dispute list (every claim and back-billing risk), relative to the site root. */
+export const DISPUTES_PATH = "disputes.html";
+
+/**
+ * A text made safe for a file name or fragment: letters, digits, `_` and `-` stay; every other
+ * character becomes `~` + its code point in hex (injective, so two ids never share a name).
+ * @example fileSafe("M:1") // "M~3a1"
+ */
+export function fileSafe(text: string): string {
+  return text.replace(/[^A-Za-z0-9_-]/gu, (c) => `~${c.codePointAt(0)!.toString(16)}`);
+}
+
+/** The printable claim sheet of one dispute; dispute ids are file-safe by contract (src/disputes/types.ts). */
+export function claimPath(disputeId: string): string {
+  return `claims/${fileSafe(disputeId)}.html`;
+}
+
+/** The page with one meter's bills and the line-by-line re-pricing of each. */
+export function meterBillsPath(buildingId: string, meterId: string): string {
+  return `bills/${fileSafe(buildingId)}/${fileSafe(meterId)}.html`;
+}
+
+/** Fragment id of one bill's re-pricing on its meter's bills page. */
+export function billAnchor(billId: string): string {
+  return `bill-${fileSafe(billId)}`;
 }
