@@ -1,0 +1,121 @@
+/** The printable claim sheet of one dispute. Fixture disputes: test/report/disputeFixture.ts. */
+import { describe, expect, it } from "vitest";
+import { buildClaimSheet, buildClaimSheets } from "../../src/report/claimSheet.ts";
+import { EVIL_NAME, fixtureInput } from "./fixture.ts";
+import { DUPLICATE_CLAIM, GAP_RISK, LINE_CLAIM, MULTIPLIER_CLAIM, disputeFixture } from "./disputeFixture.ts";
+
+const portfolio = fixtureInput().portfolio;
+const building = (id: string) => portfolio.buildings.find((b) => b.buildingId === id);
+const value = (items: { label: string; value: string }[], label: string): string | undefined => items.find((i) => i.label === label)?.value;
+
+describe("claim sheet", () => {
+  it("heads the sheet with the dispute's own figures: portfolio, building, account, meter, bills, period, claim", () => {
+    const s = buildClaimSheet(MULTIPLIER_CLAIM, portfolio, building("B2"), "Jan 15, 2026");
+    expect(s.path).toBe("claims/D-E2-2024-08.html");
+    expect(s.root).toBe("../");
+    expect(s.title).toBe(`Claim: ${EVIL_NAME}, bills E2-08, E2-09`);
+    expect(s.kindLabel).toBe("Billing claim");
+    expect(s.amountLabel).toBe("Claim (billed − corrected)");
+    expect(s.amount).toBe("$24,967.83");
+    expect(value(s.header, "Portfolio")).toBe("Tern Lake Holdings");
+    expect(value(s.header, "Building")).toBe(EVIL_NAME);
+    expect(value(s.header, "Utility account")).toBe("ACC-<7>&\"9\"");
+    expect(value(s.header, "Meter")).toBe("E2");
+    expect(value(s.header, "Bills")).toBe("E2-08, E2-09");
+    expect(value(s.header, "Service period")).toBe("Aug 5, 2024 – Oct 4, 2024");
+    expect(value(s.header, "Billed")).toBe("$49,935.66");
+    expect(value(s.header, "Corrected")).toBe("$24,967.83");
+    expect(value(s.header, "Kind")).toBe("Claim: the bill is too high");
+    expect(value(s.header, "Corrected on")).toBe("Wrong meter multiplier");
+    expect(value(s.header, "Checks")).toBe("Possible meter multiplier error; Billed usage differs from the interval meter; Bill total differs from the tariff");
+    expect(value(s.header, "Prepared")).toBe("Jan 15, 2026");
+    expect(s.what).toBe("Billed usage is twice what the meter recorded");
+    expect(s.explanation).toMatch(/^Usage and demand on both bills are exactly 2 × the interval data\. The bill's usage and demand are a multiple/);
+  });
+
+  it("for each bill: totals, tariff and versions, printed beside corrected lines, the arithmetic, billed vs metered vs corrected quantities", () => {
+    const s = buildClaimSheet(MULTIPLIER_CLAIM, portfolio, building("B2"), "Jan 15, 2026");
+    expect(s.bills).toHaveLength(2);
+    const b = s.bills[0];
+    expect(b.heading).toBe("Bill E2-08, Aug 5, 2024 – Sep 4, 2024");
+    expect(b.anchor).toBe("bill-E2-08");
+    expect(value(b.facts, "Billed total")).toBe("$24,967.83");
+    expect(value(b.facts, "Corrected total")).toBe("$12,483.92");
+    expect(value(b.facts, "Difference (billed − corrected)")).toBe("+$12,483.91");
+    expect(value(b.facts, "Tariff")).toBe("T-electricity");
+    expect(value(b.facts, "Tariff versions applied")).toBe("version in force from Jan 1, 2023: 31 billing days (100%)");
+    expect(value(b.facts, "Corrected bill priced on")).toBe("metered usage and demand (interval data, multiplier 1)");
+    expect(b.lines!.columns.map((c) => c.label)).toEqual(["Line", "Printed", "Corrected", "Difference (printed − corrected)"]);
+    expect(b.lines!.rows[1].map((c) => c.text)).toEqual(["Energy", "$24,942.83", "$12,458.92", "+$12,483.91"]);
+    expect(b.lines!.foot!.map((c) => c.text)).toEqual(["Bill total", "$24,967.83", "$12,483.92", "+$12,483.91"]);
+    expect(b.arithmetic!.rows[1].map((c) => c.text)).toEqual(["Energy", "100,000 kWh", "$0.124589 per kWh", "$12,458.92", "flat rate"]);
+    expect(b.quantities.rows.map((r) => r.map((c) => c.text))).toEqual([
+      ["Usage (kWh)", "200,000 kWh", "100,000 kWh", "100,000 kWh"],
+      ["Demand (kW)", "400 kW", "200 kW", "200 kW"],
+    ]);
+    expect(b.notes).toEqual(["Usage converted from interval data over the local service period."]);
+    expect(b.billsHref).toBe("bills/B2/E2.html#bill-E2-08");
+    // A bill without lines or demand: no line tables, usage only, "no interval data" said in words.
+    expect(s.bills[1].lines).toBeNull();
+    expect(s.bills[1].arithmetic).toBeNull();
+    expect(s.bills[1].quantities.rows.map((r) => r.map((c) => c.text))).toEqual([["Usage (kWh)", "10,000 kWh", "no interval data", "10,000 kWh"]]);
+  });
+
+  it("shows a printed line the tariff has no charge for, and lines without a quantity, without inventing numbers", () => {
+    const s = buildClaimSheet(LINE_CLAIM, portfolio, building("B1"), "Jan 15, 2026");
+    const lines = s.bills[0].lines!;
+    expect(lines.rows.map((r) => r.map((c) => c.text))).toEqual([
+      ["Energy", "$3,369.33", "$3,369.33", "$0.00"],
+      ["Sales tax", "$282.27", "$210.67", "+$71.60"],
+      ["Meter access fee", "$0.00", "—", "—"],
+    ]);
+    expect(s.bills[0].arithmetic!.rows.map((r) => r[0].text)).toEqual(["Energy", "Sales tax"]);
+    expect(s.bills[0].arithmetic!.rows[1].map((c) => c.text)).toEqual(["Sales tax", "—", "—", "$210.67", "6.25 % of 3,369.33"]);
+    expect(s.related).toEqual([{ billId: "E1-04", href: "bills/B1/E1.html#bill-E1-04" }]);
+    expect(value(s.header, "Bill")).toBe("E1-05");
+    expect(value(s.header, "Utility account")).toBe("100-200");
+  });
+
+  it("a duplicate: corrected total zero, the whole bill claimed", () => {
+    const s = buildClaimSheet(DUPLICATE_CLAIM, portfolio, building("B1"), "Jan 15, 2026");
+    expect(s.amount).toBe("$826.90");
+    expect(value(s.bills[0].facts, "Corrected total")).toBe("$0.00");
+    expect(s.explanation).toMatch(/billed twice/);
+  });
+
+  it("a back-billing risk is worded as a budget note, with the estimate's range, not as a claim", () => {
+    const s = buildClaimSheet(GAP_RISK, portfolio, building("B1"), "Jan 15, 2026");
+    expect(s.kindLabel).toBe("Budget note: possible back-billing");
+    expect(s.title).toBe("Budget note: Heron Street Office, E1, Aug 5, 2024 – Sep 4, 2024");
+    expect(s.amountLabel).toBe("Not yet billed (corrected − billed)");
+    expect(s.amount).toBe("$5,693.48");
+    expect(value(s.header, "Kind")).toBe("Budget risk: the utility may bill this later");
+    expect(value(s.header, "Bills")).toBe("none (period not billed)");
+    expect(s.rangeText).toBe("The corrected total is an estimate: between $5,100.12 and $6,301.90, $5,693.48 most likely.");
+    expect(s.cautions.join(" ")).toMatch(/not money to claim/);
+    expect(s.cautions.join(" ")).not.toMatch(/raise claims/);
+    expect(s.bills).toEqual([]);
+  });
+
+  it("carries the cautions and links back to the building, the meter's bills and the dispute list (relative, no navigation marked current)", () => {
+    const s = buildClaimSheet(LINE_CLAIM, portfolio, building("B1"), "Jan 15, 2026");
+    const cautions = s.cautions.join(" ");
+    expect(cautions).toMatch(/approved by the regulator governs/);
+    expect(cautions).toMatch(/dispute procedure/);
+    expect(cautions).toMatch(/look-back limit/);
+    expect(cautions).toMatch(/lead to verify/);
+    expect(s.buildingHref).toBe("buildings/B1.html");
+    expect(s.meterBillsHref).toBe("bills/B1/E1.html");
+    expect(s.disputesHref).toBe("disputes.html");
+    expect(s.nav.every((n) => !n.current && n.href.startsWith("../"))).toBe(true);
+  });
+
+  it("one sheet per dispute; a dispute id outside the file-safe set still gets its own page", () => {
+    const list = disputeFixture();
+    list.push({ ...structuredClone(LINE_CLAIM), disputeId: "D:odd" });
+    const sheets = buildClaimSheets(list, portfolio, "Jan 15, 2026");
+    expect(sheets).toHaveLength(6);
+    expect(new Set(sheets.map((s) => s.path)).size).toBe(6);
+    expect(sheets.find((s) => s.disputeId === "D:odd")!.path).toBe("claims/D~3aodd.html");
+  });
+});
