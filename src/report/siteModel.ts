@@ -321,6 +321,8 @@ export interface MethodsPage extends PageBase {
   tolerances: LabelValue[];
   /** Every audit check code with its rule, severity, money at stake and source. */
   checksTable: TableModel;
+  /** Each basis of a dispute's corrected total, in plain words. */
+  disputeBases: LabelValue[];
 }
 
 export interface DataFileRow {

@@ -1,5 +1,7 @@
 /** The dispute list, the index's dispute block and the findings-by-check table. Fixture disputes: test/report/disputeFixture.ts. */
 import { describe, expect, it } from "vitest";
+import { readFile } from "node:fs/promises";
+import { buildMethodsPage } from "../../src/report/methodsPage.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { INDEX_CLAIM_LIMIT, buildDisputesPage, buildIndexDisputes, sumCents } from "../../src/report/disputesPage.ts";
 import { findingsByCheckTable } from "../../src/report/portfolioCharts.ts";
@@ -167,5 +169,25 @@ describe("findings by check", () => {
     expect(findingsByCheckTable(input.findings, undefined, "USD")!.columns.map((c) => c.label)).toEqual(["Check", "Findings"]);
     expect(findingsByCheckTable(undefined, undefined, "USD")).toBeNull();
     expect(findingsByCheckTable([], [], "USD")).toBeNull();
+  });
+});
+
+describe("methods page on disputes", () => {
+  it("explains every basis, and says the evidence is on the claim sheet (not in a building audit section)", async () => {
+    const page = buildMethodsPage("USD", "the 12 months up to each meter's last read", { usagePct: 2, demandPct: 3, costAbs: 1, costPct: 0.5 });
+    expect(page.disputeBases.map((b) => b.label)).toEqual([
+      "Tariff, on the billed quantities",
+      "Interval meter readings",
+      "Billed twice",
+      "Days already billed",
+      "Days no bill covers",
+      "Wrong meter multiplier",
+      "Rate not in force for the period",
+    ]);
+    expect(page.disputeBases.every((b) => b.value.length > 40)).toBe(true);
+    const template = await readFile("content/methods.njk", "utf8");
+    expect(template).not.toMatch(/audit section/);
+    expect(template).toMatch(/claim sheet/);
+    expect(template).toMatch(/Claim = billed − corrected/);
   });
 });
