@@ -8,7 +8,7 @@ import type { Building, Portfolio } from "../domain/types.ts";
 import type { Dispute, DisputeBill, DisputeLine } from "../disputes/types.ts";
 import type { ClaimBill, ClaimSheet, FootedTable } from "./disputeModels.ts";
 import type { LabelValue, TableCell, TableModel } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatDate, formatMoney, formatMoneySigned, formatNumber, formatPercent, formatPeriod, formatQuantity, formatRate } from "./format.ts";
+import { NOT_AVAILABLE, formatDate, formatMoney, formatMoneySigned, formatNumber, formatPercent, formatPeriod, formatRate } from "./format.ts";
 import { DISPUTES_PATH, billAnchor, buildingPath, claimPath, meterBillsPath, navFor } from "./nav.ts";
 import { checkTitle, lineStatusLabel } from "./labels.ts";
 import { BACK_BILL_CAUTION, DISPUTE_CAUTIONS, basisLabel, basisSentence, billsText, shownAmount } from "./disputesPage.ts";
@@ -60,6 +60,24 @@ function linesTable(bill: DisputeBill, currency: string): FootedTable | null {
   };
 }
 
+/** Digits of a quantity on the sheet: enough to redo the arithmetic by hand (349,577.92 kWh, not 349,578). */
+const SHEET_DIGITS = 3;
+
+/** A quantity as the sheet prints it: exact to 3 decimals; an amount of money (a tax base) as money. */
+function sheetQuantity(value: number | null, unit: string): string {
+  if (value == null) return NOT_AVAILABLE;
+  return unit ? `${formatNumber(value, SHEET_DIGITS)} ${unit}` : formatNumber(value, SHEET_DIGITS);
+}
+
+function lineQuantity(quantity: number, unit: string, currency: string): string {
+  return unit === currency ? formatMoney(quantity, currency) : sheetQuantity(quantity, unit);
+}
+
+/** A rate per unit; a rate per unit of money (a tax or a percentage charge) as a percentage. */
+function lineRate(rate: number, unit: string, currency: string): string {
+  return unit === currency ? formatPercent(rate, 4) : formatRate(rate, currency, unit);
+}
+
 function arithmeticNote(l: DisputeLine): string {
   const parts: string[] = [];
   if (l.note) parts.push(l.note);
@@ -83,8 +101,8 @@ function arithmeticTable(bill: DisputeBill, currency: string): TableModel | null
     ],
     rows: priced.map((l) => [
       { text: l.label },
-      { text: l.quantity == null ? NOT_AVAILABLE : formatQuantity(l.quantity, l.unit), tone: l.quantity == null ? ("muted" as const) : undefined },
-      { text: l.rate == null ? NOT_AVAILABLE : formatRate(l.rate, currency, l.unit), tone: l.rate == null ? ("muted" as const) : undefined },
+      { text: l.quantity == null ? NOT_AVAILABLE : lineQuantity(l.quantity, l.unit, currency), tone: l.quantity == null ? ("muted" as const) : undefined },
+      { text: l.rate == null ? NOT_AVAILABLE : lineRate(l.rate, l.unit, currency), tone: l.rate == null ? ("muted" as const) : undefined },
       moneyCell(l.corrected, currency),
       { text: arithmeticNote(l) },
     ]),
@@ -96,21 +114,21 @@ function quantitiesTable(bill: DisputeBill): TableModel {
   const rows: TableCell[][] = [
     [
       { text: `Usage (${bill.usageUnit})` },
-      { text: formatQuantity(bill.billedUsage, bill.usageUnit) },
-      { text: bill.meteredUsage == null ? "no interval data" : formatQuantity(bill.meteredUsage, bill.usageUnit), tone: bill.meteredUsage == null ? "muted" : undefined },
-      { text: formatQuantity(bill.correctedUsage, bill.usageUnit) },
+      { text: sheetQuantity(bill.billedUsage, bill.usageUnit) },
+      { text: bill.meteredUsage == null ? "no interval data" : sheetQuantity(bill.meteredUsage, bill.usageUnit), tone: bill.meteredUsage == null ? "muted" : undefined },
+      { text: sheetQuantity(bill.correctedUsage, bill.usageUnit) },
     ],
   ];
   if (bill.billedDemandKw != null || bill.meteredDemandKw != null || bill.correctedDemandKw != null) {
     rows.push([
       { text: "Demand (kW)" },
-      { text: formatQuantity(bill.billedDemandKw, "kW") },
-      { text: bill.meteredDemandKw == null ? "no interval data" : formatQuantity(bill.meteredDemandKw, "kW"), tone: bill.meteredDemandKw == null ? "muted" : undefined },
-      { text: formatQuantity(bill.correctedDemandKw, "kW") },
+      { text: sheetQuantity(bill.billedDemandKw, "kW") },
+      { text: bill.meteredDemandKw == null ? "no interval data" : sheetQuantity(bill.meteredDemandKw, "kW"), tone: bill.meteredDemandKw == null ? "muted" : undefined },
+      { text: sheetQuantity(bill.correctedDemandKw, "kW") },
     ]);
   }
   return {
-    caption: `Bill ${bill.billId}: usage and demand as billed, as the meter recorded and as the corrected bill was priced`,
+    caption: `Bill ${bill.billId}: usage and demand as billed, as the meter recorded and as the corrected bill was priced${bill.correctedDemandKw != null ? " (billing demand, after any ratchet or minimum)" : ""}`,
     sortable: false,
     columns: [
       { label: "Quantity", numeric: false },
@@ -129,10 +147,16 @@ function readTypeText(r: DisputeBill["readType"]): string {
 function claimBill(d: Dispute, bill: DisputeBill, portfolio: Portfolio): ClaimBill {
   const currency = portfolio.settings.currency;
   const name = bill.billId === "" ? "Period not billed" : `Bill ${bill.billId}`;
+  const lines = linesTable(bill, currency);
   const facts: LabelValue[] = [
-    { label: "Billed total", value: formatMoney(bill.billedTotal, currency) },
-    { label: "Corrected total", value: formatMoney(bill.correctedTotal, currency) },
-    { label: "Difference (billed − corrected)", value: formatMoneySigned(bill.claimAmount, currency) },
+    // With a line table the totals stand at its foot.
+    ...(lines
+      ? []
+      : [
+          { label: "Billed total", value: formatMoney(bill.billedTotal, currency) },
+          { label: "Corrected total", value: formatMoney(bill.correctedTotal, currency) },
+          { label: "Difference (billed − corrected)", value: formatMoneySigned(bill.claimAmount, currency) },
+        ]),
     { label: "Meter read", value: readTypeText(bill.readType) },
     { label: "Tariff", value: tariffText(portfolio, bill.tariffId) },
     { label: "Tariff versions applied", value: versionsText(bill.versions) },
@@ -143,7 +167,7 @@ function claimBill(d: Dispute, bill: DisputeBill, portfolio: Portfolio): ClaimBi
     anchor: bill.billId === "" ? "bill-unbilled" : billAnchor(bill.billId),
     heading: `${name}, ${formatPeriod(bill.periodStart, bill.periodEnd)}`,
     facts,
-    lines: linesTable(bill, currency),
+    lines,
     arithmetic: arithmeticTable(bill, currency),
     quantities: quantitiesTable(bill),
     notes: bill.notes,
@@ -171,8 +195,6 @@ export function buildClaimSheet(d: Dispute, portfolio: Portfolio, building: Buil
     { label: "Service period", value: formatPeriod(d.periodStart, d.periodEnd) },
     { label: "Billed", value: formatMoney(d.billedTotal, currency) },
     { label: "Corrected", value: formatMoney(d.correctedTotal, currency) },
-    { label: amountLabel, value: amount },
-    { label: "Kind", value: claim ? "Claim: the bill is too high" : "Budget risk: the utility may bill this later" },
     { label: "Corrected on", value: basisLabel(d.basis) },
     { label: "Checks", value: d.checks.map(checkTitle).join("; ") || NOT_AVAILABLE },
     { label: "Reference", value: d.disputeId },

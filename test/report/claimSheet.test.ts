@@ -25,7 +25,6 @@ describe("claim sheet", () => {
     expect(value(s.header, "Service period")).toBe("Aug 5, 2024 – Oct 4, 2024");
     expect(value(s.header, "Billed")).toBe("$49,935.66");
     expect(value(s.header, "Corrected")).toBe("$24,967.83");
-    expect(value(s.header, "Kind")).toBe("Claim: the bill is too high");
     expect(value(s.header, "Corrected on")).toBe("Wrong meter multiplier");
     expect(value(s.header, "Checks")).toBe("Possible meter multiplier error; Billed usage differs from the interval meter; Bill total differs from the tariff");
     expect(value(s.header, "Prepared")).toBe("Jan 15, 2026");
@@ -39,9 +38,11 @@ describe("claim sheet", () => {
     const b = s.bills[0];
     expect(b.heading).toBe("Bill E2-08, Aug 5, 2024 – Sep 4, 2024");
     expect(b.anchor).toBe("bill-E2-08");
-    expect(value(b.facts, "Billed total")).toBe("$24,967.83");
-    expect(value(b.facts, "Corrected total")).toBe("$12,483.92");
-    expect(value(b.facts, "Difference (billed − corrected)")).toBe("+$12,483.91");
+    // Totals stand at the foot of the line table; a bill without lines has them in its facts.
+    expect(value(b.facts, "Billed total")).toBeUndefined();
+    expect(value(s.bills[1].facts, "Billed total")).toBe("$24,967.83");
+    expect(value(s.bills[1].facts, "Corrected total")).toBe("$12,483.91");
+    expect(value(s.bills[1].facts, "Difference (billed − corrected)")).toBe("+$12,483.92");
     expect(value(b.facts, "Tariff")).toBe("T-electricity");
     expect(value(b.facts, "Tariff versions applied")).toBe("version in force from Jan 1, 2023: 31 billing days (100%)");
     expect(value(b.facts, "Corrected bill priced on")).toBe("metered usage and demand (interval data, multiplier 1)");
@@ -53,6 +54,7 @@ describe("claim sheet", () => {
       ["Usage (kWh)", "200,000 kWh", "100,000 kWh", "100,000 kWh"],
       ["Demand (kW)", "400 kW", "200 kW", "200 kW"],
     ]);
+    expect(b.quantities.caption).toMatch(/after any ratchet or minimum/);
     expect(b.notes).toEqual(["Usage converted from interval data over the local service period."]);
     expect(b.billsHref).toBe("bills/B2/E2.html#bill-E2-08");
     // A bill without lines or demand: no line tables, usage only, "no interval data" said in words.
@@ -76,10 +78,20 @@ describe("claim sheet", () => {
     expect(value(s.header, "Utility account")).toBe("100-200");
   });
 
+  it("prints quantities exactly enough to redo the sum, a tax base as money and its rate as a percentage", () => {
+    const d = structuredClone(LINE_CLAIM);
+    d.bills[0].billedUsage = 349_577.92;
+    d.bills[0].lines[1] = { ...d.bills[0].lines[1], quantity: 47_159.26, unit: "USD", rate: 0.045 };
+    const s = buildClaimSheet(d, portfolio, building("B1"), "Jan 15, 2026");
+    expect(s.bills[0].arithmetic!.rows[1].map((c) => c.text).slice(0, 3)).toEqual(["Sales tax", "$47,159.26", "4.5%"]);
+    expect(s.bills[0].quantities.rows[0][1].text).toBe("349,577.92 kWh");
+  });
+
   it("a duplicate: corrected total zero, the whole bill claimed", () => {
     const s = buildClaimSheet(DUPLICATE_CLAIM, portfolio, building("B1"), "Jan 15, 2026");
     expect(s.amount).toBe("$826.90");
     expect(value(s.bills[0].facts, "Corrected total")).toBe("$0.00");
+    expect(s.kindLabel).toBe("Billing claim");
     expect(s.explanation).toMatch(/billed twice/);
   });
 
@@ -89,7 +101,6 @@ describe("claim sheet", () => {
     expect(s.title).toBe("Budget note: Heron Street Office, E1, Aug 5, 2024 – Sep 4, 2024");
     expect(s.amountLabel).toBe("Not yet billed (corrected − billed)");
     expect(s.amount).toBe("$5,693.48");
-    expect(value(s.header, "Kind")).toBe("Budget risk: the utility may bill this later");
     expect(value(s.header, "Bills")).toBe("none (period not billed)");
     expect(s.rangeText).toBe("The corrected total is an estimate: between $5,100.12 and $6,301.90, $5,693.48 most likely.");
     expect(s.cautions.join(" ")).toMatch(/not money to claim/);
