@@ -32,12 +32,17 @@ function moneyCell(amount: number | null, currency: string, signed = false): Tab
   return { text: signed ? formatMoneySigned(amount, currency) : formatMoney(amount, currency), sort: String(amount) };
 }
 
+/** "Bill X", or "Period not billed" for the days of a gap (a dispute bill without an id). */
+function billName(bill: DisputeBill): string {
+  return bill.billId === "" ? "Period not billed" : `Bill ${bill.billId}`;
+}
+
 /** Printed lines beside the corrected lines (difference = printed − corrected), bill totals at the foot. */
 function linesTable(bill: DisputeBill, currency: string): FootedTable | null {
   if (bill.lines.length === 0) return null;
   const anyPrinted = bill.lines.some((l) => l.printed != null);
   return {
-    caption: `Bill ${bill.billId}: ${anyPrinted ? "each printed line beside the corrected line of the same label" : "the corrected lines (the bill has no printed lines on file)"}, in ${currency}`,
+    caption: `${billName(bill)}: ${anyPrinted ? "each printed line beside the corrected line of the same label" : bill.billId === "" ? "the lines the period would have been billed" : "the corrected lines (the bill has no printed lines on file)"}, in ${currency}`,
     sortable: false,
     columns: [
       { label: "Line", numeric: false },
@@ -90,7 +95,7 @@ function arithmeticTable(bill: DisputeBill, currency: string): TableModel | null
   const priced = bill.lines.filter((l) => l.corrected != null);
   if (priced.length === 0) return null;
   return {
-    caption: `Bill ${bill.billId}: the corrected bill, line by line (quantity × rate = amount)`,
+    caption: `${billName(bill)}: the corrected bill, line by line (quantity × rate = amount)`,
     sortable: false,
     columns: [
       { label: "Line", numeric: false },
@@ -128,7 +133,7 @@ function quantitiesTable(bill: DisputeBill): TableModel {
     ]);
   }
   return {
-    caption: `Bill ${bill.billId}: usage and demand as billed, as the meter recorded and as the corrected bill was priced${bill.correctedDemandKw != null ? " (billing demand, after any ratchet or minimum)" : ""}`,
+    caption: `${billName(bill)}: usage and demand as billed, as the meter recorded and as the corrected bill was priced${bill.correctedDemandKw != null ? " (billing demand, after any ratchet or minimum)" : ""}`,
     sortable: false,
     columns: [
       { label: "Quantity", numeric: false },
@@ -146,7 +151,7 @@ function readTypeText(r: DisputeBill["readType"]): string {
 
 function claimBill(d: Dispute, bill: DisputeBill, portfolio: Portfolio): ClaimBill {
   const currency = portfolio.settings.currency;
-  const name = bill.billId === "" ? "Period not billed" : `Bill ${bill.billId}`;
+  const name = billName(bill);
   const lines = linesTable(bill, currency);
   const facts: LabelValue[] = [
     // With a line table the totals stand at its foot.

@@ -130,3 +130,19 @@ describe("claim sheet", () => {
     expect(sheets.find((s) => s.disputeId === "D:odd")!.path).toBe("claims/D~3aodd.html");
   });
 });
+
+describe("claim sheet of a period nobody billed", () => {
+  it("names the period, not an empty bill id, in its heading and captions", () => {
+    const d = structuredClone(GAP_RISK);
+    d.bills = [{ ...structuredClone(LINE_CLAIM.bills[0]), billId: "", billedTotal: 0, correctedTotal: 5_693.48, claimAmount: -5_693.48, billedUsage: null, lines: [{ label: "Energy", printed: null, corrected: 5_693.48, difference: null, quantity: 45_000, unit: "kWh", rate: 0.1265218, note: null, status: "estimated" }] }];
+    const s = buildClaimSheet(d, portfolio, building("B1"), "Jan 15, 2026");
+    const b = s.bills[0];
+    expect(b.heading).toBe("Period not billed, May 5, 2024 – Jun 4, 2024");
+    expect(b.lines!.caption).toBe("Period not billed: the lines the period would have been billed, in USD");
+    expect(b.arithmetic!.caption).toMatch(/^Period not billed: /);
+    expect(b.quantities.caption).toMatch(/^Period not billed: /);
+    expect(b.quantities.rows[0][1].text).toBe("—");
+    expect(b.arithmetic!.rows[0][4].text).toBe("estimated");
+    expect(b.billsHref).toBe("bills/B1/E1.html");
+  });
+});
