@@ -178,6 +178,17 @@ async function commandInit(args: string[], io: CliIo): Promise<number> {
 // Run when executed directly (tsx src/cli/main.ts …), not when imported by tests.
 const invokedDirectly = process.argv[1] !== undefined && resolve(process.argv[1]) === fileURLToPath(import.meta.url);
 if (invokedDirectly) {
+  // Ctrl-C or a kill: remove the build's scratch folders and stop; the published site is
+  // either the old one or the new one (a swap cut in half is repaired by the next build).
+  for (const [signal, code] of [["SIGINT", 130], ["SIGTERM", 143]] as const) {
+    process.once(signal, () => {
+      void import("../site/writeSite.ts").then(({ removeActiveScratch }) => {
+        removeActiveScratch();
+        process.stderr.write(`ohmbook: stopped by ${signal}; nothing half-written was left behind\n`);
+        process.exit(code);
+      });
+    });
+  }
   runCli(process.argv.slice(2)).then((code) => {
     process.exitCode = code;
   });

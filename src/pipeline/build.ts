@@ -30,7 +30,7 @@ import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
-import { writeSite } from "../site/writeSite.ts";
+import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
 
 export interface BuildOptions {
   dir: string;
@@ -92,6 +92,8 @@ const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
 export async function buildPortfolioSite(options: BuildOptions): Promise<BuildResult> {
   const reporter = options.reporter ?? silentReporter;
 
+  // A wrong output folder is refused before any work.
+  await checkOutputFolder(options.outDir, options.dir);
   reporter.stage(`Reading ${options.dir}`);
   const loaded = await loadPortfolio(options.dir);
   const issues = loaded.issues;
