@@ -26,7 +26,7 @@ describe("output folder", () => {
 
   it("refuses the portfolio folder (or a folder inside it) as output before reading anything", async () => {
     const stages: string[] = [];
-    const reporter = { stage: (s: string) => stages.push(s), step: () => undefined, finish: () => undefined };
+    const reporter = { stage: (s: string) => { stages.push(s); }, step: () => undefined, warn: () => undefined, finish: () => undefined };
     await expect(buildPortfolioSite({ dir: "data/demo", outDir: "data/demo/site", strict: false, reporter })).rejects.toThrow(/portfolio folder/);
     await expect(buildPortfolioSite({ dir: "data/demo", outDir: "data/demo", strict: false, reporter })).rejects.toThrow(/portfolio folder/);
     // no stage started: nothing was read or analysed
