@@ -30,7 +30,7 @@ import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
-import { writeSite } from "../site/writeSite.ts";
+import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
 
 export interface BuildOptions {
   dir: string;
@@ -38,7 +38,11 @@ export interface BuildOptions {
   /** Any rejected row or failing building fails the build (exit 1, nothing written). */
   strict: boolean;
   reporter?: Reporter;
-  /** Build date `YYYY-MM-DD`; injected so builds are reproducible. Default: today (UTC). */
+  /**
+   * Build date `YYYY-MM-DD` (the CLI passes SOURCE_DATE_EPOCH's). Default: the portfolio's
+   * as-of date (its `as_of`, else its last data), so the same inputs give the same site on any
+   * day; the clock only for a portfolio with no bills at all.
+   */
   buildDate?: string;
 }
 
@@ -87,8 +91,9 @@ const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
  */
 export async function buildPortfolioSite(options: BuildOptions): Promise<BuildResult> {
   const reporter = options.reporter ?? silentReporter;
-  const buildDate = options.buildDate ?? new Date().toISOString().slice(0, 10);
 
+  // A wrong output folder is refused before any work.
+  await checkOutputFolder(options.outDir, options.dir);
   reporter.stage(`Reading ${options.dir}`);
   const loaded = await loadPortfolio(options.dir);
   const issues = loaded.issues;
@@ -99,6 +104,9 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const quality = assessIntervalMeters(loaded.portfolio);
   // From here on every stage sees the corrected clocks (flagged readings stay in the record).
   const portfolio = quality.portfolio as Portfolio<Tariff>;
+  const dataDate = effectiveAsOf(portfolio);
+  const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
+  const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const results: BuildingResults[] = [];
@@ -135,7 +143,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
   const model = buildSiteModel(
-    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
+    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
   );
   await writeSite(model, dataFiles, options.outDir);
 
