@@ -2,6 +2,7 @@
 import { describe, expect, it } from "vitest";
 import { readFile } from "node:fs/promises";
 import { buildMethodsPage } from "../../src/report/methodsPage.ts";
+import { prepareSite } from "../../src/site/prepareSite.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { INDEX_CLAIM_LIMIT, buildDisputesPage, buildIndexDisputes, sumCents } from "../../src/report/disputesPage.ts";
 import { findingsByCheckTable } from "../../src/report/portfolioCharts.ts";
@@ -139,6 +140,17 @@ describe("the dispute list page", () => {
     expect(page.risks).toBeNull();
     expect(page.summary[1].value).toBe("none");
   });
+
+  it("offers disputes.csv and disputes.json for download only when the build wrote them", async () => {
+    const model = buildSiteModel(inputWith());
+    const ready = await prepareSite(model, { "disputes.csv": "dispute_id\n", "disputes.json": "[]\n", "findings.csv": "x\n" });
+    expect(ready.disputes.downloads.map((f) => [f.name, f.href])).toEqual([
+      ["disputes.csv", "data/disputes.csv"],
+      ["disputes.json", "data/disputes.json"],
+    ]);
+    expect(ready.disputes.downloads[0].description).toMatch(/claim or back-billing risk/);
+    expect((await prepareSite(model, {})).disputes.downloads).toEqual([]);
+  }, 30_000);
 
   it("is in the site model with one claim sheet per dispute", () => {
     const model = buildSiteModel(inputWith());
