@@ -1,5 +1,10 @@
 /** The printable claim sheet of one dispute. Fixture disputes: test/report/disputeFixture.ts. */
-import { describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mkdtemp, readFile, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { writeSite } from "../../src/site/writeSite.ts";
 import { buildClaimSheet, buildClaimSheets } from "../../src/report/claimSheet.ts";
 import { EVIL_NAME, fixtureInput } from "./fixture.ts";
 import { DUPLICATE_CLAIM, GAP_RISK, LINE_CLAIM, MULTIPLIER_CLAIM, disputeFixture } from "./disputeFixture.ts";
@@ -144,5 +149,52 @@ describe("claim sheet of a period nobody billed", () => {
     expect(b.quantities.rows[0][1].text).toBe("—");
     expect(b.arithmetic!.rows[0][4].text).toBe("estimated");
     expect(b.billsHref).toBe("bills/B1/E1.html");
+  });
+});
+
+describe("the rendered pages escape user text", () => {
+  // Renders the fixture (a building named like a script, an account with < & ") through the
+  // real templates: names must appear as text, never as markup.
+  let work = "";
+  let pages: Record<string, string> = {};
+
+  beforeAll(async () => {
+    work = await mkdtemp(join(tmpdir(), "ohmbook-claims-"));
+    const input = fixtureInput();
+    input.disputes = disputeFixture();
+    await writeSite(buildSiteModel(input), { "disputes.csv": "dispute_id\n", "disputes.json": "[]\n" }, join(work, "site"));
+    for (const path of ["index.html", "disputes.html", "claims/D-E2-2024-08.html", "claims/D-E1-gap.html"]) pages[path] = await readFile(join(work, "site", path), "utf8");
+  }, 60_000);
+
+  afterAll(async () => {
+    if (work) await rm(work, { recursive: true, force: true });
+  });
+
+  it("shows a building name and an account with <, & and \" as text on the index, the dispute list and the claim sheet", () => {
+    const name = "&lt;script&gt;alert(1)&lt;/script&gt; &amp; &quot;Annex&quot;";
+    for (const [path, html] of Object.entries(pages)) {
+      expect(html, path).not.toContain("<script>alert(1)");
+      if (path !== "claims/D-E1-gap.html") expect(html, path).toContain(name);
+    }
+    expect(pages["claims/D-E2-2024-08.html"]).toContain("ACC-&lt;7&gt;&amp;&quot;9&quot;");
+  });
+
+  it("the claim sheet: relative links only, the amount, the cautions, no sort controls", () => {
+    const html = pages["claims/D-E2-2024-08.html"];
+    expect(html).toContain('<strong id="claim-amount">$24,967.83</strong>');
+    expect(html).toContain('href="../buildings/B2.html"');
+    expect(html).toContain('href="../bills/B2/E2.html#bill-E2-08"');
+    expect(html).toContain('href="../disputes.html"');
+    expect(html).not.toMatch(/<a [^>]*href="\//);
+    expect(html).not.toContain("data-sortable");
+    expect(html).toMatch(/approved by the regulator governs/);
+  });
+
+  it("the dispute list totals the claims and offers the dispute files", () => {
+    const html = pages["disputes.html"];
+    expect(html).toContain('data-total="25866.33">$25,866.33</td>');
+    expect(html).toContain('href="data/disputes.csv"');
+    expect(html).toContain('href="claims/D-E2-2024-08.html"');
+    expect(pages["index.html"]).toContain('id="dispute-total" href="disputes.html"');
   });
 });
