@@ -218,7 +218,8 @@ export function buildClaimSheet(d: Dispute, portfolio: Portfolio, building: Buil
     amountLabel,
     amount,
     what: d.title,
-    explanation: `${d.explanation} ${basisSentence(d.basis)}`.trim(),
+    explanation: d.explanation,
+    basisText: basisSentence(d.basis),
     header,
     rangeText: d.correctedRange
       ? `The corrected total is an estimate: between ${formatMoney(d.correctedRange.low, currency)} and ${formatMoney(d.correctedRange.high, currency)}, ${formatMoney(d.correctedTotal, currency)} most likely.`

@@ -138,8 +138,10 @@ export interface ClaimSheet extends PageBase {
   amount: string;
   /** The dispute's title (what is wrong). */
   what: string;
-  /** The dispute's explanation. */
+  /** The dispute's explanation, as in disputes.csv. */
   explanation: string;
+  /** What the corrected total rests on, in one plain sentence. */
+  basisText: string;
   /** Portfolio, building, account, meter, bills, period, billed, corrected, basis, checks. */
   header: LabelValue[];
   /** The corrected range of an estimate, in words; null when exact. */

@@ -37,7 +37,7 @@ const BASIS_LABELS: Record<DisputeBasis, string> = {
 };
 
 const BASIS_SENTENCES: Record<DisputeBasis, string> = {
-  tariff: "The bill was priced again under its tariff on the usage and demand printed on it; the difference lies in the rates or the arithmetic.",
+  tariff: "The bill was priced again under its tariff on the usage and demand printed on it, so the difference lies in its charges, rates or arithmetic, not in the quantities.",
   meter: "The bill was priced again on the usage and demand the interval meter recorded over the same service period; the quantities on the bill differ from the meter.",
   duplicate: "The same service was billed twice; the second bill should have been nothing, so its corrected total is zero.",
   overlap: "The bill's period reaches back over days another bill already covered; the corrected total covers only the days not billed before.",

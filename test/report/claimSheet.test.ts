@@ -34,7 +34,8 @@ describe("claim sheet", () => {
     expect(value(s.header, "Checks")).toBe("Possible meter multiplier error; Billed usage differs from the interval meter; Bill total differs from the tariff");
     expect(value(s.header, "Prepared")).toBe("Jan 15, 2026");
     expect(s.what).toBe("Billed usage is twice what the meter recorded");
-    expect(s.explanation).toMatch(/^Usage and demand on both bills are exactly 2 × the interval data\. The bill's usage and demand are a multiple/);
+    expect(s.explanation).toBe("Usage and demand on both bills are exactly 2 × the interval data.");
+    expect(s.basisText).toMatch(/^The bill's usage and demand are a multiple of what the meter recorded/);
   });
 
   it("for each bill: totals, tariff and versions, printed beside corrected lines, the arithmetic, billed vs metered vs corrected quantities", () => {
@@ -97,7 +98,7 @@ describe("claim sheet", () => {
     expect(s.amount).toBe("$826.90");
     expect(value(s.bills[0].facts, "Corrected total")).toBe("$0.00");
     expect(s.kindLabel).toBe("Billing claim");
-    expect(s.explanation).toMatch(/billed twice/);
+    expect(s.basisText).toMatch(/billed twice/);
   });
 
   it("a back-billing risk is worded as a budget note, with the estimate's range, not as a claim", () => {
