@@ -30,6 +30,7 @@ import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
+import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
 
 export interface BuildOptions {
@@ -100,8 +101,11 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const errors = issues.filter((i) => i.severity === "error");
   if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
   if (options.strict && errors.length > 0) throw new InputError(issues);
+  // as_of is the last day of data used: later bills and readings are left out, with a warning.
+  const cut = cutAtAsOf(loaded.portfolio);
+  issues.push(...cut.issues);
   reporter.stage("Screening interval data and aligning meter clocks");
-  const quality = assessIntervalMeters(loaded.portfolio);
+  const quality = assessIntervalMeters(cut.portfolio);
   // From here on every stage sees the corrected clocks (flagged readings stay in the record).
   const portfolio = quality.portfolio as Portfolio<Tariff>;
   const dataDate = effectiveAsOf(portfolio);
@@ -299,7 +303,7 @@ function summaryText(s: BuildSummary, currency: string): string {
   const notPriced = s.bills - s.billsPriced;
   const lines = [
     `Built ${s.buildings} building page(s) into ${s.outDir}`,
-    `  ${s.billsCheckedExactly} of ${s.bills} bills checked exactly; ${s.billsEstimated} estimated (time-of-use or demand without interval data, not compared); ${notPriced} not re-priced`,
+    `  ${s.billsCheckedExactly} of ${s.bills} bills checked exactly; ${s.billsEstimated} only estimated (a time-of-use or period-demand split that interval data does not pin down: not compared); ${notPriced} not re-priced`,
     `  bills to dispute: ${s.claims.count} claim(s), ${fmt.format(s.claims.total)}; billed too low or not billed: ${s.backBillRisks.count}, ${fmt.format(-s.backBillRisks.total)}`,
     `  findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info`,
   ];
