@@ -119,6 +119,7 @@ export function disputeRow(d: Dispute, buildings: ReadonlyMap<string, Building>,
 }
 
 function countText(n: number, kind: DisputeKind): string {
+  if (n === 0) return kind === "claim" ? "no claims" : "no risks";
   if (kind === "claim") return `${formatNumber(n)} ${n === 1 ? "claim" : "claims"}`;
   return `${formatNumber(n)} ${n === 1 ? "risk" : "risks"}`;
 }
@@ -192,7 +193,7 @@ export function buildIndexDisputes(input: ReportInput): IndexDisputes | null {
   const bills = distinctBills(claims);
   return {
     claimTotal: formatMoney(sumCents(claims.map((d) => d.claimAmount)), currency),
-    claimCount: claims.length === 0 ? "no claims" : `${countText(claims.length, "claim")} covering ${formatNumber(bills)} ${bills === 1 ? "bill" : "bills"}`,
+    claimCount: claims.length === 0 ? countText(0, "claim") : `${countText(claims.length, "claim")} covering ${formatNumber(bills)} ${bills === 1 ? "bill" : "bills"}`,
     riskTotal: formatMoney(sumCents(risks.map(shownAmount)), currency),
     riskCount: countText(risks.length, "back-bill-risk"),
     href: DISPUTES_PATH,

@@ -96,7 +96,7 @@ describe("index: bills to dispute", () => {
   it("has no dispute block when the dispute stage did not run, and an empty one when nothing is disputed", () => {
     expect(buildIndexDisputes(fixtureInput())).toBeNull();
     const none = buildIndexDisputes(inputWith([]))!;
-    expect(none).toMatchObject({ claimTotal: "$0.00", claimCount: "no claims", claims: null, risks: null });
+    expect(none).toMatchObject({ claimTotal: "$0.00", claimCount: "no claims", riskTotal: "$0.00", riskCount: "no risks", claims: null, risks: null });
   });
 
   it("the building table's To dispute column sums each building's claims and links to the dispute list", () => {
