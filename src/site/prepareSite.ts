@@ -52,7 +52,7 @@ async function prepareMaybe<T extends ChartModel>(chart: T | null): Promise<T | 
 }
 
 /**
- * Fills every chart's `spec`, `specJson` and `svg`, the data page's file list, and each
+ * Fills every chart's `spec`, `specJson` and `svg` (building, meter and index pages), the data page's file list, and each
  * building's own downloads (files under `data/buildings/<building_id>/`).
  * @example const ready = await prepareSite(model, { "findings.csv": "..." });
  */
@@ -63,15 +63,18 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
   for (const page of model.buildings) {
     const commodities = [];
     for (const section of page.commodities) commodities.push({ ...section, charts: await prepareAll(section.charts) });
-    const baselines = [];
-    for (const section of page.baselines) baselines.push({ ...section, charts: await prepareAll(section.charts) });
-    const quality = [];
-    for (const section of page.quality) quality.push({ ...section, charts: await prepareAll(section.charts) });
     const folder = buildingDataFolder(page.buildingId);
     const own: Record<string, number> = {};
     for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
     const forecast = page.forecast ? { ...page.forecast, chart: await prepareMaybe(page.forecast.chart) } : null;
-    buildings.push({ ...page, commodities, baselines, quality, forecast, downloads: describeDataFiles(own, page.root) });
+    buildings.push({ ...page, commodities, forecast, downloads: describeDataFiles(own, page.root) });
+  }
+  // Meter pages carry the meter's weather-baseline and data-quality charts.
+  const meterBills = [];
+  for (const page of model.meterBills) {
+    const baseline = page.baseline ? { ...page.baseline, charts: await prepareAll(page.baseline.charts) } : null;
+    const quality = page.quality ? { ...page.quality, charts: await prepareAll(page.quality.charts) } : null;
+    meterBills.push({ ...page, baseline, quality });
   }
   return {
     ...model,
@@ -82,6 +85,7 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
       findingsChart: await prepareMaybe(model.index.findingsChart),
     },
     buildings,
+    meterBills,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
   };
 }
