@@ -6,11 +6,12 @@
  *  1. duplicate-bill absorbs every other finding on the duplicate bill itself;
  *  2. multiplier-suspect absorbs usage-vs-meter, demand-vs-meter, total-mismatch, line-mismatch,
  *     rate-suspect and usage-outlier on the bills it covers;
- *  3. usage-vs-meter and demand-vs-meter (warning or error) absorb total-mismatch, line-mismatch
- *     and rate-suspect on their bill: the engine prices from interval data when it has it, so
- *     billed quantities that differ from the meter also show up as money differences. The root
- *     keeps its own money (billed − re-priced on metered quantities), or takes the total's
- *     difference when it has none;
+ *  3. usage-vs-meter (warning or error) absorbs demand-vs-meter on its bill (its corrected bill is
+ *     already priced on the meter's usage and demand); then usage-vs-meter and demand-vs-meter
+ *     absorb total-mismatch, line-mismatch and rate-suspect on their bill: billed quantities that
+ *     differ from the meter can also show up as money differences. The root keeps its own money
+ *     (billed − re-priced on metered quantities), or takes the total's difference (and corrected
+ *     bill) when it has none;
  *  4. rate-suspect absorbs total-mismatch, line-mismatch and unexplained-line on its bill;
  *  5. estimated-read absorbs usage-vs-meter, demand-vs-meter and usage-outlier on the bills it
  *     covers (an estimate or its true-up explains usage that differs from the meter), without
@@ -19,7 +20,9 @@
  *  7. missing-bill absorbs a period-gap over the same days (interval data proves use);
  *  8. period-overlap absorbs a period-gap next to one of its bills (shifted dates cause both);
  *  9. line-mismatch + unexplained-line findings of a bill absorb its total-mismatch when their
- *     amounts add up to the total difference within the money tolerance.
+ *     amounts add up to the total difference within the money tolerance: they are one cause (e.g.
+ *     a wrong rate and the tax on it), so the largest line finding absorbs the others and the
+ *     total, and takes the total's difference and corrected bill (one claim per bill).
  * Unless said otherwise a root that absorbs a more severe finding takes that severity, and the
  * absorbed finding's message is kept in the root's evidence notes.
  */
@@ -45,6 +48,7 @@ const METER_VICTIMS: CheckCode[] = ["total-mismatch", "line-mismatch", "rate-sus
 const RULES: Rule[] = [
   { root: "duplicate-bill", victims: "all", scope: "own" },
   { root: "multiplier-suspect", victims: ["usage-vs-meter", "demand-vs-meter", "total-mismatch", "line-mismatch", "rate-suspect", "usage-outlier"], scope: "covered" },
+  { root: "usage-vs-meter", victims: ["demand-vs-meter"], scope: "own", skipInfoRoot: true },
   { root: "usage-vs-meter", victims: METER_VICTIMS, scope: "own", skipInfoRoot: true, takeAmount: true },
   { root: "demand-vs-meter", victims: METER_VICTIMS, scope: "own", skipInfoRoot: true, takeAmount: true },
   { root: "rate-suspect", victims: ["total-mismatch", "line-mismatch", "unexplained-line"], scope: "own" },
@@ -90,6 +94,7 @@ export function dedupeFindings(findings: Finding[], tol: Pick<AuditTolerances, "
   const absorbed = new Set<Finding>();
   const absorb = (root: Finding, victim: Finding, escalate = true): void => {
     absorbed.add(victim);
+    root.absorbedChecks = [...new Set([...(root.absorbedChecks ?? []), victim.check, ...(victim.absorbedChecks ?? [])])];
     root.evidence.notes.push(note(victim), ...victim.evidence.notes.filter((n) => n.startsWith("Also explains")));
     if (escalate && SEVERITY_RANK[victim.severity] > SEVERITY_RANK[root.severity]) root.severity = victim.severity;
   };
@@ -110,7 +115,10 @@ export function dedupeFindings(findings: Finding[], tol: Pick<AuditTolerances, "
         if (absorbed.has(victim) || victim === root) continue;
         if (rule.victims !== "all" && !rule.victims.includes(victim.check)) continue;
         if (!applies(root, victim, rule.scope)) continue;
-        if (rule.takeAmount && root.amountAtStake === null && victim.check === "total-mismatch") root.amountAtStake = victim.amountAtStake;
+        if (rule.takeAmount && root.amountAtStake === null && victim.check === "total-mismatch") {
+          root.amountAtStake = victim.amountAtStake;
+          root.corrections = victim.corrections;
+        }
         absorb(root, victim, rule.escalate ?? true);
       }
     }
@@ -125,7 +133,10 @@ export function dedupeFindings(findings: Finding[], tol: Pick<AuditTolerances, "
     const sum = lines.reduce((s, f) => s + (f.amountAtStake ?? 0), 0);
     if (exceedsMoneyTolerance(total.amountAtStake - sum, total.amountAtStake, tol)) continue;
     const biggest = lines.reduce((a, b) => (Math.abs(b.amountAtStake ?? 0) > Math.abs(a.amountAtStake ?? 0) ? b : a));
+    for (const other of lines) if (other !== biggest) absorb(biggest, other);
     absorb(biggest, total);
+    biggest.amountAtStake = total.amountAtStake;
+    biggest.corrections = total.corrections;
   }
 
   return live.filter((f) => !absorbed.has(f));

@@ -50,6 +50,31 @@ export interface Evidence {
   notes: string[];
 }
 
+/**
+ * A bill as it should have been: the figure a claim rests on. Checks that put money on a finding
+ * attach one per bill they speak for, so the finding's amount, the bills table and the dispute
+ * list all read the same corrected total (amountAtStake = Σ billedTotal − correctedTotal).
+ */
+export interface CorrectedBill {
+  /** The bill corrected; null for a period no bill covers (a gap). */
+  billId: string | null;
+  periodStart: string;
+  periodEnd: string;
+  /** What the bill says (0 for a gap). */
+  billedTotal: number;
+  /** What it should have been, to the cent. */
+  correctedTotal: number;
+  /** The re-priced bill behind `correctedTotal`; null when no pricing is involved (a duplicate: 0). */
+  corrected: ComputedBill | null;
+  /** Usage and demand the corrected bill was priced on (bill unit, kW); null when not priced. */
+  usage: number | null;
+  demandKw: number | null;
+  /** Plain words: what the corrected bill was priced on. */
+  correctedOn: string;
+  /** Low and high corrected totals when `correctedTotal` is an estimate from a usage band. */
+  range?: { low: number; high: number };
+}
+
 export interface Finding {
   buildingId: string;
   meterId: string;
@@ -70,6 +95,10 @@ export interface Finding {
    * the two bills on either side of a gap). Used to stop one cause cascading into more findings.
    */
   relatedBillIds?: string[];
+  /** The corrected bills behind `amountAtStake` (absent when the finding is not about money). */
+  corrections?: CorrectedBill[];
+  /** Check codes of the findings this one absorbed as their root cause (see dedupe.ts). */
+  absorbedChecks?: CheckCode[];
 }
 
 /**
@@ -133,4 +162,10 @@ export interface AuditInput {
   rateAlternatives?: (bill: Bill, meter: Meter) => Extract<RepriceAlternative, { kind: "rate" }>[];
   /** Expected usage per bill id from a baseline model (bill unit); replaces the interim outlier rule. */
   expectedUsage?: Map<string, { p50: number; low: number; high: number }>;
+  /**
+   * Expected usage of a meter over any period (bill unit) with a band and the basis in words,
+   * used to price a period nobody billed. Null = no model for the meter (the gap checks then
+   * fall back to the neighbouring bills' use per day).
+   */
+  expectedUsageForPeriod?: (meterId: string, periodStart: string, periodEnd: string) => { p50: number; low: number; high: number; basis: string } | null;
 }

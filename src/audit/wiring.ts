@@ -43,10 +43,11 @@ export function pinVersion(tariff: Tariff, versionFrom: string): Tariff | null {
 
 /**
  * Builds the audit's `reprice` and `rateAlternatives` hooks from the engine's price function.
- * - quantities: the bill re-priced with other usage/demand, same intervals, same ratchet history
- *   (billing demands of the meter's earlier bills, from `priced`);
+ * - quantities: the bill re-priced with other usage/demand (demand null = the meter's peak), the
+ *   interval data only splitting them over time-of-use periods, same ratchet history (billing
+ *   demands of the meter's earlier bills, from `priced`);
  * - rate: another tariff of the same commodity, or one version of the meter's own tariff
- *   applied to the whole period. Alternatives: every version of the own tariff, then every other
+ *   applied to the whole period, on the billed quantities. Alternatives: every version of the own tariff, then every other
  *   tariff of the meter's commodity.
  * Any pricing error yields null (the audit then just has no amount / no alternative).
  */
@@ -92,6 +93,8 @@ export function makeRepricer(opts: {
         demandKw: alt.kind === "quantities" ? alt.demandKw : bill.demandKw,
         powerFactor: bill.powerFactor,
         intervals: intervalUsageForBill(portfolio.intervals.get(bill.meterId), meter.multiplier, bill, zone, opts.minCoverage),
+        // The stated quantities are the bill's (or the corrected ones); interval data only splits them.
+        intervalsGive: "shape",
         previousBillingDemandsKw: earlierDemands.get(bill.billId) ?? [],
       });
     } catch {

@@ -110,7 +110,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
 
 /** Billing demands of the last 12 bills (oldest first), from re-pricing the known bills in order. */
 function recentBillingDemands(meter: Meter, bills: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined): number[] {
-  const priced = priceMeterBills({ meter, bills, timezone, series, price: (r) => priceBill(tariff, r) });
+  const priced = priceMeterBills({ meter, bills, timezone, series, price: (r) => priceBill(tariff, r), meteredBasis: false });
   const ordered = [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
   const demands: number[] = [];
   for (const b of ordered) {

@@ -276,6 +276,26 @@ export function degreeDayBand(
   };
 }
 
+/**
+ * Expected usage of a meter over any stretch of days, from its degree-day model and leave-one-out
+ * band: the stretch is banded as if it were one more (estimated, so untrained-on) bill. Null when
+ * the meter has no accepted model or no weather for the stretch. Used to price a period nobody
+ * billed.
+ */
+export function expectedUsageForStretch(portfolio: Portfolio, building: Building): (meterId: string, periodStart: string, periodEnd: string) => { p50: number; low: number; high: number; basis: string } | null {
+  const tempUnit = portfolio.settings.degreeDayBase.unit;
+  return (meterId, periodStart, periodEnd) => {
+    const bills = portfolio.bills.filter((b) => b.meterId === meterId);
+    if (bills.length === 0) return null;
+    const id = "\u0000stretch";
+    const stretch: Bill = { ...bills[0], billId: id, periodStart, periodEnd, usage: 0, readType: "estimated", demandKw: null, total: 0 };
+    const band = degreeDayBand({ building, bills: [...bills, stretch], weather: portfolio.weather.get(building.weatherStation) }, tempUnit);
+    const e = band.expectedByBill.get(id);
+    const form = band.degreeDay?.fit ? ` (${band.degreeDay.fit.form})` : "";
+    return e ? { p50: e.p50, low: e.low, high: e.high, basis: `the meter's degree-day model${form} at the stretch's actual temperatures, with its prediction band` } : null;
+  };
+}
+
 /** The degree-day bands of every meter of a building, by meter id (fitted before the audit). */
 export function buildingDegreeDayBands(portfolio: Portfolio, building: Building): Map<string, Pick<MeterBaseline, "degreeDay" | "expectedByBill">> {
   const tempUnit = portfolio.settings.degreeDayBase.unit;

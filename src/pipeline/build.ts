@@ -19,7 +19,9 @@ import { priceMeterBills } from "./priceBills.ts";
 import { meteredForBills } from "../audit/reconcile.ts";
 import { assessIntervalMeters } from "./dataQuality.ts";
 import { makeRepricer } from "../audit/wiring.ts";
-import { buildingDegreeDayBands, fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
+import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
+import { buildDisputes, type Dispute } from "../disputes/index.ts";
+import { billCheckState } from "../report/input.ts";
 import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "./meteredViews.ts";
@@ -53,6 +55,13 @@ export interface BuildSummary {
   buildings: number;
   bills: number;
   billsPriced: number;
+  /** Bills whose billed-basis recomputation is exact, so their totals were compared. */
+  billsCheckedExactly: number;
+  /** Bills priced only with estimated lines (time-of-use or period demand without interval data): not compared. */
+  billsEstimated: number;
+  /** Claims (bill too high) and their total; back-billing risks (too low or not billed) and their total. */
+  claims: { count: number; total: number };
+  backBillRisks: { count: number; total: number };
   findings: { error: number; warning: number; info: number };
   amountAtStake: number;
   rowsRejected: number;
@@ -117,15 +126,16 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const findings = results.flatMap((r) => r.findings);
   const priced = new Map<string, PricedBill>();
   for (const r of results) for (const [id, p] of r.priced) priced.set(id, p);
+  const disputes = portfolioDisputes(portfolio, findings, priced);
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
   const forecast = runForecast(portfolio, results, issues);
 
   reporter.stage(`Writing the site to ${options.outDir}`);
-  const dataFiles = buildDataFiles({ portfolio, results, findings, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
+  const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
   const model = buildSiteModel(
-    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, findings, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
+    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
   );
   await writeSite(model, dataFiles, options.outDir);
 
@@ -135,6 +145,10 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
     buildings: portfolio.buildings.length,
     bills: portfolio.bills.length,
     billsPriced: [...priced.values()].filter((p) => p.computed !== null).length,
+    billsCheckedExactly: [...priced.values()].filter((p) => billCheckState(p) === "exact").length,
+    billsEstimated: [...priced.values()].filter((p) => { const s = billCheckState(p); return s === "estimated" || s === "needs-interval-data"; }).length,
+    claims: moneyOf(disputes.filter((d) => d.kind === "claim")),
+    backBillRisks: moneyOf(disputes.filter((d) => d.kind === "back-bill-risk")),
     findings: { error: count("error"), warning: count("warning"), info: count("info") },
     amountAtStake: roundCents(findings.reduce((s, f) => s + (f.severity !== "info" && f.amountAtStake ? f.amountAtStake : 0), 0)),
     rowsRejected: portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0),
@@ -194,6 +208,10 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
     const scoped = scopeToBuilding(portfolio, building);
     const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)));
     const bands = buildingDegreeDayBands(portfolio, building);
+    for (const [id, m] of metered) {
+      const p = priced.get(id);
+      if (p && m && m.peakKw !== null && p.metered) p.meteredDemandKw = m.peakKw;
+    }
     const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
     const findings = runAudit({
       portfolio: scoped,
@@ -201,6 +219,7 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
       metered,
       ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill }),
       expectedUsage: expectedUsageFromBands(bands),
+      expectedUsageForPeriod: expectedUsageForStretch(scoped, building),
     });
     const baselines = fitBuildingBaselines(portfolio, building, billsToLeaveOut(findings), bands);
     const intervalBaselines = fitBuildingIntervalBaselines(portfolio, building, masks);
@@ -256,11 +275,25 @@ function roundCents(x: number): number {
   return Math.round(x * 100) / 100;
 }
 
+function moneyOf(disputes: Dispute[]): { count: number; total: number } {
+  return { count: disputes.length, total: roundCents(disputes.reduce((s, d) => s + d.claimAmount, 0)) };
+}
+
+/** The dispute list of the whole portfolio, from every building's findings. */
+function portfolioDisputes(portfolio: Portfolio<Tariff>, findings: Finding[], priced: Map<string, PricedBill>): Dispute[] {
+  const metered = new Map<string, { usage: number | null; peakKw: number | null }>();
+  for (const [id, p] of priced) if (p.metered) metered.set(id, { usage: p.meteredUsage ?? null, peakKw: p.meteredDemandKw ?? null });
+  return buildDisputes({ findings, bills: portfolio.bills, meters: portfolio.meters, billLines: portfolio.billLines, metered });
+}
+
 function summaryText(s: BuildSummary, currency: string): string {
-  const money = new Intl.NumberFormat("en-US", { style: "currency", currency }).format(s.amountAtStake);
+  const fmt = new Intl.NumberFormat("en-US", { style: "currency", currency });
+  const notPriced = s.bills - s.billsPriced;
   const lines = [
     `Built ${s.buildings} building page(s) into ${s.outDir}`,
-    `  ${s.billsPriced} of ${s.bills} bills re-priced; findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info; ${money} at stake`,
+    `  ${s.billsCheckedExactly} of ${s.bills} bills checked exactly; ${s.billsEstimated} estimated (time-of-use or demand without interval data, not compared); ${notPriced} not re-priced`,
+    `  bills to dispute: ${s.claims.count} claim(s), ${fmt.format(s.claims.total)}; billed too low or not billed: ${s.backBillRisks.count}, ${fmt.format(-s.backBillRisks.total)}`,
+    `  findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info`,
   ];
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);

@@ -2,6 +2,7 @@
  * The machine-readable files every build publishes under OUT/data/ (contract: outputs.md),
  * as text keyed by file name. Pure: the site writer does the writing.
  */
+import { disputesCsv, disputesJson, type Dispute } from "../disputes/index.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/index.ts";
@@ -28,6 +29,8 @@ export interface OutputsInput {
   portfolio: Portfolio<Tariff>;
   results: BuildingResults[];
   findings: Finding[];
+  /** Claims and back-billing risks (src/disputes), in page order. */
+  disputes: Dispute[];
   priced: Map<string, PricedBill>;
   monthlyMetered: Map<string, MonthTotal[]>;
   weatherGaps: WeatherGap[];
@@ -53,6 +56,8 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
     "portfolio.json": json(portfolioJson(input)),
     "findings.json": json(toFindingsJson(findings)),
     "findings.csv": findingsToCsvText(findings),
+    "disputes.csv": disputesCsv(input.disputes),
+    "disputes.json": json(disputesJson(input.disputes)),
     "bills-recomputed.csv": billsRecomputedCsv(input, portfolio.bills, buildingOfMeter),
     "ingest-report.json": json({ files: portfolio.report.files }),
     "data-quality.csv": toCsv(DATA_QUALITY_COLUMNS, qualityRows),
@@ -65,6 +70,7 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
     const meterIds = new Set(portfolio.meters.filter((m) => m.buildingId === id).map((m) => m.meterId));
     const folder = `buildings/${id}/`;
     files[`${folder}findings.csv`] = findingsToCsvText(findings.filter((f) => f.buildingId === id));
+    files[`${folder}disputes.csv`] = disputesCsv(input.disputes.filter((d) => d.buildingId === id));
     files[`${folder}bills-recomputed.csv`] = billsRecomputedCsv(input, portfolio.bills.filter((b) => meterIds.has(b.meterId)), buildingOfMeter);
     files[`${folder}data-quality.csv`] = toCsv(DATA_QUALITY_COLUMNS, qualityRows.filter((row) => row.building_id === id));
     files[`${folder}models.json`] = json(modelsJson([r]));

@@ -1,10 +1,19 @@
 /**
  * Re-prices every bill of one meter through its tariff, oldest first, so demand ratchets
  * see the billing demand of the bills before them. Pure apart from the injected pricer.
+ *
+ * Each bill gets up to two recomputations, each on one basis only:
+ *  - on the billed quantities (usage and demand as printed; interval data, when it covers the
+ *    period, only splits them over time-of-use periods) — checks the arithmetic and the rates;
+ *  - on the metered quantities (interval sum × multiplier, scaled up by coverage when a few
+ *    intervals are missing, and the meter's peak) — checks the quantities. Only when interval
+ *    data covers at least `minCoverage` of the period.
+ * Both use the same ratchet history: the billing demands of the earlier bills as billed.
  */
 import type { Bill, IntervalSeries, Meter } from "../domain/types.ts";
-import type { ComputedBill, PriceRequest } from "../tariff/types.ts";
+import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
 import { intervalUsageForBill } from "../audit/wiring.ts";
+import { localMidnightMs } from "../core/time.ts";
 
 export type { PricedBill } from "../report/input.ts";
 import type { PricedBill } from "../report/input.ts";
@@ -12,9 +21,23 @@ import type { PricedBill } from "../report/input.ts";
 export type Pricer = (request: PriceRequest) => ComputedBill;
 
 /**
+ * Metered usage of a bill's period from its intervals (multiplier applied): the sum scaled up by
+ * coverage, so a period with a few missing intervals is not compared as if complete (the audit's
+ * usage-vs-meter uses the same rule).
+ */
+export function meteredUsageOf(intervals: IntervalUsage, bill: Bill, timezone: string): number {
+  let sum = 0;
+  for (let i = 0; i < intervals.values.length; i++) sum += intervals.values[i];
+  const expected = (localMidnightMs(bill.periodEnd, timezone) - localMidnightMs(bill.periodStart, timezone)) / (intervals.intervalMinutes * 60_000);
+  const coverage = expected > 0 ? intervals.values.length / expected : 1;
+  return coverage > 0 && coverage < 1 ? sum / coverage : sum;
+}
+
+/**
  * Prices `bills` (any order) of `meter`; returns results keyed by bill_id.
  * Interval data is used only when it covers at least `minCoverage` of the period's intervals,
- * otherwise the bill is priced from its billed usage and demand (and TOU lines say so).
+ * otherwise the bill is priced from its billed usage and demand alone (and time-of-use lines say
+ * they are estimates) and has no metered recomputation.
  */
 export function priceMeterBills(options: {
   meter: Meter;
@@ -24,6 +47,8 @@ export function priceMeterBills(options: {
   price: Pricer | null;
   pricerError?: string;
   minCoverage?: number;
+  /** Also re-price on metered quantities (default true; the forecast needs only the billed basis). */
+  meteredBasis?: boolean;
 }): Map<string, PricedBill> {
   const { meter, timezone, series, price } = options;
   const minCoverage = options.minCoverage ?? 0.9;
@@ -32,27 +57,43 @@ export function priceMeterBills(options: {
   const previousDemandsKw: number[] = [];
   for (const bill of ordered) {
     if (!price) {
-      results.set(bill.billId, { computed: null, error: options.pricerError ?? `tariff '${meter.tariffId}' is not available` });
+      results.set(bill.billId, { computed: null, error: options.pricerError ?? `tariff '${meter.tariffId}' is not available`, metered: null });
       continue;
     }
     const intervals = intervalUsageForBill(series, meter.multiplier, bill, timezone, minCoverage);
+    const base: PriceRequest = {
+      periodStart: bill.periodStart,
+      periodEnd: bill.periodEnd,
+      timezone,
+      usage: bill.usage,
+      usageUnit: meter.unit,
+      demandKw: bill.demandKw,
+      powerFactor: bill.powerFactor,
+      intervals,
+      intervalsGive: "shape",
+      previousBillingDemandsKw: [...previousDemandsKw],
+    };
+    let computed: ComputedBill;
     try {
-      const computed = price({
-        periodStart: bill.periodStart,
-        periodEnd: bill.periodEnd,
-        timezone,
-        usage: bill.usage,
-        usageUnit: meter.unit,
-        demandKw: bill.demandKw,
-        powerFactor: bill.powerFactor,
-        intervals,
-        previousBillingDemandsKw: [...previousDemandsKw],
-      });
-      results.set(bill.billId, { computed, error: null });
-      if (computed.billingDemandKw !== null) previousDemandsKw.push(computed.billingDemandKw);
+      computed = price(base);
     } catch (error) {
-      results.set(bill.billId, { computed: null, error: error instanceof Error ? error.message : String(error) });
+      results.set(bill.billId, { computed: null, error: error instanceof Error ? error.message : String(error), metered: null });
+      continue;
     }
+    if (computed.billingDemandKw !== null) previousDemandsKw.push(computed.billingDemandKw);
+    let metered: ComputedBill | null = null;
+    let meteredUsage: number | null = null;
+    if (intervals && options.meteredBasis !== false) {
+      meteredUsage = meteredUsageOf(intervals, bill, timezone);
+      try {
+        // demand null: the meter's own peak (per charge window) is the demand
+        metered = price({ ...base, usage: meteredUsage, demandKw: null });
+      } catch {
+        metered = null;
+      }
+    }
+    // meteredDemandKw is filled by the caller from the reconciliation (the meter's peak on the bill's window)
+    results.set(bill.billId, { computed, error: null, metered, meteredUsage, meteredDemandKw: null });
   }
   return results;
 }

@@ -2,6 +2,7 @@
  * Maps the pipeline's results onto the report stage's input (src/report/input.ts): plain data,
  * nothing computed here that a page shows without a source in the pipeline.
  */
+import type { Dispute } from "../disputes/index.ts";
 import type { InputIssue } from "../core/issues.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Finding } from "../audit/types.ts";
@@ -25,6 +26,7 @@ export interface ReportInputParts {
   issues: InputIssue[];
   buildDate: string;
   findings: Finding[];
+  disputes: Dispute[];
   results: BuildingResults[];
   quality: MeterQuality[];
   weatherGaps: WeatherGap[];
@@ -44,6 +46,7 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     rejectedRowsByBuilding: undefined,
     heatContentByMeter: heatContentByMeter(portfolio),
     findings: parts.findings,
+    disputes: parts.disputes,
     models: modelSummaries(results),
     baselines: baselines.map((b) => reportBaseline(b, unitOf.get(b.meterId) ?? "")),
     quality: parts.quality.map(reportQuality),

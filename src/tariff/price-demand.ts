@@ -9,7 +9,7 @@ import { billingDemandKw, maxWindowDemandByPeriodKw, maxWindowDemandKw } from ".
 import { groupedNumber } from "./format.ts";
 import { line } from "./lines.ts";
 import { sumAmounts } from "./rounding.ts";
-import type { VersionState } from "./version-state.ts";
+import { agreesWithinRounding, type VersionState } from "./version-state.ts";
 
 const fmt = groupedNumber;
 
@@ -27,6 +27,13 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
       const d = maxWindowDemandKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes);
       measured = d.kw;
       source = `highest ${d.intervalsPerWindow * iv.intervalMinutes}-minute average from interval data`;
+      // Shape only: the bill's demand governs; the meter's more precise figure is used only when it is the same reading.
+      const scaled = billedDemandScale(st);
+      if (scaled !== null && scaled.scale !== 1) {
+        const meterKw = measured;
+        measured = charge.windowMinutes === scaled.windowMinutes || meterKw === null ? req.demandKw! : meterKw * scaled.scale;
+        source = `billed maximum demand ${fmt(req.demandKw!)} kW (the meter's highest ${scaled.windowMinutes}-minute average was ${fmt(scaled.meterKw)} kW)`;
+      }
     } else {
       source = "";
     }
@@ -57,13 +64,21 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
   let note: string;
   if (iv && iv.kwh && iv.startMs.length > 0) {
     const byPeriod = maxWindowDemandByPeriodKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes, st.intervalPeriods(), version.periods.length);
+    // Shape only: period peaks scaled so the highest of them matches the billed demand.
+    let scale = 1;
+    note = `highest ${windowText} average inside each period, from interval data`;
+    const scaled = billedDemandScale(st);
+    if (scaled !== null && scaled.scale !== 1) {
+      scale = scaled.scale;
+      status = "estimated";
+      note = `estimated: each period's highest ${windowText} average from interval data × ${fmt(scale, 4)} (billed ${fmt(req.demandKw!)} kW against the meter's ${fmt(scaled.meterKw)} kW)`;
+    }
     for (const name of names) {
       const p = version.periods.findIndex((x) => x.name === name);
-      let kw = byPeriod[p] ?? 0;
+      let kw = (byPeriod[p] ?? 0) * scale;
       if (charge.minimumKw !== null && kw < charge.minimumKw) kw = charge.minimumKw;
       parts.push({ label: name, quantity: kw, unit: "kW", rate: rates[name], amount: kw * rates[name] });
     }
-    note = `highest ${windowText} average inside each period, from interval data`;
   } else if (req.demandKw != null) {
     const shaped = st.hasShape();
     let overallMax = 0;
@@ -100,3 +115,22 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
   };
 }
 
+
+/**
+ * With interval data giving only the shape (`intervalsGive: "shape"`) and a billed demand: the
+ * factor that takes the meter's demand to the billed one. The billed demand is read on the
+ * window of the version's first demand charge (the window a bill prints); the factor is 1 when
+ * the two agree within the rounding of a printed figure. Null when not in shape mode, without a
+ * billed demand, or without a complete window in the data.
+ */
+function billedDemandScale(st: VersionState): { scale: number; meterKw: number; windowMinutes: number } | null {
+  const { ctx, version } = st;
+  const req = ctx.req;
+  const iv = ctx.intervals;
+  if (req.intervalsGive !== "shape" || req.demandKw == null || !iv || !iv.kwh || iv.startMs.length === 0) return null;
+  const first = version.charges.find((c) => c.kind === "demand");
+  const windowMinutes = first && first.kind === "demand" ? first.windowMinutes : 15;
+  const meterKw = maxWindowDemandKw(iv.startMs, iv.kwh, iv.intervalMinutes, windowMinutes).kw;
+  if (meterKw === null || meterKw <= 0) return null;
+  return { scale: agreesWithinRounding(meterKw, req.demandKw) ? 1 : req.demandKw / meterKw, meterKw, windowMinutes };
+}

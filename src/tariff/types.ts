@@ -30,6 +30,18 @@ export interface PriceRequest {
   powerFactor?: number | null;
   /** When present, time-of-use energy and demand are computed exactly from it. */
   intervals?: IntervalUsage | null;
+  /**
+   * What `intervals` stand for (default `quantities`):
+   *  - `quantities`: the interval data ARE the bill's quantities — time-of-use usage and every
+   *    demand come from them (flat and block lines still use `usage`);
+   *  - `shape`: the bill's quantities are `usage` and `demandKw`; the interval data only split
+   *    them over time-of-use periods (usage by the metered shares; period demand by the metered
+   *    period peaks scaled to `demandKw`). The split is `exact` when the metered total agrees with
+   *    `usage` (and the metered peak with `demandKw`) within the rounding of a printed figure
+   *    (0.05 %), else `estimated`. Used to re-price a bill on one basis only (billed or corrected
+   *    quantities), never mixing metered and billed figures in one recomputation.
+   */
+  intervalsGive?: "quantities" | "shape";
   /** Billing demand (kW) of previous bills, oldest first, for ratchets. */
   previousBillingDemandsKw?: number[];
   /** Share of usage by hour of week (168 values summing to 1) for estimating time-of-use splits. */

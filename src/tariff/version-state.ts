@@ -21,6 +21,15 @@ export interface PeriodSplit {
   note: string | null;
 }
 
+/**
+ * Whether two figures of the same quantity agree within the rounding of a printed figure
+ * (0.05 % of the larger, or 0.01 absolute for small ones): a bill prints usage and demand
+ * rounded, so a metered 1,154.431 kW and a printed 1,154.4 kW are the same reading.
+ */
+export function agreesWithinRounding(a: number, b: number): boolean {
+  return Math.abs(a - b) <= Math.max(0.01, 0.0005 * Math.max(Math.abs(a), Math.abs(b)));
+}
+
 /** Per-version cache of work shared by several charges. */
 export class VersionState {
   private periodIdx: Int8Array | null = null;
@@ -70,6 +79,18 @@ export class VersionState {
       const idx = this.intervalPeriods();
       for (let i = 0; i < idx.length; i++) usage[idx[i]] += iv.usage[i];
       const metered = sumAmounts(usage);
+      if (this.ctx.req.intervalsGive === "shape" && metered > 0) {
+        const agrees = iv.startMs.length >= iv.expectedCount && agreesWithinRounding(metered, this.ctx.usage);
+        this.split = {
+          usage: usage.map((u) => (u / metered) * this.ctx.usage),
+          total: this.ctx.usage,
+          status: agrees ? "exact" : "estimated",
+          note: agrees
+            ? `split by ${iv.startMs.length} intervals of interval data`
+            : `estimated: ${fmt(this.ctx.usage)} ${unit} split by the metered shares of each period (the meter recorded ${fmt(metered)} ${unit} over ${iv.startMs.length} of ${iv.expectedCount} intervals)`,
+        };
+        return this.split;
+      }
       if (iv.startMs.length >= iv.expectedCount) {
         this.split = { usage, total: metered, status: "exact", note: `from ${iv.startMs.length} intervals of interval data` };
         return this.split;

@@ -131,7 +131,7 @@ describe("toReportInput", () => {
       monthlyMetered: new Map(),
       issues: [],
       buildDate: "2025-01-05",
-      findings: [],
+      findings: [], disputes: [],
       results: [],
       quality: [],
       weatherGaps: [],
@@ -146,7 +146,7 @@ describe("toReportInput", () => {
 
   it("without a forecast the forecast blocks are absent", () => {
     const { portfolio } = fixtureInput();
-    const input = toReportInput({ portfolio, priced: new Map(), monthlyMetered: new Map(), issues: [], buildDate: "2025-01-05", findings: [], results: [], quality: [], weatherGaps: [], forecast: null });
+    const input = toReportInput({ portfolio, priced: new Map(), monthlyMetered: new Map(), issues: [], buildDate: "2025-01-05", findings: [], disputes: [], results: [], quality: [], weatherGaps: [], forecast: null });
     expect([input.forecast, input.buildingForecasts, input.portfolioTrackRecord, input.portfolioForecast]).toEqual([undefined, undefined, undefined, undefined]);
   });
 
@@ -154,7 +154,7 @@ describe("toReportInput", () => {
     const { portfolio } = fixtureInput();
     const g1 = portfolio.meters.find((m) => m.meterId === "G1")!;
     const tariffs = new Map<string, unknown>([[g1.tariffId, { heatContentThermPerCcf: 1.05 }]]);
-    const input = toReportInput({ portfolio: { ...portfolio, tariffs }, priced: new Map(), monthlyMetered: new Map(), issues: [], buildDate: "2025-01-05", findings: [], results: [], quality: [], weatherGaps: [], forecast: null });
+    const input = toReportInput({ portfolio: { ...portfolio, tariffs }, priced: new Map(), monthlyMetered: new Map(), issues: [], buildDate: "2025-01-05", findings: [], disputes: [], results: [], quality: [], weatherGaps: [], forecast: null });
     expect(input.heatContentByMeter?.get("G1")).toBe(1.05);
     // Meters whose tariff states none are absent (the page then uses 1.037, as portfolio.json does).
     expect(input.heatContentByMeter?.has("E1")).toBe(false);

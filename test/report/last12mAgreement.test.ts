@@ -29,7 +29,7 @@ describe("pages and portfolio.json agree on the last 12 months", () => {
   const files = buildDataFiles({
     portfolio: portfolio as unknown as Portfolio<Tariff>,
     results,
-    findings: [],
+    findings: [], disputes: [],
     priced: new Map(),
     monthlyMetered: new Map(),
     weatherGaps: [],
@@ -38,7 +38,7 @@ describe("pages and portfolio.json agree on the last 12 months", () => {
     forecast: null,
   });
   const json = JSON.parse(files["portfolio.json"]!) as { buildings: Record<string, unknown>[] };
-  const input = toReportInput({ portfolio, priced: base.priced, monthlyMetered: new Map(), issues: [], buildDate: "2025-05-01", findings: [], results, quality: [], weatherGaps: [], forecast: null });
+  const input = toReportInput({ portfolio, priced: base.priced, monthlyMetered: new Map(), issues: [], buildDate: "2025-05-01", findings: [], disputes: [], results, quality: [], weatherGaps: [], forecast: null });
   const model = buildSiteModel(input);
   const table = model.index.buildingsTable;
   const col = (label: string) => table.columns.findIndex((c) => c.label === label);

@@ -12,6 +12,7 @@ import { formatMoney, formatPct, formatQty } from "../format.ts";
 import { exceedsPct } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
 import { comparableMetered, moneyAtStakeOnQuantities } from "./metered.ts";
+import { repricedCorrection } from "../corrections.ts";
 
 /** demand-vs-meter findings for every bill with a printed demand and comparable interval data. */
 export function checkDemandVsMeter(ctx: AuditContext): Finding[] {
@@ -37,6 +38,7 @@ export function checkDemandVsMeter(ctx: AuditContext): Finding[] {
         rows: [{ label: "Demand (kW)", billed: bill.demandKw, expected: Number(m.peakKw.toFixed(3)), difference: Number(diff.toFixed(3)) }],
         notes,
       },
+      corrections: money ? [repricedCorrection(bill, money.repriced, bill.usage, m.peakKw, `the billed usage with the demand the meter recorded (${formatQty(m.peakKw)} kW), priced through the tariff`)] : undefined,
     }));
   }
   return out;

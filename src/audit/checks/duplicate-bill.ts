@@ -6,6 +6,7 @@
  * with shifted dates). The later one (by statement date, then input line) is the duplicate.
  * Severity error (money plainly at risk); amount at stake = the duplicate's total.
  */
+import { voidCorrection } from "../corrections.ts";
 import type { Bill } from "../../domain/types.ts";
 import type { AuditContext } from "../context.ts";
 import { billFinding } from "../context.ts";
@@ -80,6 +81,7 @@ export function checkDuplicateBill(ctx: AuditContext): Finding[] {
         notes: [`"Billed" is the duplicate ${duplicate.billId}; "expected" is the first bill ${original.billId}.`],
       },
       relatedBillIds: [original.billId],
+      corrections: [voidCorrection(duplicate, `nothing: the service period was already billed on ${original.billId}`)],
     });
   });
 }

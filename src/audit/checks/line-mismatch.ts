@@ -10,6 +10,7 @@ import { formatMoney } from "../format.ts";
 import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
 import { groupLines } from "./labels.ts";
+import { adjustedCorrection } from "../corrections.ts";
 
 /** line-mismatch findings for every bill with printed lines. */
 export function checkLineMismatch(ctx: AuditContext): Finding[] {
@@ -33,6 +34,7 @@ export function checkLineMismatch(ctx: AuditContext): Finding[] {
           rows: [{ label: g.label, billed: roundCents(g.printed), expected: roundCents(g.computed), difference: diff }],
           notes: g.computedLines.map((l) => l.note).filter((n): n is string => !!n),
         },
+        corrections: [adjustedCorrection(bill, diff, computed, `the printed bill with the "${g.label}" line at the tariff's ${formatMoney(g.computed, ctx.currency)}`)],
       }));
     }
   }

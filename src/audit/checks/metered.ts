@@ -1,5 +1,6 @@
 /** Shared access to a bill's metered reconciliation and to the re-pricing hook. */
 import type { Bill } from "../../domain/types.ts";
+import type { ComputedBill } from "../../tariff/types.ts";
 import type { AuditContext } from "../context.ts";
 import { roundCents } from "../tolerances.ts";
 import type { MeteredPeriod } from "../types.ts";
@@ -20,10 +21,10 @@ export function moneyAtStakeOnQuantities(
   bill: Bill,
   usage: number,
   demandKw: number | null,
-): { amount: number; repricedTotal: number } | null {
+): { amount: number; repricedTotal: number; repriced: ComputedBill } | null {
   const repriced = ctx.input.reprice?.(bill, { kind: "quantities", usage, demandKw }) ?? null;
   if (repriced === null) return null;
-  return { amount: roundCents(bill.total - repriced.total), repricedTotal: repriced.total };
+  return { amount: roundCents(bill.total - repriced.total), repricedTotal: repriced.total, repriced };
 }
 
 /**

@@ -9,7 +9,8 @@
  *    meter's median billing period: most of a cycle has passed and no bill covers it);
  *  - before the first bill: info when longer than that (data often predates bills);
  *  - a meter with interval data and no bills at all: one warning.
- * Amount null (the usage is shown as evidence; nothing was overbilled).
+ * Amount = − the metered use of the stretch priced through the tariff (see unbilled.ts): nothing
+ * was overbilled, but the utility may still bill it.
  */
 import { DateTime, IANAZone } from "luxon";
 import type { Bill } from "../../domain/types.ts";
@@ -18,6 +19,8 @@ import { addDays, daysBetween, minDate } from "../dates.ts";
 import { formatPct, formatQty } from "../format.ts";
 import { meteredForPeriod } from "../reconcile.ts";
 import type { Finding, MeteredPeriod, Severity } from "../types.ts";
+import { formatMoney } from "../format.ts";
+import { unbilledCorrection } from "./unbilled.ts";
 
 const MIN_GAP_COVERAGE = 0.5;
 
@@ -60,16 +63,23 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
       }
       if (m.coverage < MIN_GAP_COVERAGE) return;
       const days = daysBetween(from, to);
+      const usage = m.coverage < 1 ? m.usage / m.coverage : m.usage;
+      const template = related[related.length - 1];
+      const worth = template
+        ? unbilledCorrection(ctx, template, from, to, { p50: usage, low: usage, high: usage, basis: "the interval data", demandKw: null }, unit)
+        : null;
+      if (worth) delete worth.range; // metered: no band
       out.push({
         buildingId: buildingOf(ctx, meterId), meterId, billId: null, periodStart: from, periodEnd: to,
-        check: "missing-bill", severity, amountAtStake: null,
+        check: "missing-bill", severity, amountAtStake: worth && severity !== "info" ? -worth.correctedTotal : null,
         title: "Metered use with no bill",
-        message: `The interval meter recorded ${formatQty(m.usage)} ${unit} over the ${days} day${days === 1 ? "" : "s"} from ${from} to ${to}, but no bill of meter ${meterId} covers them (${why}).`,
+        message: `The interval meter recorded ${formatQty(m.usage)} ${unit} over the ${days} day${days === 1 ? "" : "s"} from ${from} to ${to}, but no bill of meter ${meterId} covers them (${why}).${worth ? ` Priced through the tariff that use is worth ${formatMoney(worth.correctedTotal, ctx.currency)}.` : ""}`,
         evidence: {
           rows: [{ label: `Usage (${unit})`, billed: null, expected: Number(m.usage.toFixed(3)) }],
           notes: [`Interval coverage of the stretch ${formatPct(m.coverage)}.`],
         },
         relatedBillIds: related.map((b) => b.billId),
+        corrections: worth && severity !== "info" ? [worth] : undefined,
       });
     };
 

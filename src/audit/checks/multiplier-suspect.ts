@@ -16,8 +16,9 @@ import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
 import { formatMoney, formatQty } from "../format.ts";
 import { roundCents } from "../tolerances.ts";
-import type { Finding } from "../types.ts";
+import type { CorrectedBill, Finding } from "../types.ts";
 import { comparableMetered, fullPeriodUsage, moneyAtStakeOnQuantities } from "./metered.ts";
+import { repricedCorrection } from "../corrections.ts";
 
 export const COMMON_RATIOS = [2, 10, 20, 30, 40, 50, 60, 80, 100, 120, 150, 160, 200, 240, 300, 400, 500, 600, 800, 1000, 1200];
 
@@ -103,10 +104,14 @@ function runFinding(
 ): Finding {
   let total: number | null = 0;
   const notes: string[] = [];
+  const corrections: CorrectedBill[] = [];
   for (const { bill } of items) {
-    const money = moneyAtStakeOnQuantities(ctx, bill, bill.usage / factor, bill.demandKw === null ? null : bill.demandKw / factor);
+    const usage = bill.usage / factor;
+    const demandKw = bill.demandKw === null ? null : bill.demandKw / factor;
+    const money = moneyAtStakeOnQuantities(ctx, bill, usage, demandKw);
     if (money === null) { total = null; break; }
     total += money.amount;
+    corrections.push(repricedCorrection(bill, money.repriced, usage, demandKw, `the billed usage${demandKw === null ? "" : " and demand"} ${factorText(1 / factor)} (${formatQty(usage)} ${unit}${demandKw === null ? "" : `, ${formatQty(demandKw)} kW`}), priced through the tariff`));
     notes.push(`${bill.billId}: billed ${formatMoney(bill.total, ctx.currency)}, re-priced on usage ${factorText(1 / factor)} ${formatMoney(money.repricedTotal, ctx.currency)}.`);
   }
   if (total === null) notes.length = 0;
@@ -126,5 +131,6 @@ function runFinding(
       notes,
     },
     relatedBillIds: items.map((p) => p.bill.billId),
+    corrections: total === null ? undefined : corrections,
   };
 }

@@ -7,6 +7,7 @@
  * difference is within the money tolerance, or at most 2 % of the own difference (far closer).
  * Severity error; amount = billed − computed under the bill's own tariff (what was overpaid).
  */
+import { repricedCorrection } from "../corrections.ts";
 import { billFinding, type AuditContext } from "../context.ts";
 import { formatMoney } from "../format.ts";
 import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
@@ -49,6 +50,7 @@ export function checkRateSuspect(ctx: AuditContext): Finding[] {
         ],
         notes: [`Alternatives tried: ${alternatives.map((a) => a.label).join(", ")}.`],
       },
+      corrections: [repricedCorrection(bill, own, bill.usage, bill.demandKw, `the billed usage and demand, priced on tariff ${meter.tariffId} as in force on the bill's days`)],
     }));
   }
   return out;

@@ -3,8 +3,9 @@
  *
  * Compared only when every computed line is `exact`. Finding when the difference exceeds BOTH
  * cost_abs and cost_pct (of the computed total): severity error, amount = billed − computed.
- * A bill that could not be priced, or only partly exactly, gets an `info` finding naming what
- * could not be compared (amount null).
+ * A bill that could not be priced, or only with estimated lines (time-of-use without interval
+ * data), is not compared and raises nothing here: it is not a difference. Its state is shown with
+ * the bill and counted in the build summary.
  */
 import type { Bill } from "../../domain/types.ts";
 import type { ComputedBill } from "../../tariff/types.ts";
@@ -13,6 +14,7 @@ import { formatMoney } from "../format.ts";
 import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
 import type { EvidenceRow, Finding } from "../types.ts";
 import { groupLines } from "./labels.ts";
+import { repricedCorrection } from "../corrections.ts";
 
 /** Evidence rows: every charge (printed vs computed) and the total. Shared with other checks. */
 export function billVsComputedRows(ctx: AuditContext, bill: Bill, computed: ComputedBill): EvidenceRow[] {
@@ -34,27 +36,9 @@ export function checkTotalMismatch(ctx: AuditContext): Finding[] {
   const out: Finding[] = [];
   for (const bill of ctx.input.portfolio.bills) {
     const computed = ctx.input.priced.get(bill.billId) ?? null;
-    if (computed === null) {
-      out.push(billFinding(ctx, bill, {
-        check: "total-mismatch", severity: "info", amountAtStake: null,
-        title: "Bill not re-priced",
-        message: `Bill ${bill.billId} could not be re-priced (no usable tariff), so its total of ${formatMoney(bill.total, ctx.currency)} was not checked.`,
-        evidence: { rows: [], notes: [] },
-      }));
-      continue;
-    }
+    if (computed === null || !computed.exact) continue;
     const rows = billVsComputedRows(ctx, bill, computed);
     const notes = [...computed.notes];
-    if (!computed.exact) {
-      const inexact = computed.lines.filter((l) => l.status !== "exact").map((l) => `${l.label} (${l.status})`);
-      out.push(billFinding(ctx, bill, {
-        check: "total-mismatch", severity: "info", amountAtStake: null,
-        title: "Bill only partly recomputed",
-        message: `The total of bill ${bill.billId} was not compared because these charges cannot be recomputed exactly: ${inexact.join(", ")}.`,
-        evidence: { rows, notes },
-      }));
-      continue;
-    }
     const diff = roundCents(bill.total - computed.total);
     if (!exceedsMoneyTolerance(diff, computed.total, ctx.tol)) continue;
     out.push(billFinding(ctx, bill, {
@@ -62,6 +46,7 @@ export function checkTotalMismatch(ctx: AuditContext): Finding[] {
       title: diff > 0 ? "Bill total higher than the tariff gives" : "Bill total lower than the tariff gives",
       message: `Billed ${formatMoney(bill.total, ctx.currency)} but the tariff gives ${formatMoney(computed.total, ctx.currency)} for the billed quantities, a difference of ${formatMoney(diff, ctx.currency)}.`,
       evidence: { rows, notes },
+      corrections: [repricedCorrection(bill, computed, bill.usage, bill.demandKw, "the billed usage and demand, priced through the tariff")],
     }));
   }
   return out;

@@ -4,6 +4,7 @@
  * total): severity warning (it may be a legitimate charge the tariff file lacks), amount = the
  * line's amount.
  */
+import { adjustedCorrection } from "../corrections.ts";
 import { billFinding, type AuditContext } from "../context.ts";
 import { formatMoney } from "../format.ts";
 import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
@@ -29,6 +30,7 @@ export function checkUnexplainedLine(ctx: AuditContext): Finding[] {
           rows: [{ label: g.label, billed: amount, expected: null, difference: amount }],
           notes: [`Tariff charges: ${computed.lines.map((l) => l.label).join(", ")}.`],
         },
+        corrections: [adjustedCorrection(bill, amount, computed, `the printed bill without the "${g.label}" line`)],
       }));
     }
   }

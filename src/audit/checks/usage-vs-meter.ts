@@ -4,13 +4,14 @@
  * Compared when interval coverage ≥ minCoverage; a period with some data but less coverage
  * gets an `info` finding saying it was not compared. Finding when |billed − metered| /
  * metered > usage_pct, the metered sum scaled up by its coverage when a few intervals are missing. Severity: error beyond 5 × usage_pct (plainly wrong), else warning.
- * Amount = billed total − total re-priced on metered usage (null without a reprice hook).
+ * Amount = billed total − total re-priced on metered usage and demand (the bill's metered basis; null without a reprice hook).
  */
 import { billFinding, type AuditContext } from "../context.ts";
 import { formatMoney, formatPct, formatQty } from "../format.ts";
 import { exceedsPct } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
 import { fullPeriodUsage, moneyAtStakeOnQuantities } from "./metered.ts";
+import { repricedCorrection } from "../corrections.ts";
 
 /** usage-vs-meter findings (and low-coverage notices) for every bill with interval data. */
 export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
@@ -32,7 +33,7 @@ export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
     if (!exceedsPct(bill.usage, meteredUsage, ctx.tol.usagePct)) continue;
     const diff = bill.usage - meteredUsage;
     const rel = meteredUsage === 0 ? Infinity : diff / meteredUsage;
-    const money = moneyAtStakeOnQuantities(ctx, bill, meteredUsage, bill.demandKw);
+    const money = moneyAtStakeOnQuantities(ctx, bill, meteredUsage, null);
     const notes = [`Interval coverage ${formatPct(m.coverage)} (${m.intervals} of ${m.expectedIntervals} intervals), multiplier applied.`];
     if (m.coverage < 1) notes.push(`Metered sum of the intervals present ${formatQty(m.usage)} ${unit}, scaled by the coverage to ${formatQty(meteredUsage)} ${unit}.`);
     if (money) notes.push(`Re-priced on metered usage: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
@@ -46,6 +47,7 @@ export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
         rows: [{ label: `Usage (${unit})`, billed: bill.usage, expected: Number(meteredUsage.toFixed(3)), difference: Number(diff.toFixed(3)) }],
         notes,
       },
+      corrections: money ? [repricedCorrection(bill, money.repriced, meteredUsage, null, `the metered usage (${formatQty(meteredUsage)} ${unit}) and the meter's own demand, priced through the tariff`)] : undefined,
     }));
   }
   return out;

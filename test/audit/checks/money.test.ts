@@ -28,15 +28,19 @@ describe("total-mismatch", () => {
   it("clean twin: billed 150.00 → nothing", () => {
     expect(run(150)).toEqual([]);
   });
-  it("non-exact lines: info naming what could not be compared, no amount", () => {
-    const [f] = run(999, computed([["Customer charge", 24.5], ["Energy", 120, "needs-interval-data"]]));
-    expect(f).toMatchObject({ severity: "info", amountAtStake: null });
-    expect(f.message).toContain("Energy (needs-interval-data)");
+  // Regression (issue 11): a bill that was not compared must not read as a difference; its state
+  // is shown with the bill and counted in the build summary instead.
+  it("non-exact lines: not compared, so no finding even when the totals differ", () => {
+    expect(run(999, computed([["Customer charge", 24.5], ["Energy", 120, "needs-interval-data"]]))).toEqual([]);
   });
-  it("unpriced bill: info", () => {
+  it("unpriced bill: not compared, no finding", () => {
     const b = bill("2024-01-01", "2024-02-01");
-    const [f] = checkTotalMismatch(buildContext(input(portfolio({ bills: [b] }), { priced: new Map([[b.billId, null]]) })));
-    expect(f).toMatchObject({ severity: "info", amountAtStake: null });
+    expect(checkTotalMismatch(buildContext(input(portfolio({ bills: [b] }), { priced: new Map([[b.billId, null]]) })))).toEqual([]);
+  });
+  it("a mismatch carries the corrected bill: amount = billed − corrected total", () => {
+    const [f] = run(180); // 30.00 above the tariff's 150.00
+    expect(f.corrections).toHaveLength(1);
+    expect(f.amountAtStake).toBeCloseTo(f.corrections![0].billedTotal - f.corrections![0].correctedTotal, 10);
   });
 });
 
