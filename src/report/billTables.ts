@@ -87,6 +87,17 @@ function claimAmounts(disputes: readonly Dispute[] | undefined): Map<string, num
   return out;
 }
 
+/**
+ * A half-open service period as a short table text: the year once when both ends share it.
+ * @example shortPeriod("2025-04-08", "2025-05-08") // "Apr 8 – May 7, 2025"
+ */
+export function shortPeriod(periodStart: string, periodEnd: string): string {
+  const full = formatPeriod(periodStart, periodEnd);
+  const [from, to] = full.split(" – ");
+  const year = from.slice(-6);
+  return to.endsWith(year) ? `${from.slice(0, -6)} – ${to}` : full;
+}
+
 /** Signed difference cell with its tone; the caller has checked the recomputation is exact. */
 function differenceCell(diff: number, currency: string): TableCell {
   return { text: formatMoneySigned(diff, currency), sort: String(diff), tone: diff > 0 ? "pos" : diff < 0 ? "neg" : undefined };
@@ -96,13 +107,13 @@ function differenceCell(diff: number, currency: string): TableCell {
 export interface BillsTableOptions {
   /** Caption of the table. */
   caption?: string;
-  /** Add a meter column (for a table mixing meters). */
+  /** Name the meter under each bill id (for a table mixing meters). */
   withMeter?: boolean;
 }
 
 /**
  * Bills table of one or more bills: the bill (linked to its re-pricing on the meter's bills
- * page), period, days, usage, read, demand, billed, re-priced on billed quantities with its
+ * page), period (days beneath), usage (an estimated read said beneath), demand (when any bill has one), billed, re-priced on billed quantities with its
  * difference, re-priced on metered quantities with its difference (columns only when some bill
  * has that basis), and the claim (column only when some bill has one). A bill that is not
  * exact shows its check state in words where the difference would be. Links are relative to
@@ -115,14 +126,12 @@ export function billsTable(meters: readonly Meter[], bills: readonly Bill[], inp
   const amounts = claimAmounts(input.disputes);
   const anyMetered = bills.some((b) => meteredOf(input.priced.get(b.billId)) !== null);
   const anyClaim = bills.some((b) => claims.has(b.billId));
+  const anyDemand = bills.some((b) => b.demandKw != null);
   const columns: TableColumn[] = [
     { label: "Bill", numeric: false },
-    ...(options.withMeter ? [{ label: "Meter", numeric: false }] : []),
     { label: "Service period", numeric: false },
-    { label: "Days", numeric: true },
     { label: "Usage", numeric: true },
-    { label: "Read", numeric: false },
-    { label: "Demand", numeric: true },
+    ...(anyDemand ? [{ label: "Demand", numeric: true }] : []),
     { label: "Billed", numeric: true },
     { label: "Re-priced on billed quantities", numeric: true },
     { label: "Difference (billed quantities)", numeric: true },
@@ -143,16 +152,15 @@ export function billsTable(meters: readonly Meter[], bills: readonly Bill[], inp
     const metered = meteredOf(priced);
     const days = periodDays(b.periodStart, b.periodEnd);
     const href = `${meterBillsPath(meter?.buildingId ?? "", b.meterId)}#${billAnchor(b.billId)}`;
-    const cells: TableCell[] = [{ text: b.billId, href, sort: b.periodStart }];
-    if (options.withMeter) cells.push({ text: b.meterId });
+    const cells: TableCell[] = [{ text: b.billId, href, sort: b.periodStart, note: options.withMeter ? `meter ${b.meterId}` : undefined }];
     cells.push(
-      { text: formatPeriod(b.periodStart, b.periodEnd), sort: b.periodStart },
-      { text: formatNumber(days), sort: String(days) },
-      { text: formatQuantity(b.usage, unit), sort: String(b.usage) },
-      { text: b.readType, tone: b.readType === "estimated" ? "warn" : undefined },
-      b.demandKw == null ? { text: NOT_AVAILABLE, sort: "" } : { text: formatQuantity(b.demandKw, "kW"), sort: String(b.demandKw) },
-      { text: formatMoney(b.total, currency), sort: String(b.total) },
+      { text: shortPeriod(b.periodStart, b.periodEnd), sort: b.periodStart, note: `${formatNumber(days)} days` },
+      b.readType === "estimated"
+        ? { text: formatQuantity(b.usage, unit), sort: String(b.usage), note: "estimated read", tone: "warn" }
+        : { text: formatQuantity(b.usage, unit), sort: String(b.usage) },
     );
+    if (anyDemand) cells.push(b.demandKw == null ? { text: NOT_AVAILABLE, sort: "" } : { text: formatQuantity(b.demandKw, "kW"), sort: String(b.demandKw) });
+    cells.push({ text: formatMoney(b.total, currency), sort: String(b.total) });
     // The difference column carries the check state in words whenever there is no exact total
     // to compare: an estimate is shown as such and never as a difference.
     const stateCell: TableCell = { text: checkStateText(state, priced), sort: "", tone: "muted" };
@@ -164,7 +172,7 @@ export function billsTable(meters: readonly Meter[], bills: readonly Bill[], inp
       cells.push({ text: NOT_AVAILABLE, sort: "", tone: "muted" }, stateCell);
     }
     if (anyMetered) {
-      if (!metered) cells.push({ text: NOT_AVAILABLE, sort: "", tone: "muted" }, { text: "no interval data for this period", sort: "", tone: "muted" });
+      if (!metered) cells.push({ text: "no interval data", sort: "", tone: "muted" }, { text: NOT_AVAILABLE, sort: "" });
       else if (metered.exact) cells.push({ text: formatMoney(metered.total, currency), sort: String(metered.total) }, differenceCell(billDifference(b, metered)!, currency));
       else cells.push({ text: `${formatMoney(metered.total, currency)} (estimate)`, sort: String(metered.total), tone: "muted" }, { text: "estimated, not compared", sort: "", tone: "muted" });
     }

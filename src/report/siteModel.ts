@@ -18,6 +18,8 @@ export interface TableCell {
   sort?: string;
   /** Optional link target (relative). */
   href?: string;
+  /** A short second line under the text (e.g. "estimated read"). */
+  note?: string;
   /** Emphasis: `pos` bill higher than recomputed, `neg` lower, `warn` a problem, `muted` absent. */
   tone?: "pos" | "neg" | "muted" | "warn";
 }
