@@ -67,8 +67,9 @@ export function claimsByBill(disputes: readonly Dispute[] | undefined, currency:
     for (const b of d.bills) {
       const claim: BillClaim = {
         label: d.kind === "claim" ? "Claim" : "Back-billing risk",
-        // The dispute's number as it stands: the report never recomputes a claim.
-        amount: formatMoney(b.claimAmount, currency),
+        // The dispute's number as it stands (a risk is negative: billed below the corrected total);
+        // the report never recomputes a claim.
+        amount: d.kind === "claim" ? formatMoney(b.claimAmount, currency) : formatMoneySigned(b.claimAmount, currency),
         title: d.title,
         href: claimPath(d.disputeId),
       };

@@ -9,7 +9,7 @@ import type { ReportInput } from "./input.ts";
 import type { BaselineSection, QualitySection } from "./siteModel.ts";
 import type { BillClaim, MeterBillsPage } from "./billPageModels.ts";
 import type { BuildingContext } from "./buildingPage.ts";
-import { NOT_AVAILABLE, formatMoney, formatNumber } from "./format.ts";
+import { NOT_AVAILABLE, formatMoney, formatMoneySigned, formatNumber } from "./format.ts";
 import { buildingPath, claimPath, meterBillsPath, navFor } from "./nav.ts";
 import { commodityLabel } from "./labels.ts";
 import { billDetail, billsTable, claimsByBill, meteredTable } from "./billTables.ts";
@@ -74,7 +74,7 @@ export function buildMeterBillsPage(
     .filter((d) => d.meterId === meter.meterId && d.buildingId === b.buildingId && !d.bills.some((x) => billIds.has(x.billId)))
     .map((d) => ({
       label: d.kind === "claim" ? "Claim" : "Back-billing risk",
-      amount: formatMoney(d.claimAmount, currency),
+      amount: d.kind === "claim" ? formatMoney(d.claimAmount, currency) : formatMoneySigned(d.claimAmount, currency),
       title: d.title,
       href: claimPath(d.disputeId),
     }));
