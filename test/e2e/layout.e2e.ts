@@ -2,7 +2,8 @@
  * Layout of the demo site (data/demo) in chromium at a phone (390 px), a small laptop (1024 px)
  * and a desktop (1440 px) width: no page scrolls sideways, every amount in a table can be read
  * (on screen, never cut off by its table), chart text is never cut short or clipped, building
- * pages stay small, every bill links to its re-pricing, and no raw state code reaches a page.
+ * pages stay small, every bill links to its re-pricing, no raw state code reaches a page, and
+ * axe-core finds no violations in either table layout.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { existsSync } from "node:fs";
@@ -12,7 +13,7 @@ import { join, resolve } from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
 import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
-import { ARTIFACTS, HAVE_CHROMIUM, launchBrowser, openPage } from "./browser.ts";
+import { ARTIFACTS, HAVE_CHROMIUM, launchBrowser, openPage, runAxe } from "./browser.ts";
 
 const DEMO = resolve("data/demo");
 const PREFIX = "/site/reports/";
@@ -173,6 +174,11 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
         // From 1024 px up nothing is clipped: no table needs its own scrolling either.
         if (width >= 1024) expect(r.tablesScrolling, `${path} at ${width} px`).toEqual([]);
         expect(r.chartTextClipped, `${path} at ${width} px`).toEqual([]);
+        // Restacked tables (390 px) and full tables alike stay accessible.
+        if (width !== 1024) {
+          const axe = await runAxe(page);
+          expect(axe.violations, `${path} at ${width} px: ${JSON.stringify(axe.violations)}`).toEqual([]);
+        }
         if (path === pages[1]) {
           await mkdir(ARTIFACTS, { recursive: true });
           await page.screenshot({ path: join(ARTIFACTS, `layout-building-${width}.png`) });
