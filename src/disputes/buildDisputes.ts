@@ -12,6 +12,7 @@ import type { Bill, BillLine, Meter } from "../domain/types.ts";
 import type { CorrectedBill, Finding } from "../audit/types.ts";
 import { groupLines } from "../audit/checks/labels.ts";
 import { claimOf } from "../audit/corrections.ts";
+import { roundCents } from "../tariff/rounding.ts";
 import type { Dispute, DisputeBasis, DisputeBill, DisputeLine } from "./types.ts";
 
 /** The basis a check's corrected total rests on (outputs.md `basis`). */
@@ -38,7 +39,7 @@ export interface DisputeInput {
   metered?: ReadonlyMap<string, { usage: number | null; peakKw: number | null }>;
 }
 
-const round2 = (x: number): number => Math.round((x + Number.EPSILON * Math.sign(x)) * 100) / 100;
+const round2 = roundCents;
 
 /** FNV-1a, 32 bits, as 8 hex digits: a short stable id from the dispute's identity. */
 function hash32(text: string): string {

@@ -2,6 +2,8 @@
  * The machine-readable files every build publishes under OUT/data/ (contract: outputs.md),
  * as text keyed by file name. Pure: the site writer does the writing.
  */
+import { billCheckState } from "../report/input.ts";
+import { roundCents } from "../tariff/rounding.ts";
 import { disputesCsv, disputesJson, type Dispute } from "../disputes/index.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
@@ -87,11 +89,25 @@ function roundForecastRow(row: ForecastRow): ForecastRow {
 
 function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter: Map<string, string>): string {
   const computed = new Map([...input.priced].map(([id, p]) => [id, p.computed]));
+  const claimOf = new Map<string, { id: string; amount: number }>();
+  for (const d of input.disputes) for (const b of d.bills) if (b.billId) claimOf.set(b.billId, { id: d.disputeId, amount: b.claimAmount });
+  const billed = new Map(bills.map((b) => [b.billId, b.total]));
   const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", computed).map((row) => {
     const metered = input.meteredViews.get(row.bill_id);
+    const p = input.priced.get(row.bill_id);
+    const state = billCheckState(p);
+    const onMeter = p?.metered ?? null;
+    const claim = claimOf.get(row.bill_id);
     return {
       ...row,
-      not_priced_reason: input.priced.get(row.bill_id)?.error ?? "",
+      // a bill that was not compared has no difference (its estimate is still given)
+      difference: state === "exact" ? row.difference : "",
+      check_state: state,
+      metered_computed_total: onMeter ? onMeter.total.toFixed(2) : "",
+      metered_difference: onMeter && onMeter.exact ? roundCents((billed.get(row.bill_id) ?? 0) - onMeter.total).toFixed(2) : "",
+      dispute_id: claim?.id ?? "",
+      claim_amount: claim ? claim.amount.toFixed(2) : "",
+      not_priced_reason: p?.error ?? "",
       metered_usage_raw: metered ? round(metered.raw, 3) : null,
       metered_usage_cleaned: metered ? round(metered.cleaned, 3) : null,
       flagged_intervals: metered?.flaggedIntervals ?? null,
@@ -99,7 +115,7 @@ function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter:
   });
   const columns = [
     "building_id", "meter_id", "bill_id", "period_start", "period_end", "billed_total", "computed_total", "difference", "exact",
-    "not_priced_reason", "metered_usage_raw", "metered_usage_cleaned", "flagged_intervals",
+    "check_state", "metered_computed_total", "metered_difference", "dispute_id", "claim_amount", "not_priced_reason", "metered_usage_raw", "metered_usage_cleaned", "flagged_intervals",
   ] as const;
   return toCsv(columns, rows);
 }
