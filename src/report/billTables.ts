@@ -344,7 +344,7 @@ export function billDetail(
     period: formatPeriod(bill.periodStart, bill.periodEnd),
     stateText: checkStateText(state, priced),
     facts: [
-      { label: "Service period", value: formatPeriod(bill.periodStart, bill.periodEnd) },
+      { label: "Days", value: formatNumber(periodDays(bill.periodStart, bill.periodEnd)) },
       { label: "Statement date", value: formatDate(bill.statementDate) },
       { label: "Read", value: bill.readType },
       { label: "Usage billed", value: formatQuantity(bill.usage, meter.unit) },
