@@ -61,9 +61,9 @@ async function prepareMaybe<T extends ChartModel>(chart: T | null): Promise<T | 
 }
 
 /**
- * Fills every chart's `spec`, `specJson` and `svg`, the data page's file list, each
- * building's own downloads (files under `data/buildings/<building_id>/`) and the dispute
- * list's downloads (disputes.csv and disputes.json, when written).
+ * Fills every chart's `spec`, `specJson` and `svg` (index, building and meter pages), the data
+ * page's file list, each building's own downloads (files under `data/buildings/<building_id>/`)
+ * and the dispute list's downloads (disputes.csv and disputes.json, when written).
  * @example const ready = await prepareSite(model, { "findings.csv": "..." });
  */
 export async function prepareSite(model: SiteModel, dataFiles: Record<string, string>): Promise<SiteModel> {
@@ -73,15 +73,18 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
   for (const page of model.buildings) {
     const commodities = [];
     for (const section of page.commodities) commodities.push({ ...section, charts: await prepareAll(section.charts) });
-    const baselines = [];
-    for (const section of page.baselines) baselines.push({ ...section, charts: await prepareAll(section.charts) });
-    const quality = [];
-    for (const section of page.quality) quality.push({ ...section, charts: await prepareAll(section.charts) });
     const folder = buildingDataFolder(page.buildingId);
     const own: Record<string, number> = {};
     for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
     const forecast = page.forecast ? { ...page.forecast, chart: await prepareMaybe(page.forecast.chart) } : null;
-    buildings.push({ ...page, commodities, baselines, quality, forecast, downloads: describeDataFiles(own, page.root) });
+    buildings.push({ ...page, commodities, forecast, downloads: describeDataFiles(own, page.root) });
+  }
+  // Meter pages carry the meter's weather-baseline and data-quality charts.
+  const meterBills = [];
+  for (const page of model.meterBills) {
+    const baseline = page.baseline ? { ...page.baseline, charts: await prepareAll(page.baseline.charts) } : null;
+    const quality = page.quality ? { ...page.quality, charts: await prepareAll(page.quality.charts) } : null;
+    meterBills.push({ ...page, baseline, quality });
   }
   return {
     ...model,
@@ -91,6 +94,7 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
       intensityChart: await prepareMaybe(model.index.intensityChart),
     },
     buildings,
+    meterBills,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
     disputes: { ...model.disputes, downloads: describeDataFiles(pick(sizes, DISPUTE_FILES), model.disputes.root) },
   };
