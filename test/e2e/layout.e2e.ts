@@ -235,6 +235,22 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
     }
   }, 120_000);
 
+  it("every link on the checked pages resolves under the sub-path (the dispute list and claim sheets once the site has them)", async () => {
+    const haveDisputes = existsSync(join(site, "disputes.html"));
+    for (const path of pages) {
+      const { page } = await openAt(path, 1440);
+      const hrefs = await page.$$eval('a[href], link[href]:not([rel="canonical"])', (as) => as.map((a) => (a as HTMLAnchorElement).href));
+      await page.close();
+      for (const href of new Set(hrefs.map((h) => h.split("#")[0]))) {
+        const url = new URL(href);
+        if (url.origin !== server.origin) continue;
+        if (!haveDisputes && /\/(disputes\.html|claims\/)/u.test(url.pathname)) continue;
+        expect(url.pathname.startsWith(PREFIX), href).toBe(true);
+        expect((await fetch(href)).status, `${path} → ${href}`).toBe(200);
+      }
+    }
+  }, 120_000);
+
   it("no page shows a raw check-state code", async () => {
     const all = ["index.html", ...buildingPages, ...meterPages, ...pages.slice(3)];
     for (const path of all) {
