@@ -12,11 +12,14 @@ import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/units.ts";
 import { formatDate } from "./format.ts";
 import { canonicalFor } from "./nav.ts";
 import { buildTenantPage } from "./tenantPage.ts";
+import { buildDisputesPage } from "./disputesPage.ts";
+import { buildClaimSheets } from "./claimSheet.ts";
 import { billLinesByBill, buildMeterBillsPage, meterAnalysis } from "./meterBillsPage.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
- * (in buildings.csv order), one bills page per meter, methods and data. Does not mutate its input.
+ * (in buildings.csv order), one bills page per meter, methods, data, the dispute list and one
+ * claim sheet per dispute. Does not mutate its input.
  * @example buildSiteModel(input).buildings.map((b) => b.path) // ["buildings/B1.html", ...]
  */
 export function buildSiteModel(input: ReportInput): SiteModel {
@@ -72,5 +75,7 @@ export function buildSiteModel(input: ReportInput): SiteModel {
       .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines))),
     methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf), settings.tolerances)),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
+    disputes: withCanonical(buildDisputesPage(input)),
+    claims: buildClaimSheets(input.disputes, portfolio, formatDate(input.buildDate)).map(withCanonical),
   };
 }

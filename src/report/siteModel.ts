@@ -3,6 +3,7 @@
  * already a formatted string (money, units, dates). Templates only place these values.
  * Fields named `sort` carry a machine-sortable form of a cell for the table-sort script.
  */
+import type { ClaimSheet, DisputesPage, IndexDisputes } from "./disputeModels.ts";
 import type { MeterBillsPage } from "./billPageModels.ts";
 
 /** A link in the site navigation, `href` relative to the page that shows it. */
@@ -166,8 +167,10 @@ export interface IndexPage extends PageBase {
   intensityChart: RankingChartModel | null;
   /** Sentence naming the site-energy basis of the ranking. */
   intensityNote: string;
-  /** Findings by check; null when the audit did not run or found nothing. */
-  findingsChart: RankingChartModel | null;
+  /** Bills to dispute: the claim total, the largest claims and the back-billing risks; null when the dispute stage did not run. */
+  disputes: IndexDisputes | null;
+  /** Findings by check with their claims and money; null when the audit did not run or found nothing. */
+  findingsTable: TableModel | null;
   /** Buildings ranked by forecast change vs last year, with the drivers; null without forecast drivers. */
   forecastChangeTable: TableModel | null;
   /** Sentence on the portfolio's forecast track record; null without a backtest. */
@@ -298,6 +301,8 @@ export interface MethodsPage extends PageBase {
   tolerances: LabelValue[];
   /** Every audit check code with its rule, severity, money at stake and source. */
   checksTable: TableModel;
+  /** Each basis of a dispute's corrected total, in plain words. */
+  disputeBases: LabelValue[];
 }
 
 export interface DataFileRow {
@@ -336,4 +341,8 @@ export interface SiteModel {
   tenants: TenantPage[];
   methods: MethodsPage;
   data: DataPage;
+  /** Every claim and back-billing risk (disputes.html). */
+  disputes: DisputesPage;
+  /** One printable sheet per dispute (claims/<id>.html). */
+  claims: ClaimSheet[];
 }

@@ -12,6 +12,15 @@ import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
 import { heatmapSvg } from "./charts/heatmapSvg.ts";
 import { forecastSpec } from "./charts/forecastSpec.ts";
 
+/** The data files the dispute list offers for download, when this build wrote them. */
+const DISPUTE_FILES = ["disputes.csv", "disputes.json"];
+
+function pick(sizes: Record<string, number>, names: readonly string[]): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const n of names) if (n in sizes) out[n] = sizes[n];
+  return out;
+}
+
 /** Vega-Lite spec for a chart model, by kind. */
 export function chartSpec(chart: ChartModel): Record<string, unknown> {
   switch (chart.kind) {
@@ -52,8 +61,9 @@ async function prepareMaybe<T extends ChartModel>(chart: T | null): Promise<T | 
 }
 
 /**
- * Fills every chart's `spec`, `specJson` and `svg` (building, meter and index pages), the data page's file list, and each
- * building's own downloads (files under `data/buildings/<building_id>/`).
+ * Fills every chart's `spec`, `specJson` and `svg` (index, building and meter pages), the data
+ * page's file list, each building's own downloads (files under `data/buildings/<building_id>/`)
+ * and the dispute list's downloads (disputes.csv and disputes.json, when written).
  * @example const ready = await prepareSite(model, { "findings.csv": "..." });
  */
 export async function prepareSite(model: SiteModel, dataFiles: Record<string, string>): Promise<SiteModel> {
@@ -82,10 +92,10 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
       ...model.index,
       charts: await prepareAll(model.index.charts),
       intensityChart: await prepareMaybe(model.index.intensityChart),
-      findingsChart: await prepareMaybe(model.index.findingsChart),
     },
     buildings,
     meterBills,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
+    disputes: { ...model.disputes, downloads: describeDataFiles(pick(sizes, DISPUTE_FILES), model.disputes.root) },
   };
 }

@@ -7,7 +7,7 @@ import { compareCommodity, weatherAdjusted } from "../../src/report/tenantPage.t
 import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
 import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour, qualitySections, weatherActionLabel } from "../../src/report/qualitySection.ts";
 import { describeDataFile } from "../../src/report/dataPage.ts";
-import { findingsByCheckChart, normalizedChangePct } from "../../src/report/portfolioCharts.ts";
+import { normalizedChangePct } from "../../src/report/portfolioCharts.ts";
 import type { BuildingContext } from "../../src/report/buildingPage.ts";
 import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
 
@@ -189,21 +189,6 @@ describe("wording fixes", () => {
 });
 
 describe("portfolio charts", () => {
-  it("groups findings by check with count and money at stake (positive amounts only)", () => {
-    const chart = findingsByCheckChart(
-      [
-        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "total-mismatch", severity: "error", amountAtStake: 10, message: "" },
-        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "total-mismatch", severity: "error", amountAtStake: -4, message: "" },
-        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "estimated-read", severity: "info", amountAtStake: null, message: "" },
-      ],
-      "USD",
-    )!;
-    expect(chart.items).toEqual([
-      { label: "Bill total differs from the tariff", value: 10, note: "2 findings" },
-      { label: "Estimated meter read", value: 0, note: "1 finding" },
-    ]);
-  });
-
   it("ranks EUI from last-12-month site energy (electricity kWh + gas therm × 29.3071) over floor area", () => {
     const input = fullFixtureInput();
     const chart = buildSiteModel(input).index.intensityChart!;

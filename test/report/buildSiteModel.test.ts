@@ -94,19 +94,16 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(shown).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(expected));
   });
 
-  it("totals findings and money at stake by building on the index, linking to the building's audit section", () => {
+  it("counts findings by building on the index, linking to the building's audit section (money: the dispute list, test/report/disputesPage.test.ts)", () => {
     const cols = model.index.buildingsTable.columns.map((c) => c.label);
     const iF = cols.indexOf("Findings");
-    const iM = cols.indexOf("Money at stake");
     expect(iF).toBeGreaterThan(0);
+    // The fixture has no disputes: no money column.
+    expect(cols).not.toContain("To dispute");
     const [r1, r2] = model.index.buildingsTable.rows;
     // Fixture: B1 has a $12.34 total mismatch and an estimated read (no money); B2 has none.
     expect(r1[iF]).toMatchObject({ text: "2", href: "buildings/B1.html#audit-h" });
-    expect(r1[iM]).toMatchObject({ text: "$12.34", sort: "12.34" });
     expect(r2[iF].text).toBe("0");
-    expect(r2[iM].text).toBe("$0.00");
-    // The building column sums to the headline figure.
-    expect(model.index.headline.find((h) => h.label.startsWith("Money at stake"))!.value).toBe("$12.34");
   });
 
   it("charts monthly use per commodity, conserving each meter's billed usage", () => {
@@ -133,9 +130,8 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(e1.meteredTable!.rows[0].map((c) => c.text)).toEqual(["Nov 2024", "28,501 kWh", "2,880 of 2,884", "99.9%"]);
   });
 
-  it("puts findings on the building page, largest money first, and totals the money at stake", () => {
+  it("puts findings on the building page, largest money first", () => {
     expect(b1.findingsTable!.rows[0][0].text).toBe("Bill total differs from the tariff");
-    expect(model.index.headline.find((h) => h.label.startsWith("Money at stake"))!.value).toBe("$12.34");
     expect(model.buildings[1].findingsTable!.rows).toEqual([]);
   });
 

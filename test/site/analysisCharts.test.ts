@@ -15,7 +15,6 @@ const model = buildSiteModel(fullFixtureInput());
 const charts: ChartModel[] = [
   ...model.index.charts,
   model.index.intensityChart!,
-  model.index.findingsChart!,
   ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...(b.forecast?.chart ? [b.forecast.chart] : [])]),
   ...model.meterBills.flatMap((m) => [...(m.baseline?.charts ?? []), ...(m.quality?.charts ?? [])]),
 ];
