@@ -4,7 +4,16 @@ import type { ReportBaseline, ReportFitStats } from "./input.ts";
 import type { BaselineScatterChartModel, BaselineSection, BaselineTimeChartModel, TableModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity, dayNumberToIsoDate, isoDateToDayNumber } from "./format.ts";
 import { periodDays } from "./periods.ts";
-import { commodityLabel } from "./labels.ts";
+import { checkTitle, commodityLabel } from "./labels.ts";
+
+/**
+ * Why a bill was left out of the fit, in plain words: a check code the model stage names
+ * ("audit finding: usage-outlier") becomes the check's title.
+ * @example exclusionText("audit finding: duplicate-bill") // "audit finding: possible duplicate bill"
+ */
+export function exclusionText(reason: string): string {
+  return reason.replace(/^audit finding: ([a-z-]+)$/u, (_m, code: string) => `audit finding: ${checkTitle(code).toLowerCase()}`);
+}
 
 /** ASHRAE Guideline 14 calibration limits for monthly data, percent. */
 export const G14_MONTHLY_CVRMSE_PCT = 15;
@@ -113,7 +122,7 @@ function scatterChart(b: ReportBaseline, bills: Map<string, Bill>, idBase: strin
       period: bill ? formatPeriod(bill.periodStart, bill.periodEnd) : p.billId,
       temp: round(p.temp, 2),
       usePerDay: round(p.usePerDay, 3),
-      status: p.excluded ? `left out: ${p.excluded}` : "used in the fit",
+      status: p.excluded ? `left out: ${exclusionText(p.excluded)}` : "used in the fit",
     };
   });
   const useLabel = `Use per day (${b.unit})`;

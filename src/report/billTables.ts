@@ -114,11 +114,11 @@ export interface BillsTableOptions {
 
 /**
  * Bills table of one or more bills: the bill (linked to its re-pricing on the meter's bills
- * page), period (days beneath), usage (an estimated read said beneath), demand (when any bill has one), billed, re-priced on billed quantities with its
- * difference, re-priced on metered quantities with its difference (columns only when some bill
- * has that basis), and the claim (column only when some bill has one). A bill that is not
- * exact shows its check state in words where the difference would be. Links are relative to
- * the site root.
+ * page), period (days beneath), usage (an estimated read said beneath), demand (when any bill
+ * has one), billed, re-priced on billed quantities with its difference, re-priced on metered
+ * quantities with its difference (columns only when some bill has that basis), and the claim
+ * (column only when some bill has one). A bill that is not exact shows its check state in
+ * words where the difference would be. Links are relative to the site root.
  * @example billsTable([meter], bills, input, "USD").columns[0].label // "Bill"
  */
 export function billsTable(meters: readonly Meter[], bills: readonly Bill[], input: ReportInput, currency: string, options: BillsTableOptions = {}): TableModel {

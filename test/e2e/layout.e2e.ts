@@ -235,13 +235,31 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
     }
   }, 120_000);
 
-  it("no page shows a raw check-state code", async () => {
+  it("every link on the checked pages resolves under the sub-path (the dispute list and claim sheets once the site has them)", async () => {
+    const haveDisputes = existsSync(join(site, "disputes.html"));
+    for (const path of pages) {
+      const { page } = await openAt(path, 1440);
+      const hrefs = await page.$$eval('a[href], link[href]:not([rel="canonical"])', (as) => as.map((a) => (a as HTMLAnchorElement).href));
+      await page.close();
+      for (const href of new Set(hrefs.map((h) => h.split("#")[0]))) {
+        const url = new URL(href);
+        if (url.origin !== server.origin) continue;
+        if (!haveDisputes && /\/(disputes\.html|claims\/)/u.test(url.pathname)) continue;
+        expect(url.pathname.startsWith(PREFIX), href).toBe(true);
+        expect((await fetch(href)).status, `${path} → ${href}`).toBe(200);
+      }
+    }
+  }, 120_000);
+
+  it("no page shows a raw check-state or check code", async () => {
     const all = ["index.html", ...buildingPages, ...meterPages, ...pages.slice(3)];
     for (const path of all) {
       const html = await readFile(join(site, path), "utf8");
       // Page text: the markup without script blocks (chart specs) and tags.
       const text = html.replace(/<script\b[\s\S]*?<\/script>/gu, "").replace(/<[^>]+>/gu, " ");
       expect(text, path).not.toContain("needs-interval-data");
+      // Nor a check code where its title belongs (e.g. why a bill was left out of a model).
+      expect(text, path).not.toMatch(/audit finding: [a-z]+-[a-z-]+/u);
     }
     for (const path of pages) {
       const { page } = await openAt(path, 1024);

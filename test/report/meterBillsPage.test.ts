@@ -2,6 +2,7 @@
 import { describe, expect, it } from "vitest";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { billAnchor } from "../../src/report/nav.ts";
+import { exclusionText } from "../../src/report/baselineSection.ts";
 import { fixtureInput } from "./fixture.ts";
 import type { Dispute } from "../../src/disputes/types.ts";
 
@@ -68,5 +69,13 @@ describe("meter bills pages", () => {
   it("no raw check-state code in any page model", () => {
     expect(JSON.stringify(model.meterBills)).not.toContain("needs-interval-data");
     expect(JSON.stringify(model.buildings)).not.toContain("needs-interval-data");
+  });
+});
+
+describe("bills left out of a baseline", () => {
+  it("name the audit check in words, not by its code", () => {
+    expect(exclusionText("audit finding: duplicate-bill")).toBe("audit finding: possible duplicate bill");
+    expect(exclusionText("audit finding: usage-vs-meter")).toBe("audit finding: billed usage differs from the interval meter");
+    expect(exclusionText("estimated read")).toBe("estimated read");
   });
 });

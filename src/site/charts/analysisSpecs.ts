@@ -26,14 +26,16 @@ function base(chart: { title: string; description: string }, height: number | { 
  * @example baselineScatterSpec(chart).layer.length // 2 (1 without a curve)
  */
 export function baselineScatterSpec(chart: BaselineScatterChartModel): Record<string, unknown> {
+  // Long reasons ("left out: audit finding: …") wrap onto lines so a phone-width chart shows them whole.
+  const statusLegend = { labelExpr: wrappedLabelExpr(chart.points.map((p) => p.status), LEGEND_LINE_CHARS) };
   const points = {
     data: { values: chart.points.map((p) => ({ bill: p.billId, period: p.period, temp: p.temp, use: p.usePerDay, status: p.status })) },
     mark: { type: "point", filled: true, size: 60, tooltip: true },
     encoding: {
       x: { field: "temp", type: "quantitative", title: chart.tempLabel, scale: { zero: false } },
       y: { field: "use", type: "quantitative", title: chart.useLabel },
-      color: { field: "status", type: "nominal", title: "Bill", scale: { range: [SERIES_COLORS[0], SERIES_COLORS[1], SERIES_COLORS[4]] } },
-      shape: { field: "status", type: "nominal", title: "Bill" },
+      color: { field: "status", type: "nominal", title: "Bill", scale: { range: [SERIES_COLORS[0], SERIES_COLORS[1], SERIES_COLORS[4]] }, legend: statusLegend },
+      shape: { field: "status", type: "nominal", title: "Bill", legend: statusLegend },
       tooltip: [
         { field: "bill", type: "nominal", title: "Bill" },
         { field: "period", type: "nominal", title: "Period" },
@@ -133,6 +135,9 @@ export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
     ],
   };
 }
+
+/** Longest line of a wrapped legend label, in characters (≈ 230 px at 11 px). */
+export const LEGEND_LINE_CHARS = 36;
 
 /** Longest line of a wrapped ranking label, in characters (≈ 130 px at 11 px): narrow screens keep a plot beside the labels. */
 export const RANKING_LABEL_LINE_CHARS = 22;
