@@ -7,6 +7,7 @@ import { LineCounter, isMap, isScalar, parseDocument, type Node, type Pair } fro
 import type { InputIssue } from "../core/issues.ts";
 import type { Commodity, PortfolioSettings } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
+import { trimId } from "../core/trimId.ts";
 import { parseIsoDate } from "./fields.ts";
 import { parseCleaningConfig } from "../clean/detect/config.ts";
 
@@ -230,7 +231,7 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
               continue;
             }
             for (const q of p.value.items as Pair<Node, Node | null>[]) {
-              const meterId = isScalar(q.key) ? String(q.key.value) : "";
+              const meterId = isScalar(q.key) ? trimId(String(q.key.value)) : "";
               const hours = isScalar(q.value) ? q.value.value : undefined;
               if (typeof hours === "number" && Number.isFinite(hours) && Math.abs(hours) <= 14) s.alignment.offsetsHours[meterId] = hours;
               else err(q.value ?? q.key, `alignment offset for ${meterId} ${JSON.stringify(hours)} must be a number of hours from -14 to 14`);

@@ -1,4 +1,5 @@
 /** bills.csv → Bill[] (half-open service periods, default bill ids) and bill_lines.csv → BillLine[]. */
+import { quoteValue } from "../core/issues.ts";
 import type { Bill, BillLine } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
@@ -29,7 +30,7 @@ export async function readBills(
     const meterId = row.text("meter_id", true);
     if (meterId !== null && !meterIds.has(meterId)) {
       const where = rejectedMeters.get(meterId);
-      row.problem("meter_id", where ? `meter ${meterId} was rejected in ${where}` : `meter_id ${JSON.stringify(meterId)} is not in meters.csv`,
+      row.problem("meter_id", where ? `meter ${meterId} was rejected in ${where}` : `meter_id ${quoteValue(meterId)} is not in meters.csv`,
         where ? "fix that meter row first" : "add the meter to meters.csv or correct the id");
     }
     const billIdGiven = row.text("bill_id", false);
@@ -80,7 +81,7 @@ export async function readBillLines(path: string, ctx: FileContext, billIds: Rea
   const table = await readCsvTable(path, ctx, BILL_LINES_SPEC, (row) => {
     const billId = row.text("bill_id", true);
     if (billId !== null && !billIds.has(billId)) {
-      row.problem("bill_id", `bill_id ${JSON.stringify(billId)} is not a bill in bills.csv`, "without a bill_id column in bills.csv the id is meter_id:period_start");
+      row.problem("bill_id", `bill_id ${quoteValue(billId)} is not a bill in bills.csv`, "without a bill_id column in bills.csv the id is meter_id:period_start");
     }
     const label = row.raw("label");
     if (label === null) row.problem("label", "label is empty", "copy the charge name as printed");

@@ -1,4 +1,5 @@
 /** buildings.csv → Building[] (strict; see inputs contract). */
+import { quoteValue } from "../core/issues.ts";
 import type { Building } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
@@ -20,7 +21,7 @@ export async function readBuildings(path: string, ctx: FileContext): Promise<{ b
   const table = await readCsvTable(path, ctx, BUILDINGS_SPEC, (row) => {
     const id = row.text("building_id", true);
     if (id !== null && !ID_RE.test(id)) {
-      row.problem("building_id", `building_id ${JSON.stringify(id)} may only use letters, digits, "_" and "-"`, "e.g. HQ-01");
+      row.problem("building_id", `building_id ${quoteValue(id)} may only use letters, digits, "_" and "-"`, "e.g. HQ-01");
     } else if (id !== null && seen.has(id)) {
       row.problem("building_id", `building_id ${id} repeats line ${seen.get(id)}`, "building_id must be unique");
     }
@@ -30,7 +31,7 @@ export async function readBuildings(path: string, ctx: FileContext): Promise<{ b
     const areaUnit = row.choice("area_unit", ["ft2", "m2"] as const, "ft2");
     const timezone = row.text("timezone", true);
     if (timezone !== null && !isValidZone(timezone)) {
-      row.problem("timezone", `timezone ${JSON.stringify(timezone)} is not an IANA time zone`, "e.g. America/Chicago, Europe/Berlin");
+      row.problem("timezone", `timezone ${quoteValue(timezone)} is not an IANA time zone`, "e.g. America/Chicago, Europe/Berlin");
     }
     const station = row.text("weather_station", true);
     const tenant = row.text("tenant_page", false);
@@ -38,7 +39,7 @@ export async function readBuildings(path: string, ctx: FileContext): Promise<{ b
     if (tenant !== null) {
       const t = tenant.toLowerCase();
       if (t === "yes" || t === "true") tenantPage = true;
-      else if (t !== "no" && t !== "false") row.problem("tenant_page", `tenant_page ${JSON.stringify(tenant)} must be yes or no`, "write yes, no, or leave empty");
+      else if (t !== "no" && t !== "false") row.problem("tenant_page", `tenant_page ${quoteValue(tenant)} must be yes or no`, "write yes, no, or leave empty");
     }
     if (row.failed || id === null || name === null || floorArea === null || areaUnit === null || timezone === null || station === null) return;
     seen.set(id, row.line);

@@ -1,4 +1,5 @@
 /** meters.csv → Meter[]: commodity/unit pairs, known building and tariff, unique ids. */
+import { quoteValue } from "../core/issues.ts";
 import type { Commodity, Meter } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
@@ -37,7 +38,7 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
     if (id !== null && seen.has(id)) row.problem("meter_id", `meter_id ${id} repeats line ${seen.get(id)}`, "meter_id must be unique");
     const buildingId = row.text("building_id", true);
     if (buildingId !== null && !refs.buildingIds.has(buildingId)) {
-      row.problem("building_id", `building_id ${JSON.stringify(buildingId)} is not in buildings.csv`, "add the building or correct the id (ids are case-sensitive)");
+      row.problem("building_id", `building_id ${quoteValue(buildingId)} is not in buildings.csv`, "add the building or correct the id (ids are case-sensitive)");
     }
     const commodity = row.choice("commodity", COMMODITIES, null);
     const unitText = row.text("unit", true);
@@ -45,13 +46,13 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
     if (commodity !== null && unitText !== null) {
       const allowed = UNITS_BY_COMMODITY[commodity];
       unit = allowed.find((u) => u.toLowerCase() === unitText.toLowerCase()) ?? null;
-      if (unit === null) row.problem("unit", `unit ${JSON.stringify(unitText)} is not a ${commodity} unit`, `for ${commodity} use ${allowed.join(", ")}`);
+      if (unit === null) row.problem("unit", `unit ${quoteValue(unitText)} is not a ${commodity} unit`, `for ${commodity} use ${allowed.join(", ")}`);
     }
     const tariffId = row.text("tariff", true);
     if (tariffId !== null && refs.tariffIds !== null && !refs.tariffIds.has(tariffId)) {
       const failedIn = refs.failedTariffs?.get(tariffId);
       if (failedIn) row.problem("tariff", `tariff ${tariffId} could not be loaded (${failedIn} has errors)`, "fix the tariff file first");
-      else row.problem("tariff", `tariff ${JSON.stringify(tariffId)} matches no tariff file id`, "the value must equal the `id:` of a file in tariffs/");
+      else row.problem("tariff", `tariff ${quoteValue(tariffId)} matches no tariff file id`, "the value must equal the `id:` of a file in tariffs/");
     }
     const multiplier = row.number("multiplier", false, (v) => (v > 0 ? null : "must be greater than 0")) ?? 1;
     if (row.failed || id === null || buildingId === null || commodity === null || unit === null || tariffId === null) {

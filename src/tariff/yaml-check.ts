@@ -4,6 +4,7 @@
  */
 import { isMap, isScalar, isSeq, type LineCounter, type Node, type Pair, type YAMLMap, type YAMLSeq } from "yaml";
 import type { InputIssue } from "../core/issues.ts";
+import { trimId } from "../core/trimId.ts";
 
 export type AnyNode = Node | null | undefined;
 
@@ -164,11 +165,12 @@ export function readNumber(c: Checker, f: Field, what: string, rule: NumberRule 
 /** A non-empty string scalar, or null after reporting. */
 export function readString(c: Checker, f: Field, what: string, hint?: string): string | null {
   const node = f.value;
-  if (!isScalar(node) || typeof node.value !== "string" || node.value.trim() === "") {
+  if (!isScalar(node) || typeof node.value !== "string" || trimId(node.value) === "") {
     c.error(where(f), `${what} must be text`, hint);
     return null;
   }
-  return node.value.trim();
+  // Same whitespace rule as every id in the CSV files, so `id: X\u00A0` matches meters.csv's X.
+  return trimId(node.value);
 }
 
 /** A boolean scalar, or null after reporting. */
