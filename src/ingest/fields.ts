@@ -16,7 +16,9 @@ import { quoteValue } from "../core/issues.ts";
 const ok = <T>(value: T): Parsed<T> => ({ ok: true, value });
 const bad = (message: string, hint: string): Parsed<never> => ({ ok: false, problem: { message, hint } });
 
-const NUMBER_RE = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+// Written so each digit can match in only one way: `\d+\.?\d*` lets a long run of digits be
+// split between the two groups in n ways, and a 10-million-digit cell then never finishes.
+const NUMBER_RE = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 /**
  * Explains why `text` is not a plain decimal number, naming the usual spreadsheet culprits.

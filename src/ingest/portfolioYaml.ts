@@ -65,7 +65,7 @@ export function normalizeBasePath(raw: string): string {
 export function parsePercent(value: unknown): number | null {
   if (typeof value === "number" && Number.isFinite(value)) return value / 100;
   if (typeof value !== "string") return null;
-  const m = /^\s*([+-]?(?:\d+\.?\d*|\.\d+))\s*%?\s*$/.exec(value);
+  const m = /^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+))\s*%?\s*$/.exec(value);
   return m ? Number(m[1]) / 100 : null;
 }
 
