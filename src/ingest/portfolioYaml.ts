@@ -10,6 +10,7 @@ import { COMMODITIES } from "../domain/types.ts";
 import { trimId } from "../core/trimId.ts";
 import { parseIsoDate } from "./fields.ts";
 import { parseCleaningConfig } from "../clean/detect/config.ts";
+import { yamlLimitProblem } from "../tariff/yaml-check.ts";
 
 /** The node at a key path inside a YAML mapping (for placing an error), or null. */
 function nodeAtPath(node: Node | null | undefined, path: string[]): Node | null {
@@ -69,9 +70,30 @@ export function parsePercent(value: unknown): number | null {
   return m ? Number(m[1]) / 100 : null;
 }
 
+/** Hours in a leap year: no detector window or run can usefully exceed a year of data. */
+export const MAX_CLEANING_HOURS = 8784;
+
+/**
+ * Limits of one `cleaning:` setting, chosen from its name (the detectors' naming convention):
+ * `…Hours` up to a leap year of hours; `…Intervals` whole, up to a leap year of 5-minute
+ * intervals (105,408); `…Share` a fraction up to 1; counts (`min_comparisons`,
+ * `min_weeks_for_weekly`) whole, up to 1,000; anything else (multiples such as `sigmas`,
+ * `negative_levels`, and `min_absolute`, `tolerance` in meter units) up to 1e9, far above any
+ * meaningful threshold but small enough to keep arithmetic finite.
+ */
+export function cleaningLimit(field: string): { max: number; whole: boolean; reason: string } {
+  if (field.endsWith("Hours")) return { max: MAX_CLEANING_HOURS, whole: false, reason: `hours: at most ${MAX_CLEANING_HOURS} (one leap year); a longer window cannot be evaluated` };
+  if (field.endsWith("Intervals")) return { max: 105_408, whole: true, reason: "a whole number of intervals, at most 105,408 (a leap year of 5-minute intervals)" };
+  if (field.endsWith("Share")) return { max: 1, whole: false, reason: "a share is a fraction from 0 to 1" };
+  if (field === "minComparisons" || field === "minWeeksForWeekly" || field === "minIntervals") return { max: 1000, whole: true, reason: "a whole count, at most 1,000" };
+  return { max: 1e9, whole: false, reason: "at most 1e9; larger values only make the detector do nothing" };
+}
+
 /** Parses portfolio.yaml text. `file` is the label used in issues. */
 export function parsePortfolioYaml(text: string, file: string): SettingsResult {
   const issues: InputIssue[] = [];
+  const limit = yamlLimitProblem(text);
+  if (limit) return { settings: null, issues: [{ file, line: limit.line, column: limit.column, severity: "error", message: limit.message, hint: limit.hint }], fatal: true };
   const lc = new LineCounter();
   const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false });
   const at = (node: Node | null | undefined): { line: number; column: number } => {
@@ -210,8 +232,22 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
         break;
       case "cleaning": {
         const parsed = parseCleaningConfig(val);
-        s.cleaning = parsed.config as Record<string, Record<string, number>>;
+        const config = parsed.config as Record<string, Record<string, number>>;
         for (const problem of parsed.issues) err(nodeAtPath(valNode, problem.path.split(".").slice(1)) ?? keyNode, `${problem.path}: ${problem.message}`);
+        // Upper limits (the detectors check only >= 0): a window of 1e308 hours sizes an array
+        // and crashed the build (issue 16). Out-of-range values are errors; the default is used.
+        for (const [section, fields] of Object.entries(config)) {
+          for (const [field, value] of Object.entries(fields)) {
+            const limit = cleaningLimit(field);
+            const snake = field.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+            const path = `cleaning.${section.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}.${snake}`;
+            if (value > limit.max || (limit.whole && !Number.isInteger(value))) {
+              err(nodeAtPath(valNode, path.split(".").slice(1)) ?? keyNode, `${path}: ${value} is ${limit.whole && !Number.isInteger(value) ? "not a whole number" : `above the limit of ${limit.max}`}`, limit.reason);
+              delete fields[field];
+            }
+          }
+        }
+        s.cleaning = config;
         break;
       }
       case "alignment": {
