@@ -27,13 +27,27 @@ export interface CliIo {
   out: (s: string) => void;
   err: (s: string) => void;
   isTty: boolean;
+  /** SOURCE_DATE_EPOCH (reproducible-builds convention): seconds since 1970 that date the build. */
+  sourceDateEpoch?: string;
 }
 
 const processIo: CliIo = {
   out: (s) => process.stdout.write(s),
   err: (s) => process.stderr.write(s),
   isTty: Boolean(process.stderr.isTTY),
+  sourceDateEpoch: process.env.SOURCE_DATE_EPOCH,
 };
+
+/**
+ * The build date from SOURCE_DATE_EPOCH (https://reproducible-builds.org/specs/source-date-epoch/):
+ * a non-negative integer of seconds since 1970-01-01 UTC. Absent → undefined (the build is then
+ * dated by the portfolio's data); malformed → a usage error.
+ */
+export function buildDateFromEpoch(value: string | undefined): string | undefined {
+  if (value === undefined || value === "") return undefined;
+  if (!/^\d{1,12}$/.test(value)) throw new UsageError(`SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01 UTC, got '${value.slice(0, 40)}'`);
+  return new Date(Number(value) * 1000).toISOString().slice(0, 10);
+}
 
 /** Runs one CLI invocation and returns its exit code (never throws). */
 export async function runCli(argv: string[], io: CliIo = processIo): Promise<number> {
@@ -114,6 +128,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     outDir: (values.out as string | undefined) ?? "_site",
     strict: Boolean(values.strict),
     reporter,
+    buildDate: buildDateFromEpoch(io.sourceDateEpoch),
   }).catch((error: unknown) => {
     if (error instanceof InputError && error.folder === undefined) error.folder = dir;
     throw error;
@@ -167,6 +182,17 @@ async function commandInit(args: string[], io: CliIo): Promise<number> {
 // Run when executed directly (tsx src/cli/main.ts …), not when imported by tests.
 const invokedDirectly = process.argv[1] !== undefined && resolve(process.argv[1]) === fileURLToPath(import.meta.url);
 if (invokedDirectly) {
+  // Ctrl-C or a kill: remove the build's scratch folders and stop; the published site is
+  // either the old one or the new one (a swap cut in half is repaired by the next build).
+  for (const [signal, code] of [["SIGINT", 130], ["SIGTERM", 143]] as const) {
+    process.once(signal, () => {
+      void import("../site/writeSite.ts").then(({ removeActiveScratch }) => {
+        removeActiveScratch();
+        process.stderr.write(`ohmbook: stopped by ${signal}; nothing half-written was left behind\n`);
+        process.exit(code);
+      });
+    });
+  }
   runCli(process.argv.slice(2)).then((code) => {
     process.exitCode = code;
   });

@@ -30,7 +30,8 @@ import { buildDataFiles } from "./outputs.ts";
 import { buildSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
-import { writeSite } from "../site/writeSite.ts";
+import { cutAtAsOf } from "./asOf.ts";
+import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
 
 export interface BuildOptions {
   dir: string;
@@ -38,7 +39,11 @@ export interface BuildOptions {
   /** Any rejected row or failing building fails the build (exit 1, nothing written). */
   strict: boolean;
   reporter?: Reporter;
-  /** Build date `YYYY-MM-DD`; injected so builds are reproducible. Default: today (UTC). */
+  /**
+   * Build date `YYYY-MM-DD` (the CLI passes SOURCE_DATE_EPOCH's). Default: the portfolio's
+   * as-of date (its `as_of`, else its last data), so the same inputs give the same site on any
+   * day; the clock only for a portfolio with no bills at all.
+   */
   buildDate?: string;
 }
 
@@ -87,18 +92,25 @@ const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
  */
 export async function buildPortfolioSite(options: BuildOptions): Promise<BuildResult> {
   const reporter = options.reporter ?? silentReporter;
-  const buildDate = options.buildDate ?? new Date().toISOString().slice(0, 10);
 
+  // A wrong output folder is refused before any work.
+  await checkOutputFolder(options.outDir, options.dir);
   reporter.stage(`Reading ${options.dir}`);
   const loaded = await loadPortfolio(options.dir);
   const issues = loaded.issues;
   const errors = issues.filter((i) => i.severity === "error");
   if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
   if (options.strict && errors.length > 0) throw new InputError(issues);
+  // as_of is the last day of data used: later bills and readings are left out, with a warning.
+  const cut = cutAtAsOf(loaded.portfolio);
+  issues.push(...cut.issues);
   reporter.stage("Screening interval data and aligning meter clocks");
-  const quality = assessIntervalMeters(loaded.portfolio);
+  const quality = assessIntervalMeters(cut.portfolio);
   // From here on every stage sees the corrected clocks (flagged readings stay in the record).
   const portfolio = quality.portfolio as Portfolio<Tariff>;
+  const dataDate = effectiveAsOf(portfolio);
+  const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
+  const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const results: BuildingResults[] = [];
@@ -135,7 +147,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
   const model = buildSiteModel(
-    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
+    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
   );
   await writeSite(model, dataFiles, options.outDir);
 
@@ -291,7 +303,7 @@ function summaryText(s: BuildSummary, currency: string): string {
   const notPriced = s.bills - s.billsPriced;
   const lines = [
     `Built ${s.buildings} building page(s) into ${s.outDir}`,
-    `  ${s.billsCheckedExactly} of ${s.bills} bills checked exactly; ${s.billsEstimated} estimated (time-of-use or demand without interval data, not compared); ${notPriced} not re-priced`,
+    `  ${s.billsCheckedExactly} of ${s.bills} bills checked exactly; ${s.billsEstimated} only estimated (a time-of-use or period-demand split that interval data does not pin down: not compared); ${notPriced} not re-priced`,
     `  bills to dispute: ${s.claims.count} claim(s), ${fmt.format(s.claims.total)}; billed too low or not billed: ${s.backBillRisks.count}, ${fmt.format(-s.backBillRisks.total)}`,
     `  findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info`,
   ];

@@ -25,6 +25,7 @@ export interface ReportInputParts {
   monthlyMetered: Map<string, MonthTotal[]>;
   issues: InputIssue[];
   buildDate: string;
+  buildDateKind?: "built" | "data";
   findings: Finding[];
   disputes: Dispute[];
   results: BuildingResults[];
@@ -43,6 +44,7 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     monthlyMetered: parts.monthlyMetered,
     issues: parts.issues,
     buildDate: parts.buildDate,
+    buildDateKind: parts.buildDateKind,
     rejectedRowsByBuilding: undefined,
     heatContentByMeter: heatContentByMeter(portfolio),
     findings: parts.findings,

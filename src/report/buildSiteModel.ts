@@ -56,6 +56,7 @@ export function buildSiteModel(input: ReportInput): SiteModel {
       currency,
       buildDate: formatDate(input.buildDate),
       buildDateIso: input.buildDate,
+      stamp: `${input.buildDateKind === "data" ? "Figures as of" : "Built"} ${formatDate(input.buildDate)}`,
       basePath: settings.basePath,
     },
     index: withCanonical(buildIndexPage(input, contexts, asOf)),

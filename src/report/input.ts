@@ -296,6 +296,8 @@ export interface ReportInput {
   issues: InputIssue[];
   /** Build date `YYYY-MM-DD`, injected by the caller (never read from the clock here). */
   buildDate: string;
+  /** `built`: the date the site was built (SOURCE_DATE_EPOCH); `data` (default when absent: built): the portfolio's as-of date. */
+  buildDateKind?: "built" | "data";
   /** Heat content of gas billed in ccf or m³, therm per ccf, keyed by `meterId` (from the meter's tariff; 1.037 when absent). */
   heatContentByMeter?: Map<string, number>;
   /** Rows rejected at ingest that could be attributed to a building, keyed by `buildingId`. */

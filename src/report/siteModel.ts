@@ -340,6 +340,8 @@ export interface SiteMeta {
   /** Readable build date. */
   buildDate: string;
   buildDateIso: string;
+  /** The page stamp, e.g. "Built Dec 2, 2026" or "Figures as of Dec 31, 2025". */
+  stamp: string;
   /** `base_path` from portfolio.yaml; used only for canonical links (all site links are relative). */
   basePath: string;
 }

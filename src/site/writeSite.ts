@@ -5,6 +5,7 @@
  * a half-written site and a reader never sees one mid-build.
  */
 import { mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from "node:fs/promises";
+import { rmSync } from "node:fs";
 import { basename, dirname, join, resolve, sep } from "node:path";
 import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
@@ -37,6 +38,17 @@ function scratchPrefix(outDir: string): string {
 /** Scratch folders older than this are leftovers of a killed build (no build takes an hour). */
 const STALE_SCRATCH_MS = 60 * 60 * 1000;
 
+/** Scratch folders of builds into `outDir` (full paths), in progress or left by killed builds. */
+async function scratchFolders(outDir: string): Promise<string[]> {
+  const parent = dirname(outDir);
+  const prefix = scratchPrefix(outDir);
+  try {
+    return (await readdir(parent)).filter((n) => n.startsWith(prefix)).map((n) => join(parent, n));
+  } catch {
+    return [];
+  }
+}
+
 /**
  * Removes scratch folders a killed build left next to `outDir`, with the Vite plugin's
  * temporary folder inside them. Each build uses its own fresh scratch folder (so a leftover
@@ -44,24 +56,66 @@ const STALE_SCRATCH_MS = 60 * 60 * 1000;
  * so a concurrent build into the same folder keeps its own.
  */
 async function removeStaleScratch(outDir: string): Promise<void> {
-  const parent = dirname(outDir);
-  const prefix = scratchPrefix(outDir);
-  let names: string[] = [];
-  try {
-    names = await readdir(parent);
-  } catch {
-    return;
-  }
   const now = Date.now();
   await Promise.all(
-    names
-      .filter((n) => n.startsWith(prefix))
-      .map(async (n) => {
-        const path = join(parent, n);
+    (await scratchFolders(outDir))
+      .map(async (path) => {
         const info = await stat(path).catch(() => null);
         if (info && now - info.mtimeMs > STALE_SCRATCH_MS) await rm(path, { recursive: true, force: true });
       }),
   );
+}
+
+/** Scratch folders of builds in progress in this process, so a signal handler can remove them. */
+const activeScratch = new Set<string>();
+
+/**
+ * Removes the scratch folders of builds still in progress (synchronously: for a signal handler
+ * that is about to exit). The output folder itself is never touched: the swap either happened
+ * or not, and a half-done swap is repaired by the next build (see recoverInterruptedSwap).
+ */
+export function removeActiveScratch(): void {
+  for (const path of activeScratch) {
+    try {
+      rmSync(path, { recursive: true, force: true });
+    } catch {
+      // best effort on the way out
+    }
+  }
+  activeScratch.clear();
+}
+
+/**
+ * A build killed between the two renames of the swap leaves the output folder missing and the
+ * previous site in `<scratch>/previous`. Put the newest such site back before anything else.
+ */
+async function recoverInterruptedSwap(out: string): Promise<void> {
+  if (await exists(out)) return;
+  let best: { path: string; mtime: number } | null = null;
+  for (const folder of await scratchFolders(out)) {
+    const previous = join(folder, "previous");
+    const info = await stat(previous).catch(() => null);
+    if (info?.isDirectory() && (best === null || info.mtimeMs > best.mtime)) best = { path: previous, mtime: info.mtimeMs };
+  }
+  if (best) await rename(best.path, out);
+}
+
+/**
+ * Refusals that do not need the analysis: call before any work, so a wrong `--out` costs nothing.
+ * @throws SiteWriteError when `outDir` is a file, the current folder or one of its parents, the
+ *   ohmbook installation, the portfolio folder (or inside it), or a non-empty folder ohmbook did
+ *   not write.
+ */
+export async function checkOutputFolder(outDir: string, inputDir?: string): Promise<void> {
+  const out = resolve(outDir);
+  if (inputDir !== undefined) {
+    const input = resolve(inputDir);
+    if (isInside(out, input) || isInside(input, out)) {
+      throw new SiteWriteError(`refusing to write the site to ${outDir}: it is the portfolio folder, inside it, or contains it; choose an output folder of its own, e.g. _site`);
+    }
+  }
+  await recoverInterruptedSwap(out).catch(() => undefined);
+  await assertReplaceable(out);
 }
 
 /** File every site carries so a later build knows the folder is ours to replace. */
@@ -87,7 +141,7 @@ async function assertReplaceable(out: string): Promise<void> {
     if ((error as NodeJS.ErrnoException).code === "ENOTDIR") {
       throw new SiteWriteError(`refusing to write the site to ${out}: it is a file, not a folder`);
     }
-    throw error;
+    throw new SiteWriteError(`cannot read the output folder ${out}: ${(error as Error).message}`, { cause: error });
   }
   if (entries.length > 0 && !entries.includes(SITE_MARKER)) {
     throw new SiteWriteError(
@@ -170,10 +224,17 @@ export async function writeSite(
   const out = resolve(outDir);
   // Refuse bad data-file names before any work (and before touching the disk).
   for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
-  await assertReplaceable(out);
-  await mkdir(dirname(out), { recursive: true });
-  await removeStaleScratch(out);
-  const scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
+  await checkOutputFolder(out);
+  let scratch: string;
+  try {
+    await mkdir(dirname(out), { recursive: true });
+    await removeStaleScratch(out);
+    scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
+  } catch (error) {
+    // read-only, full or missing parent folder: a user problem, named with its path and cause
+    throw new SiteWriteError(`cannot write next to ${out} (${(error as NodeJS.ErrnoException).code ?? "error"}): ${(error as Error).message}; check that the folder exists, is writable and has free space`, { cause: error });
+  }
+  activeScratch.add(scratch);
   const stage = join(scratch, "site");
   let bundleError: Error | null = null;
   try {
@@ -225,5 +286,6 @@ export async function writeSite(
     throw new SiteWriteError(`could not write the site to ${outDir} while ${stageName}: ${message}`, { cause });
   } finally {
     await rm(scratch, { recursive: true, force: true });
+    activeScratch.delete(scratch);
   }
 }
