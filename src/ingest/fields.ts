@@ -12,6 +12,7 @@ export interface FieldProblem {
 export type Parsed<T> = { ok: true; value: T } | { ok: false; problem: FieldProblem };
 
 import { quoteValue } from "../core/issues.ts";
+import { MAX_YEAR, MIN_YEAR } from "./limits.ts";
 
 const ok = <T>(value: T): Parsed<T> => ({ ok: true, value });
 const bad = (message: string, hint: string): Parsed<never> => ({ ok: false, problem: { message, hint } });
@@ -96,6 +97,9 @@ export function parseIsoDate(raw: string, what: string): Parsed<string> {
   const d = Number(m[3]);
   if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo)) {
     return bad(`${what} ${quoteValue(text)} is not a real calendar day`, "check month and day");
+  }
+  if (y < MIN_YEAR || y > MAX_YEAR) {
+    return bad(`${what} ${quoteValue(text)} is outside the years ${MIN_YEAR}–${MAX_YEAR}`, "check the year; spreadsheets write 0000 or 9999 for empty dates");
   }
   return ok(text);
 }

@@ -154,7 +154,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
   // tariffs/*.yaml
   const tariffNames = await listFiles("tariffs", [".yaml", ".yml"]);
   const tLoad = await loadTariffFiles(tariffNames.map((n) => abs("tariffs", n)), tariffNames.map((n) => label("tariffs", n)), options.onFile,
-    (path) => readInputText(rootReal, path, MAX_YAML_BYTES));
+    (path) => readInputText(rootReal, path, MAX_YAML_BYTES), settings.currency);
   appendAll(files, tLoad.reports);
   appendAll(issues, tLoad.issues);
 

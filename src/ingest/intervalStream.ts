@@ -13,6 +13,10 @@ import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampBytes } from "./time
 import { splitCsvLine } from "./splitCsvLine.ts";
 import { DETAILS_PER_REASON, FileContext } from "./fileContext.ts";
 import { trimId } from "../core/trimId.ts";
+import { MAX_INTERVAL_VALUE, MAX_YEAR, MIN_YEAR } from "./limits.ts";
+
+const MIN_INSTANT_MS = Date.UTC(MIN_YEAR, 0, 1);
+const MAX_INSTANT_MS = Date.UTC(MAX_YEAR + 1, 0, 1);
 
 /** Receives accepted rows. `instantMs` is the UTC instant of the timestamp as written (start or end). */
 export interface IntervalSink {
@@ -256,6 +260,11 @@ export async function parseIntervalStream(
       }
       value = parsed.value;
     }
+    if (value > MAX_INTERVAL_VALUE || value < -MAX_INTERVAL_VALUE) {
+      reject(line, colValue + 1, `value ${quoteValue(decoder.decode(b.subarray(vs, ve)))} is beyond ±${MAX_INTERVAL_VALUE.toExponential(0)}`,
+        "check the unit and the decimal point; one interval reading is far smaller");
+      return;
+    }
 
     let minutes = Number.NaN;
     if (colMinutes >= 0) {
@@ -294,6 +303,10 @@ export async function parseIntervalStream(
         );
         return;
       }
+    }
+    if (!(instant >= MIN_INSTANT_MS && instant < MAX_INSTANT_MS)) {
+      reject(line, colTs + 1, `timestamp ${quoteValue(decoder.decode(b.subarray(ts0, ts1)))} is outside the years ${MIN_YEAR}–${MAX_YEAR}`, "check the year");
+      return;
     }
     slot.lastInstantMs = instant;
     report.rowsUsed++;

@@ -196,8 +196,11 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
             continue;
           }
           const num = k.endsWith("_pct") ? (parsePercent(raw) ?? Number.NaN) * 100 : typeof raw === "number" ? raw : Number.NaN;
-          if (!Number.isFinite(num) || num < 0) {
-            err(p.value ?? p.key, `tolerances.${k} ${JSON.stringify(raw)} must be a number >= 0`, k.endsWith("_pct") ? "in percent, e.g. 2" : "in currency, e.g. 1.00");
+          // Percent tolerances above 100 % would accept any bill; money tolerances stay within the
+          // bill total limit (1e11) so comparisons remain exact to the cent.
+          const maxTol = k.endsWith("_pct") ? 100 : 1e11;
+          if (!Number.isFinite(num) || num < 0 || num > maxTol) {
+            err(p.value ?? p.key, `tolerances.${k} ${JSON.stringify(raw)} must be a number from 0 to ${maxTol === 100 ? "100" : "1e11"}`, k.endsWith("_pct") ? "in percent, e.g. 2" : "in currency, e.g. 1.00");
             continue;
           }
           s.tolerances[target] = num;
@@ -213,8 +216,10 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
           const k = isScalar(p.key) ? String(p.key.value) : "";
           const raw = isScalar(p.value) ? p.value.value : undefined;
           if (k === "heating" || k === "cooling") {
-            if (typeof raw === "number" && Number.isFinite(raw)) s.degreeDayBase[k] = raw;
-            else err(p.value ?? p.key, `degree_day_base.${k} ${JSON.stringify(raw)} is not a number`, "a temperature, e.g. 18");
+            // A base temperature is an indoor balance point: -50 to 120 covers both °C and °F
+            // with room to spare; beyond, every hour would count as heating or cooling.
+            if (typeof raw === "number" && Number.isFinite(raw) && raw >= -50 && raw <= 120) s.degreeDayBase[k] = raw;
+            else err(p.value ?? p.key, `degree_day_base.${k} ${JSON.stringify(raw)} is not a temperature from -50 to 120`, "a temperature, e.g. 18"); 
           } else if (k === "unit") {
             if (raw === "C" || raw === "F") s.degreeDayBase.unit = raw;
             else err(p.value ?? p.key, `degree_day_base.unit ${JSON.stringify(raw)} must be C or F`);
@@ -277,8 +282,10 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
         break;
       }
       case "weather_max_gap_hours":
-        if (typeof val === "number" && Number.isFinite(val) && val >= 0) s.weatherMaxGapHours = val;
-        else err(valNode ?? keyNode, `weather_max_gap_hours ${JSON.stringify(val)} must be a number >= 0`, "e.g. weather_max_gap_hours: 6");
+        // Capped at one leap year of hours: a longer gap has nothing to interpolate between
+        // in the data a build uses, and the cap keeps the fill loop bounded.
+        if (typeof val === "number" && Number.isFinite(val) && val >= 0 && val <= MAX_CLEANING_HOURS) s.weatherMaxGapHours = val;
+        else err(valNode ?? keyNode, `weather_max_gap_hours ${JSON.stringify(val)} must be a number from 0 to ${MAX_CLEANING_HOURS}`, "e.g. weather_max_gap_hours: 6");
         break;
       default: {
         const near = TOP_KEYS.find((k) => k.replace(/_/g, "") === key.toLowerCase().replace(/[_\s-]/g, ""));

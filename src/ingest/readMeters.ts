@@ -4,6 +4,7 @@ import type { Commodity, Meter } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
+import { MAX_MULTIPLIER, idLengthProblem } from "./limits.ts";
 
 /** Usage units allowed per commodity (inputs contract), in their canonical spelling. */
 export const UNITS_BY_COMMODITY: Record<Commodity, readonly string[]> = {
@@ -35,7 +36,9 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
   const seen = new Map<string, number>();
   const table = await readCsvTable(path, ctx, METERS_SPEC, (row) => {
     const id = row.text("meter_id", true);
-    if (id !== null && seen.has(id)) row.problem("meter_id", `meter_id ${id} repeats line ${seen.get(id)}`, "meter_id must be unique");
+    const tooLong = id === null ? null : idLengthProblem("meter_id", id);
+    if (tooLong) row.problem("meter_id", tooLong, "use a shorter meter id; the utility's long number can go in account");
+    else if (id !== null && seen.has(id)) row.problem("meter_id", `meter_id ${id} repeats line ${seen.get(id)}`, "meter_id must be unique");
     const buildingId = row.text("building_id", true);
     if (buildingId !== null && !refs.buildingIds.has(buildingId)) {
       row.problem("building_id", `building_id ${quoteValue(buildingId)} is not in buildings.csv`, "add the building or correct the id (ids are case-sensitive)");
@@ -54,7 +57,7 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
       if (failedIn) row.problem("tariff", `tariff ${tariffId} could not be loaded (${failedIn} has errors)`, "fix the tariff file first");
       else row.problem("tariff", `tariff ${quoteValue(tariffId)} matches no tariff file id`, "the value must equal the `id:` of a file in tariffs/");
     }
-    const multiplier = row.number("multiplier", false, (v) => (v > 0 ? null : "must be greater than 0")) ?? 1;
+    const multiplier = row.number("multiplier", false, (v) => (v <= 0 ? "must be greater than 0" : v > MAX_MULTIPLIER ? `is above ${MAX_MULTIPLIER.toExponential(0)}` : null)) ?? 1;
     if (row.failed || id === null || buildingId === null || commodity === null || unit === null || tariffId === null) {
       if (id !== null && !seen.has(id)) rejectedIds.set(id, `${ctx.file}:${row.line}`);
       return;

@@ -7,6 +7,7 @@ import { realpath } from "node:fs/promises";
 import { dirname } from "node:path";
 import { quoteValue } from "../core/issues.ts";
 import { openInputFile } from "./inputFile.ts";
+import { MAX_YEAR, MIN_YEAR } from "./limits.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type Row } from "./csvTable.ts";
 import { sharedResolver } from "./localTime.ts";
@@ -139,6 +140,10 @@ export async function readWeatherFile(
             return;
           }
         }
+      }
+      if (!(instant >= Date.UTC(MIN_YEAR, 0, 1) && instant < Date.UTC(MAX_YEAR + 1, 0, 1))) {
+        row.problem("timestamp", `timestamp ${quoteValue(text)} is outside the years ${MIN_YEAR}–${MAX_YEAR}`, "check the year");
+        return;
       }
       if (row.failed || c === null) return;
       lastInstant.set(station, instant);

@@ -46,7 +46,13 @@ const plainRead: ReadText = async (path) => {
  * A file whose `id` repeats an earlier file's is rejected; a file that cannot be read is
  * reported at `file:0:0` and counted as one rejected row.
  */
-export async function loadTariffFiles(paths: readonly string[], files: readonly string[], onFile?: (file: string) => void, readText: ReadText = plainRead): Promise<TariffLoad> {
+export async function loadTariffFiles(
+  paths: readonly string[],
+  files: readonly string[],
+  onFile?: (file: string) => void,
+  readText: ReadText = plainRead,
+  portfolioCurrency: string | null = null,
+): Promise<TariffLoad> {
   const tariffs = new Map<string, Tariff>();
   const source = new Map<string, string>();
   const failedIds = new Map<string, string>();
@@ -74,6 +80,18 @@ export async function loadTariffFiles(paths: readonly string[], files: readonly 
       report.rejections.push({ line: 0, reason: `tariff has ${found.filter((x) => x.severity === "error").length} error(s)` });
       const id = idOf(text);
       if (id !== null) failedIds.set(id, file);
+      continue;
+    }
+    if (portfolioCurrency !== null && tariff.currency !== portfolioCurrency) {
+      // Bills are in the portfolio currency; pricing them with another currency's rates would
+      // compare euros with dollars. The currency line, or line 1 when the default USD applies.
+      const at = /^currency\s*:/m.exec(text);
+      const line = at ? text.slice(0, at.index).split("\n").length : 1;
+      const message = `tariff currency ${tariff.currency} differs from the portfolio currency ${portfolioCurrency}`;
+      issues.push({ file, line, column: 1, severity: "error", message, hint: `write currency: ${portfolioCurrency} in the tariff (rates in the currency of the bills)` });
+      report.rowsRejected = 1;
+      report.rejections.push({ line, reason: message });
+      failedIds.set(tariff.id, file);
       continue;
     }
     const prev = source.get(tariff.id);

@@ -146,6 +146,15 @@ export interface NumberRule {
 }
 
 /** A finite number scalar obeying `rule`, or null after reporting. */
+/**
+ * Largest magnitude of any number in a tariff file (rate, fixed amount, block size, minimum).
+ * No real rate or charge comes near a billion, and keeping every factor below it keeps a
+ * priced line (rate × usage up to 1e12) far inside the range where doubles are finite and
+ * cents are exact: `1e308` used to price every bill to NaN (issue 16).
+ */
+export const MAX_TARIFF_NUMBER = 1e9;
+const MAX_TARIFF_NUMBER_TEXT = "1,000,000,000";
+
 export function readNumber(c: Checker, f: Field, what: string, rule: NumberRule = {}): number | null {
   const node = f.value;
   if (!isScalar(node) || typeof node.value !== "number" || !Number.isFinite(node.value)) {
@@ -155,6 +164,7 @@ export function readNumber(c: Checker, f: Field, what: string, rule: NumberRule 
   }
   const v = node.value;
   const bounds: string[] = [];
+  if (Math.abs(v) > MAX_TARIFF_NUMBER) bounds.push(`between -${MAX_TARIFF_NUMBER_TEXT} and ${MAX_TARIFF_NUMBER_TEXT}`);
   if (rule.integer && !Number.isInteger(v)) bounds.push("a whole number");
   if (rule.above !== undefined && !(v > rule.above)) bounds.push(`greater than ${rule.above}`);
   if (rule.min !== undefined && v < rule.min) bounds.push(`at least ${rule.min}`);
