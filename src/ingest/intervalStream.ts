@@ -147,6 +147,12 @@ export async function parseIntervalStream(
       });
       return;
     }
+    const twice = names.findIndex((n, i) => n !== "" && names.indexOf(n) !== i);
+    if (twice !== -1) {
+      const msg = `column ${quoteValue(names[twice])} appears twice; the first one is used`;
+      report.warnings.push(msg);
+      issues.push({ file: fileLabel, line: lineNo, column: twice + 1, severity: "warning", message: msg, hint: "remove the repeated column" });
+    }
     const unknown = names.filter((n) => !KNOWN_COLUMNS.includes(n));
     if (unknown.length > 0) {
       const msg = `unknown column(s) ignored: ${shorten(unknown.join(", "))}`;

@@ -79,6 +79,10 @@ export async function readWeatherFile(
 ): Promise<void> {
   const header = await readHeaderLine(path, ctx);
   if (header === null) return;
+  if (header.trim() === "") {
+    ctx.error(0, 0, "file is empty (no header row)", "remove the file, or add a header such as station_id,timestamp,temperature_c and rows");
+    return;
+  }
   const { layout, unit } = weatherLayoutOf(header);
   if (layout === "unknown" || (layout === "daily" && !allowDaily)) {
     ctx.error(1, 0, allowDaily
