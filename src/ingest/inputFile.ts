@@ -45,6 +45,14 @@ export function describeFsError(err: unknown): string {
       return "input/output error from the disk or network drive";
     case "ENAMETOOLONG":
       return "the path is too long";
+    case "ENOSPC":
+      return "no space left on the disk";
+    case "EROFS":
+      return "the location is read-only";
+    case "EEXIST":
+      return "something with that name already exists";
+    case "ENOTDIR":
+      return "a part of the path is a file, not a folder";
     default:
       return code ? `system error ${code}` : String((err as Error)?.message ?? err);
   }
