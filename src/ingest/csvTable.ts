@@ -11,7 +11,7 @@ import { quoteValue } from "../core/issues.ts";
 import { FileContext } from "./fileContext.ts";
 import { csvRecords, physicalLines } from "./csvRecords.ts";
 import { parseIsoDate, parseStrictNumber } from "./fields.ts";
-import { describeFsError, openInputFile } from "./inputFile.ts";
+import { describeFsError, NOT_UTF8_HINT, NOT_UTF8_MESSAGE, openInputFile } from "./inputFile.ts";
 import { trimId } from "../core/trimId.ts";
 
 export interface TableSpec {
@@ -171,8 +171,7 @@ export async function readCsvTable(path: string, ctx: FileContext, spec: TableSp
       }
       if (!warnedEncoding && rec.fields.some((f) => f.includes("\uFFFD"))) {
         warnedEncoding = true;
-        ctx.warn(rec.line, 0, "the file contains bytes that are not UTF-8 text (shown as \uFFFD); names may appear garbled",
-          "save the file as UTF-8 (in Excel: CSV UTF-8)");
+        ctx.warn(rec.line, 0, NOT_UTF8_MESSAGE, `${NOT_UTF8_HINT} (in Excel: CSV UTF-8)`);
       }
       const nul = rec.fields.findIndex((f) => f.includes("\u0000"));
       if (nul !== -1) {

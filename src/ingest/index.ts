@@ -18,7 +18,7 @@ import { readMeters } from "./readMeters.ts";
 import { loadTariffFiles, type Tariff } from "./tariffs.ts";
 import type { WeatherGap } from "./weatherGrid.ts";
 import { loadWeatherFolder } from "./loadWeather.ts";
-import { checkInputFile, describeFsError, openInputFile, readInputText } from "./inputFile.ts";
+import { checkInputFile, describeFsError, NOT_UTF8_HINT, NOT_UTF8_MESSAGE, notUtf8Line, openInputFile, readInputText } from "./inputFile.ts";
 
 export type { WeatherGap } from "./weatherGrid.ts";
 export type { Tariff } from "./tariffs.ts";
@@ -129,6 +129,8 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     const ctx = open(yamlLabel);
     const parsed = parsePortfolioYaml(yamlText.text.replace(/^\uFEFF/, ""), yamlLabel);
     appendAll(ctx.issues, parsed.issues);
+    const bad = notUtf8Line(yamlText.text);
+    if (bad > 0) ctx.warn(bad, 0, NOT_UTF8_MESSAGE, NOT_UTF8_HINT);
     ctx.report.rowsRead = 1;
     if (parsed.settings) {
       settings = parsed.settings;
@@ -235,14 +237,25 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     }
   }
   const assembled = assembleIntervals(collector.meters, intervalLabels, settings.intervalTimestamp);
+  // Duplicates are found across files; each is a rejected row of its file, listed and grouped
+  // like every other rejection (the first few one by one, then a count).
+  const dupContexts = new Map<number, FileContext>();
   for (const d of assembled.duplicates) {
     const r = intervalReports[d.fileIndex];
     r.rowsUsed--;
     r.rowsRejected++;
-    r.rejections.push({ line: d.line, reason: d.reason });
+    let ctx = dupContexts.get(d.fileIndex);
+    if (!ctx) dupContexts.set(d.fileIndex, (ctx = new FileContext(intervalLabels[d.fileIndex], rootReal)));
+    ctx.reject(d.line, 0, d.reason, "remove the repeated row; on the autumn DST day write the repeated hour with a UTC offset if it is meant");
+  }
+  for (const [fileIndex, ctx] of dupContexts) {
+    ctx.finish();
+    appendAll(intervalReports[fileIndex].rejections, ctx.report.rejections);
+    appendAll(issues, ctx.issues);
   }
   appendAll(files, intervalReports);
-  appendAll(issues, assembled.issues);
+  // The duplicate errors were listed above, grouped; keep assembly's warnings.
+  appendAll(issues, assembled.issues.filter((x) => x.severity !== "error"));
 
   const portfolio: Portfolio<Tariff> | null = fatal
     ? null

@@ -135,3 +135,15 @@ export async function readInputText(rootReal: string, path: string, maxBytes: nu
     await opened.handle.close().catch(() => undefined);
   }
 }
+
+export const NOT_UTF8_MESSAGE = "the file contains bytes that are not UTF-8 text (shown as \uFFFD); names may appear garbled";
+export const NOT_UTF8_HINT = "save the file as UTF-8";
+
+/** 1-based line of the first character that could not be decoded as UTF-8, or 0 when none. */
+export function notUtf8Line(text: string): number {
+  const i = text.indexOf("\uFFFD");
+  if (i === -1) return 0;
+  let line = 1;
+  for (let k = text.indexOf("\n"); k !== -1 && k < i; k = text.indexOf("\n", k + 1)) line++;
+  return line;
+}

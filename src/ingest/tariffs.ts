@@ -6,6 +6,7 @@ import { readFile } from "node:fs/promises";
 import { parse as parseYaml } from "yaml";
 import { appendAll, type InputIssue } from "../core/issues.ts";
 import { trimId } from "../core/trimId.ts";
+import { NOT_UTF8_HINT, NOT_UTF8_MESSAGE, notUtf8Line } from "./inputFile.ts";
 import type { FileReport } from "../domain/types.ts";
 import { loadTariff, type Tariff } from "../tariff/index.ts";
 
@@ -73,6 +74,8 @@ export async function loadTariffFiles(
     }
     const text = read.text;
     const { tariff, issues: found } = loadTariff(text.replace(/^\uFEFF/, ""), file);
+    const badLine = notUtf8Line(text);
+    if (badLine > 0) found.push({ file, line: badLine, column: 0, severity: "warning", message: NOT_UTF8_MESSAGE, hint: NOT_UTF8_HINT });
     appendAll(issues, found);
     for (const x of found) if (x.severity === "warning") report.warnings.push(`line ${x.line}: ${x.message}`);
     if (tariff === null) {

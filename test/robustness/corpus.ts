@@ -221,6 +221,19 @@ export function generateCases(): Case[] {
   add(`${iv}: 100,000 rows of an unknown meter`, { outcome: "error", file: iv, line: 6 }, (fs) => {
     put(fs, iv, `${text(fs, iv).trimEnd()}\n${Array.from({ length: 100_000 }, (_, i) => `GHOST,2024-03-0${1 + (i % 9)}T00:00,1`).join("\n")}\n`);
   }, { rejected: { file: iv, rows: 100_000 } });
+  add(`${iv}: 5,000 repeated readings are grouped, all counted`, { outcome: "error", file: iv, line: 6 }, (fs) => {
+    put(fs, iv, `${text(fs, iv).trimEnd()}\n${Array.from({ length: 5000 }, () => "E-100,2024-03-01T00:00,8.25").join("\n")}\n`);
+  }, { rejected: { file: iv, rows: 5000 } });
+  add("portfolio.yaml: Latin-1 name (not UTF-8)", { outcome: "warning", file: "portfolio.yaml", line: 1 }, (fs) => {
+    const b = Buffer.from(text(fs, "portfolio.yaml").replace("Lindenfold", "Lindenf\u0000ld"), "utf8");
+    b[b.indexOf(0)] = 0xf6;
+    put(fs, "portfolio.yaml", b);
+  });
+  add("tariffs/fen-gs.yaml: Latin-1 name (not UTF-8)", { outcome: "warning", file: "tariffs/fen-gs.yaml", line: 2 }, (fs) => {
+    const b = Buffer.from(text(fs, "tariffs/fen-gs.yaml").replace("Fenwater", "Fenw\u0000ter"), "utf8");
+    b[b.indexOf(0)] = 0xe4;
+    put(fs, "tariffs/fen-gs.yaml", b);
+  });
   add("weather/kxaa-daily.csv: tmin above tmax", { outcome: "error", file: "weather/kxaa-daily.csv", line: 2 }, (fs) => setCell(fs, "weather/kxaa-daily.csv", 2, 3, "20"));
   add("weather/kxaa-hourly.csv: temperature of 200 °F", { outcome: "error", file: "weather/kxaa-hourly.csv", line: 3 }, (fs) => setCell(fs, "weather/kxaa-hourly.csv", 3, 2, "200"));
 
