@@ -62,10 +62,29 @@ export function utf8Bytes(text: string): number {
   return Buffer.byteLength(text, "utf8");
 }
 
-/** Reason an id is too long for a file name, or null when it fits. */
+/** Reason an id is too long (in bytes, or for a page file name), or null when it fits. */
 export function idLengthProblem(name: string, id: string, maxBytes: number = MAX_ID_BYTES): string | null {
   const bytes = utf8Bytes(id);
-  return bytes > maxBytes ? `${name} is ${bytes} bytes long; at most ${maxBytes} are allowed` : null;
+  if (bytes > maxBytes) return `${name} is ${bytes} bytes long; at most ${maxBytes} are allowed`;
+  const page = pageNameLength(id);
+  if (maxBytes === MAX_ID_BYTES && page > MAX_PAGE_NAME_CHARS) {
+    return `${name} would make a page file name of ${page} characters (each character other than letters, digits, _ and - takes several); at most ${MAX_PAGE_NAME_CHARS}`;
+  }
+  return null;
+}
+
+/**
+ * Longest page file name an id may produce, in characters: 200. Pages escape every character
+ * other than letters, digits, `_` and `-` as `~` plus its code point in hex (src/report/nav.ts
+ * `fileSafe`), so `@` costs 3 characters and an emoji 6; 200 plus ".html" stays under 255.
+ */
+export const MAX_PAGE_NAME_CHARS = 200;
+
+/** Length of `id` once escaped for a file name (the same rule as the site's `fileSafe`). */
+export function pageNameLength(id: string): number {
+  let n = 0;
+  for (const ch of id) n += /^[A-Za-z0-9_-]$/.test(ch) ? 1 : 1 + ch.codePointAt(0)!.toString(16).length;
+  return n;
 }
 
 /** Rule for Row.number: |v| ≤ max. */

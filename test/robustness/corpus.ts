@@ -257,6 +257,7 @@ export function generateCases(): Case[] {
   });
   add("meters.csv: duplicate meter id", { outcome: "error", file: mt, line: 3 }, (fs) => setCell(fs, mt, 3, 0, "E-100"));
   add("meters.csv: 200-character meter id", { outcome: "error", file: mt, line: 3 }, (fs) => setCell(fs, mt, 3, 0, "M".repeat(200)));
+  add("meters.csv: 90 '@' characters (short in bytes, too long as a page name)", { outcome: "error", file: mt, line: 3 }, (fs) => setCell(fs, mt, 3, 0, "@".repeat(90)));
   add("meters.csv: unit of another commodity", { outcome: "error", file: mt, line: 3 }, (fs) => setCell(fs, mt, 3, 3, "gal"));
   add("meters.csv: unknown tariff", { outcome: "error", file: mt, line: 3 }, (fs) => setCell(fs, mt, 3, 4, "nope"));
   add("meters.csv: formula-looking meter id, used consistently", { outcome: "valid" }, (fs) => {
