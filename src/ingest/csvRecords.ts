@@ -35,10 +35,12 @@ export const MAX_RECORD_LINES = 100;
 export async function* physicalLines(chunks: AsyncIterable<Uint8Array | string>): AsyncGenerator<string> {
   const decoder = new TextDecoder("utf-8");
   let buf = "";
+  // buf[0, searched) holds no line break: a very long line is scanned once, not once per chunk.
+  let searched = 0;
   const drain = function* (final: boolean): Generator<string> {
     let start = 0;
-    let lf = buf.indexOf("\n");
-    let cr = buf.indexOf("\r");
+    let lf = buf.indexOf("\n", searched);
+    let cr = buf.indexOf("\r", searched);
     for (;;) {
       let end: number;
       let next: number;
@@ -57,6 +59,8 @@ export async function* physicalLines(chunks: AsyncIterable<Uint8Array | string>)
       if (cr !== -1 && cr < start) cr = buf.indexOf("\r", start);
     }
     buf = buf.slice(start);
+    // A CR at the very end may still pair with an LF in the next chunk: look at it again.
+    searched = Math.max(0, buf.length - 1);
   };
   for await (const chunk of chunks) {
     buf += typeof chunk === "string" ? chunk : decoder.decode(chunk, { stream: true });

@@ -134,6 +134,7 @@ export async function readCsvTable(path: string, ctx: FileContext, spec: TableSp
   let columns: Map<string, number> | null = null;
   let width = 0;
   let warnedEncoding = false;
+  let aborted = false;
   try {
     const records = csvRecords(physicalLines(opened.handle.createReadStream({ highWaterMark: 1 << 16, autoClose: false })), () => (columns === null ? Infinity : width));
     for await (const rec of records) {
@@ -189,13 +190,14 @@ export async function readCsvTable(path: string, ctx: FileContext, spec: TableSp
       if (!row.failed) ctx.use();
     }
   } catch (err) {
+    aborted = true;
     const e = err as { message?: string };
     ctx.error(0, 0, `cannot read the rest of the file: ${describeReadError(err) ?? e.message ?? String(err)}`, "check the file and the drive it is on");
   } finally {
     await opened.handle.close().catch(() => undefined);
   }
   if (columns === null) {
-    ctx.error(0, 0, "file is empty (no header row)", `add a header naming: ${spec.required.join(", ")}`);
+    if (!aborted) ctx.error(0, 0, "file is empty (no header row)", `add a header naming: ${spec.required.join(", ")}`);
     return { notFound: false, missingColumns: [...spec.required] };
   }
   return { notFound: false, missingColumns: [] };
