@@ -19,6 +19,7 @@ export const BUILDINGS_SPEC = {
 export async function readBuildings(path: string, ctx: FileContext): Promise<{ buildings: Building[]; table: TableResult }> {
   const buildings: Building[] = [];
   const seen = new Map<string, number>();
+  const seenFolded = new Map<string, [string, number]>();
   const table = await readCsvTable(path, ctx, BUILDINGS_SPEC, (row) => {
     const id = row.text("building_id", true);
     const tooLong = id === null ? null : idLengthProblem("building_id", id);
@@ -27,6 +28,11 @@ export async function readBuildings(path: string, ctx: FileContext): Promise<{ b
       row.problem("building_id", `building_id ${quoteValue(id)} may only use letters, digits, "_" and "-"`, "e.g. HQ-01");
     } else if (id !== null && seen.has(id)) {
       row.problem("building_id", `building_id ${id} repeats line ${seen.get(id)}`, "building_id must be unique");
+    } else if (id !== null && seenFolded.has(id.toLowerCase())) {
+      // Page files are named by id; Windows and macOS file systems ignore case, so the second
+      // building's page would overwrite the first.
+      const [other, line] = seenFolded.get(id.toLowerCase())!;
+      row.problem("building_id", `building_id ${id} differs only in letter case from ${other} (line ${line})`, "page file names would collide on Windows and macOS; make the ids differ by more than case");
     }
     const name = row.raw("name");
     if (name === null) row.problem("name", "name is empty", "give the building a display name");
@@ -48,6 +54,7 @@ export async function readBuildings(path: string, ctx: FileContext): Promise<{ b
     }
     if (row.failed || id === null || name === null || floorArea === null || areaUnit === null || timezone === null || station === null) return;
     seen.set(id, row.line);
+    seenFolded.set(id.toLowerCase(), [id, row.line]);
     buildings.push({
       buildingId: id, name, floorArea, areaUnit,
       floorAreaM2: areaUnit === "m2" ? floorArea : floorArea * M2_PER_FT2,

@@ -34,11 +34,17 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
   const meters: Meter[] = [];
   const rejectedIds = new Map<string, string>();
   const seen = new Map<string, number>();
+  const seenFolded = new Map<string, [string, number]>();
   const table = await readCsvTable(path, ctx, METERS_SPEC, (row) => {
     const id = row.text("meter_id", true);
     const tooLong = id === null ? null : idLengthProblem("meter_id", id);
     if (tooLong) row.problem("meter_id", tooLong, "use a shorter meter id; the utility's long number can go in account");
     else if (id !== null && seen.has(id)) row.problem("meter_id", `meter_id ${id} repeats line ${seen.get(id)}`, "meter_id must be unique");
+    else if (id !== null && seenFolded.has(id.toLowerCase())) {
+      // Meter pages are files named by id; case-insensitive file systems would merge the two.
+      const [other, line] = seenFolded.get(id.toLowerCase())!;
+      row.problem("meter_id", `meter_id ${id} differs only in letter case from ${other} (line ${line})`, "page file names would collide on Windows and macOS; make the ids differ by more than case");
+    }
     const buildingId = row.text("building_id", true);
     if (buildingId !== null && !refs.buildingIds.has(buildingId)) {
       row.problem("building_id", `building_id ${quoteValue(buildingId)} is not in buildings.csv`, "add the building or correct the id (ids are case-sensitive)");
@@ -63,6 +69,7 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
       return;
     }
     seen.set(id, row.line);
+    seenFolded.set(id.toLowerCase(), [id, row.line]);
     meters.push({
       meterId: id, buildingId, commodity, unit, tariffId, multiplier,
       account: row.raw("account"),

@@ -246,6 +246,8 @@ export function generateCases(): Case[] {
   }, { buildings: 1 });
   add("buildings.csv: building id with a space", { outcome: "error", file: bd, line: 3 }, (fs) => setCell(fs, bd, 3, 0, "LF 02"), { buildings: 1 });
   add("buildings.csv: duplicate building id", { outcome: "error", file: bd, line: 3 }, (fs) => setCell(fs, bd, 3, 0, "LF-01"), { buildings: 1 });
+  add("buildings.csv: building id differing only in case", { outcome: "error", file: bd, line: 3 }, (fs) => setCell(fs, bd, 3, 0, "lf-01"), { buildings: 1 });
+  add("meters.csv: meter id differing only in case", { outcome: "error", file: mt, line: 3 }, (fs) => setCell(fs, mt, 3, 0, "e-100"));
   add("buildings.csv: unknown time zone", { outcome: "error", file: bd, line: 3 }, (fs) => setCell(fs, bd, 3, 4, "Mars/Olympus"), { buildings: 1 });
   add("buildings.csv: UTC is a time zone", { outcome: "valid" }, (fs) => setCell(fs, bd, 3, 4, "UTC"));
   add("buildings.csv: area_unit acres", { outcome: "error", file: bd, line: 3 }, (fs) => setCell(fs, bd, 3, 3, "acres"), { buildings: 1 });
