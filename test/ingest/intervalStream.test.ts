@@ -156,3 +156,19 @@ describe("parseIntervalStream — layout and strict validation", () => {
     expect(result.report).toMatchObject({ rowsRead: 4, rowsUsed: 1, rowsRejected: 3 });
   });
 });
+
+describe("parseIntervalStream — every line ending, at every chunk boundary (issue 16)", () => {
+  it.each([["LF", "\n"], ["CRLF", "\r\n"], ["CR", "\r"]])("%s", async (_name, eol) => {
+    const lines = ["meter_id,timestamp,value", "M1,2024-01-01T00:00Z,1", "M1,2024-01-01T00:15Z,2", "", "M1,2024-01-01T00:30Z,3"];
+    for (const chunk of [1, 2, 3, 5, 64]) {
+      const { rows, result } = await parseText(lines.join(eol) + eol, () => "UTC", chunk);
+      expect(rows.map((r) => [r.line, r.value]), `chunk ${chunk}`).toEqual([[2, 1], [3, 2], [5, 3]]);
+      expect(result.issues).toEqual([]);
+    }
+  });
+  it("a meter id followed by a no-break space or zero-width space is the same meter", async () => {
+    const { rows, result } = await parseText("meter_id,timestamp,value\nM1\u00A0,2024-01-01T00:00Z,1\n\u200BM1,2024-01-01T00:15Z,2\n\u00A0,2024-01-01T00:30Z,3\n", () => "UTC");
+    expect(rows.map((r) => r.meterId)).toEqual(["M1", "M1"]);
+    expect(result.issues.map((i) => [i.line, i.message])).toEqual([[4, "meter_id is empty"]]);
+  });
+});
