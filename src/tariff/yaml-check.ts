@@ -251,8 +251,11 @@ export function yamlLimitProblem(text: string): { line: number; column: number; 
       i = nl - 1;
       continue;
     }
-    if (ch === 34 || ch === 39) {
-      // Quoted scalar: skip to the closing quote ("" escapes with \, '' doubles).
+    const before = i === 0 ? 32 : text.charCodeAt(i - 1);
+    const opensScalar = before === 32 || before === 9 || before === 10 || before === 91 || before === 123 || before === 44 || before === 58 || before === 45;
+    if ((ch === 34 || ch === 39) && opensScalar) {
+      // Quoted scalar (a quote inside a plain scalar, as in "Customer's", opens nothing):
+      // skip to the closing quote ("" escapes with \, '' doubles).
       let j = i + 1;
       for (; j < text.length; j++) {
         const c = text.charCodeAt(j);
