@@ -34,6 +34,7 @@ interface Group {
   suppressed: number;
   firstSuppressedLine: number;
   firstSuppressedColumn: number;
+  /** The first message of the group; once details stop, the first message not listed. */
   sample: string;
   hint?: string;
   rejection: boolean;
@@ -92,7 +93,7 @@ export class FileContext {
     for (const g of this.groups.values()) {
       if (g.suppressed === 0) continue;
       const what = g.rejection ? (g.suppressed === 1 ? "row" : "rows") : g.suppressed === 1 ? "line" : "lines";
-      const message = `${g.suppressed.toLocaleString("en-US")} more ${what} with the same problem, from line ${g.firstSuppressedLine}: ${g.sample}`;
+      const message = `${g.suppressed.toLocaleString("en-US")} more ${what} with the same problem from line ${g.firstSuppressedLine} on, the first: ${g.sample}`;
       this.issues.push(capIssue({ file: this.file, line: g.firstSuppressedLine, column: g.firstSuppressedColumn, severity: g.severity, message, hint: g.hint }));
       if (g.rejection) this.report.rejections.push({ line: g.firstSuppressedLine, reason: capIssue({ file: "", line: 0, column: 0, severity: "error", message }).message });
       else if (g.severity === "warning") this.report.warnings.push(`line ${g.firstSuppressedLine}: ${message}`);
@@ -121,6 +122,7 @@ export class FileContext {
     if (g.suppressed === 0) {
       g.firstSuppressedLine = line;
       g.firstSuppressedColumn = column;
+      g.sample = issue.message;
     }
     g.suppressed++;
   }

@@ -13,7 +13,7 @@ import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampBytes } from "./time
 import { splitCsvLine } from "./splitCsvLine.ts";
 import { DETAILS_PER_REASON, FileContext } from "./fileContext.ts";
 import { trimId } from "../core/trimId.ts";
-import { MAX_INTERVAL_VALUE, MAX_YEAR, MIN_YEAR } from "./limits.ts";
+import { MAX_INTERVAL_VALUE, MAX_YEAR, MIN_YEAR, limitText } from "./limits.ts";
 
 const MIN_INSTANT_MS = Date.UTC(MIN_YEAR, 0, 1);
 const MAX_INSTANT_MS = Date.UTC(MAX_YEAR + 1, 0, 1);
@@ -267,7 +267,7 @@ export async function parseIntervalStream(
       value = parsed.value;
     }
     if (value > MAX_INTERVAL_VALUE || value < -MAX_INTERVAL_VALUE) {
-      reject(line, colValue + 1, `value ${quoteValue(decoder.decode(b.subarray(vs, ve)))} is beyond ±${MAX_INTERVAL_VALUE.toExponential(0)}`,
+      reject(line, colValue + 1, `value ${quoteValue(decoder.decode(b.subarray(vs, ve)))} is beyond ±${limitText(MAX_INTERVAL_VALUE)}`,
         "check the unit and the decimal point; one interval reading is far smaller");
       return;
     }

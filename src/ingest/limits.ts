@@ -87,5 +87,10 @@ export function pageNameLength(id: string): number {
   return n;
 }
 
+/** A limit as people write it: 1e11, 1e9, 400. */
+export function limitText(n: number): string {
+  return n >= 1e6 ? n.toExponential().replace("e+", "e") : String(n);
+}
+
 /** Rule for Row.number: |v| ≤ max. */
-export const withinMagnitude = (max: number) => (v: number): string | null => (Math.abs(v) <= max ? null : `is beyond ±${max.toExponential(0)}`);
+export const withinMagnitude = (max: number) => (v: number): string | null => (Math.abs(v) <= max ? null : `is beyond ±${limitText(max)}`);

@@ -4,7 +4,7 @@ import type { Bill, BillLine } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
 import { daysBetween } from "./fields.ts";
-import { MAX_BILL_DAYS, MAX_BILL_ID_BYTES, MAX_BILL_TOTAL, MAX_BILL_USAGE, MAX_DEMAND_KW, idLengthProblem, withinMagnitude } from "./limits.ts";
+import { MAX_BILL_DAYS, MAX_BILL_ID_BYTES, MAX_BILL_TOTAL, MAX_BILL_USAGE, MAX_DEMAND_KW, idLengthProblem, limitText, withinMagnitude } from "./limits.ts";
 
 export const BILLS_SPEC = {
   required: ["meter_id", "period_start", "period_end", "usage", "total"],
@@ -50,7 +50,7 @@ export async function readBills(
     }
     const usage = row.number("usage", true, withinMagnitude(MAX_BILL_USAGE));
     const readType = row.choice("read_type", ["actual", "estimated"] as const, "actual");
-    const demand = row.number("demand", false, (v) => (v < 0 ? "must not be negative" : v > MAX_DEMAND_KW ? `is above ${MAX_DEMAND_KW.toExponential(0)} kW` : null));
+    const demand = row.number("demand", false, (v) => (v < 0 ? "must not be negative" : v > MAX_DEMAND_KW ? `is above ${limitText(MAX_DEMAND_KW)} kW` : null));
     const pf = row.number("power_factor", false, (v) => (v > 0 && v <= 1 ? null : "must be > 0 and <= 1"));
     const total = row.number("total", true, withinMagnitude(MAX_BILL_TOTAL));
     const statementDate = row.date("statement_date", false);

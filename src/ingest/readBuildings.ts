@@ -4,7 +4,7 @@ import type { Building } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
 import { isValidZone } from "./localTime.ts";
-import { MAX_FLOOR_AREA, idLengthProblem } from "./limits.ts";
+import { MAX_FLOOR_AREA, idLengthProblem, limitText } from "./limits.ts";
 
 /** 1 ft² = 0.09290304 m² exactly (international foot = 0.3048 m). */
 export const M2_PER_FT2 = 0.09290304;
@@ -36,7 +36,7 @@ export async function readBuildings(path: string, ctx: FileContext): Promise<{ b
     }
     const name = row.raw("name");
     if (name === null) row.problem("name", "name is empty", "give the building a display name");
-    const floorArea = row.number("floor_area", true, (v) => (v <= 0 ? "must be greater than 0" : v > MAX_FLOOR_AREA ? `is above ${MAX_FLOOR_AREA.toExponential(0)}` : null));
+    const floorArea = row.number("floor_area", true, (v) => (v <= 0 ? "must be greater than 0" : v > MAX_FLOOR_AREA ? `is above ${limitText(MAX_FLOOR_AREA)}` : null));
     const areaUnit = row.choice("area_unit", ["ft2", "m2"] as const, "ft2");
     const timezone = row.text("timezone", true);
     if (timezone !== null && !isValidZone(timezone)) {

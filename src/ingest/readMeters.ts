@@ -4,7 +4,7 @@ import type { Commodity, Meter } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
-import { MAX_MULTIPLIER, idLengthProblem } from "./limits.ts";
+import { MAX_MULTIPLIER, idLengthProblem, limitText } from "./limits.ts";
 
 /** Usage units allowed per commodity (inputs contract), in their canonical spelling. */
 export const UNITS_BY_COMMODITY: Record<Commodity, readonly string[]> = {
@@ -63,7 +63,7 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
       if (failedIn) row.problem("tariff", `tariff ${tariffId} could not be loaded (${failedIn} has errors)`, "fix the tariff file first");
       else row.problem("tariff", `tariff ${quoteValue(tariffId)} matches no tariff file id`, "the value must equal the `id:` of a file in tariffs/");
     }
-    const multiplier = row.number("multiplier", false, (v) => (v <= 0 ? "must be greater than 0" : v > MAX_MULTIPLIER ? `is above ${MAX_MULTIPLIER.toExponential(0)}` : null)) ?? 1;
+    const multiplier = row.number("multiplier", false, (v) => (v <= 0 ? "must be greater than 0" : v > MAX_MULTIPLIER ? `is above ${limitText(MAX_MULTIPLIER)}` : null)) ?? 1;
     if (row.failed || id === null || buildingId === null || commodity === null || unit === null || tariffId === null) {
       if (id !== null && !seen.has(id)) rejectedIds.set(id, `${ctx.file}:${row.line}`);
       return;

@@ -18,7 +18,7 @@ describe("FileContext", () => {
     expect(ctx.issues).toHaveLength(DETAILS_PER_REASON + 2);
     const summary = ctx.issues.at(-1)!;
     expect(summary).toMatchObject({ line: 2 + DETAILS_PER_REASON, column: 1, severity: "error" });
-    expect(summary.message).toMatch(/^1,205 more rows with the same problem, from line 22: meter_id "M2" is not in meters.csv$/);
+    expect(summary.message).toMatch(/^1,205 more rows with the same problem from line 22 on, the first: meter_id "M22" is not in meters.csv$/);
     expect(ctx.report.rejections).toHaveLength(DETAILS_PER_REASON + 2);
   });
   it("lists at most DETAILS_PER_FILE one by one across kinds", () => {

@@ -182,7 +182,7 @@ describe("loadPortfolio: bounded work and output", () => {
     expect(rep).toMatchObject({ rowsRead: n, rowsUsed: 0, rowsRejected: n });
     const listed = r.issues.filter((i) => i.file === "bills.csv");
     expect(listed.length).toBe(DETAILS_PER_REASON + 1);
-    expect(listed.at(-1)!.message).toMatch(/^199,980 more rows with the same problem, from line 22: /);
+    expect(listed.at(-1)!.message).toMatch(/^199,980 more rows with the same problem from line 22 on, the first: meter_id "NOPE-20" /);
     expect(rep.rejections.length).toBe(DETAILS_PER_REASON + 1);
   }, 30_000);
 
