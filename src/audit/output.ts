@@ -6,6 +6,7 @@ import type { Bill } from "../domain/types.ts";
 import type { ComputedBill } from "../tariff/types.ts";
 import { roundCents } from "./tolerances.ts";
 import type { Evidence, Finding } from "./types.ts";
+import { csvField } from "../core/csv.ts";
 
 export const FINDINGS_CSV_COLUMNS = [
   "building_id", "meter_id", "bill_id", "period_start", "period_end", "check", "severity", "amount_at_stake", "message",
@@ -29,11 +30,6 @@ export function findingsToCsvRows(findings: Finding[]): FindingCsvRow[] {
     amount_at_stake: f.amountAtStake === null ? "" : roundCents(f.amountAtStake).toFixed(2),
     message: f.message,
   }));
-}
-
-/** RFC 4180 field: quoted when it holds a comma, quote, CR or LF. */
-function csvField(value: string): string {
-  return /[",\r\n]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
 /** findings.csv text: header, then one CRLF-terminated line per finding. */

@@ -4,6 +4,7 @@
  * The data is a fictional single building; the weather is a smooth synthetic year.
  */
 import { mkdir, writeFile, readdir } from "node:fs/promises";
+import { describeFsError } from "../ingest/inputFile.ts";
 import { join } from "node:path";
 import { DateTime } from "luxon";
 import { OhmbookError } from "../core/errors.ts";
@@ -101,7 +102,11 @@ function starterWeatherCsv(): string {
  * @returns the relative paths written.
  */
 export async function writeStarterPortfolio(dir: string): Promise<string[]> {
-  const existing = await readdir(dir).catch(() => [] as string[]);
+  const existing = await readdir(dir).catch((err: { code?: string }) => {
+    if (err.code === "ENOENT") return [] as string[];
+    // A file, or a folder we may not read: never a stack trace for a user's mistake.
+    throw new OhmbookError(err.code === "ENOTDIR" ? `${dir} is a file, not a folder; choose a new folder` : `cannot use ${dir}: ${describeFsError(err)}`);
+  });
   if (existing.length > 0) {
     throw new OhmbookError(`${dir} is not empty; choose a new folder so no file is overwritten`);
   }
@@ -118,8 +123,12 @@ export async function writeStarterPortfolio(dir: string): Promise<string[]> {
   };
   for (const [name, text] of Object.entries(files)) {
     const path = join(dir, name);
-    await mkdir(join(path, ".."), { recursive: true });
-    await writeFile(path, text, "utf8");
+    try {
+      await mkdir(join(path, ".."), { recursive: true });
+      await writeFile(path, text, "utf8");
+    } catch (err) {
+      throw new OhmbookError(`cannot write ${path}: ${describeFsError(err)}`, { cause: err });
+    }
   }
   return Object.keys(files);
 }

@@ -8,7 +8,7 @@ import { parseArgs } from "node:util";
 import { resolve } from "node:path";
 import { fileURLToPath } from "node:url";
 import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
-import { formatIssue } from "../core/issues.ts";
+import { formatIssueIn } from "../core/issues.ts";
 import { consoleReporter } from "./progress.ts";
 
 const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
@@ -80,7 +80,7 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
 
 function reportError(error: unknown, io: CliIo): number {
   if (error instanceof InputError) {
-    for (const issue of error.issues) io.err(`${formatIssue(issue)}\n`);
+    for (const issue of error.issues) io.err(`${formatIssueIn(issue, error.folder)}\n`);
     io.err(`ohmbook: ${error.message}; nothing was written\n`);
     return 1;
   }
@@ -122,14 +122,18 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   const quiet = Boolean(values.quiet) || Boolean(values.json);
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
   const { buildPortfolioSite } = await import("../pipeline/build.ts");
+  const dir = positionals[0] ?? "data/demo";
   const result = await buildPortfolioSite({
-    dir: positionals[0] ?? "data/demo",
+    dir,
     outDir: (values.out as string | undefined) ?? "_site",
     strict: Boolean(values.strict),
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
+  }).catch((error: unknown) => {
+    if (error instanceof InputError && error.folder === undefined) error.folder = dir;
+    throw error;
   });
-  for (const issue of result.issues) if (!quiet || issue.severity === "error") io.err(`${formatIssue(issue)}\n`);
+  for (const issue of result.issues) if (!quiet || issue.severity === "error") io.err(`${formatIssueIn(issue, dir)}\n`);
   const crossed = failOn ? result.findingsAtOrAbove(failOn) : 0;
   if (values.json) {
     io.out(`${JSON.stringify(result.summary, null, 2)}\n`);
@@ -156,7 +160,7 @@ async function commandCheck(args: string[], io: CliIo): Promise<number> {
     io.out(`${JSON.stringify({ ok: errors.length === 0, issues: result.issues, files: result.portfolio?.report.files ?? [] }, null, 2)}\n`);
   } else {
     for (const issue of result.issues) {
-      if (!values.quiet || issue.severity === "error") io.out(`${formatIssue(issue)}\n`);
+      if (!values.quiet || issue.severity === "error") io.out(`${formatIssueIn(issue, dir)}\n`);
     }
     if (!values.quiet) {
       const warnings = result.issues.length - errors.length;

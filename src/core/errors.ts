@@ -10,6 +10,8 @@ export class OhmbookError extends Error {
 
 /** The input folder has errors; `issues` says where. Nothing was written. */
 export class InputError extends OhmbookError {
+  /** The portfolio folder as typed, put in front of issue paths when printed (set by the CLI). */
+  folder?: string;
   constructor(readonly issues: InputIssue[]) {
     super(`${issues.filter((i) => i.severity === "error").length} input error(s)`);
   }

@@ -11,17 +11,22 @@ export interface FieldProblem {
 
 export type Parsed<T> = { ok: true; value: T } | { ok: false; problem: FieldProblem };
 
+import { quoteValue } from "../core/issues.ts";
+import { MAX_YEAR, MIN_YEAR } from "./limits.ts";
+
 const ok = <T>(value: T): Parsed<T> => ({ ok: true, value });
 const bad = (message: string, hint: string): Parsed<never> => ({ ok: false, problem: { message, hint } });
 
-const NUMBER_RE = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+// Written so each digit can match in only one way: `\d+\.?\d*` lets a long run of digits be
+// split between the two groups in n ways, and a 10-million-digit cell then never finishes.
+const NUMBER_RE = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 /**
  * Explains why `text` is not a plain decimal number, naming the usual spreadsheet culprits.
  * Exported so the fast interval parser gives the same wording as the CSV readers.
  */
 export function numberProblem(text: string, what: string): FieldProblem {
-  const shown = JSON.stringify(text);
+  const shown = quoteValue(text);
   if (/^[+-]?\d{1,3}(,\d{3})+(\.\d+)?$/.test(text)) {
     return {
       message: `${what} ${shown} has a thousands separator`,
@@ -65,7 +70,7 @@ export function parseStrictNumber(raw: string, what: string): Parsed<number> {
     return bad(p.message, p.hint);
   }
   const value = Number(text);
-  if (!Number.isFinite(value)) return bad(`${what} "${text}" is out of range`, "check the number of digits");
+  if (!Number.isFinite(value)) return bad(`${what} ${quoteValue(text)} is out of range`, "check the number of digits");
   return ok(value);
 }
 
@@ -85,13 +90,16 @@ export function parseIsoDate(raw: string, what: string): Parsed<string> {
   const text = raw.trim();
   const m = DATE_RE.exec(text);
   if (!m) {
-    return bad(`${what} ${JSON.stringify(text)} is not a date in YYYY-MM-DD form`, "write dates as ISO 8601, e.g. 2024-03-31");
+    return bad(`${what} ${quoteValue(text)} is not a date in YYYY-MM-DD form`, "write dates as ISO 8601, e.g. 2024-03-31");
   }
   const y = Number(m[1]);
   const mo = Number(m[2]);
   const d = Number(m[3]);
   if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo)) {
-    return bad(`${what} ${JSON.stringify(text)} is not a real calendar day`, "check month and day");
+    return bad(`${what} ${quoteValue(text)} is not a real calendar day`, "check month and day");
+  }
+  if (y < MIN_YEAR || y > MAX_YEAR) {
+    return bad(`${what} ${quoteValue(text)} is outside the years ${MIN_YEAR}–${MAX_YEAR}`, "check the year; spreadsheets write 0000 or 9999 for empty dates");
   }
   return ok(text);
 }

@@ -3,10 +3,9 @@
  * problem reported as an InputIssue (`file:line:column`) and a FileReport per file read.
  * This is the only stage that reads files.
  */
-import { createReadStream } from "node:fs";
-import { readFile, readdir, stat } from "node:fs/promises";
+import { readdir, realpath } from "node:fs/promises";
 import { join, resolve } from "node:path";
-import type { InputIssue } from "../core/issues.ts";
+import { appendAll, capIssue, type InputIssue } from "../core/issues.ts";
 import type { FileReport, IngestReport, Portfolio, PortfolioSettings } from "../domain/types.ts";
 import { assembleIntervals } from "./assembleIntervals.ts";
 import { FileContext } from "./fileContext.ts";
@@ -19,6 +18,7 @@ import { readMeters } from "./readMeters.ts";
 import { loadTariffFiles, type Tariff } from "./tariffs.ts";
 import type { WeatherGap } from "./weatherGrid.ts";
 import { loadWeatherFolder } from "./loadWeather.ts";
+import { checkInputFile, describeFsError, NOT_UTF8_HINT, NOT_UTF8_MESSAGE, notUtf8Line, openInputFile, readInputText } from "./inputFile.ts";
 
 export type { WeatherGap } from "./weatherGrid.ts";
 export type { Tariff } from "./tariffs.ts";
@@ -45,48 +45,75 @@ export interface LoadOptions {
   onFile?: (file: string) => void;
 }
 
-async function exists(path: string): Promise<boolean> {
-  try {
-    await stat(path);
-    return true;
-  } catch {
-    return false;
-  }
-}
-
-/** Sorted `.ext` files directly in `dir` (none when the folder is absent). */
-async function listFiles(dir: string, exts: readonly string[]): Promise<string[]> {
-  try {
-    const entries = await readdir(dir, { withFileTypes: true });
-    return entries
-      .filter((e) => e.isFile() && exts.some((x) => e.name.toLowerCase().endsWith(x)))
-      .map((e) => e.name)
-      .sort();
-  } catch {
-    return [];
-  }
-}
+/**
+ * Largest portfolio.yaml or tariff file read. Real ones are a few kilobytes; 1 MiB leaves room
+ * for a tariff with thousands of charges while refusing a wrong file before YAML parsing,
+ * whose memory use grows with the text (common practice).
+ */
+export const MAX_YAML_BYTES = 1 << 20;
 
 /**
- * Reads the portfolio folder `dir`. Issue paths are `dir` joined with the file name as the
- * user typed it (e.g. `data/demo/bills.csv`). Row-level problems reject the row and go on;
- * only the problems listed on `LoadResult.fatal` make the portfolio null. Never throws on bad
- * input. Example: `const { portfolio, issues, fatal } = await loadPortfolio("data/demo")`.
+ * Reads the portfolio folder `dir`. Issue paths and report paths are relative to the
+ * portfolio folder, with "/" separators (e.g. `intervals/2024.csv`), so published files never
+ * show the builder's own folders; the CLI prefixes the folder when printing. Row-level problems
+ * reject the row and go on; only the problems listed on `LoadResult.fatal` make the portfolio
+ * null. Only regular files inside the folder are read (symbolic links followed when they stay
+ * inside). Never throws on bad input.
+ * Example: `const { portfolio, issues, fatal } = await loadPortfolio("data/demo")`.
  */
 export async function loadPortfolio(dir: string, options: LoadOptions = {}): Promise<LoadResult> {
   const root = resolve(dir);
-  const label = (...parts: string[]): string => join(dir, ...parts);
+  const label = (...parts: string[]): string => parts.join("/");
   const abs = (...parts: string[]): string => join(root, ...parts);
   const issues: InputIssue[] = [];
   const files: FileReport[] = [];
   let fatal = false;
+  let rootReal: string;
+  try {
+    rootReal = await realpath(root);
+  } catch (err) {
+    issues.push({ file: ".", line: 0, column: 0, severity: "error", message: `cannot open the portfolio folder: ${describeFsError(err)}`, hint: "check the folder name and its permissions" });
+    return { portfolio: null, issues, fatal: true, weatherGaps: [], report: { files } };
+  }
   const open = (file: string): FileContext => {
     options.onFile?.(file);
-    return new FileContext(file);
+    return new FileContext(file, rootReal);
   };
   const close = (ctx: FileContext): void => {
+    ctx.finish();
     files.push(ctx.report);
-    issues.push(...ctx.issues);
+    appendAll(issues, ctx.issues);
+  };
+  const exists = async (...parts: string[]): Promise<boolean> => {
+    const c = await checkInputFile(rootReal, abs(...parts));
+    return !(!c.ok && c.missing);
+  };
+  /**
+   * Sorted names of the `.ext` entries directly in a folder (none when the folder is absent).
+   * Entries that are not regular files inside the portfolio folder are reported and left out;
+   * an unreadable folder is reported once, naming it.
+   */
+  const listFiles = async (sub: string, exts: readonly string[]): Promise<string[]> => {
+    const rel = sub === "" ? [] : sub.split("/");
+    let names: string[];
+    try {
+      names = (await readdir(abs(...rel))).filter((n) => exts.some((x) => n.toLowerCase().endsWith(x))).sort();
+    } catch (err) {
+      const code = (err as { code?: string }).code;
+      if (code !== "ENOENT") {
+        issues.push({ file: `${sub}/`, line: 0, column: 0, severity: "error", message: `cannot list the folder: ${describeFsError(err)}`,
+          hint: code === "ENOTDIR" ? `${sub} must be a folder` : "check the folder's permissions" });
+      }
+      return [];
+    }
+    const kept: string[] = [];
+    for (const n of names) {
+      // normals/ is a folder inside weather/, read on its own.
+      const c = await checkInputFile(rootReal, abs(...rel, n));
+      if (c.ok) kept.push(n);
+      else if (!c.missing) issues.push({ file: label(...rel, n), line: 0, column: 0, severity: "error", message: c.message, hint: c.hint });
+    }
+    return kept;
   };
   const fatalIssue = (file: string, message: string, hint: string): void => {
     fatal = true;
@@ -96,10 +123,14 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
   // portfolio.yaml
   let settings: PortfolioSettings = { name: "", ...structuredClone(DEFAULT_SETTINGS) };
   const yamlLabel = label("portfolio.yaml");
-  if (await exists(abs("portfolio.yaml"))) {
+  const yamlText = await readInputText(rootReal, abs("portfolio.yaml"), MAX_YAML_BYTES);
+  if (!yamlText.ok && !yamlText.missing) fatalIssue(yamlLabel, yamlText.message, yamlText.hint);
+  else if (yamlText.ok) {
     const ctx = open(yamlLabel);
-    const parsed = parsePortfolioYaml((await readFile(abs("portfolio.yaml"), "utf8")).replace(/^\uFEFF/, ""), yamlLabel);
-    ctx.issues.push(...parsed.issues);
+    const parsed = parsePortfolioYaml(yamlText.text.replace(/^\uFEFF/, ""), yamlLabel);
+    appendAll(ctx.issues, parsed.issues);
+    const bad = notUtf8Line(yamlText.text);
+    if (bad > 0) ctx.warn(bad, 0, NOT_UTF8_MESSAGE, NOT_UTF8_HINT);
     ctx.report.rowsRead = 1;
     if (parsed.settings) {
       settings = parsed.settings;
@@ -110,7 +141,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     }
     if (parsed.fatal) fatal = true;
     close(ctx);
-  } else fatalIssue(yamlLabel, `no portfolio.yaml in ${dir}`, "create it with at least `name: Your Portfolio`");
+  } else fatalIssue(yamlLabel, "no portfolio.yaml in the portfolio folder", "create it with at least `name: Your Portfolio`");
 
   // buildings.csv
   const bCtx = open(label("buildings.csv"));
@@ -123,10 +154,11 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
   const buildingById = new Map(buildings.map((b) => [b.buildingId, b]));
 
   // tariffs/*.yaml
-  const tariffNames = await listFiles(abs("tariffs"), [".yaml", ".yml"]);
-  const tLoad = await loadTariffFiles(tariffNames.map((n) => abs("tariffs", n)), tariffNames.map((n) => label("tariffs", n)), options.onFile);
-  files.push(...tLoad.reports);
-  issues.push(...tLoad.issues);
+  const tariffNames = await listFiles("tariffs", [".yaml", ".yml"]);
+  const tLoad = await loadTariffFiles(tariffNames.map((n) => abs("tariffs", n)), tariffNames.map((n) => label("tariffs", n)), options.onFile,
+    (path) => readInputText(rootReal, path, MAX_YAML_BYTES), settings.currency);
+  appendAll(files, tLoad.reports);
+  appendAll(issues, tLoad.issues);
 
   // meters.csv
   const mCtx = open(label("meters.csv"));
@@ -159,19 +191,19 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
 
   // bill_lines.csv (optional)
   let billLines: Portfolio["billLines"] = [];
-  if (await exists(abs("bill_lines.csv"))) {
+  if (await exists("bill_lines.csv")) {
     const ctx = open(label("bill_lines.csv"));
     billLines = (await readBillLines(abs("bill_lines.csv"), ctx, new Set(bills.map((b) => b.billId)))).lines;
     close(ctx);
   }
 
   // weather/*.csv and weather/normals/*.csv
-  const w = await loadWeatherFolder({ buildings, maxGapHours: settings.weatherMaxGapHours, listFiles, abs, label, open, close });
+  const w = await loadWeatherFolder({ buildings, maxGapHours: settings.weatherMaxGapHours, listFiles: (parts, exts) => listFiles(parts.join("/"), exts), abs, label, open, close });
   const { weather, normals, gaps: weatherGaps } = w;
-  issues.push(...w.issues);
+  appendAll(issues, w.issues);
 
   // intervals/*.csv
-  const intervalNames = await listFiles(abs("intervals"), [".csv"]);
+  const intervalNames = await listFiles("intervals", [".csv"]);
   const intervalLabels = intervalNames.map((n) => label("intervals", n));
   const collector = new IntervalCollector();
   const zoneOfMeter = (meterId: string): string | null => {
@@ -182,22 +214,48 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
   for (let i = 0; i < intervalNames.length; i++) {
     options.onFile?.(intervalLabels[i]);
     collector.fileIndex = i;
-    const res = await parseIntervalStream(createReadStream(abs("intervals", intervalNames[i]), { highWaterMark: 1 << 20 }), {
-      fileLabel: intervalLabels[i], zoneOfMeter, sink: collector,
-      unknownMeterReason: (id) => (rejectedMeters.has(id) ? `was rejected in ${rejectedMeters.get(id)}` : null),
-    });
-    intervalReports.push(res.report);
-    issues.push(...res.issues);
+    const opened = await openInputFile(rootReal, abs("intervals", intervalNames[i]));
+    if (!opened.ok) {
+      // Checked while listing; this is a file replaced or removed since.
+      const message = opened.missing ? "file disappeared while the portfolio was read" : opened.message;
+      issues.push({ file: intervalLabels[i], line: 0, column: 0, severity: "error", message, hint: opened.missing ? "run again" : opened.hint });
+      intervalReports.push({ file: intervalLabels[i], rowsRead: 0, rowsUsed: 0, rowsRejected: 0, rejections: [], warnings: [] });
+      continue;
+    }
+    try {
+      const res = await parseIntervalStream(opened.handle.createReadStream({ highWaterMark: 1 << 20, autoClose: false }), {
+        fileLabel: intervalLabels[i], zoneOfMeter, sink: collector,
+        unknownMeterReason: (id) => (rejectedMeters.has(id) ? `was rejected in ${rejectedMeters.get(id)}` : null),
+      });
+      intervalReports.push(res.report);
+      appendAll(issues, res.issues);
+    } catch (err) {
+      issues.push({ file: intervalLabels[i], line: 0, column: 0, severity: "error", message: `cannot read the file: ${describeFsError(err)}`, hint: "check the file and the drive it is on" });
+      intervalReports.push({ file: intervalLabels[i], rowsRead: 0, rowsUsed: 0, rowsRejected: 0, rejections: [], warnings: [] });
+    } finally {
+      await opened.handle.close().catch(() => undefined);
+    }
   }
   const assembled = assembleIntervals(collector.meters, intervalLabels, settings.intervalTimestamp);
+  // Duplicates are found across files; each is a rejected row of its file, listed and grouped
+  // like every other rejection (the first few one by one, then a count).
+  const dupContexts = new Map<number, FileContext>();
   for (const d of assembled.duplicates) {
     const r = intervalReports[d.fileIndex];
     r.rowsUsed--;
     r.rowsRejected++;
-    r.rejections.push({ line: d.line, reason: d.reason });
+    let ctx = dupContexts.get(d.fileIndex);
+    if (!ctx) dupContexts.set(d.fileIndex, (ctx = new FileContext(intervalLabels[d.fileIndex], rootReal)));
+    ctx.reject(d.line, 0, d.reason, "remove the repeated row; on the autumn DST day write the repeated hour with a UTC offset if it is meant");
   }
-  files.push(...intervalReports);
-  issues.push(...assembled.issues);
+  for (const [fileIndex, ctx] of dupContexts) {
+    ctx.finish();
+    appendAll(intervalReports[fileIndex].rejections, ctx.report.rejections);
+    appendAll(issues, ctx.issues);
+  }
+  appendAll(files, intervalReports);
+  // The duplicate errors were listed above, grouped; keep assembly's warnings.
+  appendAll(issues, assembled.issues.filter((x) => x.severity !== "error"));
 
   const portfolio: Portfolio<Tariff> | null = fatal
     ? null
@@ -206,5 +264,5 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
         intervals: assembled.series, weather, normals, tariffs: tLoad.tariffs,
         report: { files },
       };
-  return { portfolio, issues, fatal, weatherGaps, report: { files } };
+  return { portfolio, issues: issues.map(capIssue), fatal, weatherGaps, report: { files } };
 }

@@ -5,12 +5,18 @@
  * Quoted fields are rare in these files; a line containing a quote takes a slower,
  * fully RFC 4180 path for that line. A quoted field spanning lines is rejected.
  */
-import type { InputIssue } from "../core/issues.ts";
+import { quoteValue, shorten, type InputIssue } from "../core/issues.ts";
 import type { FileReport } from "../domain/types.ts";
 import { numberProblem, parseStrictNumber } from "./fields.ts";
 import { type LocalTimeResolver, isValidZone, sharedResolver } from "./localTime.ts";
 import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampBytes } from "./timestamp.ts";
 import { splitCsvLine } from "./splitCsvLine.ts";
+import { DETAILS_PER_REASON, FileContext } from "./fileContext.ts";
+import { trimId } from "../core/trimId.ts";
+import { MAX_INTERVAL_VALUE, MAX_YEAR, MIN_YEAR, limitText } from "./limits.ts";
+
+const MIN_INSTANT_MS = Date.UTC(MIN_YEAR, 0, 1);
+const MAX_INSTANT_MS = Date.UTC(MAX_YEAR + 1, 0, 1);
 
 /** Receives accepted rows. `instantMs` is the UTC instant of the timestamp as written (start or end). */
 export interface IntervalSink {
@@ -28,8 +34,6 @@ export interface IntervalParseOptions {
   sink: IntervalSink;
   /** Why a meter is unknown, when the caller knows better than "not in meters.csv". */
   unknownMeterReason?: (meterId: string) => string | null;
-  /** Detailed issues per file before the rest are summarized (default 1000). */
-  maxDetailedIssues?: number;
 }
 
 export interface IntervalFileResult {
@@ -43,11 +47,21 @@ const ALLOWED_MINUTES = new Set([5, 15, 30, 60]);
 const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
 const KNOWN_COLUMNS = ["meter_id", "timestamp", "value", "interval_minutes"];
 
-/** Byte classes for the line scan: 1 comma, 2 newline, 3 double quote, 0 anything else. */
+/**
+ * Byte classes for the line scan: 1 comma, 2 line end (LF, or CR: a lone CR ends a line in old
+ * Mac exports, and CRLF counts once), 3 double quote, 0 anything else.
+ */
 const BYTE_CLASS = new Uint8Array(256);
 BYTE_CLASS[44] = 1;
 BYTE_CLASS[10] = 2;
+BYTE_CLASS[13] = 2;
 BYTE_CLASS[34] = 3;
+
+/** Index of the first LF or CR in `b`, or -1. */
+function firstLineEnd(b: Uint8Array): number {
+  for (let i = 0; i < b.length; i++) if (b[i] === 10 || b[i] === 13) return i;
+  return -1;
+}
 
 interface MeterSlot {
   meterId: string;
@@ -72,20 +86,11 @@ export async function parseIntervalStream(
   options: IntervalParseOptions,
 ): Promise<IntervalFileResult> {
   const { fileLabel, zoneOfMeter, sink } = options;
-  const maxDetailed = options.maxDetailedIssues ?? 1000;
-  const report: FileReport = { file: fileLabel, rowsRead: 0, rowsUsed: 0, rowsRejected: 0, rejections: [], warnings: [] };
-  const issues: InputIssue[] = [];
-  let detailed = 0;
-  let suppressed = 0;
-
-  const reject = (line: number, column: number, message: string, hint: string): void => {
-    report.rowsRejected++;
-    if (detailed < maxDetailed) {
-      detailed++;
-      issues.push({ file: fileLabel, line, column, severity: "error", message, hint });
-      report.rejections.push({ line, reason: message });
-    } else suppressed++;
-  };
+  // Rejections are recorded and grouped like every other file's (FileContext).
+  const ctx = new FileContext(fileLabel);
+  const report: FileReport = ctx.report;
+  const issues: InputIssue[] = ctx.issues;
+  const reject = (line: number, column: number, message: string, hint: string): void => ctx.reject(line, column, message, hint);
 
   // Column positions, -1 when absent.
   let colMeter = -1;
@@ -137,14 +142,20 @@ export async function parseIntervalStream(
       skipped = true;
       issues.push({
         file: fileLabel, line: lineNo, column: 0, severity: "error",
-        message: `interval file has no ${missing.join(", ")} column (header: ${text.slice(0, 80)})`,
+        message: `interval file has no ${missing.join(", ")} column (header: ${quoteValue(text.slice(0, 80))})`,
         hint: "the first line must name the columns: meter_id,timestamp,value[,interval_minutes]",
       });
       return;
     }
+    const twice = names.findIndex((n, i) => n !== "" && names.indexOf(n) !== i);
+    if (twice !== -1) {
+      const msg = `column ${quoteValue(names[twice])} appears twice; the first one is used`;
+      report.warnings.push(msg);
+      issues.push({ file: fileLabel, line: lineNo, column: twice + 1, severity: "warning", message: msg, hint: "remove the repeated column" });
+    }
     const unknown = names.filter((n) => !KNOWN_COLUMNS.includes(n));
     if (unknown.length > 0) {
-      const msg = `unknown column(s) ignored: ${unknown.join(", ")}`;
+      const msg = `unknown column(s) ignored: ${shorten(unknown.join(", "))}`;
       report.warnings.push(msg);
       issues.push({
         file: fileLabel, line: lineNo, column: names.indexOf(unknown[0]) + 1, severity: "warning",
@@ -180,7 +191,13 @@ export async function parseIntervalStream(
       }
     }
     if (!same) {
-      const id = decoder.decode(b.subarray(ms, me));
+      // Ids follow the one rule of every file (trimId): a trailing no-break space is not part of it.
+      const id = trimId(decoder.decode(b.subarray(ms, me)));
+      if (id === "") {
+        curIdLen = -1;
+        reject(line, colMeter + 1, "meter_id is empty", "every row needs the meter_id of meters.csv");
+        return;
+      }
       cur = slotFor(id, line);
       if (idLen > curIdBytes.length) curIdBytes = new Uint8Array(idLen * 2);
       curIdBytes.set(b.subarray(ms, me));
@@ -204,7 +221,7 @@ export async function parseIntervalStream(
     }
     if (!parseTimestampBytes(b, ts0, ts1, ts)) {
       const text = decoder.decode(b.subarray(ts0, ts1));
-      reject(line, colTs + 1, `timestamp ${JSON.stringify(text)} ${ts.error}`, TIMESTAMP_HINT);
+      reject(line, colTs + 1, `timestamp ${quoteValue(text)} ${ts.error}`, TIMESTAMP_HINT);
       return;
     }
 
@@ -249,6 +266,11 @@ export async function parseIntervalStream(
       }
       value = parsed.value;
     }
+    if (value > MAX_INTERVAL_VALUE || value < -MAX_INTERVAL_VALUE) {
+      reject(line, colValue + 1, `value ${quoteValue(decoder.decode(b.subarray(vs, ve)))} is beyond ±${limitText(MAX_INTERVAL_VALUE)}`,
+        "check the unit and the decimal point; one interval reading is far smaller");
+      return;
+    }
 
     let minutes = Number.NaN;
     if (colMinutes >= 0) {
@@ -261,7 +283,7 @@ export async function parseIntervalStream(
           const problem = /^\d+$/.test(text) ? null : numberProblem(text, "interval_minutes");
           reject(
             line, colMinutes + 1,
-            problem ? problem.message : `interval_minutes ${text} is not one of 5, 15, 30, 60`,
+            problem ? problem.message : `interval_minutes ${quoteValue(text)} is not one of 5, 15, 30, 60`,
             "interval_minutes must be 5, 15, 30 or 60 (or leave it empty to infer it)",
           );
           return;
@@ -287,6 +309,10 @@ export async function parseIntervalStream(
         );
         return;
       }
+    }
+    if (!(instant >= MIN_INSTANT_MS && instant < MAX_INSTANT_MS)) {
+      reject(line, colTs + 1, `timestamp ${quoteValue(decoder.decode(b.subarray(ts0, ts1)))} is outside the years ${MIN_YEAR}–${MAX_YEAR}`, "check the year");
+      return;
     }
     slot.lastInstantMs = instant;
     report.rowsUsed++;
@@ -361,13 +387,19 @@ export async function parseIntervalStream(
   // One pass over each chunk finds line ends and field separators together; lines are
   // processed in place, only a line straddling two chunks is copied.
   let carry: Uint8Array | null = null;
+  /** The previous chunk ended with CR: an LF starting this chunk belongs to that CRLF. */
+  let pendingCR = false;
   for await (const raw of stream) {
     const chunk: Uint8Array =
       typeof raw === "string" ? encoder.encode(raw) : new Uint8Array(raw.buffer, raw.byteOffset, raw.byteLength);
     const len = chunk.length;
     let s = 0;
+    if (pendingCR && len > 0) {
+      pendingCR = false;
+      if (chunk[0] === 10) s = 1;
+    }
     if (carry !== null) {
-      const nl = chunk.indexOf(10);
+      const nl = firstLineEnd(chunk);
       if (nl === -1) {
         const grown: Uint8Array = new Uint8Array(carry.length + len);
         grown.set(carry, 0);
@@ -381,6 +413,10 @@ export async function parseIntervalStream(
       splitAndProcess(joined, 0, joined.length);
       carry = null;
       s = nl + 1;
+      if (chunk[nl] === 13) {
+        if (nl + 1 < len && chunk[nl + 1] === 10) s++;
+        else if (nl + 1 === len) pendingCR = true;
+      }
     }
     let n = 0;
     let quoted = false;
@@ -395,6 +431,10 @@ export async function parseIntervalStream(
       } else if (cls === 2) {
         fieldEnd[n] = j;
         processLine(chunk, s, j, n + 1, quoted);
+        if (chunk[j] === 13) {
+          if (j + 1 < len && chunk[j + 1] === 10) j++;
+          else if (j + 1 === len) pendingCR = true;
+        }
         s = j + 1;
         n = 0;
         quoted = false;
@@ -411,18 +451,15 @@ export async function parseIntervalStream(
     issues.push({ file: fileLabel, line: 0, column: 0, severity: "error", message: "interval file is empty",
       hint: "remove the file or add a header line meter_id,timestamp,value and rows" });
   }
+  let unknownListed = 0;
   for (const slot of slots.values()) {
     if (slot.unknownRows > 0) {
       const why = options.unknownMeterReason?.(slot.meterId) ?? null;
-      const message = `meter_id ${JSON.stringify(slot.meterId)} ${why ?? "is not in meters.csv"}: ${slot.unknownRows} row(s) rejected`;
-      issues.push({ file: fileLabel, line: slot.firstLine, column: colMeter + 1, severity: "error", message,
-        hint: why ? "fix that meter row first" : "add the meter to meters.csv or correct the meter_id" });
-      report.rejections.push({ line: slot.firstLine, reason: message });
+      const message = `meter_id ${quoteValue(slot.meterId)} ${why ?? "is not in meters.csv"}: ${slot.unknownRows} row(s) rejected`;
+      ctx.error(slot.firstLine, colMeter + 1, message, why ? "fix that meter row first" : "add the meter to meters.csv or correct the meter_id");
+      if (unknownListed++ < DETAILS_PER_REASON) report.rejections.push({ line: slot.firstLine, reason: message });
     }
   }
-  if (suppressed > 0) {
-    issues.push({ file: fileLabel, line: 0, column: 0, severity: "error",
-      message: `${suppressed} more rejected row(s) not listed one by one`, hint: "fix the rows above first; the rest are often the same problem" });
-  }
+  ctx.finish();
   return { report, issues, skipped };
 }

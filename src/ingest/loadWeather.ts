@@ -3,7 +3,7 @@
  * station's time zone from the buildings using it, builds the hourly series and reports gaps
  * and buildings whose station has no data.
  */
-import type { InputIssue } from "../core/issues.ts";
+import { appendAll, type InputIssue } from "../core/issues.ts";
 import type { Building, WeatherSeries } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readWeatherFile, type StationReadings } from "./readWeather.ts";
@@ -12,8 +12,8 @@ import { buildWeatherSeries, type WeatherGap } from "./weatherGrid.ts";
 export interface WeatherFolderInput {
   buildings: readonly Building[];
   maxGapHours: number;
-  /** Sorted file names with one of `exts` in a folder (empty when absent). */
-  listFiles: (dir: string, exts: readonly string[]) => Promise<string[]>;
+  /** Sorted regular-file names with one of `exts` in a folder given as path parts below the portfolio folder (empty when absent). */
+  listFiles: (parts: string[], exts: readonly string[]) => Promise<string[]>;
   /** Absolute path / issue label of a path inside the portfolio folder. */
   abs: (...parts: string[]) => string;
   label: (...parts: string[]) => string;
@@ -50,7 +50,7 @@ export async function loadWeatherFolder(input: WeatherFolderInput): Promise<Weat
 
   const readStations = async (sub: string[], allowDaily: boolean): Promise<Map<string, StationReadings>> => {
     const byStation = new Map<string, StationReadings>();
-    for (const name of await listFiles(abs(...sub), [".csv"])) {
+    for (const name of await listFiles(sub, [".csv"])) {
       const ctx = open(label(...sub, name));
       await readWeatherFile(abs(...sub, name), ctx, byStation, (station) => {
         const zones = zonesOfStation.get(station);
@@ -73,7 +73,7 @@ export async function loadWeatherFolder(input: WeatherFolderInput): Promise<Weat
       const built = buildWeatherSeries(station, r.hourly, r.daily, zonesOfStation.get(station)?.[0] ?? "UTC", maxGapHours);
       if (!built) continue;
       out.set(station, built.series);
-      if (collectGaps) gaps.push(...built.gaps);
+      if (collectGaps) appendAll(gaps, built.gaps);
     }
     return out;
   };

@@ -7,8 +7,10 @@ import { LineCounter, isMap, isScalar, parseDocument, type Node, type Pair } fro
 import type { InputIssue } from "../core/issues.ts";
 import type { Commodity, PortfolioSettings } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
+import { trimId } from "../core/trimId.ts";
 import { parseIsoDate } from "./fields.ts";
 import { parseCleaningConfig } from "../clean/detect/config.ts";
+import { yamlLimitProblem } from "../tariff/yaml-check.ts";
 
 /** The node at a key path inside a YAML mapping (for placing an error), or null. */
 function nodeAtPath(node: Node | null | undefined, path: string[]): Node | null {
@@ -64,13 +66,34 @@ export function normalizeBasePath(raw: string): string {
 export function parsePercent(value: unknown): number | null {
   if (typeof value === "number" && Number.isFinite(value)) return value / 100;
   if (typeof value !== "string") return null;
-  const m = /^\s*([+-]?(?:\d+\.?\d*|\.\d+))\s*%?\s*$/.exec(value);
+  const m = /^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+))\s*%?\s*$/.exec(value);
   return m ? Number(m[1]) / 100 : null;
+}
+
+/** Hours in a leap year: no detector window or run can usefully exceed a year of data. */
+export const MAX_CLEANING_HOURS = 8784;
+
+/**
+ * Limits of one `cleaning:` setting, chosen from its name (the detectors' naming convention):
+ * `…Hours` up to a leap year of hours; `…Intervals` whole, up to a leap year of 5-minute
+ * intervals (105,408); `…Share` a fraction up to 1; counts (`min_comparisons`,
+ * `min_weeks_for_weekly`) whole, up to 1,000; anything else (multiples such as `sigmas`,
+ * `negative_levels`, and `min_absolute`, `tolerance` in meter units) up to 1e9, far above any
+ * meaningful threshold but small enough to keep arithmetic finite.
+ */
+export function cleaningLimit(field: string): { max: number; whole: boolean; reason: string } {
+  if (field.endsWith("Hours")) return { max: MAX_CLEANING_HOURS, whole: false, reason: `hours: at most ${MAX_CLEANING_HOURS} (one leap year); a longer window cannot be evaluated` };
+  if (field.endsWith("Intervals")) return { max: 105_408, whole: true, reason: "a whole number of intervals, at most 105,408 (a leap year of 5-minute intervals)" };
+  if (field.endsWith("Share")) return { max: 1, whole: false, reason: "a share is a fraction from 0 to 1" };
+  if (field === "minComparisons" || field === "minWeeksForWeekly" || field === "minIntervals") return { max: 1000, whole: true, reason: "a whole count, at most 1,000" };
+  return { max: 1e9, whole: false, reason: "at most 1e9; larger values only make the detector do nothing" };
 }
 
 /** Parses portfolio.yaml text. `file` is the label used in issues. */
 export function parsePortfolioYaml(text: string, file: string): SettingsResult {
   const issues: InputIssue[] = [];
+  const limit = yamlLimitProblem(text);
+  if (limit) return { settings: null, issues: [{ file, line: limit.line, column: limit.column, severity: "error", message: limit.message, hint: limit.hint }], fatal: true };
   const lc = new LineCounter();
   const doc = parseDocument(text, { lineCounter: lc, prettyErrors: false });
   const at = (node: Node | null | undefined): { line: number; column: number } => {
@@ -173,8 +196,11 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
             continue;
           }
           const num = k.endsWith("_pct") ? (parsePercent(raw) ?? Number.NaN) * 100 : typeof raw === "number" ? raw : Number.NaN;
-          if (!Number.isFinite(num) || num < 0) {
-            err(p.value ?? p.key, `tolerances.${k} ${JSON.stringify(raw)} must be a number >= 0`, k.endsWith("_pct") ? "in percent, e.g. 2" : "in currency, e.g. 1.00");
+          // Percent tolerances above 100 % would accept any bill; money tolerances stay within the
+          // bill total limit (1e11) so comparisons remain exact to the cent.
+          const maxTol = k.endsWith("_pct") ? 100 : 1e11;
+          if (!Number.isFinite(num) || num < 0 || num > maxTol) {
+            err(p.value ?? p.key, `tolerances.${k} ${JSON.stringify(raw)} must be a number from 0 to ${maxTol === 100 ? "100" : "1e11"}`, k.endsWith("_pct") ? "in percent, e.g. 2" : "in currency, e.g. 1.00");
             continue;
           }
           s.tolerances[target] = num;
@@ -190,8 +216,10 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
           const k = isScalar(p.key) ? String(p.key.value) : "";
           const raw = isScalar(p.value) ? p.value.value : undefined;
           if (k === "heating" || k === "cooling") {
-            if (typeof raw === "number" && Number.isFinite(raw)) s.degreeDayBase[k] = raw;
-            else err(p.value ?? p.key, `degree_day_base.${k} ${JSON.stringify(raw)} is not a number`, "a temperature, e.g. 18");
+            // A base temperature is an indoor balance point: -50 to 120 covers both °C and °F
+            // with room to spare; beyond, every hour would count as heating or cooling.
+            if (typeof raw === "number" && Number.isFinite(raw) && raw >= -50 && raw <= 120) s.degreeDayBase[k] = raw;
+            else err(p.value ?? p.key, `degree_day_base.${k} ${JSON.stringify(raw)} is not a temperature from -50 to 120`, "a temperature, e.g. 18"); 
           } else if (k === "unit") {
             if (raw === "C" || raw === "F") s.degreeDayBase.unit = raw;
             else err(p.value ?? p.key, `degree_day_base.unit ${JSON.stringify(raw)} must be C or F`);
@@ -209,8 +237,22 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
         break;
       case "cleaning": {
         const parsed = parseCleaningConfig(val);
-        s.cleaning = parsed.config as Record<string, Record<string, number>>;
+        const config = parsed.config as Record<string, Record<string, number>>;
         for (const problem of parsed.issues) err(nodeAtPath(valNode, problem.path.split(".").slice(1)) ?? keyNode, `${problem.path}: ${problem.message}`);
+        // Upper limits (the detectors check only >= 0): a window of 1e308 hours sizes an array
+        // and crashed the build (issue 16). Out-of-range values are errors; the default is used.
+        for (const [section, fields] of Object.entries(config)) {
+          for (const [field, value] of Object.entries(fields)) {
+            const limit = cleaningLimit(field);
+            const snake = field.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+            const path = `cleaning.${section.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`)}.${snake}`;
+            if (value > limit.max || (limit.whole && !Number.isInteger(value))) {
+              err(nodeAtPath(valNode, path.split(".").slice(1)) ?? keyNode, `${path}: ${value} is ${limit.whole && !Number.isInteger(value) ? "not a whole number" : `above the limit of ${limit.max}`}`, limit.reason);
+              delete fields[field];
+            }
+          }
+        }
+        s.cleaning = config;
         break;
       }
       case "alignment": {
@@ -230,7 +272,7 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
               continue;
             }
             for (const q of p.value.items as Pair<Node, Node | null>[]) {
-              const meterId = isScalar(q.key) ? String(q.key.value) : "";
+              const meterId = isScalar(q.key) ? trimId(String(q.key.value)) : "";
               const hours = isScalar(q.value) ? q.value.value : undefined;
               if (typeof hours === "number" && Number.isFinite(hours) && Math.abs(hours) <= 14) s.alignment.offsetsHours[meterId] = hours;
               else err(q.value ?? q.key, `alignment offset for ${meterId} ${JSON.stringify(hours)} must be a number of hours from -14 to 14`);
@@ -240,8 +282,10 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
         break;
       }
       case "weather_max_gap_hours":
-        if (typeof val === "number" && Number.isFinite(val) && val >= 0) s.weatherMaxGapHours = val;
-        else err(valNode ?? keyNode, `weather_max_gap_hours ${JSON.stringify(val)} must be a number >= 0`, "e.g. weather_max_gap_hours: 6");
+        // Capped at one leap year of hours: a longer gap has nothing to interpolate between
+        // in the data a build uses, and the cap keeps the fill loop bounded.
+        if (typeof val === "number" && Number.isFinite(val) && val >= 0 && val <= MAX_CLEANING_HOURS) s.weatherMaxGapHours = val;
+        else err(valNode ?? keyNode, `weather_max_gap_hours ${JSON.stringify(val)} must be a number from 0 to ${MAX_CLEANING_HOURS}`, "e.g. weather_max_gap_hours: 6");
         break;
       default: {
         const near = TOP_KEYS.find((k) => k.replace(/_/g, "") === key.toLowerCase().replace(/[_\s-]/g, ""));

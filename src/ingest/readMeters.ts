@@ -1,8 +1,10 @@
 /** meters.csv → Meter[]: commodity/unit pairs, known building and tariff, unique ids. */
+import { quoteValue } from "../core/issues.ts";
 import type { Commodity, Meter } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
+import { MAX_MULTIPLIER, idLengthProblem, limitText } from "./limits.ts";
 
 /** Usage units allowed per commodity (inputs contract), in their canonical spelling. */
 export const UNITS_BY_COMMODITY: Record<Commodity, readonly string[]> = {
@@ -32,12 +34,20 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
   const meters: Meter[] = [];
   const rejectedIds = new Map<string, string>();
   const seen = new Map<string, number>();
+  const seenFolded = new Map<string, [string, number]>();
   const table = await readCsvTable(path, ctx, METERS_SPEC, (row) => {
     const id = row.text("meter_id", true);
-    if (id !== null && seen.has(id)) row.problem("meter_id", `meter_id ${id} repeats line ${seen.get(id)}`, "meter_id must be unique");
+    const tooLong = id === null ? null : idLengthProblem("meter_id", id);
+    if (tooLong) row.problem("meter_id", tooLong, "use a shorter meter id; the utility's long number can go in account");
+    else if (id !== null && seen.has(id)) row.problem("meter_id", `meter_id ${id} repeats line ${seen.get(id)}`, "meter_id must be unique");
+    else if (id !== null && seenFolded.has(id.toLowerCase())) {
+      // Meter pages are files named by id; case-insensitive file systems would merge the two.
+      const [other, line] = seenFolded.get(id.toLowerCase())!;
+      row.problem("meter_id", `meter_id ${id} differs only in letter case from ${other} (line ${line})`, "page file names would collide on Windows and macOS; make the ids differ by more than case");
+    }
     const buildingId = row.text("building_id", true);
     if (buildingId !== null && !refs.buildingIds.has(buildingId)) {
-      row.problem("building_id", `building_id ${JSON.stringify(buildingId)} is not in buildings.csv`, "add the building or correct the id (ids are case-sensitive)");
+      row.problem("building_id", `building_id ${quoteValue(buildingId)} is not in buildings.csv`, "add the building or correct the id (ids are case-sensitive)");
     }
     const commodity = row.choice("commodity", COMMODITIES, null);
     const unitText = row.text("unit", true);
@@ -45,20 +55,21 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
     if (commodity !== null && unitText !== null) {
       const allowed = UNITS_BY_COMMODITY[commodity];
       unit = allowed.find((u) => u.toLowerCase() === unitText.toLowerCase()) ?? null;
-      if (unit === null) row.problem("unit", `unit ${JSON.stringify(unitText)} is not a ${commodity} unit`, `for ${commodity} use ${allowed.join(", ")}`);
+      if (unit === null) row.problem("unit", `unit ${quoteValue(unitText)} is not a ${commodity} unit`, `for ${commodity} use ${allowed.join(", ")}`);
     }
     const tariffId = row.text("tariff", true);
     if (tariffId !== null && refs.tariffIds !== null && !refs.tariffIds.has(tariffId)) {
       const failedIn = refs.failedTariffs?.get(tariffId);
       if (failedIn) row.problem("tariff", `tariff ${tariffId} could not be loaded (${failedIn} has errors)`, "fix the tariff file first");
-      else row.problem("tariff", `tariff ${JSON.stringify(tariffId)} matches no tariff file id`, "the value must equal the `id:` of a file in tariffs/");
+      else row.problem("tariff", `tariff ${quoteValue(tariffId)} matches no tariff file id`, "the value must equal the `id:` of a file in tariffs/");
     }
-    const multiplier = row.number("multiplier", false, (v) => (v > 0 ? null : "must be greater than 0")) ?? 1;
+    const multiplier = row.number("multiplier", false, (v) => (v <= 0 ? "must be greater than 0" : v > MAX_MULTIPLIER ? `is above ${limitText(MAX_MULTIPLIER)}` : null)) ?? 1;
     if (row.failed || id === null || buildingId === null || commodity === null || unit === null || tariffId === null) {
       if (id !== null && !seen.has(id)) rejectedIds.set(id, `${ctx.file}:${row.line}`);
       return;
     }
     seen.set(id, row.line);
+    seenFolded.set(id.toLowerCase(), [id, row.line]);
     meters.push({
       meterId: id, buildingId, commodity, unit, tariffId, multiplier,
       account: row.raw("account"),

@@ -3,7 +3,11 @@
  * `station_id,date,tmax_c,tmin_c` / `_f`) and weather/normals/*.csv (hourly) → readings per
  * station, ready for buildWeatherSeries. The layout is chosen from each file's header.
  */
-import { open } from "node:fs/promises";
+import { realpath } from "node:fs/promises";
+import { dirname } from "node:path";
+import { quoteValue } from "../core/issues.ts";
+import { openInputFile } from "./inputFile.ts";
+import { MAX_YEAR, MIN_YEAR } from "./limits.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type Row } from "./csvTable.ts";
 import { sharedResolver } from "./localTime.ts";
@@ -22,16 +26,26 @@ export interface StationReadings {
 
 export type WeatherLayout = "hourly" | "daily" | "unknown";
 
-/** Reads the first line of a file (header) without reading the whole file. */
-async function readHeaderLine(path: string): Promise<string> {
-  const fh = await open(path, "r");
+/**
+ * Reads the first line of a file (header) without reading the whole file; any line ending.
+ * Returns null after reporting when the file is not a readable regular file.
+ */
+async function readHeaderLine(path: string, ctx: FileContext): Promise<string | null> {
+  const rootReal = ctx.rootReal ?? (await realpath(dirname(path)).catch(() => dirname(path)));
+  const opened = await openInputFile(rootReal, path);
+  if (!opened.ok) {
+    ctx.error(0, 0, opened.missing ? "file disappeared while the portfolio was read" : opened.message, opened.missing ? "run again" : opened.hint);
+    return null;
+  }
   try {
     const buf = Buffer.alloc(4096);
-    const { bytesRead } = await fh.read(buf, 0, buf.length, 0);
+    const { bytesRead } = await opened.handle.read(buf, 0, buf.length, 0);
     const text = buf.subarray(0, bytesRead).toString("utf8").replace(/^\uFEFF/, "");
-    return text.split(/\r?\n/)[0] ?? "";
+    return text.split(/\r\n|\r|\n/)[0] ?? "";
+  } catch {
+    return "";
   } finally {
-    await fh.close();
+    await opened.handle.close().catch(() => undefined);
   }
 }
 
@@ -63,7 +77,13 @@ export async function readWeatherFile(
   zoneOfStation: (stationId: string) => string | null,
   allowDaily: boolean,
 ): Promise<void> {
-  const { layout, unit } = weatherLayoutOf(await readHeaderLine(path));
+  const header = await readHeaderLine(path, ctx);
+  if (header === null) return;
+  if (header.trim() === "") {
+    ctx.error(0, 0, "file is empty (no header row)", "remove the file, or add a header such as station_id,timestamp,temperature_c and rows");
+    return;
+  }
+  const { layout, unit } = weatherLayoutOf(header);
   if (layout === "unknown" || (layout === "daily" && !allowDaily)) {
     ctx.error(1, 0, allowDaily
       ? "weather file header is neither hourly (station_id,timestamp,temperature_c|temperature_f) nor daily (station_id,date,tmax_c,tmin_c or _f)"
@@ -102,7 +122,7 @@ export async function readWeatherFile(
       const c = temp(row, tcol);
       if (text === null || station === null) return;
       if (!parseTimestampString(text, ts)) {
-        row.problem("timestamp", `timestamp ${JSON.stringify(text)} ${ts.error}`, TIMESTAMP_HINT);
+        row.problem("timestamp", `timestamp ${quoteValue(text)} ${ts.error}`, TIMESTAMP_HINT);
         return;
       }
       let instant: number;
@@ -124,6 +144,10 @@ export async function readWeatherFile(
             return;
           }
         }
+      }
+      if (!(instant >= Date.UTC(MIN_YEAR, 0, 1) && instant < Date.UTC(MAX_YEAR + 1, 0, 1))) {
+        row.problem("timestamp", `timestamp ${quoteValue(text)} is outside the years ${MIN_YEAR}–${MAX_YEAR}`, "check the year");
+        return;
       }
       if (row.failed || c === null) return;
       lastInstant.set(station, instant);

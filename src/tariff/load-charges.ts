@@ -6,6 +6,9 @@ import { isMap, isScalar, type Node } from "yaml";
 import type { Block, Charge, RateSpec } from "./model.ts";
 import { Checker, readBool, readMap, readNamedMap, readNumber, readSeq, readString, where, type AnyNode, type Field } from "./yaml-check.ts";
 
+/** Demand windows in minutes that a meter can measure (see window_minutes in the tariff format). */
+const DEMAND_WINDOWS: readonly number[] = [5, 10, 15, 30, 60];
+
 const KIND_KEYS = ["fixed", "blocks", "energy", "demand", "power_factor", "percent"] as const;
 const EXTRA_KEYS: Record<(typeof KIND_KEYS)[number], string[]> = {
   fixed: [],
@@ -115,7 +118,14 @@ function readCharge(c: Checker, node: AnyNode): ParsedCharge | null {
     case "demand": {
       const r = readRate(c, kf, `demand rate of '${label}'`);
       const wf = m.get("window_minutes");
-      const windowMinutes = wf ? readNumber(c, wf, "window_minutes", { above: 0, integer: true, max: 1440 }) : 15;
+      let windowMinutes = wf ? readNumber(c, wf, "window_minutes", { above: 0, integer: true, max: 1440 }) : 15;
+      // Demand is the average over a fixed metering window; utilities use 5, 10, 15, 30 or 60
+      // minutes, and a window must be a whole number of interval readings (5-minute grid or
+      // coarser), so 7 cannot be measured (issue 16: it was accepted silently).
+      if (wf && windowMinutes !== null && !DEMAND_WINDOWS.includes(windowMinutes)) {
+        c.error(where(wf), `window_minutes ${windowMinutes} is not a demand window`, `use one of ${DEMAND_WINDOWS.join(", ")}`);
+        windowMinutes = null;
+      }
       let ratchet = null;
       const rf = m.get("ratchet");
       if (rf) {
@@ -125,7 +135,7 @@ function readCharge(c: Checker, node: AnyNode): ParsedCharge | null {
           const mf = rm.get("months");
           if (!pf || !mf) c.error(where(rf), "ratchet needs percent and months", "e.g. ratchet: { percent: 80, months: 11 }");
           const percent = pf ? readNumber(c, pf, "ratchet percent", { above: 0, max: 100 }) : null;
-          const months = mf ? readNumber(c, mf, "ratchet months", { min: 1, integer: true }) : null;
+          const months = mf ? readNumber(c, mf, "ratchet months", { min: 1, max: 36, integer: true }) /* ratchets look back at most a few years */ : null;
           if (percent !== null && months !== null) ratchet = { percent, months };
         }
         if (r && "byPeriod" in r.rate) c.error(rf.key, `ratchet applies to whole-period demand only ('${label}' is priced per period)`, "put the ratchet on a demand charge with a single rate");
@@ -143,7 +153,9 @@ function readCharge(c: Checker, node: AnyNode): ParsedCharge | null {
       return target === null ? null : { ...base, charge: { kind: "power-factor", label, targetPf: target } };
     }
     case "percent": {
-      const pct = readNumber(c, kf, `percent of '${label}'`);
+      // A tax, surcharge or discount is a share of the lines it applies to: from -100 % (all
+      // waived) to 100 % (doubled). Beyond is a typing error (e.g. 1e308 made every bill NaN).
+      const pct = readNumber(c, kf, `percent of '${label}'`, { min: -100, max: 100 });
       const of = readOf(c, m.get("of"));
       if (pct === null || of === null) return null;
       return { ...base, ofNames: of === "all" ? [] : of, charge: { kind: "percent", label, percent: pct, of: of === "all" ? "all" : of.map((o) => o.name) } };

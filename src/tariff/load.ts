@@ -10,7 +10,7 @@ import { COMMODITIES, type Commodity } from "../domain/types.ts";
 import { checkVersion, checkVersionOrder, readVersion, resolveVersions, type RawVersion } from "./load-versions.ts";
 import type { Tariff, TariffVersion } from "./model.ts";
 import { canonicalUnit, DEFAULT_HEAT_CONTENT_THERM_PER_CCF, UNITS_BY_COMMODITY } from "./units.ts";
-import { Checker, didYouMean, readMap, readNumber, readSeq, readString, where, type Field } from "./yaml-check.ts";
+import { Checker, didYouMean, readMap, readNumber, readSeq, readString, where, yamlLimitProblem, type Field } from "./yaml-check.ts";
 
 export { MINIMUM_BILL_LABEL } from "./model.ts";
 
@@ -25,6 +25,8 @@ const TOP_KEYS = ["id", "name", "commodity", "usage_unit", "currency", "heat_con
  * @example loadTariff("id: x\n…", "tariffs/x.yaml").issues[0] // { line: 3, column: 5, message: "…" }
  */
 export function loadTariff(text: string, file: string): { tariff: Tariff | null; issues: InputIssue[] } {
+  const limit = yamlLimitProblem(text);
+  if (limit) return { tariff: null, issues: [{ file, line: limit.line, column: limit.column, severity: "error", message: limit.message, hint: limit.hint }] };
   const lineCounter = new LineCounter();
   const doc = parseDocument(text, { lineCounter, prettyErrors: false, uniqueKeys: true });
   const c = new Checker(file, lineCounter);

@@ -4,6 +4,7 @@
  */
 import { isMap, isScalar, isSeq, type LineCounter, type Node, type Pair, type YAMLMap, type YAMLSeq } from "yaml";
 import type { InputIssue } from "../core/issues.ts";
+import { trimId } from "../core/trimId.ts";
 
 export type AnyNode = Node | null | undefined;
 
@@ -26,7 +27,11 @@ export class Checker {
   error(node: AnyNode, message: string, hint?: string): void {
     const { line, column } = this.pos(node);
     this.issues.push({ file: this.file, line, column, severity: "error", message, hint });
+    this.errorSeen = true;
   }
+
+  /** Set by `error`, so `failed` does not rescan every issue (it is asked once per charge). */
+  private errorSeen = false;
 
   warning(node: AnyNode, message: string, hint?: string): void {
     const { line, column } = this.pos(node);
@@ -34,7 +39,7 @@ export class Checker {
   }
 
   get failed(): boolean {
-    return this.issues.some((i) => i.severity === "error");
+    return this.errorSeen || this.issues.some((i) => i.severity === "error");
   }
 }
 
@@ -141,6 +146,15 @@ export interface NumberRule {
 }
 
 /** A finite number scalar obeying `rule`, or null after reporting. */
+/**
+ * Largest magnitude of any number in a tariff file (rate, fixed amount, block size, minimum).
+ * No real rate or charge comes near a billion, and keeping every factor below it keeps a
+ * priced line (rate × usage up to 1e12) far inside the range where doubles are finite and
+ * cents are exact: `1e308` used to price every bill to NaN (issue 16).
+ */
+export const MAX_TARIFF_NUMBER = 1e9;
+const MAX_TARIFF_NUMBER_TEXT = "1,000,000,000";
+
 export function readNumber(c: Checker, f: Field, what: string, rule: NumberRule = {}): number | null {
   const node = f.value;
   if (!isScalar(node) || typeof node.value !== "number" || !Number.isFinite(node.value)) {
@@ -150,6 +164,7 @@ export function readNumber(c: Checker, f: Field, what: string, rule: NumberRule 
   }
   const v = node.value;
   const bounds: string[] = [];
+  if (Math.abs(v) > MAX_TARIFF_NUMBER) bounds.push(`between -${MAX_TARIFF_NUMBER_TEXT} and ${MAX_TARIFF_NUMBER_TEXT}`);
   if (rule.integer && !Number.isInteger(v)) bounds.push("a whole number");
   if (rule.above !== undefined && !(v > rule.above)) bounds.push(`greater than ${rule.above}`);
   if (rule.min !== undefined && v < rule.min) bounds.push(`at least ${rule.min}`);
@@ -164,11 +179,12 @@ export function readNumber(c: Checker, f: Field, what: string, rule: NumberRule 
 /** A non-empty string scalar, or null after reporting. */
 export function readString(c: Checker, f: Field, what: string, hint?: string): string | null {
   const node = f.value;
-  if (!isScalar(node) || typeof node.value !== "string" || node.value.trim() === "") {
+  if (!isScalar(node) || typeof node.value !== "string" || trimId(node.value) === "") {
     c.error(where(f), `${what} must be text`, hint);
     return null;
   }
-  return node.value.trim();
+  // Same whitespace rule as every id in the CSV files, so `id: X\u00A0` matches meters.csv's X.
+  return trimId(node.value);
 }
 
 /** A boolean scalar, or null after reporting. */
@@ -179,4 +195,99 @@ export function readBool(c: Checker, f: Field, what: string): boolean | null {
     return null;
   }
   return node.value;
+}
+
+/**
+ * Deepest nesting accepted in a YAML file (flow brackets, or block indentation in steps of one
+ * space). A tariff nests about six levels; the YAML parser recurses once per level and overflows
+ * the stack near a few thousand, so 64 flow levels and 256 columns of indentation are generous
+ * for real files and far from the crash (common practice: parsers such as Go's yaml.v3 cap depth).
+ */
+export const MAX_YAML_FLOW_DEPTH = 64;
+export const MAX_YAML_INDENT = 256;
+
+/** Aliases (`*name`) accepted in one file; the yaml package's own default for expansion (`maxAliasCount`). */
+export const MAX_YAML_ALIASES = 100;
+
+/**
+ * Checks YAML text against the nesting and alias limits before parsing, so a hostile file
+ * ("billion laughs" aliases, ten thousand nested brackets) gets a message instead of a stack
+ * overflow or a memory blow-up. Returns the first problem with its position, or null.
+ * The scan skips quoted strings and comments; it is linear in the text.
+ * @example yamlLimitProblem("a: " + "[".repeat(100)) // { line: 1, column: 68, … }
+ */
+export function yamlLimitProblem(text: string): { line: number; column: number; message: string; hint: string } | null {
+  let line = 1;
+  let col = 0;
+  let depth = 0;
+  let aliases = 0;
+  let atLineStart = true;
+  let indent = 0;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text.charCodeAt(i);
+    col++;
+    if (ch === 10) {
+      line++;
+      col = 0;
+      atLineStart = true;
+      indent = 0;
+      continue;
+    }
+    if (atLineStart) {
+      if (ch === 32) {
+        indent++;
+        if (indent > MAX_YAML_INDENT) {
+          return { line, column: col, message: `indentation deeper than ${MAX_YAML_INDENT} spaces`, hint: "a tariff or settings file nests a few levels; check the indentation" };
+        }
+        continue;
+      }
+      atLineStart = false;
+    }
+    if (ch === 35 && (i === 0 || text.charCodeAt(i - 1) === 32 || text.charCodeAt(i - 1) === 10 || text.charCodeAt(i - 1) === 9)) {
+      // Comment to end of line.
+      const nl = text.indexOf("\n", i);
+      if (nl === -1) break;
+      col += nl - i - 1;
+      i = nl - 1;
+      continue;
+    }
+    const before = i === 0 ? 32 : text.charCodeAt(i - 1);
+    const opensScalar = before === 32 || before === 9 || before === 10 || before === 91 || before === 123 || before === 44 || before === 58 || before === 45;
+    if ((ch === 34 || ch === 39) && opensScalar) {
+      // Quoted scalar (a quote inside a plain scalar, as in "Customer's", opens nothing):
+      // skip to the closing quote ("" escapes with \, '' doubles).
+      let j = i + 1;
+      for (; j < text.length; j++) {
+        const c = text.charCodeAt(j);
+        if (ch === 34 && c === 92) j++;
+        else if (c === ch) {
+          if (ch === 39 && text.charCodeAt(j + 1) === 39) j++;
+          else break;
+        } else if (c === 10) {
+          line++;
+          col = 0;
+        }
+      }
+      col += j - i;
+      i = j;
+      continue;
+    }
+    if (ch === 91 || ch === 123) {
+      depth++;
+      if (depth > MAX_YAML_FLOW_DEPTH) {
+        return { line, column: col, message: `brackets nested deeper than ${MAX_YAML_FLOW_DEPTH} levels`, hint: "a tariff or settings file nests a few levels; check for unbalanced [ or {" };
+      }
+    } else if (ch === 93 || ch === 125) {
+      if (depth > 0) depth--;
+    } else if (ch === 42) {
+      const prev = i === 0 ? 32 : text.charCodeAt(i - 1);
+      if (prev === 32 || prev === 9 || prev === 91 || prev === 123 || prev === 44 || prev === 58) {
+        aliases++;
+        if (aliases > MAX_YAML_ALIASES) {
+          return { line, column: col, message: `more than ${MAX_YAML_ALIASES} aliases (*name)`, hint: "aliases repeat a block; write the values out, or use fewer aliases" };
+        }
+      }
+    }
+  }
+  return null;
 }

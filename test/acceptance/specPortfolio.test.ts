@@ -18,7 +18,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { mkdtemp, readFile, readdir, access } from "node:fs/promises";
 import { tmpdir } from "node:os";
-import { join, relative } from "node:path";
+import { join, relative, isAbsolute } from "node:path";
 import { parse } from "csv-parse/sync";
 import { runCli, type CliIo } from "../../src/cli/main.ts";
 
@@ -193,7 +193,9 @@ describe("spec-only portfolio through the CLI", () => {
       for (const k of keys) if (typeof o[k] === "number") return o[k] as number;
       throw new Error(`none of ${keys.join("/")} in ${JSON.stringify(o).slice(0, 200)}`);
     };
-    const byFile = new Map(files.map((f) => [relative(FIXTURE, String(f.file)), f]));
+    // Published paths are relative to the portfolio folder (issue 16); older reports carried the folder too.
+    const inFolder = (file: string): string => (file.startsWith(FIXTURE) || isAbsolute(file) ? relative(FIXTURE, file) : file);
+    const byFile = new Map(files.map((f) => [inFolder(String(f.file)), f]));
     const inputs = (await listFiles(FIXTURE)).map((p) => relative(FIXTURE, p));
     for (const rel of inputs.filter((p) => p.endsWith(".csv"))) {
       const entry = byFile.get(rel);

@@ -141,9 +141,34 @@ describe("parseIntervalStream — layout and strict validation", () => {
   });
 
   it("reads numbers exactly as Number() does on valid text", async () => {
-    const values = ["0.1", "123456.789", "-0.000001", "99999999999999.9", "1e3", "1234567890123456789", ".5", "7."];
+    // 15 significant digits (fast path) and 19 (slow path), within the 1e9 reading limit.
+    const values = ["0.1", "123456.789", "-0.000001", "999999.999999999", "1e3", "123456789.0123456789", ".5", "7."];
     const text = ["meter_id,timestamp,value", ...values.map((v, k) => `M1,2024-01-01T00:${String(k).padStart(2, "0")}Z,${v}`)].join("\n");
     const { rows } = await parseText(text);
     expect(rows.map((r) => r.value)).toEqual(values.map(Number));
+  });
+
+  it("rejects readings beyond ±1e9 and timestamps outside 1900–2199 (src/ingest/limits.ts)", async () => {
+    const text = ["meter_id,timestamp,value", "M1,2024-01-01T00:00Z,1000000001", "M1,2024-01-01T00:15Z,1e308", "M1,0001-01-01T00:00Z,1", "M1,2024-01-01T00:30Z,-1e9"].join("\n");
+    const { rows, result } = await parseText(text);
+    expect(rows.map((r) => r.value)).toEqual([-1e9]);
+    expect(result.issues.map((i) => [i.line, i.column])).toEqual([[2, 3], [3, 3], [4, 2]]);
+    expect(result.report).toMatchObject({ rowsRead: 4, rowsUsed: 1, rowsRejected: 3 });
+  });
+});
+
+describe("parseIntervalStream — every line ending, at every chunk boundary (issue 16)", () => {
+  it.each([["LF", "\n"], ["CRLF", "\r\n"], ["CR", "\r"]])("%s", async (_name, eol) => {
+    const lines = ["meter_id,timestamp,value", "M1,2024-01-01T00:00Z,1", "M1,2024-01-01T00:15Z,2", "", "M1,2024-01-01T00:30Z,3"];
+    for (const chunk of [1, 2, 3, 5, 64]) {
+      const { rows, result } = await parseText(lines.join(eol) + eol, () => "UTC", chunk);
+      expect(rows.map((r) => [r.line, r.value]), `chunk ${chunk}`).toEqual([[2, 1], [3, 2], [5, 3]]);
+      expect(result.issues).toEqual([]);
+    }
+  });
+  it("a meter id followed by a no-break space or zero-width space is the same meter", async () => {
+    const { rows, result } = await parseText("meter_id,timestamp,value\nM1\u00A0,2024-01-01T00:00Z,1\n\u200BM1,2024-01-01T00:15Z,2\n\u00A0,2024-01-01T00:30Z,3\n", () => "UTC");
+    expect(rows.map((r) => r.meterId)).toEqual(["M1", "M1"]);
+    expect(result.issues.map((i) => [i.line, i.message])).toEqual([[4, "meter_id is empty"]]);
   });
 });

@@ -23,9 +23,10 @@ describe("loadPortfolio on a folder written only from inputs.md", () => {
       expect(f.rowsUsed, f.file).toBe(f.rowsRead);
     }
     expect(p.report.files.map((f) => f.file)).toEqual(seen);
-    expect(seen).toContain(`${GOOD}/bills.csv`);
-    expect(seen).toContain(`${GOOD}/intervals/E-100-2024.csv`);
-    expect(seen).toContain(`${GOOD}/weather/normals/kxaa.csv`);
+    // Paths are relative to the portfolio folder (issue 16: published files never carry the builder's folders).
+    expect(seen).toContain("bills.csv");
+    expect(seen).toContain("intervals/E-100-2024.csv");
+    expect(seen).toContain("weather/normals/kxaa.csv");
   });
 
   it("keeps a building name with <script> and quotes exactly as written (HTML escaping is the site's job)", async () => {
@@ -65,12 +66,12 @@ describe("loadPortfolio on a folder written only from inputs.md", () => {
 
 describe("loadPortfolio on bad input", () => {
   const load = () => loadPortfolio(BAD);
-  const find = async (file: string, line: number) => (await load()).issues.filter((i) => i.file === `${BAD}/${file}` && i.line === line);
+  const find = async (file: string, line: number) => (await load()).issues.filter((i) => i.file === file && i.line === line);
 
   it("is not fatal: bad rows are rejected and counted, good rows kept", async () => {
     const r = await load();
     expect(r.fatal).toBe(false);
-    const counts = Object.fromEntries(r.portfolio!.report.files.map((f) => [f.file.slice(BAD.length + 1), [f.rowsRead, f.rowsUsed, f.rowsRejected]]));
+    const counts = Object.fromEntries(r.portfolio!.report.files.map((f) => [f.file, [f.rowsRead, f.rowsUsed, f.rowsRejected]]));
     expect(counts).toMatchObject({
       "buildings.csv": [6, 2, 4],
       "meters.csv": [6, 2, 4],
@@ -84,7 +85,7 @@ describe("loadPortfolio on bad input", () => {
 
   it("buildings: BOM header read, unknown column warned once, `1,234`, bad zone, duplicate id", async () => {
     const r = await load();
-    const b = r.issues.filter((i) => i.file === `${BAD}/buildings.csv`);
+    const b = r.issues.filter((i) => i.file === "buildings.csv");
     expect(b.filter((i) => i.message.includes("unknown column"))).toHaveLength(1);
     expect((await find("buildings.csv", 3))[0]).toMatchObject({ column: 3, severity: "error" });
     expect((await find("buildings.csv", 3))[0].message).toMatch(/thousands separator/);
@@ -134,7 +135,7 @@ describe("loadPortfolio on bad input", () => {
     expect(Array.from(s.startMs)).toEqual([0, 15, 30, 45].map((m) => Date.UTC(2024, 0, 1, 5, m)));
     expect(Array.from(s.values)).toEqual([1, -2, 3, 4]);
     const dup = r.issues.filter((i) => i.message.startsWith("duplicate reading"));
-    expect(dup.map((i) => [i.file.slice(BAD.length + 1), i.line])).toEqual([["intervals/b.csv", 3], ["intervals/a.csv", 5]]);
+    expect(dup.map((i) => [i.file, i.line])).toEqual([["intervals/b.csv", 3], ["intervals/a.csv", 5]]);
     expect(r.issues.filter((i) => i.message.includes("negative"))).toHaveLength(1);
   });
 });
@@ -204,7 +205,7 @@ describe("loadPortfolio key uniqueness", () => {
     const r = await loadPortfolio(dir);
     const e = r.issues.filter((i) => i.severity === "error");
     expect(e).toHaveLength(1);
-    expect(e[0].file).toBe(join(dir, "tariffs", "fen-gs.yaml"));
+    expect(e[0].file).toBe("tariffs/fen-gs.yaml");
     expect(e[0].message).toMatch(/already used by .*fen-gs-copy.yaml/);
     expect(r.portfolio!.tariffs.size).toBe(2);
   });
