@@ -121,3 +121,48 @@ export function makeMeter(kind: MeterKind, seed: number, weather: WeatherSeries,
   }
   return { meterId: `${kind}-${seed}`, intervalMinutes: 15, startMs: times, values };
 }
+
+/** A fault planted on a copy of a clean meter: what a detector must find there. */
+export interface PlantedFault {
+  kind: "spike" | "constant-run" | "zero-run";
+  /** Index of the first planted interval and how many. */
+  at: number;
+  intervals: number;
+}
+
+/**
+ * Plants, on a copy: five 25× spikes (weekday 11:00 and 14:00 in weeks 5, 17, 29, and a weekday
+ * 03:00 in weeks 11 and 41; a zero reading is first raised to the resolution), a register stuck
+ * for 10 h from 09:00 on the Wednesday of week 22, and a 12-hour zero outage from 08:00 on the
+ * Tuesday of week 35. Positions are local-clock by construction (index arithmetic from local
+ * midnight Monday, valid away from DST days: none of these days is one).
+ */
+export function plantFaults(clean: IntervalSeries, kind: MeterKind): { series: IntervalSeries; planted: PlantedFault[] } {
+  const v = Float64Array.from(clean.values);
+  const planted: PlantedFault[] = [];
+  const perDay = 96;
+  const localIndex = (week: number, dow: number, hour: number): number => {
+    // Find the interval whose local clock is week/dow/hour by scanning from the expected spot.
+    const target = Date.UTC(2024, 0, 1 + week * 7 + dow, hour);
+    let i = (week * 7 + dow) * perDay + hour * 4;
+    for (let k = 0; k < 12; k++) {
+      const local = clean.startMs[i]! + localOffsetHours(clean.startMs[i]!) * HOUR_MS;
+      if (local === target) return i;
+      i += local < target ? 4 : -4;
+    }
+    throw new Error(`no interval at week ${week} day ${dow} ${hour}:00`);
+  };
+  const q = RESOLUTION[kind];
+  for (const [week, dow, hour] of [[5, 1, 11], [17, 2, 14], [29, 3, 11], [11, 1, 3], [41, 2, 3]] as const) {
+    const i = localIndex(week, dow, hour);
+    v[i] = Number((25 * Math.max(v[i]!, q)).toFixed(6));
+    planted.push({ kind: "spike", at: i, intervals: 1 });
+  }
+  const c = localIndex(22, 2, 9);
+  for (let i = c; i < c + 40; i++) v[i] = v[c]! === 0 ? q : v[c]!;
+  planted.push({ kind: "constant-run", at: c, intervals: 40 });
+  const z = localIndex(35, 1, 8);
+  for (let i = z; i < z + 48; i++) v[i] = 0;
+  planted.push({ kind: "zero-run", at: z, intervals: 48 });
+  return { series: { ...clean, values: v }, planted };
+}
