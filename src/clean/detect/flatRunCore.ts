@@ -95,6 +95,7 @@ export function unusualFlatRuns(
   const own = new Int32Array(slots);
   // Chance model on hour slots (of the week or day), built only when a run needs judging.
   let chance: RepeatCounts | null = null;
+  let chanceByDay: RepeatCounts | undefined;
   let resolution = NaN;
   const chanceCounts = (): RepeatCounts => {
     if (chance) return chance;
@@ -103,6 +104,9 @@ export function unusualFlatRuns(
     const t0 = n > 0 ? series.startMs[0]! : 0;
     const weekOf = Int32Array.from(series.startMs, (t) => Math.floor((t - t0) / WEEK_MS));
     chance = repeatCounts(series, hourSlot, Math.ceil(slots / perHour), weekOf, isFlat);
+    // Hour of the day beneath hour of the week: thin weekly slots borrow from the daily ones.
+    const hourOfDay = Int32Array.from(hourSlot, (h) => h % 24);
+    chanceByDay = period === "week" ? repeatCounts(series, hourOfDay, 24, weekOf, isFlat) : undefined;
     resolution = meterResolution(series, skip);
     return chance;
   };
@@ -123,13 +127,29 @@ export function unusualFlatRuns(
   }
   return out;
 
+  /** Expected number of runs this long by chance in the series, and the sentence that says so. */
+  function chanceOf(a: number, b: number): { expectedRuns: number; evidence: string } {
+    const counts = chanceCounts();
+    const { logP, meanShare } = logChanceOfRun(counts, a, b, 6, chanceByDay);
+    const expectedRuns = n * Math.exp(logP);
+    const odds = expectedRuns < 1e-6 ? "essentially never" : `${expectedRuns.toPrecision(2)} times`;
+    return {
+      expectedRuns,
+      evidence: `at these hours of the ${period} the meter (resolution ${fmt(resolution)}) continues a repeat ${fmt(100 * meanShare)} % of the time on nearby ${period}s, so a run this long is expected ${odds} in ${n} readings by chance`,
+    };
+  }
+
   function judgeRun(a: number, b: number): Detection | null {
     const len = b - a;
     const value = series.values[a]!;
     const hours = (len * series.intervalMinutes) / 60;
     const describe = `${len} interval(s) (${fmt(hours)} h) reading exactly ${fmt(value)}`;
     if (len >= alwaysLen) {
-      return detectionForRun(series, a, b, kind, "excluded", `${describe}; longer than ${fmt(cfg.alwaysFlagHours)} h`);
+      // Long runs skip the habit test, but not the chance test: a meter whose whole history
+      // repeats this value (a steady load read in coarse steps) cannot be told apart from a stuck one.
+      const { expectedRuns, evidence } = chanceOf(a, b);
+      if (!(expectedRuns < cfg.maxChanceRuns)) return null;
+      return detectionForRun(series, a, b, kind, "excluded", `${describe}; longer than ${fmt(cfg.alwaysFlagHours)} h; ${evidence}`);
     }
     for (let k = a; k < b; k++) own[slot[k]!]++;
     const explained = new Uint8Array(len);
@@ -152,10 +172,8 @@ export function unusualFlatRuns(
     while (to > from && explained[to - 1]) to--;
     const trimmed = len - (to - from);
     const note = trimmed > 0 ? `; ${trimmed} interval(s) at its edges are flat on most other ${period}s too and were left out` : "";
-    const { logP, meanShare } = logChanceOfRun(chanceCounts(), a + from, a + to);
-    const expectedRuns = n * Math.exp(logP);
+    const { expectedRuns, evidence } = chanceOf(a + from, a + to);
     if (!(expectedRuns < cfg.maxChanceRuns)) return null;
-    const evidence = `at these hours of the ${period} the meter (resolution ${fmt(resolution)}) continues a repeat ${fmt(100 * meanShare)} % of the time on nearby ${period}s, so a run this long is expected ${expectedRuns < 1e-6 ? "essentially never" : `${expectedRuns.toPrecision(2)} times`} in ${n} readings by chance`;
     return detectionForRun(
       series,
       a + from,

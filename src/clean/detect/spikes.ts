@@ -105,7 +105,8 @@ export function detectSpikes(
   const resolution = meterResolution(series, skip);
 
   const floor = Math.max(cfg.minShareOfLevel * level, cfg.minAbsolute);
-  const sigmaAt = (i: number): number => Math.max(sigmaOfDay[groupOf[i]!]!, sigmaOfWeek?.[i] ?? 0, resolution);
+  const finiteOr0 = (x: number | undefined): number => (x !== undefined && Number.isFinite(x) ? x : 0);
+  const sigmaAt = (i: number): number => Math.max(finiteOr0(sigmaOfDay[groupOf[i]!]), finiteOr0(sigmaOfWeek?.[i]), resolution);
   /** Half-width of the expected range around the local median at i. */
   const allowance = (i: number): number => Math.max(floor, cfg.minShareOfMedian * Math.abs(med[i]!), sigmaAt(i) > 0 ? cfg.sigmas * sigmaAt(i) : 0);
   const isSpike = (i: number): boolean => {
