@@ -1,10 +1,9 @@
 import type { IntervalSeries } from "../../domain/types.ts";
-import { quantileOf } from "./robustStats.ts";
 
 /**
  * A meter's resolution: the smallest step between its distinct readings, in the meter's unit.
  * Readings are sorted, equal ones (to 1e-9 relative) merged, and the resolution is the 5th
- * percentile of the gaps between neighbours — a meter reading in 0.02 kWh steps gives 0.02 even
+ * percentile of the gaps between neighbours (the order statistic at ⌊0.05 (m − 1)⌋, no interpolation) — a meter reading in 0.02 kWh steps gives 0.02 even
  * when one odd corrected reading sits off the grid. Continuous (unrounded) data gives a tiny
  * step, which changes nothing downstream. 0 when fewer than two distinct finite readings.
  * Indices with `skip[i]` = 1 are ignored.
@@ -23,5 +22,6 @@ export function meterResolution(series: Pick<IntervalSeries, "values">, skip?: U
     if (gap > 1e-9 * scale) gaps.push(gap);
   }
   if (gaps.length === 0) return 0;
-  return quantileOf(gaps, 0.05);
+  gaps.sort((x, y) => x - y);
+  return gaps[Math.floor(0.05 * (gaps.length - 1))]!;
 }
