@@ -1,0 +1,22 @@
+import { loadPortfolio } from "../../src/ingest/index.ts";
+import { repeatCounts, logChanceOfRun } from "../../src/clean/detect/runChance.ts";
+const p = (await loadPortfolio("test/fixtures/spec-portfolio")).portfolio!;
+const s = p.intervals.get("S2-E")!;
+const n = s.values.length;
+const t0 = s.startMs[0]!;
+const weekOf = Int32Array.from(s.startMs, (t) => Math.floor((t - t0) / (7 * 86400000)));
+const how = Int32Array.from(s.startMs, (t) => ((Math.floor(t / 3600000) + 72) % 168));
+const hod = Int32Array.from(how, (h) => h % 24);
+const isFlat = (i: number) => s.values[i] !== 0;
+const cw = repeatCounts(s, how, 168, weekOf, isFlat);
+const cd = repeatCounts(s, hod, 24, weekOf, isFlat);
+const a = n - 487;
+console.log(n, a, s.values[a - 1], s.values[a]);
+console.log("day only", logChanceOfRun(cd, a, n, 6));
+console.log("week only", logChanceOfRun(cw, a, n, 6));
+console.log("both", logChanceOfRun(cw, a, n, 6, cd));
+let r = 0, st = 0; for (let k = 0; k < 24; k++) { for (let w = 0; w < cd.weeks; w++) { r += cd.runs[w*24+k]; st += cd.stays[w*24+k]; } } console.log(r, st);
+for (const k of [0, 5, 12]) { let r = 0, st = 0, rr=0, pp=0; for (let w = 0; w < cd.weeks; w++) { r += cd.runs[w*24+k]; st += cd.stays[w*24+k]; rr += cd.readings[w*24+k]; pp+=cd.pairs[w*24+k]; } let own=0; for (let i=a;i<n;i++) if (hod[i]===k) own++; console.log(k, r, st, rr, pp, own); }
+const lp: number[] = [];
+for (const b of [a + 3, a + 10, a + 50, a + 200, n]) lp.push(logChanceOfRun(cd, a, b, 6).meanShare);
+console.log(lp);
