@@ -212,10 +212,14 @@ export function suggestAlignment(
   const readStretches = onsetChecks.filter((c) => c.onsetHours !== null);
   const agrees =
     onset !== null &&
+    onsetFit!.sharp &&
     scanPeak - onset >= 0 && scanPeak - onset <= 3 &&
     readStretches.length >= 2 &&
     readStretches.every((c) => c.onsetHours === onset);
-  const strong = scanStrong && agrees;
+  // The scan's own margin and jackknife ask for one sharp peak, which a short thermal lag spreads
+  // over two offsets (onset and the hour after): then the onset readings stand in for them.
+  const spreadByShortLag = onset !== null && scanPeak - onset <= 1 && agreement >= 0.5;
+  const strong = agrees && days >= (options.minDaysForStrong ?? 28) && scoreAtBest >= (options.minScoreForStrong ?? 0.05) && (scanStrong || spreadByShortLag);
 
   return {
     meterId: series.meterId,
@@ -430,7 +434,7 @@ export function responseOnset(
   minT = 3,
   fromHour = 0,
   toHour = loadAnom.length,
-): { onset: number; coefficients: Array<{ lag: number; beta: number; t: number }>; pairs: number } | null {
+): { onset: number; sharp: boolean; coefficients: Array<{ lag: number; beta: number; t: number }>; pairs: number } | null {
   const p = 2 * maxLag + 2; // lags plus intercept
   const xtx = new Float64Array(p * p);
   const xty = new Float64Array(p);
@@ -481,7 +485,11 @@ export function responseOnset(
   if (!inBand(peak)) return null;
   let first = peak;
   while (inBand(first - 1)) first--;
-  return { onset: coefficients[first]!.lag, coefficients, pairs };
+  // A sharp start: the coefficient before the onset must be plainly zero, or the band may begin
+  // earlier than the threshold shows (a long thermal lag spreads the response thin at its start).
+  const before = coefficients[first - 1];
+  const sharp = before === undefined || Math.abs(before.t) < minT / 2;
+  return { onset: coefficients[first]!.lag, sharp, coefficients, pairs };
 }
 
 /** Inverse of a symmetric positive-definite p × p matrix (Gauss–Jordan with partial pivoting); null when singular. */
