@@ -81,8 +81,9 @@ export interface AlignmentSuggestion {
    * Rule (defaults in `AlignmentOptions`): days ≥ 28 AND scoreAtBest ≥ 0.05 AND margin ≥ 0.01
    * AND at least 80 % of the leave-one-week-out rescans keep the same best offset (jackknife),
    * so that no single odd week decides the answer; AND the independent readings agree: the
-   * response onset is found, the scan's peak lies 0–3 h after it, and at least two separate
-   * stretches (halves of the data, each side of a DST change) find the same onset. Only a strong
+   * response onset is found with a sharp start, the scan's peak lies 0–3 h after it, and every
+   * separate stretch whose onset can be read (halves of the data, stretches between DST changes)
+   * finds the same onset — when none can be read, the scan's rule above must hold on its own. Only a strong
    * suggestion may be applied automatically. Agreement with other meters on the same station is
    * checked afterwards (`stationAgreement`).
    */
@@ -208,13 +209,14 @@ export function suggestAlignment(
     margin >= (options.minMarginForStrong ?? 0.01) &&
     agreement >= (options.minJackknifeAgreementForStrong ?? 0.8);
   // Agreement of the readings: the scan's peak lies at or up to 3 h after the onset (a thermal
-  // lag), and every stretch that could be read on its own finds the same onset.
+  // lag), and every stretch that could be read on its own finds the same onset (when none can be
+  // read, the scan's own jackknife over weeks must hold).
   const readStretches = onsetChecks.filter((c) => c.onsetHours !== null);
   const agrees =
     onset !== null &&
     onsetFit!.sharp &&
     scanPeak - onset >= 0 && scanPeak - onset <= 3 &&
-    readStretches.length >= 2 &&
+    (readStretches.length >= 1 || scanStrong) &&
     readStretches.every((c) => c.onsetHours === onset);
   // The scan's own margin and jackknife ask for one sharp peak, which a short thermal lag spreads
   // over two offsets (onset and the hour after): then the onset readings stand in for them.
