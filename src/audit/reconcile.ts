@@ -5,6 +5,7 @@
 import { localMidnightMs, lowerBound } from "../core/time.ts";
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import type { MeteredPeriod } from "./types.ts";
+import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
 
 export { localMidnightMs };
 
@@ -97,27 +98,39 @@ export function kwhPerBillUnit(commodity: string, unit: string): number | null {
  * (bills of meters without data are absent from the map; a bill whose zone or dates cannot
  * be resolved maps to null rather than throwing). `windowMinutesFor` lets the caller use each
  * meter's tariff demand window (default 15 minutes).
+ *
+ * With `masks` (per meter, from the data-quality stage; 1 = flagged), flagged readings count as
+ * missing: usage, peak and coverage come from the unflagged readings only (the audit scales usage
+ * up by coverage, so a flagged spike neither adds energy nor sets the peak), and the result
+ * carries the raw view beside it (`raw`, `flaggedIntervals`) for the finding's evidence.
  * @example meteredForBills(portfolio).get("E1:2024-01-01")?.coverage
  */
 export function meteredForBills(
   portfolio: Portfolio,
   windowMinutesFor: (meter: Meter) => number = () => 15,
+  masks: ReadonlyMap<string, Uint8Array> = new Map(),
 ): Map<string, MeteredPeriod | null> {
   const out = new Map<string, MeteredPeriod | null>();
   const meters = new Map(portfolio.meters.map((m) => [m.meterId, m]));
   const zones = new Map(portfolio.buildings.map((b) => [b.buildingId, b.timezone]));
+  const cleaned = new Map<string, IntervalSeries>();
   for (const bill of portfolio.bills as Bill[]) {
     const meter = meters.get(bill.meterId);
     const series = portfolio.intervals.get(bill.meterId);
     if (!meter || !series) continue;
     const zone = zones.get(meter.buildingId);
     if (!zone) continue;
+    let clean = cleaned.get(bill.meterId);
+    if (!clean) cleaned.set(bill.meterId, (clean = withFlaggedAsMissing(series, masks.get(bill.meterId))));
     try {
-      out.set(
-        bill.billId,
-        meteredForPeriod(series, meter.multiplier, bill.periodStart, bill.periodEnd, zone, windowMinutesFor(meter),
-          kwhPerBillUnit(meter.commodity, meter.unit)),
-      );
+      const args = [meter.multiplier, bill.periodStart, bill.periodEnd, zone, windowMinutesFor(meter), kwhPerBillUnit(meter.commodity, meter.unit)] as const;
+      const m = meteredForPeriod(clean, ...args);
+      if (clean !== series) {
+        const raw = meteredForPeriod(series, ...args);
+        m.flaggedIntervals = raw.intervals - m.intervals;
+        if (m.flaggedIntervals > 0) m.raw = { usage: raw.usage, peakKw: raw.peakKw, coverage: raw.coverage, intervals: raw.intervals };
+      }
+      out.set(bill.billId, m);
     } catch {
       out.set(bill.billId, null); // invalid zone/date: ingest reports it; the audit just cannot compare
     }

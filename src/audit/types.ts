@@ -117,6 +117,13 @@ export interface MeteredPeriod {
   expectedIntervals: number;
   /** Rolling window used for `peakKw`, minutes (absent = the audit's demandWindowMinutes). */
   peakWindowMinutes?: number;
+  /**
+   * Readings in the period that the data-quality stage flagged. They are left out of `usage`,
+   * `peakKw`, `intervals` and `coverage` (counted as missing), so no comparison rests on them.
+   */
+  flaggedIntervals?: number;
+  /** The same period on every reading as read, flagged ones included; present when readings were flagged. */
+  raw?: { usage: number; peakKw: number | null; coverage: number; intervals: number };
 }
 
 /** Portfolio tolerances plus the audit's own knobs (all stated on the methods page). */

@@ -18,7 +18,8 @@ type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;
 /**
  * The meter's intervals inside the bill's half-open local period, multiplier applied, or null
  * when there are none or fewer than `minCoverage` of the expected intervals (then the engine
- * prices from billed quantities, as for the original pricing).
+ * prices from billed quantities, as for the original pricing). Non-finite readings (flagged
+ * readings in the cleaned view, see `withFlaggedAsMissing`) are left out and count as missing.
  */
 export function intervalUsageForBill(
   series: IntervalSeries | undefined, multiplier: number, bill: Bill, timezone: string, minCoverage = 0.9,
@@ -29,10 +30,23 @@ export function intervalUsageForBill(
   const from = lowerBound(series.startMs, a);
   const to = lowerBound(series.startMs, b);
   const expected = (b - a) / (series.intervalMinutes * 60_000);
-  if (to <= from || to - from < minCoverage * expected) return null;
-  const values = new Float64Array(to - from);
-  for (let i = from; i < to; i++) values[i - from] = series.values[i] * multiplier;
-  return { startMs: series.startMs.subarray(from, to), values, intervalMinutes: series.intervalMinutes };
+  let finite = 0;
+  for (let i = from; i < to; i++) if (Number.isFinite(series.values[i])) finite++;
+  if (to <= from || finite < minCoverage * expected) return null;
+  if (finite === to - from) {
+    const values = new Float64Array(to - from);
+    for (let i = from; i < to; i++) values[i - from] = series.values[i] * multiplier;
+    return { startMs: series.startMs.subarray(from, to), values, intervalMinutes: series.intervalMinutes };
+  }
+  const startMs = new Float64Array(finite);
+  const values = new Float64Array(finite);
+  let k = 0;
+  for (let i = from; i < to; i++) {
+    if (!Number.isFinite(series.values[i])) continue;
+    startMs[k] = series.startMs[i];
+    values[k++] = series.values[i] * multiplier;
+  }
+  return { startMs, values, intervalMinutes: series.intervalMinutes };
 }
 
 /** The tariff with only `versionFrom`'s version, in force for any date (for "priced on the wrong version"). */
@@ -50,12 +64,16 @@ export function pinVersion(tariff: Tariff, versionFrom: string): Tariff | null {
  *   applied to the whole period, on the billed quantities. Alternatives: every version of the own tariff, then every other
  *   tariff of the meter's commodity.
  * Any pricing error yields null (the audit then just has no amount / no alternative).
+ * `meteredIntervals` (per meter; default the portfolio's own) is the series the quantities
+ * alternative reads: the cleaned view, so a corrected bill never rests on a flagged reading.
+ * Rate alternatives keep the portfolio's series (they re-price the billed quantities).
  */
 export function makeRepricer(opts: {
   portfolio: Portfolio<Tariff>;
   priced: Map<string, ComputedBill | null>;
   price: (tariff: Tariff, request: PriceRequest) => ComputedBill;
   minCoverage?: number;
+  meteredIntervals?: ReadonlyMap<string, IntervalSeries>;
 }): { reprice: RepriceFn; rateAlternatives: (bill: Bill, meter: Meter) => RateAlternative[] } {
   const { portfolio, priced, price } = opts;
   const meters = new Map(portfolio.meters.map((m) => [m.meterId, m]));
@@ -92,7 +110,9 @@ export function makeRepricer(opts: {
         usageUnit: meter.unit,
         demandKw: alt.kind === "quantities" ? alt.demandKw : bill.demandKw,
         powerFactor: bill.powerFactor,
-        intervals: intervalUsageForBill(portfolio.intervals.get(bill.meterId), meter.multiplier, bill, zone, opts.minCoverage),
+        intervals: intervalUsageForBill(
+          (alt.kind === "quantities" ? opts.meteredIntervals?.get(bill.meterId) : undefined) ?? portfolio.intervals.get(bill.meterId),
+          meter.multiplier, bill, zone, opts.minCoverage),
         // The stated quantities are the bill's (or the corrected ones); interval data only splits them.
         intervalsGive: "shape",
         previousBillingDemandsKw: earlierDemands.get(bill.billId) ?? [],

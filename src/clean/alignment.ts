@@ -63,6 +63,12 @@ export interface AlignmentEvidence {
   jackknifeAgreeing: number;
   /** Score per offset, from −max to +max. */
   scores: Array<{ offsetHours: number; score: number }>;
+  /** Offset where the scan's score peaks (a thermal lag puts it up to a few hours after the onset). */
+  scanPeakOffsetHours: number;
+  /** Where the load's response to temperature begins (`responseOnset`); null when it cannot be read. */
+  onsetOffsetHours: number | null;
+  /** The onset read on separate stretches of the data (halves; each side of a DST change). */
+  onsetChecks: Array<{ label: string; onsetHours: number | null }>;
   /** Plain-language reading of the suggestion (e.g. local time stored as UTC). */
   note: string;
 }
@@ -74,8 +80,12 @@ export interface AlignmentSuggestion {
   /**
    * Rule (defaults in `AlignmentOptions`): days ≥ 28 AND scoreAtBest ≥ 0.05 AND margin ≥ 0.01
    * AND at least 80 % of the leave-one-week-out rescans keep the same best offset (jackknife),
-   * so that no single odd week decides the answer. Only a strong suggestion may be applied
-   * automatically.
+   * so that no single odd week decides the answer; AND the independent readings agree: the
+   * response onset is found with a sharp start, the scan's peak lies 0–3 h after it, and every
+   * separate stretch whose onset can be read (halves of the data, stretches between DST changes)
+   * finds the same onset — when none can be read, the scan's rule above must hold on its own. Only a strong
+   * suggestion may be applied automatically. Agreement with other meters on the same station is
+   * checked afterwards (`stationAgreement`).
    */
   strong: boolean;
 }
@@ -114,6 +124,9 @@ export function suggestAlignment(
       jackknifeRuns: 0,
       jackknifeAgreeing: 0,
       scores: offsets.map((offsetHours) => ({ offsetHours, score: 0 })),
+      scanPeakOffsetHours: 0,
+      onsetOffsetHours: null,
+      onsetChecks: [],
       note,
     },
     strong: false,
@@ -174,17 +187,41 @@ export function suggestAlignment(
   }
   const agreement = jackknifeRuns > 0 ? jackknifeAgreeing / jackknifeRuns : 0;
 
+  // Second, independent reading: where the response begins (a thermal lag delays the scan's peak
+  // but not the onset), on all the data and on separate stretches (halves; each side of a DST change).
+  const maxLag = Math.min(maxOffset, 7);
+  const onsetFit = responseOnset(loadAnom, hourly.firstHour, tempAnom, maxLag);
+  const onsetChecks = stretchesOf(hourly, timezoneOfBuilding).map(({ label, from, to }) => ({
+    label,
+    onsetHours: responseOnset(loadAnom, hourly.firstHour, tempAnom, maxLag, 3, from, to)?.onset ?? null,
+  }));
   const zeroIdx = offsets.indexOf(0);
   const scoreAtBest = scores[best]!;
   const scoreAtZero = scores[zeroIdx]!;
   const margin = scoreAtBest > 0 ? (scoreAtBest - scores[second]!) / scoreAtBest : 0;
   const days = Math.floor(pairCounts[best]! / 24);
-  const suggested = scoreAtBest > 0 ? offsets[best]! : 0;
-  const strong =
+  const scanPeak = scoreAtBest > 0 ? offsets[best]! : 0;
+  const onset = onsetFit?.onset ?? null;
+  const suggested = onset ?? scanPeak;
+  const scanStrong =
     days >= (options.minDaysForStrong ?? 28) &&
     scoreAtBest >= (options.minScoreForStrong ?? 0.05) &&
     margin >= (options.minMarginForStrong ?? 0.01) &&
     agreement >= (options.minJackknifeAgreementForStrong ?? 0.8);
+  // Agreement of the readings: the scan's peak lies at or up to 3 h after the onset (a thermal
+  // lag), and every stretch that could be read on its own finds the same onset (when none can be
+  // read, the scan's own jackknife over weeks must hold).
+  const readStretches = onsetChecks.filter((c) => c.onsetHours !== null);
+  const agrees =
+    onset !== null &&
+    onsetFit!.sharp &&
+    scanPeak - onset >= 0 && scanPeak - onset <= 3 &&
+    (readStretches.length >= 1 || scanStrong) &&
+    readStretches.every((c) => c.onsetHours === onset);
+  // The scan's own margin and jackknife ask for one sharp peak, which a short thermal lag spreads
+  // over two offsets (onset and the hour after): then the onset readings stand in for them.
+  const spreadByShortLag = onset !== null && scanPeak - onset <= 1 && agreement >= 0.5;
+  const strong = agrees && days >= (options.minDaysForStrong ?? 28) && scoreAtBest >= (options.minScoreForStrong ?? 0.05) && (scanStrong || spreadByShortLag);
 
   return {
     meterId: series.meterId,
@@ -199,7 +236,10 @@ export function suggestAlignment(
       jackknifeRuns,
       jackknifeAgreeing,
       scores: offsets.map((offsetHours, k) => ({ offsetHours, score: scores[k]! })),
-      note: describe(suggested, series, zone, scoreAtBest),
+      scanPeakOffsetHours: scanPeak,
+      onsetOffsetHours: onset,
+      onsetChecks,
+      note: describe(suggested, series, zone, scoreAtBest) + agreementNote(scanStrong, agrees, scanPeak, onset, onsetChecks),
     },
     strong,
   };
@@ -375,4 +415,160 @@ function describe(offset: number, series: IntervalSeries, zone: IANAZone, score:
   if (zoneHours !== 0 && offset === -zoneHours) parts.push("consistent with UTC times read as local clock times");
   if (offset * 60 === series.intervalMinutes) parts.push("consistent with interval-end timestamps");
   return parts.join("; ");
+}
+
+/**
+ * Onset of the load's response to temperature, in meter hours: a distributed-lag regression of
+ * the load anomaly at meter hour H on the temperature anomalies at H − k for k = −maxLag … +maxLag
+ * (one ordinary least-squares fit; periodic parts already removed, see the file comment). A
+ * building answers the weather late and spread out (thermal mass: the load follows the last
+ * hours' temperatures), so the weather-scan peak sits at offset + lag; the response cannot begin
+ * before the clock offset, so its onset — the smallest k whose coefficient has the sign of the
+ * strongest one and |t| ≥ `minT`, reached from it through neighbours that also qualify — is the
+ * offset. Null without enough pairs or response. (OLS standard errors; hourly residuals are
+ * autocorrelated, so t is optimistic — the caller asks several independent stretches to agree.)
+ */
+export function responseOnset(
+  loadAnom: Float64Array,
+  loadFirstHour: number,
+  temp: { firstHour: number; anom: Float64Array },
+  maxLag: number,
+  minT = 3,
+  fromHour = 0,
+  toHour = loadAnom.length,
+): { onset: number; sharp: boolean; coefficients: Array<{ lag: number; beta: number; t: number }>; pairs: number } | null {
+  const p = 2 * maxLag + 2; // lags plus intercept
+  const xtx = new Float64Array(p * p);
+  const xty = new Float64Array(p);
+  let yty = 0;
+  let pairs = 0;
+  const x = new Float64Array(p);
+  for (let k = fromHour; k < toHour; k++) {
+    const y = loadAnom[k]!;
+    if (Number.isNaN(y)) continue;
+    let ok = true;
+    for (let j = 0; j <= 2 * maxLag; j++) {
+      const lag = j - maxLag;
+      const tk = loadFirstHour + k - lag - temp.firstHour;
+      const v = tk >= 0 && tk < temp.anom.length ? temp.anom[tk]! : NaN;
+      if (Number.isNaN(v)) { ok = false; break; }
+      x[j] = v;
+    }
+    if (!ok) continue;
+    x[p - 1] = 1;
+    for (let a = 0; a < p; a++) {
+      xty[a] += x[a]! * y;
+      for (let b = 0; b <= a; b++) xtx[a * p + b] += x[a]! * x[b]!;
+    }
+    yty += y * y;
+    pairs++;
+  }
+  if (pairs < 10 * p) return null;
+  for (let a = 0; a < p; a++) for (let b = a + 1; b < p; b++) xtx[a * p + b] = xtx[b * p + a]!;
+  const inv = invertSymmetric(xtx, p);
+  if (!inv) return null;
+  const beta = new Float64Array(p);
+  for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) beta[a] += inv[a * p + b]! * xty[b]!;
+  let rss = yty;
+  for (let a = 0; a < p; a++) rss -= beta[a]! * xty[a]!;
+  const sigma2 = Math.max(rss, 0) / (pairs - p);
+  const coefficients = Array.from({ length: 2 * maxLag + 1 }, (_, j) => ({
+    lag: j - maxLag,
+    beta: beta[j]!,
+    t: beta[j]! / Math.sqrt(Math.max(sigma2 * inv[j * p + j]!, 1e-300)),
+  }));
+  // The response band: the contiguous run of significant coefficients of one sign around the
+  // strongest one. A stray significant coefficient away from it (noise, or the temperature's own
+  // autocorrelation) is not the onset.
+  let peak = 0;
+  for (let j = 1; j < coefficients.length; j++) if (Math.abs(coefficients[j]!.t) > Math.abs(coefficients[peak]!.t)) peak = j;
+  const sign = Math.sign(coefficients[peak]!.beta);
+  const inBand = (j: number): boolean => j >= 0 && Math.sign(coefficients[j]!.beta) === sign && Math.abs(coefficients[j]!.t) >= minT;
+  if (!inBand(peak)) return null;
+  let first = peak;
+  while (inBand(first - 1)) first--;
+  // A sharp start: the coefficient before the onset must be plainly zero, or the band may begin
+  // earlier than the threshold shows (a long thermal lag spreads the response thin at its start).
+  const before = coefficients[first - 1];
+  const sharp = before === undefined || Math.abs(before.t) < minT / 2;
+  return { onset: coefficients[first]!.lag, sharp, coefficients, pairs };
+}
+
+/** Inverse of a symmetric positive-definite p × p matrix (Gauss–Jordan with partial pivoting); null when singular. */
+function invertSymmetric(m: Float64Array, p: number): Float64Array | null {
+  const a = Float64Array.from(m);
+  const inv = new Float64Array(p * p);
+  for (let i = 0; i < p; i++) inv[i * p + i] = 1;
+  for (let c = 0; c < p; c++) {
+    let piv = c;
+    for (let r = c + 1; r < p; r++) if (Math.abs(a[r * p + c]!) > Math.abs(a[piv * p + c]!)) piv = r;
+    const d = a[piv * p + c]!;
+    if (!(Math.abs(d) > 1e-12)) return null;
+    if (piv !== c) {
+      for (let k = 0; k < p; k++) {
+        [a[c * p + k], a[piv * p + k]] = [a[piv * p + k]!, a[c * p + k]!];
+        [inv[c * p + k], inv[piv * p + k]] = [inv[piv * p + k]!, inv[c * p + k]!];
+      }
+    }
+    for (let k = 0; k < p; k++) {
+      a[c * p + k] /= d;
+      inv[c * p + k] /= d;
+    }
+    for (let r = 0; r < p; r++) {
+      if (r === c) continue;
+      const f = a[r * p + c]!;
+      if (f === 0) continue;
+      for (let k = 0; k < p; k++) {
+        a[r * p + k] -= f * a[c * p + k]!;
+        inv[r * p + k] -= f * inv[c * p + k]!;
+      }
+    }
+  }
+  return inv;
+}
+
+/**
+ * Stretches of the load on which the onset is read again: the two halves (by whole weeks), and,
+ * when the data crosses a DST change, the stretches between changes. Only stretches of at least
+ * 3 weeks are returned. Hour indices count from the load's first hour.
+ */
+function stretchesOf(hourly: HourlyLoad, timezone: string): Array<{ label: string; from: number; to: number }> {
+  const len = hourly.load.length;
+  const out: Array<{ label: string; from: number; to: number }> = [];
+  const minLen = 21 * 24;
+  const half = Math.floor(len / 2 / 168) * 168;
+  if (half >= minLen && len - half >= minLen) {
+    out.push({ label: "first half", from: 0, to: half }, { label: "second half", from: half, to: len });
+  }
+  const zone = IANAZone.create(timezone);
+  const cuts = [0];
+  for (let k = 1; k < len; k++) {
+    const t = (hourly.firstHour + k) * HOUR_MS;
+    if (zone.offset(t) !== zone.offset(t - HOUR_MS)) cuts.push(k);
+  }
+  cuts.push(len);
+  if (cuts.length > 2) {
+    for (let c = 0; c + 1 < cuts.length; c++) {
+      const from = cuts[c]!;
+      const to = cuts[c + 1]!;
+      const label = `${new Date((hourly.firstHour + from) * HOUR_MS).toISOString().slice(0, 10)} to ${new Date((hourly.firstHour + to) * HOUR_MS).toISOString().slice(0, 10)} (between clock changes)`;
+      if (to - from >= minLen) out.push({ label, from, to });
+    }
+  }
+  return out;
+}
+
+function agreementNote(
+  scanStrong: boolean,
+  agrees: boolean,
+  scanPeak: number,
+  onset: number | null,
+  checks: ReadonlyArray<{ label: string; onsetHours: number | null }>,
+): string {
+  if (onset === null) return "; the start of the load's response to temperature could not be read, so the evidence is not called strong";
+  const read = checks.filter((c) => c.onsetHours !== null).map((c) => `${c.label}: ${c.onsetHours} h`).join(", ");
+  const parts = [`; the response to temperature begins at ${onset} h and the scan peaks at ${scanPeak} h`];
+  if (read) parts.push(` (separate stretches: ${read})`);
+  if (scanStrong && !agrees) parts.push("; these readings do not agree, so the evidence is not called strong");
+  return parts.join("");
 }

@@ -33,3 +33,21 @@ export function cleanSeries(series: IntervalSeries, detections: readonly Detecti
   }
   return { raw: series, cleanedValues, mask, excludedCount };
 }
+
+/**
+ * The series with every flagged reading (mask[i] = 1) replaced by NaN, timestamps unchanged: the
+ * view that money is computed on. Every consumer of interval data already treats a non-finite
+ * value as a missing interval, so a flagged reading lowers the period's coverage instead of
+ * entering a sum or a peak. Returns the same object when nothing is flagged.
+ * @throws RangeError when the mask and the series differ in length.
+ * @example withFlaggedAsMissing({ ...s, values: [1, 99, 1] }, Uint8Array.of(0, 1, 0)).values // [1, NaN, 1]
+ */
+export function withFlaggedAsMissing(series: IntervalSeries, mask: Uint8Array | undefined): IntervalSeries {
+  if (!mask) return series;
+  if (mask.length !== series.values.length) {
+    throw new RangeError(`mask of meter ${series.meterId} has ${mask.length} entries for ${series.values.length} readings`);
+  }
+  if (!mask.some((m) => m === 1)) return series;
+  const values = Float64Array.from(series.values, (v, i) => (mask[i] ? NaN : v));
+  return { ...series, values };
+}

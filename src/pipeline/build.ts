@@ -6,7 +6,8 @@
  */
 import { InputError } from "../core/errors.ts";
 import type { InputIssue } from "../core/issues.ts";
-import type { Building, Portfolio } from "../domain/types.ts";
+import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
+import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
 import { loadPortfolio } from "../ingest/index.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { priceBill } from "../tariff/index.ts";
@@ -203,6 +204,8 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
   const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], intervalBaselines: [], failure: null };
   try {
     const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
+    // Money never rests on a flagged reading: metered quantities read the cleaned view.
+    const cleaned = cleanedIntervals(portfolio, meters, masks);
     const priced = new Map<string, PricedBill>();
     for (const meter of meters) {
       const tariff = portfolio.tariffs.get(meter.tariffId);
@@ -212,13 +215,14 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
         bills,
         timezone: building.timezone,
         series: portfolio.intervals.get(meter.meterId),
+        meteredSeries: cleaned.get(meter.meterId),
         price: tariff ? (request) => priceBill(tariff, request) : null,
         pricerError: `tariff '${meter.tariffId}' could not be loaded (see the tariff file's errors)`,
       });
       for (const [id, p] of meterPriced) priced.set(id, p);
     }
     const scoped = scopeToBuilding(portfolio, building);
-    const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)));
+    const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)), masks);
     const bands = buildingDegreeDayBands(portfolio, building);
     for (const [id, m] of metered) {
       const p = priced.get(id);
@@ -226,10 +230,10 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
     }
     const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
     const findings = runAudit({
-      portfolio: scoped,
+      portfolio: { ...scoped, intervals: new Map([...scoped.intervals].map(([id, s]) => [id, cleaned.get(id) ?? s])) },
       priced: computed,
       metered,
-      ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill }),
+      ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill, meteredIntervals: cleaned }),
       expectedUsage: expectedUsageFromBands(bands),
       expectedUsageForPeriod: expectedUsageForStretch(scoped, building),
     });
@@ -239,6 +243,16 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
   } catch (error) {
     return { ...empty, failure: error instanceof Error ? error.message : String(error) };
   }
+}
+
+/** The building's interval series with flagged readings as NaN (`withFlaggedAsMissing`). */
+function cleanedIntervals(portfolio: Portfolio<Tariff>, meters: readonly Meter[], masks: ReadonlyMap<string, Uint8Array>): Map<string, IntervalSeries> {
+  const out = new Map<string, IntervalSeries>();
+  for (const m of meters) {
+    const series = portfolio.intervals.get(m.meterId);
+    if (series) out.set(m.meterId, withFlaggedAsMissing(series, masks.get(m.meterId)));
+  }
+  return out;
 }
 
 function scopeToBuilding(portfolio: Portfolio<Tariff>, building: Building): Portfolio<Tariff> {

@@ -4,11 +4,13 @@
  * land in one table (OUT/data/data-quality.csv) and on the building pages.
  *
  * Clock offsets are applied only when configured in portfolio.yaml (`alignment.offsets`), or
- * when `alignment.auto` is on and the scan's suggestion is strong (see src/clean/alignment.ts).
+ * when `alignment.auto` is on and the scan's suggestion is strong (see src/clean/alignment.ts) and
+ * survives the agreement check across meters on the same weather station (src/clean/stationAgreement.ts).
  * An offset of +h means the meter's timestamps run h hours ahead of true time, so the series is
  * shifted back by h hours; flagged intervals are marked (mask), never removed.
  */
-import type { IntervalSeries, Portfolio } from "../domain/types.ts";
+import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
+import { stationAgreement } from "../clean/stationAgreement.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
 import { detectAnomalies, type Detection, type DetectConfigInput } from "../clean/detect/index.ts";
 import { suggestAlignment, type AlignmentSuggestion } from "../clean/alignment.ts";
@@ -53,16 +55,23 @@ export function assessIntervalMeters(portfolio: Portfolio): QualityResult {
   const config = portfolio.settings.cleaning as DetectConfigInput;
   const intervals = new Map(portfolio.intervals);
   const meters: MeterQuality[] = [];
+  // First every meter's own scan, then agreement across each weather station, then corrections.
+  const scans: Array<{ meter: Meter; building: Building; raw: IntervalSeries; stationId: string; suggestion: AlignmentSuggestion | null; skipped: string | null }> = [];
   for (const meter of portfolio.meters) {
     const raw = portfolio.intervals.get(meter.meterId);
     const building = buildings.get(meter.buildingId);
     if (!raw || !building) continue;
     const weather = portfolio.weather.get(building.weatherStation);
-    let alignment: AlignmentSuggestion | null = null;
+    let suggestion: AlignmentSuggestion | null = null;
     let skipped: string | null = null;
     if (!weather) skipped = `no weather for station ${building.weatherStation}`;
     else if (meter.commodity !== "electricity") skipped = "alignment is scanned for electricity meters only";
-    else alignment = suggestAlignment(raw, weather, building.timezone, { mask: detectAnomalies(raw, config, { timezone: building.timezone }).mask });
+    else suggestion = suggestAlignment(raw, weather, building.timezone, { mask: detectAnomalies(raw, config, { timezone: building.timezone }).mask });
+    scans.push({ meter, building, raw, stationId: building.weatherStation, suggestion, skipped });
+  }
+  const agreed = stationAgreement(scans);
+  for (const [k, { meter, building, raw, skipped }] of scans.entries()) {
+    const alignment = agreed[k] ?? null;
 
     let applied = 0;
     let because: string | null = null;

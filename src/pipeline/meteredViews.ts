@@ -1,8 +1,9 @@
 /**
- * Each interval-meter bill's metered usage two ways: the raw sum of every reading (what the
- * utility's register saw, and what the audit compares with the bill) and the cleaned view with
- * the readings flagged by the data-quality stage left out (what the models train on). Showing
- * both lets a reader see when a flagged outage or spike sits inside a disputed bill.
+ * Each interval-meter bill's metered usage two ways: the raw sum of every reading as read, and
+ * the cleaned view with the readings flagged by the data-quality stage left out (what the models
+ * train on, and — scaled up by coverage — what the audit compares with the bill and re-prices:
+ * no money figure rests on a flagged reading). Showing both lets a reader see when a flagged
+ * outage or spike sits inside a bill.
  */
 import type { Portfolio } from "../domain/types.ts";
 import { localMidnightMs, lowerBound } from "../core/time.ts";

@@ -7,7 +7,8 @@
  *    period, only splits them over time-of-use periods) — checks the arithmetic and the rates;
  *  - on the metered quantities (interval sum × multiplier, scaled up by coverage when a few
  *    intervals are missing, and the meter's peak) — checks the quantities. Only when interval
- *    data covers at least `minCoverage` of the period.
+ *    data covers at least `minCoverage` of the period. Read from `meteredSeries` when given (the
+ *    cleaned view: flagged readings count as missing).
  * Both use the same ratchet history: the billing demands of the earlier bills as billed.
  */
 import type { Bill, IntervalSeries, Meter } from "../domain/types.ts";
@@ -44,6 +45,12 @@ export function priceMeterBills(options: {
   bills: Bill[];
   timezone: string;
   series: IntervalSeries | undefined;
+  /**
+   * The series the metered basis is read from (default `series`): the cleaned view, flagged
+   * readings as NaN (`withFlaggedAsMissing`), so the metered recomputation never rests on them.
+   * The billed basis always uses `series`.
+   */
+  meteredSeries?: IntervalSeries;
   price: Pricer | null;
   pricerError?: string;
   minCoverage?: number;
@@ -83,11 +90,14 @@ export function priceMeterBills(options: {
     if (computed.billingDemandKw !== null) previousDemandsKw.push(computed.billingDemandKw);
     let metered: ComputedBill | null = null;
     let meteredUsage: number | null = null;
-    if (intervals && options.meteredBasis !== false) {
-      meteredUsage = meteredUsageOf(intervals, bill, timezone);
+    const meteredIntervals = options.meteredSeries && options.meteredSeries !== series
+      ? intervalUsageForBill(options.meteredSeries, meter.multiplier, bill, timezone, minCoverage)
+      : intervals;
+    if (meteredIntervals && options.meteredBasis !== false) {
+      meteredUsage = meteredUsageOf(meteredIntervals, bill, timezone);
       try {
         // demand null: the meter's own peak (per charge window) is the demand
-        metered = price({ ...base, usage: meteredUsage, demandKw: null });
+        metered = price({ ...base, usage: meteredUsage, demandKw: null, intervals: meteredIntervals });
       } catch {
         metered = null;
       }

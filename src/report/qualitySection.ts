@@ -326,7 +326,7 @@ export function qualitySections(
       summary:
         q.detections.length === 0
           ? `No problems found in ${formatNumber(total)} intervals.`
-          : `${formatNumber(q.detections.length)} ${q.detections.length === 1 ? "problem" : "problems"} found; ${formatNumber(flagged)} of ${formatNumber(total)} intervals are flagged and left out of the models (they stay in the data and in the bill reconciliation's raw sum).`,
+          : `${formatNumber(q.detections.length)} ${q.detections.length === 1 ? "problem" : "problems"} found; ${formatNumber(flagged)} of ${formatNumber(total)} intervals are flagged and left out of the models and of the bill checks (they stay in the data; bills are compared on the other readings, scaled up by coverage, and each finding shows the raw figure beside it).`,
       charts: chart ? [chart] : [],
       detectionsTable: detectionsTable(q, building.timezone),
       alignment: alignmentSentences(q.alignment),

@@ -10,7 +10,7 @@
 import { billFinding, type AuditContext } from "../context.ts";
 import { formatMoney, formatPct, formatQty } from "../format.ts";
 import { exceedsPct } from "../tolerances.ts";
-import type { Finding } from "../types.ts";
+import type { EvidenceRow, Finding } from "../types.ts";
 import { comparableMetered, moneyAtStakeOnQuantities } from "./metered.ts";
 import { repricedCorrection } from "../corrections.ts";
 
@@ -28,16 +28,18 @@ export function checkDemandVsMeter(ctx: AuditContext): Finding[] {
     const window = m.peakWindowMinutes ?? ctx.tol.demandWindowMinutes;
     const notes = [`Peak = highest ${window}-minute average over intervals wholly inside the period; coverage ${formatPct(m.coverage)}.`];
     if (money) notes.push(`Re-priced with the metered peak: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
+    const rows: EvidenceRow[] = [{ label: m.flaggedIntervals ? "Demand (kW), flagged readings left out" : "Demand (kW)", billed: bill.demandKw, expected: Number(m.peakKw.toFixed(3)), difference: Number(diff.toFixed(3)) }];
+    if (m.raw && m.flaggedIntervals) {
+      notes.push(`${m.flaggedIntervals} reading(s) in this period were flagged by the data-quality stage and are left out of the peak. No amount rests on them.`);
+      if (m.raw.peakKw !== null) rows.push({ label: `Demand (kW), raw readings incl. ${m.flaggedIntervals} flagged (not used)`, billed: bill.demandKw, expected: Number(m.raw.peakKw.toFixed(3)), difference: Number((bill.demandKw - m.raw.peakKw).toFixed(3)) });
+    }
     out.push(billFinding(ctx, bill, {
       check: "demand-vs-meter",
       severity: rel > (5 * ctx.tol.demandPct) / 100 ? "error" : "warning",
       amountAtStake: money?.amount ?? null,
       title: diff > 0 ? "Billed demand higher than the meter's peak" : "Billed demand lower than the meter's peak",
       message: `Bill ${bill.billId} shows ${formatQty(bill.demandKw)} kW of demand but the meter's highest ${window}-minute average was ${formatQty(m.peakKw)} kW (${rel > 0 ? "+" : ""}${Number.isFinite(rel) ? formatPct(rel) : "n/a"}, tolerance ${ctx.tol.demandPct} %).`,
-      evidence: {
-        rows: [{ label: "Demand (kW)", billed: bill.demandKw, expected: Number(m.peakKw.toFixed(3)), difference: Number(diff.toFixed(3)) }],
-        notes,
-      },
+      evidence: { rows, notes },
       corrections: money ? [repricedCorrection(bill, money.repriced, bill.usage, m.peakKw, `the billed usage with the demand the meter recorded (${formatQty(m.peakKw)} kW), priced through the tariff`)] : undefined,
     }));
   }

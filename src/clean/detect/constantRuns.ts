@@ -15,6 +15,7 @@ export const DEFAULT_CONSTANT_RUN_CONFIG: Readonly<ConstantRunConfig> = Object.f
   maxUnexplainedShare: 0.25,
   alwaysFlagHours: 168,
   minWeeksForWeekly: 3,
+  maxChanceRuns: 0.001,
 });
 
 /**

@@ -7,6 +7,8 @@
 import type { IntervalSeries } from "../../domain/types.ts";
 import { detectionForRun, fmt, followsDirectly, intervalMs, intervalsForHours } from "./seriesGrid.ts";
 import type { Detection, DetectionKind } from "./types.ts";
+import { logChanceOfRun, repeatCounts, type RepeatCounts } from "./runChance.ts";
+import { meterResolution } from "./resolution.ts";
 
 /** Settings shared by the zero-run and constant-run detectors. */
 export interface FlatRunConfig {
@@ -24,6 +26,12 @@ export interface FlatRunConfig {
   alwaysFlagHours: number;
   /** Compare by hour of week when the series spans at least this many weeks; by hour of day otherwise. */
   minWeeksForWeekly: number;
+  /**
+   * Report a run only when fewer than this many runs as long would be expected by chance in the
+   * whole series, on the meter's own repeat rates at those hours (`logChanceOfRun`): what the
+   * meter's resolution and quiet hours explain is not a fault.
+   */
+  maxChanceRuns: number;
 }
 
 const WEEK_MS = 7 * 86_400_000;
@@ -85,6 +93,23 @@ export function unusualFlatRuns(
 
   const out: Detection[] = [];
   const own = new Int32Array(slots);
+  // Chance model on hour slots (of the week or day), built only when a run needs judging.
+  let chance: RepeatCounts | null = null;
+  let chanceByDay: RepeatCounts | undefined;
+  let resolution = NaN;
+  const chanceCounts = (): RepeatCounts => {
+    if (chance) return chance;
+    const perHour = Math.max(1, Math.round(60 / series.intervalMinutes));
+    const hourSlot = Int32Array.from(slot, (s) => Math.floor(s / perHour));
+    const t0 = n > 0 ? series.startMs[0]! : 0;
+    const weekOf = Int32Array.from(series.startMs, (t) => Math.floor((t - t0) / WEEK_MS));
+    chance = repeatCounts(series, hourSlot, Math.ceil(slots / perHour), weekOf, isFlat);
+    // Hour of the day beneath hour of the week: thin weekly slots borrow from the daily ones.
+    const hourOfDay = Int32Array.from(hourSlot, (h) => h % 24);
+    chanceByDay = period === "week" ? repeatCounts(series, hourOfDay, 24, weekOf, isFlat) : undefined;
+    resolution = meterResolution(series, skip);
+    return chance;
+  };
   let i = 0;
   while (i < n) {
     if (!isFlat(i) || (skip && skip[i])) {
@@ -102,13 +127,29 @@ export function unusualFlatRuns(
   }
   return out;
 
+  /** Expected number of runs this long by chance in the series, and the sentence that says so. */
+  function chanceOf(a: number, b: number): { expectedRuns: number; evidence: string } {
+    const counts = chanceCounts();
+    const { logP, meanShare } = logChanceOfRun(counts, a, b, 6, chanceByDay);
+    const expectedRuns = n * Math.exp(logP);
+    const odds = expectedRuns < 1e-6 ? "essentially never" : `${expectedRuns.toPrecision(2)} times`;
+    return {
+      expectedRuns,
+      evidence: `at these hours of the ${period} the meter (resolution ${fmt(resolution)}) continues a repeat ${fmt(100 * meanShare)} % of the time on nearby ${period}s, so a run this long is expected ${odds} in ${n} readings by chance`,
+    };
+  }
+
   function judgeRun(a: number, b: number): Detection | null {
     const len = b - a;
     const value = series.values[a]!;
     const hours = (len * series.intervalMinutes) / 60;
     const describe = `${len} interval(s) (${fmt(hours)} h) reading exactly ${fmt(value)}`;
     if (len >= alwaysLen) {
-      return detectionForRun(series, a, b, kind, "excluded", `${describe}; longer than ${fmt(cfg.alwaysFlagHours)} h`);
+      // Long runs skip the habit test, but not the chance test: a meter whose whole history
+      // repeats this value (a steady load read in coarse steps) cannot be told apart from a stuck one.
+      const { expectedRuns, evidence } = chanceOf(a, b);
+      if (!(expectedRuns < cfg.maxChanceRuns)) return null;
+      return detectionForRun(series, a, b, kind, "excluded", `${describe}; longer than ${fmt(cfg.alwaysFlagHours)} h; ${evidence}`);
     }
     for (let k = a; k < b; k++) own[slot[k]!]++;
     const explained = new Uint8Array(len);
@@ -131,13 +172,15 @@ export function unusualFlatRuns(
     while (to > from && explained[to - 1]) to--;
     const trimmed = len - (to - from);
     const note = trimmed > 0 ? `; ${trimmed} interval(s) at its edges are flat on most other ${period}s too and were left out` : "";
+    const { expectedRuns, evidence } = chanceOf(a + from, a + to);
+    if (!(expectedRuns < cfg.maxChanceRuns)) return null;
     return detectionForRun(
       series,
       a + from,
       a + to,
       kind,
       "excluded",
-      `${describe}; ${unexplained} of them at times of ${period} that are not usually like this${note}`,
+      `${describe}; ${unexplained} of them at times of ${period} that are not usually like this${note}; ${evidence}`,
     );
   }
 }

@@ -2,6 +2,7 @@ import type { IntervalSeries } from "../../domain/types.ts";
 import { MAD_TO_SIGMA, medianOf, rollingMedianBounds } from "./robustStats.ts";
 import { detectionForRun, flaggedRuns, fmt, followsDirectly, intervalMs, intervalsForHours } from "./seriesGrid.ts";
 import type { Detection } from "./types.ts";
+import { meterResolution } from "./resolution.ts";
 
 /** Settings for `detectSpikes` (portfolio.yaml `cleaning.spike`). */
 export interface SpikeConfig {
@@ -13,29 +14,42 @@ export interface SpikeConfig {
   minShareOfLevel: number;
   /** …and this absolute size, in the meter's unit. */
   minAbsolute: number;
+  /** …and this share of the local median (a +18 % quarter-hour is load, not a fault). */
+  minShareOfMedian: number;
+  /** σ is also measured per hour of the week over the weeks within ± this many (seasons differ). */
+  seasonHalfWindowWeeks: number;
 }
 
 /**
- * Defaults: ±1 h median window, 8 robust σ, and at least 25 % of the typical level. Eight σ is
- * far beyond what Gaussian noise produces in a year of 15-minute data (≈ 1e-15 per reading),
- * so what remains is a fault; the level floor keeps quiet slots (nights reading 0 with σ ≈ 0)
- * from flagging tiny wiggles.
+ * Defaults: ±1 h median window, 8 robust σ, at least 25 % of the typical level and 50 % of the
+ * local median. Eight σ is far beyond what Gaussian noise produces in a year of 15-minute data
+ * (≈ 1e-15 per reading), so what remains is a fault; the level floor keeps quiet slots (nights
+ * reading 0 with σ ≈ 0) from flagging tiny wiggles, and the median share keeps equipment
+ * staging (a chiller stage, an autoclave cycle: +15–20 % for a quarter-hour) out. σ is the
+ * largest of: the time-of-day σ over the whole series, the hour-of-week σ within ±6 weeks, and
+ * the meter's resolution (so a threshold is never under 8 steps of the register).
  */
 export const DEFAULT_SPIKE_CONFIG: Readonly<SpikeConfig> = Object.freeze({
   halfWindowHours: 1,
   sigmas: 8,
   minShareOfLevel: 0.25,
   minAbsolute: 0,
+  minShareOfMedian: 0.5,
+  seasonHalfWindowWeeks: 6,
 });
 
 const DAY_MS = 86_400_000;
+const WEEK_MS = 7 * DAY_MS;
 
 /**
  * Spikes, up or down: readings far from the rolling median of their neighbours.
  * Residual rᵢ = xᵢ − median(x over ±halfWindowHours) (with an even number of readings in the
  * window, the distance to the nearer middle value); σ for the interval's time-of-day slot
  * (local clock when `clockMs` is given, else UTC) = 1.4826 × median |r| over all days in a group of 2 × halfWindow + 1 consecutive slots; flagged when
- * |rᵢ| > sigmas × σ AND |rᵢ| > max(minShareOfLevel × level, minAbsolute).
+ * |rᵢ| > sigmas × σ AND |rᵢ| > max(minShareOfLevel × level, minAbsolute, minShareOfMedian × |median|),
+ * where σ is the largest of that time-of-day σ, the hour-of-week σ within ±seasonHalfWindowWeeks
+ * (`hourOfWeekSigma`) and the meter's resolution (`meterResolution`). The detail gives the reading
+ * and the expected range (median ± the largest allowance) with each allowance named.
  * Why this does not flag an office's morning ramp-up: a median follows a step (the window is
  * mostly "before" or mostly "after"), so a ramp leaves small residuals, and the slot's σ is
  * measured at the same time of day, where ramps happen every day.
@@ -86,26 +100,72 @@ export function detectSpikes(
   for (let i = 0; i < n; i++) {
     if (Number.isFinite(resid[i]!)) absByGroup[groupOf[i]!]![counts[groupOf[i]!]!++] = Math.abs(resid[i]!);
   }
-  const sigma = Float64Array.from(absByGroup, (xs) => MAD_TO_SIGMA * medianOf(xs));
-  const slotOf = groupOf;
+  const sigmaOfDay = Float64Array.from(absByGroup, (xs) => MAD_TO_SIGMA * medianOf(xs));
+  const sigmaOfWeek = hourOfWeekSigma(series, resid, clockMs, cfg.seasonHalfWindowWeeks);
+  const resolution = meterResolution(series, skip);
 
   const floor = Math.max(cfg.minShareOfLevel * level, cfg.minAbsolute);
+  const finiteOr0 = (x: number | undefined): number => (x !== undefined && Number.isFinite(x) ? x : 0);
+  const sigmaAt = (i: number): number => Math.max(finiteOr0(sigmaOfDay[groupOf[i]!]), finiteOr0(sigmaOfWeek?.[i]), resolution);
+  /** Half-width of the expected range around the local median at i. */
+  const allowance = (i: number): number => Math.max(floor, cfg.minShareOfMedian * Math.abs(med[i]!), sigmaAt(i) > 0 ? cfg.sigmas * sigmaAt(i) : 0);
   const isSpike = (i: number): boolean => {
     const r = resid[i]!;
     if (!Number.isFinite(r)) return false;
-    const a = Math.abs(r);
-    const sd = sigma[slotOf[i]!]!;
-    return a > floor && (!(sd > 0) || a > cfg.sigmas * sd);
+    return Math.abs(r) > allowance(i);
   };
   return flaggedRuns(series, isSpike).map(([a, b]) => {
     let worst = a;
     for (let i = a; i < b; i++) if (Math.abs(resid[i]!) > Math.abs(resid[worst]!)) worst = i;
-    const sd = sigma[slotOf[worst]!]!;
+    const sd = sigmaAt(worst);
     const dir = resid[worst]! > 0 ? "up" : "down";
-    const sigmaText = sd > 0 ? `${fmt(Math.abs(resid[worst]!) / sd)} robust σ` : "σ of this time of day ≈ 0";
+    const m = med[worst]!;
+    const half = allowance(worst);
+    const sigmaText = sd > 0 ? `${fmt(Math.abs(resid[worst]!) / sd)} robust σ of this hour of the week` : "σ of this time of day ≈ 0";
     return detectionForRun(series, a, b, "spike", "excluded",
-      `spike ${dir}: ${fmt(series.values[worst]!)} against a local median of ${fmt(med[worst]!)} (${sigmaText}; threshold ${fmt(cfg.sigmas)} σ and ${fmt(floor)})`);
+      `spike ${dir}: ${fmt(series.values[worst]!)} where ${fmt(m - half)} to ${fmt(m + half)} is expected (local median ${fmt(m)} ± the largest of ${fmt(cfg.sigmas)} σ = ${fmt(cfg.sigmas * sd)}, ${fmt(100 * cfg.minShareOfLevel)} % of the typical level = ${fmt(cfg.minShareOfLevel * level)}, ${fmt(100 * cfg.minShareOfMedian)} % of the median = ${fmt(cfg.minShareOfMedian * Math.abs(m))}); ${sigmaText}; meter resolution ${fmt(resolution)}`);
   });
+}
+
+/**
+ * Robust σ of the residuals per interval: 1.4826 × median |r| over the same local hour of the
+ * week ± 1 h, in the weeks within ±`halfWindowWeeks` of the interval (so a summer afternoon is
+ * measured against summer afternoons). Null for series shorter than 3 weeks (too few weeks to
+ * compare); NaN where fewer than 12 residuals fall in the window.
+ */
+function hourOfWeekSigma(series: IntervalSeries, resid: Float64Array, clockMs: Float64Array | undefined, halfWindowWeeks: number): Float64Array | null {
+  const n = resid.length;
+  if (n === 0) return null;
+  const t0 = series.startMs[0]!;
+  if (series.startMs[n - 1]! - t0 < 3 * WEEK_MS) return null;
+  const weekOf = new Int32Array(n);
+  const howOf = new Int32Array(n);
+  let weeks = 1;
+  for (let i = 0; i < n; i++) {
+    weekOf[i] = Math.floor((series.startMs[i]! - t0) / WEEK_MS);
+    weeks = Math.max(weeks, weekOf[i]! + 1);
+    const t = clockMs ? clockMs[i]! : series.startMs[i]!;
+    // epoch day 0 was a Thursday: + 3 days puts Monday 00:00 at hour 0
+    howOf[i] = ((Math.floor(t / 3_600_000) + 72) % 168 + 168) % 168;
+  }
+  const buckets: number[][] = Array.from({ length: weeks * 168 }, () => []);
+  for (let i = 0; i < n; i++) if (Number.isFinite(resid[i]!)) buckets[weekOf[i]! * 168 + howOf[i]!]!.push(Math.abs(resid[i]!));
+  const cache = new Map<number, number>();
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const key = weekOf[i]! * 168 + howOf[i]!;
+    let sd = cache.get(key);
+    if (sd === undefined) {
+      const xs: number[] = [];
+      for (let w = Math.max(0, weekOf[i]! - halfWindowWeeks); w <= Math.min(weeks - 1, weekOf[i]! + halfWindowWeeks); w++) {
+        for (const dh of [-1, 0, 1]) for (const x of buckets[w * 168 + ((howOf[i]! + dh + 168) % 168)]!) xs.push(x);
+      }
+      sd = xs.length >= 12 ? MAD_TO_SIGMA * medianOf(xs) : NaN;
+      cache.set(key, sd);
+    }
+    out[i] = sd;
+  }
+  return out;
 }
 
 /**

@@ -20,6 +20,7 @@ export const DEFAULT_ZERO_RUN_CONFIG: Readonly<ZeroRunConfig> = Object.freeze({
   maxUnexplainedShare: 0.25,
   alwaysFlagHours: 168,
   minWeeksForWeekly: 3,
+  maxChanceRuns: 0.001,
 });
 
 /**

@@ -96,8 +96,9 @@ describe("detectZeroRuns / detectConstantRuns on short series (compared by hour 
   it("the constant 1 kWh every night (00–06) is the building's habit, not a stuck register", () => {
     expect(detectConstantRuns(mk(days, 60))).toEqual([]);
   });
-  it("... but the same nights are reported when the habit is configured away (usualShare > 1)", () => {
-    expect(detectConstantRuns(mk(days, 60), { usualShare: 1.01 })).toHaveLength(5);
+  it("... but the same nights are reported when the habit is configured away (usualShare > 1, chance rule off)", () => {
+    expect(detectConstantRuns(mk(days, 60), { usualShare: 1.01 })).toEqual([]); // the repeat chance still explains them
+    expect(detectConstantRuns(mk(days, 60), { usualShare: 1.01, maxChanceRuns: 1e9 })).toHaveLength(5);
   });
   it("runs longer than alwaysFlagHours are reported whatever the history", () => {
     const v = Array.from({ length: 24 * 5 }, () => 0);
