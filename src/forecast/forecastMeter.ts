@@ -36,10 +36,14 @@ export interface MeterForecastInput {
   fit: ChangePointFit | null;
   /** Typical temperature per calendar month (index 0 = Jan) in the model's unit; null = fallback. */
   typicalMonthlyTemp: number[] | null;
+  /** Typical temperature per calendar month from the station's normals file (model unit); null without one. */
+  normalsMonthlyTemp?: number[] | null;
   /** The station's historical weather years (model unit), identical for all meters of a building. */
   weatherYears: WeatherYear[];
   /** The meter's bills up to asOf (fallback usage, demand ratios, power factor). */
   bills: Bill[];
+  /** The meter's bills as billed up to asOf, when `bills` carry the audit's corrections. */
+  billedBills?: Bill[];
   /** Interval data (before the multiplier), used only before asOf. */
   intervals?: IntervalSeries | null;
   /** Billing demands (kW) of the meter's recent bills, oldest first, for ratchets. */

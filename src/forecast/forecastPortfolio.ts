@@ -10,6 +10,7 @@ import { buildingForecastInputs, type ForecastRunOptions } from "./portfolioInpu
 import { buildingCostBand, buildingMonthlyCostBands, forecastRows, type ForecastRow } from "./rollup.ts";
 import { buildingChangeDrivers, type BuildingDrivers } from "./drivers.ts";
 import { bandOf, type Band } from "./quantiles.ts";
+import type { WeatherBasisId } from "./weatherBasis.ts";
 
 export interface BuildingForecast {
   buildingId: string;
@@ -24,6 +25,8 @@ export interface BuildingForecast {
 export interface PortfolioForecast {
   asOf: string;
   calibration: number;
+  /** Weather basis of the typical year (null: each baseline's own, normals or history average). */
+  basis: WeatherBasisId | null;
   buildings: BuildingForecast[];
   rows: ForecastRow[];
   /**
@@ -53,6 +56,7 @@ export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: Forecas
   return {
     asOf: options.asOf,
     calibration: options.calibration ?? 1,
+    basis: options.basis ?? null,
     buildings,
     rows: forecastRows(all),
     costNext12m: portfolioBand(all),
