@@ -99,6 +99,8 @@ export interface OriginSummary {
 
 export interface BasisScore {
   basis: WeatherBasisId;
+  /** Bases that gave exactly the same forecasts (e.g. recent-15 with only 10 years of history), folded into this one. */
+  sameAs: WeatherBasisId[];
   /** Mean over origins of the mean absolute meter annual cost error (%). */
   meanAbsAnnualErrorPct: number;
   /** Mean over origins of the pooled monthly CV(RMSE) (%). */
@@ -322,7 +324,13 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     // A basis some meters could not use (no normals for their station) is not comparable.
     if (!complete || byOrigin.length === 0) continue;
     const mean = (xs: number[]) => xs.reduce((s, x) => s + x, 0) / xs.length;
-    scores.push({ basis, byOrigin, meanAbsAnnualErrorPct: mean(byOrigin.map((b) => b.meanAbsMeterAnnualErrorPct)), cvRmsePct: mean(byOrigin.map((b) => b.cvRmsePct)) });
+    const same = (a: BasisScore["byOrigin"], b: BasisScore["byOrigin"]) => a.length === b.length && a.every((x, i) => JSON.stringify(x) === JSON.stringify(b[i]));
+    const twin = scores.find((t) => same(t.byOrigin, byOrigin) && perOrigin.every((rows) => rows.every((r) => r.meter.p50ByBasis[t.basis]?.join() === r.meter.p50ByBasis[basis]?.join())));
+    if (twin) {
+      twin.sameAs.push(basis);
+      continue;
+    }
+    scores.push({ basis, sameAs: [], byOrigin, meanAbsAnnualErrorPct: mean(byOrigin.map((b) => b.meanAbsMeterAnnualErrorPct)), cvRmsePct: mean(byOrigin.map((b) => b.cvRmsePct)) });
   }
   // Identical forecasts (a basis that equals another) keep the earlier candidate.
   const ranked = [...scores].sort((a, b) => a.meanAbsAnnualErrorPct - b.meanAbsAnnualErrorPct || a.cvRmsePct - b.cvRmsePct || bases.indexOf(a.basis) - bases.indexOf(b.basis));
@@ -330,8 +338,9 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   const basisReason = basis === null
     ? "no backtest could be scored (no meter has 24 months of bills): the typical year is the normals file when there is one, otherwise the history's average"
     : ranked.length === 1
-      ? `the only basis the data allows; backtested over ${origins.length} origin(s)`
+      ? `the only basis the data allows; backtested over ${origins.length} rolling origin(s)`
       : `smallest mean absolute meter annual cost error over ${origins.length} rolling origin(s): ${ranked[0]!.meanAbsAnnualErrorPct.toFixed(1)} % against ${ranked.slice(1).map((s) => `${s.meanAbsAnnualErrorPct.toFixed(1)} % (${s.basis})`).join(", ")}`;
+  const folded = ranked[0]?.sameAs.length ? ` (${ranked[0]!.sameAs.join(", ")} gave the same forecast: the history is too short to tell them apart)` : "";
 
   // Band: priced P10/P90 paths at the chosen basis for every factor.
   for (const rows of perOrigin) {
@@ -395,7 +404,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     meters,
     bases: ranked,
     basis,
-    basisReason,
+    basisReason: basisReason + folded,
     factor: chosenAll === null ? 1 : grid[chosenAll]!,
     calibrated: chosenAll !== null,
     coverageByFactor,

@@ -244,11 +244,11 @@ function portfolioJson(input: OutputsInput) {
           escalation: portfolio.settings.escalation,
           escalation_stated: portfolio.settings.escalationStated,
           noise_calibration: fc.calibration.factor,
-          noise_calibrated: fc.calibration.calibrated,
-          weather_basis: fc.backtest.basis,
-          weather_basis_reason: fc.backtest.basisReason,
-          corrected_bills_used: fc.corrections.size,
-          backtests: {
+          noise_calibrated: fc.calibration.calibrated ?? null,
+          weather_basis: fc.backtest?.basis ?? null,
+          weather_basis_reason: fc.backtest?.basisReason ?? null,
+          corrected_bills_used: fc.corrections?.size ?? 0,
+          backtests: fc.backtest && {
             bases: fc.backtest.bases.map((b) => ({ basis: b.basis, mean_abs_annual_error_pct: round(b.meanAbsAnnualErrorPct, 3), cv_rmse_pct: round(b.cvRmsePct, 3) })),
             origins: fc.backtest.summaries.map((o) => ({
               cut: o.cut,

@@ -76,7 +76,8 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     forecastTotals: forecast?.forecast.buildings.flatMap((b) => (b.costNext12m ? [{ buildingId: b.buildingId, ...b.costNext12m }] : [])),
     portfolioForecast: forecast?.forecast.costNext12m ?? undefined,
     buildingForecasts: forecast ? forecast.forecast.buildings.map((b) => buildingForecastDetail(b, portfolio.bills, forecast.forecast.asOf, forecast.trackRecord)) : undefined,
-    forecastMethod: forecast ? forecastMethod(forecast, portfolio) : undefined,
+    // A bundle from an older caller may lack the backtests: the method block is then left out.
+    forecastMethod: forecast?.backtest ? forecastMethod(forecast, portfolio) : undefined,
     trackRecordNotes: forecast?.trackRecord.meters.flatMap((m) => (m.note ? [{ meterId: m.meterId, buildingId: m.buildingId, note: m.note }] : [])),
     portfolioTrackRecord: forecast ? { model: accuracy(forecast.trackRecord.overall.model), naive: accuracy(forecast.trackRecord.overall.naive) } : undefined,
   };
@@ -93,7 +94,7 @@ export function forecastMethod(bundle: ForecastBundle, portfolio: Portfolio): Re
   return {
     basisLabel: bt.basis ? label(bt.basis) : "each meter's typical year (the normals file when there is one, otherwise the history's average)",
     basisReason: bt.basisReason,
-    bases: bt.bases.map((b) => ({ label: label(b.basis), meanAbsAnnualErrorPct: b.meanAbsAnnualErrorPct, cvRmsePct: b.cvRmsePct, chosen: b.basis === bt.basis })),
+    bases: bt.bases.map((b) => ({ label: label(b.basis) + (b.sameAs.length ? ` (same as ${b.sameAs.map(label).join("; ")})` : ""), meanAbsAnnualErrorPct: b.meanAbsAnnualErrorPct, cvRmsePct: b.cvRmsePct, chosen: b.basis === bt.basis })),
     origins: bt.summaries.map((o) => ({
       cut: o.cut,
       meters: o.meters,
