@@ -25,6 +25,7 @@ function report(name: string, portfolio: Portfolio<Tariff>, asOf: string): void 
   console.log(`\n## ${name} (as of ${asOf}; ${bt.origins.length} origin(s); ${seconds.toFixed(1)} s)`);
   console.log(`weather basis: ${bt.basis ?? "none"} — ${bt.basisReason}`);
   for (const b of bt.bases) console.log(`  basis ${b.basis.padEnd(10)} mean |meter annual error| ${f(b.meanAbsAnnualErrorPct, 2)} %  CV ${f(b.cvRmsePct, 2)} %`);
+  for (const a of bt.adjustments) console.log(`  month adjustment ${a.adjustment.padEnd(9)} mean |meter annual error| ${f(a.meanAbsAnnualErrorPct, 2)} %  CV ${f(a.cvRmsePct, 2)} %${a.adjustment === bt.adjustment ? "  (used)" : ""}`);
   for (const s of bt.summaries) {
     console.log(
       `  cut ${s.cut} (${s.meters} meters, ${s.historyMonths.min}–${s.historyMonths.max} months before)  model ${acc(s.model)}  |  naive ${acc(s.naive)}  |  coverage ${f((s.coverage ?? NaN) * 100, 1)} % (factor ${s.factor}${s.calibrated ? "" : ", uncalibrated"}; own band ${f((s.coverageOwnBand ?? NaN) * 100, 1)} %)`,

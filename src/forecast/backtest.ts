@@ -23,7 +23,11 @@
  * with the smallest mean absolute meter annual cost error, averaged over origins, is chosen
  * (ties: the smaller pooled monthly CV(RMSE), then the candidate order).
  *
- * Calibration. For the chosen basis, factor c of CALIBRATION_GRID scales the model's prediction
+ * Calendar-month adjustment. At the chosen basis, the adjustments of residual.ts (none, the
+ * history's average departure per calendar month, last year's departure) are scored the same
+ * way; the smallest sum of mean absolute annual error and CV(RMSE) wins (ties: none first).
+ *
+ * Calibration. For the chosen basis and adjustment, factor c of CALIBRATION_GRID scales the model's prediction
  * noise; the factor whose pooled share of meter-months inside P10–P90 is nearest 80 % is chosen.
  * The coverage reported for an origin uses the factor chosen on the OTHER origins (out of
  * sample); with a single origin there is nothing to calibrate on, so it uses the model's own
@@ -42,6 +46,7 @@ import { priceForecastMonth } from "./priceMonth.ts";
 import { bandOf } from "./quantiles.ts";
 import { actualMonthlyCost, naiveSameMonthLastYear } from "./trackRecord.ts";
 import { WEATHER_BASES, typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
+import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
 
 /** Noise factors tried. */
 export const CALIBRATION_GRID: readonly number[] = [0.5, 0.75, 1, 1.25, 1.5, 1.75, 2, 2.5, 3, 4, 5];
@@ -109,8 +114,18 @@ export interface BasisScore {
   byOrigin: { cut: string; annualErrorPct: number; meanAbsMeterAnnualErrorPct: number; cvRmsePct: number }[];
 }
 
+export interface AdjustmentScore {
+  adjustment: MonthAdjustment;
+  meanAbsAnnualErrorPct: number;
+  cvRmsePct: number;
+  byOrigin: BasisScore["byOrigin"];
+}
+
 export interface RollingBacktest {
   origins: string[];
+  /** Calendar-month adjustments scored at the chosen basis (best first: smallest annual + CV error), and the one used. */
+  adjustments: AdjustmentScore[];
+  adjustment: MonthAdjustment;
   meters: BacktestMeter[][];
   /** Bases scored, best first; empty when no origin could be scored. */
   bases: BasisScore[];
@@ -342,10 +357,35 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       : `smallest mean absolute meter annual cost error over ${origins.length} rolling origin(s): ${ranked[0]!.meanAbsAnnualErrorPct.toFixed(1)} % against ${ranked.slice(1).map((s) => `${s.meanAbsAnnualErrorPct.toFixed(1)} % (${s.basis})`).join(", ")}`;
   const folded = ranked[0]?.sameAs.length ? ` (${ranked[0]!.sameAs.join(", ")} gave the same forecast: the history is too short to tell them apart)` : "";
 
-  // Band: priced P10/P90 paths at the chosen basis for every factor.
+  // Calendar-month adjustment at the chosen basis, scored the same way.
+  const adjustmentScores: AdjustmentScore[] = [];
+  for (const adjustment of MONTH_ADJUSTMENTS) {
+    const byOrigin: BasisScore["byOrigin"] = [];
+    perOrigin.forEach((rows, o) => {
+      const paths = rows.map((r) => {
+        if (adjustment === "none") return basis ? r.meter.p50ByBasis[basis] ?? null : null;
+        try {
+          const q = usageQuantiles({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, 1);
+          return q ? pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter)) : null;
+        } catch {
+          return null;
+        }
+      });
+      const acc = accuracyOf(rows.flatMap((r, i) => (paths[i] ? [{ actual: r.meter.actual, forecast: paths[i]! }] : [])));
+      if (acc) byOrigin.push({ cut: origins[o]!, annualErrorPct: acc.annualErrorPct, meanAbsMeterAnnualErrorPct: acc.meanAbsMeterAnnualErrorPct, cvRmsePct: acc.cvRmsePct });
+    });
+    if (byOrigin.length === 0) continue;
+    const mean = (xs: number[]) => xs.reduce((s, x) => s + x, 0) / xs.length;
+    adjustmentScores.push({ adjustment, byOrigin, meanAbsAnnualErrorPct: mean(byOrigin.map((b) => b.meanAbsMeterAnnualErrorPct)), cvRmsePct: mean(byOrigin.map((b) => b.cvRmsePct)) });
+  }
+  // Ranked on the sum of the two errors: the adjustment is about the shape of the year (CV) as much as its total.
+  const adjustmentsRanked = [...adjustmentScores].sort((a, b) => a.meanAbsAnnualErrorPct + a.cvRmsePct - (b.meanAbsAnnualErrorPct + b.cvRmsePct) || MONTH_ADJUSTMENTS.indexOf(a.adjustment) - MONTH_ADJUSTMENTS.indexOf(b.adjustment));
+  const adjustment: MonthAdjustment = adjustmentsRanked[0]?.adjustment ?? "none";
+
+  // Band: priced P10/P90 paths at the chosen basis and adjustment for every factor.
   for (const rows of perOrigin) {
     for (const r of rows) {
-      const input = basis ? withBasis(r.input, basis) : r.input;
+      const input = { ...(basis ? withBasis(r.input, basis) : r.input), adjustment };
       for (const c of grid) {
         try {
           const q = usageQuantiles(input, c);
@@ -405,6 +445,8 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     bases: ranked,
     basis,
     basisReason: basisReason + folded,
+    adjustments: adjustmentsRanked,
+    adjustment,
     factor: chosenAll === null ? 1 : grid[chosenAll]!,
     calibrated: chosenAll !== null,
     coverageByFactor,

@@ -20,6 +20,7 @@ import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
 import { mulberry32, seedFromString } from "./random.ts";
+import { residualByCalendarMonth, type MonthAdjustment } from "./residual.ts";
 
 export const DEFAULT_SCENARIOS = 300;
 export const DEFAULT_SEED = 20_260_101;
@@ -54,8 +55,10 @@ export interface MeterForecastInput {
   escalation: number;
   scenarios?: number;
   seed?: number;
-  /** Multiplies the prediction noise; 1 = the model's own interval (see calibrateNoise). */
+  /** Multiplies the prediction noise; 1 = the model's own interval (calibrated by the backtests, backtest.ts). */
   calibration?: number;
+  /** Calendar-month adjustment of the change-point forecast (residual.ts); absent = none. */
+  adjustment?: MonthAdjustment;
 }
 
 export interface MonthForecast {
@@ -175,6 +178,7 @@ export function meterUsageScenarios(input: MeterForecastInput, months: CalendarM
       scenarios,
       calibration,
       rng,
+      residualPerDay: input.adjustment ? residualByCalendarMonth(input.fit, input.bills, input.weatherYears, input.asOf, input.adjustment) : null,
     });
   }
   return fallbackUsageScenarios({ bills: input.bills, months, scenarios, calibration, rng });

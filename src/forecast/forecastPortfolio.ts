@@ -11,6 +11,7 @@ import { buildingCostBand, buildingMonthlyCostBands, forecastRows, type Forecast
 import { buildingChangeDrivers, type BuildingDrivers } from "./drivers.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import type { WeatherBasisId } from "./weatherBasis.ts";
+import type { MonthAdjustment } from "./residual.ts";
 
 export interface BuildingForecast {
   buildingId: string;
@@ -27,6 +28,8 @@ export interface PortfolioForecast {
   calibration: number;
   /** Weather basis of the typical year (null: each baseline's own, normals or history average). */
   basis: WeatherBasisId | null;
+  /** Calendar-month adjustment used (residual.ts). */
+  adjustment: MonthAdjustment;
   buildings: BuildingForecast[];
   rows: ForecastRow[];
   /**
@@ -57,6 +60,7 @@ export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: Forecas
     asOf: options.asOf,
     calibration: options.calibration ?? 1,
     basis: options.basis ?? null,
+    adjustment: options.adjustment ?? "none",
     buildings,
     rows: forecastRows(all),
     costNext12m: portfolioBand(all),

@@ -10,7 +10,7 @@ export { forecastRows, buildingCostBand, buildingMonthlyCostBands, type Forecast
 export { trackRecord, trackRecordFromBacktest, backtestInputs, backtestAsOf, compareWithActuals, actualMonthlyCost, naiveSameMonthLastYear, pooledAccuracy,
   type TrackRecord, type MeterTrackRecord, type AccuracySummary, type MonthComparison, type TrackRecordOptions } from "./trackRecord.ts";
 export { rollingBacktest, rollingOrigins, monthsOfBills, accuracyOf, CALIBRATION_GRID, TARGET_COVERAGE, MIN_TRACK_RECORD_MONTHS, MIN_FIT_MONTHS,
-  type RollingBacktest, type OriginSummary, type BasisScore, type Accuracy, type BacktestMeter } from "./backtest.ts";
+  type RollingBacktest, type AdjustmentScore, type OriginSummary, type BasisScore, type Accuracy, type BacktestMeter } from "./backtest.ts";
 export { weatherBasisCandidates, typicalForBasis, basisYears, WEATHER_BASES, WEATHER_BASIS_LABEL, type WeatherBasisId } from "./weatherBasis.ts";
 export { correctBills, type CorrectedBillSet, type MoneyFindingLike } from "./correctedBills.ts";
 export { buildingChangeDrivers, meterChangeDrivers, type BuildingDrivers, type MeterDrivers, type ChangeDrivers } from "./drivers.ts";
@@ -21,3 +21,4 @@ export { bandOf, type Band } from "./quantiles.ts";
 export { weatherYears, scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
 export { monthsAfter, spreadBillsByMonth, type CalendarMonth } from "./months.ts";
 export { ForecastInputError } from "./errors.ts";
+export { residualByCalendarMonth, MONTH_ADJUSTMENTS, MONTH_ADJUSTMENT_LABEL, type MonthAdjustment } from "./residual.ts";

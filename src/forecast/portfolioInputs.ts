@@ -14,6 +14,7 @@ import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
 import { typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
+import type { MonthAdjustment } from "./residual.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -36,6 +37,8 @@ export interface ForecastRunOptions {
   billedBills?: readonly Bill[];
   /** Weather basis for the typical year (weatherBasis.ts); absent = the baseline's own typical year. */
   basis?: WeatherBasisId;
+  /** Calendar-month adjustment (residual.ts); absent = none. */
+  adjustment?: MonthAdjustment;
 }
 
 /** Bills whose period ends by the day after `asOf` (the ingest rule for as_of). */
@@ -115,6 +118,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       scenarios: options.scenarios,
       seed: options.seed,
       calibration: options.calibrationByMeter?.get(meter.meterId) ?? options.calibration,
+      adjustment: options.adjustment,
     };
   });
 }

@@ -62,6 +62,7 @@ export function forecastWithTrackRecord(
     seed: options.seed,
     baselines: options.baselines,
     basis: backtest.basis ?? undefined,
+    adjustment: backtest.adjustment,
     calibration: backtest.factor,
     calibrationByMeter,
     billedBills: portfolio.bills,

@@ -247,9 +247,11 @@ function portfolioJson(input: OutputsInput) {
           noise_calibrated: fc.calibration.calibrated ?? null,
           weather_basis: fc.backtest?.basis ?? null,
           weather_basis_reason: fc.backtest?.basisReason ?? null,
+          month_adjustment: fc.backtest?.adjustment ?? null,
           corrected_bills_used: fc.corrections?.size ?? 0,
           backtests: fc.backtest && {
-            bases: fc.backtest.bases.map((b) => ({ basis: b.basis, mean_abs_annual_error_pct: round(b.meanAbsAnnualErrorPct, 3), cv_rmse_pct: round(b.cvRmsePct, 3) })),
+            bases: fc.backtest.bases.map((b) => ({ basis: b.basis, same_as: b.sameAs, mean_abs_annual_error_pct: round(b.meanAbsAnnualErrorPct, 3), cv_rmse_pct: round(b.cvRmsePct, 3) })),
+            month_adjustments: fc.backtest.adjustments.map((a) => ({ adjustment: a.adjustment, mean_abs_annual_error_pct: round(a.meanAbsAnnualErrorPct, 3), cv_rmse_pct: round(a.cvRmsePct, 3) })),
             origins: fc.backtest.summaries.map((o) => ({
               cut: o.cut,
               meters: o.meters,

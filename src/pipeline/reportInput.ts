@@ -7,7 +7,7 @@ import type { InputIssue } from "../core/issues.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Finding } from "../audit/types.ts";
 import type { AccuracySummary, BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } from "../forecast/index.ts";
-import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands, MIN_TRACK_RECORD_MONTHS, WEATHER_BASIS_LABEL, type WeatherBasisId } from "../forecast/index.ts";
+import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands, MIN_TRACK_RECORD_MONTHS, MONTH_ADJUSTMENT_LABEL, WEATHER_BASIS_LABEL, type WeatherBasisId } from "../forecast/index.ts";
 import { shiftMonth } from "../forecast/months.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
 import type { MonthTotal } from "../ingest/monthlyTotals.ts";
@@ -94,6 +94,8 @@ export function forecastMethod(bundle: ForecastBundle, portfolio: Portfolio): Re
   return {
     basisLabel: bt.basis ? label(bt.basis) : "each meter's typical year (the normals file when there is one, otherwise the history's average)",
     basisReason: bt.basisReason,
+    adjustmentLabel: MONTH_ADJUSTMENT_LABEL[bt.adjustment],
+    adjustments: bt.adjustments.map((a) => ({ label: MONTH_ADJUSTMENT_LABEL[a.adjustment], meanAbsAnnualErrorPct: a.meanAbsAnnualErrorPct, cvRmsePct: a.cvRmsePct, chosen: a.adjustment === bt.adjustment })),
     bases: bt.bases.map((b) => ({ label: label(b.basis) + (b.sameAs.length ? ` (same as ${b.sameAs.map(label).join("; ")})` : ""), meanAbsAnnualErrorPct: b.meanAbsAnnualErrorPct, cvRmsePct: b.cvRmsePct, chosen: b.basis === bt.basis })),
     origins: bt.summaries.map((o) => ({
       cut: o.cut,

@@ -63,6 +63,9 @@ export function methodOf(input: ReportInput, meters: Meter[]): { sentences: stri
   if (!m) return null;
   const ids = new Set(meters.map((x) => x.meterId));
   const sentences = [`Typical weather: ${m.basisLabel}. Why: ${m.basisReason}.`];
+  if (m.adjustmentLabel) {
+    sentences.push(`Adjustment by calendar month: ${m.adjustmentLabel}; of the adjustments tried, it gave the smallest annual cost error plus monthly CV(RMSE) on the same backtests.`);
+  }
   if (m.calibrated) {
     sentences.push(
       `The range (P10 to P90) is the model's prediction noise widened by a factor of ${formatNumber(m.factor, 2)}, the factor that put about 80 % of backtest meter-months inside it. Judged on years the factor was not chosen on, ${pct(m.coverage === null ? null : m.coverage * 100, 0)} of meter-months fell inside.`,
@@ -92,6 +95,18 @@ export function methodOf(input: ReportInput, meters: Meter[]): { sentences: stri
         { text: pct(b.meanAbsAnnualErrorPct) },
         { text: pct(b.cvRmsePct) },
       ]),
+    });
+  }
+  if (m.adjustments && m.adjustments.length > 0) {
+    tables.push({
+      caption: "Adjustments by calendar month compared on the same backtests (mean over the origins); the smallest sum of the two errors is used",
+      sortable: false,
+      columns: [
+        { label: "Adjustment", numeric: false },
+        { label: "Mean absolute annual cost error per meter", numeric: true },
+        { label: "Monthly CV(RMSE)", numeric: true },
+      ],
+      rows: m.adjustments.map((a) => [{ text: `${a.label}${a.chosen ? " (used)" : ""}` }, { text: pct(a.meanAbsAnnualErrorPct) }, { text: pct(a.cvRmsePct) }]),
     });
   }
   if (m.origins.length > 0) {

@@ -267,6 +267,9 @@ export interface ReportForecastMethod {
   /** Plain words for the basis used, and why it was chosen. */
   basisLabel: string;
   basisReason: string;
+  /** The calendar-month adjustment used, in words, and every adjustment scored at that basis. */
+  adjustmentLabel?: string;
+  adjustments?: { label: string; meanAbsAnnualErrorPct: number; cvRmsePct: number; chosen: boolean }[];
   /** Every basis scored: mean absolute meter annual cost error and monthly CV(RMSE) over the origins (percent). */
   bases: { label: string; meanAbsAnnualErrorPct: number; cvRmsePct: number; chosen: boolean }[];
   /** Each rolling origin (cut date), newest first. */

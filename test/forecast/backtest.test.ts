@@ -129,25 +129,42 @@ describe("rolling-origin backtests on the synthetic Seattle portfolios", () => {
     });
   }
 
-  // Known gaps of issue 12, measured and left failing on purpose (it.fails turns red when they are fixed):
-  it.fails("seattle: averaged over the origins, monthly CV(RMSE) is below the naive forecast's (measured 7.84 % vs 7.82 %)", () => {
-    expect(plain.overall.model!.cvRmsePct).toBeLessThan(plain.overall.naive!.cvRmsePct);
+  for (const [name, get] of [["seattle", () => plain], ["seattle-drift", () => drift]] as const) {
+    it(`${name}: averaged over the origins, monthly CV(RMSE) is below the naive forecast's`, () => {
+      expect(get().overall.model!.cvRmsePct).toBeLessThan(get().overall.naive!.cvRmsePct);
+    });
+
+    it(`${name}: at the cut with three years of bills, both errors are below the naive forecast's`, () => {
+      const s = get().summaries.find((x) => x.historyMonths.min === 36)!;
+      expect(Math.abs(s.model!.annualErrorPct)).toBeLessThan(Math.abs(s.naive!.annualErrorPct));
+      expect(s.model!.cvRmsePct).toBeLessThan(s.naive!.cvRmsePct);
+    });
+  }
+
+  it("seattle: at the cut with two years of bills, monthly CV(RMSE) is below the naive forecast's", () => {
+    const s = plain.summaries.find((x) => x.historyMonths.min === 24)!;
+    expect(s.model!.cvRmsePct).toBeLessThan(s.naive!.cvRmsePct);
   });
 
-  it.fails("seattle-drift: averaged over the origins, monthly CV(RMSE) is below the naive forecast's (measured 11.1 % vs 9.8 %)", () => {
-    expect(drift.overall.model!.cvRmsePct).toBeLessThan(drift.overall.naive!.cvRmsePct);
+  it("the backtests choose a calendar-month adjustment and score every one", () => {
+    expect(plain.adjustments.map((a) => a.adjustment).sort()).toEqual(["all-years", "last-year", "none"]);
+    expect(plain.adjustment).toBe(plain.adjustments[0]!.adjustment);
   });
 
-  it.fails("every origin with two or more years of bills beats the naive forecast on annual error and CV(RMSE) (seattle 2014 cut: CV 8.3 % vs 8.0 %; 2013 cut: annual 1.3 % vs 0.8 %)", () => {
-    for (const bt of [plain, drift]) {
-      for (const s of bt.summaries.filter((x) => x.historyMonths.min >= 24)) {
-        expect(Math.abs(s.model!.annualErrorPct)).toBeLessThan(Math.abs(s.naive!.annualErrorPct));
-        expect(s.model!.cvRmsePct).toBeLessThan(s.naive!.cvRmsePct);
-      }
-    }
+  // Known gaps of issue 12, measured and left failing on purpose (it.fails turns red once they are fixed).
+  // 2014 was a warm year at Seattle; a forecast made at the end of 2013 from 2012–2013 runs high.
+  it.fails("seattle: at the cut with two years of bills, the annual cost error is below the naive forecast's (measured +1.2 % vs −0.8 %)", () => {
+    const s = plain.summaries.find((x) => x.historyMonths.min === 24)!;
+    expect(Math.abs(s.model!.annualErrorPct)).toBeLessThan(Math.abs(s.naive!.annualErrorPct));
   });
 
-  it.fails("seattle-drift: coverage is 70–90 % at every origin (2013 cut measured 68.3 %)", () => {
+  it.fails("seattle-drift: at the cut with two years of bills (the school's retrofit comes the next year), both errors are below the naive forecast's (measured annual +3.5 % vs +1.3 %, CV 12.4 % vs 12.4 %)", () => {
+    const s = drift.summaries.find((x) => x.historyMonths.min === 24)!;
+    expect(Math.abs(s.model!.annualErrorPct)).toBeLessThan(Math.abs(s.naive!.annualErrorPct));
+    expect(s.model!.cvRmsePct).toBeLessThan(s.naive!.cvRmsePct);
+  });
+
+  it.fails("seattle-drift: coverage is 70–90 % at every origin (the cut before the retrofit measured 60 %)", () => {
     for (const s of drift.summaries) expect(s.coverage!).toBeGreaterThanOrEqual(0.7);
   });
 });
