@@ -14,7 +14,7 @@ import { addDays, localMidnightMs } from "../core/time.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { monthsAfter, type CalendarMonth } from "./months.ts";
 import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
-import { scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
+import { scenarioTemperatures, scenarioYears, type WeatherYear } from "./weatherYears.ts";
 import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
 import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
@@ -59,6 +59,12 @@ export interface MeterForecastInput {
   calibration?: number;
   /** Calendar-month adjustment of the change-point forecast (residual.ts); absent = none. */
   adjustment?: MonthAdjustment;
+  /**
+   * Calendar year of scenario s is scenarioYearOrder[s mod length] (the portfolio's weather years),
+   * so every meter of every station draws the same year in scenario s; a station without that year
+   * falls back to s mod its own years. Absent: s mod the station's years.
+   */
+  scenarioYearOrder?: readonly number[];
 }
 
 export interface MonthForecast {
@@ -170,7 +176,16 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
 export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
   const rng = mulberry32(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
   if (input.fit && input.typicalMonthlyTemp) {
+    const own = scenarioYears(input.weatherYears).map((y) => y.year);
+    const order = input.scenarioYearOrder;
+    const setOfScenario = order && order.length > 0 && own.length > 0
+      ? (s: number) => {
+          const i = own.indexOf(order[s % order.length]!);
+          return i >= 0 ? i : s % own.length;
+        }
+      : undefined;
     return modelUsageScenarios({
+      setOfScenario,
       fit: input.fit,
       typicalMonthlyTemp: input.typicalMonthlyTemp,
       temperatureSets: scenarioTemperatures(input.typicalMonthlyTemp, input.weatherYears),

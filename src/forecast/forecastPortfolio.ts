@@ -12,6 +12,7 @@ import { buildingChangeDrivers, type BuildingDrivers } from "./drivers.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import type { WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
+import { scenarioYears } from "./weatherYears.ts";
 
 export interface BuildingForecast {
   buildingId: string;
@@ -33,8 +34,8 @@ export interface PortfolioForecast {
   buildings: BuildingForecast[];
   rows: ForecastRow[];
   /**
-   * Portfolio next-12-month range: scenario s summed over every priced meter. Buildings on one
-   * station share weather years; across stations scenario s pairs weather years by index.
+   * Portfolio next-12-month range: scenario s summed over every priced meter. Scenario s is the
+   * same calendar weather year for every meter on every station that has it (scenarioYearOrder).
    */
   costNext12m: Band | null;
 }
@@ -44,8 +45,11 @@ export interface PortfolioForecast {
  * @example forecastPortfolio(portfolio, { asOf: "2025-12-31", months: 12, calibration: 3 }).rows // forecast.csv rows
  */
 export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: ForecastRunOptions): PortfolioForecast {
-  const buildings = portfolio.buildings.map((building) => {
-    const inputs = buildingForecastInputs(portfolio, building, options);
+  const inputsByBuilding = portfolio.buildings.map((building) => buildingForecastInputs(portfolio, building, options));
+  // One calendar year per scenario for the whole portfolio, so totals keep the weather's correlation across stations.
+  const scenarioYearOrder = [...new Set(inputsByBuilding.flat().flatMap((i) => scenarioYears(i.weatherYears).map((y) => y.year)))].sort((a, b) => a - b);
+  const buildings = portfolio.buildings.map((building, b) => {
+    const inputs = inputsByBuilding[b]!.map((i) => ({ ...i, scenarioYearOrder }));
     const meters = inputs.map(forecastMeter);
     return {
       buildingId: building.buildingId,

@@ -55,6 +55,8 @@ export interface ModelUsageOptions {
   rng: Uniform;
   /** Calendar-month adjustment of use per day (index 0 = January; residual.ts); absent = none. */
   residualPerDay?: readonly number[] | null;
+  /** Temperature set of scenario s; default s mod the number of sets. */
+  setOfScenario?: (s: number) => number;
 }
 
 /** Usage scenarios from a change-point model (see the module comment for the formula). */
@@ -72,7 +74,7 @@ export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
     }),
   );
   for (let s = 0; s < o.scenarios; s++) {
-    const w = s % o.temperatureSets.length;
+    const w = o.setOfScenario ? o.setOfScenario(s) : s % o.temperatureSets.length;
     weatherIndex[s] = w;
     const lambda = studentScale(o.rng, df);
     const z0 = standardNormal(o.rng);
