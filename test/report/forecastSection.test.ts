@@ -74,7 +74,8 @@ describe("index forecast ranking", () => {
       ["buildings/B2.html", "+$500.00", "+50 %"],
       ["buildings/B1.html", "+$250.00", "+2.9 %"],
     ]);
-    expect(t.rows[1].slice(5).map((c) => c.text)).toEqual(["−$120.00", "+$300.00", "+$70.00"]);
+    // Columns from the sixth: billing errors corrected (none here), weather, rates, usage trend.
+    expect(t.rows[1].slice(5).map((c) => c.text)).toEqual(["$0.00", "−$120.00", "+$300.00", "+$70.00"]);
     expect(buildSiteModel(input).index.forecastTrackRecord).toMatch(/^Better than/);
   });
 });
