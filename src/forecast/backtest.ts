@@ -316,7 +316,6 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   for (const rows of perOrigin) {
     for (const r of rows) {
       for (const basis of bases) {
-        if (basis === "normals" && !r.input.normalsMonthlyTemp) continue;
         try {
           const q = usageQuantiles(withBasis(r.input, basis), 1);
           if (q) r.meter.p50ByBasis[basis] = pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter));
@@ -336,7 +335,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       const acc = accuracyOf(scored.map((r) => ({ actual: r.meter.actual, forecast: r.meter.p50ByBasis[basis]! })));
       if (acc) byOrigin.push({ cut: origins[o]!, annualErrorPct: acc.annualErrorPct, meanAbsMeterAnnualErrorPct: acc.meanAbsMeterAnnualErrorPct, cvRmsePct: acc.cvRmsePct });
     });
-    // A basis some meters could not use (no normals for their station) is not comparable.
+    // A basis some meters could not be priced with is not comparable.
     if (!complete || byOrigin.length === 0) continue;
     const mean = (xs: number[]) => xs.reduce((s, x) => s + x, 0) / xs.length;
     const same = (a: BasisScore["byOrigin"], b: BasisScore["byOrigin"]) => a.length === b.length && a.every((x, i) => JSON.stringify(x) === JSON.stringify(b[i]));

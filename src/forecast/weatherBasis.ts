@@ -2,7 +2,8 @@
  * Weather bases: what "typical weather" means for the forecast's centre. The forecast does not
  * assume one; rolling-origin backtests choose among these candidates (backtest.ts):
  *
- *   normals    the station's normals file (weather/normals), when there is one;
+ *   normals    the station's normals file (weather/normals); a station without one keeps the
+ *              average of its history (so the basis can be compared on every meter);
  *   recent-10  the mean per calendar month of the most recent 10 complete years of history;
  *   recent-15  the same over the most recent 15 complete years;
  *   all-years  every complete historical year as a scenario, centred on their own mean.
@@ -22,7 +23,7 @@ export const WEATHER_BASES: readonly WeatherBasisId[] = ["normals", "recent-10",
 
 /** Plain words for each basis, for the page. */
 export const WEATHER_BASIS_LABEL: Record<WeatherBasisId, string> = {
-  normals: "the normals file (weather/normals)",
+  normals: "the normals file (weather/normals; the history's average for a station without one)",
   "recent-10": "the mean of the most recent 10 years of weather history",
   "recent-15": "the mean of the most recent 15 years of weather history",
   "all-years": "every historical weather year as a scenario (centred on their mean)",
