@@ -15,8 +15,15 @@
  *   weather = P_next(ŷ(T_typical) · days) − P_next(ŷ(T_last) · days)
  *     ŷ = the meter's change-point model, T_last = last year's mean temperature of the month;
  *     0 for meters without a model, and for months without last year's temperature
- *   usage trend = change − rates − weather   (the residual: real changes in use, model bias,
- *     billing errors last year, demand and ratchet effects)
+ *   billing errors corrected = A − A_billed
+ *     A is last year as it should have been: the audit's corrected bills where it found money
+ *     errors (correctedBills.ts); A_billed is what was billed. A duplicate or an overcharge last
+ *     year makes this negative: it will not recur.
+ *   usage trend = F − A − rates − weather   (the residual: real changes in use, model bias,
+ *     demand and ratchet effects — never a billing error)
+ *
+ * The change shown is against what was billed: change = F − A_billed
+ *   = billing errors corrected + weather + rates + usage trend.
  */
 import type { Bill } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
@@ -30,11 +37,16 @@ import { bandOf } from "./quantiles.ts";
 export interface ChangeDrivers {
   /** Months compared (last year's complete months). */
   months: string[];
+  /** Last year as it should have been (corrected bills). */
   lastYearCost: number;
+  /** Last year as billed. */
+  lastYearBilledCost: number;
   forecastCost: number;
   change: number;
   weather: number;
   rates: number;
+  /** Corrected − billed last year (0 when the audit corrected nothing in those months). */
+  billingErrors: number;
   usageTrend: number;
 }
 
@@ -49,7 +61,7 @@ export interface BuildingDrivers extends ChangeDrivers {
   meters: MeterDrivers[];
 }
 
-const ZERO: ChangeDrivers = { months: [], lastYearCost: 0, forecastCost: 0, change: 0, weather: 0, rates: 0, usageTrend: 0 };
+const ZERO: ChangeDrivers = { months: [], lastYearCost: 0, lastYearBilledCost: 0, forecastCost: 0, change: 0, weather: 0, rates: 0, billingErrors: 0, usageTrend: 0 };
 
 /**
  * Drivers of one meter (see the module comment). `forecast` must come from `input`.
@@ -61,6 +73,7 @@ export function meterChangeDrivers(input: MeterForecastInput, forecast: MeterFor
   const tariff: Tariff = input.tariff;
   const bills = billsKnownAt(input.bills, input.asOf);
   const cost = spreadBillsByMonth(bills, (b: Bill) => b.total);
+  const billedCost = input.billedBills ? spreadBillsByMonth(billsKnownAt(input.billedBills, input.asOf), (b: Bill) => b.total) : cost;
   const usage = spreadBillsByMonth(bills, (b: Bill) => b.usage);
   const pairs: { last: CalendarMonth; k: number }[] = [];
   forecast.months.forEach((m, k) => {
@@ -74,10 +87,12 @@ export function meterChangeDrivers(input: MeterForecastInput, forecast: MeterFor
   const prev = input.previousBillingDemandsKw ?? [];
   const price = (ctx: MonthPricingContext, u: number): number => priceForecastMonth(ctx, Math.max(0, u), [...prev]).cost;
   let A = 0;
+  let billed = 0;
   let rates = 0;
   let weather = 0;
   pairs.forEach((p, i) => {
     A += cost.get(p.last.month)!.amount;
+    billed += billedCost.get(p.last.month)?.amount ?? 0;
     const uLast = usage.get(p.last.month)!.amount;
     rates += price(nextCtx[i]!, uLast) - price(lastCtx[i]!, uLast);
     const tLast = input.weatherYears.find((y) => y.year === Number(p.last.month.slice(0, 4)))?.monthlyTemp[p.last.calendarMonth - 1];
@@ -94,10 +109,12 @@ export function meterChangeDrivers(input: MeterForecastInput, forecast: MeterFor
     meterId: input.meter.meterId,
     months: pairs.map((p) => p.last.month),
     lastYearCost: A,
+    lastYearBilledCost: billed,
     forecastCost: F,
-    change: F - A,
+    change: F - billed,
     weather,
     rates,
+    billingErrors: A - billed,
     usageTrend: F - A - weather - rates,
     note: null,
     scenarioSums,
@@ -107,7 +124,7 @@ export function meterChangeDrivers(input: MeterForecastInput, forecast: MeterFor
 /**
  * Drivers of one building: sums of its meters' last-year cost, weather and rates; the forecast
  * is the median of the scenario sums across meters (scenario-aligned, see rollup.ts), and the
- * usage trend the residual, so the three drivers add up to the building's change.
+ * usage trend the residual, so the four drivers add up to the building's change against what was billed.
  */
 export function buildingChangeDrivers(buildingId: string, inputs: readonly MeterForecastInput[], forecasts: readonly MeterForecast[]): BuildingDrivers {
   const perMeter = inputs.map((input, i) => meterChangeDrivers(input, forecasts[i]!));
@@ -118,9 +135,13 @@ export function buildingChangeDrivers(buildingId: string, inputs: readonly Meter
   const sums = new Float64Array(n);
   for (const m of used) for (let s = 0; s < n; s++) sums[s] += m.scenarioSums![s]!;
   const A = used.reduce((s, m) => s + m.lastYearCost, 0);
+  const billed = used.reduce((s, m) => s + m.lastYearBilledCost, 0);
   const F = bandOf(sums).p50;
   const weather = used.reduce((s, m) => s + m.weather, 0);
   const rates = used.reduce((s, m) => s + m.rates, 0);
   const months = [...new Set(used.flatMap((m) => m.months))].sort();
-  return { buildingId, months, lastYearCost: A, forecastCost: F, change: F - A, weather, rates, usageTrend: F - A - weather - rates, meters };
+  return {
+    buildingId, months, lastYearCost: A, lastYearBilledCost: billed, forecastCost: F, change: F - billed, weather, rates,
+    billingErrors: A - billed, usageTrend: F - A - weather - rates, meters,
+  };
 }

@@ -14,12 +14,13 @@ import { addDays, localMidnightMs } from "../core/time.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { monthsAfter, type CalendarMonth } from "./months.ts";
 import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
-import { scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
+import { scenarioTemperatures, scenarioYears, type WeatherYear } from "./weatherYears.ts";
 import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
 import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
 import { mulberry32, seedFromString } from "./random.ts";
+import { residualByCalendarMonth, type MonthAdjustment } from "./residual.ts";
 
 export const DEFAULT_SCENARIOS = 300;
 export const DEFAULT_SEED = 20_260_101;
@@ -36,10 +37,14 @@ export interface MeterForecastInput {
   fit: ChangePointFit | null;
   /** Typical temperature per calendar month (index 0 = Jan) in the model's unit; null = fallback. */
   typicalMonthlyTemp: number[] | null;
+  /** Typical temperature per calendar month from the station's normals file (model unit); null without one. */
+  normalsMonthlyTemp?: number[] | null;
   /** The station's historical weather years (model unit), identical for all meters of a building. */
   weatherYears: WeatherYear[];
   /** The meter's bills up to asOf (fallback usage, demand ratios, power factor). */
   bills: Bill[];
+  /** The meter's bills as billed up to asOf, when `bills` carry the audit's corrections. */
+  billedBills?: Bill[];
   /** Interval data (before the multiplier), used only before asOf. */
   intervals?: IntervalSeries | null;
   /** Billing demands (kW) of the meter's recent bills, oldest first, for ratchets. */
@@ -50,8 +55,16 @@ export interface MeterForecastInput {
   escalation: number;
   scenarios?: number;
   seed?: number;
-  /** Multiplies the prediction noise; 1 = the model's own interval (see calibrateNoise). */
+  /** Multiplies the prediction noise; 1 = the model's own interval (calibrated by the backtests, backtest.ts). */
   calibration?: number;
+  /** Calendar-month adjustment of the change-point forecast (residual.ts); absent = none. */
+  adjustment?: MonthAdjustment;
+  /**
+   * Calendar year of scenario s is scenarioYearOrder[s mod length] (the portfolio's weather years),
+   * so every meter of every station draws the same year in scenario s; a station without that year
+   * falls back to s mod its own years. Absent: s mod the station's years.
+   */
+  scenarioYearOrder?: readonly number[];
 }
 
 export interface MonthForecast {
@@ -163,7 +176,16 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
 export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
   const rng = mulberry32(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
   if (input.fit && input.typicalMonthlyTemp) {
+    const own = scenarioYears(input.weatherYears).map((y) => y.year);
+    const order = input.scenarioYearOrder;
+    const setOfScenario = order && order.length > 0 && own.length > 0
+      ? (s: number) => {
+          const i = own.indexOf(order[s % order.length]!);
+          return i >= 0 ? i : s % own.length;
+        }
+      : undefined;
     return modelUsageScenarios({
+      setOfScenario,
       fit: input.fit,
       typicalMonthlyTemp: input.typicalMonthlyTemp,
       temperatureSets: scenarioTemperatures(input.typicalMonthlyTemp, input.weatherYears),
@@ -171,6 +193,7 @@ export function meterUsageScenarios(input: MeterForecastInput, months: CalendarM
       scenarios,
       calibration,
       rng,
+      residualPerDay: input.adjustment ? residualByCalendarMonth(input.fit, input.bills, input.weatherYears, input.asOf, input.adjustment) : null,
     });
   }
   return fallbackUsageScenarios({ bills: input.bills, months, scenarios, calibration, rng });

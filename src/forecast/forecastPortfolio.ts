@@ -10,6 +10,9 @@ import { buildingForecastInputs, type ForecastRunOptions } from "./portfolioInpu
 import { buildingCostBand, buildingMonthlyCostBands, forecastRows, type ForecastRow } from "./rollup.ts";
 import { buildingChangeDrivers, type BuildingDrivers } from "./drivers.ts";
 import { bandOf, type Band } from "./quantiles.ts";
+import type { WeatherBasisId } from "./weatherBasis.ts";
+import type { MonthAdjustment } from "./residual.ts";
+import { scenarioYears } from "./weatherYears.ts";
 
 export interface BuildingForecast {
   buildingId: string;
@@ -24,11 +27,15 @@ export interface BuildingForecast {
 export interface PortfolioForecast {
   asOf: string;
   calibration: number;
+  /** Weather basis of the typical year (null: each baseline's own, normals or history average). */
+  basis: WeatherBasisId | null;
+  /** Calendar-month adjustment used (residual.ts). */
+  adjustment: MonthAdjustment;
   buildings: BuildingForecast[];
   rows: ForecastRow[];
   /**
-   * Portfolio next-12-month range: scenario s summed over every priced meter. Buildings on one
-   * station share weather years; across stations scenario s pairs weather years by index.
+   * Portfolio next-12-month range: scenario s summed over every priced meter. Scenario s is the
+   * same calendar weather year for every meter on every station that has it (scenarioYearOrder).
    */
   costNext12m: Band | null;
 }
@@ -38,8 +45,11 @@ export interface PortfolioForecast {
  * @example forecastPortfolio(portfolio, { asOf: "2025-12-31", months: 12, calibration: 3 }).rows // forecast.csv rows
  */
 export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: ForecastRunOptions): PortfolioForecast {
-  const buildings = portfolio.buildings.map((building) => {
-    const inputs = buildingForecastInputs(portfolio, building, options);
+  const inputsByBuilding = portfolio.buildings.map((building) => buildingForecastInputs(portfolio, building, options));
+  // One calendar year per scenario for the whole portfolio, so totals keep the weather's correlation across stations.
+  const scenarioYearOrder = [...new Set(inputsByBuilding.flat().flatMap((i) => scenarioYears(i.weatherYears).map((y) => y.year)))].sort((a, b) => a - b);
+  const buildings = portfolio.buildings.map((building, b) => {
+    const inputs = inputsByBuilding[b]!.map((i) => ({ ...i, scenarioYearOrder }));
     const meters = inputs.map(forecastMeter);
     return {
       buildingId: building.buildingId,
@@ -53,6 +63,8 @@ export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: Forecas
   return {
     asOf: options.asOf,
     calibration: options.calibration ?? 1,
+    basis: options.basis ?? null,
+    adjustment: options.adjustment ?? "none",
     buildings,
     rows: forecastRows(all),
     costNext12m: portfolioBand(all),

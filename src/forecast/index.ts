@@ -7,14 +7,18 @@ export { forecastMeter, DEFAULT_SCENARIOS, DEFAULT_SEED, type MeterForecastInput
 export { forecastPortfolio, type PortfolioForecast, type BuildingForecast } from "./forecastPortfolio.ts";
 export { buildingForecastInputs, billsKnownAt, type ForecastRunOptions } from "./portfolioInputs.ts";
 export { forecastRows, buildingCostBand, buildingMonthlyCostBands, type ForecastRow } from "./rollup.ts";
-export { trackRecord, backtestInputs, backtestAsOf, compareWithActuals, actualMonthlyCost, naiveSameMonthLastYear, pooledAccuracy,
+export { trackRecord, trackRecordFromBacktest, backtestInputs, backtestAsOf, compareWithActuals, actualMonthlyCost, naiveSameMonthLastYear, pooledAccuracy,
   type TrackRecord, type MeterTrackRecord, type AccuracySummary, type MonthComparison, type TrackRecordOptions } from "./trackRecord.ts";
-export { calibrateNoise, CALIBRATION_GRID, TARGET_COVERAGE, type CalibrationResult } from "./calibrate.ts";
+export { rollingBacktest, rollingOrigins, monthsOfBills, accuracyOf, CALIBRATION_GRID, TARGET_COVERAGE, MIN_TRACK_RECORD_MONTHS, MIN_FIT_MONTHS,
+  type RollingBacktest, type AdjustmentScore, type OriginSummary, type BasisScore, type Accuracy, type BacktestMeter } from "./backtest.ts";
+export { weatherBasisCandidates, typicalForBasis, basisYears, WEATHER_BASES, WEATHER_BASIS_LABEL, type WeatherBasisId } from "./weatherBasis.ts";
+export { correctBills, type CorrectedBillSet, type MoneyFindingLike } from "./correctedBills.ts";
 export { buildingChangeDrivers, meterChangeDrivers, type BuildingDrivers, type MeterDrivers, type ChangeDrivers } from "./drivers.ts";
-export { forecastWithTrackRecord, type ForecastBundle } from "./run.ts";
+export { forecastWithTrackRecord, type ForecastBundle, type CalibrationResult } from "./run.ts";
 export { annualErrorPct, cvRmsePct, coverageShare } from "./accuracy.ts";
 export { escalationFactorForDays, escalationFactorForMonth, escalationBase } from "./escalation.ts";
 export { bandOf, type Band } from "./quantiles.ts";
 export { weatherYears, scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
 export { monthsAfter, spreadBillsByMonth, type CalendarMonth } from "./months.ts";
 export { ForecastInputError } from "./errors.ts";
+export { residualByCalendarMonth, MONTH_ADJUSTMENTS, MONTH_ADJUSTMENT_LABEL, type MonthAdjustment } from "./residual.ts";

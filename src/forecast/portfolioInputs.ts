@@ -8,11 +8,13 @@ import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } 
 import type { Tariff } from "../tariff/model.ts";
 import { priceBill } from "../tariff/price.ts";
 import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
-import { fitMeterBaseline, type MeterBaseline } from "../pipeline/baselines.ts";
+import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../pipeline/baselines.ts";
 import { priceMeterBills } from "../pipeline/priceBills.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
+import { typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
+import type { MonthAdjustment } from "./residual.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -29,6 +31,14 @@ export interface ForecastRunOptions {
   scenarios?: number;
   seed?: number;
   calibration?: number;
+  /** Noise factor per meter (overrides `calibration`): meters without a track record keep 1. */
+  calibrationByMeter?: ReadonlyMap<string, number>;
+  /** The bills as billed, when `portfolio.bills` carry the audit's corrections (drivers show the difference). */
+  billedBills?: readonly Bill[];
+  /** Weather basis for the typical year (weatherBasis.ts); absent = the baseline's own typical year. */
+  basis?: WeatherBasisId;
+  /** Calendar-month adjustment (residual.ts); absent = none. */
+  adjustment?: MonthAdjustment;
 }
 
 /** Bills whose period ends by the day after `asOf` (the ingest rule for as_of). */
@@ -67,6 +77,8 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   const weather = weatherBefore(portfolio.weather.get(building.weatherStation), untilMs);
   const normals = portfolio.normals.get(building.weatherStation);
   const years: WeatherYear[] = weatherYears(weather, building.timezone, tempUnit, untilMs);
+  const normalsC = normals ? typicalMonthlyTempC(normals, building.timezone) : null;
+  const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? t * 1.8 + 32 : t)) : null;
   const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
   const series = new Map<string, IntervalSeries>();
   for (const m of meters) {
@@ -94,16 +106,19 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       asOf: options.asOf,
       months: options.months,
       fit: baseline.fit,
-      typicalMonthlyTemp: baseline.typicalMonthlyTemp,
+      typicalMonthlyTemp: options.basis && baseline.fit ? typicalForBasis(options.basis, years, normalsMonthlyTemp) ?? baseline.typicalMonthlyTemp : baseline.typicalMonthlyTemp,
+      normalsMonthlyTemp,
       weatherYears: years,
       bills,
+      billedBills: options.billedBills ? billsKnownAt(options.billedBills.filter((b) => b.meterId === meter.meterId), options.asOf) : undefined,
       intervals: series.get(meter.meterId) ?? null,
       previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? recentBillingDemands(meter, bills, tariff!, building.timezone, series.get(meter.meterId)) : [],
       loadShapeByHourOfWeek: shapeOf(meter),
       escalation: portfolio.settings.escalation[meter.commodity] ?? 0,
       scenarios: options.scenarios,
       seed: options.seed,
-      calibration: options.calibration,
+      calibration: options.calibrationByMeter?.get(meter.meterId) ?? options.calibration,
+      adjustment: options.adjustment,
     };
   });
 }

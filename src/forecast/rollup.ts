@@ -2,9 +2,10 @@
  * Rows of OUT/data/forecast.csv and the per-building next-12-month cost range.
  *
  * The building range is taken over scenario sums: scenario s of every meter of the building is
- * added before quantiles are taken. Meters of one building share the station's weather years
- * and scenario s uses weather year s mod W for all of them, so a cold year is cold for the gas
- * and the electricity meter alike (the prediction noise is drawn per meter, independently).
+ * added before quantiles are taken. Scenario s uses the same calendar weather year for every
+ * meter of the portfolio (forecastPortfolio.ts), so a cold year is cold for the gas and the
+ * electricity meter alike and for every building (the prediction noise is drawn per meter,
+ * independently).
  */
 import type { MeterForecast } from "./forecastMeter.ts";
 import { bandOf, type Band } from "./quantiles.ts";

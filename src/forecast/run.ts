@@ -1,40 +1,80 @@
 /**
- * One call for the build: calibrate the noise on the backtest year, report the track record
- * at the chosen factor, and forecast the next months with it.
+ * One call for the build: apply the audit's corrections to the bills, run the rolling-origin
+ * backtests (weather basis, band calibration, track record), and forecast the next months with
+ * the chosen basis and, for meters with a track record, the calibrated noise.
  */
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
 import type { MeterBaseline } from "../pipeline/baselines.ts";
-import { calibrateNoise, type CalibrationResult } from "./calibrate.ts";
+import { correctBills, type CorrectedBillSet, type MoneyFindingLike } from "./correctedBills.ts";
+import { rollingBacktest, MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
 import { forecastPortfolio, type PortfolioForecast } from "./forecastPortfolio.ts";
-import { backtestInputs, trackRecord, type TrackRecord } from "./trackRecord.ts";
+import { trackRecordFromBacktest, type TrackRecord } from "./trackRecord.ts";
+
+export interface CalibrationResult {
+  /** Noise factor of the forecast for meters with a track record (1 = the model's own band). */
+  factor: number;
+  /** False when no backtest could be scored: every band is the model's own. */
+  calibrated: boolean;
+  /** Pooled share of backtest meter-months inside P10–P90 for each factor tried (every origin). */
+  coverageByFactor: { factor: number; coverage: number; months: number }[];
+  note: string;
+}
 
 export interface ForecastBundle {
   forecast: PortfolioForecast;
   calibration: CalibrationResult;
-  /**
-   * Track record with the chosen factor. Its coverage is in-sample (the factor was chosen on the
-   * same months); the coverage with the model's own interval (factor 1) is in
-   * `calibration.coverageByFactor`.
-   */
+  /** The latest origin (one year before as-of) per meter, with the out-of-sample band. */
   trackRecord: TrackRecord;
+  /** Every rolling origin: basis scores, accuracy and coverage per origin. */
+  backtest: RollingBacktest;
+  /** Bills corrected by the audit and used as the base (count and amounts). */
+  corrections: CorrectedBillSet["deltaByBill"];
 }
 
 /**
- * Backtest, calibration and forecast.
- * @param options.asOf last day of data; options.months the horizon (forecast_months)
+ * Backtests, calibration and forecast.
+ * @param options.asOf last day of data; options.months the horizon (forecast_months);
+ *   options.findings the audit's findings (their corrected bills become the base)
  * @example const { forecast, trackRecord } = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12 })
  */
 export function forecastWithTrackRecord(
   portfolio: Portfolio<Tariff>,
-  options: { asOf: string; months: number; scenarios?: number; seed?: number; baselines?: ReadonlyMap<string, Pick<MeterBaseline, "fit" | "typicalMonthlyTemp">> },
+  options: {
+    asOf: string;
+    months: number;
+    scenarios?: number;
+    seed?: number;
+    baselines?: ReadonlyMap<string, Pick<MeterBaseline, "fit" | "typicalMonthlyTemp">>;
+    findings?: readonly (MoneyFindingLike & { meterId: string })[];
+  },
 ): ForecastBundle {
-  const trOptions = { asOf: options.asOf, months: 12, scenarios: options.scenarios, seed: options.seed };
-  const inputs = backtestInputs(portfolio, trOptions);
-  const billsByMeter = new Map<string, typeof portfolio.bills>();
-  for (const b of portfolio.bills) billsByMeter.set(b.meterId, [...(billsByMeter.get(b.meterId) ?? []), b]);
-  const calibration = calibrateNoise(inputs, billsByMeter, options.asOf);
-  const record = trackRecord(portfolio, { ...trOptions, calibration: calibration.factor }, inputs);
-  const forecast = forecastPortfolio(portfolio, { ...options, calibration: calibration.factor });
-  return { forecast, calibration, trackRecord: record };
+  const corrected = correctBills(portfolio.bills, options.findings ?? []);
+  const base: Portfolio<Tariff> = { ...portfolio, bills: corrected.bills };
+  const backtest = rollingBacktest(base, { asOf: options.asOf, scenarios: options.scenarios, seed: options.seed });
+  const calibrationByMeter = new Map(
+    portfolio.meters.map((m) => [m.meterId, backtest.calibrated && (backtest.monthsOfBills.get(m.meterId) ?? 0) >= MIN_TRACK_RECORD_MONTHS ? backtest.factor : 1]),
+  );
+  const forecast = forecastPortfolio(base, {
+    asOf: options.asOf,
+    months: options.months,
+    scenarios: options.scenarios,
+    seed: options.seed,
+    baselines: options.baselines,
+    basis: backtest.basis ?? undefined,
+    adjustment: backtest.adjustment,
+    calibration: backtest.factor,
+    calibrationByMeter,
+    billedBills: portfolio.bills,
+  });
+  const chosen = backtest.coverageByFactor.find((c) => c.factor === backtest.factor);
+  const calibration: CalibrationResult = {
+    factor: backtest.factor,
+    calibrated: backtest.calibrated,
+    coverageByFactor: backtest.coverageByFactor.map((c) => ({ factor: c.factor, coverage: c.coverage, months: c.meterMonths })),
+    note: backtest.calibrated && chosen
+      ? `noise factor ${backtest.factor} puts ${(chosen.coverage * 100).toFixed(1)} % of ${chosen.meterMonths} backtest meter-months (${backtest.origins.length} origin(s)) inside P10–P90`
+      : "no backtest could be scored: every band is the model's own (uncalibrated)",
+  };
+  return { forecast, calibration, trackRecord: trackRecordFromBacktest(base, backtest, options.asOf), backtest, corrections: corrected.deltaByBill };
 }

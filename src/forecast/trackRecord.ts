@@ -22,6 +22,7 @@ import { billsKnownAt, buildingForecastInputs } from "./portfolioInputs.ts";
 import { minusMonths, shiftMonth, spreadBillsByMonth } from "./months.ts";
 import { annualErrorPct, coverageShare, cvRmsePct } from "./accuracy.ts";
 import { bandOf, type Band } from "./quantiles.ts";
+import { MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
 
 export interface MonthComparison {
   month: string;
@@ -56,7 +57,10 @@ export interface TrackRecord {
   /** The real as-of and the backtest's (12 months earlier). */
   asOf: string;
   backtestAsOf: string;
+  /** Noise factor of the band shown (chosen on the other origins; 1 = the model's own). */
   calibration: number;
+  /** False when the band shown is the model's own (no other origin to calibrate on). */
+  calibrated: boolean;
   meters: MeterTrackRecord[];
   buildings: { buildingId: string; model: AccuracySummary | null; naive: AccuracySummary | null }[];
   overall: { model: AccuracySummary | null; naive: AccuracySummary | null; meanAbsAnnualErrorPct: { model: number | null; naive: number | null } };
@@ -112,7 +116,7 @@ export function compareWithActuals(forecast: MeterForecast, allBills: readonly B
   return { ...base, comparisons, model, naive, note: null };
 }
 
-function summarize(actual: number[], forecast: number[], forecastTotal: number, bands: Band[] | null): AccuracySummary | null {
+export function summarize(actual: number[], forecast: number[], forecastTotal: number, bands: Band[] | null): AccuracySummary | null {
   const actualTotal = actual.reduce((a, b) => a + b, 0);
   if (!(actualTotal > 0)) return null;
   return {
@@ -204,6 +208,56 @@ export function trackRecord(portfolio: Portfolio<Tariff>, options: TrackRecordOp
     asOf: options.asOf,
     backtestAsOf: bt,
     calibration,
+    calibrated: calibration !== 1,
+    meters,
+    buildings,
+    overall: { model: pooledAccuracy(meters, "model"), naive: pooledAccuracy(meters, "naive"), meanAbsAnnualErrorPct: { model: meanAbs("model"), naive: meanAbs("naive") } },
+  };
+}
+
+/**
+ * The track record the page shows: the latest rolling origin (one year before as-of), each
+ * meter's months with the band at the factor chosen on the OTHER origins (out of sample; the
+ * model's own band when there is no other origin), the model P50 and the naive forecast on the
+ * same months. Meters with under 24 months of bills get the note "not enough history for a
+ * track record (N months)".
+ * @example trackRecordFromBacktest(portfolio, rollingBacktest(portfolio, { asOf }), asOf).overall.model?.coverage
+ */
+export function trackRecordFromBacktest(portfolio: Portfolio<Tariff>, bt: RollingBacktest, asOf: string): TrackRecord {
+  const summary = bt.summaries[0];
+  const factorIndex = summary ? bt.coverageByFactor.findIndex((c) => c.factor === summary.factor) : -1;
+  const latest = new Map((bt.meters[0] ?? []).map((m) => [m.meterId, m]));
+  const meters: MeterTrackRecord[] = portfolio.meters.map((meter) => {
+    const base = { meterId: meter.meterId, buildingId: meter.buildingId, comparisons: [] as MonthComparison[], model: null, naive: null };
+    const months = bt.monthsOfBills.get(meter.meterId) ?? 0;
+    if (months < MIN_TRACK_RECORD_MONTHS) return { ...base, note: `not enough history for a track record (${months} months)` };
+    const m = latest.get(meter.meterId);
+    const band = m?.bandByFactor[factorIndex];
+    if (!m || !band) return { ...base, note: "no month of the past year could be compared (no tariff, or no complete month with a bill a year earlier)" };
+    const comparisons: MonthComparison[] = m.months.map((month, k) => ({
+      month,
+      actualCost: m.actual[k]!,
+      forecastCost: { p10: band.lo[k]!, p50: band.mid[k]!, p90: band.hi[k]! },
+      naiveCost: m.naive[k]!,
+      inside: m.actual[k]! >= band.lo[k]! && m.actual[k]! <= band.hi[k]!,
+    }));
+    const model = summarize(m.actual, band.mid, band.mid.reduce((s, x) => s + x, 0), comparisons.map((c) => c.forecastCost));
+    const naive = summarize(m.actual, m.naive, m.naive.reduce((s, x) => s + x, 0), null);
+    return { ...base, comparisons, model, naive, note: null };
+  });
+  const buildings = portfolio.buildings.map((b) => {
+    const own = meters.filter((m) => m.buildingId === b.buildingId);
+    return { buildingId: b.buildingId, model: pooledAccuracy(own, "model"), naive: pooledAccuracy(own, "naive") };
+  });
+  const meanAbs = (which: "model" | "naive"): number | null => {
+    const xs = meters.map((m) => m[which]?.annualErrorPct).filter((x): x is number => x !== undefined);
+    return xs.length > 0 ? xs.reduce((s, x) => s + Math.abs(x), 0) / xs.length : null;
+  };
+  return {
+    asOf,
+    backtestAsOf: summary?.cut ?? backtestAsOf(asOf),
+    calibration: summary?.factor ?? 1,
+    calibrated: summary?.calibrated ?? false,
     meters,
     buildings,
     overall: { model: pooledAccuracy(meters, "model"), naive: pooledAccuracy(meters, "naive"), meanAbsAnnualErrorPct: { model: meanAbs("model"), naive: meanAbs("naive") } },

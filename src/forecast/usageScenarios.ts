@@ -7,6 +7,7 @@
  *   usePerDay = ŷ(T_s,k) + c · λ_s · ( z0_s · SEmean(T) + z_s,k · sqrt(SEpred(T)² − SEmean(T)²) )
  *   usage     = max(0, usePerDay) · days in month
  *
+ * (plus, when chosen, the calendar month's adjustment r_m of residual.ts inside the max).
  * T_s,k is the scenario temperature (weather year w = s mod W, see weatherYears.ts); SEpred and
  * SEmean come from the fit's prediction interval for a period of that many days; z0 (shared by
  * the scenario's months: the fitted line is uncertain as a whole) and z_s,k (each month's own
@@ -52,6 +53,10 @@ export interface ModelUsageOptions {
   scenarios: number;
   calibration: number;
   rng: Uniform;
+  /** Calendar-month adjustment of use per day (index 0 = January; residual.ts); absent = none. */
+  residualPerDay?: readonly number[] | null;
+  /** Temperature set of scenario s; default s mod the number of sets. */
+  setOfScenario?: (s: number) => number;
 }
 
 /** Usage scenarios from a change-point model (see the module comment for the formula). */
@@ -69,7 +74,7 @@ export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
     }),
   );
   for (let s = 0; s < o.scenarios; s++) {
-    const w = s % o.temperatureSets.length;
+    const w = o.setOfScenario ? o.setOfScenario(s) : s % o.temperatureSets.length;
     weatherIndex[s] = w;
     const lambda = studentScale(o.rng, df);
     const z0 = standardNormal(o.rng);
@@ -77,7 +82,7 @@ export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
     months.forEach((m, k) => {
       const band = bands[w]![k]!;
       const z = standardNormal(o.rng);
-      const perDay = band.fit + o.calibration * lambda * (z0 * band.seMean + z * band.own);
+      const perDay = band.fit + (o.residualPerDay?.[m.calendarMonth - 1] ?? 0) + o.calibration * lambda * (z0 * band.seMean + z * band.own);
       row[k] = Math.max(0, perDay) * m.days;
     });
     usage.push(row);
@@ -86,7 +91,7 @@ export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
     method: "change-point",
     usage,
     weatherIndex,
-    typicalUsePerDay: months.map((m) => fit.predict(o.typicalMonthlyTemp[m.calendarMonth - 1]!)),
+    typicalUsePerDay: months.map((m) => fit.predict(o.typicalMonthlyTemp[m.calendarMonth - 1]!) + (o.residualPerDay?.[m.calendarMonth - 1] ?? 0)),
     note: `${fit.kind} change-point model at ${o.temperatureSets.length} weather year(s); prediction noise Student-t with ${df} df × calibration ${o.calibration}`,
   };
 }

@@ -143,7 +143,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
-  const forecast = runForecast(portfolio, results, issues);
+  const forecast = runForecast(portfolio, results, issues, findings);
 
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
@@ -180,12 +180,12 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
  * across buildings). A failure here costs the forecast, never the rest of the site: it becomes a
  * warning and the pages say no forecast was made.
  */
-function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[]): ForecastBundle | null {
+function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[]): ForecastBundle | null {
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
   try {
-    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines });
+    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines, findings });
   } catch (error) {
     issues.push({
       file: "portfolio.yaml",

@@ -222,6 +222,12 @@ function accuracyJson(a: { months: number; forecastTotal: number; actualTotal: n
     : null;
 }
 
+function originAccuracyJson(a: { meterMonths: number; actualTotal: number; forecastTotal: number; annualErrorPct: number; meanAbsMeterAnnualErrorPct: number; cvRmsePct: number } | null) {
+  return a
+    ? { meter_months: a.meterMonths, actual_total: round(a.actualTotal, 2), forecast_total: round(a.forecastTotal, 2), annual_error_pct: round(a.annualErrorPct, 3), mean_abs_meter_annual_error_pct: round(a.meanAbsMeterAnnualErrorPct, 3), cv_rmse_pct: round(a.cvRmsePct, 3) }
+    : null;
+}
+
 function portfolioJson(input: OutputsInput) {
   const { portfolio, results } = input;
   const asOf = effectiveAsOf(portfolio);
@@ -238,6 +244,31 @@ function portfolioJson(input: OutputsInput) {
           escalation: portfolio.settings.escalation,
           escalation_stated: portfolio.settings.escalationStated,
           noise_calibration: fc.calibration.factor,
+          noise_calibrated: fc.calibration.calibrated ?? null,
+          weather_basis: fc.backtest?.basis ?? null,
+          weather_basis_reason: fc.backtest?.basisReason ?? null,
+          month_adjustment: fc.backtest?.adjustment ?? null,
+          corrected_bills_used: fc.corrections?.size ?? 0,
+          backtests: fc.backtest && {
+            bases: fc.backtest.bases.map((b) => ({ basis: b.basis, same_as: b.sameAs, mean_abs_annual_error_pct: round(b.meanAbsAnnualErrorPct, 3), cv_rmse_pct: round(b.cvRmsePct, 3) })),
+            month_adjustments: fc.backtest.adjustments.map((a) => ({ adjustment: a.adjustment, mean_abs_annual_error_pct: round(a.meanAbsAnnualErrorPct, 3), cv_rmse_pct: round(a.cvRmsePct, 3) })),
+            origins: fc.backtest.summaries.map((o) => ({
+              cut: o.cut,
+              meters: o.meters,
+              history_months: o.historyMonths,
+              model: originAccuracyJson(o.model),
+              naive_same_month_last_year: originAccuracyJson(o.naive),
+              coverage_p10_p90: round(o.coverage, 4),
+              coverage_factor: o.factor,
+              coverage_calibrated_on_other_origins: o.calibrated,
+              coverage_model_own_band: round(o.coverageOwnBand, 4),
+            })),
+            overall: {
+              model: originAccuracyJson(fc.backtest.overall.model),
+              naive_same_month_last_year: originAccuracyJson(fc.backtest.overall.naive),
+              coverage_p10_p90: round(fc.backtest.overall.coverage, 4),
+            },
+          },
           track_record: {
             backtest_as_of: fc.trackRecord.backtestAsOf,
             model: accuracyJson(fc.trackRecord.overall.model),

@@ -7,11 +7,11 @@ import type { InputIssue } from "../core/issues.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Finding } from "../audit/types.ts";
 import type { AccuracySummary, BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } from "../forecast/index.ts";
-import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands } from "../forecast/index.ts";
+import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands, MIN_TRACK_RECORD_MONTHS, MONTH_ADJUSTMENT_LABEL, WEATHER_BASIS_LABEL, type WeatherBasisId } from "../forecast/index.ts";
 import { shiftMonth } from "../forecast/months.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
 import type { MonthTotal } from "../ingest/monthlyTotals.ts";
-import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportInput, ReportMeterQuality, ReportModelSummary } from "../report/index.ts";
+import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportForecastMethod, ReportInput, ReportMeterQuality, ReportModelSummary } from "../report/index.ts";
 import type { BuildingResults } from "./build.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
@@ -76,7 +76,46 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     forecastTotals: forecast?.forecast.buildings.flatMap((b) => (b.costNext12m ? [{ buildingId: b.buildingId, ...b.costNext12m }] : [])),
     portfolioForecast: forecast?.forecast.costNext12m ?? undefined,
     buildingForecasts: forecast ? forecast.forecast.buildings.map((b) => buildingForecastDetail(b, portfolio.bills, forecast.forecast.asOf, forecast.trackRecord)) : undefined,
+    // A bundle from an older caller may lack the backtests: the method block is then left out.
+    forecastMethod: forecast?.backtest ? forecastMethod(forecast, portfolio) : undefined,
+    trackRecordNotes: forecast?.trackRecord.meters.flatMap((m) => (m.note ? [{ meterId: m.meterId, buildingId: m.buildingId, note: m.note }] : [])),
     portfolioTrackRecord: forecast ? { model: accuracy(forecast.trackRecord.overall.model), naive: accuracy(forecast.trackRecord.overall.naive) } : undefined,
+  };
+}
+
+/**
+ * How the forecast was made, for the pages: the basis chosen by the rolling-origin backtests and
+ * why, every basis scored, each origin's model-vs-naive figures and out-of-sample coverage, and
+ * the meters whose band is uncalibrated.
+ */
+export function forecastMethod(bundle: ForecastBundle, portfolio: Portfolio): ReportForecastMethod {
+  const bt = bundle.backtest;
+  const label = (b: WeatherBasisId) => WEATHER_BASIS_LABEL[b];
+  return {
+    basisLabel: bt.basis ? label(bt.basis) : "each meter's typical year (the normals file when there is one, otherwise the history's average)",
+    basisReason: bt.basisReason,
+    adjustmentLabel: MONTH_ADJUSTMENT_LABEL[bt.adjustment],
+    adjustments: bt.adjustments.map((a) => ({ label: MONTH_ADJUSTMENT_LABEL[a.adjustment], meanAbsAnnualErrorPct: a.meanAbsAnnualErrorPct, cvRmsePct: a.cvRmsePct, chosen: a.adjustment === bt.adjustment })),
+    bases: bt.bases.map((b) => ({ label: label(b.basis) + (b.sameAs.length ? ` (same as ${b.sameAs.map(label).join("; ")})` : ""), meanAbsAnnualErrorPct: b.meanAbsAnnualErrorPct, cvRmsePct: b.cvRmsePct, chosen: b.basis === bt.basis })),
+    origins: bt.summaries.map((o) => ({
+      cut: o.cut,
+      meters: o.meters,
+      historyMonths: o.historyMonths,
+      modelAnnualErrorPct: o.model?.annualErrorPct ?? null,
+      naiveAnnualErrorPct: o.naive?.annualErrorPct ?? null,
+      modelCvRmsePct: o.model?.cvRmsePct ?? null,
+      naiveCvRmsePct: o.naive?.cvRmsePct ?? null,
+      coverage: o.coverage,
+      factor: o.factor,
+      calibrated: o.calibrated,
+    })),
+    factor: bt.factor,
+    calibrated: bt.calibrated,
+    coverage: bt.overall.coverage,
+    uncalibratedMeters: portfolio.meters
+      .filter((m) => !bt.calibrated || (bt.monthsOfBills.get(m.meterId) ?? 0) < MIN_TRACK_RECORD_MONTHS)
+      .map((m) => ({ meterId: m.meterId, buildingId: m.buildingId, months: bt.monthsOfBills.get(m.meterId) ?? 0 })),
+    correctedBills: bundle.corrections.size,
   };
 }
 
@@ -125,7 +164,10 @@ export function buildingForecastDetail(b: BuildingForecast, bills: readonly Bill
     }),
     drivers:
       d.months.length > 0
-        ? { months: d.months, lastYearCost: d.lastYearCost, forecastCost: d.forecastCost, change: d.change, weather: d.weather, rates: d.rates, usageTrend: d.usageTrend }
+        ? {
+            months: d.months, lastYearCost: d.lastYearCost, lastYearBilledCost: d.lastYearBilledCost, billingErrors: d.billingErrors,
+            forecastCost: d.forecastCost, change: d.change, weather: d.weather, rates: d.rates, usageTrend: d.usageTrend,
+          }
         : null,
     trackRecord: tr && (tr.model || tr.naive) ? { model: accuracy(tr.model), naive: accuracy(tr.naive) } : null,
   };

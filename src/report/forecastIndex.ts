@@ -9,7 +9,7 @@ import { signedPct } from "./forecastSection.ts";
 /**
  * One row per building with change drivers, largest increase first: last year's billed cost
  * over the compared months, forecast P50 over the same calendar months next year, the change
- * (money and percent) and its weather, rates and usage-trend parts (they add up to the change).
+ * (money and percent) and its billing-error, weather, rates and usage-trend parts (they add up to the change).
  * Null when no building has drivers.
  * @example forecastChangeTable(contexts, input.buildingForecasts, "USD")?.rows[0][0].text // the building with the largest increase
  */
@@ -22,7 +22,7 @@ export function forecastChangeTable(contexts: readonly BuildingContext[], foreca
   rows.sort((a, b) => b.d.change - a.d.change || (a.ctx.building.name < b.ctx.building.name ? -1 : 1));
   const money = (v: number) => ({ text: formatMoneySigned(v, currency), sort: String(v) });
   return {
-    caption: "Buildings ranked by the forecast change against last year's bills over the same calendar months (weather + rates + usage trend = change)",
+    caption: "Buildings ranked by the forecast change against last year's bills over the same calendar months (billing errors corrected + weather + rates + usage trend = change)",
     sortable: true,
     columns: [
       { label: "Building", numeric: false },
@@ -30,18 +30,21 @@ export function forecastChangeTable(contexts: readonly BuildingContext[], foreca
       { label: "Forecast (P50)", numeric: true },
       { label: "Change", numeric: true },
       { label: "Change (%)", numeric: true },
+      { label: "Billing errors corrected", numeric: true },
       { label: "Weather", numeric: true },
       { label: "Rates", numeric: true },
       { label: "Usage trend", numeric: true },
     ],
     rows: rows.map(({ ctx, d }) => {
-      const pct = d.lastYearCost > 0 ? (100 * d.change) / d.lastYearCost : Number.NaN;
+      const billed = d.lastYearBilledCost ?? d.lastYearCost;
+      const pct = billed > 0 ? (100 * d.change) / billed : Number.NaN;
       return [
         { text: ctx.building.name, href: buildingPath(ctx.building.buildingId), sort: ctx.building.name.toLowerCase() },
-        { text: formatMoney(d.lastYearCost, currency), sort: String(d.lastYearCost) },
+        { text: formatMoney(billed, currency), sort: String(billed) },
         { text: formatMoney(d.forecastCost, currency), sort: String(d.forecastCost) },
         money(d.change),
         { text: signedPct(pct), sort: Number.isFinite(pct) ? String(pct) : "" },
+        money(d.billingErrors ?? 0),
         money(d.weather),
         money(d.rates),
         money(d.usageTrend),

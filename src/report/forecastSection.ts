@@ -20,9 +20,10 @@ export function signedPct(v: number): string {
 function trackRecordTable(meters: Meter[], input: ReportInput): TableModel | null {
   const ids = new Set(meters.map((m) => m.meterId));
   const rows = (input.trackRecord ?? []).filter((t) => ids.has(t.meterId));
-  if (rows.length === 0) return null;
+  const notes = (input.trackRecordNotes ?? []).filter((t) => ids.has(t.meterId));
+  if (rows.length === 0 && notes.length === 0) return null;
   return {
-    caption: "Track record: the same method forecasting a past year, compared with what was billed",
+    caption: "Track record: the same method forecasting the past year from the data before it, compared with the bills over the same months as the naive forecast (the range is calibrated on other years only)",
     sortable: false,
     columns: [
       { label: "Meter", numeric: false },
@@ -37,8 +38,102 @@ function trackRecordTable(meters: Meter[], input: ReportInput): TableModel | nul
       { text: signedPct(t.naiveAnnualCostErrorPct) },
       { text: Number.isFinite(t.monthlyCvRmsePct) ? `${formatNumber(t.monthlyCvRmsePct, 1)} %` : NOT_AVAILABLE },
       { text: Number.isFinite(t.coverage) ? `${formatNumber(t.coverage * 100, 0)} %` : NOT_AVAILABLE },
-    ]),
+    ]).concat(notes.map((n) => [
+      { text: n.meterId },
+      { text: n.note, tone: "muted" as const },
+      { text: NOT_AVAILABLE, tone: "muted" as const },
+      { text: NOT_AVAILABLE, tone: "muted" as const },
+      { text: NOT_AVAILABLE, tone: "muted" as const },
+    ])),
   };
+}
+
+function pct(v: number | null, digits = 1): string {
+  return v === null || !Number.isFinite(v) ? NOT_AVAILABLE : `${formatNumber(v, digits)} %`;
+}
+
+/**
+ * How the forecast was made, in sentences and two tables: the weather basis chosen by the
+ * rolling-origin backtests (every basis scored), and each origin's model-vs-naive figures with
+ * its out-of-sample coverage. Null when the forecast stage did not run.
+ * @example methodOf(input, meters)?.sentences[0] // "Typical weather: the mean of the most recent 10 years …"
+ */
+export function methodOf(input: ReportInput, meters: Meter[]): { sentences: string[]; tables: TableModel[] } | null {
+  const m = input.forecastMethod;
+  if (!m) return null;
+  const ids = new Set(meters.map((x) => x.meterId));
+  const sentences = [`Typical weather: ${m.basisLabel}. Why: ${m.basisReason}.`];
+  if (m.adjustmentLabel) {
+    sentences.push(`Adjustment by calendar month: ${m.adjustmentLabel}; of the adjustments tried, it gave the smallest annual cost error plus monthly CV(RMSE) on the same backtests.`);
+  }
+  if (m.calibrated) {
+    sentences.push(
+      `The range (P10 to P90) is the model's prediction noise widened by a factor of ${formatNumber(m.factor, 2)}, the factor that put about 80 % of backtest meter-months inside it. Judged on years the factor was not chosen on, ${pct(m.coverage === null ? null : m.coverage * 100, 0)} of meter-months fell inside.`,
+    );
+  } else {
+    sentences.push("The range is the model's own (uncalibrated): no meter has the 24 months of bills a backtest needs, so it has not been checked against a past year.");
+  }
+  const own = m.uncalibratedMeters.filter((u) => ids.has(u.meterId));
+  if (m.calibrated && own.length > 0) {
+    sentences.push(`Uncalibrated range (the model's own, not checked against a past year): ${own.map((u) => `${u.meterId} (${formatNumber(u.months)} months of bills)`).join(", ")}.`);
+  }
+  if (m.correctedBills > 0) {
+    sentences.push(`${formatNumber(m.correctedBills)} ${m.correctedBills === 1 ? "bill" : "bills"} the audit found wrong ${m.correctedBills === 1 ? "is" : "are"} used as ${m.correctedBills === 1 ? "it" : "they"} should have been (the corrected amounts of the dispute list), in the backtests and as last year's base.`);
+  }
+  const tables: TableModel[] = [];
+  if (m.bases.length > 0) {
+    tables.push({
+      caption: "Weather bases compared on the rolling-origin backtests (mean over the origins); the smallest annual cost error is used",
+      sortable: false,
+      columns: [
+        { label: "Typical weather", numeric: false },
+        { label: "Mean absolute annual cost error per meter", numeric: true },
+        { label: "Monthly CV(RMSE)", numeric: true },
+      ],
+      rows: m.bases.map((b) => [
+        { text: `${b.label}${b.chosen ? " (used)" : ""}` },
+        { text: pct(b.meanAbsAnnualErrorPct) },
+        { text: pct(b.cvRmsePct) },
+      ]),
+    });
+  }
+  if (m.adjustments && m.adjustments.length > 0) {
+    tables.push({
+      caption: "Adjustments by calendar month compared on the same backtests (mean over the origins); the smallest sum of the two errors is used",
+      sortable: false,
+      columns: [
+        { label: "Adjustment", numeric: false },
+        { label: "Mean absolute annual cost error per meter", numeric: true },
+        { label: "Monthly CV(RMSE)", numeric: true },
+      ],
+      rows: m.adjustments.map((a) => [{ text: `${a.label}${a.chosen ? " (used)" : ""}` }, { text: pct(a.meanAbsAnnualErrorPct) }, { text: pct(a.cvRmsePct) }]),
+    });
+  }
+  if (m.origins.length > 0) {
+    tables.push({
+      caption: "Backtests by origin: forecast made at the cut date from the data before it, compared with the next 12 months of bills (whole portfolio, same meter-months for both forecasts)",
+      sortable: false,
+      columns: [
+        { label: "Cut date", numeric: false },
+        { label: "Meters (months of bills before the cut)", numeric: false },
+        { label: "Annual cost error, forecast", numeric: true },
+        { label: "Annual cost error, same month last year", numeric: true },
+        { label: "Monthly CV(RMSE), forecast", numeric: true },
+        { label: "Monthly CV(RMSE), same month last year", numeric: true },
+        { label: "Inside the range", numeric: true },
+      ],
+      rows: m.origins.map((o) => [
+        { text: o.cut },
+        { text: `${formatNumber(o.meters)} (${o.historyMonths.min === o.historyMonths.max ? formatNumber(o.historyMonths.min) : `${formatNumber(o.historyMonths.min)}–${formatNumber(o.historyMonths.max)}`})` },
+        { text: o.modelAnnualErrorPct === null ? NOT_AVAILABLE : signedPct(o.modelAnnualErrorPct) },
+        { text: o.naiveAnnualErrorPct === null ? NOT_AVAILABLE : signedPct(o.naiveAnnualErrorPct) },
+        { text: pct(o.modelCvRmsePct) },
+        { text: pct(o.naiveCvRmsePct) },
+        { text: `${pct(o.coverage === null ? null : o.coverage * 100, 0)}${o.calibrated ? "" : " (model's own range, uncalibrated)"}` },
+      ]),
+    });
+  }
+  return { sentences, tables };
 }
 
 /**
@@ -54,6 +149,7 @@ export function trackRecordVerdict(record: { model: ReportAccuracy | null; naive
   // Coverage of a building or the portfolio is pooled over meter-months, so it is given as a share, not "k of n months".
   const inside = model.coverage != null ? ` ${formatNumber(model.coverage * 100, 0)} % of the months compared fell inside the 80 % range.` : "";
   const naive = record?.naive;
+  if (model.months < 1) return null;
   if (!naive || !Number.isFinite(naive.annualErrorPct)) {
     return `Forecasting the past year, the method ${missed}; there was no earlier year to compare a naive forecast with.${inside}`;
   }
@@ -150,9 +246,16 @@ function changeText(amount: number, base: number, currency: string): string {
  */
 export function driverSentences(d: ReportForecastDrivers, currency: string): string[] {
   const n = d.months.length;
+  const billed = d.lastYearBilledCost ?? d.lastYearCost;
   const out = [
-    `Over the same ${formatNumber(n)} calendar ${n === 1 ? "month" : "months"} (${formatMonth(d.months[0]!)} to ${formatMonth(d.months[n - 1]!)} last year), next year's likely cost is ${formatMoney(d.forecastCost, currency)} against ${formatMoney(d.lastYearCost, currency)} billed: ${changeText(d.change, d.lastYearCost, currency)}.`,
+    `Over the same ${formatNumber(n)} calendar ${n === 1 ? "month" : "months"} (${formatMonth(d.months[0]!)} to ${formatMonth(d.months[n - 1]!)} last year), next year's likely cost is ${formatMoney(d.forecastCost, currency)} against ${formatMoney(billed, currency)} billed: ${changeText(d.change, billed, currency)}.`,
   ];
+  const e = Math.round((d.billingErrors ?? 0) * 100) / 100;
+  if (e !== 0) {
+    out.push(
+      `Billing errors corrected: ${formatMoneySigned(e, currency)}. Last year's bills as they should have been come to ${formatMoney(d.lastYearCost, currency)} (the audit's corrected amounts); ${e < 0 ? "the overcharge will not recur" : "the undercharge will not recur"}. The drivers below start from the corrected bills.`,
+    );
+  }
   const w = Math.round(d.weather * 100) / 100;
   out.push(
     w === 0
@@ -169,7 +272,7 @@ export function driverSentences(d: ReportForecastDrivers, currency: string): str
   );
   const u = Math.round(d.usageTrend * 100) / 100;
   out.push(
-    `Usage trend: ${formatMoneySigned(u, currency)}. The rest of the change: use expected to differ from last year's beyond the weather (and effects such as demand charges or last year's billing quirks).`,
+    `Usage trend: ${formatMoneySigned(u, currency)}. The rest of the change: use expected to differ from last year's beyond the weather (and effects such as demand charges); billing errors are not part of it.`,
   );
   return out;
 }
@@ -177,13 +280,15 @@ export function driverSentences(d: ReportForecastDrivers, currency: string): str
 /** The drivers as a one-row table (last year, forecast, change, weather, rates, usage trend). */
 function driversTable(d: ReportForecastDrivers, currency: string): TableModel {
   return {
-    caption: "Change against last year's bills over the same calendar months, and what drives it (weather + rates + usage trend = change)",
+    caption: "Change against last year's bills over the same calendar months, and what drives it (billing errors corrected + weather + rates + usage trend = change)",
     sortable: false,
     columns: [
       { label: "Months compared", numeric: false },
       { label: "Last year, billed", numeric: true },
+      { label: "Last year, as it should have been", numeric: true },
       { label: "Forecast (P50)", numeric: true },
       { label: "Change", numeric: true },
+      { label: "Billing errors corrected", numeric: true },
       { label: "Weather", numeric: true },
       { label: "Rates", numeric: true },
       { label: "Usage trend", numeric: true },
@@ -191,9 +296,11 @@ function driversTable(d: ReportForecastDrivers, currency: string): TableModel {
     rows: [
       [
         { text: `${formatMonth(d.months[0]!)} – ${formatMonth(d.months[d.months.length - 1]!)}` },
+        { text: formatMoney(d.lastYearBilledCost ?? d.lastYearCost, currency) },
         { text: formatMoney(d.lastYearCost, currency) },
         { text: formatMoney(d.forecastCost, currency) },
-        { text: changeText(d.change, d.lastYearCost, currency) },
+        { text: changeText(d.change, d.lastYearBilledCost ?? d.lastYearCost, currency) },
+        { text: formatMoneySigned(d.billingErrors ?? 0, currency) },
         { text: formatMoneySigned(d.weather, currency) },
         { text: formatMoneySigned(d.rates, currency) },
         { text: formatMoneySigned(d.usageTrend, currency) },
@@ -216,7 +323,7 @@ export function escalationSentences(settings: Pick<PortfolioSettings, "escalatio
   }
   return [
     assumption,
-    "Tariff versions dated in the future are used from their start dates. Forecasts are estimates: they assume typical weather and the use the models expect, not the bills to come.",
+    "Tariff versions dated in the future are used from their start dates. Forecasts are estimates, not quotes: they assume the weather and use the models expect, not the bills to come.",
   ];
 }
 
@@ -246,6 +353,7 @@ export function forecastSection(buildingId: string, meters: Meter[], input: Repo
   }
   const commodities = [...new Set(meters.map((m) => m.commodity))];
   const drivers = detail?.drivers ?? null;
+  const method = methodOf(input, meters);
   return {
     summary,
     chart,
@@ -256,5 +364,6 @@ export function forecastSection(buildingId: string, meters: Meter[], input: Repo
     assumptions: escalationSentences(input.portfolio.settings, commodities),
     trackRecordTable: trackRecord,
     trackRecordVerdict: trackRecordVerdict(detail?.trackRecord),
+    ...(method ? { method } : {}),
   };
 }

@@ -254,8 +254,46 @@ export interface ReportForecastDrivers {
   weather: number;
   /** Next year's prices minus last year's, on last year's use. */
   rates: number;
-  /** The remainder: changes in use, model bias, last year's billing quirks. */
+  /** The remainder: changes in use, model bias, demand effects (never a billing error). */
   usageTrend: number;
+  /** Last year as billed (`lastYearCost` is last year as it should have been, with the audit's corrections). */
+  lastYearBilledCost?: number;
+  /** Corrected − billed last year: the billing errors that will not recur. */
+  billingErrors?: number;
+}
+
+/** How the forecast was made: the weather basis chosen by backtests, the band's calibration, the backtests by origin. */
+export interface ReportForecastMethod {
+  /** Plain words for the basis used, and why it was chosen. */
+  basisLabel: string;
+  basisReason: string;
+  /** The calendar-month adjustment used, in words, and every adjustment scored at that basis. */
+  adjustmentLabel?: string;
+  adjustments?: { label: string; meanAbsAnnualErrorPct: number; cvRmsePct: number; chosen: boolean }[];
+  /** Every basis scored: mean absolute meter annual cost error and monthly CV(RMSE) over the origins (percent). */
+  bases: { label: string; meanAbsAnnualErrorPct: number; cvRmsePct: number; chosen: boolean }[];
+  /** Each rolling origin (cut date), newest first. */
+  origins: {
+    cut: string;
+    meters: number;
+    historyMonths: { min: number; max: number };
+    modelAnnualErrorPct: number | null;
+    naiveAnnualErrorPct: number | null;
+    modelCvRmsePct: number | null;
+    naiveCvRmsePct: number | null;
+    coverage: number | null;
+    factor: number;
+    calibrated: boolean;
+  }[];
+  /** Noise factor used for meters with a track record; calibrated false = every band is the model's own. */
+  factor: number;
+  calibrated: boolean;
+  /** Out-of-sample share of backtest meter-months inside P10–P90, pooled over the origins. */
+  coverage: number | null;
+  /** Meters whose band is the model's own (under 24 months of bills), with their months. */
+  uncalibratedMeters: { meterId: string; buildingId: string; months: number }[];
+  /** Bills the audit corrected that the forecast uses as they should have been. */
+  correctedBills: number;
 }
 
 /** Forecast accuracy over the backtest year (percent; coverage 0…1). */
@@ -327,6 +365,10 @@ export interface ReportInput {
   portfolioForecast?: ReportCostRange;
   /** Per-building forecast detail (monthly bands, budget by commodity, drivers), when the forecast stage ran. */
   buildingForecasts?: ReportBuildingForecast[];
+  /** How the forecast was made (basis, calibration, backtests by origin), when the forecast stage ran. */
+  forecastMethod?: ReportForecastMethod;
+  /** Meters without a track record and why, e.g. "not enough history for a track record (14 months)". */
+  trackRecordNotes?: { meterId: string; buildingId: string; note: string }[];
   /** Portfolio backtest (model and naive), when the forecast stage ran. */
   portfolioTrackRecord?: { model: ReportAccuracy | null; naive: ReportAccuracy | null };
 }

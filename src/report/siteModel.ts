@@ -238,6 +238,8 @@ export interface ForecastSection {
   trackRecordTable: TableModel | null;
   /** One line: the backtest against the naive "same month last year" forecast; null without a backtest. */
   trackRecordVerdict: string | null;
+  /** How the forecast was made: weather basis, band calibration, and why (sentences, then the backtest tables). */
+  method?: { sentences: string[]; tables: TableModel[] };
 }
 
 export interface BuildingPage extends PageBase {

@@ -30,7 +30,7 @@ const E2 = meter("E2", "electricity", [[10, 20], [30, 10], [20, 40]]);
 const G1 = meter("G1", "gas", [[50, 60], [40, 80], [70, 50]]);
 const BROKEN = meter("E3", "electricity", [], "no tariff");
 
-const drivers = { buildingId: "B1", months: ["2024-01"], lastYearCost: 400, forecastCost: 420, change: 20, weather: -5, rates: 15, usageTrend: 10, meters: [] };
+const drivers = { buildingId: "B1", months: ["2024-01"], lastYearCost: 400, lastYearBilledCost: 400, billingErrors: 0, forecastCost: 420, change: 20, weather: -5, rates: 15, usageTrend: 10, meters: [] };
 const building: BuildingForecast = {
   buildingId: "B1",
   meters: [E1, E2, G1, BROKEN],
@@ -105,7 +105,7 @@ describe("buildingForecastDetail", () => {
   });
 
   it("drivers and track record are carried over; an unpriced meter is left out", () => {
-    expect(detail.drivers).toEqual({ months: ["2024-01"], lastYearCost: 400, forecastCost: 420, change: 20, weather: -5, rates: 15, usageTrend: 10 });
+    expect(detail.drivers).toEqual({ months: ["2024-01"], lastYearCost: 400, lastYearBilledCost: 400, billingErrors: 0, forecastCost: 420, change: 20, weather: -5, rates: 15, usageTrend: 10 });
     expect(detail.trackRecord).toEqual({ model: { months: 12, annualErrorPct: -2, cvRmsePct: 8, coverage: 0.75 }, naive: { months: 11, annualErrorPct: 6, cvRmsePct: 12, coverage: null } });
     expect(buildingForecastDetail({ ...building, drivers: { ...drivers, months: [] } }, bills, "2024-12-31", null)).toMatchObject({ drivers: null, trackRecord: null });
   });

@@ -39,7 +39,8 @@ describe("building forecast section", () => {
     expect(f.drivers[1]).toMatch(/^Weather: −\$120\.00\. Last year's weather was harsher than a typical year/);
     expect(f.drivers[2]).toMatch(/^Rates: \+\$300\.00\. .*costs more/);
     expect(f.drivers[3]).toMatch(/^Usage trend: \+\$70\.00\./);
-    expect(f.driversTable!.rows[0].map((c) => c.text)).toEqual(["Apr 2024 – May 2024", "$8,680.00", "$8,930.00", "+$250.00 (+2.9 %)", "−$120.00", "+$300.00", "+$70.00"]);
+    // Columns: months, billed, as it should have been (no correction here), forecast, change, billing errors corrected, weather, rates, usage trend.
+    expect(f.driversTable!.rows[0].map((c) => c.text)).toEqual(["Apr 2024 – May 2024", "$8,680.00", "$8,680.00", "$8,930.00", "+$250.00 (+2.9 %)", "$0.00", "−$120.00", "+$300.00", "+$70.00"]);
     const warm = driverSentences({ months: ["2024-01"], lastYearCost: 0, forecastCost: 10, change: 10, weather: 10, rates: 0, usageTrend: 0 }, "USD");
     expect(warm[0]).toContain("+$10.00.");
     expect(warm[1]).toContain("kinder than a typical year");
@@ -73,7 +74,8 @@ describe("index forecast ranking", () => {
       ["buildings/B2.html", "+$500.00", "+50 %"],
       ["buildings/B1.html", "+$250.00", "+2.9 %"],
     ]);
-    expect(t.rows[1].slice(5).map((c) => c.text)).toEqual(["−$120.00", "+$300.00", "+$70.00"]);
+    // Columns from the sixth: billing errors corrected (none here), weather, rates, usage trend.
+    expect(t.rows[1].slice(5).map((c) => c.text)).toEqual(["$0.00", "−$120.00", "+$300.00", "+$70.00"]);
     expect(buildSiteModel(input).index.forecastTrackRecord).toMatch(/^Better than/);
   });
 });
