@@ -64,6 +64,10 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
       }
       case "init":
         return await commandInit(rest, io);
+      case "import": {
+        const { runImport } = await import("./import.ts");
+        return await runImport(rest, io);
+      }
       case undefined:
       case "help":
       case "--help":
@@ -71,7 +75,7 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
         io.out(`${HELP}\n`);
         return command === undefined ? 1 : 0;
       default:
-        throw new UsageError(`unknown command '${command}'; expected build, check, price or init`);
+        throw new UsageError(`unknown command '${command}'; expected build, check, price, init or import`);
     }
   } catch (error) {
     return reportError(error, io);
