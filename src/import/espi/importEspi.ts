@@ -58,6 +58,9 @@ export interface EspiMeterReport {
   /** Readings longer than an hour (not interval data in ohmbook), counted and summed. */
   longReadings: number;
   longTotal: string;
+  /** Readings left out with a warning: no duration, or a second reading of the same start. */
+  skippedReadings: number;
+  skippedTotal: string;
   qualityFlagged: number;
 }
 
@@ -84,6 +87,7 @@ const PLACES = 24;
 const INTERVAL_HEADER = "meter_id,timestamp,value,interval_minutes";
 const QUALITY_HEADER = "meter_id,timestamp,quality,meaning";
 const MAX_ERRORS = 200;
+const MAX_SKIP_WARNINGS = 20;
 
 const DEFAULT_HEADERS = {
   buildings: ["building_id", "name", "floor_area", "area_unit", "timezone", "weather_station", "use_type", "tenant_page"],
@@ -196,11 +200,17 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
     const reports: EspiFileReport[] = [];
     let errors = 0;
     for (const { file, plan } of plans) {
-      const perMeter = new Map<string, { m: PlannedMeter; n: number; sum: bigint; longN: number; longSum: bigint; flagged: number }>();
-      for (const m of plan.meters) perMeter.set(m.meterId, { m, n: 0, sum: 0n, longN: 0, longSum: 0n, flagged: 0 });
+      const perMeter = new Map<string, { m: PlannedMeter; n: number; sum: bigint; longN: number; longSum: bigint; skipN: number; skipSum: bigint; flagged: number }>();
+      for (const m of plan.meters) perMeter.set(m.meterId, { m, n: 0, sum: 0n, longN: 0, longSum: 0n, skipN: 0, skipSum: 0n, flagged: 0 });
       const seen = new Map<string, number>(); // meter|epoch → line, within this file
       const err = (line: number, message: string, hint: string): void => {
         if (errors++ < MAX_ERRORS) fileIssue(file, line, "error", message, hint);
+      };
+      let skippedShown = 0;
+      const skip = (tally: { skipN: number; skipSum: bigint }, value: string, line: number, message: string, hint: string): void => {
+        tally.skipN++;
+        tally.skipSum += decimalToScaled(value, PLACES);
+        if (skippedShown++ < MAX_SKIP_WARNINGS) fileIssue(file, line, "warning", message, hint);
       };
       await readEspiFeed(file, {
         reading: (ordinal, block, _blockIndex, readingIndex, reading) => {
@@ -235,6 +245,10 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
             return;
           }
           const value = shiftDecimal(raw, m.power);
+          if (duration === 0) {
+            skip(tally, value, period?.line ?? reading.line, `meter ${m.meterId}: a reading of 0 s at ${start} (value ${value} ${m.unit}) was left out`, "a reading with no duration is not interval data (some producers write one at a clock change)");
+            return;
+          }
           if (duration > 3600) {
             tally.longN++;
             tally.longSum += decimalToScaled(value, PLACES);
@@ -247,7 +261,7 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
           const key = `${m.meterId}|${start}`;
           const before = seen.get(key);
           if (before !== undefined) {
-            err(reading.line, `a second reading for meter ${m.meterId} starting at ${start} (first on line ${before})`, "each interval may appear once in a file");
+            skip(tally, value, reading.line, `meter ${m.meterId}: a second reading starting at ${start} (value ${value} ${m.unit}) was left out; the first, on line ${before}, is kept`, "the file states this interval twice (some producers do at a clock change)");
             return;
           }
           seen.set(key, reading.line);
@@ -280,13 +294,15 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
         meters: [...perMeter.values()].map((t) => ({
           meterId: t.m.meterId, commodity: t.m.commodity, unit: t.m.unit, isNew: newMeterIds.has(t.m.meterId),
           intervalReadings: t.n, intervalTotal: scaledToDecimal(t.sum, PLACES), added: 0, alreadyPresent: 0,
-          longReadings: t.longN, longTotal: scaledToDecimal(t.longSum, PLACES), qualityFlagged: t.flagged,
+          longReadings: t.longN, longTotal: scaledToDecimal(t.longSum, PLACES),
+          skippedReadings: t.skipN, skippedTotal: scaledToDecimal(t.skipSum, PLACES), qualityFlagged: t.flagged,
         })),
         bills: [],
       });
+      if (skippedShown > MAX_SKIP_WARNINGS) fileIssue(file, 0, "warning", `${skippedShown - MAX_SKIP_WARNINGS} more reading(s) left out as above`);
       for (const t of perMeter.values()) {
         if (t.longN > 0) {
-          fileIssue(file, 0, "warning", `meter ${t.m.meterId}: ${t.longN} reading(s) longer than an hour (daily or monthly totals, ${scaledToDecimal(t.longSum, PLACES)} ${t.m.unit}) were not written`,
+          fileIssue(file, 0, "warning", `meter ${t.m.meterId}: ${t.longN} reading(s) longer than an hour (such as daily or monthly totals; ${scaledToDecimal(t.longSum, PLACES)} ${t.m.unit}) were not written`,
             "ohmbook's interval data is 5 to 60 minutes; bills come from the usage summaries");
         }
       }
