@@ -22,6 +22,7 @@ import { parse as parseYaml } from "yaml";
 import { InputError, UsageError } from "../../core/errors.ts";
 import type { InputIssue } from "../../core/issues.ts";
 import { appendRows, readCsvTable, replaceFile, type CsvTable } from "../portfolioCsv.ts";
+import { StartsSeen } from "../startsSeen.ts";
 import { YearFileStore } from "../yearFiles.ts";
 import { INTERVAL_SECONDS, QUALITY } from "./codes.ts";
 import { decimalToScaled, isIntegerText, scaledToDecimal, shiftDecimal } from "./decimal.ts";
@@ -196,13 +197,13 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
   // Pass 2: readings, staged.
   const staging = await mkdtemp(join(dir, ".ohmbook-import-"));
   try {
-    const store = new YearFileStore(dir, staging, options.flushRows ?? 100_000);
+    const store = new YearFileStore(dir, staging, options.flushRows ?? 25_000);
     const reports: EspiFileReport[] = [];
     let errors = 0;
     for (const { file, plan } of plans) {
       const perMeter = new Map<string, { m: PlannedMeter; n: number; sum: bigint; longN: number; longSum: bigint; skipN: number; skipSum: bigint; flagged: number }>();
       for (const m of plan.meters) perMeter.set(m.meterId, { m, n: 0, sum: 0n, longN: 0, longSum: 0n, skipN: 0, skipSum: 0n, flagged: 0 });
-      const seen = new Map<string, number>(); // meter|epoch → line, within this file
+      const seen = new StartsSeen(); // starts already read in this file, per meter
       const err = (line: number, message: string, hint: string): void => {
         if (errors++ < MAX_ERRORS) fileIssue(file, line, "error", message, hint);
       };
@@ -258,13 +259,11 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
             err(child(period, "duration")?.line ?? reading.line, `a reading of ${duration} s is not an interval length ohmbook reads`, "interval data must be 5, 15, 30 or 60 minutes (300, 900, 1800 or 3600 s)");
             return;
           }
-          const key = `${m.meterId}|${start}`;
-          const before = seen.get(key);
-          if (before !== undefined) {
-            skip(tally, value, reading.line, `meter ${m.meterId}: a second reading starting at ${start} (value ${value} ${m.unit}) was left out; the first, on line ${before}, is kept`, "the file states this interval twice (some producers do at a clock change)");
+          if (seen.has(m.meterId, start)) {
+            skip(tally, value, reading.line, `meter ${m.meterId}: a second reading starting at ${start} (value ${value} ${m.unit}) was left out; the first one in the file is kept`, "the file states this interval twice (some producers do at a clock change)");
             return;
           }
-          seen.set(key, reading.line);
+          seen.add(m.meterId, start);
           tally.n++;
           tally.sum += decimalToScaled(value, PLACES);
           const local = DateTime.fromSeconds(start, { zone });

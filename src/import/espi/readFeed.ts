@@ -60,7 +60,24 @@ export function child(node: XmlNode | undefined, name: string): XmlNode | undefi
   return node?.children.find((c) => c.name === name);
 }
 
-const localName = (name: string): string => name.slice(name.indexOf(":") + 1);
+/** Local names, interned: a tag name from saxes is a view of the chunk (see detach). */
+const names = new Map<string, string>();
+function localName(name: string): string {
+  let local = names.get(name);
+  if (local === undefined) {
+    local = detach(name.slice(name.indexOf(":") + 1));
+    if (names.size < 10_000) names.set(detach(name), local);
+  }
+  return local;
+}
+
+/**
+ * A copy of `s` that does not share memory with the string it was cut from (V8 represents long
+ * substrings as views of their parent, so one kept value would pin the whole parsed chunk).
+ */
+function detach(s: string): string {
+  return s.length < 13 ? s : Buffer.from(s, "utf8").toString("utf8");
+}
 
 /**
  * Reads `path` once from start to end, calling `handlers` for every entry and reading.
@@ -85,7 +102,9 @@ export async function readEspiFeed(path: string, handlers: FeedHandlers): Promis
   parser.on("opentag", (tag) => {
     depth++;
     const name = localName(tag.name);
-    const node: XmlNode = { name, text: "", line: parser.line, attrs: tag.attributes as Record<string, string>, children: [] };
+    // Attributes are kept only on links: saxes hands out substrings of the chunk, and a kept
+    // substring would keep the whole 1 MB chunk alive.
+    const node: XmlNode = { name, text: "", line: parser.line, attrs: {}, children: [] };
     if (stack.length > 0) {
       const top = stack[stack.length - 1]!;
       if (block && top === block.node && name === "IntervalReading") reading = node;
@@ -101,7 +120,10 @@ export async function readEspiFeed(path: string, handlers: FeedHandlers): Promis
       return;
     }
     if (depth === entryDepth + 1) {
-      if (name === "link") entry.links.push({ rel: node.attrs.rel ?? "", href: (node.attrs.href ?? "").trim() });
+      if (name === "link") {
+        const attrs = tag.attributes as Record<string, string>;
+        entry.links.push({ rel: detach(attrs.rel ?? ""), href: detach((attrs.href ?? "").trim()) });
+      }
       else if (name === "id" || name === "title") {
         meta = name;
         stack.push(node);
@@ -118,7 +140,8 @@ export async function readEspiFeed(path: string, handlers: FeedHandlers): Promis
   });
 
   parser.on("text", (text) => {
-    if (stack.length > 0) stack[stack.length - 1]!.text += text;
+    // Whitespace between elements is dropped; the rest is copied out of the chunk (see detach).
+    if (stack.length > 0 && /\S/.test(text)) stack[stack.length - 1]!.text += detach(text);
   });
   parser.on("cdata", (text) => {
     if (stack.length > 0) stack[stack.length - 1]!.text += text;
