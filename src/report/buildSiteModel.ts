@@ -12,10 +12,14 @@ import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/units.ts";
 import { formatDate } from "./format.ts";
 import { canonicalFor } from "./nav.ts";
 import { buildTenantPage } from "./tenantPage.ts";
+import { buildDisputesPage } from "./disputesPage.ts";
+import { buildClaimSheets } from "./claimSheet.ts";
+import { billLinesByBill, buildMeterBillsPage, meterAnalysis } from "./meterBillsPage.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
- * (in buildings.csv order), methods and data. Does not mutate its input.
+ * (in buildings.csv order), one bills page per meter, methods, data, the dispute list and one
+ * claim sheet per dispute. Does not mutate its input.
  * @example buildSiteModel(input).buildings.map((b) => b.path) // ["buildings/B1.html", ...]
  */
 export function buildSiteModel(input: ReportInput): SiteModel {
@@ -45,6 +49,10 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     currency,
   }));
 
+  // Each meter's baseline and quality sections: verdicts on the building page, detail on the meter page.
+  const analyses = contexts.map((ctx) => meterAnalysis(input, ctx));
+  const linesByBill = billLinesByBill(portfolio.billLines);
+
   const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({
     ...page,
     canonical: canonicalFor(settings.basePath, page.path),
@@ -60,11 +68,14 @@ export function buildSiteModel(input: ReportInput): SiteModel {
       basePath: settings.basePath,
     },
     index: withCanonical(buildIndexPage(input, contexts, asOf)),
-    buildings: contexts.map((ctx) => withCanonical(buildBuildingPage(input, ctx))),
+    buildings: contexts.map((ctx, i) => withCanonical(buildBuildingPage(input, ctx, analyses[i]))),
+    meterBills: contexts.flatMap((ctx, i) => ctx.meters.map((m) => withCanonical(buildMeterBillsPage(input, ctx, m, analyses[i], linesByBill)))),
     tenants: contexts
       .filter((ctx) => ctx.building.tenantPage)
       .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines))),
     methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf), settings.tolerances)),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
+    disputes: withCanonical(buildDisputesPage(input)),
+    claims: buildClaimSheets(input.disputes, portfolio, formatDate(input.buildDate)).map(withCanonical),
   };
 }

@@ -10,6 +10,8 @@ export const DATA_FILE_DESCRIPTIONS: Readonly<Record<string, string>> = {
   "portfolio.json": "One object per building: floor area, use in the last 12 months, normalized use, intensity, model fit, cost forecast and findings by severity.",
   "findings.csv": "Every audit finding, one row each, with the money at stake (spreadsheet form).",
   "findings.json": "The same findings as a JSON array.",
+  "disputes.csv": "Bills to dispute: one row per claim or back-billing risk, with billed, corrected and claim amounts (spreadsheet form).",
+  "disputes.json": "The same disputes as a JSON array, with each bill's evidence: printed and corrected lines, usage and demand, tariff versions.",
   "forecast.csv": "Forecast use and cost by meter and calendar month, with a low, likely and high cost.",
   "bills-recomputed.csv": "Every bill with its billed total, the recomputed total and the difference.",
   "ingest-report.json": "Per input file: rows read, used and rejected, with the reason for each rejection.",

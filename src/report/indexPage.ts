@@ -1,13 +1,15 @@
-/** View model of the portfolio index: headline figures and the building table. */
+/** View model of the portfolio index: bills to dispute first, headline figures, the building table. */
 import type { ReportFinding, ReportInput } from "./input.ts";
 import type { IndexPage, LabelValue, TableCell } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber, formatQuantity } from "./format.ts";
-import { buildingPath, navFor } from "./nav.ts";
+import { DISPUTES_PATH, buildingPath, navFor } from "./nav.ts";
 import type { CommodityUsage } from "../pipeline/usageSummary.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { buildingUsage, last12mCost } from "./buildingPage.ts";
 import { monthlyCostChart } from "./costChart.ts";
-import { EUI_BASIS, findingsByCheckChart, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
+import { EUI_BASIS, findingsByCheckTable, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
+import { buildIndexDisputes, sumCents } from "./disputesPage.ts";
+import type { Dispute } from "../disputes/types.ts";
 import { last12MonthsText } from "./periods.ts";
 import { tenantPath } from "./tenantPage.ts";
 import { forecastChangeTable } from "./forecastIndex.ts";
@@ -20,16 +22,16 @@ function usageCell(usage: readonly CommodityUsage[], commodity: CommodityUsage["
   return { text: formatQuantity(u.actualLast12m, u.unit), sort: String(u.actualLast12m) };
 }
 
-/** Findings of one building and their money at stake (positive amounts only: bills that look too high). */
-export function buildingFindingTotals(findings: readonly ReportFinding[] | undefined, buildingId: string): { count: number; atStake: number } {
+/** Number of audit findings of one building. */
+export function buildingFindingCount(findings: readonly ReportFinding[] | undefined, buildingId: string): number {
   let count = 0;
-  let atStake = 0;
-  for (const f of findings ?? []) {
-    if (f.buildingId !== buildingId) continue;
-    count++;
-    if (f.amountAtStake != null && f.amountAtStake > 0) atStake += f.amountAtStake;
-  }
-  return { count, atStake };
+  for (const f of findings ?? []) if (f.buildingId === buildingId) count++;
+  return count;
+}
+
+/** Total of one building's claims (kind `claim`), cent-exact: its share of the index's "Bills to dispute". */
+export function buildingClaimTotal(disputes: readonly Dispute[] | undefined, buildingId: string): number {
+  return sumCents((disputes ?? []).filter((d) => d.kind === "claim" && d.buildingId === buildingId).map((d) => d.claimAmount));
 }
 
 /**
@@ -46,7 +48,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     const cost = last12mCost(ctx);
     totalCost += cost ?? 0;
     const usage = buildingUsage(ctx);
-    const audit = buildingFindingTotals(input.findings, b.buildingId);
+    const findingCount = buildingFindingCount(input.findings, b.buildingId);
+    const claimed = buildingClaimTotal(input.disputes, b.buildingId);
     const auditHref = `${buildingPath(b.buildingId)}#audit-h`;
     const rejectedMap = input.rejectedRowsByBuilding;
     const rejected = rejectedMap?.get(b.buildingId) ?? 0;
@@ -55,14 +58,13 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
       { text: b.useType ?? NOT_AVAILABLE },
       { text: formatNumber(b.floorAreaM2), sort: String(b.floorAreaM2) },
       { text: formatMoney(cost, currency), sort: cost == null ? "" : String(cost) },
+      // Money to claim next to the cost, so a wide table never scrolls it out of sight.
+      ...(input.disputes
+        ? [{ text: formatMoney(claimed, currency), sort: String(claimed), href: claimed > 0 ? DISPUTES_PATH : undefined, tone: claimed > 0 ? ("warn" as const) : undefined }]
+        : []),
+      ...(input.findings ? [{ text: formatNumber(findingCount), sort: String(findingCount), href: auditHref }] : []),
       ...(["electricity", "gas", "water"] as const).map((c) => usageCell(usage, c)),
       { text: formatNumber(bills.length), sort: String(bills.length) },
-      ...(input.findings
-        ? [
-            { text: formatNumber(audit.count), sort: String(audit.count), href: auditHref },
-            { text: formatMoney(audit.atStake, currency), sort: String(audit.atStake), href: auditHref, tone: audit.atStake > 0 ? ("warn" as const) : undefined },
-          ]
-        : []),
       // The column exists only when ingest attributed rejected rows to buildings.
       ...(rejectedMap ? [{ text: formatNumber(rejected), sort: String(rejected), tone: rejected > 0 ? ("warn" as const) : undefined }] : []),
     ];
@@ -78,12 +80,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
   headline.push({ label: "Bills not re-priced", value: formatNumber(notPriced) });
   const rowsRejected = input.portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0);
   headline.push({ label: "Input rows rejected (see Data)", value: formatNumber(rowsRejected) });
-  if (input.findings) {
-    let atStake = 0;
-    for (const f of input.findings) if (f.amountAtStake != null && f.amountAtStake > 0) atStake += f.amountAtStake;
-    headline.push({ label: "Findings", value: formatNumber(input.findings.length) });
-    headline.push({ label: "Money at stake (bills that look too high)", value: formatMoney(atStake, currency) });
-  }
+  // The money of the audit is in the dispute block (IndexPage.disputes), not in a tile here.
+  if (input.findings) headline.push({ label: "Findings", value: formatNumber(input.findings.length) });
   const horizon = input.portfolio.settings.forecastMonths;
   if (input.portfolioForecast) {
     const f = input.portfolioForecast;
@@ -121,7 +119,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     charts: costChart ? [costChart] : [],
     intensityChart: intensityChart(contexts),
     intensityNote: EUI_BASIS,
-    findingsChart: findingsByCheckChart(input.findings, currency),
+    disputes: buildIndexDisputes(input),
+    findingsTable: findingsByCheckTable(input.findings, input.disputes, currency),
     forecastChangeTable: forecastChangeTable(contexts, input.buildingForecasts, currency),
     forecastTrackRecord: input.portfolioTrackRecord ? trackRecordVerdict(input.portfolioTrackRecord) : null,
     tenantLinks: contexts.filter((c) => c.building.tenantPage).map((c) => ({ name: c.building.name, href: tenantPath(c.building.buildingId) })),
@@ -133,18 +132,19 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     windowText: last12MonthsText(asOf),
     buildings: contexts.map((c) => ({ buildingId: c.building.buildingId, name: c.building.name, href: buildingPath(c.building.buildingId) })),
     buildingsTable: {
-      caption: `Buildings: floor area, billed cost and billed use over the last 12 months (${last12MonthsText(asOf)}; gas in therms, water in gallons)${input.findings ? ", and each building's audit findings with the money at stake" : ""}`,
+      caption: `Buildings: floor area, billed cost and billed use over the last 12 months (${last12MonthsText(asOf)}; gas in therms, water in gallons)${input.disputes ? ", the total of each building's claims" : ""}${input.findings ? ` ${input.disputes ? "and" : "and each building's"} audit findings` : ""}`,
       sortable: true,
       columns: [
         { label: "Building", numeric: false },
         { label: "Use type", numeric: false },
         { label: "Floor area (m²)", numeric: true },
         { label: "Billed cost, 12 months", numeric: true },
+        ...(input.disputes ? [{ label: "To dispute", numeric: true }] : []),
+        ...(input.findings ? [{ label: "Findings", numeric: true }] : []),
         { label: "Electricity use", numeric: true },
         { label: "Gas use", numeric: true },
         { label: "Water use", numeric: true },
         { label: "Bills", numeric: true },
-        ...(input.findings ? [{ label: "Findings", numeric: true }, { label: "Money at stake", numeric: true }] : []),
         ...(input.rejectedRowsByBuilding ? [{ label: "Rows rejected", numeric: true }] : []),
       ],
       rows,

@@ -7,6 +7,7 @@ import type { LabelValue, MethodsPage, TableModel, UnitFactorRow } from "./siteM
 import { formatMoney, formatNumber } from "./format.ts";
 import { navFor } from "./nav.ts";
 import { checkTitle } from "./labels.ts";
+import { basisKey } from "./disputesPage.ts";
 import { AUDIT_DEFAULTS } from "../audit/tolerances.ts";
 import { COMMON_RATIOS } from "../audit/checks/multiplier-suspect.ts";
 
@@ -204,5 +205,6 @@ export function buildMethodsPage(currency: string, windowText: string, tolerance
     windowText,
     tolerances: toleranceFacts(tolerances, currency),
     checksTable: checksTable(tolerances, currency),
+    disputeBases: basisKey(),
   };
 }

@@ -1,8 +1,10 @@
-/** Portfolio charts of the index: energy use intensity by building, findings by check; normalized change. */
+/** Portfolio figures of the index: energy use intensity by building, findings by check with their claims; normalized change. */
 import type { ReportBaseline, ReportFinding } from "./input.ts";
-import type { RankingChartModel } from "./siteModel.ts";
+import type { RankingChartModel, TableModel } from "./siteModel.ts";
+import type { Dispute } from "../disputes/types.ts";
 import type { BuildingContext } from "./buildingPage.ts";
-import { formatMoney, formatNumber } from "./format.ts";
+import { NOT_AVAILABLE, formatMoney, formatNumber } from "./format.ts";
+import { shownAmount, sumCents } from "./disputesPage.ts";
 import { addDays } from "../core/time.ts";
 import { meterYearWindow, prorateToWindow, siteKwhLast12m } from "../pipeline/usageSummary.ts";
 import { buildingUsage } from "./buildingPage.ts";
@@ -58,41 +60,68 @@ export function intensityChart(contexts: readonly BuildingContext[]): RankingCha
 }
 
 /**
- * Findings grouped by check: money at stake (positive amounts, bills that look too high) as
- * bars, count in the tooltip and table; null without findings.
+ * Findings grouped by check, with what they add up to for a finance reader: how many findings,
+ * how many claims and back-billing risks have the check as their root cause (a dispute's first
+ * check), the claimed total and the amount that may still be billed. Checks with the most money
+ * claimed first. The claimed column sums to the index's "Bills to dispute" figure. Null when
+ * there is neither a finding nor a dispute.
+ * @example findingsByCheckTable(findings, disputes, "USD")?.columns[3].label // "Claimed"
  */
-export function findingsByCheckChart(findings: readonly ReportFinding[] | undefined, currency: string): RankingChartModel | null {
-  if (!findings || findings.length === 0) return null;
-  const groups = new Map<string, { count: number; money: number }>();
-  for (const f of findings) {
-    const g = groups.get(f.check) ?? { count: 0, money: 0 };
-    g.count++;
-    if (f.amountAtStake != null && f.amountAtStake > 0) g.money += f.amountAtStake;
-    groups.set(f.check, g);
+export function findingsByCheckTable(findings: readonly ReportFinding[] | undefined, disputes: readonly Dispute[] | undefined, currency: string): TableModel | null {
+  if ((!findings || findings.length === 0) && (!disputes || disputes.length === 0)) return null;
+  interface Group {
+    findings: number;
+    claims: Dispute[];
+    risks: Dispute[];
   }
-  const rows = [...groups.entries()].sort(([a, x], [b, y]) => y.money - x.money || y.count - x.count || (a < b ? -1 : 1));
+  const groups = new Map<string, Group>();
+  const group = (check: string): Group => {
+    let g = groups.get(check);
+    if (!g) groups.set(check, (g = { findings: 0, claims: [], risks: [] }));
+    return g;
+  };
+  for (const f of findings ?? []) group(f.check).findings++;
+  for (const d of disputes ?? []) {
+    const g = group(d.checks[0] ?? "");
+    (d.kind === "claim" ? g.claims : g.risks).push(d);
+  }
+  const rows = [...groups.entries()].map(([check, g]) => ({
+    check,
+    g,
+    claimed: sumCents(g.claims.map((d) => d.claimAmount)),
+    atRisk: sumCents(g.risks.map(shownAmount)),
+  }));
+  rows.sort((a, b) => b.claimed - a.claimed || b.atRisk - a.atRisk || b.g.findings - a.g.findings || (a.check < b.check ? -1 : 1));
+  const withDisputes = disputes !== undefined;
   return {
-    id: "chart-portfolio-findings",
-    kind: "ranking",
-    title: `Money at stake by check (${currency})`,
-    description: `Horizontal bar chart of the money at stake in bills that look too high, by audit check, largest first; ${formatNumber(findings.length)} findings in ${formatNumber(rows.length)} checks.`,
-    valueLabel: `Money at stake (${currency})`,
-    valueFormat: ",.2f",
-    items: rows.map(([check, g]) => ({ label: checkTitle(check), value: Math.round(g.money * 100) / 100, note: `${g.count} ${g.count === 1 ? "finding" : "findings"}` })),
-    table: {
-      caption: "Findings by check: how many, and the money at stake",
-      sortable: true,
-      columns: [
-        { label: "Check", numeric: false },
-        { label: "Findings", numeric: true },
-        { label: "Money at stake", numeric: true },
-      ],
-      rows: rows.map(([check, g]) => [
-        { text: checkTitle(check) },
-        { text: formatNumber(g.count), sort: String(g.count) },
-        { text: formatMoney(g.money, currency), sort: String(g.money) },
-      ]),
-    },
+    caption: withDisputes
+      ? `Findings by check: how many, and the claims and back-billing risks each check is the root cause of (in ${currency})`
+      : "Findings by check: how many",
+    sortable: true,
+    columns: [
+      { label: "Check", numeric: false },
+      { label: "Findings", numeric: true },
+      ...(withDisputes
+        ? [
+            { label: "Claims", numeric: true },
+            { label: "Claimed", numeric: true },
+            { label: "Back-billing risks", numeric: true },
+            { label: "May be billed later", numeric: true },
+          ]
+        : []),
+    ],
+    rows: rows.map(({ check, g, claimed, atRisk }) => [
+      { text: checkTitle(check) },
+      { text: formatNumber(g.findings), sort: String(g.findings) },
+      ...(withDisputes
+        ? [
+            { text: formatNumber(g.claims.length), sort: String(g.claims.length) },
+            g.claims.length ? { text: formatMoney(claimed, currency), sort: String(claimed) } : { text: NOT_AVAILABLE, sort: "0", tone: "muted" as const },
+            { text: formatNumber(g.risks.length), sort: String(g.risks.length) },
+            g.risks.length ? { text: formatMoney(atRisk, currency), sort: String(atRisk) } : { text: NOT_AVAILABLE, sort: "0", tone: "muted" as const },
+          ]
+        : []),
+    ]),
   };
 }
 

@@ -3,6 +3,8 @@
  * already a formatted string (money, units, dates). Templates only place these values.
  * Fields named `sort` carry a machine-sortable form of a cell for the table-sort script.
  */
+import type { ClaimSheet, DisputesPage, IndexDisputes } from "./disputeModels.ts";
+import type { MeterBillsPage } from "./billPageModels.ts";
 
 /** A link in the site navigation, `href` relative to the page that shows it. */
 export interface NavLink {
@@ -17,6 +19,8 @@ export interface TableCell {
   sort?: string;
   /** Optional link target (relative). */
   href?: string;
+  /** A short second line under the text (e.g. "estimated read"). */
+  note?: string;
   /** Emphasis: `pos` bill higher than recomputed, `neg` lower, `warn` a problem, `muted` absent. */
   tone?: "pos" | "neg" | "muted" | "warn";
 }
@@ -134,7 +138,7 @@ export interface LabelValue {
 export interface PageBase {
   /** `<title>` and `<h1>`. */
   title: string;
-  /** Relative prefix from this page to the site root: "" or "../". */
+  /** Relative prefix from this page to the site root: "", "../" or "../../". */
   root: string;
   /** Path of the page relative to the site root, e.g. `index.html`, `buildings/B1.html`. */
   path: string;
@@ -163,8 +167,10 @@ export interface IndexPage extends PageBase {
   intensityChart: RankingChartModel | null;
   /** Sentence naming the site-energy basis of the ranking. */
   intensityNote: string;
-  /** Findings by check; null when the audit did not run or found nothing. */
-  findingsChart: RankingChartModel | null;
+  /** Bills to dispute: the claim total, the largest claims and the back-billing risks; null when the dispute stage did not run. */
+  disputes: IndexDisputes | null;
+  /** Findings by check with their claims and money; null when the audit did not run or found nothing. */
+  findingsTable: TableModel | null;
   /** Buildings ranked by forecast change vs last year, with the drivers; null without forecast drivers. */
   forecastChangeTable: TableModel | null;
   /** Sentence on the portfolio's forecast track record; null without a backtest. */
@@ -173,39 +179,12 @@ export interface IndexPage extends PageBase {
   tenantLinks: { name: string; href: string }[];
 }
 
-export interface MathLine {
-  label: string;
-  kind: string;
-  quantity: string;
-  rate: string;
-  amount: string;
-  status: string;
-  note: string;
-}
-
-/** The line-by-line re-pricing of one bill, shown in a `<details>`. */
-export interface BillMath {
-  billId: string;
-  period: string;
-  /** "priced" with lines, or "not-priced" with a reason. */
-  state: "priced" | "not-priced";
-  reason: string;
-  lines: MathLine[];
-  total: string;
-  billed: string;
-  difference: string;
-  facts: LabelValue[];
-  notes: string[];
-}
-
+/** One meter on its building's page: a summary of its bills and a link to its bills page. */
 export interface MeterSection {
   meterId: string;
   heading: string;
-  facts: LabelValue[];
-  billsTable: TableModel;
-  math: BillMath[];
-  /** Interval data by calendar month, when the meter has any. */
-  meteredTable: TableModel | null;
+  /** Relative to the site root: the meter's bills page (`meterBillsPath`). */
+  billsHref: string;
 }
 
 export interface CommoditySection {
@@ -266,15 +245,19 @@ export interface BuildingPage extends PageBase {
   summary: LabelValue[];
   commodities: CommoditySection[];
   meters: MeterSection[];
+  /** One row per meter: bills, how far they were checked, claims, and a link to the meter's bills page. */
+  metersTable: TableModel;
+  /** Bills with a claim, a back-billing risk or an audit finding (each linked to its re-pricing); null when none. */
+  flaggedBillsTable: TableModel | null;
   findingsTable: TableModel | null;
   /** This building's own data files (`data/buildings/<id>/…`), filled by the site writer. */
   downloads: DataFileRow[];
   forecastTable: TableModel | null;
   modelsTable: TableModel | null;
-  /** One per meter with a baseline (empty when the model stage did not run). */
-  baselines: BaselineSection[];
-  /** One per interval meter with quality results. */
-  quality: QualitySection[];
+  /** One row per meter with a weather baseline: its verdict, linked to the meter's page (null when none). */
+  baselinesTable: TableModel | null;
+  /** One row per interval meter with quality results: its summary, linked to the meter's page (null when none). */
+  qualityTable: TableModel | null;
   /** Weather gaps of the building's station; null when none were reported. */
   weatherQualityTable: TableModel | null;
   /** How gaps are handled (the interpolation limit), shown above the weather-gap table. */
@@ -318,6 +301,8 @@ export interface MethodsPage extends PageBase {
   tolerances: LabelValue[];
   /** Every audit check code with its rule, severity, money at stake and source. */
   checksTable: TableModel;
+  /** Each basis of a dispute's corrected total, in plain words. */
+  disputeBases: LabelValue[];
 }
 
 export interface DataFileRow {
@@ -350,8 +335,14 @@ export interface SiteModel {
   meta: SiteMeta;
   index: IndexPage;
   buildings: BuildingPage[];
+  /** One page per meter: its bills and the re-pricing of each, its interval data, baseline and data quality. */
+  meterBills: MeterBillsPage[];
   /** Tenant pages of buildings with `tenant_page: yes`. */
   tenants: TenantPage[];
   methods: MethodsPage;
   data: DataPage;
+  /** Every claim and back-billing risk (disputes.html). */
+  disputes: DisputesPage;
+  /** One printable sheet per dispute (claims/<id>.html). */
+  claims: ClaimSheet[];
 }

@@ -12,6 +12,15 @@ import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
 import { heatmapSvg } from "./charts/heatmapSvg.ts";
 import { forecastSpec } from "./charts/forecastSpec.ts";
 
+/** The data files the dispute list offers for download, when this build wrote them. */
+const DISPUTE_FILES = ["disputes.csv", "disputes.json"];
+
+function pick(sizes: Record<string, number>, names: readonly string[]): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const n of names) if (n in sizes) out[n] = sizes[n];
+  return out;
+}
+
 /** Vega-Lite spec for a chart model, by kind. */
 export function chartSpec(chart: ChartModel): Record<string, unknown> {
   switch (chart.kind) {
@@ -52,8 +61,9 @@ async function prepareMaybe<T extends ChartModel>(chart: T | null): Promise<T | 
 }
 
 /**
- * Fills every chart's `spec`, `specJson` and `svg`, the data page's file list, and each
- * building's own downloads (files under `data/buildings/<building_id>/`).
+ * Fills every chart's `spec`, `specJson` and `svg` (index, building and meter pages), the data
+ * page's file list, each building's own downloads (files under `data/buildings/<building_id>/`)
+ * and the dispute list's downloads (disputes.csv and disputes.json, when written).
  * @example const ready = await prepareSite(model, { "findings.csv": "..." });
  */
 export async function prepareSite(model: SiteModel, dataFiles: Record<string, string>): Promise<SiteModel> {
@@ -63,15 +73,18 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
   for (const page of model.buildings) {
     const commodities = [];
     for (const section of page.commodities) commodities.push({ ...section, charts: await prepareAll(section.charts) });
-    const baselines = [];
-    for (const section of page.baselines) baselines.push({ ...section, charts: await prepareAll(section.charts) });
-    const quality = [];
-    for (const section of page.quality) quality.push({ ...section, charts: await prepareAll(section.charts) });
     const folder = buildingDataFolder(page.buildingId);
     const own: Record<string, number> = {};
     for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
     const forecast = page.forecast ? { ...page.forecast, chart: await prepareMaybe(page.forecast.chart) } : null;
-    buildings.push({ ...page, commodities, baselines, quality, forecast, downloads: describeDataFiles(own, page.root) });
+    buildings.push({ ...page, commodities, forecast, downloads: describeDataFiles(own, page.root) });
+  }
+  // Meter pages carry the meter's weather-baseline and data-quality charts.
+  const meterBills = [];
+  for (const page of model.meterBills) {
+    const baseline = page.baseline ? { ...page.baseline, charts: await prepareAll(page.baseline.charts) } : null;
+    const quality = page.quality ? { ...page.quality, charts: await prepareAll(page.quality.charts) } : null;
+    meterBills.push({ ...page, baseline, quality });
   }
   return {
     ...model,
@@ -79,9 +92,10 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
       ...model.index,
       charts: await prepareAll(model.index.charts),
       intensityChart: await prepareMaybe(model.index.intensityChart),
-      findingsChart: await prepareMaybe(model.index.findingsChart),
     },
     buildings,
+    meterBills,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
+    disputes: { ...model.disputes, downloads: describeDataFiles(pick(sizes, DISPUTE_FILES), model.disputes.root) },
   };
 }

@@ -38,6 +38,17 @@ function scratchPrefix(outDir: string): string {
 /** Scratch folders older than this are leftovers of a killed build (no build takes an hour). */
 const STALE_SCRATCH_MS = 60 * 60 * 1000;
 
+/** Scratch folders of builds into `outDir` (full paths), in progress or left by killed builds. */
+async function scratchFolders(outDir: string): Promise<string[]> {
+  const parent = dirname(outDir);
+  const prefix = scratchPrefix(outDir);
+  try {
+    return (await readdir(parent)).filter((n) => n.startsWith(prefix)).map((n) => join(parent, n));
+  } catch {
+    return [];
+  }
+}
+
 /**
  * Removes scratch folders a killed build left next to `outDir`, with the Vite plugin's
  * temporary folder inside them. Each build uses its own fresh scratch folder (so a leftover
@@ -45,20 +56,10 @@ const STALE_SCRATCH_MS = 60 * 60 * 1000;
  * so a concurrent build into the same folder keeps its own.
  */
 async function removeStaleScratch(outDir: string): Promise<void> {
-  const parent = dirname(outDir);
-  const prefix = scratchPrefix(outDir);
-  let names: string[] = [];
-  try {
-    names = await readdir(parent);
-  } catch {
-    return;
-  }
   const now = Date.now();
   await Promise.all(
-    names
-      .filter((n) => n.startsWith(prefix))
-      .map(async (n) => {
-        const path = join(parent, n);
+    (await scratchFolders(outDir))
+      .map(async (path) => {
         const info = await stat(path).catch(() => null);
         if (info && now - info.mtimeMs > STALE_SCRATCH_MS) await rm(path, { recursive: true, force: true });
       }),
@@ -90,17 +91,9 @@ export function removeActiveScratch(): void {
  */
 async function recoverInterruptedSwap(out: string): Promise<void> {
   if (await exists(out)) return;
-  const parent = dirname(out);
-  const prefix = scratchPrefix(out);
-  let names: string[] = [];
-  try {
-    names = await readdir(parent);
-  } catch {
-    return;
-  }
   let best: { path: string; mtime: number } | null = null;
-  for (const n of names.filter((x) => x.startsWith(prefix))) {
-    const previous = join(parent, n, "previous");
+  for (const folder of await scratchFolders(out)) {
+    const previous = join(folder, "previous");
     const info = await stat(previous).catch(() => null);
     if (info?.isDirectory() && (best === null || info.mtimeMs > best.mtime)) best = { path: previous, mtime: info.mtimeMs };
   }

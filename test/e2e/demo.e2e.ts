@@ -94,12 +94,13 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
     await page.close();
   }, 120_000);
 
-  it("the index's last-12-months use equals portfolio.json's actual_last_12m, and its findings columns equal findings.json", async () => {
+  it("the index's last-12-months use equals portfolio.json's actual_last_12m, its findings column findings.json and its To dispute column disputes.json", async () => {
     const json = JSON.parse(await readFile(join(siteDir, "data", "portfolio.json"), "utf8")) as {
       buildings: { name: string; [commodity: string]: unknown }[];
     };
     const findings = JSON.parse(await readFile(join(siteDir, "data", "findings.json"), "utf8")) as unknown;
     const findingList = (Array.isArray(findings) ? findings : (findings as { findings: unknown[] }).findings) as { building_id: string; amount_at_stake: number | null }[];
+    const disputeList = JSON.parse(await readFile(join(siteDir, "data", "disputes.json"), "utf8")) as { building_id: string; kind: string; claim_amount: number }[];
     const { page } = await openPage(context, `${server.origin}${PREFIX}index.html`, dialogs);
     const table = page.locator('table:has(caption:text("Buildings: floor area"))');
     const header = await table.locator("thead th").allInnerTexts();
@@ -125,11 +126,14 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
         expect(Math.abs(Number(cell.sort) - summary.actual_last_12m), `${b.name} ${commodity}`).toBeLessThanOrEqual(0.0005 + 1e-9);
         compared++;
       }
-      const mine = findingList.filter((f) => f.building_id === (b as unknown as { building_id: string }).building_id);
-      const atStake = mine.reduce((s, f) => s + (f.amount_at_stake !== null && f.amount_at_stake > 0 ? f.amount_at_stake : 0), 0);
+      const id = (b as unknown as { building_id: string }).building_id;
+      const mine = findingList.filter((f) => f.building_id === id);
       expect(Number(row![col("Findings")].sort), b.name).toBe(mine.length);
-      expect(Number(row![col("Money at stake")].sort), b.name).toBeCloseTo(atStake, 6);
-      expect(row![col("Money at stake")].href, b.name).toMatch(/^buildings\/[^/]+\.html#audit-h$/);
+      expect(row![col("Findings")].href, b.name).toMatch(/^buildings\/[^/]+\.html#audit-h$/);
+      // The building's claims, to the cent: its share of the index's "Bills to dispute".
+      const claimedCents = disputeList.filter((d) => d.building_id === id && d.kind === "claim").reduce((s, d) => s + Math.round(d.claim_amount * 100), 0);
+      expect(Math.round(Number(row![col("To dispute")].sort) * 100), b.name).toBe(claimedCents);
+      if (claimedCents > 0) expect(row![col("To dispute")].href, b.name).toBe("disputes.html");
     }
     expect(compared).toBeGreaterThanOrEqual(20);
   }, 60_000);

@@ -18,7 +18,7 @@ import { serveStatic, type RunningServer } from "./staticServer.ts";
 import { ARTIFACTS, CHROMIUM, HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
 
 const PREFIX = "/reports/";
-const PAGES = ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html", "buildings/B1/tenant.html"];
+const PAGES = ["index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html", "buildings/B1/tenant.html", "bills/B1/E1.html", "bills/B1/G1.html"];
 
 if (!HAVE_CHROMIUM) {
   console.warn(`e2e skipped: ${CHROMIUM} not found (install Debian's chromium: apt-get install -y chromium)`);
@@ -109,23 +109,37 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     await page.close();
   });
 
-  it("building page: usage and baseline, data quality and forecast sections render, the heatmap live on a canvas", async () => {
+  it("building page: usage and baseline, data quality and forecast sections render; baseline and quality verdicts link to the meter page", async () => {
     const { page, errors } = await open("buildings/B1.html");
     await expectChartsLive(page);
     const headings = await page.locator("main h2").allTextContents();
     expect(headings).toEqual(["Summary", "Audit", "Usage and baseline", "Data quality", "Forecast", "Downloads"]);
-    expect(await page.locator("#baseline-E1-scatter .chart-live svg").count()).toBe(1);
-    expect(await page.locator("#baseline-E1-time .chart-live svg").count()).toBe(1);
-    expect(await page.locator("#quality-E1-heatmap .chart-live canvas").count()).toBe(1);
-    expect(await page.locator(".verdict").first().textContent()).toContain("Meets ASHRAE Guideline 14");
-    expect(await page.locator('section[aria-labelledby="quality-1-h"] table:has(caption:text("Every problem found")) tbody tr').count()).toBe(2);
-    expect(await page.locator(".evidence").textContent()).toContain("stamped 3 hours late");
+    expect(await page.locator('table:has(caption:text("Weather baseline of each meter")) tbody tr').first().innerText()).toContain("Meets ASHRAE Guideline 14");
+    expect(await page.locator('a[href="../bills/B1/E1.html#baseline-h"]').count()).toBe(1);
+    expect(await page.locator('a[href="../bills/B1/E1.html#quality-h"]').count()).toBe(1);
+    expect(await page.locator('a[href="../bills/B1/E1.html"]').count()).toBeGreaterThan(0);
     expect(await page.locator('a[href="B1/tenant.html"]').count()).toBeGreaterThan(0);
     // Forecast: live chart with the band, the P50 line and last year's two billed months; budget and verdict.
     expect(await page.locator("#forecast-B1-monthly .chart-live .mark-area path").count()).toBe(1);
     expect(await page.locator("#forecast-B1-monthly .chart-live .layer_2_marks path").count()).toBe(2);
     expect(await page.locator('table:has(caption:text("Budget by month and commodity")) tbody tr').count()).toBe(6);
     expect(await page.locator('section[aria-labelledby="forecast-h"]').innerText()).toContain("Better than repeating last year's bills");
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("meter page: bills, re-pricing bill by bill, interval data, weather baseline and data quality; the heatmap live on a canvas", async () => {
+    const { page, errors } = await open("bills/B1/E1.html");
+    await expectChartsLive(page);
+    const headings = await page.locator("main h2").allTextContents();
+    expect(headings).toEqual(["Bills", "Re-pricing, bill by bill", "Interval data", "Weather baseline", "Data quality"]);
+    expect(await page.locator("section.bill").count()).toBe(14);
+    expect(await page.locator("#baseline-E1-scatter .chart-live svg").count()).toBe(1);
+    expect(await page.locator("#baseline-E1-time .chart-live svg").count()).toBe(1);
+    expect(await page.locator("#quality-E1-heatmap .chart-live canvas").count()).toBe(1);
+    expect(await page.locator(".verdict").first().textContent()).toContain("Meets ASHRAE Guideline 14");
+    expect(await page.locator('section[aria-labelledby="quality-h"] table:has(caption:text("Every problem found")) tbody tr').count()).toBe(2);
+    expect(await page.locator(".evidence").textContent()).toContain("stamped 3 hours late");
     // The heatmap's tooltip: rest the pointer inside the plot (vega hit-tests the canvas).
     const canvas = page.locator("#quality-E1-heatmap .chart-live canvas");
     await canvas.scrollIntoViewIfNeeded();
@@ -134,7 +148,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     await page.mouse.move(box.x + box.width * 0.5 + 2, box.y + box.height * 0.3 + 1);
     const tooltip = page.locator("#chart-tooltip");
     await expect.poll(async () => ((await tooltip.isVisible()) ? await tooltip.textContent() : ""), { timeout: 5000 }).toMatch(/Day.*Hour.*Use per hour.*Flagged/s);
-    await page.screenshot({ path: join(ARTIFACTS, "buildings_B1-heatmap.png"), clip: (await page.locator("#quality-E1-heatmap").boundingBox())! });
+    await page.screenshot({ path: join(ARTIFACTS, "bills_B1_E1-heatmap.png"), clip: (await page.locator("#quality-E1-heatmap").boundingBox())! });
     expect(errors).toEqual([]);
     await page.close();
   });

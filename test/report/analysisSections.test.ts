@@ -7,7 +7,7 @@ import { compareCommodity, weatherAdjusted } from "../../src/report/tenantPage.t
 import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
 import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour, qualitySections, weatherActionLabel } from "../../src/report/qualitySection.ts";
 import { describeDataFile } from "../../src/report/dataPage.ts";
-import { findingsByCheckChart, normalizedChangePct } from "../../src/report/portfolioCharts.ts";
+import { normalizedChangePct } from "../../src/report/portfolioCharts.ts";
 import type { BuildingContext } from "../../src/report/buildingPage.ts";
 import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
 
@@ -189,21 +189,6 @@ describe("wording fixes", () => {
 });
 
 describe("portfolio charts", () => {
-  it("groups findings by check with count and money at stake (positive amounts only)", () => {
-    const chart = findingsByCheckChart(
-      [
-        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "total-mismatch", severity: "error", amountAtStake: 10, message: "" },
-        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "total-mismatch", severity: "error", amountAtStake: -4, message: "" },
-        { buildingId: "B1", meterId: null, billId: null, periodStart: null, periodEnd: null, check: "estimated-read", severity: "info", amountAtStake: null, message: "" },
-      ],
-      "USD",
-    )!;
-    expect(chart.items).toEqual([
-      { label: "Bill total differs from the tariff", value: 10, note: "2 findings" },
-      { label: "Estimated meter read", value: 0, note: "1 finding" },
-    ]);
-  });
-
   it("ranks EUI from last-12-month site energy (electricity kWh + gas therm × 29.3071) over floor area", () => {
     const input = fullFixtureInput();
     const chart = buildSiteModel(input).index.intensityChart!;
@@ -240,23 +225,29 @@ describe("building page wiring (full fixture)", () => {
   const model = buildSiteModel(fullFixtureInput());
   const [b1, b2] = model.buildings;
 
-  it("has baselines, data quality, forecast and a tenant link for B1 only", () => {
-    expect(b1.baselines.map((s) => [s.meterId, s.verdictTone, s.charts.map((c) => c.kind)])).toEqual([
+  it("has baselines, data quality (in full on the meter pages, verdicts on the building page), forecast and a tenant link for B1 only", () => {
+    const pagesOfB1 = model.meterBills.filter((m) => m.buildingId === "B1");
+    const baselines = pagesOfB1.flatMap((m) => (m.baseline ? [m.baseline] : []));
+    expect(baselines.map((s) => [s.meterId, s.verdictTone, s.charts.map((c) => c.kind)])).toEqual([
       ["E1", "ok", ["baseline-scatter", "baseline-time"]],
       ["G1", "none", ["baseline-scatter"]],
     ]);
-    const time = b1.baselines[0].charts[1];
+    expect(b1.baselinesTable!.rows.map((r) => [r[0].href, r[1].text])).toEqual(baselines.map((s) => [`bills/B1/${s.meterId}.html#baseline-h`, s.verdict]));
+    const time = baselines[0].charts[1];
     expect(time.kind === "baseline-time" && time.hasBand && time.bills[0].lowPerDay! < time.bills[0].highPerDay!).toBe(true);
     expect(time.table.columns.map((c) => c.label)).toContain("Band (kWh/day)");
-    expect(b1.quality).toHaveLength(1);
-    expect(b1.quality[0].detectionsTable!.rows).toHaveLength(2);
-    expect(b1.quality[0].detectionsTable!.rows[0][1].text).toBe("Jan 10, 2025, 02:00");
-    expect(b1.quality[0].detectionsTable!.rows[0][4].text).toBe("left out of the models (kept in the data)");
+    const quality = pagesOfB1.flatMap((m) => (m.quality ? [m.quality] : []));
+    expect(quality).toHaveLength(1);
+    expect(quality[0].detectionsTable!.rows).toHaveLength(2);
+    expect(quality[0].detectionsTable!.rows[0][1].text).toBe("Jan 10, 2025, 02:00");
+    expect(quality[0].detectionsTable!.rows[0][4].text).toBe("left out of the models (kept in the data)");
+    expect(b1.qualityTable!.rows.map((r) => [r[0].href, r[1].text])).toEqual([[`bills/B1/${quality[0].meterId}.html#quality-h`, quality[0].summary]]);
     expect(b1.weatherQualityTable!.rows).toHaveLength(2);
     expect(b1.forecast!.summary).toContain("$13,410.00");
     expect(b1.forecast!.trackRecordTable!.rows[0][1].text).toBe("−2.4 %");
     expect(b1.tenantHref).toBe("B1/tenant.html");
-    expect([b2.baselines, b2.quality, b2.forecast, b2.tenantHref]).toEqual([[], [], null, null]);
+    expect([b2.baselinesTable, b2.qualityTable, b2.forecast, b2.tenantHref]).toEqual([null, null, null, null]);
+    expect(model.meterBills.filter((m) => m.buildingId === "B2").map((m) => [m.baseline, m.quality])).toEqual([[null, null]]);
   });
 
   it("index: forecast range from the portfolio total, tenant link", () => {

@@ -7,7 +7,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
   const input = fixtureInput();
   const model = buildSiteModel(input);
   const b1 = model.buildings.find((b) => b.buildingId === "B1")!;
-  const e1 = b1.meters.find((m) => m.meterId === "E1")!;
+  const e1 = model.meterBills.find((m) => m.meterId === "E1")!;
 
   it("has one page per building, slugged by building id, with relative links", () => {
     expect(model.buildings.map((b) => b.path)).toEqual(["buildings/B1.html", "buildings/B2.html"]);
@@ -32,25 +32,41 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(json).not.toMatch(/NaN|Infinity|undefined|Invalid Date/);
   });
 
-  it("shows billed − recomputed per bill (hand-computed: the fixture prices E1-05 $12.34 below its total)", () => {
+  it("puts each meter's bills on its own page, two folders down, linked from the building page", () => {
+    expect(model.meterBills.map((m) => m.path)).toEqual(["bills/B1/E1.html", "bills/B1/G1.html", "bills/B2/E2.html"]);
+    expect(e1.root).toBe("../../");
+    expect(e1.canonical).toBe("/reports/bills/B1/E1.html");
+    expect(e1.nav[0].href).toBe("../../index.html");
+    expect(b1.metersTable.rows.map((r) => r[0].href)).toEqual(["bills/B1/E1.html", "bills/B1/G1.html"]);
+    expect(b1.meters.map((m) => m.billsHref)).toEqual(["bills/B1/E1.html", "bills/B1/G1.html"]);
+  });
+
+  it("shows a bill that needs interval data in words, with no difference (the fixture prices E1-05 $12.34 below its total, but not exactly)", () => {
+    const cols = e1.billsTable.columns.map((c) => c.label);
     const row = e1.billsTable.rows[4];
-    expect(row[0].text).toBe("May 5, 2024 – Jun 4, 2024");
-    expect(row[7]).toMatchObject({ text: "+$12.34", sort: "12.34", tone: "pos" });
-    expect(e1.billsTable.rows[0][7].text).toBe("$0.00");
+    expect(row[cols.indexOf("Service period")]).toMatchObject({ text: "May 5 – Jun 4, 2024", note: "31 days" });
+    expect(row[0]).toMatchObject({ text: "E1-05", href: "bills/B1/E1.html#bill-E1-05" });
+    expect(row[cols.indexOf("Difference (billed quantities)")]).toMatchObject({ text: "needs interval data", tone: "muted" });
+    expect(JSON.stringify(e1.billsTable)).not.toContain("12.34");
+    expect(b1.metersTable.rows[0].map((c) => c.text)).toContain("14 need interval data");
   });
 
   it("says why a bill was not priced", () => {
-    const g1 = b1.meters.find((m) => m.meterId === "G1")!;
-    expect(g1.billsTable.rows[0][6].text).toBe("not priced: tariff T-gas has no version before 2024-03-01");
-    expect(g1.math[0]).toMatchObject({ state: "not-priced", reason: "tariff T-gas has no version before 2024-03-01" });
+    const g1 = model.meterBills.find((m) => m.meterId === "G1")!;
+    const cols = g1.billsTable.columns.map((c) => c.label);
+    expect(g1.billsTable.rows[0][cols.indexOf("Difference (billed quantities)")].text).toBe("not re-priced: tariff T-gas has no version before 2024-03-01");
+    expect(g1.bills[0]).toMatchObject({ notPricedReason: "tariff T-gas has no version before 2024-03-01", bases: [] });
   });
 
   it("shows each computed line as quantity × rate = amount with its status", () => {
-    const math = e1.math[0];
-    expect(math.state).toBe("priced");
+    const math = e1.bills[0].bases[0];
+    expect(math.basis).toBe("billed");
     expect(math.lines[0]).toMatchObject({ label: "Customer charge", quantity: "1 bill", rate: "$25.00 per bill", amount: "$25.00", status: "exact" });
     expect(math.lines[2]).toMatchObject({ quantity: "—", status: "needs interval data" });
     expect(math.total).toBe(math.billed);
+    // Not exact: the state in words, no difference.
+    expect(math.difference).toBeNull();
+    expect(math.stateText).toContain("need interval data");
   });
 
   it("sums the last 12 months of billed cost (window aligned with read dates, so whole bills)", () => {
@@ -78,19 +94,16 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(shown).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(expected));
   });
 
-  it("totals findings and money at stake by building on the index, linking to the building's audit section", () => {
+  it("counts findings by building on the index, linking to the building's audit section (money: the dispute list, test/report/disputesPage.test.ts)", () => {
     const cols = model.index.buildingsTable.columns.map((c) => c.label);
     const iF = cols.indexOf("Findings");
-    const iM = cols.indexOf("Money at stake");
     expect(iF).toBeGreaterThan(0);
+    // The fixture has no disputes: no money column.
+    expect(cols).not.toContain("To dispute");
     const [r1, r2] = model.index.buildingsTable.rows;
     // Fixture: B1 has a $12.34 total mismatch and an estimated read (no money); B2 has none.
     expect(r1[iF]).toMatchObject({ text: "2", href: "buildings/B1.html#audit-h" });
-    expect(r1[iM]).toMatchObject({ text: "$12.34", sort: "12.34" });
     expect(r2[iF].text).toBe("0");
-    expect(r2[iM].text).toBe("$0.00");
-    // The building column sums to the headline figure.
-    expect(model.index.headline.find((h) => h.label.startsWith("Money at stake"))!.value).toBe("$12.34");
   });
 
   it("charts monthly use per commodity, conserving each meter's billed usage", () => {
@@ -117,9 +130,8 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(e1.meteredTable!.rows[0].map((c) => c.text)).toEqual(["Nov 2024", "28,501 kWh", "2,880 of 2,884", "99.9%"]);
   });
 
-  it("puts findings on the building page, largest money first, and totals the money at stake", () => {
+  it("puts findings on the building page, largest money first", () => {
     expect(b1.findingsTable!.rows[0][0].text).toBe("Bill total differs from the tariff");
-    expect(model.index.headline.find((h) => h.label.startsWith("Money at stake"))!.value).toBe("$12.34");
     expect(model.buildings[1].findingsTable!.rows).toEqual([]);
   });
 

@@ -15,8 +15,8 @@ const model = buildSiteModel(fullFixtureInput());
 const charts: ChartModel[] = [
   ...model.index.charts,
   model.index.intensityChart!,
-  model.index.findingsChart!,
-  ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...b.baselines.flatMap((s) => s.charts), ...b.quality.flatMap((s) => s.charts), ...(b.forecast?.chart ? [b.forecast.chart] : [])]),
+  ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...(b.forecast?.chart ? [b.forecast.chart] : [])]),
+  ...model.meterBills.flatMap((m) => [...(m.baseline?.charts ?? []), ...(m.quality?.charts ?? [])]),
 ];
 
 describe("analysis chart specs", () => {

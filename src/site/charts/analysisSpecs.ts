@@ -4,13 +4,14 @@
  */
 import type { BaselineScatterChartModel, BaselineTimeChartModel, HeatmapChartModel, RankingChartModel } from "../../report/siteModel.ts";
 import { chartConfig, FLAG_COLOR, HEAT_RANGE, SERIES_COLORS } from "./palette.ts";
+import { chartTitle, wrapLabel } from "./wrapText.ts";
 
 const SCHEMA = "https://vega.github.io/schema/vega-lite/v6.json";
 
 function base(chart: { title: string; description: string }, height: number | { step: number }): Record<string, unknown> {
   return {
     $schema: SCHEMA,
-    title: chart.title,
+    title: chartTitle(chart.title),
     description: chart.description,
     width: "container",
     height,
@@ -122,7 +123,7 @@ export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
     layer: [
       {
         mark: { type: "rect", tooltip: true },
-        encoding: { x, y, color: { field: "value", type: "quantitative", title: chart.valueLabel, scale: { range: [...HEAT_RANGE], domain: [0, chart.colorMax], clamp: true }, legend: { orient: "bottom", gradientLength: 160 } }, tooltip },
+        encoding: { x, y, color: { field: "value", type: "quantitative", title: chart.valueLabel, scale: { range: [...HEAT_RANGE], domain: [0, chart.colorMax], clamp: true }, legend: { orient: "bottom", direction: "horizontal", gradientLength: 160 } }, tooltip },
       },
       {
         transform: [{ filter: "datum.f === 1" }],
@@ -133,16 +134,44 @@ export function heatmapSpec(chart: HeatmapChartModel): Record<string, unknown> {
   };
 }
 
-/** Horizontal bars, largest first; the label axis keeps the given order. */
+/** Longest line of a wrapped ranking label, in characters (≈ 130 px at 11 px): narrow screens keep a plot beside the labels. */
+export const RANKING_LABEL_LINE_CHARS = 22;
+
+/**
+ * A Vega expression giving each wrapped label as an array of lines (Vega draws an array as
+ * multi-line text), so no label is cut short with an ellipsis. Labels are embedded as JSON
+ * string literals.
+ */
+function wrappedLabelExpr(labels: readonly string[], max: number): string {
+  let expr = "datum.value";
+  for (const label of [...new Set(labels)].reverse()) {
+    const lines = wrapLabel(label, max);
+    if (lines.length > 1) expr = `datum.value === ${JSON.stringify(label)} ? ${JSON.stringify(lines)} : ${expr}`;
+  }
+  return expr;
+}
+
+/**
+ * Horizontal bars, largest first; the label axis keeps the given order. Labels wrap onto
+ * lines instead of being cut short, and the value axis title is anchored at the plot's end so
+ * it never runs past the chart's right edge on a narrow plot.
+ */
 export function rankingSpec(chart: RankingChartModel): Record<string, unknown> {
+  const lines = Math.max(1, ...chart.items.map((i) => wrapLabel(i.label, RANKING_LABEL_LINE_CHARS).length));
   return {
     // A fixed height (not a step): a step height with "fit-x" autosize makes vega-lite warn.
-    ...base(chart, Math.max(48, chart.items.length * 26)),
+    ...base(chart, Math.max(48, chart.items.length * (14 + 13 * lines))),
     data: { values: chart.items.map((i, rank) => ({ label: i.label, value: i.value, note: i.note, rank })) },
     mark: { type: "bar", tooltip: true, color: SERIES_COLORS[0] },
     encoding: {
-      y: { field: "label", type: "nominal", title: null, sort: { field: "rank", order: "ascending" }, axis: { labelLimit: 220 } },
-      x: { field: "value", type: "quantitative", title: chart.valueLabel },
+      y: {
+        field: "label",
+        type: "nominal",
+        title: null,
+        sort: { field: "rank", order: "ascending" },
+        axis: { labelLimit: 0, labelExpr: wrappedLabelExpr(chart.items.map((i) => i.label), RANKING_LABEL_LINE_CHARS), labelLineHeight: 13 },
+      },
+      x: { field: "value", type: "quantitative", title: chart.valueLabel, axis: { titleAnchor: "end", labelFlush: true, tickCount: 4 } },
       tooltip: [
         { field: "label", type: "nominal", title: "Item" },
         { field: "value", type: "quantitative", title: chart.valueLabel, format: chart.valueFormat },

@@ -5,6 +5,7 @@
 import type { ForecastChartModel } from "../../report/siteModel.ts";
 import { formatMonth } from "../../report/format.ts";
 import { chartConfig, SERIES_COLORS } from "./palette.ts";
+import { chartTitle } from "./wrapText.ts";
 
 const SCHEMA = "https://vega.github.io/schema/vega-lite/v6.json";
 
@@ -60,7 +61,7 @@ export function forecastSpec(chart: ForecastChartModel): Record<string, unknown>
   const base = chartConfig();
   return {
     $schema: SCHEMA,
-    title: chart.title,
+    title: chartTitle(chart.title),
     description: chart.description,
     width: "container",
     height: 240,

@@ -1,6 +1,7 @@
 /** Vega-Lite spec for monthly values (use or cost): bars per calendar month, stacked by series. */
 import type { MonthlyChartModel } from "../../report/siteModel.ts";
 import { chartConfig } from "./palette.ts";
+import { chartTitle } from "./wrapText.ts";
 
 /**
  * Builds a Vega-Lite v6 spec from a monthly-usage chart model. Pure. Months are ordinal
@@ -14,7 +15,7 @@ export function monthlyUsageSpec(
   const valueFormat = chart.kind === "monthly-cost" ? ",.2f" : ",.0f";
   return {
     $schema: "https://vega.github.io/schema/vega-lite/v6.json",
-    title: chart.title,
+    title: chartTitle(chart.title),
     description: chart.description,
     width: "container",
     height: 220,

@@ -29,7 +29,9 @@ export function chartConfig(): Record<string, unknown> {
       titleFontSize: 12,
       titleFontWeight: 600,
     },
-    legend: { labelColor: INK, titleColor: INK, labelFontSize: 11, titleFontSize: 12, orient: "bottom" },
+    // Legend labels are never cut short (limit 0 = none), and symbol legends list one entry per
+    // line so a legend under a narrow chart never runs past its right edge.
+    legend: { labelColor: INK, titleColor: INK, labelFontSize: 11, titleFontSize: 12, orient: "bottom", labelLimit: 0, direction: "vertical" },
     title: { color: INK, fontSize: 14, fontWeight: 600, anchor: "start" },
   };
 }
