@@ -28,12 +28,36 @@ export interface PriceIo {
 const USAGE = `usage: ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
                      | --intervals CSV --meter ID --from D --to D [--multiplier M] [--unit U]
                        [--timestamps start|end])
-                     [--timezone ZONE] [--previous-demands KW,KW,...] [--json]
+                     [--timezone ZONE] [--previous-demands KW,KW,...] [--estimate] [--json]
   --from D / --to D   first day of service / first day not billed (YYYY-MM-DD)
   --timezone ZONE     IANA zone for time-of-use periods, holidays and interval timestamps
                       without an offset (default UTC)
   --timestamps        whether interval timestamps mark the interval start (default) or end
-  --previous-demands  billing demands of earlier bills, oldest first, for ratchets`;
+  --previous-demands  billing demands of earlier bills, oldest first, for ratchets
+  --estimate          price even when the tariff needs an input that is not given (demand,
+                      power factor, interval data for time-of-use): such lines are estimates
+Exit codes: 0 priced; 1 usage, tariff-file or pricing error, or a needed input missing.`;
+
+/**
+ * What the tariff versions in force over [from, to) need that the request does not give: a
+ * demand (demand charges, without interval data), a power factor (power-factor charges), and
+ * interval data (energy or demand priced per time-of-use period). Empty when nothing is missing.
+ * @example missingInputs(tariff, "2025-06-01", "2025-07-01", { demand: false, pf: false, intervals: false })
+ */
+export function missingInputs(tariff: Tariff, from: string, to: string, given: { demand: boolean; pf: boolean; intervals: boolean }): string[] {
+  const missing = new Set<string>();
+  for (const v of tariff.versions) {
+    if (v.from >= to || (v.until !== null && v.until <= from)) continue;
+    for (const c of v.charges) {
+      if (c.kind === "demand" && !given.demand && !given.intervals) missing.add("--demand KW (the tariff has a demand charge)");
+      if (c.kind === "power-factor" && !given.pf) missing.add("--pf PF (the tariff has a power-factor charge)");
+      if ((c.kind === "energy" || c.kind === "demand") && "byPeriod" in c.rate && !given.intervals) {
+        missing.add("--intervals CSV --meter ID (the tariff prices time-of-use periods)");
+      }
+    }
+  }
+  return [...missing];
+}
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
@@ -253,6 +277,7 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
         "previous-demands": { type: "string" },
         timestamps: { type: "string" },
         json: { type: "boolean" },
+        estimate: { type: "boolean" },
         help: { type: "boolean", short: "h" },
       },
     }));
@@ -289,6 +314,11 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
     return 1;
   }
   const unit = s("unit") ?? tariff.usageUnit;
+  const missing = missingInputs(tariff, from, to, { demand: demandKw !== undefined, pf: pf !== undefined, intervals: s("intervals") !== undefined });
+  if (missing.length > 0 && !values.estimate) {
+    throw new UsageError(`${tariffPath}: this tariff needs ${missing.join("; ")}\nGive them, or pass --estimate to price without them (those lines are then estimates: no demand prices 0 kW, no power factor no adjustment, time-of-use split by hours).`);
+  }
+  if (missing.length > 0) io.err(`ohmbook price: estimating without ${missing.join("; ")}\n`);
 
   let intervals: IntervalUsage | null = null;
   let usage = num("usage", s("usage"));
