@@ -34,14 +34,16 @@ const USAGE = `usage: ohmbook price --tariff FILE (--usage N --from D --to D [--
                       without an offset (default UTC)
   --timestamps        whether interval timestamps mark the interval start (default) or end
   --previous-demands  billing demands of earlier bills, oldest first, for ratchets
-  --estimate          price even when the tariff needs an input that is not given (demand,
-                      power factor, interval data for time-of-use): such lines are estimates
+  --estimate          price even when the tariff needs a demand or power factor that is not
+                      given (no demand prices 0 kW; no power factor, no adjustment)
 Exit codes: 0 priced; 1 usage, tariff-file or pricing error, or a needed input missing.`;
 
 /**
  * What the tariff versions in force over [from, to) need that the request does not give: a
- * demand (demand charges, without interval data), a power factor (power-factor charges), and
- * interval data (energy or demand priced per time-of-use period). Empty when nothing is missing.
+ * demand (demand charges, without interval data) and a power factor (power-factor charges).
+ * Time-of-use lines without interval data are not listed: they are priced from the hours of each
+ * period and marked "needs interval data" (README, "Without interval data").
+ * Empty when nothing is missing.
  * @example missingInputs(tariff, "2025-06-01", "2025-07-01", { demand: false, pf: false, intervals: false })
  */
 export function missingInputs(tariff: Tariff, from: string, to: string, given: { demand: boolean; pf: boolean; intervals: boolean }): string[] {
@@ -51,9 +53,6 @@ export function missingInputs(tariff: Tariff, from: string, to: string, given: {
     for (const c of v.charges) {
       if (c.kind === "demand" && !given.demand && !given.intervals) missing.add("--demand KW (the tariff has a demand charge)");
       if (c.kind === "power-factor" && !given.pf) missing.add("--pf PF (the tariff has a power-factor charge)");
-      if ((c.kind === "energy" || c.kind === "demand") && "byPeriod" in c.rate && !given.intervals) {
-        missing.add("--intervals CSV --meter ID (the tariff prices time-of-use periods)");
-      }
     }
   }
   return [...missing];
@@ -314,11 +313,6 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
     return 1;
   }
   const unit = s("unit") ?? tariff.usageUnit;
-  const missing = missingInputs(tariff, from, to, { demand: demandKw !== undefined, pf: pf !== undefined, intervals: s("intervals") !== undefined });
-  if (missing.length > 0 && !values.estimate) {
-    throw new UsageError(`${tariffPath}: this tariff needs ${missing.join("; ")}\nGive them, or pass --estimate to price without them (those lines are then estimates: no demand prices 0 kW, no power factor no adjustment, time-of-use split by hours).`);
-  }
-  if (missing.length > 0) io.err(`ohmbook price: estimating without ${missing.join("; ")}\n`);
 
   let intervals: IntervalUsage | null = null;
   let usage = num("usage", s("usage"));
@@ -356,6 +350,12 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
     previousBillingDemandsKw,
   };
   const bill = priceBill(tariff, req);
+  // Checked after pricing, so a request that cannot be priced at all says why first.
+  const missing = missingInputs(tariff, from, to, { demand: demandKw !== undefined, pf: pf !== undefined, intervals: intervals !== null });
+  if (missing.length > 0 && !values.estimate) {
+    throw new UsageError(`${tariffPath}: this tariff needs ${missing.join("; ")}\nGive it, or pass --estimate to price without it (no demand prices 0 kW; no power factor, no adjustment).`);
+  }
+  if (missing.length > 0) io.err(`ohmbook price: estimating without ${missing.join("; ")}\n`);
   io.out(values.json ? `${JSON.stringify(bill, null, 2)}\n` : formatBillTable(tariff, req, bill));
   return 0;
 }
