@@ -242,6 +242,17 @@ describe("ESPI round trips (synthetic feeds written by the test)", () => {
     });
   }
 
+  it("--tariff goes only on meters of the tariff's commodity (starter-electric is electricity)", async () => {
+    const dir = await starter();
+    // Gas (kind 1) in therms (uom 169) × 10^-3: 12345 → 12.345 therm.
+    const { code, io } = await importText(dir, "gas.xml", writeEspi({ kind: 1, uom: 169, powerOfTen: -3, blocks: [{ start: T0, duration: 3600, readings: hourly(1, () => "12345") }] }));
+    expect(code).toBe(0);
+    expect(io.stderr).toMatch(/is gas but tariff starter-electric is for electricity; its tariff column was left empty/);
+    const meter = (await csvRows(join(dir, "meters.csv"))).find((m) => m.building_id === "RT");
+    expect(meter).toMatchObject({ commodity: "gas", unit: "therm", tariff: "" });
+    expect((await intervalRows(dir, "RT-")).map((r) => r.value)).toEqual(["12.345"]);
+  });
+
   it("a revised reading on re-import is a conflict, not a silent overwrite", async () => {
     const dir = await starter();
     expect((await importText(dir, "1.xml", writeEspi({ blocks: [{ start: T0, duration: 3600, readings: hourly(1, () => "1000") }] }))).code).toBe(0);

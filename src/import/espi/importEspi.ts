@@ -15,7 +15,7 @@
  * into place, CSV files replaced through a rename. Importing the same data again adds nothing.
  */
 import { existsSync } from "node:fs";
-import { mkdtemp, readFile, rm } from "node:fs/promises";
+import { mkdtemp, readFile, readdir, rm } from "node:fs/promises";
 import { join } from "node:path";
 import { DateTime, IANAZone } from "luxon";
 import { parse as parseYaml } from "yaml";
@@ -168,6 +168,10 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
   }
   if (issues.some((i) => i.severity === "error")) throw new InputError(issues);
 
+  const tariffCommodity = options.tariff === undefined ? null : await commodityOfTariff(join(dir, "tariffs"), options.tariff);
+  if (options.tariff !== undefined && tariffCommodity === null) {
+    fileIssue(join(dir, "tariffs"), 0, "warning", `no tariff file in tariffs/ has id ${options.tariff}`, "add that tariff file before building, or correct --tariff");
+  }
   // Meters: new ones appended, existing ones must agree.
   const meterRowById = new Map(meters.rows.map((r) => [r.cells.meter_id ?? "", r]));
   const newMeterRows: Record<string, string>[] = [];
@@ -185,11 +189,17 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
       }
       if (newMeterIds.has(m.meterId)) continue;
       newMeterIds.add(m.meterId);
-      newMeterRows.push({ meter_id: m.meterId, building_id: options.buildingId, commodity: m.commodity, unit: m.unit, tariff: options.tariff ?? "", multiplier: "1" });
+      // --tariff goes on the meters of its commodity only (a gas meter never gets an electric tariff).
+      const tariff = options.tariff !== undefined && (tariffCommodity === null || tariffCommodity === m.commodity) ? options.tariff : "";
+      if (options.tariff !== undefined && tariff === "") {
+        fileIssue(meters.path, 0, "warning", `meter ${m.meterId} is ${m.commodity} but tariff ${options.tariff} is for ${tariffCommodity}; its tariff column was left empty`, "write the id of a tariff file for that commodity in meters.csv");
+      }
+      newMeterRows.push({ meter_id: m.meterId, building_id: options.buildingId, commodity: m.commodity, unit: m.unit, tariff, multiplier: "1" });
     }
   }
-  if (newMeterRows.length > 0 && options.tariff === undefined) {
-    fileIssue(meters.path, meters.rows.length + 2, "warning", `${newMeterRows.length} meter(s) added without a tariff: ${newMeterRows.map((r) => r.meter_id).join(", ")}`,
+  const untariffed = newMeterRows.filter((r) => r.tariff === "");
+  if (untariffed.length > 0 && options.tariff === undefined) {
+    fileIssue(meters.path, meters.rows.length + 2, "warning", `${untariffed.length} meter(s) added without a tariff: ${untariffed.map((r) => r.meter_id).join(", ")}`,
       "write the id of a tariff file in their tariff column (or pass --tariff ID when importing)");
   }
   if (issues.some((i) => i.severity === "error")) throw new InputError(issues);
@@ -381,6 +391,21 @@ async function readTable(path: string, header: readonly string[]): Promise<CsvTa
   } catch (error) {
     throw new InputError([{ file: path, line: 0, column: 0, severity: "error", message: `not readable as CSV: ${(error as Error).message}`, hint: "fix the file, then import again" }]);
   }
+}
+
+/** The commodity of the tariff file in `tariffsDir` whose `id` is `id`, or null when none has it. */
+async function commodityOfTariff(tariffsDir: string, id: string): Promise<string | null> {
+  if (!existsSync(tariffsDir)) return null;
+  for (const name of await readdir(tariffsDir)) {
+    if (!/\.ya?ml$/i.test(name)) continue;
+    try {
+      const doc = parseYaml(await readFile(join(tariffsDir, name), "utf8")) as { id?: unknown; commodity?: unknown } | null;
+      if (doc?.id === id) return typeof doc.commodity === "string" ? doc.commodity : null;
+    } catch {
+      // a broken tariff file is reported by `ohmbook check`
+    }
+  }
+  return null;
 }
 
 /** The portfolio's currency (portfolio.yaml `currency`, default USD). */
