@@ -96,6 +96,16 @@ export async function readEspiFeed(path: string, handlers: FeedHandlers): Promis
   let block: { node: XmlNode; index: number; readings: number } | null = null;
   let reading: XmlNode | null = null;
   let meta: "id" | "title" | null = null;
+  // Errors of the handlers (and of the work they start) are passed on as they are, not as XML errors.
+  const foreign = new Set<unknown>();
+  const notXml = <T>(work: () => T): T => {
+    try {
+      return work();
+    } catch (error) {
+      foreign.add(error);
+      throw error;
+    }
+  };
   // Work a handler started (e.g. a merge to disk) is awaited before the next chunk: back-pressure.
   const waits: Promise<void>[] = [];
 
@@ -152,7 +162,7 @@ export async function readEspiFeed(path: string, handlers: FeedHandlers): Promis
     if (stack.length > 0) {
       const node = stack.pop()!;
       if (node === reading && block && entry) {
-        const wait = handlers.reading?.(entry.ordinal, block.node, block.index, block.readings++, node);
+        const wait = notXml(() => handlers.reading?.(entry!.ordinal, block!.node, block!.index, block!.readings++, node));
         if (wait) waits.push(wait);
         entry.readingCount++;
         reading = null;
@@ -164,7 +174,8 @@ export async function readEspiFeed(path: string, handlers: FeedHandlers): Promis
       return;
     }
     if (entry !== null && depth === entryDepth - 1) {
-      handlers.entry?.(entry);
+      const done = entry;
+      notXml(() => handlers.entry?.(done));
       entry = null;
       contentDepth = -1;
     } else if (contentDepth > 0 && depth === contentDepth - 1) contentDepth = -1;
@@ -176,11 +187,12 @@ export async function readEspiFeed(path: string, handlers: FeedHandlers): Promis
     for await (const chunk of stream as AsyncIterable<string>) {
       parser.write(first ? chunk.replace(/^\uFEFF/, "") : chunk);
       first = false;
-      if (waits.length > 0) await Promise.all(waits.splice(0));
+      if (waits.length > 0) await Promise.all(waits.splice(0)).catch((error: unknown) => notXml(() => { throw error; }));
     }
     parser.close();
-    await Promise.all(waits.splice(0));
+    await Promise.all(waits.splice(0)).catch((error: unknown) => notXml(() => { throw error; }));
   } catch (error) {
+    if (foreign.has(error)) throw error;
     const code = (error as NodeJS.ErrnoException).code;
     if (code) throw new FeedSyntaxError(`cannot read the file (${code})`, 0);
     const message = error instanceof Error ? error.message : String(error);
