@@ -14,7 +14,18 @@ import { chromium, type BrowserContext } from "playwright-core";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { writeSite } from "../../src/site/writeSite.ts";
 import { fullFixtureInput } from "../report/fixture.ts";
+import { dropSameFolderCrossorigin } from "../../src/site/sameFolderAssets.ts";
 import { CHROMIUM, HAVE_CHROMIUM } from "./browser.ts";
+
+describe("dropSameFolderCrossorigin", () => {
+  it("removes crossorigin from relative asset URLs only", () => {
+    expect(dropSameFolderCrossorigin('<link rel="stylesheet" crossorigin href="./assets/a.css"><script type="module" crossorigin="anonymous" src="../assets/b.js"></script>'))
+      .toBe('<link rel="stylesheet" href="./assets/a.css"><script type="module" src="../assets/b.js"></script>');
+    // Another origin keeps it: there CORS is what the attribute asks for.
+    const remote = '<link rel="stylesheet" crossorigin href="https://cdn.example/a.css"><script crossorigin src="//cdn.example/b.js"></script>';
+    expect(dropSameFolderCrossorigin(remote)).toBe(remote);
+  });
+});
 
 if (!HAVE_CHROMIUM) console.warn(`file:// e2e skipped: ${CHROMIUM} not found (apt-get install -y chromium)`);
 

@@ -257,7 +257,7 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
   // Meters: one per usage point and reading type.
   const meters = new Map<string, PlannedMeter>();
   const meterOfReading = new Map<FeedEntry, PlannedMeter | null>();
-  const meterFor = (up: UsagePointInfo, rt: ReadingTypeInfo | null, unit: string, power: number, intervalSeconds: number | null, line: number): PlannedMeter | null => {
+  const meterFor = (up: UsagePointInfo, unit: string, power: number, intervalSeconds: number | null, line: number): PlannedMeter | null => {
     if (up.commodity === null) return null;
     const key = `${unit}|${intervalSeconds ?? "-"}`;
     const id = espiMeterId(ctx.buildingId, up.commodity, up.key, key);
@@ -266,7 +266,6 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
       m = { meterId: id, commodity: up.commodity, unit, power, intervalSeconds, usagePointKey: up.key, line };
       meters.set(id, m);
     }
-    void rt;
     return m;
   };
   const firstYear = new Map<UsagePointInfo, number>();
@@ -293,7 +292,7 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
       meterOfReading.set(entry, null);
       continue;
     }
-    meterOfReading.set(entry, meterFor(up, rt, rt.unit, rt.power, rt.intervalSeconds, entry.line));
+    meterOfReading.set(entry, meterFor(up, rt.unit, rt.power, rt.intervalSeconds, entry.line));
   }
 
   const meterOfEntry = new Map<number, PlannedMeter>();
@@ -370,7 +369,7 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
       }
     }
     const upMeters = [...meters.values()].filter((m) => m.usagePointKey === up.key && m.unit === map.unit).sort((a, b) => (a.intervalSeconds ?? Infinity) - (b.intervalSeconds ?? Infinity));
-    const meter = upMeters[0] ?? meterFor(up, null, map.unit, map.shift, null, entry.line);
+    const meter = upMeters[0] ?? meterFor(up, map.unit, map.shift, null, entry.line);
     if (!meter) continue;
     const zoneName = ctx.zone;
     const periodStart = nearestLocalDate(start * 1000, zoneName);
