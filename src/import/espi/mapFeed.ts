@@ -121,9 +121,9 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
     issues.push({ file: ctx.fileLabel, line, column: 0, severity: "warning", message, hint });
   };
   /** An integer field: trimmed text of digits, else an error and null. */
-  const int = (node: XmlNode | undefined, what: string, required: boolean, hint: string): number | null => {
+  const int = (node: XmlNode | undefined, what: string, required: boolean, hint: string, parentLine = 0): number | null => {
     if (node === undefined) {
-      if (required) error(0, `${what} is missing`, hint);
+      if (required) error(parentLine, `${what} is missing`, hint);
       return null;
     }
     const text = node.text.trim();
@@ -238,7 +238,7 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
   const checkLtp = (ltp: XmlNode, year: number): void => {
     if (checkedLtp.has(ltp)) return;
     checkedLtp.add(ltp);
-    const tz = int(child(ltp, "tzOffset"), "LocalTimeParameters tzOffset", true, "the standard-time offset from UTC in seconds, e.g. -18000");
+    const tz = int(child(ltp, "tzOffset"), "LocalTimeParameters tzOffset", true, "the standard-time offset from UTC in seconds, e.g. -18000", ltp.line);
     const dst = child(ltp, "dstOffset") ? int(child(ltp, "dstOffset"), "LocalTimeParameters dstOffset", false, "seconds, e.g. 3600") : 0;
     if (tz === null) return;
     const jan = zone.offset(Date.UTC(year, 0, 1)) * 60;
@@ -342,7 +342,7 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
       error(node.line, "usage summary has a bill amount but no overallConsumptionLastPeriod", "bills.csv needs the billed usage: add <overallConsumptionLastPeriod> with uom and value");
       continue;
     }
-    const consUom = int(child(cons, "uom"), "overallConsumptionLastPeriod uom", true, "e.g. 72 for Wh");
+    const consUom = int(child(cons, "uom"), "overallConsumptionLastPeriod uom", true, "e.g. 72 for Wh", cons.line);
     const consPow = child(cons, "powerOfTenMultiplier") ? int(child(cons, "powerOfTenMultiplier"), "overallConsumptionLastPeriod powerOfTenMultiplier", false, "e.g. 0") : 0;
     const consValue = child(cons, "value")!.text.trim();
     if (!isIntegerText(consValue)) {
@@ -352,7 +352,7 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
     if (consUom === null || consPow === null) continue;
     const map = UOM[consUom];
     if (!map || up.commodity === null || !map.commodities.includes(up.commodity)) {
-      error(child(cons, "uom")!.line, `overallConsumptionLastPeriod uom ${consUom} is not a unit of ${up.commodity ?? "the usage point's service"} that ohmbook meters use`, "electricity in Wh (72); gas in therm (169), m³ (42) or ft³ (119); water in US gallons (128), m³ or ft³");
+      error(child(cons, "uom")?.line ?? cons.line, `overallConsumptionLastPeriod uom ${consUom} is not a unit of ${up.commodity ?? "the usage point's service"} that ohmbook meters use`, "electricity in Wh (72); gas in therm (169), m³ (42) or ft³ (119); water in US gallons (128), m³ or ft³");
       continue;
     }
     const curNode = child(node, "currency");
