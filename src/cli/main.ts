@@ -10,6 +10,7 @@ import { fileURLToPath } from "node:url";
 import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssueIn } from "../core/issues.ts";
 import { consoleReporter } from "./progress.ts";
+import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, defaultPortfolioDir, ohmbookVersion, wantsHelp } from "./usage.ts";
 
 const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
 
@@ -17,10 +18,14 @@ Usage:
   ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--strict] [--quiet] [--json]
   ohmbook check [DIR] [--quiet] [--json]
   ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
-                | --intervals CSV --meter ID --from D --to D) [--timezone ZONE] [--json]
+                | --intervals CSV --meter ID --from D --to D) [--timezone ZONE] [--estimate] [--json]
   ohmbook init DIR
+  ohmbook import espi FILE... --into DIR --building ID [--timezone ZONE] [--tariff ID]
 
-DIR defaults to data/demo; OUT defaults to _site.
+  ohmbook COMMAND --help   options of one command
+  ohmbook --version        the version
+
+DIR defaults to the current folder when it holds portfolio.yaml, else data/demo; OUT to _site.
 Exit codes: 0 ok, 1 input or usage errors (nothing written), 3 findings reached --fail-on.`;
 
 export interface CliIo {
@@ -29,6 +34,8 @@ export interface CliIo {
   isTty: boolean;
   /** SOURCE_DATE_EPOCH (reproducible-builds convention): seconds since 1970 that date the build. */
   sourceDateEpoch?: string;
+  /** The folder a missing DIR is looked for in (default: the process's current folder). */
+  cwd?: string;
 }
 
 const processIo: CliIo = {
@@ -53,6 +60,17 @@ export function buildDateFromEpoch(value: string | undefined): string | undefine
 export async function runCli(argv: string[], io: CliIo = processIo): Promise<number> {
   const [command, ...rest] = argv;
   try {
+    if (command === "--version" || command === "-v" || command === "version") {
+      io.out(`ohmbook ${ohmbookVersion()}\n`);
+      return 0;
+    }
+    // `ohmbook help build` is `ohmbook build --help`.
+    if (command === "help" && rest[0] !== undefined) return await runCli([rest[0], "--help"], io);
+    const usage: Record<string, string> = { build: BUILD_USAGE, check: CHECK_USAGE, init: INIT_USAGE };
+    if (command !== undefined && usage[command] !== undefined && wantsHelp(rest)) {
+      io.out(`${usage[command]}\n`);
+      return 0;
+    }
     switch (command) {
       case "build":
         return await commandBuild(rest, io);
@@ -64,6 +82,10 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
       }
       case "init":
         return await commandInit(rest, io);
+      case "import": {
+        const { runImport } = await import("./import.ts");
+        return await runImport(rest, io);
+      }
       case undefined:
       case "help":
       case "--help":
@@ -71,7 +93,7 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
         io.out(`${HELP}\n`);
         return command === undefined ? 1 : 0;
       default:
-        throw new UsageError(`unknown command '${command}'; expected build, check, price or init`);
+        throw new UsageError(`unknown command '${command}'; expected build, check, price, init or import`);
     }
   } catch (error) {
     return reportError(error, io);
@@ -122,7 +144,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   const quiet = Boolean(values.quiet) || Boolean(values.json);
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
   const { buildPortfolioSite } = await import("../pipeline/build.ts");
-  const dir = positionals[0] ?? "data/demo";
+  const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
   const result = await buildPortfolioSite({
     dir,
     outDir: (values.out as string | undefined) ?? "_site",
@@ -136,7 +158,8 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   for (const issue of result.issues) if (!quiet || issue.severity === "error") io.err(`${formatIssueIn(issue, dir)}\n`);
   const crossed = failOn ? result.findingsAtOrAbove(failOn) : 0;
   if (values.json) {
-    io.out(`${JSON.stringify(result.summary, null, 2)}\n`);
+    // Warnings are part of the machine-readable answer, not only of the terminal's.
+    io.out(`${JSON.stringify({ ...result.summary, issues: result.issues }, null, 2)}\n`);
   } else if (!quiet) {
     io.out(`${result.summaryText}\n`);
   }
@@ -152,7 +175,7 @@ async function commandCheck(args: string[], io: CliIo): Promise<number> {
     quiet: { type: "boolean", short: "q" },
     json: { type: "boolean" },
   });
-  const dir = positionals[0] ?? "data/demo";
+  const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
   const { loadPortfolio } = await import("../ingest/index.ts");
   const result = await loadPortfolio(dir);
   const errors = result.issues.filter((i) => i.severity === "error");

@@ -28,12 +28,35 @@ export interface PriceIo {
 const USAGE = `usage: ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
                      | --intervals CSV --meter ID --from D --to D [--multiplier M] [--unit U]
                        [--timestamps start|end])
-                     [--timezone ZONE] [--previous-demands KW,KW,...] [--json]
+                     [--timezone ZONE] [--previous-demands KW,KW,...] [--estimate] [--json]
   --from D / --to D   first day of service / first day not billed (YYYY-MM-DD)
   --timezone ZONE     IANA zone for time-of-use periods, holidays and interval timestamps
                       without an offset (default UTC)
   --timestamps        whether interval timestamps mark the interval start (default) or end
-  --previous-demands  billing demands of earlier bills, oldest first, for ratchets`;
+  --previous-demands  billing demands of earlier bills, oldest first, for ratchets
+  --estimate          price even when the tariff needs a demand or power factor that is not
+                      given (no demand prices 0 kW; no power factor, no adjustment)
+Exit codes: 0 priced; 1 usage, tariff-file or pricing error, or a needed input missing.`;
+
+/**
+ * What the tariff versions in force over [from, to) need that the request does not give: a
+ * demand (demand charges, without interval data) and a power factor (power-factor charges).
+ * Time-of-use lines without interval data are not listed: they are priced from the hours of each
+ * period and marked "needs interval data" (README, "Without interval data").
+ * Empty when nothing is missing.
+ * @example missingInputs(tariff, "2025-06-01", "2025-07-01", { demand: false, pf: false, intervals: false })
+ */
+export function missingInputs(tariff: Tariff, from: string, to: string, given: { demand: boolean; pf: boolean; intervals: boolean }): string[] {
+  const missing = new Set<string>();
+  for (const v of tariff.versions) {
+    if (v.from >= to || (v.until !== null && v.until <= from)) continue;
+    for (const c of v.charges) {
+      if (c.kind === "demand" && !given.demand && !given.intervals) missing.add("--demand KW (the tariff has a demand charge)");
+      if (c.kind === "power-factor" && !given.pf) missing.add("--pf PF (the tariff has a power-factor charge)");
+    }
+  }
+  return [...missing];
+}
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
@@ -253,6 +276,7 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
         "previous-demands": { type: "string" },
         timestamps: { type: "string" },
         json: { type: "boolean" },
+        estimate: { type: "boolean" },
         help: { type: "boolean", short: "h" },
       },
     }));
@@ -326,6 +350,12 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
     previousBillingDemandsKw,
   };
   const bill = priceBill(tariff, req);
+  // Checked after pricing, so a request that cannot be priced at all says why first.
+  const missing = missingInputs(tariff, from, to, { demand: demandKw !== undefined, pf: pf !== undefined, intervals: intervals !== null });
+  if (missing.length > 0 && !values.estimate) {
+    throw new UsageError(`${tariffPath}: this tariff needs ${missing.join("; ")}\nGive it, or pass --estimate to price without it (no demand prices 0 kW; no power factor, no adjustment).`);
+  }
+  if (missing.length > 0) io.err(`ohmbook price: estimating without ${missing.join("; ")}\n`);
   io.out(values.json ? `${JSON.stringify(bill, null, 2)}\n` : formatBillTable(tariff, req, bill));
   return 0;
 }

@@ -13,6 +13,7 @@ import Eleventy from "@11ty/eleventy";
 import EleventyVitePlugin from "@11ty/eleventy-plugin-vite";
 import type { SiteModel } from "../report/siteModel.ts";
 import { OhmbookError } from "../core/errors.ts";
+import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
 import { prepareSite } from "./prepareSite.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
@@ -183,6 +184,8 @@ function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<
           if (error) onError(error);
         },
       },
+      // Pages opened from disk (file://) stay styled: no crossorigin on same-folder assets.
+      sameFolderAssetsPlugin(),
     ],
     // Relative asset URLs: the site works under any path prefix and from a plain file server.
     base: "./",

@@ -54,8 +54,8 @@ describe("writeSite", () => {
 
   it("links assets and pages relatively, so any path prefix works", async () => {
     const page = await readFile(join(out, "buildings/B1.html"), "utf8");
-    expect(page).toMatch(/<script type="module" crossorigin src="\.\.\/assets\/site-[\w-]+\.js"><\/script>/);
-    expect(page).toMatch(/<link rel="stylesheet" crossorigin href="\.\.\/assets\/site-[\w-]+\.css">/);
+    expect(page).toMatch(/<script type="module" src="\.\.\/assets\/site-[\w-]+\.js"><\/script>/);
+    expect(page).toMatch(/<link rel="stylesheet" href="\.\.\/assets\/site-[\w-]+\.css">/);
     const hrefs = [...page.matchAll(/\shref="([^"]*)"/g)].map((m) => m[1]);
     const absolute = hrefs.filter((h) => h.startsWith("/") || /^[a-z]+:\/\//.test(h));
     // Only the canonical link may be root-based (it carries base_path by design).

@@ -1,0 +1,74 @@
+/**
+ * Help texts of every command, the version, and the default portfolio folder: what `--help`,
+ * `--version` and a missing DIR mean, in one place.
+ */
+import { existsSync, readFileSync } from "node:fs";
+import { dirname, join } from "node:path";
+import { fileURLToPath } from "node:url";
+
+export const BUILD_USAGE = `Usage: ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--strict] [--quiet] [--json]
+
+Reads the portfolio folder DIR and writes the static site to OUT.
+
+Options:
+  -o, --out OUT          where the site goes (default _site)
+  --fail-on LEVEL        exit 3 when an audit finding reaches LEVEL: warning or error
+  --strict               any rejected input row fails the build (exit 1, nothing written)
+  -q, --quiet            print only errors
+  --json                 print a machine-readable summary on stdout, with every warning and error
+  -h, --help             show this help
+
+DIR defaults to the current folder when it holds portfolio.yaml, else data/demo.
+Exit codes: 0 built; 1 input errors (nothing written); 3 --fail-on reached.`;
+
+export const CHECK_USAGE = `Usage: ohmbook check [DIR] [--quiet] [--json]
+
+Validates every input file of the portfolio folder DIR and prints file:line:column: message for
+each problem. Writes nothing.
+
+Options:
+  -q, --quiet            print only errors
+  --json                 print {ok, issues, files} as JSON (warnings included)
+  -h, --help             show this help
+
+DIR defaults to the current folder when it holds portfolio.yaml, else data/demo.
+Exit codes: 0 no errors (warnings allowed); 1 errors.`;
+
+export const INIT_USAGE = `Usage: ohmbook init DIR
+
+Writes a small commented starter portfolio into DIR (which must be new or empty), ready for
+'ohmbook check DIR' and 'ohmbook build DIR'.
+
+Options:
+  -h, --help             show this help
+
+Exit codes: 0 written; 1 DIR is not empty or cannot be written.`;
+
+/** The version in package.json, found by walking up from this module (source or compiled). */
+export function ohmbookVersion(): string {
+  let dir = dirname(fileURLToPath(import.meta.url));
+  for (let i = 0; i < 5; i++) {
+    const candidate = join(dir, "package.json");
+    if (existsSync(candidate)) {
+      const pkg = JSON.parse(readFileSync(candidate, "utf8")) as { name?: string; version?: string };
+      if (pkg.name === "ohmbook" && pkg.version) return pkg.version;
+    }
+    dir = dirname(dir);
+  }
+  return "unknown";
+}
+
+/**
+ * The portfolio folder when none is given: the current folder if it holds portfolio.yaml (as
+ * git finds its repository), else the bundled demo `data/demo`.
+ */
+export function defaultPortfolioDir(cwd: string): string {
+  if (!existsSync(join(cwd, "portfolio.yaml"))) return "data/demo";
+  return cwd === process.cwd() ? "." : cwd;
+}
+
+/** True when the arguments ask for help anywhere (`--help` or `-h`), as most CLIs accept. */
+export function wantsHelp(args: readonly string[]): boolean {
+  const end = args.indexOf("--");
+  return (end < 0 ? args : args.slice(0, end)).some((a) => a === "--help" || a === "-h");
+}
