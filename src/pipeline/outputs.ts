@@ -37,7 +37,7 @@ export interface OutputsInput {
   monthlyMetered: Map<string, MonthTotal[]>;
   weatherGaps: WeatherGap[];
   quality: MeterQuality[];
-  /** Raw and cleaned metered usage per bill id (interval meters only); the audit compares the raw sum. */
+  /** Raw and cleaned metered usage per bill id (interval meters only); the audit compares the cleaned sum and shows the raw one beside it. */
   meteredViews: Map<string, MeteredViews>;
   /** Null when no forecast could be made (no as-of date, or the forecast failed). */
   forecast: ForecastBundle | null;

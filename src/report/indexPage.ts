@@ -1,5 +1,5 @@
 /** View model of the portfolio index: bills to dispute first, headline figures, the building table. */
-import type { ReportFinding, ReportInput } from "./input.ts";
+import { billCheckState, type ReportFinding, type ReportInput } from "./input.ts";
 import type { IndexPage, LabelValue, TableCell } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber, formatQuantity } from "./format.ts";
 import { DISPUTES_PATH, buildingPath, navFor } from "./nav.ts";
@@ -75,8 +75,18 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     { label: "Bills", value: formatNumber(input.portfolio.bills.length) },
     { label: "Billed cost, last 12 months", value: asOf ? formatMoney(totalCost, currency) : NOT_AVAILABLE },
   ];
+  // Bills that were not compared are counted as such, never as differences (issue 11).
+  let exact = 0;
+  let estimated = 0;
   let notPriced = 0;
-  for (const b of input.portfolio.bills) if (!input.priced.get(b.billId)?.computed) notPriced++;
+  for (const b of input.portfolio.bills) {
+    const state = billCheckState(input.priced.get(b.billId));
+    if (state === "exact") exact++;
+    else if (state === "not-priced") notPriced++;
+    else estimated++;
+  }
+  headline.push({ label: "Bills checked exactly", value: `${formatNumber(exact)} of ${formatNumber(input.portfolio.bills.length)}` });
+  headline.push({ label: "Bills only estimated, not compared", value: formatNumber(estimated) });
   headline.push({ label: "Bills not re-priced", value: formatNumber(notPriced) });
   const rowsRejected = input.portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0);
   headline.push({ label: "Input rows rejected (see Data)", value: formatNumber(rowsRejected) });
