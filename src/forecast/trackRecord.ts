@@ -196,14 +196,7 @@ export function trackRecord(portfolio: Portfolio<Tariff>, options: TrackRecordOp
     const forecast = forecastMeter({ ...input, calibration });
     return compareWithActuals(forecast, portfolio.bills.filter((b) => b.meterId === input.meter.meterId), options.asOf, bt);
   });
-  const buildings = portfolio.buildings.map((b) => {
-    const own = meters.filter((m) => m.buildingId === b.buildingId);
-    return { buildingId: b.buildingId, model: pooledAccuracy(own, "model"), naive: pooledAccuracy(own, "naive") };
-  });
-  const meanAbs = (which: "model" | "naive"): number | null => {
-    const xs = meters.map((m) => m[which]?.annualErrorPct).filter((x): x is number => x !== undefined);
-    return xs.length > 0 ? xs.reduce((s, x) => s + Math.abs(x), 0) / xs.length : null;
-  };
+  const { buildings, meanAbs } = rollUp(portfolio, meters);
   return {
     asOf: options.asOf,
     backtestAsOf: bt,
@@ -213,6 +206,19 @@ export function trackRecord(portfolio: Portfolio<Tariff>, options: TrackRecordOp
     buildings,
     overall: { model: pooledAccuracy(meters, "model"), naive: pooledAccuracy(meters, "naive"), meanAbsAnnualErrorPct: { model: meanAbs("model"), naive: meanAbs("naive") } },
   };
+}
+
+/** Per-building pooled accuracy and the mean absolute annual error over meters, model or naive. */
+function rollUp(portfolio: Portfolio<Tariff>, meters: MeterTrackRecord[]) {
+  const buildings = portfolio.buildings.map((b) => {
+    const own = meters.filter((m) => m.buildingId === b.buildingId);
+    return { buildingId: b.buildingId, model: pooledAccuracy(own, "model"), naive: pooledAccuracy(own, "naive") };
+  });
+  const meanAbs = (which: "model" | "naive"): number | null => {
+    const xs = meters.map((m) => m[which]?.annualErrorPct).filter((x): x is number => x !== undefined);
+    return xs.length > 0 ? xs.reduce((s, x) => s + Math.abs(x), 0) / xs.length : null;
+  };
+  return { buildings, meanAbs };
 }
 
 /**
@@ -245,14 +251,7 @@ export function trackRecordFromBacktest(portfolio: Portfolio<Tariff>, bt: Rollin
     const naive = summarize(m.actual, m.naive, m.naive.reduce((s, x) => s + x, 0), null);
     return { ...base, comparisons, model, naive, note: null };
   });
-  const buildings = portfolio.buildings.map((b) => {
-    const own = meters.filter((m) => m.buildingId === b.buildingId);
-    return { buildingId: b.buildingId, model: pooledAccuracy(own, "model"), naive: pooledAccuracy(own, "naive") };
-  });
-  const meanAbs = (which: "model" | "naive"): number | null => {
-    const xs = meters.map((m) => m[which]?.annualErrorPct).filter((x): x is number => x !== undefined);
-    return xs.length > 0 ? xs.reduce((s, x) => s + Math.abs(x), 0) / xs.length : null;
-  };
+  const { buildings, meanAbs } = rollUp(portfolio, meters);
   return {
     asOf,
     backtestAsOf: summary?.cut ?? backtestAsOf(asOf),
