@@ -58,12 +58,16 @@ export function missingInputs(tariff: Tariff, from: string, to: string, given: {
   return [...missing];
 }
 
+import { MAX_BILL_USAGE } from "../ingest/limits.ts";
+
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
 function num(name: string, s: string | undefined, rule: (n: number) => boolean = () => true, ruleText = ""): number | undefined {
   if (s === undefined) return undefined;
   if (!NUMBER.test(s.trim())) throw new UsageError(`--${name} '${s}' is not a number (write digits with a '.' decimal point, no separators or units)`);
   const n = Number(s);
+  // the same plausibility limit as a bill's usage at ingest: beyond it, sums lose their cents or overflow to Infinity
+  if (!Number.isFinite(n) || Math.abs(n) > MAX_BILL_USAGE) throw new UsageError(`--${name} ${s.slice(0, 40)} is beyond ±${MAX_BILL_USAGE.toExponential()}, the plausibility limit of a bill's figures (README, "Limits")`);
   if (!rule(n)) throw new UsageError(`--${name} ${s} is out of range${ruleText ? `: ${ruleText}` : ""}`);
   return n;
 }

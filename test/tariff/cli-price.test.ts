@@ -49,6 +49,14 @@ describe("runPrice", () => {
     expect(r.out).toMatch(/^Total +585\.10 +not exact/m);
   });
 
+  // Regression (issue 16): 1e308 priced to a blank total with exit 0.
+  it("a figure beyond the plausibility limit is an error, never a blank or infinite total", async () => {
+    const r = await run("--tariff", tariffPath, "--usage", "1e308", "--from", "2025-01-01", "--to", "2025-02-01", "--demand", "40");
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/--usage 1e308 is beyond/);
+    expect(r.out).toBe("");
+  });
+
   it("--json prints the computed bill", async () => {
     const r = await run("--tariff", tariffPath, "--usage", "1250", "--from", "2025-01-01", "--to", "2025-02-01", "--demand", "40", "--json");
     expect(r.code).toBe(0);
