@@ -132,6 +132,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   const { values, positionals } = parse(args, {
     out: { type: "string", short: "o" },
     "fail-on": { type: "string" },
+    audience: { type: "string" },
     strict: { type: "boolean" },
     quiet: { type: "boolean", short: "q" },
     json: { type: "boolean" },
@@ -140,6 +141,10 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   const failOn = values["fail-on"] as string | undefined;
   if (failOn !== undefined && failOn !== "warning" && failOn !== "error") {
     throw new UsageError(`--fail-on must be 'warning' or 'error', got '${failOn}'`);
+  }
+  const audience = (values.audience as string | undefined) ?? "internal";
+  if (audience !== "internal" && audience !== "tenants") {
+    throw new UsageError(`--audience must be 'internal' (the full site) or 'tenants' (tenant pages only), got '${audience.slice(0, 40)}'`);
   }
   const quiet = Boolean(values.quiet) || Boolean(values.json);
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
@@ -151,6 +156,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     strict: Boolean(values.strict),
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
+    audience,
   }).catch((error: unknown) => {
     if (error instanceof InputError && error.folder === undefined) error.folder = dir;
     throw error;

@@ -6,13 +6,15 @@ import { existsSync, readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 
-export const BUILD_USAGE = `Usage: ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--strict] [--quiet] [--json]
+export const BUILD_USAGE = `Usage: ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--audience internal|tenants] [--strict] [--quiet] [--json]
 
 Reads the portfolio folder DIR and writes the static site to OUT.
 
 Options:
   -o, --out OUT          where the site goes (default _site)
   --fail-on LEVEL        exit 3 when an audit finding reaches LEVEL: warning or error
+  --audience WHO         internal (default): the full site; tenants: only the tenant pages,
+                         with no internal page, link, CSV or JSON, to publish separately
   --strict               any rejected input row fails the build (exit 1, nothing written)
   -q, --quiet            print only errors
   --json                 print a machine-readable summary on stdout, with every warning and error

@@ -28,7 +28,7 @@ import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "./meteredViews.ts";
 import { toReportInput } from "./reportInput.ts";
 import { buildDataFiles } from "./outputs.ts";
-import { buildSiteModel } from "../report/index.ts";
+import { buildSiteModel, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
 import { cutAtAsOf } from "./asOf.ts";
@@ -40,6 +40,8 @@ export interface BuildOptions {
   /** Any rejected row or failing building fails the build (exit 1, nothing written). */
   strict: boolean;
   reporter?: Reporter;
+  /** `tenants`: write only the tenant pages (no internal page, link, CSV or JSON). Default `internal`. */
+  audience?: "internal" | "tenants";
   /**
    * Build date `YYYY-MM-DD` (the CLI passes SOURCE_DATE_EPOCH's). Default: the portfolio's
    * as-of date (its `as_of`, else its last data), so the same inputs give the same site on any
@@ -150,7 +152,8 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const model = buildSiteModel(
     toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
   );
-  await writeSite(model, dataFiles, options.outDir);
+  if (options.audience === "tenants") await writeSite(tenantSiteModel(model), {}, options.outDir);
+  else await writeSite(model, dataFiles, options.outDir);
 
   const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;
   const summary: BuildSummary = {

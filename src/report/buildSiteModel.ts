@@ -64,6 +64,7 @@ export function buildSiteModel(input: ReportInput): SiteModel {
       currency,
       buildDate: formatDate(input.buildDate),
       buildDateIso: input.buildDate,
+      audience: "internal",
       stamp: `${input.buildDateKind === "data" ? "Figures as of" : "Built"} ${formatDate(input.buildDate)}`,
       basePath: settings.basePath,
     },
@@ -77,5 +78,31 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
     disputes: withCanonical(buildDisputesPage(input)),
     claims: buildClaimSheets(input.disputes, portfolio, formatDate(input.buildDate)).map(withCanonical),
+  };
+}
+
+/**
+ * The site for tenants (`--audience tenants`): only the tenant pages and a front page listing
+ * them. Every internal page list is emptied, so nothing of the audit, the money or the models is
+ * rendered, and the caller writes no data files.
+ * @example tenantSiteModel(buildSiteModel(input)).buildings // []
+ */
+export function tenantSiteModel(model: SiteModel): SiteModel {
+  const index = {
+    title: `${model.meta.portfolioName}: pages for occupants`,
+    root: "",
+    path: "index.html",
+    canonical: canonicalFor(model.meta.basePath, "index.html"),
+    nav: [],
+    intro: model.tenants.length > 0 ? "Monthly use of each building, from its meter readings." : "No building of this portfolio publishes a page for its occupants.",
+    links: model.tenants.map((t) => ({ name: t.buildingName, href: t.path })),
+  };
+  return {
+    ...model,
+    meta: { ...model.meta, audience: "tenants" },
+    buildings: [],
+    meterBills: [],
+    claims: [],
+    tenantIndex: index,
   };
 }

@@ -269,6 +269,12 @@ export interface BuildingPage extends PageBase {
   tenantHref: string | null;
 }
 
+/** The tenant site's front page: links to each building's tenant page, nothing else. */
+export interface TenantIndexPage extends PageBase {
+  intro: string;
+  links: { name: string; href: string }[];
+}
+
 /** One commodity on a tenant page. */
 export interface TenantCommodity {
   commodity: string;
@@ -329,6 +335,8 @@ export interface SiteMeta {
   buildDateIso: string;
   /** The page stamp, e.g. "Built Dec 2, 2026" or "Figures as of Dec 31, 2025". */
   stamp: string;
+  /** `internal`: the full site; `tenants`: tenant pages only (no internal page, link, CSV or JSON). */
+  audience: "internal" | "tenants";
   /** `base_path` from portfolio.yaml; used only for canonical links (all site links are relative). */
   basePath: string;
 }
@@ -341,6 +349,8 @@ export interface SiteModel {
   meterBills: MeterBillsPage[];
   /** Tenant pages of buildings with `tenant_page: yes`. */
   tenants: TenantPage[];
+  /** Front page of the tenant site (audience `tenants` only). */
+  tenantIndex?: TenantIndexPage;
   methods: MethodsPage;
   data: DataPage;
   /** Every claim and back-billing risk (disputes.html). */

@@ -263,7 +263,7 @@ export async function writeSite(
       throw new SiteWriteError("the site build produced no index.html");
     }
     const dataDir = join(stage, "data");
-    await mkdir(dataDir, { recursive: true });
+    if (Object.keys(dataFiles).length > 0) await mkdir(dataDir, { recursive: true });
     for (const [name, text] of Object.entries(dataFiles)) {
       const target = safeDataPath(dataDir, name);
       await mkdir(dirname(target), { recursive: true });
