@@ -32,6 +32,7 @@ import { buildSiteModel, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
 import { cutAtAsOf } from "./asOf.ts";
+import { roundCents } from "../tariff/rounding.ts";
 import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
 
 export interface BuildOptions {
@@ -298,10 +299,6 @@ function demandWindowMinutes(tariff: Tariff | undefined): number {
     for (const charge of version.charges) if (charge.kind === "demand") return charge.windowMinutes;
   }
   return 15;
-}
-
-function roundCents(x: number): number {
-  return Math.round(x * 100) / 100;
 }
 
 function moneyOf(disputes: Dispute[]): { count: number; total: number } {
