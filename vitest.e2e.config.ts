@@ -5,8 +5,10 @@ import { defineConfig } from "vitest/config";
 export default defineConfig({
   test: {
     include: ["test/e2e/**/*.e2e.ts"],
+    // one demo build shared by every browser test file (see test/e2e/globalSetup.ts)
+    globalSetup: ["test/e2e/globalSetup.ts"],
     testTimeout: 60_000,
-    hookTimeout: 120_000,
+    hookTimeout: 180_000,
     fileParallelism: false,
   },
 });

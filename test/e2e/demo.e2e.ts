@@ -3,13 +3,12 @@
  * sub-path: every page loads without console errors, its charts go live, its links resolve,
  * axe-core finds no violations, and nothing is fetched from another host.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { existsSync } from "node:fs";
 import { mkdir, mkdtemp, readFile, readdir, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { BrowserContext } from "playwright-core";
-import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
 import { ARTIFACTS, HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
 
@@ -27,9 +26,8 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
 
   beforeAll(async () => {
     work = await mkdtemp(join(tmpdir(), "ohmbook-demo-e2e-"));
-    const site = join(work, "site");
+    const site = inject("demoSite");
     siteDir = site;
-    await buildPortfolioSite({ dir: DEMO, outDir: site, strict: false, buildDate: "2026-01-15" });
     // Building pages and tenant pages (buildings/<id>/tenant.html).
     const built = (await readdir(join(site, "buildings"), { recursive: true })).map((f) => f.split("\\").join("/"));
     pages = ["index.html", "methods.html", "data.html", ...built.filter((f) => f.endsWith(".html")).sort().map((f) => `buildings/${f}`)];

@@ -4,13 +4,12 @@
  * claim's sheet exists and states the table's amount; claim sheets print without navigation;
  * nothing is wider than the screen at 390, 1024 and 1440 px; axe-core finds no violations.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { existsSync } from "node:fs";
 import { mkdtemp, readFile, readdir, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
-import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
 import { HAVE_CHROMIUM, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
 
@@ -65,8 +64,7 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("bills to dispute on the de
 
   beforeAll(async () => {
     work = await mkdtemp(join(tmpdir(), "ohmbook-disputes-e2e-"));
-    siteDir = join(work, "site");
-    await buildPortfolioSite({ dir: DEMO, outDir: siteDir, strict: false, buildDate: "2026-01-15" });
+    siteDir = inject("demoSite");
     claimPages = (await readdir(join(siteDir, "claims"))).filter((f) => f.endsWith(".html")).map((f) => `claims/${f}`);
     disputesJson = JSON.parse(await readFile(join(siteDir, "data", "disputes.json"), "utf8")) as typeof disputesJson;
     server = await serveStatic(siteDir, PREFIX);

@@ -5,13 +5,12 @@
  * pages stay small, every bill links to its re-pricing, no raw state code reaches a page, and
  * axe-core finds no violations in either table layout.
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { existsSync } from "node:fs";
 import { mkdir, mkdtemp, readFile, readdir, rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
-import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
 import { ARTIFACTS, HAVE_CHROMIUM, launchBrowser, openPage, runAxe } from "./browser.ts";
 
@@ -106,8 +105,7 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
 
   beforeAll(async () => {
     work = await mkdtemp(join(tmpdir(), "ohmbook-layout-e2e-"));
-    site = join(work, "site");
-    await buildPortfolioSite({ dir: DEMO, outDir: site, strict: false, buildDate: "2026-01-15" });
+    site = inject("demoSite");
     buildingPages = (await readdir(join(site, "buildings"))).filter((f) => f.endsWith(".html")).sort().map((f) => `buildings/${f}`);
     meterPages = (await readdir(join(site, "bills"), { recursive: true }))
       .map((f) => f.split("\\").join("/"))
