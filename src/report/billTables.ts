@@ -274,7 +274,6 @@ function billedBasis(bill: Bill, meter: Meter, c: ComputedBill, printed: readonl
       lines.push(line);
     });
   }
-  const diff = billDifference(bill, c)!;
   return {
     basis: "billed",
     heading: "Re-priced on the billed quantities",
@@ -283,6 +282,14 @@ function billedBasis(bill: Bill, meter: Meter, c: ComputedBill, printed: readonl
     lines,
     showPrinted: printed.length > 0,
     unmatchedPrinted,
+    ...comparedTotals(bill, c, currency),
+  };
+}
+
+/** Totals of one recomputation against the bill: a difference only when every line is exact, else the state in words. */
+function comparedTotals(bill: Bill, c: ComputedBill, currency: string): Pick<BasisMath, "total" | "billed" | "difference" | "differenceTone" | "stateText" | "notes"> {
+  const diff = billDifference(bill, c)!;
+  return {
     total: formatMoney(c.total, currency),
     billed: formatMoney(bill.total, currency),
     difference: c.exact ? formatMoneySigned(diff, currency) : null,
@@ -294,7 +301,6 @@ function billedBasis(bill: Bill, meter: Meter, c: ComputedBill, printed: readonl
 
 /** The metered-basis recomputation (no printed lines beside it: they are on billed quantities). */
 function meteredBasis(bill: Bill, meter: Meter, priced: PricedBill, m: ComputedBill, currency: string): BasisMath {
-  const diff = billDifference(bill, m)!;
   return {
     basis: "metered",
     heading: "Re-priced on the metered quantities",
@@ -309,12 +315,7 @@ function meteredBasis(bill: Bill, meter: Meter, priced: PricedBill, m: ComputedB
     lines: m.lines.map((l) => mathLine(l, currency)),
     showPrinted: false,
     unmatchedPrinted: [],
-    total: formatMoney(m.total, currency),
-    billed: formatMoney(bill.total, currency),
-    difference: m.exact ? formatMoneySigned(diff, currency) : null,
-    differenceTone: m.exact ? (diff > 0 ? "pos" : diff < 0 ? "neg" : undefined) : undefined,
-    stateText: m.exact ? null : inexactText(m),
-    notes: [...m.notes],
+    ...comparedTotals(bill, m, currency),
   };
 }
 
