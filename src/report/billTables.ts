@@ -47,7 +47,8 @@ export function checkStateText(state: BillCheckState, priced: PricedBill | undef
     case "exact":
       return "re-priced exactly";
     case "estimated":
-      return "estimated from the building's load shape";
+      // with interval data the split is estimated because the bill's quantities differ from the meter's
+      return priced?.metered ? "estimated: the billed quantities differ from the meter, so their time-of-use split is an estimate" : "estimated from the building's load shape";
     case "needs-interval-data":
       return "needs interval data";
     case "not-priced":
@@ -241,10 +242,15 @@ function recomputationFacts(bill: Bill, meter: Meter, c: ComputedBill): LabelVal
   return facts;
 }
 
-/** Words for a recomputation that is not exact (the worst line status decides). */
-function inexactText(c: ComputedBill): string {
-  return c.lines.some((l) => l.status === "needs-interval-data")
-    ? "Not compared with the bill: some charges need interval data that this period does not have."
+/**
+ * Words for a recomputation that is not exact (the worst line status decides). `splitByMeter`:
+ * interval data covered the bill, so an estimate comes from splitting quantities the meter does
+ * not confirm by the metered shares, not from the building's load shape.
+ */
+function inexactText(c: ComputedBill, splitByMeter: boolean): string {
+  if (c.lines.some((l) => l.status === "needs-interval-data")) return "Not compared with the bill: some charges need interval data that this period does not have.";
+  return splitByMeter
+    ? "Not compared with the bill: the quantities priced differ from what the meter recorded (or the interval data is incomplete), so their split over time-of-use periods follows the metered shares and this total is an estimate."
     : "Not compared with the bill: time-of-use or period-demand charges were split by the building's load shape, so this total is an estimate.";
 }
 
@@ -252,7 +258,7 @@ function inexactText(c: ComputedBill): string {
  * The billed-basis recomputation with the bill's printed lines beside the tariff's lines of the
  * same label (labels matched ignoring case and spaces, as the audit matches them).
  */
-function billedBasis(bill: Bill, meter: Meter, c: ComputedBill, printed: readonly BillLine[], currency: string): BasisMath {
+function billedBasis(bill: Bill, meter: Meter, c: ComputedBill, printed: readonly BillLine[], currency: string, splitByMeter: boolean): BasisMath {
   const lines: MathLine[] = [];
   const unmatchedPrinted: { label: string; amount: string }[] = [];
   for (const g of groupLines([...printed], c.lines)) {
@@ -282,19 +288,19 @@ function billedBasis(bill: Bill, meter: Meter, c: ComputedBill, printed: readonl
     lines,
     showPrinted: printed.length > 0,
     unmatchedPrinted,
-    ...comparedTotals(bill, c, currency),
+    ...comparedTotals(bill, c, currency, splitByMeter),
   };
 }
 
 /** Totals of one recomputation against the bill: a difference only when every line is exact, else the state in words. */
-function comparedTotals(bill: Bill, c: ComputedBill, currency: string): Pick<BasisMath, "total" | "billed" | "difference" | "differenceTone" | "stateText" | "notes"> {
+function comparedTotals(bill: Bill, c: ComputedBill, currency: string, splitByMeter: boolean): Pick<BasisMath, "total" | "billed" | "difference" | "differenceTone" | "stateText" | "notes"> {
   const diff = billDifference(bill, c)!;
   return {
     total: formatMoney(c.total, currency),
     billed: formatMoney(bill.total, currency),
     difference: c.exact ? formatMoneySigned(diff, currency) : null,
     differenceTone: c.exact ? (diff > 0 ? "pos" : diff < 0 ? "neg" : undefined) : undefined,
-    stateText: c.exact ? null : inexactText(c),
+    stateText: c.exact ? null : inexactText(c, splitByMeter),
     notes: [...c.notes],
   };
 }
@@ -315,7 +321,7 @@ function meteredBasis(bill: Bill, meter: Meter, priced: PricedBill, m: ComputedB
     lines: m.lines.map((l) => mathLine(l, currency)),
     showPrinted: false,
     unmatchedPrinted: [],
-    ...comparedTotals(bill, m, currency),
+    ...comparedTotals(bill, m, currency, true),
   };
 }
 
@@ -335,7 +341,7 @@ export function billDetail(
   const priced = input.priced.get(bill.billId);
   const state = billCheckState(priced);
   const bases: BasisMath[] = [];
-  if (priced?.computed) bases.push(billedBasis(bill, meter, priced.computed, printed, currency));
+  if (priced?.computed) bases.push(billedBasis(bill, meter, priced.computed, printed, currency, priced.metered != null));
   const metered = meteredOf(priced);
   if (priced && metered) bases.push(meteredBasis(bill, meter, priced, metered, currency));
   return {

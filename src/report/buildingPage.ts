@@ -111,11 +111,11 @@ export function buildBuildingPage(input: ReportInput, ctx: BuildingContext, sect
   };
 }
 
-/** Plain-words tally of the bills not re-priced exactly, e.g. "6 estimated from the building's load shape". */
+/** Plain-words tally of the bills not re-priced exactly, e.g. "6 only estimated (time-of-use split)". */
 function notComparedText(states: Map<BillCheckState, number>): string {
   const parts: string[] = [];
   for (const [state, words] of [
-    ["estimated", "estimated from the building's load shape"],
+    ["estimated", "only estimated (time-of-use split)"],
     ["needs-interval-data", "need interval data"],
     ["not-priced", "not re-priced"],
   ] as const) {

@@ -85,7 +85,7 @@ export function buildMeterBillsPage(
     ...(hasMetered
       ? ["Re-priced on metered quantities: the tariff applied to what the interval meter recorded over the same days; it checks the quantities. The two are never mixed inside one total."]
       : []),
-    "A difference is billed minus re-priced: positive means the bill is higher than the tariff gives. A bill on a time-of-use or period-demand charge without interval data cannot be re-priced exactly: it shows “estimated from the building's load shape” or “needs interval data” instead of a difference.",
+    "A difference is billed minus re-priced: positive means the bill is higher than the tariff gives. A bill on a time-of-use or period-demand charge cannot be re-priced exactly on its billed quantities when there is no interval data, or when the billed quantities differ from what the meter recorded (the split over periods is then an estimate): it shows that state in words instead of a difference.",
     ...(input.disputes ? ["The claim is the amount of the dispute the bill belongs to, as the list of bills to dispute states it; it links to the claim sheet."] : []),
   ];
   return {
