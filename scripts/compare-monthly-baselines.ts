@@ -28,8 +28,8 @@ import {
   type TemperatureProfile,
 } from "../src/model/degreeDayRegression.ts";
 import { degreeDayOutlierBand, outlierBand, type BandPoint } from "../src/model/outlierBand.ts";
-import { daysBetween, localMidnightMs } from "../src/core/time.ts";
 import type { Bill } from "../src/domain/types.ts";
+import { daysBetween, localMidnightMs } from "../src/core/time/index.ts";
 
 const MIN_POINTS = 9;
 const MIN_WEATHER_COVERAGE = 0.8;

@@ -2,10 +2,11 @@
  * Reconciliation of one bill period against a meter's interval data: metered usage, peak
  * demand and how complete the data is. Pure: the caller passes the series and the zone.
  */
-import { localMidnightMs, lowerBound } from "../core/time.ts";
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import type { MeteredPeriod } from "./types.ts";
 import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
+import { localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
 
 export { localMidnightMs };
 

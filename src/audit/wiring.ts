@@ -9,8 +9,9 @@ import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts"
 import type { Tariff } from "../tariff/model.ts";
 import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
 import { sortBills } from "./context.ts";
-import { localMidnightMs, lowerBound } from "../core/time.ts";
 import type { RepriceAlternative, RepriceFn } from "./types.ts";
+import { localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
 
 type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;
 

@@ -41,12 +41,12 @@ import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
 import { meterPricingContexts, meterUsageScenarios, DEFAULT_SCENARIOS, type MeterForecastInput } from "./forecastMeter.ts";
 import { buildingForecastInputs } from "./portfolioInputs.ts";
-import { minusMonths, monthsAfter } from "./months.ts";
 import { priceForecastMonth } from "./priceMonth.ts";
 import { bandOf } from "./quantiles.ts";
 import { actualMonthlyCost, naiveSameMonthLastYear } from "./trackRecord.ts";
 import { WEATHER_BASES, typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
+import { addMonthsIso, monthsAfter } from "../core/time/index.ts";
 
 /** Noise factors tried. */
 export const CALIBRATION_GRID: readonly number[] = [0.5, 0.75, 1, 1.25, 1.5, 1.75, 2, 2.5, 3, 4, 5];
@@ -168,7 +168,7 @@ export function rollingOrigins(bills: readonly Bill[], asOf: string): string[] {
   for (const b of bills) byMeter.set(b.meterId, [...(byMeter.get(b.meterId) ?? []), b]);
   const out: string[] = [];
   for (let k = 1; k <= MAX_ORIGINS; k++) {
-    const cut = minusMonths(asOf, 12 * k);
+    const cut = addMonthsIso(asOf, -12 * k);
     if (![...byMeter.values()].some((bs) => monthsOfBills(bs, cut) >= MIN_FIT_MONTHS)) break;
     out.push(cut);
   }

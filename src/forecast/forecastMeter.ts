@@ -10,9 +10,7 @@
 import type { Bill, Commodity, IntervalSeries, Meter } from "../domain/types.ts";
 import type { ChangePointFit } from "../model/changePoint.ts";
 import type { Tariff } from "../tariff/model.ts";
-import { addDays, localMidnightMs } from "../core/time.ts";
 import { bandOf, type Band } from "./quantiles.ts";
-import { monthsAfter, type CalendarMonth } from "./months.ts";
 import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
 import { scenarioTemperatures, scenarioYears, type WeatherYear } from "./weatherYears.ts";
 import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
@@ -21,6 +19,7 @@ import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
 import { mulberry32, seedFromString } from "./random.ts";
 import { residualByCalendarMonth, type MonthAdjustment } from "./residual.ts";
+import { addDays, localMidnightMs, monthsAfter, type CalendarMonth } from "../core/time/index.ts";
 
 export const DEFAULT_SCENARIOS = 300;
 export const DEFAULT_SEED = 20_260_101;

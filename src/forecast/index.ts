@@ -19,6 +19,6 @@ export { annualErrorPct, cvRmsePct, coverageShare } from "./accuracy.ts";
 export { escalationFactorForDays, escalationFactorForMonth, escalationBase } from "./escalation.ts";
 export { bandOf, type Band } from "./quantiles.ts";
 export { weatherYears, scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
-export { monthsAfter, spreadBillsByMonth, type CalendarMonth } from "./months.ts";
+export { spreadBillsByMonth } from "./months.ts";
 export { ForecastInputError } from "./errors.ts";
 export { residualByCalendarMonth, MONTH_ADJUSTMENTS, MONTH_ADJUSTMENT_LABEL, type MonthAdjustment } from "./residual.ts";

@@ -7,7 +7,6 @@
 import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
 import { priceBill } from "../tariff/price.ts";
-import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
 import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../pipeline/baselines.ts";
 import { priceMeterBills } from "../pipeline/priceBills.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
@@ -15,6 +14,8 @@ import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
 import { typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
+import { addDays, localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
 
 const HOUR_MS = 3_600_000;
 

@@ -10,9 +10,9 @@ import { openInputFile } from "./inputFile.ts";
 import { MAX_YEAR, MIN_YEAR } from "./limits.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type Row } from "./csvTable.ts";
-import { sharedResolver } from "./localTime.ts";
 import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampString } from "./timestamp.ts";
 import type { DailyReading, HourlyReading } from "./weatherGrid.ts";
+import { sharedResolver } from "../core/time/index.ts";
 
 /** °F → °C: (F − 32) × 5/9. Example: 212 → 100, 32 → 0, −40 → −40. */
 export function fahrenheitToCelsius(tempF: number): number {

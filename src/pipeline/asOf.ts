@@ -5,7 +5,8 @@
  */
 import type { InputIssue } from "../core/issues.ts";
 import type { Bill, IntervalSeries, Portfolio, WeatherSeries } from "../domain/types.ts";
-import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
+import { addDays, localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
 
 /** The widest zone offset from UTC (hours): weather after as_of is cut at as_of + 1 day + this, so no zone loses a reading of its own as_of day. */
 const MAX_ZONE_OFFSET_HOURS = 14;

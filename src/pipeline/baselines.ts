@@ -11,14 +11,13 @@
  *    temperature hides, which is what kept the change-point band from judging shoulder months.
  * Estimated reads are left out of the fits (the utility's guess is not the building's use).
  */
-import { DateTime } from "luxon";
 import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
 import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "../model/changePoint.ts";
 import { temperatureProfileForPeriod, type DegreeDayFit } from "../model/degreeDayRegression.ts";
 import { degreeDayOutlierBand, type DegreeDayBandBill } from "../model/outlierBand.ts";
 import { GUIDELINE14_LIMITS } from "../model/stats.ts";
-import { daysBetween, localMidnightMs } from "../core/time.ts";
 import type { ReportModelSummary } from "../report/input.ts";
+import { daysBetween, localMidnightMs, LocalMonthCalendar } from "../core/time/index.ts";
 
 const HOUR_MS = 3_600_000;
 /** Share of a period's hours that must have a temperature for the bill to be a model point. */
@@ -85,20 +84,18 @@ export function typicalMonthlyTempC(weather: WeatherSeries, zone: string): numbe
   const sums = new Array<number>(12).fill(0);
   const counts = new Array<number>(12).fill(0);
   // Month boundaries change only 12 times a year: walk month by month rather than per hour.
-  let cursor = DateTime.fromMillis(weather.startMs, { zone }).startOf("month");
   const endMs = weather.startMs + weather.tempC.length * HOUR_MS;
-  while (cursor.toMillis() < endMs) {
-    const next = cursor.plus({ months: 1 });
-    const from = Math.max(0, Math.ceil((cursor.toMillis() - weather.startMs) / HOUR_MS));
-    const to = Math.min(weather.tempC.length, Math.ceil((next.toMillis() - weather.startMs) / HOUR_MS));
+  for (const m of new LocalMonthCalendar(zone).between(weather.startMs, endMs)) {
+    const month = Number(m.month.slice(5, 7));
+    const from = Math.max(0, Math.ceil((m.startMs - weather.startMs) / HOUR_MS));
+    const to = Math.min(weather.tempC.length, Math.ceil((m.endMs - weather.startMs) / HOUR_MS));
     for (let i = from; i < to; i++) {
       const t = weather.tempC[i]!;
       if (Number.isFinite(t)) {
-        sums[cursor.month - 1]! += t;
-        counts[cursor.month - 1]!++;
+        sums[month - 1]! += t;
+        counts[month - 1]!++;
       }
     }
-    cursor = next;
   }
   if (counts.some((c) => c < 24 * 20)) return null; // a month with under 20 days of data is not typical of anything
   return sums.map((s, i) => s / counts[i]!);

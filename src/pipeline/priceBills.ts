@@ -14,10 +14,10 @@
 import type { Bill, IntervalSeries, Meter } from "../domain/types.ts";
 import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
 import { intervalUsageForBill } from "../audit/wiring.ts";
-import { localMidnightMs } from "../core/time.ts";
 
 export type { PricedBill } from "../report/input.ts";
 import type { PricedBill } from "../report/input.ts";
+import { localMidnightMs } from "../core/time/index.ts";
 
 export type Pricer = (request: PriceRequest) => ComputedBill;
 

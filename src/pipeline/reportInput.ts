@@ -8,7 +8,6 @@ import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Finding } from "../audit/types.ts";
 import type { AccuracySummary, BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } from "../forecast/index.ts";
 import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands, MIN_TRACK_RECORD_MONTHS, MONTH_ADJUSTMENT_LABEL, WEATHER_BASIS_LABEL, type WeatherBasisId } from "../forecast/index.ts";
-import { shiftMonth } from "../forecast/months.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
 import type { MonthTotal } from "../ingest/monthlyTotals.ts";
 import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportForecastMethod, ReportInput, ReportMeterQuality, ReportModelSummary } from "../report/index.ts";
@@ -16,6 +15,7 @@ import type { BuildingResults } from "./build.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
 import type { PricedBill } from "./priceBills.ts";
+import { shiftMonth } from "../core/time/index.ts";
 
 const CURVE_SAMPLES = 60;
 

@@ -2,9 +2,10 @@
 import type { Bill, Meter } from "../domain/types.ts";
 import type { ReportBaseline, ReportFitStats } from "./input.ts";
 import type { BaselineScatterChartModel, BaselineSection, BaselineTimeChartModel, TableModel } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity, dayNumberToIsoDate, isoDateToDayNumber } from "./format.ts";
-import { periodDays } from "./periods.ts";
+import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity } from "./format.ts";
+import { dayNumberToIsoDate, isoDateToDayNumber } from "../core/time/index.ts";
 import { checkTitle, commodityLabel } from "./labels.ts";
+import { daysBetween } from "../core/time/index.ts";
 
 /**
  * Why a bill was left out of the fit, in plain words: a check code the model stage names
@@ -161,7 +162,7 @@ function timeChart(b: ReportBaseline, meterBills: Bill[], idBase: string): Basel
   const expected = new Map(b.perBill.map((e) => [e.billId, e]));
   const rows = meterBills
     .map((bill) => {
-      const days = periodDays(bill.periodStart, bill.periodEnd);
+      const days = daysBetween(bill.periodStart, bill.periodEnd);
       const e = expected.get(bill.billId);
       if (days <= 0 || !e) return null;
       const mid = dayNumberToIsoDate(Math.floor((isoDateToDayNumber(bill.periodStart) + isoDateToDayNumber(bill.periodEnd)) / 2));

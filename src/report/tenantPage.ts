@@ -6,10 +6,9 @@ import type { Bill, Building, Meter } from "../domain/types.ts";
 import type { ReportBaseline } from "./input.ts";
 import type { TableModel, TenantCommodity, TenantPage } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity } from "./format.ts";
-import { addMonthsIso, periodDays } from "./periods.ts";
 import { commodityLabel } from "./labels.ts";
 import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, kwhPerM2ToKbtuPerFt2, siteKwh } from "./energy.ts";
-import { isoDateToDayNumber } from "./format.ts";
+import { addMonthsIso, daysBetween, isoDateToDayNumber } from "../core/time/index.ts";
 
 /** A bill counts as "the same period last year" when its start is within this many days of one year before. */
 export const SAME_PERIOD_TOLERANCE_DAYS = 20;
@@ -84,7 +83,7 @@ function sumPeriod(
   let used = 0;
   for (const { meter, bill } of picks) {
     const q = convert(meter, bill.usage);
-    const days = periodDays(bill.periodStart, bill.periodEnd);
+    const days = daysBetween(bill.periodStart, bill.periodEnd);
     if (q == null || days <= 0) continue;
     used++;
     use += q;

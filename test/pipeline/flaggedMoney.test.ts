@@ -10,9 +10,10 @@ import { loadPortfolio } from "../../src/ingest/index.ts";
 import { assessIntervalMeters } from "../../src/pipeline/dataQuality.ts";
 import { analyseBuilding } from "../../src/pipeline/build.ts";
 import { meteredViewsByBill } from "../../src/pipeline/meteredViews.ts";
-import { localMidnightMs, lowerBound } from "../../src/core/time.ts";
 import type { Portfolio } from "../../src/domain/types.ts";
 import type { Tariff } from "../../src/tariff/index.ts";
+import { localMidnightMs } from "../../src/core/time/index.ts";
+import { lowerBound } from "../../src/core/sorted.ts";
 
 const ZONE = "America/New_York";
 

@@ -10,10 +10,11 @@ import { voidCorrection } from "../corrections.ts";
 import type { Bill } from "../../domain/types.ts";
 import type { AuditContext } from "../context.ts";
 import { billFinding } from "../context.ts";
-import { daysBetween, maxDate, minDate } from "../dates.ts";
+import { maxDate, minDate } from "../dates.ts";
 import { formatMoney, formatQty } from "../format.ts";
 import { roundCents, toCents } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
+import { daysBetween } from "../../core/time/index.ts";
 
 export interface DuplicatePair {
   original: Bill;

@@ -12,15 +12,15 @@
  * Amount = − the metered use of the stretch priced through the tariff (see unbilled.ts): nothing
  * was overbilled, but the utility may still bill it.
  */
-import { DateTime, IANAZone } from "luxon";
 import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
-import { addDays, daysBetween, minDate } from "../dates.ts";
+import { minDate } from "../dates.ts";
 import { formatPct, formatQty } from "../format.ts";
 import { meteredForPeriod } from "../reconcile.ts";
 import type { Finding, MeteredPeriod, Severity } from "../types.ts";
 import { formatMoney } from "../format.ts";
 import { unbilledCorrection } from "./unbilled.ts";
+import { addDays, daysBetween, isValidZone, localDateOf } from "../../core/time/index.ts";
 
 const MIN_GAP_COVERAGE = 0.5;
 
@@ -47,9 +47,9 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
     let lastIdx = series.values.length - 1;
     while (lastIdx >= 0 && !Number.isFinite(series.values[lastIdx])) lastIdx--;
     if (firstIdx > lastIdx) continue;
-    if (!IANAZone.isValidZone(zone)) continue;
-    const dataStart = DateTime.fromMillis(series.startMs[firstIdx], { zone }).toISODate()!;
-    let dataEnd = addDays(DateTime.fromMillis(series.startMs[lastIdx], { zone }).toISODate()!, 1);
+    if (!isValidZone(zone)) continue;
+    const dataStart = localDateOf(series.startMs[firstIdx], zone);
+    let dataEnd = addDays(localDateOf(series.startMs[lastIdx], zone), 1);
     dataEnd = minDate(dataEnd, asOfEnd);
     const unit = meter.unit;
 

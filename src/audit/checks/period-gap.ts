@@ -9,10 +9,10 @@
  * The finding's period is the gap itself; its bill is the one after the gap.
  */
 import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
-import { daysBetween } from "../dates.ts";
 import { formatMoney } from "../format.ts";
 import type { Finding } from "../types.ts";
 import { expectedStretchUsage, unbilledCorrection } from "./unbilled.ts";
+import { daysBetween } from "../../core/time/index.ts";
 
 /** period-gap findings for every meter. */
 export function checkPeriodGap(ctx: AuditContext): Finding[] {

@@ -10,13 +10,14 @@
  * days (or the whole total) is used instead.
  */
 import { billsInSequence, billFinding, type AuditContext } from "../context.ts";
-import { daysBetween, minDate } from "../dates.ts";
+import { minDate } from "../dates.ts";
 import { formatMoney } from "../format.ts";
 import { roundCents } from "../tolerances.ts";
 import type { Bill } from "../../domain/types.ts";
 import type { CorrectedBill, Finding } from "../types.ts";
 import { repricedCorrection, voidCorrection } from "../corrections.ts";
 import { formatQty } from "../format.ts";
+import { daysBetween } from "../../core/time/index.ts";
 
 /**
  * The later bill over its true period [earlier end, later end): usage less the overlapped days at

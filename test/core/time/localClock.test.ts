@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { localClockMs } from "../../../src/clean/detect/index.ts";
+import { localClockMs } from "../../../src/core/time/index.ts";
 
 describe("localClockMs (IANA zone rules: US DST began 2025-03-09 at 02:00 local)", () => {
   it("EST (UTC−5) before the change, EDT (UTC−4) after, within the same UTC day", () => {
