@@ -12,8 +12,8 @@ import type { Bill, BillLine, Meter } from "../domain/types.ts";
 import type { CorrectedBill, Finding } from "../audit/types.ts";
 import { groupLines } from "../audit/checks/labels.ts";
 import { claimOf } from "../audit/corrections.ts";
-import { roundCents } from "../tariff/rounding.ts";
 import type { Dispute, DisputeBasis, DisputeBill, DisputeLine } from "./types.ts";
+import { roundCents } from "../core/money.ts";
 
 /** The basis a check's corrected total rests on (outputs.md `basis`). */
 export const BASIS_OF_CHECK: Partial<Record<string, DisputeBasis>> = {

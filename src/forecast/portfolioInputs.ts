@@ -16,6 +16,7 @@ import { typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
 import { addDays, localMidnightMs } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
+import { cToF } from "../core/units.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -79,7 +80,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   const normals = portfolio.normals.get(building.weatherStation);
   const years: WeatherYear[] = weatherYears(weather, building.timezone, tempUnit, untilMs);
   const normalsC = normals ? typicalMonthlyTempC(normals, building.timezone) : null;
-  const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? t * 1.8 + 32 : t)) : null;
+  const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? cToF(t) : t)) : null;
   const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
   const series = new Map<string, IntervalSeries>();
   for (const m of meters) {

@@ -13,6 +13,7 @@
  */
 import { LocalMonthCalendar } from "../core/time/index.ts";
 import type { WeatherSeries } from "../domain/types.ts";
+import { cToF } from "../core/units.ts";
 
 const HOUR_MS = 3_600_000;
 const MIN_HOURS = 20 * 24;
@@ -54,7 +55,7 @@ export function weatherYears(weather: WeatherSeries | undefined, zone: string, u
       monthlyTemp: acc.sum.map((s, m) => {
         if (acc.count[m]! < MIN_HOURS) return NaN;
         const c = s / acc.count[m]!;
-        return unit === "F" ? c * 1.8 + 32 : c;
+        return unit === "F" ? cToF(c) : c;
       }),
     }))
     .filter((y) => y.monthlyTemp.some(Number.isFinite));

@@ -18,6 +18,7 @@ import { degreeDayOutlierBand, type DegreeDayBandBill } from "../model/outlierBa
 import { GUIDELINE14_LIMITS } from "../model/stats.ts";
 import type { ReportModelSummary } from "../report/input.ts";
 import { daysBetween, localMidnightMs, LocalMonthCalendar } from "../core/time/index.ts";
+import { cToF } from "../core/units.ts";
 
 const HOUR_MS = 3_600_000;
 /** Share of a period's hours that must have a temperature for the bill to be a model point. */
@@ -109,7 +110,7 @@ function monthIndexOf(isoDate: string, offset: number): number {
 }
 
 function toUnit(tempC: number, unit: "C" | "F"): number {
-  return unit === "F" ? tempC * 1.8 + 32 : tempC;
+  return unit === "F" ? cToF(tempC) : tempC;
 }
 
 /** Fits the baseline of one meter from its bills and its building's weather. */
@@ -234,7 +235,7 @@ export function degreeDayBand(
   const expectedByBill = new Map<string, { p50: number; low: number; high: number }>();
   const { weather, building } = options;
   if (!weather) return { degreeDay: null, expectedByBill };
-  const temps = tempUnit === "F" ? weather.tempC.map((t) => t * 1.8 + 32) : weather.tempC;
+  const temps = tempUnit === "F" ? weather.tempC.map(cToF) : weather.tempC;
   const hourly = { startMs: weather.startMs, temps };
   const targets: DegreeDayBandBill[] = [];
   const train: DegreeDayBandBill[] = [];

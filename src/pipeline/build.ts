@@ -32,8 +32,8 @@ import { buildSiteModel, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
 import { cutAtAsOf } from "./asOf.ts";
-import { roundCents } from "../tariff/rounding.ts";
 import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
+import { roundCents } from "../core/money.ts";
 
 export interface BuildOptions {
   dir: string;

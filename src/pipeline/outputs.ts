@@ -3,11 +3,10 @@
  * as text keyed by file name. Pure: the site writer does the writing.
  */
 import { billCheckState } from "../report/input.ts";
-import { roundCents } from "../tariff/rounding.ts";
 import { disputesCsv, disputesJson, type Dispute } from "../disputes/index.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/index.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 import type { Finding } from "../audit/types.ts";
 import { findingsToCsvText, toFindingsJson, billsRecomputedRows } from "../audit/output.ts";
 import { detectionsToRows, DATA_QUALITY_COLUMNS, type DataQualityRow } from "../clean/detect/rows.ts";
@@ -26,6 +25,7 @@ import { weatherGapDetections } from "./dataQuality.ts";
 import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT, siteKwhLast12m } from "./usageSummary.ts";
 import { unitFactor } from "../tariff/units.ts";
 import { kwhPerM2ToKbtuPerFt2 } from "../report/energy.ts";
+import { roundCents } from "../core/money.ts";
 
 export interface OutputsInput {
   portfolio: Portfolio<Tariff>;

@@ -9,7 +9,7 @@ import type { BillContext } from "./context.ts";
 import { periodIndices } from "./calendar.ts";
 import { hoursOfWeek } from "../core/time/index.ts";
 import { groupedNumber } from "./format.ts";
-import { sumAmounts } from "./rounding.ts";
+import { sumAmounts } from "../core/money.ts";
 
 const fmt = groupedNumber;
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import type { Bill, Building, Meter } from "../../src/domain/types.ts";
 import type { ReportBaseline } from "../../src/report/input.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
-import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
+import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
 import { compareCommodity, weatherAdjusted } from "../../src/report/tenantPage.ts";
 import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
 import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour, qualitySections, weatherActionLabel } from "../../src/report/qualitySection.ts";
@@ -10,6 +10,7 @@ import { describeDataFile } from "../../src/report/dataPage.ts";
 import { normalizedChangePct } from "../../src/report/portfolioCharts.ts";
 import type { BuildingContext } from "../../src/report/buildingPage.ts";
 import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
+import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../../src/core/units.ts";
 
 describe("energy conversions", () => {
   it("kBtu per kWh follows from the International Table Btu (NIST SP 811: 1 Btu_IT = 1,055.05585262 J)", () => {

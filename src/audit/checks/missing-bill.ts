@@ -18,9 +18,9 @@ import { minDate } from "../dates.ts";
 import { formatPct, formatQty } from "../format.ts";
 import { meteredForPeriod } from "../reconcile.ts";
 import type { Finding, MeteredPeriod, Severity } from "../types.ts";
-import { formatMoney } from "../format.ts";
 import { unbilledCorrection } from "./unbilled.ts";
 import { addDays, daysBetween, isValidZone, localDateOf } from "../../core/time/index.ts";
+import { moneyText } from "../../core/money.ts";
 
 const MIN_GAP_COVERAGE = 0.5;
 
@@ -73,7 +73,7 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
         buildingId: buildingOf(ctx, meterId), meterId, billId: null, periodStart: from, periodEnd: to,
         check: "missing-bill", severity, amountAtStake: worth && severity !== "info" ? -worth.correctedTotal : null,
         title: "Metered use with no bill",
-        message: `The interval meter recorded ${formatQty(m.usage)} ${unit} over the ${days} day${days === 1 ? "" : "s"} from ${from} to ${to}, but no bill of meter ${meterId} covers them (${why}).${worth ? ` Priced through the tariff that use is worth ${formatMoney(worth.correctedTotal, ctx.currency)}.` : ""}`,
+        message: `The interval meter recorded ${formatQty(m.usage)} ${unit} over the ${days} day${days === 1 ? "" : "s"} from ${from} to ${to}, but no bill of meter ${meterId} covers them (${why}).${worth ? ` Priced through the tariff that use is worth ${moneyText(worth.correctedTotal, ctx.currency)}.` : ""}`,
         evidence: {
           rows: [{ label: `Usage (${unit})`, billed: null, expected: Number(m.usage.toFixed(3)) }],
           notes: [`Interval coverage of the stretch ${formatPct(m.coverage)}.`],
