@@ -17,7 +17,7 @@ import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type Usa
 import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
-import { mulberry32, seedFromString } from "./random.ts";
+import { scenarioUniforms, seedFromString } from "./random.ts";
 import { residualByCalendarMonth, type MonthAdjustment } from "./residual.ts";
 import { addDays, localMidnightMs, monthsAfter, type CalendarMonth } from "../core/time/index.ts";
 
@@ -173,7 +173,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
 
 /** The meter's usage scenarios (model or fallback), seeded per meter so every call draws the same numbers. */
 export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
-  const rng = mulberry32(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
+  const rng = scenarioUniforms(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
   if (input.fit && input.typicalMonthlyTemp) {
     const own = scenarioYears(input.weatherYears).map((y) => y.year);
     const order = input.scenarioYearOrder;

@@ -20,7 +20,7 @@ import type { Tariff } from "../tariff/model.ts";
 import { forecastMeter, type MeterForecast, type MeterForecastInput } from "./forecastMeter.ts";
 import { billsKnownAt, buildingForecastInputs } from "./portfolioInputs.ts";
 import { spreadBillsByMonth } from "./months.ts";
-import { annualErrorPct, coverageShare, cvRmsePct } from "./accuracy.ts";
+import { annualErrorPct, coverageShare, forecastCvRmsePct } from "./accuracy.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
 import { addMonthsIso, shiftMonth } from "../core/time/index.ts";
@@ -125,7 +125,7 @@ export function summarize(actual: number[], forecast: number[], forecastTotal: n
     forecastTotal,
     actualTotal,
     annualErrorPct: annualErrorPct(forecastTotal, actualTotal),
-    cvRmsePct: cvRmsePct(actual, forecast),
+    cvRmsePct: forecastCvRmsePct(actual, forecast),
     coverage: bands ? coverageShare(actual, bands) : null,
   };
 }
@@ -157,7 +157,7 @@ export function pooledAccuracy(records: readonly MeterTrackRecord[], which: "mod
     forecastTotal,
     actualTotal,
     annualErrorPct: annualErrorPct(forecastTotal, actualTotal),
-    cvRmsePct: months.length > 0 ? cvRmsePct(a, f) : NaN,
+    cvRmsePct: months.length > 0 ? forecastCvRmsePct(a, f) : NaN,
     coverage: which === "model" ? all.filter((c) => c.inside).length / all.length : null,
   };
 }

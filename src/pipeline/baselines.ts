@@ -15,7 +15,7 @@ import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/
 import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "../model/changePoint.ts";
 import { temperatureProfileForPeriod, type DegreeDayFit } from "../model/degreeDayRegression.ts";
 import { degreeDayOutlierBand, type DegreeDayBandBill } from "../model/outlierBand.ts";
-import { GUIDELINE14_LIMITS } from "../model/stats.ts";
+import { meetsGuideline14 } from "../model/stats.ts";
 import type { ReportModelSummary } from "../report/input.ts";
 import { daysBetween, localMidnightMs, LocalMonthCalendar } from "../core/time/index.ts";
 import { cToF } from "../core/units.ts";
@@ -193,8 +193,7 @@ export function fitMeterBaseline(options: {
     }
   }
 
-  const limits = GUIDELINE14_LIMITS.monthly;
-  const meetsGuideline14 = fit !== null && fit.stats.cvRmsePct <= limits.cvRmsePct && Math.abs(fit.stats.nmbePct) <= limits.nmbeAbsPct;
+  const meetsG14 = fit !== null && meetsGuideline14(fit.stats, "monthly");
   const { degreeDay, expectedByBill } = options.degreeDayResult ?? degreeDayBand(options, tempUnit);
 
   return {
@@ -209,7 +208,7 @@ export function fitMeterBaseline(options: {
     typicalMonthlyTemp,
     typicalSource: typicalC ? (normals ? "normals" : "history") : null,
     normalizedAnnual,
-    meetsGuideline14,
+    meetsGuideline14: meetsG14,
     perBill,
     degreeDay,
     expectedByBill,

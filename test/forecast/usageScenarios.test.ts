@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { fitChangePointAt } from "../../src/model/changePoint.ts";
 import { modelUsageScenarios } from "../../src/forecast/usageScenarios.ts";
 import { scenarioTemperatures, weatherYears } from "../../src/forecast/weatherYears.ts";
-import { mulberry32, studentScale, standardNormal } from "../../src/forecast/random.ts";
+import { scenarioUniforms as mulberry32, studentScale, standardNormal } from "../../src/forecast/random.ts";
 import type { WeatherSeries } from "../../src/domain/types.ts";
 import { calendarMonth } from "../../src/core/time/index.ts";
 
