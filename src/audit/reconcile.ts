@@ -7,6 +7,7 @@ import type { MeteredPeriod } from "./types.ts";
 import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
 import { localMidnightMs } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 export { localMidnightMs };
 
@@ -132,7 +133,8 @@ export function meteredForBills(
         if (m.flaggedIntervals > 0) m.raw = { usage: raw.usage, peakKw: raw.peakKw, coverage: raw.coverage, intervals: raw.intervals };
       }
       out.set(bill.billId, m);
-    } catch {
+    } catch (error) {
+      expectedProblem(error);
       out.set(bill.billId, null); // invalid zone/date: ingest reports it; the audit just cannot compare
     }
   }

@@ -12,6 +12,7 @@ import { sortBills } from "./context.ts";
 import type { RepriceAlternative, RepriceFn } from "./types.ts";
 import { localMidnightMs } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;
 
@@ -118,7 +119,8 @@ export function makeRepricer(opts: {
         intervalsGive: "shape",
         previousBillingDemandsKw: earlierDemands.get(bill.billId) ?? [],
       });
-    } catch {
+    } catch (error) {
+      expectedProblem(error);
       return null;
     }
   };

@@ -20,6 +20,7 @@ import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
 import { scenarioUniforms, seedFromString } from "./random.ts";
 import { residualByCalendarMonth, type MonthAdjustment } from "./residual.ts";
 import { addDays, localMidnightMs, monthsAfter, type CalendarMonth } from "../core/time/index.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 export const DEFAULT_SCENARIOS = 300;
 export const DEFAULT_SEED = 20_260_101;
@@ -152,7 +153,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
       scenarioCosts.push(row);
     }
   } catch (error) {
-    return { ...base, error: `pricing failed: ${error instanceof Error ? error.message : String(error)}`, ...usageOnly(usage, months) };
+    return { ...base, error: `pricing failed: ${expectedProblem(error)}`, ...usageOnly(usage, months) };
   }
   const monthsOut: MonthForecast[] = months.map((m, k) => ({
     month: m.month,

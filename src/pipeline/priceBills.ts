@@ -18,6 +18,7 @@ import { intervalUsageForBill } from "../audit/wiring.ts";
 export type { PricedBill } from "../report/input.ts";
 import type { PricedBill } from "../report/input.ts";
 import { localMidnightMs } from "../core/time/index.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 export type Pricer = (request: PriceRequest) => ComputedBill;
 
@@ -84,7 +85,7 @@ export function priceMeterBills(options: {
     try {
       computed = price(base);
     } catch (error) {
-      results.set(bill.billId, { computed: null, error: error instanceof Error ? error.message : String(error), metered: null });
+      results.set(bill.billId, { computed: null, error: expectedProblem(error), metered: null });
       continue;
     }
     if (computed.billingDemandKw !== null) previousDemandsKw.push(computed.billingDemandKw);
@@ -98,7 +99,8 @@ export function priceMeterBills(options: {
       try {
         // demand null: the meter's own peak (per charge window) is the demand
         metered = price({ ...base, usage: meteredUsage, demandKw: null, intervals: meteredIntervals });
-      } catch {
+      } catch (error) {
+        expectedProblem(error);
         metered = null;
       }
     }

@@ -21,6 +21,7 @@ import type { Finding, MeteredPeriod, Severity } from "../types.ts";
 import { unbilledCorrection } from "./unbilled.ts";
 import { addDays, daysBetween, isValidZone, localDateOf } from "../../core/time/index.ts";
 import { moneyText } from "../../core/money.ts";
+import { expectedProblem } from "../../core/errors.ts";
 
 const MIN_GAP_COVERAGE = 0.5;
 
@@ -58,7 +59,8 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
       let m: MeteredPeriod;
       try {
         m = meteredForPeriod(series, meter.multiplier, from, to, zone, 15, null);
-      } catch {
+      } catch (error) {
+        expectedProblem(error);
         return; // unresolvable zone or date: ingest reports it
       }
       if (m.coverage < MIN_GAP_COVERAGE) return;

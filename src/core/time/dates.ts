@@ -4,6 +4,7 @@
  */
 
 /** Whole days from `startIso` to `endIso` (calendar dates; DST does not matter). */
+import { TimeInputError } from "../errors.ts";
 export function daysBetween(startIso: string, endIso: string): number {
   return Math.round((utcDay(endIso) - utcDay(startIso)) / 86_400_000);
 }
@@ -17,10 +18,10 @@ function utcDay(isoDate: string): number {
   return Date.UTC(+isoDate.slice(0, 4), +isoDate.slice(5, 7) - 1, +isoDate.slice(8, 10));
 }
 
-/** Days since 1970-01-01 of an ISO calendar date. @throws RangeError on a malformed date. */
+/** Days since 1970-01-01 of an ISO calendar date. @throws TimeInputError on a malformed date. */
 export function isoDateToDayNumber(isoDate: string): number {
   const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(isoDate);
-  if (!m) throw new RangeError(`not an ISO date (YYYY-MM-DD): ${isoDate}`);
+  if (!m) throw new TimeInputError(`not an ISO date (YYYY-MM-DD): ${isoDate}`);
   return Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])) / 86_400_000;
 }
 

@@ -29,7 +29,7 @@ export function formatMonth(month: string): string {
 
 /**
  * An instant as local date and 24-hour time in `zone`.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  * @example formatLocalDateTime(Date.UTC(2025, 2, 9, 8), "America/Chicago") // "Mar 9, 2025, 03:00"
  */
 export function formatLocalDateTime(instantMs: number, zone: string): string {
@@ -40,7 +40,7 @@ export function formatLocalDateTime(instantMs: number, zone: string): string {
 /**
  * An instant as an ISO 8601 local timestamp with its offset, to the second ("Z" for the zone
  * names UTC and GMT, as luxon writes them, so files written before keep their bytes).
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  * @example isoWithOffset(Date.UTC(2023, 10, 14, 22, 13, 20), "America/Chicago") // "2023-11-14T16:13:20-06:00"
  */
 export function isoWithOffset(instantMs: number, zone: string): string {

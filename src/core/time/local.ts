@@ -59,7 +59,7 @@ export function civilDay(dayNum: number): LocalDay {
 /**
  * Local wall-clock time of an instant as epoch-style ms (instant + the zone's UTC offset), so
  * `Math.floor(local / 86_400_000)` is the local day number and `local % 86_400_000` the time of day.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  */
 export function localMs(instantMs: number, zone: string): number {
   return instantMs + offsetAtMs(zone, instantMs);
@@ -69,7 +69,7 @@ export function localMs(instantMs: number, zone: string): number {
  * Local wall-clock ms of each instant (see {@link localMs}). Schedules follow the local clock,
  * so comparing "the same hour on other days" must too, or every DST change would move a
  * building's nights by an hour. Without a zone (undefined), the instants are returned as UTC.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  * @example localClockMs([Date.UTC(2025, 5, 2, 12)], "America/New_York")[0] === Date.UTC(2025, 5, 2, 8)
  */
 export function localClockMs(startMs: ArrayLike<number>, zone?: string): Float64Array {
@@ -100,7 +100,7 @@ export function localClockMs(startMs: ArrayLike<number>, zone?: string): Float64
 
 /**
  * Local date and wall-clock time of one instant.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  * @example localPartsOf(Date.UTC(2025, 0, 1, 6), "America/Chicago") // { date: "2025-01-01", hour: 0, … }
  */
 export function localPartsOf(instantMs: number, zone: string): LocalParts {
@@ -110,14 +110,14 @@ export function localPartsOf(instantMs: number, zone: string): LocalParts {
   return { ...civilDay(dayNum), hour: Math.floor(minute / 60), minute: minute % 60 };
 }
 
-/** Local calendar date `YYYY-MM-DD` of an instant. @throws RangeError on an unknown zone. */
+/** Local calendar date `YYYY-MM-DD` of an instant. @throws TimeInputError on an unknown zone. */
 export function localDateOf(instantMs: number, zone: string): string {
   return civilDay(Math.floor(localMs(instantMs, zone) / DAY_MS)).date;
 }
 
 /**
  * Local day and wall-clock minute of each instant in `zone`, with each local day described once.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  */
 export function localTimes(startMs: ArrayLike<number>, zone: string): LocalTimes {
   assertValidZone(zone);
@@ -171,7 +171,7 @@ export function hoursOfWeek(lt: LocalTimes): Uint8Array {
 /**
  * Index of the interval of the local week containing an instant: Monday 00:00 local starts
  * interval 0. With 60-minute intervals this is the hour of week 0 … 167.
- * @throws RangeError on an unknown zone, a non-finite instant, or an interval that does not divide a day.
+ * @throws TimeInputError on an unknown zone; RangeError on a non-finite instant or an interval that does not divide a day.
  * @example intervalOfWeek(Date.UTC(2024, 0, 1, 14), "America/New_York") // Monday 09:00 EST → 9
  */
 export function intervalOfWeek(utcMs: number, zone: string, intervalMinutes = 60): number {

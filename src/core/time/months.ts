@@ -4,6 +4,7 @@
  * (a bill of 31 days with 10 of them in March puts 10/31 of its amount in March — the same
  * day-proration rule the tariff engine uses).
  */
+import { TimeInputError } from "../errors.ts";
 import { daysBetween, isIsoDate } from "./dates.ts";
 import { localPartsOf } from "./local.ts";
 import { localMidnightMs } from "./toUtc.ts";
@@ -49,9 +50,9 @@ export interface CalendarMonth {
   calendarMonth: number;
 }
 
-/** The calendar month `YYYY-MM`. @throws RangeError on a malformed month. */
+/** The calendar month `YYYY-MM`. @throws TimeInputError on a malformed month. */
 export function calendarMonth(month: string): CalendarMonth {
-  if (!/^\d{4}-\d{2}$/.test(month) || !isIsoDate(`${month}-01`)) throw new RangeError(`month must be YYYY-MM, got '${month}'`);
+  if (!/^\d{4}-\d{2}$/.test(month) || !isIsoDate(`${month}-01`)) throw new TimeInputError(`month must be YYYY-MM, got '${month}'`);
   const year = Number(month.slice(0, 4));
   const m = Number(month.slice(5, 7));
   const start = `${month}-01`;
@@ -60,11 +61,11 @@ export function calendarMonth(month: string): CalendarMonth {
 
 /**
  * The `count` calendar months after the month of `asOf`.
- * @throws RangeError when `asOf` is not a YYYY-MM-DD date.
+ * @throws TimeInputError when `asOf` is not a YYYY-MM-DD date.
  * @example monthsAfter("2025-12-31", 2).map(m => m.month) // ["2026-01", "2026-02"]
  */
 export function monthsAfter(asOf: string, count: number): CalendarMonth[] {
-  if (!isIsoDate(asOf)) throw new RangeError(`as_of must be YYYY-MM-DD, got '${asOf}'`);
+  if (!isIsoDate(asOf)) throw new TimeInputError(`as_of must be YYYY-MM-DD, got '${asOf}'`);
   const out: CalendarMonth[] = [];
   for (let i = 1; i <= count; i++) out.push(calendarMonth(shiftMonth(asOf.slice(0, 7), i)));
   return out;

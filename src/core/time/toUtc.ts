@@ -3,6 +3,7 @@
  * row: the zone offset is cached per local day, and only days next to a DST transition are
  * resolved per hour (and per row inside the transition hour itself).
  */
+import { TimeInputError } from "../errors.ts";
 import { DateTime } from "luxon";
 import { assertValidZone, zoneOffsetMs } from "./zone.ts";
 
@@ -25,7 +26,7 @@ export class LocalTimeResolver {
   /** Set by the last call to resolve(). */
   kind: LocalTimeKind = "unique";
 
-  /** @throws RangeError when `zoneName` is not a valid IANA zone (validate it beforehand). */
+  /** @throws TimeInputError when `zoneName` is not a valid IANA zone (validate it beforehand). */
   constructor(zoneName: string) {
     assertValidZone(zoneName);
     this.zoneName = zoneName;
@@ -121,7 +122,7 @@ export function sharedResolver(zoneName: string): LocalTimeResolver {
  * rules (a midnight that does not exist moves forward). Bills are half-open local-day periods, so
  * [localMidnightMs(start, zone), localMidnightMs(end, zone)) is exactly a bill's service period,
  * whatever DST does inside it.
- * @throws RangeError when the date or zone is invalid.
+ * @throws TimeInputError when the date or zone is invalid.
  * @example localMidnightMs("2024-03-10", "America/New_York") // 2024-03-10T05:00:00Z
  */
 export function localMidnightMs(isoDate: string, zone: string): number {
@@ -129,7 +130,7 @@ export function localMidnightMs(isoDate: string, zone: string): number {
   const hit = midnightCache.get(key);
   if (hit !== undefined) return hit;
   const dt = DateTime.fromISO(isoDate, { zone }).startOf("day");
-  if (!dt.isValid) throw new RangeError(`invalid date '${isoDate}' in zone '${zone}': ${dt.invalidExplanation ?? ""}`);
+  if (!dt.isValid) throw new TimeInputError(`invalid date '${isoDate}' in zone '${zone}': ${dt.invalidExplanation ?? ""}`);
   // Bills, forecasts and reconciliation ask for the same few thousand midnights again and again.
   if (midnightCache.size >= 100_000) midnightCache.clear();
   midnightCache.set(key, dt.toMillis());

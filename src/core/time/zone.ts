@@ -3,6 +3,7 @@
  * A zone's offset is piecewise constant, so each UTC year's offset changes are found once
  * (weekly probes, then bisection to the second) and every instant is placed by arithmetic.
  */
+import { TimeInputError } from "../errors.ts";
 import { IANAZone } from "luxon";
 
 const DAY_MS = 86_400_000;
@@ -22,9 +23,9 @@ export function isValidZone(name: string): boolean {
   return valid;
 }
 
-/** @throws RangeError naming the zone when it is not a valid IANA zone. */
+/** @throws TimeInputError naming the zone when it is not a valid IANA zone. */
 export function assertValidZone(name: string): void {
-  if (!isValidZone(name)) throw new RangeError(`unknown time zone '${name}' (use an IANA name such as America/New_York or UTC)`);
+  if (!isValidZone(name)) throw new TimeInputError(`unknown time zone '${name}' (use an IANA name such as America/New_York or UTC)`);
 }
 
 const zones = new Map<string, IANAZone>();
@@ -41,7 +42,7 @@ function zoneOf(name: string): IANAZone {
 /**
  * UTC offset of `zone` at `instantMs`, in ms (local = instant + offset). Looked up directly;
  * loops over many instants should use {@link offsetSegments} instead.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  * @example zoneOffsetMs("America/New_York", Date.UTC(2025, 0, 1)) // -18_000_000
  */
 export function zoneOffsetMs(zone: string, instantMs: number): number {
@@ -92,7 +93,7 @@ function segmentsOfYear(zone: string, year: number): OffsetSegment[] {
 
 /**
  * The offset segments of `zone` covering [fromMs, toMs]; the first one is open to the past.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  */
 export function offsetSegments(zone: string, fromMs: number, toMs: number): OffsetSegment[] {
   const y0 = new Date(fromMs).getUTCFullYear();
@@ -116,7 +117,7 @@ let memoSegs: OffsetSegment[] = [];
 /**
  * UTC offset (ms) of `zone` at `instantMs` from the cached segments: the fast form of
  * {@link zoneOffsetMs} for per-instant loops.
- * @throws RangeError on an unknown zone.
+ * @throws TimeInputError on an unknown zone.
  */
 export function offsetAtMs(zone: string, instantMs: number): number {
   if (zone !== memoZone || instantMs < memoFrom || instantMs >= memoTo) {
