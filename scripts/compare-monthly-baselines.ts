@@ -15,7 +15,7 @@
  * --daily: degree-days from daily mean temperatures instead of hourly integration)
  */
 import { loadPortfolio } from "../src/ingest/index.ts";
-import { fitMeterBaseline } from "../src/pipeline/baselines.ts";
+import { fitMeterBaseline } from "../src/model/billBaselines.ts";
 
 /** Level of the least-squares prediction band the change-point comparison uses (the earlier rule). */
 const OUTLIER_BAND_LEVEL = 0.99;

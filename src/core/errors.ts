@@ -43,3 +43,10 @@ export function bugReportLine(where: string, error: unknown): string {
 
 /** A date, month or time zone that cannot be used (an unknown IANA zone, a malformed date). */
 export class TimeInputError extends OhmbookError {}
+
+/**
+ * Raised by the pure modelling and cleaning primitives when their numeric input cannot give a
+ * meaningful answer (too few points, mismatched lengths, singular design). Callers catch it and
+ * report it for the meter.
+ */
+export class ModelInputError extends OhmbookError {}

@@ -7,8 +7,8 @@
 import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
 import { priceBill } from "../tariff/price.ts";
-import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../pipeline/baselines.ts";
-import { priceMeterBills } from "../pipeline/priceBills.ts";
+import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/billBaselines.ts";
+import { priceMeterBills } from "../tariff/priceMeterBills.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";

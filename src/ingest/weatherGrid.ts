@@ -2,6 +2,7 @@
  * Builds a station's hourly WeatherSeries on a regular UTC hour grid from hourly readings and
  * daily max/min, then fills short gaps. Pure (no I/O); local days from src/core/time.
  */
+import type { WeatherGap } from "../domain/types.ts";
 import { addDays, localDateOf, localMidnightMs, localPartsOf } from "../core/time/index.ts";
 import type { WeatherSeries } from "../domain/types.ts";
 import { interpolateGaps } from "./interpolateGaps.ts";
@@ -12,6 +13,8 @@ const HOUR_MS = 3600000;
 export const FILL_MEASURED = 0;
 export const FILL_INTERPOLATED = 1;
 export const FILL_FROM_DAILY = 2;
+
+export type { WeatherGap };
 
 export interface HourlyReading {
   instantMs: number;
@@ -25,15 +28,6 @@ export interface DailyReading {
   tminC: number;
 }
 
-export interface WeatherGap {
-  stationId: string;
-  /** First missing hour, UTC epoch ms. */
-  startMs: number;
-  /** First hour after the gap (exclusive end), UTC epoch ms. */
-  endMs: number;
-  hours: number;
-  action: "interpolated" | "kept";
-}
 
 /**
  * Temperature at local clock hour `hourOfDay` (0–24) from a day's max and min, assuming the

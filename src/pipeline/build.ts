@@ -14,22 +14,22 @@ import { priceBill } from "../tariff/index.ts";
 import { runAudit } from "../audit/index.ts";
 import type { Finding } from "../audit/types.ts";
 import { silentReporter, type Reporter } from "./reporter.ts";
-import type { PricedBill } from "./priceBills.ts";
-import { priceMeterBills } from "./priceBills.ts";
+import type { PricedBill } from "../tariff/priceMeterBills.ts";
+import { priceMeterBills } from "../tariff/priceMeterBills.ts";
 import { meteredForBills } from "../audit/reconcile.ts";
-import { assessIntervalMeters } from "./dataQuality.ts";
+import { assessIntervalMeters } from "../clean/assessMeters.ts";
 import { makeRepricer } from "../audit/wiring.ts";
-import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
+import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "../model/billBaselines.ts";
 import { buildDisputes, type Dispute } from "../disputes/index.ts";
-import { billCheckState } from "../report/input.ts";
-import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
+import { billCheckState } from "../tariff/priceMeterBills.ts";
+import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "../model/interval/buildingBaselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
-import { meteredViewsByBill } from "./meteredViews.ts";
-import { toReportInput } from "./reportInput.ts";
-import { buildDataFiles } from "./outputs.ts";
+import { meteredViewsByBill } from "../audit/meteredViews.ts";
+import { toReportInput, type BuildingResults } from "../report/fromAnalysis.ts";
+import { buildDataFiles } from "../report/dataFiles.ts";
 import { buildSiteModel, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
-import { effectiveAsOf } from "./usageSummary.ts";
+import { effectiveAsOf } from "../report/usageSummary.ts";
 import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
 import { roundCents } from "../core/money.ts";
@@ -82,16 +82,6 @@ export interface BuildSummary {
   buildingsFailed: { buildingId: string; reason: string }[];
 }
 
-/** Everything computed for one building; a building that fails carries only `failure`. */
-export interface BuildingResults {
-  building: Building;
-  priced: Map<string, PricedBill>;
-  findings: Finding[];
-  baselines: MeterBaseline[];
-  /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
-  intervalBaselines: IntervalBaselineOutcome[];
-  failure: string | null;
-}
 
 const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
 

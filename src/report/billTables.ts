@@ -7,7 +7,8 @@
 import type { Bill, BillLine, Meter } from "../domain/types.ts";
 import type { ComputedBill, ComputedLine } from "../tariff/types.ts";
 import type { Dispute } from "../disputes/types.ts";
-import { billCheckState, type BillCheckState, type PricedBill, type ReportInput } from "./input.ts";
+import type { ReportInput } from "./input.ts";
+import { billCheckState, type BillCheckState, type PricedBill } from "../tariff/priceMeterBills.ts";
 import type { LabelValue, TableCell, TableColumn, TableModel } from "./siteModel.ts";
 import type { BasisMath, BillClaim, BillDetail, MathLine } from "./billPageModels.ts";
 import {

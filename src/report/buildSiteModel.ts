@@ -7,7 +7,7 @@ import { buildIndexPage } from "./indexPage.ts";
 import { buildMethodsPage } from "./methodsPage.ts";
 import { buildDataPage } from "./dataPage.ts";
 import { last12MonthsText } from "./periods.ts";
-import { effectiveAsOf } from "../pipeline/usageSummary.ts";
+import { effectiveAsOf } from "./usageSummary.ts";
 import { formatDate } from "./format.ts";
 import { canonicalFor } from "./nav.ts";
 import { buildTenantPage } from "./tenantPage.ts";

@@ -4,7 +4,7 @@
  */
 import { formatDate } from "./format.ts";
 
-export { overlapDays, prorateToWindow, type DayWindow } from "../pipeline/usageSummary.ts";
+export { overlapDays, prorateToWindow, type DayWindow } from "./usageSummary.ts";
 
 /**
  * Words for the "last 12 months" every page uses (one rule, src/pipeline/usageSummary.ts):

@@ -5,7 +5,7 @@ import type { Dispute } from "../disputes/types.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber } from "./format.ts";
 import { shownAmount, sumCents } from "./disputesPage.ts";
-import { meterYearWindow, prorateToWindow, siteKwhLast12m } from "../pipeline/usageSummary.ts";
+import { meterYearWindow, prorateToWindow, siteKwhLast12m } from "./usageSummary.ts";
 import { buildingUsage } from "./buildingPage.ts";
 import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "./energy.ts";
 import { checkTitle } from "./labels.ts";

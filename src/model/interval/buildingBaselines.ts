@@ -3,10 +3,10 @@
  * gradient-boosted trees, time-series cross-validation, generalized-weighted-mean ensembles),
  * trained on the cleaned view: intervals flagged by the data-quality stage are left out.
  */
-import type { Building, Portfolio } from "../domain/types.ts";
-import { fitIntervalBaseline, hourlyFrame, type IntervalBaseline, type IntervalBaselineOptions } from "../model/interval/index.ts";
-import type { PoolMember } from "../model/interval/pooled.ts";
-import { expectedProblem } from "../core/errors.ts";
+import type { Building, Portfolio } from "../../domain/types.ts";
+import { fitIntervalBaseline, hourlyFrame, type IntervalBaseline, type IntervalBaselineOptions } from "./index.ts";
+import type { PoolMember } from "./pooled.ts";
+import { expectedProblem } from "../../core/errors.ts";
 
 /** Below this many weeks of data a meter borrows strength from similar meters (the pooled model). */
 export const SHORT_HISTORY_WEEKS = 8;

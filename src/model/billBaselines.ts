@@ -12,13 +12,26 @@
  * Estimated reads are left out of the fits (the utility's guess is not the building's use).
  */
 import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
-import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "../model/changePoint.ts";
-import { temperatureProfileForPeriod, type DegreeDayFit } from "../model/degreeDayRegression.ts";
-import { degreeDayOutlierBand, type DegreeDayBandBill } from "../model/outlierBand.ts";
-import { meetsGuideline14 } from "../model/stats.ts";
-import type { ReportModelSummary } from "../report/input.ts";
+import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "./changePoint.ts";
+import { temperatureProfileForPeriod, type DegreeDayFit } from "./degreeDayRegression.ts";
+import { degreeDayOutlierBand, type DegreeDayBandBill } from "./outlierBand.ts";
+import { meetsGuideline14 } from "./stats.ts";
 import { daysBetween, localMidnightMs, LocalMonthCalendar } from "../core/time/index.ts";
 import { cToF } from "../core/units.ts";
+
+/** One fitted model's headline statistics, as pages and data files show them. */
+export interface ModelSummary {
+  meterId: string;
+  /** Model kind, e.g. `3PH`, `5P`, `TOWT`. */
+  kind: string;
+  /** CV(RMSE) in percent. */
+  cvRmsePct: number | null;
+  /** NMBE in percent. */
+  nmbePct: number | null;
+  r2: number | null;
+  /** Number of observations the model was fitted on. */
+  n: number;
+}
 
 const HOUR_MS = 3_600_000;
 /** Share of a period's hours that must have a temperature for the bill to be a model point. */
@@ -57,7 +70,7 @@ export interface MeterBaseline {
   degreeDay: { fit: DegreeDayFit; rejected: string[]; tried: { kind: string; accepted: boolean; reasons: string[]; cvRmsePct: number | null; nmbePct: number | null; r2: number | null; p: number }[] } | null;
   /** Expected usage band per bill id (bill unit) from the degree-day model's leave-one-out band. */
   expectedByBill: Map<string, { p50: number; low: number; high: number }>;
-  summary: ReportModelSummary;
+  summary: ModelSummary;
 }
 
 /** Mean temperature over [startMs, endMs) from an hourly series, with the share of hours covered. */
