@@ -270,3 +270,4 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
 // Used by other folders (see test/architecture/layers.test.ts).
 export { describeFsError } from "./inputFile.ts";
 export { MAX_BILL_USAGE } from "./limits.ts";
+export { readMeterIntervalFile, type MeterIntervalFile } from "./meterIntervalFile.ts";
