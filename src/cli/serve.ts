@@ -9,8 +9,8 @@
  * builds never overlap: changes that arrive during a build are gathered into one more build.
  */
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from "node:http";
-import { createReadStream, rmSync } from "node:fs";
-import { mkdtemp, readFile, rm, stat } from "node:fs/promises";
+import { rmSync } from "node:fs";
+import { mkdtemp, open, readFile, rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { extname, join, relative, resolve, sep } from "node:path";
 import { watch, type FSWatcher } from "chokidar";
@@ -218,25 +218,39 @@ function handler(root: string, state: { built: boolean }) {
       plain(res, 503, "ohmbook serve: no site yet: the build failed or is still running; see the terminal. Save a fixed input file and reload.");
       return;
     }
-    void fileFor(root, req.url ?? "/").then(
-      (file) => {
-        if (file === null) {
-          plain(res, 404, `not found: ${req.url ?? "/"}`);
-          return;
-        }
-        // Never cached: a reload after a rebuild must show the new pages.
-        res.writeHead(200, { "content-type": CONTENT_TYPES[extname(file).toLowerCase()] ?? "application/octet-stream", "cache-control": "no-store" });
-        if (req.method === "HEAD") {
-          res.end();
-          return;
-        }
-        const stream = createReadStream(file);
-        stream.on("error", () => res.destroy());
-        stream.pipe(res);
-      },
-      () => plain(res, 500, "could not read the file"),
-    );
+    void sendFile(root, req, res).catch(() => {
+      if (!res.headersSent) plain(res, 500, "could not read the file");
+      else res.destroy();
+    });
   };
+}
+
+/**
+ * Sends the file a request names. The file is opened before anything is sent, so a rebuild's
+ * swap (two renames) never cuts a response short: an open file stays readable, and a file
+ * caught between the renames is looked up once more a moment later.
+ */
+async function sendFile(root: string, req: IncomingMessage, res: ServerResponse): Promise<void> {
+  for (let attempt = 0; attempt < 3; attempt++) {
+    const file = await fileFor(root, req.url ?? "/");
+    const handle = file === null ? null : await open(file, "r").catch(() => null);
+    if (file === null || handle === null) {
+      await new Promise((r) => setTimeout(r, 100));
+      continue;
+    }
+    // Never cached: a reload after a rebuild must show the new pages.
+    res.writeHead(200, { "content-type": CONTENT_TYPES[extname(file).toLowerCase()] ?? "application/octet-stream", "cache-control": "no-store" });
+    if (req.method === "HEAD") {
+      await handle.close();
+      res.end();
+      return;
+    }
+    const stream = handle.createReadStream();
+    stream.on("error", () => res.destroy());
+    stream.pipe(res);
+    return;
+  }
+  plain(res, 404, `not found: ${req.url ?? "/"}`);
 }
 
 /** Listens on `host:port`; when `fallback`, tries the next ports while one is taken. */

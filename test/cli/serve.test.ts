@@ -175,6 +175,7 @@ describe("ohmbook serve on a starter portfolio", () => {
     let claims: { claim_amount: number | string; kind: string }[] = [];
     while (Date.now() < deadline) {
       const res = await fetch(`${session.url}data/disputes.json`);
+      expect([200, 404]).toContain(res.status);
       if (res.ok) {
         claims = ((await res.json()) as typeof claims).filter((d) => d.kind === "claim");
         if (claims.length > 0) break;
