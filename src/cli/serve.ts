@@ -429,6 +429,9 @@ export async function startServe(options: ServeOptions): Promise<ServeSession> {
   await build(null);
 
   const server = createServer(handler(outDir, state));
+  // A build runs in this process and may hold the event loop for seconds; an idle kept-alive
+  // connection must not be closed by a timer that fired meanwhile while the browser reuses it.
+  server.keepAliveTimeout = 65_000;
   let port: number;
   try {
     port = await listen(server, HOST, options.port ?? 8080, options.portFallback ?? options.port === undefined);
