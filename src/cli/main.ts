@@ -2,7 +2,7 @@
  * The `ohmbook` command line. The only module that reads argv, writes to stdout/stderr
  * and decides exit codes; everything else returns values or throws OhmbookError.
  *
- * Exit codes (see README): 0 ok; 1 input errors or usage error; 3 `--fail-on` threshold crossed.
+ * Exit codes (see docs/cli.md): 0 ok; 1 input errors or usage error; 3 `--fail-on` threshold crossed.
  */
 import { parseArgs } from "node:util";
 import { resolve } from "node:path";
