@@ -28,7 +28,7 @@ export * from "./types.ts";
 export { meteredForPeriod, meteredForBills, localMidnightMs } from "./reconcile.ts";
 export { findingsToCsvRows, findingsToCsvText, toFindingsJson, billsRecomputedRows, FINDINGS_CSV_COLUMNS } from "./output.ts";
 export { resolveTolerances, exceedsMoneyTolerance, AUDIT_DEFAULTS } from "./tolerances.ts";
-export { makeRepricer, intervalUsageForBill, pinVersion } from "./wiring.ts";
+export { makeRepricer, pinVersion } from "./wiring.ts";
 
 const CHECKS = [
   checkTotalMismatch, checkLineMismatch, checkUnexplainedLine, checkUsageVsMeter, checkDemandVsMeter,

@@ -159,6 +159,8 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     strict: Boolean(values.strict),
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
+    // A bug in one building is reported and the other pages are still written (unless --strict).
+    onBug: "report",
     audience,
   }).catch((error: unknown) => {
     if (error instanceof InputError && error.folder === undefined) error.folder = dir;

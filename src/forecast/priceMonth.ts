@@ -14,8 +14,8 @@
  */
 import type { Tariff } from "../tariff/model.ts";
 import { priceBill } from "../tariff/price.ts";
-import type { CalendarMonth } from "./months.ts";
 import { scaleShape, type MonthShape } from "./profile.ts";
+import { type CalendarMonth } from "../core/time/index.ts";
 
 export interface MonthPricingContext {
   tariff: Tariff;

@@ -5,7 +5,7 @@
  */
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/model.ts";
-import type { MeterBaseline } from "../pipeline/baselines.ts";
+import type { MeterBaseline } from "../model/billBaselines.ts";
 import { correctBills, type CorrectedBillSet, type MoneyFindingLike } from "./correctedBills.ts";
 import { rollingBacktest, MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
 import { forecastPortfolio, type PortfolioForecast } from "./forecastPortfolio.ts";

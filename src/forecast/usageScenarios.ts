@@ -22,9 +22,9 @@
  */
 import type { Bill } from "../domain/types.ts";
 import type { ChangePointFit } from "../model/changePoint.ts";
-import type { CalendarMonth } from "./months.ts";
 import { spreadBillsByMonth } from "./months.ts";
 import { standardNormal, studentScale, type Uniform } from "./random.ts";
+import { type CalendarMonth } from "../core/time/index.ts";
 
 /** Relative scatter assumed for the fallback when no calendar month appears in two years. */
 export const FALLBACK_DEFAULT_RELATIVE_SD = 0.1;

@@ -37,8 +37,6 @@ export {
   degreeDaysMeanMethod,
   heatingDegreeDaysUkMaxMin,
   coolingDegreeDaysUkMaxMin,
-  fahrenheitToCelsius,
-  celsiusToFahrenheit,
   degreeDaysCToF,
   degreeDaysFToC,
   DEGREE_DAY_BASES,

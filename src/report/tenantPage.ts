@@ -6,10 +6,10 @@ import type { Bill, Building, Meter } from "../domain/types.ts";
 import type { ReportBaseline } from "./input.ts";
 import type { TableModel, TenantCommodity, TenantPage } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity } from "./format.ts";
-import { addMonthsIso, periodDays } from "./periods.ts";
 import { commodityLabel } from "./labels.ts";
-import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, kwhPerM2ToKbtuPerFt2, siteKwh } from "./energy.ts";
-import { isoDateToDayNumber } from "./format.ts";
+import { kwhPerM2ToKbtuPerFt2, siteKwh } from "./energy.ts";
+import { addMonthsIso, daysBetween, isoDateToDayNumber } from "../core/time/index.ts";
+import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../core/units.ts";
 
 /** A bill counts as "the same period last year" when its start is within this many days of one year before. */
 export const SAME_PERIOD_TOLERANCE_DAYS = 20;
@@ -84,7 +84,7 @@ function sumPeriod(
   let used = 0;
   for (const { meter, bill } of picks) {
     const q = convert(meter, bill.usage);
-    const days = periodDays(bill.periodStart, bill.periodEnd);
+    const days = daysBetween(bill.periodStart, bill.periodEnd);
     if (q == null || days <= 0) continue;
     used++;
     use += q;
@@ -203,8 +203,8 @@ function tenantCommodity(c: TenantComparison): TenantCommodity {
 export const TENANT_NOTES: readonly string[] = [
   "Use per day is compared rather than the period total, because billing periods differ in length by a few days.",
   "Weather-adjusted use = actual use × (the building's weather model at typical-year temperatures ÷ the same model at the period's actual temperatures), for the same days. A colder-than-usual winter month therefore counts for less.",
-  `Electricity and gas are shown as site energy in kWh: gas in therms × ${KWH_PER_THERM} kWh per therm (1 therm = 100,000 Btu, U.S. EIA).`,
-  `Per floor area: kWh per m², and kBtu per ft² with 1 kWh = ${KBTU_PER_KWH} kBtu (Btu of the International Table, NIST SP 811) and 1 m² = ${FT2_PER_M2} ft² (international foot = 0.3048 m).`,
+  `Electricity and gas are shown as site energy in kWh: gas in therms × ${KWH_PER_THERM.toFixed(4)} kWh per therm (1 therm = 100,000 Btu, U.S. EIA).`,
+  `Per floor area: kWh per m², and kBtu per ft² with 1 kWh = ${KBTU_PER_KWH.toFixed(6)} kBtu (Btu of the International Table, NIST SP 811) and 1 m² = ${FT2_PER_M2.toFixed(4)} ft² (international foot = 0.3048 m).`,
 ];
 
 /**

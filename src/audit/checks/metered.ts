@@ -2,8 +2,8 @@
 import type { Bill } from "../../domain/types.ts";
 import type { ComputedBill } from "../../tariff/types.ts";
 import type { AuditContext } from "../context.ts";
-import { roundCents } from "../tolerances.ts";
 import type { MeteredPeriod } from "../types.ts";
+import { roundCents } from "../../core/money.ts";
 
 /** Metered period usable for comparison: present, with data, coverage at least `minCoverage`. */
 export function comparableMetered(ctx: AuditContext, bill: Bill): MeteredPeriod | null {
