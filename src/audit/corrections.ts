@@ -3,7 +3,7 @@
  * One helper per way a bill is corrected, so every check words and rounds them the same way.
  */
 import type { Bill } from "../domain/types.ts";
-import type { ComputedBill } from "../tariff/types.ts";
+import type { ComputedBill } from "../tariff/index.ts";
 import type { CorrectedBill } from "./types.ts";
 import { roundCents } from "../core/money.ts";
 

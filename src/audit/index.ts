@@ -67,3 +67,10 @@ export function runAudit(input: AuditInput): Finding[] {
 export function reachesSeverity(findings: Finding[], threshold: Severity): boolean {
   return findings.some((f) => SEVERITY_RANK[f.severity] >= SEVERITY_RANK[threshold]);
 }
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export { groupLines } from "./checks/labels.ts";
+export { COMMON_RATIOS } from "./checks/multiplier-suspect.ts";
+export { claimOf } from "./corrections.ts";
+export { meteredViewsByBill } from "./meteredViews.ts";
+export type { MeteredViews } from "./meteredViews.ts";

@@ -3,7 +3,7 @@
  * bills-recomputed.csv (column names per the outputs contract).
  */
 import type { Bill } from "../domain/types.ts";
-import type { ComputedBill } from "../tariff/types.ts";
+import type { ComputedBill } from "../tariff/index.ts";
 import type { Evidence, Finding } from "./types.ts";
 import { csvField } from "../core/csv.ts";
 import { roundCents } from "../core/money.ts";

@@ -4,7 +4,7 @@
  */
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import type { MeteredPeriod } from "./types.ts";
-import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
+import { withFlaggedAsMissing } from "../clean/index.ts";
 import { localMidnightMs } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
 import { expectedProblem } from "../core/errors.ts";

@@ -6,9 +6,9 @@
  *   runAudit({ portfolio, priced, metered, reprice, rateAlternatives });
  */
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
-import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
-import { intervalUsageForBill } from "../tariff/priceMeterBills.ts";
+import type { Tariff } from "../tariff/index.ts";
+import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/index.ts";
+import { intervalUsageForBill } from "../tariff/index.ts";
 import { sortBills } from "./context.ts";
 import type { RepriceAlternative, RepriceFn } from "./types.ts";
 import { localMidnightMs } from "../core/time/index.ts";

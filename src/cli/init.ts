@@ -14,12 +14,10 @@
  */
 import { mkdir, writeFile, readdir } from "node:fs/promises";
 import { join } from "node:path";
-import { DateTime } from "luxon";
-import { describeFsError } from "../ingest/inputFile.ts";
+import { describeFsError } from "../ingest/index.ts";
 import { OhmbookError } from "../core/errors.ts";
-import { loadTariff } from "../tariff/load.ts";
-import { priceBill } from "../tariff/price.ts";
-import type { ComputedBill, PriceRequest } from "../tariff/types.ts";
+import { addDays, daysBetween, isoWithOffset, localMidnightMs, localPartsOf, type LocalParts } from "../core/time/index.ts";
+import { loadTariff, priceBill, type ComputedBill, type PriceRequest } from "../tariff/index.ts";
 
 const ZONE = "America/Chicago";
 const STATION = "STARTER-WX";
@@ -212,42 +210,40 @@ const READ_DATES = [
   "2024-08-01", "2024-09-03", "2024-10-02", "2024-11-01", "2024-12-03", "2025-01-03",
 ];
 
-/** Outdoor temperature, °C, at a local time: a seasonal wave, a daily wave and a slow 9-day swing. */
-function temperatureC(t: DateTime, typicalYear: boolean): number {
-  const seasonal = 12 - 14 * Math.cos(((t.ordinal - 15) / 365) * 2 * Math.PI);
-  const daily = 5 * Math.sin(((t.hour - 9) / 24) * 2 * Math.PI);
+const HOUR_MS = 3_600_000;
+
+/** Outdoor temperature, °C, at an instant: a seasonal wave, a daily wave and a slow 9-day swing. */
+function temperatureC(ms: number, local: LocalParts, typicalYear: boolean): number {
+  const seasonal = 12 - 14 * Math.cos(((local.dayOfYear - 15) / 365) * 2 * Math.PI);
+  const daily = 5 * Math.sin(((local.hour - 9) / 24) * 2 * Math.PI);
   // The actual year wanders around the typical one, so normalisation has something to do.
-  const swing = typicalYear ? 0 : 2.5 * Math.sin((t.toMillis() / 86_400_000 / 9) * 2 * Math.PI);
+  const swing = typicalYear ? 0 : 2.5 * Math.sin((ms / 86_400_000 / 9) * 2 * Math.PI);
   return Math.round((seasonal + daily + swing) * 10) / 10;
 }
 
 interface Hour {
-  time: DateTime;
+  ms: number;
+  local: LocalParts;
   tempC: number;
 }
 
-/** Every local hour in [from, to) (dates in ZONE), DST-aware (23- and 25-hour days). */
+/** Every hour from local midnight of `from` to local midnight of `to` (dates in ZONE), DST-aware (23- and 25-hour days). */
 function hours(from: string, to: string): Hour[] {
   const out: Hour[] = [];
-  let t = DateTime.fromISO(from, { zone: ZONE });
-  const end = DateTime.fromISO(to, { zone: ZONE });
-  while (t < end) {
-    out.push({ time: t, tempC: temperatureC(t, false) });
-    t = t.plus({ hours: 1 });
+  const end = localMidnightMs(to, ZONE);
+  for (let ms = localMidnightMs(from, ZONE); ms < end; ms += HOUR_MS) {
+    const local = localPartsOf(ms, ZONE);
+    out.push({ ms, local, tempC: temperatureC(ms, local, false) });
   }
   return out;
 }
 
 /** Whole kWh used in one hour by the office: base load, weekday occupancy, cooling. */
 function officeKwh(h: Hour): number {
-  const weekday = h.time.weekday <= 5;
-  const occupied = weekday && h.time.hour >= 7 && h.time.hour < 19;
+  const weekday = h.local.isoWeekday <= 5;
+  const occupied = weekday && h.local.hour >= 7 && h.local.hour < 19;
   const cooling = Math.max(0, h.tempC - 18) * (occupied ? 4.5 : 2);
   return Math.round(38 + (occupied ? 64 : 0) + cooling);
-}
-
-function iso(t: DateTime): string {
-  return t.toISO({ suppressMilliseconds: true })!;
 }
 
 function csv(header: string, rows: readonly (readonly (string | number)[])[]): string {
@@ -285,16 +281,15 @@ export function starterFiles(): Record<string, string> {
   const water = parseTariff(WATER_TARIFF, "tariffs/starter-water.yaml");
 
   const kwh = meterHours.map(officeKwh);
-  const startMs = Float64Array.from(meterHours.map((h) => h.time.toMillis()));
+  const startMs = Float64Array.from(meterHours.map((h) => h.ms));
   const bills: StarterBill[] = [];
   const dailyMeanC = (from: string, to: string): number[] => {
-    const a = DateTime.fromISO(from, { zone: ZONE }).toMillis();
-    const b = DateTime.fromISO(to, { zone: ZONE }).toMillis();
+    const a = localMidnightMs(from, ZONE);
+    const b = localMidnightMs(to, ZONE);
     const byDay = new Map<string, number[]>();
     for (const h of weatherHours) {
-      const ms = h.time.toMillis();
-      if (ms < a || ms >= b) continue;
-      const day = h.time.toISODate()!;
+      if (h.ms < a || h.ms >= b) continue;
+      const day = h.local.date;
       byDay.set(day, [...(byDay.get(day) ?? []), h.tempC]);
     }
     return [...byDay.values()].map((v) => v.reduce((s, x) => s + x, 0) / v.length);
@@ -303,14 +298,14 @@ export function starterFiles(): Record<string, string> {
   for (let i = 0; i + 1 < READ_DATES.length; i++) {
     const start = READ_DATES[i]!;
     const end = READ_DATES[i + 1]!;
-    const days = DateTime.fromISO(end).diff(DateTime.fromISO(start), "days").days;
-    const statementDate = DateTime.fromISO(end).plus({ days: 5 }).toISODate()!;
+    const days = daysBetween(start, end);
+    const statementDate = addDays(end, 5);
     const month = start.slice(0, 7);
     const request = (usage: number, unit: string, extra: Partial<PriceRequest> = {}): PriceRequest => ({ periodStart: start, periodEnd: end, timezone: ZONE, usage, usageUnit: unit, ...extra });
 
     // Electricity: usage and demand are what the interval data say; every 60-minute value is kW.
-    const a = DateTime.fromISO(start, { zone: ZONE }).toMillis();
-    const b = DateTime.fromISO(end, { zone: ZONE }).toMillis();
+    const a = localMidnightMs(start, ZONE);
+    const b = localMidnightMs(end, ZONE);
     const idx = meterHours.map((_, k) => k).filter((k) => startMs[k]! >= a && startMs[k]! < b);
     const usage = idx.reduce((s, k) => s + kwh[k]!, 0);
     const demand = Math.max(...idx.map((k) => kwh[k]!));
@@ -342,22 +337,23 @@ export function starterFiles(): Record<string, string> {
   // Printed lines as a utility prints them: every charge with an amount (a zero line is not printed).
   const lineRows = bills.flatMap((b) => b.priced.lines.filter((l) => l.amount !== 0).map((l) => [b.billId, l.label, l.amount.toFixed(2)]));
 
-  const intervalsCsv = csv("meter_id,timestamp,value", meterHours.map((h, k) => ["STARTER-E1", iso(h.time), kwh[k]!]));
-  const weatherCsv = csv("station_id,timestamp,temperature_c", weatherHours.map((h) => [STATION, iso(h.time), h.tempC.toFixed(1)]));
+  const intervalsCsv = csv("meter_id,timestamp,value", meterHours.map((h, k) => ["STARTER-E1", isoWithOffset(h.ms, ZONE), kwh[k]!]));
+  const weatherCsv = csv("station_id,timestamp,temperature_c", weatherHours.map((h) => [STATION, isoWithOffset(h.ms, ZONE), h.tempC.toFixed(1)]));
 
   // Daily highs and lows for the weeks before the hourly file.
   const dailyRows: string[][] = [];
-  for (let d = DateTime.fromISO("2023-12-01", { zone: ZONE }); d < DateTime.fromISO("2023-12-29", { zone: ZONE }); d = d.plus({ days: 1 })) {
-    const temps = Array.from({ length: 24 }, (_, h) => temperatureC(d.plus({ hours: h }), false));
-    dailyRows.push([STATION, d.toISODate()!, Math.max(...temps).toFixed(1), Math.min(...temps).toFixed(1)]);
+  for (let day = "2023-12-01"; day < "2023-12-29"; day = addDays(day, 1)) {
+    const temps = hours(day, addDays(day, 1)).map((h) => h.tempC);
+    dailyRows.push([STATION, day, Math.max(...temps).toFixed(1), Math.min(...temps).toFixed(1)]);
   }
   const dailyCsv = csv("station_id,date,tmax_c,tmin_c", dailyRows);
 
-  // A typical (non-leap) year of 8,760 hours, dated 2023 and written in standard time (UTC-6)
-  // so that every hour appears once.
+  // A typical (non-leap) year of 8,760 hours, dated 2023 and written in standard time (UTC-6,
+  // the IANA zone Etc/GMT+6) so that every hour appears once.
   const normalsRows: string[][] = [];
-  for (let t = DateTime.fromISO("2023-01-01T00:00:00", { zone: "UTC-6" }), k = 0; k < 8760; k++, t = t.plus({ hours: 1 })) {
-    normalsRows.push([STATION, iso(t), temperatureC(t, true).toFixed(1)]);
+  const standard = "Etc/GMT+6";
+  for (let k = 0, ms = localMidnightMs("2023-01-01", standard); k < 8760; k++, ms += HOUR_MS) {
+    normalsRows.push([STATION, isoWithOffset(ms, standard), temperatureC(ms, localPartsOf(ms, standard), true).toFixed(1)]);
   }
   const normalsCsv = csv("station_id,timestamp,temperature_c", normalsRows);
 

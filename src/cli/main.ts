@@ -151,7 +151,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   }
   const quiet = Boolean(values.quiet) || Boolean(values.json);
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
-  const { buildPortfolioSite } = await import("../pipeline/build.ts");
+  const { buildPortfolioSite } = await import("../pipeline/index.ts");
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
   const result = await buildPortfolioSite({
     dir,
@@ -264,7 +264,7 @@ if (invokedDirectly) {
         onStopSignal(signal);
         return;
       }
-      void import("../site/writeSite.ts").then(({ removeActiveScratch }) => {
+      void import("../site/index.ts").then(({ removeActiveScratch }) => {
         removeActiveScratch();
         process.stderr.write(`ohmbook: stopped by ${signal}; nothing half-written was left behind\n`);
         process.exit(code);

@@ -15,10 +15,10 @@ import { parse as parseCsv } from "csv-parse/sync";
 import { isIsoDate, isoLocalToMs, isValidZone, localMidnightMs, offsetAtMs } from "../core/time/index.ts";
 import { OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssue } from "../core/issues.ts";
-import { loadTariff } from "../tariff/load.ts";
-import { priceBill } from "../tariff/price.ts";
-import type { Tariff } from "../tariff/model.ts";
-import type { ComputedBill, ComputedLine, IntervalUsage, PriceRequest } from "../tariff/types.ts";
+import { loadTariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
+import type { Tariff } from "../tariff/index.ts";
+import type { ComputedBill, ComputedLine, IntervalUsage, PriceRequest } from "../tariff/index.ts";
 
 export interface PriceIo {
   out: (s: string) => void;
@@ -58,7 +58,7 @@ export function missingInputs(tariff: Tariff, from: string, to: string, given: {
   return [...missing];
 }
 
-import { MAX_BILL_USAGE } from "../ingest/limits.ts";
+import { MAX_BILL_USAGE } from "../ingest/index.ts";
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 

@@ -2,7 +2,7 @@
  * Progress and message output for the CLI: the terminal implementation of the pipeline's
  * Reporter interface (src/pipeline/reporter.ts).
  */
-import type { Reporter } from "../pipeline/reporter.ts";
+import type { Reporter } from "../pipeline/index.ts";
 
 export type { Reporter };
 /** Progress on a TTY as one redrawn line; plain lines per stage otherwise; nothing with quiet. */

@@ -342,7 +342,7 @@ export function isIgnoredInputPath(relPath: string): boolean {
  * @throws OhmbookError when the folder does not exist or no port can be had.
  */
 export async function startServe(options: ServeOptions): Promise<ServeSession> {
-  const { buildPortfolioSite } = await import("../pipeline/build.ts");
+  const { buildPortfolioSite } = await import("../pipeline/index.ts");
   const dir = options.dir;
   const absDir = resolve(dir);
   const dirInfo = await stat(absDir).catch(() => null);
@@ -466,7 +466,7 @@ export async function startServe(options: ServeOptions): Promise<ServeSession> {
       server.closeAllConnections();
       server.close();
       await watcher.close().catch(() => undefined);
-      const { removeActiveScratch } = await import("../site/writeSite.ts");
+      const { removeActiveScratch } = await import("../site/index.ts");
       removeActiveScratch();
       if (scratchParent) rmSync(scratchParent, { recursive: true, force: true });
     },

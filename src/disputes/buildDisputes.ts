@@ -9,9 +9,9 @@
  * corrected bills as the finding's amount: the finding, the bills table and disputes.csv agree.
  */
 import type { Bill, BillLine, Meter } from "../domain/types.ts";
-import type { CorrectedBill, Finding } from "../audit/types.ts";
-import { groupLines } from "../audit/checks/labels.ts";
-import { claimOf } from "../audit/corrections.ts";
+import type { CorrectedBill, Finding } from "../audit/index.ts";
+import { groupLines } from "../audit/index.ts";
+import { claimOf } from "../audit/index.ts";
 import type { Dispute, DisputeBasis, DisputeBill, DisputeLine } from "./types.ts";
 import { roundCents } from "../core/money.ts";
 import { fnv1a32 } from "../core/random.ts";

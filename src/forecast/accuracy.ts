@@ -10,7 +10,7 @@
  * `cvRmsePct` with p = 0 ({@link forecastCvRmsePct}).
  */
 import { ForecastInputError } from "./errors.ts";
-import { cvRmsePct } from "../model/stats.ts";
+import { cvRmsePct } from "../model/index.ts";
 
 /**
  * CV(RMSE) in percent over paired months, divisor n (no parameters fitted to these months).

@@ -38,7 +38,7 @@
  * a portfolio whose bills carry the audit's corrections.
  */
 import type { Bill, Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { meterPricingContexts, meterUsageScenarios, DEFAULT_SCENARIOS, type MeterForecastInput } from "./forecastMeter.ts";
 import { buildingForecastInputs } from "./portfolioInputs.ts";
 import { priceForecastMonth } from "./priceMonth.ts";

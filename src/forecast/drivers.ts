@@ -26,7 +26,7 @@
  *   = billing errors corrected + weather + rates + usage trend.
  */
 import type { Bill } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { meterPricingContexts, type MeterForecast, type MeterForecastInput } from "./forecastMeter.ts";
 import { spreadBillsByMonth } from "./months.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";

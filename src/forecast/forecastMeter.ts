@@ -8,8 +8,8 @@
  * scenario totals (the P90 of a year is not the sum of twelve monthly P90s).
  */
 import type { Bill, Commodity, IntervalSeries, Meter } from "../domain/types.ts";
-import type { ChangePointFit } from "../model/changePoint.ts";
-import type { Tariff } from "../tariff/model.ts";
+import type { ChangePointFit } from "../model/index.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
 import { scenarioTemperatures, scenarioYears, type WeatherYear } from "./weatherYears.ts";

@@ -5,10 +5,10 @@
  * what was known then).
  */
 import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
-import { priceBill } from "../tariff/price.ts";
-import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/billBaselines.ts";
-import { priceMeterBills } from "../tariff/priceMeterBills.ts";
+import type { Tariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
+import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
+import { priceMeterBills } from "../tariff/index.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";

@@ -14,7 +14,7 @@
  * engine marks those lines estimated).
  */
 import type { IntervalSeries } from "../domain/types.ts";
-import type { IntervalUsage } from "../tariff/types.ts";
+import type { IntervalUsage } from "../tariff/index.ts";
 import { localMidnightMs, hourOfWeek, type CalendarMonth } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
 

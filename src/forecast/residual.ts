@@ -15,7 +15,7 @@
  * all-years / last-year is used is chosen by the rolling-origin backtests (backtest.ts).
  */
 import type { Bill } from "../domain/types.ts";
-import type { ChangePointFit } from "../model/changePoint.ts";
+import type { ChangePointFit } from "../model/index.ts";
 import { billsKnownAt } from "./portfolioInputs.ts";
 import { spreadBillsByMonth } from "./months.ts";
 import type { WeatherYear } from "./weatherYears.ts";

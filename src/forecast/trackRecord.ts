@@ -16,7 +16,7 @@
  * value; the month counts are reported with them.
  */
 import type { Bill, Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { forecastMeter, type MeterForecast, type MeterForecastInput } from "./forecastMeter.ts";
 import { billsKnownAt, buildingForecastInputs } from "./portfolioInputs.ts";
 import { spreadBillsByMonth } from "./months.ts";

@@ -21,7 +21,7 @@
  * months; 10 % when no month was seen twice), drawn the same way.
  */
 import type { Bill } from "../domain/types.ts";
-import type { ChangePointFit } from "../model/changePoint.ts";
+import type { ChangePointFit } from "../model/index.ts";
 import { spreadBillsByMonth } from "./months.ts";
 import { standardNormal, studentScale, type Uniform } from "./random.ts";
 import { type CalendarMonth } from "../core/time/index.ts";

@@ -6,7 +6,7 @@ import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity } from "./for
 import { dayNumberToIsoDate, isoDateToDayNumber } from "../core/time/index.ts";
 import { checkTitle, commodityLabel } from "./labels.ts";
 import { daysBetween } from "../core/time/index.ts";
-import { GUIDELINE14_LIMITS, meetsGuideline14 } from "../model/stats.ts";
+import { GUIDELINE14_LIMITS, meetsGuideline14 } from "../model/index.ts";
 
 /**
  * Why a bill was left out of the fit, in plain words: a check code the model stage names

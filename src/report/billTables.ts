@@ -5,10 +5,10 @@
  * shown only for a recomputation that is exact: an estimate is never presented as a difference.
  */
 import type { Bill, BillLine, Meter } from "../domain/types.ts";
-import type { ComputedBill, ComputedLine } from "../tariff/types.ts";
-import type { Dispute } from "../disputes/types.ts";
+import type { ComputedBill, ComputedLine } from "../tariff/index.ts";
+import type { Dispute } from "../disputes/index.ts";
 import type { ReportInput } from "./input.ts";
-import { billCheckState, type BillCheckState, type PricedBill } from "../tariff/priceMeterBills.ts";
+import { billCheckState, type BillCheckState, type PricedBill } from "../tariff/index.ts";
 import type { LabelValue, TableCell, TableColumn, TableModel } from "./siteModel.ts";
 import type { BasisMath, BillClaim, BillDetail, MathLine } from "./billPageModels.ts";
 import {
@@ -25,7 +25,7 @@ import {
 } from "./format.ts";
 import { lineStatusLabel } from "./labels.ts";
 import { billAnchor, claimPath, meterBillsPath } from "./nav.ts";
-import { groupLines } from "../audit/checks/labels.ts";
+import { groupLines } from "../audit/index.ts";
 import { daysBetween } from "../core/time/index.ts";
 
 /** Billed minus a recomputed total, rounded to cents; null when there is no recomputation. */

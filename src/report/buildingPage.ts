@@ -5,7 +5,7 @@
  */
 import type { Bill, Building, Meter } from "../domain/types.ts";
 import type { ReportInput } from "./input.ts";
-import { billCheckState, type BillCheckState } from "../tariff/priceMeterBills.ts";
+import { billCheckState, type BillCheckState } from "../tariff/index.ts";
 import type { BuildingPage, CommoditySection, LabelValue, MeterSection, TableCell, TableModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber, formatPeriod, formatQuantity } from "./format.ts";
 import { DISPUTES_PATH, buildingPath, meterBillsPath, navFor } from "./nav.ts";

@@ -5,18 +5,18 @@
 import type { Dispute } from "../disputes/index.ts";
 import type { InputIssue } from "../core/issues.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
-import type { Finding } from "../audit/types.ts";
+import type { Finding } from "../audit/index.ts";
 import type { AccuracySummary, BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } from "../forecast/index.ts";
 import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands, MIN_TRACK_RECORD_MONTHS, MONTH_ADJUSTMENT_LABEL, WEATHER_BASIS_LABEL, type WeatherBasisId } from "../forecast/index.ts";
 import type { WeatherGap } from "../domain/types.ts";
-import type { MonthTotal } from "../ingest/monthlyTotals.ts";
+import type { MonthTotal } from "../ingest/index.ts";
 import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportForecastMethod, ReportInput, ReportMeterQuality, ReportModelSummary } from "./index.ts";
-import type { MeterBaseline } from "../model/billBaselines.ts";
-import type { MeterQuality } from "../clean/assessMeters.ts";
-import type { PricedBill } from "../tariff/priceMeterBills.ts";
+import type { MeterBaseline } from "../model/index.ts";
+import type { MeterQuality } from "../clean/index.ts";
+import type { PricedBill } from "../tariff/index.ts";
 import { shiftMonth } from "../core/time/index.ts";
 import type { Building } from "../domain/types.ts";
-import type { IntervalBaselineOutcome } from "../model/interval/buildingBaselines.ts";
+import type { IntervalBaselineOutcome } from "../model/index.ts";
 
 /** Everything computed for one building; a building that fails carries only `failure`. */
 export interface BuildingResults {

@@ -8,10 +8,10 @@
  */
 import type { Portfolio } from "../domain/types.ts";
 import type { InputIssue } from "../core/issues.ts";
-import type { ComputedBill } from "../tariff/types.ts";
-import type { Dispute } from "../disputes/types.ts";
-import type { PricedBill } from "../tariff/priceMeterBills.ts";
-import type { ModelSummary } from "../model/billBaselines.ts";
+import type { ComputedBill } from "../tariff/index.ts";
+import type { Dispute } from "../disputes/index.ts";
+import type { PricedBill } from "../tariff/index.ts";
+import type { ModelSummary } from "../model/index.ts";
 
 /**
  * Outcome of re-pricing one bill. A bill has up to two recomputations, each on one basis only

@@ -1,7 +1,7 @@
 /** Portfolio figures of the index: energy use intensity by building, findings by check with their claims; normalized change. */
 import type { ReportBaseline, ReportFinding } from "./input.ts";
 import type { RankingChartModel, TableModel } from "./siteModel.ts";
-import type { Dispute } from "../disputes/types.ts";
+import type { Dispute } from "../disputes/index.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber } from "./format.ts";
 import { shownAmount, sumCents } from "./disputesPage.ts";

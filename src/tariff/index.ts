@@ -6,3 +6,10 @@ export { priceBill, versionsInForce } from "./price.ts";
 export { PricingError } from "./errors.ts";
 export { unitFactor, canonicalUnit, UNITS_BY_COMMODITY } from "./units.ts";
 export { maxWindowDemandKw, billingDemandKw } from "./demand.ts";
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export type { Tariff } from "./model.ts";
+export { billCheckState, intervalUsageForBill, priceMeterBills } from "./priceMeterBills.ts";
+export type { BillCheckState, PricedBill } from "./priceMeterBills.ts";
+export type { ComputedBill, ComputedLine, IntervalUsage, LineStatus, PriceRequest } from "./types.ts";
+export { yamlLimitProblem } from "./yaml-check.ts";

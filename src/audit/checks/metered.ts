@@ -1,6 +1,6 @@
 /** Shared access to a bill's metered reconciliation and to the re-pricing hook. */
 import type { Bill } from "../../domain/types.ts";
-import type { ComputedBill } from "../../tariff/types.ts";
+import type { ComputedBill } from "../../tariff/index.ts";
 import type { AuditContext } from "../context.ts";
 import type { MeteredPeriod } from "../types.ts";
 import { roundCents } from "../../core/money.ts";

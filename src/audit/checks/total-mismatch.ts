@@ -8,7 +8,7 @@
  * the bill and counted in the build summary.
  */
 import type { Bill } from "../../domain/types.ts";
-import type { ComputedBill } from "../../tariff/types.ts";
+import type { ComputedBill } from "../../tariff/index.ts";
 import { billFinding, type AuditContext } from "../context.ts";
 import { exceedsMoneyTolerance } from "../tolerances.ts";
 import type { EvidenceRow, Finding } from "../types.ts";

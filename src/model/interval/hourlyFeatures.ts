@@ -4,7 +4,7 @@
  * a lag, a trailing mean). Used for training tables and for predicting any future hours.
  */
 import type { WeatherSeries } from "../../domain/types.ts";
-import { savgolFilter } from "../../clean/savitzkyGolay.ts";
+import { savgolFilter } from "../../clean/index.ts";
 import { ModelInputError } from "../errors.ts";
 import type { HourlyFeatures } from "./types.ts";
 import { hourOfWeek, isUsFederalHoliday, localPartsOf } from "../../core/time/index.ts";

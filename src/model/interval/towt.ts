@@ -14,7 +14,7 @@
  */
 import { fitOls } from "../ols.ts";
 import type { OlsFit } from "../ols.ts";
-import { temperatureComponents } from "../../clean/timeOfWeek.ts";
+import { temperatureComponents } from "../../clean/index.ts";
 import { ModelInputError } from "../errors.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyModelSpec } from "./types.ts";
 import { fToC } from "../../core/units.ts";
