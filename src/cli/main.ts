@@ -231,26 +231,38 @@ async function commandServe(args: string[], io: CliIo): Promise<number> {
   if (port !== undefined && port > 65535) throw new UsageError(`--port must be a number from 0 to 65535, got ${port}`);
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
   const { startServe } = await import("./serve.ts");
-  const session = await startServe({
+  // Runs until Ctrl-C: stop watching and serving, drop a build in progress (its scratch folder
+  // is removed; the served folder is the old site or the new one), remove the temporary site.
+  let stopped: ((code: number) => void) | null = null;
+  const whenStopped = new Promise<number>((done) => (stopped = done));
+  let session: Awaited<ReturnType<typeof startServe>> | null = null;
+  let stopSignal: NodeJS.Signals | null = null;
+  const stop = (signal: NodeJS.Signals) => {
+    onStopSignal = null;
+    void session!.stopNow().finally(() => {
+      io.err(`ohmbook serve: stopped (${signal})\n`);
+      stopped!(0);
+      process.exit(0);
+    });
+  };
+  // Set before serve starts, so a Ctrl-C during start-up also cleans up.
+  onStopSignal = (signal) => {
+    stopSignal = signal;
+    if (session) stop(signal);
+  };
+  session = await startServe({
     dir,
     outDir: values.out as string | undefined,
     port,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
     out: io.out,
     err: io.err,
+  }).catch((error: unknown) => {
+    onStopSignal = null;
+    throw error;
   });
-  // Runs until Ctrl-C: stop watching and serving, drop a build in progress (its scratch folder
-  // is removed; the served folder is the old site or the new one), remove the temporary site.
-  return await new Promise<number>((done) => {
-    onStopSignal = (signal) => {
-      onStopSignal = null;
-      void session.stopNow().finally(() => {
-        io.err(`ohmbook serve: stopped (${signal})\n`);
-        done(0);
-        process.exit(0);
-      });
-    };
-  });
+  if (stopSignal) stop(stopSignal);
+  return await whenStopped;
 }
 
 // Run when executed directly (tsx src/cli/main.ts …), not when imported by tests.

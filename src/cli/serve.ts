@@ -115,11 +115,23 @@ export class RebuildQueue {
     }, this.delayMs);
   }
 
+  /** Starts a build now, with whatever changed so far (possibly nothing: the first build). */
+  runNow(): void {
+    if (this.closed || this.running) return;
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+    this.start();
+  }
+
   private startIfReady(): void {
     if (this.closed || this.running || this.timer || this.pending.size === 0) {
       if (!this.running && !this.timer && this.pending.size === 0) this.wakeIdle();
       return;
     }
+    this.start();
+  }
+
+  private start(): void {
     const changed = [...this.pending].sort();
     this.pending.clear();
     this.running = this.run(changed)
@@ -139,6 +151,7 @@ export class RebuildQueue {
   /** Resolves when no build runs and none is waiting. */
   idle(): Promise<void> {
     if (!this.running && !this.timer && this.pending.size === 0) return Promise.resolve();
+    if (this.closed) return this.running ?? Promise.resolve();
     return new Promise((r) => this.idleWaiters.push(r));
   }
 
@@ -337,8 +350,9 @@ export function isIgnoredInputPath(relPath: string): boolean {
 }
 
 /**
- * Builds once, starts the server and the watcher. Resolves when the server listens (even when
- * the first build failed: the server then answers 503 until a rebuild succeeds).
+ * Starts the watcher and the server, then the first build. Resolves when the server listens; until
+ * a build has succeeded it answers 503 (`idle()` resolves when the first build, and any rebuild
+ * queued meanwhile, has ended).
  * @throws OhmbookError when the folder does not exist or no port can be had.
  */
 export async function startServe(options: ServeOptions): Promise<ServeSession> {
@@ -374,8 +388,9 @@ export async function startServe(options: ServeOptions): Promise<ServeSession> {
     previousIssues = now;
   };
 
-  const build = async (changed: string[] | null): Promise<void> => {
-    if (changed) options.out(`\nchanged: ${changed.join(", ")}\nrebuilding…\n`);
+  /** One build; `changed` is empty for the first one. */
+  const build = async (changed: string[]): Promise<void> => {
+    if (changed.length > 0) options.out(`\nchanged: ${changed.join(", ")}\nrebuilding…\n`);
     const started = Date.now();
     try {
       const result = await buildPortfolioSite({ dir, outDir, strict: false, buildDate: options.buildDate });
@@ -425,9 +440,6 @@ export async function startServe(options: ServeOptions): Promise<ServeSession> {
   watcher.on("error", (error) => options.err(`ohmbook serve: watching ${dir} failed: ${error instanceof Error ? error.message : String(error)}\n`));
   await new Promise<void>((ready) => watcher.once("ready", () => ready()));
 
-  options.out(`Building ${dir}…\n`);
-  await build(null);
-
   const server = createServer(handler(outDir, state));
   // A build runs in this process and may hold the event loop for seconds; an idle kept-alive
   // connection must not be closed by a timer that fired meanwhile while the browser reuses it.
@@ -442,7 +454,9 @@ export async function startServe(options: ServeOptions): Promise<ServeSession> {
     throw error;
   }
   const url = `http://${HOST}:${port}/`;
-  options.out(`Serving ${url}  (watching ${dir}; Ctrl-C to stop)\n`);
+  options.out(`Serving ${url}  (watching ${dir}; Ctrl-C to stop)\nBuilding ${dir}…\n`);
+  // The first build goes through the queue like every rebuild, so none ever overlaps it.
+  queue.runNow();
 
   let closing: Promise<void> | null = null;
   return {

@@ -144,6 +144,28 @@ describe("ohmbook serve on a starter portfolio", () => {
     if (dir) await rm(dir, { recursive: true, force: true });
   });
 
+  it("a first build that fails is reported as file:line:column, answers 503 and is retried on the next save", async () => {
+    dir = await mkdtemp(join(tmpdir(), "ohmbook-serve-bad-"));
+    const portfolio = join(dir, "portfolio");
+    await writeStarterPortfolio(portfolio);
+    const yamlPath = join(portfolio, "portfolio.yaml");
+    const good = await readFile(yamlPath, "utf8");
+    await writeFile(yamlPath, good.replace(/^name: .*$/m, "title: no name here"));
+    let err = "";
+    session = await startServe({ dir: portfolio, port: 0, debounceMs: 100, out: () => undefined, err: (s) => void (err += s) });
+    await session.idle();
+    expect(session.buildsSucceeded).toBe(0);
+    expect(err).toMatch(/portfolio\/portfolio\.yaml:\d+:\d+: error: /);
+    const res = await fetch(`${session.url}index.html`);
+    expect(res.status).toBe(503);
+    expect(await res.text()).toMatch(/no site yet/);
+    await writeFile(yamlPath, good);
+    const deadline = Date.now() + 90_000;
+    while (Date.now() < deadline && session.buildsSucceeded === 0) await new Promise((r) => setTimeout(r, 250));
+    await session.idle();
+    expect((await fetch(`${session.url}index.html`)).status).toBe(200);
+  }, 240_000);
+
   it("serves the site, rebuilds after a bill is edited, and reports the new finding and the claim", async () => {
     dir = await mkdtemp(join(tmpdir(), "ohmbook-serve-test-"));
     const portfolio = join(dir, "portfolio");
@@ -152,6 +174,8 @@ describe("ohmbook serve on a starter portfolio", () => {
     let err = "";
     session = await startServe({ dir: portfolio, port: 0, debounceMs: 100, out: (s) => void (out += s), err: (s) => void (err += s) });
     expect(session.url).toMatch(/^http:\/\/127\.0\.0\.1:\d+\/$/);
+    await session.idle(); // the first build
+    expect(session.buildsSucceeded).toBe(1);
     const index = await fetch(`${session.url}index.html`);
     expect(index.status).toBe(200);
     expect(index.headers.get("content-type")).toMatch(/text\/html/);
