@@ -128,7 +128,21 @@ export interface ForecastChartModel extends ChartBase {
   months: { month: string; p10: number; p50: number; p90: number; lastYear: number | null; lastYearMonth: string }[];
 }
 
-export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel | ForecastChartModel;
+/** How a month is drawn on a tenant chart. */
+export type TenantMonthStatus = "Earlier months" | "Latest month" | "Includes an estimate";
+
+/** A tenant page's chart: use per day of the last 14 calendar months (bars) and the weather expectation (line). */
+export interface TenantChartModel extends ChartBase {
+  kind: "tenant-months";
+  /** e.g. "kWh a day". */
+  useLabel: string;
+  /** Whether any month carries an expectation (then the chart draws the line). */
+  hasExpected: boolean;
+  /** Ascending; `label` is the month as people read it ("Mar 2025"). */
+  months: { month: string; label: string; perDay: number; expectedPerDay: number | null; status: TenantMonthStatus }[];
+}
+
+export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel | ForecastChartModel | TenantChartModel;
 
 export interface LabelValue {
   label: string;
@@ -279,8 +293,11 @@ export interface TenantIndexPage extends PageBase {
 export interface TenantCommodity {
   commodity: string;
   heading: string;
-  /** Plain sentences: this period vs the same period last year, weather-adjusted, per floor area. */
+  /** Plain sentences: the latest bill against the weather expectation and the bill a year earlier. */
   sentences: string[];
+  /** The last 14 months; null when no calendar month is completely billed. */
+  chart: TenantChartModel | null;
+  /** The latest bill beside the bill a year earlier. */
   table: TableModel;
 }
 
@@ -290,7 +307,11 @@ export interface TenantPage extends PageBase {
   buildingName: string;
   intro: string;
   commodities: TenantCommodity[];
-  /** How the figures are made (weather adjustment, conversions). */
+  /** Where the figures come from and what is estimated. */
+  caution: string;
+  /** The building's contact line (`contacts` in portfolio.yaml), or null. */
+  contact: string | null;
+  /** How the figures are made (weather expectation, conversions). */
   notes: string[];
 }
 
