@@ -126,7 +126,7 @@ export function checkExplanations(t: Tolerances, currency: string): CheckExplana
       rule: `Outside the bill's expected-usage band from the degree-day model (see “The usage band” below). Meters without such a model use an interim rule, labelled as such in each message: use per day against the same bill month a year earlier (or later, in the first year), flagged beyond × ${ratio} or ÷ ${ratio}; × ${formatNumber(AUDIT_DEFAULTS.outlierRatio ** 1.5, 2)} on strongly seasonal meters (90th ÷ 10th percentile of use per day above 1.5).`,
       severity: "warning",
       amount: "none (the use may be real)",
-      source: "band: PRISM (Fels 1986) and PRESS residuals (Allen 1974); interim rule: rule of thumb of this project",
+      source: "band: variable-base degree-day method (Fels 1986) and PRESS residuals (Allen 1974); interim rule: rule of thumb of this project",
     },
     {
       code: "multiplier-suspect",

@@ -167,10 +167,25 @@ export interface IndexBuildingRow {
   href: string;
 }
 
+/** A money figure at the top of the index. */
+export interface HeadlineFigure {
+  /** DOM id of the figure (stable for tests and links). */
+  id: string;
+  label: string;
+  value: string;
+  /** A short line under the figure (the range, the basis). */
+  note: string;
+}
+
 export interface IndexPage extends PageBase {
   /** Opening sentence, e.g. "Utility bills for 6 buildings, each re-priced from its tariff and checked." */
   lede: string;
+  /** What was checked: counts of buildings, meters, bills and how far they were checked (no money). */
   headline: LabelValue[];
+  /** Next year's likely cost and last year's billed cost; shown first with the claim and risk totals. */
+  costFigures: HeadlineFigure[];
+  /** One sentence on the weather-adjusted change of site energy; null without weather baselines. */
+  energyTrend: string | null;
   buildingsTable: TableModel;
   /** Sentence naming the 12-month window used, e.g. "Jan 1, 2025 – Dec 31, 2025". */
   windowText: string;
@@ -211,7 +226,7 @@ export interface CommoditySection {
 export interface BaselineSection {
   meterId: string;
   heading: string;
-  /** Plain verdict, e.g. "Meets ASHRAE Guideline 14 for monthly data: …". */
+  /** Plain verdict, e.g. "Close fit: CV(RMSE) 8.2 % and NMBE 0.40 % are inside the monthly limits of ASHRAE Guideline 14 …". */
   verdict: string;
   /** `ok` meets the thresholds, `warn` does not, `none` no model. */
   verdictTone: "ok" | "warn" | "none";

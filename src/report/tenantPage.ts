@@ -274,7 +274,7 @@ function tenantChart(commodity: string, unit: string, months: TenantMonth[]): Te
   return {
     id: `tenant-${commodity}-months`,
     kind: "tenant-months",
-    title: `${label}: use per day, month by month`,
+    title: `${label} use per day`,
     description:
       `Bars: ${label.toLowerCase()} use per day in ${unit} for each calendar month from ${span}, ${formatMonth(latest.month)} the latest.` +
       (hasExpected ? " Line: the use per day expected for each month's weather, an estimate from the building's own past use." : "") +
@@ -349,7 +349,7 @@ function summaryTable(c: TenantComparison): TableModel {
     caption: `${label}: the latest bill beside the bill a year earlier`,
     sortable: false,
     columns: [
-      { label: "", numeric: false },
+      { label: "Measure", numeric: false },
       { label: "Latest bill", numeric: true },
       { label: "A year earlier", numeric: true },
       { label: "Change", numeric: true },

@@ -155,7 +155,12 @@ describe("Guideline 14 verdict", () => {
     expect(v.tone).toBe("warn");
     expect(v.text).toContain("CV(RMSE) 18.2 % is above 15 %");
     expect(v.text).not.toContain("NMBE 0.5");
-    expect(verdictFor({ cvRmsePct: 8, nmbePct: 0.4, r2: 0.9, n: 12, p: 3 }).tone).toBe("ok");
+    expect(verdictFor({ cvRmsePct: 8, nmbePct: 0.4, r2: 0.9, n: 12, p: 3 })).toEqual({
+      tone: "ok",
+      text: "Close fit: CV(RMSE) 8 % and NMBE 0.4 % are inside the monthly limits of ASHRAE Guideline 14 (15 % and ±5 %), so this meter's weather-normalized figures are fit for comparing one year with another.",
+    });
+    expect(v.text).toMatch(/^Loose fit: /);
+    expect(v.text).not.toMatch(/Meets|can be relied on/);
     expect(verdictFor(null).tone).toBe("none");
   });
 });
@@ -309,8 +314,11 @@ describe("building page wiring (full fixture)", () => {
   });
 
   it("index: forecast range from the portfolio total, tenant link", () => {
-    const f = model.index.headline.find((h) => h.label.startsWith("Forecast cost"))!;
-    expect(f).toEqual({ label: "Forecast cost, next 12 months", value: "$13,410.00 (80 % range $13,100.00 – $13,800.00)" });
+    // Cost first: next year's likely cost leads the index's money cards, and the count list carries no money.
+    expect(model.index.costFigures[0]).toEqual({ id: "forecast-total", label: "Forecast cost, next 12 months", value: "$13,410.00", note: "likely (P50); 80 % range $13,100.00 – $13,800.00" });
+    expect(model.index.costFigures[1]).toMatchObject({ id: "billed-total", label: "Billed cost, last 12 months" });
+    expect(model.index.headline.map((h) => h.value).join(" ")).not.toContain("$");
+    expect(model.index.headline.map((h) => h.label).join(" ")).not.toMatch(/weather-normalized|forecast/i);
     expect(model.index.tenantLinks).toEqual([{ name: "Heron Street Office", href: "buildings/B1/tenant.html" }]);
   });
 });

@@ -27,7 +27,8 @@ export function tenantSpec(chart: TenantChartModel): Record<string, unknown> {
   const statuses = (["Earlier months", "Latest month", "Includes an estimate"] as const).filter((s) => chart.months.some((m) => m.status === s));
   const domain: string[] = [...statuses, ...(chart.hasExpected ? [EXPECTED_SERIES] : [])];
   // Months in data order: `sort: null` keeps the ascending order the view model gives.
-  const x = { field: "label", type: "ordinal", title: null, sort: null, axis: { labelAngle: -45 } };
+  // On a phone the 14 month labels do not all fit: every other one is dropped rather than overlapped.
+  const x = { field: "label", type: "ordinal", title: null, sort: null, axis: { labelAngle: -45, labelOverlap: "parity" } };
   const tooltip = [
     { field: "label", type: "nominal", title: "Month" },
     { field: "perDay", type: "quantitative", title: `Use, ${chart.useLabel}`, format: ",.0f" },
