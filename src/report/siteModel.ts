@@ -337,14 +337,34 @@ export interface UnitFactorRow {
   source: string;
 }
 
+/** One audit check explained on the methods page, with its stable code. */
+export interface CheckProse {
+  code: string;
+  /** Our plain name of the check (checkTitle). */
+  title: string;
+  looksFor: string;
+  rule: string;
+  severity: string;
+  amount: string;
+  source: string;
+}
+
+/** Checks that call for the same action (claim, ask, note). */
+export interface CheckGroupModel {
+  id: string;
+  heading: string;
+  intro: string;
+  checks: CheckProse[];
+}
+
 export interface MethodsPage extends PageBase {
   currency: string;
   unitFactors: UnitFactorRow[];
   windowText: string;
   /** This portfolio's audit tolerances in words. */
   tolerances: LabelValue[];
-  /** Every audit check code with its rule, severity, money at stake and source. */
-  checksTable: TableModel;
+  /** Every audit check, grouped by what the reader does about a finding. */
+  checkGroups: CheckGroupModel[];
   /** Each basis of a dispute's corrected total, in plain words. */
   disputeBases: LabelValue[];
 }
