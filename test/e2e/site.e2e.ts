@@ -157,9 +157,15 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     const { page, errors } = await open("buildings/B1/tenant.html");
     const text = (await page.locator("body").innerText()).toLowerCase();
     for (const word of ["finding", "audit", "$", "usd", "cost", "tariff", "recomputed", "at stake", "charge", "money"]) expect(text, word).not.toContain(word);
+    // B1 has electricity and gas meters and no water meter: no water section, no "water" in the title.
     expect(await page.locator("main h2").allTextContents()).toEqual(["Electricity", "Gas", "How these figures are made"]);
-    expect(text).toContain("allowing for the weather");
-    expect(text).toContain("kbtu per ft²");
+    expect(await page.locator("h1").innerText()).toBe("Heron Street Office: electricity and gas use");
+    expect(text).toContain("about these figures");
+    expect(text).toContain("expected figures are estimates");
+    expect(text).toContain("11.1 % higher than that estimate");
+    expect(text).not.toContain("allowing for the weather");
+    expect(text).toContain("kbtu/ft²");
+    expect(await page.locator("figure[data-chart]").count()).toBe(2);
     expect(await page.locator("nav").count()).toBe(0);
     await page.emulateMedia({ media: "print" });
     expect(await page.locator("table").first().isVisible()).toBe(true);
