@@ -168,7 +168,9 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     expect(await page.locator("figure[data-chart]").count()).toBe(2);
     expect(await page.locator("nav").count()).toBe(0);
     await page.emulateMedia({ media: "print" });
-    expect(await page.locator("table").first().isVisible()).toBe(true);
+    // In print: the comparison table and the chart's static SVG (the chart's own data table folds away).
+    expect(await page.locator("section.tenant-commodity > .table-wrap table").first().isVisible()).toBe(true);
+    expect(await page.locator("section.tenant-commodity .chart-fallback svg").first().isVisible()).toBe(true);
     await page.pdf({ path: join(ARTIFACTS, "buildings_B1_tenant-print.pdf"), format: "A4" });
     expect(errors).toEqual([]);
     await page.close();
