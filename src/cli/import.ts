@@ -70,7 +70,7 @@ export async function runImport(args: string[], io: ImportIo): Promise<number> {
   if (floorArea !== undefined && !(/^\d+(\.\d+)?$/.test(floorArea) && Number(floorArea) > 0)) {
     throw new UsageError(`--floor-area '${floorArea}' must be a number greater than 0 (digits and a '.' only)`);
   }
-  const { importEspi } = await import("../import/espi/importEspi.ts");
+  const { importEspi } = await import("../import/index.ts");
   const result = await importEspi({
     files,
     intoDir: values.into,

@@ -4,7 +4,7 @@
  * The data is a fictional single building; the weather is a smooth synthetic year.
  */
 import { mkdir, writeFile, readdir } from "node:fs/promises";
-import { describeFsError } from "../ingest/inputFile.ts";
+import { describeFsError } from "../ingest/index.ts";
 import { join } from "node:path";
 import { DateTime } from "luxon";
 import { OhmbookError } from "../core/errors.ts";

@@ -148,7 +148,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   }
   const quiet = Boolean(values.quiet) || Boolean(values.json);
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
-  const { buildPortfolioSite } = await import("../pipeline/build.ts");
+  const { buildPortfolioSite } = await import("../pipeline/index.ts");
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
   const result = await buildPortfolioSite({
     dir,
@@ -156,6 +156,8 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     strict: Boolean(values.strict),
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
+    // A bug in one building is reported and the other pages are still written (unless --strict).
+    onBug: "report",
     audience,
   }).catch((error: unknown) => {
     if (error instanceof InputError && error.folder === undefined) error.folder = dir;
@@ -215,7 +217,7 @@ if (invokedDirectly) {
   // either the old one or the new one (a swap cut in half is repaired by the next build).
   for (const [signal, code] of [["SIGINT", 130], ["SIGTERM", 143]] as const) {
     process.once(signal, () => {
-      void import("../site/writeSite.ts").then(({ removeActiveScratch }) => {
+      void import("../site/index.ts").then(({ removeActiveScratch }) => {
         removeActiveScratch();
         process.stderr.write(`ohmbook: stopped by ${signal}; nothing half-written was left behind\n`);
         process.exit(code);

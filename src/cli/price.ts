@@ -12,13 +12,13 @@
 import { readFile } from "node:fs/promises";
 import { parseArgs } from "node:util";
 import { parse as parseCsv } from "csv-parse/sync";
-import { DateTime, IANAZone } from "luxon";
+import { isIsoDate, isoLocalToMs, isValidZone, localMidnightMs, offsetAtMs } from "../core/time/index.ts";
 import { OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssue } from "../core/issues.ts";
-import { loadTariff } from "../tariff/load.ts";
-import { priceBill } from "../tariff/price.ts";
-import type { Tariff } from "../tariff/model.ts";
-import type { ComputedBill, ComputedLine, IntervalUsage, PriceRequest } from "../tariff/types.ts";
+import { loadTariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
+import type { Tariff } from "../tariff/index.ts";
+import type { ComputedBill, ComputedLine, IntervalUsage, PriceRequest } from "../tariff/index.ts";
 
 export interface PriceIo {
   out: (s: string) => void;
@@ -58,7 +58,7 @@ export function missingInputs(tariff: Tariff, from: string, to: string, given: {
   return [...missing];
 }
 
-import { MAX_BILL_USAGE } from "../ingest/limits.ts";
+import { MAX_BILL_USAGE } from "../ingest/index.ts";
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
@@ -74,7 +74,7 @@ function num(name: string, s: string | undefined, rule: (n: number) => boolean =
 
 function date(name: string, s: string | undefined): string {
   if (s === undefined) throw new UsageError(`--${name} is required (YYYY-MM-DD)\n${USAGE}`);
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(s) || !DateTime.fromISO(s, { zone: "UTC" }).isValid) throw new UsageError(`--${name} '${s}' is not a date written YYYY-MM-DD`);
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(s) || !isIsoDate(s)) throw new UsageError(`--${name} '${s}' is not a date written YYYY-MM-DD`);
   return s;
 }
 
@@ -115,8 +115,8 @@ function readIntervalCsv(text: string, file: string, meterId: string, zone: stri
     }
     const ts = rec[iTs];
     const hasOffset = /(Z|[+-]\d{2}:?\d{2})$/i.test(ts);
-    const dt = hasOffset ? DateTime.fromISO(ts, { setZone: true }) : DateTime.fromISO(ts, { zone });
-    if (!dt.isValid) throw new UsageError(`${file}:${line}:${iTs + 1}: timestamp '${ts}' is not ISO 8601 (e.g. 2025-01-31T13:45:00-05:00)`);
+    const instantMs = isoLocalToMs(ts, zone);
+    if (Number.isNaN(instantMs)) throw new UsageError(`${file}:${line}:${iTs + 1}: timestamp '${ts}' is not ISO 8601 (e.g. 2025-01-31T13:45:00-05:00)`);
     const v = rec[iVal];
     if (!NUMBER.test(v)) throw new UsageError(`${file}:${line}:${iVal + 1}: value '${v}' is not a number`);
     let minutes: number | null = null;
@@ -124,7 +124,7 @@ function readIntervalCsv(text: string, file: string, meterId: string, zone: stri
       if (!NUMBER.test(rec[iMin]) || !(Number(rec[iMin]) > 0)) throw new UsageError(`${file}:${line}:${iMin + 1}: interval_minutes '${rec[iMin]}' is not a positive number`);
       minutes = Number(rec[iMin]);
     }
-    let ms = dt.toMillis();
+    let ms = instantMs;
     if (!hasOffset) {
       // Autumn DST: a wall time in the repeated hour happens twice; the first row is the first
       // pass, a repeat of it is the second pass (both readings are real).
@@ -172,13 +172,13 @@ function readIntervalCsv(text: string, file: string, meterId: string, zone: stri
  * the repeated hour when clocks go back, one otherwise (none in the skipped spring hour).
  */
 function instantsOfWallTime(ms: number, zone: string): number[] {
-  const z = IANAZone.create(zone);
-  const wallMs = ms + z.offset(ms) * 60_000;
-  const offsets = new Set([z.offset(ms - 3 * 3_600_000), z.offset(ms), z.offset(ms + 3 * 3_600_000)]);
+  const offset = (t: number): number => offsetAtMs(zone, t);
+  const wallMs = ms + offset(ms);
+  const offsets = new Set([offset(ms - 3 * 3_600_000), offset(ms), offset(ms + 3 * 3_600_000)]);
   const out: number[] = [];
   for (const o of offsets) {
-    const t = wallMs - o * 60_000;
-    if (z.offset(t) === o && !out.includes(t)) out.push(t);
+    const t = wallMs - o;
+    if (offset(t) === o && !out.includes(t)) out.push(t);
   }
   return out.sort((a, b) => a - b);
 }
@@ -303,7 +303,7 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
   const to = date("to", s("to"));
   if (to <= from) throw new UsageError(`--to ${to} must be after --from ${from} (--to is the first day not billed)`);
   const timezone = s("timezone") ?? "UTC";
-  if (!IANAZone.isValidZone(timezone)) throw new UsageError(`--timezone '${timezone}' is not an IANA zone name (e.g. America/Chicago)`);
+  if (!isValidZone(timezone)) throw new UsageError(`--timezone '${timezone}' is not an IANA zone name (e.g. America/Chicago)`);
   const demandKw = num("demand", s("demand"), (n) => n >= 0, "demand must be 0 or more kW");
   const pf = num("pf", s("pf"), (n) => n > 0 && n <= 1, "0 < pf <= 1");
   const multiplier = num("multiplier", s("multiplier"), (n) => n > 0, "must be positive") ?? 1;
@@ -326,8 +326,8 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
     if (stamps !== "start" && stamps !== "end") throw new UsageError(`--timestamps must be start or end, got '${stamps}'`);
     const read = readIntervalCsv(await readText(csvPath, "interval file"), csvPath, s("meter") as string, timezone, multiplier, stamps === "end");
     intervals = read.intervals;
-    const startMs = DateTime.fromISO(from, { zone: timezone }).toMillis();
-    const endMs = DateTime.fromISO(to, { zone: timezone }).toMillis();
+    const startMs = localMidnightMs(from, timezone);
+    const endMs = localMidnightMs(to, timezone);
     let inPeriod = 0;
     let sum = 0;
     for (let i = 0; i < intervals.startMs.length; i++) {

@@ -9,11 +9,12 @@
  * corrected bills as the finding's amount: the finding, the bills table and disputes.csv agree.
  */
 import type { Bill, BillLine, Meter } from "../domain/types.ts";
-import type { CorrectedBill, Finding } from "../audit/types.ts";
-import { groupLines } from "../audit/checks/labels.ts";
-import { claimOf } from "../audit/corrections.ts";
-import { roundCents } from "../tariff/rounding.ts";
+import type { CorrectedBill, Finding } from "../audit/index.ts";
+import { groupLines } from "../audit/index.ts";
+import { claimOf } from "../audit/index.ts";
 import type { Dispute, DisputeBasis, DisputeBill, DisputeLine } from "./types.ts";
+import { roundCents } from "../core/money.ts";
+import { fnv1a32 } from "../core/random.ts";
 
 /** The basis a check's corrected total rests on (outputs.md `basis`). */
 export const BASIS_OF_CHECK: Partial<Record<string, DisputeBasis>> = {
@@ -43,12 +44,7 @@ const round2 = roundCents;
 
 /** FNV-1a, 32 bits, as 8 hex digits: a short stable id from the dispute's identity. */
 function hash32(text: string): string {
-  let h = 0x811c9dc5;
-  for (let i = 0; i < text.length; i++) {
-    h ^= text.charCodeAt(i);
-    h = Math.imul(h, 0x01000193) >>> 0;
-  }
-  return h.toString(16).padStart(8, "0");
+  return fnv1a32(text).toString(16).padStart(8, "0");
 }
 
 function disputeLines(printed: readonly BillLine[], c: CorrectedBill): DisputeLine[] {

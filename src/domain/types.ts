@@ -156,3 +156,13 @@ export interface Portfolio<TariffT = unknown> {
   tariffs: Map<string, TariffT>;
   report: IngestReport;
 }
+
+export interface WeatherGap {
+  stationId: string;
+  /** First missing hour, UTC epoch ms. */
+  startMs: number;
+  /** First hour after the gap (exclusive end), UTC epoch ms. */
+  endMs: number;
+  hours: number;
+  action: "interpolated" | "kept";
+}

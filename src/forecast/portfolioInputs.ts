@@ -5,16 +5,18 @@
  * what was known then).
  */
 import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
-import { priceBill } from "../tariff/price.ts";
-import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
-import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../pipeline/baselines.ts";
-import { priceMeterBills } from "../pipeline/priceBills.ts";
+import type { Tariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
+import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
+import { priceMeterBills } from "../tariff/index.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
 import { typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
+import { addDays, localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
+import { cToF } from "../core/units.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -78,7 +80,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   const normals = portfolio.normals.get(building.weatherStation);
   const years: WeatherYear[] = weatherYears(weather, building.timezone, tempUnit, untilMs);
   const normalsC = normals ? typicalMonthlyTempC(normals, building.timezone) : null;
-  const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? t * 1.8 + 32 : t)) : null;
+  const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? cToF(t) : t)) : null;
   const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
   const series = new Map<string, IntervalSeries>();
   for (const m of meters) {

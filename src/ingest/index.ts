@@ -279,3 +279,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
       };
   return { portfolio, issues: issues.map(capIssue), fatal, weatherGaps, report: { files } };
 }
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export { describeFsError } from "./inputFile.ts";
+export { MAX_BILL_USAGE } from "./limits.ts";

@@ -9,8 +9,8 @@ import type { Commodity, PortfolioSettings } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import { trimId } from "../core/trimId.ts";
 import { parseIsoDate } from "./fields.ts";
-import { parseCleaningConfig } from "../clean/detect/config.ts";
-import { yamlLimitProblem } from "../tariff/yaml-check.ts";
+import { parseCleaningConfig } from "../clean/index.ts";
+import { yamlLimitProblem } from "../tariff/index.ts";
 
 /** The node at a key path inside a YAML mapping (for placing an error), or null. */
 function nodeAtPath(node: Node | null | undefined, path: string[]): Node | null {

@@ -3,7 +3,7 @@ import { quoteValue } from "../core/issues.ts";
 import type { Bill, BillLine } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
-import { daysBetween } from "./fields.ts";
+import { daysBetween } from "../core/time/index.ts";
 import { MAX_BILL_DAYS, MAX_BILL_ID_BYTES, MAX_BILL_TOTAL, MAX_BILL_USAGE, MAX_DEMAND_KW, idLengthProblem, limitText, withinMagnitude } from "./limits.ts";
 
 export const BILLS_SPEC = {

@@ -10,14 +10,11 @@ import { openInputFile } from "./inputFile.ts";
 import { MAX_YEAR, MIN_YEAR } from "./limits.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type Row } from "./csvTable.ts";
-import { sharedResolver } from "./localTime.ts";
 import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampString } from "./timestamp.ts";
 import type { DailyReading, HourlyReading } from "./weatherGrid.ts";
+import { sharedResolver } from "../core/time/index.ts";
+import { fToC } from "../core/units.ts";
 
-/** °F → °C: (F − 32) × 5/9. Example: 212 → 100, 32 → 0, −40 → −40. */
-export function fahrenheitToCelsius(tempF: number): number {
-  return ((tempF - 32) * 5) / 9;
-}
 
 export interface StationReadings {
   hourly: HourlyReading[];
@@ -91,7 +88,7 @@ export async function readWeatherFile(
     "name the columns in the first line; the unit is part of the temperature column name");
     return;
   }
-  const toC = unit === "f" ? fahrenheitToCelsius : (x: number) => x;
+  const toC = unit === "f" ? fToC : (x: number) => x;
   const stationOf = (id: string): StationReadings => {
     let s = byStation.get(id);
     if (!s) {

@@ -4,36 +4,35 @@
  * Computation stages are pure; this module only sequences them, isolates failures per building,
  * and hands the results to the site writer (the only stage that writes files).
  */
-import { InputError } from "../core/errors.ts";
+import { InputError, bugReportLine, expectedProblem, type BugPolicy } from "../core/errors.ts";
 import type { InputIssue } from "../core/issues.ts";
 import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
-import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
+import { withFlaggedAsMissing } from "../clean/index.ts";
 import { loadPortfolio } from "../ingest/index.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { priceBill } from "../tariff/index.ts";
 import { runAudit } from "../audit/index.ts";
-import type { Finding } from "../audit/types.ts";
-import type { Reporter } from "../cli/progress.ts";
-import { silentReporter } from "../cli/progress.ts";
-import type { PricedBill } from "./priceBills.ts";
-import { priceMeterBills } from "./priceBills.ts";
-import { meteredForBills } from "../audit/reconcile.ts";
-import { assessIntervalMeters } from "./dataQuality.ts";
-import { makeRepricer } from "../audit/wiring.ts";
-import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
+import type { Finding } from "../audit/index.ts";
+import { silentReporter, type Reporter } from "./reporter.ts";
+import type { PricedBill } from "../tariff/index.ts";
+import { priceMeterBills } from "../tariff/index.ts";
+import { meteredForBills } from "../audit/index.ts";
+import { assessIntervalMeters } from "../clean/index.ts";
+import { makeRepricer } from "../audit/index.ts";
+import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "../model/index.ts";
 import { buildDisputes, type Dispute } from "../disputes/index.ts";
-import { billCheckState } from "../report/input.ts";
-import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
+import { billCheckState } from "../tariff/index.ts";
+import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "../model/index.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
-import { meteredViewsByBill } from "./meteredViews.ts";
-import { toReportInput } from "./reportInput.ts";
-import { buildDataFiles } from "./outputs.ts";
+import { meteredViewsByBill } from "../audit/index.ts";
+import { toReportInput, type BuildingResults } from "../report/index.ts";
+import { buildDataFiles } from "../report/index.ts";
 import { buildSiteModel, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
-import { effectiveAsOf } from "./usageSummary.ts";
+import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
-import { roundCents } from "../tariff/rounding.ts";
-import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
+import { checkOutputFolder, writeSite } from "../site/index.ts";
+import { roundCents } from "../core/money.ts";
 
 export interface BuildOptions {
   dir: string;
@@ -49,6 +48,12 @@ export interface BuildOptions {
    * day; the clock only for a portfolio with no bills at all.
    */
   buildDate?: string;
+  /**
+   * A bug (any error that is not an OhmbookError) inside one building or the forecast: `fail`
+   * stops the build (default; tests and --strict), `report` prints a bug report line, marks that
+   * building as failed, and finishes the other pages (the CLI without --strict).
+   */
+  onBug?: BugPolicy;
 }
 
 export interface BuildResult {
@@ -77,16 +82,6 @@ export interface BuildSummary {
   buildingsFailed: { buildingId: string; reason: string }[];
 }
 
-/** Everything computed for one building; a building that fails carries only `failure`. */
-export interface BuildingResults {
-  building: Building;
-  priced: Map<string, PricedBill>;
-  findings: Finding[];
-  baselines: MeterBaseline[];
-  /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
-  intervalBaselines: IntervalBaselineOutcome[];
-  failure: string | null;
-}
 
 const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
 
@@ -121,7 +116,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
   portfolio.buildings.forEach((building, index) => {
     reporter.step(index, portfolio.buildings.length, building.buildingId);
-    results.push(analyseBuilding(portfolio, building, masks));
+    results.push(analyseBuilding(portfolio, building, masks, bugHandler(options, reporter, `analysing building ${building.buildingId}`)));
   });
   reporter.step(portfolio.buildings.length, portfolio.buildings.length, "done");
   reporter.finish();
@@ -146,7 +141,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
-  const forecast = runForecast(portfolio, results, issues, findings);
+  const forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"));
 
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
@@ -184,7 +179,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
  * across buildings). A failure here costs the forecast, never the rest of the site: it becomes a
  * warning and the pages say no forecast was made.
  */
-function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[]): ForecastBundle | null {
+function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow): ForecastBundle | null {
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
@@ -196,15 +191,44 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
       line: 0,
       column: 0,
       severity: "warning",
-      message: `no cost forecast was made: ${error instanceof Error ? error.message : String(error)}`,
+      message: `no cost forecast was made: ${problemOrBug(error, onBug)}`,
       hint: "the rest of the site is complete; please report this with the portfolio folder",
     });
     return null;
   }
 }
 
-/** Prices, reconciles, audits and models one building; any failure is caught and reported. */
-export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array> = new Map()): BuildingResults {
+/**
+ * A bug at a per-building boundary: rethrown (`fail`), or reported as one line and turned into
+ * the failure text the pages show (`report`).
+ */
+type BugHandler = (error: unknown) => string;
+const rethrow: BugHandler = (error) => {
+  throw error;
+};
+
+function bugHandler(options: BuildOptions, reporter: Reporter, where: string): BugHandler {
+  if ((options.onBug ?? "fail") === "fail" || options.strict) return rethrow;
+  return (error) => {
+    reporter.warn(bugReportLine(where, error));
+    return `internal error (a bug in ohmbook, reported on the terminal): ${error instanceof Error ? error.message : String(error)}`;
+  };
+}
+
+/** An expected problem's message, or what the bug policy makes of anything else. */
+function problemOrBug(error: unknown, onBug: BugHandler): string {
+  try {
+    return expectedProblem(error);
+  } catch (bug) {
+    return onBug(bug);
+  }
+}
+
+/**
+ * Prices, reconciles, audits and models one building. An expected problem (an OhmbookError) is
+ * caught and becomes the building's failure; a bug goes to `onBug` (by default rethrown).
+ */
+export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array> = new Map(), onBug: BugHandler = rethrow): BuildingResults {
   const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], intervalBaselines: [], failure: null };
   try {
     const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
@@ -245,7 +269,7 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
     const intervalBaselines = fitBuildingIntervalBaselines(portfolio, building, masks);
     return { building, priced, findings, baselines, intervalBaselines, failure: null };
   } catch (error) {
-    return { ...empty, failure: error instanceof Error ? error.message : String(error) };
+    return { ...empty, failure: problemOrBug(error, onBug) };
   }
 }
 

@@ -7,14 +7,14 @@ import { buildIndexPage } from "./indexPage.ts";
 import { buildMethodsPage } from "./methodsPage.ts";
 import { buildDataPage } from "./dataPage.ts";
 import { last12MonthsText } from "./periods.ts";
-import { effectiveAsOf } from "../pipeline/usageSummary.ts";
-import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/units.ts";
+import { effectiveAsOf } from "./usageSummary.ts";
 import { formatDate } from "./format.ts";
 import { canonicalFor } from "./nav.ts";
 import { buildTenantPage } from "./tenantPage.ts";
 import { buildDisputesPage } from "./disputesPage.ts";
 import { buildClaimSheets } from "./claimSheet.ts";
 import { billLinesByBill, buildMeterBillsPage, meterAnalysis } from "./meterBillsPage.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building

@@ -5,7 +5,7 @@
  * utility. Money comes from the Dispute objects as they are; totals are cent-exact sums.
  */
 import type { Building } from "../domain/types.ts";
-import type { Dispute, DisputeBasis, DisputeKind } from "../disputes/types.ts";
+import type { Dispute, DisputeBasis, DisputeKind } from "../disputes/index.ts";
 import type { ReportInput } from "./input.ts";
 import type { DisputeRow, DisputesPage, DisputeTable, DisputeTotal, IndexDisputes } from "./disputeModels.ts";
 import type { LabelValue } from "./siteModel.ts";

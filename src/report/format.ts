@@ -3,6 +3,7 @@
  * reproducible on any machine. Non-finite numbers never reach a page as "NaN": they
  * become the placeholder `NOT_AVAILABLE`.
  */
+import { addDays, formatDate as formatCalendarDate, formatMonth } from "../core/time/index.ts";
 
 /** Shown wherever a value is absent or not a finite number. */
 export const NOT_AVAILABLE = "—";
@@ -108,49 +109,22 @@ export function formatPercent(fraction: number | null | undefined, digits = 1): 
   return cachedFormatter({ style: "percent", maximumFractionDigits: digits }).format(fraction);
 }
 
-const dateFormatter = new Intl.DateTimeFormat(LOCALE, {
-  day: "numeric",
-  month: "short",
-  year: "numeric",
-  timeZone: "UTC",
-});
-const monthFormatter = new Intl.DateTimeFormat(LOCALE, { month: "short", year: "numeric", timeZone: "UTC" });
-
-/** Days since 1970-01-01 of an ISO calendar date; throws on a malformed date (a pipeline bug). */
-export function isoDateToDayNumber(isoDate: string): number {
-  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(isoDate);
-  if (!m) throw new RangeError(`not an ISO date (YYYY-MM-DD): ${isoDate}`);
-  return Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])) / 86_400_000;
-}
-
-/** ISO calendar date of a day number (inverse of `isoDateToDayNumber`). */
-export function dayNumberToIsoDate(day: number): string {
-  return new Date(day * 86_400_000).toISOString().slice(0, 10);
-}
-
 /**
- * A calendar date as people read it; the date is a calendar day, so no time zone shift.
+ * A calendar date as people read it, or "—" when there is none.
  * @example formatDate("2025-01-31") // "Jan 31, 2025"
  */
 export function formatDate(isoDate: string | null | undefined): string {
-  if (!isoDate) return NOT_AVAILABLE;
-  return dateFormatter.format(new Date(isoDateToDayNumber(isoDate) * 86_400_000));
+  return isoDate ? formatCalendarDate(isoDate) : NOT_AVAILABLE;
 }
 
-/**
- * A calendar month `YYYY-MM` as people read it.
- * @example formatMonth("2025-03") // "Mar 2025"
- */
-export function formatMonth(month: string): string {
-  return monthFormatter.format(new Date(isoDateToDayNumber(`${month}-01`) * 86_400_000));
-}
+export { formatMonth };
 
 /**
  * A half-open service period [start, end) shown with its last day of service, inclusive.
  * @example formatPeriod("2025-01-01", "2025-02-01") // "Jan 1, 2025 – Jan 31, 2025"
  */
 export function formatPeriod(periodStart: string, periodEnd: string): string {
-  const lastDay = dayNumberToIsoDate(isoDateToDayNumber(periodEnd) - 1);
+  const lastDay = addDays(periodEnd, -1);
   return `${formatDate(periodStart)} – ${formatDate(lastDay)}`;
 }
 

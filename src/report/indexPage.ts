@@ -1,15 +1,16 @@
 /** View model of the portfolio index: bills to dispute first, headline figures, the building table. */
-import { billCheckState, type ReportFinding, type ReportInput } from "./input.ts";
+import type { ReportFinding, ReportInput } from "./input.ts";
+import { billCheckState } from "../tariff/index.ts";
 import type { HeadlineFigure, IndexPage, LabelValue, TableCell } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber, formatQuantity } from "./format.ts";
 import { DISPUTES_PATH, buildingPath, navFor } from "./nav.ts";
-import type { CommodityUsage } from "../pipeline/usageSummary.ts";
+import type { CommodityUsage } from "./usageSummary.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { buildingUsage, last12mCost } from "./buildingPage.ts";
 import { monthlyCostChart } from "./costChart.ts";
 import { EUI_BASIS, findingsByCheckTable, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
 import { buildIndexDisputes, sumCents } from "./disputesPage.ts";
-import type { Dispute } from "../disputes/types.ts";
+import type { Dispute } from "../disputes/index.ts";
 import { last12MonthsText } from "./periods.ts";
 import { tenantPath } from "./tenantPage.ts";
 import { forecastChangeTable } from "./forecastIndex.ts";

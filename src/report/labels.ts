@@ -1,6 +1,6 @@
 /** Plain-language labels for codes that appear on pages. */
 import type { Commodity } from "../domain/types.ts";
-import type { LineStatus } from "../tariff/types.ts";
+import type { LineStatus } from "../tariff/index.ts";
 
 /** @example commodityLabel("gas") // "Gas" */
 export function commodityLabel(c: Commodity | string): string {

@@ -8,8 +8,8 @@ import { formatMoney, formatNumber } from "./format.ts";
 import { navFor } from "./nav.ts";
 import { checkTitle } from "./labels.ts";
 import { basisKey } from "./disputesPage.ts";
-import { AUDIT_DEFAULTS } from "../audit/tolerances.ts";
-import { COMMON_RATIOS } from "../audit/checks/multiplier-suspect.ts";
+import { AUDIT_DEFAULTS } from "../audit/index.ts";
+import { COMMON_RATIOS } from "../audit/index.ts";
 
 /** Unit factors the pipeline uses, with where each comes from. */
 export const UNIT_FACTORS: readonly UnitFactorRow[] = [

@@ -6,10 +6,11 @@
 import type { Bill, Building, Meter } from "../domain/types.ts";
 import type { ReportBaseline } from "./input.ts";
 import type { TableModel, TenantChartModel, TenantCommodity, TenantMonthStatus, TenantPage } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatMonth, formatNumber, formatPeriod, formatQuantity, isoDateToDayNumber } from "./format.ts";
-import { addMonthsIso, periodDays, spreadOverMonths } from "./periods.ts";
+import { NOT_AVAILABLE, formatMonth, formatNumber, formatPeriod, formatQuantity } from "./format.ts";
 import { commodityLabel } from "./labels.ts";
-import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, THERM_PER_CCF, kwhPerM2ToKbtuPerFt2, siteKwh } from "./energy.ts";
+import { kwhPerM2ToKbtuPerFt2, siteKwh } from "./energy.ts";
+import { addMonthsIso, daysBetween as periodDays, isoDateToDayNumber, spreadOverMonths } from "../core/time/index.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF, FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../core/units.ts";
 
 /** A bill counts as "a year earlier" when its start is within this many days of one year before. */
 export const SAME_PERIOD_TOLERANCE_DAYS = 20;
@@ -370,8 +371,8 @@ function summaryTable(c: TenantComparison): TableModel {
 export const TENANT_NOTES: readonly string[] = [
   "Use per day is compared rather than the bill total, because bills cover slightly different numbers of days.",
   "The expectation for the weather comes from how much this building used in past months as warm or as cold as these. It is shown only where that record follows the weather closely (the monthly limits of ASHRAE Guideline 14).",
-  `Electricity and gas are shown as energy in kWh: gas in therms × ${KWH_PER_THERM} kWh per therm (1 therm = 100,000 Btu, U.S. EIA), gas in ccf first × ${THERM_PER_CCF} therm per ccf.`,
-  `Per floor area: kWh per m², and kBtu per ft² with 1 kWh = ${KBTU_PER_KWH} kBtu (Btu of the International Table, NIST SP 811) and 1 m² = ${FT2_PER_M2} ft² (international foot = 0.3048 m).`,
+  `Electricity and gas are shown as energy in kWh: gas in therms × ${KWH_PER_THERM.toFixed(4)} kWh per therm (1 therm = 100,000 Btu, U.S. EIA), gas in ccf first × ${DEFAULT_HEAT_CONTENT_THERM_PER_CCF} therm per ccf.`,
+  `Per floor area: kWh per m², and kBtu per ft² with 1 kWh = ${KBTU_PER_KWH.toFixed(6)} kBtu (Btu of the International Table, NIST SP 811) and 1 m² = ${FT2_PER_M2.toFixed(4)} ft² (international foot = 0.3048 m).`,
 ];
 
 /** The caution every tenant page carries. */

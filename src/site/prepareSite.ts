@@ -3,9 +3,9 @@
  * (escaped JSON for the page: the browser runs only the vega runtime), its server SVG, and the
  * downloads lists from the data files actually written. Returns a new model.
  */
-import type { ChartModel, SiteModel } from "../report/siteModel.ts";
-import { buildingDataFolder, describeDataFiles } from "../report/dataPage.ts";
-import { jsonForScript } from "../report/format.ts";
+import type { ChartModel, SiteModel } from "../report/index.ts";
+import { buildingDataFolder, describeDataFiles } from "../report/index.ts";
+import { jsonForScript } from "../report/index.ts";
 import { monthlyUsageSpec } from "./charts/monthlyUsageSpec.ts";
 import { baselineScatterSpec, baselineTimeSpec, heatmapSpec, rankingSpec } from "./charts/analysisSpecs.ts";
 import { compileToVega, renderSvg } from "./charts/renderSvg.ts";

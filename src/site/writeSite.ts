@@ -11,7 +11,7 @@ import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
 import Eleventy from "@11ty/eleventy";
 import EleventyVitePlugin from "@11ty/eleventy-plugin-vite";
-import type { SiteModel } from "../report/siteModel.ts";
+import type { SiteModel } from "../report/index.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
 import { prepareSite } from "./prepareSite.ts";

@@ -5,11 +5,12 @@
  */
 import type { PriceRequest } from "./types.ts";
 import type { Tariff } from "./model.ts";
-import { assertZone, localMidnightMs, localTimes, type LocalTimes } from "./calendar.ts";
-import { daysBetween, isIsoDate } from "./dates.ts";
+import { assertZone, localMidnightMs } from "./calendar.ts";
+import { localTimes, type LocalTimes } from "../core/time/index.ts";
 import { PricingError } from "./errors.ts";
-import { lowerBound } from "../core/time.ts";
 import { canonicalUnit, unitFactor } from "./units.ts";
+import { lowerBound } from "../core/sorted.ts";
+import { daysBetween, isIsoDate } from "../core/time/index.ts";
 
 export interface BillIntervals {
   startMs: Float64Array;

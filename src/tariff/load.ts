@@ -9,8 +9,9 @@ import type { InputIssue } from "../core/issues.ts";
 import { COMMODITIES, type Commodity } from "../domain/types.ts";
 import { checkVersion, checkVersionOrder, readVersion, resolveVersions, type RawVersion } from "./load-versions.ts";
 import type { Tariff, TariffVersion } from "./model.ts";
-import { canonicalUnit, DEFAULT_HEAT_CONTENT_THERM_PER_CCF, UNITS_BY_COMMODITY } from "./units.ts";
+import { canonicalUnit, UNITS_BY_COMMODITY } from "./units.ts";
 import { Checker, didYouMean, readMap, readNumber, readSeq, readString, where, yamlLimitProblem, type Field } from "./yaml-check.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 
 export { MINIMUM_BILL_LABEL } from "./model.ts";
 

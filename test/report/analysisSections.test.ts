@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import type { Bill, Building, Meter } from "../../src/domain/types.ts";
 import type { ReportBaseline } from "../../src/report/input.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
-import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
+import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
 import { compareCommodity, signedPct, tenantMonths, tenantSentences } from "../../src/report/tenantPage.ts";
 import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
 import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour, qualitySections, weatherActionLabel } from "../../src/report/qualitySection.ts";
@@ -10,6 +10,7 @@ import { describeDataFile } from "../../src/report/dataPage.ts";
 import { normalizedChangePct } from "../../src/report/portfolioCharts.ts";
 import type { BuildingContext } from "../../src/report/buildingPage.ts";
 import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
+import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../../src/core/units.ts";
 
 describe("energy conversions", () => {
   it("kBtu per kWh follows from the International Table Btu (NIST SP 811: 1 Btu_IT = 1,055.05585262 J)", () => {
@@ -23,10 +24,11 @@ describe("energy conversions", () => {
     expect(KWH_PER_THERM).toBeCloseTo((100_000 * 1055.05585262) / 3.6e6, 4);
   });
   it("converts EUI and site energy (hand-computed)", () => {
-    // 100 kWh/m² × 3.412142 / 10.7639 = 31.69986 kBtu/ft²
-    expect(kwhPerM2ToKbtuPerFt2(100)).toBeCloseTo(31.69986, 4);
-    expect(siteKwh("gas", "therm", 10)).toBeCloseTo(293.071, 6);
-    expect(siteKwh("gas", "ccf", 10)).toBeCloseTo(10 * 1.037 * 29.3071, 6);
+    // 100 kWh/m² × 3.4121416 kBtu/kWh ÷ 10.7639104 ft²/m² = 31.699832 kBtu/ft² (NIST SP 811 Btu, exact foot)
+    expect(kwhPerM2ToKbtuPerFt2(100)).toBeCloseTo(31.699832, 5);
+    // 1 therm = 100,000 Btu (EIA) = 29.3071070 kWh; ccf at the EIA average 1.037 therm/ccf
+    expect(siteKwh("gas", "therm", 10)).toBeCloseTo(293.071070, 5);
+    expect(siteKwh("gas", "ccf", 10)).toBeCloseTo(10 * 1.037 * 29.3071070, 5);
     expect(siteKwh("electricity", "MWh", 2)).toBe(2000);
     expect(siteKwh("water", "gal", 10)).toBeNull();
     expect(siteKwh("gas", "m3", 10)).toBeNull();
@@ -64,7 +66,7 @@ describe("tenant page comparison (fixture E1: latest bill E1-14 vs E1-02)", () =
   it("gas is site energy in kWh (therm × 29.3071) and has no expectation without a model", () => {
     const g = compareCommodity("gas", meters, billsByMeter, input.baselines, b1.floorAreaM2)!;
     expect(g.unit).toBe("kWh");
-    expect(g.current.use).toBeCloseTo(1134 * 29.3071, 6);
+    expect(g.current.use).toBeCloseTo(1134 * 29.3071070, 4);
     expect(g.vsExpectedPct).toBeNull();
     expect(tenantSentences(g).join(" ")).toContain("no reliable weather expectation");
   });

@@ -1,6 +1,6 @@
 /** Matching printed bill lines to computed tariff charges. */
 import type { BillLine } from "../../domain/types.ts";
-import type { ComputedLine } from "../../tariff/types.ts";
+import type { ComputedLine } from "../../tariff/index.ts";
 
 /**
  * Label key: case- and space-insensitive, as the input contract says.

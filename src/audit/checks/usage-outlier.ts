@@ -16,9 +16,10 @@
  */
 import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, billFinding, type AuditContext } from "../context.ts";
-import { billMonth, daysBetween } from "../dates.ts";
+import { billMonth } from "../dates.ts";
 import { formatQty } from "../format.ts";
 import type { EvidenceRow, Finding } from "../types.ts";
+import { daysBetween } from "../../core/time/index.ts";
 
 function perDay(b: Bill): number {
   return b.usage / Math.max(1, daysBetween(b.periodStart, b.periodEnd));

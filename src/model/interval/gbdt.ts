@@ -10,7 +10,7 @@
 import { ModelInputError } from "../errors.ts";
 import { binColumn, binCuts } from "./gbdtBins.ts";
 import type { FeatureBins } from "./gbdtBins.ts";
-import { mulberry32 } from "./rng.ts";
+import { mulberry32 } from "../../core/random.ts";
 
 export interface GbdtOptions {
   /** Number of boosting rounds (trees). Default 200. */

@@ -4,7 +4,7 @@
  * values (histogram gradient boosting, Ke et al. 2017).
  */
 import { ModelInputError } from "../errors.ts";
-import { lowerBound } from "../../core/time.ts";
+import { lowerBound } from "../../core/sorted.ts";
 
 /** Cut points of one feature: bin(x) = number of cuts c with x > c; NaN goes to the last bin. */
 export interface FeatureBins {

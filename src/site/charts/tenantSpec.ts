@@ -3,7 +3,7 @@
  * month and months that include an estimated bill in their own colours) and the use expected for
  * each month's weather as a dashed line with points. Pure.
  */
-import type { TenantChartModel, TenantMonthStatus } from "../../report/siteModel.ts";
+import type { TenantChartModel, TenantMonthStatus } from "../../report/index.ts";
 import { chartConfig } from "./palette.ts";
 import { chartTitle } from "./wrapText.ts";
 

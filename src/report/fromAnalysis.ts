@@ -5,17 +5,29 @@
 import type { Dispute } from "../disputes/index.ts";
 import type { InputIssue } from "../core/issues.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
-import type { Finding } from "../audit/types.ts";
+import type { Finding } from "../audit/index.ts";
 import type { AccuracySummary, BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } from "../forecast/index.ts";
 import { actualMonthlyCost, buildingCostBand, buildingMonthlyCostBands, MIN_TRACK_RECORD_MONTHS, MONTH_ADJUSTMENT_LABEL, WEATHER_BASIS_LABEL, type WeatherBasisId } from "../forecast/index.ts";
-import { shiftMonth } from "../forecast/months.ts";
-import type { WeatherGap } from "../ingest/weatherGrid.ts";
-import type { MonthTotal } from "../ingest/monthlyTotals.ts";
-import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportForecastMethod, ReportInput, ReportMeterQuality, ReportModelSummary } from "../report/index.ts";
-import type { BuildingResults } from "./build.ts";
-import type { MeterBaseline } from "./baselines.ts";
-import type { MeterQuality } from "./dataQuality.ts";
-import type { PricedBill } from "./priceBills.ts";
+import type { WeatherGap } from "../domain/types.ts";
+import type { MonthTotal } from "../ingest/index.ts";
+import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportForecastMethod, ReportInput, ReportMeterQuality, ReportModelSummary } from "./index.ts";
+import type { MeterBaseline } from "../model/index.ts";
+import type { MeterQuality } from "../clean/index.ts";
+import type { PricedBill } from "../tariff/index.ts";
+import { shiftMonth } from "../core/time/index.ts";
+import type { Building } from "../domain/types.ts";
+import type { IntervalBaselineOutcome } from "../model/index.ts";
+
+/** Everything computed for one building; a building that fails carries only `failure`. */
+export interface BuildingResults {
+  building: Building;
+  priced: Map<string, PricedBill>;
+  findings: Finding[];
+  baselines: MeterBaseline[];
+  /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
+  intervalBaselines: IntervalBaselineOutcome[];
+  failure: string | null;
+}
 
 const CURVE_SAMPLES = 60;
 

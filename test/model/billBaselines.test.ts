@@ -1,7 +1,7 @@
 /** Bill-level baselines: period mean temperature, typical months, a constructed 3PH meter. */
 import { describe, expect, it } from "vitest";
 import type { Bill, Building, Meter, WeatherSeries } from "../../src/domain/types.ts";
-import { fitMeterBaseline, meanTemperature, typicalMonthlyTempC } from "../../src/pipeline/baselines.ts";
+import { fitMeterBaseline, meanTemperature, typicalMonthlyTempC } from "../../src/model/billBaselines.ts";
 
 const src = { file: "t.csv", line: 1 };
 const HOUR = 3_600_000;
@@ -73,7 +73,7 @@ describe("fitMeterBaseline", () => {
 
 describe("per-bill weather adjustment", () => {
   it("is 1:1 when the bill's months are the typical months (constructed: each month's weather is the same every year)", async () => {
-    const { fitMeterBaseline } = await import("../../src/pipeline/baselines.ts");
+    const { fitMeterBaseline } = await import("../../src/model/billBaselines.ts");
     const building: Building = {
       buildingId: "B", name: "B", floorArea: 1, areaUnit: "m2", floorAreaM2: 1, timezone: "UTC",
       weatherStation: "W", useType: null, tenantPage: false, source: src,

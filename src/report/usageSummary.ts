@@ -7,8 +7,9 @@
  * (electricity kWh, gas therm, water gal).
  */
 import type { Bill, Building, Commodity, Meter, Portfolio } from "../domain/types.ts";
-import { addDays, daysBetween } from "../core/time.ts";
-import { unitFactor, KWH_PER_THERM, DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/units.ts";
+import { unitFactor } from "../tariff/index.ts";
+import { addDays, daysBetween } from "../core/time/index.ts";
+import { KWH_PER_THERM, DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 
 export const REPORT_UNIT: Record<Commodity, string> = { electricity: "kWh", gas: "therm", water: "gal" };
 

@@ -3,9 +3,10 @@
  * gradient-boosted trees, time-series cross-validation, generalized-weighted-mean ensembles),
  * trained on the cleaned view: intervals flagged by the data-quality stage are left out.
  */
-import type { Building, Portfolio } from "../domain/types.ts";
-import { fitIntervalBaseline, hourlyFrame, type IntervalBaseline, type IntervalBaselineOptions } from "../model/interval/index.ts";
-import type { PoolMember } from "../model/interval/pooled.ts";
+import type { Building, Portfolio } from "../../domain/types.ts";
+import { fitIntervalBaseline, hourlyFrame, type IntervalBaseline, type IntervalBaselineOptions } from "./index.ts";
+import type { PoolMember } from "./pooled.ts";
+import { expectedProblem } from "../../core/errors.ts";
 
 /** Below this many weeks of data a meter borrows strength from similar meters (the pooled model). */
 export const SHORT_HISTORY_WEEKS = 8;
@@ -53,7 +54,7 @@ export function fitBuildingIntervalBaselines(
       });
       out.push({ meterId: meter.meterId, baseline, problem: null });
     } catch (error) {
-      out.push({ meterId: meter.meterId, baseline: null, problem: error instanceof Error ? error.message : String(error) });
+      out.push({ meterId: meter.meterId, baseline: null, problem: expectedProblem(error) });
     }
   }
   return out;
@@ -75,8 +76,8 @@ function poolFor(portfolio: Portfolio, meterId: string, building: Building, mask
     if (!b || !weather) continue;
     try {
       pool.push({ meterId: m.meterId, frame: hourlyFrame(portfolio.intervals.get(m.meterId)!, masks.get(m.meterId) ?? null, weather, b.timezone, { multiplier: m.multiplier }) });
-    } catch {
-      // A meter whose table cannot be built simply does not join the pool.
+    } catch (error) {
+      expectedProblem(error); // a meter whose table cannot be built simply does not join the pool
     }
   }
   return pool;

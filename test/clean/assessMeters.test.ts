@@ -5,8 +5,8 @@
  */
 import { describe, expect, it } from "vitest";
 import type { Portfolio } from "../../src/domain/types.ts";
-import { assessIntervalMeters, shiftSeries } from "../../src/pipeline/dataQuality.ts";
-import { makeOffice, shiftStamps, ZONE } from "../clean/detect/syntheticOffice.ts";
+import { assessIntervalMeters, shiftSeries } from "../../src/clean/assessMeters.ts";
+import { makeOffice, shiftStamps, ZONE } from "./detect/syntheticOffice.ts";
 import { DEFAULT_SETTINGS } from "../../src/ingest/portfolioYaml.ts";
 import { parsePortfolioYaml } from "../../src/ingest/portfolioYaml.ts";
 

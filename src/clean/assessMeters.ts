@@ -10,10 +10,10 @@
  * shifted back by h hours; flagged intervals are marked (mask), never removed.
  */
 import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
-import { stationAgreement } from "../clean/stationAgreement.ts";
-import type { WeatherGap } from "../ingest/weatherGrid.ts";
-import { detectAnomalies, type Detection, type DetectConfigInput } from "../clean/detect/index.ts";
-import { suggestAlignment, type AlignmentSuggestion } from "../clean/alignment.ts";
+import { stationAgreement } from "./stationAgreement.ts";
+import type { WeatherGap } from "../domain/types.ts";
+import { detectAnomalies, type Detection, type DetectConfigInput } from "./detect/index.ts";
+import { suggestAlignment, type AlignmentSuggestion } from "./alignment.ts";
 
 const HOUR_MS = 3_600_000;
 

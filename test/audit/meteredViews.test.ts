@@ -2,7 +2,7 @@
 import { describe, expect, it } from "vitest";
 import type { Portfolio } from "../../src/domain/types.ts";
 import { DEFAULT_SETTINGS } from "../../src/ingest/portfolioYaml.ts";
-import { meteredViewsByBill } from "../../src/pipeline/meteredViews.ts";
+import { meteredViewsByBill } from "../../src/audit/meteredViews.ts";
 
 const src = { file: "x.csv", line: 2 };
 const HOUR = 3_600_000;

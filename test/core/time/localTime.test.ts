@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { DateTime } from "luxon";
-import { LocalTimeResolver } from "../../src/ingest/localTime.ts";
+import { LocalTimeResolver } from "../../../src/core/time/index.ts";
 
 describe("LocalTimeResolver agrees with luxon at every 45 minutes of 2024 (all quarter-hour minutes hit) (reference: luxon, one call per row)", () => {
   for (const zone of ["America/New_York", "Europe/Berlin", "Australia/Lord_Howe", "Asia/Kolkata", "UTC"]) {

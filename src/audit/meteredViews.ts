@@ -6,7 +6,8 @@
  * outage or spike sits inside a bill.
  */
 import type { Portfolio } from "../domain/types.ts";
-import { localMidnightMs, lowerBound } from "../core/time.ts";
+import { localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
 
 export interface MeteredViews {
   /** Σ value × multiplier over the bill's half-open local period. */

@@ -3,7 +3,9 @@
  * row: the zone offset is cached per local day, and only days next to a DST transition are
  * resolved per hour (and per row inside the transition hour itself).
  */
-import { IANAZone } from "luxon";
+import { TimeInputError } from "../errors.ts";
+import { DateTime } from "luxon";
+import { assertValidZone, zoneOffsetMs } from "./zone.ts";
 
 const DAY_MS = 86400000;
 const HOUR_MS = 3600000;
@@ -15,7 +17,6 @@ export type LocalTimeKind = "unique" | "repeated" | "nonexistent";
 
 export class LocalTimeResolver {
   readonly zoneName: string;
-  private readonly zone: IANAZone;
   /** Per local day: offset in ms when constant all day, NaN when the day needs hourly care. */
   private readonly dayOffset = new Map<number, number>();
   /** Per local hour on transition days: offset in ms, NaN inside a transition hour. */
@@ -25,16 +26,14 @@ export class LocalTimeResolver {
   /** Set by the last call to resolve(). */
   kind: LocalTimeKind = "unique";
 
-  /** @throws Error when `zoneName` is not a valid IANA zone (validate it beforehand). */
+  /** @throws TimeInputError when `zoneName` is not a valid IANA zone (validate it beforehand). */
   constructor(zoneName: string) {
-    const zone = IANAZone.create(zoneName);
-    if (!zone.isValid) throw new Error(`unknown time zone ${zoneName}`);
+    assertValidZone(zoneName);
     this.zoneName = zoneName;
-    this.zone = zone;
   }
 
   private offsetMs(instantMs: number): number {
-    return this.zone.offset(instantMs) * 60000;
+    return zoneOffsetMs(this.zoneName, instantMs);
   }
 
   /**
@@ -118,15 +117,35 @@ export function sharedResolver(zoneName: string): LocalTimeResolver {
   return r;
 }
 
-/** Memo of zone checks: luxon builds an Intl formatter for each check. */
-const zoneValidity = new Map<string, boolean>();
+/**
+ * UTC instant (epoch ms) of local midnight starting `isoDate` in `zone`. Luxon applies the zone
+ * rules (a midnight that does not exist moves forward). Bills are half-open local-day periods, so
+ * [localMidnightMs(start, zone), localMidnightMs(end, zone)) is exactly a bill's service period,
+ * whatever DST does inside it.
+ * @throws TimeInputError when the date or zone is invalid.
+ * @example localMidnightMs("2024-03-10", "America/New_York") // 2024-03-10T05:00:00Z
+ */
+export function localMidnightMs(isoDate: string, zone: string): number {
+  const key = `${zone}|${isoDate}`;
+  const hit = midnightCache.get(key);
+  if (hit !== undefined) return hit;
+  const dt = DateTime.fromISO(isoDate, { zone }).startOf("day");
+  if (!dt.isValid) throw new TimeInputError(`invalid date '${isoDate}' in zone '${zone}': ${dt.invalidExplanation ?? ""}`);
+  // Bills, forecasts and reconciliation ask for the same few thousand midnights again and again.
+  if (midnightCache.size >= 100_000) midnightCache.clear();
+  midnightCache.set(key, dt.toMillis());
+  return dt.toMillis();
+}
 
-/** True when `name` is an IANA zone luxon knows (e.g. "America/Chicago"). */
-export function isValidZone(name: string): boolean {
-  let valid = zoneValidity.get(name);
-  if (valid === undefined) {
-    valid = IANAZone.isValidZone(name);
-    zoneValidity.set(name, valid);
-  }
-  return valid;
+const midnightCache = new Map<string, number>();
+
+/**
+ * UTC instant of an ISO local date-time (`YYYY-MM-DDTHH:mm[:ss]`) in `zone`; a timestamp that
+ * carries its own offset (`Z`, `+02:00`) keeps it. Returns NaN when it is not a valid timestamp.
+ * @example isoLocalToMs("2025-01-01T00:00", "America/Chicago") // Date.UTC(2025, 0, 1, 6)
+ */
+export function isoLocalToMs(iso: string, zone: string): number {
+  const hasOffset = /(?:Z|[+-]\d{2}:?\d{2})$/i.test(iso);
+  const dt = hasOffset ? DateTime.fromISO(iso, { setZone: true }) : DateTime.fromISO(iso, { zone });
+  return dt.isValid ? dt.toMillis() : Number.NaN;
 }

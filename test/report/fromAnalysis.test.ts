@@ -8,8 +8,8 @@ import { describe, expect, it } from "vitest";
 import type { Bill } from "../../src/domain/types.ts";
 import type { BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } from "../../src/forecast/index.ts";
 import { buildingMonthlyCostBands, buildingCostBand } from "../../src/forecast/index.ts";
-import { buildingForecastDetail, toReportInput } from "../../src/pipeline/reportInput.ts";
-import { fixtureInput } from "../report/fixture.ts";
+import { buildingForecastDetail, toReportInput } from "../../src/report/fromAnalysis.ts";
+import { fixtureInput } from "./fixture.ts";
 
 const MONTHS = ["2025-01", "2025-02"];
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { isUsFederalHoliday, usFederalHolidays } from "../../src/tariff/holidays.ts";
+import { isUsFederalHoliday, usFederalHolidays } from "../../../src/core/time/index.ts";
 
 // Source: 5 U.S.C. 6103(a) (the list of holidays, Juneteenth added in 2021) and 6103(b)
 // (Saturday holiday observed the Friday before, Sunday holiday the Monday after).

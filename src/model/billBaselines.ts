@@ -11,14 +11,27 @@
  *    temperature hides, which is what kept the change-point band from judging shoulder months.
  * Estimated reads are left out of the fits (the utility's guess is not the building's use).
  */
-import { DateTime } from "luxon";
 import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
-import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "../model/changePoint.ts";
-import { temperatureProfileForPeriod, type DegreeDayFit } from "../model/degreeDayRegression.ts";
-import { degreeDayOutlierBand, type DegreeDayBandBill } from "../model/outlierBand.ts";
-import { GUIDELINE14_LIMITS } from "../model/stats.ts";
-import { daysBetween, localMidnightMs } from "../core/time.ts";
-import type { ReportModelSummary } from "../report/input.ts";
+import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "./changePoint.ts";
+import { temperatureProfileForPeriod, type DegreeDayFit } from "./degreeDayRegression.ts";
+import { degreeDayOutlierBand, type DegreeDayBandBill } from "./outlierBand.ts";
+import { meetsGuideline14 } from "./stats.ts";
+import { daysBetween, localMidnightMs, LocalMonthCalendar } from "../core/time/index.ts";
+import { cToF } from "../core/units.ts";
+
+/** One fitted model's headline statistics, as pages and data files show them. */
+export interface ModelSummary {
+  meterId: string;
+  /** Model kind, e.g. `3PH`, `5P`, `TOWT`. */
+  kind: string;
+  /** CV(RMSE) in percent. */
+  cvRmsePct: number | null;
+  /** NMBE in percent. */
+  nmbePct: number | null;
+  r2: number | null;
+  /** Number of observations the model was fitted on. */
+  n: number;
+}
 
 const HOUR_MS = 3_600_000;
 /** Share of a period's hours that must have a temperature for the bill to be a model point. */
@@ -57,7 +70,7 @@ export interface MeterBaseline {
   degreeDay: { fit: DegreeDayFit; rejected: string[]; tried: { kind: string; accepted: boolean; reasons: string[]; cvRmsePct: number | null; nmbePct: number | null; r2: number | null; p: number }[] } | null;
   /** Expected usage band per bill id (bill unit) from the degree-day model's leave-one-out band. */
   expectedByBill: Map<string, { p50: number; low: number; high: number }>;
-  summary: ReportModelSummary;
+  summary: ModelSummary;
 }
 
 /** Mean temperature over [startMs, endMs) from an hourly series, with the share of hours covered. */
@@ -85,20 +98,18 @@ export function typicalMonthlyTempC(weather: WeatherSeries, zone: string): numbe
   const sums = new Array<number>(12).fill(0);
   const counts = new Array<number>(12).fill(0);
   // Month boundaries change only 12 times a year: walk month by month rather than per hour.
-  let cursor = DateTime.fromMillis(weather.startMs, { zone }).startOf("month");
   const endMs = weather.startMs + weather.tempC.length * HOUR_MS;
-  while (cursor.toMillis() < endMs) {
-    const next = cursor.plus({ months: 1 });
-    const from = Math.max(0, Math.ceil((cursor.toMillis() - weather.startMs) / HOUR_MS));
-    const to = Math.min(weather.tempC.length, Math.ceil((next.toMillis() - weather.startMs) / HOUR_MS));
+  for (const m of new LocalMonthCalendar(zone).between(weather.startMs, endMs)) {
+    const month = Number(m.month.slice(5, 7));
+    const from = Math.max(0, Math.ceil((m.startMs - weather.startMs) / HOUR_MS));
+    const to = Math.min(weather.tempC.length, Math.ceil((m.endMs - weather.startMs) / HOUR_MS));
     for (let i = from; i < to; i++) {
       const t = weather.tempC[i]!;
       if (Number.isFinite(t)) {
-        sums[cursor.month - 1]! += t;
-        counts[cursor.month - 1]!++;
+        sums[month - 1]! += t;
+        counts[month - 1]!++;
       }
     }
-    cursor = next;
   }
   if (counts.some((c) => c < 24 * 20)) return null; // a month with under 20 days of data is not typical of anything
   return sums.map((s, i) => s / counts[i]!);
@@ -112,7 +123,7 @@ function monthIndexOf(isoDate: string, offset: number): number {
 }
 
 function toUnit(tempC: number, unit: "C" | "F"): number {
-  return unit === "F" ? tempC * 1.8 + 32 : tempC;
+  return unit === "F" ? cToF(tempC) : tempC;
 }
 
 /** Fits the baseline of one meter from its bills and its building's weather. */
@@ -195,8 +206,7 @@ export function fitMeterBaseline(options: {
     }
   }
 
-  const limits = GUIDELINE14_LIMITS.monthly;
-  const meetsGuideline14 = fit !== null && fit.stats.cvRmsePct <= limits.cvRmsePct && Math.abs(fit.stats.nmbePct) <= limits.nmbeAbsPct;
+  const meetsG14 = fit !== null && meetsGuideline14(fit.stats, "monthly");
   const { degreeDay, expectedByBill } = options.degreeDayResult ?? degreeDayBand(options, tempUnit);
 
   return {
@@ -211,7 +221,7 @@ export function fitMeterBaseline(options: {
     typicalMonthlyTemp,
     typicalSource: typicalC ? (normals ? "normals" : "history") : null,
     normalizedAnnual,
-    meetsGuideline14,
+    meetsGuideline14: meetsG14,
     perBill,
     degreeDay,
     expectedByBill,
@@ -237,7 +247,7 @@ export function degreeDayBand(
   const expectedByBill = new Map<string, { p50: number; low: number; high: number }>();
   const { weather, building } = options;
   if (!weather) return { degreeDay: null, expectedByBill };
-  const temps = tempUnit === "F" ? weather.tempC.map((t) => t * 1.8 + 32) : weather.tempC;
+  const temps = tempUnit === "F" ? weather.tempC.map(cToF) : weather.tempC;
   const hourly = { startMs: weather.startMs, temps };
   const targets: DegreeDayBandBill[] = [];
   const train: DegreeDayBandBill[] = [];

@@ -1,7 +1,7 @@
 /** Last-12-month usage: proration at the window edges and unit conversion (hand-computed). */
 import { describe, expect, it } from "vitest";
 import type { Bill, Building, Meter } from "../../src/domain/types.ts";
-import { billUsageInWindow, buildingUsageLast12m, last12MonthsWindow, meterYearWindow, metersCostLast12m, prorateToWindow, siteKwhLast12m } from "../../src/pipeline/usageSummary.ts";
+import { billUsageInWindow, buildingUsageLast12m, last12MonthsWindow, meterYearWindow, metersCostLast12m, prorateToWindow, siteKwhLast12m } from "../../src/report/usageSummary.ts";
 
 const src = { file: "t.csv", line: 1 };
 const building: Building = {

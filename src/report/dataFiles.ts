@@ -2,30 +2,30 @@
  * The machine-readable files every build publishes under OUT/data/ (contract: outputs.md),
  * as text keyed by file name. Pure: the site writer does the writing.
  */
-import { billCheckState } from "../report/input.ts";
-import { roundCents } from "../tariff/rounding.ts";
+import { billCheckState } from "../tariff/index.ts";
 import { disputesCsv, disputesJson, type Dispute } from "../disputes/index.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/index.ts";
-import type { Finding } from "../audit/types.ts";
-import { findingsToCsvText, toFindingsJson, billsRecomputedRows } from "../audit/output.ts";
-import { detectionsToRows, DATA_QUALITY_COLUMNS, type DataQualityRow } from "../clean/detect/rows.ts";
-import type { Detection } from "../clean/detect/index.ts";
-import type { MonthTotal } from "../ingest/monthlyTotals.ts";
-import type { WeatherGap } from "../ingest/weatherGrid.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
+import type { Finding } from "../audit/index.ts";
+import { findingsToCsvText, toFindingsJson, billsRecomputedRows } from "../audit/index.ts";
+import { detectionsToRows, DATA_QUALITY_COLUMNS, type DataQualityRow } from "../clean/index.ts";
+import type { Detection } from "../clean/index.ts";
+import type { MonthTotal } from "../ingest/index.ts";
+import type { WeatherGap } from "../domain/types.ts";
 import { toCsv } from "../core/csv.ts";
-import type { BuildingResults } from "./build.ts";
-import type { PricedBill } from "./priceBills.ts";
-import type { MeterBaseline } from "./baselines.ts";
-import type { MeterQuality } from "./dataQuality.ts";
-import type { IntervalBaselineOutcome } from "./intervalBaselines.ts";
-import type { MeteredViews } from "./meteredViews.ts";
+import type { BuildingResults } from "./fromAnalysis.ts";
+import type { PricedBill } from "../tariff/index.ts";
+import type { MeterBaseline } from "../model/index.ts";
+import type { MeterQuality } from "../clean/index.ts";
+import type { IntervalBaselineOutcome } from "../model/index.ts";
+import type { MeteredViews } from "../audit/index.ts";
 import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
-import { weatherGapDetections } from "./dataQuality.ts";
+import { weatherGapDetections } from "../clean/index.ts";
 import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT, siteKwhLast12m } from "./usageSummary.ts";
-import { unitFactor } from "../tariff/units.ts";
-import { kwhPerM2ToKbtuPerFt2 } from "../report/energy.ts";
+import { unitFactor } from "../tariff/index.ts";
+import { kwhPerM2ToKbtuPerFt2 } from "./energy.ts";
+import { roundCents } from "../core/money.ts";
 
 export interface OutputsInput {
   portfolio: Portfolio<Tariff>;

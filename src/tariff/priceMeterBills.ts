@@ -12,12 +12,72 @@
  * Both use the same ratchet history: the billing demands of the earlier bills as billed.
  */
 import type { Bill, IntervalSeries, Meter } from "../domain/types.ts";
-import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
-import { intervalUsageForBill } from "../audit/wiring.ts";
-import { localMidnightMs } from "../core/time.ts";
+import type { ComputedBill, IntervalUsage, PriceRequest } from "./types.ts";
+import { localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
+import { expectedProblem } from "../core/errors.ts";
 
-export type { PricedBill } from "../report/input.ts";
-import type { PricedBill } from "../report/input.ts";
+export interface PricedBill {
+  computed: ComputedBill | null;
+  /** Plain-words reason when `computed` is null (e.g. "tariff T9 not found"). */
+  error: string | null;
+  /** Re-priced on metered quantities; null/absent when interval data does not cover the period. */
+  metered?: ComputedBill | null;
+  /** Metered usage the `metered` recomputation used (bill unit, multiplier applied). */
+  meteredUsage?: number | null;
+  /** Metered peak demand (kW) over the period, when the meter is electricity with interval data. */
+  meteredDemandKw?: number | null;
+}
+
+/**
+ * How far a bill could be checked: `exact` (every line of the billed-basis recomputation is
+ * exact, so its total can be compared), `estimated` (time-of-use or period demand split by the
+ * building's load shape: shown, never compared), `needs-interval-data` (such a split could not
+ * even be estimated), `not-priced` (no usable tariff).
+ */
+export type BillCheckState = "exact" | "estimated" | "needs-interval-data" | "not-priced";
+
+/** The check state of a priced bill (see BillCheckState). */
+export function billCheckState(priced: PricedBill | undefined): BillCheckState {
+  const c = priced?.computed;
+  if (!c) return "not-priced";
+  if (c.exact) return "exact";
+  return c.lines.some((l) => l.status === "needs-interval-data") ? "needs-interval-data" : "estimated";
+}
+
+/**
+ * The meter's intervals inside the bill's half-open local period, multiplier applied, or null
+ * when there are none or fewer than `minCoverage` of the expected intervals (then the engine
+ * prices from billed quantities, as for the original pricing). Non-finite readings (flagged
+ * readings in the cleaned view, see `withFlaggedAsMissing`) are left out and count as missing.
+ */
+export function intervalUsageForBill(
+  series: IntervalSeries | undefined, multiplier: number, bill: Bill, timezone: string, minCoverage = 0.9,
+): IntervalUsage | null {
+  if (!series || series.startMs.length === 0) return null;
+  const a = localMidnightMs(bill.periodStart, timezone);
+  const b = localMidnightMs(bill.periodEnd, timezone);
+  const from = lowerBound(series.startMs, a);
+  const to = lowerBound(series.startMs, b);
+  const expected = (b - a) / (series.intervalMinutes * 60_000);
+  let finite = 0;
+  for (let i = from; i < to; i++) if (Number.isFinite(series.values[i])) finite++;
+  if (to <= from || finite < minCoverage * expected) return null;
+  if (finite === to - from) {
+    const values = new Float64Array(to - from);
+    for (let i = from; i < to; i++) values[i - from] = series.values[i] * multiplier;
+    return { startMs: series.startMs.subarray(from, to), values, intervalMinutes: series.intervalMinutes };
+  }
+  const startMs = new Float64Array(finite);
+  const values = new Float64Array(finite);
+  let k = 0;
+  for (let i = from; i < to; i++) {
+    if (!Number.isFinite(series.values[i])) continue;
+    startMs[k] = series.startMs[i];
+    values[k++] = series.values[i] * multiplier;
+  }
+  return { startMs, values, intervalMinutes: series.intervalMinutes };
+}
 
 export type Pricer = (request: PriceRequest) => ComputedBill;
 
@@ -84,7 +144,7 @@ export function priceMeterBills(options: {
     try {
       computed = price(base);
     } catch (error) {
-      results.set(bill.billId, { computed: null, error: error instanceof Error ? error.message : String(error), metered: null });
+      results.set(bill.billId, { computed: null, error: expectedProblem(error), metered: null });
       continue;
     }
     if (computed.billingDemandKw !== null) previousDemandsKw.push(computed.billingDemandKw);
@@ -98,7 +158,8 @@ export function priceMeterBills(options: {
       try {
         // demand null: the meter's own peak (per charge window) is the demand
         metered = price({ ...base, usage: meteredUsage, demandKw: null, intervals: meteredIntervals });
-      } catch {
+      } catch (error) {
+        expectedProblem(error);
         metered = null;
       }
     }

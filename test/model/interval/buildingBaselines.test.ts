@@ -4,8 +4,8 @@
  * Data: the demo portfolio (fictional), one meter cut to its last 4 weeks.
  */
 import { describe, expect, it } from "vitest";
-import { loadPortfolio } from "../../src/ingest/index.ts";
-import { fitBuildingIntervalBaselines, SHORT_HISTORY_WEEKS } from "../../src/pipeline/intervalBaselines.ts";
+import { loadPortfolio } from "../../../src/ingest/index.ts";
+import { fitBuildingIntervalBaselines, SHORT_HISTORY_WEEKS } from "../../../src/model/interval/buildingBaselines.ts";
 
 describe("interval baselines in the build", () => {
   it("pools short-history meters across similar meters", async () => {
