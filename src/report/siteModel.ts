@@ -138,8 +138,8 @@ export interface TenantChartModel extends ChartBase {
   useLabel: string;
   /** Whether any month carries an expectation (then the chart draws the line). */
   hasExpected: boolean;
-  /** Ascending; `label` is the month as people read it ("Mar 2025"). */
-  months: { month: string; label: string; perDay: number; expectedPerDay: number | null; status: TenantMonthStatus }[];
+  /** Ascending; `label` is the month as people read it ("Mar 2025"); `perDay` null = not completely billed (no bar). */
+  months: { month: string; label: string; perDay: number | null; expectedPerDay: number | null; status: TenantMonthStatus }[];
 }
 
 export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel | ForecastChartModel | TenantChartModel;

@@ -176,8 +176,8 @@ export function compareCommodity(
 export interface TenantMonth {
   /** `YYYY-MM` */
   month: string;
-  /** Use per day over the month, every meter's bills shared out by days. */
-  perDay: number;
+  /** Use per day over the month, every meter's bills shared out by days; null when the bills leave days of the month out or cover some twice. */
+  perDay: number | null;
   /** Expected use per day at the month's actual weather; null unless every bill touching the month has a reliable expectation. */
   expectedPerDay: number | null;
   /** Whether a bill touching the month is an estimated read. */
@@ -188,7 +188,9 @@ const daysInMonth = (month: string) => periodDays(`${month}-01`, addMonthsIso(`$
 
 /**
  * The calendar months of a commodity the tenant chart shows: the latest month completely covered
- * by the bills of every meter, and the 13 months before it that are completely covered too.
+ * by the bills of every meter and the 13 months before it, from the first of them that is
+ * completely covered. A month in between whose bills leave days out or cover some twice is kept
+ * with no use (null), so the chart shows the hole instead of closing it up.
  * Bills are shared out over months by days (the rule of every monthly figure on the site).
  * @example tenantMonths("electricity", meters, billsByMeter, baselines).at(-1)?.month // "2025-02"
  */
@@ -226,13 +228,20 @@ export function tenantMonths(commodity: string, meters: readonly Meter[], billsB
     .sort((a, b) => (a[0] < b[0] ? -1 : 1));
   if (complete.length === 0) return [];
   const last = complete[complete.length - 1][0];
-  const first = addMonthsIso(`${last}-01`, -(TENANT_CHART_MONTHS - 1)).slice(0, 7);
-  return complete
-    .filter(([month]) => month >= first)
-    .map(([month, acc]) => {
-      const days = daysInMonth(month);
-      return { month, perDay: acc.use / days, expectedPerDay: acc.expected == null ? null : acc.expected / days, estimated: acc.estimated };
-    });
+  const windowStart = addMonthsIso(`${last}-01`, -(TENANT_CHART_MONTHS - 1)).slice(0, 7);
+  const completeMonths = new Map(complete);
+  const first = complete.find(([month]) => month >= windowStart)![0];
+  const out: TenantMonth[] = [];
+  for (let month = first; month <= last; month = addMonthsIso(`${month}-01`, 1).slice(0, 7)) {
+    const acc = completeMonths.get(month);
+    const days = daysInMonth(month);
+    out.push(
+      acc
+        ? { month, perDay: acc.use / days, expectedPerDay: acc.expected == null ? null : acc.expected / days, estimated: acc.estimated }
+        : { month, perDay: null, expectedPerDay: null, estimated: byMonth.get(month)?.estimated ?? false },
+    );
+  }
+  return out;
 }
 
 /** Rounds to one decimal, halves away from zero (−12.25 → −12.3), so a change reads the same either way. */
@@ -270,6 +279,7 @@ function tenantChart(commodity: string, unit: string, months: TenantMonth[]): Te
   const latest = months[months.length - 1];
   const hasExpected = months.some((m) => m.expectedPerDay != null);
   const status = (m: TenantMonth): TenantMonthStatus => (m.estimated ? "Includes an estimate" : m === latest ? "Latest month" : "Earlier months");
+  const holes = months.filter((m) => m.perDay == null).map((m) => formatMonth(m.month));
   const useLabel = `${unit} a day`;
   const span = `${formatMonth(months[0].month)} to ${formatMonth(latest.month)}`;
   return {
@@ -280,10 +290,11 @@ function tenantChart(commodity: string, unit: string, months: TenantMonth[]): Te
       `Bars: ${label.toLowerCase()} use per day in ${unit} for each calendar month from ${span}, ${formatMonth(latest.month)} the latest.` +
       (hasExpected ? " Line: the use per day expected for each month's weather, an estimate from the building's own past use." : "") +
       (months.some((m) => m.estimated) ? " Months that include an estimated bill are drawn in a different colour." : "") +
+      (holes.length ? ` No bar for ${holes.join(", ")}: the bills for ${holes.length === 1 ? "that month" : "those months"} leave days out or cover some twice.` : "") +
       " Bills are shared out over calendar months by days.",
     useLabel,
     hasExpected,
-    months: months.map((m) => ({ month: m.month, label: formatMonth(m.month), perDay: Math.round(m.perDay * 1000) / 1000, expectedPerDay: m.expectedPerDay == null ? null : Math.round(m.expectedPerDay * 1000) / 1000, status: status(m) })),
+    months: months.map((m) => ({ month: m.month, label: formatMonth(m.month), perDay: m.perDay == null ? null : Math.round(m.perDay * 1000) / 1000, expectedPerDay: m.expectedPerDay == null ? null : Math.round(m.expectedPerDay * 1000) / 1000, status: status(m) })),
     table: {
       caption: `${label}: use per day by month (${unit}), ${span}`,
       sortable: false,
@@ -295,9 +306,11 @@ function tenantChart(commodity: string, unit: string, months: TenantMonth[]): Te
       ],
       rows: months.map((m) => [
         { text: formatMonth(m.month), sort: m.month },
-        { text: formatQuantity(m.perDay, ""), sort: String(m.perDay) },
+        m.perDay == null ? { text: NOT_AVAILABLE, sort: "" } : { text: formatQuantity(m.perDay, ""), sort: String(m.perDay) },
         ...(hasExpected ? [{ text: m.expectedPerDay == null ? NOT_AVAILABLE : formatQuantity(m.expectedPerDay, ""), sort: m.expectedPerDay == null ? "" : String(m.expectedPerDay) }] : []),
-        { text: m.estimated ? "includes an estimate" : "meter reading", tone: m.estimated ? ("warn" as const) : undefined },
+        m.perDay == null
+          ? { text: "not shown: the bills leave days out or cover some twice", tone: "muted" as const }
+          : { text: m.estimated ? "includes an estimate" : "meter reading", tone: m.estimated ? ("warn" as const) : undefined },
       ]),
     },
   };

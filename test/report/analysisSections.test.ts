@@ -117,6 +117,18 @@ describe("tenant page comparison (fixture E1: latest bill E1-14 vs E1-02)", () =
     expect(months.filter((m) => m.estimated).map((m) => m.month)).toEqual(["2024-04", "2024-05"]);
   });
 
+  it("a month the bills leave partly uncovered keeps its place on the chart with no value", () => {
+    // Without E1-07 (Jul 5 – Aug 5, 2024) July and August 2024 are only partly billed.
+    const holed = new Map([...billsByMeter].map(([k, v]) => [k, v.filter((b) => b.billId !== "E1-07")]));
+    const months = tenantMonths("electricity", meters, holed, input.baselines);
+    expect(months).toHaveLength(13);
+    expect(months.filter((m) => m.perDay == null).map((m) => m.month)).toEqual(["2024-07", "2024-08"]);
+    const page = buildSiteModel({ ...input, portfolio: { ...portfolio, bills: portfolio.bills.filter((b) => b.billId !== "E1-07") } }).tenants[0];
+    const chart = page.commodities[0].chart!;
+    expect(chart.description).toContain("No bar for Jul 2024, Aug 2024: the bills for those months leave days out or cover some twice.");
+    expect(chart.table.rows.find((r) => r[0].text === "Jul 2024")!.map((c) => c.text)).toEqual(["Jul 2024", "—", "—", "not shown: the bills leave days out or cover some twice"]);
+  });
+
   it("the tenant page names no findings, money or bill math, and only the commodities the building has", () => {
     const model = buildSiteModel(input);
     expect(model.tenants.map((t) => t.path)).toEqual(["buildings/B1/tenant.html"]);

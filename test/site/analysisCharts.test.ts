@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
-import type { ChartModel, HeatmapChartModel } from "../../src/report/siteModel.ts";
+import type { ChartModel, HeatmapChartModel, TenantChartModel } from "../../src/report/siteModel.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { chartSpec, prepareChart } from "../../src/site/prepareSite.ts";
 import { heatmapSvg } from "../../src/site/charts/heatmapSvg.ts";
@@ -69,6 +69,12 @@ describe("analysis chart specs", () => {
     const gasSpec = chartSpec(gas) as { layer: { encoding: { color: { scale?: { domain: string[] } } } }[] };
     expect(gasSpec.layer).toHaveLength(1);
     expect(gasSpec.layer[0].encoding.color.scale!.domain).not.toContain("Expected for the weather (estimate)");
+    // A month with no bar (perDay null) keeps its place: the axis lists every month, the bars skip it.
+    const holed = { ...electricity, months: (electricity as TenantChartModel).months.map((m, i) => (i === 3 ? { ...m, perDay: null } : m)) } as ChartModel;
+    const holedSpec = chartSpec(holed) as { layer: { transform?: unknown[]; encoding: { x: { scale: { domain: string[] } } } }[] };
+    expect(holedSpec.layer[0].encoding.x.scale.domain).toEqual((electricity as TenantChartModel).months.map((m) => m.label));
+    expect(holedSpec.layer[0].transform).toEqual([{ filter: "isValid(datum.perDay)" }]);
+    expect(validate(holedSpec, vlSchema, vlSchema)).toEqual([]);
     const ready = await prepareChart(electricity);
     expect(ready.svg).toContain("mark-line");
     expect(ready.svg).toContain('aria-label="Bars: electricity use per day in kWh');

@@ -24,11 +24,12 @@ export const TENANT_COLORS: Record<TenantMonthStatus | typeof EXPECTED_SERIES, s
  * @example tenantSpec(chart).layer.length // 2 (1 when no month has an expectation)
  */
 export function tenantSpec(chart: TenantChartModel): Record<string, unknown> {
-  const statuses = (["Earlier months", "Latest month", "Includes an estimate"] as const).filter((s) => chart.months.some((m) => m.status === s));
+  const statuses = (["Earlier months", "Latest month", "Includes an estimate"] as const).filter((s) => chart.months.some((m) => m.status === s && m.perDay != null));
   const domain: string[] = [...statuses, ...(chart.hasExpected ? [EXPECTED_SERIES] : [])];
   // Months in data order: `sort: null` keeps the ascending order the view model gives.
   // On a phone the 14 month labels do not all fit: every other one is dropped rather than overlapped.
-  const x = { field: "label", type: "ordinal", title: null, sort: null, axis: { labelAngle: -45, labelOverlap: "parity" } };
+  // Every month keeps its place, a month without a bar (not completely billed) included.
+  const x = { field: "label", type: "ordinal", title: null, sort: null, scale: { domain: chart.months.map((m) => m.label) }, axis: { labelAngle: -45, labelOverlap: "parity" } };
   const tooltip = [
     { field: "label", type: "nominal", title: "Month" },
     { field: "perDay", type: "quantitative", title: `Use, ${chart.useLabel}`, format: ",.0f" },
@@ -37,6 +38,8 @@ export function tenantSpec(chart: TenantChartModel): Record<string, unknown> {
   ];
   const layer: Record<string, unknown>[] = [
     {
+      // A month not completely billed keeps its place on the axis but gets no bar.
+      transform: [{ filter: "isValid(datum.perDay)" }],
       mark: { type: "bar", tooltip: true },
       encoding: {
         x,
