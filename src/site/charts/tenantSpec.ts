@@ -51,8 +51,8 @@ export function tenantSpec(chart: TenantChartModel): Record<string, unknown> {
   ];
   if (chart.hasExpected) {
     layer.push({
-      transform: [{ filter: "isValid(datum.expected)" }],
-      mark: { type: "line", strokeWidth: 2.5, strokeDash: [6, 3], point: { filled: true, size: 40 }, tooltip: true },
+      // The line breaks at a month without an expectation rather than bridging it.
+      mark: { type: "line", strokeWidth: 2.5, strokeDash: [6, 3], point: { filled: true, size: 40 }, tooltip: true, invalid: "break-paths-show-domains" },
       encoding: { x, y: { field: "expected", type: "quantitative" }, color: { datum: EXPECTED_SERIES, type: "nominal" }, tooltip },
     });
   }
