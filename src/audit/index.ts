@@ -40,7 +40,7 @@ const CHECKS = [
  * Ranking: |amount at stake| descending (no amount counts as 0), then severity (error first),
  * then building, meter, period start, check, bill for a stable order.
  */
-export function compareFindings(a: Finding, b: Finding): number {
+function compareFindings(a: Finding, b: Finding): number {
   return (
     Math.abs(b.amountAtStake ?? 0) - Math.abs(a.amountAtStake ?? 0) ||
     SEVERITY_RANK[b.severity] - SEVERITY_RANK[a.severity] ||

@@ -87,7 +87,7 @@ export function meteredForPeriod(
 }
 
 /** kWh per unit for electricity bill units; null for other commodities (no demand). */
-export function kwhPerBillUnit(commodity: string, unit: string): number | null {
+function kwhPerBillUnit(commodity: string, unit: string): number | null {
   if (commodity !== "electricity") return null;
   const u = unit.trim().toLowerCase();
   if (u === "mwh") return 1000;

@@ -7,12 +7,10 @@
  */
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/index.ts";
+import type { ComputedBill, PriceRequest } from "../tariff/index.ts";
 import { intervalUsageForBill } from "../tariff/index.ts";
 import { sortBills } from "./context.ts";
 import type { RepriceAlternative, RepriceFn } from "./types.ts";
-import { localMidnightMs } from "../core/time/index.ts";
-import { lowerBound } from "../core/sorted.ts";
 import { expectedProblem } from "../core/errors.ts";
 
 type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;

@@ -427,7 +427,7 @@ function describe(offset: number, series: IntervalSeries, zone: string, score: n
  * offset. Null without enough pairs or response. (OLS standard errors; hourly residuals are
  * autocorrelated, so t is optimistic — the caller asks several independent stretches to agree.)
  */
-export function responseOnset(
+function responseOnset(
   loadAnom: Float64Array,
   loadFirstHour: number,
   temp: { firstHour: number; anom: Float64Array },

@@ -11,9 +11,8 @@
  */
 import { readFile } from "node:fs/promises";
 import { parseArgs } from "node:util";
-import { parse as parseCsv } from "csv-parse/sync";
-import { isIsoDate, isoLocalToMs, isValidZone, localMidnightMs, offsetAtMs } from "../core/time/index.ts";
-import { OhmbookError, UsageError } from "../core/errors.ts";
+import { isIsoDate, isValidZone, localMidnightMs } from "../core/time/index.ts";
+import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssue } from "../core/issues.ts";
 import { loadTariff } from "../tariff/index.ts";
 import { priceBill } from "../tariff/index.ts";
@@ -58,7 +57,7 @@ export function missingInputs(tariff: Tariff, from: string, to: string, given: {
   return [...missing];
 }
 
-import { MAX_BILL_USAGE } from "../ingest/index.ts";
+import { MAX_BILL_USAGE, readMeterIntervalFile } from "../ingest/index.ts";
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
@@ -78,110 +77,25 @@ function date(name: string, s: string | undefined): string {
   return s;
 }
 
-interface CsvIntervals {
-  intervals: IntervalUsage;
-  rowsForMeter: number;
-  rowsOtherMeters: number;
+/**
+ * The first timestamp without a UTC offset in an interval file, as file:line:column text, or null.
+ * Without --timezone such a timestamp has no defined instant, so `price` asks for the zone rather
+ * than assume one.
+ */
+function firstOffsetlessTimestamp(text: string, file: string): string | null {
+  const lines = text.split(/\r\n|\n|\r/);
+  const header = (lines[0] ?? "").replace(/^\uFEFF/, "").split(",").map((h) => h.trim().toLowerCase());
+  const col = header.indexOf("timestamp");
+  if (col < 0) return null;
+  for (let i = 1; i < lines.length; i++) {
+    const cells = lines[i]!.split(",");
+    const ts = (cells[col] ?? "").trim().replace(/^"|"$/g, "");
+    if (ts === "") continue;
+    if (!/(Z|[+-]\d{2}:?\d{2})$/i.test(ts)) return `${file}:${i + 1}:${cells.slice(0, col).join(",").length + (col > 0 ? 2 : 1)}: timestamp '${ts.slice(0, 40)}' has no UTC offset`;
+  }
+  return null;
 }
 
-/**
- * Reads `meter_id,timestamp,value` (optional `interval_minutes`) rows of one meter. Timestamps
- * with an offset are taken as written; without one they are local time in `zone`.
- */
-function readIntervalCsv(text: string, file: string, meterId: string, zone: string, multiplier: number, stampsEnd: boolean): CsvIntervals {
-  let records: string[][];
-  try {
-    records = parseCsv(text, { bom: true, skip_empty_lines: true, trim: true, relax_column_count: false }) as string[][];
-  } catch (e) {
-    throw new UsageError(`${file}: not readable as CSV: ${(e as Error).message}`);
-  }
-  if (records.length === 0) throw new UsageError(`${file}:1:1: the file is empty; expected a header meter_id,timestamp,value`);
-  const header = records[0].map((h) => h.toLowerCase());
-  const col = (name: string): number => header.indexOf(name);
-  const [iMeter, iTs, iVal, iMin] = [col("meter_id"), col("timestamp"), col("value"), col("interval_minutes")];
-  const missing = ["meter_id", "timestamp", "value"].filter((c) => col(c) < 0);
-  if (missing.length > 0) throw new UsageError(`${file}:1:1: missing column(s) ${missing.join(", ")}; found ${records[0].join(", ")}`);
-  const rows: { ms: number; value: number; line: number; minutes: number | null }[] = [];
-  let other = 0;
-  const meters = new Set<string>();
-  const seen = new Set<number>();
-  for (let r = 1; r < records.length; r++) {
-    const rec = records[r];
-    const line = r + 1;
-    meters.add(rec[iMeter]);
-    if (rec[iMeter] !== meterId) {
-      other++;
-      continue;
-    }
-    const ts = rec[iTs];
-    const hasOffset = /(Z|[+-]\d{2}:?\d{2})$/i.test(ts);
-    const instantMs = isoLocalToMs(ts, zone);
-    if (Number.isNaN(instantMs)) throw new UsageError(`${file}:${line}:${iTs + 1}: timestamp '${ts}' is not ISO 8601 (e.g. 2025-01-31T13:45:00-05:00)`);
-    const v = rec[iVal];
-    if (!NUMBER.test(v)) throw new UsageError(`${file}:${line}:${iVal + 1}: value '${v}' is not a number`);
-    let minutes: number | null = null;
-    if (iMin >= 0 && rec[iMin] !== "") {
-      if (!NUMBER.test(rec[iMin]) || !(Number(rec[iMin]) > 0)) throw new UsageError(`${file}:${line}:${iMin + 1}: interval_minutes '${rec[iMin]}' is not a positive number`);
-      minutes = Number(rec[iMin]);
-    }
-    let ms = instantMs;
-    if (!hasOffset) {
-      // Autumn DST: a wall time in the repeated hour happens twice; the first row is the first
-      // pass, a repeat of it is the second pass (both readings are real).
-      const candidates = instantsOfWallTime(ms, zone);
-      ms = candidates.find((t) => !seen.has(t)) ?? candidates[0] ?? ms;
-    }
-    seen.add(ms);
-    rows.push({ ms, value: Number(v) * multiplier, line, minutes });
-  }
-  if (rows.length === 0) {
-    throw new UsageError(`${file}: no rows for meter '${meterId}'; meters in the file: ${[...meters].slice(0, 10).join(", ") || "none"}`);
-  }
-  rows.sort((a, b) => a.ms - b.ms);
-  for (let i = 1; i < rows.length; i++) {
-    if (rows[i].ms === rows[i - 1].ms) {
-      throw new UsageError(`${file}:${rows[i].line}:${iTs + 1}: timestamp repeats the one on line ${rows[i - 1].line} for meter '${meterId}'`);
-    }
-  }
-  let minutes = rows.find((r) => r.minutes !== null)?.minutes ?? null;
-  if (minutes === null) {
-    const counts = new Map<number, number>();
-    for (let i = 1; i < rows.length; i++) {
-      const d = (rows[i].ms - rows[i - 1].ms) / 60_000;
-      counts.set(d, (counts.get(d) ?? 0) + 1);
-    }
-    let best = 0;
-    for (const [d, n] of counts) if (n > (counts.get(best) ?? 0)) best = d;
-    if (!(best > 0)) throw new UsageError(`${file}: cannot infer the interval length of meter '${meterId}' from one row; add an interval_minutes column`);
-    minutes = best;
-  }
-  const shiftMs = stampsEnd ? minutes * 60_000 : 0; // an end stamp names the interval that just finished
-  return {
-    intervals: {
-      startMs: Float64Array.from(rows, (r) => r.ms - shiftMs),
-      values: Float64Array.from(rows, (r) => r.value),
-      intervalMinutes: minutes,
-    },
-    rowsForMeter: rows.length,
-    rowsOtherMeters: other,
-  };
-}
-
-/**
- * Every instant whose local wall-clock time in `zone` equals that of `ms`, earliest first: two in
- * the repeated hour when clocks go back, one otherwise (none in the skipped spring hour).
- */
-function instantsOfWallTime(ms: number, zone: string): number[] {
-  const offset = (t: number): number => offsetAtMs(zone, t);
-  const wallMs = ms + offset(ms);
-  const offsets = new Set([offset(ms - 3 * 3_600_000), offset(ms), offset(ms + 3 * 3_600_000)]);
-  const out: number[] = [];
-  for (const o of offsets) {
-    const t = wallMs - o;
-    if (offset(t) === o && !out.includes(t)) out.push(t);
-  }
-  return out.sort((a, b) => a - b);
-}
 
 function money(n: number): string {
   return n.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 });
@@ -324,8 +238,27 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
   if (csvPath !== undefined) {
     const stamps = s("timestamps") ?? "start";
     if (stamps !== "start" && stamps !== "end") throw new UsageError(`--timestamps must be start or end, got '${stamps}'`);
-    const read = readIntervalCsv(await readText(csvPath, "interval file"), csvPath, s("meter") as string, timezone, multiplier, stamps === "end");
-    intervals = read.intervals;
+    const text = await readText(csvPath, "interval file");
+    if (s("timezone") === undefined) {
+      const where = firstOffsetlessTimestamp(text, csvPath);
+      if (where) throw new UsageError(`${where}; pass --timezone ZONE (the building's IANA zone, e.g. America/Chicago) so local times are read as such, or write each timestamp with its offset`);
+    }
+    const meterId = s("meter") as string;
+    const read = await readMeterIntervalFile(csvPath, { fileLabel: csvPath, meterId, zone: timezone, stamp: stamps });
+    const errors = read.issues.filter((x) => x.severity === "error");
+    for (const w of read.issues.filter((x) => x.severity === "warning")) io.err(`${formatIssue(w)}\n`);
+    if (errors.length > 0) throw new InputError(errors);
+    if (read.series === null) {
+      throw new UsageError(`${csvPath}: no rows for meter '${meterId}'; meters in the file: ${read.otherMeters.slice(0, 10).join(", ") || "none"}`);
+    }
+    // The series is a regular grid; a missing reading is NaN there and simply has no interval here.
+    const keep: number[] = [];
+    read.series.values.forEach((v, i) => { if (Number.isFinite(v)) keep.push(i); });
+    intervals = {
+      startMs: Float64Array.from(keep, (i) => read.series!.startMs[i]!),
+      values: Float64Array.from(keep, (i) => read.series!.values[i]! * multiplier),
+      intervalMinutes: read.series.intervalMinutes,
+    };
     const startMs = localMidnightMs(from, timezone);
     const endMs = localMidnightMs(to, timezone);
     let inPeriod = 0;

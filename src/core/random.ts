@@ -8,7 +8,7 @@
  * The raw generator: each call returns the next unsigned 32-bit integer.
  * @example mulberry32Uint32(1)() // the same integer on every run
  */
-export function mulberry32Uint32(seed: number): () => number {
+function mulberry32Uint32(seed: number): () => number {
   let a = seed >>> 0;
   return () => {
     a = (a + 0x6d2b79f5) >>> 0;

@@ -8,7 +8,7 @@
  */
 
 /** Joules in one Btu (International Table). */
-export const J_PER_BTU = 1055.05585262;
+const J_PER_BTU = 1055.05585262;
 /** kWh in one therm: 100,000 Btu = 105.505585262 MJ, ÷ 3.6 MJ/kWh ≈ 29.3071. */
 export const KWH_PER_THERM = (100_000 * J_PER_BTU) / 3_600_000;
 /** kBtu in one kWh ≈ 3.412142. */

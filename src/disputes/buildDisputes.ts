@@ -13,7 +13,7 @@ import type { CorrectedBill, Finding } from "../audit/index.ts";
 import { groupLines } from "../audit/index.ts";
 import { claimOf } from "../audit/index.ts";
 import type { Dispute, DisputeBasis, DisputeBill, DisputeLine } from "./types.ts";
-import { roundCents } from "../core/money.ts";
+import { moneyText, roundCents } from "../core/money.ts";
 import { fnv1a32 } from "../core/random.ts";
 
 /** The basis a check's corrected total rests on (outputs.md `basis`). */
@@ -151,7 +151,7 @@ export function buildDisputes(input: DisputeInput): Dispute[] {
   for (const d of candidates) {
     const clash = d.billIds.map((id) => owner.get(id)).find((x) => x !== undefined);
     if (clash) {
-      clash.notes.push(`Also on ${d.billIds.join(", ")}: ${d.title} (${d.checks.join(", ")}), ${d.claimAmount.toFixed(2)} by itself; not claimed separately so the bill is not claimed twice.`);
+      clash.notes.push(`Also on ${d.billIds.join(", ")}: ${d.title} (${d.checks.join(", ")}), ${moneyText(d.claimAmount)} by itself; not claimed separately so the bill is not claimed twice.`);
       for (const c of d.checks) if (!clash.checks.includes(c)) clash.checks.push(c);
       continue;
     }

@@ -57,7 +57,7 @@ export const MIN_TRACK_RECORD_MONTHS = 24;
 /** Months of bills before a cut for the meter to be forecast from it. */
 export const MIN_FIT_MONTHS = 12;
 /** Most origins looked at (the oldest are dropped first). */
-export const MAX_ORIGINS = 10;
+const MAX_ORIGINS = 10;
 
 /** One meter at one origin: the months compared and what each forecast said. */
 export interface BacktestMeter {

@@ -50,14 +50,14 @@ export function billsKnownAt(bills: readonly Bill[], asOf: string): Bill[] {
 }
 
 /** The hourly series cut before `untilMs`. */
-export function weatherBefore(w: WeatherSeries | undefined, untilMs: number): WeatherSeries | undefined {
+function weatherBefore(w: WeatherSeries | undefined, untilMs: number): WeatherSeries | undefined {
   if (!w) return undefined;
   const hours = Math.max(0, Math.min(w.tempC.length, Math.ceil((untilMs - w.startMs) / HOUR_MS)));
   return { ...w, tempC: w.tempC.subarray(0, hours), filled: w.filled.subarray(0, hours) };
 }
 
 /** Interval readings starting before `untilMs`. */
-export function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): IntervalSeries | undefined {
+function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): IntervalSeries | undefined {
   if (!s) return undefined;
   const n = lowerBound(s.startMs, untilMs);
   return n === 0 ? undefined : { ...s, startMs: s.startMs.subarray(0, n), values: s.values.subarray(0, n) };

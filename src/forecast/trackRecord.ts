@@ -117,7 +117,7 @@ export function compareWithActuals(forecast: MeterForecast, allBills: readonly B
   return { ...base, comparisons, model, naive, note: null };
 }
 
-export function summarize(actual: number[], forecast: number[], forecastTotal: number, bands: Band[] | null): AccuracySummary | null {
+function summarize(actual: number[], forecast: number[], forecastTotal: number, bands: Band[] | null): AccuracySummary | null {
   const actualTotal = actual.reduce((a, b) => a + b, 0);
   if (!(actualTotal > 0)) return null;
   return {

@@ -27,7 +27,7 @@ import { standardNormal, studentScale, type Uniform } from "./random.ts";
 import { type CalendarMonth } from "../core/time/index.ts";
 
 /** Relative scatter assumed for the fallback when no calendar month appears in two years. */
-export const FALLBACK_DEFAULT_RELATIVE_SD = 0.1;
+const FALLBACK_DEFAULT_RELATIVE_SD = 0.1;
 
 export type UsageMethod = "change-point" | "same-month-average";
 

@@ -50,7 +50,7 @@ export interface LoadOptions {
  * for a tariff with thousands of charges while refusing a wrong file before YAML parsing,
  * whose memory use grows with the text (common practice).
  */
-export const MAX_YAML_BYTES = 1 << 20;
+const MAX_YAML_BYTES = 1 << 20;
 
 /**
  * Reads the portfolio folder `dir`. Issue paths and report paths are relative to the
@@ -283,3 +283,4 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
 // Used by other folders (see test/architecture/layers.test.ts).
 export { describeFsError } from "./inputFile.ts";
 export { MAX_BILL_USAGE } from "./limits.ts";
+export { readMeterIntervalFile, type MeterIntervalFile } from "./meterIntervalFile.ts";

@@ -76,7 +76,7 @@ export function parsePercent(value: unknown): number | null {
 }
 
 /** Hours in a leap year: no detector window or run can usefully exceed a year of data. */
-export const MAX_CLEANING_HOURS = 8784;
+const MAX_CLEANING_HOURS = 8784;
 
 /**
  * Limits of one `cleaning:` setting, chosen from its name (the detectors' naming convention):
@@ -86,7 +86,7 @@ export const MAX_CLEANING_HOURS = 8784;
  * `negative_levels`, and `min_absolute`, `tolerance` in meter units) up to 1e9, far above any
  * meaningful threshold but small enough to keep arithmetic finite.
  */
-export function cleaningLimit(field: string): { max: number; whole: boolean; reason: string } {
+function cleaningLimit(field: string): { max: number; whole: boolean; reason: string } {
   if (field.endsWith("Hours")) return { max: MAX_CLEANING_HOURS, whole: false, reason: `hours: at most ${MAX_CLEANING_HOURS} (one leap year); a longer window cannot be evaluated` };
   if (field.endsWith("Intervals")) return { max: 105_408, whole: true, reason: "a whole number of intervals, at most 105,408 (a leap year of 5-minute intervals)" };
   if (field.endsWith("Share")) return { max: 1, whole: false, reason: "a share is a fraction from 0 to 1" };

@@ -9,7 +9,7 @@ import { M2_PER_FT2 } from "../core/units.ts";
 
 const ID_RE = /^[A-Za-z0-9_-]+$/;
 
-export const BUILDINGS_SPEC = {
+const BUILDINGS_SPEC = {
   required: ["building_id", "name", "floor_area", "timezone", "weather_station"],
   optional: ["area_unit", "use_type", "tenant_page"],
 } as const;

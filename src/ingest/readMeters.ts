@@ -13,7 +13,7 @@ export const UNITS_BY_COMMODITY: Record<Commodity, readonly string[]> = {
   water: ["gal", "ccf", "m3"],
 };
 
-export const METERS_SPEC = {
+const METERS_SPEC = {
   required: ["meter_id", "building_id", "commodity", "unit", "tariff"],
   optional: ["multiplier", "account"],
 } as const;

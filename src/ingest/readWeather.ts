@@ -47,7 +47,7 @@ async function readHeaderLine(path: string, ctx: FileContext): Promise<string | 
 }
 
 /** Which layout a header announces, and the temperature unit. */
-export function weatherLayoutOf(header: string): { layout: WeatherLayout; unit: "c" | "f" } {
+function weatherLayoutOf(header: string): { layout: WeatherLayout; unit: "c" | "f" } {
   const cols = header.split(",").map((c) => c.trim().replace(/^"|"$/g, "").toLowerCase());
   if (cols.includes("timestamp")) {
     if (cols.includes("temperature_c")) return { layout: "hourly", unit: "c" };

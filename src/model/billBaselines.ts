@@ -240,7 +240,7 @@ export function fitMeterBaseline(options: {
  * The degree-day model and its leave-one-out band for every bill with weather (train on actual
  * reads, one bill per period; band every bill, estimates and repeats included).
  */
-export function degreeDayBand(
+function degreeDayBand(
   options: { building: Building; bills: Bill[]; weather: WeatherSeries | undefined },
   tempUnit: "C" | "F",
 ): Pick<MeterBaseline, "degreeDay" | "expectedByBill"> {

@@ -168,10 +168,10 @@ export function cddPerDay(profile: TemperatureProfile, base: number): number {
 
 export type DegreeDayForm = "constant" | "HO" | "CO" | "HC";
 
-export const DEGREE_DAY_FORMS: readonly DegreeDayForm[] = ["constant", "HO", "CO", "HC"];
+const DEGREE_DAY_FORMS: readonly DegreeDayForm[] = ["constant", "HO", "CO", "HC"];
 
 /** p for each form: intercept + slopes + searched bases. */
-export const DEGREE_DAY_PARAMETER_COUNT: Record<DegreeDayForm, number> = { constant: 1, HO: 3, CO: 3, HC: 5 };
+const DEGREE_DAY_PARAMETER_COUNT: Record<DegreeDayForm, number> = { constant: 1, HO: 3, CO: 3, HC: 5 };
 
 /** One billing period. */
 export interface DegreeDayPeriod {
@@ -196,7 +196,7 @@ export interface BaseSearchRange {
  * roughly 40–75 °F for houses); 0.5 °C steps keep the coarse grid at 41 values and the refine
  * step of 0.05 °C is well below what monthly data can resolve. °F: the same span, 41–77 °F.
  */
-export const DEFAULT_BASE_RANGE: Record<"C" | "F", BaseSearchRange> = {
+const DEFAULT_BASE_RANGE: Record<"C" | "F", BaseSearchRange> = {
   C: { min: 5, max: 25, step: 0.5, refineStep: 0.05 },
   F: { min: 41, max: 77, step: 1, refineStep: 0.1 },
 };

@@ -137,7 +137,6 @@ export function guideline14Stats(
 ): Guideline14Stats {
   const cv = cvRmsePct(y, yHat, p);
   const nmbe = nmbePct(y, yHat, p);
-  const limits = GUIDELINE14_LIMITS[resolution];
   return {
     n: y.length,
     p,

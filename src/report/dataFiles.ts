@@ -25,7 +25,7 @@ import { weatherGapDetections } from "../clean/index.ts";
 import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT, siteKwhLast12m } from "./usageSummary.ts";
 import { unitFactor } from "../tariff/index.ts";
 import { kwhPerM2ToKbtuPerFt2 } from "./energy.ts";
-import { roundCents } from "../core/money.ts";
+import { moneyCell, roundCents } from "../core/money.ts";
 
 export interface OutputsInput {
   portfolio: Portfolio<Tariff>;
@@ -84,7 +84,7 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
 const FORECAST_COLUMNS = ["building_id", "meter_id", "month", "usage_p50", "cost_p10", "cost_p50", "cost_p90"] as const;
 
 function roundForecastRow(row: ForecastRow): ForecastRow {
-  return { ...row, usage_p50: Number(row.usage_p50.toFixed(3)), cost_p10: Number(row.cost_p10.toFixed(2)), cost_p50: Number(row.cost_p50.toFixed(2)), cost_p90: Number(row.cost_p90.toFixed(2)) };
+  return { ...row, usage_p50: Number(row.usage_p50.toFixed(3)), cost_p10: roundCents(row.cost_p10), cost_p50: roundCents(row.cost_p50), cost_p90: roundCents(row.cost_p90) };
 }
 
 function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter: Map<string, string>): string {
@@ -103,10 +103,10 @@ function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter:
       // a bill that was not compared has no difference (its estimate is still given)
       difference: state === "exact" ? row.difference : "",
       check_state: state,
-      metered_computed_total: onMeter ? onMeter.total.toFixed(2) : "",
-      metered_difference: onMeter && onMeter.exact ? roundCents((billed.get(row.bill_id) ?? 0) - onMeter.total).toFixed(2) : "",
+      metered_computed_total: onMeter ? moneyCell(onMeter.total) : "",
+      metered_difference: onMeter && onMeter.exact ? moneyCell((billed.get(row.bill_id) ?? 0) - onMeter.total) : "",
       dispute_id: claim?.id ?? "",
-      claim_amount: claim ? claim.amount.toFixed(2) : "",
+      claim_amount: claim ? moneyCell(claim.amount) : "",
       not_priced_reason: p?.error ?? "",
       metered_usage_raw: metered ? round(metered.raw, 3) : null,
       metered_usage_cleaned: metered ? round(metered.cleaned, 3) : null,

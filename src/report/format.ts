@@ -4,6 +4,7 @@
  * become the placeholder `NOT_AVAILABLE`.
  */
 import { addDays, formatDate as formatCalendarDate, formatMonth } from "../core/time/index.ts";
+import { roundCents } from "../core/money.ts";
 
 /** Shown wherever a value is absent or not a finite number. */
 export const NOT_AVAILABLE = "—";
@@ -51,8 +52,9 @@ function money(amount: number, currency: string, digits: number): string {
  */
 export function formatMoney(amount: number | null | undefined, currency: string): string {
   if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
-  // -0 would print as "-$0.00"
-  return money(amount === 0 ? 0 : amount, currency, 2);
+  // Rounded by the one money rule first (Intl would round 1.005 down); -0 would print as "-$0.00".
+  const rounded = roundCents(amount);
+  return money(rounded === 0 ? 0 : rounded, currency, 2);
 }
 
 /**
@@ -61,7 +63,7 @@ export function formatMoney(amount: number | null | undefined, currency: string)
  */
 export function formatMoneySigned(amount: number | null | undefined, currency: string): string {
   if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
-  const rounded = Math.round(amount * 100) / 100;
+  const rounded = roundCents(amount);
   if (rounded === 0) return formatMoney(0, currency);
   return (rounded > 0 ? "+" : "−") + formatMoney(Math.abs(rounded), currency);
 }

@@ -24,7 +24,7 @@ export function localMidnightMs(date: string, zone: string): number {
 }
 
 /** True when the local date is a working day under the rule: Monday–Friday and not a holiday. */
-export function isWorkday(day: LocalDay, holidays: HolidayRule): boolean {
+function isWorkday(day: LocalDay, holidays: HolidayRule): boolean {
   if (day.isoWeekday >= 6) return false;
   if (holidays === null) return true;
   if (holidays.kind === "us-federal") return !usFederalHolidays(Number(day.date.slice(0, 4))).has(day.date);
@@ -67,7 +67,7 @@ const tables = new WeakMap<TariffVersion, Int8Array>();
  * Lookup table of period indices for a version: entry ((month − 1) × 2 + workday) × 1440 + minute.
  * Built once per version (35 KB) and cached.
  */
-export function periodTable(version: TariffVersion): Int8Array {
+function periodTable(version: TariffVersion): Int8Array {
   let table = tables.get(version);
   if (table) return table;
   table = new Int8Array(12 * 2 * 1440);

@@ -86,7 +86,7 @@ export type Pricer = (request: PriceRequest) => ComputedBill;
  * coverage, so a period with a few missing intervals is not compared as if complete (the audit's
  * usage-vs-meter uses the same rule).
  */
-export function meteredUsageOf(intervals: IntervalUsage, bill: Bill, timezone: string): number {
+function meteredUsageOf(intervals: IntervalUsage, bill: Bill, timezone: string): number {
   let sum = 0;
   for (let i = 0; i < intervals.values.length; i++) sum += intervals.values[i];
   const expected = (localMidnightMs(bill.periodEnd, timezone) - localMidnightMs(bill.periodStart, timezone)) / (intervals.intervalMinutes * 60_000);

@@ -84,6 +84,15 @@ describe("architecture", () => {
     expect(inner).toEqual([]);
   });
 
+  it("every audit check has its own test file", () => {
+    const checks = readdirSync(join(SRC, "audit", "checks"))
+      .filter((f) => /export function check[A-Z]/.test(readFileSync(join(SRC, "audit", "checks", f), "utf8")))
+      .map((f) => f.replace(/\.ts$/, ""));
+    expect(checks.length).toBeGreaterThanOrEqual(13);
+    const tests = new Set(readdirSync(join(SRC, "..", "test", "audit", "checks")));
+    expect(checks.filter((c) => !tests.has(`${c}.test.ts`))).toEqual([]);
+  });
+
   it("luxon and Intl dates are used only in src/core/time", () => {
     const offenders = sourceFiles(SRC)
       .filter((f) => !relative(SRC, f).startsWith(`core${sep}time${sep}`))

@@ -6,7 +6,7 @@ import type { ComputedLine } from "../../tariff/index.ts";
  * Label key: case- and space-insensitive, as the input contract says.
  * @example labelKey("  Customer   Charge ") === labelKey("customer charge") // true
  */
-export function labelKey(label: string): string {
+function labelKey(label: string): string {
   return label.toLowerCase().replace(/\s+/g, "");
 }
 

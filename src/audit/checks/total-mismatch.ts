@@ -17,7 +17,7 @@ import { repricedCorrection } from "../corrections.ts";
 import { moneyText, roundCents } from "../../core/money.ts";
 
 /** Evidence rows: every charge (printed vs computed) and the total. Shared with other checks. */
-export function billVsComputedRows(ctx: AuditContext, bill: Bill, computed: ComputedBill): EvidenceRow[] {
+function billVsComputedRows(ctx: AuditContext, bill: Bill, computed: ComputedBill): EvidenceRow[] {
   const printed = ctx.linesByBill.get(bill.billId) ?? [];
   const rows: EvidenceRow[] = groupLines(printed, computed.lines).map((g) => ({
     label: g.computedLines.length

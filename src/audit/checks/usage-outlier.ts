@@ -32,7 +32,7 @@ function shiftMonth(yyyymm: string, years: number): string {
 const SWING_LIMIT = 1.5;
 
 /** 90th / 10th percentile of use per day over a meter's bills (1 when too few bills or zero use). */
-export function seasonalSwing(bills: Bill[]): number {
+function seasonalSwing(bills: Bill[]): number {
   const v = bills.map(perDay).filter((x) => x > 0).sort((a, b) => a - b);
   if (v.length < 4) return 1;
   const q = (p: number) => v[Math.min(v.length - 1, Math.max(0, Math.round(p * (v.length - 1))))];

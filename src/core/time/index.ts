@@ -8,7 +8,7 @@ export {
   civilDay, localMs, localClockMs, localPartsOf, localDateOf, localTimes, hoursOfWeek, intervalOfWeek, hourOfWeek,
   type LocalDay, type LocalParts, type LocalTimes,
 } from "./local.ts";
-export { LocalTimeResolver, sharedResolver, localMidnightMs, isoLocalToMs, type LocalTimeKind } from "./toUtc.ts";
+export { LocalTimeResolver, sharedResolver, localMidnightMs, type LocalTimeKind } from "./toUtc.ts";
 export { daysBetween, addDays, isoDateToDayNumber, dayNumberToIsoDate, isIsoDate } from "./dates.ts";
 export {
   daysInMonth, addMonthsIso, shiftMonth, calendarMonth, monthsAfter, spreadOverMonths, LocalMonthCalendar,

@@ -138,14 +138,3 @@ export function localMidnightMs(isoDate: string, zone: string): number {
 }
 
 const midnightCache = new Map<string, number>();
-
-/**
- * UTC instant of an ISO local date-time (`YYYY-MM-DDTHH:mm[:ss]`) in `zone`; a timestamp that
- * carries its own offset (`Z`, `+02:00`) keeps it. Returns NaN when it is not a valid timestamp.
- * @example isoLocalToMs("2025-01-01T00:00", "America/Chicago") // Date.UTC(2025, 0, 1, 6)
- */
-export function isoLocalToMs(iso: string, zone: string): number {
-  const hasOffset = /(?:Z|[+-]\d{2}:?\d{2})$/i.test(iso);
-  const dt = hasOffset ? DateTime.fromISO(iso, { setZone: true }) : DateTime.fromISO(iso, { zone });
-  return dt.isValid ? dt.toMillis() : Number.NaN;
-}

@@ -87,7 +87,7 @@ export function espiMeterId(buildingId: string, commodity: Commodity, usagePoint
 }
 
 /** The local calendar date nearest to instant `ms` in `zone` (a billing period boundary). */
-export function nearestLocalDate(ms: number, zone: string): string {
+function nearestLocalDate(ms: number, zone: string): string {
   const local = localPartsOf(ms, zone);
   return local.hour >= 12 ? addDays(local.date, 1) : local.date;
 }
@@ -112,7 +112,7 @@ export async function planFeed(path: string, ctx: MapContext): Promise<FeedPlan>
 }
 
 /** Maps collected entries to meters and bills (pure; exported for tests). */
-export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
+function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
   const issues: InputIssue[] = [];
   const error = (line: number, message: string, hint: string): void => {
     issues.push({ file: ctx.fileLabel, line, column: 0, severity: "error", message, hint });

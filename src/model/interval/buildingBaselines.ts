@@ -16,7 +16,7 @@ const WEEK_MS = 7 * 24 * 3_600_000;
  * Settings used in a build: three 4-week folds and no log1p variant keep a meter-year to a few
  * seconds (the full search is available to callers of fitIntervalBaseline).
  */
-export const BUILD_INTERVAL_OPTIONS: IntervalBaselineOptions = { cv: { folds: 3 }, tryLog1p: false };
+const BUILD_INTERVAL_OPTIONS: IntervalBaselineOptions = { cv: { folds: 3 }, tryLog1p: false };
 
 /** One meter's hourly baseline, or why there is none (a meter's failure never stops the building). */
 export interface IntervalBaselineOutcome {
