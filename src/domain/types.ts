@@ -44,6 +44,8 @@ export interface PortfolioSettings {
    * (they are shifted back by that much), and whether strong suggestions are applied automatically.
    */
   alignment: { offsetsHours: Record<string, number>; auto: boolean };
+  /** One contact line per building id for its tenant page (`contacts:` in portfolio.yaml); absent = none given. */
+  contacts?: Record<string, string>;
 }
 
 export interface Building {

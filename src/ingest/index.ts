@@ -122,6 +122,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
 
   // portfolio.yaml
   let settings: PortfolioSettings = { name: "", ...structuredClone(DEFAULT_SETTINGS) };
+  let contactPositions: Record<string, { line: number; column: number }> = {};
   const yamlLabel = label("portfolio.yaml");
   const yamlText = await readInputText(rootReal, abs("portfolio.yaml"), MAX_YAML_BYTES);
   if (!yamlText.ok && !yamlText.missing) fatalIssue(yamlLabel, yamlText.message, yamlText.hint);
@@ -134,6 +135,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     ctx.report.rowsRead = 1;
     if (parsed.settings) {
       settings = parsed.settings;
+      contactPositions = parsed.contactPositions ?? {};
       ctx.report.rowsUsed = 1;
     } else {
       ctx.report.rowsRejected = 1;
@@ -152,6 +154,17 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     close(bCtx);
   }
   const buildingById = new Map(buildings.map((b) => [b.buildingId, b]));
+  // A contact line is shown only on a tenant page: say so when it cannot be.
+  for (const id of Object.keys(settings.contacts ?? {})) {
+    const b = buildingById.get(id);
+    if (b && b.tenantPage) continue;
+    const pos = contactPositions[id] ?? { line: 0, column: 0 };
+    issues.push({
+      file: yamlLabel, ...pos, severity: "warning",
+      message: b ? `contact for ${id} is not shown: the building has no tenant page` : `contacts names building ${JSON.stringify(id)}, which is not in buildings.csv`,
+      hint: b ? "set tenant_page to yes for it in buildings.csv, or remove the contact" : "use a building_id from buildings.csv",
+    });
+  }
 
   // tariffs/*.yaml
   const tariffNames = await listFiles("tariffs", [".yaml", ".yml"]);

@@ -60,12 +60,12 @@ export function verdictFor(stats: ReportFitStats | null): { tone: "ok" | "warn" 
   const cv = `CV(RMSE) ${pct(stats.cvRmsePct)}`;
   const nmbe = `NMBE ${pct(stats.nmbePct, 2)}`;
   if (meetsMonthlyGuideline14(stats)) {
-    return { tone: "ok", text: `Meets ASHRAE Guideline 14 for monthly data: ${cv} (limit ${G14_MONTHLY_CVRMSE_PCT} %) and ${nmbe} (limit ±${G14_MONTHLY_NMBE_PCT} %). Weather-normalized figures for this meter can be relied on.` };
+    return { tone: "ok", text: `Close fit: ${cv} and ${nmbe} are inside the monthly limits of ASHRAE Guideline 14 (${G14_MONTHLY_CVRMSE_PCT} % and ±${G14_MONTHLY_NMBE_PCT} %), so this meter's weather-normalized figures are fit for comparing one year with another.` };
   }
   const misses: string[] = [];
   if (stats.cvRmsePct > G14_MONTHLY_CVRMSE_PCT) misses.push(`${cv} is above ${G14_MONTHLY_CVRMSE_PCT} %`);
   if (Math.abs(stats.nmbePct) > G14_MONTHLY_NMBE_PCT) misses.push(`${nmbe} is outside ±${G14_MONTHLY_NMBE_PCT} %`);
-  return { tone: "warn", text: `Does not meet ASHRAE Guideline 14 for monthly data: ${misses.join(" and ")}. Treat weather-normalized figures for this meter as rough.` };
+  return { tone: "warn", text: `Loose fit: ${misses.join(" and ")}, outside the monthly limits of ASHRAE Guideline 14. Treat this meter's weather-normalized figures as rough.` };
 }
 
 function statsTable(b: ReportBaseline, stats: ReportFitStats): TableModel {

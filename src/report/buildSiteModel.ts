@@ -73,7 +73,7 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     meterBills: contexts.flatMap((ctx, i) => ctx.meters.map((m) => withCanonical(buildMeterBillsPage(input, ctx, m, analyses[i], linesByBill)))),
     tenants: contexts
       .filter((ctx) => ctx.building.tenantPage)
-      .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines))),
+      .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines, settings.contacts?.[ctx.building.buildingId] ?? null))),
     methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf), settings.tolerances)),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
     disputes: withCanonical(buildDisputesPage(input)),

@@ -11,6 +11,7 @@ import { baselineScatterSpec, baselineTimeSpec, heatmapSpec, rankingSpec } from 
 import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
 import { heatmapSvg } from "./charts/heatmapSvg.ts";
 import { forecastSpec } from "./charts/forecastSpec.ts";
+import { tenantSpec } from "./charts/tenantSpec.ts";
 
 /** The data files the dispute list offers for download, when this build wrote them. */
 const DISPUTE_FILES = ["disputes.csv", "disputes.json"];
@@ -37,6 +38,8 @@ export function chartSpec(chart: ChartModel): Record<string, unknown> {
       return rankingSpec(chart);
     case "forecast-band":
       return forecastSpec(chart);
+    case "tenant-months":
+      return tenantSpec(chart);
   }
 }
 
@@ -86,6 +89,12 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
     const quality = page.quality ? { ...page.quality, charts: await prepareAll(page.quality.charts) } : null;
     meterBills.push({ ...page, baseline, quality });
   }
+  const tenants = [];
+  for (const page of model.tenants) {
+    const commodities = [];
+    for (const c of page.commodities) commodities.push({ ...c, chart: await prepareMaybe(c.chart) });
+    tenants.push({ ...page, commodities });
+  }
   return {
     ...model,
     index: {
@@ -95,6 +104,7 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
     },
     buildings,
     meterBills,
+    tenants,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
     disputes: { ...model.disputes, downloads: describeDataFiles(pick(sizes, DISPUTE_FILES), model.disputes.root) },
   };
