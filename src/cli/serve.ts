@@ -362,6 +362,11 @@ export async function startServe(options: ServeOptions): Promise<ServeSession> {
   const dirInfo = await stat(absDir).catch(() => null);
   if (!dirInfo?.isDirectory()) throw new UsageError(`${dir} is not a folder; give the portfolio folder: ohmbook serve DIR`);
 
+  // A wrong --out (inside the portfolio, a folder ohmbook did not write) is refused before anything starts.
+  if (options.outDir !== undefined) {
+    const { checkOutputFolder } = await import("../site/index.ts");
+    await checkOutputFolder(options.outDir, dir);
+  }
   const ownOut = options.outDir === undefined;
   const scratchParent = ownOut ? await mkdtemp(join(tmpdir(), "ohmbook-serve-")) : null;
   const outDir = resolve(options.outDir ?? join(scratchParent!, "site"));

@@ -132,6 +132,22 @@ describe("serving files", () => {
     expect(out).toMatch(/ohmbook serve \[DIR\]/);
     expect(await runCli(["serve", "x", "--port", "http"], io)).toBe(1);
     expect(err).toMatch(/--port must be a number/);
+    err = "";
+    expect(await runCli(["serve", "no/such/folder"], io)).toBe(1);
+    expect(err).toMatch(/no\/such\/folder is not a folder/);
+  });
+
+  it("an output folder inside the portfolio is refused before serving starts", async () => {
+    const dir = await mkdtemp(join(tmpdir(), "ohmbook-serve-out-"));
+    try {
+      await writeStarterPortfolio(dir);
+      let err = "";
+      const io = { out: () => undefined, err: (s: string) => void (err += s), isTty: false };
+      expect(await runCli(["serve", dir, "--out", join(dir, "site"), "--port", "0"], io)).toBe(1);
+      expect(err).toMatch(/refusing to write the site/);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
   });
 });
 
