@@ -10,6 +10,7 @@ import { mkdtemp, readFile, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { runCli, type CliIo } from "../../src/cli/main.ts";
+import { formatFinding, type FindingRow } from "../../src/cli/serve.ts";
 
 const README = readFileSync(new URL("../../README.md", import.meta.url), "utf8");
 const TARIFFS = readFileSync(new URL("../../docs/tariffs.md", import.meta.url), "utf8");
@@ -113,6 +114,8 @@ describe("README tutorial, from init to a first dispute", () => {
       const quotedFinding = /^ {2}\+ (\w+) ([\w-]+) bill (\S+) \(.*?\): (.*)$/m.exec(tutorial);
       expect(quotedFinding).not.toBeNull();
       expect(findings.map((f) => [f.severity, f.check, f.bill_id, f.message])).toEqual([[quotedFinding![1], quotedFinding![2], quotedFinding![3], quotedFinding![4]]]);
+      // …and the line is the one serve prints for it.
+      expect(formatFinding("+", findings[0] as unknown as FindingRow)).toBe(quotedFinding![0]);
 
       // 6. the claim on disputes.html and in data/disputes.csv.
       const statedClaim = /one claim of ([\d,]+\.\d\d) USD/.exec(tutorial)?.[1];
