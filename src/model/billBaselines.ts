@@ -5,7 +5,7 @@
  *    weather-normalized annual use: Σ over the 12 months of a typical year of predicted use/day at
  *    that month's typical mean temperature × days in the month (365-day year), and the per-bill
  *    weather adjustment;
- *  - variable-base degree-day regression (src/model/degreeDayRegression.ts, PRISM-style) with a
+ *  - variable-base degree-day regression (src/model/degreeDayRegression.ts; the variable-base degree-day method of Fels 1986) with a
  *    leave-one-out band (src/model/outlierBand.ts): the expected-usage band per bill for the
  *    `usage-outlier` audit check. Degree-days see the cold days inside a mild month that a mean
  *    temperature hides, which is what kept the change-point band from judging shoulder months.

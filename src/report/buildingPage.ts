@@ -36,7 +36,7 @@ export interface BuildingContext {
 
 /**
  * Billed cost of a building's meters over the last 12 months (each meter's own window, see
- * src/pipeline/usageSummary.ts), in currency; null without an as-of date or bills.
+ * src/report/usageSummary.ts), in currency; null without an as-of date or bills.
  */
 export function last12mCost(ctx: Pick<BuildingContext, "meters" | "billsByMeter" | "asOf">): number | null {
   return ctx.asOf === null ? null : metersCostLast12m(ctx.meters, ctx.billsByMeter, ctx.asOf);

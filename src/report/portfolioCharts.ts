@@ -130,7 +130,7 @@ export function findingsByCheckTable(findings: readonly ReportFinding[] | undefi
  * Weather-normalized change of portfolio site energy, last 12 months vs the 12 before, in
  * percent: each bill's use is weather-adjusted (× expected at typical ÷ expected at actual
  * weather) and prorated into each window. Each meter's window is its own last 12 months (the
- * 365 days up to its last read, no later than as-of; src/pipeline/usageSummary.ts) and the
+ * 365 days up to its last read, no later than as-of; src/report/usageSummary.ts) and the
  * 365 days before. Only meters with a baseline for every bill touching both windows and bills
  * covering the prior window's start count. Null when none qualifies.
  */

@@ -16,7 +16,7 @@ export function assertZone(zone: string): void {
 
 /**
  * UTC instant (ms) of local midnight starting `date` in `zone`: the shared, cached helper of
- * src/core/time.ts, after the zone check that turns a bad zone into a PricingError.
+ * src/core/time, after the zone check that turns a bad zone into a PricingError.
  */
 export function localMidnightMs(date: string, zone: string): number {
   assertZone(zone);
