@@ -32,7 +32,7 @@ import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.
 import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, writeSite } from "../site/index.ts";
-import { roundCents } from "../core/money.ts";
+import { moneyText, roundCents } from "../core/money.ts";
 
 export interface BuildOptions {
   dir: string;
@@ -337,7 +337,7 @@ function portfolioDisputes(portfolio: Portfolio<Tariff>, findings: Finding[], pr
 }
 
 function summaryText(s: BuildSummary, currency: string): string {
-  const fmt = new Intl.NumberFormat("en-US", { style: "currency", currency });
+  const fmt = { format: (amount: number) => moneyText(amount, currency) };
   const notPriced = s.bills - s.billsPriced;
   const lines = [
     `Built ${s.buildings} building page(s) into ${s.outDir}`,
@@ -347,6 +347,6 @@ function summaryText(s: BuildSummary, currency: string): string {
   ];
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
-  lines.push(`View it: serve the folder over HTTP (e.g. npx vite preview --outDir ${s.outDir}) and open the address shown.`);
+  lines.push(`View it: open ${s.outDir}/index.html in a browser, or run 'ohmbook serve' on the portfolio folder to serve it and rebuild on every change.`);
   return lines.join("\n");
 }

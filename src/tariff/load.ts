@@ -1,5 +1,5 @@
 /**
- * Reads a tariff file (format: the README, "Writing a tariff file") into a validated `Tariff`.
+ * Reads a tariff file (format: docs/tariffs.md) into a validated `Tariff`.
  * Strict by design: an unknown key, a rate for an undefined period, blocks out of order or
  * versions out of order are errors with file:line:column and a hint, never guesses.
  * The parts live in load-calendar.ts, load-charges.ts and load-versions.ts.
