@@ -270,9 +270,6 @@ function relation(pct: number): string {
 
 const ESTIMATE_WORDS = "an estimate by the utility, not a meter reading";
 
-/** Legend entries of the tenant chart, in the order they are coloured. */
-export const TENANT_MONTH_STATUSES: readonly TenantMonthStatus[] = ["Earlier months", "Latest month", "Includes an estimate"];
-
 function tenantChart(commodity: string, unit: string, months: TenantMonth[]): TenantChartModel | null {
   if (months.length === 0) return null;
   const label = commodityLabel(commodity);
