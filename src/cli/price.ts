@@ -41,7 +41,7 @@ Exit codes: 0 priced; 1 usage, tariff-file or pricing error, or a needed input m
  * What the tariff versions in force over [from, to) need that the request does not give: a
  * demand (demand charges, without interval data) and a power factor (power-factor charges).
  * Time-of-use lines without interval data are not listed: they are priced from the hours of each
- * period and marked "needs interval data" (README, "Without interval data").
+ * period and marked "needs interval data" (docs/tariffs.md, "How a bill is priced").
  * Empty when nothing is missing.
  * @example missingInputs(tariff, "2025-06-01", "2025-07-01", { demand: false, pf: false, intervals: false })
  */
@@ -66,7 +66,7 @@ function num(name: string, s: string | undefined, rule: (n: number) => boolean =
   if (!NUMBER.test(s.trim())) throw new UsageError(`--${name} '${s}' is not a number (write digits with a '.' decimal point, no separators or units)`);
   const n = Number(s);
   // the same plausibility limit as a bill's usage at ingest: beyond it, sums lose their cents or overflow to Infinity
-  if (!Number.isFinite(n) || Math.abs(n) > MAX_BILL_USAGE) throw new UsageError(`--${name} ${s.slice(0, 40)} is beyond ±${MAX_BILL_USAGE.toExponential()}, the plausibility limit of a bill's figures (README, "Limits")`);
+  if (!Number.isFinite(n) || Math.abs(n) > MAX_BILL_USAGE) throw new UsageError(`--${name} ${s.slice(0, 40)} is beyond ±${MAX_BILL_USAGE.toExponential()}, the plausibility limit of a bill's figures (docs/inputs.md, "Limits")`);
   if (!rule(n)) throw new UsageError(`--${name} ${s} is out of range${ruleText ? `: ${ruleText}` : ""}`);
   return n;
 }

@@ -2,7 +2,7 @@
  * Plausibility limits checked at ingest, each with its reason, so that a portfolio `check`
  * accepts is one `build` can price, model and publish: every number stays finite through
  * the arithmetic downstream, every date is one the time-zone library handles, and every id
- * fits in a page file name. The README's "Limits" section lists the same values.
+ * fits in a page file name. docs/inputs.md, "Limits", lists the same values.
  */
 
 /**

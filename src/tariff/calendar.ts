@@ -83,8 +83,21 @@ function periodTable(version: TariffVersion): Int8Array {
   return table;
 }
 
-/** Period index (into `version.periods`) of every instant described by `lt`. */
+const indicesByTimes = new WeakMap<LocalTimes, WeakMap<TariffVersion, Int8Array>>();
+
+/**
+ * Period index (into `version.periods`) of every instant described by `lt`; cached per (local
+ * times, version), as the same month is priced once per forecast scenario. Callers must not mutate it.
+ */
 export function periodIndices(lt: LocalTimes, version: TariffVersion): Int8Array {
+  let byVersion = indicesByTimes.get(lt);
+  if (byVersion === undefined) indicesByTimes.set(lt, (byVersion = new WeakMap()));
+  let out = byVersion.get(version);
+  if (out === undefined) byVersion.set(version, (out = computePeriodIndices(lt, version)));
+  return out;
+}
+
+function computePeriodIndices(lt: LocalTimes, version: TariffVersion): Int8Array {
   const table = periodTable(version);
   const dayBase = new Int32Array(lt.days.length);
   for (let d = 0; d < lt.days.length; d++) {

@@ -262,3 +262,20 @@ describe("loadPortfolio contacts (tenant page contact lines)", () => {
     ]);
   });
 });
+
+describe("meter units come from the tariff engine's list", () => {
+  it("a water meter may bill in kgal, and unit aliases read as the tariff loader reads them", async () => {
+    const dir = await mkdtemp(join(tmpdir(), "ohmbook-units-"));
+    try {
+      await cp(GOOD, dir, { recursive: true });
+      await writeFile(join(dir, "tariffs", "fen-water.yaml"), "id: fen-water\ncommodity: water\nusage_unit: kgal\nversions:\n  - from: 2020-01-01\n    charges:\n      - { label: Water, energy: 6.10 }\n");
+      const meters = await readFile(join(dir, "meters.csv"), "utf8");
+      await writeFile(join(dir, "meters.csv"), `${meters.replace("G-200,LF-02,gas,therm", "G-200,LF-02,gas,Therms")}W-300,LF-01,water,KGAL,fen-water,,\n`);
+      const r = await loadPortfolio(dir);
+      expect(r.issues.filter((i) => i.severity === "error")).toEqual([]);
+      expect(r.portfolio!.meters.map((m) => [m.meterId, m.unit])).toEqual([["E-100", "kWh"], ["G-200", "therm"], ["W-300", "kgal"]]);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+});
