@@ -45,7 +45,7 @@ const TOP_KEYS = [
 ];
 
 /** Longest contact line, in characters: one line on a page, not a letter. */
-export const MAX_CONTACT_CHARS = 300;
+const MAX_CONTACT_CHARS = 300;
 
 export interface SettingsResult {
   settings: PortfolioSettings | null;

@@ -159,7 +159,7 @@ export function checkExplanations(t: Tolerances, currency: string): CheckExplana
  * The checks grouped by what the reader does about a finding, each group in the order a reader
  * meets them. Every code of outputs.md is in exactly one group.
  */
-export const CHECK_GROUPS: readonly { id: string; heading: string; intro: string; codes: readonly string[] }[] = [
+const CHECK_GROUPS: readonly { id: string; heading: string; intro: string; codes: readonly string[] }[] = [
   {
     id: "checks-claim",
     heading: "Money to raise with the utility",

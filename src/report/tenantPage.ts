@@ -16,7 +16,7 @@ import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF, FT2_PER_M2, KBTU_PER_KWH, KWH_PER_T
 export const SAME_PERIOD_TOLERANCE_DAYS = 20;
 
 /** Calendar months the tenant chart shows: the latest complete month and the 13 before it. */
-export const TENANT_CHART_MONTHS = 14;
+const TENANT_CHART_MONTHS = 14;
 
 /** Path of a building's tenant page relative to the site root. */
 export function tenantPath(buildingId: string): string {
@@ -270,9 +270,6 @@ function relation(pct: number): string {
 
 const ESTIMATE_WORDS = "an estimate by the utility, not a meter reading";
 
-/** Legend entries of the tenant chart, in the order they are coloured. */
-export const TENANT_MONTH_STATUSES: readonly TenantMonthStatus[] = ["Earlier months", "Latest month", "Includes an estimate"];
-
 function tenantChart(commodity: string, unit: string, months: TenantMonth[]): TenantChartModel | null {
   if (months.length === 0) return null;
   const label = commodityLabel(commodity);
@@ -381,7 +378,7 @@ function summaryTable(c: TenantComparison): TableModel {
 }
 
 /** How the tenant page's figures are made; each conversion factor named. */
-export const TENANT_NOTES: readonly string[] = [
+const TENANT_NOTES: readonly string[] = [
   "Use per day is compared rather than the bill total, because bills cover slightly different numbers of days.",
   "The expectation for the weather comes from how much this building used in past months as warm or as cold as these. It is shown only where that record follows the weather closely (the monthly limits of ASHRAE Guideline 14).",
   `Electricity and gas are shown as energy in kWh: gas in therms × ${KWH_PER_THERM.toFixed(4)} kWh per therm (1 therm = 100,000 Btu, U.S. EIA), gas in ccf first × ${DEFAULT_HEAT_CONTENT_THERM_PER_CCF} therm per ccf.`,
@@ -389,7 +386,7 @@ export const TENANT_NOTES: readonly string[] = [
 ];
 
 /** The caution every tenant page carries. */
-export const TENANT_CAUTION =
+const TENANT_CAUTION =
   "These figures come from the utility's meter readings and local weather records. Expected figures are estimates, not measurements, and a bill marked as an estimate may change when the meter is next read.";
 
 /**

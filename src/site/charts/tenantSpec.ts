@@ -10,10 +10,10 @@ import { chartTitle } from "./wrapText.ts";
 const SCHEMA = "https://vega.github.io/schema/vega-lite/v6.json";
 
 /** Legend name of the expectation line. */
-export const EXPECTED_SERIES = "Expected for the weather (estimate)";
+const EXPECTED_SERIES = "Expected for the weather (estimate)";
 
 /** Colour of each bar status and of the line; each at least 3:1 against white (WCAG 1.4.11). */
-export const TENANT_COLORS: Record<TenantMonthStatus | typeof EXPECTED_SERIES, string> = {
+const TENANT_COLORS: Record<TenantMonthStatus | typeof EXPECTED_SERIES, string> = {
   "Earlier months": "#5b8f95",
   "Latest month": "#17424a",
   "Includes an estimate": "#a5671a",
