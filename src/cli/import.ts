@@ -6,7 +6,7 @@ import { parseArgs } from "node:util";
 import { UsageError } from "../core/errors.ts";
 import { formatIssue } from "../core/issues.ts";
 
-export const IMPORT_USAGE = `Usage: ohmbook import espi FILE... --into DIR --building ID [--timezone ZONE] [--tariff ID]
+const IMPORT_USAGE = `Usage: ohmbook import espi FILE... --into DIR --building ID [--timezone ZONE] [--tariff ID]
                           [--name TEXT] [--floor-area N] [--weather-station ID] [--quiet] [--json]
 
 Adds the usage points of ESPI ("Green Button") XML files to the portfolio folder DIR:

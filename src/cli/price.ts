@@ -45,7 +45,7 @@ Exit codes: 0 priced; 1 usage, tariff-file or pricing error, or a needed input m
  * Empty when nothing is missing.
  * @example missingInputs(tariff, "2025-06-01", "2025-07-01", { demand: false, pf: false, intervals: false })
  */
-export function missingInputs(tariff: Tariff, from: string, to: string, given: { demand: boolean; pf: boolean; intervals: boolean }): string[] {
+function missingInputs(tariff: Tariff, from: string, to: string, given: { demand: boolean; pf: boolean; intervals: boolean }): string[] {
   const missing = new Set<string>();
   for (const v of tariff.versions) {
     if (v.from >= to || (v.until !== null && v.until <= from)) continue;
@@ -116,7 +116,7 @@ function rateText(l: ComputedLine): string {
 const STATUS_TEXT: Record<string, string> = { exact: "", estimated: "[estimated] ", "needs-interval-data": "[needs interval data] " };
 
 /** The computed bill as an aligned plain-text table (label, quantity, unit, rate, amount, note) and total. */
-export function formatBillTable(tariff: Tariff, req: PriceRequest, bill: ComputedBill): string {
+function formatBillTable(tariff: Tariff, req: PriceRequest, bill: ComputedBill): string {
   const rows = bill.lines.map((l) => [l.label, qty(l.quantity), l.unit, rateText(l), money(l.amount), `${STATUS_TEXT[l.status]}${l.note ?? ""}`]);
   const head = ["Charge", "Quantity", "Unit", "Rate", `Amount (${tariff.currency})`, "Note"];
   const all = [head, ...rows, ["Total", "", "", "", money(bill.total), bill.exact ? "" : "not exact: see the marked lines"]];

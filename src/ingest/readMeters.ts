@@ -1,6 +1,6 @@
 /** meters.csv → Meter[]: commodity/unit pairs, known building and tariff, unique ids. */
 import { quoteValue } from "../core/issues.ts";
-import type { Commodity, Meter } from "../domain/types.ts";
+import type { Meter } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";

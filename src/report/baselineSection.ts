@@ -41,7 +41,7 @@ const KIND_NAMES: Record<string, string> = {
 };
 
 /** @example modelKindLabel("3PH") // "three-parameter heating (3PH)" */
-export function modelKindLabel(kind: string): string {
+function modelKindLabel(kind: string): string {
   return KIND_NAMES[kind] ?? kind;
 }
 

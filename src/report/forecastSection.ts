@@ -59,7 +59,7 @@ function pct(v: number | null, digits = 1): string {
  * its out-of-sample coverage. Null when the forecast stage did not run.
  * @example methodOf(input, meters)?.sentences[0] // "Typical weather: the mean of the most recent 10 years …"
  */
-export function methodOf(input: ReportInput, meters: Meter[]): { sentences: string[]; tables: TableModel[] } | null {
+function methodOf(input: ReportInput, meters: Meter[]): { sentences: string[]; tables: TableModel[] } | null {
   const m = input.forecastMethod;
   if (!m) return null;
   const ids = new Set(meters.map((x) => x.meterId));
@@ -160,7 +160,7 @@ export function trackRecordVerdict(record: { model: ReportAccuracy | null; naive
 }
 
 /** Chart model of the building's monthly forecast; null without monthly bands. */
-export function forecastChart(buildingId: string, f: ReportBuildingForecast, currency: string): ForecastChartModel | null {
+function forecastChart(buildingId: string, f: ReportBuildingForecast, currency: string): ForecastChartModel | null {
   if (f.monthly.length === 0) return null;
   const first = f.monthly[0]!.month;
   const last = f.monthly[f.monthly.length - 1]!.month;

@@ -10,7 +10,7 @@ import { roundCents } from "../core/money.ts";
 export const NOT_AVAILABLE = "—";
 
 /** Locale of every page: fixed so output does not depend on the build machine. */
-export const LOCALE = "en-US";
+const LOCALE = "en-US";
 
 // Building an Intl.NumberFormat costs far more than using one; pages format thousands of values.
 const formatterCache = new Map<string, Intl.NumberFormat>();

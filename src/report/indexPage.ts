@@ -24,14 +24,14 @@ function usageCell(usage: readonly CommodityUsage[], commodity: CommodityUsage["
 }
 
 /** Number of audit findings of one building. */
-export function buildingFindingCount(findings: readonly ReportFinding[] | undefined, buildingId: string): number {
+function buildingFindingCount(findings: readonly ReportFinding[] | undefined, buildingId: string): number {
   let count = 0;
   for (const f of findings ?? []) if (f.buildingId === buildingId) count++;
   return count;
 }
 
 /** Total of one building's claims (kind `claim`), cent-exact: its share of the index's "Bills to dispute". */
-export function buildingClaimTotal(disputes: readonly Dispute[] | undefined, buildingId: string): number {
+function buildingClaimTotal(disputes: readonly Dispute[] | undefined, buildingId: string): number {
   return sumCents((disputes ?? []).filter((d) => d.kind === "claim" && d.buildingId === buildingId).map((d) => d.claimAmount));
 }
 

@@ -8,7 +8,6 @@
  */
 import type { Portfolio } from "../domain/types.ts";
 import type { InputIssue } from "../core/issues.ts";
-import type { ComputedBill } from "../tariff/index.ts";
 import type { Dispute } from "../disputes/index.ts";
 import type { PricedBill } from "../tariff/index.ts";
 import type { ModelSummary } from "../model/index.ts";

@@ -12,7 +12,7 @@ import { AUDIT_DEFAULTS } from "../audit/index.ts";
 import { COMMON_RATIOS } from "../audit/index.ts";
 
 /** Unit factors the pipeline uses, with where each comes from. */
-export const UNIT_FACTORS: readonly UnitFactorRow[] = [
+const UNIT_FACTORS: readonly UnitFactorRow[] = [
   { from: "1 MWh", to: "kWh", factor: "1,000", source: "SI prefix (exact)" },
   { from: "1 kWh", to: "MJ", factor: "3.6", source: "SI definition of the watt-hour (exact)" },
   { from: "1 kWh", to: "Btu", factor: "3,412.14", source: "Btu (International Table) = 1,055.05585262 J, NIST SP 811" },

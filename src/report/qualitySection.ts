@@ -8,7 +8,7 @@ import { formatLocalDateTime, localPartsOf } from "../core/time/index.ts";
 
 const HOUR_MS = 3_600_000;
 /** The heatmap shows at most this many local days, the latest ones (one year plus a leap day). */
-export const HEATMAP_MAX_DAYS = 366;
+const HEATMAP_MAX_DAYS = 366;
 
 /**
  * Local calendar day and hour of a UTC instant in an IANA zone.
@@ -105,7 +105,7 @@ const ACTION_NAMES: Record<string, string> = {
  * given). For meter data `kept` means reported but still used (src/clean/detect/types.ts).
  * @example actionLabel("excluded") // "left out of the models (kept in the data)"
  */
-export function actionLabel(action: string): string {
+function actionLabel(action: string): string {
   return ACTION_NAMES[action] ?? action;
 }
 
@@ -122,7 +122,7 @@ export function weatherActionLabel(action: string, maxGapHours: number): string 
 }
 
 /** @example detectionLabel("zero-run") // "Run of zero readings" */
-export function detectionLabel(kind: string): string {
+function detectionLabel(kind: string): string {
   return DETECTION_NAMES[kind] ?? kind;
 }
 

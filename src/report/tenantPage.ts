@@ -13,7 +13,7 @@ import { addMonthsIso, daysBetween as periodDays, isoDateToDayNumber, spreadOver
 import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF, FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../core/units.ts";
 
 /** A bill counts as "a year earlier" when its start is within this many days of one year before. */
-export const SAME_PERIOD_TOLERANCE_DAYS = 20;
+const SAME_PERIOD_TOLERANCE_DAYS = 20;
 
 /** Calendar months the tenant chart shows: the latest complete month and the 13 before it. */
 const TENANT_CHART_MONTHS = 14;
