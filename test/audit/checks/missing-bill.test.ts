@@ -1,13 +1,7 @@
-// period-gap, period-overlap, duplicate-bill, estimated-read, usage-outlier, missing-bill:
-// planted problem + clean twin each. Day counts and amounts hand-computed.
+// missing-bill: planted problem + clean twin. Day counts and amounts hand-computed.
 import { describe, expect, it } from "vitest";
 import { buildContext } from "../../../src/audit/context.ts";
-import { checkDuplicateBill } from "../../../src/audit/checks/duplicate-bill.ts";
-import { checkEstimatedRead } from "../../../src/audit/checks/estimated-read.ts";
 import { checkMissingBill } from "../../../src/audit/checks/missing-bill.ts";
-import { checkPeriodGap } from "../../../src/audit/checks/period-gap.ts";
-import { checkPeriodOverlap } from "../../../src/audit/checks/period-overlap.ts";
-import { checkUsageOutlier } from "../../../src/audit/checks/usage-outlier.ts";
 import type { Bill, IntervalSeries } from "../../../src/domain/types.ts";
 import type { AuditInput } from "../../../src/audit/types.ts";
 import { bill, input, portfolio, series, year } from "../fixtures.ts";

@@ -1,24 +1,8 @@
-// usage-vs-meter, demand-vs-meter, multiplier-suspect: planted problem + clean twin each.
-// Re-pricing stub: 0.15 per kWh + 10.00 per kW (hand-computed amounts below).
+// multiplier-suspect: planted problem + clean twin. Re-pricing stub: 0.15 per kWh + 10.00 per kW (hand-computed amounts in the tests).
+import { ctxFor, price } from "./meterFixtures.ts";
 import { describe, expect, it } from "vitest";
-import { buildContext } from "../../../src/audit/context.ts";
-import { checkDemandVsMeter } from "../../../src/audit/checks/demand-vs-meter.ts";
 import { checkMultiplierSuspect, matchCommonRatio } from "../../../src/audit/checks/multiplier-suspect.ts";
-import { checkUsageVsMeter } from "../../../src/audit/checks/usage-vs-meter.ts";
-import type { Bill } from "../../../src/domain/types.ts";
-import type { MeteredPeriod, RepriceFn } from "../../../src/audit/types.ts";
-import { bill, computed, input, metered, portfolio, year } from "../fixtures.ts";
-
-const reprice: RepriceFn = (_b, alt) =>
-  alt.kind === "quantities" ? computed([["Energy", alt.usage * 0.15], ["Demand", (alt.demandKw ?? 0) * 10]]) : null;
-const price = (usage: number, kw: number | null) => Math.round((usage * 0.15 + (kw ?? 0) * 10) * 100) / 100;
-
-function ctxFor(bills: Bill[], m: (b: Bill, i: number) => MeteredPeriod | null, withReprice = true) {
-  return buildContext(input(portfolio({ bills }), {
-    metered: new Map(bills.map((b, i) => [b.billId, m(b, i)])),
-    reprice: withReprice ? reprice : undefined,
-  }));
-}
+import { metered, year } from "../fixtures.ts";
 
 describe("multiplier-suspect", () => {
   it("common-ratio matching (CT ratios; common practice)", () => {
