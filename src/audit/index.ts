@@ -74,3 +74,4 @@ export { COMMON_RATIOS } from "./checks/multiplier-suspect.ts";
 export { claimOf } from "./corrections.ts";
 export { meteredViewsByBill } from "./meteredViews.ts";
 export type { MeteredViews } from "./meteredViews.ts";
+export type { FindingJson } from "./output.ts";

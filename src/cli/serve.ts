@@ -16,22 +16,13 @@ import { extname, join, relative, resolve, sep } from "node:path";
 import { watch, type FSWatcher } from "chokidar";
 import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssueIn, type InputIssue } from "../core/issues.ts";
+import type { FindingJson } from "../audit/index.ts";
 
 // ---------------------------------------------------------------------------------------------
 // Findings diff (pure)
 
-/** One row of OUT/data/findings.json (shared/spec/outputs.md). */
-export interface FindingRow {
-  building_id: string;
-  meter_id: string;
-  bill_id: string | null;
-  period_start: string | null;
-  period_end: string | null;
-  check: string;
-  severity: string;
-  amount_at_stake: number | null;
-  message: string;
-}
+/** One row of OUT/data/findings.json (the contract's columns; what the audit writes). */
+export type FindingRow = Pick<FindingJson, "building_id" | "meter_id" | "bill_id" | "period_start" | "period_end" | "check" | "severity" | "amount_at_stake" | "message">;
 
 /**
  * What makes a finding the same finding across builds: its check code and what it is about

@@ -113,3 +113,15 @@ export async function expectLinksResolve(page: Page, origin: string, prefix: str
     expect(r.status, href).toBe(200);
   }
 }
+
+/**
+ * Opens `url` at `width` px and waits until every chart is live (or stayed static) and has
+ * re-laid out: charts size themselves to their box.
+ */
+export async function openAtWidth(context: BrowserContext, url: string, dialogs: string[], width: number): Promise<{ page: Page; errors: string[] }> {
+  const opened = await openPage(context, url, dialogs);
+  await opened.page.setViewportSize({ width, height: 900 });
+  await opened.page.waitForFunction(() => [...document.querySelectorAll("figure[data-chart]")].every((f) => (f as HTMLElement).dataset.chartState), undefined, { timeout: 30_000 });
+  await opened.page.waitForTimeout(300);
+  return opened;
+}

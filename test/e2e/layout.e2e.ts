@@ -12,7 +12,7 @@ import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
-import { ARTIFACTS, HAVE_CHROMIUM, launchBrowser, openPage, runAxe } from "./browser.ts";
+import { ARTIFACTS, HAVE_CHROMIUM, launchBrowser, openAtWidth, runAxe } from "./browser.ts";
 
 const DEMO = resolve("data/demo");
 const PREFIX = "/site/reports/";
@@ -145,12 +145,7 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
   });
 
   async function openAt(path: string, width: number): Promise<{ page: Page; errors: string[] }> {
-    const opened = await openPage(context, `${server.origin}${PREFIX}${path}`, dialogs);
-    await opened.page.setViewportSize({ width, height: 900 });
-    // Charts size themselves to their box: wait until each is live (or stayed static) and has re-laid out.
-    await opened.page.waitForFunction(() => [...document.querySelectorAll("figure[data-chart]")].every((f) => (f as HTMLElement).dataset.chartState), undefined, { timeout: 30_000 });
-    await opened.page.waitForTimeout(300);
-    return opened;
+    return openAtWidth(context, `${server.origin}${PREFIX}${path}`, dialogs, width);
   }
 
   it("checks an index, a building page, a meter bills page, a tenant page and the methods page", () => {

@@ -13,7 +13,7 @@ import { join, resolve } from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
 import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import { serveStatic, type RunningServer } from "./staticServer.ts";
-import { ARTIFACTS, HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openPage, runAxe } from "./browser.ts";
+import { ARTIFACTS, HAVE_CHROMIUM, expectChartsLive, expectLinksResolve, launchBrowser, openAtWidth, runAxe } from "./browser.ts";
 
 const DEMO = resolve("data/demo");
 const PREFIX = "/tenants/";
@@ -42,11 +42,7 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the tenant site in chromiu
   });
 
   async function openAt(path: string, width: number): Promise<{ page: Page; errors: string[] }> {
-    const opened = await openPage(context, `${server.origin}${PREFIX}${path}`, dialogs);
-    await opened.page.setViewportSize({ width, height: 900 });
-    await opened.page.waitForFunction(() => [...document.querySelectorAll("figure[data-chart]")].every((f) => (f as HTMLElement).dataset.chartState), undefined, { timeout: 30_000 });
-    await opened.page.waitForTimeout(300);
-    return opened;
+    return openAtWidth(context, `${server.origin}${PREFIX}${path}`, dialogs, width);
   }
 
   for (const width of [390, 1440]) {
