@@ -31,7 +31,7 @@ const repeat = Number(values.repeat);
 const root = fileURLToPath(new URL("..", import.meta.url));
 
 interface ChildReport {
-  stages: { name: string; wallMs: number; cpuMs: number }[];
+  stages: { name: string; wallMs: number; cpuMs: number; rssEndMiB: number }[];
   wallMs: number;
   cpuMs: number;
   maxRssKiB: number;
@@ -62,8 +62,8 @@ try {
     }
     const report = JSON.parse(child.stdout.trim().split("\n").pop()!) as ChildReport;
     console.log(`\n## run ${run + 1}${values.jobs !== undefined ? ` (--jobs ${values.jobs})` : ""}`);
-    console.log(`${"stage".padEnd(58)} ${"wall s".padStart(7)} ${"CPU s".padStart(7)}`);
-    for (const st of report.stages) console.log(`${st.name.slice(0, 58).padEnd(58)} ${s(st.wallMs)} ${s(st.cpuMs)}`);
+    console.log(`${"stage".padEnd(58)} ${"wall s".padStart(7)} ${"CPU s".padStart(7)} ${"RSS after, MiB".padStart(15)}`);
+    for (const st of report.stages) console.log(`${st.name.slice(0, 58).padEnd(58)} ${s(st.wallMs)} ${s(st.cpuMs)} ${String(st.rssEndMiB).padStart(15)}`);
     console.log(`${"total".padEnd(58)} ${s(report.wallMs)} ${s(report.cpuMs)}`);
     console.log(`CPU per building ${(report.cpuMs / 1000 / report.buildings).toFixed(2)} s; wall per building ${(report.wallMs / 1000 / report.buildings).toFixed(2)} s; peak RSS ${(report.maxRssKiB / 1024 / 1024).toFixed(2)} GiB; buildings failed ${report.failed}`);
     console.log(`RESULT ${JSON.stringify({ buildings, jobs: values.jobs ?? null, wallS: +(report.wallMs / 1000).toFixed(1), cpuPerBuildingS: +(report.cpuMs / 1000 / report.buildings).toFixed(3), peakRssGiB: +(report.maxRssKiB / 1024 / 1024).toFixed(3) })}`);

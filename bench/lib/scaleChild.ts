@@ -12,12 +12,12 @@ const [dir, out, extra] = process.argv.slice(2);
 if (!dir || !out) throw new Error("usage: scaleChild.ts DIR OUT [options-json]");
 const options = extra ? (JSON.parse(extra) as Record<string, unknown>) : {};
 
-interface Stage { name: string; wallMs: number; cpuMs: number }
+interface Stage { name: string; wallMs: number; cpuMs: number; rssEndMiB: number }
 const stages: Stage[] = [];
 let current: { name: string; wall: number; cpu: number } | null = null;
 const cpuNow = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1000; };
 const close = () => {
-  if (current) stages.push({ name: current.name, wallMs: performance.now() - current.wall, cpuMs: cpuNow() - current.cpu });
+  if (current) stages.push({ name: current.name, wallMs: performance.now() - current.wall, cpuMs: cpuNow() - current.cpu, rssEndMiB: Math.round(process.memoryUsage().rss / 2 ** 20) });
   current = null;
 };
 const reporter: Reporter = {
