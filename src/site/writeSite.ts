@@ -1,20 +1,21 @@
 /**
- * Writes the static site: Eleventy renders the view models through content/ templates, the
- * Vite plugin bundles the client scripts and styles, then the data files are added. Built in
+ * Writes the static site: Vite bundles the client scripts and styles once (clientBundle.ts),
+ * Eleventy renders the view models through content/ templates, each page given the bundle's
+ * tags as it is written, then the data files are added. Built in
  * a scratch folder next to `outDir` and swapped in by rename, so a failed build never leaves
  * a half-written site and a reader never sees one mid-build.
  */
 import { mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from "node:fs/promises";
 import { rmSync } from "node:fs";
-import { basename, dirname, join, resolve, sep } from "node:path";
+import { basename, dirname, join, relative, resolve, sep } from "node:path";
 import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
 import Eleventy from "@11ty/eleventy";
-import EleventyVitePlugin from "@11ty/eleventy-plugin-vite";
 import type { SiteModel } from "../report/siteModel.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
 import { prepareSite } from "./prepareSite.ts";
+import { applyClientBundle, buildClientBundle } from "./clientBundle.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
 const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -169,7 +170,8 @@ async function exists(path: string): Promise<boolean> {
   }
 }
 
-function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<string, unknown> {
+/** Vite options of the site's client bundle (exported for the test that builds a site through the Eleventy Vite plugin too). */
+export function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<string, unknown> {
   const require = createRequire(join(PROJECT_ROOT, "package.json"));
   return {
     // When Vite fails, the Eleventy plugin's attempt to restore its folder can fail too and hide
@@ -242,17 +244,19 @@ export async function writeSite(
   let bundleError: Error | null = null;
   try {
     const ready = await prepareSite(model, dataFiles);
+    // The client bundle first (Vite empties the folder it writes to), then the pages beside it.
+    const bundle = await buildClientBundle(contentDir, stage, scratch, viteOptions(verbose, (error) => {
+      bundleError ??= error;
+    }));
     const eleventy = new Eleventy(contentDir, stage, {
       quietMode: !verbose,
       configPath: ELEVENTY_CONFIG,
       config(eleventyConfig) {
         eleventyConfig.addGlobalData("site", ready);
-        eleventyConfig.addPassthroughCopy({ [join(contentDir, "assets")]: "assets" });
-        eleventyConfig.addPlugin(EleventyVitePlugin, {
-          tempFolderName: join(scratch, ".11ty-vite"),
-          viteOptions: viteOptions(verbose, (error) => {
-            bundleError ??= error;
-          }),
+        eleventyConfig.addTransform("ohmbook-client-bundle", function (this: { page?: { outputPath?: unknown } }, content: string) {
+          const outputPath = this.page?.outputPath;
+          if (typeof outputPath !== "string" || !outputPath.endsWith(".html")) return content;
+          return applyClientBundle(content, relative(stage, outputPath).split(sep).join("/"), bundle);
         });
       },
     });
