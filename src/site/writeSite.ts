@@ -14,8 +14,8 @@ import Eleventy from "@11ty/eleventy";
 import type { SiteModel } from "../report/siteModel.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
-import { prepareSite } from "./prepareSite.ts";
-import { applyClientBundle, buildClientBundle } from "./clientBundle.ts";
+import { dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages } from "./prepareSite.ts";
+import { applyClientBundle, buildClientBundle, type ClientBundle } from "./clientBundle.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
 const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -30,6 +30,8 @@ export interface WriteSiteOptions {
   verbose?: boolean;
   /** Template folder (layouts, pages, assets); default the project's content/. */
   contentDir?: string;
+  /** Building pages per Eleventy pass (default BUILDINGS_PER_PASS); the output does not depend on it. */
+  buildingsPerPass?: number;
 }
 
 /** Prefix of the scratch folders of builds into `outDir`. */
@@ -243,26 +245,11 @@ export async function writeSite(
   const stage = join(scratch, "site");
   let bundleError: Error | null = null;
   try {
-    const ready = await prepareSite(model, dataFiles);
     // The client bundle first (Vite empties the folder it writes to), then the pages beside it.
     const bundle = await buildClientBundle(contentDir, stage, scratch, viteOptions(verbose, (error) => {
       bundleError ??= error;
     }));
-    const eleventy = new Eleventy(contentDir, stage, {
-      quietMode: !verbose,
-      configPath: ELEVENTY_CONFIG,
-      config(eleventyConfig) {
-        eleventyConfig.addGlobalData("site", ready);
-        eleventyConfig.addTransform("ohmbook-client-bundle", function (this: { page?: { outputPath?: unknown } }, content: string) {
-          const outputPath = this.page?.outputPath;
-          if (typeof outputPath !== "string" || !outputPath.endsWith(".html")) return content;
-          return applyClientBundle(content, relative(stage, outputPath).split(sep).join("/"), bundle);
-        });
-      },
-    });
-    // Library code does not print: errors reach the caller as SiteWriteError instead.
-    if (!verbose) eleventy.disableLogger();
-    await eleventy.write();
+    await renderPages(model, dataFileSizes(dataFiles), { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS });
     if (!(await exists(join(stage, "index.html")))) {
       throw new SiteWriteError("the site build produced no index.html");
     }
@@ -295,4 +282,78 @@ export async function writeSite(
     await rm(scratch, { recursive: true, force: true });
     activeScratch.delete(scratch);
   }
+}
+
+/** Building pages rendered per Eleventy pass (with their meter and tenant pages, in proportion). */
+export const BUILDINGS_PER_PASS = 40;
+
+interface RenderContext {
+  contentDir: string;
+  stage: string;
+  bundle: ClientBundle;
+  verbose: boolean;
+  buildingsPerPass: number;
+}
+
+/** Splits `items` into `parts` consecutive slices of nearly equal length (some may be empty). */
+function slices<T>(items: readonly T[], parts: number): T[][] {
+  const size = Math.ceil(items.length / parts);
+  return Array.from({ length: parts }, (_, i) => items.slice(i * size, (i + 1) * size));
+}
+
+/**
+ * Renders every page of `model` into `ctx.stage`, a few buildings at a time, so memory does not
+ * grow with the number of buildings: a first Eleventy pass writes the portfolio-level pages
+ * (index, disputes, claims, methods, data…) with the per-building lists empty; then each pass
+ * writes a slice of the building, meter and tenant pages, with their charts rendered just before
+ * and dropped after, and the templates of the first pass left out. Paginated templates over
+ * `site.buildings`, `site.meterBills` and `site.tenants` must therefore read only their own item
+ * and the portfolio-level parts of `site` (as every template does); the site is byte-identical
+ * to one rendered in a single pass (test/site/writeSite.test.ts).
+ */
+async function renderPages(model: SiteModel, sizes: Record<string, number>, ctx: RenderContext): Promise<void> {
+  const portfolioPages = await preparePortfolioPages(model, sizes);
+  const shell: SiteModel = { ...portfolioPages, buildings: [], meterBills: [], tenants: [] };
+  const firstPassTemplates = new Set<string>();
+  await eleventyPass(shell, ctx, firstPassTemplates, null);
+  const passes = Math.ceil(model.buildings.length / Math.max(1, ctx.buildingsPerPass));
+  if (passes === 0) return;
+  const buildingSlices = slices(model.buildings, passes);
+  const meterSlices = slices(model.meterBills, passes);
+  const tenantSlices = slices(model.tenants, passes);
+  for (let i = 0; i < passes; i++) {
+    const site: SiteModel = {
+      ...shell,
+      buildings: await prepareBuildingPages(buildingSlices[i]!, sizes),
+      meterBills: await prepareMeterPages(meterSlices[i]!),
+      tenants: tenantSlices[i]!,
+    };
+    await eleventyPass(site, ctx, null, firstPassTemplates);
+  }
+}
+
+/**
+ * One Eleventy run over the templates with `site` as global data, each HTML page given the
+ * client bundle's tags as it is written. `record` collects the templates that wrote a page;
+ * templates in `skip` are not rendered.
+ */
+async function eleventyPass(site: SiteModel, ctx: RenderContext, record: Set<string> | null, skip: ReadonlySet<string> | null): Promise<void> {
+  const { stage, bundle } = ctx;
+  const eleventy = new Eleventy(ctx.contentDir, stage, {
+    quietMode: !ctx.verbose,
+    configPath: ELEVENTY_CONFIG,
+    config(eleventyConfig) {
+      eleventyConfig.addGlobalData("site", site);
+      for (const inputPath of skip ?? []) eleventyConfig.ignores.add(inputPath);
+      eleventyConfig.addTransform("ohmbook-client-bundle", function (this: { page?: { outputPath?: unknown; inputPath?: unknown } }, content: string) {
+        const outputPath = this.page?.outputPath;
+        if (typeof this.page?.inputPath === "string") record?.add(this.page.inputPath);
+        if (typeof outputPath !== "string" || !outputPath.endsWith(".html")) return content;
+        return applyClientBundle(content, relative(stage, outputPath).split(sep).join("/"), bundle);
+      });
+    },
+  });
+  // Library code does not print: errors reach the caller as SiteWriteError instead.
+  if (!ctx.verbose) eleventy.disableLogger();
+  await eleventy.write();
 }

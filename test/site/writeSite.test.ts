@@ -167,4 +167,20 @@ describe("writeSite", () => {
     await expect(stat(fresh)).rejects.toThrow();
     expect((await readdir(work)).sort()).toEqual(["site"]);
   }, 60_000);
+
+  it("writes the same site byte for byte whether building pages are rendered one per pass or all in one", async () => {
+    const model = buildSiteModel(fixtureInput());
+    expect(model.buildings.length).toBeGreaterThan(1);
+    const one = join(work, "one-per-pass");
+    const all = join(work, "all-in-one");
+    await writeSite(model, DATA, one, { buildingsPerPass: 1 });
+    await writeSite(model, DATA, all, { buildingsPerPass: 1000 });
+    const list = async (dir: string) => (await readdir(dir, { recursive: true, withFileTypes: true })).filter((e) => e.isFile()).map((e) => join(e.parentPath, e.name).slice(dir.length + 1)).sort();
+    const files = await list(all);
+    expect(await list(one)).toEqual(files);
+    expect(files.filter((f) => f.startsWith("buildings/")).length).toBe(model.buildings.length);
+    for (const f of files) expect((await readFile(join(one, f))).equals(await readFile(join(all, f))), f).toBe(true);
+    await rm(one, { recursive: true, force: true });
+    await rm(all, { recursive: true, force: true });
+  }, 120_000);
 });
