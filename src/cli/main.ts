@@ -15,7 +15,7 @@ import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, defaultPortfolioDir, ohmbookVersi
 const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
 
 Usage:
-  ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--strict] [--quiet] [--json]
+  ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--jobs N] [--strict] [--quiet] [--json]
   ohmbook check [DIR] [--quiet] [--json]
   ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
                 | --intervals CSV --meter ID --from D --to D) [--timezone ZONE] [--estimate] [--json]
@@ -136,8 +136,10 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     strict: { type: "boolean" },
     quiet: { type: "boolean", short: "q" },
     json: { type: "boolean" },
+    jobs: { type: "string", short: "j" },
   });
   if (positionals.length > 1) throw new UsageError(`build takes one folder, got ${positionals.length}`);
+  const jobs = parseJobs(values.jobs as string | undefined);
   const failOn = values["fail-on"] as string | undefined;
   if (failOn !== undefined && failOn !== "warning" && failOn !== "error") {
     throw new UsageError(`--fail-on must be 'warning' or 'error', got '${failOn}'`);
@@ -157,6 +159,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
     audience,
+    jobs,
   }).catch((error: unknown) => {
     if (error instanceof InputError && error.folder === undefined) error.folder = dir;
     throw error;
@@ -174,6 +177,13 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     return 3;
   }
   return 0;
+}
+
+/** `--jobs N`: a whole number ≥ 1; absent → undefined (the pipeline's default, every core). */
+export function parseJobs(value: string | undefined): number | undefined {
+  if (value === undefined) return undefined;
+  if (!/^[1-9]\d{0,3}$/.test(value)) throw new UsageError(`--jobs must be a whole number of worker threads from 1 to 9999, got '${value.slice(0, 40)}'`);
+  return Number(value);
 }
 
 async function commandCheck(args: string[], io: CliIo): Promise<number> {

@@ -6,7 +6,7 @@ import { existsSync, readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 
-export const BUILD_USAGE = `Usage: ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--audience internal|tenants] [--strict] [--quiet] [--json]
+export const BUILD_USAGE = `Usage: ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--audience internal|tenants] [--jobs N] [--strict] [--quiet] [--json]
 
 Reads the portfolio folder DIR and writes the static site to OUT.
 
@@ -15,6 +15,8 @@ Options:
   --fail-on LEVEL        exit 3 when an audit finding reaches LEVEL: warning or error
   --audience WHO         internal (default): the full site; tenants: only the tenant pages,
                          with no internal page, link, CSV or JSON, to publish separately
+  -j, --jobs N           analyse N buildings at a time in worker threads (default: the number
+                         of cores); the site is the same for any N
   --strict               any rejected input row fails the build (exit 1, nothing written)
   -q, --quiet            print only errors
   --json                 print a machine-readable summary on stdout, with every warning and error

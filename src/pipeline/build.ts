@@ -6,24 +6,18 @@
  */
 import { InputError } from "../core/errors.ts";
 import type { InputIssue } from "../core/issues.ts";
-import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
-import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
 import { loadPortfolio } from "../ingest/index.ts";
+import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { priceBill } from "../tariff/index.ts";
-import { runAudit } from "../audit/index.ts";
+import type { BuildingResults } from "./analyseBuilding.ts";
+import { analyseBuildings } from "./analysisPool.ts";
 import type { Finding } from "../audit/types.ts";
 import type { Reporter } from "../cli/progress.ts";
 import { silentReporter } from "../cli/progress.ts";
 import type { PricedBill } from "./priceBills.ts";
-import { priceMeterBills } from "./priceBills.ts";
-import { meteredForBills } from "../audit/reconcile.ts";
 import { assessIntervalMeters } from "./dataQuality.ts";
-import { makeRepricer } from "../audit/wiring.ts";
-import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
 import { buildDisputes, type Dispute } from "../disputes/index.ts";
 import { billCheckState } from "../report/input.ts";
-import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "./intervalBaselines.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "./meteredViews.ts";
 import { toReportInput } from "./reportInput.ts";
@@ -49,6 +43,8 @@ export interface BuildOptions {
    * day; the clock only for a portfolio with no bills at all.
    */
   buildDate?: string;
+  /** Worker threads analysing buildings (1: in this thread). Default: os.availableParallelism(). */
+  jobs?: number;
 }
 
 export interface BuildResult {
@@ -77,16 +73,7 @@ export interface BuildSummary {
   buildingsFailed: { buildingId: string; reason: string }[];
 }
 
-/** Everything computed for one building; a building that fails carries only `failure`. */
-export interface BuildingResults {
-  building: Building;
-  priced: Map<string, PricedBill>;
-  findings: Finding[];
-  baselines: MeterBaseline[];
-  /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
-  intervalBaselines: IntervalBaselineOutcome[];
-  failure: string | null;
-}
+export { analyseBuilding, type BuildingResults, type HourlyModelOutcome } from "./analyseBuilding.ts";
 
 const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
 
@@ -117,13 +104,12 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
-  const results: BuildingResults[] = [];
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
-  portfolio.buildings.forEach((building, index) => {
-    reporter.step(index, portfolio.buildings.length, building.buildingId);
-    results.push(analyseBuilding(portfolio, building, masks));
+  reporter.step(0, portfolio.buildings.length, "");
+  const results = await analyseBuildings(portfolio, masks, {
+    jobs: options.jobs,
+    onDone: (done, total, buildingId) => reporter.step(done, total, buildingId),
   });
-  reporter.step(portfolio.buildings.length, portfolio.buildings.length, "done");
   reporter.finish();
 
   const failed = results.filter((r) => r.failure !== null);
@@ -201,104 +187,6 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
     });
     return null;
   }
-}
-
-/** Prices, reconciles, audits and models one building; any failure is caught and reported. */
-export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array> = new Map()): BuildingResults {
-  const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], intervalBaselines: [], failure: null };
-  try {
-    const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
-    // Money never rests on a flagged reading: metered quantities read the cleaned view.
-    const cleaned = cleanedIntervals(portfolio, meters, masks);
-    const priced = new Map<string, PricedBill>();
-    for (const meter of meters) {
-      const tariff = portfolio.tariffs.get(meter.tariffId);
-      const bills = portfolio.bills.filter((b) => b.meterId === meter.meterId);
-      const meterPriced = priceMeterBills({
-        meter,
-        bills,
-        timezone: building.timezone,
-        series: portfolio.intervals.get(meter.meterId),
-        meteredSeries: cleaned.get(meter.meterId),
-        price: tariff ? (request) => priceBill(tariff, request) : null,
-        pricerError: `tariff '${meter.tariffId}' could not be loaded (see the tariff file's errors)`,
-      });
-      for (const [id, p] of meterPriced) priced.set(id, p);
-    }
-    const scoped = scopeToBuilding(portfolio, building);
-    const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)), masks);
-    const bands = buildingDegreeDayBands(portfolio, building);
-    for (const [id, m] of metered) {
-      const p = priced.get(id);
-      if (p && m && m.peakKw !== null && p.metered) p.meteredDemandKw = m.peakKw;
-    }
-    const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
-    const findings = runAudit({
-      portfolio: { ...scoped, intervals: new Map([...scoped.intervals].map(([id, s]) => [id, cleaned.get(id) ?? s])) },
-      priced: computed,
-      metered,
-      ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill, meteredIntervals: cleaned }),
-      expectedUsage: expectedUsageFromBands(bands),
-      expectedUsageForPeriod: expectedUsageForStretch(scoped, building),
-    });
-    const baselines = fitBuildingBaselines(portfolio, building, billsToLeaveOut(findings), bands);
-    const intervalBaselines = fitBuildingIntervalBaselines(portfolio, building, masks);
-    return { building, priced, findings, baselines, intervalBaselines, failure: null };
-  } catch (error) {
-    return { ...empty, failure: error instanceof Error ? error.message : String(error) };
-  }
-}
-
-/** The building's interval series with flagged readings as NaN (`withFlaggedAsMissing`). */
-function cleanedIntervals(portfolio: Portfolio<Tariff>, meters: readonly Meter[], masks: ReadonlyMap<string, Uint8Array>): Map<string, IntervalSeries> {
-  const out = new Map<string, IntervalSeries>();
-  for (const m of meters) {
-    const series = portfolio.intervals.get(m.meterId);
-    if (series) out.set(m.meterId, withFlaggedAsMissing(series, masks.get(m.meterId)));
-  }
-  return out;
-}
-
-function scopeToBuilding(portfolio: Portfolio<Tariff>, building: Building): Portfolio<Tariff> {
-  const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
-  const ids = new Set(meters.map((m) => m.meterId));
-  const bills = portfolio.bills.filter((b) => ids.has(b.meterId));
-  const billIds = new Set(bills.map((b) => b.billId));
-  return {
-    ...portfolio,
-    buildings: [building],
-    meters,
-    bills,
-    billLines: portfolio.billLines.filter((l) => billIds.has(l.billId)),
-  };
-}
-
-/** The degree-day models' leave-one-out bands, by bill id (meters without a model fall back to the audit's interim rule). */
-function expectedUsageFromBands(bands: ReadonlyMap<string, Pick<MeterBaseline, "expectedByBill">>): Map<string, { p50: number; low: number; high: number }> {
-  const map = new Map<string, { p50: number; low: number; high: number }>();
-  for (const b of bands.values()) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
-  return map;
-}
-
-/** Findings whose bill's usage is wrong or not the building's own, so it must not train a weather model. */
-const USAGE_FINDINGS = new Set(["multiplier-suspect", "usage-vs-meter", "usage-outlier", "duplicate-bill", "period-overlap"]);
-
-/** Bills the audit found wrong in their usage, with the reason, to leave out of the change-point fits. */
-function billsToLeaveOut(findings: Finding[]): Map<string, string> {
-  const out = new Map<string, string>();
-  for (const f of findings) {
-    if (f.severity === "info" || !USAGE_FINDINGS.has(f.check)) continue;
-    for (const id of [f.billId, ...(f.relatedBillIds ?? [])]) if (id) out.set(id, `audit finding: ${f.check}`);
-  }
-  return out;
-}
-
-/** The demand window of a tariff's first demand charge (15 minutes when it has none). */
-function demandWindowMinutes(tariff: Tariff | undefined): number {
-  for (const version of tariff?.versions ?? []) {
-    for (const charge of version.charges) if (charge.kind === "demand") return charge.windowMinutes;
-  }
-  return 15;
 }
 
 function moneyOf(disputes: Dispute[]): { count: number; total: number } {

@@ -15,11 +15,11 @@ import type { Detection } from "../clean/detect/index.ts";
 import type { MonthTotal } from "../ingest/monthlyTotals.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
 import { toCsv } from "../core/csv.ts";
-import type { BuildingResults } from "./build.ts";
+import type { BuildingResults } from "./analyseBuilding.ts";
 import type { PricedBill } from "./priceBills.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
-import type { IntervalBaselineOutcome } from "./intervalBaselines.ts";
+import type { HourlyModelOutcome } from "./analyseBuilding.ts";
 import type { MeteredViews } from "./meteredViews.ts";
 import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
 import { weatherGapDetections } from "./dataQuality.ts";
@@ -147,7 +147,7 @@ function modelsJson(results: BuildingResults[]) {
   })));
 }
 
-function hourlyModels(outcome: IntervalBaselineOutcome | undefined) {
+function hourlyModels(outcome: HourlyModelOutcome | undefined) {
   if (!outcome) return null;
   if (!outcome.baseline) return { problem: outcome.problem };
   return outcome.baseline.summary;

@@ -12,7 +12,7 @@ import { shiftMonth } from "../forecast/months.ts";
 import type { WeatherGap } from "../ingest/weatherGrid.ts";
 import type { MonthTotal } from "../ingest/monthlyTotals.ts";
 import type { ReportAccuracy, ReportBaseline, ReportBuildingForecast, ReportForecastMethod, ReportInput, ReportMeterQuality, ReportModelSummary } from "../report/index.ts";
-import type { BuildingResults } from "./build.ts";
+import type { BuildingResults } from "./analyseBuilding.ts";
 import type { MeterBaseline } from "./baselines.ts";
 import type { MeterQuality } from "./dataQuality.ts";
 import type { PricedBill } from "./priceBills.ts";

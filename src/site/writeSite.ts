@@ -285,7 +285,7 @@ export async function writeSite(
 }
 
 /** Building pages rendered per Eleventy pass (with their meter and tenant pages, in proportion). */
-export const BUILDINGS_PER_PASS = 40;
+export const BUILDINGS_PER_PASS = 20;
 
 interface RenderContext {
   contentDir: string;
@@ -344,6 +344,9 @@ async function eleventyPass(site: SiteModel, ctx: RenderContext, record: Set<str
     configPath: ELEVENTY_CONFIG,
     config(eleventyConfig) {
       eleventyConfig.addGlobalData("site", site);
+      // Eleventy warns about slow configuration code (our transform) even in quiet mode.
+      const bench = eleventyConfig.benchmarkManager as { get?(name: string): { setIsVerbose?(verbose: boolean): void } } | undefined;
+      if (!ctx.verbose) bench?.get?.("Configuration")?.setIsVerbose?.(false);
       for (const inputPath of skip ?? []) eleventyConfig.ignores.add(inputPath);
       eleventyConfig.addTransform("ohmbook-client-bundle", function (this: { page?: { outputPath?: unknown; inputPath?: unknown } }, content: string) {
         const outputPath = this.page?.outputPath;

@@ -1,0 +1,74 @@
+/**
+ * Buildings analysed on every core: each building's analysis (analyseBuilding) runs in a worker
+ * thread of a pool (tinypool), `jobs` at a time, and its results come back as plain data
+ * (structured clone) in the portfolio's building order, so the site does not depend on `jobs`.
+ *
+ * What crosses the boundary:
+ * - in: the building's slice of the portfolio (its meters, bills, lines, interval series and
+ *   masks, the weather it uses, every tariff), plus — for a building with a short-history
+ *   interval meter, whose hourly model borrows from the portfolio's other electricity meters
+ *   (intervalBaselines.ts poolFor) — those meters and their buildings' weather;
+ * - out: the results with functions dropped (plainResults): the hourly models reduced to their
+ *   summaries (all later stages read), and each meter's change-point fit rebuilt on this side
+ *   from its points (hydrateResults; the same fit, bit for bit, as the search found).
+ * `jobs: 1` analyses in this thread but through the same plain form, so both paths give the same
+ * results; test/pipeline/analysisPool.test.ts builds a portfolio both ways and compares every file.
+ */
+import { availableParallelism } from "node:os";
+import Tinypool from "tinypool";
+import type { Portfolio } from "../domain/types.ts";
+import type { Tariff } from "../tariff/index.ts";
+import { analyseBuilding, type BuildingResults } from "./analyseBuilding.ts";
+import { buildingTask, hydrateResults, plainResults, type PlainResults } from "./buildingTask.ts";
+
+export interface AnalyseOptions {
+  /** Worker threads; 1 analyses in this thread. Default: os.availableParallelism(). */
+  jobs?: number;
+  /** Called as each building finishes (in completion order), with how many are done. */
+  onDone?: (done: number, total: number, buildingId: string) => void;
+}
+
+/** The default `--jobs`: the cores Node may use. */
+export function defaultJobs(): number {
+  return availableParallelism();
+}
+
+/** Where the worker module is: beside the compiled CLI (dist/cli), or the TypeScript source through tsx. */
+function workerFilename(): string {
+  const here = import.meta.url;
+  return here.endsWith(".ts") ? new URL("./analyseWorker.dev.mjs", here).href : new URL("./analyseWorker.js", here).href;
+}
+
+/**
+ * Every building of `portfolio` analysed, results in the portfolio's building order.
+ * @example const results = await analyseBuildings(portfolio, masks, { jobs: 2 });
+ */
+export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: ReadonlyMap<string, Uint8Array>, options: AnalyseOptions = {}): Promise<BuildingResults[]> {
+  const buildings = portfolio.buildings;
+  const jobs = Math.max(1, Math.min(options.jobs ?? defaultJobs(), buildings.length));
+  const results: BuildingResults[] = new Array(buildings.length);
+  let done = 0;
+  const finished = (i: number, plain: PlainResults) => {
+    results[i] = hydrateResults(plain);
+    options.onDone?.(++done, buildings.length, buildings[i]!.buildingId);
+  };
+  if (jobs <= 1) {
+    buildings.forEach((b, i) => finished(i, plainResults(analyseBuilding(portfolio, b, masks))));
+    return results;
+  }
+  const pool = new Tinypool({ filename: workerFilename(), minThreads: jobs, maxThreads: jobs, idleTimeout: 1000 });
+  try {
+    // At most two tasks per worker in flight, so the slices waiting to be sent stay few.
+    let next = 0;
+    const run = async (): Promise<void> => {
+      while (next < buildings.length) {
+        const i = next++;
+        finished(i, (await pool.run(buildingTask(portfolio, buildings[i]!, masks))) as PlainResults);
+      }
+    };
+    await Promise.all(Array.from({ length: jobs * 2 }, run));
+  } finally {
+    await pool.destroy();
+  }
+  return results;
+}
