@@ -32,6 +32,8 @@ export interface CliIo {
   out: (s: string) => void;
   err: (s: string) => void;
   isTty: boolean;
+  /** Width of the terminal (stderr), for the progress line. */
+  columns?: number;
   /** SOURCE_DATE_EPOCH (reproducible-builds convention): seconds since 1970 that date the build. */
   sourceDateEpoch?: string;
   /** The folder a missing DIR is looked for in (default: the process's current folder). */
@@ -42,6 +44,7 @@ const processIo: CliIo = {
   out: (s) => process.stdout.write(s),
   err: (s) => process.stderr.write(s),
   isTty: Boolean(process.stderr.isTTY),
+  columns: process.stderr.columns,
   sourceDateEpoch: process.env.SOURCE_DATE_EPOCH,
 };
 
@@ -149,7 +152,7 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     throw new UsageError(`--audience must be 'internal' (the full site) or 'tenants' (tenant pages only), got '${audience.slice(0, 40)}'`);
   }
   const quiet = Boolean(values.quiet) || Boolean(values.json);
-  const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
+  const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err, width: io.columns ? io.columns - 1 : undefined });
   const { buildPortfolioSite } = await import("../pipeline/build.ts");
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
   const result = await buildPortfolioSite({

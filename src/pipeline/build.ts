@@ -139,8 +139,10 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const model = buildSiteModel(
     toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
   );
-  if (options.audience === "tenants") await writeSite(tenantSiteModel(model), {}, options.outDir);
-  else await writeSite(model, dataFiles, options.outDir);
+  const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
+  if (options.audience === "tenants") await writeSite(tenantSiteModel(model), {}, options.outDir, { onProgress });
+  else await writeSite(model, dataFiles, options.outDir, { onProgress });
+  reporter.finish();
 
   const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;
   const summary: BuildSummary = {

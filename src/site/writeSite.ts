@@ -32,6 +32,8 @@ export interface WriteSiteOptions {
   contentDir?: string;
   /** Building pages per Eleventy pass (default BUILDINGS_PER_PASS); the output does not depend on it. */
   buildingsPerPass?: number;
+  /** Called after each pass of building pages with how many buildings' pages are written. */
+  onProgress?: (buildingsDone: number, buildingsTotal: number) => void;
 }
 
 /** Prefix of the scratch folders of builds into `outDir`. */
@@ -249,7 +251,7 @@ export async function writeSite(
     const bundle = await buildClientBundle(contentDir, stage, scratch, viteOptions(verbose, (error) => {
       bundleError ??= error;
     }));
-    await renderPages(model, dataFileSizes(dataFiles), { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS });
+    await renderPages(model, dataFileSizes(dataFiles), { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS, onProgress: options.onProgress });
     if (!(await exists(join(stage, "index.html")))) {
       throw new SiteWriteError("the site build produced no index.html");
     }
@@ -293,6 +295,7 @@ interface RenderContext {
   bundle: ClientBundle;
   verbose: boolean;
   buildingsPerPass: number;
+  onProgress?: (done: number, total: number) => void;
 }
 
 /** Splits `items` into `parts` consecutive slices of nearly equal length (some may be empty). */
@@ -321,6 +324,8 @@ async function renderPages(model: SiteModel, sizes: Record<string, number>, ctx:
   const buildingSlices = slices(model.buildings, passes);
   const meterSlices = slices(model.meterBills, passes);
   const tenantSlices = slices(model.tenants, passes);
+  let written = 0;
+  ctx.onProgress?.(0, model.buildings.length);
   for (let i = 0; i < passes; i++) {
     const site: SiteModel = {
       ...shell,
@@ -329,6 +334,8 @@ async function renderPages(model: SiteModel, sizes: Record<string, number>, ctx:
       tenants: tenantSlices[i]!,
     };
     await eleventyPass(site, ctx, null, firstPassTemplates);
+    written += buildingSlices[i]!.length;
+    ctx.onProgress?.(written, model.buildings.length);
   }
 }
 
