@@ -22,7 +22,7 @@ import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "./meteredViews.ts";
 import { toReportInput } from "./reportInput.ts";
 import { buildDataFiles } from "./outputs.ts";
-import { buildSiteModel, tenantSiteModel } from "../report/index.ts";
+import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "./usageSummary.ts";
 import { cutAtAsOf } from "./asOf.ts";
@@ -136,12 +136,11 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
 
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
-  const model = buildSiteModel(
-    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
-  );
+  const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast });
   const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
-  if (options.audience === "tenants") await writeSite(tenantSiteModel(model), {}, options.outDir, { onProgress });
-  else await writeSite(model, dataFiles, options.outDir, { onProgress });
+  // The internal site's building pages are made a few buildings at a time as they are written.
+  if (options.audience === "tenants") await writeSite(tenantSiteModel(buildSiteModel(reportInput)), {}, options.outDir, { onProgress });
+  else await writeSite(siteModelInParts(reportInput), dataFiles, options.outDir, { onProgress });
   reporter.finish();
 
   const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;

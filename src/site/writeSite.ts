@@ -12,6 +12,7 @@ import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
 import Eleventy from "@11ty/eleventy";
 import type { SiteModel } from "../report/siteModel.ts";
+import type { SiteModelInParts } from "../report/buildSiteModel.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
 import { dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages } from "./prepareSite.ts";
@@ -217,13 +218,14 @@ export function viteOptions(verbose: boolean, onError: (error: Error) => void): 
 
 /**
  * Renders `model` into `outDir` with every file in `dataFiles` (name relative to data/ → text)
- * under `outDir/data/`. Replaces `outDir` only when the whole build succeeded.
+ * under `outDir/data/`. Replaces `outDir` only when the whole build succeeded. A model in parts
+ * (siteModelInParts) has its building pages made a pass at a time, so they are never all in memory.
  * `options.verbose` lets Eleventy and Vite log to the console (for debugging a build).
  * @throws SiteWriteError when rendering, bundling or writing fails (outDir unchanged).
  * @example await writeSite(buildSiteModel(input), { "findings.csv": csv }, "_site");
  */
 export async function writeSite(
-  model: SiteModel,
+  model: SiteModel | SiteModelInParts,
   dataFiles: Record<string, string>,
   outDir: string,
   options: WriteSiteOptions = {},
@@ -298,12 +300,6 @@ interface RenderContext {
   onProgress?: (done: number, total: number) => void;
 }
 
-/** Splits `items` into `parts` consecutive slices of nearly equal length (some may be empty). */
-function slices<T>(items: readonly T[], parts: number): T[][] {
-  const size = Math.ceil(items.length / parts);
-  return Array.from({ length: parts }, (_, i) => items.slice(i * size, (i + 1) * size));
-}
-
 /**
  * Renders every page of `model` into `ctx.stage`, a few buildings at a time, so memory does not
  * grow with the number of buildings: a first Eleventy pass writes the portfolio-level pages
@@ -314,28 +310,36 @@ function slices<T>(items: readonly T[], parts: number): T[][] {
  * and the portfolio-level parts of `site` (as every template does); the site is byte-identical
  * to one rendered in a single pass (test/site/writeSite.test.ts).
  */
-async function renderPages(model: SiteModel, sizes: Record<string, number>, ctx: RenderContext): Promise<void> {
-  const portfolioPages = await preparePortfolioPages(model, sizes);
+async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<string, number>, ctx: RenderContext): Promise<void> {
+  const parts = "pagesOf" in model ? model : null;
+  const full = "pagesOf" in model ? null : model;
+  const base = parts ? parts.shell : full!;
+  const buildingCount = parts ? parts.buildingCount : full!.buildings.length;
+  const portfolioPages = await preparePortfolioPages(base, sizes);
   const shell: SiteModel = { ...portfolioPages, buildings: [], meterBills: [], tenants: [] };
   const firstPassTemplates = new Set<string>();
   await eleventyPass(shell, ctx, firstPassTemplates, null);
-  const passes = Math.ceil(model.buildings.length / Math.max(1, ctx.buildingsPerPass));
+  const passes = Math.ceil(buildingCount / Math.max(1, ctx.buildingsPerPass));
   if (passes === 0) return;
-  const buildingSlices = slices(model.buildings, passes);
-  const meterSlices = slices(model.meterBills, passes);
-  const tenantSlices = slices(model.tenants, passes);
+  // A whole model is cut into equal shares of each page list; a model in parts gives the pages
+  // of each consecutive range of buildings, made just now.
+  const size = Math.ceil(buildingCount / passes);
+  const share = <T>(items: readonly T[], i: number) => items.slice(i * Math.ceil(items.length / passes), (i + 1) * Math.ceil(items.length / passes));
   let written = 0;
-  ctx.onProgress?.(0, model.buildings.length);
+  ctx.onProgress?.(0, buildingCount);
   for (let i = 0; i < passes; i++) {
+    const from = i * size;
+    const to = Math.min(buildingCount, from + size);
+    const pages = parts ? parts.pagesOf(from, to) : { buildings: share(full!.buildings, i), meterBills: share(full!.meterBills, i), tenants: share(full!.tenants, i) };
     const site: SiteModel = {
       ...shell,
-      buildings: await prepareBuildingPages(buildingSlices[i]!, sizes),
-      meterBills: await prepareMeterPages(meterSlices[i]!),
-      tenants: tenantSlices[i]!,
+      buildings: await prepareBuildingPages(pages.buildings, sizes),
+      meterBills: await prepareMeterPages(pages.meterBills),
+      tenants: pages.tenants,
     };
     await eleventyPass(site, ctx, null, firstPassTemplates);
-    written += buildingSlices[i]!.length;
-    ctx.onProgress?.(written, model.buildings.length);
+    written += to - from;
+    ctx.onProgress?.(written, buildingCount);
   }
 }
 
