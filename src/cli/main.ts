@@ -15,7 +15,7 @@ import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, defaultPortfolioDir, ohmbookVersi
 const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
 
 Usage:
-  ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--jobs N] [--strict] [--quiet] [--json]
+  ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--jobs N] [--cache DIR|--no-cache] [--strict] [--quiet] [--json]
   ohmbook check [DIR] [--quiet] [--json]
   ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
                 | --intervals CSV --meter ID --from D --to D) [--timezone ZONE] [--estimate] [--json]
@@ -140,9 +140,12 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     quiet: { type: "boolean", short: "q" },
     json: { type: "boolean" },
     jobs: { type: "string", short: "j" },
+    cache: { type: "string" },
+    "no-cache": { type: "boolean" },
   });
   if (positionals.length > 1) throw new UsageError(`build takes one folder, got ${positionals.length}`);
   const jobs = parseJobs(values.jobs as string | undefined);
+  if (values.cache !== undefined && values["no-cache"]) throw new UsageError("--cache and --no-cache cannot both be given");
   const failOn = values["fail-on"] as string | undefined;
   if (failOn !== undefined && failOn !== "warning" && failOn !== "error") {
     throw new UsageError(`--fail-on must be 'warning' or 'error', got '${failOn}'`);
@@ -155,14 +158,18 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err, width: io.columns ? io.columns - 1 : undefined });
   const { buildPortfolioSite } = await import("../pipeline/build.ts");
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
+  const outDir = (values.out as string | undefined) ?? "_site";
+  const { defaultCacheDir } = await import("../pipeline/analysisCache.ts");
+  const cacheDir = values["no-cache"] ? undefined : ((values.cache as string | undefined) ?? defaultCacheDir(outDir));
   const result = await buildPortfolioSite({
     dir,
-    outDir: (values.out as string | undefined) ?? "_site",
+    outDir,
     strict: Boolean(values.strict),
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
     audience,
     jobs,
+    cacheDir,
   }).catch((error: unknown) => {
     if (error instanceof InputError && error.folder === undefined) error.folder = dir;
     throw error;

@@ -11,21 +11,24 @@
  * - out: the results with functions dropped (plainResults): the hourly models reduced to their
  *   summaries (all later stages read), and each meter's change-point fit rebuilt on this side
  *   from its points (hydrateResults; the same fit, bit for bit, as the search found).
- * `jobs: 1` analyses in this thread but through the same plain form, so both paths give the same
- * results; test/pipeline/analysisPool.test.ts builds a portfolio both ways and compares every file.
+ * `jobs: 1` analyses in this thread but through the same task and plain form, so both paths give
+ * the same results; test/pipeline/analysisPool.test.ts builds a portfolio both ways and compares every file.
  */
 import { availableParallelism } from "node:os";
 import Tinypool from "tinypool";
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { analyseBuilding, type BuildingResults } from "./analyseBuilding.ts";
-import { buildingTask, hydrateResults, plainResults, type PlainResults } from "./buildingTask.ts";
+import type { BuildingResults } from "./analyseBuilding.ts";
+import { analyseTask, buildingTask, hydrateResults, type BuildingTask, type PlainResults } from "./buildingTask.ts";
+import { cacheKey, keyTariffs, pruneCache, readCached, writeCached, type AnalysisCache } from "./analysisCache.ts";
 
 export interface AnalyseOptions {
   /** Worker threads; 1 analyses in this thread. Default: os.availableParallelism(). */
   jobs?: number;
   /** Called as each building finishes (in completion order), with how many are done. */
   onDone?: (done: number, total: number, buildingId: string) => void;
+  /** Reuse and store each building's results here (analysisCache.ts); none by default. */
+  cache?: AnalysisCache;
 }
 
 /** The default `--jobs`: the cores Node may use. */
@@ -40,35 +43,45 @@ function workerFilename(): string {
 }
 
 /**
- * Every building of `portfolio` analysed, results in the portfolio's building order.
+ * Every building of `portfolio` analysed, results in the portfolio's building order; with a
+ * cache, buildings whose task is unchanged are read from it instead (analysisCache.ts).
  * @example const results = await analyseBuildings(portfolio, masks, { jobs: 2 });
  */
 export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: ReadonlyMap<string, Uint8Array>, options: AnalyseOptions = {}): Promise<BuildingResults[]> {
   const buildings = portfolio.buildings;
   const jobs = Math.max(1, Math.min(options.jobs ?? defaultJobs(), buildings.length));
+  const cache = options.cache ?? null;
+  if (cache) keyTariffs(cache, portfolio.tariffs);
   const results: BuildingResults[] = new Array(buildings.length);
   let done = 0;
-  const finished = (i: number, plain: PlainResults) => {
-    results[i] = hydrateResults(plain);
-    options.onDone?.(++done, buildings.length, buildings[i]!.buildingId);
+  // Threads start only when a building is not in the cache.
+  let pool: Tinypool | null = null;
+  const analyse = async (task: BuildingTask): Promise<PlainResults> => {
+    if (jobs <= 1) return analyseTask(task);
+    pool ??= new Tinypool({ filename: workerFilename(), minThreads: jobs, maxThreads: jobs, idleTimeout: 1000 });
+    return (await pool.run(task)) as PlainResults;
   };
-  if (jobs <= 1) {
-    buildings.forEach((b, i) => finished(i, plainResults(analyseBuilding(portfolio, b, masks))));
-    return results;
-  }
-  const pool = new Tinypool({ filename: workerFilename(), minThreads: jobs, maxThreads: jobs, idleTimeout: 1000 });
   try {
-    // At most two tasks per worker in flight, so the slices waiting to be sent stay few.
     let next = 0;
     const run = async (): Promise<void> => {
       while (next < buildings.length) {
         const i = next++;
-        finished(i, (await pool.run(buildingTask(portfolio, buildings[i]!, masks))) as PlainResults);
+        const task = buildingTask(portfolio, buildings[i]!, masks);
+        const key = cache ? cacheKey(cache, task) : null;
+        let plain = cache && key ? await readCached(cache, key) : null;
+        if (!plain) {
+          plain = await analyse(task);
+          if (cache && key) await writeCached(cache, key, plain);
+        }
+        results[i] = hydrateResults(plain);
+        options.onDone?.(++done, buildings.length, buildings[i]!.buildingId);
       }
     };
-    await Promise.all(Array.from({ length: jobs * 2 }, run));
+    // With threads, two tasks per thread in flight, so the slices waiting to be sent stay few.
+    await Promise.all(Array.from({ length: jobs <= 1 ? 1 : jobs * 2 }, run));
   } finally {
-    await pool.destroy();
+    await (pool as Tinypool | null)?.destroy();
   }
+  if (cache) await pruneCache(cache);
   return results;
 }

@@ -27,7 +27,9 @@ import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.
 import { effectiveAsOf } from "./usageSummary.ts";
 import { cutAtAsOf } from "./asOf.ts";
 import { roundCents } from "../tariff/rounding.ts";
-import { checkOutputFolder, writeSite } from "../site/writeSite.ts";
+import { checkOutputFolder, SiteWriteError, writeSite } from "../site/writeSite.ts";
+import { defaultCacheDir, openAnalysisCache } from "./analysisCache.ts";
+import { resolve, sep } from "node:path";
 
 export interface BuildOptions {
   dir: string;
@@ -45,6 +47,12 @@ export interface BuildOptions {
   buildDate?: string;
   /** Worker threads analysing buildings (1: in this thread). Default: os.availableParallelism(). */
   jobs?: number;
+  /**
+   * Folder of the incremental-rebuild cache (analysisCache.ts): buildings whose inputs, settings
+   * and program are unchanged are not analysed again. Default none (the CLI passes one beside
+   * the output folder). Refused inside the output folder or the portfolio folder.
+   */
+  cacheDir?: string;
 }
 
 export interface BuildResult {
@@ -71,6 +79,8 @@ export interface BuildSummary {
   amountAtStake: number;
   rowsRejected: number;
   buildingsFailed: { buildingId: string; reason: string }[];
+  /** Buildings whose analysis came from the cache (0 without one). */
+  buildingsFromCache: number;
 }
 
 export { analyseBuilding, type BuildingResults, type HourlyModelOutcome } from "./analyseBuilding.ts";
@@ -86,6 +96,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
 
   // A wrong output folder is refused before any work.
   await checkOutputFolder(options.outDir, options.dir);
+  if (options.cacheDir !== undefined) checkCacheFolder(options.cacheDir, options.outDir, options.dir);
   reporter.stage(`Reading ${options.dir}`);
   const loaded = await loadPortfolio(options.dir);
   const issues = loaded.issues;
@@ -106,8 +117,10 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
   reporter.step(0, portfolio.buildings.length, "");
+  const cache = options.cacheDir !== undefined ? await openAnalysisCache(options.cacheDir) : undefined;
   const results = await analyseBuildings(portfolio, masks, {
     jobs: options.jobs,
+    cache,
     onDone: (done, total, buildingId) => reporter.step(done, total, buildingId),
   });
   reporter.finish();
@@ -157,6 +170,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
     amountAtStake: roundCents(findings.reduce((s, f) => s + (f.severity !== "info" && f.amountAtStake ? f.amountAtStake : 0), 0)),
     rowsRejected: portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0),
     buildingsFailed: failed.map((r) => ({ buildingId: r.building.buildingId, reason: r.failure! })),
+    buildingsFromCache: cache?.hits ?? 0,
   };
   return {
     issues,
@@ -190,6 +204,18 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
   }
 }
 
+/** The cache must never be published nor written into the user's portfolio folder. */
+function checkCacheFolder(cacheDir: string, outDir: string, inputDir: string): void {
+  const cache = resolve(cacheDir);
+  const inside = (child: string, parent: string) => child === parent || child.startsWith(parent.endsWith(sep) ? parent : parent + sep);
+  if (inside(cache, resolve(outDir)) || inside(resolve(outDir), cache)) {
+    throw new SiteWriteError(`refusing to keep the cache in ${cacheDir}: it is the output folder, inside it, or contains it, and would be published or deleted with the site; choose a folder beside it (the default is ${defaultCacheDir(outDir)})`);
+  }
+  if (inside(cache, resolve(inputDir)) || inside(resolve(inputDir), cache)) {
+    throw new SiteWriteError(`refusing to keep the cache in ${cacheDir}: it is the portfolio folder, inside it, or contains it; choose a folder of its own (the default is ${defaultCacheDir(outDir)})`);
+  }
+}
+
 function moneyOf(disputes: Dispute[]): { count: number; total: number } {
   return { count: disputes.length, total: roundCents(disputes.reduce((s, d) => s + d.claimAmount, 0)) };
 }
@@ -211,6 +237,7 @@ function summaryText(s: BuildSummary, currency: string): string {
     `  findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info`,
   ];
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
+  if (s.buildingsFromCache > 0) lines.push(`  ${s.buildingsFromCache} of ${s.buildings} building(s) unchanged since the last build: their analysis came from the cache`);
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
   lines.push(`View it: serve the folder over HTTP (e.g. npx vite preview --outDir ${s.outDir}) and open the address shown.`);
   return lines.join("\n");

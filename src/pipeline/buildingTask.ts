@@ -46,6 +46,9 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
     buildingId: building.buildingId,
     portfolio: {
       ...portfolio,
+      // Not read by the analysis; left out so the task (and its cache key) is the building's own.
+      root: "",
+      report: { files: [] },
       buildings,
       meters,
       bills,
