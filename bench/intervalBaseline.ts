@@ -33,10 +33,10 @@ import { gbdtSpec } from "../src/model/interval/gbdtHourly.ts";
 import { withLog1pTarget } from "../src/model/interval/targetTransform.ts";
 import type { HourlyModelSpec } from "../src/model/interval/types.ts";
 import { GUIDELINE14_LIMITS } from "../src/model/stats.ts";
-import { fitMeterBaseline, meanTemperature } from "../src/pipeline/baselines.ts";
-import { localMidnightMs, daysBetween } from "../src/core/time.ts";
+import { fitMeterBaseline, meanTemperature } from "../src/model/billBaselines.ts";
 import type { IntervalSeries } from "../src/domain/types.ts";
 import { hourlyFromDailyMaxMin, meanFinite, parseDailyMaxMinCsv, parseHourlyNormalsCsv, readNoaaFile } from "./lib/noaaWeather.ts";
+import { localMidnightMs, daysBetween } from "../src/core/time/index.ts";
 import {
   BENCH_PROFILES,
   bandCoverage,

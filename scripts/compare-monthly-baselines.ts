@@ -15,7 +15,7 @@
  * --daily: degree-days from daily mean temperatures instead of hourly integration)
  */
 import { loadPortfolio } from "../src/ingest/index.ts";
-import { fitMeterBaseline } from "../src/pipeline/baselines.ts";
+import { fitMeterBaseline } from "../src/model/billBaselines.ts";
 
 /** Level of the least-squares prediction band the change-point comparison uses (the earlier rule). */
 const OUTLIER_BAND_LEVEL = 0.99;
@@ -28,8 +28,8 @@ import {
   type TemperatureProfile,
 } from "../src/model/degreeDayRegression.ts";
 import { degreeDayOutlierBand, outlierBand, type BandPoint } from "../src/model/outlierBand.ts";
-import { daysBetween, localMidnightMs } from "../src/core/time.ts";
 import type { Bill } from "../src/domain/types.ts";
+import { daysBetween, localMidnightMs } from "../src/core/time/index.ts";
 
 const MIN_POINTS = 9;
 const MIN_WEATHER_COVERAGE = 0.8;

@@ -15,9 +15,8 @@
  */
 import { DateTime } from "luxon";
 import type { Bill, Building, Commodity, IntervalSeries, Meter, WeatherSeries } from "../../src/domain/types.ts";
-import { isUsFederalHoliday } from "../../src/tariff/holidays.ts";
-import { mulberry32 } from "../../src/model/interval/rng.ts";
-import { localMidnightMs } from "../../src/core/time.ts";
+import { mulberry32 } from "../../src/core/random.ts";
+import { isUsFederalHoliday, localMidnightMs } from "../../src/core/time/index.ts";
 
 const HOUR_MS = 3_600_000;
 

@@ -20,6 +20,7 @@ escalation: { electricity: 3%, gas: 4%, water: 5% }
 tolerances: { usage_pct: 2, demand_pct: 3, cost_abs: 1.00, cost_pct: 0.5 }
 degree_day_base: { heating: 18, cooling: 18, unit: C }
 base_path: /
+contacts: { ashelm: "Resident services, ground-floor office: 555-0148, residents@ashelm.example" }
 `;
 }
 

@@ -3,9 +3,9 @@
  * One helper per way a bill is corrected, so every check words and rounds them the same way.
  */
 import type { Bill } from "../domain/types.ts";
-import type { ComputedBill } from "../tariff/types.ts";
-import { roundCents } from "./tolerances.ts";
+import type { ComputedBill } from "../tariff/index.ts";
 import type { CorrectedBill } from "./types.ts";
+import { roundCents } from "../core/money.ts";
 
 /** The bill re-priced through a tariff (on the quantities named in `correctedOn`). */
 export function repricedCorrection(bill: Bill, corrected: ComputedBill, usage: number, demandKw: number | null, correctedOn: string): CorrectedBill {

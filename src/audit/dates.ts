@@ -1,9 +1,5 @@
-/** Calendar-day arithmetic on ISO `YYYY-MM-DD` strings (no time zone involved: whole days). */
-
-import { addDays, daysBetween } from "../core/time.ts";
-
-/** Days from `start` to `end` (end exclusive), and the date `days` after a date: see src/core/time.ts. */
-export { addDays, daysBetween };
+/** Audit-specific date rules on ISO `YYYY-MM-DD` strings; general calendar arithmetic is src/core/time. */
+import { addDays, daysBetween } from "../core/time/index.ts";
 
 /** Later of two ISO dates. */
 export function maxDate(a: string, b: string): string {

@@ -5,16 +5,6 @@ function groupThousands(digits: string): string {
 }
 
 /**
- * Money with two decimals, thousands grouped and the currency code.
- * @example formatMoney(-1234.5, "USD") // "-1,234.50 USD"
- */
-export function formatMoney(amount: number, currency: string): string {
-  const sign = amount < 0 ? "-" : "";
-  const [whole, cents] = Math.abs(amount).toFixed(2).split(".");
-  return `${sign}${groupThousands(whole)}.${cents} ${currency}`;
-}
-
-/**
  * A quantity with up to `decimals` decimals (trailing zeros dropped), thousands grouped.
  * @example formatQty(12345.678, 1) // "12,345.7"
  */

@@ -28,7 +28,7 @@ export * from "./types.ts";
 export { meteredForPeriod, meteredForBills, localMidnightMs } from "./reconcile.ts";
 export { findingsToCsvRows, findingsToCsvText, toFindingsJson, billsRecomputedRows, FINDINGS_CSV_COLUMNS } from "./output.ts";
 export { resolveTolerances, exceedsMoneyTolerance, AUDIT_DEFAULTS } from "./tolerances.ts";
-export { makeRepricer, intervalUsageForBill, pinVersion } from "./wiring.ts";
+export { makeRepricer, pinVersion } from "./wiring.ts";
 
 const CHECKS = [
   checkTotalMismatch, checkLineMismatch, checkUnexplainedLine, checkUsageVsMeter, checkDemandVsMeter,
@@ -40,7 +40,7 @@ const CHECKS = [
  * Ranking: |amount at stake| descending (no amount counts as 0), then severity (error first),
  * then building, meter, period start, check, bill for a stable order.
  */
-export function compareFindings(a: Finding, b: Finding): number {
+function compareFindings(a: Finding, b: Finding): number {
   return (
     Math.abs(b.amountAtStake ?? 0) - Math.abs(a.amountAtStake ?? 0) ||
     SEVERITY_RANK[b.severity] - SEVERITY_RANK[a.severity] ||
@@ -67,3 +67,10 @@ export function runAudit(input: AuditInput): Finding[] {
 export function reachesSeverity(findings: Finding[], threshold: Severity): boolean {
   return findings.some((f) => SEVERITY_RANK[f.severity] >= SEVERITY_RANK[threshold]);
 }
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export { groupLines } from "./checks/labels.ts";
+export { COMMON_RATIOS } from "./checks/multiplier-suspect.ts";
+export { claimOf } from "./corrections.ts";
+export { meteredViewsByBill } from "./meteredViews.ts";
+export type { MeteredViews } from "./meteredViews.ts";

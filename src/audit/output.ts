@@ -3,10 +3,10 @@
  * bills-recomputed.csv (column names per the outputs contract).
  */
 import type { Bill } from "../domain/types.ts";
-import type { ComputedBill } from "../tariff/types.ts";
-import { roundCents } from "./tolerances.ts";
+import type { ComputedBill } from "../tariff/index.ts";
 import type { Evidence, Finding } from "./types.ts";
 import { csvField } from "../core/csv.ts";
+import { roundCents } from "../core/money.ts";
 
 export const FINDINGS_CSV_COLUMNS = [
   "building_id", "meter_id", "bill_id", "period_start", "period_end", "check", "severity", "amount_at_stake", "message",

@@ -2,10 +2,12 @@
  * Reconciliation of one bill period against a meter's interval data: metered usage, peak
  * demand and how complete the data is. Pure: the caller passes the series and the zone.
  */
-import { localMidnightMs, lowerBound } from "../core/time.ts";
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import type { MeteredPeriod } from "./types.ts";
-import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
+import { withFlaggedAsMissing } from "../clean/index.ts";
+import { localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 export { localMidnightMs };
 
@@ -85,7 +87,7 @@ export function meteredForPeriod(
 }
 
 /** kWh per unit for electricity bill units; null for other commodities (no demand). */
-export function kwhPerBillUnit(commodity: string, unit: string): number | null {
+function kwhPerBillUnit(commodity: string, unit: string): number | null {
   if (commodity !== "electricity") return null;
   const u = unit.trim().toLowerCase();
   if (u === "mwh") return 1000;
@@ -131,7 +133,8 @@ export function meteredForBills(
         if (m.flaggedIntervals > 0) m.raw = { usage: raw.usage, peakKw: raw.peakKw, coverage: raw.coverage, intervals: raw.intervals };
       }
       out.set(bill.billId, m);
-    } catch {
+    } catch (error) {
+      expectedProblem(error);
       out.set(bill.billId, null); // invalid zone/date: ingest reports it; the audit just cannot compare
     }
   }

@@ -4,6 +4,7 @@
  */
 import type { Tolerances } from "../domain/types.ts";
 import type { AuditTolerances } from "./types.ts";
+import { toCents } from "../core/money.ts";
 
 /** Audit defaults for everything portfolio.yaml does not set (portfolio values always win). */
 export const AUDIT_DEFAULTS: Omit<AuditTolerances, keyof Tolerances> = {
@@ -21,16 +22,6 @@ export const AUDIT_DEFAULTS: Omit<AuditTolerances, keyof Tolerances> = {
  */
 export function resolveTolerances(portfolio: Tolerances, overrides: Partial<AuditTolerances> = {}): AuditTolerances {
   return { ...portfolio, ...AUDIT_DEFAULTS, ...overrides };
-}
-
-/** Money rounded half away from zero to the cent, as an integer number of cents. */
-export function toCents(amount: number): number {
-  return Math.sign(amount) * Math.round(Math.abs(amount) * 100 + 1e-9);
-}
-
-/** Money rounded to the cent. */
-export function roundCents(amount: number): number {
-  return toCents(amount) / 100;
 }
 
 /**

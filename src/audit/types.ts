@@ -12,7 +12,7 @@
  *               recomputed, a period with too little interval data to compare).
  */
 import type { Bill, Meter, Portfolio, Tolerances } from "../domain/types.ts";
-import type { ComputedBill } from "../tariff/types.ts";
+import type { ComputedBill } from "../tariff/index.ts";
 
 /** Stable check codes, as listed in the outputs contract. */
 export const CHECK_CODES = [

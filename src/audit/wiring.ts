@@ -6,48 +6,14 @@
  *   runAudit({ portfolio, priced, metered, reprice, rateAlternatives });
  */
 import type { Bill, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
-import type { ComputedBill, IntervalUsage, PriceRequest } from "../tariff/types.ts";
+import type { Tariff } from "../tariff/index.ts";
+import type { ComputedBill, PriceRequest } from "../tariff/index.ts";
+import { intervalUsageForBill } from "../tariff/index.ts";
 import { sortBills } from "./context.ts";
-import { localMidnightMs, lowerBound } from "../core/time.ts";
 import type { RepriceAlternative, RepriceFn } from "./types.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;
-
-
-/**
- * The meter's intervals inside the bill's half-open local period, multiplier applied, or null
- * when there are none or fewer than `minCoverage` of the expected intervals (then the engine
- * prices from billed quantities, as for the original pricing). Non-finite readings (flagged
- * readings in the cleaned view, see `withFlaggedAsMissing`) are left out and count as missing.
- */
-export function intervalUsageForBill(
-  series: IntervalSeries | undefined, multiplier: number, bill: Bill, timezone: string, minCoverage = 0.9,
-): IntervalUsage | null {
-  if (!series || series.startMs.length === 0) return null;
-  const a = localMidnightMs(bill.periodStart, timezone);
-  const b = localMidnightMs(bill.periodEnd, timezone);
-  const from = lowerBound(series.startMs, a);
-  const to = lowerBound(series.startMs, b);
-  const expected = (b - a) / (series.intervalMinutes * 60_000);
-  let finite = 0;
-  for (let i = from; i < to; i++) if (Number.isFinite(series.values[i])) finite++;
-  if (to <= from || finite < minCoverage * expected) return null;
-  if (finite === to - from) {
-    const values = new Float64Array(to - from);
-    for (let i = from; i < to; i++) values[i - from] = series.values[i] * multiplier;
-    return { startMs: series.startMs.subarray(from, to), values, intervalMinutes: series.intervalMinutes };
-  }
-  const startMs = new Float64Array(finite);
-  const values = new Float64Array(finite);
-  let k = 0;
-  for (let i = from; i < to; i++) {
-    if (!Number.isFinite(series.values[i])) continue;
-    startMs[k] = series.startMs[i];
-    values[k++] = series.values[i] * multiplier;
-  }
-  return { startMs, values, intervalMinutes: series.intervalMinutes };
-}
 
 /** The tariff with only `versionFrom`'s version, in force for any date (for "priced on the wrong version"). */
 export function pinVersion(tariff: Tariff, versionFrom: string): Tariff | null {
@@ -117,7 +83,8 @@ export function makeRepricer(opts: {
         intervalsGive: "shape",
         previousBillingDemandsKw: earlierDemands.get(bill.billId) ?? [],
       });
-    } catch {
+    } catch (error) {
+      expectedProblem(error);
       return null;
     }
   };

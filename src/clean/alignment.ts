@@ -23,9 +23,8 @@
  * temperature plus time-of-week dummies. A schedule with no offset cannot create a false peak
  * elsewhere, because the schedule's share of the load is removed before any correlation.
  */
-import { IANAZone } from "luxon";
 import type { IntervalSeries, WeatherSeries } from "../domain/types.ts";
-import { localClockMs } from "./detect/localClock.ts";
+import { assertValidZone, localClockMs, offsetAtMs } from "../core/time/index.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -105,8 +104,8 @@ export function suggestAlignment(
 ): AlignmentSuggestion {
   const maxOffset = Math.max(0, Math.floor(options.maxOffsetHours ?? 14));
   const blockDays = options.blockDays ?? 56;
-  const zone = IANAZone.create(timezoneOfBuilding);
-  if (!zone.isValid) throw new RangeError(`unknown time zone '${timezoneOfBuilding}'`);
+  assertValidZone(timezoneOfBuilding);
+  const zone = timezoneOfBuilding;
 
   const hourly = hourlyLoad(series, options.mask);
   const offsets: number[] = [];
@@ -403,12 +402,12 @@ function weeklyMoments(
   return out;
 }
 
-function describe(offset: number, series: IntervalSeries, zone: IANAZone, score: number): string {
+function describe(offset: number, series: IntervalSeries, zone: string, score: number): string {
   if (!(score > 0)) return "no load–temperature relationship found; timestamps left as they are";
   if (offset === 0) return "timestamps agree with the weather";
   const n = series.startMs.length;
   const mid = series.startMs[Math.floor(n / 2)]!;
-  const zoneHours = zone.offset(mid) / 60;
+  const zoneHours = offsetAtMs(zone, mid) / 3_600_000;
   const late = offset > 0 ? `${offset} h late` : `${-offset} h early`;
   const parts = [`meter timestamps look ${late}; subtract ${offset} h to correct`];
   if (zoneHours !== 0 && offset === zoneHours) parts.push("consistent with local clock times stored as UTC");
@@ -428,7 +427,7 @@ function describe(offset: number, series: IntervalSeries, zone: IANAZone, score:
  * offset. Null without enough pairs or response. (OLS standard errors; hourly residuals are
  * autocorrelated, so t is optimistic — the caller asks several independent stretches to agree.)
  */
-export function responseOnset(
+function responseOnset(
   loadAnom: Float64Array,
   loadFirstHour: number,
   temp: { firstHour: number; anom: Float64Array },
@@ -540,11 +539,10 @@ function stretchesOf(hourly: HourlyLoad, timezone: string): Array<{ label: strin
   if (half >= minLen && len - half >= minLen) {
     out.push({ label: "first half", from: 0, to: half }, { label: "second half", from: half, to: len });
   }
-  const zone = IANAZone.create(timezone);
   const cuts = [0];
   for (let k = 1; k < len; k++) {
     const t = (hourly.firstHour + k) * HOUR_MS;
-    if (zone.offset(t) !== zone.offset(t - HOUR_MS)) cuts.push(k);
+    if (offsetAtMs(timezone, t) !== offsetAtMs(timezone, t - HOUR_MS)) cuts.push(k);
   }
   cuts.push(len);
   if (cuts.length > 2) {

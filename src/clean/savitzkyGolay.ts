@@ -5,7 +5,7 @@
  * d-th derivative) at a point of the window. The fit is linear in the samples, so it reduces
  * to fixed weights per window position.
  */
-import { householderQr, qrUnscaledCovariance } from "../model/linalg.ts";
+import { householderQr, qrUnscaledCovariance } from "../core/linalg.ts";
 import { CleanInputError } from "./errors.ts";
 
 export interface SavgolOptions {

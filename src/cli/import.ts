@@ -6,7 +6,7 @@ import { parseArgs } from "node:util";
 import { UsageError } from "../core/errors.ts";
 import { formatIssue } from "../core/issues.ts";
 
-export const IMPORT_USAGE = `Usage: ohmbook import espi FILE... --into DIR --building ID [--timezone ZONE] [--tariff ID]
+const IMPORT_USAGE = `Usage: ohmbook import espi FILE... --into DIR --building ID [--timezone ZONE] [--tariff ID]
                           [--name TEXT] [--floor-area N] [--weather-station ID] [--quiet] [--json]
 
 Adds the usage points of ESPI ("Green Button") XML files to the portfolio folder DIR:
@@ -70,7 +70,7 @@ export async function runImport(args: string[], io: ImportIo): Promise<number> {
   if (floorArea !== undefined && !(/^\d+(\.\d+)?$/.test(floorArea) && Number(floorArea) > 0)) {
     throw new UsageError(`--floor-area '${floorArea}' must be a number greater than 0 (digits and a '.' only)`);
   }
-  const { importEspi } = await import("../import/espi/importEspi.ts");
+  const { importEspi } = await import("../import/index.ts");
   const result = await importEspi({
     files,
     intoDir: values.into,

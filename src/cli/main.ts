@@ -2,7 +2,7 @@
  * The `ohmbook` command line. The only module that reads argv, writes to stdout/stderr
  * and decides exit codes; everything else returns values or throws OhmbookError.
  *
- * Exit codes (see README): 0 ok; 1 input errors or usage error; 3 `--fail-on` threshold crossed.
+ * Exit codes (see docs/cli.md): 0 ok; 1 input errors or usage error; 3 `--fail-on` threshold crossed.
  */
 import { parseArgs } from "node:util";
 import { resolve } from "node:path";
@@ -10,13 +10,14 @@ import { fileURLToPath } from "node:url";
 import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssueIn } from "../core/issues.ts";
 import { consoleReporter } from "./progress.ts";
-import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, defaultPortfolioDir, ohmbookVersion, wantsHelp } from "./usage.ts";
+import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, SERVE_USAGE, defaultPortfolioDir, ohmbookVersion, wantsHelp } from "./usage.ts";
 
 const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
 
 Usage:
   ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--jobs N] [--cache DIR|--no-cache] [--strict] [--quiet] [--json]
   ohmbook check [DIR] [--quiet] [--json]
+  ohmbook serve [DIR] [--port N] [--out OUT]     build, serve on 127.0.0.1, rebuild on every change
   ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
                 | --intervals CSV --meter ID --from D --to D) [--timezone ZONE] [--estimate] [--json]
   ohmbook init DIR
@@ -69,7 +70,7 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
     }
     // `ohmbook help build` is `ohmbook build --help`.
     if (command === "help" && rest[0] !== undefined) return await runCli([rest[0], "--help"], io);
-    const usage: Record<string, string> = { build: BUILD_USAGE, check: CHECK_USAGE, init: INIT_USAGE };
+    const usage: Record<string, string> = { build: BUILD_USAGE, check: CHECK_USAGE, init: INIT_USAGE, serve: SERVE_USAGE };
     if (command !== undefined && usage[command] !== undefined && wantsHelp(rest)) {
       io.out(`${usage[command]}\n`);
       return 0;
@@ -85,6 +86,8 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
       }
       case "init":
         return await commandInit(rest, io);
+      case "serve":
+        return await commandServe(rest, io);
       case "import": {
         const { runImport } = await import("./import.ts");
         return await runImport(rest, io);
@@ -96,7 +99,7 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
         io.out(`${HELP}\n`);
         return command === undefined ? 1 : 0;
       default:
-        throw new UsageError(`unknown command '${command}'; expected build, check, price, init or import`);
+        throw new UsageError(`unknown command '${command}'; expected build, check, serve, price, init or import`);
     }
   } catch (error) {
     return reportError(error, io);
@@ -156,10 +159,9 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   }
   const quiet = Boolean(values.quiet) || Boolean(values.json);
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err, width: io.columns ? io.columns - 1 : undefined });
-  const { buildPortfolioSite } = await import("../pipeline/build.ts");
+  const { buildPortfolioSite, defaultCacheDir } = await import("../pipeline/index.ts");
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
   const outDir = (values.out as string | undefined) ?? "_site";
-  const { defaultCacheDir } = await import("../pipeline/analysisCache.ts");
   const cacheDir = values["no-cache"] ? undefined : ((values.cache as string | undefined) ?? defaultCacheDir(outDir));
   const result = await buildPortfolioSite({
     dir,
@@ -167,6 +169,8 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     strict: Boolean(values.strict),
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
+    // A bug in one building is reported and the other pages are still written (unless --strict).
+    onBug: "report",
     audience,
     jobs,
     cacheDir,
@@ -228,6 +232,58 @@ async function commandInit(args: string[], io: CliIo): Promise<number> {
   return 0;
 }
 
+/**
+ * What Ctrl-C (or a kill) does while a command that runs until stopped is running; null = the
+ * default (remove a build's scratch folders, exit 130/143).
+ */
+let onStopSignal: ((signal: NodeJS.Signals) => void) | null = null;
+
+async function commandServe(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parse(args, {
+    port: { type: "string", short: "p" },
+    out: { type: "string", short: "o" },
+  });
+  if (positionals.length > 1) throw new UsageError(`serve takes one folder, got ${positionals.length}`);
+  const portText = values.port as string | undefined;
+  if (portText !== undefined && !/^\d{1,5}$/.test(portText)) throw new UsageError(`--port must be a number from 0 to 65535, got '${portText.slice(0, 40)}'`);
+  const port = portText === undefined ? undefined : Number(portText);
+  if (port !== undefined && port > 65535) throw new UsageError(`--port must be a number from 0 to 65535, got ${port}`);
+  const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
+  const { startServe } = await import("./serve.ts");
+  // Runs until Ctrl-C: stop watching and serving, drop a build in progress (its scratch folder
+  // is removed; the served folder is the old site or the new one), remove the temporary site.
+  let stopped: ((code: number) => void) | null = null;
+  const whenStopped = new Promise<number>((done) => (stopped = done));
+  let session: Awaited<ReturnType<typeof startServe>> | null = null;
+  let stopSignal: NodeJS.Signals | null = null;
+  const stop = (signal: NodeJS.Signals) => {
+    onStopSignal = null;
+    void session!.stopNow().finally(() => {
+      io.err(`ohmbook serve: stopped (${signal})\n`);
+      stopped!(0);
+      process.exit(0);
+    });
+  };
+  // Set before serve starts, so a Ctrl-C during start-up also cleans up.
+  onStopSignal = (signal) => {
+    stopSignal = signal;
+    if (session) stop(signal);
+  };
+  session = await startServe({
+    dir,
+    outDir: values.out as string | undefined,
+    port,
+    buildDate: buildDateFromEpoch(io.sourceDateEpoch),
+    out: io.out,
+    err: io.err,
+  }).catch((error: unknown) => {
+    onStopSignal = null;
+    throw error;
+  });
+  if (stopSignal) stop(stopSignal);
+  return await whenStopped;
+}
+
 // Run when executed directly (tsx src/cli/main.ts …), not when imported by tests.
 const invokedDirectly = process.argv[1] !== undefined && resolve(process.argv[1]) === fileURLToPath(import.meta.url);
 if (invokedDirectly) {
@@ -235,7 +291,11 @@ if (invokedDirectly) {
   // either the old one or the new one (a swap cut in half is repaired by the next build).
   for (const [signal, code] of [["SIGINT", 130], ["SIGTERM", 143]] as const) {
     process.once(signal, () => {
-      void import("../site/writeSite.ts").then(({ removeActiveScratch }) => {
+      if (onStopSignal) {
+        onStopSignal(signal);
+        return;
+      }
+      void import("../site/index.ts").then(({ removeActiveScratch }) => {
         removeActiveScratch();
         process.stderr.write(`ohmbook: stopped by ${signal}; nothing half-written was left behind\n`);
         process.exit(code);

@@ -11,14 +11,13 @@
  */
 import { readFile } from "node:fs/promises";
 import { parseArgs } from "node:util";
-import { parse as parseCsv } from "csv-parse/sync";
-import { DateTime, IANAZone } from "luxon";
-import { OhmbookError, UsageError } from "../core/errors.ts";
+import { isIsoDate, isValidZone, localMidnightMs } from "../core/time/index.ts";
+import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssue } from "../core/issues.ts";
-import { loadTariff } from "../tariff/load.ts";
-import { priceBill } from "../tariff/price.ts";
-import type { Tariff } from "../tariff/model.ts";
-import type { ComputedBill, ComputedLine, IntervalUsage, PriceRequest } from "../tariff/types.ts";
+import { loadTariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
+import type { Tariff } from "../tariff/index.ts";
+import type { ComputedBill, ComputedLine, IntervalUsage, PriceRequest } from "../tariff/index.ts";
 
 export interface PriceIo {
   out: (s: string) => void;
@@ -42,11 +41,11 @@ Exit codes: 0 priced; 1 usage, tariff-file or pricing error, or a needed input m
  * What the tariff versions in force over [from, to) need that the request does not give: a
  * demand (demand charges, without interval data) and a power factor (power-factor charges).
  * Time-of-use lines without interval data are not listed: they are priced from the hours of each
- * period and marked "needs interval data" (README, "Without interval data").
+ * period and marked "needs interval data" (docs/tariffs.md, "How a bill is priced").
  * Empty when nothing is missing.
  * @example missingInputs(tariff, "2025-06-01", "2025-07-01", { demand: false, pf: false, intervals: false })
  */
-export function missingInputs(tariff: Tariff, from: string, to: string, given: { demand: boolean; pf: boolean; intervals: boolean }): string[] {
+function missingInputs(tariff: Tariff, from: string, to: string, given: { demand: boolean; pf: boolean; intervals: boolean }): string[] {
   const missing = new Set<string>();
   for (const v of tariff.versions) {
     if (v.from >= to || (v.until !== null && v.until <= from)) continue;
@@ -58,7 +57,7 @@ export function missingInputs(tariff: Tariff, from: string, to: string, given: {
   return [...missing];
 }
 
-import { MAX_BILL_USAGE } from "../ingest/limits.ts";
+import { MAX_BILL_USAGE, readMeterIntervalFile } from "../ingest/index.ts";
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
@@ -67,121 +66,36 @@ function num(name: string, s: string | undefined, rule: (n: number) => boolean =
   if (!NUMBER.test(s.trim())) throw new UsageError(`--${name} '${s}' is not a number (write digits with a '.' decimal point, no separators or units)`);
   const n = Number(s);
   // the same plausibility limit as a bill's usage at ingest: beyond it, sums lose their cents or overflow to Infinity
-  if (!Number.isFinite(n) || Math.abs(n) > MAX_BILL_USAGE) throw new UsageError(`--${name} ${s.slice(0, 40)} is beyond ±${MAX_BILL_USAGE.toExponential()}, the plausibility limit of a bill's figures (README, "Limits")`);
+  if (!Number.isFinite(n) || Math.abs(n) > MAX_BILL_USAGE) throw new UsageError(`--${name} ${s.slice(0, 40)} is beyond ±${MAX_BILL_USAGE.toExponential()}, the plausibility limit of a bill's figures (docs/inputs.md, "Limits")`);
   if (!rule(n)) throw new UsageError(`--${name} ${s} is out of range${ruleText ? `: ${ruleText}` : ""}`);
   return n;
 }
 
 function date(name: string, s: string | undefined): string {
   if (s === undefined) throw new UsageError(`--${name} is required (YYYY-MM-DD)\n${USAGE}`);
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(s) || !DateTime.fromISO(s, { zone: "UTC" }).isValid) throw new UsageError(`--${name} '${s}' is not a date written YYYY-MM-DD`);
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(s) || !isIsoDate(s)) throw new UsageError(`--${name} '${s}' is not a date written YYYY-MM-DD`);
   return s;
 }
 
-interface CsvIntervals {
-  intervals: IntervalUsage;
-  rowsForMeter: number;
-  rowsOtherMeters: number;
+/**
+ * The first timestamp without a UTC offset in an interval file, as file:line:column text, or null.
+ * Without --timezone such a timestamp has no defined instant, so `price` asks for the zone rather
+ * than assume one.
+ */
+function firstOffsetlessTimestamp(text: string, file: string): string | null {
+  const lines = text.split(/\r\n|\n|\r/);
+  const header = (lines[0] ?? "").replace(/^\uFEFF/, "").split(",").map((h) => h.trim().toLowerCase());
+  const col = header.indexOf("timestamp");
+  if (col < 0) return null;
+  for (let i = 1; i < lines.length; i++) {
+    const cells = lines[i]!.split(",");
+    const ts = (cells[col] ?? "").trim().replace(/^"|"$/g, "");
+    if (ts === "") continue;
+    if (!/(Z|[+-]\d{2}:?\d{2})$/i.test(ts)) return `${file}:${i + 1}:${cells.slice(0, col).join(",").length + (col > 0 ? 2 : 1)}: timestamp '${ts.slice(0, 40)}' has no UTC offset`;
+  }
+  return null;
 }
 
-/**
- * Reads `meter_id,timestamp,value` (optional `interval_minutes`) rows of one meter. Timestamps
- * with an offset are taken as written; without one they are local time in `zone`.
- */
-function readIntervalCsv(text: string, file: string, meterId: string, zone: string, multiplier: number, stampsEnd: boolean): CsvIntervals {
-  let records: string[][];
-  try {
-    records = parseCsv(text, { bom: true, skip_empty_lines: true, trim: true, relax_column_count: false }) as string[][];
-  } catch (e) {
-    throw new UsageError(`${file}: not readable as CSV: ${(e as Error).message}`);
-  }
-  if (records.length === 0) throw new UsageError(`${file}:1:1: the file is empty; expected a header meter_id,timestamp,value`);
-  const header = records[0].map((h) => h.toLowerCase());
-  const col = (name: string): number => header.indexOf(name);
-  const [iMeter, iTs, iVal, iMin] = [col("meter_id"), col("timestamp"), col("value"), col("interval_minutes")];
-  const missing = ["meter_id", "timestamp", "value"].filter((c) => col(c) < 0);
-  if (missing.length > 0) throw new UsageError(`${file}:1:1: missing column(s) ${missing.join(", ")}; found ${records[0].join(", ")}`);
-  const rows: { ms: number; value: number; line: number; minutes: number | null }[] = [];
-  let other = 0;
-  const meters = new Set<string>();
-  const seen = new Set<number>();
-  for (let r = 1; r < records.length; r++) {
-    const rec = records[r];
-    const line = r + 1;
-    meters.add(rec[iMeter]);
-    if (rec[iMeter] !== meterId) {
-      other++;
-      continue;
-    }
-    const ts = rec[iTs];
-    const hasOffset = /(Z|[+-]\d{2}:?\d{2})$/i.test(ts);
-    const dt = hasOffset ? DateTime.fromISO(ts, { setZone: true }) : DateTime.fromISO(ts, { zone });
-    if (!dt.isValid) throw new UsageError(`${file}:${line}:${iTs + 1}: timestamp '${ts}' is not ISO 8601 (e.g. 2025-01-31T13:45:00-05:00)`);
-    const v = rec[iVal];
-    if (!NUMBER.test(v)) throw new UsageError(`${file}:${line}:${iVal + 1}: value '${v}' is not a number`);
-    let minutes: number | null = null;
-    if (iMin >= 0 && rec[iMin] !== "") {
-      if (!NUMBER.test(rec[iMin]) || !(Number(rec[iMin]) > 0)) throw new UsageError(`${file}:${line}:${iMin + 1}: interval_minutes '${rec[iMin]}' is not a positive number`);
-      minutes = Number(rec[iMin]);
-    }
-    let ms = dt.toMillis();
-    if (!hasOffset) {
-      // Autumn DST: a wall time in the repeated hour happens twice; the first row is the first
-      // pass, a repeat of it is the second pass (both readings are real).
-      const candidates = instantsOfWallTime(ms, zone);
-      ms = candidates.find((t) => !seen.has(t)) ?? candidates[0] ?? ms;
-    }
-    seen.add(ms);
-    rows.push({ ms, value: Number(v) * multiplier, line, minutes });
-  }
-  if (rows.length === 0) {
-    throw new UsageError(`${file}: no rows for meter '${meterId}'; meters in the file: ${[...meters].slice(0, 10).join(", ") || "none"}`);
-  }
-  rows.sort((a, b) => a.ms - b.ms);
-  for (let i = 1; i < rows.length; i++) {
-    if (rows[i].ms === rows[i - 1].ms) {
-      throw new UsageError(`${file}:${rows[i].line}:${iTs + 1}: timestamp repeats the one on line ${rows[i - 1].line} for meter '${meterId}'`);
-    }
-  }
-  let minutes = rows.find((r) => r.minutes !== null)?.minutes ?? null;
-  if (minutes === null) {
-    const counts = new Map<number, number>();
-    for (let i = 1; i < rows.length; i++) {
-      const d = (rows[i].ms - rows[i - 1].ms) / 60_000;
-      counts.set(d, (counts.get(d) ?? 0) + 1);
-    }
-    let best = 0;
-    for (const [d, n] of counts) if (n > (counts.get(best) ?? 0)) best = d;
-    if (!(best > 0)) throw new UsageError(`${file}: cannot infer the interval length of meter '${meterId}' from one row; add an interval_minutes column`);
-    minutes = best;
-  }
-  const shiftMs = stampsEnd ? minutes * 60_000 : 0; // an end stamp names the interval that just finished
-  return {
-    intervals: {
-      startMs: Float64Array.from(rows, (r) => r.ms - shiftMs),
-      values: Float64Array.from(rows, (r) => r.value),
-      intervalMinutes: minutes,
-    },
-    rowsForMeter: rows.length,
-    rowsOtherMeters: other,
-  };
-}
-
-/**
- * Every instant whose local wall-clock time in `zone` equals that of `ms`, earliest first: two in
- * the repeated hour when clocks go back, one otherwise (none in the skipped spring hour).
- */
-function instantsOfWallTime(ms: number, zone: string): number[] {
-  const z = IANAZone.create(zone);
-  const wallMs = ms + z.offset(ms) * 60_000;
-  const offsets = new Set([z.offset(ms - 3 * 3_600_000), z.offset(ms), z.offset(ms + 3 * 3_600_000)]);
-  const out: number[] = [];
-  for (const o of offsets) {
-    const t = wallMs - o * 60_000;
-    if (z.offset(t) === o && !out.includes(t)) out.push(t);
-  }
-  return out.sort((a, b) => a - b);
-}
 
 function money(n: number): string {
   return n.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 });
@@ -202,7 +116,7 @@ function rateText(l: ComputedLine): string {
 const STATUS_TEXT: Record<string, string> = { exact: "", estimated: "[estimated] ", "needs-interval-data": "[needs interval data] " };
 
 /** The computed bill as an aligned plain-text table (label, quantity, unit, rate, amount, note) and total. */
-export function formatBillTable(tariff: Tariff, req: PriceRequest, bill: ComputedBill): string {
+function formatBillTable(tariff: Tariff, req: PriceRequest, bill: ComputedBill): string {
   const rows = bill.lines.map((l) => [l.label, qty(l.quantity), l.unit, rateText(l), money(l.amount), `${STATUS_TEXT[l.status]}${l.note ?? ""}`]);
   const head = ["Charge", "Quantity", "Unit", "Rate", `Amount (${tariff.currency})`, "Note"];
   const all = [head, ...rows, ["Total", "", "", "", money(bill.total), bill.exact ? "" : "not exact: see the marked lines"]];
@@ -303,7 +217,7 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
   const to = date("to", s("to"));
   if (to <= from) throw new UsageError(`--to ${to} must be after --from ${from} (--to is the first day not billed)`);
   const timezone = s("timezone") ?? "UTC";
-  if (!IANAZone.isValidZone(timezone)) throw new UsageError(`--timezone '${timezone}' is not an IANA zone name (e.g. America/Chicago)`);
+  if (!isValidZone(timezone)) throw new UsageError(`--timezone '${timezone}' is not an IANA zone name (e.g. America/Chicago)`);
   const demandKw = num("demand", s("demand"), (n) => n >= 0, "demand must be 0 or more kW");
   const pf = num("pf", s("pf"), (n) => n > 0 && n <= 1, "0 < pf <= 1");
   const multiplier = num("multiplier", s("multiplier"), (n) => n > 0, "must be positive") ?? 1;
@@ -324,10 +238,29 @@ async function price(argv: string[], io: PriceIo): Promise<number> {
   if (csvPath !== undefined) {
     const stamps = s("timestamps") ?? "start";
     if (stamps !== "start" && stamps !== "end") throw new UsageError(`--timestamps must be start or end, got '${stamps}'`);
-    const read = readIntervalCsv(await readText(csvPath, "interval file"), csvPath, s("meter") as string, timezone, multiplier, stamps === "end");
-    intervals = read.intervals;
-    const startMs = DateTime.fromISO(from, { zone: timezone }).toMillis();
-    const endMs = DateTime.fromISO(to, { zone: timezone }).toMillis();
+    const text = await readText(csvPath, "interval file");
+    if (s("timezone") === undefined) {
+      const where = firstOffsetlessTimestamp(text, csvPath);
+      if (where) throw new UsageError(`${where}; pass --timezone ZONE (the building's IANA zone, e.g. America/Chicago) so local times are read as such, or write each timestamp with its offset`);
+    }
+    const meterId = s("meter") as string;
+    const read = await readMeterIntervalFile(csvPath, { fileLabel: csvPath, meterId, zone: timezone, stamp: stamps });
+    const errors = read.issues.filter((x) => x.severity === "error");
+    for (const w of read.issues.filter((x) => x.severity === "warning")) io.err(`${formatIssue(w)}\n`);
+    if (errors.length > 0) throw new InputError(errors);
+    if (read.series === null) {
+      throw new UsageError(`${csvPath}: no rows for meter '${meterId}'; meters in the file: ${read.otherMeters.slice(0, 10).join(", ") || "none"}`);
+    }
+    // The series is a regular grid; a missing reading is NaN there and simply has no interval here.
+    const keep: number[] = [];
+    read.series.values.forEach((v, i) => { if (Number.isFinite(v)) keep.push(i); });
+    intervals = {
+      startMs: Float64Array.from(keep, (i) => read.series!.startMs[i]!),
+      values: Float64Array.from(keep, (i) => read.series!.values[i]! * multiplier),
+      intervalMinutes: read.series.intervalMinutes,
+    };
+    const startMs = localMidnightMs(from, timezone);
+    const endMs = localMidnightMs(to, timezone);
     let inPeriod = 0;
     let sum = 0;
     for (let i = 0; i < intervals.startMs.length; i++) {

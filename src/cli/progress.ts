@@ -1,24 +1,10 @@
 /**
- * Progress and message output for the CLI. The pipeline reports through this interface
- * so it never touches stdout itself; tests pass a silent or recording reporter.
+ * Progress and message output for the CLI: the terminal implementation of the pipeline's
+ * Reporter interface (src/pipeline/reporter.ts).
  */
-export interface Reporter {
-  /** A stage begins (e.g. "Reading data/demo"). */
-  stage(message: string): void;
-  /** One unit of a counted task is done (e.g. building 3 of 8). */
-  step(done: number, total: number, label: string): void;
-  /** A line that must reach the user even with --quiet (errors, final summary go elsewhere). */
-  warn(message: string): void;
-  /** End of a counted task; clears any progress line. */
-  finish(): void;
-}
+import type { Reporter } from "../pipeline/index.ts";
 
-export const silentReporter: Reporter = {
-  stage() {},
-  step() {},
-  warn() {},
-  finish() {},
-};
+export type { Reporter };
 
 /** A duration for people: `45s`, `3m 05s`, `1h 02m`. */
 export function formatDuration(seconds: number): string {

@@ -53,6 +53,21 @@ Options:
 
 Exit codes: 0 written; 1 DIR is not empty or cannot be written.`;
 
+export const SERVE_USAGE = `Usage: ohmbook serve [DIR] [--port N] [--out OUT]
+
+Builds the site of the portfolio folder DIR, serves it on http://127.0.0.1:PORT/ and rebuilds it
+whenever an input file in DIR changes (a tariff, bills.csv, interval data, ...). Each rebuild
+prints the files that changed, the findings that are new or gone since the previous build, and
+any input problem as file:line:column: message; a failed rebuild keeps the previous site served.
+
+Options:
+  -p, --port N           port on 127.0.0.1 (default 8080, or the next free one; 0 = any free port)
+  -o, --out OUT          build into OUT and keep it (default: a temporary folder, removed on exit)
+  -h, --help             show this help
+
+DIR defaults to the current folder when it holds portfolio.yaml, else data/demo.
+Stop with Ctrl-C (exit 0). Exit codes: 1 DIR is not a folder or the port cannot be had.`;
+
 /** The version in package.json, found by walking up from this module (source or compiled). */
 export function ohmbookVersion(): string {
   let dir = dirname(fileURLToPath(import.meta.url));

@@ -36,33 +36,12 @@ export function formatIssueIn(issue: InputIssue, folder: string | undefined): st
   return `${where}: ${issue.severity}: ${issue.message}${hint}`;
 }
 
-/** Small collector so readers can append issues without threading arrays around. */
-export class IssueList {
-  readonly items: InputIssue[] = [];
-
-  error(file: string, line: number, column: number, message: string, hint?: string): void {
-    this.items.push({ file, line, column, severity: "error", message, hint });
-  }
-
-  warning(file: string, line: number, column: number, message: string, hint?: string): void {
-    this.items.push({ file, line, column, severity: "warning", message, hint });
-  }
-
-  add(...issues: InputIssue[]): void {
-    appendAll(this.items, issues);
-  }
-
-  get errorCount(): number {
-    return this.items.filter((i) => i.severity === "error").length;
-  }
-}
-
 /**
  * Longest piece of user text quoted inside a message. A cell can hold megabytes (a pasted
  * blob, a file without line breaks); echoing it whole would flood the terminal and the
  * published data page. 200 characters shows enough to find the cell (common practice).
  */
-export const MAX_QUOTED_CHARS = 200;
+const MAX_QUOTED_CHARS = 200;
 
 /** Longest message or hint kept; longer ones are cut with "…" (a safety net over quoteValue). */
 export const MAX_MESSAGE_CHARS = 600;

@@ -20,11 +20,3 @@ export function trimId(raw: string): string {
   return raw.replace(EDGE, "");
 }
 
-/**
- * True when byte `b` can start or end a whitespace run that {@link trimId} would remove in UTF-8
- * text: ASCII space and controls 9–13, or a lead/continuation byte of a multi-byte character.
- * The interval reader uses it to decide cheaply whether the exact text rule must be applied.
- */
-export function mayBeEdgeSpaceByte(b: number): boolean {
-  return b === 32 || (b >= 9 && b <= 13) || b >= 0x80;
-}

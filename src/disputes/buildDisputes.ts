@@ -9,11 +9,12 @@
  * corrected bills as the finding's amount: the finding, the bills table and disputes.csv agree.
  */
 import type { Bill, BillLine, Meter } from "../domain/types.ts";
-import type { CorrectedBill, Finding } from "../audit/types.ts";
-import { groupLines } from "../audit/checks/labels.ts";
-import { claimOf } from "../audit/corrections.ts";
-import { roundCents } from "../tariff/rounding.ts";
+import type { CorrectedBill, Finding } from "../audit/index.ts";
+import { groupLines } from "../audit/index.ts";
+import { claimOf } from "../audit/index.ts";
 import type { Dispute, DisputeBasis, DisputeBill, DisputeLine } from "./types.ts";
+import { moneyText, roundCents } from "../core/money.ts";
+import { fnv1a32 } from "../core/random.ts";
 
 /** The basis a check's corrected total rests on (outputs.md `basis`). */
 export const BASIS_OF_CHECK: Partial<Record<string, DisputeBasis>> = {
@@ -43,12 +44,7 @@ const round2 = roundCents;
 
 /** FNV-1a, 32 bits, as 8 hex digits: a short stable id from the dispute's identity. */
 function hash32(text: string): string {
-  let h = 0x811c9dc5;
-  for (let i = 0; i < text.length; i++) {
-    h ^= text.charCodeAt(i);
-    h = Math.imul(h, 0x01000193) >>> 0;
-  }
-  return h.toString(16).padStart(8, "0");
+  return fnv1a32(text).toString(16).padStart(8, "0");
 }
 
 function disputeLines(printed: readonly BillLine[], c: CorrectedBill): DisputeLine[] {
@@ -155,7 +151,7 @@ export function buildDisputes(input: DisputeInput): Dispute[] {
   for (const d of candidates) {
     const clash = d.billIds.map((id) => owner.get(id)).find((x) => x !== undefined);
     if (clash) {
-      clash.notes.push(`Also on ${d.billIds.join(", ")}: ${d.title} (${d.checks.join(", ")}), ${d.claimAmount.toFixed(2)} by itself; not claimed separately so the bill is not claimed twice.`);
+      clash.notes.push(`Also on ${d.billIds.join(", ")}: ${d.title} (${d.checks.join(", ")}), ${moneyText(d.claimAmount)} by itself; not claimed separately so the bill is not claimed twice.`);
       for (const c of d.checks) if (!clash.checks.includes(c)) clash.checks.push(c);
       continue;
     }

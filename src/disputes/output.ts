@@ -3,6 +3,7 @@
  */
 import { toCsv } from "../core/csv.ts";
 import type { Dispute } from "./types.ts";
+import { moneyCell } from "../core/money.ts";
 
 /** Columns of disputes.csv, in contract order. */
 export const DISPUTES_CSV_COLUMNS = [
@@ -12,7 +13,7 @@ export const DISPUTES_CSV_COLUMNS = [
 
 type DisputeRow = Record<(typeof DISPUTES_CSV_COLUMNS)[number], string>;
 
-const money = (x: number): string => x.toFixed(2);
+const money = moneyCell;
 
 /** One row per dispute with the contract's columns; money as two-decimal text. */
 export function disputeRows(disputes: readonly Dispute[]): DisputeRow[] {

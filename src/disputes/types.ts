@@ -6,7 +6,7 @@
  *
  * Contract: outputs.md, section "disputes" (columns of disputes.csv / disputes.json).
  */
-import type { LineStatus } from "../tariff/types.ts";
+import type { LineStatus } from "../tariff/index.ts";
 
 /** What the corrected total rests on (outputs.md `basis`). */
 export type DisputeBasis = "tariff" | "meter" | "duplicate" | "overlap" | "gap" | "multiplier" | "rate-version";

@@ -44,6 +44,8 @@ export interface PortfolioSettings {
    * (they are shifted back by that much), and whether strong suggestions are applied automatically.
    */
   alignment: { offsetsHours: Record<string, number>; auto: boolean };
+  /** One contact line per building id for its tenant page (`contacts:` in portfolio.yaml); absent = none given. */
+  contacts?: Record<string, string>;
 }
 
 export interface Building {
@@ -153,4 +155,14 @@ export interface Portfolio<TariffT = unknown> {
   /** Keyed by tariff id. */
   tariffs: Map<string, TariffT>;
   report: IngestReport;
+}
+
+export interface WeatherGap {
+  stationId: string;
+  /** First missing hour, UTC epoch ms. */
+  startMs: number;
+  /** First hour after the gap (exclusive end), UTC epoch ms. */
+  endMs: number;
+  hours: number;
+  action: "interpolated" | "kept";
 }

@@ -6,9 +6,22 @@
  *   coverage           = share of months with P10 ≤ actual ≤ P90
  *
  * CV(RMSE) divides by n, not n − p as ASHRAE Guideline 14 does for a fitted model: a forecast
- * has no parameters fitted to the months it is judged on.
+ * has no parameters fitted to the months it is judged on: it is src/model/stats.ts's
+ * `cvRmsePct` with p = 0 ({@link forecastCvRmsePct}).
  */
 import { ForecastInputError } from "./errors.ts";
+import { cvRmsePct } from "../model/index.ts";
+
+/**
+ * CV(RMSE) in percent over paired months, divisor n (no parameters fitted to these months).
+ * @throws ForecastInputError on empty or unequal inputs or a non-positive mean.
+ * @example forecastCvRmsePct([100, 200], [110, 190]) // 100 · sqrt((100 + 100)/2) / 150 = 6.667
+ */
+export function forecastCvRmsePct(actual: readonly number[], forecast: readonly number[]): number {
+  if (actual.length === 0 || actual.length !== forecast.length) throw new ForecastInputError("CV(RMSE) needs equally many actual and forecast months, at least one");
+  if (!(actual.reduce((a, b) => a + b, 0) > 0)) throw new ForecastInputError("mean actual must be positive");
+  return cvRmsePct(actual, forecast, 0);
+}
 
 /**
  * Annual error in percent. @throws ForecastInputError when the actual total is not positive.
@@ -17,20 +30,6 @@ import { ForecastInputError } from "./errors.ts";
 export function annualErrorPct(forecastTotal: number, actualTotal: number): number {
   if (!(actualTotal > 0)) throw new ForecastInputError(`actual total must be positive, got ${actualTotal}`);
   return (100 * (forecastTotal - actualTotal)) / actualTotal;
-}
-
-/**
- * CV(RMSE) in percent over paired months (divisor n, see the module comment).
- * @throws ForecastInputError on empty or unequal inputs or a non-positive mean.
- * @example cvRmsePct([100, 200], [110, 190]) // 100 · sqrt((100 + 100)/2) / 150 = 6.667
- */
-export function cvRmsePct(actual: readonly number[], forecast: readonly number[]): number {
-  if (actual.length === 0 || actual.length !== forecast.length) throw new ForecastInputError("CV(RMSE) needs equally many actual and forecast months, at least one");
-  const mean = actual.reduce((a, b) => a + b, 0) / actual.length;
-  if (!(mean > 0)) throw new ForecastInputError(`mean actual must be positive, got ${mean}`);
-  let ss = 0;
-  for (let i = 0; i < actual.length; i++) ss += (actual[i]! - forecast[i]!) ** 2;
-  return (100 * Math.sqrt(ss / actual.length)) / mean;
 }
 
 /**

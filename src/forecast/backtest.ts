@@ -38,15 +38,16 @@
  * a portfolio whose bills carry the audit's corrections.
  */
 import type { Bill, Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { meterPricingContexts, meterUsageScenarios, DEFAULT_SCENARIOS, type MeterForecastInput } from "./forecastMeter.ts";
 import { buildingForecastInputs } from "./portfolioInputs.ts";
-import { minusMonths, monthsAfter } from "./months.ts";
 import { priceForecastMonth } from "./priceMonth.ts";
 import { bandOf } from "./quantiles.ts";
 import { actualMonthlyCost, naiveSameMonthLastYear } from "./trackRecord.ts";
 import { WEATHER_BASES, typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
+import { addMonthsIso, monthsAfter } from "../core/time/index.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 /** Noise factors tried. */
 export const CALIBRATION_GRID: readonly number[] = [0.5, 0.75, 1, 1.25, 1.5, 1.75, 2, 2.5, 3, 4, 5];
@@ -56,7 +57,7 @@ export const MIN_TRACK_RECORD_MONTHS = 24;
 /** Months of bills before a cut for the meter to be forecast from it. */
 export const MIN_FIT_MONTHS = 12;
 /** Most origins looked at (the oldest are dropped first). */
-export const MAX_ORIGINS = 10;
+const MAX_ORIGINS = 10;
 
 /** One meter at one origin: the months compared and what each forecast said. */
 export interface BacktestMeter {
@@ -168,7 +169,7 @@ export function rollingOrigins(bills: readonly Bill[], asOf: string): string[] {
   for (const b of bills) byMeter.set(b.meterId, [...(byMeter.get(b.meterId) ?? []), b]);
   const out: string[] = [];
   for (let k = 1; k <= MAX_ORIGINS; k++) {
-    const cut = minusMonths(asOf, 12 * k);
+    const cut = addMonthsIso(asOf, -12 * k);
     if (![...byMeter.values()].some((bs) => monthsOfBills(bs, cut) >= MIN_FIT_MONTHS)) break;
     out.push(cut);
   }
@@ -302,7 +303,8 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       let contexts: ReturnType<typeof meterPricingContexts>;
       try {
         contexts = meterPricingContexts(input, input.tariff, forecastMonths);
-      } catch {
+      } catch (error) {
+        expectedProblem(error);
         continue;
       }
       rows.push({ input, meter: Object.assign(meter, { keep }), contexts });
@@ -319,8 +321,8 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
         try {
           const q = usageQuantiles(withBasis(r.input, basis), 1);
           if (q) r.meter.p50ByBasis[basis] = pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter));
-        } catch {
-          // a month the tariff cannot price leaves this basis out for the meter
+        } catch (error) {
+          expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
         }
       }
     }
@@ -366,7 +368,8 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
         try {
           const q = usageQuantiles({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, 1);
           return q ? pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter)) : null;
-        } catch {
+        } catch (error) {
+          expectedProblem(error);
           return null;
         }
       });
@@ -394,7 +397,8 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
             hi: pick(pricePath(input, r.contexts, q.hi), keepOf(r.meter)),
             mid: pick(pricePath(input, r.contexts, q.mid), keepOf(r.meter)),
           });
-        } catch {
+        } catch (error) {
+          expectedProblem(error);
           r.meter.bandByFactor = [];
           break;
         }

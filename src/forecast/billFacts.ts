@@ -3,7 +3,7 @@
  * shape: demand per unit of daily use by calendar month, and the usual power factor.
  */
 import type { Bill } from "../domain/types.ts";
-import { daysBetween } from "../core/time.ts";
+import { daysBetween } from "../core/time/index.ts";
 
 /** Calendar month (1–12) a bill mostly belongs to: the month of its middle day. */
 function midMonth(bill: Bill): number {

@@ -12,7 +12,7 @@
  *    about one bill are alternative views of one error, and the audit removes cascades).
  */
 import type { Bill } from "../domain/types.ts";
-import type { CorrectedBill } from "../audit/types.ts";
+import type { CorrectedBill } from "../audit/index.ts";
 
 /** The slice of an audit finding this module reads. */
 export interface MoneyFindingLike {

@@ -26,13 +26,13 @@
  *   = billing errors corrected + weather + rates + usage trend.
  */
 import type { Bill } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
-import { addDays } from "../core/time.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { meterPricingContexts, type MeterForecast, type MeterForecastInput } from "./forecastMeter.ts";
-import { calendarMonth, shiftMonth, spreadBillsByMonth, type CalendarMonth } from "./months.ts";
+import { spreadBillsByMonth } from "./months.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { billsKnownAt } from "./portfolioInputs.ts";
 import { bandOf } from "./quantiles.ts";
+import { addDays, calendarMonth, shiftMonth, type CalendarMonth } from "../core/time/index.ts";
 
 export interface ChangeDrivers {
   /** Months compared (last year's complete months). */

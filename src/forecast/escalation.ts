@@ -1,3 +1,4 @@
+import { addDays, daysBetween, type CalendarMonth } from "../core/time/index.ts";
 /**
  * Price drift after the last tariff version: the file knows no rates beyond it, so the
  * forecast assumes the commodity's yearly `escalation` (portfolio.yaml) compounds:
@@ -12,8 +13,6 @@
  * A future-dated last version moves the base to its own start. The middle of the month stands
  * for the month because drift is assumed continuous.
  */
-import { addDays, daysBetween } from "../core/time.ts";
-import type { CalendarMonth } from "./months.ts";
 
 /**
  * (1 + rate)^(days/365.25), 1 when `days` ≤ 0.

@@ -8,19 +8,19 @@
  * scenario totals (the P90 of a year is not the sum of twelve monthly P90s).
  */
 import type { Bill, Commodity, IntervalSeries, Meter } from "../domain/types.ts";
-import type { ChangePointFit } from "../model/changePoint.ts";
-import type { Tariff } from "../tariff/model.ts";
-import { addDays, localMidnightMs } from "../core/time.ts";
+import type { ChangePointFit } from "../model/index.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { bandOf, type Band } from "./quantiles.ts";
-import { monthsAfter, type CalendarMonth } from "./months.ts";
 import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
 import { scenarioTemperatures, scenarioYears, type WeatherYear } from "./weatherYears.ts";
 import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
 import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
-import { mulberry32, seedFromString } from "./random.ts";
+import { scenarioUniforms, seedFromString } from "./random.ts";
 import { residualByCalendarMonth, type MonthAdjustment } from "./residual.ts";
+import { addDays, localMidnightMs, monthsAfter, type CalendarMonth } from "../core/time/index.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 export const DEFAULT_SCENARIOS = 300;
 export const DEFAULT_SEED = 20_260_101;
@@ -153,7 +153,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
       scenarioCosts.push(row);
     }
   } catch (error) {
-    return { ...base, error: `pricing failed: ${error instanceof Error ? error.message : String(error)}`, ...usageOnly(usage, months) };
+    return { ...base, error: `pricing failed: ${expectedProblem(error)}`, ...usageOnly(usage, months) };
   }
   const monthsOut: MonthForecast[] = months.map((m, k) => ({
     month: m.month,
@@ -174,7 +174,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
 
 /** The meter's usage scenarios (model or fallback), seeded per meter so every call draws the same numbers. */
 export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
-  const rng = mulberry32(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
+  const rng = scenarioUniforms(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
   if (input.fit && input.typicalMonthlyTemp) {
     const own = scenarioYears(input.weatherYears).map((y) => y.year);
     const order = input.scenarioYearOrder;

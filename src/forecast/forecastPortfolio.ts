@@ -4,7 +4,7 @@
  * the as-of date come in, plain data goes out.
  */
 import type { Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { forecastMeter, type MeterForecast } from "./forecastMeter.ts";
 import { buildingForecastInputs, type ForecastRunOptions } from "./portfolioInputs.ts";
 import { buildingCostBand, buildingMonthlyCostBands, forecastRows, type ForecastRow } from "./rollup.ts";

@@ -15,10 +15,10 @@ export { weatherBasisCandidates, typicalForBasis, basisYears, WEATHER_BASES, WEA
 export { correctBills, type CorrectedBillSet, type MoneyFindingLike } from "./correctedBills.ts";
 export { buildingChangeDrivers, meterChangeDrivers, type BuildingDrivers, type MeterDrivers, type ChangeDrivers } from "./drivers.ts";
 export { forecastWithTrackRecord, type ForecastBundle, type CalibrationResult } from "./run.ts";
-export { annualErrorPct, cvRmsePct, coverageShare } from "./accuracy.ts";
+export { annualErrorPct, forecastCvRmsePct, coverageShare } from "./accuracy.ts";
 export { escalationFactorForDays, escalationFactorForMonth, escalationBase } from "./escalation.ts";
 export { bandOf, type Band } from "./quantiles.ts";
 export { weatherYears, scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
-export { monthsAfter, spreadBillsByMonth, type CalendarMonth } from "./months.ts";
+export { spreadBillsByMonth } from "./months.ts";
 export { ForecastInputError } from "./errors.ts";
 export { residualByCalendarMonth, MONTH_ADJUSTMENTS, MONTH_ADJUSTMENT_LABEL, type MonthAdjustment } from "./residual.ts";

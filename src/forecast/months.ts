@@ -1,54 +1,9 @@
 /**
- * Calendar months for the forecast: which months follow an as-of date, their first and last
- * days, and billing-period amounts spread over calendar months by days (a bill of 31 days
- * with 10 of them in March puts 10/31 of its amount in March).
+ * Billing-period amounts spread over calendar months for the forecast, skipping re-issued
+ * statements (calendar arithmetic itself lives in src/core/time).
  */
-import { DateTime } from "luxon";
 import type { Bill } from "../domain/types.ts";
-import { daysBetween } from "../core/time.ts";
-import { ForecastInputError } from "./errors.ts";
-
-export interface CalendarMonth {
-  /** `YYYY-MM`. */
-  month: string;
-  /** First day, `YYYY-MM-DD`. */
-  start: string;
-  /** First day of the next month, `YYYY-MM-DD` (the half-open end, as bills have it). */
-  end: string;
-  days: number;
-  /** 1 = January. */
-  calendarMonth: number;
-}
-
-/** The calendar month `YYYY-MM`. @throws ForecastInputError on a malformed month. */
-export function calendarMonth(month: string): CalendarMonth {
-  const d = DateTime.fromISO(`${month}-01`, { zone: "utc" });
-  if (!/^\d{4}-\d{2}$/.test(month) || !d.isValid) throw new ForecastInputError(`month must be YYYY-MM, got '${month}'`);
-  const next = d.plus({ months: 1 });
-  return { month, start: d.toISODate()!, end: next.toISODate()!, days: d.daysInMonth!, calendarMonth: d.month };
-}
-
-/**
- * The `count` calendar months after the month of `asOf` (as_of = last day of data).
- * @example monthsAfter("2025-12-31", 2).map(m => m.month) // ["2026-01", "2026-02"]
- */
-export function monthsAfter(asOf: string, count: number): CalendarMonth[] {
-  const d = DateTime.fromISO(asOf, { zone: "utc" });
-  if (!d.isValid) throw new ForecastInputError(`as_of must be YYYY-MM-DD, got '${asOf}'`);
-  const out: CalendarMonth[] = [];
-  for (let i = 1; i <= count; i++) out.push(calendarMonth(d.startOf("month").plus({ months: i }).toFormat("yyyy-MM")));
-  return out;
-}
-
-/** The month `k` months after (k < 0: before) `month`. @example shiftMonth("2025-01", -12) // "2024-01" */
-export function shiftMonth(month: string, k: number): string {
-  return DateTime.fromISO(`${month}-01`, { zone: "utc" }).plus({ months: k }).toFormat("yyyy-MM");
-}
-
-/** `iso` minus `months` months (end-of-month aware: 2025-12-31 − 12 → 2024-12-31). */
-export function minusMonths(iso: string, months: number): string {
-  return DateTime.fromISO(iso, { zone: "utc" }).minus({ months }).toISODate()!;
-}
+import { calendarMonth, spreadOverMonths } from "../core/time/index.ts";
 
 export interface MonthSpread {
   month: string;
@@ -73,21 +28,12 @@ export function spreadBillsByMonth(bills: readonly Bill[], amountOf: (bill: Bill
     const key = `${bill.periodStart}/${bill.periodEnd}`;
     if (seen.has(key)) continue;
     seen.add(key);
-    const billDays = daysBetween(bill.periodStart, bill.periodEnd);
-    if (!(billDays > 0)) continue;
     const amount = amountOf(bill);
-    let m = calendarMonth(bill.periodStart.slice(0, 7));
-    while (m.start < bill.periodEnd) {
-      const from = bill.periodStart > m.start ? bill.periodStart : m.start;
-      const to = bill.periodEnd < m.end ? bill.periodEnd : m.end;
-      const d = daysBetween(from, to);
-      if (d > 0) {
-        const cur = out.get(m.month) ?? { month: m.month, amount: 0, coveredDays: 0, days: m.days };
-        cur.amount += (amount * d) / billDays;
-        cur.coveredDays += d;
-        out.set(m.month, cur);
-      }
-      m = calendarMonth(shiftMonth(m.month, 1));
+    for (const part of spreadOverMonths(amount, bill.periodStart, bill.periodEnd)) {
+      const cur = out.get(part.month) ?? { month: part.month, amount: 0, coveredDays: 0, days: calendarMonth(part.month).days };
+      cur.amount += part.amount;
+      cur.coveredDays += part.days;
+      out.set(part.month, cur);
     }
   }
   return new Map([...out].sort((a, b) => a[0].localeCompare(b[0])));

@@ -5,16 +5,18 @@
  * what was known then).
  */
 import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
-import { priceBill } from "../tariff/price.ts";
-import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
-import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../pipeline/baselines.ts";
-import { priceMeterBills } from "../pipeline/priceBills.ts";
+import type { Tariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
+import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
+import { priceMeterBills } from "../tariff/index.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
 import { typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
+import { addDays, localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
+import { cToF } from "../core/units.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -48,14 +50,14 @@ export function billsKnownAt(bills: readonly Bill[], asOf: string): Bill[] {
 }
 
 /** The hourly series cut before `untilMs`. */
-export function weatherBefore(w: WeatherSeries | undefined, untilMs: number): WeatherSeries | undefined {
+function weatherBefore(w: WeatherSeries | undefined, untilMs: number): WeatherSeries | undefined {
   if (!w) return undefined;
   const hours = Math.max(0, Math.min(w.tempC.length, Math.ceil((untilMs - w.startMs) / HOUR_MS)));
   return { ...w, tempC: w.tempC.subarray(0, hours), filled: w.filled.subarray(0, hours) };
 }
 
 /** Interval readings starting before `untilMs`. */
-export function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): IntervalSeries | undefined {
+function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): IntervalSeries | undefined {
   if (!s) return undefined;
   const n = lowerBound(s.startMs, untilMs);
   return n === 0 ? undefined : { ...s, startMs: s.startMs.subarray(0, n), values: s.values.subarray(0, n) };
@@ -78,7 +80,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   const normals = portfolio.normals.get(building.weatherStation);
   const years: WeatherYear[] = weatherYears(weather, building.timezone, tempUnit, untilMs);
   const normalsC = normals ? typicalMonthlyTempC(normals, building.timezone) : null;
-  const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? t * 1.8 + 32 : t)) : null;
+  const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? cToF(t) : t)) : null;
   const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
   const series = new Map<string, IntervalSeries>();
   for (const m of meters) {

@@ -12,10 +12,10 @@
  *   - ratchets: the billing demands of the meter's recent bills, then of the scenario's own
  *     earlier forecast months.
  */
-import type { Tariff } from "../tariff/model.ts";
-import { priceBill } from "../tariff/price.ts";
-import type { CalendarMonth } from "./months.ts";
+import type { Tariff } from "../tariff/index.ts";
+import { priceBill } from "../tariff/index.ts";
 import { scaleShape, type MonthShape } from "./profile.ts";
+import { type CalendarMonth } from "../core/time/index.ts";
 
 export interface MonthPricingContext {
   tariff: Tariff;

@@ -14,10 +14,9 @@
  * engine marks those lines estimated).
  */
 import type { IntervalSeries } from "../domain/types.ts";
-import type { IntervalUsage } from "../tariff/types.ts";
-import { localMidnightMs, lowerBound } from "../core/time.ts";
-import { hourOfWeek } from "../clean/timeOfWeek.ts";
-import type { CalendarMonth } from "./months.ts";
+import type { IntervalUsage } from "../tariff/index.ts";
+import { localMidnightMs, hourOfWeek, type CalendarMonth } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
 
 const WEEK52_MS = 364 * 86_400_000;
 const MIN_COVERAGE = 0.9;

@@ -5,30 +5,16 @@
  * small degrees of freedom of a monthly model).
  */
 
-import { mulberry32Uint32 } from "../core/random.ts";
+import { fnv1a32, mulberry32Open } from "../core/random.ts";
 
 /** A generator of uniforms in (0, 1). */
 export type Uniform = () => number;
 
-/**
- * mulberry32 seeded with a 32-bit integer.
- * @example const u = mulberry32(42); u(); // same first value on every run
- */
-export function mulberry32(seed: number): Uniform {
-  const next = mulberry32Uint32(seed);
-  // Shift into (0, 1): Box–Muller takes log(u) and u = 0 would be -Infinity.
-  return () => (next() + 0.5) / 4294967296;
-}
+/** Uniforms in (0, 1) for the scenarios (never 0: Box–Muller takes log(u)). */
+export const scenarioUniforms: (seed: number) => Uniform = mulberry32Open;
 
-/** A 32-bit seed from a string (FNV-1a), so each meter gets its own stream. */
-export function seedFromString(text: string, base = 0): number {
-  let h = (0x811c9dc5 ^ base) >>> 0;
-  for (let i = 0; i < text.length; i++) {
-    h ^= text.charCodeAt(i);
-    h = Math.imul(h, 0x01000193) >>> 0;
-  }
-  return h >>> 0;
-}
+/** A 32-bit seed from a string, so each meter gets its own stream. */
+export const seedFromString: (text: string, base?: number) => number = fnv1a32;
 
 /** Standard normal by Box–Muller (one of the pair; simplicity over speed). */
 export function standardNormal(u: Uniform): number {

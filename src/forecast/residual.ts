@@ -15,10 +15,11 @@
  * all-years / last-year is used is chosen by the rolling-origin backtests (backtest.ts).
  */
 import type { Bill } from "../domain/types.ts";
-import type { ChangePointFit } from "../model/changePoint.ts";
+import type { ChangePointFit } from "../model/index.ts";
 import { billsKnownAt } from "./portfolioInputs.ts";
-import { minusMonths, spreadBillsByMonth } from "./months.ts";
+import { spreadBillsByMonth } from "./months.ts";
 import type { WeatherYear } from "./weatherYears.ts";
+import { addMonthsIso } from "../core/time/index.ts";
 
 export type MonthAdjustment = "none" | "all-years" | "last-year";
 export const MONTH_ADJUSTMENTS: readonly MonthAdjustment[] = ["none", "all-years", "last-year"];
@@ -38,7 +39,7 @@ export function residualByCalendarMonth(
   fit: ChangePointFit, bills: readonly Bill[], years: readonly WeatherYear[], asOf: string, mode: MonthAdjustment,
 ): number[] | null {
   if (mode === "none") return null;
-  const from = mode === "last-year" ? minusMonths(asOf, 12).slice(0, 7) : "";
+  const from = mode === "last-year" ? addMonthsIso(asOf, -12).slice(0, 7) : "";
   const known = billsKnownAt(bills, asOf).filter((b) => b.readType !== "estimated");
   const sums = new Array<number>(12).fill(0);
   const counts = new Array<number>(12).fill(0);

@@ -4,8 +4,8 @@
  * the chosen basis and, for meters with a track record, the calibrated noise.
  */
 import type { Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
-import type { MeterBaseline } from "../pipeline/baselines.ts";
+import type { Tariff } from "../tariff/index.ts";
+import type { MeterBaseline } from "../model/index.ts";
 import { correctBills, type CorrectedBillSet, type MoneyFindingLike } from "./correctedBills.ts";
 import { rollingBacktest, MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
 import { forecastPortfolio, type PortfolioForecast } from "./forecastPortfolio.ts";

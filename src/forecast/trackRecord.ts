@@ -16,13 +16,14 @@
  * value; the month counts are reported with them.
  */
 import type { Bill, Portfolio } from "../domain/types.ts";
-import type { Tariff } from "../tariff/model.ts";
+import type { Tariff } from "../tariff/index.ts";
 import { forecastMeter, type MeterForecast, type MeterForecastInput } from "./forecastMeter.ts";
 import { billsKnownAt, buildingForecastInputs } from "./portfolioInputs.ts";
-import { minusMonths, shiftMonth, spreadBillsByMonth } from "./months.ts";
-import { annualErrorPct, coverageShare, cvRmsePct } from "./accuracy.ts";
+import { spreadBillsByMonth } from "./months.ts";
+import { annualErrorPct, coverageShare, forecastCvRmsePct } from "./accuracy.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
+import { addMonthsIso, shiftMonth } from "../core/time/index.ts";
 
 export interface MonthComparison {
   month: string;
@@ -116,7 +117,7 @@ export function compareWithActuals(forecast: MeterForecast, allBills: readonly B
   return { ...base, comparisons, model, naive, note: null };
 }
 
-export function summarize(actual: number[], forecast: number[], forecastTotal: number, bands: Band[] | null): AccuracySummary | null {
+function summarize(actual: number[], forecast: number[], forecastTotal: number, bands: Band[] | null): AccuracySummary | null {
   const actualTotal = actual.reduce((a, b) => a + b, 0);
   if (!(actualTotal > 0)) return null;
   return {
@@ -124,7 +125,7 @@ export function summarize(actual: number[], forecast: number[], forecastTotal: n
     forecastTotal,
     actualTotal,
     annualErrorPct: annualErrorPct(forecastTotal, actualTotal),
-    cvRmsePct: cvRmsePct(actual, forecast),
+    cvRmsePct: forecastCvRmsePct(actual, forecast),
     coverage: bands ? coverageShare(actual, bands) : null,
   };
 }
@@ -156,7 +157,7 @@ export function pooledAccuracy(records: readonly MeterTrackRecord[], which: "mod
     forecastTotal,
     actualTotal,
     annualErrorPct: annualErrorPct(forecastTotal, actualTotal),
-    cvRmsePct: months.length > 0 ? cvRmsePct(a, f) : NaN,
+    cvRmsePct: months.length > 0 ? forecastCvRmsePct(a, f) : NaN,
     coverage: which === "model" ? all.filter((c) => c.inside).length / all.length : null,
   };
 }
@@ -173,7 +174,7 @@ export interface TrackRecordOptions {
 
 /** The backtest as-of: one year before `asOf`. @example backtestAsOf("2025-12-31") // "2024-12-31" */
 export function backtestAsOf(asOf: string): string {
-  return minusMonths(asOf, 12);
+  return addMonthsIso(asOf, -12);
 }
 
 /** Every meter's forecast inputs as of the backtest date. */

@@ -21,13 +21,13 @@
  * months; 10 % when no month was seen twice), drawn the same way.
  */
 import type { Bill } from "../domain/types.ts";
-import type { ChangePointFit } from "../model/changePoint.ts";
-import type { CalendarMonth } from "./months.ts";
+import type { ChangePointFit } from "../model/index.ts";
 import { spreadBillsByMonth } from "./months.ts";
 import { standardNormal, studentScale, type Uniform } from "./random.ts";
+import { type CalendarMonth } from "../core/time/index.ts";
 
 /** Relative scatter assumed for the fallback when no calendar month appears in two years. */
-export const FALLBACK_DEFAULT_RELATIVE_SD = 0.1;
+const FALLBACK_DEFAULT_RELATIVE_SD = 0.1;
 
 export type UsageMethod = "change-point" | "same-month-average";
 

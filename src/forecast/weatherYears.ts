@@ -11,8 +11,9 @@
  * i.e. each year's anomaly added to the typical month, so the scenarios centre on the typical
  * year (normals when given) while carrying the year-to-year spread of the history.
  */
-import { DateTime } from "luxon";
+import { LocalMonthCalendar } from "../core/time/index.ts";
 import type { WeatherSeries } from "../domain/types.ts";
+import { cToF } from "../core/units.ts";
 
 const HOUR_MS = 3_600_000;
 const MIN_HOURS = 20 * 24;
@@ -31,22 +32,21 @@ export interface WeatherYear {
 export function weatherYears(weather: WeatherSeries | undefined, zone: string, unit: "C" | "F", untilMs = Infinity): WeatherYear[] {
   if (!weather || weather.tempC.length === 0) return [];
   const byYear = new Map<number, { sum: number[]; count: number[] }>();
-  let cursor = DateTime.fromMillis(weather.startMs, { zone }).startOf("month");
   const endMs = Math.min(untilMs, weather.startMs + weather.tempC.length * HOUR_MS);
-  while (cursor.toMillis() < endMs) {
-    const next = cursor.plus({ months: 1 });
-    const from = Math.max(0, Math.ceil((cursor.toMillis() - weather.startMs) / HOUR_MS));
-    const to = Math.min(weather.tempC.length, Math.ceil((Math.min(next.toMillis(), endMs) - weather.startMs) / HOUR_MS));
-    const acc = byYear.get(cursor.year) ?? { sum: new Array<number>(12).fill(0), count: new Array<number>(12).fill(0) };
+  for (const m of new LocalMonthCalendar(zone).between(weather.startMs, endMs)) {
+    const year = Number(m.month.slice(0, 4));
+    const month = Number(m.month.slice(5, 7));
+    const from = Math.max(0, Math.ceil((m.startMs - weather.startMs) / HOUR_MS));
+    const to = Math.min(weather.tempC.length, Math.ceil((Math.min(m.endMs, endMs) - weather.startMs) / HOUR_MS));
+    const acc = byYear.get(year) ?? { sum: new Array<number>(12).fill(0), count: new Array<number>(12).fill(0) };
     for (let i = from; i < to; i++) {
       const t = weather.tempC[i]!;
       if (Number.isFinite(t)) {
-        acc.sum[cursor.month - 1]! += t;
-        acc.count[cursor.month - 1]!++;
+        acc.sum[month - 1]! += t;
+        acc.count[month - 1]!++;
       }
     }
-    byYear.set(cursor.year, acc);
-    cursor = next;
+    byYear.set(year, acc);
   }
   const years: WeatherYear[] = [...byYear]
     .sort((a, b) => a[0] - b[0])
@@ -55,7 +55,7 @@ export function weatherYears(weather: WeatherSeries | undefined, zone: string, u
       monthlyTemp: acc.sum.map((s, m) => {
         if (acc.count[m]! < MIN_HOURS) return NaN;
         const c = s / acc.count[m]!;
-        return unit === "F" ? c * 1.8 + 32 : c;
+        return unit === "F" ? cToF(c) : c;
       }),
     }))
     .filter((y) => y.monthlyTemp.some(Number.isFinite));

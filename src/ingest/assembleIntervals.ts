@@ -8,7 +8,7 @@ import type { InputIssue } from "../core/issues.ts";
 import type { IntervalSeries } from "../domain/types.ts";
 import type { CollectedMeter } from "./intervalCollector.ts";
 
-export const INTERVAL_MINUTES_ALLOWED = [5, 15, 30, 60] as const;
+const INTERVAL_MINUTES_ALLOWED = [5, 15, 30, 60] as const;
 
 export interface DuplicateRejection {
   fileIndex: number;

@@ -114,4 +114,3 @@ export function daysFromCivil(y: number, m: number, d: number): number {
   return era * 146097 + doe - 719468;
 }
 
-export { daysBetween } from "../core/time.ts";

@@ -50,7 +50,7 @@ export interface LoadOptions {
  * for a tariff with thousands of charges while refusing a wrong file before YAML parsing,
  * whose memory use grows with the text (common practice).
  */
-export const MAX_YAML_BYTES = 1 << 20;
+const MAX_YAML_BYTES = 1 << 20;
 
 /**
  * Reads the portfolio folder `dir`. Issue paths and report paths are relative to the
@@ -122,6 +122,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
 
   // portfolio.yaml
   let settings: PortfolioSettings = { name: "", ...structuredClone(DEFAULT_SETTINGS) };
+  let contactPositions: Record<string, { line: number; column: number }> = {};
   const yamlLabel = label("portfolio.yaml");
   const yamlText = await readInputText(rootReal, abs("portfolio.yaml"), MAX_YAML_BYTES);
   if (!yamlText.ok && !yamlText.missing) fatalIssue(yamlLabel, yamlText.message, yamlText.hint);
@@ -134,6 +135,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     ctx.report.rowsRead = 1;
     if (parsed.settings) {
       settings = parsed.settings;
+      contactPositions = parsed.contactPositions ?? {};
       ctx.report.rowsUsed = 1;
     } else {
       ctx.report.rowsRejected = 1;
@@ -152,6 +154,17 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     close(bCtx);
   }
   const buildingById = new Map(buildings.map((b) => [b.buildingId, b]));
+  // A contact line is shown only on a tenant page: say so when it cannot be.
+  for (const id of Object.keys(settings.contacts ?? {})) {
+    const b = buildingById.get(id);
+    if (b && b.tenantPage) continue;
+    const pos = contactPositions[id] ?? { line: 0, column: 0 };
+    issues.push({
+      file: yamlLabel, ...pos, severity: "warning",
+      message: b ? `contact for ${id} is not shown: the building has no tenant page` : `contacts names building ${JSON.stringify(id)}, which is not in buildings.csv`,
+      hint: b ? "set tenant_page to yes for it in buildings.csv, or remove the contact" : "use a building_id from buildings.csv",
+    });
+  }
 
   // tariffs/*.yaml
   const tariffNames = await listFiles("tariffs", [".yaml", ".yml"]);
@@ -266,3 +279,8 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
       };
   return { portfolio, issues: issues.map(capIssue), fatal, weatherGaps, report: { files } };
 }
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export { describeFsError } from "./inputFile.ts";
+export { MAX_BILL_USAGE } from "./limits.ts";
+export { readMeterIntervalFile, type MeterIntervalFile } from "./meterIntervalFile.ts";

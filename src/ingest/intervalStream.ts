@@ -8,12 +8,12 @@
 import { quoteValue, shorten, type InputIssue } from "../core/issues.ts";
 import type { FileReport } from "../domain/types.ts";
 import { numberProblem, parseStrictNumber } from "./fields.ts";
-import { type LocalTimeResolver, isValidZone, sharedResolver } from "./localTime.ts";
 import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampBytes } from "./timestamp.ts";
 import { splitCsvLine } from "./splitCsvLine.ts";
 import { DETAILS_PER_REASON, FileContext } from "./fileContext.ts";
 import { trimId } from "../core/trimId.ts";
 import { MAX_INTERVAL_VALUE, MAX_YEAR, MIN_YEAR, limitText } from "./limits.ts";
+import { type LocalTimeResolver, isValidZone, sharedResolver } from "../core/time/index.ts";
 
 const MIN_INSTANT_MS = Date.UTC(MIN_YEAR, 0, 1);
 const MAX_INSTANT_MS = Date.UTC(MAX_YEAR + 1, 0, 1);

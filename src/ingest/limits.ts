@@ -2,7 +2,7 @@
  * Plausibility limits checked at ingest, each with its reason, so that a portfolio `check`
  * accepts is one `build` can price, model and publish: every number stays finite through
  * the arithmetic downstream, every date is one the time-zone library handles, and every id
- * fits in a page file name. The README's "Limits" section lists the same values.
+ * fits in a page file name. docs/inputs.md, "Limits", lists the same values.
  */
 
 /**
@@ -52,13 +52,13 @@ export const MAX_MULTIPLIER = 1e6;
  * file systems cap a name at 255 bytes; 100 leaves room for the prefixes and suffixes a page
  * adds. A 300-character building id made every page fail to write (issue 16).
  */
-export const MAX_ID_BYTES = 100;
+const MAX_ID_BYTES = 100;
 
 /** Longest bill id, UTF-8 bytes: 200 (bill ids appear in downloads, not in file names). */
 export const MAX_BILL_ID_BYTES = 200;
 
 /** UTF-8 length of `text` in bytes. */
-export function utf8Bytes(text: string): number {
+function utf8Bytes(text: string): number {
   return Buffer.byteLength(text, "utf8");
 }
 

@@ -6,7 +6,7 @@
 import type { IntervalSeries } from "../domain/types.ts";
 import type { IntervalSink } from "./intervalStream.ts";
 import { inferIntervalMinutes } from "./assembleIntervals.ts";
-import { LocalMonthCalendar, type LocalMonth } from "./localMonths.ts";
+import { LocalMonthCalendar, type LocalMonth } from "../core/time/index.ts";
 
 export interface MonthTotal {
   /** Local calendar month `YYYY-MM`. */

@@ -9,8 +9,8 @@ import type { Commodity, PortfolioSettings } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import { trimId } from "../core/trimId.ts";
 import { parseIsoDate } from "./fields.ts";
-import { parseCleaningConfig } from "../clean/detect/config.ts";
-import { yamlLimitProblem } from "../tariff/yaml-check.ts";
+import { parseCleaningConfig } from "../clean/index.ts";
+import { yamlLimitProblem } from "../tariff/index.ts";
 
 /** The node at a key path inside a YAML mapping (for placing an error), or null. */
 function nodeAtPath(node: Node | null | undefined, path: string[]): Node | null {
@@ -41,13 +41,18 @@ export const DEFAULT_SETTINGS: Omit<PortfolioSettings, "name"> = {
 
 const TOP_KEYS = [
   "name", "currency", "as_of", "forecast_months", "escalation", "tolerances",
-  "degree_day_base", "base_path", "interval_timestamp", "weather_max_gap_hours", "cleaning", "alignment",
+  "degree_day_base", "base_path", "interval_timestamp", "weather_max_gap_hours", "cleaning", "alignment", "contacts",
 ];
+
+/** Longest contact line, in characters: one line on a page, not a letter. */
+const MAX_CONTACT_CHARS = 300;
 
 export interface SettingsResult {
   settings: PortfolioSettings | null;
   issues: InputIssue[];
   fatal: boolean;
+  /** Line and column of each building id under `contacts:`, so ingest can place a warning on an unknown id. */
+  contactPositions?: Record<string, { line: number; column: number }>;
 }
 
 /**
@@ -71,7 +76,7 @@ export function parsePercent(value: unknown): number | null {
 }
 
 /** Hours in a leap year: no detector window or run can usefully exceed a year of data. */
-export const MAX_CLEANING_HOURS = 8784;
+const MAX_CLEANING_HOURS = 8784;
 
 /**
  * Limits of one `cleaning:` setting, chosen from its name (the detectors' naming convention):
@@ -81,7 +86,7 @@ export const MAX_CLEANING_HOURS = 8784;
  * `negative_levels`, and `min_absolute`, `tolerance` in meter units) up to 1e9, far above any
  * meaningful threshold but small enough to keep arithmetic finite.
  */
-export function cleaningLimit(field: string): { max: number; whole: boolean; reason: string } {
+function cleaningLimit(field: string): { max: number; whole: boolean; reason: string } {
   if (field.endsWith("Hours")) return { max: MAX_CLEANING_HOURS, whole: false, reason: `hours: at most ${MAX_CLEANING_HOURS} (one leap year); a longer window cannot be evaluated` };
   if (field.endsWith("Intervals")) return { max: 105_408, whole: true, reason: "a whole number of intervals, at most 105,408 (a leap year of 5-minute intervals)" };
   if (field.endsWith("Share")) return { max: 1, whole: false, reason: "a share is a fraction from 0 to 1" };
@@ -124,6 +129,7 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
   }
 
   const s: PortfolioSettings = structuredClone({ name: "", ...DEFAULT_SETTINGS });
+  const contactPositions: Record<string, { line: number; column: number }> = {};
   let named = false;
   for (const pair of root.items as Pair<Node, Node | null>[]) {
     const keyNode = pair.key;
@@ -281,6 +287,27 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
         }
         break;
       }
+      case "contacts": {
+        if (!isMap(valNode)) {
+          err(valNode ?? keyNode, "contacts must map building ids to a contact line", 'e.g. contacts: { B1: "Building office, 555-0142, office@example.org" }');
+          break;
+        }
+        const contacts: Record<string, string> = {};
+        for (const p of valNode.items as Pair<Node, Node | null>[]) {
+          const id = isScalar(p.key) ? trimId(String(p.key.value)) : "";
+          const raw = isScalar(p.value) ? p.value.value : undefined;
+          const text = typeof raw === "string" || typeof raw === "number" ? String(raw).replace(/\s+/g, " ").trim() : "";
+          if (id === "") err(p.key, "contacts: a building id is missing", "write the building_id from buildings.csv before the colon");
+          else if (text === "") err(p.value ?? p.key, `contact for ${id} must be a line of text`, 'e.g. B1: "Building office, 555-0142"');
+          else if (text.length > MAX_CONTACT_CHARS) err(p.value ?? p.key, `contact for ${id} is ${text.length} characters long`, `keep it to one line of at most ${MAX_CONTACT_CHARS} characters`);
+          else {
+            contacts[id] = text;
+            contactPositions[id] = at(p.key);
+          }
+        }
+        s.contacts = contacts;
+        break;
+      }
       case "weather_max_gap_hours":
         // Capped at one leap year of hours: a longer gap has nothing to interpolate between
         // in the data a build uses, and the cap keeps the fill loop bounded.
@@ -299,5 +326,5 @@ export function parsePortfolioYaml(text: string, file: string): SettingsResult {
     }
     return { settings: null, issues, fatal: true };
   }
-  return { settings: s, issues, fatal: false };
+  return { settings: s, issues, fatal: false, contactPositions };
 }

@@ -3,15 +3,15 @@ import { quoteValue } from "../core/issues.ts";
 import type { Bill, BillLine } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
-import { daysBetween } from "./fields.ts";
+import { daysBetween } from "../core/time/index.ts";
 import { MAX_BILL_DAYS, MAX_BILL_ID_BYTES, MAX_BILL_TOTAL, MAX_BILL_USAGE, MAX_DEMAND_KW, idLengthProblem, limitText, withinMagnitude } from "./limits.ts";
 
-export const BILLS_SPEC = {
+const BILLS_SPEC = {
   required: ["meter_id", "period_start", "period_end", "usage", "total"],
   optional: ["bill_id", "read_type", "demand", "power_factor", "statement_date"],
 } as const;
 
-export const BILL_LINES_SPEC = { required: ["bill_id", "label", "amount"], optional: [] } as const;
+const BILL_LINES_SPEC = { required: ["bill_id", "label", "amount"], optional: [] } as const;
 
 /**
  * Reads bills.csv. `meterIds` are the meters accepted from meters.csv; `rejectedMeters`

@@ -3,14 +3,13 @@ import { quoteValue } from "../core/issues.ts";
 import type { Building } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
-import { isValidZone } from "./localTime.ts";
 import { MAX_FLOOR_AREA, idLengthProblem, limitText } from "./limits.ts";
+import { isValidZone } from "../core/time/index.ts";
+import { M2_PER_FT2 } from "../core/units.ts";
 
-/** 1 ft² = 0.09290304 m² exactly (international foot = 0.3048 m). */
-export const M2_PER_FT2 = 0.09290304;
 const ID_RE = /^[A-Za-z0-9_-]+$/;
 
-export const BUILDINGS_SPEC = {
+const BUILDINGS_SPEC = {
   required: ["building_id", "name", "floor_area", "timezone", "weather_station"],
   optional: ["area_unit", "use_type", "tenant_page"],
 } as const;

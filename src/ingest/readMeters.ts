@@ -1,19 +1,13 @@
 /** meters.csv → Meter[]: commodity/unit pairs, known building and tariff, unique ids. */
 import { quoteValue } from "../core/issues.ts";
-import type { Commodity, Meter } from "../domain/types.ts";
+import type { Meter } from "../domain/types.ts";
 import { COMMODITIES } from "../domain/types.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type TableResult } from "./csvTable.ts";
 import { MAX_MULTIPLIER, idLengthProblem, limitText } from "./limits.ts";
+import { canonicalUnit, UNITS_BY_COMMODITY } from "../tariff/index.ts";
 
-/** Usage units allowed per commodity (inputs contract), in their canonical spelling. */
-export const UNITS_BY_COMMODITY: Record<Commodity, readonly string[]> = {
-  electricity: ["kWh", "MWh"],
-  gas: ["therm", "ccf", "m3", "kWh"],
-  water: ["gal", "ccf", "m3"],
-};
-
-export const METERS_SPEC = {
+const METERS_SPEC = {
   required: ["meter_id", "building_id", "commodity", "unit", "tariff"],
   optional: ["multiplier", "account"],
 } as const;
@@ -53,8 +47,9 @@ export async function readMeters(path: string, ctx: FileContext, refs: MeterRefs
     const unitText = row.text("unit", true);
     let unit: string | null = null;
     if (commodity !== null && unitText !== null) {
+      // The tariff engine's list: a meter may bill in any unit a tariff can be quoted in (water kgal too).
       const allowed = UNITS_BY_COMMODITY[commodity];
-      unit = allowed.find((u) => u.toLowerCase() === unitText.toLowerCase()) ?? null;
+      unit = canonicalUnit(commodity, unitText);
       if (unit === null) row.problem("unit", `unit ${quoteValue(unitText)} is not a ${commodity} unit`, `for ${commodity} use ${allowed.join(", ")}`);
     }
     const tariffId = row.text("tariff", true);

@@ -10,14 +10,11 @@ import { openInputFile } from "./inputFile.ts";
 import { MAX_YEAR, MIN_YEAR } from "./limits.ts";
 import type { FileContext } from "./fileContext.ts";
 import { readCsvTable, type Row } from "./csvTable.ts";
-import { sharedResolver } from "./localTime.ts";
 import { TIMESTAMP_HINT, newTimestampScratch, parseTimestampString } from "./timestamp.ts";
 import type { DailyReading, HourlyReading } from "./weatherGrid.ts";
+import { sharedResolver } from "../core/time/index.ts";
+import { fToC } from "../core/units.ts";
 
-/** °F → °C: (F − 32) × 5/9. Example: 212 → 100, 32 → 0, −40 → −40. */
-export function fahrenheitToCelsius(tempF: number): number {
-  return ((tempF - 32) * 5) / 9;
-}
 
 export interface StationReadings {
   hourly: HourlyReading[];
@@ -50,7 +47,7 @@ async function readHeaderLine(path: string, ctx: FileContext): Promise<string | 
 }
 
 /** Which layout a header announces, and the temperature unit. */
-export function weatherLayoutOf(header: string): { layout: WeatherLayout; unit: "c" | "f" } {
+function weatherLayoutOf(header: string): { layout: WeatherLayout; unit: "c" | "f" } {
   const cols = header.split(",").map((c) => c.trim().replace(/^"|"$/g, "").toLowerCase());
   if (cols.includes("timestamp")) {
     if (cols.includes("temperature_c")) return { layout: "hourly", unit: "c" };
@@ -91,7 +88,7 @@ export async function readWeatherFile(
     "name the columns in the first line; the unit is part of the temperature column name");
     return;
   }
-  const toC = unit === "f" ? fahrenheitToCelsius : (x: number) => x;
+  const toC = unit === "f" ? fToC : (x: number) => x;
   const stationOf = (id: string): StationReadings => {
     let s = byStation.get(id);
     if (!s) {

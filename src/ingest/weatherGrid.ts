@@ -1,8 +1,9 @@
 /**
  * Builds a station's hourly WeatherSeries on a regular UTC hour grid from hourly readings and
- * daily max/min, then fills short gaps. Pure (no I/O); luxon only for local days.
+ * daily max/min, then fills short gaps. Pure (no I/O); local days from src/core/time.
  */
-import { DateTime } from "luxon";
+import type { WeatherGap } from "../domain/types.ts";
+import { addDays, localDateOf, localMidnightMs, localPartsOf } from "../core/time/index.ts";
 import type { WeatherSeries } from "../domain/types.ts";
 import { interpolateGaps } from "./interpolateGaps.ts";
 
@@ -12,6 +13,8 @@ const HOUR_MS = 3600000;
 export const FILL_MEASURED = 0;
 export const FILL_INTERPOLATED = 1;
 export const FILL_FROM_DAILY = 2;
+
+export type { WeatherGap };
 
 export interface HourlyReading {
   instantMs: number;
@@ -25,15 +28,6 @@ export interface DailyReading {
   tminC: number;
 }
 
-export interface WeatherGap {
-  stationId: string;
-  /** First missing hour, UTC epoch ms. */
-  startMs: number;
-  /** First hour after the gap (exclusive end), UTC epoch ms. */
-  endMs: number;
-  hours: number;
-  action: "interpolated" | "kept";
-}
 
 /**
  * Temperature at local clock hour `hourOfDay` (0–24) from a day's max and min, assuming the
@@ -76,16 +70,16 @@ export function buildWeatherSeries(
     } else sums.set(h, { sum: r.tempC, n: 1 });
   }
   for (const h of sums.keys()) {
-    hourlyDays.add(DateTime.fromMillis(h * HOUR_MS, { zone: timezone }).toISODate() ?? "");
+    hourlyDays.add(localDateOf(h * HOUR_MS, timezone));
   }
   const fromDaily = new Map<number, number>();
   for (const d of daily) {
     if (hourlyDays.has(d.date)) continue;
-    let t = DateTime.fromISO(d.date, { zone: timezone });
-    const next = t.plus({ days: 1 }).toMillis();
-    for (; t.toMillis() < next; t = t.plus({ hours: 1 })) {
-      const h = Math.round(t.toMillis() / HOUR_MS);
-      if (!sums.has(h)) fromDaily.set(h, hourFromDailyMaxMin(d.tmaxC, d.tminC, t.hour + t.minute / 60));
+    const next = localMidnightMs(addDays(d.date, 1), timezone);
+    for (let t = localMidnightMs(d.date, timezone); t < next; t += HOUR_MS) {
+      const h = Math.round(t / HOUR_MS);
+      const local = localPartsOf(t, timezone);
+      if (!sums.has(h)) fromDaily.set(h, hourFromDailyMaxMin(d.tmaxC, d.tminC, local.hour + local.minute / 60));
     }
   }
   const keys = [...sums.keys(), ...fromDaily.keys()];

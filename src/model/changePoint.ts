@@ -25,7 +25,7 @@
  */
 import { fitOls } from "./ols.ts";
 import type { IntervalPrediction, OlsFit } from "./ols.ts";
-import { leastSquaresInPlace } from "./linalg.ts";
+import { leastSquaresInPlace } from "../core/linalg.ts";
 import { guideline14Stats, mean } from "./stats.ts";
 import type { Guideline14Stats } from "./stats.ts";
 import { studentTQuantile } from "./studentT.ts";

@@ -1,5 +1,5 @@
 /**
- * Bill-level variable-base degree-day regression (the PRISM approach, Fels 1986, Energy and
+ * Bill-level variable-base degree-day regression (the variable-base degree-day method, Fels 1986, Energy and
  * Buildings 9; the variable-base degree-day method of ASHRAE Handbook — Fundamentals):
  *
  *   constant: use/day = β₀
@@ -81,7 +81,7 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
  * count by their overlap, as in degreeDaysForPeriod (src/model/degreeDays.ts).
  *
  * `blockHours` = 24 averages each run of 24 hours from the period start first (daily means,
- * the temperatures of the mean-temperature method and of PRISM, Fels 1986), so degree-days
+ * the temperatures of the mean-temperature method and of the variable-base degree-day method, Fels 1986), so degree-days
  * become Σ over days of (τ − daily mean)⁺; the default 1 integrates hourly values. A block's
  * weight is its covered hours; a block with none is skipped. Bills start at local midnight, so
  * the blocks are local days except after a DST change inside the period (off by one hour).
@@ -168,10 +168,10 @@ export function cddPerDay(profile: TemperatureProfile, base: number): number {
 
 export type DegreeDayForm = "constant" | "HO" | "CO" | "HC";
 
-export const DEGREE_DAY_FORMS: readonly DegreeDayForm[] = ["constant", "HO", "CO", "HC"];
+const DEGREE_DAY_FORMS: readonly DegreeDayForm[] = ["constant", "HO", "CO", "HC"];
 
 /** p for each form: intercept + slopes + searched bases. */
-export const DEGREE_DAY_PARAMETER_COUNT: Record<DegreeDayForm, number> = { constant: 1, HO: 3, CO: 3, HC: 5 };
+const DEGREE_DAY_PARAMETER_COUNT: Record<DegreeDayForm, number> = { constant: 1, HO: 3, CO: 3, HC: 5 };
 
 /** One billing period. */
 export interface DegreeDayPeriod {
@@ -192,11 +192,11 @@ export interface BaseSearchRange {
 
 /**
  * Default search ranges. 5–25 °C spans the balance points of real buildings (heating balance
- * points of 10–18 °C and cooling ones of 12–24 °C are usual; Fels 1986 reports PRISM bases of
+ * points of 10–18 °C and cooling ones of 12–24 °C are usual; Fels 1986 reports bases of
  * roughly 40–75 °F for houses); 0.5 °C steps keep the coarse grid at 41 values and the refine
  * step of 0.05 °C is well below what monthly data can resolve. °F: the same span, 41–77 °F.
  */
-export const DEFAULT_BASE_RANGE: Record<"C" | "F", BaseSearchRange> = {
+const DEFAULT_BASE_RANGE: Record<"C" | "F", BaseSearchRange> = {
   C: { min: 5, max: 25, step: 0.5, refineStep: 0.05 },
   F: { min: 41, max: 77, step: 1, refineStep: 0.1 },
 };

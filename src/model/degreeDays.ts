@@ -11,24 +11,16 @@
  *   range straddles the base.
  */
 import { ModelInputError } from "./errors.ts";
+import { fToC } from "../core/units.ts";
 
 /** Common bases: 65 °F (US, NOAA/NWS), the same in °C, 15.5 °C (UK), 18 °C (common in Europe). */
 export const DEGREE_DAY_BASES = {
   us65F: 65,
-  us65FInC: ((65 - 32) * 5) / 9,
+  us65FInC: fToC(65),
   uk15_5C: 15.5,
   europe18C: 18,
 } as const;
 
-/** °F → °C. @example fahrenheitToCelsius(65) // 18.333… */
-export function fahrenheitToCelsius(tempF: number): number {
-  return ((tempF - 32) * 5) / 9;
-}
-
-/** °C → °F. @example celsiusToFahrenheit(15.5) // 59.9 */
-export function celsiusToFahrenheit(tempC: number): number {
-  return (tempC * 9) / 5 + 32;
-}
 
 /** Convert degree-days (a temperature difference × days) from °C·day to °F·day: × 1.8. */
 export function degreeDaysCToF(degreeDaysC: number): number {

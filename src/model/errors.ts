@@ -1,8 +1,2 @@
-import { OhmbookError } from "../core/errors.ts";
-
-/**
- * Raised by the pure modelling and cleaning primitives when their numeric input cannot
- * give a meaningful answer (too few points, mismatched lengths, singular design).
- * Callers in the pipeline catch it and turn it into a reported issue for the meter.
- */
-export class ModelInputError extends OhmbookError {}
+/** The model stage raises ModelInputError (defined in src/core/errors.ts so core/linalg can raise it too). */
+export { ModelInputError } from "../core/errors.ts";

@@ -37,10 +37,16 @@ export {
   degreeDaysMeanMethod,
   heatingDegreeDaysUkMaxMin,
   coolingDegreeDaysUkMaxMin,
-  fahrenheitToCelsius,
-  celsiusToFahrenheit,
   degreeDaysCToF,
   degreeDaysFToC,
   DEGREE_DAY_BASES,
 } from "./degreeDays.ts";
 export type { DegreeDays, HourlyTemps, PeriodDegreeDays } from "./degreeDays.ts";
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, fitMeterBaseline, typicalMonthlyTempC } from "./billBaselines.ts";
+export type { MeterBaseline, ModelSummary } from "./billBaselines.ts";
+export { fitBuildingIntervalBaselines, SHORT_HISTORY_WEEKS } from "./interval/buildingBaselines.ts";
+export type { IntervalBaselineOutcome } from "./interval/buildingBaselines.ts";
+export type { IntervalBaselineSummary } from "./interval/index.ts";
+export { meetsGuideline14 } from "./stats.ts";

@@ -5,8 +5,8 @@
  * - R² is centred (about the weighted mean of y) with an intercept, uncentred without one;
  * - adjusted R² = 1 − (1 − R²)(n − c)/(n − k), c = 1 with an intercept, 0 without.
  */
-import { householderQr, qrSolve, qrUnscaledCovariance } from "./linalg.ts";
-import type { Matrix } from "./linalg.ts";
+import { householderQr, qrSolve, qrUnscaledCovariance } from "../core/linalg.ts";
+import type { Matrix } from "../core/linalg.ts";
 import { compensatedSum } from "./stats.ts";
 import { studentTQuantile, studentTTwoSidedP } from "./studentT.ts";
 import { ModelInputError } from "./errors.ts";

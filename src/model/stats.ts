@@ -137,7 +137,6 @@ export function guideline14Stats(
 ): Guideline14Stats {
   const cv = cvRmsePct(y, yHat, p);
   const nmbe = nmbePct(y, yHat, p);
-  const limits = GUIDELINE14_LIMITS[resolution];
   return {
     n: y.length,
     p,
@@ -145,6 +144,16 @@ export function guideline14Stats(
     nmbePct: nmbe,
     rSquared: rSquared(y, yHat),
     rmse: Math.sqrt(sumSquaredErrors(y, yHat) / (y.length - p)),
-    passes: cv <= limits.cvRmsePct && Math.abs(nmbe) <= limits.nmbeAbsPct,
+    passes: meetsGuideline14({ cvRmsePct: cv, nmbePct: nmbe }, resolution),
   };
+}
+
+/**
+ * Whether CV(RMSE) and NMBE are within the Guideline 14 calibration limits for the data's
+ * resolution (limits inclusive).
+ * @example meetsGuideline14({ cvRmsePct: 15, nmbePct: -5 }, "monthly") // true
+ */
+export function meetsGuideline14(stats: { cvRmsePct: number; nmbePct: number }, resolution: Guideline14Resolution): boolean {
+  const limits = GUIDELINE14_LIMITS[resolution];
+  return stats.cvRmsePct <= limits.cvRmsePct && Math.abs(stats.nmbePct) <= limits.nmbeAbsPct;
 }

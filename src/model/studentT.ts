@@ -16,7 +16,7 @@ const LANCZOS = [
 ];
 
 /** ln Γ(x) for x > 0 (Lanczos approximation, g = 7; relative error ≈ 1e-15). */
-export function logGamma(x: number): number {
+function logGamma(x: number): number {
   if (x < 0.5) return Math.log(Math.PI / Math.abs(Math.sin(Math.PI * x))) - logGamma(1 - x);
   const z = x - 1;
   let a = LANCZOS[0];

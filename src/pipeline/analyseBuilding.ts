@@ -1,42 +1,40 @@
 /**
  * One building's analysis — price every bill, reconcile with interval data, audit, fit the
- * weather and hourly baselines — as a pure function of the portfolio, so it can run in a worker
- * thread (analysisPool.ts) as well as in the main one. Any failure is caught and reported.
+ * weather and hourly baselines — as a pure function of the portfolio, so it runs in a worker
+ * thread (analysisPool.ts) as well as in the main one.
  */
+import { expectedProblem } from "../core/errors.ts";
 import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
-import { withFlaggedAsMissing } from "../clean/cleanSeries.ts";
+import { withFlaggedAsMissing } from "../clean/index.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { priceBill } from "../tariff/index.ts";
-import { runAudit } from "../audit/index.ts";
-import type { Finding } from "../audit/types.ts";
-import type { PricedBill } from "./priceBills.ts";
-import { priceMeterBills } from "./priceBills.ts";
-import { meteredForBills } from "../audit/reconcile.ts";
-import { makeRepricer } from "../audit/wiring.ts";
-import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "./baselines.ts";
-import { fitBuildingIntervalBaselines } from "./intervalBaselines.ts";
-import type { IntervalBaselineSummary } from "../model/interval/fitIntervalBaseline.ts";
+import { priceBill, priceMeterBills, type PricedBill } from "../tariff/index.ts";
+import { runAudit, meteredForBills, makeRepricer, type Finding } from "../audit/index.ts";
+import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, fitBuildingIntervalBaselines, type MeterBaseline } from "../model/index.ts";
+import type { BuildingResults } from "../report/index.ts";
 
-/** A meter's hourly model as kept after the analysis: its summary, which every later stage reads. */
-export interface HourlyModelOutcome {
-  meterId: string;
-  baseline: { summary: IntervalBaselineSummary } | null;
-  problem: string | null;
+/**
+ * A bug at a per-building boundary: rethrown (`fail`), or reported as one line and turned into
+ * the failure text the pages show (`report`).
+ */
+export type BugHandler = (error: unknown) => string;
+export const rethrow: BugHandler = (error) => {
+  throw error;
+};
+
+/** An expected problem's message, or what the bug policy makes of anything else. */
+export function problemOrBug(error: unknown, onBug: BugHandler): string {
+  try {
+    return expectedProblem(error);
+  } catch (bug) {
+    return onBug(bug);
+  }
 }
 
-/** Everything computed for one building; a building that fails carries only `failure`. */
-export interface BuildingResults {
-  building: Building;
-  priced: Map<string, PricedBill>;
-  findings: Finding[];
-  baselines: MeterBaseline[];
-  /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
-  intervalBaselines: HourlyModelOutcome[];
-  failure: string | null;
-}
-
-/** Prices, reconciles, audits and models one building; any failure is caught and reported. */
-export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array> = new Map()): BuildingResults {
+/**
+ * Prices, reconciles, audits and models one building. An expected problem (an OhmbookError) is
+ * caught and becomes the building's failure; a bug goes to `onBug` (by default rethrown).
+ */
+export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array> = new Map(), onBug: BugHandler = rethrow): BuildingResults {
   const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], intervalBaselines: [], failure: null };
   try {
     const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
@@ -77,7 +75,7 @@ export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building
     const intervalBaselines = fitBuildingIntervalBaselines(portfolio, building, masks);
     return { building, priced, findings, baselines, intervalBaselines, failure: null };
   } catch (error) {
-    return { ...empty, failure: error instanceof Error ? error.message : String(error) };
+    return { ...empty, failure: problemOrBug(error, onBug) };
   }
 }
 

@@ -127,7 +127,7 @@ export function contentHash(value: unknown): string {
 
 /** The key of a building's analysis: program and task. */
 export function cacheKey(cache: AnalysisCache, task: BuildingTask): string {
-  const own = { ...task, portfolio: { ...task.portfolio, tariffs: null } };
+  const own = { ...task, onBug: null, portfolio: { ...task.portfolio, tariffs: null } };
   return createHash("sha256").update(cache.program).update(cache.tariffs).update(contentHash(own)).digest("hex");
 }
 

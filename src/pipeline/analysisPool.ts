@@ -18,7 +18,8 @@ import { availableParallelism } from "node:os";
 import Tinypool from "tinypool";
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import type { BuildingResults } from "./analyseBuilding.ts";
+import type { BugPolicy } from "../core/errors.ts";
+import type { BuildingResults } from "../report/index.ts";
 import { analyseTask, buildingTask, hydrateResults, type BuildingTask, type PlainResults } from "./buildingTask.ts";
 import { cacheKey, keyTariffs, pruneCache, readCached, writeCached, type AnalysisCache } from "./analysisCache.ts";
 
@@ -29,6 +30,10 @@ export interface AnalyseOptions {
   onDone?: (done: number, total: number, buildingId: string) => void;
   /** Reuse and store each building's results here (analysisCache.ts); none by default. */
   cache?: AnalysisCache;
+  /** A bug in a building's analysis: fail the build (default) or make it the building's failure and report it. */
+  onBug?: BugPolicy;
+  /** Called with the bug report line of a building whose analysis hit a bug (onBug `report`). */
+  onBugReport?: (buildingId: string, line: string) => void;
 }
 
 /** The default `--jobs`: the cores Node may use. */
@@ -66,13 +71,15 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
     const run = async (): Promise<void> => {
       while (next < buildings.length) {
         const i = next++;
-        const task = buildingTask(portfolio, buildings[i]!, masks);
+        const task = buildingTask(portfolio, buildings[i]!, masks, options.onBug ?? "fail");
         const key = cache ? cacheKey(cache, task) : null;
         let plain = cache && key ? await readCached(cache, key) : null;
         if (!plain) {
           plain = await analyse(task);
-          if (cache && key) await writeCached(cache, key, plain);
+          // A bug's outcome is not kept: the next build (or a fixed ohmbook) tries again.
+          if (cache && key && plain.bugReport === undefined) await writeCached(cache, key, plain);
         }
+        if (plain.bugReport !== undefined) options.onBugReport?.(buildings[i]!.buildingId, plain.bugReport);
         results[i] = hydrateResults(plain);
         options.onDone?.(++done, buildings.length, buildings[i]!.buildingId);
       }

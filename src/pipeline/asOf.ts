@@ -5,7 +5,9 @@
  */
 import type { InputIssue } from "../core/issues.ts";
 import type { Bill, IntervalSeries, Portfolio, WeatherSeries } from "../domain/types.ts";
-import { addDays, localMidnightMs, lowerBound } from "../core/time.ts";
+import { addDays, localMidnightMs } from "../core/time/index.ts";
+import { lowerBound } from "../core/sorted.ts";
+import { expectedProblem } from "../core/errors.ts";
 
 /** The widest zone offset from UTC (hours): weather after as_of is cut at as_of + 1 day + this, so no zone loses a reading of its own as_of day. */
 const MAX_ZONE_OFFSET_HOURS = 14;
@@ -47,7 +49,8 @@ export function cutAtAsOf<T>(portfolio: Portfolio<T>): { portfolio: Portfolio<T>
     let cut = s.startMs.length;
     try {
       if (zone) cut = lowerBound(s.startMs, localMidnightMs(end, zone));
-    } catch {
+    } catch (error) {
+      expectedProblem(error);
       cut = s.startMs.length; // an unusable zone is reported by ingest
     }
     if (cut === s.startMs.length) {

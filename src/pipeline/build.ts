@@ -4,32 +4,31 @@
  * Computation stages are pure; this module only sequences them, isolates failures per building,
  * and hands the results to the site writer (the only stage that writes files).
  */
-import { InputError } from "../core/errors.ts";
+import { InputError, bugReportLine, type BugPolicy } from "../core/errors.ts";
+import type { Portfolio } from "../domain/types.ts";
+import { resolve, sep } from "node:path";
 import type { InputIssue } from "../core/issues.ts";
 import { loadPortfolio } from "../ingest/index.ts";
-import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import type { BuildingResults } from "./analyseBuilding.ts";
-import { analyseBuildings } from "./analysisPool.ts";
-import type { Finding } from "../audit/types.ts";
-import type { Reporter } from "../cli/progress.ts";
-import { silentReporter } from "../cli/progress.ts";
-import type { PricedBill } from "./priceBills.ts";
-import { assessIntervalMeters } from "./dataQuality.ts";
+import type { Finding } from "../audit/index.ts";
+import { silentReporter, type Reporter } from "./reporter.ts";
+import type { PricedBill } from "../tariff/index.ts";
+import { assessIntervalMeters } from "../clean/index.ts";
 import { buildDisputes, type Dispute } from "../disputes/index.ts";
-import { billCheckState } from "../report/input.ts";
+import { billCheckState } from "../tariff/index.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
-import { meteredViewsByBill } from "./meteredViews.ts";
-import { toReportInput } from "./reportInput.ts";
-import { buildDataFiles } from "./outputs.ts";
+import { meteredViewsByBill } from "../audit/index.ts";
+import { toReportInput, type BuildingResults } from "../report/index.ts";
+import { buildDataFiles } from "../report/index.ts";
 import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
-import { effectiveAsOf } from "./usageSummary.ts";
+import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
-import { roundCents } from "../tariff/rounding.ts";
-import { checkOutputFolder, SiteWriteError, writeSite } from "../site/writeSite.ts";
+import { checkOutputFolder, SiteWriteError, writeSite } from "../site/index.ts";
+import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
+import { analyseBuildings } from "./analysisPool.ts";
 import { defaultCacheDir, openAnalysisCache } from "./analysisCache.ts";
-import { resolve, sep } from "node:path";
+import { moneyText, roundCents } from "../core/money.ts";
 
 export interface BuildOptions {
   dir: string;
@@ -45,6 +44,12 @@ export interface BuildOptions {
    * day; the clock only for a portfolio with no bills at all.
    */
   buildDate?: string;
+  /**
+   * A bug (any error that is not an OhmbookError) inside one building or the forecast: `fail`
+   * stops the build (default; tests and --strict), `report` prints a bug report line, marks that
+   * building as failed, and finishes the other pages (the CLI without --strict).
+   */
+  onBug?: BugPolicy;
   /** Worker threads analysing buildings (1: in this thread). Default: os.availableParallelism(). */
   jobs?: number;
   /**
@@ -83,7 +88,8 @@ export interface BuildSummary {
   buildingsFromCache: number;
 }
 
-export { analyseBuilding, type BuildingResults, type HourlyModelOutcome } from "./analyseBuilding.ts";
+
+export { analyseBuilding } from "./analyseBuilding.ts";
 
 const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
 
@@ -116,11 +122,13 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
-  reporter.step(0, portfolio.buildings.length, "");
   const cache = options.cacheDir !== undefined ? await openAnalysisCache(options.cacheDir) : undefined;
+  reporter.step(0, portfolio.buildings.length, "");
   const results = await analyseBuildings(portfolio, masks, {
     jobs: options.jobs,
     cache,
+    onBug: (options.onBug ?? "fail") === "fail" || options.strict ? "fail" : "report",
+    onBugReport: (buildingId, line) => reporter.warn(line),
     onDone: (done, total, buildingId) => reporter.step(done, total, buildingId),
   });
   reporter.finish();
@@ -145,7 +153,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
-  const forecast = runForecast(portfolio, results, issues, findings);
+  const forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"));
 
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
@@ -185,7 +193,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
  * across buildings). A failure here costs the forecast, never the rest of the site: it becomes a
  * warning and the pages say no forecast was made.
  */
-function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[]): ForecastBundle | null {
+function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow): ForecastBundle | null {
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
@@ -197,11 +205,19 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
       line: 0,
       column: 0,
       severity: "warning",
-      message: `no cost forecast was made: ${error instanceof Error ? error.message : String(error)}`,
+      message: `no cost forecast was made: ${problemOrBug(error, onBug)}`,
       hint: "the rest of the site is complete; please report this with the portfolio folder",
     });
     return null;
   }
+}
+
+function bugHandler(options: BuildOptions, reporter: Reporter, where: string): BugHandler {
+  if ((options.onBug ?? "fail") === "fail" || options.strict) return rethrow;
+  return (error) => {
+    reporter.warn(bugReportLine(where, error));
+    return `internal error (a bug in ohmbook, reported on the terminal): ${error instanceof Error ? error.message : String(error)}`;
+  };
 }
 
 /** The cache must never be published nor written into the user's portfolio folder. */
@@ -228,7 +244,7 @@ function portfolioDisputes(portfolio: Portfolio<Tariff>, findings: Finding[], pr
 }
 
 function summaryText(s: BuildSummary, currency: string): string {
-  const fmt = new Intl.NumberFormat("en-US", { style: "currency", currency });
+  const fmt = { format: (amount: number) => moneyText(amount, currency) };
   const notPriced = s.bills - s.billsPriced;
   const lines = [
     `Built ${s.buildings} building page(s) into ${s.outDir}`,
@@ -239,6 +255,6 @@ function summaryText(s: BuildSummary, currency: string): string {
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
   if (s.buildingsFromCache > 0) lines.push(`  ${s.buildingsFromCache} of ${s.buildings} building(s) unchanged since the last build: their analysis came from the cache`);
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
-  lines.push(`View it: serve the folder over HTTP (e.g. npx vite preview --outDir ${s.outDir}) and open the address shown.`);
+  lines.push(`View it: open ${s.outDir}/index.html in a browser, or run 'ohmbook serve' on the portfolio folder to serve it and rebuild on every change.`);
   return lines.join("\n");
 }

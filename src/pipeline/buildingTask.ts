@@ -5,13 +5,16 @@
  */
 import type { Building, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { fitChangePointAt } from "../model/changePoint.ts";
-import { analyseBuilding, type BuildingResults } from "./analyseBuilding.ts";
-import { SHORT_HISTORY_WEEKS } from "./intervalBaselines.ts";
+import { bugReportLine, type BugPolicy } from "../core/errors.ts";
+import { fitChangePointAt, SHORT_HISTORY_WEEKS } from "../model/index.ts";
+import type { BuildingResults } from "../report/index.ts";
+import { analyseBuilding, rethrow, type BugHandler } from "./analyseBuilding.ts";
 
 /** One building's work, as sent to a worker: plain, structured-clonable data. */
 export interface BuildingTask {
   buildingId: string;
+  /** What a bug (not an expected problem) in the analysis does: fail the build, or become the building's failure, reported. */
+  onBug: BugPolicy;
   portfolio: Portfolio<Tariff>;
   masks: Map<string, Uint8Array>;
 }
@@ -19,7 +22,7 @@ export interface BuildingTask {
 const WEEK_MS = 7 * 24 * 3_600_000;
 
 /** The part of `portfolio` that analysing `building` reads (see the module comment). */
-export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array>): BuildingTask {
+export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array>, onBug: BugPolicy = "fail"): BuildingTask {
   const own = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
   const short = own.some((m) => {
     const s = m.commodity === "electricity" ? portfolio.intervals.get(m.meterId) : undefined;
@@ -44,6 +47,7 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
   const pick = <V>(map: ReadonlyMap<string, V>, keep: (k: string) => boolean) => new Map([...map].filter(([k]) => keep(k)));
   return {
     buildingId: building.buildingId,
+    onBug,
     portfolio: {
       ...portfolio,
       // Not read by the analysis; left out so the task (and its cache key) is the building's own.
@@ -63,8 +67,8 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
   };
 }
 
-/** Results as plain data (what a worker returns). */
-export type PlainResults = BuildingResults;
+/** Results as plain data (what a worker returns), with the line reporting a bug when there was one. */
+export type PlainResults = BuildingResults & { bugReport?: string };
 
 /**
  * A deep copy of `value` without functions, keeping Map, Set, typed arrays and Date.
@@ -99,7 +103,17 @@ function copy(value: unknown, path: string): unknown {
 export function analyseTask(task: BuildingTask): PlainResults {
   const building = task.portfolio.buildings.find((b) => b.buildingId === task.buildingId);
   if (!building) throw new Error(`building ${task.buildingId} is not in its own task`);
-  return plainResults(analyseBuilding(task.portfolio, building, task.masks));
+  let bugReport: string | undefined;
+  const onBug: BugHandler =
+    task.onBug === "fail"
+      ? rethrow
+      : (error) => {
+          bugReport = bugReportLine(`analysing building ${task.buildingId}`, error);
+          return `internal error (a bug in ohmbook, reported on the terminal): ${error instanceof Error ? error.message : String(error)}`;
+        };
+  const plain: PlainResults = plainResults(analyseBuilding(task.portfolio, building, task.masks, onBug));
+  if (bugReport !== undefined) plain.bugReport = bugReport;
+  return plain;
 }
 
 /** `results` with functions dropped and hourly models reduced to their summaries. */
@@ -117,9 +131,10 @@ export function plainResults(results: BuildingResults): PlainResults {
  * The degree-day fits stay data (nothing after the analysis calls them).
  */
 export function hydrateResults(plain: PlainResults): BuildingResults {
+  const { bugReport: _bugReport, ...results } = plain;
   return {
-    ...plain,
-    baselines: plain.baselines.map((b) => (b.fit ? { ...b, fit: fitChangePointAt(b.points, b.fit.kind, b.fit.breakpoints, { weightByDays: true }) } : b)),
+    ...results,
+    baselines: results.baselines.map((b) => (b.fit ? { ...b, fit: fitChangePointAt(b.points, b.fit.kind, b.fit.breakpoints, { weightByDays: true }) } : b)),
   };
 }
 

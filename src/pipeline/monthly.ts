@@ -1,6 +1,6 @@
 /** Interval data summed by local calendar month for every interval meter (multiplier applied). */
 import type { Portfolio } from "../domain/types.ts";
-import { monthlyTotals, type MonthTotal } from "../ingest/monthlyTotals.ts";
+import { monthlyTotals, type MonthTotal } from "../ingest/index.ts";
 
 export function monthlyMeteredByMeter(portfolio: Portfolio): Map<string, MonthTotal[]> {
   const zoneOf = new Map(portfolio.buildings.map((b) => [b.buildingId, b.timezone]));

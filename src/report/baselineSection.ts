@@ -2,9 +2,11 @@
 import type { Bill, Meter } from "../domain/types.ts";
 import type { ReportBaseline, ReportFitStats } from "./input.ts";
 import type { BaselineScatterChartModel, BaselineSection, BaselineTimeChartModel, TableModel } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity, dayNumberToIsoDate, isoDateToDayNumber } from "./format.ts";
-import { periodDays } from "./periods.ts";
+import { NOT_AVAILABLE, formatNumber, formatPeriod, formatQuantity } from "./format.ts";
+import { dayNumberToIsoDate, isoDateToDayNumber } from "../core/time/index.ts";
 import { checkTitle, commodityLabel } from "./labels.ts";
+import { daysBetween } from "../core/time/index.ts";
+import { GUIDELINE14_LIMITS, meetsGuideline14 } from "../model/index.ts";
 
 /**
  * Why a bill was left out of the fit, in plain words: a check code the model stage names
@@ -15,9 +17,9 @@ export function exclusionText(reason: string): string {
   return reason.replace(/^audit finding: ([a-z-]+)$/u, (_m, code: string) => `audit finding: ${checkTitle(code).toLowerCase()}`);
 }
 
-/** ASHRAE Guideline 14 calibration limits for monthly data, percent. */
-export const G14_MONTHLY_CVRMSE_PCT = 15;
-export const G14_MONTHLY_NMBE_PCT = 5;
+/** ASHRAE Guideline 14 calibration limits for monthly data, percent (defined in src/model/stats.ts). */
+const G14_MONTHLY_CVRMSE_PCT = GUIDELINE14_LIMITS.monthly.cvRmsePct;
+const G14_MONTHLY_NMBE_PCT = GUIDELINE14_LIMITS.monthly.nmbeAbsPct;
 
 /**
  * Whether fit statistics meet Guideline 14 for monthly data: CV(RMSE) ≤ 15 % and |NMBE| ≤ 5 %
@@ -25,7 +27,7 @@ export const G14_MONTHLY_NMBE_PCT = 5;
  * @example meetsMonthlyGuideline14({ cvRmsePct: 15, nmbePct: -5, r2: 0.9, n: 12, p: 3 }) // true
  */
 export function meetsMonthlyGuideline14(stats: Pick<ReportFitStats, "cvRmsePct" | "nmbePct">): boolean {
-  return stats.cvRmsePct <= G14_MONTHLY_CVRMSE_PCT && Math.abs(stats.nmbePct) <= G14_MONTHLY_NMBE_PCT;
+  return meetsGuideline14(stats, "monthly");
 }
 
 const KIND_NAMES: Record<string, string> = {
@@ -39,7 +41,7 @@ const KIND_NAMES: Record<string, string> = {
 };
 
 /** @example modelKindLabel("3PH") // "three-parameter heating (3PH)" */
-export function modelKindLabel(kind: string): string {
+function modelKindLabel(kind: string): string {
   return KIND_NAMES[kind] ?? kind;
 }
 
@@ -58,12 +60,12 @@ export function verdictFor(stats: ReportFitStats | null): { tone: "ok" | "warn" 
   const cv = `CV(RMSE) ${pct(stats.cvRmsePct)}`;
   const nmbe = `NMBE ${pct(stats.nmbePct, 2)}`;
   if (meetsMonthlyGuideline14(stats)) {
-    return { tone: "ok", text: `Meets ASHRAE Guideline 14 for monthly data: ${cv} (limit ${G14_MONTHLY_CVRMSE_PCT} %) and ${nmbe} (limit ±${G14_MONTHLY_NMBE_PCT} %). Weather-normalized figures for this meter can be relied on.` };
+    return { tone: "ok", text: `Close fit: ${cv} and ${nmbe} are inside the monthly limits of ASHRAE Guideline 14 (${G14_MONTHLY_CVRMSE_PCT} % and ±${G14_MONTHLY_NMBE_PCT} %), so this meter's weather-normalized figures are fit for comparing one year with another.` };
   }
   const misses: string[] = [];
   if (stats.cvRmsePct > G14_MONTHLY_CVRMSE_PCT) misses.push(`${cv} is above ${G14_MONTHLY_CVRMSE_PCT} %`);
   if (Math.abs(stats.nmbePct) > G14_MONTHLY_NMBE_PCT) misses.push(`${nmbe} is outside ±${G14_MONTHLY_NMBE_PCT} %`);
-  return { tone: "warn", text: `Does not meet ASHRAE Guideline 14 for monthly data: ${misses.join(" and ")}. Treat weather-normalized figures for this meter as rough.` };
+  return { tone: "warn", text: `Loose fit: ${misses.join(" and ")}, outside the monthly limits of ASHRAE Guideline 14. Treat this meter's weather-normalized figures as rough.` };
 }
 
 function statsTable(b: ReportBaseline, stats: ReportFitStats): TableModel {
@@ -161,7 +163,7 @@ function timeChart(b: ReportBaseline, meterBills: Bill[], idBase: string): Basel
   const expected = new Map(b.perBill.map((e) => [e.billId, e]));
   const rows = meterBills
     .map((bill) => {
-      const days = periodDays(bill.periodStart, bill.periodEnd);
+      const days = daysBetween(bill.periodStart, bill.periodEnd);
       const e = expected.get(bill.billId);
       if (days <= 0 || !e) return null;
       const mid = dayNumberToIsoDate(Math.floor((isoDateToDayNumber(bill.periodStart) + isoDateToDayNumber(bill.periodEnd)) / 2));

@@ -5,9 +5,10 @@
  * shown only for a recomputation that is exact: an estimate is never presented as a difference.
  */
 import type { Bill, BillLine, Meter } from "../domain/types.ts";
-import type { ComputedBill, ComputedLine } from "../tariff/types.ts";
-import type { Dispute } from "../disputes/types.ts";
-import { billCheckState, type BillCheckState, type PricedBill, type ReportInput } from "./input.ts";
+import type { ComputedBill, ComputedLine } from "../tariff/index.ts";
+import type { Dispute } from "../disputes/index.ts";
+import type { ReportInput } from "./input.ts";
+import { billCheckState, type BillCheckState, type PricedBill } from "../tariff/index.ts";
 import type { LabelValue, TableCell, TableColumn, TableModel } from "./siteModel.ts";
 import type { BasisMath, BillClaim, BillDetail, MathLine } from "./billPageModels.ts";
 import {
@@ -22,10 +23,10 @@ import {
   formatQuantity,
   formatRate,
 } from "./format.ts";
-import { periodDays } from "./periods.ts";
 import { lineStatusLabel } from "./labels.ts";
 import { billAnchor, claimPath, meterBillsPath } from "./nav.ts";
-import { groupLines } from "../audit/checks/labels.ts";
+import { groupLines } from "../audit/index.ts";
+import { daysBetween } from "../core/time/index.ts";
 
 /** Billed minus a recomputed total, rounded to cents; null when there is no recomputation. */
 export function billDifference(bill: Bill, recomputed: ComputedBill | null | undefined): number | null {
@@ -152,7 +153,7 @@ export function billsTable(meters: readonly Meter[], bills: readonly Bill[], inp
     const state = billCheckState(priced);
     const computed = priced?.computed ?? null;
     const metered = meteredOf(priced);
-    const days = periodDays(b.periodStart, b.periodEnd);
+    const days = daysBetween(b.periodStart, b.periodEnd);
     const href = `${meterBillsPath(meter?.buildingId ?? "", b.meterId)}#${billAnchor(b.billId)}`;
     const cells: TableCell[] = [{ text: b.billId, href, sort: b.periodStart, note: options.withMeter ? `meter ${b.meterId}` : undefined }];
     cells.push(
@@ -230,7 +231,7 @@ function mathLine(l: ComputedLine, currency: string): MathLine {
 function recomputationFacts(bill: Bill, meter: Meter, c: ComputedBill): LabelValue[] {
   const facts: LabelValue[] = [
     { label: "Tariff", value: meter.tariffId },
-    { label: "Billing days", value: formatNumber(periodDays(bill.periodStart, bill.periodEnd)) },
+    { label: "Billing days", value: formatNumber(daysBetween(bill.periodStart, bill.periodEnd)) },
   ];
   if (c.billingDemandKw != null) facts.push({ label: "Billing demand", value: formatQuantity(c.billingDemandKw, "kW") });
   if (c.versions.length > 0) {
@@ -351,7 +352,7 @@ export function billDetail(
     period: formatPeriod(bill.periodStart, bill.periodEnd),
     stateText: checkStateText(state, priced),
     facts: [
-      { label: "Days", value: formatNumber(periodDays(bill.periodStart, bill.periodEnd)) },
+      { label: "Days", value: formatNumber(daysBetween(bill.periodStart, bill.periodEnd)) },
       { label: "Statement date", value: formatDate(bill.statementDate) },
       { label: "Read", value: bill.readType },
       { label: "Usage billed", value: formatQuantity(bill.usage, meter.unit) },

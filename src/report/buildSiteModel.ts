@@ -7,14 +7,14 @@ import { buildIndexPage } from "./indexPage.ts";
 import { buildMethodsPage } from "./methodsPage.ts";
 import { buildDataPage } from "./dataPage.ts";
 import { last12MonthsText } from "./periods.ts";
-import { effectiveAsOf } from "../pipeline/usageSummary.ts";
-import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../tariff/units.ts";
+import { effectiveAsOf } from "./usageSummary.ts";
 import { formatDate } from "./format.ts";
 import { canonicalFor } from "./nav.ts";
 import { buildTenantPage } from "./tenantPage.ts";
 import { buildDisputesPage } from "./disputesPage.ts";
 import { buildClaimSheets } from "./claimSheet.ts";
 import { billLinesByBill, buildMeterBillsPage, meterAnalysis } from "./meterBillsPage.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
@@ -109,7 +109,7 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
         meterBills: slice.flatMap((ctx, i) => ctx.meters.map((m) => withCanonical(buildMeterBillsPage(input, ctx, m, analyses[i], linesByBill)))),
         tenants: slice
           .filter((ctx) => ctx.building.tenantPage)
-          .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines))),
+          .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines, settings.contacts?.[ctx.building.buildingId] ?? null))),
       };
     },
   };

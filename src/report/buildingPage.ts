@@ -4,11 +4,12 @@
  * baseline and data-quality verdicts (detail on the meter pages), forecast.
  */
 import type { Bill, Building, Meter } from "../domain/types.ts";
-import { billCheckState, type BillCheckState, type ReportInput } from "./input.ts";
+import type { ReportInput } from "./input.ts";
+import { billCheckState, type BillCheckState } from "../tariff/index.ts";
 import type { BuildingPage, CommoditySection, LabelValue, MeterSection, TableCell, TableModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber, formatPeriod, formatQuantity } from "./format.ts";
 import { DISPUTES_PATH, buildingPath, meterBillsPath, navFor } from "./nav.ts";
-import { buildingUsageLast12m, metersCostLast12m, type CommodityUsage } from "../pipeline/usageSummary.ts";
+import { buildingUsageLast12m, metersCostLast12m, type CommodityUsage } from "./usageSummary.ts";
 import { commodityLabel } from "./labels.ts";
 import { billsTable, claimsByBill } from "./billTables.ts";
 import { commodityCharts } from "./usageCharts.ts";
@@ -35,7 +36,7 @@ export interface BuildingContext {
 
 /**
  * Billed cost of a building's meters over the last 12 months (each meter's own window, see
- * src/pipeline/usageSummary.ts), in currency; null without an as-of date or bills.
+ * src/report/usageSummary.ts), in currency; null without an as-of date or bills.
  */
 export function last12mCost(ctx: Pick<BuildingContext, "meters" | "billsByMeter" | "asOf">): number | null {
   return ctx.asOf === null ? null : metersCostLast12m(ctx.meters, ctx.billsByMeter, ctx.asOf);

@@ -5,7 +5,7 @@
  * message to the utility. A back-billing risk gets the same sheet worded as a budget note.
  */
 import type { Building, Portfolio } from "../domain/types.ts";
-import type { Dispute, DisputeBill, DisputeLine } from "../disputes/types.ts";
+import type { Dispute, DisputeBill, DisputeLine } from "../disputes/index.ts";
 import type { ClaimBill, ClaimSheet, FootedTable } from "./disputeModels.ts";
 import type { LabelValue, TableCell, TableModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatDate, formatMoney, formatMoneySigned, formatNumber, formatPercent, formatPeriod, formatRate } from "./format.ts";

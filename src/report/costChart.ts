@@ -2,9 +2,10 @@
 import type { Bill, Meter } from "../domain/types.ts";
 import type { ChartDatum, MonthlyChartModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatMonth } from "./format.ts";
-import { spreadOverMonths } from "./periods.ts";
 import { commodityLabel } from "./labels.ts";
 import { partialMonthsNote } from "./coverage.ts";
+import { spreadOverMonths } from "../core/time/index.ts";
+import { roundCents } from "../core/money.ts";
 
 /**
  * Monthly billed cost by commodity over all bills, each bill spread over calendar months by
@@ -30,7 +31,7 @@ export function monthlyCostChart(bills: readonly Bill[], meters: readonly Meter[
   for (const month of months) {
     for (const s of series) {
       const v = sums.get(month)!.get(s);
-      if (v !== undefined) data.push({ month, series: s, value: Math.round(v * 100) / 100 });
+      if (v !== undefined) data.push({ month, series: s, value: roundCents(v) });
     }
   }
   return {

@@ -6,7 +6,7 @@
  * Every money figure is one of the Dispute's own numbers (src/disputes/types.ts) formatted, or
  * a cent-exact sum of them: the report never recomputes a claim.
  */
-import type { DisputeKind } from "../disputes/types.ts";
+import type { DisputeKind } from "../disputes/index.ts";
 import type { DataFileRow, LabelValue, PageBase, TableCell, TableModel } from "./siteModel.ts";
 
 /** One dispute as a row of a dispute table (the same columns on the index and the dispute list). */

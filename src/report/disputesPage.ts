@@ -5,7 +5,7 @@
  * utility. Money comes from the Dispute objects as they are; totals are cent-exact sums.
  */
 import type { Building } from "../domain/types.ts";
-import type { Dispute, DisputeBasis, DisputeKind } from "../disputes/types.ts";
+import type { Dispute, DisputeBasis, DisputeKind } from "../disputes/index.ts";
 import type { ReportInput } from "./input.ts";
 import type { DisputeRow, DisputesPage, DisputeTable, DisputeTotal, IndexDisputes } from "./disputeModels.ts";
 import type { LabelValue } from "./siteModel.ts";
@@ -78,7 +78,7 @@ export function shownAmount(d: Dispute): number {
 }
 
 /** Disputes of one kind, largest amount first (ties by id, so the order is stable). */
-export function disputesOfKind(disputes: readonly Dispute[] | undefined, kind: DisputeKind): Dispute[] {
+function disputesOfKind(disputes: readonly Dispute[] | undefined, kind: DisputeKind): Dispute[] {
   return (disputes ?? [])
     .filter((d) => d.kind === kind)
     .sort((a, b) => shownAmount(b) - shownAmount(a) || (a.disputeId < b.disputeId ? -1 : a.disputeId > b.disputeId ? 1 : 0));
@@ -90,7 +90,7 @@ export function billsText(billIds: readonly string[]): string {
 }
 
 /** One dispute as a table row; `buildings` resolves names (the id stands in for an unknown building). */
-export function disputeRow(d: Dispute, buildings: ReadonlyMap<string, Building>, currency: string): DisputeRow {
+function disputeRow(d: Dispute, buildings: ReadonlyMap<string, Building>, currency: string): DisputeRow {
   const name = buildings.get(d.buildingId)?.name ?? d.buildingId;
   const amount = shownAmount(d);
   const bills = billsText(d.billIds);

@@ -2,15 +2,7 @@
  * Energy units for intensity figures: site energy in kWh from billed use, energy use intensity
  * (EUI) per floor area, and the kWh/m² → kBtu/ft² conversion. Pure.
  */
-
-/** kBtu in one kWh: 1 kWh = 3.6 MJ, 1 Btu (International Table) = 1,055.05585262 J (NIST SP 811). */
-export const KBTU_PER_KWH = 3.412142;
-/** ft² in one m²: international foot = 0.3048 m exactly, so 1 m² = 1 / 0.3048² ft² ≈ 10.7639. */
-export const FT2_PER_M2 = 10.7639;
-/** kWh in one therm: 1 therm = 100,000 Btu (U.S. EIA) = 105.505585262 MJ / 3.6. */
-export const KWH_PER_THERM = 29.3071;
-/** Therms in one ccf of natural gas: U.S. EIA average heat content, about 1,037 Btu per ft³. */
-export const THERM_PER_CCF = 1.037;
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF, FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../core/units.ts";
 
 /**
  * Site energy in kWh of a billed quantity, or null when the commodity/unit is not energy we
@@ -26,7 +18,7 @@ export function siteKwh(commodity: string, unit: string, quantity: number): numb
   }
   if (commodity === "gas") {
     if (u === "therm" || u === "therms") return quantity * KWH_PER_THERM;
-    if (u === "ccf") return quantity * THERM_PER_CCF * KWH_PER_THERM;
+    if (u === "ccf") return quantity * DEFAULT_HEAT_CONTENT_THERM_PER_CCF * KWH_PER_THERM;
     if (u === "kwh") return quantity;
     return null;
   }

@@ -9,6 +9,7 @@ import type { ForecastChartModel, ForecastSection, TableModel } from "./siteMode
 import { NOT_AVAILABLE, formatMoney, formatMoneySigned, formatMonth, formatNumber } from "./format.ts";
 import { forecastTable } from "./analysisTables.ts";
 import { commodityLabel } from "./labels.ts";
+import { roundCents } from "../core/money.ts";
 
 /** Signed percent with one decimal and a true minus sign, e.g. "+1.2 %", "−17.7 %". */
 export function signedPct(v: number): string {
@@ -58,7 +59,7 @@ function pct(v: number | null, digits = 1): string {
  * its out-of-sample coverage. Null when the forecast stage did not run.
  * @example methodOf(input, meters)?.sentences[0] // "Typical weather: the mean of the most recent 10 years …"
  */
-export function methodOf(input: ReportInput, meters: Meter[]): { sentences: string[]; tables: TableModel[] } | null {
+function methodOf(input: ReportInput, meters: Meter[]): { sentences: string[]; tables: TableModel[] } | null {
   const m = input.forecastMethod;
   if (!m) return null;
   const ids = new Set(meters.map((x) => x.meterId));
@@ -159,7 +160,7 @@ export function trackRecordVerdict(record: { model: ReportAccuracy | null; naive
 }
 
 /** Chart model of the building's monthly forecast; null without monthly bands. */
-export function forecastChart(buildingId: string, f: ReportBuildingForecast, currency: string): ForecastChartModel | null {
+function forecastChart(buildingId: string, f: ReportBuildingForecast, currency: string): ForecastChartModel | null {
   if (f.monthly.length === 0) return null;
   const first = f.monthly[0]!.month;
   const last = f.monthly[f.monthly.length - 1]!.month;
@@ -250,13 +251,13 @@ export function driverSentences(d: ReportForecastDrivers, currency: string): str
   const out = [
     `Over the same ${formatNumber(n)} calendar ${n === 1 ? "month" : "months"} (${formatMonth(d.months[0]!)} to ${formatMonth(d.months[n - 1]!)} last year), next year's likely cost is ${formatMoney(d.forecastCost, currency)} against ${formatMoney(billed, currency)} billed: ${changeText(d.change, billed, currency)}.`,
   ];
-  const e = Math.round((d.billingErrors ?? 0) * 100) / 100;
+  const e = roundCents(d.billingErrors ?? 0);
   if (e !== 0) {
     out.push(
       `Billing errors corrected: ${formatMoneySigned(e, currency)}. Last year's bills as they should have been come to ${formatMoney(d.lastYearCost, currency)} (the audit's corrected amounts); ${e < 0 ? "the overcharge will not recur" : "the undercharge will not recur"}. The drivers below start from the corrected bills.`,
     );
   }
-  const w = Math.round(d.weather * 100) / 100;
+  const w = roundCents(d.weather);
   out.push(
     w === 0
       ? "Weather: no effect (last year's weather was close to typical, or no meter has a weather model)."
@@ -264,13 +265,13 @@ export function driverSentences(d: ReportForecastDrivers, currency: string): str
         ? `Weather: ${formatMoneySigned(w, currency)}. Last year's weather was kinder than a typical year, so a typical year costs more.`
         : `Weather: ${formatMoneySigned(w, currency)}. Last year's weather was harsher than a typical year, so a typical year costs less.`,
   );
-  const r = Math.round(d.rates * 100) / 100;
+  const r = roundCents(d.rates);
   out.push(
     r === 0
       ? "Rates: no effect (the same prices apply next year)."
       : `Rates: ${formatMoneySigned(r, currency)}. Last year's use priced at next year's tariffs and escalation ${r > 0 ? "costs more" : "costs less"} than it did at last year's.`,
   );
-  const u = Math.round(d.usageTrend * 100) / 100;
+  const u = roundCents(d.usageTrend);
   out.push(
     `Usage trend: ${formatMoneySigned(u, currency)}. The rest of the change: use expected to differ from last year's beyond the weather (and effects such as demand charges); billing errors are not part of it.`,
   );

@@ -3,12 +3,14 @@
  * reproducible on any machine. Non-finite numbers never reach a page as "NaN": they
  * become the placeholder `NOT_AVAILABLE`.
  */
+import { addDays, formatDate as formatCalendarDate, formatMonth } from "../core/time/index.ts";
+import { roundCents } from "../core/money.ts";
 
 /** Shown wherever a value is absent or not a finite number. */
 export const NOT_AVAILABLE = "—";
 
 /** Locale of every page: fixed so output does not depend on the build machine. */
-export const LOCALE = "en-US";
+const LOCALE = "en-US";
 
 // Building an Intl.NumberFormat costs far more than using one; pages format thousands of values.
 const formatterCache = new Map<string, Intl.NumberFormat>();
@@ -50,8 +52,9 @@ function money(amount: number, currency: string, digits: number): string {
  */
 export function formatMoney(amount: number | null | undefined, currency: string): string {
   if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
-  // -0 would print as "-$0.00"
-  return money(amount === 0 ? 0 : amount, currency, 2);
+  // Rounded by the one money rule first (Intl would round 1.005 down); -0 would print as "-$0.00".
+  const rounded = roundCents(amount);
+  return money(rounded === 0 ? 0 : rounded, currency, 2);
 }
 
 /**
@@ -60,7 +63,7 @@ export function formatMoney(amount: number | null | undefined, currency: string)
  */
 export function formatMoneySigned(amount: number | null | undefined, currency: string): string {
   if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
-  const rounded = Math.round(amount * 100) / 100;
+  const rounded = roundCents(amount);
   if (rounded === 0) return formatMoney(0, currency);
   return (rounded > 0 ? "+" : "−") + formatMoney(Math.abs(rounded), currency);
 }
@@ -108,49 +111,22 @@ export function formatPercent(fraction: number | null | undefined, digits = 1): 
   return cachedFormatter({ style: "percent", maximumFractionDigits: digits }).format(fraction);
 }
 
-const dateFormatter = new Intl.DateTimeFormat(LOCALE, {
-  day: "numeric",
-  month: "short",
-  year: "numeric",
-  timeZone: "UTC",
-});
-const monthFormatter = new Intl.DateTimeFormat(LOCALE, { month: "short", year: "numeric", timeZone: "UTC" });
-
-/** Days since 1970-01-01 of an ISO calendar date; throws on a malformed date (a pipeline bug). */
-export function isoDateToDayNumber(isoDate: string): number {
-  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(isoDate);
-  if (!m) throw new RangeError(`not an ISO date (YYYY-MM-DD): ${isoDate}`);
-  return Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])) / 86_400_000;
-}
-
-/** ISO calendar date of a day number (inverse of `isoDateToDayNumber`). */
-export function dayNumberToIsoDate(day: number): string {
-  return new Date(day * 86_400_000).toISOString().slice(0, 10);
-}
-
 /**
- * A calendar date as people read it; the date is a calendar day, so no time zone shift.
+ * A calendar date as people read it, or "—" when there is none.
  * @example formatDate("2025-01-31") // "Jan 31, 2025"
  */
 export function formatDate(isoDate: string | null | undefined): string {
-  if (!isoDate) return NOT_AVAILABLE;
-  return dateFormatter.format(new Date(isoDateToDayNumber(isoDate) * 86_400_000));
+  return isoDate ? formatCalendarDate(isoDate) : NOT_AVAILABLE;
 }
 
-/**
- * A calendar month `YYYY-MM` as people read it.
- * @example formatMonth("2025-03") // "Mar 2025"
- */
-export function formatMonth(month: string): string {
-  return monthFormatter.format(new Date(isoDateToDayNumber(`${month}-01`) * 86_400_000));
-}
+export { formatMonth };
 
 /**
  * A half-open service period [start, end) shown with its last day of service, inclusive.
  * @example formatPeriod("2025-01-01", "2025-02-01") // "Jan 1, 2025 – Jan 31, 2025"
  */
 export function formatPeriod(periodStart: string, periodEnd: string): string {
-  const lastDay = dayNumberToIsoDate(isoDateToDayNumber(periodEnd) - 1);
+  const lastDay = addDays(periodEnd, -1);
   return `${formatDate(periodStart)} – ${formatDate(lastDay)}`;
 }
 

@@ -4,3 +4,10 @@ export type * from "./siteModel.ts";
 export { buildSiteModel, siteModelInParts, tenantSiteModel, type SiteModelInParts } from "./buildSiteModel.ts";
 export { describeDataFiles, describeDataFile, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";
 export { jsonForScript } from "./format.ts";
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export { buildDataFiles } from "./dataFiles.ts";
+export { buildingDataFolder } from "./dataPage.ts";
+export { toReportInput } from "./fromAnalysis.ts";
+export type { BuildingResults, HourlyModelOutcome } from "./fromAnalysis.ts";
+export { effectiveAsOf } from "./usageSummary.ts";

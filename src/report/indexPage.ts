@@ -1,15 +1,16 @@
 /** View model of the portfolio index: bills to dispute first, headline figures, the building table. */
-import { billCheckState, type ReportFinding, type ReportInput } from "./input.ts";
-import type { IndexPage, LabelValue, TableCell } from "./siteModel.ts";
+import type { ReportFinding, ReportInput } from "./input.ts";
+import { billCheckState } from "../tariff/index.ts";
+import type { HeadlineFigure, IndexPage, LabelValue, TableCell } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber, formatQuantity } from "./format.ts";
 import { DISPUTES_PATH, buildingPath, navFor } from "./nav.ts";
-import type { CommodityUsage } from "../pipeline/usageSummary.ts";
+import type { CommodityUsage } from "./usageSummary.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { buildingUsage, last12mCost } from "./buildingPage.ts";
 import { monthlyCostChart } from "./costChart.ts";
 import { EUI_BASIS, findingsByCheckTable, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
 import { buildIndexDisputes, sumCents } from "./disputesPage.ts";
-import type { Dispute } from "../disputes/types.ts";
+import type { Dispute } from "../disputes/index.ts";
 import { last12MonthsText } from "./periods.ts";
 import { tenantPath } from "./tenantPage.ts";
 import { forecastChangeTable } from "./forecastIndex.ts";
@@ -23,14 +24,14 @@ function usageCell(usage: readonly CommodityUsage[], commodity: CommodityUsage["
 }
 
 /** Number of audit findings of one building. */
-export function buildingFindingCount(findings: readonly ReportFinding[] | undefined, buildingId: string): number {
+function buildingFindingCount(findings: readonly ReportFinding[] | undefined, buildingId: string): number {
   let count = 0;
   for (const f of findings ?? []) if (f.buildingId === buildingId) count++;
   return count;
 }
 
 /** Total of one building's claims (kind `claim`), cent-exact: its share of the index's "Bills to dispute". */
-export function buildingClaimTotal(disputes: readonly Dispute[] | undefined, buildingId: string): number {
+function buildingClaimTotal(disputes: readonly Dispute[] | undefined, buildingId: string): number {
   return sumCents((disputes ?? []).filter((d) => d.kind === "claim" && d.buildingId === buildingId).map((d) => d.claimAmount));
 }
 
@@ -69,11 +70,12 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
       ...(rejectedMap ? [{ text: formatNumber(rejected), sort: String(rejected), tone: rejected > 0 ? ("warn" as const) : undefined }] : []),
     ];
   });
+  // What was checked: counts only. The money (claims, risks, last year's and next year's cost)
+  // leads the page in its own cards (costFigures, disputes), never in this list.
   const headline: LabelValue[] = [
     { label: "Buildings", value: formatNumber(contexts.length) },
     { label: "Meters", value: formatNumber(input.portfolio.meters.length) },
     { label: "Bills", value: formatNumber(input.portfolio.bills.length) },
-    { label: "Billed cost, last 12 months", value: asOf ? formatMoney(totalCost, currency) : NOT_AVAILABLE },
   ];
   // Bills that were not compared are counted as such, never as differences (issue 11).
   let exact = 0;
@@ -90,14 +92,17 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
   headline.push({ label: "Bills not re-priced", value: formatNumber(notPriced) });
   const rowsRejected = input.portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0);
   headline.push({ label: "Input rows rejected (see Data)", value: formatNumber(rowsRejected) });
-  // The money of the audit is in the dispute block (IndexPage.disputes), not in a tile here.
   if (input.findings) headline.push({ label: "Findings", value: formatNumber(input.findings.length) });
+
+  const costFigures: HeadlineFigure[] = [];
   const horizon = input.portfolio.settings.forecastMonths;
   if (input.portfolioForecast) {
     const f = input.portfolioForecast;
-    headline.push({
+    costFigures.push({
+      id: "forecast-total",
       label: `Forecast cost, next ${formatNumber(horizon)} months`,
-      value: `${formatMoney(f.p50, currency)} (80 % range ${formatMoney(f.p10, currency)} – ${formatMoney(f.p90, currency)})`,
+      value: formatMoney(f.p50, currency),
+      note: `likely (P50); 80 % range ${formatMoney(f.p10, currency)} – ${formatMoney(f.p90, currency)}`,
     });
   } else if (input.forecast && input.forecast.length > 0) {
     let p10 = 0;
@@ -109,20 +114,25 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
       p90 += f.costP90;
     }
     const months = new Set(input.forecast.map((f) => f.month)).size;
-    headline.push({
+    costFigures.push({
+      id: "forecast-total",
       label: `Forecast cost, next ${formatNumber(months)} months`,
+      value: formatMoney(p50, currency),
       // Sums of monthly percentiles: wider than the true range of the total.
-      value: `${formatMoney(p50, currency)} (at most ${formatMoney(p10, currency)} – ${formatMoney(p90, currency)})`,
+      note: `likely (P50); at most ${formatMoney(p10, currency)} – ${formatMoney(p90, currency)}`,
     });
   }
+  costFigures.push({ id: "billed-total", label: "Billed cost, last 12 months", value: asOf ? formatMoney(totalCost, currency) : NOT_AVAILABLE, note: "all buildings, as billed" });
   const change = normalizedChangePct(contexts, input.baselines);
-  if (change != null) {
-    const r = Math.round(change * 10) / 10;
-    headline.push({
-      label: "Weather-normalized energy use vs the year before",
-      value: r === 0 ? "no change" : `${r > 0 ? "+" : "−"}${formatNumber(Math.abs(r), 1)} %`,
-    });
-  }
+  const energyTrend =
+    change == null
+      ? null
+      : (() => {
+          const r = Math.round(Math.abs(change) * 10) / 10;
+          return r === 0
+            ? "Adjusted for the weather of each year, the site energy of the meters with a weather baseline was unchanged from the year before."
+            : `Adjusted for the weather of each year, the site energy of the meters with a weather baseline was ${formatNumber(r, 1)} % ${change > 0 ? "higher" : "lower"} than the year before.`;
+        })();
   const costChart = monthlyCostChart(input.portfolio.bills, input.portfolio.meters, currency);
   return {
     title: settings.name,
@@ -139,6 +149,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     path: "index.html",
     nav: navFor("index", ""),
     headline,
+    costFigures,
+    energyTrend,
     windowText: last12MonthsText(asOf),
     buildings: contexts.map((c) => ({ buildingId: c.building.buildingId, name: c.building.name, href: buildingPath(c.building.buildingId) })),
     buildingsTable: {

@@ -8,8 +8,9 @@
  */
 import type { Portfolio } from "../domain/types.ts";
 import type { InputIssue } from "../core/issues.ts";
-import type { ComputedBill } from "../tariff/types.ts";
-import type { Dispute } from "../disputes/types.ts";
+import type { Dispute } from "../disputes/index.ts";
+import type { PricedBill } from "../tariff/index.ts";
+import type { ModelSummary } from "../model/index.ts";
 
 /**
  * Outcome of re-pricing one bill. A bill has up to two recomputations, each on one basis only
@@ -19,33 +20,6 @@ import type { Dispute } from "../disputes/types.ts";
  *  - `metered`: on the METERED quantities (interval sum × multiplier and the meter's peak), when
  *    interval data covers the period. Checks the quantities.
  */
-export interface PricedBill {
-  computed: ComputedBill | null;
-  /** Plain-words reason when `computed` is null (e.g. "tariff T9 not found"). */
-  error: string | null;
-  /** Re-priced on metered quantities; null/absent when interval data does not cover the period. */
-  metered?: ComputedBill | null;
-  /** Metered usage the `metered` recomputation used (bill unit, multiplier applied). */
-  meteredUsage?: number | null;
-  /** Metered peak demand (kW) over the period, when the meter is electricity with interval data. */
-  meteredDemandKw?: number | null;
-}
-
-/**
- * How far a bill could be checked: `exact` (every line of the billed-basis recomputation is
- * exact, so its total can be compared), `estimated` (time-of-use or period demand split by the
- * building's load shape: shown, never compared), `needs-interval-data` (such a split could not
- * even be estimated), `not-priced` (no usable tariff).
- */
-export type BillCheckState = "exact" | "estimated" | "needs-interval-data" | "not-priced";
-
-/** The check state of a priced bill (see BillCheckState). */
-export function billCheckState(priced: PricedBill | undefined): BillCheckState {
-  const c = priced?.computed;
-  if (!c) return "not-priced";
-  if (c.exact) return "exact";
-  return c.lines.some((l) => l.status === "needs-interval-data") ? "needs-interval-data" : "estimated";
-}
 
 /** One calendar month of interval-meter data for one meter, multiplier applied, in the meter's bill unit. */
 export interface MonthlyMetered {
@@ -75,18 +49,8 @@ export interface ReportFinding {
 }
 
 /** Fit statistics of the model chosen for one meter (ASHRAE Guideline 14 statistics). */
-export interface ReportModelSummary {
-  meterId: string;
-  /** Model kind, e.g. `3PH`, `5P`, `TOWT`. */
-  kind: string;
-  /** CV(RMSE) in percent. */
-  cvRmsePct: number | null;
-  /** NMBE in percent. */
-  nmbePct: number | null;
-  r2: number | null;
-  /** Number of observations the model was fitted on. */
-  n: number;
-}
+/** A fitted model's headline statistics (defined by the model stage). */
+export type ReportModelSummary = ModelSummary;
 
 /** One month of one meter's cost forecast (outputs.md `forecast.csv`), camel-cased. */
 export interface ReportForecastMonth {

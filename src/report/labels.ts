@@ -1,6 +1,6 @@
 /** Plain-language labels for codes that appear on pages. */
 import type { Commodity } from "../domain/types.ts";
-import type { LineStatus } from "../tariff/types.ts";
+import type { LineStatus } from "../tariff/index.ts";
 
 /** @example commodityLabel("gas") // "Gas" */
 export function commodityLabel(c: Commodity | string): string {
@@ -30,24 +30,27 @@ export function lineStatusLabel(s: LineStatus | string): string {
   }
 }
 
-/** Titles for the audit check codes of outputs.md. */
+/**
+ * Our plain name for each audit check code of outputs.md: what the check has seen, said the
+ * way a colleague would say it. The codes stay stable; only these names are for people.
+ */
 const CHECK_TITLES: Record<string, string> = {
-  "total-mismatch": "Bill total differs from the tariff",
-  "line-mismatch": "A printed charge differs from the tariff",
-  "unexplained-line": "A printed charge the tariff does not explain",
-  "usage-vs-meter": "Billed usage differs from the interval meter",
-  "demand-vs-meter": "Billed demand differs from the interval meter",
-  "period-gap": "Gap between billing periods",
-  "period-overlap": "Overlapping billing periods",
-  "duplicate-bill": "Possible duplicate bill",
-  "estimated-read": "Estimated meter read",
-  "usage-outlier": "Usage outside what the weather explains",
-  "multiplier-suspect": "Possible meter multiplier error",
-  "missing-bill": "Missing bill",
-  "rate-suspect": "Bill may be on the wrong rate",
+  "total-mismatch": "Total does not add up under the tariff",
+  "line-mismatch": "A charge priced differently from the tariff",
+  "unexplained-line": "A charge the tariff has no line for",
+  "usage-vs-meter": "Billed use and the meter disagree",
+  "demand-vs-meter": "Billed peak and the meter disagree",
+  "period-gap": "Days that no bill covers",
+  "period-overlap": "Days billed twice by overlapping bills",
+  "duplicate-bill": "The same period billed twice",
+  "estimated-read": "Bill based on an estimate, not a reading",
+  "usage-outlier": "Use the weather does not explain",
+  "multiplier-suspect": "Meter multiplier looks wrong",
+  "missing-bill": "Metered use with no bill",
+  "rate-suspect": "Another rate fits the bill better",
 };
 
-/** @example checkTitle("duplicate-bill") // "Possible duplicate bill" */
+/** @example checkTitle("duplicate-bill") // "The same period billed twice" */
 export function checkTitle(code: string): string {
   return CHECK_TITLES[code] ?? code;
 }

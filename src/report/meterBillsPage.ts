@@ -42,7 +42,7 @@ export function billLinesByBill(lines: readonly BillLine[]): Map<string, BillLin
 }
 
 /** The facts of a meter as both pages show them. */
-export function meterFacts(m: Meter) {
+function meterFacts(m: Meter) {
   return [
     { label: "Commodity", value: commodityLabel(m.commodity) },
     { label: "Bill unit", value: m.unit },

@@ -3,16 +3,16 @@
  * table of audit checks and their sources here, so the page states this portfolio's settings.
  */
 import type { Tolerances } from "../domain/types.ts";
-import type { LabelValue, MethodsPage, TableModel, UnitFactorRow } from "./siteModel.ts";
+import type { CheckGroupModel, LabelValue, MethodsPage, UnitFactorRow } from "./siteModel.ts";
 import { formatMoney, formatNumber } from "./format.ts";
 import { navFor } from "./nav.ts";
 import { checkTitle } from "./labels.ts";
 import { basisKey } from "./disputesPage.ts";
-import { AUDIT_DEFAULTS } from "../audit/tolerances.ts";
-import { COMMON_RATIOS } from "../audit/checks/multiplier-suspect.ts";
+import { AUDIT_DEFAULTS } from "../audit/index.ts";
+import { COMMON_RATIOS } from "../audit/index.ts";
 
 /** Unit factors the pipeline uses, with where each comes from. */
-export const UNIT_FACTORS: readonly UnitFactorRow[] = [
+const UNIT_FACTORS: readonly UnitFactorRow[] = [
   { from: "1 MWh", to: "kWh", factor: "1,000", source: "SI prefix (exact)" },
   { from: "1 kWh", to: "MJ", factor: "3.6", source: "SI definition of the watt-hour (exact)" },
   { from: "1 kWh", to: "Btu", factor: "3,412.14", source: "Btu (International Table) = 1,055.05585262 J, NIST SP 811" },
@@ -126,7 +126,7 @@ export function checkExplanations(t: Tolerances, currency: string): CheckExplana
       rule: `Outside the bill's expected-usage band from the degree-day model (see “The usage band” below). Meters without such a model use an interim rule, labelled as such in each message: use per day against the same bill month a year earlier (or later, in the first year), flagged beyond × ${ratio} or ÷ ${ratio}; × ${formatNumber(AUDIT_DEFAULTS.outlierRatio ** 1.5, 2)} on strongly seasonal meters (90th ÷ 10th percentile of use per day above 1.5).`,
       severity: "warning",
       amount: "none (the use may be real)",
-      source: "band: PRISM (Fels 1986) and PRESS residuals (Allen 1974); interim rule: rule of thumb of this project",
+      source: "band: variable-base degree-day method (Fels 1986) and PRESS residuals (Allen 1974); interim rule: rule of thumb of this project",
     },
     {
       code: "multiplier-suspect",
@@ -155,28 +155,48 @@ export function checkExplanations(t: Tolerances, currency: string): CheckExplana
   ];
 }
 
-/** The checks as a table for the template (code, what, rule, severity, money, source). */
-function checksTable(t: Tolerances, currency: string): TableModel {
-  return {
-    caption: "Audit checks: what each looks for, its rule with this portfolio's tolerances, severity and money at stake",
-    sortable: false,
-    columns: [
-      { label: "Check", numeric: false },
-      { label: "Looks for", numeric: false },
-      { label: "Rule", numeric: false },
-      { label: "Severity", numeric: false },
-      { label: "Money at stake", numeric: false },
-      { label: "Source", numeric: false },
-    ],
-    rows: checkExplanations(t, currency).map((c) => [
-      { text: `${checkTitle(c.code)} (${c.code})` },
-      { text: c.looksFor },
-      { text: c.rule },
-      { text: c.severity },
-      { text: c.amount },
-      { text: c.source },
-    ]),
-  };
+/**
+ * The checks grouped by what the reader does about a finding, each group in the order a reader
+ * meets them. Every code of outputs.md is in exactly one group.
+ */
+const CHECK_GROUPS: readonly { id: string; heading: string; intro: string; codes: readonly string[] }[] = [
+  {
+    id: "checks-claim",
+    heading: "Money to raise with the utility",
+    intro: "These checks put a figure on a bill that is wrong. When the bill is too high the figure becomes a claim on the dispute list; when it is too low, a budget risk. Confirm against your copy of the bill first.",
+    codes: ["total-mismatch", "line-mismatch", "rate-suspect", "duplicate-bill", "period-overlap", "multiplier-suspect", "usage-vs-meter", "demand-vs-meter"],
+  },
+  {
+    id: "checks-ask",
+    heading: "Questions to ask before paying",
+    intro: "These checks see something missing or unexplained. It may be a mistake, a charge the tariff file lacks, or a bill still to come; a question to the utility settles it.",
+    codes: ["unexplained-line", "period-gap", "missing-bill"],
+  },
+  {
+    id: "checks-note",
+    heading: "Worth knowing, nothing to claim",
+    intro: "These checks say how far a bill can be trusted as a measure of use. They carry no money of their own.",
+    codes: ["estimated-read", "usage-outlier"],
+  },
+];
+
+/** First letter upper case, the rest untouched ("Σ billed …" keeps its Σ). */
+function sentenceStart(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** The checks in groups for the template: our name, the code, and the explanation in sentences. */
+function checkGroups(t: Tolerances, currency: string): CheckGroupModel[] {
+  const byCode = new Map(checkExplanations(t, currency).map((c) => [c.code, c]));
+  return CHECK_GROUPS.map((g) => ({
+    id: g.id,
+    heading: g.heading,
+    intro: g.intro,
+    checks: g.codes.map((code) => {
+      const c = byCode.get(code)!;
+      return { code, title: checkTitle(code), looksFor: c.looksFor, rule: c.rule, severity: sentenceStart(c.severity), amount: sentenceStart(c.amount), source: c.source };
+    }),
+  }));
 }
 
 /** This portfolio's audit tolerances, as label/value pairs. */
@@ -192,7 +212,7 @@ function toleranceFacts(t: Tolerances, currency: string): LabelValue[] {
 
 /**
  * Builds the methods page model.
- * @example buildMethodsPage("USD", "the 12 months up to …", { usagePct: 2, demandPct: 3, costAbs: 1, costPct: 0.5 }).checksTable.rows.length // 13
+ * @example buildMethodsPage("USD", "the 12 months up to …", { usagePct: 2, demandPct: 3, costAbs: 1, costPct: 0.5 }).checkGroups.flatMap((g) => g.checks).length // 13
  */
 export function buildMethodsPage(currency: string, windowText: string, tolerances: Tolerances): Omit<MethodsPage, "canonical"> {
   return {
@@ -204,7 +224,7 @@ export function buildMethodsPage(currency: string, windowText: string, tolerance
     unitFactors: [...UNIT_FACTORS],
     windowText,
     tolerances: toleranceFacts(tolerances, currency),
-    checksTable: checksTable(tolerances, currency),
+    checkGroups: checkGroups(tolerances, currency),
     disputeBases: basisKey(),
   };
 }

@@ -1,18 +1,19 @@
 /** Portfolio figures of the index: energy use intensity by building, findings by check with their claims; normalized change. */
 import type { ReportBaseline, ReportFinding } from "./input.ts";
 import type { RankingChartModel, TableModel } from "./siteModel.ts";
-import type { Dispute } from "../disputes/types.ts";
+import type { Dispute } from "../disputes/index.ts";
 import type { BuildingContext } from "./buildingPage.ts";
 import { NOT_AVAILABLE, formatMoney, formatNumber } from "./format.ts";
 import { shownAmount, sumCents } from "./disputesPage.ts";
-import { addDays } from "../core/time.ts";
-import { meterYearWindow, prorateToWindow, siteKwhLast12m } from "../pipeline/usageSummary.ts";
+import { meterYearWindow, prorateToWindow, siteKwhLast12m } from "./usageSummary.ts";
 import { buildingUsage } from "./buildingPage.ts";
-import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh, KWH_PER_THERM } from "./energy.ts";
+import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "./energy.ts";
 import { checkTitle } from "./labels.ts";
+import { addDays } from "../core/time/index.ts";
+import { KWH_PER_THERM } from "../core/units.ts";
 
 /** Sentence stating how the intensity ranking is computed. */
-export const EUI_BASIS = `Energy use intensity = site energy over the last 12 months (each meter's 12 months up to its last read) ÷ floor area. Site energy = electricity kWh + gas therms × ${KWH_PER_THERM} kWh per therm (gas billed in ccf: × the tariff's therm per ccf first, 1.037 when it states none); water is not energy and is left out. The same figures as site_eui_kwh_m2 in portfolio.json.`;
+export const EUI_BASIS = `Energy use intensity = site energy over the last 12 months (each meter's 12 months up to its last read) ÷ floor area. Site energy = electricity kWh + gas therms × ${KWH_PER_THERM.toFixed(4)} kWh per therm (gas billed in ccf: × the tariff's therm per ccf first, 1.037 when it states none); water is not energy and is left out. The same figures as site_eui_kwh_m2 in portfolio.json.`;
 
 /**
  * Ranking of buildings by EUI (kWh/m²) over the last 12 months (per-meter windows, the same
@@ -129,7 +130,7 @@ export function findingsByCheckTable(findings: readonly ReportFinding[] | undefi
  * Weather-normalized change of portfolio site energy, last 12 months vs the 12 before, in
  * percent: each bill's use is weather-adjusted (× expected at typical ÷ expected at actual
  * weather) and prorated into each window. Each meter's window is its own last 12 months (the
- * 365 days up to its last read, no later than as-of; src/pipeline/usageSummary.ts) and the
+ * 365 days up to its last read, no later than as-of; src/report/usageSummary.ts) and the
  * 365 days before. Only meters with a baseline for every bill touching both windows and bills
  * covering the prior window's start count. Null when none qualifies.
  */

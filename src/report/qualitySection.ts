@@ -4,42 +4,19 @@ import type { ReportMeterQuality, ReportWeatherDetection } from "./input.ts";
 import type { HeatmapChartModel, QualitySection, TableModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMonth, formatNumber, formatPercent, formatQuantity } from "./format.ts";
 import { commodityLabel } from "./labels.ts";
+import { formatLocalDateTime, localPartsOf } from "../core/time/index.ts";
 
 const HOUR_MS = 3_600_000;
 /** The heatmap shows at most this many local days, the latest ones (one year plus a leap day). */
-export const HEATMAP_MAX_DAYS = 366;
-
-const partsCache = new Map<string, Intl.DateTimeFormat>();
-function partsFormatter(zone: string): Intl.DateTimeFormat {
-  let f = partsCache.get(zone);
-  if (!f) {
-    f = new Intl.DateTimeFormat("en-US", { timeZone: zone, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", hourCycle: "h23" });
-    partsCache.set(zone, f);
-  }
-  return f;
-}
+const HEATMAP_MAX_DAYS = 366;
 
 /**
  * Local calendar day and hour of a UTC instant in an IANA zone.
  * @example localDayHour(Date.UTC(2025, 0, 1, 6), "America/Chicago") // { day: "2025-01-01", hour: 0 }
  */
 export function localDayHour(ms: number, zone: string): { day: string; hour: number } {
-  const parts = partsFormatter(zone).formatToParts(new Date(ms));
-  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? "00";
-  return { day: `${get("year")}-${get("month")}-${get("day")}`, hour: Number(get("hour")) % 24 };
-}
-
-const textFormatCache = new Map<string, Intl.DateTimeFormat>();
-/**
- * An instant as local date and time in the building's zone, e.g. "Mar 9, 2025, 02:00".
- */
-export function formatLocalTime(ms: number, zone: string): string {
-  let f = textFormatCache.get(zone);
-  if (!f) {
-    f = new Intl.DateTimeFormat("en-US", { timeZone: zone, year: "numeric", month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
-    textFormatCache.set(zone, f);
-  }
-  return f.format(new Date(ms));
+  const p = localPartsOf(ms, zone);
+  return { day: p.date, hour: p.hour };
 }
 
 /** Rounds to 3 significant digits: the heatmap shows colour bands, not exact values (table and CSV carry those). */
@@ -128,7 +105,7 @@ const ACTION_NAMES: Record<string, string> = {
  * given). For meter data `kept` means reported but still used (src/clean/detect/types.ts).
  * @example actionLabel("excluded") // "left out of the models (kept in the data)"
  */
-export function actionLabel(action: string): string {
+function actionLabel(action: string): string {
   return ACTION_NAMES[action] ?? action;
 }
 
@@ -145,7 +122,7 @@ export function weatherActionLabel(action: string, maxGapHours: number): string 
 }
 
 /** @example detectionLabel("zero-run") // "Run of zero readings" */
-export function detectionLabel(kind: string): string {
+function detectionLabel(kind: string): string {
   return DETECTION_NAMES[kind] ?? kind;
 }
 
@@ -166,8 +143,8 @@ function detectionsTable(q: ReportMeterQuality, zone: string): TableModel | null
     ],
     rows: rows.map((d) => [
       { text: detectionLabel(d.kind) },
-      { text: formatLocalTime(d.startMs, zone), sort: String(d.startMs) },
-      { text: formatLocalTime(d.endMs, zone), sort: String(d.endMs) },
+      { text: formatLocalDateTime(d.startMs, zone), sort: String(d.startMs) },
+      { text: formatLocalDateTime(d.endMs, zone), sort: String(d.endMs) },
       { text: formatNumber(d.intervals), sort: String(d.intervals) },
       { text: actionLabel(d.action) },
       { text: d.detail || NOT_AVAILABLE },
@@ -350,8 +327,8 @@ export function weatherQualityTable(building: Building, detections: readonly Rep
       { label: "Action", numeric: false },
     ],
     rows: rows.map((d) => [
-      { text: formatLocalTime(d.startMs, building.timezone), sort: String(d.startMs) },
-      { text: formatLocalTime(d.endMs, building.timezone), sort: String(d.endMs) },
+      { text: formatLocalDateTime(d.startMs, building.timezone), sort: String(d.startMs) },
+      { text: formatLocalDateTime(d.endMs, building.timezone), sort: String(d.endMs) },
       { text: formatNumber(d.hours) },
       { text: weatherActionLabel(d.action, maxGapHours) },
     ]),

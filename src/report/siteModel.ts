@@ -128,7 +128,21 @@ export interface ForecastChartModel extends ChartBase {
   months: { month: string; p10: number; p50: number; p90: number; lastYear: number | null; lastYearMonth: string }[];
 }
 
-export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel | ForecastChartModel;
+/** How a month is drawn on a tenant chart. */
+export type TenantMonthStatus = "Earlier months" | "Latest month" | "Includes an estimate";
+
+/** A tenant page's chart: use per day of the last 14 calendar months (bars) and the weather expectation (line). */
+export interface TenantChartModel extends ChartBase {
+  kind: "tenant-months";
+  /** e.g. "kWh a day". */
+  useLabel: string;
+  /** Whether any month carries an expectation (then the chart draws the line). */
+  hasExpected: boolean;
+  /** Ascending; `label` is the month as people read it ("Mar 2025"); `perDay` null = not completely billed (no bar). */
+  months: { month: string; label: string; perDay: number | null; expectedPerDay: number | null; status: TenantMonthStatus }[];
+}
+
+export type ChartModel = MonthlyChartModel | BaselineScatterChartModel | BaselineTimeChartModel | HeatmapChartModel | RankingChartModel | ForecastChartModel | TenantChartModel;
 
 export interface LabelValue {
   label: string;
@@ -153,10 +167,25 @@ export interface IndexBuildingRow {
   href: string;
 }
 
+/** A money figure at the top of the index. */
+export interface HeadlineFigure {
+  /** DOM id of the figure (stable for tests and links). */
+  id: string;
+  label: string;
+  value: string;
+  /** A short line under the figure (the range, the basis). */
+  note: string;
+}
+
 export interface IndexPage extends PageBase {
   /** Opening sentence, e.g. "Utility bills for 6 buildings, each re-priced from its tariff and checked." */
   lede: string;
+  /** What was checked: counts of buildings, meters, bills and how far they were checked (no money). */
   headline: LabelValue[];
+  /** Next year's likely cost and last year's billed cost; shown first with the claim and risk totals. */
+  costFigures: HeadlineFigure[];
+  /** One sentence on the weather-adjusted change of site energy; null without weather baselines. */
+  energyTrend: string | null;
   buildingsTable: TableModel;
   /** Sentence naming the 12-month window used, e.g. "Jan 1, 2025 – Dec 31, 2025". */
   windowText: string;
@@ -197,7 +226,7 @@ export interface CommoditySection {
 export interface BaselineSection {
   meterId: string;
   heading: string;
-  /** Plain verdict, e.g. "Meets ASHRAE Guideline 14 for monthly data: …". */
+  /** Plain verdict, e.g. "Close fit: CV(RMSE) 8.2 % and NMBE 0.40 % are inside the monthly limits of ASHRAE Guideline 14 …". */
   verdict: string;
   /** `ok` meets the thresholds, `warn` does not, `none` no model. */
   verdictTone: "ok" | "warn" | "none";
@@ -279,8 +308,11 @@ export interface TenantIndexPage extends PageBase {
 export interface TenantCommodity {
   commodity: string;
   heading: string;
-  /** Plain sentences: this period vs the same period last year, weather-adjusted, per floor area. */
+  /** Plain sentences: the latest bill against the weather expectation and the bill a year earlier. */
   sentences: string[];
+  /** The last 14 months; null when no calendar month is completely billed. */
+  chart: TenantChartModel | null;
+  /** The latest bill beside the bill a year earlier. */
   table: TableModel;
 }
 
@@ -290,7 +322,11 @@ export interface TenantPage extends PageBase {
   buildingName: string;
   intro: string;
   commodities: TenantCommodity[];
-  /** How the figures are made (weather adjustment, conversions). */
+  /** Where the figures come from and what is estimated. */
+  caution: string;
+  /** The building's contact line (`contacts` in portfolio.yaml), or null. */
+  contact: string | null;
+  /** How the figures are made (weather expectation, conversions). */
   notes: string[];
 }
 
@@ -301,14 +337,34 @@ export interface UnitFactorRow {
   source: string;
 }
 
+/** One audit check explained on the methods page, with its stable code. */
+export interface CheckProse {
+  code: string;
+  /** Our plain name of the check (checkTitle). */
+  title: string;
+  looksFor: string;
+  rule: string;
+  severity: string;
+  amount: string;
+  source: string;
+}
+
+/** Checks that call for the same action (claim, ask, note). */
+export interface CheckGroupModel {
+  id: string;
+  heading: string;
+  intro: string;
+  checks: CheckProse[];
+}
+
 export interface MethodsPage extends PageBase {
   currency: string;
   unitFactors: UnitFactorRow[];
   windowText: string;
   /** This portfolio's audit tolerances in words. */
   tolerances: LabelValue[];
-  /** Every audit check code with its rule, severity, money at stake and source. */
-  checksTable: TableModel;
+  /** Every audit check, grouped by what the reader does about a finding. */
+  checkGroups: CheckGroupModel[];
   /** Each basis of a dispute's corrected total, in plain words. */
   disputeBases: LabelValue[];
 }

@@ -2,9 +2,9 @@
 import type { Bill, Meter } from "../domain/types.ts";
 import type { ChartDatum, MonthlyChartModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMonth, formatQuantity } from "./format.ts";
-import { spreadOverMonths } from "./periods.ts";
 import { commodityLabel } from "./labels.ts";
 import { partialMonthsNote } from "./coverage.ts";
+import { spreadOverMonths } from "../core/time/index.ts";
 
 /**
  * Monthly usage charts for one commodity: one chart per usage unit (meters of one commodity

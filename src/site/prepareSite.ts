@@ -3,14 +3,15 @@
  * (escaped JSON for the page: the browser runs only the vega runtime), its server SVG, and the
  * downloads lists from the data files actually written. Returns a new model.
  */
-import type { ChartModel, SiteModel } from "../report/siteModel.ts";
-import { buildingDataFolder, describeDataFiles } from "../report/dataPage.ts";
-import { jsonForScript } from "../report/format.ts";
+import type { ChartModel, SiteModel } from "../report/index.ts";
+import { buildingDataFolder, describeDataFiles } from "../report/index.ts";
+import { jsonForScript } from "../report/index.ts";
 import { monthlyUsageSpec } from "./charts/monthlyUsageSpec.ts";
 import { baselineScatterSpec, baselineTimeSpec, heatmapSpec, rankingSpec } from "./charts/analysisSpecs.ts";
 import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
 import { heatmapSvg } from "./charts/heatmapSvg.ts";
 import { forecastSpec } from "./charts/forecastSpec.ts";
+import { tenantSpec } from "./charts/tenantSpec.ts";
 
 /** The data files the dispute list offers for download, when this build wrote them. */
 const DISPUTE_FILES = ["disputes.csv", "disputes.json"];
@@ -37,6 +38,8 @@ export function chartSpec(chart: ChartModel): Record<string, unknown> {
       return rankingSpec(chart);
     case "forecast-band":
       return forecastSpec(chart);
+    case "tenant-months":
+      return tenantSpec(chart);
   }
 }
 
@@ -93,11 +96,22 @@ export async function prepareMeterPages(pages: readonly SiteModel["meterBills"][
   return meterBills;
 }
 
+/** Tenant pages with their charts filled. */
+export async function prepareTenantPages(pages: readonly SiteModel["tenants"][number][]): Promise<SiteModel["tenants"]> {
+  const tenants = [];
+  for (const page of pages) {
+    const commodities = [];
+    for (const c of page.commodities) commodities.push({ ...c, chart: await prepareMaybe(c.chart) });
+    tenants.push({ ...page, commodities });
+  }
+  return tenants;
+}
+
 /**
  * The model with the portfolio-level pages filled (index charts, the data page's file list, the
- * dispute list's downloads) and the building and meter pages left as they are: the site writer
- * fills those a few at a time (prepareBuildingPages, prepareMeterPages) so their charts are
- * never all in memory at once.
+ * dispute list's downloads) and the building, meter and tenant pages left as they are: the site
+ * writer fills those a few at a time (prepareBuildingPages, prepareMeterPages,
+ * prepareTenantPages) so their charts are never all in memory at once.
  */
 export async function preparePortfolioPages(model: SiteModel, sizes: Record<string, number>): Promise<SiteModel> {
   return {
@@ -122,5 +136,6 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
   const sizes = dataFileSizes(dataFiles);
   const buildings = await prepareBuildingPages(model.buildings, sizes);
   const meterBills = await prepareMeterPages(model.meterBills);
-  return { ...(await preparePortfolioPages(model, sizes)), buildings, meterBills };
+  const tenants = await prepareTenantPages(model.tenants);
+  return { ...(await preparePortfolioPages(model, sizes)), buildings, meterBills, tenants };
 }

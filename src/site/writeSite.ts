@@ -11,11 +11,10 @@ import { basename, dirname, join, relative, resolve, sep } from "node:path";
 import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
 import Eleventy from "@11ty/eleventy";
-import type { SiteModel } from "../report/siteModel.ts";
-import type { SiteModelInParts } from "../report/buildSiteModel.ts";
+import type { SiteModel, SiteModelInParts } from "../report/index.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
-import { dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages } from "./prepareSite.ts";
+import { dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
 import { applyClientBundle, buildClientBundle, type ClientBundle } from "./clientBundle.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
@@ -335,7 +334,7 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
       ...shell,
       buildings: await prepareBuildingPages(pages.buildings, sizes),
       meterBills: await prepareMeterPages(pages.meterBills),
-      tenants: pages.tenants,
+      tenants: await prepareTenantPages(pages.tenants),
     };
     await eleventyPass(site, ctx, null, firstPassTemplates);
     written += to - from;

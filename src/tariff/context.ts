@@ -5,11 +5,12 @@
  */
 import type { PriceRequest } from "./types.ts";
 import type { Tariff } from "./model.ts";
-import { assertZone, localMidnightMs, localTimes, type LocalTimes } from "./calendar.ts";
-import { daysBetween, isIsoDate } from "./dates.ts";
+import { assertZone, localMidnightMs } from "./calendar.ts";
+import { localTimes, type LocalTimes } from "../core/time/index.ts";
 import { PricingError } from "./errors.ts";
-import { lowerBound } from "../core/time.ts";
 import { canonicalUnit, unitFactor } from "./units.ts";
+import { lowerBound } from "../core/sorted.ts";
+import { daysBetween, isIsoDate } from "../core/time/index.ts";
 
 export interface BillIntervals {
   startMs: Float64Array;
@@ -100,7 +101,7 @@ export function billContext(tariff: Tariff, req: PriceRequest): BillContext {
       kwh,
       intervalMinutes: iv.intervalMinutes,
       expectedCount: Math.round((endMs - startMs) / (iv.intervalMinutes * 60_000)),
-      local: localTimes(start, req.timezone),
+      local: sharedLocalTimes(start, req.timezone),
     };
   }
 
@@ -116,14 +117,41 @@ export function billContext(tariff: Tariff, req: PriceRequest): BillContext {
     requestUnit,
     intervals,
     hourly() {
-      if (hourlyCache === null) {
-        const n = Math.round((endMs - startMs) / 3_600_000);
-        const s = new Float64Array(n);
-        for (let i = 0; i < n; i++) s[i] = startMs + i * 3_600_000;
-        hourlyCache = { startMs: s, local: localTimes(s, req.timezone) };
-      }
+      hourlyCache ??= hourlyGrid(startMs, endMs, req.timezone);
       return hourlyCache;
     },
   };
 }
 
+/*
+ * A forecast prices the same month hundreds of times (one call per weather scenario) with the same
+ * instants, only the usage differs; local times depend only on the instants and the zone, so they
+ * are computed once. Keyed by the instants' buffer (a subarray of one shape shares it) and never
+ * mutated by callers.
+ */
+const localTimesByBuffer = new WeakMap<ArrayBufferLike, Map<string, LocalTimes>>();
+
+function sharedLocalTimes(startMs: Float64Array, zone: string): LocalTimes {
+  let byView = localTimesByBuffer.get(startMs.buffer);
+  if (byView === undefined) localTimesByBuffer.set(startMs.buffer, (byView = new Map()));
+  const key = `${startMs.byteOffset}|${startMs.length}|${zone}`;
+  let lt = byView.get(key);
+  if (lt === undefined) byView.set(key, (lt = localTimes(startMs, zone)));
+  return lt;
+}
+
+const hourlyGrids = new Map<string, { startMs: Float64Array; local: LocalTimes }>();
+
+/** The hours of a billing period with their local times, shared by every bill over the same period. */
+function hourlyGrid(startMs: number, endMs: number, zone: string): { startMs: Float64Array; local: LocalTimes } {
+  const key = `${zone}|${startMs}|${endMs}`;
+  let grid = hourlyGrids.get(key);
+  if (grid === undefined) {
+    const n = Math.round((endMs - startMs) / 3_600_000);
+    const s = new Float64Array(n);
+    for (let i = 0; i < n; i++) s[i] = startMs + i * 3_600_000;
+    if (hourlyGrids.size >= 512) hourlyGrids.clear(); // a bound, not an eviction policy: periods repeat in runs
+    hourlyGrids.set(key, (grid = { startMs: s, local: localTimes(s, zone) }));
+  }
+  return grid;
+}

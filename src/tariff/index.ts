@@ -4,7 +4,12 @@ export type * from "./model.ts";
 export { loadTariff, MINIMUM_BILL_LABEL } from "./load.ts";
 export { priceBill, versionsInForce } from "./price.ts";
 export { PricingError } from "./errors.ts";
-export { roundCents } from "./rounding.ts";
-export { unitFactor, canonicalUnit, KWH_PER_THERM, GAL_PER_CCF, DEFAULT_HEAT_CONTENT_THERM_PER_CCF, UNITS_BY_COMMODITY } from "./units.ts";
-export { usFederalHolidays, isUsFederalHoliday } from "./holidays.ts";
+export { unitFactor, canonicalUnit, UNITS_BY_COMMODITY } from "./units.ts";
 export { maxWindowDemandKw, billingDemandKw } from "./demand.ts";
+
+// Used by other folders (see test/architecture/layers.test.ts).
+export type { Tariff } from "./model.ts";
+export { billCheckState, intervalUsageForBill, priceMeterBills } from "./priceMeterBills.ts";
+export type { BillCheckState, PricedBill } from "./priceMeterBills.ts";
+export type { ComputedBill, ComputedLine, IntervalUsage, LineStatus, PriceRequest } from "./types.ts";
+export { yamlLimitProblem } from "./yaml-check.ts";

@@ -1,7 +1,7 @@
 /** Building computed lines: statuses, rates by period, rounding of each line to the cent. */
 import type { ComputedLine, LinePart, LineStatus } from "./types.ts";
 import type { Charge, RateSpec } from "./model.ts";
-import { roundCents } from "./rounding.ts";
+import { roundCents } from "../core/money.ts";
 
 const STATUS_RANK: Record<LineStatus, number> = { exact: 0, estimated: 1, "needs-interval-data": 2 };
 

@@ -3,9 +3,9 @@
  * (`us-federal` or a list of dates) and time-of-use periods (season, days, hours).
  */
 import { isScalar, type Node } from "yaml";
-import { isIsoDate } from "./dates.ts";
 import type { HolidayRule, HourRange, Period, Season } from "./model.ts";
 import { Checker, didYouMean, readMap, readNamedMap, readSeq, readString, where, type AnyNode, type Field } from "./yaml-check.ts";
+import { isIsoDate } from "../core/time/index.ts";
 
 const PERIOD_KEYS = ["season", "days", "hours"];
 const MONTHS = ["jan", "feb", "mar", "apr", "may", "jun", "jul", "aug", "sep", "oct", "nov", "dec"];

@@ -5,11 +5,11 @@
  */
 import { isScalar } from "yaml";
 import type { Commodity } from "../domain/types.ts";
-import { isIsoDate } from "./dates.ts";
 import { readHolidays, readPeriods, readSeasons, type ParsedPeriod } from "./load-calendar.ts";
 import { readCharges, type ParsedCharge } from "./load-charges.ts";
 import { MINIMUM_BILL_LABEL, type HolidayRule, type Season } from "./model.ts";
 import { Checker, didYouMean, readBool, readMap, readNumber, where, type AnyNode } from "./yaml-check.ts";
+import { isIsoDate } from "../core/time/index.ts";
 
 const VERSION_KEYS = ["from", "inherit", "seasons", "holidays", "periods", "charges", "charges_override", "minimum_bill"];
 

@@ -1,5 +1,5 @@
 /**
- * Reads a tariff file (format: the README, "Writing a tariff file") into a validated `Tariff`.
+ * Reads a tariff file (format: docs/tariffs.md) into a validated `Tariff`.
  * Strict by design: an unknown key, a rate for an undefined period, blocks out of order or
  * versions out of order are errors with file:line:column and a hint, never guesses.
  * The parts live in load-calendar.ts, load-charges.ts and load-versions.ts.
@@ -9,8 +9,9 @@ import type { InputIssue } from "../core/issues.ts";
 import { COMMODITIES, type Commodity } from "../domain/types.ts";
 import { checkVersion, checkVersionOrder, readVersion, resolveVersions, type RawVersion } from "./load-versions.ts";
 import type { Tariff, TariffVersion } from "./model.ts";
-import { canonicalUnit, DEFAULT_HEAT_CONTENT_THERM_PER_CCF, UNITS_BY_COMMODITY } from "./units.ts";
+import { canonicalUnit, UNITS_BY_COMMODITY } from "./units.ts";
 import { Checker, didYouMean, readMap, readNumber, readSeq, readString, where, yamlLimitProblem, type Field } from "./yaml-check.ts";
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 
 export { MINIMUM_BILL_LABEL } from "./model.ts";
 

@@ -8,8 +8,8 @@ import type { Charge } from "./model.ts";
 import { billingDemandKw, maxWindowDemandByPeriodKw, maxWindowDemandKw } from "./demand.ts";
 import { groupedNumber } from "./format.ts";
 import { line } from "./lines.ts";
-import { sumAmounts } from "./rounding.ts";
 import { agreesWithinRounding, type VersionState } from "./version-state.ts";
+import { sumAmounts } from "../core/money.ts";
 
 const fmt = groupedNumber;
 

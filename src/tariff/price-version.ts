@@ -9,8 +9,8 @@ import { MINIMUM_BILL_LABEL } from "./model.ts";
 import { groupedNumber } from "./format.ts";
 import { line, rateOf, worstStatus } from "./lines.ts";
 import { priceDemand } from "./price-demand.ts";
-import { roundCents, sumAmounts } from "./rounding.ts";
 import { VersionState } from "./version-state.ts";
+import { roundCents, sumAmounts } from "../core/money.ts";
 
 export { worstStatus } from "./lines.ts";
 

@@ -8,10 +8,10 @@
 import type { ComputedBill, ComputedLine, LinePart, PriceRequest } from "./types.ts";
 import type { Tariff, TariffVersion } from "./model.ts";
 import { billContext } from "./context.ts";
-import { daysBetween } from "./dates.ts";
 import { PricingError } from "./errors.ts";
 import { priceVersion, worstStatus, type VersionResult } from "./price-version.ts";
-import { roundCents, sumAmounts } from "./rounding.ts";
+import { daysBetween } from "../core/time/index.ts";
+import { roundCents, sumAmounts } from "../core/money.ts";
 
 /** Versions in force during [start, end) with their number of days. */
 export function versionsInForce(tariff: Tariff, start: string, end: string): { version: TariffVersion; days: number }[] {

@@ -1,18 +1,12 @@
 /**
  * Usage-unit conversion between what a bill is measured in and what a tariff is quoted in.
  *
- * Sources: 1 therm = 100,000 Btu (EIA); 1 Btu (IT) = 1055.05585262 J (NIST SP 811), so
- * 1 therm = 29.3071070 kWh; 1 ft = 0.3048 m exactly, so 1 m3 = 35.3146667 ft3; 1 US gallon
- * = 231 in3, so 1 ft3 = 7.48051948 gal and 1 ccf = 748.051948 gal; ccf -> therm uses the
- * tariff's heat content (therm per ccf, default 1.037, the U.S. average reported by EIA).
+ * The factors and their sources are src/core/units.ts; ccf → therm uses the tariff's heat
+ * content (therm per ccf, default DEFAULT_HEAT_CONTENT_THERM_PER_CCF).
  */
 import type { Commodity } from "../domain/types.ts";
 
-export const KWH_PER_THERM = (100_000 * 1055.05585262) / 3_600_000;
-export const FT3_PER_M3 = 1 / 0.3048 ** 3;
-export const GAL_PER_FT3 = (12 ** 3) / 231;
-export const GAL_PER_CCF = 100 * GAL_PER_FT3;
-export const DEFAULT_HEAT_CONTENT_THERM_PER_CCF = 1.037;
+import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF, FT3_PER_M3, GAL_PER_CCF, GAL_PER_FT3, KWH_PER_THERM } from "../core/units.ts";
 
 /** Canonical unit names accepted per commodity (matching is case-insensitive). */
 export const UNITS_BY_COMMODITY: Record<Commodity, readonly string[]> = {

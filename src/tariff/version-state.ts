@@ -6,9 +6,10 @@
 import type { LineStatus } from "./types.ts";
 import type { TariffVersion } from "./model.ts";
 import type { BillContext } from "./context.ts";
-import { hourOfWeek, periodIndices } from "./calendar.ts";
+import { periodIndices } from "./calendar.ts";
+import { hoursOfWeek } from "../core/time/index.ts";
 import { groupedNumber } from "./format.ts";
-import { sumAmounts } from "./rounding.ts";
+import { sumAmounts } from "../core/money.ts";
 
 const fmt = groupedNumber;
 
@@ -56,7 +57,7 @@ export class VersionState {
     const shape = this.ctx.req.loadShapeByHourOfWeek;
     const w = new Float64Array(h.startMs.length);
     if (shape && shape.length === 168) {
-      const how = hourOfWeek(h.local);
+      const how = hoursOfWeek(h.local);
       for (let i = 0; i < w.length; i++) w[i] = Math.max(0, shape[how[i]] ?? 0);
     } else {
       w.fill(1);

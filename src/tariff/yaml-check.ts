@@ -152,7 +152,7 @@ export interface NumberRule {
  * priced line (rate × usage up to 1e12) far inside the range where doubles are finite and
  * cents are exact: `1e308` used to price every bill to NaN (issue 16).
  */
-export const MAX_TARIFF_NUMBER = 1e9;
+const MAX_TARIFF_NUMBER = 1e9;
 const MAX_TARIFF_NUMBER_TEXT = "1,000,000,000";
 
 export function readNumber(c: Checker, f: Field, what: string, rule: NumberRule = {}): number | null {
@@ -204,7 +204,7 @@ export function readBool(c: Checker, f: Field, what: string): boolean | null {
  * for real files and far from the crash (common practice: parsers such as Go's yaml.v3 cap depth).
  */
 export const MAX_YAML_FLOW_DEPTH = 64;
-export const MAX_YAML_INDENT = 256;
+const MAX_YAML_INDENT = 256;
 
 /** Aliases (`*name`) accepted in one file; the yaml package's own default for expansion (`maxAliasCount`). */
 export const MAX_YAML_ALIASES = 100;

@@ -2,11 +2,11 @@
 // well-formed, the ranking holds, and the output rows match the findings one for one.
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { addDays } from "../../src/audit/dates.ts";
 import { CHECK_CODES, findingsToCsvRows, runAudit, SEVERITY_RANK } from "../../src/audit/index.ts";
 import type { Bill } from "../../src/domain/types.ts";
 import type { ComputedBill } from "../../src/tariff/types.ts";
 import { bill, computed, input, metered, portfolio, printed } from "./fixtures.ts";
+import { addDays } from "../../src/core/time/index.ts";
 
 const billArb = fc.record({
   offsetDays: fc.integer({ min: 0, max: 800 }),

@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
-import { exceedsMoneyTolerance, exceedsPct, resolveTolerances, toCents } from "../../src/audit/tolerances.ts";
+import { exceedsMoneyTolerance, exceedsPct, resolveTolerances } from "../../src/audit/tolerances.ts";
 import { runAudit } from "../../src/audit/index.ts";
 import { bill, computed, input, portfolio } from "./fixtures.ts";
+import { toCents } from "../../src/core/money.ts";
 
 // Rule from the input contract (portfolio.yaml tolerances): a money difference is a finding only
 // when it exceeds BOTH cost_abs and cost_pct. Values below hand-computed with cost_abs 1.00, cost_pct 0.5.

@@ -1,4 +1,5 @@
 // makeRepricer: the caller's price function receives the right request (a fake engine records it).
+import { PricingError } from "../../src/tariff/errors.ts";
 import { describe, expect, it } from "vitest";
 import { makeRepricer, pinVersion } from "../../src/audit/wiring.ts";
 import type { Tariff, TariffVersion } from "../../src/tariff/model.ts";
@@ -44,8 +45,10 @@ describe("makeRepricer", () => {
   it("offers every own version and every other tariff of the same commodity", () => {
     expect(rateAlternatives(bills[0], p.meters[0]).map((a) => `${a.tariffId}@${a.versionFrom}`)).toEqual(["T1@2024-01-01", "T1@2024-07-01", "T2@null"]);
   });
-  it("an engine error gives null, not a throw", () => {
-    const { reprice: r } = makeRepricer({ portfolio: p as never, priced, price: () => { throw new Error("no version in force"); } });
+  it("a pricing problem (PricingError) gives null, not a throw; a bug is not hidden", () => {
+    const { reprice: r } = makeRepricer({ portfolio: p as never, priced, price: () => { throw new PricingError("no version in force"); } });
     expect(r(bills[0], { kind: "quantities", usage: 1, demandKw: null })).toBeNull();
+    const { reprice: buggy } = makeRepricer({ portfolio: p as never, priced, price: () => { throw new TypeError("x is undefined"); } });
+    expect(() => buggy(bills[0], { kind: "quantities", usage: 1, demandKw: null })).toThrow(TypeError);
   });
 });

@@ -3,6 +3,7 @@
  * 07:00–19:00 weekday schedule and a cooling response to temperature. Sign convention under
  * test: suggestedOffsetHours = meter timestamp − true time.
  */
+import { TimeInputError } from "../../src/core/errors.ts";
 import { describe, expect, it } from "vitest";
 import { suggestAlignment } from "../../src/clean/alignment.ts";
 import { detectAnomalies } from "../../src/clean/detect/index.ts";
@@ -119,8 +120,8 @@ describe("suggestAlignment", () => {
     expect(none.evidence.note).toMatch(/do not overlap/);
   });
 
-  it("rejects an unknown time zone with a RangeError", () => {
+  it("rejects an unknown time zone with a TimeInputError", () => {
     const { series, weather } = makeOffice({ seed: 6, weeks: 1 });
-    expect(() => suggestAlignment(series, weather, "Mars/Olympus")).toThrow(RangeError);
+    expect(() => suggestAlignment(series, weather, "Mars/Olympus")).toThrow(TimeInputError);
   });
 });

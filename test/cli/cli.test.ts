@@ -89,17 +89,19 @@ describe("ohmbook init + build", () => {
     const findings = JSON.parse(await readFile(join(site, "data", "findings.json"), "utf8"));
     expect(findings).toEqual([]);
 
-    // Overcharge one bill by $25 (hand-computed: well above cost_abs 1.00 and cost_pct 0.5 %).
+    // Overcharge the first bill by $100 (hand-computed: the starter's first bill is about $5,600,
+    // so 100 is above both cost_abs 1.00 and cost_pct 0.5 %, as a finding needs).
     const bills = (await readFile(join(starter, "bills.csv"), "utf8")).split("\n");
+    const totalColumn = bills[0]!.split(",").indexOf("total");
     const cells = bills[1]!.split(",");
-    cells[cells.length - 1] = (Number(cells[cells.length - 1]) + 25).toFixed(2);
+    cells[totalColumn] = (Number(cells[totalColumn]) + 100).toFixed(2);
     bills[1] = cells.join(",");
     await writeFile(join(starter, "bills.csv"), bills.join("\n"));
     const failing = recorder();
     expect(await runCli(["build", starter, "--out", site, "--fail-on", "error", "--json"], failing)).toBe(3);
     const summary = JSON.parse(failing.stdout);
     expect(summary.findings.error).toBe(1);
-    expect(summary.amountAtStake).toBe(25);
+    expect(summary.amountAtStake).toBe(100);
   }, 120_000);
 
   it("unknown commands and bad options exit 1 with a usage message", async () => {

@@ -5,7 +5,7 @@
  * refuses to guess an input the tariff needs unless told to estimate. Exit codes: outputs.md.
  */
 import { describe, expect, it } from "vitest";
-import { mkdtemp, readFile, rm } from "node:fs/promises";
+import { mkdtemp, readFile, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { runCli, type CliIo } from "../../src/cli/main.ts";
@@ -76,11 +76,18 @@ describe("the portfolio folder defaults to the current folder", () => {
   });
 });
 
+/** A starter portfolio with one planted warning: an unknown column in buildings.csv (inputs.md: "unknown columns ignored with one warning per file"). */
+async function starterWithWarning(dir: string): Promise<void> {
+  await writeStarterPortfolio(dir);
+  const path = join(dir, "buildings.csv");
+  const [header, ...rows] = (await readFile(path, "utf8")).trimEnd().split("\n");
+  await writeFile(path, [`${header},colour`, ...rows.map((r) => `${r},green`)].join("\n") + "\n");
+}
+
 describe("--quiet and --json", () => {
-  // The starter portfolio has one warning (a weather history shorter than 3 years).
   it("check --quiet prints no warning; check --json lists it", async () => {
     const dir = await mkdtemp(join(tmpdir(), "ohmbook-quiet-"));
-    await writeStarterPortfolio(dir);
+    await starterWithWarning(dir);
     const loud = recorder();
     expect(await runCli(["check", dir], loud)).toBe(0);
     expect(loud.stdout).toMatch(/: warning: /);
@@ -97,7 +104,7 @@ describe("--quiet and --json", () => {
 
   it("build --quiet prints nothing but errors; build --json includes the warnings", async () => {
     const dir = await mkdtemp(join(tmpdir(), "ohmbook-quietb-"));
-    await writeStarterPortfolio(dir);
+    await starterWithWarning(dir);
     const quiet = recorder();
     expect(await runCli(["build", dir, "--out", `${dir}-a`, "--quiet"], quiet)).toBe(0);
     expect(quiet.stdout).toBe("");
@@ -105,7 +112,7 @@ describe("--quiet and --json", () => {
     const json = recorder();
     expect(await runCli(["build", dir, "--out", `${dir}-b`, "--json"], json)).toBe(0);
     const parsed = JSON.parse(json.stdout) as { issues: { severity: string; message: string }[] };
-    expect(parsed.issues.filter((i) => i.severity === "warning").map((i) => i.message).join("\n")).toMatch(/typical weather year/);
+    expect(parsed.issues.filter((i) => i.severity === "warning").map((i) => i.message).join("\n")).toMatch(/colour/);
     for (const d of [dir, `${dir}-a`, `${dir}-b`]) await rm(d, { recursive: true, force: true });
   });
 });

@@ -86,9 +86,12 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("bills to dispute on the de
     const tile = (await index.locator("#dispute-total").innerText()).trim();
     expect(tile).toBe(expected);
     expect(await index.locator("#dispute-total").getAttribute("href")).toBe("disputes.html");
-    // The dispute block comes first: before "At a glance".
+    // Cost first: the money cards (claims, risk, next year's and last year's cost) lead, then the dispute block.
     const headings = await index.locator("main h2").allInnerTexts();
-    expect(headings[0]).toBe("Bills to dispute");
+    expect(headings.slice(0, 2)).toEqual(["Money at stake and next year's cost", "Bills to dispute"]);
+    expect(await index.locator("#money-h + .figure-cards .card-label").allInnerTexts()).toEqual([
+      "Bills to dispute", "Budget risk: may be billed later", "Forecast cost, next 12 months", "Billed cost, last 12 months",
+    ]);
     // The index table lists the largest claims (at most 10), largest first.
     const indexRows = await tableRows(index, "index-claims");
     expect(indexRows.length).toBe(Math.min(10, claimsJson.length));

@@ -124,6 +124,10 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
       }
     }
     pages = ["index.html", building, meter];
+    // A tenant page (the demo publishes some) and the methods page with its check cards.
+    const tenant = (await readdir(join(site, "buildings"), { recursive: true })).map((f) => f.split("\\").join("/")).filter((f) => f.endsWith("/tenant.html")).sort()[0];
+    if (tenant) pages.push(`buildings/${tenant}`);
+    pages.push("methods.html");
     // The dispute list and a claim sheet, once the site has them.
     if (existsSync(join(site, "disputes.html"))) pages.push("disputes.html");
     if (existsSync(join(site, "claims"))) {
@@ -149,8 +153,8 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
     return opened;
   }
 
-  it("checks an index, a building page and a meter bills page", () => {
-    expect(pages.slice(0, 3)).toEqual(["index.html", expect.stringMatching(/^buildings\/[^/]+\.html$/), expect.stringMatching(/^bills\/[^/]+\/[^/]+\.html$/)]);
+  it("checks an index, a building page, a meter bills page, a tenant page and the methods page", () => {
+    expect(pages.slice(0, 5)).toEqual(["index.html", expect.stringMatching(/^buildings\/[^/]+\.html$/), expect.stringMatching(/^bills\/[^/]+\/[^/]+\.html$/), expect.stringMatching(/^buildings\/[^/]+\/tenant\.html$/), "methods.html"]);
     expect(meterPages.length).toBeGreaterThanOrEqual(buildingPages.length);
   });
 
@@ -177,9 +181,9 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
           const axe = await runAxe(page);
           expect(axe.violations, `${path} at ${width} px: ${JSON.stringify(axe.violations)}`).toEqual([]);
         }
-        if (path === pages[1]) {
+        if (path === pages[1] || path.endsWith("/tenant.html")) {
           await mkdir(ARTIFACTS, { recursive: true });
-          await page.screenshot({ path: join(ARTIFACTS, `layout-building-${width}.png`) });
+          await page.screenshot({ path: join(ARTIFACTS, `layout-${path === pages[1] ? "building" : "tenant"}-${width}.png`) });
         }
         expect(errors, path).toEqual([]);
         await page.close();

@@ -114,7 +114,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     await expectChartsLive(page);
     const headings = await page.locator("main h2").allTextContents();
     expect(headings).toEqual(["Summary", "Audit", "Usage and baseline", "Data quality", "Forecast", "Downloads"]);
-    expect(await page.locator('table:has(caption:text("Weather baseline of each meter")) tbody tr').first().innerText()).toContain("Meets ASHRAE Guideline 14");
+    expect(await page.locator('table:has(caption:text("Weather baseline of each meter")) tbody tr').first().innerText()).toContain("Close fit: CV(RMSE)");
     expect(await page.locator('a[href="../bills/B1/E1.html#baseline-h"]').count()).toBe(1);
     expect(await page.locator('a[href="../bills/B1/E1.html#quality-h"]').count()).toBe(1);
     expect(await page.locator('a[href="../bills/B1/E1.html"]').count()).toBeGreaterThan(0);
@@ -137,7 +137,7 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     expect(await page.locator("#baseline-E1-scatter .chart-live svg").count()).toBe(1);
     expect(await page.locator("#baseline-E1-time .chart-live svg").count()).toBe(1);
     expect(await page.locator("#quality-E1-heatmap .chart-live canvas").count()).toBe(1);
-    expect(await page.locator(".verdict").first().textContent()).toContain("Meets ASHRAE Guideline 14");
+    expect(await page.locator(".verdict").first().textContent()).toMatch(/^Close fit: .* inside the monthly limits of ASHRAE Guideline 14/);
     expect(await page.locator('section[aria-labelledby="quality-h"] table:has(caption:text("Every problem found")) tbody tr').count()).toBe(2);
     expect(await page.locator(".evidence").textContent()).toContain("stamped 3 hours late");
     // The heatmap's tooltip: rest the pointer inside the plot (vega hit-tests the canvas).
@@ -157,12 +157,20 @@ describe.skipIf(!HAVE_CHROMIUM)("the built site in chromium, served under /repor
     const { page, errors } = await open("buildings/B1/tenant.html");
     const text = (await page.locator("body").innerText()).toLowerCase();
     for (const word of ["finding", "audit", "$", "usd", "cost", "tariff", "recomputed", "at stake", "charge", "money"]) expect(text, word).not.toContain(word);
+    // B1 has electricity and gas meters and no water meter: no water section, no "water" in the title.
     expect(await page.locator("main h2").allTextContents()).toEqual(["Electricity", "Gas", "How these figures are made"]);
-    expect(text).toContain("allowing for the weather");
-    expect(text).toContain("kbtu per ft²");
+    expect(await page.locator("h1").innerText()).toBe("Heron Street Office: electricity and gas use");
+    expect(text).toContain("about these figures");
+    expect(text).toContain("expected figures are estimates");
+    expect(text).toContain("11.1 % higher than that estimate");
+    expect(text).not.toContain("allowing for the weather");
+    expect(text).toContain("kbtu/ft²");
+    expect(await page.locator("figure[data-chart]").count()).toBe(2);
     expect(await page.locator("nav").count()).toBe(0);
     await page.emulateMedia({ media: "print" });
-    expect(await page.locator("table").first().isVisible()).toBe(true);
+    // In print: the comparison table and the chart's static SVG (the chart's own data table folds away).
+    expect(await page.locator("section.tenant-commodity > .table-wrap table").first().isVisible()).toBe(true);
+    expect(await page.locator("section.tenant-commodity .chart-fallback svg").first().isVisible()).toBe(true);
     await page.pdf({ path: join(ARTIFACTS, "buildings_B1_tenant-print.pdf"), format: "A4" });
     expect(errors).toEqual([]);
     await page.close();

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { escalationBase, escalationFactorForDays, escalationFactorForMonth } from "../../src/forecast/escalation.ts";
-import { calendarMonth } from "../../src/forecast/months.ts";
+import { calendarMonth } from "../../src/core/time/index.ts";
 
 describe("escalation compounding", () => {
   it("3 %/year for 18 months (1.5 years of 365.25 days) is 1.03^1.5 = 1.045336 (hand-computed: 1.03 × √1.03)", () => {

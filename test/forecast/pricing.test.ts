@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
 import { priceForecastMonth, type MonthPricingContext } from "../../src/forecast/priceMonth.ts";
-import { calendarMonth } from "../../src/forecast/months.ts";
 import { forecastMeter, type MeterForecastInput } from "../../src/forecast/forecastMeter.ts";
 import { bandOf } from "../../src/forecast/quantiles.ts";
 import { BLOCK_DEMAND_YAML, calendarBills, meter, tariffFrom } from "./helpers.ts";
+import { calendarMonth } from "../../src/core/time/index.ts";
 
 const tariff = tariffFrom(BLOCK_DEMAND_YAML);
 

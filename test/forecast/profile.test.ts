@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { loadShapeByHourOfWeek, monthShapeFromIntervals, scaleShape } from "../../src/forecast/profile.ts";
-import { calendarMonth } from "../../src/forecast/months.ts";
 import type { IntervalSeries } from "../../src/domain/types.ts";
+import { calendarMonth } from "../../src/core/time/index.ts";
 
 /** Invented 15-minute meter in UTC through 2025: 1 kWh per interval on weekdays, 2 at weekends. */
 function series(fromMs: number, toMs: number): IntervalSeries {

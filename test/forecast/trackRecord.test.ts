@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { annualErrorPct, coverageShare, cvRmsePct } from "../../src/forecast/accuracy.ts";
+import { annualErrorPct, coverageShare, forecastCvRmsePct } from "../../src/forecast/accuracy.ts";
 import { spreadBillsByMonth } from "../../src/forecast/months.ts";
 import { compareWithActuals, naiveSameMonthLastYear, pooledAccuracy, backtestAsOf } from "../../src/forecast/trackRecord.ts";
 import type { MeterForecast } from "../../src/forecast/forecastMeter.ts";
@@ -13,7 +13,7 @@ describe("accuracy arithmetic (hand-computed)", () => {
   });
 
   it("CV(RMSE) divides by n: actual [100, 200], forecast [110, 190] → 100·√(200/2)/150 = 6.6667 %", () => {
-    expect(cvRmsePct([100, 200], [110, 190])).toBeCloseTo(100 * 10 / 150, 10);
+    expect(forecastCvRmsePct([100, 200], [110, 190])).toBeCloseTo(100 * 10 / 150, 10);
   });
 
   it("coverage counts bounds as inside: 2 of 3", () => {

@@ -2,9 +2,9 @@ import { describe, expect, it } from "vitest";
 import { fitChangePointAt } from "../../src/model/changePoint.ts";
 import { modelUsageScenarios } from "../../src/forecast/usageScenarios.ts";
 import { scenarioTemperatures, weatherYears } from "../../src/forecast/weatherYears.ts";
-import { calendarMonth } from "../../src/forecast/months.ts";
-import { mulberry32, studentScale, standardNormal } from "../../src/forecast/random.ts";
+import { scenarioUniforms as mulberry32, studentScale, standardNormal } from "../../src/forecast/random.ts";
 import type { WeatherSeries } from "../../src/domain/types.ts";
+import { calendarMonth } from "../../src/core/time/index.ts";
 
 // Invented bills: use per day = 100 − 2·T plus a fixed pseudo-random scatter, 30-day periods.
 const points = Array.from({ length: 24 }, (_, i) => {

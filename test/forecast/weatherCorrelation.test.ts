@@ -5,9 +5,9 @@
 import { describe, expect, it } from "vitest";
 import type { ChangePointFit } from "../../src/model/changePoint.ts";
 import { meterUsageScenarios, type MeterForecastInput } from "../../src/forecast/forecastMeter.ts";
-import { monthsAfter } from "../../src/forecast/months.ts";
 import type { WeatherYear } from "../../src/forecast/weatherYears.ts";
 import { meter } from "./helpers.ts";
+import { monthsAfter } from "../../src/core/time/index.ts";
 
 /** Use per day = temperature, no prediction noise (only what modelUsageScenarios reads). */
 const fit = {

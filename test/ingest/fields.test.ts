@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { daysBetween, daysFromCivil, parseIsoDate, parseStrictNumber } from "../../src/ingest/fields.ts";
+import { daysFromCivil, parseIsoDate, parseStrictNumber } from "../../src/ingest/fields.ts";
+import { daysBetween } from "../../src/core/time/index.ts";
 import { newTimestampScratch, parseTimestampString } from "../../src/ingest/timestamp.ts";
 
 describe("parseStrictNumber", () => {

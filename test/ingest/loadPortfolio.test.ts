@@ -238,3 +238,44 @@ describe("loadPortfolio weather rules", () => {
   });
 });
 
+
+describe("loadPortfolio contacts (tenant page contact lines)", () => {
+  const dirs: string[] = [];
+  afterAll(async () => {
+    for (const d of dirs) await rm(d, { recursive: true, force: true });
+  });
+
+  it("keeps the contact of a building with a tenant page; warns at the key on an unknown id or a building without one", async () => {
+    const dir = await mkdtemp(join(tmpdir(), "ohmbook-ingest-"));
+    dirs.push(dir);
+    await cp(GOOD, dir, { recursive: true });
+    const yaml = await readFile(join(dir, "portfolio.yaml"), "utf8");
+    // LF-01 has tenant_page yes, LF-02 no (test/fixtures/ingest/good/buildings.csv); LF-99 does not exist.
+    await writeFile(join(dir, "portfolio.yaml"), `${yaml}contacts:\n  LF-01: Front desk, 555-0101\n  LF-02: Caretaker\n  LF-99: Nobody\n`);
+    const r = await loadPortfolio(dir);
+    const contactsLine = yaml.trimEnd().split("\n").length + 1; // the "contacts:" line; LF-02 is 2 below it
+    expect(r.portfolio!.settings.contacts).toEqual({ "LF-01": "Front desk, 555-0101", "LF-02": "Caretaker", "LF-99": "Nobody" });
+    const warnings = r.issues.filter((i) => i.file === "portfolio.yaml").map(formatIssue);
+    expect(warnings).toEqual([
+      `portfolio.yaml:${contactsLine + 2}:3: warning: contact for LF-02 is not shown: the building has no tenant page (hint: set tenant_page to yes for it in buildings.csv, or remove the contact)`,
+      `portfolio.yaml:${contactsLine + 3}:3: warning: contacts names building "LF-99", which is not in buildings.csv (hint: use a building_id from buildings.csv)`,
+    ]);
+  });
+});
+
+describe("meter units come from the tariff engine's list", () => {
+  it("a water meter may bill in kgal, and unit aliases read as the tariff loader reads them", async () => {
+    const dir = await mkdtemp(join(tmpdir(), "ohmbook-units-"));
+    try {
+      await cp(GOOD, dir, { recursive: true });
+      await writeFile(join(dir, "tariffs", "fen-water.yaml"), "id: fen-water\ncommodity: water\nusage_unit: kgal\nversions:\n  - from: 2020-01-01\n    charges:\n      - { label: Water, energy: 6.10 }\n");
+      const meters = await readFile(join(dir, "meters.csv"), "utf8");
+      await writeFile(join(dir, "meters.csv"), `${meters.replace("G-200,LF-02,gas,therm", "G-200,LF-02,gas,Therms")}W-300,LF-01,water,KGAL,fen-water,,\n`);
+      const r = await loadPortfolio(dir);
+      expect(r.issues.filter((i) => i.severity === "error")).toEqual([]);
+      expect(r.portfolio!.meters.map((m) => [m.meterId, m.unit])).toEqual([["E-100", "kWh"], ["G-200", "therm"], ["W-300", "kgal"]]);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+});

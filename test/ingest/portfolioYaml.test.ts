@@ -57,3 +57,22 @@ describe("parsePortfolioYaml", () => {
     expect([parsePercent("3%"), parsePercent(5), parsePercent("abc")]).toEqual([0.03, 0.05, null]);
   });
 });
+
+describe("contacts (optional, one line per building for its tenant page)", () => {
+  it("reads one line per building id, whitespace collapsed; files without it stay valid", () => {
+    const r = parsePortfolioYaml('name: P\ncontacts:\n  B1: "Site office,\n    555-0142"\n  B2: Facilities desk, ext. 12\n', "portfolio.yaml");
+    expect(r.issues).toEqual([]);
+    expect(r.settings!.contacts).toEqual({ B1: "Site office, 555-0142", B2: "Facilities desk, ext. 12" });
+    expect(r.contactPositions!.B2).toEqual({ line: 5, column: 3 });
+    expect(parsePortfolioYaml("name: P\n", "portfolio.yaml").settings!.contacts).toBeUndefined();
+  });
+  it("rejects a list, an empty line and an over-long line with their position", () => {
+    expect(parsePortfolioYaml("name: P\ncontacts: [a, b]\n", "p.yaml").issues[0]).toMatchObject({ line: 2, column: 11, severity: "error", message: "contacts must map building ids to a contact line" });
+    const r = parsePortfolioYaml(`name: P\ncontacts:\n  B1:\n  B2: ${"x".repeat(301)}\n`, "p.yaml");
+    expect(r.issues.map((i) => [i.line, i.message])).toEqual([
+      [3, "contact for B1 must be a line of text"],
+      [4, "contact for B2 is 301 characters long"],
+    ]);
+    expect(r.settings!.contacts).toEqual({});
+  });
+});

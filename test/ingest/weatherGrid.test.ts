@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { FILL_FROM_DAILY, FILL_INTERPOLATED, FILL_MEASURED, buildWeatherSeries, hourFromDailyMaxMin } from "../../src/ingest/weatherGrid.ts";
-import { fahrenheitToCelsius } from "../../src/ingest/readWeather.ts";
+import { fToC as fahrenheitToCelsius } from "../../src/core/units.ts";
 
 const H = 3600000;
 

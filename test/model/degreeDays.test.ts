@@ -1,14 +1,13 @@
+import { cToF, fToC } from "../../src/core/units.ts";
 import { describe, expect, it } from "vitest";
 import { readFileSync } from "node:fs";
 import {
-  celsiusToFahrenheit,
   coolingDegreeDaysUkMaxMin,
   DEGREE_DAY_BASES,
   degreeDaysCToF,
   degreeDaysForPeriod,
   degreeDaysFromHourly,
   degreeDaysMeanMethod,
-  fahrenheitToCelsius,
   heatingDegreeDaysUkMaxMin,
 } from "../../src/model/degreeDays.ts";
 import { ModelInputError } from "../../src/model/errors.ts";
@@ -85,8 +84,8 @@ describe("degree-days over a period [start, end)", () => {
 
 describe("units", () => {
   it("65 °F = 18.333 °C; 15.5 °C = 59.9 °F; 1 °C·day = 1.8 °F·day (definition of the scales)", () => {
-    expect(fahrenheitToCelsius(65)).toBeCloseTo(18.3333333333, 9);
-    expect(celsiusToFahrenheit(15.5)).toBeCloseTo(59.9, 12);
+    expect(fToC(65)).toBeCloseTo(18.3333333333, 9);
+    expect(cToF(15.5)).toBeCloseTo(59.9, 12);
     expect(degreeDaysCToF(10)).toBeCloseTo(18, 12);
   });
 });
@@ -101,7 +100,7 @@ describe("Seattle hourly normals (vega-datasets)", () => {
     const header = lines[0].split(",");
     const col = header.indexOf("temperature");
     expect(col).toBeGreaterThan(-1);
-    const tempsF = lines.slice(1).map((l) => celsiusToFahrenheit(Number(l.split(",")[col])));
+    const tempsF = lines.slice(1).map((l) => cToF(Number(l.split(",")[col])));
     expect(tempsF.length).toBeGreaterThanOrEqual(8759);
     const hdd = degreeDaysFromHourly(tempsF, 65).heating;
     // Integration exceeds the daily-mean method whenever a day's range straddles the base;

@@ -6,7 +6,7 @@ import { tmpdir } from "node:os";
 import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import { loadPortfolio } from "../../src/ingest/index.ts";
 import { cutAtAsOf } from "../../src/pipeline/asOf.ts";
-import { assessIntervalMeters } from "../../src/pipeline/dataQuality.ts";
+import { assessIntervalMeters } from "../../src/clean/index.ts";
 import { analyseBuilding } from "../../src/pipeline/analyseBuilding.ts";
 import { buildingTask, hydrateResults, plainResults, toPlain } from "../../src/pipeline/buildingTask.ts";
 import type { Portfolio } from "../../src/domain/types.ts";

@@ -7,12 +7,13 @@
  */
 import { describe, expect, it } from "vitest";
 import { loadPortfolio } from "../../src/ingest/index.ts";
-import { assessIntervalMeters } from "../../src/pipeline/dataQuality.ts";
+import { assessIntervalMeters } from "../../src/clean/assessMeters.ts";
 import { analyseBuilding } from "../../src/pipeline/build.ts";
-import { meteredViewsByBill } from "../../src/pipeline/meteredViews.ts";
-import { localMidnightMs, lowerBound } from "../../src/core/time.ts";
+import { meteredViewsByBill } from "../../src/audit/meteredViews.ts";
 import type { Portfolio } from "../../src/domain/types.ts";
 import type { Tariff } from "../../src/tariff/index.ts";
+import { localMidnightMs } from "../../src/core/time/index.ts";
+import { lowerBound } from "../../src/core/sorted.ts";
 
 const ZONE = "America/New_York";
 

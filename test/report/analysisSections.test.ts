@@ -2,14 +2,15 @@ import { describe, expect, it } from "vitest";
 import type { Bill, Building, Meter } from "../../src/domain/types.ts";
 import type { ReportBaseline } from "../../src/report/input.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
-import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM, euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
-import { compareCommodity, weatherAdjusted } from "../../src/report/tenantPage.ts";
+import { euiKwhPerM2, kwhPerM2ToKbtuPerFt2, siteKwh } from "../../src/report/energy.ts";
+import { compareCommodity, signedPct, tenantMonths, tenantSentences } from "../../src/report/tenantPage.ts";
 import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
 import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour, qualitySections, weatherActionLabel } from "../../src/report/qualitySection.ts";
 import { describeDataFile } from "../../src/report/dataPage.ts";
 import { normalizedChangePct } from "../../src/report/portfolioCharts.ts";
 import type { BuildingContext } from "../../src/report/buildingPage.ts";
 import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
+import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../../src/core/units.ts";
 
 describe("energy conversions", () => {
   it("kBtu per kWh follows from the International Table Btu (NIST SP 811: 1 Btu_IT = 1,055.05585262 J)", () => {
@@ -23,10 +24,11 @@ describe("energy conversions", () => {
     expect(KWH_PER_THERM).toBeCloseTo((100_000 * 1055.05585262) / 3.6e6, 4);
   });
   it("converts EUI and site energy (hand-computed)", () => {
-    // 100 kWh/m² × 3.412142 / 10.7639 = 31.69986 kBtu/ft²
-    expect(kwhPerM2ToKbtuPerFt2(100)).toBeCloseTo(31.69986, 4);
-    expect(siteKwh("gas", "therm", 10)).toBeCloseTo(293.071, 6);
-    expect(siteKwh("gas", "ccf", 10)).toBeCloseTo(10 * 1.037 * 29.3071, 6);
+    // 100 kWh/m² × 3.4121416 kBtu/kWh ÷ 10.7639104 ft²/m² = 31.699832 kBtu/ft² (NIST SP 811 Btu, exact foot)
+    expect(kwhPerM2ToKbtuPerFt2(100)).toBeCloseTo(31.699832, 5);
+    // 1 therm = 100,000 Btu (EIA) = 29.3071070 kWh; ccf at the EIA average 1.037 therm/ccf
+    expect(siteKwh("gas", "therm", 10)).toBeCloseTo(293.071070, 5);
+    expect(siteKwh("gas", "ccf", 10)).toBeCloseTo(10 * 1.037 * 29.3071070, 5);
     expect(siteKwh("electricity", "MWh", 2)).toBe(2000);
     expect(siteKwh("water", "gal", 10)).toBeNull();
     expect(siteKwh("gas", "m3", 10)).toBeNull();
@@ -43,13 +45,7 @@ describe("tenant page comparison (fixture E1: latest bill E1-14 vs E1-02)", () =
   const b1 = portfolio.buildings[0];
   const meters = portfolio.meters.filter((m) => m.buildingId === "B1");
 
-  it("weather adjustment is actual × expected at typical ÷ expected at actual (hand-computed)", () => {
-    expect(weatherAdjusted(1000, 900, 1200)).toBeCloseTo(1333.3333, 4);
-    expect(weatherAdjusted(1000, 0, 1200)).toBeNull();
-    expect(weatherAdjusted(1000, undefined, 1200)).toBeNull();
-  });
-
-  it("compares use per day, weather-adjusted and per floor area (hand-computed)", () => {
+  it("compares use per day with the weather expectation and a year earlier, and per floor area (hand-computed)", () => {
     const c = compareCommodity("electricity", meters, billsByMeter, input.baselines, b1.floorAreaM2)!;
     // Both bills bill 37,794 kWh (30,000 × (1 + 0.3·cos 30°), rounded); E1-14 has 28 days
     // (Feb 5 – Mar 5, 2025), E1-02 29 days (Feb 5 – Mar 5, 2024, a leap year).
@@ -57,31 +53,107 @@ describe("tenant page comparison (fixture E1: latest bill E1-14 vs E1-02)", () =
     expect(c.lastYear!.use).toBe(37_794);
     expect(c.current.usePerDay).toBeCloseTo(37_794 / 28, 6);
     expect(c.changePct).toBeCloseTo((29 / 28 - 1) * 100, 6); // 3.5714 %
-    // E1-14: expected 0.9·u at actual, u at typical → ×1/0.9; E1-02: u at actual, 1.05·u at typical → ×1.05.
-    expect(c.current.adjustedPerDay).toBeCloseTo(37_794 / 0.9 / 28, 6); // 1499.76
-    expect(c.lastYear!.adjustedPerDay).toBeCloseTo((37_794 * 1.05) / 29, 6); // 1368.40
-    expect(c.adjustedChangePct).toBeCloseTo((29 / (0.9 * 28 * 1.05) - 1) * 100, 6); // 9.5994 %
+    // The fixture's expectation at actual weather: E1-14 0.9 × billed, E1-02 1.0 × billed.
+    expect(c.current.expectedPerDay).toBeCloseTo((0.9 * 37_794) / 28, 6); // 1214.8
+    expect(c.lastYear!.expectedPerDay).toBeCloseTo(37_794 / 29, 6);
+    expect(c.vsExpectedPct).toBeCloseTo((1 / 0.9 - 1) * 100, 6); // 11.11 %
+    expect([c.current.estimated, c.lastYear!.estimated]).toEqual([false, false]);
     // 52,000 ft² × 0.09290304 = 4,830.958 m²; 37,794 / 4,830.958 = 7.82330 kWh/m² → 2.47998 kBtu/ft².
     expect(c.perM2).toBeCloseTo(7.8233, 4);
     expect(c.perFt2).toBeCloseTo(2.47998, 4);
   });
 
-  it("gas is site energy in kWh (therm × 29.3071) and unadjusted without a model", () => {
+  it("gas is site energy in kWh (therm × 29.3071) and has no expectation without a model", () => {
     const g = compareCommodity("gas", meters, billsByMeter, input.baselines, b1.floorAreaM2)!;
     expect(g.unit).toBe("kWh");
-    expect(g.current.use).toBeCloseTo(1134 * 29.3071, 6);
-    expect(g.adjustedChangePct).toBeNull();
+    expect(g.current.use).toBeCloseTo(1134 * 29.3071070, 4);
+    expect(g.vsExpectedPct).toBeNull();
+    expect(tenantSentences(g).join(" ")).toContain("no reliable weather expectation");
   });
 
-  it("the tenant page names no findings, money or bill math", () => {
+  it("a baseline that misses Guideline 14 gives no expectation to occupants", () => {
+    const weak = input.baselines!.map((b) => ({ ...b, meetsGuideline14: false }));
+    expect(compareCommodity("electricity", meters, billsByMeter, weak, b1.floorAreaM2)!.vsExpectedPct).toBeNull();
+  });
+
+  it("an estimated bill a year earlier is marked, and never the only comparison", () => {
+    const marked = new Map([...billsByMeter].map(([k, v]) => [k, v.map((b) => (b.billId === "E1-02" ? { ...b, readType: "estimated" as const } : b))]));
+    const withModel = compareCommodity("electricity", meters, marked, input.baselines, b1.floorAreaM2)!;
+    expect(withModel.lastYear!.estimated).toBe(true);
+    const text = tenantSentences(withModel).join(" ");
+    expect(text).toContain("11.1 % higher than that estimate");
+    expect(text).toContain("The earlier figure is an estimate by the utility, not a meter reading.");
+    // Without the weather expectation the estimated bill would be the only comparison: it is not used.
+    const alone = tenantSentences(compareCommodity("electricity", meters, marked, [], b1.floorAreaM2)!).join(" ");
+    expect(alone).toContain("is an estimate by the utility, not a meter reading, so it is not used as a comparison on its own");
+    expect(alone).not.toMatch(/higher than|lower than|level with/);
+  });
+
+  it("an estimated latest bill says so", () => {
+    const marked = new Map([...billsByMeter].map(([k, v]) => [k, v.map((b) => (b.billId === "E1-14" ? { ...b, readType: "estimated" as const } : b))]));
+    const text = tenantSentences(compareCommodity("electricity", meters, marked, input.baselines, b1.floorAreaM2)!).join(" ");
+    expect(text).toContain("This figure is an estimate by the utility, not a meter reading");
+  });
+
+  it("signed changes never show −0 %", () => {
+    expect(signedPct(-0.04)).toBe("0 %");
+    expect(signedPct(0.04)).toBe("0 %");
+    expect(signedPct(3.5714)).toBe("+3.6 %");
+    expect(signedPct(-12.25)).toBe("−12.3 %");
+    expect(signedPct(null)).toBe("—");
+  });
+
+  it("chart months: the latest completely billed month and up to 13 before it, bills shared out by days (hand-computed)", () => {
+    const months = tenantMonths("electricity", meters, billsByMeter, input.baselines);
+    // E1 bills run Jan 5, 2024 – Mar 5, 2025: Jan 2024 and Mar 2025 are partly billed, so Feb 2024 … Feb 2025.
+    expect(months.map((m) => m.month)).toEqual(["2024-02", "2024-03", "2024-04", "2024-05", "2024-06", "2024-07", "2024-08", "2024-09", "2024-10", "2024-11", "2024-12", "2025-01", "2025-02"]);
+    const e1 = billsByMeter.get("E1")!;
+    const u13 = e1.find((b) => b.billId === "E1-13")!.usage; // Jan 5 – Feb 5, 2025: 31 days, 4 in February
+    const u14 = e1.find((b) => b.billId === "E1-14")!.usage; // Feb 5 – Mar 5, 2025: 28 days, 24 in February
+    const feb = months[months.length - 1];
+    expect(feb.perDay).toBeCloseTo(((u13 * 4) / 31 + (u14 * 24) / 28) / 28, 6);
+    expect(feb.expectedPerDay).toBeCloseTo(((0.98 * u13 * 4) / 31 + (0.9 * u14 * 24) / 28) / 28, 6);
+    // E1-04 (Apr 5 – May 5, 2024) is the fixture's estimated read.
+    expect(months.filter((m) => m.estimated).map((m) => m.month)).toEqual(["2024-04", "2024-05"]);
+  });
+
+  it("a month the bills leave partly uncovered keeps its place on the chart with no value", () => {
+    // Without E1-07 (Jul 5 – Aug 5, 2024) July and August 2024 are only partly billed.
+    const holed = new Map([...billsByMeter].map(([k, v]) => [k, v.filter((b) => b.billId !== "E1-07")]));
+    const months = tenantMonths("electricity", meters, holed, input.baselines);
+    expect(months).toHaveLength(13);
+    expect(months.filter((m) => m.perDay == null).map((m) => m.month)).toEqual(["2024-07", "2024-08"]);
+    const page = buildSiteModel({ ...input, portfolio: { ...portfolio, bills: portfolio.bills.filter((b) => b.billId !== "E1-07") } }).tenants[0];
+    const chart = page.commodities[0].chart!;
+    expect(chart.description).toContain("No bar for Jul 2024, Aug 2024: the bills for those months leave days out or cover some twice.");
+    expect(chart.table.rows.find((r) => r[0].text === "Jul 2024")!.map((c) => c.text)).toEqual(["Jul 2024", "—", "—", "not shown: the bills leave days out or cover some twice"]);
+  });
+
+  it("the tenant page names no findings, money or bill math, and only the commodities the building has", () => {
     const model = buildSiteModel(input);
     expect(model.tenants.map((t) => t.path)).toEqual(["buildings/B1/tenant.html"]);
-    const text = JSON.stringify(model.tenants[0]);
-    for (const word of ["finding", "audit", "$", "USD", "cost", "tariff", "recomputed", "at stake", "charge"]) {
+    const page = model.tenants[0];
+    const text = JSON.stringify(page);
+    for (const word of ["finding", "audit", "$", "USD", "cost", "tariff", "recomputed", "at stake", "charge", "model", "CV(RMSE)"]) {
       expect(text.toLowerCase(), word).not.toContain(word.toLowerCase());
     }
-    expect(model.tenants[0].commodities[0].sentences.join(" ")).toContain("3.6 % more per day than in the same period last year");
-    expect(model.tenants[0].commodities[0].sentences.join(" ")).toContain("9.6 % more per day");
+    // B1 has electricity and gas meters, no water meter.
+    expect(page.commodities.map((c) => c.commodity)).toEqual(["electricity", "gas"]);
+    expect(page.title).toBe("Heron Street Office: electricity and gas use");
+    expect(text).not.toMatch(/water/i);
+    const sentences = page.commodities[0].sentences.join(" ");
+    expect(sentences).toContain("Actual use was 11.1 % higher than that estimate.");
+    expect(sentences).toContain("the latest bill is 3.6 % higher than that.");
+    expect(sentences).not.toMatch(/more per day than|allowing for the weather/);
+    expect(page.caution).toMatch(/meter readings and local weather.*Expected figures are estimates/);
+    expect(page.commodities[0].chart!.months).toHaveLength(13);
+    expect(page.contact).toBeNull();
+  });
+
+  it("shows the building's contact line from portfolio.yaml", () => {
+    const withContact = fullFixtureInput();
+    withContact.portfolio.settings.contacts = { B1: "Site office: Mon–Fri 8–5, 555-0142" };
+    expect(buildSiteModel(withContact).tenants[0].contact).toBe("Site office: Mon–Fri 8–5, 555-0142");
   });
 });
 
@@ -97,7 +169,12 @@ describe("Guideline 14 verdict", () => {
     expect(v.tone).toBe("warn");
     expect(v.text).toContain("CV(RMSE) 18.2 % is above 15 %");
     expect(v.text).not.toContain("NMBE 0.5");
-    expect(verdictFor({ cvRmsePct: 8, nmbePct: 0.4, r2: 0.9, n: 12, p: 3 }).tone).toBe("ok");
+    expect(verdictFor({ cvRmsePct: 8, nmbePct: 0.4, r2: 0.9, n: 12, p: 3 })).toEqual({
+      tone: "ok",
+      text: "Close fit: CV(RMSE) 8 % and NMBE 0.4 % are inside the monthly limits of ASHRAE Guideline 14 (15 % and ±5 %), so this meter's weather-normalized figures are fit for comparing one year with another.",
+    });
+    expect(v.text).toMatch(/^Loose fit: /);
+    expect(v.text).not.toMatch(/Meets|can be relied on/);
     expect(verdictFor(null).tone).toBe("none");
   });
 });
@@ -251,8 +328,11 @@ describe("building page wiring (full fixture)", () => {
   });
 
   it("index: forecast range from the portfolio total, tenant link", () => {
-    const f = model.index.headline.find((h) => h.label.startsWith("Forecast cost"))!;
-    expect(f).toEqual({ label: "Forecast cost, next 12 months", value: "$13,410.00 (80 % range $13,100.00 – $13,800.00)" });
+    // Cost first: next year's likely cost leads the index's money cards, and the count list carries no money.
+    expect(model.index.costFigures[0]).toEqual({ id: "forecast-total", label: "Forecast cost, next 12 months", value: "$13,410.00", note: "likely (P50); 80 % range $13,100.00 – $13,800.00" });
+    expect(model.index.costFigures[1]).toMatchObject({ id: "billed-total", label: "Billed cost, last 12 months" });
+    expect(model.index.headline.map((h) => h.value).join(" ")).not.toContain("$");
+    expect(model.index.headline.map((h) => h.label).join(" ")).not.toMatch(/weather-normalized|forecast/i);
     expect(model.index.tenantLinks).toEqual([{ name: "Heron Street Office", href: "buildings/B1/tenant.html" }]);
   });
 });

@@ -131,7 +131,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
   });
 
   it("puts findings on the building page, largest money first", () => {
-    expect(b1.findingsTable!.rows[0][0].text).toBe("Bill total differs from the tariff");
+    expect(b1.findingsTable!.rows[0][0].text).toBe("Total does not add up under the tariff");
     expect(model.buildings[1].findingsTable!.rows).toEqual([]);
   });
 

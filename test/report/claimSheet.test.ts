@@ -31,7 +31,7 @@ describe("claim sheet", () => {
     expect(value(s.header, "Billed")).toBe("$49,935.66");
     expect(value(s.header, "Corrected")).toBe("$24,967.83");
     expect(value(s.header, "Corrected on")).toBe("Wrong meter multiplier");
-    expect(value(s.header, "Checks")).toBe("Possible meter multiplier error; Billed usage differs from the interval meter; Bill total differs from the tariff");
+    expect(value(s.header, "Checks")).toBe("Meter multiplier looks wrong; Billed use and the meter disagree; Total does not add up under the tariff");
     expect(value(s.header, "Prepared")).toBe("Jan 15, 2026");
     expect(s.what).toBe("Billed usage is twice what the meter recorded");
     expect(s.explanation).toBe("Usage and demand on both bills are exactly 2 × the interval data.");

@@ -165,14 +165,14 @@ describe("findings by check", () => {
     const t = findingsByCheckTable(input.findings, input.disputes, "USD")!;
     expect(t.columns.map((c) => c.label)).toEqual(["Check", "Findings", "Claims", "Claimed", "Back-billing risks", "May be billed later"]);
     const byCheck = new Map(t.rows.map((r) => [r[0].text, r.slice(1).map((c) => c.text)]));
-    expect(byCheck.get("Possible meter multiplier error")).toEqual(["0", "1", "$24,967.83", "0", "—"]);
-    expect(byCheck.get("Possible duplicate bill")).toEqual(["0", "1", "$826.90", "0", "—"]);
-    expect(byCheck.get("Gap between billing periods")).toEqual(["0", "0", "—", "1", "$5,693.48"]);
+    expect(byCheck.get("Meter multiplier looks wrong")).toEqual(["0", "1", "$24,967.83", "0", "—"]);
+    expect(byCheck.get("The same period billed twice")).toEqual(["0", "1", "$826.90", "0", "—"]);
+    expect(byCheck.get("Days that no bill covers")).toEqual(["0", "0", "—", "1", "$5,693.48"]);
     // Fixture findings: one total mismatch (with money) and one estimated read.
-    expect(byCheck.get("Bill total differs from the tariff")).toEqual(["1", "0", "—", "1", "$12.34"]);
-    expect(byCheck.get("Estimated meter read")).toEqual(["1", "0", "—", "0", "—"]);
+    expect(byCheck.get("Total does not add up under the tariff")).toEqual(["1", "0", "—", "1", "$12.34"]);
+    expect(byCheck.get("Bill based on an estimate, not a reading")).toEqual(["1", "0", "—", "0", "—"]);
     // Largest claimed first; the claimed column adds up to the index tile.
-    expect(t.rows[0][0].text).toBe("Possible meter multiplier error");
+    expect(t.rows[0][0].text).toBe("Meter multiplier looks wrong");
     expect(sumCents(t.rows.map((r) => Number(r[3].sort)))).toBe(25_866.33);
   });
 

@@ -5,7 +5,8 @@
 import type { Bill, Building, Meter, Portfolio, PortfolioSettings } from "../../src/domain/types.ts";
 import type { ComputedBill } from "../../src/tariff/types.ts";
 import { DEFAULT_SETTINGS } from "../../src/ingest/portfolioYaml.ts";
-import type { MonthlyMetered, PricedBill, ReportInput } from "../../src/report/input.ts";
+import type { MonthlyMetered, ReportInput } from "../../src/report/input.ts";
+import type { PricedBill } from "../../src/tariff/priceMeterBills.ts";
 
 export const EVIL_NAME = `<script>alert(1)</script> & "Annex"`;
 

@@ -1,3 +1,4 @@
+import { TimeInputError } from "../../src/core/errors.ts";
 import { describe, expect, it } from "vitest";
 import {
   NOT_AVAILABLE,
@@ -63,7 +64,7 @@ describe("dates", () => {
     expect(formatPeriod("2024-02-05", "2024-03-05")).toBe("Feb 5, 2024 – Mar 4, 2024");
   });
   it("rejects malformed dates instead of printing Invalid Date", () => {
-    expect(() => formatDate("2025/01/31")).toThrow(RangeError);
+    expect(() => formatDate("2025/01/31")).toThrow(TimeInputError);
   });
 });
 

@@ -7,9 +7,9 @@
 import { describe, expect, it } from "vitest";
 import type { Portfolio } from "../../src/domain/types.ts";
 import type { Tariff } from "../../src/tariff/index.ts";
-import { buildDataFiles } from "../../src/pipeline/outputs.ts";
-import { toReportInput } from "../../src/pipeline/reportInput.ts";
-import type { BuildingResults } from "../../src/pipeline/build.ts";
+import { buildDataFiles } from "../../src/report/dataFiles.ts";
+import { toReportInput } from "../../src/report/fromAnalysis.ts";
+import type { BuildingResults } from "../../src/report/fromAnalysis.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { fixtureInput } from "./fixture.ts";
 

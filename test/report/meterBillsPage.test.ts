@@ -74,8 +74,8 @@ describe("meter bills pages", () => {
 
 describe("bills left out of a baseline", () => {
   it("name the audit check in words, not by its code", () => {
-    expect(exclusionText("audit finding: duplicate-bill")).toBe("audit finding: possible duplicate bill");
-    expect(exclusionText("audit finding: usage-vs-meter")).toBe("audit finding: billed usage differs from the interval meter");
+    expect(exclusionText("audit finding: duplicate-bill")).toBe("audit finding: the same period billed twice");
+    expect(exclusionText("audit finding: usage-vs-meter")).toBe("audit finding: billed use and the meter disagree");
     expect(exclusionText("estimated read")).toBe("estimated read");
   });
 });

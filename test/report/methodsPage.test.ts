@@ -10,8 +10,14 @@ describe("methods page", () => {
   it("explains every check code of the outputs contract once, in contract order", () => {
     expect(checkExplanations(tol, "USD").map((c) => c.code)).toEqual([...CHECK_CODES]);
     const page = buildMethodsPage("USD", "the 12 months up to each meter's last read", tol);
-    expect(page.checksTable.rows).toHaveLength(13);
-    for (const row of page.checksTable.rows) for (const cell of row) expect(cell.text.length, row[0].text).toBeGreaterThan(3);
+    // Grouped by what to do (claim, ask, note): every code in exactly one group, each with its words.
+    const checks = page.checkGroups.flatMap((g) => g.checks);
+    expect(checks.map((c) => c.code).sort()).toEqual([...CHECK_CODES].sort());
+    expect(page.checkGroups.map((g) => g.heading)).toEqual(["Money to raise with the utility", "Questions to ask before paying", "Worth knowing, nothing to claim"]);
+    for (const c of checks) for (const text of [c.title, c.looksFor, c.rule, c.severity, c.amount, c.source]) expect(text.length, c.code).toBeGreaterThan(3);
+    // Every check with money of its own is in the claim group; the note group carries none.
+    const note = page.checkGroups[2].checks;
+    for (const c of note) expect(c.amount, c.code).toMatch(/^None/);
   });
 
   it("states the portfolio's money rule (BOTH limits) and tolerances in the rules", () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { addMonthsIso, last12MonthsText, prorateToWindow, spreadOverMonths } from "../../src/report/periods.ts";
+import { last12MonthsText, prorateToWindow } from "../../src/report/periods.ts";
 import type { Bill } from "../../src/domain/types.ts";
 
 const bill = (start: string, end: string): Bill => ({
@@ -31,7 +31,7 @@ describe("proration by days (hand-computed)", () => {
   it("spreads a period over calendar months and conserves the amount", () => {
     // 2025-01-16..2025-02-17 = 32 days: 16 in January, 16 in February.
     const parts = spreadOverMonths(64, "2025-01-16", "2025-02-17");
-    expect(parts).toEqual([{ month: "2025-01", amount: 32 }, { month: "2025-02", amount: 32 }]);
+    expect(parts).toEqual([{ month: "2025-01", amount: 32, days: 16 }, { month: "2025-02", amount: 32, days: 16 }]);
     const long = spreadOverMonths(1000, "2024-11-20", "2025-02-03");
     expect(long.map((p) => p.month)).toEqual(["2024-11", "2024-12", "2025-01", "2025-02"]);
     expect(long.reduce((s, p) => s + p.amount, 0)).toBeCloseTo(1000, 9);
@@ -39,6 +39,7 @@ describe("proration by days (hand-computed)", () => {
 });
 
 import { partialMonthsNote } from "../../src/report/coverage.ts";
+import { addMonthsIso, spreadOverMonths } from "../../src/core/time/index.ts";
 
 describe("partialMonthsNote (hand-computed)", () => {
   it("names edge months that bills cover only in part", () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
-import type { ChartModel, HeatmapChartModel } from "../../src/report/siteModel.ts";
+import type { ChartModel, HeatmapChartModel, TenantChartModel } from "../../src/report/siteModel.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { chartSpec, prepareChart } from "../../src/site/prepareSite.ts";
 import { heatmapSvg } from "../../src/site/charts/heatmapSvg.ts";
@@ -17,14 +17,15 @@ const charts: ChartModel[] = [
   model.index.intensityChart!,
   ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...(b.forecast?.chart ? [b.forecast.chart] : [])]),
   ...model.meterBills.flatMap((m) => [...(m.baseline?.charts ?? []), ...(m.quality?.charts ?? [])]),
+  ...model.tenants.flatMap((t) => t.commodities.flatMap((c) => (c.chart ? [c.chart] : []))),
 ];
 
 describe("analysis chart specs", () => {
   it("covers every chart kind", () => {
-    expect(new Set(charts.map((c) => c.kind))).toEqual(new Set(["monthly-cost", "monthly-usage", "ranking", "baseline-scatter", "baseline-time", "quality-heatmap", "forecast-band"]));
+    expect(new Set(charts.map((c) => c.kind))).toEqual(new Set(["monthly-cost", "monthly-usage", "ranking", "baseline-scatter", "baseline-time", "quality-heatmap", "forecast-band", "tenant-months"]));
   });
 
-  for (const kind of ["ranking", "baseline-scatter", "baseline-time", "quality-heatmap", "forecast-band"]) {
+  for (const kind of ["ranking", "baseline-scatter", "baseline-time", "quality-heatmap", "forecast-band", "tenant-months"]) {
     it(`${kind}: valid against the Vega-Lite schema`, () => {
       for (const c of charts.filter((x) => x.kind === kind)) expect(validate(chartSpec(c), vlSchema, vlSchema)).toEqual([]);
     });
@@ -53,6 +54,30 @@ describe("analysis chart specs", () => {
     const bareSpec = chartSpec(bare) as { layer: unknown[] };
     expect(bareSpec.layer).toHaveLength(2);
     expect(validate(bareSpec, vlSchema, vlSchema)).toEqual([]);
+  });
+
+  it("tenant-months: bars by month status and the dashed expectation line; a colour per status, the latest month its own", async () => {
+    const electricity = charts.find((c) => c.kind === "tenant-months" && c.id === "tenant-electricity-months")!;
+    const spec = chartSpec(electricity) as { layer: { mark: { type: string }; encoding: { color: { scale?: { domain: string[] } } } }[]; data: { values: { status: string; expected: number | null }[] } };
+    expect(spec.layer.map((l) => l.mark.type)).toEqual(["bar", "line"]);
+    // Fixture E1: Feb 2024 – Feb 2025, Apr and May 2024 touched by the estimated bill E1-04.
+    expect(spec.layer[0].encoding.color.scale!.domain).toEqual(["Earlier months", "Latest month", "Includes an estimate", "Expected for the weather (estimate)"]);
+    expect(spec.data.values.filter((v) => v.status === "Latest month")).toHaveLength(1);
+    expect(spec.data.values.every((v) => v.expected != null)).toBe(true);
+    // Gas (G1) has no accepted weather baseline: bars only, no line, no legend entry for it.
+    const gas = charts.find((c) => c.id === "tenant-gas-months")!;
+    const gasSpec = chartSpec(gas) as { layer: { encoding: { color: { scale?: { domain: string[] } } } }[] };
+    expect(gasSpec.layer).toHaveLength(1);
+    expect(gasSpec.layer[0].encoding.color.scale!.domain).not.toContain("Expected for the weather (estimate)");
+    // A month with no bar (perDay null) keeps its place: the axis lists every month, the bars skip it.
+    const holed = { ...electricity, months: (electricity as TenantChartModel).months.map((m, i) => (i === 3 ? { ...m, perDay: null } : m)) } as ChartModel;
+    const holedSpec = chartSpec(holed) as { layer: { transform?: unknown[]; encoding: { x: { scale: { domain: string[] } } } }[] };
+    expect(holedSpec.layer[0].encoding.x.scale.domain).toEqual((electricity as TenantChartModel).months.map((m) => m.label));
+    expect(holedSpec.layer[0].transform).toEqual([{ filter: "isValid(datum.perDay)" }]);
+    expect(validate(holedSpec, vlSchema, vlSchema)).toEqual([]);
+    const ready = await prepareChart(electricity);
+    expect(ready.svg).toContain("mark-line");
+    expect(ready.svg).toContain('aria-label="Bars: electricity use per day in kWh');
   });
 
   it("ships compiled Vega to the page and renders a server SVG for every kind", async () => {

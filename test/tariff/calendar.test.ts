@@ -2,7 +2,8 @@
 import fc from "fast-check";
 import { DateTime } from "luxon";
 import { describe, expect, it } from "vitest";
-import { localTimes, matchPeriod } from "../../src/tariff/calendar.ts";
+import { matchPeriod } from "../../src/tariff/calendar.ts";
+import { localTimes } from "../../src/core/time/index.ts";
 import type { Period } from "../../src/tariff/model.ts";
 
 describe("localTimes", () => {

@@ -146,3 +146,26 @@ describe("runPrice", () => {
     }
   });
 });
+
+describe("price reads interval files as build does", () => {
+  const demo = join(import.meta.dirname, "..", "..", "data", "demo");
+  const whs = join(demo, "intervals", "WHS-E.csv");
+  const whsTariff = join(demo, "tariffs", readFileSync(join(demo, "meters.csv"), "utf8").split("\n").find((l) => l.startsWith("WHS-E,"))!.split(",")[4] + ".yaml");
+
+  it("a timestamp without an offset and no --timezone is an error naming file:line:column, never a silent UTC", async () => {
+    const r = await run("--tariff", whsTariff, "--intervals", whs, "--meter", "WHS-E", "--from", "2024-10-01", "--to", "2024-11-01");
+    expect(r.code).toBe(1);
+    expect(r.out).toBe("");
+    expect(r.err).toContain(`${whs}:2:7: timestamp '2024-09-06T00:00:00' has no UTC offset; pass --timezone ZONE`);
+  });
+
+  it("the same instants and values as the build's reader (src/ingest), DST changes included", async () => {
+    const { loadPortfolio, readMeterIntervalFile } = await import("../../src/ingest/index.ts");
+    const built = (await loadPortfolio(demo)).portfolio!.intervals.get("WHS-E")!;
+    const read = await readMeterIntervalFile(whs, { fileLabel: "WHS-E.csv", meterId: "WHS-E", zone: "America/Chicago", stamp: "start" }); // cedar-flats, buildings.csv
+    expect(read.issues.filter((x) => x.severity === "error")).toEqual([]);
+    expect(read.series!.intervalMinutes).toBe(built.intervalMinutes);
+    expect(Array.from(read.series!.startMs)).toEqual(Array.from(built.startMs));
+    expect(Array.from(read.series!.values)).toEqual(Array.from(built.values));
+  });
+});

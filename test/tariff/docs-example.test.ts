@@ -1,14 +1,14 @@
-/** The annotated example in the README ("Writing a tariff file") must stay a valid, priceable file. */
+/** The annotated example in docs/tariffs.md ("A complete example") must stay a valid, priceable file. */
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { priceBill } from "../../src/tariff/price.ts";
 import { tariffOf } from "./helpers.ts";
 
-const doc = readFileSync(new URL("../../README.md", import.meta.url), "utf8");
-const guide = doc.slice(doc.indexOf("## Writing a tariff file"));
+const doc = readFileSync(new URL("../../docs/tariffs.md", import.meta.url), "utf8");
+const guide = doc.slice(doc.indexOf("## A complete example"));
 const yaml = /```yaml\n([\s\S]*?)```/.exec(guide)?.[1] ?? "";
 
-describe("README tariff example", () => {
+describe("docs/tariffs.md tariff example", () => {
   it("loads without issues and prices a bill across its rate change", () => {
     const t = tariffOf(yaml);
     expect(t.versions.map((v) => v.from)).toEqual(["2024-01-01", "2025-07-01"]);

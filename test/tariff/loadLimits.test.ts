@@ -44,9 +44,8 @@ describe("YAML shape limits", () => {
     expect(yamlLimitProblem(many)).toMatchObject({ line: 2 });
     const bomb = ['l0: &l0 ["x","x","x","x","x","x","x","x","x","x"]'];
     for (let i = 1; i <= 9; i++) bomb.push(`l${i}: &l${i} [${Array(10).fill(`*l${i - 1}`).join(",")}]`);
-    const t0 = Date.now();
+    // Refused by counting aliases before parsing, so nothing is expanded (a hang would hit the test timeout).
     const r = loadTariff(`${BASE.join("\n")}\n${bomb.join("\n")}\n`, "tariffs/t.yaml");
-    expect(Date.now() - t0).toBeLessThan(5000);
     expect(r.issues.some((i) => i.severity === "error" && i.line === 9)).toBe(true);
   });
   it("deep block indentation is refused", () => {

@@ -1,6 +1,6 @@
 /**
  * Worked examples, one per charge kind. Every expected amount below is hand-computed and the
- * arithmetic is written next to it; rules come from the README, "Writing a tariff file" (the format).
+ * arithmetic is written next to it; rules come from docs/tariffs.md (the format).
  * All utilities and rates are fictional.
  */
 import { describe, expect, it } from "vitest";

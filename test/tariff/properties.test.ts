@@ -2,9 +2,9 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { priceBill } from "../../src/tariff/price.ts";
-import { roundCents } from "../../src/tariff/rounding.ts";
 import type { IntervalUsage } from "../../src/tariff/types.ts";
 import { tariffOf } from "./helpers.ts";
+import { roundCents } from "../../src/core/money.ts";
 
 const RICH = tariffOf(`
 id: lvp-rich

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { GAL_PER_CCF, KWH_PER_THERM, unitFactor } from "../../src/tariff/units.ts";
+import { unitFactor } from "../../src/tariff/units.ts";
+import { GAL_PER_CCF, KWH_PER_THERM } from "../../src/core/units.ts";
 
 describe("unitFactor", () => {
   it("1 therm = 29.3071 kWh (100,000 Btu, EIA; Btu = 1055.05585262 J, NIST SP 811)", () => {

@@ -8,11 +8,12 @@
  * Amount = billed total − total re-priced with the metered peak (null without a reprice hook).
  */
 import { billFinding, type AuditContext } from "../context.ts";
-import { formatMoney, formatPct, formatQty } from "../format.ts";
+import { formatPct, formatQty } from "../format.ts";
 import { exceedsPct } from "../tolerances.ts";
 import type { EvidenceRow, Finding } from "../types.ts";
 import { comparableMetered, moneyAtStakeOnQuantities } from "./metered.ts";
 import { repricedCorrection } from "../corrections.ts";
+import { moneyText } from "../../core/money.ts";
 
 /** demand-vs-meter findings for every bill with a printed demand and comparable interval data. */
 export function checkDemandVsMeter(ctx: AuditContext): Finding[] {
@@ -27,7 +28,7 @@ export function checkDemandVsMeter(ctx: AuditContext): Finding[] {
     const money = moneyAtStakeOnQuantities(ctx, bill, bill.usage, m.peakKw);
     const window = m.peakWindowMinutes ?? ctx.tol.demandWindowMinutes;
     const notes = [`Peak = highest ${window}-minute average over intervals wholly inside the period; coverage ${formatPct(m.coverage)}.`];
-    if (money) notes.push(`Re-priced with the metered peak: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
+    if (money) notes.push(`Re-priced with the metered peak: ${moneyText(money.repricedTotal, ctx.currency)}.`);
     const rows: EvidenceRow[] = [{ label: m.flaggedIntervals ? "Demand (kW), flagged readings left out" : "Demand (kW)", billed: bill.demandKw, expected: Number(m.peakKw.toFixed(3)), difference: Number(diff.toFixed(3)) }];
     if (m.raw && m.flaggedIntervals) {
       notes.push(`${m.flaggedIntervals} reading(s) in this period were flagged by the data-quality stage and are left out of the peak. No amount rests on them.`);

@@ -10,10 +10,11 @@ import { voidCorrection } from "../corrections.ts";
 import type { Bill } from "../../domain/types.ts";
 import type { AuditContext } from "../context.ts";
 import { billFinding } from "../context.ts";
-import { daysBetween, maxDate, minDate } from "../dates.ts";
-import { formatMoney, formatQty } from "../format.ts";
-import { roundCents, toCents } from "../tolerances.ts";
+import { maxDate, minDate } from "../dates.ts";
+import { formatQty } from "../format.ts";
 import type { Finding } from "../types.ts";
+import { daysBetween } from "../../core/time/index.ts";
+import { moneyText, roundCents, toCents } from "../../core/money.ts";
 
 export interface DuplicatePair {
   original: Bill;
@@ -71,7 +72,7 @@ export function checkDuplicateBill(ctx: AuditContext): Finding[] {
         `Bill ${duplicate.billId} repeats bill ${original.billId} ` +
         (same ? `for the same service period ${duplicate.periodStart} to ${duplicate.periodEnd}` :
           `with the same usage and total over an overlapping period`) +
-        `, so paying both pays ${formatMoney(duplicate.total, ctx.currency)} twice.`,
+        `, so paying both pays ${moneyText(duplicate.total, ctx.currency)} twice.`,
       evidence: {
         rows: [
           { label: "Period", billed: `${duplicate.periodStart} to ${duplicate.periodEnd}`, expected: `${original.periodStart} to ${original.periodEnd}` },

@@ -10,9 +10,9 @@
  */
 import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, billFinding, buildingOf, type AuditContext } from "../context.ts";
-import { daysBetween } from "../dates.ts";
 import { formatQty } from "../format.ts";
 import type { Finding } from "../types.ts";
+import { daysBetween } from "../../core/time/index.ts";
 
 function usePerDay(bills: Bill[]): number {
   const days = bills.reduce((s, b) => s + daysBetween(b.periodStart, b.periodEnd), 0);

@@ -1,12 +1,12 @@
 /** Matching printed bill lines to computed tariff charges. */
 import type { BillLine } from "../../domain/types.ts";
-import type { ComputedLine } from "../../tariff/types.ts";
+import type { ComputedLine } from "../../tariff/index.ts";
 
 /**
  * Label key: case- and space-insensitive, as the input contract says.
  * @example labelKey("  Customer   Charge ") === labelKey("customer charge") // true
  */
-export function labelKey(label: string): string {
+function labelKey(label: string): string {
   return label.toLowerCase().replace(/\s+/g, "");
 }
 

@@ -6,11 +6,11 @@
  * amount = printed − computed for that line.
  */
 import { billFinding, type AuditContext } from "../context.ts";
-import { formatMoney } from "../format.ts";
-import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
+import { exceedsMoneyTolerance } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
 import { groupLines } from "./labels.ts";
 import { adjustedCorrection } from "../corrections.ts";
+import { moneyText, roundCents } from "../../core/money.ts";
 
 /** line-mismatch findings for every bill with printed lines. */
 export function checkLineMismatch(ctx: AuditContext): Finding[] {
@@ -29,12 +29,12 @@ export function checkLineMismatch(ctx: AuditContext): Finding[] {
       out.push(billFinding(ctx, bill, {
         check: "line-mismatch", severity: "error", amountAtStake: diff,
         title: `"${g.label}" charge differs from the tariff`,
-        message: `The "${g.label}" line of bill ${bill.billId} is ${formatMoney(g.printed, ctx.currency)} but the tariff gives ${formatMoney(g.computed, ctx.currency)} (${math}), a difference of ${formatMoney(diff, ctx.currency)}.`,
+        message: `The "${g.label}" line of bill ${bill.billId} is ${moneyText(g.printed, ctx.currency)} but the tariff gives ${moneyText(g.computed, ctx.currency)} (${math}), a difference of ${moneyText(diff, ctx.currency)}.`,
         evidence: {
           rows: [{ label: g.label, billed: roundCents(g.printed), expected: roundCents(g.computed), difference: diff }],
           notes: g.computedLines.map((l) => l.note).filter((n): n is string => !!n),
         },
-        corrections: [adjustedCorrection(bill, diff, computed, `the printed bill with the "${g.label}" line at the tariff's ${formatMoney(g.computed, ctx.currency)}`)],
+        corrections: [adjustedCorrection(bill, diff, computed, `the printed bill with the "${g.label}" line at the tariff's ${moneyText(g.computed, ctx.currency)}`)],
       }));
     }
   }

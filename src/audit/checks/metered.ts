@@ -1,9 +1,9 @@
 /** Shared access to a bill's metered reconciliation and to the re-pricing hook. */
 import type { Bill } from "../../domain/types.ts";
-import type { ComputedBill } from "../../tariff/types.ts";
+import type { ComputedBill } from "../../tariff/index.ts";
 import type { AuditContext } from "../context.ts";
-import { roundCents } from "../tolerances.ts";
 import type { MeteredPeriod } from "../types.ts";
+import { roundCents } from "../../core/money.ts";
 
 /** Metered period usable for comparison: present, with data, coverage at least `minCoverage`. */
 export function comparableMetered(ctx: AuditContext, bill: Bill): MeteredPeriod | null {

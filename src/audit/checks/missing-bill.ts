@@ -12,15 +12,16 @@
  * Amount = − the metered use of the stretch priced through the tariff (see unbilled.ts): nothing
  * was overbilled, but the utility may still bill it.
  */
-import { DateTime, IANAZone } from "luxon";
 import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
-import { addDays, daysBetween, minDate } from "../dates.ts";
+import { minDate } from "../dates.ts";
 import { formatPct, formatQty } from "../format.ts";
 import { meteredForPeriod } from "../reconcile.ts";
 import type { Finding, MeteredPeriod, Severity } from "../types.ts";
-import { formatMoney } from "../format.ts";
 import { unbilledCorrection } from "./unbilled.ts";
+import { addDays, daysBetween, isValidZone, localDateOf } from "../../core/time/index.ts";
+import { moneyText } from "../../core/money.ts";
+import { expectedProblem } from "../../core/errors.ts";
 
 const MIN_GAP_COVERAGE = 0.5;
 
@@ -47,9 +48,9 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
     let lastIdx = series.values.length - 1;
     while (lastIdx >= 0 && !Number.isFinite(series.values[lastIdx])) lastIdx--;
     if (firstIdx > lastIdx) continue;
-    if (!IANAZone.isValidZone(zone)) continue;
-    const dataStart = DateTime.fromMillis(series.startMs[firstIdx], { zone }).toISODate()!;
-    let dataEnd = addDays(DateTime.fromMillis(series.startMs[lastIdx], { zone }).toISODate()!, 1);
+    if (!isValidZone(zone)) continue;
+    const dataStart = localDateOf(series.startMs[firstIdx], zone);
+    let dataEnd = addDays(localDateOf(series.startMs[lastIdx], zone), 1);
     dataEnd = minDate(dataEnd, asOfEnd);
     const unit = meter.unit;
 
@@ -58,7 +59,8 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
       let m: MeteredPeriod;
       try {
         m = meteredForPeriod(series, meter.multiplier, from, to, zone, 15, null);
-      } catch {
+      } catch (error) {
+        expectedProblem(error);
         return; // unresolvable zone or date: ingest reports it
       }
       if (m.coverage < MIN_GAP_COVERAGE) return;
@@ -73,7 +75,7 @@ export function checkMissingBill(ctx: AuditContext): Finding[] {
         buildingId: buildingOf(ctx, meterId), meterId, billId: null, periodStart: from, periodEnd: to,
         check: "missing-bill", severity, amountAtStake: worth && severity !== "info" ? -worth.correctedTotal : null,
         title: "Metered use with no bill",
-        message: `The interval meter recorded ${formatQty(m.usage)} ${unit} over the ${days} day${days === 1 ? "" : "s"} from ${from} to ${to}, but no bill of meter ${meterId} covers them (${why}).${worth ? ` Priced through the tariff that use is worth ${formatMoney(worth.correctedTotal, ctx.currency)}.` : ""}`,
+        message: `The interval meter recorded ${formatQty(m.usage)} ${unit} over the ${days} day${days === 1 ? "" : "s"} from ${from} to ${to}, but no bill of meter ${meterId} covers them (${why}).${worth ? ` Priced through the tariff that use is worth ${moneyText(worth.correctedTotal, ctx.currency)}.` : ""}`,
         evidence: {
           rows: [{ label: `Usage (${unit})`, billed: null, expected: Number(m.usage.toFixed(3)) }],
           notes: [`Interval coverage of the stretch ${formatPct(m.coverage)}.`],

@@ -14,11 +14,11 @@
  */
 import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
-import { formatMoney, formatQty } from "../format.ts";
-import { roundCents } from "../tolerances.ts";
+import { formatQty } from "../format.ts";
 import type { CorrectedBill, Finding } from "../types.ts";
 import { comparableMetered, fullPeriodUsage, moneyAtStakeOnQuantities } from "./metered.ts";
 import { repricedCorrection } from "../corrections.ts";
+import { moneyText, roundCents } from "../../core/money.ts";
 
 export const COMMON_RATIOS = [2, 10, 20, 30, 40, 50, 60, 80, 100, 120, 150, 160, 200, 240, 300, 400, 500, 600, 800, 1000, 1200];
 
@@ -112,7 +112,7 @@ function runFinding(
     if (money === null) { total = null; break; }
     total += money.amount;
     corrections.push(repricedCorrection(bill, money.repriced, usage, demandKw, `the billed usage${demandKw === null ? "" : " and demand"} ${factorText(1 / factor)} (${formatQty(usage)} ${unit}${demandKw === null ? "" : `, ${formatQty(demandKw)} kW`}), priced through the tariff`));
-    notes.push(`${bill.billId}: billed ${formatMoney(bill.total, ctx.currency)}, re-priced on usage ${factorText(1 / factor)} ${formatMoney(money.repricedTotal, ctx.currency)}.`);
+    notes.push(`${bill.billId}: billed ${moneyText(bill.total, ctx.currency)}, re-priced on usage ${factorText(1 / factor)} ${moneyText(money.repricedTotal, ctx.currency)}.`);
   }
   if (total === null) notes.length = 0;
   if (baseline !== 1) notes.push(`The meter's usual billed/metered ratio is ${baseline.toFixed(3)}; these bills jump from it ${factorText(factor)}.`);

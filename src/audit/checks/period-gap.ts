@@ -9,10 +9,10 @@
  * The finding's period is the gap itself; its bill is the one after the gap.
  */
 import { billsInSequence, buildingOf, type AuditContext } from "../context.ts";
-import { daysBetween } from "../dates.ts";
-import { formatMoney } from "../format.ts";
 import type { Finding } from "../types.ts";
 import { expectedStretchUsage, unbilledCorrection } from "./unbilled.ts";
+import { daysBetween } from "../../core/time/index.ts";
+import { moneyText } from "../../core/money.ts";
 
 /** period-gap findings for every meter. */
 export function checkPeriodGap(ctx: AuditContext): Finding[] {
@@ -27,7 +27,7 @@ export function checkPeriodGap(ctx: AuditContext): Finding[] {
         const usage = expectedStretchUsage(ctx, meterId, latest.periodEnd, bill.periodStart, [latest, bill]);
         const worth = usage ? unbilledCorrection(ctx, bill, latest.periodEnd, bill.periodStart, usage, unit) : null;
         const worthText = worth
-          ? ` Priced from the expected use, the missing period is worth about ${formatMoney(worth.correctedTotal, ctx.currency)}${worth.range ? ` (${formatMoney(worth.range.low, ctx.currency)} to ${formatMoney(worth.range.high, ctx.currency)})` : ""}.`
+          ? ` Priced from the expected use, the missing period is worth about ${moneyText(worth.correctedTotal, ctx.currency)}${worth.range ? ` (${moneyText(worth.range.low, ctx.currency)} to ${moneyText(worth.range.high, ctx.currency)})` : ""}.`
           : "";
         out.push({
           buildingId: buildingOf(ctx, meterId), meterId, billId: bill.billId,

@@ -10,13 +10,13 @@
  * days (or the whole total) is used instead.
  */
 import { billsInSequence, billFinding, type AuditContext } from "../context.ts";
-import { daysBetween, minDate } from "../dates.ts";
-import { formatMoney } from "../format.ts";
-import { roundCents } from "../tolerances.ts";
+import { minDate } from "../dates.ts";
 import type { Bill } from "../../domain/types.ts";
 import type { CorrectedBill, Finding } from "../types.ts";
 import { repricedCorrection, voidCorrection } from "../corrections.ts";
 import { formatQty } from "../format.ts";
+import { daysBetween } from "../../core/time/index.ts";
+import { moneyText, roundCents } from "../../core/money.ts";
 
 /**
  * The later bill over its true period [earlier end, later end): usage less the overlapped days at
@@ -59,9 +59,9 @@ export function checkPeriodOverlap(ctx: AuditContext): Finding[] {
         const amount = corrected ? roundCents(corrected.billedTotal - corrected.correctedTotal) : prorated;
         const how = corrected
           ? corrected.corrected === null
-            ? `the whole bill lies inside ${earlier.billId}, so all of ${formatMoney(later.total, ctx.currency)} is billed twice`
-            : `re-priced over its true period ${corrected.periodStart} to ${corrected.periodEnd} it comes to ${formatMoney(corrected.correctedTotal, ctx.currency)}, ${formatMoney(amount, ctx.currency)} less`
-          : `prorated by days that is ${days}/${billDays} of ${formatMoney(later.total, ctx.currency)} = ${formatMoney(amount, ctx.currency)}`;
+            ? `the whole bill lies inside ${earlier.billId}, so all of ${moneyText(later.total, ctx.currency)} is billed twice`
+            : `re-priced over its true period ${corrected.periodStart} to ${corrected.periodEnd} it comes to ${moneyText(corrected.correctedTotal, ctx.currency)}, ${moneyText(amount, ctx.currency)} less`
+          : `prorated by days that is ${days}/${billDays} of ${moneyText(later.total, ctx.currency)} = ${moneyText(amount, ctx.currency)}`;
         out.push(billFinding(ctx, later, {
           check: "period-overlap", severity: "error", amountAtStake: amount,
           title: "Bill period overlaps an earlier bill",

@@ -9,9 +9,9 @@
  */
 import { repricedCorrection } from "../corrections.ts";
 import { billFinding, type AuditContext } from "../context.ts";
-import { formatMoney } from "../format.ts";
-import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
+import { exceedsMoneyTolerance } from "../tolerances.ts";
 import type { Finding, RepriceAlternative } from "../types.ts";
+import { moneyText, roundCents } from "../../core/money.ts";
 
 type RateAlternative = Extract<RepriceAlternative, { kind: "rate" }>;
 
@@ -42,7 +42,7 @@ export function checkRateSuspect(ctx: AuditContext): Finding[] {
     out.push(billFinding(ctx, bill, {
       check: "rate-suspect", severity: "error", amountAtStake: ownDiff,
       title: "Bill priced on the wrong rate",
-      message: `Bill ${bill.billId} (${formatMoney(bill.total, ctx.currency)}) matches ${best.alt.label} within ${formatMoney(Math.abs(best.diff), ctx.currency)}, but differs by ${formatMoney(ownDiff, ctx.currency)} from its own tariff ${meter.tariffId} (${formatMoney(own.total, ctx.currency)}), so it was probably priced on the wrong rate.`,
+      message: `Bill ${bill.billId} (${moneyText(bill.total, ctx.currency)}) matches ${best.alt.label} within ${moneyText(Math.abs(best.diff), ctx.currency)}, but differs by ${moneyText(ownDiff, ctx.currency)} from its own tariff ${meter.tariffId} (${moneyText(own.total, ctx.currency)}), so it was probably priced on the wrong rate.`,
       evidence: {
         rows: [
           { label: `Total under own tariff ${meter.tariffId}`, billed: roundCents(bill.total), expected: roundCents(own.total), difference: ownDiff },

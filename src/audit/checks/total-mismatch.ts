@@ -8,16 +8,16 @@
  * the bill and counted in the build summary.
  */
 import type { Bill } from "../../domain/types.ts";
-import type { ComputedBill } from "../../tariff/types.ts";
+import type { ComputedBill } from "../../tariff/index.ts";
 import { billFinding, type AuditContext } from "../context.ts";
-import { formatMoney } from "../format.ts";
-import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
+import { exceedsMoneyTolerance } from "../tolerances.ts";
 import type { EvidenceRow, Finding } from "../types.ts";
 import { groupLines } from "./labels.ts";
 import { repricedCorrection } from "../corrections.ts";
+import { moneyText, roundCents } from "../../core/money.ts";
 
 /** Evidence rows: every charge (printed vs computed) and the total. Shared with other checks. */
-export function billVsComputedRows(ctx: AuditContext, bill: Bill, computed: ComputedBill): EvidenceRow[] {
+function billVsComputedRows(ctx: AuditContext, bill: Bill, computed: ComputedBill): EvidenceRow[] {
   const printed = ctx.linesByBill.get(bill.billId) ?? [];
   const rows: EvidenceRow[] = groupLines(printed, computed.lines).map((g) => ({
     label: g.computedLines.length
@@ -44,7 +44,7 @@ export function checkTotalMismatch(ctx: AuditContext): Finding[] {
     out.push(billFinding(ctx, bill, {
       check: "total-mismatch", severity: "error", amountAtStake: diff,
       title: diff > 0 ? "Bill total higher than the tariff gives" : "Bill total lower than the tariff gives",
-      message: `Billed ${formatMoney(bill.total, ctx.currency)} but the tariff gives ${formatMoney(computed.total, ctx.currency)} for the billed quantities, a difference of ${formatMoney(diff, ctx.currency)}.`,
+      message: `Billed ${moneyText(bill.total, ctx.currency)} but the tariff gives ${moneyText(computed.total, ctx.currency)} for the billed quantities, a difference of ${moneyText(diff, ctx.currency)}.`,
       evidence: { rows, notes },
       corrections: [repricedCorrection(bill, computed, bill.usage, bill.demandKw, "the billed usage and demand, priced through the tariff")],
     }));

@@ -5,10 +5,10 @@
  */
 import type { Bill } from "../../domain/types.ts";
 import type { AuditContext } from "../context.ts";
-import { daysBetween } from "../dates.ts";
 import { formatQty } from "../format.ts";
-import { roundCents } from "../tolerances.ts";
 import type { CorrectedBill } from "../types.ts";
+import { daysBetween } from "../../core/time/index.ts";
+import { roundCents } from "../../core/money.ts";
 
 /** Expected usage of a stretch in the bill unit, with its band and where it comes from. */
 export interface ExpectedStretchUsage {

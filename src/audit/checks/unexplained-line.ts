@@ -6,10 +6,10 @@
  */
 import { adjustedCorrection } from "../corrections.ts";
 import { billFinding, type AuditContext } from "../context.ts";
-import { formatMoney } from "../format.ts";
-import { exceedsMoneyTolerance, roundCents } from "../tolerances.ts";
+import { exceedsMoneyTolerance } from "../tolerances.ts";
 import type { Finding } from "../types.ts";
 import { groupLines } from "./labels.ts";
+import { moneyText, roundCents } from "../../core/money.ts";
 
 /** unexplained-line findings for every bill with printed lines and a computed bill. */
 export function checkUnexplainedLine(ctx: AuditContext): Finding[] {
@@ -25,7 +25,7 @@ export function checkUnexplainedLine(ctx: AuditContext): Finding[] {
       out.push(billFinding(ctx, bill, {
         check: "unexplained-line", severity: "warning", amountAtStake: amount,
         title: `Charge "${g.label}" not in the tariff`,
-        message: `Bill ${bill.billId} prints "${g.label}" for ${formatMoney(amount, ctx.currency)}, but no charge of tariff ${ctx.meters.get(bill.meterId)?.tariffId ?? "?"} has that label.`,
+        message: `Bill ${bill.billId} prints "${g.label}" for ${moneyText(amount, ctx.currency)}, but no charge of tariff ${ctx.meters.get(bill.meterId)?.tariffId ?? "?"} has that label.`,
         evidence: {
           rows: [{ label: g.label, billed: amount, expected: null, difference: amount }],
           notes: [`Tariff charges: ${computed.lines.map((l) => l.label).join(", ")}.`],

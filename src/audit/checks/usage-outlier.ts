@@ -16,9 +16,10 @@
  */
 import type { Bill } from "../../domain/types.ts";
 import { billsInSequence, billFinding, type AuditContext } from "../context.ts";
-import { billMonth, daysBetween } from "../dates.ts";
+import { billMonth } from "../dates.ts";
 import { formatQty } from "../format.ts";
 import type { EvidenceRow, Finding } from "../types.ts";
+import { daysBetween } from "../../core/time/index.ts";
 
 function perDay(b: Bill): number {
   return b.usage / Math.max(1, daysBetween(b.periodStart, b.periodEnd));
@@ -31,7 +32,7 @@ function shiftMonth(yyyymm: string, years: number): string {
 const SWING_LIMIT = 1.5;
 
 /** 90th / 10th percentile of use per day over a meter's bills (1 when too few bills or zero use). */
-export function seasonalSwing(bills: Bill[]): number {
+function seasonalSwing(bills: Bill[]): number {
   const v = bills.map(perDay).filter((x) => x > 0).sort((a, b) => a - b);
   if (v.length < 4) return 1;
   const q = (p: number) => v[Math.min(v.length - 1, Math.max(0, Math.round(p * (v.length - 1))))];

@@ -7,11 +7,12 @@
  * Amount = billed total − total re-priced on metered usage and demand (the bill's metered basis; null without a reprice hook).
  */
 import { billFinding, type AuditContext } from "../context.ts";
-import { formatMoney, formatPct, formatQty } from "../format.ts";
+import { formatPct, formatQty } from "../format.ts";
 import { exceedsPct } from "../tolerances.ts";
 import type { EvidenceRow, Finding, MeteredPeriod } from "../types.ts";
 import { fullPeriodUsage, moneyAtStakeOnQuantities } from "./metered.ts";
 import { repricedCorrection } from "../corrections.ts";
+import { moneyText } from "../../core/money.ts";
 
 /** usage-vs-meter findings (and low-coverage notices) for every bill with interval data. */
 export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
@@ -36,7 +37,7 @@ export function checkUsageVsMeter(ctx: AuditContext): Finding[] {
     const money = moneyAtStakeOnQuantities(ctx, bill, meteredUsage, null);
     const notes = [`Interval coverage ${formatPct(m.coverage)} (${m.intervals} of ${m.expectedIntervals} intervals), multiplier applied.`];
     if (m.coverage < 1) notes.push(`Metered sum of the intervals present ${formatQty(m.usage)} ${unit}, scaled by the coverage to ${formatQty(meteredUsage)} ${unit}.`);
-    if (money) notes.push(`Re-priced on metered usage: ${formatMoney(money.repricedTotal, ctx.currency)}.`);
+    if (money) notes.push(`Re-priced on metered usage: ${moneyText(money.repricedTotal, ctx.currency)}.`);
     const rows: EvidenceRow[] = [{ label: m.flaggedIntervals ? `Usage (${unit}), flagged readings left out` : `Usage (${unit})`, billed: bill.usage, expected: Number(meteredUsage.toFixed(3)), difference: Number(diff.toFixed(3)) }];
     rows.push(...rawEvidence(m, bill.usage, unit, notes));
     out.push(billFinding(ctx, bill, {

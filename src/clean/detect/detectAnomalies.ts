@@ -9,7 +9,7 @@ import { detectSpikes } from "./spikes.ts";
 import { typicalLevel } from "./typicalLevel.ts";
 import type { Detection, DetectionResult } from "./types.ts";
 import { detectZeroRuns } from "./zeroRuns.ts";
-import { localClockMs } from "./localClock.ts";
+import { localClockMs } from "../../core/time/index.ts";
 
 /** Facts about the meter that are not settings. */
 export interface DetectContext {

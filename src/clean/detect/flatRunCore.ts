@@ -41,7 +41,7 @@ const DAY_MS = 86_400_000;
  * Per-interval slot (position within the comparison period) and the period's slot count.
  * Slots are taken on `clockMs` (local wall-clock ms from `localClockMs`) when given, else UTC.
  */
-export function comparisonSlots(
+function comparisonSlots(
   series: IntervalSeries,
   minWeeksForWeekly: number,
   clockMs?: Float64Array,

@@ -9,7 +9,6 @@ export {
   type DetectConfigInput,
 } from "./config.ts";
 export { detectAnomalies, type DetectContext } from "./detectAnomalies.ts";
-export { localClockMs } from "./localClock.ts";
 export { detectZeroRuns, DEFAULT_ZERO_RUN_CONFIG, type ZeroRunConfig } from "./zeroRuns.ts";
 export { detectConstantRuns, DEFAULT_CONSTANT_RUN_CONFIG, type ConstantRunConfig } from "./constantRuns.ts";
 export { detectSpikes, DEFAULT_SPIKE_CONFIG, type SpikeConfig } from "./spikes.ts";

@@ -1,6 +1,6 @@
 import type { IntervalSeries } from "../../domain/types.ts";
 import type { Detection } from "./types.ts";
-import { lowerBound } from "../../core/time.ts";
+import { lowerBound } from "../../core/sorted.ts";
 
 /**
  * Training mask from detections: mask[i] = 1 when interval i of `series` starts inside

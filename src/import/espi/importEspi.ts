@@ -17,7 +17,7 @@
 import { existsSync } from "node:fs";
 import { mkdtemp, readFile, readdir, rm } from "node:fs/promises";
 import { join } from "node:path";
-import { DateTime, IANAZone } from "luxon";
+import { isValidZone, isoWithOffset, localPartsOf } from "../../core/time/index.ts";
 import { parse as parseYaml } from "yaml";
 import { InputError, UsageError } from "../../core/errors.ts";
 import type { InputIssue } from "../../core/issues.ts";
@@ -112,7 +112,7 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
   if (!existsSync(join(dir, "portfolio.yaml"))) {
     throw new UsageError(`${dir} is not a portfolio folder (no portfolio.yaml); create one with 'ohmbook init ${dir}' or give the right --into`);
   }
-  if (options.timezone !== undefined && !IANAZone.isValidZone(options.timezone)) {
+  if (options.timezone !== undefined && !isValidZone(options.timezone)) {
     throw new UsageError(`--timezone '${options.timezone}' is not an IANA zone name (e.g. America/Chicago)`);
   }
   for (const f of options.files) if (!existsSync(f)) throw new UsageError(`cannot read '${f}': no such file`);
@@ -129,7 +129,7 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
   const newBuildingRows: Record<string, string>[] = [];
   if (existingBuilding) {
     zone = existingBuilding.cells.timezone ?? "";
-    if (!IANAZone.isValidZone(zone)) {
+    if (!isValidZone(zone)) {
       throw new InputError([{ file: buildings.path, line: existingBuilding.line, column: 0, severity: "error", message: `building ${options.buildingId} has timezone '${zone}', not an IANA zone`, hint: "fix it in buildings.csv, e.g. America/Chicago" }]);
     }
     if (options.timezone !== undefined && options.timezone !== zone) {
@@ -276,8 +276,8 @@ export async function importEspi(options: EspiImportOptions): Promise<EspiImport
           seen.add(m.meterId, start);
           tally.n++;
           tally.sum += decimalToScaled(value, PLACES);
-          const local = DateTime.fromSeconds(start, { zone });
-          const timestamp = local.toISO({ suppressMilliseconds: true })!;
+          const timestamp = isoWithOffset(start * 1000, zone);
+          const local = localPartsOf(start * 1000, zone);
           const source = { file, line: reading.line };
           const waits: (Promise<void> | null)[] = [];
           waits.push(store.add(`intervals/${m.meterId}-${local.year}.csv`, INTERVAL_HEADER, { epochS: start, cells: [m.meterId, timestamp, value, String(duration / 60)], source }));

@@ -5,7 +5,7 @@
  * Every value that cannot be mapped becomes an error issue with the file's line and a hint.
  */
 import { createHash } from "node:crypto";
-import { DateTime, IANAZone } from "luxon";
+import { addDays, localPartsOf, offsetAtMs } from "../../core/time/index.ts";
 import type { Commodity } from "../../domain/types.ts";
 import type { InputIssue } from "../../core/issues.ts";
 import {
@@ -87,9 +87,9 @@ export function espiMeterId(buildingId: string, commodity: Commodity, usagePoint
 }
 
 /** The local calendar date nearest to instant `ms` in `zone` (a billing period boundary). */
-export function nearestLocalDate(ms: number, zone: string): string {
-  const dt = DateTime.fromMillis(ms, { zone });
-  return (dt.hour >= 12 ? dt.plus({ days: 1 }) : dt).toISODate()!;
+function nearestLocalDate(ms: number, zone: string): string {
+  const local = localPartsOf(ms, zone);
+  return local.hour >= 12 ? addDays(local.date, 1) : local.date;
 }
 
 /**
@@ -112,7 +112,7 @@ export async function planFeed(path: string, ctx: MapContext): Promise<FeedPlan>
 }
 
 /** Maps collected entries to meters and bills (pure; exported for tests). */
-export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
+function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
   const issues: InputIssue[] = [];
   const error = (line: number, message: string, hint: string): void => {
     issues.push({ file: ctx.fileLabel, line, column: 0, severity: "error", message, hint });
@@ -233,7 +233,6 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
   };
 
   // The zone check against LocalTimeParameters.
-  const zone = IANAZone.create(ctx.zone);
   const checkedLtp = new Set<XmlNode>();
   const checkLtp = (ltp: XmlNode, year: number): void => {
     if (checkedLtp.has(ltp)) return;
@@ -241,8 +240,8 @@ export function mapEntries(entries: FeedEntry[], ctx: MapContext): FeedPlan {
     const tz = int(child(ltp, "tzOffset"), "LocalTimeParameters tzOffset", true, "the standard-time offset from UTC in seconds, e.g. -18000", ltp.line);
     const dst = child(ltp, "dstOffset") ? int(child(ltp, "dstOffset"), "LocalTimeParameters dstOffset", false, "seconds, e.g. 3600") : 0;
     if (tz === null) return;
-    const jan = zone.offset(Date.UTC(year, 0, 1)) * 60;
-    const jul = zone.offset(Date.UTC(year, 6, 1)) * 60;
+    const jan = offsetAtMs(ctx.zone, Date.UTC(year, 0, 1)) / 1000;
+    const jul = offsetAtMs(ctx.zone, Date.UTC(year, 6, 1)) / 1000;
     const standard = Math.min(jan, jul);
     const fmt = (s: number): string => `UTC${s < 0 ? "−" : "+"}${String(Math.floor(Math.abs(s) / 3600)).padStart(2, "0")}:${String((Math.abs(s) % 3600) / 60).padStart(2, "0")}`;
     if (tz !== standard) {

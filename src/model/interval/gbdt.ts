@@ -1,7 +1,7 @@
 /**
  * Histogram-based gradient-boosted regression trees with squared-error (L2) loss
  * (Friedman 2001, "Greedy function approximation: a gradient boosting machine"; the
- * histogram split search of LightGBM, Ke et al. 2017). Each tree is grown depth-first on the
+ * histogram split search of histogram gradient boosting, Ke et al. 2017). Each tree is grown depth-first on the
  * negative gradients (residuals), leaves take the mean residual, shrunk by the learning rate.
  *
  * Options: shrinkage, maximum depth, minimum rows per leaf, ≤ 255 quantile bins per feature,
@@ -10,7 +10,7 @@
 import { ModelInputError } from "../errors.ts";
 import { binColumn, binCuts } from "./gbdtBins.ts";
 import type { FeatureBins } from "./gbdtBins.ts";
-import { mulberry32 } from "./rng.ts";
+import { mulberry32 } from "../../core/random.ts";
 
 export interface GbdtOptions {
   /** Number of boosting rounds (trees). Default 200. */
@@ -218,7 +218,7 @@ function buildHistogram(rows: Int32Array, start: number, end: number, grad: Floa
 
 /**
  * Grow one tree depth-first. The child with fewer rows gets its histogram built from its rows;
- * the larger child's is the parent's minus it (the subtraction trick of LightGBM), which
+ * the larger child's is the parent's minus it (the histogram subtraction of Ke et al. 2017), which
  * roughly halves the histogram work.
  */
 function growTree(

@@ -1,10 +1,10 @@
 /**
  * Feature binning for histogram-based gradient boosting: each feature's values are cut at
  * up to maxBins − 1 quantile cut points, so a split search scans bins instead of sorted
- * values (the histogram method of LightGBM and scikit-learn's HistGradientBoosting).
+ * values (histogram gradient boosting, Ke et al. 2017).
  */
 import { ModelInputError } from "../errors.ts";
-import { lowerBound } from "../../core/time.ts";
+import { lowerBound } from "../../core/sorted.ts";
 
 /** Cut points of one feature: bin(x) = number of cuts c with x > c; NaN goes to the last bin. */
 export interface FeatureBins {

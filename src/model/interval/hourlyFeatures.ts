@@ -3,13 +3,11 @@
  * holiday flag, local day of year, temperature and three derived temperatures (Savitzky–Golay smooth and slope,
  * a lag, a trailing mean). Used for training tables and for predicting any future hours.
  */
-import { DateTime } from "luxon";
 import type { WeatherSeries } from "../../domain/types.ts";
-import { hourOfWeek } from "../../clean/timeOfWeek.ts";
-import { savgolFilter } from "../../clean/savitzkyGolay.ts";
-import { isUsFederalHoliday } from "../../tariff/holidays.ts";
+import { savgolFilter } from "../../clean/index.ts";
 import { ModelInputError } from "../errors.ts";
 import type { HourlyFeatures } from "./types.ts";
+import { hourOfWeek, isUsFederalHoliday, localPartsOf } from "../../core/time/index.ts";
 
 export const HOUR_MS = 3_600_000;
 
@@ -140,14 +138,14 @@ export function hourlyFeaturesAt(
       throw new ModelInputError((e as Error).message);
     }
     // Holiday lookup once per local day (the offset changes at most twice a year).
-    const local = DateTime.fromMillis(ms, { zone });
-    const dayKey = local.year * 400 + local.ordinal;
+    const local = localPartsOf(ms, zone);
+    const dayKey = local.year * 400 + local.dayOfYear;
     if (dayKey !== lastDayKey) {
       lastDayKey = dayKey;
-      lastHoliday = isUsFederalHoliday(local.toISODate()!) ? 1 : 0;
+      lastHoliday = isUsFederalHoliday(local.date) ? 1 : 0;
     }
     f.holiday[r] = lastHoliday;
-    f.dayOfYear[r] = local.ordinal;
+    f.dayOfYear[r] = local.dayOfYear;
     f.month[r] = local.month;
     const i = Math.round((ms - weather.startMs) / HOUR_MS);
     const t = i >= 0 && i < weather.tempC.length ? weather.tempC[i]! : Number.NaN;

@@ -24,7 +24,7 @@ import { ModelInputError } from "../errors.ts";
 import { HOUR_MS } from "./hourlyFeatures.ts";
 import { selectFrameRows } from "./hourlyFrame.ts";
 import type { HourlyFrame, HourlyModelSpec } from "./types.ts";
-import { lowerBound } from "../../core/time.ts";
+import { lowerBound } from "../../core/sorted.ts";
 
 export interface TimeSeriesCvOptions {
   /** Number of folds. Default 4. */

@@ -14,12 +14,13 @@
  */
 import { fitOls } from "../ols.ts";
 import type { OlsFit } from "../ols.ts";
-import { temperatureComponents } from "../../clean/timeOfWeek.ts";
+import { temperatureComponents } from "../../clean/index.ts";
 import { ModelInputError } from "../errors.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyModelSpec } from "./types.ts";
+import { fToC } from "../../core/units.ts";
 
 /** The published knots 40, 50, 60, 70, 80 °F converted exactly to °C. */
-export const DEFAULT_TOWT_KNOTS_C: readonly number[] = [40, 50, 60, 70, 80].map((f) => ((f - 32) * 5) / 9);
+export const DEFAULT_TOWT_KNOTS_C: readonly number[] = [40, 50, 60, 70, 80].map(fToC);
 
 export interface TowtOptions {
   /** Knots of the piecewise-linear temperature term, °C, increasing. Default {@link DEFAULT_TOWT_KNOTS_C}. */

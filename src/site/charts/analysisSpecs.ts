@@ -2,7 +2,7 @@
  * Vega-Lite specs of the analysis charts: baseline scatter with the fitted line, actual vs
  * expected over time, the data-quality heatmap, and horizontal rankings. Pure.
  */
-import type { BaselineScatterChartModel, BaselineTimeChartModel, HeatmapChartModel, RankingChartModel } from "../../report/siteModel.ts";
+import type { BaselineScatterChartModel, BaselineTimeChartModel, HeatmapChartModel, RankingChartModel } from "../../report/index.ts";
 import { chartConfig, FLAG_COLOR, HEAT_RANGE, SERIES_COLORS } from "./palette.ts";
 import { chartTitle, wrapLabel } from "./wrapText.ts";
 

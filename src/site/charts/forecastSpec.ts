@@ -2,8 +2,8 @@
  * Vega-Lite spec of the monthly cost forecast: the P10–P90 band as an area, the P50 as a line
  * with points, and last year's billed cost of the same calendar month as points. Pure.
  */
-import type { ForecastChartModel } from "../../report/siteModel.ts";
-import { formatMonth } from "../../report/format.ts";
+import type { ForecastChartModel } from "../../report/index.ts";
+import { formatMonth } from "../../core/time/index.ts";
 import { chartConfig, SERIES_COLORS } from "./palette.ts";
 import { chartTitle } from "./wrapText.ts";
 

@@ -3,7 +3,7 @@
  * cell (≈ 9,000 for a year, close to 1 MB); here cells of one colour band share one path of
  * short relative moves, so a year is a few tens of kilobytes before compression.
  */
-import type { HeatmapChartModel } from "../../report/siteModel.ts";
+import type { HeatmapChartModel } from "../../report/index.ts";
 import { FLAG_COLOR, FONT_STACK, HEAT_RANGE, INK, MUTED_INK } from "./palette.ts";
 
 function escapeXml(s: string): string {

@@ -1,5 +1,5 @@
 /** Vega-Lite spec for monthly values (use or cost): bars per calendar month, stacked by series. */
-import type { MonthlyChartModel } from "../../report/siteModel.ts";
+import type { MonthlyChartModel } from "../../report/index.ts";
 import { chartConfig } from "./palette.ts";
 import { chartTitle } from "./wrapText.ts";
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { fitGbdt } from "../../../src/model/interval/gbdt.ts";
 import { binCuts, binOf } from "../../../src/model/interval/gbdtBins.ts";
-import { mulberry32 } from "../../../src/model/interval/rng.ts";
+import { mulberry32 } from "../../../src/core/random.ts";
 
 function rmse(a: ArrayLike<number>, b: ArrayLike<number>): number {
   let s = 0;
@@ -101,15 +101,25 @@ describe("gradient-boosted trees learn known functions (invented data)", () => {
     expect(v.length - best).toBe(15);
   });
 
-  it("trains 8,760 rows × 9 features × 200 trees in under 3 s", () => {
+  // Speed is measured by `npm run bench` (bench/intervalBaseline.ts), not asserted here.
+  it("learns a year of hourly rows × 9 features: the fitted curve explains the signal, not the noise", () => {
     const rand = mulberry32(11);
     const n = 8760;
     const cols = Array.from({ length: 9 }, () => Float64Array.from({ length: n }, () => rand()));
-    const y = Float64Array.from({ length: n }, (_, i) => Math.sin(6 * cols[0]![i]!) + cols[1]![i]! * cols[2]![i]! + 0.1 * rand());
-    const t0 = performance.now();
-    fitGbdt(cols, y, { nTrees: 200, maxDepth: 6, minSamplesLeaf: 20, maxBins: 64 });
-    const ms = performance.now() - t0;
-    expect(ms).toBeLessThan(3000);
+    const signal = Float64Array.from({ length: n }, (_, i) => Math.sin(6 * cols[0]![i]!) + cols[1]![i]! * cols[2]![i]!);
+    const y = Float64Array.from({ length: n }, (_, i) => signal[i]! + 0.1 * (rand() - 0.5));
+    const model = fitGbdt(cols, y, { nTrees: 200, maxDepth: 6, minSamplesLeaf: 20, maxBins: 64 });
+    const fitted = model.predict(cols);
+    let sse = 0;
+    let sst = 0;
+    const mean = signal.reduce((s, v) => s + v, 0) / n;
+    for (let i = 0; i < n; i++) {
+      const p = fitted[i]!;
+      sse += (p - signal[i]!) ** 2;
+      sst += (signal[i]! - mean) ** 2;
+    }
+    // Noise is uniform ±0.05; a fit within a few hundredths of the signal has R² well above 0.99.
+    expect(1 - sse / sst).toBeGreaterThan(0.99);
   });
 });
 

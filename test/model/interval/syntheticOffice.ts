@@ -4,8 +4,8 @@
  */
 import { DateTime } from "luxon";
 import type { IntervalSeries, WeatherSeries } from "../../../src/domain/types.ts";
-import { isUsFederalHoliday } from "../../../src/tariff/holidays.ts";
-import { mulberry32 } from "../../../src/model/interval/rng.ts";
+import { mulberry32 } from "../../../src/core/random.ts";
+import { isUsFederalHoliday } from "../../../src/core/time/index.ts";
 
 export interface SyntheticOffice {
   series: IntervalSeries;

@@ -3,7 +3,7 @@
  * break, and a root-mean-square error helper.
  */
 import type { HourlyFrame } from "../../../src/model/interval/types.ts";
-import { mulberry32 } from "../../../src/model/interval/rng.ts";
+import { mulberry32 } from "../../../src/core/random.ts";
 
 const H = 3_600_000;
 

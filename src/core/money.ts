@@ -1,0 +1,62 @@
+/**
+ * Money: the one rounding rule (to the cent, halves away from zero, as bills print it), exact
+ * sums, and money as plain text for messages, the CLI and data files. Pages format money for
+ * people with src/report/format.ts's `formatMoney`, which rounds through `roundCents` first.
+ */
+
+/**
+ * Rounds an amount to the cent, halves away from zero ("half-up" as bills print it).
+ * Binary floating point stores 1.005 as 1.00499999…, so the value is first cleaned to
+ * 12 significant digits; amounts of bills never need more.
+ *
+ * @example roundCents(1.005) // 1.01
+ * @example roundCents(-2.345) // -2.35
+ */
+export function roundCents(amount: number): number {
+  if (!Number.isFinite(amount)) return amount;
+  const cents = Number((Math.abs(amount) * 100).toPrecision(12));
+  const rounded = Math.floor(cents + 0.5) / 100;
+  return amount < 0 ? -rounded : rounded === 0 ? 0 : rounded;
+}
+
+/**
+ * Sum of amounts with Neumaier compensation, so a long list of cents adds up exactly as
+ * a person would add them.
+ */
+export function sumAmounts(values: readonly number[]): number {
+  let sum = 0;
+  let c = 0;
+  for (const v of values) {
+    const t = sum + v;
+    c += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
+    sum = t;
+  }
+  return sum + c;
+}
+
+/** An amount rounded to the cent as a whole number of cents. @example toCents(-2.345) // -235 */
+export function toCents(amount: number): number {
+  return Math.round(roundCents(amount) * 100);
+}
+
+/**
+ * Money for data files (CSV, JSON text cells): rounded to the cent, two decimals, no grouping.
+ * @example moneyCell(1.005) // "1.01"
+ */
+export function moneyCell(amount: number): string {
+  return roundCents(amount).toFixed(2);
+}
+
+/**
+ * Money in plain text for messages and the terminal: rounded to the cent, thousands grouped,
+ * the currency code after when given.
+ * @example moneyText(-1234.5, "USD") // "-1,234.50 USD"
+ * @example moneyText(1234.5) // "1,234.50"
+ */
+export function moneyText(amount: number, currency?: string): string {
+  const rounded = roundCents(amount);
+  const sign = rounded < 0 ? "-" : "";
+  const [whole, cents] = Math.abs(rounded).toFixed(2).split(".");
+  const text = `${sign}${whole!.replace(/\B(?=(\d{3})+(?!\d))/g, ",")}.${cents}`;
+  return currency ? `${text} ${currency}` : text;
+}
