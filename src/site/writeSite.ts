@@ -313,7 +313,8 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
   const parts = "pagesOf" in model ? model : null;
   const full = "pagesOf" in model ? null : model;
   const base = parts ? parts.shell : full!;
-  const buildingCount = parts ? parts.buildingCount : full!.buildings.length;
+  // A whole model may have tenant pages and no building pages (the tenant site): count both.
+  const buildingCount = parts ? parts.buildingCount : Math.max(full!.buildings.length, full!.tenants.length);
   const portfolioPages = await preparePortfolioPages(base, sizes);
   const shell: SiteModel = { ...portfolioPages, buildings: [], meterBills: [], tenants: [] };
   const firstPassTemplates = new Set<string>();

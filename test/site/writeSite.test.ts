@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { cp, mkdir, mkdtemp, readFile, readdir, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
-import { buildSiteModel, siteModelInParts } from "../../src/report/buildSiteModel.ts";
+import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../../src/report/buildSiteModel.ts";
 import { SiteWriteError, writeSite } from "../../src/site/writeSite.ts";
 import { fixtureInput } from "../report/fixture.ts";
 
@@ -189,5 +189,20 @@ describe("writeSite", () => {
       await rm(dir, { recursive: true, force: true });
     }
     await rm(all, { recursive: true, force: true });
+    // The tenant site has tenant pages and no building pages: every pass still writes them.
+    const withTenants = fixtureInput();
+    withTenants.portfolio = { ...withTenants.portfolio, buildings: withTenants.portfolio.buildings.map((b) => ({ ...b, tenantPage: true })) };
+    const tenantModel = buildSiteModel(withTenants);
+    const tenantsAll = join(work, "tenants-all");
+    const tenantsOne = join(work, "tenants-one");
+    await writeSite(tenantSiteModel(tenantModel), {}, tenantsAll, { buildingsPerPass: 1000 });
+    await writeSite(tenantSiteModel(tenantModel), {}, tenantsOne, { buildingsPerPass: 1 });
+    const tenantFiles = await list(tenantsAll);
+    expect(tenantModel.tenants.length).toBeGreaterThan(1);
+    expect(tenantFiles.filter((f) => f.endsWith("tenant.html")).length).toBe(tenantModel.tenants.length);
+    expect(await list(tenantsOne)).toEqual(tenantFiles);
+    for (const f of tenantFiles) expect((await readFile(join(tenantsOne, f))).equals(await readFile(join(tenantsAll, f))), f).toBe(true);
+    await rm(tenantsAll, { recursive: true, force: true });
+    await rm(tenantsOne, { recursive: true, force: true });
   }, 120_000);
 });
