@@ -9,6 +9,8 @@ declare module "@11ty/eleventy" {
     addPlugin(plugin: unknown, options?: unknown): void;
     addPassthroughCopy(path: string | Record<string, string>): UserConfig;
     addFilter(name: string, fn: (...args: any[]) => unknown): void;
+    /** Called with each output's content before it is written; `this.page.outputPath` names it. */
+    addTransform(name: string, fn: (this: { page?: { outputPath?: unknown } }, content: string) => string | Promise<string>): void;
     setNunjucksEnvironmentOptions(options: Record<string, unknown>): void;
     setQuietMode(quiet: boolean): void;
     setUseGitIgnore?(use: boolean): void;

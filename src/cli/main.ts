@@ -15,7 +15,7 @@ import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, SERVE_USAGE, defaultPortfolioDir,
 const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
 
 Usage:
-  ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--strict] [--quiet] [--json]
+  ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--jobs N] [--cache DIR|--no-cache] [--strict] [--quiet] [--json]
   ohmbook check [DIR] [--quiet] [--json]
   ohmbook serve [DIR] [--port N] [--out OUT]     build, serve on 127.0.0.1, rebuild on every change
   ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
@@ -33,6 +33,8 @@ export interface CliIo {
   out: (s: string) => void;
   err: (s: string) => void;
   isTty: boolean;
+  /** Width of the terminal (stderr), for the progress line. */
+  columns?: number;
   /** SOURCE_DATE_EPOCH (reproducible-builds convention): seconds since 1970 that date the build. */
   sourceDateEpoch?: string;
   /** The folder a missing DIR is looked for in (default: the process's current folder). */
@@ -43,6 +45,7 @@ const processIo: CliIo = {
   out: (s) => process.stdout.write(s),
   err: (s) => process.stderr.write(s),
   isTty: Boolean(process.stderr.isTTY),
+  columns: process.stderr.columns,
   sourceDateEpoch: process.env.SOURCE_DATE_EPOCH,
 };
 
@@ -139,8 +142,13 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     strict: { type: "boolean" },
     quiet: { type: "boolean", short: "q" },
     json: { type: "boolean" },
+    jobs: { type: "string", short: "j" },
+    cache: { type: "string" },
+    "no-cache": { type: "boolean" },
   });
   if (positionals.length > 1) throw new UsageError(`build takes one folder, got ${positionals.length}`);
+  const jobs = parseJobs(values.jobs as string | undefined);
+  if (values.cache !== undefined && values["no-cache"]) throw new UsageError("--cache and --no-cache cannot both be given");
   const failOn = values["fail-on"] as string | undefined;
   if (failOn !== undefined && failOn !== "warning" && failOn !== "error") {
     throw new UsageError(`--fail-on must be 'warning' or 'error', got '${failOn}'`);
@@ -150,18 +158,22 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     throw new UsageError(`--audience must be 'internal' (the full site) or 'tenants' (tenant pages only), got '${audience.slice(0, 40)}'`);
   }
   const quiet = Boolean(values.quiet) || Boolean(values.json);
-  const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err });
-  const { buildPortfolioSite } = await import("../pipeline/index.ts");
+  const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err, width: io.columns ? io.columns - 1 : undefined });
+  const { buildPortfolioSite, defaultCacheDir } = await import("../pipeline/index.ts");
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
+  const outDir = (values.out as string | undefined) ?? "_site";
+  const cacheDir = values["no-cache"] ? undefined : ((values.cache as string | undefined) ?? defaultCacheDir(outDir));
   const result = await buildPortfolioSite({
     dir,
-    outDir: (values.out as string | undefined) ?? "_site",
+    outDir,
     strict: Boolean(values.strict),
     reporter,
     buildDate: buildDateFromEpoch(io.sourceDateEpoch),
     // A bug in one building is reported and the other pages are still written (unless --strict).
     onBug: "report",
     audience,
+    jobs,
+    cacheDir,
   }).catch((error: unknown) => {
     if (error instanceof InputError && error.folder === undefined) error.folder = dir;
     throw error;
@@ -179,6 +191,13 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     return 3;
   }
   return 0;
+}
+
+/** `--jobs N`: a whole number ≥ 1; absent → undefined (the pipeline's default, every core). */
+export function parseJobs(value: string | undefined): number | undefined {
+  if (value === undefined) return undefined;
+  if (!/^[1-9]\d{0,3}$/.test(value)) throw new UsageError(`--jobs must be a whole number of worker threads from 1 to 9999, got '${value.slice(0, 40)}'`);
+  return Number(value);
 }
 
 async function commandCheck(args: string[], io: CliIo): Promise<number> {

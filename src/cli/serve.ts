@@ -347,7 +347,7 @@ export function isIgnoredInputPath(relPath: string): boolean {
  * @throws OhmbookError when the folder does not exist or no port can be had.
  */
 export async function startServe(options: ServeOptions): Promise<ServeSession> {
-  const { buildPortfolioSite } = await import("../pipeline/index.ts");
+  const { buildPortfolioSite, defaultCacheDir } = await import("../pipeline/index.ts");
   const dir = options.dir;
   const absDir = resolve(dir);
   const dirInfo = await stat(absDir).catch(() => null);
@@ -389,7 +389,8 @@ export async function startServe(options: ServeOptions): Promise<ServeSession> {
     if (changed.length > 0) options.out(`\nchanged: ${changed.join(", ")}\nrebuilding…\n`);
     const started = Date.now();
     try {
-      const result = await buildPortfolioSite({ dir, outDir, strict: false, buildDate: options.buildDate });
+      // The analysis cache beside the output: a rebuild after a change re-analyses the changed buildings only.
+      const result = await buildPortfolioSite({ dir, outDir, strict: false, buildDate: options.buildDate, cacheDir: defaultCacheDir(outDir) });
       const seconds = ((Date.now() - started) / 1000).toFixed(1);
       state.built = true;
       buildsSucceeded++;

@@ -6,7 +6,8 @@ import { existsSync, readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 
-export const BUILD_USAGE = `Usage: ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--audience internal|tenants] [--strict] [--quiet] [--json]
+export const BUILD_USAGE = `Usage: ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--audience internal|tenants] [--jobs N]
+                     [--cache DIR | --no-cache] [--strict] [--quiet] [--json]
 
 Reads the portfolio folder DIR and writes the static site to OUT.
 
@@ -15,6 +16,12 @@ Options:
   --fail-on LEVEL        exit 3 when an audit finding reaches LEVEL: warning or error
   --audience WHO         internal (default): the full site; tenants: only the tenant pages,
                          with no internal page, link, CSV or JSON, to publish separately
+  -j, --jobs N           analyse N buildings at a time in worker threads (default: the number
+                         of cores); the site is the same for any N
+  --cache DIR            keep each building's analysis in DIR and reuse it while the building's
+                         files, the settings and ohmbook are unchanged (default: .OUT.ohmbook-cache
+                         beside OUT, never inside it)
+  --no-cache             analyse every building, and keep nothing
   --strict               any rejected input row fails the build (exit 1, nothing written)
   -q, --quiet            print only errors
   --json                 print a machine-readable summary on stdout, with every warning and error

@@ -46,6 +46,7 @@ export type { DegreeDays, HourlyTemps, PeriodDegreeDays } from "./degreeDays.ts"
 // Used by other folders (see test/architecture/layers.test.ts).
 export { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, fitMeterBaseline, typicalMonthlyTempC } from "./billBaselines.ts";
 export type { MeterBaseline, ModelSummary } from "./billBaselines.ts";
-export { fitBuildingIntervalBaselines } from "./interval/buildingBaselines.ts";
+export { fitBuildingIntervalBaselines, SHORT_HISTORY_WEEKS } from "./interval/buildingBaselines.ts";
 export type { IntervalBaselineOutcome } from "./interval/buildingBaselines.ts";
+export type { IntervalBaselineSummary } from "./interval/index.ts";
 export { meetsGuideline14 } from "./stats.ts";

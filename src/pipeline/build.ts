@@ -4,34 +4,30 @@
  * Computation stages are pure; this module only sequences them, isolates failures per building,
  * and hands the results to the site writer (the only stage that writes files).
  */
-import { InputError, bugReportLine, expectedProblem, type BugPolicy } from "../core/errors.ts";
+import { InputError, bugReportLine, type BugPolicy } from "../core/errors.ts";
+import type { Portfolio } from "../domain/types.ts";
+import { resolve, sep } from "node:path";
 import type { InputIssue } from "../core/issues.ts";
-import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
-import { withFlaggedAsMissing } from "../clean/index.ts";
 import { loadPortfolio } from "../ingest/index.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { priceBill } from "../tariff/index.ts";
-import { runAudit } from "../audit/index.ts";
 import type { Finding } from "../audit/index.ts";
 import { silentReporter, type Reporter } from "./reporter.ts";
 import type { PricedBill } from "../tariff/index.ts";
-import { priceMeterBills } from "../tariff/index.ts";
-import { meteredForBills } from "../audit/index.ts";
 import { assessIntervalMeters } from "../clean/index.ts";
-import { makeRepricer } from "../audit/index.ts";
-import { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, type MeterBaseline } from "../model/index.ts";
 import { buildDisputes, type Dispute } from "../disputes/index.ts";
 import { billCheckState } from "../tariff/index.ts";
-import { fitBuildingIntervalBaselines, type IntervalBaselineOutcome } from "../model/index.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "../audit/index.ts";
 import { toReportInput, type BuildingResults } from "../report/index.ts";
 import { buildDataFiles } from "../report/index.ts";
-import { buildSiteModel, tenantSiteModel } from "../report/index.ts";
+import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
-import { checkOutputFolder, writeSite } from "../site/index.ts";
+import { checkOutputFolder, SiteWriteError, writeSite } from "../site/index.ts";
+import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
+import { analyseBuildings } from "./analysisPool.ts";
+import { defaultCacheDir, openAnalysisCache } from "./analysisCache.ts";
 import { moneyText, roundCents } from "../core/money.ts";
 
 export interface BuildOptions {
@@ -54,6 +50,14 @@ export interface BuildOptions {
    * building as failed, and finishes the other pages (the CLI without --strict).
    */
   onBug?: BugPolicy;
+  /** Worker threads analysing buildings (1: in this thread). Default: os.availableParallelism(). */
+  jobs?: number;
+  /**
+   * Folder of the incremental-rebuild cache (analysisCache.ts): buildings whose inputs, settings
+   * and program are unchanged are not analysed again. Default none (the CLI passes one beside
+   * the output folder). Refused inside the output folder or the portfolio folder.
+   */
+  cacheDir?: string;
 }
 
 export interface BuildResult {
@@ -80,8 +84,12 @@ export interface BuildSummary {
   amountAtStake: number;
   rowsRejected: number;
   buildingsFailed: { buildingId: string; reason: string }[];
+  /** Buildings whose analysis came from the cache (0 without one). */
+  buildingsFromCache: number;
 }
 
+
+export { analyseBuilding } from "./analyseBuilding.ts";
 
 const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
 
@@ -94,6 +102,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
 
   // A wrong output folder is refused before any work.
   await checkOutputFolder(options.outDir, options.dir);
+  if (options.cacheDir !== undefined) checkCacheFolder(options.cacheDir, options.outDir, options.dir);
   reporter.stage(`Reading ${options.dir}`);
   const loaded = await loadPortfolio(options.dir);
   const issues = loaded.issues;
@@ -112,13 +121,16 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
-  const results: BuildingResults[] = [];
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
-  portfolio.buildings.forEach((building, index) => {
-    reporter.step(index, portfolio.buildings.length, building.buildingId);
-    results.push(analyseBuilding(portfolio, building, masks, bugHandler(options, reporter, `analysing building ${building.buildingId}`)));
+  const cache = options.cacheDir !== undefined ? await openAnalysisCache(options.cacheDir) : undefined;
+  reporter.step(0, portfolio.buildings.length, "");
+  const results = await analyseBuildings(portfolio, masks, {
+    jobs: options.jobs,
+    cache,
+    onBug: (options.onBug ?? "fail") === "fail" || options.strict ? "fail" : "report",
+    onBugReport: (buildingId, line) => reporter.warn(line),
+    onDone: (done, total, buildingId) => reporter.step(done, total, buildingId),
   });
-  reporter.step(portfolio.buildings.length, portfolio.buildings.length, "done");
   reporter.finish();
 
   const failed = results.filter((r) => r.failure !== null);
@@ -145,11 +157,12 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
 
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
-  const model = buildSiteModel(
-    toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast }),
-  );
-  if (options.audience === "tenants") await writeSite(tenantSiteModel(model), {}, options.outDir);
-  else await writeSite(model, dataFiles, options.outDir);
+  const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast });
+  const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
+  // The internal site's building pages are made a few buildings at a time as they are written.
+  if (options.audience === "tenants") await writeSite(tenantSiteModel(buildSiteModel(reportInput)), {}, options.outDir, { onProgress });
+  else await writeSite(siteModelInParts(reportInput), dataFiles, options.outDir, { onProgress });
+  reporter.finish();
 
   const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;
   const summary: BuildSummary = {
@@ -165,6 +178,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
     amountAtStake: roundCents(findings.reduce((s, f) => s + (f.severity !== "info" && f.amountAtStake ? f.amountAtStake : 0), 0)),
     rowsRejected: portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0),
     buildingsFailed: failed.map((r) => ({ buildingId: r.building.buildingId, reason: r.failure! })),
+    buildingsFromCache: cache?.hits ?? 0,
   };
   return {
     issues,
@@ -198,15 +212,6 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
   }
 }
 
-/**
- * A bug at a per-building boundary: rethrown (`fail`), or reported as one line and turned into
- * the failure text the pages show (`report`).
- */
-type BugHandler = (error: unknown) => string;
-const rethrow: BugHandler = (error) => {
-  throw error;
-};
-
 function bugHandler(options: BuildOptions, reporter: Reporter, where: string): BugHandler {
   if ((options.onBug ?? "fail") === "fail" || options.strict) return rethrow;
   return (error) => {
@@ -215,114 +220,16 @@ function bugHandler(options: BuildOptions, reporter: Reporter, where: string): B
   };
 }
 
-/** An expected problem's message, or what the bug policy makes of anything else. */
-function problemOrBug(error: unknown, onBug: BugHandler): string {
-  try {
-    return expectedProblem(error);
-  } catch (bug) {
-    return onBug(bug);
+/** The cache must never be published nor written into the user's portfolio folder. */
+function checkCacheFolder(cacheDir: string, outDir: string, inputDir: string): void {
+  const cache = resolve(cacheDir);
+  const inside = (child: string, parent: string) => child === parent || child.startsWith(parent.endsWith(sep) ? parent : parent + sep);
+  if (inside(cache, resolve(outDir)) || inside(resolve(outDir), cache)) {
+    throw new SiteWriteError(`refusing to keep the cache in ${cacheDir}: it is the output folder, inside it, or contains it, and would be published or deleted with the site; choose a folder beside it (the default is ${defaultCacheDir(outDir)})`);
   }
-}
-
-/**
- * Prices, reconciles, audits and models one building. An expected problem (an OhmbookError) is
- * caught and becomes the building's failure; a bug goes to `onBug` (by default rethrown).
- */
-export function analyseBuilding(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array> = new Map(), onBug: BugHandler = rethrow): BuildingResults {
-  const empty: BuildingResults = { building, priced: new Map(), findings: [], baselines: [], intervalBaselines: [], failure: null };
-  try {
-    const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
-    // Money never rests on a flagged reading: metered quantities read the cleaned view.
-    const cleaned = cleanedIntervals(portfolio, meters, masks);
-    const priced = new Map<string, PricedBill>();
-    for (const meter of meters) {
-      const tariff = portfolio.tariffs.get(meter.tariffId);
-      const bills = portfolio.bills.filter((b) => b.meterId === meter.meterId);
-      const meterPriced = priceMeterBills({
-        meter,
-        bills,
-        timezone: building.timezone,
-        series: portfolio.intervals.get(meter.meterId),
-        meteredSeries: cleaned.get(meter.meterId),
-        price: tariff ? (request) => priceBill(tariff, request) : null,
-        pricerError: `tariff '${meter.tariffId}' could not be loaded (see the tariff file's errors)`,
-      });
-      for (const [id, p] of meterPriced) priced.set(id, p);
-    }
-    const scoped = scopeToBuilding(portfolio, building);
-    const metered = meteredForBills(scoped, (meter) => demandWindowMinutes(portfolio.tariffs.get(meter.tariffId)), masks);
-    const bands = buildingDegreeDayBands(portfolio, building);
-    for (const [id, m] of metered) {
-      const p = priced.get(id);
-      if (p && m && m.peakKw !== null && p.metered) p.meteredDemandKw = m.peakKw;
-    }
-    const computed = new Map([...priced].map(([id, p]) => [id, p.computed]));
-    const findings = runAudit({
-      portfolio: { ...scoped, intervals: new Map([...scoped.intervals].map(([id, s]) => [id, cleaned.get(id) ?? s])) },
-      priced: computed,
-      metered,
-      ...makeRepricer({ portfolio: scoped, priced: computed, price: priceBill, meteredIntervals: cleaned }),
-      expectedUsage: expectedUsageFromBands(bands),
-      expectedUsageForPeriod: expectedUsageForStretch(scoped, building),
-    });
-    const baselines = fitBuildingBaselines(portfolio, building, billsToLeaveOut(findings), bands);
-    const intervalBaselines = fitBuildingIntervalBaselines(portfolio, building, masks);
-    return { building, priced, findings, baselines, intervalBaselines, failure: null };
-  } catch (error) {
-    return { ...empty, failure: problemOrBug(error, onBug) };
+  if (inside(cache, resolve(inputDir)) || inside(resolve(inputDir), cache)) {
+    throw new SiteWriteError(`refusing to keep the cache in ${cacheDir}: it is the portfolio folder, inside it, or contains it; choose a folder of its own (the default is ${defaultCacheDir(outDir)})`);
   }
-}
-
-/** The building's interval series with flagged readings as NaN (`withFlaggedAsMissing`). */
-function cleanedIntervals(portfolio: Portfolio<Tariff>, meters: readonly Meter[], masks: ReadonlyMap<string, Uint8Array>): Map<string, IntervalSeries> {
-  const out = new Map<string, IntervalSeries>();
-  for (const m of meters) {
-    const series = portfolio.intervals.get(m.meterId);
-    if (series) out.set(m.meterId, withFlaggedAsMissing(series, masks.get(m.meterId)));
-  }
-  return out;
-}
-
-function scopeToBuilding(portfolio: Portfolio<Tariff>, building: Building): Portfolio<Tariff> {
-  const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
-  const ids = new Set(meters.map((m) => m.meterId));
-  const bills = portfolio.bills.filter((b) => ids.has(b.meterId));
-  const billIds = new Set(bills.map((b) => b.billId));
-  return {
-    ...portfolio,
-    buildings: [building],
-    meters,
-    bills,
-    billLines: portfolio.billLines.filter((l) => billIds.has(l.billId)),
-  };
-}
-
-/** The degree-day models' leave-one-out bands, by bill id (meters without a model fall back to the audit's interim rule). */
-function expectedUsageFromBands(bands: ReadonlyMap<string, Pick<MeterBaseline, "expectedByBill">>): Map<string, { p50: number; low: number; high: number }> {
-  const map = new Map<string, { p50: number; low: number; high: number }>();
-  for (const b of bands.values()) for (const [billId, e] of b.expectedByBill) map.set(billId, e);
-  return map;
-}
-
-/** Findings whose bill's usage is wrong or not the building's own, so it must not train a weather model. */
-const USAGE_FINDINGS = new Set(["multiplier-suspect", "usage-vs-meter", "usage-outlier", "duplicate-bill", "period-overlap"]);
-
-/** Bills the audit found wrong in their usage, with the reason, to leave out of the change-point fits. */
-function billsToLeaveOut(findings: Finding[]): Map<string, string> {
-  const out = new Map<string, string>();
-  for (const f of findings) {
-    if (f.severity === "info" || !USAGE_FINDINGS.has(f.check)) continue;
-    for (const id of [f.billId, ...(f.relatedBillIds ?? [])]) if (id) out.set(id, `audit finding: ${f.check}`);
-  }
-  return out;
-}
-
-/** The demand window of a tariff's first demand charge (15 minutes when it has none). */
-function demandWindowMinutes(tariff: Tariff | undefined): number {
-  for (const version of tariff?.versions ?? []) {
-    for (const charge of version.charges) if (charge.kind === "demand") return charge.windowMinutes;
-  }
-  return 15;
 }
 
 function moneyOf(disputes: Dispute[]): { count: number; total: number } {
@@ -346,6 +253,7 @@ function summaryText(s: BuildSummary, currency: string): string {
     `  findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info`,
   ];
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
+  if (s.buildingsFromCache > 0) lines.push(`  ${s.buildingsFromCache} of ${s.buildings} building(s) unchanged since the last build: their analysis came from the cache`);
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
   lines.push(`View it: open ${s.outDir}/index.html in a browser, or run 'ohmbook serve' on the portfolio folder to serve it and rebuild on every change.`);
   return lines.join("\n");

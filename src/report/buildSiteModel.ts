@@ -23,6 +23,28 @@ import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
  * @example buildSiteModel(input).buildings.map((b) => b.path) // ["buildings/B1.html", ...]
  */
 export function buildSiteModel(input: ReportInput): SiteModel {
+  const parts = siteModelInParts(input);
+  const { buildings, meterBills, tenants } = parts.pagesOf(0, parts.buildingCount);
+  return { ...parts.shell, buildings, meterBills, tenants };
+}
+
+/** The site model with its per-building pages made on demand (siteModelInParts). */
+export interface SiteModelInParts {
+  /** Every page but the per-building ones (`buildings`, `meterBills` and `tenants` are empty). */
+  shell: SiteModel;
+  buildingCount: number;
+  /**
+   * The building pages, meter pages and tenant pages of buildings `from` to `to` (exclusive),
+   * in buildings.csv order: concatenated over consecutive ranges they equal buildSiteModel's.
+   */
+  pagesOf(from: number, to: number): Pick<SiteModel, "buildings" | "meterBills" | "tenants">;
+}
+
+/**
+ * The same model as buildSiteModel, with the pages of each building built only when asked for,
+ * so a site writer can build, render and drop them a few buildings at a time.
+ */
+export function siteModelInParts(input: ReportInput): SiteModelInParts {
   const { portfolio } = input;
   const { settings } = portfolio;
   const currency = settings.currency;
@@ -49,8 +71,6 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     currency,
   }));
 
-  // Each meter's baseline and quality sections: verdicts on the building page, detail on the meter page.
-  const analyses = contexts.map((ctx) => meterAnalysis(input, ctx));
   const linesByBill = billLinesByBill(portfolio.billLines);
 
   const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({
@@ -58,7 +78,7 @@ export function buildSiteModel(input: ReportInput): SiteModel {
     canonical: canonicalFor(settings.basePath, page.path),
   });
 
-  return {
+  const shell: SiteModel = {
     meta: {
       portfolioName: settings.name,
       currency,
@@ -69,15 +89,29 @@ export function buildSiteModel(input: ReportInput): SiteModel {
       basePath: settings.basePath,
     },
     index: withCanonical(buildIndexPage(input, contexts, asOf)),
-    buildings: contexts.map((ctx, i) => withCanonical(buildBuildingPage(input, ctx, analyses[i]))),
-    meterBills: contexts.flatMap((ctx, i) => ctx.meters.map((m) => withCanonical(buildMeterBillsPage(input, ctx, m, analyses[i], linesByBill)))),
-    tenants: contexts
-      .filter((ctx) => ctx.building.tenantPage)
-      .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines, settings.contacts?.[ctx.building.buildingId] ?? null))),
+    buildings: [],
+    meterBills: [],
+    tenants: [],
     methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf), settings.tolerances)),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
     disputes: withCanonical(buildDisputesPage(input)),
     claims: buildClaimSheets(input.disputes, portfolio, formatDate(input.buildDate)).map(withCanonical),
+  };
+  return {
+    shell,
+    buildingCount: contexts.length,
+    pagesOf(from, to) {
+      const slice = contexts.slice(from, to);
+      // Each meter's baseline and quality sections: verdicts on the building page, detail on the meter page.
+      const analyses = slice.map((ctx) => meterAnalysis(input, ctx));
+      return {
+        buildings: slice.map((ctx, i) => withCanonical(buildBuildingPage(input, ctx, analyses[i]))),
+        meterBills: slice.flatMap((ctx, i) => ctx.meters.map((m) => withCanonical(buildMeterBillsPage(input, ctx, m, analyses[i], linesByBill)))),
+        tenants: slice
+          .filter((ctx) => ctx.building.tenantPage)
+          .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines, settings.contacts?.[ctx.building.buildingId] ?? null))),
+      };
+    },
   };
 }
 

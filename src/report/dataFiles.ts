@@ -14,11 +14,10 @@ import type { Detection } from "../clean/index.ts";
 import type { MonthTotal } from "../ingest/index.ts";
 import type { WeatherGap } from "../domain/types.ts";
 import { toCsv } from "../core/csv.ts";
-import type { BuildingResults } from "./fromAnalysis.ts";
+import type { BuildingResults, HourlyModelOutcome } from "./fromAnalysis.ts";
 import type { PricedBill } from "../tariff/index.ts";
 import type { MeterBaseline } from "../model/index.ts";
 import type { MeterQuality } from "../clean/index.ts";
-import type { IntervalBaselineOutcome } from "../model/index.ts";
 import type { MeteredViews } from "../audit/index.ts";
 import type { ForecastBundle, ForecastRow, Band } from "../forecast/index.ts";
 import { weatherGapDetections } from "../clean/index.ts";
@@ -147,7 +146,7 @@ function modelsJson(results: BuildingResults[]) {
   })));
 }
 
-function hourlyModels(outcome: IntervalBaselineOutcome | undefined) {
+function hourlyModels(outcome: HourlyModelOutcome | undefined) {
   if (!outcome) return null;
   if (!outcome.baseline) return { problem: outcome.problem };
   return outcome.baseline.summary;

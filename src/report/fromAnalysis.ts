@@ -16,7 +16,17 @@ import type { MeterQuality } from "../clean/index.ts";
 import type { PricedBill } from "../tariff/index.ts";
 import { shiftMonth } from "../core/time/index.ts";
 import type { Building } from "../domain/types.ts";
-import type { IntervalBaselineOutcome } from "../model/index.ts";
+import type { IntervalBaselineSummary } from "../model/index.ts";
+
+/**
+ * A meter's hourly model as kept after the analysis: its summary, which every later stage reads
+ * (the fitted models stay in the worker thread that fitted them).
+ */
+export interface HourlyModelOutcome {
+  meterId: string;
+  baseline: { summary: IntervalBaselineSummary } | null;
+  problem: string | null;
+}
 
 /** Everything computed for one building; a building that fails carries only `failure`. */
 export interface BuildingResults {
@@ -25,7 +35,7 @@ export interface BuildingResults {
   findings: Finding[];
   baselines: MeterBaseline[];
   /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
-  intervalBaselines: IntervalBaselineOutcome[];
+  intervalBaselines: HourlyModelOutcome[];
   failure: string | null;
 }
 

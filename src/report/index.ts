@@ -1,7 +1,7 @@
 /** The report stage: pipeline results → page view models. */
 export type * from "./input.ts";
 export type * from "./siteModel.ts";
-export { buildSiteModel, tenantSiteModel } from "./buildSiteModel.ts";
+export { buildSiteModel, siteModelInParts, tenantSiteModel, type SiteModelInParts } from "./buildSiteModel.ts";
 export { describeDataFiles, describeDataFile, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";
 export { jsonForScript } from "./format.ts";
 
@@ -9,5 +9,5 @@ export { jsonForScript } from "./format.ts";
 export { buildDataFiles } from "./dataFiles.ts";
 export { buildingDataFolder } from "./dataPage.ts";
 export { toReportInput } from "./fromAnalysis.ts";
-export type { BuildingResults } from "./fromAnalysis.ts";
+export type { BuildingResults, HourlyModelOutcome } from "./fromAnalysis.ts";
 export { effectiveAsOf } from "./usageSummary.ts";

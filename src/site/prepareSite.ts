@@ -63,17 +63,17 @@ async function prepareMaybe<T extends ChartModel>(chart: T | null): Promise<T | 
   return chart ? prepareChart(chart) : null;
 }
 
-/**
- * Fills every chart's `spec`, `specJson` and `svg` (index, building and meter pages), the data
- * page's file list, each building's own downloads (files under `data/buildings/<building_id>/`)
- * and the dispute list's downloads (disputes.csv and disputes.json, when written).
- * @example const ready = await prepareSite(model, { "findings.csv": "..." });
- */
-export async function prepareSite(model: SiteModel, dataFiles: Record<string, string>): Promise<SiteModel> {
+/** Byte size of each data file (name relative to data/ → bytes), for the downloads lists. */
+export function dataFileSizes(dataFiles: Record<string, string>): Record<string, number> {
   const sizes: Record<string, number> = {};
   for (const [name, text] of Object.entries(dataFiles)) sizes[name] = Buffer.byteLength(text, "utf8");
+  return sizes;
+}
+
+/** Building pages with their charts filled and their own downloads (files under `data/buildings/<building_id>/`). */
+export async function prepareBuildingPages(pages: readonly SiteModel["buildings"][number][], sizes: Record<string, number>): Promise<SiteModel["buildings"]> {
   const buildings = [];
-  for (const page of model.buildings) {
+  for (const page of pages) {
     const commodities = [];
     for (const section of page.commodities) commodities.push({ ...section, charts: await prepareAll(section.charts) });
     const folder = buildingDataFolder(page.buildingId);
@@ -82,19 +82,38 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
     const forecast = page.forecast ? { ...page.forecast, chart: await prepareMaybe(page.forecast.chart) } : null;
     buildings.push({ ...page, commodities, forecast, downloads: describeDataFiles(own, page.root) });
   }
-  // Meter pages carry the meter's weather-baseline and data-quality charts.
+  return buildings;
+}
+
+/** Meter pages with their weather-baseline and data-quality charts filled. */
+export async function prepareMeterPages(pages: readonly SiteModel["meterBills"][number][]): Promise<SiteModel["meterBills"]> {
   const meterBills = [];
-  for (const page of model.meterBills) {
+  for (const page of pages) {
     const baseline = page.baseline ? { ...page.baseline, charts: await prepareAll(page.baseline.charts) } : null;
     const quality = page.quality ? { ...page.quality, charts: await prepareAll(page.quality.charts) } : null;
     meterBills.push({ ...page, baseline, quality });
   }
+  return meterBills;
+}
+
+/** Tenant pages with their charts filled. */
+export async function prepareTenantPages(pages: readonly SiteModel["tenants"][number][]): Promise<SiteModel["tenants"]> {
   const tenants = [];
-  for (const page of model.tenants) {
+  for (const page of pages) {
     const commodities = [];
     for (const c of page.commodities) commodities.push({ ...c, chart: await prepareMaybe(c.chart) });
     tenants.push({ ...page, commodities });
   }
+  return tenants;
+}
+
+/**
+ * The model with the portfolio-level pages filled (index charts, the data page's file list, the
+ * dispute list's downloads) and the building, meter and tenant pages left as they are: the site
+ * writer fills those a few at a time (prepareBuildingPages, prepareMeterPages,
+ * prepareTenantPages) so their charts are never all in memory at once.
+ */
+export async function preparePortfolioPages(model: SiteModel, sizes: Record<string, number>): Promise<SiteModel> {
   return {
     ...model,
     index: {
@@ -102,10 +121,21 @@ export async function prepareSite(model: SiteModel, dataFiles: Record<string, st
       charts: await prepareAll(model.index.charts),
       intensityChart: await prepareMaybe(model.index.intensityChart),
     },
-    buildings,
-    meterBills,
-    tenants,
     data: { ...model.data, files: describeDataFiles(sizes, model.data.root) },
     disputes: { ...model.disputes, downloads: describeDataFiles(pick(sizes, DISPUTE_FILES), model.disputes.root) },
   };
+}
+
+/**
+ * Fills every chart's `spec`, `specJson` and `svg` (index, building and meter pages), the data
+ * page's file list, each building's own downloads (files under `data/buildings/<building_id>/`)
+ * and the dispute list's downloads (disputes.csv and disputes.json, when written).
+ * @example const ready = await prepareSite(model, { "findings.csv": "..." });
+ */
+export async function prepareSite(model: SiteModel, dataFiles: Record<string, string>): Promise<SiteModel> {
+  const sizes = dataFileSizes(dataFiles);
+  const buildings = await prepareBuildingPages(model.buildings, sizes);
+  const meterBills = await prepareMeterPages(model.meterBills);
+  const tenants = await prepareTenantPages(model.tenants);
+  return { ...(await preparePortfolioPages(model, sizes)), buildings, meterBills, tenants };
 }

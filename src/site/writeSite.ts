@@ -1,20 +1,21 @@
 /**
- * Writes the static site: Eleventy renders the view models through content/ templates, the
- * Vite plugin bundles the client scripts and styles, then the data files are added. Built in
+ * Writes the static site: Vite bundles the client scripts and styles once (clientBundle.ts),
+ * Eleventy renders the view models through content/ templates, each page given the bundle's
+ * tags as it is written, then the data files are added. Built in
  * a scratch folder next to `outDir` and swapped in by rename, so a failed build never leaves
  * a half-written site and a reader never sees one mid-build.
  */
 import { mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from "node:fs/promises";
 import { rmSync } from "node:fs";
-import { basename, dirname, join, resolve, sep } from "node:path";
+import { basename, dirname, join, relative, resolve, sep } from "node:path";
 import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
 import Eleventy from "@11ty/eleventy";
-import EleventyVitePlugin from "@11ty/eleventy-plugin-vite";
-import type { SiteModel } from "../report/index.ts";
+import type { SiteModel, SiteModelInParts } from "../report/index.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
-import { prepareSite } from "./prepareSite.ts";
+import { dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
+import { applyClientBundle, buildClientBundle, type ClientBundle } from "./clientBundle.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
 const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -29,6 +30,10 @@ export interface WriteSiteOptions {
   verbose?: boolean;
   /** Template folder (layouts, pages, assets); default the project's content/. */
   contentDir?: string;
+  /** Building pages per Eleventy pass (default BUILDINGS_PER_PASS); the output does not depend on it. */
+  buildingsPerPass?: number;
+  /** Called after each pass of building pages with how many buildings' pages are written. */
+  onProgress?: (buildingsDone: number, buildingsTotal: number) => void;
 }
 
 /** Prefix of the scratch folders of builds into `outDir`. */
@@ -169,7 +174,8 @@ async function exists(path: string): Promise<boolean> {
   }
 }
 
-function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<string, unknown> {
+/** Vite options of the site's client bundle (exported for the test that builds a site through the Eleventy Vite plugin too). */
+export function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<string, unknown> {
   const require = createRequire(join(PROJECT_ROOT, "package.json"));
   return {
     // When Vite fails, the Eleventy plugin's attempt to restore its folder can fail too and hide
@@ -211,13 +217,14 @@ function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<
 
 /**
  * Renders `model` into `outDir` with every file in `dataFiles` (name relative to data/ → text)
- * under `outDir/data/`. Replaces `outDir` only when the whole build succeeded.
+ * under `outDir/data/`. Replaces `outDir` only when the whole build succeeded. A model in parts
+ * (siteModelInParts) has its building pages made a pass at a time, so they are never all in memory.
  * `options.verbose` lets Eleventy and Vite log to the console (for debugging a build).
  * @throws SiteWriteError when rendering, bundling or writing fails (outDir unchanged).
  * @example await writeSite(buildSiteModel(input), { "findings.csv": csv }, "_site");
  */
 export async function writeSite(
-  model: SiteModel,
+  model: SiteModel | SiteModelInParts,
   dataFiles: Record<string, string>,
   outDir: string,
   options: WriteSiteOptions = {},
@@ -241,24 +248,11 @@ export async function writeSite(
   const stage = join(scratch, "site");
   let bundleError: Error | null = null;
   try {
-    const ready = await prepareSite(model, dataFiles);
-    const eleventy = new Eleventy(contentDir, stage, {
-      quietMode: !verbose,
-      configPath: ELEVENTY_CONFIG,
-      config(eleventyConfig) {
-        eleventyConfig.addGlobalData("site", ready);
-        eleventyConfig.addPassthroughCopy({ [join(contentDir, "assets")]: "assets" });
-        eleventyConfig.addPlugin(EleventyVitePlugin, {
-          tempFolderName: join(scratch, ".11ty-vite"),
-          viteOptions: viteOptions(verbose, (error) => {
-            bundleError ??= error;
-          }),
-        });
-      },
-    });
-    // Library code does not print: errors reach the caller as SiteWriteError instead.
-    if (!verbose) eleventy.disableLogger();
-    await eleventy.write();
+    // The client bundle first (Vite empties the folder it writes to), then the pages beside it.
+    const bundle = await buildClientBundle(contentDir, stage, scratch, viteOptions(verbose, (error) => {
+      bundleError ??= error;
+    }));
+    await renderPages(model, dataFileSizes(dataFiles), { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS, onProgress: options.onProgress });
     if (!(await exists(join(stage, "index.html")))) {
       throw new SiteWriteError("the site build produced no index.html");
     }
@@ -291,4 +285,89 @@ export async function writeSite(
     await rm(scratch, { recursive: true, force: true });
     activeScratch.delete(scratch);
   }
+}
+
+/** Building pages rendered per Eleventy pass (with their meter and tenant pages, in proportion). */
+export const BUILDINGS_PER_PASS = 20;
+
+interface RenderContext {
+  contentDir: string;
+  stage: string;
+  bundle: ClientBundle;
+  verbose: boolean;
+  buildingsPerPass: number;
+  onProgress?: (done: number, total: number) => void;
+}
+
+/**
+ * Renders every page of `model` into `ctx.stage`, a few buildings at a time, so memory does not
+ * grow with the number of buildings: a first Eleventy pass writes the portfolio-level pages
+ * (index, disputes, claims, methods, data…) with the per-building lists empty; then each pass
+ * writes a slice of the building, meter and tenant pages, with their charts rendered just before
+ * and dropped after, and the templates of the first pass left out. Paginated templates over
+ * `site.buildings`, `site.meterBills` and `site.tenants` must therefore read only their own item
+ * and the portfolio-level parts of `site` (as every template does); the site is byte-identical
+ * to one rendered in a single pass (test/site/writeSite.test.ts).
+ */
+async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<string, number>, ctx: RenderContext): Promise<void> {
+  const parts = "pagesOf" in model ? model : null;
+  const full = "pagesOf" in model ? null : model;
+  const base = parts ? parts.shell : full!;
+  // A whole model may have tenant pages and no building pages (the tenant site): count both.
+  const buildingCount = parts ? parts.buildingCount : Math.max(full!.buildings.length, full!.tenants.length);
+  const portfolioPages = await preparePortfolioPages(base, sizes);
+  const shell: SiteModel = { ...portfolioPages, buildings: [], meterBills: [], tenants: [] };
+  const firstPassTemplates = new Set<string>();
+  await eleventyPass(shell, ctx, firstPassTemplates, null);
+  const passes = Math.ceil(buildingCount / Math.max(1, ctx.buildingsPerPass));
+  if (passes === 0) return;
+  // A whole model is cut into equal shares of each page list; a model in parts gives the pages
+  // of each consecutive range of buildings, made just now.
+  const size = Math.ceil(buildingCount / passes);
+  const share = <T>(items: readonly T[], i: number) => items.slice(i * Math.ceil(items.length / passes), (i + 1) * Math.ceil(items.length / passes));
+  let written = 0;
+  ctx.onProgress?.(0, buildingCount);
+  for (let i = 0; i < passes; i++) {
+    const from = i * size;
+    const to = Math.min(buildingCount, from + size);
+    const pages = parts ? parts.pagesOf(from, to) : { buildings: share(full!.buildings, i), meterBills: share(full!.meterBills, i), tenants: share(full!.tenants, i) };
+    const site: SiteModel = {
+      ...shell,
+      buildings: await prepareBuildingPages(pages.buildings, sizes),
+      meterBills: await prepareMeterPages(pages.meterBills),
+      tenants: await prepareTenantPages(pages.tenants),
+    };
+    await eleventyPass(site, ctx, null, firstPassTemplates);
+    written += to - from;
+    ctx.onProgress?.(written, buildingCount);
+  }
+}
+
+/**
+ * One Eleventy run over the templates with `site` as global data, each HTML page given the
+ * client bundle's tags as it is written. `record` collects the templates that wrote a page;
+ * templates in `skip` are not rendered.
+ */
+async function eleventyPass(site: SiteModel, ctx: RenderContext, record: Set<string> | null, skip: ReadonlySet<string> | null): Promise<void> {
+  const { stage, bundle } = ctx;
+  const eleventy = new Eleventy(ctx.contentDir, stage, {
+    quietMode: !ctx.verbose,
+    configPath: ELEVENTY_CONFIG,
+    config(eleventyConfig) {
+      eleventyConfig.addGlobalData("site", site);
+      // Eleventy warns about slow configuration code (our transform) even in quiet mode.
+      const bench = eleventyConfig.benchmarkManager as { get?(name: string): { setIsVerbose?(verbose: boolean): void } } | undefined;
+      if (!ctx.verbose) bench?.get?.("Configuration")?.setIsVerbose?.(false);
+      for (const inputPath of skip ?? []) eleventyConfig.ignores.add(inputPath);
+      eleventyConfig.addTransform("ohmbook-client-bundle", function (this: { page?: { outputPath?: unknown; inputPath?: unknown } }, content: string) {
+        const outputPath = this.page?.outputPath;
+        if (typeof this.page?.inputPath === "string") record?.add(this.page.inputPath);
+        if (typeof outputPath !== "string" || !outputPath.endsWith(".html")) return content;
+        return applyClientBundle(content, relative(stage, outputPath).split(sep).join("/"), bundle);
+      });
+    },
+  });
+  // Library code does not print: errors reach the caller as SiteWriteError instead.
+  if (!ctx.verbose) eleventy.disableLogger();
+  await eleventy.write();
 }

@@ -111,5 +111,11 @@ describe("ohmbook init + build", () => {
     const bad = recorder();
     expect(await runCli(["build", "--fail-on", "sometimes"], bad)).toBe(1);
     expect(bad.stderr).toMatch(/--fail-on must be/);
+    for (const jobs of ["0", "-1", "2.5", "many"]) {
+      const r = recorder();
+      expect(await runCli(["build", `--jobs=${jobs}`], r)).toBe(1);
+      expect(r.stderr).toMatch(/--jobs must be a whole number of worker threads from 1/);
+      expect(r.stderr).not.toMatch(/at .*\.ts:\d+/);
+    }
   });
 });

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { cp, mkdir, mkdtemp, readFile, readdir, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
-import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../../src/report/buildSiteModel.ts";
 import { SiteWriteError, writeSite } from "../../src/site/writeSite.ts";
 import { fixtureInput } from "../report/fixture.ts";
 
@@ -167,4 +167,42 @@ describe("writeSite", () => {
     await expect(stat(fresh)).rejects.toThrow();
     expect((await readdir(work)).sort()).toEqual(["site"]);
   }, 60_000);
+
+  it("writes the same site byte for byte whether building pages are rendered one per pass or all in one, made up front or per pass", async () => {
+    const model = buildSiteModel(fixtureInput());
+    expect(model.buildings.length).toBeGreaterThan(1);
+    expect(model.meterBills.length).toBeGreaterThan(model.buildings.length);
+    const all = join(work, "all-in-one");
+    await writeSite(model, DATA, all, { buildingsPerPass: 1000 });
+    const list = async (dir: string) => (await readdir(dir, { recursive: true, withFileTypes: true })).filter((e) => e.isFile()).map((e) => join(e.parentPath, e.name).slice(dir.length + 1)).sort();
+    const files = await list(all);
+    expect(files.filter((f) => f.startsWith("buildings/")).length).toBe(model.buildings.length);
+    const variants: [string, Parameters<typeof writeSite>[0]][] = [
+      ["one-per-pass", model],
+      ["in-parts-one-per-pass", siteModelInParts(fixtureInput())],
+    ];
+    for (const [name, source] of variants) {
+      const dir = join(work, name);
+      await writeSite(source, DATA, dir, { buildingsPerPass: 1 });
+      expect(await list(dir)).toEqual(files);
+      for (const f of files) expect((await readFile(join(dir, f))).equals(await readFile(join(all, f))), `${name}: ${f}`).toBe(true);
+      await rm(dir, { recursive: true, force: true });
+    }
+    await rm(all, { recursive: true, force: true });
+    // The tenant site has tenant pages and no building pages: every pass still writes them.
+    const withTenants = fixtureInput();
+    withTenants.portfolio = { ...withTenants.portfolio, buildings: withTenants.portfolio.buildings.map((b) => ({ ...b, tenantPage: true })) };
+    const tenantModel = buildSiteModel(withTenants);
+    const tenantsAll = join(work, "tenants-all");
+    const tenantsOne = join(work, "tenants-one");
+    await writeSite(tenantSiteModel(tenantModel), {}, tenantsAll, { buildingsPerPass: 1000 });
+    await writeSite(tenantSiteModel(tenantModel), {}, tenantsOne, { buildingsPerPass: 1 });
+    const tenantFiles = await list(tenantsAll);
+    expect(tenantModel.tenants.length).toBeGreaterThan(1);
+    expect(tenantFiles.filter((f) => f.endsWith("tenant.html")).length).toBe(tenantModel.tenants.length);
+    expect(await list(tenantsOne)).toEqual(tenantFiles);
+    for (const f of tenantFiles) expect((await readFile(join(tenantsOne, f))).equals(await readFile(join(tenantsAll, f))), f).toBe(true);
+    await rm(tenantsAll, { recursive: true, force: true });
+    await rm(tenantsOne, { recursive: true, force: true });
+  }, 120_000);
 });

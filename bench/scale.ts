@@ -1,0 +1,73 @@
+/**
+ * Scale benchmark (a script, not a test):
+ *   npm run bench:scale -- --buildings N [--jobs J] [--seed S] [--repeat R] [--keep]
+ *
+ * Writes a synthetic portfolio of N buildings with the demo's mix (bench/lib/scalePortfolio.ts:
+ * the demo's 8 buildings replicated with unique ids) into a temporary folder, builds it once in a
+ * fresh child process (bench/lib/scaleChild.ts) and prints, per pipeline stage and in total, wall
+ * time and CPU time (all threads), the peak RSS of the build process and CPU per building.
+ * Other processes sharing the machine stretch wall time, not CPU time. The folder and the site
+ * are removed afterwards unless --keep.
+ */
+import { spawnSync } from "node:child_process";
+import { mkdtemp, rm } from "node:fs/promises";
+import { availableParallelism, loadavg, tmpdir } from "node:os";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { parseArgs } from "node:util";
+import { writeScalePortfolio } from "./lib/scalePortfolio.ts";
+
+const { values } = parseArgs({
+  options: {
+    buildings: { type: "string", default: "8" },
+    jobs: { type: "string" },
+    seed: { type: "string", default: "1" },
+    repeat: { type: "string", default: "1" },
+    keep: { type: "boolean", default: false },
+  },
+});
+const buildings = Number(values.buildings);
+const repeat = Number(values.repeat);
+const root = fileURLToPath(new URL("..", import.meta.url));
+
+interface ChildReport {
+  stages: { name: string; wallMs: number; cpuMs: number; rssEndMiB: number }[];
+  wallMs: number;
+  cpuMs: number;
+  maxRssKiB: number;
+  buildings: number;
+  failed: number;
+}
+
+const folder = await mkdtemp(join(tmpdir(), `ohmbook-scale-${buildings}-`));
+const dir = join(folder, "portfolio");
+const generated = await writeScalePortfolio(join(root, "data", "demo"), dir, buildings, Number(values.seed));
+const s = (ms: number) => (ms / 1000).toFixed(1).padStart(7);
+console.log(`# ohmbook scale benchmark: ${generated.buildings} buildings, ${generated.meters} meters (${generated.intervalMeters} with 15-minute data), ${generated.bills} bills`);
+console.log(`# machine: ${availableParallelism()} cores, load average ${loadavg().map((x) => x.toFixed(2)).join(" ")}; ${join(folder)}`);
+const options: Record<string, unknown> = {};
+if (values.jobs !== undefined) options.jobs = Number(values.jobs);
+try {
+  for (let run = 0; run < repeat; run++) {
+    const out = join(folder, `site-${run}`);
+    const child = spawnSync(process.execPath, ["--import", "tsx", join(root, "bench", "lib", "scaleChild.ts"), dir, out, JSON.stringify(options)], {
+      cwd: root,
+      encoding: "utf8",
+      maxBuffer: 1 << 26,
+      env: { ...process.env, NODE_OPTIONS: process.env.NODE_OPTIONS ?? "" },
+    });
+    if (child.status !== 0) {
+      console.error(child.stderr);
+      throw new Error(`build failed (exit ${child.status ?? child.signal})`);
+    }
+    const report = JSON.parse(child.stdout.trim().split("\n").pop()!) as ChildReport;
+    console.log(`\n## run ${run + 1}${values.jobs !== undefined ? ` (--jobs ${values.jobs})` : ""}`);
+    console.log(`${"stage".padEnd(58)} ${"wall s".padStart(7)} ${"CPU s".padStart(7)} ${"RSS after, MiB".padStart(15)}`);
+    for (const st of report.stages) console.log(`${st.name.slice(0, 58).padEnd(58)} ${s(st.wallMs)} ${s(st.cpuMs)} ${String(st.rssEndMiB).padStart(15)}`);
+    console.log(`${"total".padEnd(58)} ${s(report.wallMs)} ${s(report.cpuMs)}`);
+    console.log(`CPU per building ${(report.cpuMs / 1000 / report.buildings).toFixed(2)} s; wall per building ${(report.wallMs / 1000 / report.buildings).toFixed(2)} s; peak RSS ${(report.maxRssKiB / 1024 / 1024).toFixed(2)} GiB; buildings failed ${report.failed}`);
+    console.log(`RESULT ${JSON.stringify({ buildings, jobs: values.jobs ?? null, wallS: +(report.wallMs / 1000).toFixed(1), cpuPerBuildingS: +(report.cpuMs / 1000 / report.buildings).toFixed(3), peakRssGiB: +(report.maxRssKiB / 1024 / 1024).toFixed(3) })}`);
+  }
+} finally {
+  if (!values.keep) await rm(folder, { recursive: true, force: true });
+}
