@@ -7,7 +7,7 @@
 import { describe, expect, it } from "vitest";
 import { mkdtemp, readFile, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { basename, dirname, join } from "node:path";
 import { runCli, type CliIo } from "../../src/cli/main.ts";
 import { writeStarterPortfolio } from "../../src/cli/init.ts";
 
@@ -113,7 +113,9 @@ describe("--quiet and --json", () => {
     expect(await runCli(["build", dir, "--out", `${dir}-b`, "--json"], json)).toBe(0);
     const parsed = JSON.parse(json.stdout) as { issues: { severity: string; message: string }[] };
     expect(parsed.issues.filter((i) => i.severity === "warning").map((i) => i.message).join("\n")).toMatch(/colour/);
-    for (const d of [dir, `${dir}-a`, `${dir}-b`]) await rm(d, { recursive: true, force: true });
+    // The analysis cache sits beside each output folder (.OUT.ohmbook-cache).
+    const cacheOf = (out: string) => join(dirname(out), `.${basename(out)}.ohmbook-cache`);
+    for (const d of [dir, `${dir}-a`, `${dir}-b`, cacheOf(`${dir}-a`), cacheOf(`${dir}-b`)]) await rm(d, { recursive: true, force: true });
   });
 });
 
