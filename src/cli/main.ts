@@ -10,13 +10,15 @@ import { fileURLToPath } from "node:url";
 import { InputError, OhmbookError, UsageError } from "../core/errors.ts";
 import { formatIssueIn } from "../core/issues.ts";
 import { consoleReporter } from "./progress.ts";
-import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, SERVE_USAGE, defaultPortfolioDir, ohmbookVersion, wantsHelp } from "./usage.ts";
+import { BUILD_USAGE, CHECK_USAGE, INIT_USAGE, MERGE_USAGE, SERVE_USAGE, defaultPortfolioDir, ohmbookVersion, wantsHelp } from "./usage.ts";
 
 const HELP = `ohmbook — utility bills, interval data, weather and tariffs in; a checked, forecast static site out.
 
 Usage:
   ohmbook build [DIR] [--out OUT] [--fail-on warning|error] [--jobs N] [--cache DIR|--no-cache] [--strict] [--quiet] [--json]
   ohmbook check [DIR] [--quiet] [--json]
+  ohmbook build DIR --shard K/N|auto --partial PARTIAL    analyse one shard of the buildings
+  ohmbook merge PARTIAL... --out OUT                       the site from every shard's partial
   ohmbook serve [DIR] [--port N] [--out OUT]     build, serve on 127.0.0.1, rebuild on every change
   ohmbook price --tariff FILE (--usage N --from D --to D [--demand KW] [--pf PF] [--unit U]
                 | --intervals CSV --meter ID --from D --to D) [--timezone ZONE] [--estimate] [--json]
@@ -39,6 +41,8 @@ export interface CliIo {
   sourceDateEpoch?: string;
   /** The folder a missing DIR is looked for in (default: the process's current folder). */
   cwd?: string;
+  /** Environment for `--shard auto` (default: process.env). */
+  env?: Readonly<Record<string, string | undefined>>;
 }
 
 const processIo: CliIo = {
@@ -70,7 +74,7 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
     }
     // `ohmbook help build` is `ohmbook build --help`.
     if (command === "help" && rest[0] !== undefined) return await runCli([rest[0], "--help"], io);
-    const usage: Record<string, string> = { build: BUILD_USAGE, check: CHECK_USAGE, init: INIT_USAGE, serve: SERVE_USAGE };
+    const usage: Record<string, string> = { build: BUILD_USAGE, check: CHECK_USAGE, init: INIT_USAGE, serve: SERVE_USAGE, merge: MERGE_USAGE };
     if (command !== undefined && usage[command] !== undefined && wantsHelp(rest)) {
       io.out(`${usage[command]}\n`);
       return 0;
@@ -88,6 +92,8 @@ export async function runCli(argv: string[], io: CliIo = processIo): Promise<num
         return await commandInit(rest, io);
       case "serve":
         return await commandServe(rest, io);
+      case "merge":
+        return await commandMerge(rest, io);
       case "import": {
         const { runImport } = await import("./import.ts");
         return await runImport(rest, io);
@@ -145,6 +151,8 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
     jobs: { type: "string", short: "j" },
     cache: { type: "string" },
     "no-cache": { type: "boolean" },
+    shard: { type: "string" },
+    partial: { type: "string" },
   });
   if (positionals.length > 1) throw new UsageError(`build takes one folder, got ${positionals.length}`);
   const jobs = parseJobs(values.jobs as string | undefined);
@@ -159,8 +167,20 @@ async function commandBuild(args: string[], io: CliIo): Promise<number> {
   }
   const quiet = Boolean(values.quiet) || Boolean(values.json);
   const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err, width: io.columns ? io.columns - 1 : undefined });
-  const { buildPortfolioSite, defaultCacheDir } = await import("../pipeline/index.ts");
+  const { buildPortfolioSite, buildShard, defaultCacheDir, parseShard } = await import("../pipeline/index.ts");
   const dir = positionals[0] ?? defaultPortfolioDir(io.cwd ?? process.cwd());
+  if ((values.shard === undefined) !== (values.partial === undefined)) throw new UsageError("--shard and --partial go together: --shard K/N --partial DIR");
+  if (values.shard !== undefined) {
+    const shard = parseShard(values.shard as string, io.env ?? process.env);
+    const r = await buildShard({ dir, shard, partialDir: values.partial as string, strict: Boolean(values.strict), reporter, jobs }).catch((error: unknown) => {
+      if (error instanceof InputError && error.folder === undefined) error.folder = dir;
+      throw error;
+    });
+    for (const issue of r.issues) if (!quiet || issue.severity === "error") io.err(`${formatIssueIn(issue, dir)}\n`);
+    if (values.json) io.out(`${JSON.stringify({ shard: r.shard, buildings: r.buildings, buildingsFailed: r.failed, issues: r.issues }, null, 2)}\n`);
+    else if (!quiet) io.out(`Shard ${r.shard.index} of ${r.shard.count}: ${r.buildings.length} building(s) analysed into ${values.partial as string}${r.failed.length ? `; ${r.failed.length} could not be analysed` : ""}\nMerge every shard with: ohmbook merge PARTIAL_1 … PARTIAL_${r.shard.count} --out SITE\n`);
+    return 0;
+  }
   const outDir = (values.out as string | undefined) ?? "_site";
   const cacheDir = values["no-cache"] ? undefined : ((values.cache as string | undefined) ?? defaultCacheDir(outDir));
   const result = await buildPortfolioSite({
@@ -305,4 +325,37 @@ if (invokedDirectly) {
   runCli(process.argv.slice(2)).then((code) => {
     process.exitCode = code;
   });
+}
+
+async function commandMerge(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parse(args, {
+    out: { type: "string", short: "o" },
+    portfolio: { type: "string" },
+    "fail-on": { type: "string" },
+    quiet: { type: "boolean", short: "q" },
+    json: { type: "boolean" },
+  });
+  const failOn = values["fail-on"] as string | undefined;
+  if (failOn !== undefined && failOn !== "warning" && failOn !== "error") throw new UsageError(`--fail-on must be 'warning' or 'error', got '${failOn}'`);
+  const quiet = Boolean(values.quiet) || Boolean(values.json);
+  const reporter = consoleReporter({ quiet, tty: io.isTty, write: io.err, width: io.columns ? io.columns - 1 : undefined });
+  const { mergeShards } = await import("../pipeline/index.ts");
+  const result = await mergeShards({
+    partials: positionals,
+    dir: values.portfolio as string | undefined,
+    outDir: (values.out as string | undefined) ?? "_site",
+    strict: false,
+    reporter,
+    buildDate: buildDateFromEpoch(io.sourceDateEpoch),
+    onBug: "report",
+  });
+  for (const issue of result.issues) if (!quiet || issue.severity === "error") io.err(`${formatIssueIn(issue, values.portfolio as string | undefined)}\n`);
+  if (values.json) io.out(`${JSON.stringify({ ...result.summary, issues: result.issues }, null, 2)}\n`);
+  else if (!quiet) io.out(`${result.summaryText}\n`);
+  const crossed = failOn ? result.findingsAtOrAbove(failOn) : 0;
+  if (failOn && crossed > 0) {
+    io.err(`ohmbook: ${crossed} finding(s) at or above '${failOn}' (--fail-on)\n`);
+    return 3;
+  }
+  return 0;
 }

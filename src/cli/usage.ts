@@ -22,6 +22,11 @@ Options:
                          files, the settings and ohmbook are unchanged (default: .OUT.ohmbook-cache
                          beside OUT, never inside it)
   --no-cache             analyse every building, and keep nothing
+  --shard K/N|auto       analyse only shard K of N (a stable hash of each building id) and
+                         write its analyses to --partial DIR; 'ohmbook merge' writes the site.
+                         auto reads a Kubernetes Indexed Job (JOB_COMPLETION_INDEX, JOB_COMPLETIONS)
+                         or a Slurm array (SLURM_ARRAY_TASK_ID, _MIN, _COUNT)
+  --partial DIR          where a shard's analyses go (with --shard)
   --strict               any rejected input row fails the build (exit 1, nothing written)
   -q, --quiet            print only errors
   --json                 print a machine-readable summary on stdout, with every warning and error
@@ -29,6 +34,23 @@ Options:
 
 DIR defaults to the current folder when it holds portfolio.yaml, else data/demo.
 Exit codes: 0 built; 1 input errors (nothing written); 3 --fail-on reached.`;
+
+export const MERGE_USAGE = `Usage: ohmbook merge PARTIAL... --out OUT [--portfolio DIR] [--fail-on warning|error] [--quiet] [--json]
+
+Writes the site and every portfolio-level file from the partial results of
+'ohmbook build DIR --shard K/N --partial PARTIAL', one per shard: disputes, forecast and pages
+are computed once, exactly as one build on one machine would (the site is byte-identical).
+Refuses a missing or repeated shard, and partials of another portfolio or ohmbook version.
+
+Options:
+  -o, --out OUT          where the site goes (default _site)
+  --portfolio DIR        the portfolio folder (default: the one the shards read)
+  --fail-on LEVEL        exit 3 when an audit finding reaches LEVEL: warning or error
+  -q, --quiet            print only errors
+  --json                 print a machine-readable summary on stdout
+  -h, --help             show this help
+
+Exit codes: 0 built; 1 input or partial errors (nothing written); 3 --fail-on reached.`;
 
 export const CHECK_USAGE = `Usage: ohmbook check [DIR] [--quiet] [--json]
 

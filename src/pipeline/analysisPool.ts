@@ -18,7 +18,7 @@ import { availableParallelism } from "node:os";
 import Tinypool from "tinypool";
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import type { BugPolicy } from "../core/errors.ts";
+import { OhmbookError, type BugPolicy } from "../core/errors.ts";
 import type { BuildingResults } from "../report/index.ts";
 import { analyseTask, buildingTask, hydrateResults, type BuildingTask, type PlainResults } from "./buildingTask.ts";
 import { cacheKey, keyTariffs, pruneCache, readCached, writeCached, type AnalysisCache } from "./analysisCache.ts";
@@ -34,6 +34,10 @@ export interface AnalyseOptions {
   onBug?: BugPolicy;
   /** Called with the bug report line of a building whose analysis hit a bug (onBug `report`). */
   onBugReport?: (buildingId: string, line: string) => void;
+  /** Analyse only these buildings (a shard); the others are left out of the results. */
+  only?: ReadonlySet<string>;
+  /** Every building must come from the cache (merging shards): a miss is an error, never analysed here. */
+  requireCached?: boolean;
 }
 
 /** The default `--jobs`: the cores Node may use. */
@@ -53,7 +57,7 @@ function workerFilename(): string {
  * @example const results = await analyseBuildings(portfolio, masks, { jobs: 2 });
  */
 export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: ReadonlyMap<string, Uint8Array>, options: AnalyseOptions = {}): Promise<BuildingResults[]> {
-  const buildings = portfolio.buildings;
+  const buildings = options.only ? portfolio.buildings.filter((b) => options.only!.has(b.buildingId)) : portfolio.buildings;
   const jobs = Math.max(1, Math.min(options.jobs ?? defaultJobs(), buildings.length));
   const cache = options.cache ?? null;
   if (cache) keyTariffs(cache, portfolio.tariffs);
@@ -74,6 +78,9 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
         const task = buildingTask(portfolio, buildings[i]!, masks, options.onBug ?? "fail");
         const key = cache ? cacheKey(cache, task) : null;
         let plain = cache && key ? await readCached(cache, key) : null;
+        if (!plain && options.requireCached) {
+          throw new OhmbookError(`building ${buildings[i]!.buildingId} is in no partial result with these inputs: a shard was built from other input files, settings or program; build the shards again`);
+        }
         if (!plain) {
           plain = await analyse(task);
           // A bug's outcome is not kept: the next build (or a fixed ohmbook) tries again.

@@ -27,7 +27,9 @@ import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, SiteWriteError, writeSite } from "../site/index.ts";
 import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
 import { analyseBuildings } from "./analysisPool.ts";
-import { defaultCacheDir, openAnalysisCache } from "./analysisCache.ts";
+import { defaultCacheDir, openAnalysisCache, programFingerprint } from "./analysisCache.ts";
+import { buildingsDigest, gatherPartials, partialAnalysesDir, PARTIAL_FORMAT, preparePartialDir, shardOf, writeManifest, type ShardSpec } from "./shards.ts";
+import { rm } from "node:fs/promises";
 import { moneyText, roundCents } from "../core/money.ts";
 
 export interface BuildOptions {
@@ -58,6 +60,8 @@ export interface BuildOptions {
    * the output folder). Refused inside the output folder or the portfolio folder.
    */
   cacheDir?: string;
+  /** Every building's analysis must come from `cacheDir` (merging shards, see shards.ts). */
+  requireCached?: boolean;
 }
 
 export interface BuildResult {
@@ -130,6 +134,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
     onBug: (options.onBug ?? "fail") === "fail" || options.strict ? "fail" : "report",
     onBugReport: (buildingId, line) => reporter.warn(line),
     onDone: (done, total, buildingId) => reporter.step(done, total, buildingId),
+    requireCached: options.requireCached,
   });
   reporter.finish();
 
@@ -257,4 +262,78 @@ function summaryText(s: BuildSummary, currency: string): string {
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
   lines.push(`View it: open ${s.outDir}/index.html in a browser, or run 'ohmbook serve' on the portfolio folder to serve it and rebuild on every change.`);
   return lines.join("\n");
+}
+
+export interface ShardOptions {
+  dir: string;
+  shard: ShardSpec;
+  /** Folder for this shard's analyses and manifest (shards.ts). */
+  partialDir: string;
+  strict: boolean;
+  reporter?: Reporter;
+  jobs?: number;
+}
+
+export interface ShardResult {
+  issues: InputIssue[];
+  shard: ShardSpec;
+  buildings: string[];
+  failed: { buildingId: string; reason: string }[];
+}
+
+/**
+ * `build --shard K/N --partial OUT`: reads and screens the whole portfolio as a build does, then
+ * analyses only shard K's buildings into OUT (their analyses and a manifest); `merge` does the rest.
+ * @throws InputError as buildPortfolioSite does.
+ */
+export async function buildShard(options: ShardOptions): Promise<ShardResult> {
+  const reporter = options.reporter ?? silentReporter;
+  await preparePartialDir(options.partialDir);
+  reporter.stage(`Reading ${options.dir}`);
+  const loaded = await loadPortfolio(options.dir);
+  const issues = loaded.issues;
+  if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
+  if (options.strict && issues.some((i) => i.severity === "error")) throw new InputError(issues);
+  const cut = cutAtAsOf(loaded.portfolio);
+  issues.push(...cut.issues);
+  reporter.stage("Screening interval data and aligning meter clocks");
+  const quality = assessIntervalMeters(cut.portfolio);
+  const portfolio = quality.portfolio as Portfolio<Tariff>;
+  const only = new Set(portfolio.buildings.filter((b) => shardOf(b.buildingId, options.shard.count) === options.shard.index).map((b) => b.buildingId));
+  reporter.stage(`Shard ${options.shard.index} of ${options.shard.count}: pricing, checking and modelling ${only.size} of ${portfolio.buildings.length} building(s)`);
+  const cache = await openAnalysisCache(partialAnalysesDir(options.partialDir));
+  const results = await analyseBuildings(portfolio, new Map(quality.meters.map((q) => [q.meterId, q.mask])), {
+    jobs: options.jobs,
+    cache,
+    only,
+    onBug: options.strict ? "fail" : "report",
+    onBugReport: (_id, line) => reporter.warn(line),
+    onDone: (done, total, buildingId) => reporter.step(done, total, buildingId),
+  });
+  reporter.finish();
+  const failed = results.filter((r) => r.failure !== null).map((r) => ({ buildingId: r.building.buildingId, reason: r.failure! }));
+  if (options.strict && failed.length > 0) throw new InputError(failed.map((f) => ({ file: "buildings.csv", line: 0, column: 0, severity: "error" as const, message: `building ${f.buildingId} could not be analysed: ${f.reason}` })));
+  await writeManifest(options.partialDir, {
+    format: PARTIAL_FORMAT,
+    program: cache.program,
+    shard: options.shard,
+    portfolio: resolve(options.dir),
+    portfolioBuildings: buildingsDigest(portfolio.buildings.map((b) => b.buildingId)),
+    buildings: results.map((r) => r.building.buildingId),
+  });
+  return { issues, shard: options.shard, buildings: results.map((r) => r.building.buildingId), failed };
+}
+
+/**
+ * `merge OUT_1 … OUT_N --out SITE`: the site and every portfolio-level file from the shards'
+ * analyses (disputes, forecast and pages computed once, exactly as a one-machine build).
+ */
+export async function mergeShards(options: Omit<BuildOptions, "dir" | "cacheDir" | "requireCached"> & { partials: string[]; dir?: string }): Promise<BuildResult> {
+  const program = programFingerprint();
+  const gathered = await gatherPartials(options.partials, options.outDir, program);
+  try {
+    return await buildPortfolioSite({ ...options, dir: options.dir ?? gathered.portfolio, cacheDir: gathered.analysesDir, requireCached: true });
+  } finally {
+    await rm(gathered.analysesDir, { recursive: true, force: true });
+  }
 }
