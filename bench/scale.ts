@@ -1,16 +1,18 @@
 /**
  * Scale benchmark (a script, not a test):
- *   npm run bench:scale -- --buildings N [--jobs J] [--seed S] [--repeat R] [--keep]
+ *   npm run bench:scale -- --buildings N [--jobs J] [--seed S] [--repeat R] [--shards K] [--keep]
  *
  * Writes a synthetic portfolio of N buildings with the demo's mix (bench/lib/scalePortfolio.ts:
  * the demo's 8 buildings replicated with unique ids) into a temporary folder, builds it once in a
  * fresh child process (bench/lib/scaleChild.ts) and prints, per pipeline stage and in total, wall
  * time and CPU time (all threads), the peak RSS of the build process and CPU per building.
  * Other processes sharing the machine stretch wall time, not CPU time. The folder and the site
- * are removed afterwards unless --keep.
+ * are removed afterwards unless --keep. With --shards K it then runs K local shard processes at
+ * once (ohmbook build --shard k/K --partial …) and a merge, prints their wall times, and checks
+ * that the merged site equals the single build's byte for byte.
  */
-import { spawnSync } from "node:child_process";
-import { mkdtemp, rm } from "node:fs/promises";
+import { spawn, spawnSync } from "node:child_process";
+import { mkdtemp, readdir, readFile, rm } from "node:fs/promises";
 import { availableParallelism, loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -24,6 +26,7 @@ const { values } = parseArgs({
     seed: { type: "string", default: "1" },
     repeat: { type: "string", default: "1" },
     keep: { type: "boolean", default: false },
+    shards: { type: "string" },
   },
 });
 const buildings = Number(values.buildings);
@@ -68,6 +71,38 @@ try {
     console.log(`CPU per building ${(report.cpuMs / 1000 / report.buildings).toFixed(2)} s; wall per building ${(report.wallMs / 1000 / report.buildings).toFixed(2)} s; peak RSS ${(report.maxRssKiB / 1024 / 1024).toFixed(2)} GiB; buildings failed ${report.failed}`);
     console.log(`RESULT ${JSON.stringify({ buildings, jobs: values.jobs ?? null, wallS: +(report.wallMs / 1000).toFixed(1), cpuPerBuildingS: +(report.cpuMs / 1000 / report.buildings).toFixed(3), peakRssGiB: +(report.maxRssKiB / 1024 / 1024).toFixed(3) })}`);
   }
+  if (values.shards !== undefined) await shardRun(Number(values.shards), join(folder, "site-0"));
 } finally {
   if (!values.keep) await rm(folder, { recursive: true, force: true });
+}
+
+/** The CLI from source in a child process; resolves with its wall time, rejects on a failure. */
+function cli(args: string[]): Promise<number> {
+  const t0 = performance.now();
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, ["--import", "tsx", join(root, "src", "cli", "main.ts"), ...args], { cwd: root, stdio: ["ignore", "ignore", "pipe"] });
+    let err = "";
+    child.stderr.on("data", (d) => (err += String(d)));
+    child.on("close", (code) => (code === 0 ? resolve(performance.now() - t0) : reject(new Error(`ohmbook ${args.join(" ")} failed:\n${err}`))));
+  });
+}
+
+async function filesOf(dir: string): Promise<string[]> {
+  return (await readdir(dir, { withFileTypes: true, recursive: true })).filter((e) => e.isFile()).map((e) => join(e.parentPath, e.name).slice(dir.length + 1)).sort();
+}
+
+/** K shard processes at once, then the merge; the merged site must equal the single build's. */
+async function shardRun(k: number, single: string): Promise<void> {
+  const t0 = performance.now();
+  const partials = Array.from({ length: k }, (_, i) => join(folder, `partial-${i + 1}`));
+  const shardWalls = await Promise.all(partials.map((p, i) => cli(["build", dir, "--shard", `${i + 1}/${k}`, "--partial", p, "--jobs", "1", "--quiet"])));
+  const shardsWall = performance.now() - t0;
+  const merged = join(folder, "merged");
+  const mergeWall = await cli(["merge", ...partials, "--out", merged, "--quiet"]);
+  const files = await filesOf(single);
+  const same = JSON.stringify(await filesOf(merged)) === JSON.stringify(files) && (await Promise.all(files.map(async (f) => (await readFile(join(merged, f))).equals(await readFile(join(single, f)))))).every(Boolean);
+  console.log(`\n## ${k} local shards + merge`);
+  console.log(`shards (at once) ${(shardsWall / 1000).toFixed(1)} s wall (each ${shardWalls.map((w) => (w / 1000).toFixed(1)).join(", ")} s); merge ${(mergeWall / 1000).toFixed(1)} s; merged site ${same ? "identical to" : "DIFFERENT from"} the single build`);
+  console.log(`SHARDS ${JSON.stringify({ shards: k, shardsWallS: +(shardsWall / 1000).toFixed(1), mergeWallS: +(mergeWall / 1000).toFixed(1), identical: same })}`);
+  if (!same) process.exitCode = 1;
 }
