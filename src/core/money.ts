@@ -6,15 +6,16 @@
 
 /**
  * Rounds an amount to the cent, halves away from zero ("half-up" as bills print it).
- * Binary floating point stores 1.005 as 1.00499999…, so the value is first cleaned to
- * 12 significant digits; amounts of bills never need more.
+ * Binary floating point stores 1.005 as 1.00499999…, so the cents are first cleaned to 15
+ * significant digits (the most a double holds exactly, DBL_DIG): enough for amounts up to a
+ * billion with cents to spare (12 digits were not: 421,696,373.6845 rounded up).
  *
  * @example roundCents(1.005) // 1.01
  * @example roundCents(-2.345) // -2.35
  */
 export function roundCents(amount: number): number {
   if (!Number.isFinite(amount)) return amount;
-  const cents = Number((Math.abs(amount) * 100).toPrecision(12));
+  const cents = Number((Math.abs(amount) * 100).toPrecision(15));
   const rounded = Math.floor(cents + 0.5) / 100;
   return amount < 0 ? -rounded : rounded === 0 ? 0 : rounded;
 }
