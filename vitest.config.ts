@@ -6,6 +6,8 @@ import { defineConfig } from "vitest/config";
 export default defineConfig({
   test: {
     include: ["test/**/*.test.ts"],
+    // fast-check: a fixed seed under CI, fresh values locally (test/setup/fastCheck.ts)
+    setupFiles: ["test/setup/fastCheck.ts"],
     testTimeout: 60_000,
     hookTimeout: 60_000,
   },
