@@ -10,6 +10,9 @@ import type { CollectedMeter } from "./intervalCollector.ts";
 
 const INTERVAL_MINUTES_ALLOWED = [5, 15, 30, 60] as const;
 
+/** How to fix a repeated interval reading. */
+export const DUPLICATE_HINT = "remove the repeated row; on the autumn DST day write the repeated hour with a UTC offset if it is meant";
+
 export interface DuplicateRejection {
   fileIndex: number;
   line: number;
@@ -90,7 +93,7 @@ export function assembleIntervals(
         const reason = `duplicate reading for meter ${m.meterId} at ${new Date(t).toISOString()}; the first one (${fileLabels[m.fileIndex[keptSource]]}:${m.lines[keptSource]}) is kept`;
         duplicates.push({ fileIndex: m.fileIndex[i], line: m.lines[i], reason });
         issues.push({ file: fileLabels[m.fileIndex[i]], line: m.lines[i], column: 0, severity: "error", message: reason,
-          hint: "remove the repeated row; on the autumn DST day write the repeated hour with a UTC offset if it is meant" });
+          hint: DUPLICATE_HINT });
         continue;
       }
       startMs[kept] = t;

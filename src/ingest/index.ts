@@ -7,7 +7,7 @@ import { readdir, realpath } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { appendAll, capIssue, type InputIssue } from "../core/issues.ts";
 import type { FileReport, IngestReport, Portfolio, PortfolioSettings } from "../domain/types.ts";
-import { assembleIntervals } from "./assembleIntervals.ts";
+import { DUPLICATE_HINT, assembleIntervals } from "./assembleIntervals.ts";
 import { FileContext } from "./fileContext.ts";
 import { IntervalCollector } from "./intervalCollector.ts";
 import { parseIntervalStream } from "./intervalStream.ts";
@@ -259,7 +259,7 @@ export async function loadPortfolio(dir: string, options: LoadOptions = {}): Pro
     r.rowsRejected++;
     let ctx = dupContexts.get(d.fileIndex);
     if (!ctx) dupContexts.set(d.fileIndex, (ctx = new FileContext(intervalLabels[d.fileIndex], rootReal)));
-    ctx.reject(d.line, 0, d.reason, "remove the repeated row; on the autumn DST day write the repeated hour with a UTC offset if it is meant");
+    ctx.reject(d.line, 0, d.reason, DUPLICATE_HINT);
   }
   for (const [fileIndex, ctx] of dupContexts) {
     ctx.finish();

@@ -40,16 +40,13 @@ export async function readMeterIntervalFile(
   const ours = collector.meters.filter((m) => m.meterId === options.meterId);
   const others = collector.meters.filter((m) => m.meterId !== options.meterId);
   const assembled = assembleIntervals(ours, [options.fileLabel], options.stamp);
-  const duplicates: InputIssue[] = assembled.duplicates.map((d) => ({
-    file: options.fileLabel, line: d.line, column: 0, severity: "error", message: d.reason,
-    hint: "remove the repeated row; on the autumn DST day write the repeated hour with a UTC offset if it is meant",
-  }));
   const series = assembled.series.get(options.meterId) ?? null;
   return {
     series,
     rowsForMeter: (ours[0]?.count ?? 0) - assembled.duplicates.length,
     rowsOtherMeters: others.reduce((s, m) => s + m.count, 0),
     otherMeters: others.map((m) => m.meterId),
-    issues: [...res.issues, ...duplicates, ...assembled.issues.filter((x) => x.severity !== "error")],
+    // Assembly reports each duplicate as an error of its row, with its hint.
+    issues: [...res.issues, ...assembled.issues],
   };
 }

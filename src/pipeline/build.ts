@@ -107,19 +107,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   // A wrong output folder is refused before any work.
   await checkOutputFolder(options.outDir, options.dir);
   if (options.cacheDir !== undefined) checkCacheFolder(options.cacheDir, options.outDir, options.dir);
-  reporter.stage(`Reading ${options.dir}`);
-  const loaded = await loadPortfolio(options.dir);
-  const issues = loaded.issues;
-  const errors = issues.filter((i) => i.severity === "error");
-  if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
-  if (options.strict && errors.length > 0) throw new InputError(issues);
-  // as_of is the last day of data used: later bills and readings are left out, with a warning.
-  const cut = cutAtAsOf(loaded.portfolio);
-  issues.push(...cut.issues);
-  reporter.stage("Screening interval data and aligning meter clocks");
-  const quality = assessIntervalMeters(cut.portfolio);
-  // From here on every stage sees the corrected clocks (flagged readings stay in the record).
-  const portfolio = quality.portfolio as Portfolio<Tariff>;
+  const { loaded, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter);
   const dataDate = effectiveAsOf(portfolio);
   const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
@@ -249,12 +237,11 @@ function portfolioDisputes(portfolio: Portfolio<Tariff>, findings: Finding[], pr
 }
 
 function summaryText(s: BuildSummary, currency: string): string {
-  const fmt = { format: (amount: number) => moneyText(amount, currency) };
   const notPriced = s.bills - s.billsPriced;
   const lines = [
     `Built ${s.buildings} building page(s) into ${s.outDir}`,
     `  ${s.billsCheckedExactly} of ${s.bills} bills checked exactly; ${s.billsEstimated} only estimated (a time-of-use or period-demand split that interval data does not pin down: not compared); ${notPriced} not re-priced`,
-    `  bills to dispute: ${s.claims.count} claim(s), ${fmt.format(s.claims.total)}; billed too low or not billed: ${s.backBillRisks.count}, ${fmt.format(-s.backBillRisks.total)}`,
+    `  bills to dispute: ${s.claims.count} claim(s), ${moneyText(s.claims.total, currency)}; billed too low or not billed: ${s.backBillRisks.count}, ${moneyText(-s.backBillRisks.total, currency)}`,
     `  findings: ${s.findings.error} error, ${s.findings.warning} warning, ${s.findings.info} info`,
   ];
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
@@ -262,6 +249,26 @@ function summaryText(s: BuildSummary, currency: string): string {
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
   lines.push(`View it: open ${s.outDir}/index.html in a browser, or run 'ohmbook serve' on the portfolio folder to serve it and rebuild on every change.`);
   return lines.join("\n");
+}
+
+/**
+ * The stages before any building is analysed, shared by a build and a shard: read the folder,
+ * cut at the as-of date, screen interval data and align meter clocks.
+ * @throws InputError when inputs are unusable (or, with `strict`, when any row was rejected).
+ */
+async function readAndScreen(dir: string, strict: boolean, reporter: Reporter) {
+  reporter.stage(`Reading ${dir}`);
+  const loaded = await loadPortfolio(dir);
+  const issues = loaded.issues;
+  if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
+  if (strict && issues.some((i) => i.severity === "error")) throw new InputError(issues);
+  // as_of is the last day of data used: later bills and readings are left out, with a warning.
+  const cut = cutAtAsOf(loaded.portfolio);
+  issues.push(...cut.issues);
+  reporter.stage("Screening interval data and aligning meter clocks");
+  const quality = assessIntervalMeters(cut.portfolio);
+  // From here on every stage sees the corrected clocks (flagged readings stay in the record).
+  return { loaded, issues, quality, portfolio: quality.portfolio as Portfolio<Tariff> };
 }
 
 export interface ShardOptions {
@@ -289,16 +296,7 @@ export interface ShardResult {
 export async function buildShard(options: ShardOptions): Promise<ShardResult> {
   const reporter = options.reporter ?? silentReporter;
   await preparePartialDir(options.partialDir);
-  reporter.stage(`Reading ${options.dir}`);
-  const loaded = await loadPortfolio(options.dir);
-  const issues = loaded.issues;
-  if (loaded.fatal || !loaded.portfolio) throw new InputError(issues);
-  if (options.strict && issues.some((i) => i.severity === "error")) throw new InputError(issues);
-  const cut = cutAtAsOf(loaded.portfolio);
-  issues.push(...cut.issues);
-  reporter.stage("Screening interval data and aligning meter clocks");
-  const quality = assessIntervalMeters(cut.portfolio);
-  const portfolio = quality.portfolio as Portfolio<Tariff>;
+  const { issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter);
   const only = new Set(portfolio.buildings.filter((b) => shardOf(b.buildingId, options.shard.count) === options.shard.index).map((b) => b.buildingId));
   reporter.stage(`Shard ${options.shard.index} of ${options.shard.count}: pricing, checking and modelling ${only.size} of ${portfolio.buildings.length} building(s)`);
   const cache = await openAnalysisCache(partialAnalysesDir(options.partialDir));

@@ -14,6 +14,11 @@ export function addDays(isoDate: string, days: number): string {
   return new Date(utcDay(isoDate) + days * 86_400_000).toISOString().slice(0, 10);
 }
 
+/** Two-digit zero padding for dates and times. @example pad2(7) // "07" */
+export function pad2(n: number): string {
+  return String(n).padStart(2, "0");
+}
+
 function utcDay(isoDate: string): number {
   return Date.UTC(+isoDate.slice(0, 4), +isoDate.slice(5, 7) - 1, +isoDate.slice(8, 10));
 }

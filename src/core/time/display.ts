@@ -2,7 +2,7 @@
  * Dates as people read them, in one fixed English style ("Jan 31, 2025"), written out by hand
  * rather than through Intl so a page reads the same on every machine whatever its ICU data.
  */
-import { isoDateToDayNumber } from "./dates.ts";
+import { isoDateToDayNumber, pad2 } from "./dates.ts";
 import { civilDay, localPartsOf } from "./local.ts";
 import { offsetAtMs } from "./zone.ts";
 
@@ -56,8 +56,4 @@ export function isoWithOffset(instantMs: number, zone: string): string {
     suffix = `${offsetMs < 0 ? "-" : "+"}${pad2(Math.floor(minutes / 60))}:${pad2(minutes % 60)}`;
   }
   return `${p.date}T${time}${suffix}`;
-}
-
-function pad2(n: number): string {
-  return String(n).padStart(2, "0");
 }

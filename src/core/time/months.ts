@@ -5,13 +5,9 @@
  * day-proration rule the tariff engine uses).
  */
 import { TimeInputError } from "../errors.ts";
-import { daysBetween, isIsoDate } from "./dates.ts";
+import { daysBetween, isIsoDate, pad2 } from "./dates.ts";
 import { localPartsOf } from "./local.ts";
 import { localMidnightMs } from "./toUtc.ts";
-
-function pad2(n: number): string {
-  return String(n).padStart(2, "0");
-}
 
 /** Days in month `month` (1–12) of `year`. */
 export function daysInMonth(year: number, month: number): number {
