@@ -1,6 +1,6 @@
 /**
  * Scale benchmark (a script, not a test):
- *   npm run bench:scale -- --buildings N [--jobs J] [--seed S] [--repeat R] [--shards K] [--keep]
+ *   npm run bench:scale -- --buildings N [--jobs J] [--seed S] [--repeat R] [--shards K] [--rebuild] [--keep]
  *
  * Writes a synthetic portfolio of N buildings with the demo's mix (bench/lib/scalePortfolio.ts:
  * the demo's 8 buildings replicated with unique ids) into a temporary folder, builds it once in a
@@ -9,10 +9,12 @@
  * Other processes sharing the machine stretch wall time, not CPU time. The folder and the site
  * are removed afterwards unless --keep. With --shards K it then runs K local shard processes at
  * once (ohmbook build --shard k/K --partial …) and a merge, prints their wall times, and checks
- * that the merged site equals the single build's byte for byte.
+ * that the merged site equals the single build's byte for byte. With --rebuild it builds with a
+ * cache, changes one bill, rebuilds (the incremental case) and compares the rebuilt site with a
+ * build of the changed folder without the cache.
  */
 import { spawn, spawnSync } from "node:child_process";
-import { mkdtemp, readdir, readFile, rm } from "node:fs/promises";
+import { mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises";
 import { availableParallelism, loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -27,6 +29,7 @@ const { values } = parseArgs({
     repeat: { type: "string", default: "1" },
     keep: { type: "boolean", default: false },
     shards: { type: "string" },
+    rebuild: { type: "boolean", default: false },
   },
 });
 const buildings = Number(values.buildings);
@@ -34,7 +37,7 @@ const repeat = Number(values.repeat);
 const root = fileURLToPath(new URL("..", import.meta.url));
 
 interface ChildReport {
-  stages: { name: string; wallMs: number; cpuMs: number; rssEndMiB: number }[];
+  stages: { name: string; wallMs: number; cpuMs: number; rssEndMiB: number; peakRssMiB: number | null; heapAfterGcMiB: number | null; buffersAfterGcMiB: number | null }[];
   wallMs: number;
   cpuMs: number;
   maxRssKiB: number;
@@ -53,27 +56,68 @@ if (values.jobs !== undefined) options.jobs = Number(values.jobs);
 try {
   for (let run = 0; run < repeat; run++) {
     const out = join(folder, `site-${run}`);
-    const child = spawnSync(process.execPath, ["--import", "tsx", join(root, "bench", "lib", "scaleChild.ts"), dir, out, JSON.stringify(options)], {
-      cwd: root,
-      encoding: "utf8",
-      maxBuffer: 1 << 26,
-      env: { ...process.env, NODE_OPTIONS: process.env.NODE_OPTIONS ?? "" },
-    });
-    if (child.status !== 0) {
-      console.error(child.stderr);
-      throw new Error(`build failed (exit ${child.status ?? child.signal})`);
-    }
-    const report = JSON.parse(child.stdout.trim().split("\n").pop()!) as ChildReport;
-    console.log(`\n## run ${run + 1}${values.jobs !== undefined ? ` (--jobs ${values.jobs})` : ""}`);
-    console.log(`${"stage".padEnd(58)} ${"wall s".padStart(7)} ${"CPU s".padStart(7)} ${"RSS after, MiB".padStart(15)}`);
-    for (const st of report.stages) console.log(`${st.name.slice(0, 58).padEnd(58)} ${s(st.wallMs)} ${s(st.cpuMs)} ${String(st.rssEndMiB).padStart(15)}`);
-    console.log(`${"total".padEnd(58)} ${s(report.wallMs)} ${s(report.cpuMs)}`);
-    console.log(`CPU per building ${(report.cpuMs / 1000 / report.buildings).toFixed(2)} s; wall per building ${(report.wallMs / 1000 / report.buildings).toFixed(2)} s; peak RSS ${(report.maxRssKiB / 1024 / 1024).toFixed(2)} GiB; buildings failed ${report.failed}`);
-    console.log(`RESULT ${JSON.stringify({ buildings, jobs: values.jobs ?? null, wallS: +(report.wallMs / 1000).toFixed(1), cpuPerBuildingS: +(report.cpuMs / 1000 / report.buildings).toFixed(3), peakRssGiB: +(report.maxRssKiB / 1024 / 1024).toFixed(3) })}`);
+    printReport(`run ${run + 1}${values.jobs !== undefined ? ` (--jobs ${values.jobs})` : ""}`, buildOnce(out, options), true);
   }
+  if (values.rebuild) await rebuildRun();
   if (values.shards !== undefined) await shardRun(Number(values.shards), join(folder, "site-0"));
 } finally {
   if (!values.keep) await rm(folder, { recursive: true, force: true });
+}
+
+/** One build of the portfolio in a fresh child process (bench/lib/scaleChild.ts), its report. */
+function buildOnce(out: string, buildOptions: Record<string, unknown>): ChildReport {
+  const child = spawnSync(process.execPath, ["--expose-gc", "--import", "tsx", join(root, "bench", "lib", "scaleChild.ts"), dir, out, JSON.stringify(buildOptions)], {
+    cwd: root,
+    encoding: "utf8",
+    maxBuffer: 1 << 26,
+    env: { ...process.env, NODE_OPTIONS: process.env.NODE_OPTIONS ?? "" },
+  });
+  if (child.status !== 0) {
+    console.error(child.stderr);
+    throw new Error(`build failed (exit ${child.status ?? child.signal})`);
+  }
+  return JSON.parse(child.stdout.trim().split("\n").pop()!) as ChildReport;
+}
+
+function printReport(title: string, report: ChildReport, result: boolean): void {
+  console.log(`\n## ${title}`);
+  console.log(`${"stage".padEnd(58)} ${"wall s".padStart(7)} ${"CPU s".padStart(7)} ${"peak RSS MiB".padStart(13)} ${"kept: heap".padStart(11)} ${"buffers MiB".padStart(12)}`);
+  for (const st of report.stages) console.log(`${st.name.slice(0, 58).padEnd(58)} ${s(st.wallMs)} ${s(st.cpuMs)} ${String(st.peakRssMiB ?? st.rssEndMiB).padStart(13)} ${String(st.heapAfterGcMiB ?? "-").padStart(11)} ${String(st.buffersAfterGcMiB ?? "-").padStart(12)}`);
+  console.log(`${"total".padEnd(58)} ${s(report.wallMs)} ${s(report.cpuMs)}`);
+  console.log(`CPU per building ${(report.cpuMs / 1000 / report.buildings).toFixed(2)} s; wall per building ${(report.wallMs / 1000 / report.buildings).toFixed(2)} s; peak RSS ${(report.maxRssKiB / 1024 / 1024).toFixed(2)} GiB; buildings failed ${report.failed}`);
+  if (result) console.log(`RESULT ${JSON.stringify({ buildings, jobs: values.jobs ?? null, wallS: +(report.wallMs / 1000).toFixed(1), cpuPerBuildingS: +(report.cpuMs / 1000 / report.buildings).toFixed(3), peakRssGiB: +(report.maxRssKiB / 1024 / 1024).toFixed(3) })}`);
+}
+
+/**
+ * The incremental rebuild a nightly run sees: a build with a cache, then one bill's total
+ * changed by a cent (the first bill in bills.csv) and the same build again, timed; the rebuilt
+ * site is then compared with a build of the changed folder without the cache.
+ */
+async function rebuildRun(): Promise<void> {
+  const cacheDir = join(folder, "cache");
+  const out = join(folder, "site-cached");
+  printReport("build with a cache (--cache)", buildOnce(out, { ...options, cacheDir }), false);
+  const billsFile = join(dir, "bills.csv");
+  const lines = (await readFile(billsFile, "utf8")).split("\n");
+  const header = lines[0]!.split(",");
+  const total = header.indexOf("total");
+  const cells = lines[1]!.split(",");
+  cells[total] = (Number(cells[total]) + 0.01).toFixed(2);
+  lines[1] = cells.join(",");
+  await writeFile(billsFile, lines.join("\n"));
+  const rebuilt = buildOnce(out, { ...options, cacheDir });
+  printReport(`rebuild after one bill changed (${cells[1]})`, rebuilt, false);
+  const fresh = join(folder, "site-fresh");
+  const full = buildOnce(fresh, options);
+  const same = await sameTree(out, fresh);
+  console.log(`\none-bill rebuild ${(rebuilt.wallMs / 1000).toFixed(1)} s wall, ${(rebuilt.cpuMs / 1000).toFixed(1)} s CPU: ${(rebuilt.wallMs / full.wallMs).toFixed(2)}× the wall and ${(rebuilt.cpuMs / full.cpuMs).toFixed(2)}× the CPU of a build without the cache (${(full.wallMs / 1000).toFixed(1)} s); rebuilt site ${same ? "identical to" : "DIFFERENT from"} that build`);
+  console.log(`REBUILD ${JSON.stringify({ buildings, rebuildWallS: +(rebuilt.wallMs / 1000).toFixed(1), rebuildCpuS: +(rebuilt.cpuMs / 1000).toFixed(1), fullWallS: +(full.wallMs / 1000).toFixed(1), identical: same })}`);
+  if (!same) process.exitCode = 1;
+}
+
+async function sameTree(a: string, b: string): Promise<boolean> {
+  const files = await filesOf(a);
+  return JSON.stringify(await filesOf(b)) === JSON.stringify(files) && (await Promise.all(files.map(async (f) => (await readFile(join(a, f))).equals(await readFile(join(b, f)))))).every(Boolean);
 }
 
 /** The CLI from source in a child process; resolves with its wall time, rejects on a failure. */
@@ -99,8 +143,7 @@ async function shardRun(k: number, single: string): Promise<void> {
   const shardsWall = performance.now() - t0;
   const merged = join(folder, "merged");
   const mergeWall = await cli(["merge", ...partials, "--out", merged, "--quiet"]);
-  const files = await filesOf(single);
-  const same = JSON.stringify(await filesOf(merged)) === JSON.stringify(files) && (await Promise.all(files.map(async (f) => (await readFile(join(merged, f))).equals(await readFile(join(single, f)))))).every(Boolean);
+  const same = await sameTree(single, merged);
   console.log(`\n## ${k} local shards + merge`);
   console.log(`shards (at once) ${(shardsWall / 1000).toFixed(1)} s wall (each ${shardWalls.map((w) => (w / 1000).toFixed(1)).join(", ")} s); merge ${(mergeWall / 1000).toFixed(1)} s; merged site ${same ? "identical to" : "DIFFERENT from"} the single build`);
   console.log(`SHARDS ${JSON.stringify({ shards: k, shardsWallS: +(shardsWall / 1000).toFixed(1), mergeWallS: +(mergeWall / 1000).toFixed(1), identical: same })}`);

@@ -12,12 +12,13 @@
  * Entries no build has used for PRUNE_AFTER_DAYS are removed.
  */
 import { createHash } from "node:crypto";
-import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
+import { existsSync, readFileSync, statSync } from "node:fs";
 import { mkdir, readdir, readFile, rename, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { basename, dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
 import { deserialize, serialize } from "node:v8";
 import type { BuildingTask, PlainResults } from "./buildingTask.ts";
+import { contentHash, hashFolder } from "../core/contentHash.ts";
 
 /** Bump when the entry format or the key's recipe changes. */
 const FORMAT = "ohmbook-analysis-cache/1";
@@ -40,25 +41,12 @@ export function defaultCacheDir(outDir: string): string {
   return join(dirname(out), `.${basename(out)}.ohmbook-cache`);
 }
 
-/** Every file under `dir` (relative path and contents), sorted, into `hash`. */
-function hashTree(hash: ReturnType<typeof createHash>, dir: string, prefix = ""): void {
-  for (const entry of readdirSync(dir, { withFileTypes: true }).sort((a, b) => (a.name < b.name ? -1 : 1))) {
-    const path = join(dir, entry.name);
-    if (entry.isDirectory()) hashTree(hash, path, `${prefix}${entry.name}/`);
-    else if (/\.(ts|mts|js|mjs|json)$/.test(entry.name)) {
-      hash.update(`${prefix}${entry.name}\0`);
-      hash.update(readFileSync(path));
-      hash.update("\0");
-    }
-  }
-}
-
 /** The program's fingerprint: the code this module runs from (src/ or dist/cli) and the lock file. */
 export function programFingerprint(): string {
   const here = fileURLToPath(import.meta.url);
   const root = resolve(dirname(here), "..", "..");
   const hash = createHash("sha256").update(FORMAT);
-  hashTree(hash, here.endsWith(".ts") ? join(root, "src") : dirname(here));
+  hashFolder(hash, here.endsWith(".ts") ? join(root, "src") : dirname(here), /\.(ts|mts|js|mjs|json)$/);
   for (const name of ["package.json", "package-lock.json"]) {
     const path = join(root, name);
     if (existsSync(path) && statSync(path).isFile()) hash.update(readFileSync(path));
@@ -75,54 +63,6 @@ export async function openAnalysisCache(dir: string): Promise<AnalysisCache> {
 /** Takes the tariffs' hash (call once per build, before the first building is analysed). */
 export function keyTariffs(cache: AnalysisCache, tariffs: ReadonlyMap<string, unknown>): void {
   cache.tariffs = contentHash(tariffs);
-}
-
-/**
- * SHA-256 of a value's content: numbers by their 64-bit pattern, strings, arrays, Map and Set in
- * order, typed arrays byte for byte, objects by sorted keys (functions skipped). Unlike
- * node:v8's serializer, it does not depend on how V8 happens to store a number (small integer
- * or double), which changes as code runs over an object.
- */
-export function contentHash(value: unknown): string {
-  const hash = createHash("sha256");
-  const number = Buffer.alloc(8);
-  const walk = (v: unknown): void => {
-    if (v === null) hash.update("n");
-    else if (v === undefined) hash.update("u");
-    else if (typeof v === "boolean") hash.update(v ? "T" : "F");
-    else if (typeof v === "number") {
-      number.writeDoubleLE(Number.isNaN(v) ? Number.NaN : v);
-      hash.update("d").update(number);
-    } else if (typeof v === "string") hash.update(`s${v.length}:`).update(v);
-    else if (typeof v === "bigint") hash.update(`b${v.toString()};`);
-    else if (typeof v === "function" || typeof v === "symbol") return;
-    else if (ArrayBuffer.isView(v)) hash.update(`a${v.constructor.name}${v.byteLength}:`).update(new Uint8Array(v.buffer, v.byteOffset, v.byteLength));
-    else if (Array.isArray(v)) {
-      hash.update(`[${v.length}`);
-      for (const x of v) walk(x);
-      hash.update("]");
-    } else if (v instanceof Map) {
-      hash.update(`M${v.size}`);
-      for (const [k, x] of v) {
-        walk(k);
-        walk(x);
-      }
-    } else if (v instanceof Set) {
-      hash.update(`S${v.size}`);
-      for (const x of v) walk(x);
-    } else if (v instanceof Date) hash.update(`D${v.getTime()};`);
-    else {
-      const keys = Object.keys(v as object).filter((k) => typeof (v as Record<string, unknown>)[k] !== "function").sort();
-      hash.update(`{${keys.length}`);
-      for (const k of keys) {
-        hash.update(`k${k.length}:${k}`);
-        walk((v as Record<string, unknown>)[k]);
-      }
-      hash.update("}");
-    }
-  };
-  walk(value);
-  return hash.digest("hex");
 }
 
 /** The key of a building's analysis: program and task. */

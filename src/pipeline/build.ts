@@ -6,7 +6,7 @@
  */
 import { InputError, bugReportLine, type BugPolicy } from "../core/errors.ts";
 import type { Portfolio } from "../domain/types.ts";
-import { resolve, sep } from "node:path";
+import { join, resolve, sep } from "node:path";
 import type { InputIssue } from "../core/issues.ts";
 import { loadPortfolio } from "../ingest/index.ts";
 import type { Tariff } from "../tariff/index.ts";
@@ -90,6 +90,8 @@ export interface BuildSummary {
   buildingsFailed: { buildingId: string; reason: string }[];
   /** Buildings whose analysis came from the cache (0 without one). */
   buildingsFromCache: number;
+  /** Building, meter and tenant pages unchanged since the last build, copied from it (0 without a cache). */
+  pagesReused: number;
 }
 
 
@@ -153,8 +155,11 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast });
   const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
   // The internal site's building pages are made a few buildings at a time as they are written.
-  if (options.audience === "tenants") await writeSite(tenantSiteModel(buildSiteModel(reportInput)), {}, options.outDir, { onProgress });
-  else await writeSite(siteModelInParts(reportInput), dataFiles, options.outDir, { onProgress });
+  // With a cache, pages unchanged since the last build into this folder are copied from it.
+  const reuse = options.cacheDir !== undefined && !options.requireCached ? { cacheDir: join(options.cacheDir, "site"), program: cache!.program } : undefined;
+  const written = options.audience === "tenants"
+    ? await writeSite(tenantSiteModel(buildSiteModel(reportInput)), {}, options.outDir, { onProgress, reuse })
+    : await writeSite(siteModelInParts(reportInput), dataFiles, options.outDir, { onProgress, reuse });
   reporter.finish();
 
   const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;
@@ -172,6 +177,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
     rowsRejected: portfolio.report.files.reduce((s, f) => s + f.rowsRejected, 0),
     buildingsFailed: failed.map((r) => ({ buildingId: r.building.buildingId, reason: r.failure! })),
     buildingsFromCache: cache?.hits ?? 0,
+    pagesReused: written.pagesReused,
   };
   return {
     issues,
@@ -246,6 +252,7 @@ function summaryText(s: BuildSummary, currency: string): string {
   ];
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
   if (s.buildingsFromCache > 0) lines.push(`  ${s.buildingsFromCache} of ${s.buildings} building(s) unchanged since the last build: their analysis came from the cache`);
+  if (s.pagesReused > 0) lines.push(`  ${s.pagesReused} building, meter and tenant page(s) unchanged since the last build: copied from the previous site`);
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
   lines.push(`View it: open ${s.outDir}/index.html in a browser, or run 'ohmbook serve' on the portfolio folder to serve it and rebuild on every change.`);
   return lines.join("\n");

@@ -76,13 +76,19 @@ export async function prepareBuildingPages(pages: readonly SiteModel["buildings"
   for (const page of pages) {
     const commodities = [];
     for (const section of page.commodities) commodities.push({ ...section, charts: await prepareAll(section.charts) });
-    const folder = buildingDataFolder(page.buildingId);
-    const own: Record<string, number> = {};
-    for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
+    const own = buildingDataSizes(page.buildingId, sizes);
     const forecast = page.forecast ? { ...page.forecast, chart: await prepareMaybe(page.forecast.chart) } : null;
     buildings.push({ ...page, commodities, forecast, downloads: describeDataFiles(own, page.root) });
   }
   return buildings;
+}
+
+/** The sizes of one building's own data files (under `data/buildings/<building_id>/`). */
+export function buildingDataSizes(buildingId: string, sizes: Record<string, number>): Record<string, number> {
+  const folder = buildingDataFolder(buildingId);
+  const own: Record<string, number> = {};
+  for (const [name, size] of Object.entries(sizes)) if (name.startsWith(folder)) own[name] = size;
+  return own;
 }
 
 /** Meter pages with their weather-baseline and data-quality charts filled. */

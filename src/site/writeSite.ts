@@ -16,8 +16,10 @@ import Eleventy from "@11ty/eleventy";
 import type { SiteModel, SiteModelInParts } from "../report/index.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
-import { dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
-import { applyClientBundle, buildClientBundle, type ClientBundle } from "./clientBundle.ts";
+import { buildingDataSizes, dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
+import { applyClientBundle, type ClientBundle } from "./clientBundle.ts";
+import { clientBundleOnce } from "./bundleReuse.ts";
+import { openPageReuse, type PageReuse } from "./pageReuse.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
 const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -36,6 +38,20 @@ export interface WriteSiteOptions {
   buildingsPerPass?: number;
   /** Called after each pass of building pages with how many buildings' pages are written. */
   onProgress?: (buildingsDone: number, buildingsTotal: number) => void;
+  /**
+   * Incremental writing (pageReuse.ts, bundleReuse.ts): the client bundle and every building,
+   * meter and tenant page whose inputs are unchanged since the last build into `outDir` are
+   * copied from it, not made again. `cacheDir` holds the manifests (never inside the site);
+   * `program` fingerprints the code.
+   */
+  reuse?: { cacheDir: string; program: string };
+}
+
+/** What a build wrote afresh and what it took unchanged from the previous site. */
+export interface WriteSiteStats {
+  pagesRendered: number;
+  pagesReused: number;
+  bundleReused: boolean;
 }
 
 /** Prefix of the scratch folders of builds into `outDir`. */
@@ -230,7 +246,7 @@ export async function writeSite(
   dataFiles: Record<string, string>,
   outDir: string,
   options: WriteSiteOptions = {},
-): Promise<void> {
+): Promise<WriteSiteStats> {
   const verbose = options.verbose ?? false;
   const contentDir = resolve(options.contentDir ?? CONTENT_DIR);
   const out = resolve(outDir);
@@ -251,10 +267,14 @@ export async function writeSite(
   let bundleError: Error | null = null;
   try {
     // The client bundle first (Vite empties the folder it writes to), then the pages beside it.
-    const bundle = await buildClientBundle(contentDir, stage, scratch, viteOptions(verbose, (error) => {
+    const { bundle, reused: bundleReused } = await clientBundleOnce(contentDir, stage, scratch, viteOptions(verbose, (error) => {
       bundleError ??= error;
-    }));
-    await renderPages(model, dataFileSizes(dataFiles), { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS, onProgress: options.onProgress });
+    }), options.reuse);
+    const meta = ("pagesOf" in model ? model.shell : model).meta;
+    const pages = options.reuse
+      ? await openPageReuse({ cacheDir: options.reuse.cacheDir, publishedDir: out, program: options.reuse.program, contentDir, shared: { meta, headTags: bundle.headTags } })
+      : null;
+    await renderPages(model, dataFileSizes(dataFiles), { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS, onProgress: options.onProgress, pages });
     if (!(await exists(join(stage, "index.html")))) {
       throw new SiteWriteError("the site build produced no index.html");
     }
@@ -276,6 +296,9 @@ export async function writeSite(
       if (hadPrevious) await rename(previous, out);
       throw error;
     }
+    // Only now do the recorded files match what is published.
+    await pages?.save();
+    return { pagesRendered: pages?.renderedCount ?? 0, pagesReused: pages?.reused ?? 0, bundleReused };
   } catch (error) {
     if (error instanceof SiteWriteError) throw error;
     const cause: Error = bundleError ?? (error as Error);
@@ -313,6 +336,8 @@ interface RenderContext {
   verbose: boolean;
   buildingsPerPass: number;
   onProgress?: (done: number, total: number) => void;
+  /** Unchanged pages copied from the previous site (null: every page rendered). */
+  pages: PageReuse | null;
 }
 
 /**
@@ -348,18 +373,40 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
   for (let i = 0; i < passes; i++) {
     const from = i * size;
     const to = Math.min(buildingCount, from + size);
-    const pages = parts ? parts.pagesOf(from, to) : { buildings: share(full!.buildings, i), meterBills: share(full!.meterBills, i), tenants: share(full!.tenants, i) };
-    const site: SiteModel = {
-      ...shell,
-      buildings: await prepareBuildingPages(pages.buildings, sizes),
-      meterBills: await prepareMeterPages(pages.meterBills),
-      tenants: await prepareTenantPages(pages.tenants),
-    };
-    await eleventyPass(site, ctx, null, firstPassTemplates);
-    collectGarbage?.();
+    const all = parts ? parts.pagesOf(from, to) : { buildings: share(full!.buildings, i), meterBills: share(full!.meterBills, i), tenants: share(full!.tenants, i) };
+    // Pages unchanged since the last build are copied from it; only the others are made.
+    const fresh = <T extends { path: string }>(list: readonly T[], keyInput: (page: T) => unknown) => keepFresh(ctx, list, keyInput);
+    const buildings = await fresh(all.buildings, (page) => ({ page, sizes: buildingDataSizes(page.buildingId, sizes) }));
+    const meterBills = await fresh(all.meterBills, (page) => page);
+    const tenants = await fresh(all.tenants, (page) => page);
+    if (buildings.length + meterBills.length + tenants.length > 0) {
+      const site: SiteModel = {
+        ...shell,
+        buildings: await prepareBuildingPages(buildings.map((f) => f.page), sizes),
+        meterBills: await prepareMeterPages(meterBills.map((f) => f.page)),
+        tenants: await prepareTenantPages(tenants.map((f) => f.page)),
+      };
+      await eleventyPass(site, ctx, null, firstPassTemplates);
+      if (ctx.pages) for (const f of [...buildings, ...meterBills, ...tenants]) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
+      collectGarbage?.();
+    }
     written += to - from;
     ctx.onProgress?.(written, buildingCount);
   }
+}
+
+/**
+ * The pages of `list` that must be made (with their reuse keys): the others were copied from
+ * the previous site. Without page reuse every page is made.
+ */
+async function keepFresh<T extends { path: string }>(ctx: RenderContext, list: readonly T[], keyInput: (page: T) => unknown): Promise<{ page: T; key: string }[]> {
+  const out: { page: T; key: string }[] = [];
+  for (const page of list) {
+    const key = ctx.pages ? ctx.pages.keyOf(keyInput(page)) : "";
+    if (ctx.pages && (await ctx.pages.reuse(page.path, key, ctx.stage))) continue;
+    out.push({ page, key });
+  }
+  return out;
 }
 
 /**

@@ -6,7 +6,8 @@ import { cp, mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises"
 import { join, relative } from "node:path";
 import { tmpdir } from "node:os";
 import { buildPortfolioSite } from "../../src/pipeline/build.ts";
-import { cacheKey, contentHash, defaultCacheDir, keyTariffs, openAnalysisCache } from "../../src/pipeline/analysisCache.ts";
+import { cacheKey, defaultCacheDir, keyTariffs, openAnalysisCache } from "../../src/pipeline/analysisCache.ts";
+import { contentHash } from "../../src/core/contentHash.ts";
 import { buildingTask } from "../../src/pipeline/buildingTask.ts";
 import { runCli, type CliIo } from "../../src/cli/main.ts";
 import { loadPortfolio } from "../../src/ingest/index.ts";
@@ -60,6 +61,17 @@ describe("analysis cache", () => {
     expect(third.summary.buildingsFromCache).toBe(2);
     const fresh = await buildPortfolioSite({ dir, outDir: join(work, "d"), strict: false, jobs: 1 });
     expect(fresh.summary.buildingsFromCache).toBe(0);
+    await expectSameFiles(join(work, "d"), join(work, "c"));
+
+    // Into the same folder again after another change to that bill: the other buildings' pages
+    // are copied from the published site, and the site is still the fresh build's.
+    cells[7] = (Number(cells[7]) + 10).toFixed(2);
+    lines[i] = cells.join(",");
+    await writeFile(join(dir, "bills.csv"), lines.join("\n"));
+    const fourth = await buildPortfolioSite({ dir, outDir: join(work, "c"), strict: false, jobs: 1, cacheDir });
+    expect(fourth.summary.pagesReused).toBeGreaterThan(0);
+    expect(fourth.summaryText).toMatch(/page\(s\) unchanged since the last build: copied from the previous site/);
+    await buildPortfolioSite({ dir, outDir: join(work, "d"), strict: false, jobs: 1 });
     await expectSameFiles(join(work, "d"), join(work, "c"));
   }, 300_000);
 

@@ -1,0 +1,73 @@
+// Issue 17, "incremental rebuild": pages whose inputs are unchanged are copied from the site the
+// last build published; the result is byte for byte the site a full render writes, and a page
+// changed by hand in the published folder is rendered again, never trusted.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join, relative } from "node:path";
+import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { writeSite } from "../../src/site/writeSite.ts";
+import { fixtureInput } from "../report/fixture.ts";
+
+const DATA = { "findings.csv": "building_id,check\nB1,total-mismatch\n", "buildings/B1/bills.csv": "bill_id\nE1-01\n" };
+
+async function tree(dir: string): Promise<Map<string, Buffer>> {
+  const out = new Map<string, Buffer>();
+  for (const e of await readdir(dir, { withFileTypes: true, recursive: true })) {
+    if (e.isFile()) out.set(relative(dir, join(e.parentPath, e.name)), await readFile(join(e.parentPath, e.name)));
+  }
+  return out;
+}
+
+function expectSameTree(a: Map<string, Buffer>, b: Map<string, Buffer>): void {
+  expect([...b.keys()].sort()).toEqual([...a.keys()].sort());
+  for (const [f, bytes] of a) expect(b.get(f)!.equals(bytes), f).toBe(true);
+}
+
+describe("page reuse", () => {
+  let work: string;
+  beforeAll(async () => {
+    work = await mkdtemp(join(tmpdir(), "ohmbook-reuse-"));
+  });
+  afterAll(async () => {
+    await rm(work, { recursive: true, force: true });
+  });
+
+  it("copies unchanged pages and the bundle, renders changed ones, and writes what a full render writes", async () => {
+    const reuse = { cacheDir: join(work, "cache"), program: "test-program" };
+    const out = join(work, "site");
+    const model = buildSiteModel(fixtureInput());
+    const first = await writeSite(model, DATA, out, { reuse });
+    expect(first.pagesReused).toBe(0);
+    expect(first.bundleReused).toBe(false);
+    const perBuilding = model.buildings.length + model.meterBills.length + model.tenants.length;
+    expect(first.pagesRendered).toBe(perBuilding);
+
+    const second = await writeSite(model, DATA, out, { reuse });
+    expect(second).toEqual({ pagesRendered: 0, pagesReused: perBuilding, bundleReused: true });
+
+    // One building's page model changes (its name): that page is rendered, the rest copied.
+    const changed = { ...model, buildings: model.buildings.map((b, i) => (i === 0 ? { ...b, title: `${b.title} (renamed)` } : b)) };
+    const third = await writeSite(changed, DATA, out, { reuse });
+    expect(third.pagesRendered).toBe(1);
+    expect(third.pagesReused).toBe(perBuilding - 1);
+    await writeSite(changed, DATA, join(work, "full"));
+    expectSameTree(await tree(join(work, "full")), await tree(out));
+  }, 120_000);
+
+  it("renders again a published page that was edited by hand, or a different program's", async () => {
+    const reuse = { cacheDir: join(work, "cache2"), program: "test-program" };
+    const out = join(work, "site2");
+    const model = buildSiteModel(fixtureInput());
+    await writeSite(model, DATA, out, { reuse });
+    const page = model.buildings[0]!.path;
+    const original = await readFile(join(out, page));
+    await writeFile(join(out, page), "edited by hand");
+    const again = await writeSite(model, DATA, out, { reuse });
+    expect(again.pagesRendered).toBe(1);
+    expect((await readFile(join(out, page))).equals(original)).toBe(true);
+    const otherProgram = await writeSite(model, DATA, out, { reuse: { ...reuse, program: "another version" } });
+    expect(otherProgram.pagesReused).toBe(0);
+    expect(otherProgram.bundleReused).toBe(false);
+  }, 120_000);
+});
