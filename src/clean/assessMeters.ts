@@ -48,8 +48,20 @@ export function shiftSeries(series: IntervalSeries, hours: number): IntervalSeri
   return { ...series, startMs };
 }
 
-/** Aligns (where allowed) and screens every interval meter of the portfolio. */
-export function assessIntervalMeters(portfolio: Portfolio): QualityResult {
+/**
+ * Remembers a per-meter computation by its inputs: `compute()` or, when these exact inputs were
+ * computed before, its earlier result. The build passes one backed by its cache folder (only a
+ * pure function of `inputs` may be memoized); the default computes every time.
+ */
+export type Memo = <T>(kind: string, inputs: unknown, compute: () => T) => T;
+const noMemo: Memo = (_kind, _inputs, compute) => compute();
+
+/**
+ * Aligns (where allowed) and screens every interval meter of the portfolio. Each meter's scan
+ * and screening are pure functions of its series, its weather, its zone and the settings, so
+ * `memo` may return them from an earlier build.
+ */
+export function assessIntervalMeters(portfolio: Portfolio, memo: Memo = noMemo): QualityResult {
   const buildings = new Map(portfolio.buildings.map((b) => [b.buildingId, b]));
   const { offsetsHours, auto } = portfolio.settings.alignment;
   const config = portfolio.settings.cleaning as DetectConfigInput;
@@ -66,7 +78,10 @@ export function assessIntervalMeters(portfolio: Portfolio): QualityResult {
     let skipped: string | null = null;
     if (!weather) skipped = `no weather for station ${building.weatherStation}`;
     else if (meter.commodity !== "electricity") skipped = "alignment is scanned for electricity meters only";
-    else suggestion = suggestAlignment(raw, weather, building.timezone, { mask: detectAnomalies(raw, config, { timezone: building.timezone }).mask });
+    else {
+      const timezone = building.timezone;
+      suggestion = memo("alignment-scan", { raw, weather, timezone, config }, () => suggestAlignment(raw, weather, timezone, { mask: detectAnomalies(raw, config, { timezone }).mask }));
+    }
     scans.push({ meter, building, raw, stationId: building.weatherStation, suggestion, skipped });
   }
   const agreed = stationAgreement(scans);
@@ -84,7 +99,8 @@ export function assessIntervalMeters(portfolio: Portfolio): QualityResult {
     }
     const series = shiftSeries(raw, applied);
     intervals.set(meter.meterId, series);
-    const { detections, mask } = detectAnomalies(series, config, { timezone: building.timezone });
+    const timezone = building.timezone;
+    const { detections, mask } = memo("screening", { series, timezone, config }, () => detectAnomalies(series, config, { timezone }));
     meters.push({
       meterId: meter.meterId,
       buildingId: meter.buildingId,

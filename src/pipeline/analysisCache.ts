@@ -12,12 +12,13 @@
  * Entries no build has used for PRUNE_AFTER_DAYS are removed.
  */
 import { createHash } from "node:crypto";
-import { existsSync, readFileSync, statSync } from "node:fs";
+import { existsSync, readFileSync, renameSync, rmSync, statSync, utimesSync, writeFileSync } from "node:fs";
 import { mkdir, readdir, readFile, rename, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { basename, dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
 import { deserialize, serialize } from "node:v8";
 import type { BuildingTask, PlainResults } from "./buildingTask.ts";
+import type { Memo } from "../clean/index.ts";
 import { contentHash, hashFolder } from "../core/contentHash.ts";
 
 /** Bump when the entry format or the key's recipe changes. */
@@ -110,4 +111,39 @@ export async function pruneCache(cache: AnalysisCache, nowMs = Date.now()): Prom
     const info = await stat(join(cache.dir, name)).catch(() => null);
     if (info && info.mtimeMs < limit) await rm(join(cache.dir, name), { force: true });
   }
+}
+
+/**
+ * A memo for the screening stage (assessIntervalMeters) kept in the same folder: each meter's
+ * clock scan and anomaly screening under a key of the program, the kind and the inputs' content,
+ * so a rebuild whose interval data and weather are unchanged skips them. Synchronous, as the
+ * stage is; an entry that cannot be read is computed again, one that cannot be written is not kept.
+ */
+export function cacheMemo(cache: AnalysisCache): Memo {
+  return <T>(kind: string, inputs: unknown, compute: () => T): T => {
+    const key = createHash("sha256").update(cache.program).update(kind).update(contentHash(inputs)).digest("hex");
+    cache.used.add(key);
+    const path = entryPath(cache, key);
+    try {
+      const value = deserialize(readFileSync(path)) as T;
+      const now = new Date();
+      try {
+        utimesSync(path, now, now);
+      } catch {
+        // only the entry's age for pruning
+      }
+      return value;
+    } catch {
+      // not kept yet, or unreadable
+    }
+    const value = compute();
+    const temporary = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
+    try {
+      writeFileSync(temporary, serialize(value));
+      renameSync(temporary, path);
+    } catch {
+      rmSync(temporary, { force: true });
+    }
+    return value;
+  };
 }

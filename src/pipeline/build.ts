@@ -27,7 +27,7 @@ import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, SiteWriteError, writeSite } from "../site/index.ts";
 import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
 import { analyseBuildings } from "./analysisPool.ts";
-import { defaultCacheDir, openAnalysisCache, programFingerprint } from "./analysisCache.ts";
+import { cacheMemo, defaultCacheDir, openAnalysisCache, programFingerprint, type AnalysisCache } from "./analysisCache.ts";
 import { buildingsDigest, gatherPartials, partialAnalysesDir, PARTIAL_FORMAT, preparePartialDir, shardOf, writeManifest, type ShardSpec } from "./shards.ts";
 import { rm } from "node:fs/promises";
 import { moneyText, roundCents } from "../core/money.ts";
@@ -109,14 +109,14 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   // A wrong output folder is refused before any work.
   await checkOutputFolder(options.outDir, options.dir);
   if (options.cacheDir !== undefined) checkCacheFolder(options.cacheDir, options.outDir, options.dir);
-  const { loaded, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter);
+  const cache = options.cacheDir !== undefined ? await openAnalysisCache(options.cacheDir) : undefined;
+  const { loaded, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, cache);
   const dataDate = effectiveAsOf(portfolio);
   const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
 
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
-  const cache = options.cacheDir !== undefined ? await openAnalysisCache(options.cacheDir) : undefined;
   reporter.step(0, portfolio.buildings.length, "");
   const results = await analyseBuildings(portfolio, masks, {
     jobs: options.jobs,
@@ -263,7 +263,7 @@ function summaryText(s: BuildSummary, currency: string): string {
  * cut at the as-of date, screen interval data and align meter clocks.
  * @throws InputError when inputs are unusable (or, with `strict`, when any row was rejected).
  */
-async function readAndScreen(dir: string, strict: boolean, reporter: Reporter) {
+async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, cache?: AnalysisCache) {
   reporter.stage(`Reading ${dir}`);
   const loaded = await loadPortfolio(dir);
   const issues = loaded.issues;
@@ -273,7 +273,8 @@ async function readAndScreen(dir: string, strict: boolean, reporter: Reporter) {
   const cut = cutAtAsOf(loaded.portfolio);
   issues.push(...cut.issues);
   reporter.stage("Screening interval data and aligning meter clocks");
-  const quality = assessIntervalMeters(cut.portfolio);
+  // With a cache, meters whose interval data and weather are unchanged are not screened again.
+  const quality = assessIntervalMeters(cut.portfolio, cache ? cacheMemo(cache) : undefined);
   // From here on every stage sees the corrected clocks (flagged readings stay in the record).
   return { loaded, issues, quality, portfolio: quality.portfolio as Portfolio<Tariff> };
 }

@@ -5,7 +5,8 @@
  */
 import { describe, expect, it } from "vitest";
 import type { Portfolio } from "../../src/domain/types.ts";
-import { assessIntervalMeters, shiftSeries } from "../../src/clean/assessMeters.ts";
+import { assessIntervalMeters, shiftSeries, type Memo } from "../../src/clean/assessMeters.ts";
+import { contentHash } from "../../src/core/contentHash.ts";
 import { makeOffice, shiftStamps, ZONE } from "./detect/syntheticOffice.ts";
 import { DEFAULT_SETTINGS } from "../../src/ingest/portfolioYaml.ts";
 import { parsePortfolioYaml } from "../../src/ingest/portfolioYaml.ts";
@@ -47,6 +48,30 @@ describe("clock alignment in the pipeline", () => {
     expect(meters[0]!.appliedOffsetHours).toBe(3);
     expect(portfolio.intervals.get(id)!.startMs[0]).toBe(p.intervals.get(id)!.startMs[0]! - 3 * 3_600_000);
     expect(meters[0]!.mask.length).toBe(portfolio.intervals.get(id)!.startMs.length);
+  });
+
+  it("a memo of earlier results gives the same screening, and a changed setting is computed again", () => {
+    const kept = new Map<string, unknown>();
+    let computed = 0;
+    const memo: Memo = (kind, inputs, compute) => {
+      const key = kind + contentHash(inputs);
+      if (!kept.has(key)) {
+        computed++;
+        kept.set(key, structuredClone(compute()));
+      }
+      return structuredClone(kept.get(key)) as ReturnType<typeof compute>;
+    };
+    const p = portfolioWith({ offsetsHours: {}, auto: true });
+    const first = assessIntervalMeters(p, memo);
+    expect(computed).toBe(2); // the clock scan and the screening of the one meter
+    const again = assessIntervalMeters(p, memo);
+    expect(computed).toBe(2);
+    expect(again.meters).toEqual(first.meters);
+    expect(again.meters).toEqual(assessIntervalMeters(p).meters);
+    const stricter = portfolioWith({ offsetsHours: {}, auto: true });
+    stricter.settings.cleaning = { ...stricter.settings.cleaning, spikes: { ...(stricter.settings.cleaning as { spikes?: object }).spikes, zThreshold: 99 } } as typeof stricter.settings.cleaning;
+    assessIntervalMeters(stricter, memo);
+    expect(computed).toBe(4);
   });
 
   it("a configured offset wins over the suggestion", () => {
