@@ -14,6 +14,7 @@ import { stationAgreement } from "./stationAgreement.ts";
 import type { WeatherGap } from "../domain/types.ts";
 import { detectAnomalies, type Detection, type DetectConfigInput } from "./detect/index.ts";
 import { suggestAlignment, type AlignmentSuggestion } from "./alignment.ts";
+import { noMemo, type Memo } from "../core/memo.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -47,14 +48,6 @@ export function shiftSeries(series: IntervalSeries, hours: number): IntervalSeri
   for (let i = 0; i < startMs.length; i++) startMs[i] = series.startMs[i]! - hours * HOUR_MS;
   return { ...series, startMs };
 }
-
-/**
- * Remembers a per-meter computation by its inputs: `compute()` or, when these exact inputs were
- * computed before, its earlier result. The build passes one backed by its cache folder (only a
- * pure function of `inputs` may be memoized); the default computes every time.
- */
-export type Memo = <T>(kind: string, inputs: unknown, compute: () => T) => T;
-const noMemo: Memo = (_kind, _inputs, compute) => compute();
 
 /**
  * Aligns (where allowed) and screens every interval meter of the portfolio. Each meter's scan

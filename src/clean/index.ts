@@ -8,7 +8,7 @@ export { DEFAULT_TOWT_KNOTS_F, temperatureComponents } from "./timeOfWeek.ts";
 
 // Used by other folders (see test/architecture/layers.test.ts).
 export { assessIntervalMeters, weatherGapDetections } from "./assessMeters.ts";
-export type { MeterQuality, Memo } from "./assessMeters.ts";
+export type { MeterQuality } from "./assessMeters.ts";
 export { parseCleaningConfig } from "./detect/config.ts";
 export { DATA_QUALITY_COLUMNS, detectionsToRows } from "./detect/rows.ts";
 export type { DataQualityRow } from "./detect/rows.ts";

@@ -18,7 +18,7 @@ import { basename, dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
 import { deserialize, serialize } from "node:v8";
 import type { BuildingTask, PlainResults } from "./buildingTask.ts";
-import type { Memo } from "../clean/index.ts";
+import type { Memo } from "../core/memo.ts";
 import { contentHash, hashFolder } from "../core/contentHash.ts";
 
 /** Bump when the entry format or the key's recipe changes. */

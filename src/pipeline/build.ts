@@ -110,7 +110,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   await checkOutputFolder(options.outDir, options.dir);
   if (options.cacheDir !== undefined) checkCacheFolder(options.cacheDir, options.outDir, options.dir);
   const cache = options.cacheDir !== undefined ? await openAnalysisCache(options.cacheDir) : undefined;
-  const { loaded, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, cache);
+  const { weatherGaps, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, cache);
   const dataDate = effectiveAsOf(portfolio);
   const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
@@ -151,8 +151,8 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"));
 
   reporter.stage(`Writing the site to ${options.outDir}`);
-  const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps: loaded.weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
-  const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps: loaded.weatherGaps, forecast });
+  const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
+  const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps, forecast });
   const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
   // The internal site's building pages are made a few buildings at a time as they are written.
   // With a cache, pages unchanged since the last build into this folder are copied from it.
@@ -276,7 +276,8 @@ async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, c
   // With a cache, meters whose interval data and weather are unchanged are not screened again.
   const quality = assessIntervalMeters(cut.portfolio, cache ? cacheMemo(cache) : undefined);
   // From here on every stage sees the corrected clocks (flagged readings stay in the record).
-  return { loaded, issues, quality, portfolio: quality.portfolio as Portfolio<Tariff> };
+  // The portfolio as read is not returned: where as_of cuts a series, its uncut copy can go.
+  return { weatherGaps: loaded.weatherGaps, issues, quality, portfolio: quality.portfolio as Portfolio<Tariff> };
 }
 
 export interface ShardOptions {

@@ -5,7 +5,8 @@
  */
 import { describe, expect, it } from "vitest";
 import type { Portfolio } from "../../src/domain/types.ts";
-import { assessIntervalMeters, shiftSeries, type Memo } from "../../src/clean/assessMeters.ts";
+import { assessIntervalMeters, shiftSeries } from "../../src/clean/assessMeters.ts";
+import type { Memo } from "../../src/core/memo.ts";
 import { contentHash } from "../../src/core/contentHash.ts";
 import { makeOffice, shiftStamps, ZONE } from "./detect/syntheticOffice.ts";
 import { DEFAULT_SETTINGS } from "../../src/ingest/portfolioYaml.ts";
