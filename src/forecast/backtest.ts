@@ -43,6 +43,8 @@ import { meterPricingContexts, meterUsageScenarios, DEFAULT_SCENARIOS, type Mete
 import { buildingForecastInputs } from "./portfolioInputs.ts";
 import { priceForecastMonth } from "./priceMonth.ts";
 import { bandOf } from "./quantiles.ts";
+import { monthColumn } from "./scenarioMatrix.ts";
+import type { ScenarioNoise } from "./usageScenarios.ts";
 import { actualMonthlyCost, naiveSameMonthLastYear } from "./trackRecord.ts";
 import { WEATHER_BASES, typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
@@ -186,12 +188,16 @@ function pricePath(input: MeterForecastInput, contexts: ReturnType<typeof meterP
   });
 }
 
-/** Usage P10/P50/P90 per forecast month at factor c. */
-function usageQuantiles(input: MeterForecastInput, factor: number): { lo: number[]; mid: number[]; hi: number[] } | null {
+/**
+ * Usage P10/P50/P90 per forecast month at factor c. `drawn` holds the meter's draws at this
+ * origin: the first call makes them, later calls (other bases, adjustments, factors) reuse them.
+ */
+function usageQuantiles(input: MeterForecastInput, factor: number, drawn: { noise?: ScenarioNoise }): { lo: number[]; mid: number[]; hi: number[] } | null {
   const months = monthsAfter(input.asOf, input.months);
-  const usage = meterUsageScenarios(input, months, Math.max(1, Math.floor(input.scenarios ?? DEFAULT_SCENARIOS)), factor);
+  const usage = meterUsageScenarios(input, months, Math.max(1, Math.floor(input.scenarios ?? DEFAULT_SCENARIOS)), factor, drawn.noise);
   if (!usage) return null;
-  const bands = months.map((_, k) => bandOf(usage.usage.map((row) => row[k]!)));
+  drawn.noise = usage.noise;
+  const bands = months.map((_, k) => bandOf(monthColumn(usage.usage, k)));
   return { lo: bands.map((b) => b.p10), mid: bands.map((b) => b.p50), hi: bands.map((b) => b.p90) };
 }
 
@@ -278,7 +284,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     const inputs = portfolio.buildings.flatMap((b) =>
       buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed }),
     );
-    const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts> }[] = [];
+    const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts>; drawn: { noise?: ScenarioNoise } }[] = [];
     for (const input of inputs) {
       const id = input.meter.meterId;
       const bills = billsByMeter.get(id) ?? [];
@@ -307,7 +313,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
         expectedProblem(error);
         continue;
       }
-      rows.push({ input, meter: Object.assign(meter, { keep }), contexts });
+      rows.push({ input, meter: Object.assign(meter, { keep }), contexts, drawn: {} });
     }
     return rows;
   });
@@ -319,7 +325,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     for (const r of rows) {
       for (const basis of bases) {
         try {
-          const q = usageQuantiles(withBasis(r.input, basis), 1);
+          const q = usageQuantiles(withBasis(r.input, basis), 1, r.drawn);
           if (q) r.meter.p50ByBasis[basis] = pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter));
         } catch (error) {
           expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
@@ -366,7 +372,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       const paths = rows.map((r) => {
         if (adjustment === "none") return basis ? r.meter.p50ByBasis[basis] ?? null : null;
         try {
-          const q = usageQuantiles({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, 1);
+          const q = usageQuantiles({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, 1, r.drawn);
           return q ? pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter)) : null;
         } catch (error) {
           expectedProblem(error);
@@ -390,7 +396,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       const input = { ...(basis ? withBasis(r.input, basis) : r.input), adjustment };
       for (const c of grid) {
         try {
-          const q = usageQuantiles(input, c);
+          const q = usageQuantiles(input, c, r.drawn);
           if (!q) break;
           r.meter.bandByFactor.push({
             lo: pick(pricePath(input, r.contexts, q.lo), keepOf(r.meter)),
