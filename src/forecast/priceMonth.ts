@@ -13,7 +13,7 @@
  *     earlier forecast months.
  */
 import type { Tariff } from "../tariff/index.ts";
-import { priceBill } from "../tariff/index.ts";
+import { pricingPlan, type PricingPlan } from "../tariff/index.ts";
 import { scaleShape, type MonthShape } from "./profile.ts";
 import { type CalendarMonth } from "../core/time/index.ts";
 
@@ -39,20 +39,39 @@ export interface PricedMonth {
   exact: boolean;
 }
 
-/** Prices `usage` (meter unit) for the context's month. @throws PricingError from the engine. */
+/*
+ * One pricing plan per context (tariff × month × meter), made on the first price and reused by
+ * every scenario; weakly held, so it goes when the context does.
+ */
+const plans = new WeakMap<MonthPricingContext, PricingPlan>();
+
+function planOf(ctx: MonthPricingContext): PricingPlan {
+  let plan = plans.get(ctx);
+  if (plan === undefined) {
+    plan = pricingPlan(ctx.tariff, {
+      periodStart: ctx.month.start,
+      periodEnd: ctx.month.end,
+      timezone: ctx.timezone,
+      usageUnit: ctx.usageUnit,
+      powerFactor: ctx.powerFactor,
+      loadShapeByHourOfWeek: ctx.shape ? null : ctx.loadShapeByHourOfWeek,
+    });
+    plans.set(ctx, plan);
+  }
+  return plan;
+}
+
+/**
+ * Prices `usage` (meter unit) for the context's month: the total priceBill gives, through the
+ * context's pricing plan (tariff/plan.ts). @throws PricingError from the engine.
+ */
 export function priceForecastMonth(ctx: MonthPricingContext, usage: number, previousBillingDemandsKw: number[]): PricedMonth {
   const { month } = ctx;
-  const bill = priceBill(ctx.tariff, {
-    periodStart: month.start,
-    periodEnd: month.end,
-    timezone: ctx.timezone,
+  const bill = planOf(ctx).price({
     usage,
-    usageUnit: ctx.usageUnit,
     demandKw: ctx.shape || ctx.kwPerUsePerDay === null ? null : (ctx.kwPerUsePerDay * usage) / month.days,
-    powerFactor: ctx.powerFactor,
     intervals: ctx.shape ? scaleShape(ctx.shape, usage) : null,
     previousBillingDemandsKw,
-    loadShapeByHourOfWeek: ctx.shape ? null : ctx.loadShapeByHourOfWeek,
   });
   return { cost: bill.total * ctx.escalationFactor, billingDemandKw: bill.billingDemandKw, exact: bill.exact };
 }
