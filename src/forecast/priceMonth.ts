@@ -43,12 +43,13 @@ export interface PricedMonth {
  * One pricing plan per context (tariff × month × meter), made on the first price and reused by
  * every scenario; weakly held, so it goes when the context does.
  */
-const plans = new WeakMap<MonthPricingContext, PricingPlan>();
+const plans = new WeakMap<MonthPricingContext, { plan: PricingPlan; readings: Float64Array | null }>();
 
-function planOf(ctx: MonthPricingContext): PricingPlan {
-  let plan = plans.get(ctx);
-  if (plan === undefined) {
-    plan = pricingPlan(ctx.tariff, {
+/** The context's plan, and a buffer for its scaled shape (the engine keeps nothing of the readings priced). */
+function planOf(ctx: MonthPricingContext): { plan: PricingPlan; readings: Float64Array | null } {
+  let entry = plans.get(ctx);
+  if (entry === undefined) {
+    const plan = pricingPlan(ctx.tariff, {
       periodStart: ctx.month.start,
       periodEnd: ctx.month.end,
       timezone: ctx.timezone,
@@ -56,9 +57,10 @@ function planOf(ctx: MonthPricingContext): PricingPlan {
       powerFactor: ctx.powerFactor,
       loadShapeByHourOfWeek: ctx.shape ? null : ctx.loadShapeByHourOfWeek,
     });
-    plans.set(ctx, plan);
+    entry = { plan, readings: ctx.shape ? new Float64Array(ctx.shape.values.length) : null };
+    plans.set(ctx, entry);
   }
-  return plan;
+  return entry;
 }
 
 /**
@@ -67,10 +69,11 @@ function planOf(ctx: MonthPricingContext): PricingPlan {
  */
 export function priceForecastMonth(ctx: MonthPricingContext, usage: number, previousBillingDemandsKw: number[]): PricedMonth {
   const { month } = ctx;
-  const bill = planOf(ctx).price({
+  const { plan, readings } = planOf(ctx);
+  const bill = plan.price({
     usage,
     demandKw: ctx.shape || ctx.kwPerUsePerDay === null ? null : (ctx.kwPerUsePerDay * usage) / month.days,
-    intervals: ctx.shape ? scaleShape(ctx.shape, usage) : null,
+    intervals: ctx.shape ? scaleShape(ctx.shape, usage, readings ?? undefined) : null,
     previousBillingDemandsKw,
   });
   return { cost: bill.total * ctx.escalationFactor, billingDemandKw: bill.billingDemandKw, exact: bill.exact };
