@@ -13,7 +13,7 @@ import type { Tariff } from "../tariff/index.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
 import { scenarioTemperatures, scenarioYears, type WeatherYear } from "./weatherYears.ts";
-import { fallbackUsageScenarios, modelUsageScenarios, type ScenarioNoise, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
+import { fallbackScenarioSetup, modelScenarioSetup, scenariosAt, type ScenarioNoise, type ScenarioSetup, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
 import { monthColumn, scenarioMatrix, scenarioTotals, NO_SCENARIOS, type ScenarioMatrix } from "./scenarioMatrix.ts";
 import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
@@ -174,6 +174,16 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
 
 /** The meter's usage scenarios (model or fallback), seeded per meter so every call draws the same numbers. */
 export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number, noise?: ScenarioNoise): UsageScenarios | null {
+  const setup = meterScenarioSetup(input, months, scenarios, noise);
+  return setup ? scenariosAt(setup, calibration) : null;
+}
+
+/**
+ * The meter's scenarios for any calibration factor (usageScenarios.ts `ScenarioSetup`); null
+ * when it has no bills to forecast from. `noise`: draws of an earlier setup of the same meter
+ * and seed, reused when their shape fits.
+ */
+export function meterScenarioSetup(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, noise?: ScenarioNoise): ScenarioSetup | null {
   const rng = scenarioUniforms(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
   if (input.fit && input.typicalMonthlyTemp) {
     const own = scenarioYears(input.weatherYears).map((y) => y.year);
@@ -184,20 +194,19 @@ export function meterUsageScenarios(input: MeterForecastInput, months: CalendarM
           return i >= 0 ? i : s % own.length;
         }
       : undefined;
-    return modelUsageScenarios({
+    return modelScenarioSetup({
       setOfScenario,
       fit: input.fit,
       typicalMonthlyTemp: input.typicalMonthlyTemp,
       temperatureSets: scenarioTemperatures(input.typicalMonthlyTemp, input.weatherYears),
       months,
       scenarios,
-      calibration,
       rng,
       residualPerDay: input.adjustment ? residualByCalendarMonth(input.fit, input.bills, input.weatherYears, input.asOf, input.adjustment) : null,
       noise,
     });
   }
-  return fallbackUsageScenarios({ bills: input.bills, months, scenarios, calibration, rng, noise });
+  return fallbackScenarioSetup({ bills: input.bills, months, scenarios, rng, noise });
 }
 
 /** Months with usage bands but no cost (the meter could not be priced). */

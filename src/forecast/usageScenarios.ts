@@ -103,8 +103,41 @@ function noiseFits(noise: ScenarioNoise | undefined, df: number, scenarios: numb
   return noise !== undefined && noise.df === df && noise.scenarios === scenarios && noise.months === months && (noise.z0 !== null) === shared;
 }
 
+/**
+ * A meter's scenarios prepared for any calibration factor: everything but c of the module
+ * comment's formula is fixed (prediction intervals, adjustment, weather years, draws), so the
+ * backtests that try a grid of factors prepare once and call `at(c)` for each.
+ */
+export interface ScenarioSetup {
+  method: UsageMethod;
+  noise: ScenarioNoise;
+  weatherIndex: Int32Array;
+  typicalUsePerDay: number[];
+  /** The usage at calibration factor c (a new matrix). */
+  at(calibration: number): ScenarioMatrix;
+  /** Words for the page at factor c. */
+  note(calibration: number): string;
+}
+
+/** The scenarios of a setup at one factor. */
+export function scenariosAt(setup: ScenarioSetup, calibration: number): UsageScenarios {
+  return {
+    method: setup.method,
+    usage: setup.at(calibration),
+    noise: setup.noise,
+    weatherIndex: setup.weatherIndex,
+    typicalUsePerDay: setup.typicalUsePerDay,
+    note: setup.note(calibration),
+  };
+}
+
 /** Usage scenarios from a change-point model (see the module comment for the formula). */
 export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
+  return scenariosAt(modelScenarioSetup(o), o.calibration);
+}
+
+/** The change-point scenarios of `o`, for any factor (`o.calibration` is not read). */
+export function modelScenarioSetup(o: Omit<ModelUsageOptions, "calibration">): ScenarioSetup {
   const { fit, months } = o;
   const df = Math.max(1, fit.stats.n - fit.parameterCount);
   const weatherIndex = new Int32Array(o.scenarios);
@@ -117,29 +150,31 @@ export function modelUsageScenarios(o: ModelUsageOptions): UsageScenarios {
     }),
   );
   const K = months.length;
-  const noise = noiseFits(o.noise, df, o.scenarios, K, true) ? o.noise : drawScenarioNoise(o.rng, df, o.scenarios, K, true);
-  const usage = scenarioMatrix(o.scenarios, K);
+  const S = o.scenarios;
+  const noise = noiseFits(o.noise, df, S, K, true) ? o.noise : drawScenarioNoise(o.rng, df, S, K, true);
   const residual = months.map((m) => o.residualPerDay?.[m.calendarMonth - 1] ?? 0);
-  for (let s = 0; s < o.scenarios; s++) {
-    const w = o.setOfScenario ? o.setOfScenario(s) : s % o.temperatureSets.length;
-    weatherIndex[s] = w;
-    const lambda = noise.lambda[s]!;
-    const z0 = noise.z0![s]!;
-    const row = bands[w]!;
-    for (let k = 0; k < K; k++) {
-      const band = row[k]!;
-      const z = noise.z[s * K + k]!;
-      const perDay = band.fit + residual[k]! + o.calibration * lambda * (z0 * band.seMean + z * band.own);
-      usage.values[s * K + k] = Math.max(0, perDay) * months[k]!.days;
-    }
-  }
+  for (let s = 0; s < S; s++) weatherIndex[s] = o.setOfScenario ? o.setOfScenario(s) : s % o.temperatureSets.length;
   return {
     method: "change-point",
-    usage,
     noise,
     weatherIndex,
     typicalUsePerDay: months.map((m) => fit.predict(o.typicalMonthlyTemp[m.calendarMonth - 1]!) + (o.residualPerDay?.[m.calendarMonth - 1] ?? 0)),
-    note: `${fit.kind} change-point model at ${o.temperatureSets.length} weather year(s); prediction noise Student-t with ${df} df × calibration ${o.calibration}`,
+    at(calibration) {
+      const usage = scenarioMatrix(S, K);
+      for (let s = 0; s < S; s++) {
+        const lambda = noise.lambda[s]!;
+        const z0 = noise.z0![s]!;
+        const row = bands[weatherIndex[s]!]!;
+        for (let k = 0; k < K; k++) {
+          const band = row[k]!;
+          const z = noise.z[s * K + k]!;
+          const perDay = band.fit + residual[k]! + calibration * lambda * (z0 * band.seMean + z * band.own);
+          usage.values[s * K + k] = Math.max(0, perDay) * months[k]!.days;
+        }
+      }
+      return usage;
+    },
+    note: (calibration) => `${fit.kind} change-point model at ${o.temperatureSets.length} weather year(s); prediction noise Student-t with ${df} df × calibration ${calibration}`,
   };
 }
 
@@ -158,6 +193,12 @@ export interface FallbackUsageOptions {
  * Returns null when the meter has no usable bills at all.
  */
 export function fallbackUsageScenarios(o: FallbackUsageOptions): UsageScenarios | null {
+  const setup = fallbackScenarioSetup(o);
+  return setup ? scenariosAt(setup, o.calibration) : null;
+}
+
+/** The fallback scenarios of `o`, for any factor (`o.calibration` is not read); null without usable bills. */
+export function fallbackScenarioSetup(o: Omit<FallbackUsageOptions, "calibration">): ScenarioSetup | null {
   const spread = [...spreadBillsByMonth(o.bills, (b) => b.usage).values()].filter((m) => m.coveredDays >= 0.9 * m.days);
   if (spread.length === 0) return null;
   const byCalendar = new Map<number, number[]>();
@@ -191,21 +232,25 @@ export function fallbackUsageScenarios(o: FallbackUsageOptions): UsageScenarios 
   const relSd = df >= 1 ? Math.sqrt(ss / df) : FALLBACK_DEFAULT_RELATIVE_SD;
   // studentScale returns 1 without a draw for df < 1, as the fallback wants.
   const K = o.months.length;
-  const noise = noiseFits(o.noise, df, o.scenarios, K, false) ? o.noise : drawScenarioNoise(o.rng, df, o.scenarios, K, false);
-  const usage = scenarioMatrix(o.scenarios, K);
+  const S = o.scenarios;
+  const noise = noiseFits(o.noise, df, S, K, false) ? o.noise : drawScenarioNoise(o.rng, df, S, K, false);
   const means = o.months.map((m) => meanOf(m.calendarMonth));
-  for (let s = 0; s < o.scenarios; s++) {
-    const lambda = noise.lambda[s]!;
-    for (let k = 0; k < K; k++) {
-      usage.values[s * K + k] = Math.max(0, means[k]! * (1 + o.calibration * lambda * relSd * noise.z[s * K + k]!)) * o.months[k]!.days;
-    }
-  }
   return {
     method: "same-month-average",
-    usage,
     noise,
-    weatherIndex: new Int32Array(o.scenarios).fill(-1),
-    typicalUsePerDay: o.months.map((m) => meanOf(m.calendarMonth)),
-    note: `no weather model: same calendar month's use per day averaged over the history; relative scatter ${(relSd * 100).toFixed(1)} %${df >= 1 ? ` (Student-t, ${df} df)` : " (assumed)"} × calibration ${o.calibration}`,
+    weatherIndex: new Int32Array(S).fill(-1),
+    typicalUsePerDay: means,
+    at(calibration) {
+      const usage = scenarioMatrix(S, K);
+      for (let s = 0; s < S; s++) {
+        const lambda = noise.lambda[s]!;
+        for (let k = 0; k < K; k++) {
+          usage.values[s * K + k] = Math.max(0, means[k]! * (1 + calibration * lambda * relSd * noise.z[s * K + k]!)) * o.months[k]!.days;
+        }
+      }
+      return usage;
+    },
+    note: (calibration) =>
+      `no weather model: same calendar month's use per day averaged over the history; relative scatter ${(relSd * 100).toFixed(1)} %${df >= 1 ? ` (Student-t, ${df} df)` : " (assumed)"} × calibration ${calibration}`,
   };
 }

@@ -39,7 +39,19 @@ export function pricingPlan(tariff: Tariff, fixed: FrameRequest & Pick<PriceRequ
   const inForce = versionsInForce(tariff, fixed.periodStart, fixed.periodEnd);
   return {
     price(quantities) {
-      const req: PriceRequest = { ...fixed, ...quantities };
+      const req: PriceRequest = {
+        periodStart: fixed.periodStart,
+        periodEnd: fixed.periodEnd,
+        timezone: fixed.timezone,
+        usageUnit: fixed.usageUnit,
+        powerFactor: fixed.powerFactor,
+        loadShapeByHourOfWeek: fixed.loadShapeByHourOfWeek,
+        intervalsGive: fixed.intervalsGive,
+        usage: quantities.usage,
+        demandKw: quantities.demandKw,
+        intervals: quantities.intervals,
+        previousBillingDemandsKw: quantities.previousBillingDemandsKw,
+      };
       const bill = priceInContext(billContext(tariff, req, frame, false), inForce);
       return { total: bill.total, billingDemandKw: bill.billingDemandKw, exact: bill.exact };
     },
