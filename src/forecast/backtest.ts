@@ -39,10 +39,12 @@
  */
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
-import { meterPricingContexts, meterUsageScenarios, DEFAULT_SCENARIOS, type MeterForecastInput } from "./forecastMeter.ts";
+import { meterPricingContexts, meterScenarioSetup, DEFAULT_SCENARIOS, type MeterForecastInput } from "./forecastMeter.ts";
 import { buildingForecastInputs } from "./portfolioInputs.ts";
 import { priceForecastMonth } from "./priceMonth.ts";
 import { bandOf } from "./quantiles.ts";
+import { monthColumn } from "./scenarioMatrix.ts";
+import type { ScenarioNoise, ScenarioSetup } from "./usageScenarios.ts";
 import { actualMonthlyCost, naiveSameMonthLastYear } from "./trackRecord.ts";
 import { WEATHER_BASES, typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
@@ -186,12 +188,23 @@ function pricePath(input: MeterForecastInput, contexts: ReturnType<typeof meterP
   });
 }
 
-/** Usage P10/P50/P90 per forecast month at factor c. */
-function usageQuantiles(input: MeterForecastInput, factor: number): { lo: number[]; mid: number[]; hi: number[] } | null {
+/**
+ * The meter's scenarios at one origin with the input's basis and adjustment, for any factor.
+ * `drawn` holds the meter's draws at this origin: the first setup makes them, later ones (other
+ * bases, adjustments) reuse them — the same numbers as drawing anew.
+ */
+function setupOf(input: MeterForecastInput, drawn: { noise?: ScenarioNoise }): ScenarioSetup | null {
   const months = monthsAfter(input.asOf, input.months);
-  const usage = meterUsageScenarios(input, months, Math.max(1, Math.floor(input.scenarios ?? DEFAULT_SCENARIOS)), factor);
-  if (!usage) return null;
-  const bands = months.map((_, k) => bandOf(usage.usage.map((row) => row[k]!)));
+  const setup = meterScenarioSetup(input, months, Math.max(1, Math.floor(input.scenarios ?? DEFAULT_SCENARIOS)), drawn.noise);
+  if (setup) drawn.noise = setup.noise;
+  return setup;
+}
+
+/** Usage P10/P50/P90 per forecast month at factor c. */
+function usageQuantiles(setup: ScenarioSetup | null, factor: number): { lo: number[]; mid: number[]; hi: number[] } | null {
+  if (!setup) return null;
+  const usage = setup.at(factor);
+  const bands = Array.from({ length: usage.months }, (_, k) => bandOf(monthColumn(usage, k)));
   return { lo: bands.map((b) => b.p10), mid: bands.map((b) => b.p50), hi: bands.map((b) => b.p90) };
 }
 
@@ -278,7 +291,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     const inputs = portfolio.buildings.flatMap((b) =>
       buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed }),
     );
-    const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts> }[] = [];
+    const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts>; drawn: { noise?: ScenarioNoise } }[] = [];
     for (const input of inputs) {
       const id = input.meter.meterId;
       const bills = billsByMeter.get(id) ?? [];
@@ -307,7 +320,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
         expectedProblem(error);
         continue;
       }
-      rows.push({ input, meter: Object.assign(meter, { keep }), contexts });
+      rows.push({ input, meter: Object.assign(meter, { keep }), contexts, drawn: {} });
     }
     return rows;
   });
@@ -319,7 +332,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     for (const r of rows) {
       for (const basis of bases) {
         try {
-          const q = usageQuantiles(withBasis(r.input, basis), 1);
+          const q = usageQuantiles(setupOf(withBasis(r.input, basis), r.drawn), 1);
           if (q) r.meter.p50ByBasis[basis] = pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter));
         } catch (error) {
           expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
@@ -366,7 +379,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       const paths = rows.map((r) => {
         if (adjustment === "none") return basis ? r.meter.p50ByBasis[basis] ?? null : null;
         try {
-          const q = usageQuantiles({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, 1);
+          const q = usageQuantiles(setupOf({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, r.drawn), 1);
           return q ? pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter)) : null;
         } catch (error) {
           expectedProblem(error);
@@ -388,9 +401,11 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   for (const rows of perOrigin) {
     for (const r of rows) {
       const input = { ...(basis ? withBasis(r.input, basis) : r.input), adjustment };
+      let setup: ScenarioSetup | null | undefined;
       for (const c of grid) {
         try {
-          const q = usageQuantiles(input, c);
+          setup ??= setupOf(input, r.drawn);
+          const q = usageQuantiles(setup, c);
           if (!q) break;
           r.meter.bandByFactor.push({
             lo: pick(pricePath(input, r.contexts, q.lo), keepOf(r.meter)),

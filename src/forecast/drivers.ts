@@ -32,6 +32,7 @@ import { spreadBillsByMonth } from "./months.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { billsKnownAt } from "./portfolioInputs.ts";
 import { bandOf } from "./quantiles.ts";
+import { valueAt } from "./scenarioMatrix.ts";
 import { addDays, calendarMonth, shiftMonth, type CalendarMonth } from "../core/time/index.ts";
 
 export interface ChangeDrivers {
@@ -103,7 +104,9 @@ export function meterChangeDrivers(input: MeterForecastInput, forecast: MeterFor
       weather += price(nextCtx[i]!, typical) - price(nextCtx[i]!, actualWeather);
     }
   });
-  const scenarioSums = Float64Array.from(forecast.scenarioCosts.map((row) => pairs.reduce((s, p) => s + row[p.k]!, 0)));
+  const costs = forecast.scenarioCosts;
+  const scenarioSums = new Float64Array(costs.scenarios);
+  for (let s = 0; s < costs.scenarios; s++) scenarioSums[s] = pairs.reduce((sum, p) => sum + valueAt(costs, s, p.k), 0);
   const F = bandOf(scenarioSums).p50;
   return {
     meterId: input.meter.meterId,

@@ -13,7 +13,8 @@ import type { Tariff } from "../tariff/index.ts";
 import { bandOf, type Band } from "./quantiles.ts";
 import { escalationBase, escalationFactorForMonth } from "./escalation.ts";
 import { scenarioTemperatures, scenarioYears, type WeatherYear } from "./weatherYears.ts";
-import { fallbackUsageScenarios, modelUsageScenarios, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
+import { fallbackScenarioSetup, modelScenarioSetup, scenariosAt, type ScenarioNoise, type ScenarioSetup, type UsageMethod, type UsageScenarios } from "./usageScenarios.ts";
+import { monthColumn, scenarioMatrix, scenarioTotals, NO_SCENARIOS, type ScenarioMatrix } from "./scenarioMatrix.ts";
 import { monthShapeFromIntervals, type MonthShape } from "./profile.ts";
 import { priceForecastMonth, type MonthPricingContext } from "./priceMonth.ts";
 import { kwPerUsePerDayByMonth, recentPowerFactor } from "./billFacts.ts";
@@ -88,10 +89,12 @@ export interface MeterForecast {
   months: MonthForecast[];
   /** Quantiles of the scenario totals over all forecast months. */
   total: { usage: Band; cost: Band } | null;
-  /** cost[s][k] for scenario s, month k (for roll-ups that keep scenarios aligned). */
-  scenarioCosts: Float64Array[];
-  /** usage[s][k], meter unit: the usage each scenario's cost was priced from. */
-  scenarioUsage: Float64Array[];
+  /**
+   * Cost of scenario s, month k (for roll-ups that keep scenarios aligned); no scenarios when
+   * the meter was not priced. The usage each was priced from is not kept (no page reads it):
+   * `meterUsageScenarios` draws it again, identically.
+   */
+  scenarioCosts: ScenarioMatrix;
   /** Weather-year index of each scenario (−1 = no weather). */
   weatherIndex: Int32Array;
   /** Date escalation compounds from: the later of the last tariff version's start and the day after as-of. */
@@ -117,8 +120,7 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
     method: "none",
     months: [],
     total: null,
-    scenarioCosts: [],
-    scenarioUsage: [],
+    scenarioCosts: NO_SCENARIOS,
     weatherIndex: new Int32Array(0),
     escalationFrom: null,
     notes: [],
@@ -127,7 +129,6 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
   const usage = meterUsageScenarios(input, months, scenarios, calibration);
   if (!usage) return { ...base, error: "no bills to forecast from" };
   base.method = usage.method;
-  base.scenarioUsage = usage.usage;
   base.weatherIndex = usage.weatherIndex;
   base.notes.push(usage.note);
   const tariff = input.tariff;
@@ -138,42 +139,51 @@ export function forecastMeter(input: MeterForecastInput): MeterForecast {
   if (contexts.some((c) => c.shape)) {
     base.notes.push(`interval shape: same calendar month ${contexts.find((c) => c.shape)!.shape!.weeksBack} weeks earlier, scaled to each scenario's usage`);
   }
-  const scenarioCosts: Float64Array[] = [];
+  const K = months.length;
+  const scenarioCosts = scenarioMatrix(scenarios, K);
   const exactByMonth = months.map(() => true);
+  const u = usage.usage.values;
   try {
     for (let s = 0; s < scenarios; s++) {
       const previous = [...(input.previousBillingDemandsKw ?? [])];
-      const row = new Float64Array(months.length);
-      months.forEach((_, k) => {
-        const priced = priceForecastMonth(contexts[k]!, usage.usage[s]![k]!, previous);
-        row[k] = priced.cost;
+      for (let k = 0; k < K; k++) {
+        const priced = priceForecastMonth(contexts[k]!, u[s * K + k]!, previous);
+        scenarioCosts.values[s * K + k] = priced.cost;
         if (!priced.exact) exactByMonth[k] = false;
         if (priced.billingDemandKw !== null) previous.push(priced.billingDemandKw);
-      });
-      scenarioCosts.push(row);
+      }
     }
   } catch (error) {
     return { ...base, error: `pricing failed: ${expectedProblem(error)}`, ...usageOnly(usage, months) };
   }
   const monthsOut: MonthForecast[] = months.map((m, k) => ({
     month: m.month,
-    usage: bandOf(usage.usage.map((u) => u[k]!)),
-    cost: bandOf(scenarioCosts.map((c) => c[k]!)),
+    usage: bandOf(monthColumn(usage.usage, k)),
+    cost: bandOf(monthColumn(scenarioCosts, k)),
     escalationFactor: contexts[k]!.escalationFactor,
     pricedFrom: contexts[k]!.shape ? "intervals" : "bill",
     estimated: !exactByMonth[k],
   }));
-  const sum = (xs: Float64Array): number => xs.reduce((a, b) => a + b, 0);
   return {
     ...base,
     months: monthsOut,
-    total: { usage: bandOf(usage.usage.map(sum)), cost: bandOf(scenarioCosts.map(sum)) },
+    total: { usage: bandOf(scenarioTotals(usage.usage)), cost: bandOf(scenarioTotals(scenarioCosts)) },
     scenarioCosts,
   };
 }
 
 /** The meter's usage scenarios (model or fallback), seeded per meter so every call draws the same numbers. */
-export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number): UsageScenarios | null {
+export function meterUsageScenarios(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, calibration: number, noise?: ScenarioNoise): UsageScenarios | null {
+  const setup = meterScenarioSetup(input, months, scenarios, noise);
+  return setup ? scenariosAt(setup, calibration) : null;
+}
+
+/**
+ * The meter's scenarios for any calibration factor (usageScenarios.ts `ScenarioSetup`); null
+ * when it has no bills to forecast from. `noise`: draws of an earlier setup of the same meter
+ * and seed, reused when their shape fits.
+ */
+export function meterScenarioSetup(input: MeterForecastInput, months: CalendarMonth[], scenarios: number, noise?: ScenarioNoise): ScenarioSetup | null {
   const rng = scenarioUniforms(seedFromString(input.meter.meterId, input.seed ?? DEFAULT_SEED));
   if (input.fit && input.typicalMonthlyTemp) {
     const own = scenarioYears(input.weatherYears).map((y) => y.year);
@@ -184,19 +194,19 @@ export function meterUsageScenarios(input: MeterForecastInput, months: CalendarM
           return i >= 0 ? i : s % own.length;
         }
       : undefined;
-    return modelUsageScenarios({
+    return modelScenarioSetup({
       setOfScenario,
       fit: input.fit,
       typicalMonthlyTemp: input.typicalMonthlyTemp,
       temperatureSets: scenarioTemperatures(input.typicalMonthlyTemp, input.weatherYears),
       months,
       scenarios,
-      calibration,
       rng,
       residualPerDay: input.adjustment ? residualByCalendarMonth(input.fit, input.bills, input.weatherYears, input.asOf, input.adjustment) : null,
+      noise,
     });
   }
-  return fallbackUsageScenarios({ bills: input.bills, months, scenarios, calibration, rng });
+  return fallbackScenarioSetup({ bills: input.bills, months, scenarios, rng, noise });
 }
 
 /** Months with usage bands but no cost (the meter could not be priced). */
@@ -204,7 +214,7 @@ function usageOnly(usage: UsageScenarios, months: CalendarMonth[]): Pick<MeterFo
   return {
     months: months.map((m, k) => ({
       month: m.month,
-      usage: bandOf(usage.usage.map((u) => u[k]!)),
+      usage: bandOf(monthColumn(usage.usage, k)),
       cost: { p10: NaN, p50: NaN, p90: NaN },
       escalationFactor: 1,
       pricedFrom: "bill" as const,

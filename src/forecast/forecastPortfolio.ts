@@ -13,6 +13,7 @@ import { bandOf, type Band } from "./quantiles.ts";
 import type { WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
 import { scenarioYears } from "./weatherYears.ts";
+import { scenarioTotals } from "./scenarioMatrix.ts";
 
 export interface BuildingForecast {
   buildingId: string;
@@ -72,10 +73,13 @@ export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: Forecas
 }
 
 function portfolioBand(meters: readonly MeterForecast[]): Band | null {
-  const priced = meters.filter((m) => m.error === null && m.scenarioCosts.length > 0);
+  const priced = meters.filter((m) => m.error === null && m.scenarioCosts.scenarios > 0);
   if (priced.length === 0) return null;
-  const n = Math.min(...priced.map((m) => m.scenarioCosts.length));
+  const n = Math.min(...priced.map((m) => m.scenarioCosts.scenarios));
   const sums = new Float64Array(n);
-  for (const m of priced) for (let s = 0; s < n; s++) sums[s] += m.scenarioCosts[s]!.slice(0, 12).reduce((a, b) => a + b, 0);
+  for (const m of priced) {
+    const totals = scenarioTotals(m.scenarioCosts, 12);
+    for (let s = 0; s < n; s++) sums[s] += totals[s]!;
+  }
   return bandOf(sums);
 }

@@ -18,6 +18,7 @@ export { forecastWithTrackRecord, type ForecastBundle, type CalibrationResult } 
 export { annualErrorPct, forecastCvRmsePct, coverageShare } from "./accuracy.ts";
 export { escalationFactorForDays, escalationFactorForMonth, escalationBase } from "./escalation.ts";
 export { bandOf, type Band } from "./quantiles.ts";
+export { scenarioMatrix, scenarioTotals, monthColumn, valueAt, fromRows, type ScenarioMatrix } from "./scenarioMatrix.ts";
 export { weatherYears, scenarioTemperatures, type WeatherYear } from "./weatherYears.ts";
 export { spreadBillsByMonth } from "./months.ts";
 export { ForecastInputError } from "./errors.ts";

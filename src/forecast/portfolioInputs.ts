@@ -7,7 +7,7 @@
 import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { priceBill } from "../tariff/index.ts";
-import { fitMeterBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
+import { fitForecastBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
 import { priceMeterBills } from "../tariff/index.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
@@ -99,7 +99,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   };
   return meters.map((meter) => {
     const bills = billsKnownAt(portfolio.bills.filter((b) => b.meterId === meter.meterId), options.asOf);
-    const baseline = options.baselines?.get(meter.meterId) ?? fitMeterBaseline({ meter, building, bills, weather, normals, tempUnit });
+    const baseline = options.baselines?.get(meter.meterId) ?? fitForecastBaseline({ meter, building, bills, weather, normals, tempUnit });
     const tariff = portfolio.tariffs.get(meter.tariffId) ?? null;
     return {
       meter,

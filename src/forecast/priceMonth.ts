@@ -13,7 +13,7 @@
  *     earlier forecast months.
  */
 import type { Tariff } from "../tariff/index.ts";
-import { priceBill } from "../tariff/index.ts";
+import { pricingPlan, type PricingPlan } from "../tariff/index.ts";
 import { scaleShape, type MonthShape } from "./profile.ts";
 import { type CalendarMonth } from "../core/time/index.ts";
 
@@ -39,20 +39,42 @@ export interface PricedMonth {
   exact: boolean;
 }
 
-/** Prices `usage` (meter unit) for the context's month. @throws PricingError from the engine. */
+/*
+ * One pricing plan per context (tariff × month × meter), made on the first price and reused by
+ * every scenario; weakly held, so it goes when the context does.
+ */
+const plans = new WeakMap<MonthPricingContext, { plan: PricingPlan; readings: Float64Array | null }>();
+
+/** The context's plan, and a buffer for its scaled shape (the engine keeps nothing of the readings priced). */
+function planOf(ctx: MonthPricingContext): { plan: PricingPlan; readings: Float64Array | null } {
+  let entry = plans.get(ctx);
+  if (entry === undefined) {
+    const plan = pricingPlan(ctx.tariff, {
+      periodStart: ctx.month.start,
+      periodEnd: ctx.month.end,
+      timezone: ctx.timezone,
+      usageUnit: ctx.usageUnit,
+      powerFactor: ctx.powerFactor,
+      loadShapeByHourOfWeek: ctx.shape ? null : ctx.loadShapeByHourOfWeek,
+    });
+    entry = { plan, readings: ctx.shape ? new Float64Array(ctx.shape.values.length) : null };
+    plans.set(ctx, entry);
+  }
+  return entry;
+}
+
+/**
+ * Prices `usage` (meter unit) for the context's month: the total priceBill gives, through the
+ * context's pricing plan (tariff/plan.ts). @throws PricingError from the engine.
+ */
 export function priceForecastMonth(ctx: MonthPricingContext, usage: number, previousBillingDemandsKw: number[]): PricedMonth {
   const { month } = ctx;
-  const bill = priceBill(ctx.tariff, {
-    periodStart: month.start,
-    periodEnd: month.end,
-    timezone: ctx.timezone,
+  const { plan, readings } = planOf(ctx);
+  const bill = plan.price({
     usage,
-    usageUnit: ctx.usageUnit,
     demandKw: ctx.shape || ctx.kwPerUsePerDay === null ? null : (ctx.kwPerUsePerDay * usage) / month.days,
-    powerFactor: ctx.powerFactor,
-    intervals: ctx.shape ? scaleShape(ctx.shape, usage) : null,
+    intervals: ctx.shape ? scaleShape(ctx.shape, usage, readings ?? undefined) : null,
     previousBillingDemandsKw,
-    loadShapeByHourOfWeek: ctx.shape ? null : ctx.loadShapeByHourOfWeek,
   });
   return { cost: bill.total * ctx.escalationFactor, billingDemandKw: bill.billingDemandKw, exact: bill.exact };
 }

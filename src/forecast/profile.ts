@@ -75,9 +75,13 @@ export function monthShapeFromIntervals(
   return null;
 }
 
-/** The shape scaled to `usage` (meter unit), ready for the tariff engine. */
-export function scaleShape(shape: MonthShape, usage: number): IntervalUsage {
-  const values = new Float64Array(shape.values.length);
+/**
+ * The shape scaled to `usage` (meter unit), ready for the tariff engine. With `into` (as long
+ * as the shape) the values are written there instead of a new array: a forecast prices the
+ * same month 300 times and the engine keeps nothing of the readings it is given.
+ */
+export function scaleShape(shape: MonthShape, usage: number, into?: Float64Array): IntervalUsage {
+  const values = into ?? new Float64Array(shape.values.length);
   for (let k = 0; k < values.length; k++) values[k] = shape.values[k]! * usage;
   return { startMs: shape.startMs, values, intervalMinutes: shape.intervalMinutes };
 }

@@ -21,8 +21,9 @@ export interface Band {
  */
 export function bandOf(values: ArrayLike<number>): Band {
   if (values.length === 0) throw new ForecastInputError("no scenarios to take quantiles of");
-  const xs = Array.from(values);
-  for (const x of xs) if (!Number.isFinite(x)) throw new ForecastInputError(`scenario value ${x} is not a finite number`);
-  const [p10, p50, p90] = quantile(xs, [0.1, 0.5, 0.9]) as number[];
+  // simple-statistics selects in place on a copy (`slice`), which a Float64Array supports: no copy into an array first.
+  const xs = values instanceof Float64Array ? values : Float64Array.from(values);
+  for (let i = 0; i < xs.length; i++) if (!Number.isFinite(xs[i]!)) throw new ForecastInputError(`scenario value ${xs[i]} is not a finite number`);
+  const [p10, p50, p90] = quantile(xs as unknown as number[], [0.1, 0.5, 0.9]) as number[];
   return { p10: p10!, p50: p50!, p90: p90! };
 }

@@ -9,6 +9,7 @@
  */
 import type { MeterForecast } from "./forecastMeter.ts";
 import { bandOf, type Band } from "./quantiles.ts";
+import { valueAt } from "./scenarioMatrix.ts";
 
 export interface ForecastRow {
   building_id: string;
@@ -47,14 +48,14 @@ export function forecastRows(forecasts: readonly MeterForecast[]): ForecastRow[]
  * @throws nothing; meters with a different scenario count are summed over the common prefix.
  */
 export function buildingCostBand(forecasts: readonly MeterForecast[], months = 12): Band | null {
-  const priced = forecasts.filter((f) => f.error === null && f.scenarioCosts.length > 0);
+  const priced = forecasts.filter((f) => f.error === null && f.scenarioCosts.scenarios > 0);
   if (priced.length === 0) return null;
-  const n = Math.min(...priced.map((f) => f.scenarioCosts.length));
+  const n = Math.min(...priced.map((f) => f.scenarioCosts.scenarios));
   const sums = new Float64Array(n);
   for (const f of priced) {
+    const costs = f.scenarioCosts;
     for (let s = 0; s < n; s++) {
-      const row = f.scenarioCosts[s]!;
-      for (let k = 0; k < Math.min(months, row.length); k++) sums[s] += row[k]!;
+      for (let k = 0; k < Math.min(months, costs.months); k++) sums[s] += valueAt(costs, s, k);
     }
   }
   return bandOf(sums);
@@ -62,12 +63,12 @@ export function buildingCostBand(forecasts: readonly MeterForecast[], months = 1
 
 /** Monthly cost range of one building (scenario sums per month), for the page's chart. */
 export function buildingMonthlyCostBands(forecasts: readonly MeterForecast[]): { month: string; cost: Band }[] {
-  const priced = forecasts.filter((f) => f.error === null && f.scenarioCosts.length > 0);
+  const priced = forecasts.filter((f) => f.error === null && f.scenarioCosts.scenarios > 0);
   if (priced.length === 0) return [];
-  const n = Math.min(...priced.map((f) => f.scenarioCosts.length));
+  const n = Math.min(...priced.map((f) => f.scenarioCosts.scenarios));
   return priced[0]!.months.map((m, k) => {
     const sums = new Float64Array(n);
-    for (const f of priced) for (let s = 0; s < n; s++) sums[s] += f.scenarioCosts[s]![k] ?? 0;
+    for (const f of priced) for (let s = 0; s < n; s++) sums[s] += k < f.scenarioCosts.months ? valueAt(f.scenarioCosts, s, k) : 0;
     return { month: m.month, cost: bandOf(sums) };
   });
 }

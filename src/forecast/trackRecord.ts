@@ -22,6 +22,7 @@ import { billsKnownAt, buildingForecastInputs } from "./portfolioInputs.ts";
 import { spreadBillsByMonth } from "./months.ts";
 import { annualErrorPct, coverageShare, forecastCvRmsePct } from "./accuracy.ts";
 import { bandOf, type Band } from "./quantiles.ts";
+import { valueAt } from "./scenarioMatrix.ts";
 import { MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
 import { addMonthsIso, shiftMonth } from "../core/time/index.ts";
 
@@ -103,7 +104,9 @@ export function compareWithActuals(forecast: MeterForecast, allBills: readonly B
     indices.push(k);
   });
   if (comparisons.length === 0) return { ...base, note: "no forecast month is completely covered by later bills" };
-  const scenarioSums = forecast.scenarioCosts.map((row) => indices.reduce((s, k) => s + row[k]!, 0));
+  const costs = forecast.scenarioCosts;
+  const scenarioSums = new Float64Array(costs.scenarios);
+  for (let s = 0; s < costs.scenarios; s++) scenarioSums[s] = indices.reduce((sum, k) => sum + valueAt(costs, s, k), 0);
   const model = summarize(
     comparisons.map((c) => c.actualCost),
     comparisons.map((c) => c.forecastCost.p50),

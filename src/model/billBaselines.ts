@@ -126,8 +126,7 @@ function toUnit(tempC: number, unit: "C" | "F"): number {
   return unit === "F" ? cToF(tempC) : tempC;
 }
 
-/** Fits the baseline of one meter from its bills and its building's weather. */
-export function fitMeterBaseline(options: {
+interface BaselineOptions {
   meter: Meter;
   building: Building;
   bills: Bill[];
@@ -136,10 +135,11 @@ export function fitMeterBaseline(options: {
   tempUnit: "C" | "F";
   /** Bills to leave out of the change-point fit, with the reason (e.g. the audit found them wrong). */
   exclude?: ReadonlyMap<string, string>;
-  /** The degree-day band when already computed (it is fitted before the audit, which uses it). */
-  degreeDayResult?: Pick<MeterBaseline, "degreeDay" | "expectedByBill">;
-}): MeterBaseline {
-  const { meter, building, weather, normals, tempUnit } = options;
+}
+
+/** The bills' period temperatures, the points of the change-point fit and the chosen fit. */
+function changePointPart(options: BaselineOptions) {
+  const { building, weather, tempUnit } = options;
   const points: MeterBaseline["points"] = [];
   const excluded: MeterBaseline["excluded"] = [];
   const billTemps = new Map<string, number>();
@@ -187,10 +187,33 @@ export function fitMeterBaseline(options: {
       p: c.fit?.parameterCount ?? 0,
     }));
   }
+  return { points, excluded, billTemps, scatter, fit, tried };
+}
 
-  const typicalSeries = normals ?? weather;
-  const typicalC = typicalSeries ? typicalMonthlyTempC(typicalSeries, building.timezone) : null;
-  const typicalMonthlyTemp = typicalC ? typicalC.map((t) => toUnit(t, tempUnit)) : null;
+/** Typical month temperatures (°C, and in the model's unit) from the normals, else the history. */
+function typicalPart(options: BaselineOptions): { typicalC: number[] | null; typicalMonthlyTemp: number[] | null } {
+  const typicalSeries = options.normals ?? options.weather;
+  const typicalC = typicalSeries ? typicalMonthlyTempC(typicalSeries, options.building.timezone) : null;
+  return { typicalC, typicalMonthlyTemp: typicalC ? typicalC.map((t) => toUnit(t, options.tempUnit)) : null };
+}
+
+/**
+ * Only what a forecast reads of a meter's baseline: the chosen change-point fit and the typical
+ * year, computed exactly as `fitMeterBaseline` computes them, without the degree-day band and the
+ * per-bill adjustments (the rolling backtests refit every meter at every origin and read neither).
+ */
+export function fitForecastBaseline(options: BaselineOptions): Pick<MeterBaseline, "fit" | "typicalMonthlyTemp"> {
+  return { fit: changePointPart(options).fit, typicalMonthlyTemp: typicalPart(options).typicalMonthlyTemp };
+}
+
+/** Fits the baseline of one meter from its bills and its building's weather. */
+export function fitMeterBaseline(options: BaselineOptions & {
+  /** The degree-day band when already computed (it is fitted before the audit, which uses it). */
+  degreeDayResult?: Pick<MeterBaseline, "degreeDay" | "expectedByBill">;
+}): MeterBaseline {
+  const { meter, normals, tempUnit } = options;
+  const { points, excluded, billTemps, scatter, fit, tried } = changePointPart(options);
+  const { typicalC, typicalMonthlyTemp } = typicalPart(options);
   const normalizedAnnual =
     fit && typicalMonthlyTemp ? typicalMonthlyTemp.reduce((s, t, m) => s + Math.max(0, fit!.predict(t)) * DAYS_IN_MONTH[m]!, 0) : null;
 

@@ -44,7 +44,7 @@ export {
 export type { DegreeDays, HourlyTemps, PeriodDegreeDays } from "./degreeDays.ts";
 
 // Used by other folders (see test/architecture/layers.test.ts).
-export { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, fitMeterBaseline, typicalMonthlyTempC } from "./billBaselines.ts";
+export { buildingDegreeDayBands, expectedUsageForStretch, fitBuildingBaselines, fitForecastBaseline, fitMeterBaseline, typicalMonthlyTempC } from "./billBaselines.ts";
 export type { MeterBaseline, ModelSummary } from "./billBaselines.ts";
 export { fitBuildingIntervalBaselines, SHORT_HISTORY_WEEKS } from "./interval/buildingBaselines.ts";
 export type { IntervalBaselineOutcome } from "./interval/buildingBaselines.ts";

@@ -166,7 +166,7 @@ const BUDGET_MONTHS = 12;
  * @example buildingForecastDetail(b, bills, "2025-12-31", record).byCommodity[0].total // { p10, p50, p90 } of the first 12 months
  */
 export function buildingForecastDetail(b: BuildingForecast, bills: readonly Bill[], asOf: string, record: TrackRecord | null): ReportBuildingForecast {
-  const priced = b.meters.filter((m) => m.error === null && m.scenarioCosts.length > 0);
+  const priced = b.meters.filter((m) => m.error === null && m.scenarioCosts.scenarios > 0);
   const months = b.monthly.map((m) => m.month);
   const lastYear = lastYearCosts(priced, bills, asOf, months);
   const commodities = [...new Set(priced.map((m) => m.commodity))].sort(commodityOrder);

@@ -4,13 +4,13 @@
  * computed once. Built by price.ts, read by price-version.ts.
  */
 import type { PriceRequest } from "./types.ts";
-import type { Tariff } from "./model.ts";
+import type { Tariff, TariffVersion } from "./model.ts";
 import { assertZone, localMidnightMs } from "./calendar.ts";
 import { localTimes, type LocalTimes } from "../core/time/index.ts";
 import { PricingError } from "./errors.ts";
 import { canonicalUnit, unitFactor } from "./units.ts";
 import { lowerBound } from "../core/sorted.ts";
-import { daysBetween, isIsoDate } from "../core/time/index.ts";
+import { daysBetween, hoursOfWeek, isIsoDate } from "../core/time/index.ts";
 
 export interface BillIntervals {
   startMs: Float64Array;
@@ -38,23 +38,47 @@ export interface BillContext {
   intervals: BillIntervals | null;
   /** Lazily built local times of each hour of the period, for estimates without intervals. */
   hourly(): { startMs: Float64Array; local: LocalTimes };
+  /** The usage-independent work of the bill's period (shared by every price of a plan). */
+  frame: BillFrame;
+  /** False when only amounts are wanted (a forecast's scenarios): notes and part labels are left empty. */
+  detail: boolean;
 }
 
+/** The parts of a request that a pricing plan fixes (everything but the quantities). */
+export type FrameRequest = Pick<PriceRequest, "periodStart" | "periodEnd" | "timezone" | "usageUnit" | "powerFactor" | "loadShapeByHourOfWeek">;
 
 /**
- * Validates a request against a tariff and prepares the bill context.
- *
- * @throws PricingError for impossible dates, an unknown zone, a unit that cannot be converted,
- *   a non-finite usage or a power factor outside (0, 1].
+ * What does not depend on the bill's quantities: the period, its days and instants, the unit
+ * factor, and (lazily) the hours with their local times and load-shape weights. Built once per
+ * bill by `priceBill`, once per plan by `pricingPlan`.
  */
-export function billContext(tariff: Tariff, req: PriceRequest): BillContext {
+export interface BillFrame {
+  days: number;
+  startMs: number;
+  endMs: number;
+  usageFactor: number;
+  requestUnit: string;
+  hourly(): { startMs: Float64Array; local: LocalTimes };
+  /** Weight of each hour of the period: the load shape when known, else 1 (split by hours). Not to be mutated. */
+  hourWeights(): Float64Array;
+  /** Usage-independent results cached per tariff version (version-state.ts). */
+  byVersion: Map<TariffVersion, unknown>;
+}
+
+/**
+ * Validates the usage-independent part of a request and prepares the frame.
+ * @throws PricingError for impossible dates, an unknown zone, a unit that cannot be converted,
+ *   a power factor outside (0, 1] or a malformed load shape.
+ */
+export function billFrame(tariff: Tariff, req: FrameRequest, usage?: number): BillFrame {
   if (!isIsoDate(req.periodStart) || !isIsoDate(req.periodEnd)) {
     throw new PricingError(`billing period ${req.periodStart} to ${req.periodEnd}: dates must be YYYY-MM-DD`);
   }
   const days = daysBetween(req.periodStart, req.periodEnd);
   if (days <= 0) throw new PricingError(`billing period ends (${req.periodEnd}) on or before it starts (${req.periodStart})`);
   assertZone(req.timezone);
-  if (!Number.isFinite(req.usage)) throw new PricingError(`usage ${req.usage} is not a number`);
+  // (The usage check sits here for priceBill, so its errors keep their order.)
+  if (usage !== undefined) checkUsage(usage);
   const requestUnit = canonicalUnit(tariff.commodity, req.usageUnit);
   const usageFactor = unitFactor(tariff.commodity, req.usageUnit, tariff.usageUnit, tariff.heatContentThermPerCcf);
   if (usageFactor === null || requestUnit === null) {
@@ -65,19 +89,73 @@ export function billContext(tariff: Tariff, req: PriceRequest): BillContext {
   if (req.powerFactor != null && !(req.powerFactor > 0 && req.powerFactor <= 1)) {
     throw new PricingError(`power factor ${req.powerFactor} is outside 0 < pf <= 1`);
   }
-  if (req.demandKw != null && !(Number.isFinite(req.demandKw) && req.demandKw >= 0)) {
-    throw new PricingError(`demand ${req.demandKw} kW is not a non-negative number`);
-  }
-  const shape = req.loadShapeByHourOfWeek;
+  return frameAfterChecks(req, days, requestUnit, usageFactor);
+}
+
+function checkUsage(usage: number): void {
+  if (!Number.isFinite(usage)) throw new PricingError(`usage ${usage} is not a number`);
+}
+
+export function checkLoadShape(shape: readonly number[] | null | undefined): void {
   if (shape != null && (shape.length !== 168 || !shape.every((v) => Number.isFinite(v) && v >= 0))) {
     throw new PricingError(`the load shape must have 168 non-negative hour-of-week values (Monday 00:00 first); got ${shape.length}`);
   }
-  const prev = req.previousBillingDemandsKw ?? [];
-  if (!prev.every((v) => Number.isFinite(v) && v >= 0)) {
-    throw new PricingError("previous billing demands must be non-negative numbers (kW)");
-  }
+}
+
+function frameAfterChecks(req: FrameRequest, days: number, requestUnit: string, usageFactor: number): BillFrame {
   const startMs = localMidnightMs(req.periodStart, req.timezone);
   const endMs = localMidnightMs(req.periodEnd, req.timezone);
+  let hourlyCache: { startMs: Float64Array; local: LocalTimes } | null = null;
+  let weights: Float64Array | null = null;
+  const hourly = () => (hourlyCache ??= hourlyGrid(startMs, endMs, req.timezone));
+  return {
+    days,
+    startMs,
+    endMs,
+    usageFactor,
+    requestUnit,
+    hourly,
+    hourWeights() {
+      if (weights) return weights;
+      const h = hourly();
+      const shape = req.loadShapeByHourOfWeek;
+      const w = new Float64Array(h.startMs.length);
+      if (shape && shape.length === 168) {
+        const how = hoursOfWeek(h.local);
+        for (let i = 0; i < w.length; i++) w[i] = Math.max(0, shape[how[i]] ?? 0);
+      } else {
+        w.fill(1);
+      }
+      return (weights = w);
+    },
+    byVersion: new Map(),
+  };
+}
+
+/**
+ * Validates a request against a tariff and prepares the bill context.
+ *
+ * @param frame the request's frame when already built (a pricing plan); its checks are not repeated
+ * @throws PricingError for impossible dates, an unknown zone, a unit that cannot be converted,
+ *   a non-finite usage or a power factor outside (0, 1].
+ */
+export function billContext(tariff: Tariff, req: PriceRequest, frame?: BillFrame, detail = true): BillContext {
+  const own = frame === undefined;
+  if (frame === undefined) {
+    frame = billFrame(tariff, req, req.usage);
+  } else {
+    checkUsage(req.usage);
+  }
+  if (req.demandKw != null && !(Number.isFinite(req.demandKw) && req.demandKw >= 0)) {
+    throw new PricingError(`demand ${req.demandKw} kW is not a non-negative number`);
+  }
+  // A plan's frame checked its load shape once (pricingPlan); the request carries the same one.
+  if (own) checkLoadShape(req.loadShapeByHourOfWeek);
+  const prev = req.previousBillingDemandsKw ?? [];
+  for (const v of prev) {
+    if (!(Number.isFinite(v) && v >= 0)) throw new PricingError("previous billing demands must be non-negative numbers (kW)");
+  }
+  const { startMs, endMs, usageFactor } = frame;
 
   let intervals: BillIntervals | null = null;
   const iv = req.intervals;
@@ -105,21 +183,19 @@ export function billContext(tariff: Tariff, req: PriceRequest): BillContext {
     };
   }
 
-  let hourlyCache: { startMs: Float64Array; local: LocalTimes } | null = null;
   return {
     tariff,
     req,
-    days,
+    days: frame.days,
     startMs,
     endMs,
     usage: req.usage * usageFactor,
     usageFactor,
-    requestUnit,
+    requestUnit: frame.requestUnit,
     intervals,
-    hourly() {
-      hourlyCache ??= hourlyGrid(startMs, endMs, req.timezone);
-      return hourlyCache;
-    },
+    hourly: frame.hourly,
+    frame,
+    detail,
   };
 }
 

@@ -3,6 +3,7 @@ export type * from "./types.ts";
 export type * from "./model.ts";
 export { loadTariff, MINIMUM_BILL_LABEL } from "./load.ts";
 export { priceBill, versionsInForce } from "./price.ts";
+export { pricingPlan, type PricingPlan, type PlanQuantities, type PlannedPrice } from "./plan.ts";
 export { PricingError } from "./errors.ts";
 export { unitFactor, canonicalUnit, UNITS_BY_COMMODITY } from "./units.ts";
 export { maxWindowDemandKw, billingDemandKw } from "./demand.ts";

@@ -26,13 +26,13 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
     if (iv && iv.kwh && iv.startMs.length > 0) {
       const d = maxWindowDemandKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes);
       measured = d.kw;
-      source = `highest ${d.intervalsPerWindow * iv.intervalMinutes}-minute average from interval data`;
+      source = ctx.detail ? `highest ${d.intervalsPerWindow * iv.intervalMinutes}-minute average from interval data` : "";
       // Shape only: the bill's demand governs; the meter's more precise figure is used only when it is the same reading.
       const scaled = billedDemandScale(st);
       if (scaled !== null && scaled.scale !== 1) {
         const meterKw = measured;
         measured = charge.windowMinutes === scaled.windowMinutes || meterKw === null ? req.demandKw! : meterKw * scaled.scale;
-        source = `billed maximum demand ${fmt(req.demandKw!)} kW (the meter's highest ${scaled.windowMinutes}-minute average was ${fmt(scaled.meterKw)} kW)`;
+        source = ctx.detail ? `billed maximum demand ${fmt(req.demandKw!)} kW (the meter's highest ${scaled.windowMinutes}-minute average was ${fmt(scaled.meterKw)} kW)` : "";
       }
     } else {
       source = "";
@@ -46,6 +46,7 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
       source = "no demand on the bill and no interval data: measured demand taken as 0";
     }
     const b = billingDemandKw(measured ?? 0, prev, charge.ratchet, charge.minimumKw);
+    if (!ctx.detail) return { line: line(charge, b.kw, "kW", charge.rate.flat, b.kw * charge.rate.flat, null, status), billingKw: b.kw };
     const why =
       b.by === "ratchet"
         ? `ratchet: ${charge.ratchet!.percent}% of the highest of the last ${Math.min(prev.length, charge.ratchet!.months)} billing demands = ${fmt(b.kw)} kW, above measured ${fmt(measured ?? 0)} kW`
@@ -71,7 +72,7 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
     if (scaled !== null && scaled.scale !== 1) {
       scale = scaled.scale;
       status = "estimated";
-      note = `estimated: each period's highest ${windowText} average from interval data × ${fmt(scale, 4)} (billed ${fmt(req.demandKw!)} kW against the meter's ${fmt(scaled.meterKw)} kW)`;
+      note = ctx.detail ? `estimated: each period's highest ${windowText} average from interval data × ${fmt(scale, 4)} (billed ${fmt(req.demandKw!)} kW against the meter's ${fmt(scaled.meterKw)} kW)` : "";
     }
     for (const name of names) {
       const p = version.periods.findIndex((x) => x.name === name);
@@ -108,9 +109,9 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
   }
   const amount = sumAmounts(parts.map((p) => p.amount));
   const single = parts.length === 1;
-  const detail = parts.map((p) => `${p.label} ${fmt(p.quantity)} kW × ${fmt(p.rate, 6)}`).join(" + ");
+  const text = ctx.detail ? `${parts.map((p) => `${p.label} ${fmt(p.quantity)} kW × ${fmt(p.rate, 6)}`).join(" + ")}; ${note}` : null;
   return {
-    line: line(charge, single ? parts[0].quantity : null, "kW", single ? parts[0].rate : null, amount, `${detail}; ${note}`, status, parts),
+    line: line(charge, single ? parts[0].quantity : null, "kW", single ? parts[0].rate : null, amount, text, status, parts),
     billingKw: null,
   };
 }

@@ -34,7 +34,7 @@ function priceBlocks(st: VersionState, charge: Extract<Charge, { kind: "blocks" 
     const size = upper - lower;
     const q = i === 0 && remaining < 0 ? remaining : Math.max(0, Math.min(remaining, size));
     if (q !== 0 || i === 0) {
-      const label = b.upTo === null ? `over ${fmt(lower)} ${unit}` : `${fmt(lower)}–${fmt(upper)} ${unit}`;
+      const label = !ctx.detail ? "" : b.upTo === null ? `over ${fmt(lower)} ${unit}` : `${fmt(lower)}–${fmt(upper)} ${unit}`;
       parts.push({ label, quantity: q, unit, rate: b.rate, amount: q * b.rate });
     }
     remaining -= q;
@@ -42,12 +42,11 @@ function priceBlocks(st: VersionState, charge: Extract<Charge, { kind: "blocks" 
   });
   const amount = sumAmounts(parts.map((p) => p.amount));
   const single = parts.length === 1;
-  const note = [
-    parts.map((p) => `${fmt(p.quantity)} × ${fmt(p.rate, 6)}`).join(" + "),
-    charge.scaleByDays ? `block sizes × ${ctx.days}/30 days` : null,
-  ]
-    .filter(Boolean)
-    .join("; ");
+  const note = !ctx.detail
+    ? null
+    : [parts.map((p) => `${fmt(p.quantity)} × ${fmt(p.rate, 6)}`).join(" + "), charge.scaleByDays ? `block sizes × ${ctx.days}/30 days` : null]
+        .filter(Boolean)
+        .join("; ");
   return line(charge, ctx.usage, unit, single ? parts[0].rate : null, amount, note, "exact", parts);
 }
 
@@ -63,8 +62,8 @@ function priceEnergy(st: VersionState, charge: Extract<Charge, { kind: "energy" 
     return { label: p.name, quantity: split.usage[i], unit, rate: r, amount: split.usage[i] * r };
   });
   const amount = sumAmounts(parts.map((p) => p.amount));
-  const detail = parts.map((p) => `${p.label} ${fmt(p.quantity)} × ${fmt(p.rate, 6)}`).join(" + ");
-  return line(charge, split.total, unit, null, amount, `${detail}; ${split.note}`, split.status, parts);
+  const note = ctx.detail ? `${parts.map((p) => `${p.label} ${fmt(p.quantity)} × ${fmt(p.rate, 6)}`).join(" + ")}; ${split.note}` : null;
+  return line(charge, split.total, unit, null, amount, note, split.status, parts);
 }
 
 /**
@@ -104,7 +103,7 @@ export function priceVersion(ctx: BillContext, version: TariffVersion): VersionR
         if (pf == null) {
           slots[i] = line(charge, base, ctx.tariff.currency, 0, 0, "no power factor given: no adjustment computed", status);
         } else if (pf >= charge.targetPf) {
-          slots[i] = line(charge, base, ctx.tariff.currency, 0, 0, `power factor ${fmt(pf)} meets the target ${fmt(charge.targetPf)}`, status);
+          slots[i] = line(charge, base, ctx.tariff.currency, 0, 0, ctx.detail ? `power factor ${fmt(pf)} meets the target ${fmt(charge.targetPf)}` : null, status);
         } else {
           const factor = charge.targetPf / pf - 1;
           slots[i] = line(
@@ -113,7 +112,7 @@ export function priceVersion(ctx: BillContext, version: TariffVersion): VersionR
             ctx.tariff.currency,
             factor,
             base * factor,
-            `power factor ${fmt(pf)} below ${fmt(charge.targetPf)}: demand charges ${fmt(base, 2)} × (${fmt(charge.targetPf)}/${fmt(pf)} − 1)`,
+            ctx.detail ? `power factor ${fmt(pf)} below ${fmt(charge.targetPf)}: demand charges ${fmt(base, 2)} × (${fmt(charge.targetPf)}/${fmt(pf)} − 1)` : null,
             status,
           );
         }
@@ -137,7 +136,7 @@ export function priceVersion(ctx: BillContext, version: TariffVersion): VersionR
         unit: "bill",
         rate: roundCents(version.minimumBill - subtotal),
         amount: roundCents(version.minimumBill - subtotal),
-        note: `charges ${subtotal.toFixed(2)} are below the minimum bill ${version.minimumBill.toFixed(2)}`,
+        note: ctx.detail ? `charges ${subtotal.toFixed(2)} are below the minimum bill ${version.minimumBill.toFixed(2)}` : null,
         status: worstStatus(before.map((l) => l.status)),
       };
     }
@@ -155,7 +154,8 @@ export function priceVersion(ctx: BillContext, version: TariffVersion): VersionR
     const baseAmount = roundCents(sumAmounts(base.map((l) => l.amount)));
     const rate = charge.percent / 100;
     const what = charge.of === "all" ? "all lines above" : charge.of.join(", ");
-    ordered.push(line(charge, baseAmount, ctx.tariff.currency, rate, baseAmount * rate, `${fmt(charge.percent)}% of ${baseAmount.toFixed(2)} (${what})`, worstStatus(base.map((l) => l.status))));
+    const note = ctx.detail ? `${fmt(charge.percent)}% of ${baseAmount.toFixed(2)} (${what})` : null;
+    ordered.push(line(charge, baseAmount, ctx.tariff.currency, rate, baseAmount * rate, note, worstStatus(base.map((l) => l.status))));
   });
   if (minLine !== null) ordered.push(minLine);
   return { lines: ordered, billingDemandKw: billingKw, notes };

@@ -7,7 +7,7 @@
  */
 import type { ComputedBill, ComputedLine, LinePart, PriceRequest } from "./types.ts";
 import type { Tariff, TariffVersion } from "./model.ts";
-import { billContext } from "./context.ts";
+import { billContext, type BillContext } from "./context.ts";
 import { PricingError } from "./errors.ts";
 import { priceVersion, worstStatus, type VersionResult } from "./price-version.ts";
 import { daysBetween } from "../core/time/index.ts";
@@ -36,9 +36,11 @@ function fmtRate(n: number): string {
 }
 
 /** Weighted sum of one label's lines across versions (missing in a version = 0 there). */
-function mergeLine(label: string, results: VersionResult[], weights: number[], versions: TariffVersion[], dayCounts: number[]): ComputedLine {
+function mergeLine(label: string, results: VersionResult[], weights: number[], versions: TariffVersion[], dayCounts: number[], detail: boolean): ComputedLine {
   const present = results.map((r) => r.lines.find((l) => l.label === label) ?? null);
   const first = present.find((l) => l !== null) as ComputedLine;
+  // Without detail every note is null, so lines equal in amount, quantity and rate count as the
+  // same; with detail a different note prorates the equal amounts, which gives the same cents.
   const same = present.every(
     (l) => l !== null && l.amount === first.amount && l.quantity === first.quantity && l.rate === first.rate && l.note === first.note,
   );
@@ -51,14 +53,14 @@ function mergeLine(label: string, results: VersionResult[], weights: number[], v
   const pieces: string[] = [];
   present.forEach((l, i) => {
     if (l === null) {
-      pieces.push(`${dayCounts[i]} days under the version from ${versions[i].from}: no such charge`);
+      if (detail) pieces.push(`${dayCounts[i]} days under the version from ${versions[i].from}: no such charge`);
       return;
     }
     amount += l.amount * weights[i];
     quantity = quantity === null || l.quantity === null ? null : quantity + l.quantity * weights[i];
     rate = rate === null || l.rate === null ? null : rate + l.rate * weights[i];
-    pieces.push(`${dayCounts[i]} days at ${l.rate === null ? "the rates" : fmtRate(l.rate)} (version from ${versions[i].from}: ${l.amount.toFixed(2)})`);
-    for (const p of l.parts ?? []) parts.push({ ...p, label: `${versions[i].from}: ${p.label}`, amount: p.amount * weights[i] });
+    if (detail) pieces.push(`${dayCounts[i]} days at ${l.rate === null ? "the rates" : fmtRate(l.rate)} (version from ${versions[i].from}: ${l.amount.toFixed(2)})`);
+    for (const p of l.parts ?? []) parts.push({ ...p, label: detail ? `${versions[i].from}: ${p.label}` : "", amount: p.amount * weights[i] });
   });
   const allSameQuantity = present.every((l) => l === null || l.quantity === first.quantity);
   const out: ComputedLine = {
@@ -68,7 +70,7 @@ function mergeLine(label: string, results: VersionResult[], weights: number[], v
     unit: first.unit,
     rate,
     amount: roundCents(amount),
-    note: `prorated by days: ${pieces.join("; ")}${sameNote && first.note ? `; ${first.note}` : ""}`,
+    note: detail ? `prorated by days: ${pieces.join("; ")}${sameNote && first.note ? `; ${first.note}` : ""}` : null,
     status: worstStatus(present.filter((l): l is ComputedLine => l !== null).map((l) => l.status)),
   };
   if (parts.length > 0) out.parts = parts;
@@ -85,7 +87,16 @@ function mergeLine(label: string, results: VersionResult[], weights: number[], v
  */
 export function priceBill(tariff: Tariff, req: PriceRequest): ComputedBill {
   const ctx = billContext(tariff, req);
-  const inForce = versionsInForce(tariff, req.periodStart, req.periodEnd);
+  return priceInContext(ctx, versionsInForce(tariff, req.periodStart, req.periodEnd));
+}
+
+/**
+ * Prices a prepared bill context under the versions in force (priceBill, and pricing plans that
+ * prepare the context and the versions once). Without `ctx.detail` lines carry no notes and
+ * the bill no notes; amounts, totals, billing demand and statuses are the same.
+ */
+export function priceInContext(ctx: BillContext, inForce: { version: TariffVersion; days: number }[]): ComputedBill {
+  const { tariff, req } = ctx;
   const results = inForce.map(({ version }) => priceVersion(ctx, version));
   const weights = inForce.map(({ days }) => days / ctx.days);
   const notes: string[] = [];
@@ -97,23 +108,23 @@ export function priceBill(tariff: Tariff, req: PriceRequest): ComputedBill {
     const labels: string[] = [];
     for (const r of results) for (const l of r.lines) if (!labels.includes(l.label)) labels.push(l.label);
     lines = labels.map((label) =>
-      mergeLine(label, results, weights, inForce.map((x) => x.version), inForce.map((x) => x.days)),
+      mergeLine(label, results, weights, inForce.map((x) => x.version), inForce.map((x) => x.days), ctx.detail),
     );
-    notes.push(
+    if (ctx.detail) notes.push(
       `Prorated: ${inForce.map((x) => `${x.days} of ${ctx.days} days under the version from ${x.version.from}`).join(", ")}; each version priced in full and weighted by its share of days.`,
     );
   }
-  if (ctx.usageFactor !== 1) {
+  if (ctx.detail && ctx.usageFactor !== 1) {
     const heat =
       tariff.commodity === "gas" && ["ccf", "m3"].includes(ctx.requestUnit)
         ? ` (heat content ${tariff.heatContentThermPerCcf} therm/ccf${tariff.heatContentStated ? "" : ", the default"})`
         : "";
     notes.push(`Usage ${req.usage} ${ctx.requestUnit} converted to ${Number(ctx.usage.toFixed(6))} ${tariff.usageUnit}${heat}.`);
   }
-  if (req.intervals && req.intervals.startMs.length > 0 && ctx.intervals && ctx.intervals.startMs.length < ctx.intervals.expectedCount) {
+  if (ctx.detail && req.intervals && req.intervals.startMs.length > 0 && ctx.intervals && ctx.intervals.startMs.length < ctx.intervals.expectedCount) {
     notes.push(`Interval data covers ${ctx.intervals.startMs.length} of ${ctx.intervals.expectedCount} intervals of the period.`);
   }
-  notes.push("Each line is rounded half-up to the cent; the total is the sum of the rounded lines.");
+  if (ctx.detail) notes.push("Each line is rounded half-up to the cent; the total is the sum of the rounded lines.");
   const demands = results.map((r) => r.billingDemandKw).filter((d): d is number => d !== null);
   const billingDemand = demands.length === 0 ? null : sumAmounts(results.map((r, i) => (r.billingDemandKw ?? 0) * weights[i]));
   return {

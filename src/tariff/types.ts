@@ -4,6 +4,8 @@
  *
  *   loadTariff(text, file)  -> { tariff: Tariff | null, issues: InputIssue[] }   (src/tariff/load.ts)
  *   priceBill(tariff, request) -> ComputedBill                                  (src/tariff/price.ts)
+ *   pricingPlan(tariff, period).price(quantities) -> { total, billingDemandKw, exact }
+ *     the same figures for many prices of one period, without notes             (src/tariff/plan.ts)
  */
 import type { Commodity } from "../domain/types.ts";
 

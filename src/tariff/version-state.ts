@@ -7,7 +7,6 @@ import type { LineStatus } from "./types.ts";
 import type { TariffVersion } from "./model.ts";
 import type { BillContext } from "./context.ts";
 import { periodIndices } from "./calendar.ts";
-import { hoursOfWeek } from "../core/time/index.ts";
 import { groupedNumber } from "./format.ts";
 import { sumAmounts } from "../core/money.ts";
 
@@ -51,23 +50,29 @@ export class VersionState {
     return this.hourlyIdx;
   }
 
-  /** Weight of each hour of the period: the load shape when known, else 1 (split by hours). */
+  /** Weight of each hour of the period: the load shape when known, else 1 (split by hours). Not to be mutated. */
   hourWeights(): Float64Array {
-    const h = this.ctx.hourly();
-    const shape = this.ctx.req.loadShapeByHourOfWeek;
-    const w = new Float64Array(h.startMs.length);
-    if (shape && shape.length === 168) {
-      const how = hoursOfWeek(h.local);
-      for (let i = 0; i < w.length; i++) w[i] = Math.max(0, shape[how[i]] ?? 0);
-    } else {
-      w.fill(1);
-    }
-    return w;
+    return this.ctx.frame.hourWeights();
   }
 
   hasShape(): boolean {
     const s = this.ctx.req.loadShapeByHourOfWeek;
     return !!s && s.length === 168 && s.some((v) => v > 0);
+  }
+
+  /** Share of each period in the hours' weights: usage-independent, so kept on the frame per version. */
+  private hourlyShares(): number[] {
+    const cached = this.ctx.frame.byVersion.get(this.version) as number[] | undefined;
+    if (cached) return cached;
+    const n = this.version.periods.length;
+    const w = this.hourWeights();
+    const idx = this.hourlyPeriods();
+    const byPeriod = new Array<number>(n).fill(0);
+    for (let i = 0; i < idx.length; i++) byPeriod[idx[i]] += w[i];
+    const sumW = sumAmounts(byPeriod);
+    const shares = byPeriod.map((x) => (sumW > 0 ? x / sumW : 1 / n));
+    this.ctx.frame.byVersion.set(this.version, shares);
+    return shares;
   }
 
   periodSplit(): PeriodSplit {
@@ -107,12 +112,7 @@ export class VersionState {
         return this.split;
       }
     }
-    const w = this.hourWeights();
-    const idx = this.hourlyPeriods();
-    const byPeriod = new Array<number>(n).fill(0);
-    for (let i = 0; i < idx.length; i++) byPeriod[idx[i]] += w[i];
-    const sumW = sumAmounts(byPeriod);
-    const shares = byPeriod.map((x) => (sumW > 0 ? x / sumW : 1 / n));
+    const shares = this.hourlyShares();
     const shaped = this.hasShape();
     this.split = {
       usage: shares.map((s) => s * this.ctx.usage),

@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { priceForecastMonth, type MonthPricingContext } from "../../src/forecast/priceMonth.ts";
-import { forecastMeter, type MeterForecastInput } from "../../src/forecast/forecastMeter.ts";
+import { forecastMeter, meterUsageScenarios, type MeterForecastInput } from "../../src/forecast/forecastMeter.ts";
+import { monthColumn, scenarioTotals } from "../../src/forecast/scenarioMatrix.ts";
+import { monthsAfter } from "../../src/core/time/index.ts";
 import { bandOf } from "../../src/forecast/quantiles.ts";
 import { BLOCK_DEMAND_YAML, calendarBills, meter, tariffFrom } from "./helpers.ts";
 import { calendarMonth } from "../../src/core/time/index.ts";
@@ -75,9 +77,11 @@ describe("forecastMeter: every scenario priced", () => {
     expect(f.error).toBeNull();
     expect(f.method).toBe("same-month-average");
     const k = 2; // March: mean use (90 + 114)/2 = 102 kWh sits on the 100 kWh block edge
+    // The usage each scenario was priced from: the same seeded draws again.
+    const usage = Array.from(monthColumn(meterUsageScenarios(fallbackInput(), monthsAfter("2025-12-31", 12), 300, 1)!.usage, k));
+    expect(bandOf(usage)).toEqual(f.months[k]!.usage);
     // Re-price every scenario's usage by hand: 10 + 0.10·min(u,100) + 0.05·max(u−100,0), rounded per line.
-    const byHand = f.scenarioUsage.map((u) => {
-      const x = u[k]!;
+    const byHand = usage.map((x) => {
       return 10 + Math.round(0.1 * Math.min(x, 100) * 100) / 100 + Math.round(0.05 * Math.max(x - 100, 0) * 100) / 100;
     });
     const band = bandOf(byHand);
@@ -86,7 +90,7 @@ describe("forecastMeter: every scenario priced", () => {
     expect(f.months[k]!.cost.p90).toBeCloseTo(band.p90, 6);
     // The block rate falls above 100 kWh (a concave price), so by Jensen's inequality the mean
     // of the scenario prices lies below the price of the mean usage.
-    const meanUsage = f.scenarioUsage.reduce((s, u) => s + u[k]!, 0) / f.scenarioUsage.length;
+    const meanUsage = usage.reduce((s, u) => s + u, 0) / usage.length;
     const meanPrice = byHand.reduce((a, b) => a + b, 0) / byHand.length;
     const priceOfMean = 10 + 0.1 * Math.min(meanUsage, 100) + 0.05 * Math.max(meanUsage - 100, 0);
     expect(meanPrice).toBeLessThan(priceOfMean - 0.1);
@@ -94,7 +98,7 @@ describe("forecastMeter: every scenario priced", () => {
 
   it("the year's band is taken over scenario totals, not summed monthly quantiles", () => {
     const f = forecastMeter(fallbackInput());
-    const totals = f.scenarioCosts.map((row) => row.reduce((a, b) => a + b, 0));
+    const totals = scenarioTotals(f.scenarioCosts);
     expect(f.total!.cost).toEqual(bandOf(totals));
     const sumOfP90 = f.months.reduce((s, m) => s + m.cost.p90, 0);
     expect(f.total!.cost.p90).toBeLessThan(sumOfP90);

@@ -9,6 +9,18 @@ describe("bandOf (P10/P50/P90, type-7 quantiles)", () => {
     expect(bandOf(xs)).toEqual({ p10, p50, p90 });
   });
 
+  it("is bit-identical to simple-statistics quantile for scenario-sized samples, with ties and negative values", () => {
+    for (const n of [1, 2, 3, 10, 299, 300, 301, 1000]) {
+      for (let seed = 1; seed <= 5; seed++) {
+        // Rounded to cents so ties occur; centred near 0 so negatives and zeros occur.
+        const xs = Array.from({ length: n }, (_, i) => Math.round(((Math.sin((i + 1) * seed * 12.9898) * 43758.5453) % 50) * 100) / 100);
+        const [p10, p50, p90] = quantile(xs, [0.1, 0.5, 0.9]) as number[];
+        const band = bandOf(Float64Array.from(xs));
+        expect(Object.is(band.p10, p10) && Object.is(band.p50, p50) && Object.is(band.p90, p90), `n=${n} seed=${seed}`).toBe(true);
+      }
+    }
+  });
+
   it("interpolates at index (n − 1)·p, as R type 7 / numpy 'linear' (hand-computed; numpy.quantile gives the same values)", () => {
     // n = 5: P10 index 0.4 → 1 + 0.4·(2 − 1) = 1.4; P90 index 3.6 → 4 + 0.6·(5 − 4) = 4.6.
     expect(bandOf([5, 1, 4, 2, 3])).toEqual({ p10: 1.4, p50: 3, p90: 4.6 });

@@ -3,6 +3,7 @@ import { annualErrorPct, coverageShare, forecastCvRmsePct } from "../../src/fore
 import { spreadBillsByMonth } from "../../src/forecast/months.ts";
 import { compareWithActuals, naiveSameMonthLastYear, pooledAccuracy, backtestAsOf } from "../../src/forecast/trackRecord.ts";
 import type { MeterForecast } from "../../src/forecast/forecastMeter.ts";
+import { fromRows } from "../../src/forecast/scenarioMatrix.ts";
 import { bill, calendarBills } from "./helpers.ts";
 
 describe("accuracy arithmetic (hand-computed)", () => {
@@ -62,8 +63,7 @@ function tinyForecast(): MeterForecast {
     method: "same-month-average",
     months: months.map((month) => ({ month, usage: { p10: 1, p50: 1, p90: 1 }, cost: { p10: 92, p50: 100, p90: 108 }, escalationFactor: 1, pricedFrom: "bill", estimated: false })),
     total: null,
-    scenarioCosts: [lo, hi],
-    scenarioUsage: [],
+    scenarioCosts: fromRows([lo, hi]),
     weatherIndex: new Int32Array(2).fill(-1),
     escalationFrom: null,
     notes: [],

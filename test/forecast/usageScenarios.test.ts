@@ -1,10 +1,12 @@
 import { describe, expect, it } from "vitest";
 import { fitChangePointAt } from "../../src/model/changePoint.ts";
-import { modelUsageScenarios } from "../../src/forecast/usageScenarios.ts";
+import { drawScenarioNoise, fallbackUsageScenarios, modelUsageScenarios } from "../../src/forecast/usageScenarios.ts";
+import { monthColumn, valueAt } from "../../src/forecast/scenarioMatrix.ts";
 import { scenarioTemperatures, weatherYears } from "../../src/forecast/weatherYears.ts";
 import { scenarioUniforms as mulberry32, studentScale, standardNormal } from "../../src/forecast/random.ts";
 import type { WeatherSeries } from "../../src/domain/types.ts";
 import { calendarMonth } from "../../src/core/time/index.ts";
+import { calendarBills } from "./helpers.ts";
 
 // Invented bills: use per day = 100 − 2·T plus a fixed pseudo-random scatter, 30-day periods.
 const points = Array.from({ length: 24 }, (_, i) => {
@@ -19,7 +21,8 @@ describe("model usage scenarios", () => {
     const typical = new Array<number>(12).fill(5);
     const s = modelUsageScenarios({ fit, typicalMonthlyTemp: typical, temperatureSets: [typical], months: [january], scenarios: 6000, calibration: 1, rng: mulberry32(1) });
     const band = fit.predictWithInterval(5, 0.8, 31);
-    const inside = s.usage.filter((u) => u[0]! / 31 >= band.lower && u[0]! / 31 <= band.upper).length / s.usage.length;
+    const jan = Array.from(monthColumn(s.usage, 0));
+    const inside = jan.filter((u) => u / 31 >= band.lower && u / 31 <= band.upper).length / jan.length;
     // 6000 draws: standard error of the share √(0.16/6000) = 0.005; allow 4.5 SE.
     expect(inside).toBeGreaterThan(0.8 - 0.023);
     expect(inside).toBeLessThan(0.8 + 0.023);
@@ -29,7 +32,8 @@ describe("model usage scenarios", () => {
     const typical = new Array<number>(12).fill(5);
     const s = modelUsageScenarios({ fit, typicalMonthlyTemp: typical, temperatureSets: [typical], months: [january], scenarios: 3000, calibration: 2, rng: mulberry32(1) });
     const band = fit.predictWithInterval(5, 0.8, 31);
-    const inside = s.usage.filter((u) => u[0]! / 31 >= band.lower && u[0]! / 31 <= band.upper).length / s.usage.length;
+    const jan = Array.from(monthColumn(s.usage, 0));
+    const inside = jan.filter((u) => u / 31 >= band.lower && u / 31 <= band.upper).length / jan.length;
     expect(inside).toBeGreaterThan(0.42);
     expect(inside).toBeLessThan(0.55);
   });
@@ -40,8 +44,28 @@ describe("model usage scenarios", () => {
     const s = modelUsageScenarios({ fit, typicalMonthlyTemp: typical, temperatureSets: sets, months: [january], scenarios: 4, calibration: 1e-9, rng: mulberry32(1) });
     expect(Array.from(s.weatherIndex)).toEqual([0, 1, 0, 1]);
     // Negligible noise: usage = ŷ(T)·31 for T = 0 and 10.
-    expect(s.usage[0]![0]!).toBeCloseTo(fit.predict(0) * 31, 4);
-    expect(s.usage[1]![0]!).toBeCloseTo(fit.predict(10) * 31, 4);
+    expect(valueAt(s.usage, 0, 0)).toBeCloseTo(fit.predict(0) * 31, 4);
+    expect(valueAt(s.usage, 1, 0)).toBeCloseTo(fit.predict(10) * 31, 4);
+  });
+
+  it("reusing the draws of an earlier call gives the same numbers as drawing anew (the backtests reuse them across bases and factors)", () => {
+    const typical = new Array<number>(12).fill(5);
+    const months = [january, calendarMonth("2026-02"), calendarMonth("2026-03")];
+    const options = { fit, typicalMonthlyTemp: typical, temperatureSets: [typical, typical.map((t) => t + 3)], months, scenarios: 50 };
+    const first = modelUsageScenarios({ ...options, calibration: 1, rng: mulberry32(7) });
+    for (const calibration of [0.5, 2]) {
+      const fresh = modelUsageScenarios({ ...options, calibration, rng: mulberry32(7) });
+      const reused = modelUsageScenarios({ ...options, calibration, rng: () => { throw new Error("must not draw"); }, noise: first.noise });
+      expect(Array.from(reused.usage.values)).toEqual(Array.from(fresh.usage.values));
+    }
+    // Draws of another shape (other df, counts or the fallback's) are not taken: fresh draws are made.
+    const other = drawScenarioNoise(mulberry32(7), 3, 50, 3, true);
+    expect(Array.from(modelUsageScenarios({ ...options, calibration: 1, rng: mulberry32(7), noise: other }).usage.values)).toEqual(Array.from(first.usage.values));
+    const bills = [...calendarBills(2024, (m) => 60 + 10 * m, () => 1), ...calendarBills(2025, (m) => 90 + 8 * m, () => 1)].map((b, i) => ({ ...b, billId: `M1-${i}` }));
+    const fb = fallbackUsageScenarios({ bills, months, scenarios: 50, calibration: 1, rng: mulberry32(9) })!;
+    const fbReused = fallbackUsageScenarios({ bills, months, scenarios: 50, calibration: 2, rng: () => { throw new Error("must not draw"); }, noise: fb.noise })!;
+    const fbFresh = fallbackUsageScenarios({ bills, months, scenarios: 50, calibration: 2, rng: mulberry32(9) })!;
+    expect(Array.from(fbReused.usage.values)).toEqual(Array.from(fbFresh.usage.values));
   });
 });
 

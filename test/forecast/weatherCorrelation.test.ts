@@ -7,6 +7,7 @@ import type { ChangePointFit } from "../../src/model/changePoint.ts";
 import { meterUsageScenarios, type MeterForecastInput } from "../../src/forecast/forecastMeter.ts";
 import type { WeatherYear } from "../../src/forecast/weatherYears.ts";
 import { meter } from "./helpers.ts";
+import { valueAt } from "../../src/forecast/scenarioMatrix.ts";
 import { monthsAfter } from "../../src/core/time/index.ts";
 
 /** Use per day = temperature, no prediction noise (only what modelUsageScenarios reads). */
@@ -40,8 +41,8 @@ describe("weather years aligned across stations", () => {
 
   it("a warm year is warm for both: scenario 2 (2022) is above typical on both stations", () => {
     // Scenario temperature = typical 21 + the year's anomaly from the station's mean (A: 22 − 21; B: 22 − 21.5).
-    expect(a.usage[2]![0]! / 31).toBeCloseTo(22, 10);
-    expect(b.usage[2]![0]! / 31).toBeCloseTo(21.5, 10);
+    expect(valueAt(a.usage, 2, 0) / 31).toBeCloseTo(22, 10);
+    expect(valueAt(b.usage, 2, 0) / 31).toBeCloseTo(21.5, 10);
   });
 
   it("without an order each station cycles through its own years", () => {

@@ -10,6 +10,7 @@ import type { BuildingForecast, ForecastBundle, MeterForecast, TrackRecord } fro
 import { buildingMonthlyCostBands, buildingCostBand } from "../../src/forecast/index.ts";
 import { buildingForecastDetail, toReportInput } from "../../src/report/fromAnalysis.ts";
 import { fixtureInput } from "./fixture.ts";
+import { fromRows } from "../../src/forecast/scenarioMatrix.ts";
 
 const MONTHS = ["2025-01", "2025-02"];
 
@@ -21,7 +22,7 @@ function meter(meterId: string, commodity: "electricity" | "gas", rows: number[]
     commodity,
     error,
     months: MONTHS.map((month) => ({ month })),
-    scenarioCosts: rows.map((r) => Float64Array.from(r)),
+    scenarioCosts: fromRows(rows),
   } as unknown as MeterForecast;
 }
 
