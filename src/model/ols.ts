@@ -81,12 +81,20 @@ export function fitOls(x: Matrix, y: ArrayLike<number>, options: OlsOptions = {}
       throw new ModelInputError(`weight[${i}] must be positive and finite, got ${weights[i]}`);
     }
   }
-  const design = x.map((row) => (intercept ? [1, ...row] : [...row]));
+  // Only read below: without an intercept the rows are used as given.
+  const design = intercept ? x.map((row) => [1, ...row]) : x;
   const k = design.length === 0 ? (intercept ? 1 : 0) : design[0].length;
   if (n <= k) throw new ModelInputError(`need more observations than coefficients (n=${n}, k=${k})`);
   const sqrtW = new Float64Array(n);
   for (let i = 0; i < n; i++) sqrtW[i] = weights ? Math.sqrt(weights[i]) : 1;
-  const wDesign = design.map((row, i) => row.map((v) => v * sqrtW[i]));
+  // Unweighted, the weighted design is the design itself (v · 1 = v exactly).
+  const wDesign = weights
+    ? design.map((row, i) => {
+        const out = new Array<number>(row.length);
+        for (let j = 0; j < row.length; j++) out[j] = row[j] * sqrtW[i];
+        return out;
+      })
+    : design;
   const wY = new Float64Array(n);
   for (let i = 0; i < n; i++) wY[i] = y[i] * sqrtW[i];
 
