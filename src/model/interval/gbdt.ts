@@ -61,6 +61,11 @@ export interface GbdtModel {
   validationLoss: number[] | null;
   /** Number of trees kept. */
   bestIteration: number;
+  /**
+   * Predictions of the kept trees for every row given to the fit (held-out rows included),
+   * computed from the bins: the same numbers `predict` gives for those rows.
+   */
+  fitted: Float64Array;
   /** Predict for feature columns (same order as in training). */
   predict(columns: readonly ArrayLike<number>[]): Float64Array;
 }
@@ -182,6 +187,8 @@ function boost(
   const validationLoss: number[] | null = stop ? [] : null;
   let best = 0;
   let bestLoss = Number.POSITIVE_INFINITY;
+  // predictions of the best round so far (early stopping keeps that round's trees)
+  const bestPred = stop ? new Float64Array(n) : null;
   const rand = mulberry32(o.seed);
   const all = new Int32Array(nTrain);
   for (let i = 0; i < nTrain; i++) all[i] = i;
@@ -230,11 +237,16 @@ function boost(
       if (v < bestLoss) {
         bestLoss = v;
         best = t + 1;
+        bestPred!.set(pred);
       } else if (t + 1 - best >= stop.patience) break;
     }
   }
   const kept = stop ? trees.slice(0, Math.max(best, 1)) : trees;
+  // best = 0 only if no round improved on +∞ (a NaN loss): keep the first tree's predictions
+  let fitted: Float64Array = stop && best > 0 ? bestPred! : pred;
+  if (stop && best === 0) fitted = predictTrees(base, kept, columns, f);
   return {
+    fitted,
     baseScore: base,
     trees: kept,
     featureCount: f,

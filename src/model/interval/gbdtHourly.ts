@@ -109,10 +109,17 @@ export function gbdtSpec(options: GbdtHourlyOptions = {}): HourlyModelSpec {
         },
         binCache,
       );
+      // the trees' predictions for the training rows, back in the table's order
+      let fitted: Float64Array | undefined;
+      if (gbdt.fitted.length === n) {
+        fitted = order ? new Float64Array(n) : gbdt.fitted;
+        if (order) for (let k = 0; k < n; k++) fitted[order[k]!] = gbdt.fitted[k]!;
+      }
       return {
         kind: "gbdt",
         parameterCount: cols.length,
         gbdt,
+        fitted,
         predict: (f) => gbdt.predict(gbdtFeatureColumns(f, calendar)),
       };
     },
