@@ -127,8 +127,12 @@ export interface GbdtBinnedColumns {
   bins: FeatureBins[];
   /** Column-major bins (one array per feature). */
   binned: Uint8Array[];
-  /** Row-major copy: one row's bins side by side, so the histogram pass reads memory in order. */
-  rowBins: Uint8Array;
+  /**
+   * Row-major histogram offsets: entry i·f + j is where row i's bin of feature j sits in an
+   * interleaved histogram (2·(j·(maxBins + 1) + bin)), so the histogram pass reads one row's
+   * entries side by side and does no index arithmetic.
+   */
+  rowOffsets: Int32Array;
 }
 
 /**
@@ -146,12 +150,13 @@ export function binFeatureColumns(columns: readonly ArrayLike<number>[], nTrain:
   const f = columns.length;
   const bins = columns.map((c) => binCuts(c, maxBins, nTrain));
   const binned = columns.map((c, j) => binColumn(bins[j]!, c));
-  const rowBins = new Uint8Array(n * f);
+  const nb2 = 2 * (maxBins + 1);
+  const rowOffsets = new Int32Array(n * f);
   for (let j = 0; j < f; j++) {
     const col = binned[j]!;
-    for (let i = 0; i < n; i++) rowBins[i * f + j] = col[i]!;
+    for (let i = 0; i < n; i++) rowOffsets[i * f + j] = j * nb2 + 2 * col[i]!;
   }
-  return { nTrain, maxBins, bins, binned, rowBins };
+  return { nTrain, maxBins, bins, binned, rowOffsets };
 }
 
 function binnedFor(columns: readonly ArrayLike<number>[], nTrain: number, maxBins: number, cache: GbdtBinCache | undefined): GbdtBinnedColumns {
@@ -175,7 +180,7 @@ function boost(
 ): GbdtModel {
   const n = y.length;
   const f = columns.length;
-  const { bins, binned, rowBins } = binnedFor(columns, nTrain, o.maxBins, cache);
+  const { bins, binned, rowOffsets } = binnedFor(columns, nTrain, o.maxBins, cache);
   const nb = o.maxBins + 1; // NaN bin included
   let base = 0;
   for (let i = 0; i < nTrain; i++) base += y[i]!;
@@ -213,7 +218,7 @@ function boost(
       rows.set(all);
       sample = rows;
     }
-    const tree = growTree(sample, grad, rowBins, bins, o, nb, work);
+    const tree = growTree(sample, grad, rowOffsets, binned, bins, o, nb, work);
     trees.push(tree);
     if (sampleSize < nTrain) {
       for (let i = 0; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
@@ -298,25 +303,76 @@ interface NodeTask {
   depth: number;
   /** Interleaved gradient sums and counts per (feature, bin), when already known (histogram subtraction). */
   hist: Float64Array | null;
+  /** Σ gradient over the node's rows in row order, when already summed with its histogram. */
+  gSum: number | null;
 }
 
 /**
- * Histogram of rows[start, end) from the row-major bin matrix into `h` (zeroed here). Each bin's
- * gradients are added in row order, so the sums do not depend on the loop layout.
+ * Histogram of rows[start, end) into `h` (zeroed here); returns the rows' gradient sum. Each
+ * bin's gradients, and the sum, are added in row order, so the numbers do not depend on how
+ * the loop is written.
  */
-function buildHistogram(h: Float64Array, rows: Int32Array, start: number, end: number, grad: Float64Array, rowBins: Uint8Array, f: number, nb: number): void {
+function buildHistogram(h: Float64Array, rows: Int32Array, start: number, end: number, grad: Float64Array, offs: Int32Array, f: number): number {
+  if (f === 10) return buildHistogram10(h, rows, start, end, grad, offs);
   h.fill(0);
-  const nb2 = 2 * nb;
+  let gSum = 0;
   for (let r = start; r < end; r++) {
     const i = rows[r]!;
     const g = grad[i]!;
-    const base = i * f;
-    for (let j = 0, off = 0; j < f; j++, off += nb2) {
-      const b = off + 2 * rowBins[base + j]!;
+    gSum += g;
+    for (let p = i * f, e = p + f; p < e; p++) {
+      const b = offs[p]!;
       h[b]! += g;
       h[b + 1]!++;
     }
   }
+  return gSum;
+}
+
+/**
+ * {@link buildHistogram} for ten features (the single-meter hourly model), written out: V8
+ * runs the loop without an inner loop 2–3 times faster (measured on this machine kind).
+ */
+function buildHistogram10(h: Float64Array, rows: Int32Array, start: number, end: number, grad: Float64Array, offs: Int32Array): number {
+  h.fill(0);
+  let gSum = 0;
+  for (let r = start; r < end; r++) {
+    const i = rows[r]!;
+    const g = grad[i]!;
+    gSum += g;
+    const p = i * 10;
+    let b = offs[p]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 1]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 2]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 3]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 4]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 5]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 6]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 7]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 8]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 9]!;
+    h[b]! += g;
+    h[b + 1]!++;
+  }
+  return gSum;
 }
 
 /**
@@ -327,7 +383,8 @@ function buildHistogram(h: Float64Array, rows: Int32Array, start: number, end: n
 function growTree(
   rows: Int32Array,
   grad: Float64Array,
-  rowBins: Uint8Array,
+  rowOffsets: Int32Array,
+  binned: Uint8Array[],
   bins: FeatureBins[],
   o: ReturnType<typeof resolve>,
   nb: number,
@@ -352,13 +409,13 @@ function growTree(
   const nb2 = 2 * nb;
   work.leafCount = 0;
   const canSplit = (count: number, depth: number): boolean => depth < o.maxDepth && count >= 2 * o.minSamplesLeaf;
-  const stack: NodeTask[] = [{ node: newNode(), start: 0, end: rows.length, depth: 0, hist: null }];
+  const stack: NodeTask[] = [{ node: newNode(), start: 0, end: rows.length, depth: 0, hist: null, gSum: null }];
   while (stack.length) {
     const task = stack.pop()!;
     const { node, start, end, depth } = task;
     const count = end - start;
-    let gSum = 0;
-    for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
+    let gSum = task.gSum ?? 0;
+    if (task.gSum === null) for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
     value[node] = (o.learningRate * gSum) / (count + o.l2Leaf);
     if (!canSplit(count, depth)) {
       if (task.hist) work.give(task.hist);
@@ -368,7 +425,7 @@ function growTree(
     let hist = task.hist;
     if (!hist) {
       hist = work.take();
-      buildHistogram(hist, rows, start, end, grad, rowBins, f, nb);
+      buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
     }
     const parentScore = (gSum * gSum) / (count + o.l2Leaf);
     let bestGain = 1e-12 * Math.max(parentScore, 1e-300);
@@ -400,10 +457,11 @@ function growTree(
       continue;
     }
     // partition rows[start, end) in place: bin ≤ bestBin first
+    const col = binned[bestF]!;
     let i = start;
     let k = end - 1;
     while (i <= k) {
-      if (rowBins[rows[i]! * f + bestF]! <= bestBin) i++;
+      if (col[rows[i]!]! <= bestBin) i++;
       else {
         const tmp = rows[i]!;
         rows[i] = rows[k]!;
@@ -418,12 +476,12 @@ function growTree(
     const r = newNode();
     left[node] = l;
     right[node] = r;
-    const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, hist: null };
-    const rTask: NodeTask = { node: r, start: i, end, depth: depth + 1, hist: null };
+    const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, hist: null, gSum: null };
+    const rTask: NodeTask = { node: r, start: i, end, depth: depth + 1, hist: null, gSum: null };
     if (canSplit(i - start, depth + 1) || canSplit(end - i, depth + 1)) {
       const [small, large] = i - start <= end - i ? [lTask, rTask] : [rTask, lTask];
       const sh = work.take();
-      buildHistogram(sh, rows, small.start, small.end, grad, rowBins, f, nb);
+      small.gSum = buildHistogram(sh, rows, small.start, small.end, grad, rowOffsets, f);
       small.hist = sh;
       // the parent's histogram is not needed any more: reuse it for the larger child
       for (let b = 0; b < hist.length; b++) hist[b]! -= sh[b]!;
