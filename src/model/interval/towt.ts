@@ -321,10 +321,36 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
   };
 }
 
+/** Fits per training table (keyed by its temperature array), by options. */
+const fittedByTable = new WeakMap<ArrayLike<number>, { source: TowtData; byOptions: Map<string, TowtModel> }>();
+
+/**
+ * {@link fitTowt} on an unweighted training table, fitted once per table and options: the
+ * month-segmented TOWT needs the same all-hours fit as the TOWT candidate on each table
+ * (towtMonthly.ts). The table is recognised by its arrays (the same objects, not copies).
+ * @example fitTowtOnTable(frame) === fitTowtOnTable(frame) // true
+ */
+export function fitTowtOnTable(data: TowtData, options: TowtOptions = {}): TowtModel {
+  if (data.weights) return fitTowt(data, options);
+  let entry = fittedByTable.get(data.tempC);
+  const s = entry?.source;
+  if (!entry || s!.hourOfWeek !== data.hourOfWeek || s!.holiday !== data.holiday || s!.kwh !== data.kwh) {
+    entry = { source: { hourOfWeek: data.hourOfWeek, holiday: data.holiday, tempC: data.tempC, kwh: data.kwh }, byOptions: new Map() };
+    fittedByTable.set(data.tempC, entry);
+  }
+  const key = JSON.stringify({ ...options, knotsC: options.knotsC, occupancy: options.occupancy ? Array.from(options.occupancy) : undefined });
+  let model = entry.byOptions.get(key);
+  if (!model) {
+    model = fitTowt(data, options);
+    entry.byOptions.set(key, model);
+  }
+  return model;
+}
+
 /**
  * TOWT as a model spec for cross-validation and the baseline entry point.
  * @example towtSpec().fit(frame).kind // "towt"
  */
 export function towtSpec(options: TowtOptions = {}): HourlyModelSpec {
-  return { kind: "towt", fit: (train) => fitTowt(train, options) };
+  return { kind: "towt", fit: (train) => fitTowtOnTable(train, options) };
 }
