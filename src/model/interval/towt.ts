@@ -128,7 +128,16 @@ function writeComponents(t: number, knots: readonly number[], out: Float64Array,
  */
 export function occupancyFromResiduals(data: TowtData, knotsC: readonly number[], minPoints: number, threshold: number): Uint8Array {
   const knots = selectKnots(data.tempC, knotsC, minPoints);
-  const x = Array.from({ length: data.kwh.length }, (_, i) => components(data.tempC[i]!, knots));
+  // the temperature components by column (the intercept is fitOls's)
+  const n = data.kwh.length;
+  const c = knots.length === 0 ? 1 : knots.length + 1;
+  if (knots.length) components(0, knots);
+  const x = { rows: n, cols: c, data: new Float64Array(n * c) };
+  const row = new Float64Array(c);
+  for (let i = 0; i < n; i++) {
+    writeComponents(data.tempC[i]!, knots, row, 0);
+    for (let j = 0; j < c; j++) x.data[j * n + i] = row[j]!;
+  }
   const w = data.weights;
   const fit = fitOls(x, data.kwh, w ? { weights: w } : {});
   // With weights, the share of positive residuals is a weighted share.
@@ -262,13 +271,12 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
       for (let j = 0; j < m; j++) groupX[g * m + j]! /= groupN[g]!;
     }
     const yd = new Float64Array(n);
-    const xd: number[][] = new Array(n);
+    // demeaned columns, stored by column (no array per row)
+    const xd = { rows: n, cols: m, data: new Float64Array(n * m) };
     for (let i = 0; i < n; i++) {
       const g = seen[data.hourOfWeek[i]!]!;
       yd[i] = data.kwh[i]! - groupY[g]!;
-      const r = new Array<number>(m);
-      for (let j = 0; j < m; j++) r[j] = xr[i * m + j]! - groupX[g * m + j]!;
-      xd[i] = r;
+      for (let j = 0; j < m; j++) xd.data[j * n + i] = xr[i * m + j]! - groupX[g * m + j]!;
     }
     const tail = columnNames.slice(nHow);
     // m ≥ 1: every row is in one mode, and each mode with rows has at least one temperature column
