@@ -9,6 +9,21 @@ import { ModelInputError } from "./errors.ts";
 /** A dense matrix as an array of rows. */
 export type Matrix = readonly (readonly number[])[];
 
+/**
+ * A dense matrix stored by columns in one array: entry (i, j) at data[j·rows + i]. Large
+ * designs built this way cost no array per row.
+ */
+export interface ColumnMajorMatrix {
+  rows: number;
+  cols: number;
+  data: Float64Array;
+}
+
+/** Whether a matrix is stored by columns (else it is an array of rows). */
+export function isColumnMajor(x: Matrix | ColumnMajorMatrix): x is ColumnMajorMatrix {
+  return !Array.isArray(x);
+}
+
 /** The factorization X = QR, kept in the compact Householder form (after JAMA / LINPACK). */
 export interface QrFactorization {
   rows: number;
@@ -27,17 +42,20 @@ const RANK_TOLERANCE = 1e-10;
  * @throws ModelInputError when m < n, when rows are ragged or non-finite, or when a column is
  *   (numerically) a linear combination of earlier columns: which column is named in the message.
  */
-export function householderQr(x: Matrix, columnNames?: readonly string[]): QrFactorization {
-  const m = x.length;
-  const n = m === 0 ? 0 : x[0].length;
+export function householderQr(x: Matrix | ColumnMajorMatrix, columnNames?: readonly string[]): QrFactorization {
+  const cm = isColumnMajor(x) ? x : null;
+  const rowsX = cm ? null : (x as Matrix);
+  const m = cm ? cm.rows : rowsX!.length;
+  const n = cm ? cm.cols : m === 0 ? 0 : rowsX![0].length;
   if (m < n || n === 0) throw new ModelInputError(`need at least as many rows as columns (rows=${m}, columns=${n})`);
-  const qr = new Float64Array(m * n);
+  if (cm && cm.data.length !== m * n) throw new ModelInputError(`column-major data has ${cm.data.length} values, expected ${m * n}`);
+  const qr = cm ? Float64Array.from(cm.data) : new Float64Array(m * n);
   const colNorm = new Float64Array(n);
   for (let i = 0; i < m; i++) {
-    const row = x[i];
-    if (row.length !== n) throw new ModelInputError(`row ${i} has ${row.length} values, expected ${n}`);
+    const row = rowsX?.[i];
+    if (row && row.length !== n) throw new ModelInputError(`row ${i} has ${row.length} values, expected ${n}`);
     for (let j = 0; j < n; j++) {
-      const v = row[j];
+      const v = row ? row[j] : qr[j * m + i];
       if (!Number.isFinite(v) || Math.abs(v) > 1e150) throw new ModelInputError(`non-finite or huge value at row ${i}, column ${j}`);
       qr[j * m + i] = v;
     }

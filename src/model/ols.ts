@@ -5,8 +5,8 @@
  * - R² is centred (about the weighted mean of y) with an intercept, uncentred without one;
  * - adjusted R² = 1 − (1 − R²)(n − c)/(n − k), c = 1 with an intercept, 0 without.
  */
-import { householderQr, qrSolve, qrUnscaledCovariance } from "../core/linalg.ts";
-import type { Matrix } from "../core/linalg.ts";
+import { householderQr, isColumnMajor, qrSolve, qrUnscaledCovariance } from "../core/linalg.ts";
+import type { ColumnMajorMatrix, Matrix } from "../core/linalg.ts";
 import { compensatedSum } from "./stats.ts";
 import { studentTQuantile, studentTTwoSidedP } from "./studentT.ts";
 import { ModelInputError } from "./errors.ts";
@@ -65,14 +65,18 @@ export interface OlsFit {
 
 /**
  * Fit y ≈ X β by (weighted) least squares.
- * @param x rows of regressors, without the intercept column.
+ * @param x rows of regressors, without the intercept column; or the same columns stored by
+ *   column in one array (large designs: no array per row; the same numbers come out).
  * @throws ModelInputError on mismatched lengths, non-positive weights, n ≤ k, or a rank-deficient design.
  * @example fitOls([[1],[2],[3]], [2,4,6.5]).coefficients // [intercept, slope]
  */
-export function fitOls(x: Matrix, y: ArrayLike<number>, options: OlsOptions = {}): OlsFit {
+export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, options: OlsOptions = {}): OlsFit {
   const intercept = options.intercept ?? true;
   const n = y.length;
-  if (x.length !== n) throw new ModelInputError(`regressors have ${x.length} rows but y has ${n} values`);
+  const cm = isColumnMajor(x) ? x : null;
+  const nx = cm ? cm.rows : (x as Matrix).length;
+  if (nx !== n) throw new ModelInputError(`regressors have ${nx} rows but y has ${n} values`);
+  if (cm && cm.data.length !== cm.rows * cm.cols) throw new ModelInputError(`column-major data has ${cm.data.length} values, expected ${cm.rows * cm.cols}`);
   const weights = options.weights;
   if (weights && weights.length !== n) throw new ModelInputError(`weights have ${weights.length} values but y has ${n}`);
   for (let i = 0; i < n; i++) {
@@ -81,12 +85,43 @@ export function fitOls(x: Matrix, y: ArrayLike<number>, options: OlsOptions = {}
       throw new ModelInputError(`weight[${i}] must be positive and finite, got ${weights[i]}`);
     }
   }
-  const design = x.map((row) => (intercept ? [1, ...row] : [...row]));
-  const k = design.length === 0 ? (intercept ? 1 : 0) : design[0].length;
+  // Only read below: without an intercept the rows (or columns) are used as given.
+  let design: Matrix | null = null;
+  let cmDesign: ColumnMajorMatrix | null = null;
+  let k: number;
+  if (cm) {
+    k = cm.cols + (intercept ? 1 : 0);
+    if (intercept) {
+      const data = new Float64Array(n * k);
+      data.fill(1, 0, n);
+      data.set(cm.data, n);
+      cmDesign = { rows: n, cols: k, data };
+    } else cmDesign = cm;
+  } else {
+    const rows = x as Matrix;
+    design = intercept ? rows.map((row) => [1, ...row]) : rows;
+    k = design.length === 0 ? (intercept ? 1 : 0) : design[0].length;
+  }
   if (n <= k) throw new ModelInputError(`need more observations than coefficients (n=${n}, k=${k})`);
   const sqrtW = new Float64Array(n);
   for (let i = 0; i < n; i++) sqrtW[i] = weights ? Math.sqrt(weights[i]) : 1;
-  const wDesign = design.map((row, i) => row.map((v) => v * sqrtW[i]));
+  // Unweighted, the weighted design is the design itself (v · 1 = v exactly).
+  let wDesign: Matrix | ColumnMajorMatrix;
+  if (cmDesign) {
+    if (weights) {
+      const data = new Float64Array(n * k);
+      for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) data[j * n + i] = cmDesign.data[j * n + i] * sqrtW[i];
+      wDesign = { rows: n, cols: k, data };
+    } else wDesign = cmDesign;
+  } else {
+    wDesign = weights
+      ? design!.map((row, i) => {
+          const out = new Array<number>(row.length);
+          for (let j = 0; j < row.length; j++) out[j] = row[j] * sqrtW[i];
+          return out;
+        })
+      : design!;
+  }
   const wY = new Float64Array(n);
   for (let i = 0; i < n; i++) wY[i] = y[i] * sqrtW[i];
 
@@ -100,7 +135,8 @@ export function fitOls(x: Matrix, y: ArrayLike<number>, options: OlsOptions = {}
   const wSq = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let f = 0;
-    for (let j = 0; j < k; j++) f += design[i][j] * beta[j];
+    if (cmDesign) for (let j = 0; j < k; j++) f += cmDesign.data[j * n + i] * beta[j];
+    else for (let j = 0; j < k; j++) f += design![i][j] * beta[j];
     fitted[i] = f;
     resid[i] = y[i] - f;
     wSq[i] = (weights ? weights[i] : 1) * resid[i] * resid[i];

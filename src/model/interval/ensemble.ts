@@ -6,7 +6,7 @@
  * "win" by noise-fitting alone.
  */
 import { ModelInputError } from "../errors.ts";
-import { generalizedWeightedMean } from "./generalizedMean.ts";
+import { GEOMETRIC_EPS, generalizedWeightedMean } from "./generalizedMean.ts";
 
 export interface EnsembleSearchOptions {
   /** Exponents tried. Default [−1, 0, 0.5, 1, 2] (harmonic, geometric, …, quadratic). */
@@ -79,6 +79,57 @@ function cvRmseN(actual: ArrayLike<number>, pred: ArrayLike<number>, mean: numbe
 }
 
 /**
+ * CV(RMSE) (n in the denominator) of the power mean with exponent p for any weight vector: the
+ * same value as cvRmseN(actual, combinePredictions(members, w, p, floor), mean), with each
+ * member's x^p (or ln x) computed once instead of once per weight vector. The sums run in the
+ * same order as generalizedWeightedMean's, so the numbers are identical.
+ * @throws ModelInputError when p is not finite (as generalizedWeightedMean would).
+ */
+function powerMeanScorer(actual: ArrayLike<number>, members: readonly ArrayLike<number>[], p: number, floor: number, mean: number): (w: readonly number[]) => number {
+  if (!Number.isFinite(p)) throw new ModelInputError(`exponent must be finite, got ${p}`);
+  const m = members.length;
+  const n = actual.length;
+  const geometric = p !== 1 && Math.abs(p) < GEOMETRIC_EPS;
+  // row-major n × m of each member's value as the mean uses it
+  const t = new Float64Array(n * m);
+  const missing = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < m; j++) {
+      const x = members[j]![i]!;
+      if (Number.isNaN(x)) missing[i] = 1;
+      const v = p === 1 ? x : Math.max(x, floor);
+      t[i * m + j] = p === 1 ? v : geometric ? Math.log(v) : v ** p;
+    }
+  }
+  return (w) => {
+    let wSum = 0;
+    for (let j = 0; j < m; j++) {
+      if (!(w[j]! >= 0)) throw new ModelInputError(`weights must be ≥ 0, got ${w[j]}`);
+      wSum += w[j]!;
+    }
+    if (!(wSum > 0)) throw new ModelInputError("weights must not all be 0");
+    let sse = 0;
+    for (let i = 0; i < n; i++) {
+      let y: number;
+      if (missing[i]) y = Number.NaN;
+      else {
+        let s = 0;
+        const off = i * m;
+        if (p === 1) {
+          for (let j = 0; j < m; j++) s += w[j]! * t[off + j]!;
+          y = s / wSum;
+        } else {
+          for (let j = 0; j < m; j++) if (w[j]! > 0) s += w[j]! * t[off + j]!;
+          y = geometric ? Math.exp(s / wSum) : (s / wSum) ** (1 / p);
+        }
+      }
+      sse += (actual[i]! - y) ** 2;
+    }
+    return (100 * Math.sqrt(sse / n)) / mean;
+  };
+}
+
+/**
  * Grid search of weights and exponent on aligned fold predictions.
  * @param actual the measured values of the validation rows.
  * @param members each model's predictions on the same rows.
@@ -111,12 +162,13 @@ export function searchEnsemble(
     cv: single[bestSingle]!,
   };
   const exponents = options.exponents ?? [-1, 0, 0.5, 1, 2];
-  for (const w of simplexGrid(m, options.weightStep ?? 0.1)) {
-    if (w.filter((x) => x > 0).length < 2) continue; // single models are scored above
-    for (const e of exponents) {
-      const cv = cvRmseN(actual, combinePredictions(members, w, e, floor), mean);
+  const grid = simplexGrid(m, options.weightStep ?? 0.1).filter((w) => w.filter((x) => x > 0).length >= 2); // single models are scored above
+  const scorers = exponents.map((e) => (grid.length > 0 ? powerMeanScorer(actual, members, e, floor, mean) : null));
+  for (const w of grid) {
+    exponents.forEach((e, k) => {
+      const cv = scorers[k]!(w);
       if (cv < best.cv) best = { weights: w, exponent: e, cv };
-    }
+    });
   }
   // an exact single model (CV(RMSE) = 0) cannot be beaten: gain 0 rather than 0/0
   const gainPct = single[bestSingle]! > 0 ? (100 * (single[bestSingle]! - best.cv)) / single[bestSingle]! : 0;

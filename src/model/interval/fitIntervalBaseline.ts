@@ -18,8 +18,8 @@ import { towtMonthlySpec } from "./towtMonthly.ts";
 import { gbdtSpec } from "./gbdtHourly.ts";
 import type { GbdtHourlyOptions } from "./gbdtHourly.ts";
 import { withLog1pTarget, withPerAreaTarget } from "./targetTransform.ts";
-import { crossValidate } from "./timeSeriesCv.ts";
-import type { CvResult, TimeSeriesCvOptions } from "./timeSeriesCv.ts";
+import { crossValidate, prepareFolds } from "./timeSeriesCv.ts";
+import type { CvResult, PreparedFolds, TimeSeriesCvOptions } from "./timeSeriesCv.ts";
 import { combinePredictions, searchEnsemble } from "./ensemble.ts";
 import type { EnsembleChoice, EnsembleSearchOptions } from "./ensemble.ts";
 import { pooledGbdtSpec } from "./pooled.ts";
@@ -204,7 +204,9 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
   if (o.tryPerArea && input.floorAreaM2 && input.floorAreaM2 > 0) specs.push(withPerAreaTarget(towtSpec(o.towt), input.floorAreaM2));
   if (usePool) specs.push(pooledGbdtSpec(input.meterId, o.pool!, o.gbdt));
 
-  const candidates: Candidate[] = specs.map((spec) => fitCandidate(spec, frame, cvOptions, now));
+  // Every candidate is scored on the same fold tables, cut once.
+  const folds = prepareFolds(frame, cvOptions);
+  const candidates: Candidate[] = specs.map((spec) => fitCandidate(spec, frame, cvOptions, folds, now));
   const ok = candidates.filter((c) => c.model !== null);
   if (ok.length === 0) {
     throw new ModelInputError(`meter ${input.meterId}: no interval model could be fitted (${candidates.map((c) => `${c.spec.kind}: ${c.report.problem}`).join("; ")})`);
@@ -288,7 +290,7 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
     band = residualBand(resid, Uint8Array.from(rows, (i) => frame.hourOfWeek[i]! % 24), level);
     bandSource = "cross-validation";
   } else {
-    const pred = combine(active.map((m) => m.c.model!.predict(frame)));
+    const pred = combine(active.map((m) => fittedOn(m.c.model!, frame)));
     band = residualBand(Float64Array.from(frame.kwh, (v, i) => v - pred[i]!), Uint8Array.from(frame.hourOfWeek, (h) => h % 24), level);
     bandSource = "training";
   }
@@ -301,7 +303,7 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
     chosenCv = active[0]!.c.report.cv;
   } else {
     const pTotal = Math.min(active.reduce((s, m) => s + m.c.model!.parameterCount, 0), frame.kwh.length - 1);
-    chosenTrain = safeBlock(frame.kwh, combine(active.map((m) => m.c.model!.predict(frame))), pTotal);
+    chosenTrain = safeBlock(frame.kwh, combine(active.map((m) => fittedOn(m.c.model!, frame))), pTotal);
     const rows = commonRows(activeCv);
     chosenCv = safeBlock(Float64Array.from(rows, (i) => frame.kwh[i]!), combine(activeCv.map((cv) => pick(cv, rows))), Math.min(pTotal, rows.length - 1));
   }
@@ -351,14 +353,19 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
   return { meterId: input.meterId, accounting: acc, shortHistory, models, chosen, band, bandSource, predictHourly, summary };
 }
 
-function fitCandidate(spec: HourlyModelSpec, frame: HourlyFrame, cvOptions: TimeSeriesCvOptions, now: () => number): Candidate {
+/** A model's predictions for the frame it was fitted on (its own fitted values when it has them). */
+function fittedOn(model: FittedHourlyModel, frame: HourlyFrame): Float64Array {
+  return model.fitted && model.fitted.length === frame.kwh.length ? Float64Array.from(model.fitted) : model.predict(frame);
+}
+
+function fitCandidate(spec: HourlyModelSpec, frame: HourlyFrame, cvOptions: TimeSeriesCvOptions, folds: PreparedFolds, now: () => number): Candidate {
   const t0 = now();
   const report: ModelReport = { kind: spec.kind, train: null, cv: null, folds: [], selectionCvRmsePct: Number.NaN, fitMs: 0, cvMs: 0, problem: null };
   let model: FittedHourlyModel | null = null;
   let cv: CvResult | null = null;
   try {
     model = spec.fit(frame);
-    report.train = safeBlock(frame.kwh, model.predict(frame), model.parameterCount);
+    report.train = safeBlock(frame.kwh, fittedOn(model, frame), model.parameterCount);
   } catch (e) {
     if (!(e instanceof ModelInputError)) throw e;
     report.problem = e.message;
@@ -366,7 +373,7 @@ function fitCandidate(spec: HourlyModelSpec, frame: HourlyFrame, cvOptions: Time
   report.fitMs = now() - t0;
   if (model) {
     const t1 = now();
-    cv = crossValidate(frame, spec, cvOptions);
+    cv = crossValidate(frame, spec, cvOptions, folds);
     report.cvMs = now() - t1;
     report.cv = cv.pooled ? block(cv.pooled) : null;
     report.selectionCvRmsePct = cv.selectionCvRmsePct;

@@ -3,7 +3,7 @@
  * table, early stopping on the latest weeks of the training window, then a refit on all of it.
  */
 import { fitGbdt } from "./gbdt.ts";
-import type { GbdtModel, GbdtOptions } from "./gbdt.ts";
+import type { GbdtBinCache, GbdtModel, GbdtOptions } from "./gbdt.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyModelSpec } from "./types.ts";
 
 /** Names of the tree features, in column order (buildingIndex only in pooled models). */
@@ -93,25 +93,33 @@ export function gbdtSpec(options: GbdtHourlyOptions = {}): HourlyModelSpec {
   return {
     kind: "gbdt",
     fit(train): GbdtHourlyModel {
-      let cols = gbdtFeatureColumns(train, calendar);
-      let y: Float64Array = train.kwh;
       const n = train.kwh.length;
       const useStop = validationHours > 0 && n >= 3 * validationHours;
-      if (useStop && stoppingRows === "spread") {
-        // fitGbdt holds out the last rows: move the chosen days there (the refit uses every row).
-        const order = spreadHoldoutOrder(n, validationHours);
-        cols = cols.map((c) => Float64Array.from(order, (i) => c[i]!));
-        y = Float64Array.from(order, (i) => train.kwh[i]!);
+      const order = useStop && stoppingRows === "spread" ? spreadHoldoutOrder(n, validationHours) : null;
+      // fitGbdt holds out the last rows: with "spread" the chosen days are moved there (the refit uses every row).
+      const { cols, binCache } = preparedColumns(train, calendar, order, `${calendar}/${order ? validationHours : 0}`);
+      const y = order ? permuted(train.kwh, order) : train.kwh;
+      const gbdt = fitGbdt(
+        cols,
+        y,
+        {
+          nTrees: 300,
+          ...gbdtOptions,
+          ...(useStop ? { earlyStopping: { validationRows: validationHours, patience, refit: stoppingRows === "latest" } } : {}),
+        },
+        binCache,
+      );
+      // the trees' predictions for the training rows, back in the table's order
+      let fitted: Float64Array | undefined;
+      if (gbdt.fitted.length === n) {
+        fitted = order ? new Float64Array(n) : gbdt.fitted;
+        if (order) for (let k = 0; k < n; k++) fitted[order[k]!] = gbdt.fitted[k]!;
       }
-      const gbdt = fitGbdt(cols, y, {
-        nTrees: 300,
-        ...gbdtOptions,
-        ...(useStop ? { earlyStopping: { validationRows: validationHours, patience, refit: stoppingRows === "latest" } } : {}),
-      });
       return {
         kind: "gbdt",
         parameterCount: cols.length,
         gbdt,
+        fitted,
         predict: (f) => gbdt.predict(gbdtFeatureColumns(f, calendar)),
       };
     },
@@ -143,4 +151,42 @@ export function spreadHoldoutOrder(n: number, holdoutRows: number): Int32Array {
   for (let i = 0; i < n; i++) if (!held[i]) out[k++] = i;
   for (let i = 0; i < n; i++) if (held[i]) out[k++] = i;
   return out;
+}
+
+function permuted(a: ArrayLike<number>, order: Int32Array): Float64Array {
+  const out = new Float64Array(order.length);
+  for (let k = 0; k < order.length; k++) out[k] = a[order[k]!]!;
+  return out;
+}
+
+interface Prepared {
+  /** The feature arrays the entry was built from (a table with other arrays is another entry). */
+  source: HourlyFeatures;
+  byKey: Map<string, { cols: Float64Array[]; binCache: GbdtBinCache }>;
+}
+
+/**
+ * Tree feature columns (in training order) and their bins, per training table. Fits on the same
+ * feature rows with another target — the log1p variant beside the plain one — find them here
+ * instead of building and binning them again; the bins depend on the features only, so the
+ * results are the same as without the cache. Keyed by the table's temperature array, and
+ * checked against its other feature arrays, so a table is recognised however it is wrapped.
+ */
+const preparedCache = new WeakMap<Float64Array, Prepared>();
+
+const FEATURE_KEYS = ["hourOfWeek", "holiday", "dayOfYear", "tempC", "tempSmoothC", "tempSlopeCPerHour", "tempLagC", "tempRollingMeanC", "buildingIndex"] as const;
+
+function preparedColumns(train: HourlyFeatures, calendar: boolean, order: Int32Array | null, key: string): { cols: Float64Array[]; binCache: GbdtBinCache } {
+  let entry = preparedCache.get(train.tempC);
+  if (!entry || !FEATURE_KEYS.every((k) => entry!.source[k] === train[k])) {
+    entry = { source: { ...train }, byKey: new Map() };
+    preparedCache.set(train.tempC, entry);
+  }
+  let hit = entry.byKey.get(key);
+  if (!hit) {
+    const base = gbdtFeatureColumns(train, calendar);
+    hit = { cols: order ? base.map((c) => permuted(c, order)) : base, binCache: new Map() };
+    entry.byKey.set(key, hit);
+  }
+  return hit;
 }

@@ -6,7 +6,7 @@
 import { ModelInputError } from "../errors.ts";
 
 /** |p| below this is treated as the geometric-mean limit. */
-const GEOMETRIC_EPS = 1e-12;
+export const GEOMETRIC_EPS = 1e-12;
 
 /**
  * Weighted power mean of positive values (any real values when p = 1).

@@ -39,22 +39,24 @@ export function withLog1pTarget(spec: HourlyModelSpec, options: Log1pOptions = {
         z[i] = Math.log1p(train.kwh[i]!);
       }
       const inner = spec.fit({ ...train, kwh: z });
+      const innerFitted = inner.fitted ?? null;
       let smear = 1;
       if (smearing) {
-        const fitted = inner.predict(train);
+        const fitted = innerFitted ?? inner.predict(train);
         let s = 0;
         for (let i = 0; i < z.length; i++) s += Math.exp(z[i]! - fitted[i]!);
         smear = s / z.length;
       }
+      // E[y] ≈ exp(ŷ)·smear − 1 (for smear = 1 this is expm1, computed accurately)
+      const back = (p: Float64Array): Float64Array => {
+        for (let i = 0; i < p.length; i++) p[i] = smear === 1 ? Math.expm1(p[i]!) : Math.exp(p[i]!) * smear - 1;
+        return p;
+      };
       return {
         kind,
         parameterCount: inner.parameterCount,
-        predict(f) {
-          const p = inner.predict(f);
-          // E[y] ≈ exp(ŷ)·smear − 1 (for smear = 1 this is expm1, computed accurately)
-          for (let i = 0; i < p.length; i++) p[i] = smear === 1 ? Math.expm1(p[i]!) : Math.exp(p[i]!) * smear - 1;
-          return p;
-        },
+        predict: (f) => back(inner.predict(f)),
+        fitted: innerFitted ? back(Float64Array.from(innerFitted)) : undefined,
       };
     },
   };

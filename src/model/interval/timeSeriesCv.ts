@@ -132,35 +132,71 @@ export function timeSeriesFolds(hourStartMs: Float64Array, options: TimeSeriesCv
   });
 }
 
+/** One fold's tables, cut from the frame once and shared by every model cross-validated on it. */
+export interface PreparedFold {
+  definition: FoldDefinition;
+  nTrain: number;
+  nValid: number;
+  /** Why the fold is skipped (empty block, too little training data); null when it runs. */
+  skip: string | null;
+  /** Frame indices of the validation rows. */
+  validIdx: Int32Array;
+  train: HourlyFrame | null;
+  valid: HourlyFrame | null;
+}
+
+/** The folds of one frame under one set of options (see {@link prepareFolds}). */
+export interface PreparedFolds {
+  frame: HourlyFrame;
+  folds: PreparedFold[];
+}
+
+/**
+ * Cut the frame into its folds' training and validation tables once, so several models can be
+ * cross-validated on the same tables (and a model that recognises a table it has seen — the
+ * trees' binned columns — need not rebuild what depends on the features alone).
+ * @throws ModelInputError as {@link timeSeriesFolds}.
+ * @example crossValidate(frame, gbdtSpec(), options, prepareFolds(frame, options))
+ */
+export function prepareFolds(frame: HourlyFrame, options: TimeSeriesCvOptions = {}): PreparedFolds {
+  const minTrain = options.minTrainRows ?? 336;
+  const folds = timeSeriesFolds(frame.hourStartMs, options).map((d): PreparedFold => {
+    const nTrain = d.trainEnd + (frame.kwh.length - d.trainResume);
+    const nValid = d.validEnd - d.validStart;
+    const validIdx = range(d.validStart, d.validEnd);
+    const out: PreparedFold = { definition: d, nTrain, nValid, skip: null, validIdx, train: null, valid: null };
+    if (nValid === 0) out.skip = "no usable hours in the validation block";
+    else if (nTrain < minTrain) out.skip = `only ${nTrain} training hours ${d.scheme === "expanding" ? "before" : "outside"} the block (need ${minTrain})`;
+    else {
+      const trainIdx = d.trainResume < frame.kwh.length ? concat(range(0, d.trainEnd), range(d.trainResume, frame.kwh.length)) : range(0, d.trainEnd);
+      out.train = selectFrameRows(frame, trainIdx);
+      out.valid = selectFrameRows(frame, validIdx);
+    }
+    return out;
+  });
+  return { frame, folds };
+}
+
 /**
  * Cross-validate one model spec over the folds (see {@link timeSeriesFolds}). A fit that throws ModelInputError marks its
  * fold as failed (with the message) instead of stopping the run.
+ * @param prepared the frame's folds from {@link prepareFolds} with the same options (built here when absent).
  * @example crossValidate(frame, towtSpec(), { folds: 4, validationHours: 672 }).pooled?.cvRmsePct
  */
-export function crossValidate(frame: HourlyFrame, spec: HourlyModelSpec, options: TimeSeriesCvOptions = {}): CvResult {
-  const minTrain = options.minTrainRows ?? 336;
-  const defs = timeSeriesFolds(frame.hourStartMs, options);
+export function crossValidate(frame: HourlyFrame, spec: HourlyModelSpec, options: TimeSeriesCvOptions = {}, prepared?: PreparedFolds): CvResult {
+  if (prepared && prepared.frame !== frame) throw new ModelInputError("prepared folds belong to another frame");
+  const { folds: cut } = prepared ?? prepareFolds(frame, options);
   const folds: FoldResult[] = [];
   const rows: number[] = [];
   const preds: number[] = [];
   let p = 0;
-  for (const d of defs) {
-    const nTrain = d.trainEnd + (frame.kwh.length - d.trainResume);
-    const nValid = d.validEnd - d.validStart;
+  for (const { definition: d, nTrain, nValid, skip, validIdx, train, valid } of cut) {
     const base = { ...d, nTrain, nValid, stats: null, problem: null };
-    if (nValid === 0) {
-      folds.push({ ...base, problem: "no usable hours in the validation block" });
-      continue;
-    }
-    if (nTrain < minTrain) {
-      folds.push({ ...base, problem: `only ${nTrain} training hours ${d.scheme === "expanding" ? "before" : "outside"} the block (need ${minTrain})` });
+    if (skip !== null || !train || !valid) {
+      folds.push({ ...base, problem: skip });
       continue;
     }
     try {
-      const trainIdx = d.trainResume < frame.kwh.length ? concat(range(0, d.trainEnd), range(d.trainResume, frame.kwh.length)) : range(0, d.trainEnd);
-      const train = selectFrameRows(frame, trainIdx);
-      const validIdx = range(d.validStart, d.validEnd);
-      const valid = selectFrameRows(frame, validIdx);
       const model = spec.fit(train);
       const yHat = model.predict(valid);
       p = model.parameterCount;

@@ -105,13 +105,39 @@ function components(t: number, knots: number[]): number[] {
 }
 
 /**
+ * The same numbers as {@link components}, written into out[off …] without allocating (fits and
+ * predictions call this for every hour). The knots are checked once by the caller, through
+ * `components`; a non-finite temperature goes through `components` too, for its error.
+ */
+function writeComponents(t: number, knots: readonly number[], out: Float64Array, off: number): void {
+  const nk = knots.length;
+  if (nk === 0) {
+    out[off] = t;
+    return;
+  }
+  if (!Number.isFinite(t)) components(t, knots as number[]);
+  out[off] = Math.min(t, knots[0]!);
+  for (let j = 1; j < nk; j++) out[off + j] = Math.min(Math.max(t - knots[j - 1]!, 0), knots[j]! - knots[j - 1]!);
+  out[off + nk] = Math.max(t - knots[nk - 1]!, 0);
+}
+
+/**
  * Occupancy by hour of week from a temperature-only fit (see the module comment).
  * Hours of week with no data are unoccupied.
  * @example occupancyFromResiduals(data, DEFAULT_TOWT_KNOTS_C, 20, 0.65)[9] // 1 for a 9 am weekday office hour
  */
 export function occupancyFromResiduals(data: TowtData, knotsC: readonly number[], minPoints: number, threshold: number): Uint8Array {
   const knots = selectKnots(data.tempC, knotsC, minPoints);
-  const x = Array.from({ length: data.kwh.length }, (_, i) => components(data.tempC[i]!, knots));
+  // the temperature components by column (the intercept is fitOls's)
+  const n = data.kwh.length;
+  const c = knots.length === 0 ? 1 : knots.length + 1;
+  if (knots.length) components(0, knots);
+  const x = { rows: n, cols: c, data: new Float64Array(n * c) };
+  const row = new Float64Array(c);
+  for (let i = 0; i < n; i++) {
+    writeComponents(data.tempC[i]!, knots, row, 0);
+    for (let j = 0; j < c; j++) x.data[j * n + i] = row[j]!;
+  }
   const w = data.weights;
   const fit = fitOls(x, data.kwh, w ? { weights: w } : {});
   // With weights, the share of positive residuals is a weighted share.
@@ -194,6 +220,20 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     }
     return r;
   };
+  // The temperature and holiday columns of one row (all but the hour-of-week indicators), written
+  // into out[off … off + k − nHow) with zeros where they do not apply; the same values as `row`.
+  const m = k - nHow;
+  if (knotsOcc.length) components(0, knotsOcc);
+  if (knotsUnocc.length) components(0, knotsUnocc);
+  const writeTail = (h: number, hol: number, t: number, out: Float64Array, off: number): void => {
+    for (let j = 0; j < m; j++) out[off + j] = 0;
+    if (occupied[h]) {
+      if (nOcc > 0) writeComponents(t, knotsOcc, out, off);
+      if (useHoliday && hol) out[off + m - 1] = 1;
+    } else if (nUnocc > 0) {
+      writeComponents(t, knotsUnocc, out, off + nOcc);
+    }
+  };
   if (n <= k) throw new ModelInputError(`TOWT needs more hours than coefficients (n=${n}, k=${k})`);
   const solver = options.solver ?? "within";
   let ols: OlsFit;
@@ -211,11 +251,12 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     // subtracting each hour-of-week group's mean. Fit the other columns on the demeaned data,
     // then each indicator is its group's mean of y − Xβ. Same β and residuals as the full
     // design, at the cost of a 13-column instead of a 180-column factorization.
-    const m = k - nHow;
-    const xr = Array.from({ length: n }, (_, i) => row(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, -1).slice(nHow));
+    // row-major n × m, one row's columns side by side
+    const xr = new Float64Array(n * m);
+    for (let i = 0; i < n; i++) writeTail(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, xr, i * m);
     const groupN = new Float64Array(nHow);
     const groupY = new Float64Array(nHow);
-    const groupX = Array.from({ length: nHow }, () => new Float64Array(m));
+    const groupX = new Float64Array(nHow * m);
     // Weighted least squares: the same identity holds with weighted group means.
     const w = data.weights;
     for (let i = 0; i < n; i++) {
@@ -223,23 +264,25 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
       const wi = w ? w[i]! : 1;
       groupN[g]! += wi;
       groupY[g]! += wi * data.kwh[i]!;
-      for (let j = 0; j < m; j++) groupX[g]![j]! += wi * xr[i]![j]!;
+      for (let j = 0; j < m; j++) groupX[g * m + j]! += wi * xr[i * m + j]!;
     }
     for (let g = 0; g < nHow; g++) {
       groupY[g]! /= groupN[g]!;
-      for (let j = 0; j < m; j++) groupX[g]![j]! /= groupN[g]!;
+      for (let j = 0; j < m; j++) groupX[g * m + j]! /= groupN[g]!;
     }
     const yd = new Float64Array(n);
-    const xd = xr.map((r, i) => {
+    // demeaned columns, stored by column (no array per row)
+    const xd = { rows: n, cols: m, data: new Float64Array(n * m) };
+    for (let i = 0; i < n; i++) {
       const g = seen[data.hourOfWeek[i]!]!;
       yd[i] = data.kwh[i]! - groupY[g]!;
-      return r.map((v, j) => v - groupX[g]![j]!);
-    });
+      for (let j = 0; j < m; j++) xd.data[j * n + i] = xr[i * m + j]! - groupX[g * m + j]!;
+    }
     const tail = columnNames.slice(nHow);
     // m ≥ 1: every row is in one mode, and each mode with rows has at least one temperature column
     ols = fitOls(xd, yd, { intercept: false, columnNames: tail, ...(w ? { weights: w } : {}) });
     const bTail = ols.coefficients;
-    const alpha = Array.from({ length: nHow }, (_, g) => groupY[g]! - bTail.reduce((acc, b, j) => acc + b * groupX[g]![j]!, 0));
+    const alpha = Array.from({ length: nHow }, (_, g) => groupY[g]! - bTail.reduce((acc, b, j) => acc + b * groupX[g * m + j]!, 0));
     beta = [...alpha, ...bTail];
     residualStdError = Math.sqrt(ols.sse / (n - k));
     // (X̃ᵀX̃)⁻¹ of the demeaned columns is the matching block of the full (XᵀX)⁻¹ (FWL), so only the
@@ -255,15 +298,16 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
   }
   const predict = (f: HourlyFeatures): Float64Array => {
     const out = new Float64Array(f.tempC.length);
+    const tail = new Float64Array(m);
     for (let i = 0; i < out.length; i++) {
       const h = f.hourOfWeek[i]!;
       if (!Number.isFinite(f.tempC[i]!)) {
         out[i] = Number.NaN; // no temperature, no prediction (callers count these hours)
         continue;
       }
-      const r = row(h, f.holiday[i]!, f.tempC[i]!, -1);
+      writeTail(h, f.holiday[i]!, f.tempC[i]!, tail, 0);
       let s = seen[h]! >= 0 ? beta[seen[h]!]! : fallback[occupied[h]!]!;
-      for (let j = nHow; j < k; j++) s += r[j]! * beta[j]!;
+      for (let j = 0; j < m; j++) s += tail[j]! * beta[nHow + j]!;
       out[i] = s;
     }
     return out;
@@ -285,10 +329,36 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
   };
 }
 
+/** Fits per training table (keyed by its temperature array), by options. */
+const fittedByTable = new WeakMap<ArrayLike<number>, { source: TowtData; byOptions: Map<string, TowtModel> }>();
+
+/**
+ * {@link fitTowt} on an unweighted training table, fitted once per table and options: the
+ * month-segmented TOWT needs the same all-hours fit as the TOWT candidate on each table
+ * (towtMonthly.ts). The table is recognised by its arrays (the same objects, not copies).
+ * @example fitTowtOnTable(frame) === fitTowtOnTable(frame) // true
+ */
+export function fitTowtOnTable(data: TowtData, options: TowtOptions = {}): TowtModel {
+  if (data.weights) return fitTowt(data, options);
+  let entry = fittedByTable.get(data.tempC);
+  const s = entry?.source;
+  if (!entry || s!.hourOfWeek !== data.hourOfWeek || s!.holiday !== data.holiday || s!.kwh !== data.kwh) {
+    entry = { source: { hourOfWeek: data.hourOfWeek, holiday: data.holiday, tempC: data.tempC, kwh: data.kwh }, byOptions: new Map() };
+    fittedByTable.set(data.tempC, entry);
+  }
+  const key = JSON.stringify({ ...options, knotsC: options.knotsC, occupancy: options.occupancy ? Array.from(options.occupancy) : undefined });
+  let model = entry.byOptions.get(key);
+  if (!model) {
+    model = fitTowt(data, options);
+    entry.byOptions.set(key, model);
+  }
+  return model;
+}
+
 /**
  * TOWT as a model spec for cross-validation and the baseline entry point.
  * @example towtSpec().fit(frame).kind // "towt"
  */
 export function towtSpec(options: TowtOptions = {}): HourlyModelSpec {
-  return { kind: "towt", fit: (train) => fitTowt(train, options) };
+  return { kind: "towt", fit: (train) => fitTowtOnTable(train, options) };
 }

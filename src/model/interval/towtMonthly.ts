@@ -11,7 +11,7 @@
  * all training hours instead, and the model says which months did.
  */
 import { ModelInputError } from "../errors.ts";
-import { fitTowt } from "./towt.ts";
+import { fitTowt, fitTowtOnTable } from "./towt.ts";
 import type { TowtModel, TowtOptions } from "./towt.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyFrame, HourlyModelSpec } from "./types.ts";
 
@@ -56,7 +56,8 @@ export function segmentWeight(segmentMonth: number, rowMonth: number, neighbour:
 export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions = {}): TowtMonthlyModel {
   const { neighbourWeight = 0.5, minSegmentWeight = 336, ...towtOptions } = options;
   if (!(neighbourWeight > 0 && neighbourWeight <= 1)) throw new ModelInputError(`neighbour weight must be in (0, 1], got ${neighbourWeight}`);
-  const overall = fitTowt(train, towtOptions);
+  // the TOWT candidate's fit on the same table, when it has been fitted already
+  const overall = fitTowtOnTable(train, towtOptions);
   const n = train.kwh.length;
   const monthHours = new Int32Array(13);
   for (let i = 0; i < n; i++) monthHours[train.month[i]!]!++;
@@ -68,26 +69,21 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
     let weight = 0;
     for (let k = 1; k <= 12; k++) weight += segmentWeight(m, k, neighbourWeight) * monthHours[k]!;
     if (weight >= minSegmentWeight) {
-      const rows: number[] = [];
-      const w: number[] = [];
-      for (let i = 0; i < n; i++) {
+      let size = 0;
+      for (let i = 0; i < n; i++) if (segmentWeight(m, train.month[i]!, neighbourWeight) > 0) size++;
+      const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
+      for (let i = 0, r = 0; i < n; i++) {
         const wi = segmentWeight(m, train.month[i]!, neighbourWeight);
         if (wi > 0) {
-          rows.push(i);
-          w.push(wi);
+          seg.hourOfWeek[r] = train.hourOfWeek[i]!;
+          seg.holiday[r] = train.holiday[i]!;
+          seg.tempC[r] = train.tempC[i]!;
+          seg.kwh[r] = train.kwh[i]!;
+          seg.weights[r++] = wi;
         }
       }
       try {
-        model = fitTowt(
-          {
-            hourOfWeek: rows.map((i) => train.hourOfWeek[i]!),
-            holiday: rows.map((i) => train.holiday[i]!),
-            tempC: rows.map((i) => train.tempC[i]!),
-            kwh: rows.map((i) => train.kwh[i]!),
-            weights: w,
-          },
-          towtOptions,
-        );
+        model = fitTowt(seg, towtOptions);
       } catch (e) {
         if (!(e instanceof ModelInputError)) throw e;
       }

@@ -75,6 +75,11 @@ export interface FittedHourlyModel {
   readonly parameterCount: number;
   /** Predicted hourly energy for every row of `features`. */
   predict(features: HourlyFeatures): Float64Array;
+  /**
+   * When the model has them at no cost: its predictions for the table it was fitted on, in that
+   * table's row order — the same numbers `predict(train)` returns. Read only.
+   */
+  readonly fitted?: Float64Array;
 }
 
 /** Something that can be fitted to an hourly table: the unit of model comparison. */
