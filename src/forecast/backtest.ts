@@ -50,6 +50,8 @@ import { WEATHER_BASES, typicalForBasis, type WeatherBasisId } from "./weatherBa
 import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
 import { addMonthsIso, monthsAfter } from "../core/time/index.ts";
 import { expectedProblem } from "../core/errors.ts";
+import { noMemo, type Memo } from "../core/memo.ts";
+import { contentHash } from "../core/contentHash.ts";
 
 /** Noise factors tried. */
 export const CALIBRATION_GRID: readonly number[] = [0.5, 0.75, 1, 1.25, 1.5, 1.75, 2, 2.5, 3, 4, 5];
@@ -152,6 +154,12 @@ export interface BacktestOptions {
   grid?: readonly number[];
   /** Bases to try; default every basis. */
   bases?: readonly WeatherBasisId[];
+  /**
+   * Each meter's priced paths at an origin are a pure function of its forecast input, its
+   * judged months and the basis, adjustment and grid: a build with a cache keeps them here, so
+   * a rebuild prices only the meters whose inputs changed. Default: none.
+   */
+  memo?: Memo;
 }
 
 /**
@@ -285,13 +293,16 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   const eligible = portfolio.bills.filter((b) => (monthsByMeter.get(b.meterId) ?? 0) >= MIN_TRACK_RECORD_MONTHS);
   const origins = rollingOrigins(eligible, options.asOf);
   const oneIndex = grid.indexOf(1);
+  const memo = options.memo ?? noMemo;
+  // The memo's key of a row: its input's content hash, taken once (not at all without a memo).
+  const keyOf = (r: { input: MeterForecastInput; key?: string; meter: BacktestMeter }) => ({ input: (r.key ??= memo === noMemo ? "" : contentHash(r.input)), keep: keepOf(r.meter) });
 
   // Inputs per origin (refitted on the truncated data), and the months each meter is judged on.
   const perOrigin = origins.map((cut) => {
     const inputs = portfolio.buildings.flatMap((b) =>
       buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed }),
     );
-    const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts>; drawn: { noise?: ScenarioNoise } }[] = [];
+    const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts>; drawn: { noise?: ScenarioNoise }; key?: string }[] = [];
     for (const input of inputs) {
       const id = input.meter.meterId;
       const bills = billsByMeter.get(id) ?? [];
@@ -330,14 +341,18 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   // Weather basis: the P50 path of every candidate at the model's own noise.
   for (const rows of perOrigin) {
     for (const r of rows) {
-      for (const basis of bases) {
-        try {
-          const q = usageQuantiles(setupOf(withBasis(r.input, basis), r.drawn), 1);
-          if (q) r.meter.p50ByBasis[basis] = pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter));
-        } catch (error) {
-          expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
+      r.meter.p50ByBasis = memo("backtest-basis-paths", { ...keyOf(r), bases }, () => {
+        const paths: BacktestMeter["p50ByBasis"] = {};
+        for (const basis of bases) {
+          try {
+            const q = usageQuantiles(setupOf(withBasis(r.input, basis), r.drawn), 1);
+            if (q) paths[basis] = pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter));
+          } catch (error) {
+            expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
+          }
         }
-      }
+        return paths;
+      });
     }
   }
   const scores: BasisScore[] = [];
@@ -378,13 +393,15 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     perOrigin.forEach((rows, o) => {
       const paths = rows.map((r) => {
         if (adjustment === "none") return basis ? r.meter.p50ByBasis[basis] ?? null : null;
-        try {
-          const q = usageQuantiles(setupOf({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, r.drawn), 1);
-          return q ? pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter)) : null;
-        } catch (error) {
-          expectedProblem(error);
-          return null;
-        }
+        return memo("backtest-adjusted-path", { ...keyOf(r), basis, adjustment }, () => {
+          try {
+            const q = usageQuantiles(setupOf({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, r.drawn), 1);
+            return q ? pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter)) : null;
+          } catch (error) {
+            expectedProblem(error);
+            return null;
+          }
+        });
       });
       const acc = accuracyOf(rows.flatMap((r, i) => (paths[i] ? [{ actual: r.meter.actual, forecast: paths[i]! }] : [])));
       if (acc) byOrigin.push({ cut: origins[o]!, annualErrorPct: acc.annualErrorPct, meanAbsMeterAnnualErrorPct: acc.meanAbsMeterAnnualErrorPct, cvRmsePct: acc.cvRmsePct });
@@ -400,24 +417,27 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   // Band: priced P10/P90 paths at the chosen basis and adjustment for every factor.
   for (const rows of perOrigin) {
     for (const r of rows) {
-      const input = { ...(basis ? withBasis(r.input, basis) : r.input), adjustment };
-      let setup: ScenarioSetup | null | undefined;
-      for (const c of grid) {
-        try {
-          setup ??= setupOf(input, r.drawn);
-          const q = usageQuantiles(setup, c);
-          if (!q) break;
-          r.meter.bandByFactor.push({
-            lo: pick(pricePath(input, r.contexts, q.lo), keepOf(r.meter)),
-            hi: pick(pricePath(input, r.contexts, q.hi), keepOf(r.meter)),
-            mid: pick(pricePath(input, r.contexts, q.mid), keepOf(r.meter)),
-          });
-        } catch (error) {
-          expectedProblem(error);
-          r.meter.bandByFactor = [];
-          break;
+      r.meter.bandByFactor = memo("backtest-bands", { ...keyOf(r), basis, adjustment, grid }, () => {
+        const input = { ...(basis ? withBasis(r.input, basis) : r.input), adjustment };
+        const bands: BacktestMeter["bandByFactor"] = [];
+        let setup: ScenarioSetup | null | undefined;
+        for (const c of grid) {
+          try {
+            setup ??= setupOf(input, r.drawn);
+            const q = usageQuantiles(setup, c);
+            if (!q) break;
+            bands.push({
+              lo: pick(pricePath(input, r.contexts, q.lo), keepOf(r.meter)),
+              hi: pick(pricePath(input, r.contexts, q.hi), keepOf(r.meter)),
+              mid: pick(pricePath(input, r.contexts, q.mid), keepOf(r.meter)),
+            });
+          } catch (error) {
+            expectedProblem(error);
+            return [];
+          }
         }
-      }
+        return bands;
+      });
     }
   }
   const meters = perOrigin.map((rows) => rows.map((r) => r.meter).filter((m) => m.bandByFactor.length === grid.length));

@@ -13,6 +13,7 @@ import { bandOf, type Band } from "./quantiles.ts";
 import type { WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
 import { scenarioYears } from "./weatherYears.ts";
+import { noMemo } from "../core/memo.ts";
 import { scenarioTotals } from "./scenarioMatrix.ts";
 
 export interface BuildingForecast {
@@ -51,7 +52,8 @@ export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: Forecas
   const scenarioYearOrder = [...new Set(inputsByBuilding.flat().flatMap((i) => scenarioYears(i.weatherYears).map((y) => y.year)))].sort((a, b) => a - b);
   const buildings = portfolio.buildings.map((building, b) => {
     const inputs = inputsByBuilding[b]!.map((i) => ({ ...i, scenarioYearOrder }));
-    const meters = inputs.map(forecastMeter);
+    const memo = options.memo ?? noMemo;
+    const meters = inputs.map((input) => memo("forecast-meter", input, () => forecastMeter(input)));
     return {
       buildingId: building.buildingId,
       meters,

@@ -17,6 +17,7 @@ import type { MonthAdjustment } from "./residual.ts";
 import { addDays, localMidnightMs } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
 import { cToF } from "../core/units.ts";
+import type { Memo } from "../core/memo.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -41,6 +42,11 @@ export interface ForecastRunOptions {
   basis?: WeatherBasisId;
   /** Calendar-month adjustment (residual.ts); absent = none. */
   adjustment?: MonthAdjustment;
+  /**
+   * Each meter's forecast is a pure function of its input: a build with a cache keeps it here,
+   * so a rebuild prices only the meters whose inputs changed. Default: none.
+   */
+  memo?: Memo;
 }
 
 /** Bills whose period ends by the day after `asOf` (the ingest rule for as_of). */

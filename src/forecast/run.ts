@@ -10,6 +10,7 @@ import { correctBills, type CorrectedBillSet, type MoneyFindingLike } from "./co
 import { rollingBacktest, MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "./backtest.ts";
 import { forecastPortfolio, type PortfolioForecast } from "./forecastPortfolio.ts";
 import { trackRecordFromBacktest, type TrackRecord } from "./trackRecord.ts";
+import type { Memo } from "../core/memo.ts";
 
 export interface CalibrationResult {
   /** Noise factor of the forecast for meters with a track record (1 = the model's own band). */
@@ -47,11 +48,13 @@ export function forecastWithTrackRecord(
     seed?: number;
     baselines?: ReadonlyMap<string, Pick<MeterBaseline, "fit" | "typicalMonthlyTemp">>;
     findings?: readonly (MoneyFindingLike & { meterId: string })[];
+    /** Keeps each meter's backtest paths and forecast between builds (see rollingBacktest, forecastPortfolio). */
+    memo?: Memo;
   },
 ): ForecastBundle {
   const corrected = correctBills(portfolio.bills, options.findings ?? []);
   const base: Portfolio<Tariff> = { ...portfolio, bills: corrected.bills };
-  const backtest = rollingBacktest(base, { asOf: options.asOf, scenarios: options.scenarios, seed: options.seed });
+  const backtest = rollingBacktest(base, { asOf: options.asOf, scenarios: options.scenarios, seed: options.seed, memo: options.memo });
   const calibrationByMeter = new Map(
     portfolio.meters.map((m) => [m.meterId, backtest.calibrated && (backtest.monthsOfBills.get(m.meterId) ?? 0) >= MIN_TRACK_RECORD_MONTHS ? backtest.factor : 1]),
   );
@@ -66,6 +69,7 @@ export function forecastWithTrackRecord(
     calibration: backtest.factor,
     calibrationByMeter,
     billedBills: portfolio.bills,
+    memo: options.memo,
   });
   const chosen = backtest.coverageByFactor.find((c) => c.factor === backtest.factor);
   const calibration: CalibrationResult = {

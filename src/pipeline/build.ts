@@ -31,6 +31,7 @@ import { cacheMemo, defaultCacheDir, openAnalysisCache, programFingerprint, type
 import { buildingsDigest, gatherPartials, partialAnalysesDir, PARTIAL_FORMAT, preparePartialDir, shardOf, writeManifest, type ShardSpec } from "./shards.ts";
 import { rm } from "node:fs/promises";
 import { moneyText, roundCents } from "../core/money.ts";
+import type { Memo } from "../core/memo.ts";
 
 export interface BuildOptions {
   dir: string;
@@ -148,7 +149,7 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
-  const forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"));
+  const forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined);
 
   reporter.stage(`Writing the site to ${options.outDir}`);
   const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
@@ -192,12 +193,12 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
  * across buildings). A failure here costs the forecast, never the rest of the site: it becomes a
  * warning and the pages say no forecast was made.
  */
-function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow): ForecastBundle | null {
+function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow, memo?: Memo): ForecastBundle | null {
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
   try {
-    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines, findings });
+    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo });
   } catch (error) {
     issues.push({
       file: "portfolio.yaml",
