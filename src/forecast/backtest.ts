@@ -300,7 +300,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   // Inputs per origin (refitted on the truncated data), and the months each meter is judged on.
   const perOrigin = origins.map((cut) => {
     const inputs = portfolio.buildings.flatMap((b) =>
-      buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed }),
+      buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed, memo: options.memo }),
     );
     const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts>; drawn: { noise?: ScenarioNoise }; key?: string }[] = [];
     for (const input of inputs) {

@@ -105,7 +105,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   };
   return meters.map((meter) => {
     const bills = billsKnownAt(portfolio.bills.filter((b) => b.meterId === meter.meterId), options.asOf);
-    const baseline = options.baselines?.get(meter.meterId) ?? fitForecastBaseline({ meter, building, bills, weather, normals, tempUnit });
+    const baseline = options.baselines?.get(meter.meterId) ?? fitForecastBaseline({ meter, building, bills, weather, normals, tempUnit }, options.memo);
     const tariff = portfolio.tariffs.get(meter.tariffId) ?? null;
     return {
       meter,

@@ -12,7 +12,8 @@
  * Estimated reads are left out of the fits (the utility's guess is not the building's use).
  */
 import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/types.ts";
-import { selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "./changePoint.ts";
+import { fitChangePointAt, selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "./changePoint.ts";
+import { noMemo, type Memo } from "../core/memo.ts";
 import { temperatureProfileForPeriod, type DegreeDayFit } from "./degreeDayRegression.ts";
 import { degreeDayOutlierBand, type DegreeDayBandBill } from "./outlierBand.ts";
 import { meetsGuideline14 } from "./stats.ts";
@@ -138,7 +139,7 @@ interface BaselineOptions {
 }
 
 /** The bills' period temperatures, the points of the change-point fit and the chosen fit. */
-function changePointPart(options: BaselineOptions) {
+function changePointPart(options: BaselineOptions, memo: Memo = noMemo) {
   const { building, weather, tempUnit } = options;
   const points: MeterBaseline["points"] = [];
   const excluded: MeterBaseline["excluded"] = [];
@@ -173,7 +174,15 @@ function changePointPart(options: BaselineOptions) {
 
   let fit: ChangePointFit | null = null;
   let tried: MeterBaseline["tried"] = [];
-  if (points.length >= MIN_POINTS) {
+  if (points.length >= MIN_POINTS && memo !== noMemo) {
+    // Only the chosen form and its breakpoints are remembered; the fit is rebuilt from the points
+    // at them, bit for bit the search's fit (as the analysis pool's hydrateResults does).
+    const choice = memo("change-point-choice", { points }, () => {
+      const chosen = selectChangePointModel(points, { weightByDays: true }).chosen;
+      return chosen ? { kind: chosen.kind, breakpoints: chosen.breakpoints } : null;
+    });
+    fit = choice ? fitChangePointAt(points, choice.kind, choice.breakpoints, { weightByDays: true }) : null;
+  } else if (points.length >= MIN_POINTS) {
     const selection = selectChangePointModel(points, { weightByDays: true });
     fit = selection.chosen;
     tried = selection.tried.map((c) => ({
@@ -202,8 +211,8 @@ function typicalPart(options: BaselineOptions): { typicalC: number[] | null; typ
  * year, computed exactly as `fitMeterBaseline` computes them, without the degree-day band and the
  * per-bill adjustments (the rolling backtests refit every meter at every origin and read neither).
  */
-export function fitForecastBaseline(options: BaselineOptions): Pick<MeterBaseline, "fit" | "typicalMonthlyTemp"> {
-  return { fit: changePointPart(options).fit, typicalMonthlyTemp: typicalPart(options).typicalMonthlyTemp };
+export function fitForecastBaseline(options: BaselineOptions, memo: Memo = noMemo): Pick<MeterBaseline, "fit" | "typicalMonthlyTemp"> {
+  return { fit: changePointPart(options, memo).fit, typicalMonthlyTemp: typicalPart(options).typicalMonthlyTemp };
 }
 
 /** Fits the baseline of one meter from its bills and its building's weather. */

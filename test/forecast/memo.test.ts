@@ -36,6 +36,7 @@ describe("forecast memo", () => {
     expect(contentHash(first)).toBe(contentHash(without));
     const meters = portfolio.meters.length;
     expect(computed.filter((k) => k === "forecast-meter")).toHaveLength(meters);
+    expect(computed.filter((k) => k === "change-point-choice").length).toBeGreaterThan(0);
 
     computed.length = 0;
     const second = forecastWithTrackRecord(portfolio, { ...options, memo });

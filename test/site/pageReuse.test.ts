@@ -55,6 +55,11 @@ describe("page reuse", () => {
     expectSameTree(await tree(join(work, "full")), await tree(out));
   }, 120_000);
 
+  it("page models are plain JSON data, so their JSON text is a faithful key", () => {
+    const model = buildSiteModel(fixtureInput());
+    for (const page of [...model.buildings, ...model.meterBills, ...model.tenants]) expect(JSON.parse(JSON.stringify(page))).toEqual(page);
+  });
+
   it("renders again a published page that was edited by hand, or a different program's", async () => {
     const reuse = { cacheDir: join(work, "cache2"), program: "test-program" };
     const out = join(work, "site2");
