@@ -91,7 +91,7 @@ export interface BuildSummary {
   buildingsFailed: { buildingId: string; reason: string }[];
   /** Buildings whose analysis came from the cache (0 without one). */
   buildingsFromCache: number;
-  /** Building, meter and tenant pages unchanged since the last build, copied from it (0 without a cache). */
+  /** Building, meter and tenant pages and claim sheets unchanged since the last build, copied from it (0 without a cache). */
   pagesReused: number;
 }
 
@@ -253,7 +253,7 @@ function summaryText(s: BuildSummary, currency: string): string {
   ];
   if (s.rowsRejected > 0) lines.push(`  ${s.rowsRejected} input row(s) rejected — see ${s.outDir}/data/ingest-report.json`);
   if (s.buildingsFromCache > 0) lines.push(`  ${s.buildingsFromCache} of ${s.buildings} building(s) unchanged since the last build: their analysis came from the cache`);
-  if (s.pagesReused > 0) lines.push(`  ${s.pagesReused} building, meter and tenant page(s) unchanged since the last build: copied from the previous site`);
+  if (s.pagesReused > 0) lines.push(`  ${s.pagesReused} page(s) unchanged since the last build (building, meter, tenant pages and claim sheets): copied from the previous site`);
   for (const f of s.buildingsFailed) lines.push(`  building ${f.buildingId} could not be analysed: ${f.reason}`);
   lines.push(`View it: open ${s.outDir}/index.html in a browser, or run 'ohmbook serve' on the portfolio folder to serve it and rebuild on every change.`);
   return lines.join("\n");

@@ -15,8 +15,9 @@ const LOCALE = "en-US";
 // Building an Intl.NumberFormat costs far more than using one; pages format thousands of values.
 const formatterCache = new Map<string, Intl.NumberFormat>();
 
-function cachedFormatter(options: Intl.NumberFormatOptions): Intl.NumberFormat {
-  const key = JSON.stringify(options);
+function cachedFormatter(options: Pick<Intl.NumberFormatOptions, "style" | "currency" | "minimumFractionDigits" | "maximumFractionDigits">): Intl.NumberFormat {
+  // The key names every option the callers use (a JSON key cost as much as the formatting).
+  const key = `${options.style ?? ""}|${options.currency ?? ""}|${options.minimumFractionDigits ?? ""}|${options.maximumFractionDigits ?? ""}`;
   let f = formatterCache.get(key);
   if (!f) {
     f = new Intl.NumberFormat(LOCALE, options);

@@ -40,7 +40,7 @@ export interface WriteSiteOptions {
   onProgress?: (buildingsDone: number, buildingsTotal: number) => void;
   /**
    * Incremental writing (pageReuse.ts, bundleReuse.ts): the client bundle and every building,
-   * meter and tenant page whose inputs are unchanged since the last build into `outDir` are
+   * meter and tenant page and claim sheet whose inputs are unchanged since the last build into `outDir` are
    * copied from it, not made again. `cacheDir` holds the manifests (never inside the site);
    * `program` fingerprints the code.
    */
@@ -357,10 +357,13 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
   // A whole model may have tenant pages and no building pages (the tenant site): count both.
   const buildingCount = parts ? parts.buildingCount : Math.max(full!.buildings.length, full!.tenants.length);
   const portfolioPages = await preparePortfolioPages(base, sizes);
-  const shell: SiteModel = { ...portfolioPages, buildings: [], meterBills: [], tenants: [] };
+  // Claim sheets, one per dispute, are reused like the building pages when unchanged.
+  const claims = await keepFresh(ctx, portfolioPages.claims, (page) => page);
+  const shell: SiteModel = { ...portfolioPages, claims: claims.map((f) => f.page), buildings: [], meterBills: [], tenants: [] };
   const firstPassTemplates = new Set<string>();
   collectGarbage?.();
   await eleventyPass(shell, ctx, firstPassTemplates, null);
+  if (ctx.pages) for (const f of claims) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
   collectGarbage?.();
   const passes = Math.ceil(buildingCount / Math.max(1, ctx.buildingsPerPass));
   if (passes === 0) return;

@@ -40,7 +40,7 @@ describe("page reuse", () => {
     const first = await writeSite(model, DATA, out, { reuse });
     expect(first.pagesReused).toBe(0);
     expect(first.bundleReused).toBe(false);
-    const perBuilding = model.buildings.length + model.meterBills.length + model.tenants.length;
+    const perBuilding = model.buildings.length + model.meterBills.length + model.tenants.length + model.claims.length;
     expect(first.pagesRendered).toBe(perBuilding);
 
     const second = await writeSite(model, DATA, out, { reuse });
@@ -57,7 +57,7 @@ describe("page reuse", () => {
 
   it("page models are plain JSON data, so their JSON text is a faithful key", () => {
     const model = buildSiteModel(fixtureInput());
-    for (const page of [...model.buildings, ...model.meterBills, ...model.tenants]) expect(JSON.parse(JSON.stringify(page))).toEqual(page);
+    for (const page of [...model.buildings, ...model.meterBills, ...model.tenants, ...model.claims]) expect(JSON.parse(JSON.stringify(page))).toEqual(page);
   });
 
   it("renders again a published page that was edited by hand, or a different program's", async () => {
