@@ -297,6 +297,14 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   // The memo's key of a row: its input's content hash, taken once (not at all without a memo).
   const keyOf = (r: { input: MeterForecastInput; key?: string; meter: BacktestMeter }) => ({ input: (r.key ??= memo === noMemo ? "" : contentHash(r.input)), keep: keepOf(r.meter) });
 
+  // What each meter's bills actually cost by month does not depend on the origin: once per meter.
+  const actualByMeter = new Map<string, ReturnType<typeof actualMonthlyCost>>();
+  const actualOf = (id: string, bills: readonly Bill[]) => {
+    let a = actualByMeter.get(id);
+    if (!a) actualByMeter.set(id, (a = actualMonthlyCost(bills, options.asOf)));
+    return a;
+  };
+
   // Inputs per origin (refitted on the truncated data), and the months each meter is judged on.
   const perOrigin = origins.map((cut) => {
     const inputs = portfolio.buildings.flatMap((b) =>
@@ -310,7 +318,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       const historyMonths = monthsOfBills(bills, cut);
       if (historyMonths < MIN_FIT_MONTHS) continue;
       const forecastMonths = monthsAfter(cut, 12);
-      const actual = actualMonthlyCost(bills, options.asOf);
+      const actual = actualOf(id, bills);
       const keep: number[] = [];
       const meter: BacktestMeter = { meterId: id, buildingId: input.meter.buildingId, historyMonths, months: [], actual: [], naive: [], p50ByBasis: {}, bandByFactor: [] };
       forecastMonths.forEach((m, k) => {

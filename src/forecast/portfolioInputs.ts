@@ -55,6 +55,26 @@ export function billsKnownAt(bills: readonly Bill[], asOf: string): Bill[] {
   return bills.filter((b) => b.periodEnd <= limit);
 }
 
+/**
+ * A meter's bills, in file order. Grouped once per bill list (keyed by the list itself, which no
+ * stage changes once made): the backtests ask for every meter at every origin, and filtering the
+ * whole portfolio's bills each time grew with meters × bills.
+ */
+const billsByMeterOf = new WeakMap<readonly Bill[], Map<string, Bill[]>>();
+function billsOfMeter(bills: readonly Bill[], meterId: string): Bill[] {
+  let byMeter = billsByMeterOf.get(bills);
+  if (!byMeter) {
+    byMeter = new Map();
+    for (const b of bills) {
+      const list = byMeter.get(b.meterId);
+      if (list) list.push(b);
+      else byMeter.set(b.meterId, [b]);
+    }
+    billsByMeterOf.set(bills, byMeter);
+  }
+  return byMeter.get(meterId) ?? [];
+}
+
 /** The hourly series cut before `untilMs`. */
 function weatherBefore(w: WeatherSeries | undefined, untilMs: number): WeatherSeries | undefined {
   if (!w) return undefined;
@@ -104,7 +124,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
     return shapes.get(donorId)!;
   };
   return meters.map((meter) => {
-    const bills = billsKnownAt(portfolio.bills.filter((b) => b.meterId === meter.meterId), options.asOf);
+    const bills = billsKnownAt(billsOfMeter(portfolio.bills, meter.meterId), options.asOf);
     const baseline = options.baselines?.get(meter.meterId) ?? fitForecastBaseline({ meter, building, bills, weather, normals, tempUnit }, options.memo);
     const tariff = portfolio.tariffs.get(meter.tariffId) ?? null;
     return {
@@ -118,7 +138,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       normalsMonthlyTemp,
       weatherYears: years,
       bills,
-      billedBills: options.billedBills ? billsKnownAt(options.billedBills.filter((b) => b.meterId === meter.meterId), options.asOf) : undefined,
+      billedBills: options.billedBills ? billsKnownAt(billsOfMeter(options.billedBills, meter.meterId), options.asOf) : undefined,
       intervals: series.get(meter.meterId) ?? null,
       previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? recentBillingDemands(meter, bills, tariff!, building.timezone, series.get(meter.meterId)) : [],
       loadShapeByHourOfWeek: shapeOf(meter),

@@ -63,7 +63,12 @@ function meteredOf(priced: PricedBill | undefined): ComputedBill | null {
 }
 
 /** Claims and back-billing risks covering a bill, keyed by bill id, each with the dispute's own per-bill figure. */
-export function claimsByBill(disputes: readonly Dispute[] | undefined, currency: string): Map<string, BillClaim[]> {
+export function claimsByBill(disputes: readonly Dispute[] | undefined, currency: string): ReadonlyMap<string, readonly BillClaim[]> {
+  // Every building and meter page asks for it: made once per dispute list (which no stage changes
+  // once made), or the pages' cost would grow with buildings × disputes.
+  const key = disputes ?? NO_DISPUTES;
+  const kept = claimsCache.get(key);
+  if (kept && kept.currency === currency) return kept.byBill;
   const out = new Map<string, BillClaim[]>();
   for (const d of disputes ?? []) {
     for (const b of d.bills) {
@@ -80,8 +85,11 @@ export function claimsByBill(disputes: readonly Dispute[] | undefined, currency:
       else out.set(b.billId, [claim]);
     }
   }
+  claimsCache.set(key, { currency, byBill: out });
   return out;
 }
+const NO_DISPUTES: readonly Dispute[] = [];
+const claimsCache = new WeakMap<readonly Dispute[], { currency: string; byBill: ReadonlyMap<string, readonly BillClaim[]> }>();
 
 /** Raw per-bill claim amounts (for sort keys), keyed by bill id. */
 function claimAmounts(disputes: readonly Dispute[] | undefined): Map<string, number[]> {
@@ -336,7 +344,7 @@ export function billDetail(
   meter: Meter,
   input: ReportInput,
   printed: readonly BillLine[],
-  claims: ReadonlyMap<string, BillClaim[]>,
+  claims: ReadonlyMap<string, readonly BillClaim[]>,
   currency: string,
 ): BillDetail {
   const priced = input.priced.get(bill.billId);
@@ -359,7 +367,7 @@ export function billDetail(
       ...(bill.demandKw != null ? [{ label: "Demand billed", value: formatQuantity(bill.demandKw, "kW") }] : []),
       { label: "Billed total", value: formatMoney(bill.total, currency) },
     ],
-    claims: claims.get(bill.billId) ?? [],
+    claims: [...(claims.get(bill.billId) ?? [])],
     bases,
     notPricedReason: priced?.computed ? null : notPricedReason(priced),
   };

@@ -4,9 +4,10 @@ import type { ReportMeterQuality, ReportWeatherDetection } from "./input.ts";
 import type { HeatmapChartModel, QualitySection, TableModel } from "./siteModel.ts";
 import { NOT_AVAILABLE, formatMonth, formatNumber, formatPercent, formatQuantity } from "./format.ts";
 import { commodityLabel } from "./labels.ts";
-import { formatLocalDateTime, localPartsOf } from "../core/time/index.ts";
+import { civilDay, formatLocalDateTime, localMs, localPartsOf } from "../core/time/index.ts";
 
 const HOUR_MS = 3_600_000;
+const DAY_MS = 86_400_000;
 /** The heatmap shows at most this many local days, the latest ones (one year plus a leap day). */
 const HEATMAP_MAX_DAYS = 366;
 
@@ -46,12 +47,21 @@ export function heatmapDays(
   const firstDay = new Date(Date.parse(`${lastDay}T00:00:00Z`) - (maxDays - 1) * 86_400_000).toISOString().slice(0, 10);
   const byDay = new Map<string, { values: (number | null)[]; flagged: number[] }>();
   let cachedHour = Number.NaN;
-  let cached = { day: "", hour: 0 };
+  let cachedDay = Number.NaN;
+  const cached = { day: "", hour: 0 };
   for (let i = 0; i < n; i++) {
     const hourStart = Math.floor(series.startMs[i] / HOUR_MS) * HOUR_MS;
     if (hourStart !== cachedHour) {
+      // Local day and hour once per clock hour, the day's date text once per day (this runs for
+      // every interval of every meter on every build).
       cachedHour = hourStart;
-      cached = localDayHour(series.startMs[i], zone);
+      const local = localMs(series.startMs[i], zone);
+      const dayNum = Math.floor(local / DAY_MS);
+      if (dayNum !== cachedDay) {
+        cachedDay = dayNum;
+        cached.day = civilDay(dayNum).date;
+      }
+      cached.hour = Math.floor((local - dayNum * DAY_MS) / HOUR_MS);
     }
     if (cached.day < firstDay) continue;
     let row = byDay.get(cached.day);
