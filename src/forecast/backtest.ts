@@ -45,7 +45,7 @@ import { priceForecastMonth } from "./priceMonth.ts";
 import { bandOf } from "./quantiles.ts";
 import { monthColumn } from "./scenarioMatrix.ts";
 import type { ScenarioNoise, ScenarioSetup } from "./usageScenarios.ts";
-import { actualMonthlyCost, naiveSameMonthLastYear } from "./trackRecord.ts";
+import { actualMonthlyCost, naiveFromKnown } from "./trackRecord.ts";
 import { WEATHER_BASES, typicalForBasis, type WeatherBasisId } from "./weatherBasis.ts";
 import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
 import { addMonthsIso, monthsAfter } from "../core/time/index.ts";
@@ -320,11 +320,12 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       const forecastMonths = monthsAfter(cut, 12);
       const actual = actualOf(id, bills);
       const keep: number[] = [];
+      let known: ReturnType<typeof actualMonthlyCost> | undefined;
       const meter: BacktestMeter = { meterId: id, buildingId: input.meter.buildingId, historyMonths, months: [], actual: [], naive: [], p50ByBasis: {}, bandByFactor: [] };
       forecastMonths.forEach((m, k) => {
         const a = actual.get(m.month);
         if (!a || !a.complete) return;
-        const naive = naiveSameMonthLastYear(bills, cut, m.month, a.days);
+        const naive = naiveFromKnown((known ??= actualMonthlyCost(bills, cut)), m.month, a.days);
         if (naive === null) return;
         keep.push(k);
         meter.months.push(m.month);

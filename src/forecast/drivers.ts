@@ -129,8 +129,14 @@ export function meterChangeDrivers(input: MeterForecastInput, forecast: MeterFor
  * is the median of the scenario sums across meters (scenario-aligned, see rollup.ts), and the
  * usage trend the residual, so the four drivers add up to the building's change against what was billed.
  */
-export function buildingChangeDrivers(buildingId: string, inputs: readonly MeterForecastInput[], forecasts: readonly MeterForecast[]): BuildingDrivers {
-  const perMeter = inputs.map((input, i) => meterChangeDrivers(input, forecasts[i]!));
+export function buildingChangeDrivers(
+  buildingId: string,
+  inputs: readonly MeterForecastInput[],
+  forecasts: readonly MeterForecast[],
+  /** Meter i's drivers from `compute` or remembered (a build's cache); default: computed. */
+  remember: (i: number, compute: () => ReturnType<typeof meterChangeDrivers>) => ReturnType<typeof meterChangeDrivers> = (_i, compute) => compute(),
+): BuildingDrivers {
+  const perMeter = inputs.map((input, i) => remember(i, () => meterChangeDrivers(input, forecasts[i]!)));
   const used = perMeter.filter((m) => m.scenarioSums !== null);
   const meters: MeterDrivers[] = perMeter.map(({ scenarioSums: _unused, ...rest }) => rest);
   if (used.length === 0) return { ...ZERO, buildingId, meters };

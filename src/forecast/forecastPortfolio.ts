@@ -14,6 +14,7 @@ import type { WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
 import { scenarioYears } from "./weatherYears.ts";
 import { noMemo } from "../core/memo.ts";
+import { contentHash } from "../core/contentHash.ts";
 import { scenarioTotals } from "./scenarioMatrix.ts";
 
 export interface BuildingForecast {
@@ -47,19 +48,21 @@ export interface PortfolioForecast {
  * @example forecastPortfolio(portfolio, { asOf: "2025-12-31", months: 12, calibration: 3 }).rows // forecast.csv rows
  */
 export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: ForecastRunOptions): PortfolioForecast {
+  const memo = options.memo ?? noMemo;
   const inputsByBuilding = portfolio.buildings.map((building) => buildingForecastInputs(portfolio, building, options));
   // One calendar year per scenario for the whole portfolio, so totals keep the weather's correlation across stations.
   const scenarioYearOrder = [...new Set(inputsByBuilding.flat().flatMap((i) => scenarioYears(i.weatherYears).map((y) => y.year)))].sort((a, b) => a - b);
   const buildings = portfolio.buildings.map((building, b) => {
     const inputs = inputsByBuilding[b]!.map((i) => ({ ...i, scenarioYearOrder }));
-    const memo = options.memo ?? noMemo;
-    const meters = inputs.map((input) => memo("forecast-meter", input, () => forecastMeter(input)));
+    // Each input hashed once for the memo (not at all without one).
+    const keys = inputs.map((input) => (memo === noMemo ? "" : contentHash(input)));
+    const meters = inputs.map((input, i) => memo("forecast-meter", { input: keys[i] }, () => forecastMeter(input)));
     return {
       buildingId: building.buildingId,
       meters,
       costNext12m: buildingCostBand(meters, 12),
       monthly: buildingMonthlyCostBands(meters),
-      drivers: buildingChangeDrivers(building.buildingId, inputs, meters),
+      drivers: buildingChangeDrivers(building.buildingId, inputs, meters, (i, compute) => memo("meter-drivers", { input: keys[i], forecast: meters[i] }, compute)),
     };
   });
   const all = buildings.flatMap((b) => b.meters);

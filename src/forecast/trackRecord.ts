@@ -83,7 +83,12 @@ export function actualMonthlyCost(bills: readonly Bill[], asOf: string): Map<str
  * @example a year-earlier January billed 3,100 over its 31 days → 3,100 for this January
  */
 export function naiveSameMonthLastYear(bills: readonly Bill[], knownAsOf: string, month: string, days: number): number | null {
-  const prior = actualMonthlyCost(bills, knownAsOf).get(shiftMonth(month, -12));
+  return naiveFromKnown(actualMonthlyCost(bills, knownAsOf), month, days);
+}
+
+/** `naiveSameMonthLastYear` from the monthly costs known at the cut (actualMonthlyCost), for callers asking for many months. */
+export function naiveFromKnown(known: ReturnType<typeof actualMonthlyCost>, month: string, days: number): number | null {
+  const prior = known.get(shiftMonth(month, -12));
   if (!prior || prior.coveredDays < 0.5 * prior.days) return null;
   return (prior.cost / prior.coveredDays) * days;
 }
