@@ -3,37 +3,10 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { priceBill } from "../../src/tariff/price.ts";
 import type { IntervalUsage } from "../../src/tariff/types.ts";
-import { tariffOf } from "./helpers.ts";
+import { richTariff, tariffOf } from "./helpers.ts";
 import { roundCents } from "../../src/core/money.ts";
 
-const RICH = tariffOf(`
-id: lvp-rich
-commodity: electricity
-usage_unit: kWh
-versions:
-  - from: 2024-01-01
-    seasons: { summer: Jun-Sep, winter: Oct-May }
-    holidays: us-federal
-    periods:
-      peak: { season: summer, days: weekdays, hours: "14:00-19:00" }
-      shoulder: { days: weekdays, hours: ["08:00-14:00", "19:00-22:00"] }
-      off-peak: {}
-    charges:
-      - { label: Customer charge, fixed: 24.50 }
-      - label: Delivery
-        blocks: [{ up_to: 500, rate: 0.061 }, { up_to: 1500, rate: 0.052 }, { rate: 0.044 }]
-      - { label: Energy, energy: { peak: 0.238, shoulder: 0.161, off-peak: 0.097 } }
-      - { label: Rider, energy: 0.0125 }
-      - { label: Facility demand, demand: 13.80, ratchet: { percent: 80, months: 11 }, minimum_kw: 10 }
-      - { label: Peak demand, demand: { peak: 8.25 } }
-      - { label: Power factor adjustment, power_factor: { target: 0.90 } }
-      - { label: Sales tax, percent: 7.25 }
-    minimum_bill: 40.00
-  - from: 2025-07-01
-    inherit: true
-    charges_override:
-      - { label: Energy, energy: { peak: 0.251, shoulder: 0.168, off-peak: 0.101 } }
-`);
+const RICH = richTariff({ id: "lvp-rich", changeFrom: "2025-07-01", rider: true });
 
 const day = (d: number) => new Date(Date.UTC(2024, 0, 1) + d * 86_400_000).toISOString().slice(0, 10);
 
