@@ -40,4 +40,16 @@ describe("ranking chart labels", () => {
     expect(svg).not.toContain("…");
     for (const line of ["Billed usage differs", "from the interval", "meter", "Money at stake (USD)", `Quote " and back\\slash`, "in a long building", "name"]) expect(svg).toContain(`>${line}<`);
   });
+
+  it("a ranking of 1,500 wrapped labels renders (a thousand-building portfolio's index chart)", async () => {
+    const items = Array.from({ length: 1500 }, (_, i) => ({ label: `Harbour Row building number ${i + 1}`, value: 1500 - i, note: "" }));
+    const chart = {
+      kind: "ranking" as const, id: "big", title: "Energy use intensity", description: "Ranking", valueLabel: "kWh per m²", valueFormat: ",.0f",
+      table: { caption: "", columns: [], rows: [], sortable: false }, items,
+    };
+    const svg = await renderSvg(rankingSpec(chart));
+    expect(svg).toContain(">Harbour Row building<");
+    expect(svg).toContain(">number 1500<");
+    expect(svg).not.toContain("…");
+  }, 60_000);
 });

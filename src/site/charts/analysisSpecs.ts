@@ -148,12 +148,19 @@ export const RANKING_LABEL_LINE_CHARS = 22;
  * string literals.
  */
 function wrappedLabelExpr(labels: readonly string[], max: number): string {
-  let expr = "datum.value";
-  for (const label of [...new Set(labels)].reverse()) {
+  const keys: string[] = [];
+  const wrapped: string[][] = [];
+  for (const label of new Set(labels)) {
     const lines = wrapLabel(label, max);
-    if (lines.length > 1) expr = `datum.value === ${JSON.stringify(label)} ? ${JSON.stringify(lines)} : ${expr}`;
+    if (lines.length > 1) {
+      keys.push(label);
+      wrapped.push(lines);
+    }
   }
-  return expr;
+  if (keys.length === 0) return "datum.value";
+  // One lookup, not one nested test per label: Vega parses nested conditionals recursively, and
+  // a ranking of about a thousand buildings overflowed the stack.
+  return `${JSON.stringify(wrapped)}[indexof(${JSON.stringify(keys)}, datum.value)] || datum.value`;
 }
 
 /**
