@@ -343,8 +343,8 @@ interface RenderContext {
 /**
  * Renders every page of `model` into `ctx.stage`, a few buildings at a time, so memory does not
  * grow with the number of buildings: a first Eleventy pass writes the portfolio-level pages
- * (index, disputes, claims, methods, data…) with the per-building lists empty; then each pass
- * writes a slice of the building, meter and tenant pages, with their charts rendered just before
+ * (index, disputes, methods, data…) with the per-building lists empty; then each pass
+ * writes a slice of the building, meter and tenant pages and a share of the claim sheets, with their charts rendered just before
  * and dropped after, and the templates of the first pass left out. Paginated templates over
  * `site.buildings`, `site.meterBills` and `site.tenants` must therefore read only their own item
  * and the portfolio-level parts of `site` (as every template does); the site is byte-identical
@@ -357,15 +357,17 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
   // A whole model may have tenant pages and no building pages (the tenant site): count both.
   const buildingCount = parts ? parts.buildingCount : Math.max(full!.buildings.length, full!.tenants.length);
   const portfolioPages = await preparePortfolioPages(base, sizes);
-  // Claim sheets, one per dispute, are reused like the building pages when unchanged.
+  // Claim sheets, one per dispute, are reused like the building pages when unchanged, and made
+  // in shares alongside the building passes (there are about as many as buildings).
   const claims = await keepFresh(ctx, portfolioPages.claims, (page) => page);
-  const shell: SiteModel = { ...portfolioPages, claims: claims.map((f) => f.page), buildings: [], meterBills: [], tenants: [] };
+  const passes = Math.ceil(buildingCount / Math.max(1, ctx.buildingsPerPass));
+  const firstPassClaims = passes === 0 ? claims : [];
+  const shell: SiteModel = { ...portfolioPages, claims: firstPassClaims.map((f) => f.page), buildings: [], meterBills: [], tenants: [] };
   const firstPassTemplates = new Set<string>();
   collectGarbage?.();
   await eleventyPass(shell, ctx, firstPassTemplates, null);
-  if (ctx.pages) for (const f of claims) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
+  if (ctx.pages) for (const f of firstPassClaims) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
   collectGarbage?.();
-  const passes = Math.ceil(buildingCount / Math.max(1, ctx.buildingsPerPass));
   if (passes === 0) return;
   // A whole model is cut into equal shares of each page list; a model in parts gives the pages
   // of each consecutive range of buildings, made just now.
@@ -382,15 +384,17 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
     const buildings = await fresh(all.buildings, (page) => ({ page, sizes: buildingDataSizes(page.buildingId, sizes) }));
     const meterBills = await fresh(all.meterBills, (page) => page);
     const tenants = await fresh(all.tenants, (page) => page);
-    if (buildings.length + meterBills.length + tenants.length > 0) {
+    const passClaims = share(claims, i);
+    if (buildings.length + meterBills.length + tenants.length + passClaims.length > 0) {
       const site: SiteModel = {
         ...shell,
+        claims: passClaims.map((f) => f.page),
         buildings: await prepareBuildingPages(buildings.map((f) => f.page), sizes),
         meterBills: await prepareMeterPages(meterBills.map((f) => f.page)),
         tenants: await prepareTenantPages(tenants.map((f) => f.page)),
       };
       await eleventyPass(site, ctx, null, firstPassTemplates);
-      if (ctx.pages) for (const f of [...buildings, ...meterBills, ...tenants]) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
+      if (ctx.pages) for (const f of [...buildings, ...meterBills, ...tenants, ...passClaims]) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
       collectGarbage?.();
     }
     written += to - from;
