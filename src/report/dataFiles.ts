@@ -53,31 +53,51 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
   const { portfolio, findings } = input;
   const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
   const qualityRows = dataQualityRows(input);
+  const billContext = billsRecomputedContext(input);
   const files: Record<string, string> = {
     "portfolio.json": json(portfolioJson(input)),
     "findings.json": json(toFindingsJson(findings)),
     "findings.csv": findingsToCsvText(findings),
     "disputes.csv": disputesCsv(input.disputes),
     "disputes.json": json(disputesJson(input.disputes)),
-    "bills-recomputed.csv": billsRecomputedCsv(input, portfolio.bills, buildingOfMeter),
+    "bills-recomputed.csv": billsRecomputedCsv(billContext, portfolio.bills, buildingOfMeter),
     "ingest-report.json": json({ files: portfolio.report.files }),
     "data-quality.csv": toCsv(DATA_QUALITY_COLUMNS, qualityRows),
     "alignment.json": json(alignmentJson(input.quality)),
     "models.json": json(modelsJson(input.results)),
   };
   if (input.forecast) files["forecast.csv"] = toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.map(roundForecastRow));
+  // Each table is cut by building in one pass over its rows (not one pass per building: a
+  // thousand-building portfolio has about a hundred thousand bills).
+  const findingsOf = groupBy(findings, (f) => f.buildingId);
+  const disputesOf = groupBy(input.disputes, (d) => d.buildingId);
+  const billsOf = groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId));
+  const qualityOf = groupBy(qualityRows, (row) => row.building_id);
+  const forecastOf = groupBy(input.forecast?.forecast.rows ?? [], (row) => row.building_id);
   for (const r of input.results) {
     const id = r.building.buildingId;
-    const meterIds = new Set(portfolio.meters.filter((m) => m.buildingId === id).map((m) => m.meterId));
     const folder = `buildings/${id}/`;
-    files[`${folder}findings.csv`] = findingsToCsvText(findings.filter((f) => f.buildingId === id));
-    files[`${folder}disputes.csv`] = disputesCsv(input.disputes.filter((d) => d.buildingId === id));
-    files[`${folder}bills-recomputed.csv`] = billsRecomputedCsv(input, portfolio.bills.filter((b) => meterIds.has(b.meterId)), buildingOfMeter);
-    files[`${folder}data-quality.csv`] = toCsv(DATA_QUALITY_COLUMNS, qualityRows.filter((row) => row.building_id === id));
+    files[`${folder}findings.csv`] = findingsToCsvText(findingsOf.get(id) ?? []);
+    files[`${folder}disputes.csv`] = disputesCsv(disputesOf.get(id) ?? []);
+    files[`${folder}bills-recomputed.csv`] = billsRecomputedCsv(billContext, billsOf.get(id) ?? [], buildingOfMeter);
+    files[`${folder}data-quality.csv`] = toCsv(DATA_QUALITY_COLUMNS, qualityOf.get(id) ?? []);
     files[`${folder}models.json`] = json(modelsJson([r]));
-    if (input.forecast) files[`${folder}forecast.csv`] = toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.filter((row) => row.building_id === id).map(roundForecastRow));
+    if (input.forecast) files[`${folder}forecast.csv`] = toCsv(FORECAST_COLUMNS, (forecastOf.get(id) ?? []).map(roundForecastRow));
   }
   return files;
+}
+
+/** `items` grouped by `keyOf`, each group in the items' order (items without a key are left out). */
+function groupBy<T>(items: readonly T[], keyOf: (item: T) => string | undefined): Map<string, T[]> {
+  const groups = new Map<string, T[]>();
+  for (const item of items) {
+    const key = keyOf(item);
+    if (key === undefined) continue;
+    const group = groups.get(key);
+    if (group) group.push(item);
+    else groups.set(key, [item]);
+  }
+  return groups;
 }
 
 const FORECAST_COLUMNS = ["building_id", "meter_id", "month", "usage_p50", "cost_p10", "cost_p50", "cost_p90"] as const;
@@ -86,10 +106,22 @@ function roundForecastRow(row: ForecastRow): ForecastRow {
   return { ...row, usage_p50: Number(row.usage_p50.toFixed(3)), cost_p10: roundCents(row.cost_p10), cost_p50: roundCents(row.cost_p50), cost_p90: roundCents(row.cost_p90) };
 }
 
-function billsRecomputedCsv(input: OutputsInput, bills: Bill[], buildingOfMeter: Map<string, string>): string {
+/** What every cut of bills-recomputed.csv reads, gathered once. */
+interface BillsRecomputedContext {
+  input: OutputsInput;
+  computed: Map<string, PricedBill["computed"]>;
+  claimOf: Map<string, { id: string; amount: number }>;
+}
+
+function billsRecomputedContext(input: OutputsInput): BillsRecomputedContext {
   const computed = new Map([...input.priced].map(([id, p]) => [id, p.computed]));
   const claimOf = new Map<string, { id: string; amount: number }>();
   for (const d of input.disputes) for (const b of d.bills) if (b.billId) claimOf.set(b.billId, { id: d.disputeId, amount: b.claimAmount });
+  return { input, computed, claimOf };
+}
+
+function billsRecomputedCsv(context: BillsRecomputedContext, bills: Bill[], buildingOfMeter: Map<string, string>): string {
+  const { input, computed, claimOf } = context;
   const billed = new Map(bills.map((b) => [b.billId, b.total]));
   const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", computed).map((row) => {
     const metered = input.meteredViews.get(row.bill_id);
@@ -232,6 +264,9 @@ function portfolioJson(input: OutputsInput) {
   const asOf = effectiveAsOf(portfolio);
   const heatContent = (tariffId: string) => portfolio.tariffs.get(tariffId)?.heatContentThermPerCcf ?? DEFAULT_HEAT_CONTENT_THERM_PER_CCF;
   const fc = input.forecast;
+  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
+  const billsOf = groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId));
+  const forecastOf = new Map((fc?.forecast.buildings ?? []).map((f) => [f.buildingId, f]));
   return {
     name: portfolio.settings.name,
     currency: portfolio.settings.currency,
@@ -279,7 +314,7 @@ function portfolioJson(input: OutputsInput) {
     buildings: results.map((r) => {
       const b = r.building;
       const meters = portfolio.meters.filter((m) => m.buildingId === b.buildingId);
-      const usage = asOf ? buildingUsageLast12m(b, meters, portfolio.bills, asOf, (m) => heatContent(m.tariffId)) : [];
+      const usage = asOf ? buildingUsageLast12m(b, meters, billsOf.get(b.buildingId) ?? [], asOf, (m) => heatContent(m.tariffId)) : [];
       const commodities: Record<string, unknown> = {};
       for (const u of usage) {
         const own = r.baselines.filter((x) => meters.find((m) => m.meterId === x.meterId)?.commodity === u.commodity);
@@ -322,7 +357,7 @@ function portfolioJson(input: OutputsInput) {
         ...commodities,
         site_eui_kwh_m2: siteKwh === null ? null : round(siteKwh / b.floorAreaM2, 3),
         site_eui_kbtu_ft2: siteKwh === null ? null : round(kwhPerM2ToKbtuPerFt2(siteKwh / b.floorAreaM2), 3),
-        forecast_cost_next_12m: bandJson(input.forecast?.forecast.buildings.find((f) => f.buildingId === b.buildingId)?.costNext12m ?? null),
+        forecast_cost_next_12m: bandJson(forecastOf.get(b.buildingId)?.costNext12m ?? null),
         findings_count: { error: count("error"), warning: count("warning"), info: count("info") },
         analysis_error: r.failure,
       };
