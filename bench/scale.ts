@@ -20,6 +20,7 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { parseArgs } from "node:util";
 import { writeScalePortfolio } from "./lib/scalePortfolio.ts";
+import { childEnv } from "../bin/childEnv.js";
 
 const { values } = parseArgs({
   options: {
@@ -70,7 +71,8 @@ function buildOnce(out: string, buildOptions: Record<string, unknown>): ChildRep
     cwd: root,
     encoding: "utf8",
     maxBuffer: 1 << 26,
-    env: { ...process.env, NODE_OPTIONS: process.env.NODE_OPTIONS ?? "" },
+    // The environment the launcher (bin/ohmbook.js) gives the CLI, so the figures are the ones users get.
+    env: childEnv({ ...process.env, NODE_OPTIONS: process.env.NODE_OPTIONS ?? "" }),
   });
   if (child.status !== 0) {
     console.error(child.stderr);
@@ -124,7 +126,7 @@ async function sameTree(a: string, b: string): Promise<boolean> {
 function cli(args: string[]): Promise<number> {
   const t0 = performance.now();
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ["--import", "tsx", join(root, "src", "cli", "main.ts"), ...args], { cwd: root, stdio: ["ignore", "ignore", "pipe"] });
+    const child = spawn(process.execPath, ["--import", "tsx", join(root, "src", "cli", "main.ts"), ...args], { cwd: root, stdio: ["ignore", "ignore", "pipe"], env: childEnv() });
     let err = "";
     child.stderr.on("data", (d) => (err += String(d)));
     child.on("close", (code) => (code === 0 ? resolve(performance.now() - t0) : reject(new Error(`ohmbook ${args.join(" ")} failed:\n${err}`))));

@@ -8,6 +8,7 @@ import { existsSync, readdirSync, statSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { dirname, join } from "node:path";
 import { createRequire } from "node:module";
+import { childEnv } from "./childEnv.js";
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, "..");
@@ -36,7 +37,7 @@ if (compiledIsFresh()) {
   const require = createRequire(import.meta.url);
   command = [require.resolve("tsx/cli"), join(root, "src", "cli", "main.ts")];
 }
-const child = spawn(process.execPath, [...command, ...process.argv.slice(2)], { stdio: "inherit" });
+const child = spawn(process.execPath, [...command, ...process.argv.slice(2)], { stdio: "inherit", env: childEnv() });
 for (const signal of ["SIGINT", "SIGTERM", "SIGHUP"]) {
   process.on(signal, () => {
     if (child.exitCode === null) child.kill(signal);
