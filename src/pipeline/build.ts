@@ -19,7 +19,8 @@ import { billCheckState } from "../tariff/index.ts";
 import { monthlyMeteredByMeter } from "./monthly.ts";
 import { meteredViewsByBill } from "../audit/index.ts";
 import { toReportInput, type BuildingResults } from "../report/index.ts";
-import { buildDataFiles } from "../report/index.ts";
+import { dataFileEntries } from "../report/index.ts";
+import { collectGarbage } from "../core/collectGarbage.ts";
 import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "../report/index.ts";
@@ -116,6 +117,8 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
 
+  // Each stage starts from what is live, not from the previous stage's garbage (collectGarbage.ts).
+  collectGarbage();
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
   reporter.step(0, portfolio.buildings.length, "");
@@ -148,11 +151,14 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const disputes = portfolioDisputes(portfolio, findings, priced);
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
+  collectGarbage();
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
   const forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined);
 
+  collectGarbage();
   reporter.stage(`Writing the site to ${options.outDir}`);
-  const dataFiles = buildDataFiles({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
+  // Made one file at a time as the site writer puts each on disk.
+  const dataFiles = dataFileEntries({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
   const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps, forecast });
   const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
   // The internal site's building pages are made a few buildings at a time as they are written.

@@ -50,23 +50,29 @@ const round = (x: number | null, digits: number): number | null => (x === null |
  * per building under `buildings/<building_id>/` for the building pages' downloads.
  */
 export function buildDataFiles(input: OutputsInput): Record<string, string> {
+  return Object.fromEntries(dataFileEntries(input));
+}
+
+/**
+ * The data files of buildDataFiles one at a time, in the same order, so a writer can put each on
+ * disk and let it go: a thousand-building portfolio has about a hundred megabytes of them.
+ */
+export function* dataFileEntries(input: OutputsInput): Generator<[name: string, text: string]> {
   const { portfolio, findings } = input;
   const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
   const qualityRows = dataQualityRows(input);
   const billContext = billsRecomputedContext(input);
-  const files: Record<string, string> = {
-    "portfolio.json": json(portfolioJson(input)),
-    "findings.json": json(toFindingsJson(findings)),
-    "findings.csv": findingsToCsvText(findings),
-    "disputes.csv": disputesCsv(input.disputes),
-    "disputes.json": json(disputesJson(input.disputes)),
-    "bills-recomputed.csv": billsRecomputedCsv(billContext, portfolio.bills, buildingOfMeter),
-    "ingest-report.json": json({ files: portfolio.report.files }),
-    "data-quality.csv": toCsv(DATA_QUALITY_COLUMNS, qualityRows),
-    "alignment.json": json(alignmentJson(input.quality)),
-    "models.json": json(modelsJson(input.results)),
-  };
-  if (input.forecast) files["forecast.csv"] = toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.map(roundForecastRow));
+  yield ["portfolio.json", json(portfolioJson(input))];
+  yield ["findings.json", json(toFindingsJson(findings))];
+  yield ["findings.csv", findingsToCsvText(findings)];
+  yield ["disputes.csv", disputesCsv(input.disputes)];
+  yield ["disputes.json", json(disputesJson(input.disputes))];
+  yield ["bills-recomputed.csv", billsRecomputedCsv(billContext, portfolio.bills, buildingOfMeter)];
+  yield ["ingest-report.json", json({ files: portfolio.report.files })];
+  yield ["data-quality.csv", toCsv(DATA_QUALITY_COLUMNS, qualityRows)];
+  yield ["alignment.json", json(alignmentJson(input.quality))];
+  yield ["models.json", json(modelsJson(input.results))];
+  if (input.forecast) yield ["forecast.csv", toCsv(FORECAST_COLUMNS, input.forecast.forecast.rows.map(roundForecastRow))];
   // Each table is cut by building in one pass over its rows (not one pass per building: a
   // thousand-building portfolio has about a hundred thousand bills).
   const findingsOf = groupBy(findings, (f) => f.buildingId);
@@ -77,14 +83,13 @@ export function buildDataFiles(input: OutputsInput): Record<string, string> {
   for (const r of input.results) {
     const id = r.building.buildingId;
     const folder = `buildings/${id}/`;
-    files[`${folder}findings.csv`] = findingsToCsvText(findingsOf.get(id) ?? []);
-    files[`${folder}disputes.csv`] = disputesCsv(disputesOf.get(id) ?? []);
-    files[`${folder}bills-recomputed.csv`] = billsRecomputedCsv(billContext, billsOf.get(id) ?? [], buildingOfMeter);
-    files[`${folder}data-quality.csv`] = toCsv(DATA_QUALITY_COLUMNS, qualityOf.get(id) ?? []);
-    files[`${folder}models.json`] = json(modelsJson([r]));
-    if (input.forecast) files[`${folder}forecast.csv`] = toCsv(FORECAST_COLUMNS, (forecastOf.get(id) ?? []).map(roundForecastRow));
+    yield [`${folder}findings.csv`, findingsToCsvText(findingsOf.get(id) ?? [])];
+    yield [`${folder}disputes.csv`, disputesCsv(disputesOf.get(id) ?? [])];
+    yield [`${folder}bills-recomputed.csv`, billsRecomputedCsv(billContext, billsOf.get(id) ?? [], buildingOfMeter)];
+    yield [`${folder}data-quality.csv`, toCsv(DATA_QUALITY_COLUMNS, qualityOf.get(id) ?? [])];
+    yield [`${folder}models.json`, json(modelsJson([r]))];
+    if (input.forecast) yield [`${folder}forecast.csv`, toCsv(FORECAST_COLUMNS, (forecastOf.get(id) ?? []).map(roundForecastRow))];
   }
-  return files;
 }
 
 /** `items` grouped by `keyOf`, each group in the items' order (items without a key are left out). */

@@ -6,7 +6,7 @@ export { describeDataFiles, describeDataFile, formatBytes, DATA_FILE_DESCRIPTION
 export { jsonForScript } from "./format.ts";
 
 // Used by other folders (see test/architecture/layers.test.ts).
-export { buildDataFiles } from "./dataFiles.ts";
+export { buildDataFiles, dataFileEntries } from "./dataFiles.ts";
 export { buildingDataFolder } from "./dataPage.ts";
 export { toReportInput } from "./fromAnalysis.ts";
 export type { BuildingResults, HourlyModelOutcome } from "./fromAnalysis.ts";

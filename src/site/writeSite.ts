@@ -10,13 +10,12 @@ import { rmSync } from "node:fs";
 import { basename, dirname, join, relative, resolve, sep } from "node:path";
 import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
-import { setFlagsFromString } from "node:v8";
-import { runInNewContext } from "node:vm";
 import Eleventy from "@11ty/eleventy";
 import type { SiteModel, SiteModelInParts } from "../report/index.ts";
 import { OhmbookError } from "../core/errors.ts";
+import { collectGarbage } from "../core/collectGarbage.ts";
 import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
-import { buildingDataSizes, dataFileSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
+import { buildingDataSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
 import { applyClientBundle, type ClientBundle } from "./clientBundle.ts";
 import { clientBundleOnce } from "./bundleReuse.ts";
 import { openPageReuse, type PageReuse } from "./pageReuse.ts";
@@ -234,8 +233,9 @@ export function viteOptions(verbose: boolean, onError: (error: Error) => void): 
 }
 
 /**
- * Renders `model` into `outDir` with every file in `dataFiles` (name relative to data/ → text)
- * under `outDir/data/`. Replaces `outDir` only when the whole build succeeded. A model in parts
+ * Renders `model` into `outDir` with every file in `dataFiles` (name relative to data/ → text, or
+ * such pairs one at a time: each is written and let go before the next is made) under
+ * `outDir/data/`. Replaces `outDir` only when the whole build succeeded. A model in parts
  * (siteModelInParts) has its building pages made a pass at a time, so they are never all in memory.
  * `options.verbose` lets Eleventy and Vite log to the console (for debugging a build).
  * @throws SiteWriteError when rendering, bundling or writing fails (outDir unchanged).
@@ -243,15 +243,16 @@ export function viteOptions(verbose: boolean, onError: (error: Error) => void): 
  */
 export async function writeSite(
   model: SiteModel | SiteModelInParts,
-  dataFiles: Record<string, string>,
+  dataFiles: Record<string, string> | Iterable<readonly [name: string, text: string]>,
   outDir: string,
   options: WriteSiteOptions = {},
 ): Promise<WriteSiteStats> {
   const verbose = options.verbose ?? false;
   const contentDir = resolve(options.contentDir ?? CONTENT_DIR);
   const out = resolve(outDir);
-  // Refuse bad data-file names before any work (and before touching the disk).
-  for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
+  const dataEntries = isIterable(dataFiles) ? dataFiles : Object.entries(dataFiles);
+  // Refuse bad data-file names before any work (and before touching the disk) when they are known.
+  if (!isIterable(dataFiles)) for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
   await checkOutputFolder(out);
   let scratch: string;
   try {
@@ -274,16 +275,11 @@ export async function writeSite(
     const pages = options.reuse
       ? await openPageReuse({ cacheDir: options.reuse.cacheDir, publishedDir: out, program: options.reuse.program, contentDir, shared: { meta, headTags: bundle.headTags } })
       : null;
-    await renderPages(model, dataFileSizes(dataFiles), { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS, onProgress: options.onProgress, pages });
+    // The data files first (the pages list them with their sizes), each written as it is made.
+    const sizes = await writeDataFiles(dataEntries, join(stage, "data"));
+    await renderPages(model, sizes, { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS, onProgress: options.onProgress, pages });
     if (!(await exists(join(stage, "index.html")))) {
       throw new SiteWriteError("the site build produced no index.html");
-    }
-    const dataDir = join(stage, "data");
-    if (Object.keys(dataFiles).length > 0) await mkdir(dataDir, { recursive: true });
-    for (const [name, text] of Object.entries(dataFiles)) {
-      const target = safeDataPath(dataDir, name);
-      await mkdir(dirname(target), { recursive: true });
-      await writeFile(target, text, "utf8");
     }
     await writeFile(join(stage, SITE_MARKER), "This folder is a static site written by ohmbook; the next build replaces it whole.\n", "utf8");
     // Swap: move the old site aside, the new one in, then delete the old one.
@@ -301,6 +297,7 @@ export async function writeSite(
     return { pagesRendered: pages?.renderedCount ?? 0, pagesReused: pages?.reused ?? 0, bundleReused };
   } catch (error) {
     if (error instanceof SiteWriteError) throw error;
+    if (error instanceof DataFileMakerError) throw error.original;
     const cause: Error = bundleError ?? (error as Error);
     const stageName = bundleError ? "bundling scripts and styles (Vite)" : "rendering pages";
     // Vite colours its messages for terminals; the CLI prints this text as is.
@@ -312,19 +309,38 @@ export async function writeSite(
   }
 }
 
-/**
- * A full garbage collection, between passes: each pass leaves a few hundred megabytes of page
- * strings behind, and without it V8 lets the heap (and so the process's memory) grow with the
- * number of passes. node:v8 can expose `gc` at run time; null when it cannot.
- */
-const collectGarbage: (() => void) | null = (() => {
-  try {
-    setFlagsFromString("--expose-gc");
-    return runInNewContext("gc") as () => void;
-  } catch {
-    return null;
+/** Carries an error thrown while a data file was being made, so it reaches the caller unchanged. */
+class DataFileMakerError extends Error {
+  constructor(readonly original: unknown) {
+    super("a data file could not be made");
   }
-})();
+}
+
+function isIterable(value: object): value is Iterable<readonly [string, string]> {
+  return typeof (value as { [Symbol.iterator]?: unknown })[Symbol.iterator] === "function";
+}
+
+/** Writes each data file under `dataDir` as it comes; returns their sizes in bytes (name → size). */
+async function writeDataFiles(entries: Iterable<readonly [string, string]>, dataDir: string): Promise<Record<string, number>> {
+  const sizes: Record<string, number> = {};
+  const iterator = entries[Symbol.iterator]();
+  for (;;) {
+    let next: IteratorResult<readonly [string, string]>;
+    try {
+      next = iterator.next();
+    } catch (error) {
+      // Making a file failed: the maker's error, not a writing problem.
+      throw new DataFileMakerError(error);
+    }
+    if (next.done) break;
+    const [name, text] = next.value;
+    const target = safeDataPath(dataDir, name);
+    await mkdir(dirname(target), { recursive: true });
+    await writeFile(target, text, "utf8");
+    sizes[name] = Buffer.byteLength(text, "utf8");
+  }
+  return sizes;
+}
 
 /** Building pages rendered per Eleventy pass (with their meter and tenant pages, in proportion). */
 export const BUILDINGS_PER_PASS = 20;
@@ -364,10 +380,10 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
   const firstPassClaims = passes === 0 ? claims : [];
   const shell: SiteModel = { ...portfolioPages, claims: firstPassClaims.map((f) => f.page), buildings: [], meterBills: [], tenants: [] };
   const firstPassTemplates = new Set<string>();
-  collectGarbage?.();
+  collectGarbage();
   await eleventyPass(shell, ctx, firstPassTemplates, null);
   if (ctx.pages) for (const f of firstPassClaims) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
-  collectGarbage?.();
+  collectGarbage();
   if (passes === 0) return;
   // A whole model is cut into equal shares of each page list; a model in parts gives the pages
   // of each consecutive range of buildings, made just now.
@@ -395,7 +411,8 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
       };
       await eleventyPass(site, ctx, null, firstPassTemplates);
       if (ctx.pages) for (const f of [...buildings, ...meterBills, ...tenants, ...passClaims]) await ctx.pages.rendered(f.page.path, f.key, ctx.stage);
-      collectGarbage?.();
+      // Each pass leaves its page strings behind; without this the heap grows with the passes.
+      collectGarbage();
     }
     written += to - from;
     ctx.onProgress?.(written, buildingCount);

@@ -161,6 +161,18 @@ describe("writeSite", () => {
     expect((await readdir(work)).sort()).toEqual(["site"]);
   }, 60_000);
 
+  it("passes on unchanged an error raised while a data file is made, and leaves the published site as it was", async () => {
+    const before = await readFile(join(out, "index.html"));
+    const bug = new TypeError("a bug in a data file");
+    function* data(): Generator<[string, string]> {
+      yield ["findings.csv", "building_id\n"];
+      throw bug;
+    }
+    await expect(writeSite(buildSiteModel(fixtureInput()), data(), out)).rejects.toBe(bug);
+    expect((await readFile(join(out, "index.html"))).equals(before)).toBe(true);
+    expect(await readFile(join(out, "data", "findings.csv"), "utf8")).toBe(DATA["findings.csv"]);
+  }, 60_000);
+
   it("creates no output folder when the first build fails", async () => {
     const fresh = join(work, "never");
     await expect(writeSite(buildSiteModel(fixtureInput()), { "../escape.csv": "x" }, fresh)).rejects.toThrow(/outside data/);
@@ -168,7 +180,7 @@ describe("writeSite", () => {
     expect((await readdir(work)).sort()).toEqual(["site"]);
   }, 60_000);
 
-  it("writes the same site byte for byte whether building pages are rendered one per pass or all in one, made up front or per pass", async () => {
+  it("writes the same site byte for byte whether building pages are rendered one per pass or all in one, made up front or per pass, and data files given whole or one at a time", async () => {
     const model = buildSiteModel(fixtureInput());
     expect(model.buildings.length).toBeGreaterThan(1);
     expect(model.meterBills.length).toBeGreaterThan(model.buildings.length);
@@ -177,13 +189,14 @@ describe("writeSite", () => {
     const list = async (dir: string) => (await readdir(dir, { recursive: true, withFileTypes: true })).filter((e) => e.isFile()).map((e) => join(e.parentPath, e.name).slice(dir.length + 1)).sort();
     const files = await list(all);
     expect(files.filter((f) => f.startsWith("buildings/")).length).toBe(model.buildings.length);
-    const variants: [string, Parameters<typeof writeSite>[0]][] = [
-      ["one-per-pass", model],
-      ["in-parts-one-per-pass", siteModelInParts(fixtureInput())],
+    const variants: [string, Parameters<typeof writeSite>[0], Parameters<typeof writeSite>[1]][] = [
+      ["one-per-pass", model, DATA],
+      ["in-parts-one-per-pass", siteModelInParts(fixtureInput()), DATA],
+      ["data-one-at-a-time", siteModelInParts(fixtureInput()), (function* () { yield* Object.entries(DATA); })()],
     ];
-    for (const [name, source] of variants) {
+    for (const [name, source, data] of variants) {
       const dir = join(work, name);
-      await writeSite(source, DATA, dir, { buildingsPerPass: 1 });
+      await writeSite(source, data, dir, { buildingsPerPass: 1 });
       expect(await list(dir)).toEqual(files);
       for (const f of files) expect((await readFile(join(dir, f))).equals(await readFile(join(all, f))), `${name}: ${f}`).toBe(true);
       await rm(dir, { recursive: true, force: true });
