@@ -16,7 +16,8 @@ import { existsSync, readFileSync, renameSync, rmSync, statSync, utimesSync, wri
 import { mkdir, readdir, readFile, rename, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { basename, dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
-import { deserialize, serialize } from "node:v8";
+import { serialize } from "node:v8";
+import { deserializeOwned } from "../core/deserializeOwned.ts";
 import type { BuildingTask, PlainResults } from "./buildingTask.ts";
 import type { Memo } from "../core/memo.ts";
 import { contentHash, hashFolder } from "../core/contentHash.ts";
@@ -80,7 +81,7 @@ function entryPath(cache: AnalysisCache, key: string): string {
 export async function readCached(cache: AnalysisCache, key: string): Promise<PlainResults | null> {
   cache.used.add(key);
   try {
-    const plain = deserialize(await readFile(entryPath(cache, key))) as PlainResults;
+    const plain = deserializeOwned(await readFile(entryPath(cache, key))) as PlainResults;
     cache.hits++;
     const now = new Date();
     await utimes(entryPath(cache, key), now, now).catch(() => undefined);
@@ -125,7 +126,7 @@ export function cacheMemo(cache: AnalysisCache): Memo {
     cache.used.add(key);
     const path = entryPath(cache, key);
     try {
-      const value = deserialize(readFileSync(path)) as T;
+      const value = deserializeOwned(readFileSync(path)) as T;
       const now = new Date();
       try {
         utimesSync(path, now, now);
