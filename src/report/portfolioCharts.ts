@@ -16,9 +16,17 @@ import { KWH_PER_THERM } from "../core/units.ts";
 export const EUI_BASIS = `Energy use intensity = site energy over the last 12 months (each meter's 12 months up to its last read) ÷ floor area. Site energy = electricity kWh + gas therms × ${KWH_PER_THERM.toFixed(4)} kWh per therm (gas billed in ccf: × the tariff's therm per ccf first, 1.037 when it states none); water is not energy and is left out. The same figures as site_eui_kwh_m2 in portfolio.json.`;
 
 /**
+ * Most bars the EUI ranking draws. A large portfolio's chart would otherwise be thousands of bars
+ * (14,000 px tall at 1,000 buildings) that nobody can read; the highest are the ones to look at,
+ * and the table under the chart keeps every building, sortable.
+ */
+export const RANKING_MAX_BARS = 40;
+
+/**
  * Ranking of buildings by EUI (kWh/m²) over the last 12 months (per-meter windows, the same
- * figure as `site_eui_kwh_m2` in portfolio.json), largest first; null when no building has
- * energy use and a floor area.
+ * figure as `site_eui_kwh_m2` in portfolio.json), largest first, the chart drawing the
+ * RANKING_MAX_BARS highest and its table every building; null when no building has energy use
+ * and a floor area.
  */
 export function intensityChart(contexts: readonly BuildingContext[]): RankingChartModel | null {
   const rows: { name: string; kwh: number; area: number; eui: number }[] = [];
@@ -31,14 +39,20 @@ export function intensityChart(contexts: readonly BuildingContext[]): RankingCha
   }
   if (rows.length === 0) return null;
   rows.sort((a, b) => b.eui - a.eui);
+  const drawn = rows.slice(0, RANKING_MAX_BARS);
+  const capped = drawn.length < rows.length;
   return {
     id: "chart-portfolio-eui",
     kind: "ranking",
-    title: "Energy use intensity, last 12 months (kWh per m²)",
-    description: `Horizontal bar chart ranking ${formatNumber(rows.length)} buildings by site energy use per m² of floor area over the last 12 months, highest first; highest ${rows[0].name} at ${formatNumber(rows[0].eui, 0)} kWh/m².`,
+    title: capped
+      ? `Energy use intensity, last 12 months (kWh per m²): the ${formatNumber(drawn.length)} highest of ${formatNumber(rows.length)} buildings`
+      : "Energy use intensity, last 12 months (kWh per m²)",
+    description: capped
+      ? `Horizontal bar chart of the ${formatNumber(drawn.length)} buildings with the highest site energy use per m² of floor area over the last 12 months, highest first; highest ${rows[0].name} at ${formatNumber(rows[0].eui, 0)} kWh/m². All ${formatNumber(rows.length)} buildings are in the table of numbers behind this chart.`
+      : `Horizontal bar chart ranking ${formatNumber(rows.length)} buildings by site energy use per m² of floor area over the last 12 months, highest first; highest ${rows[0].name} at ${formatNumber(rows[0].eui, 0)} kWh/m².`,
     valueLabel: "kWh per m²",
     valueFormat: ",.1f",
-    items: rows.map((r) => ({ label: r.name, value: Math.round(r.eui * 10) / 10, note: `${formatNumber(kwhPerM2ToKbtuPerFt2(r.eui), 1)} kBtu/ft²` })),
+    items: drawn.map((r) => ({ label: r.name, value: Math.round(r.eui * 10) / 10, note: `${formatNumber(kwhPerM2ToKbtuPerFt2(r.eui), 1)} kBtu/ft²` })),
     table: {
       caption: "Energy use intensity by building, last 12 months",
       sortable: true,

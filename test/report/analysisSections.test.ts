@@ -7,7 +7,7 @@ import { compareCommodity, signedPct, tenantMonths, tenantSentences } from "../.
 import { meetsMonthlyGuideline14, verdictFor } from "../../src/report/baselineSection.ts";
 import { alignmentSentences, colorScaleMax, heatmapDays, localDayHour, qualitySections, weatherActionLabel } from "../../src/report/qualitySection.ts";
 import { describeDataFile } from "../../src/report/dataPage.ts";
-import { normalizedChangePct } from "../../src/report/portfolioCharts.ts";
+import { intensityChart, normalizedChangePct, RANKING_MAX_BARS } from "../../src/report/portfolioCharts.ts";
 import type { BuildingContext } from "../../src/report/buildingPage.ts";
 import { ZERO_RUN, fullFixtureInput } from "./fixture.ts";
 import { FT2_PER_M2, KBTU_PER_KWH, KWH_PER_THERM } from "../../src/core/units.ts";
@@ -274,6 +274,33 @@ describe("portfolio charts", () => {
     const b1 = (sum("E1") + sum("G1") * 29.3071) / (52_000 * 0.09290304);
     const b2 = sum("E2") / (18_000 * 0.09290304);
     expect(chart.items.map((i) => i.value)).toEqual([Math.round(b1 * 10) / 10, Math.round(b2 * 10) / 10]);
+  });
+
+  it("draws the highest RANKING_MAX_BARS buildings of a large portfolio and keeps every building in its table", () => {
+    const count = RANKING_MAX_BARS + 5;
+    const contexts: BuildingContext[] = Array.from({ length: count }, (_, i) => {
+      const building = { buildingId: `B${i}`, name: `Building ${i}`, floorAreaM2: 1000 } as Building;
+      const meter = { meterId: `M${i}`, buildingId: building.buildingId, commodity: "electricity", unit: "kWh" } as Meter;
+      // Twelve calendar-month bills of 1,000·(i + 1) kWh each: EUI rises with i, so the last is highest.
+      const bills = Array.from({ length: 12 }, (_, k) => ({
+        billId: `b${i}-${k}`, meterId: meter.meterId,
+        periodStart: new Date(Date.UTC(2024, k, 1)).toISOString().slice(0, 10),
+        periodEnd: new Date(Date.UTC(2024, k + 1, 1)).toISOString().slice(0, 10),
+        usage: 1000 * (i + 1),
+      }) as Bill);
+      return { building, meters: [meter], billsByMeter: new Map([[meter.meterId, bills]]), asOf: "2024-12-31", heatContentOf: () => 1.037, currency: "USD" };
+    });
+    const chart = intensityChart(contexts)!;
+    expect(chart.items).toHaveLength(RANKING_MAX_BARS);
+    expect(chart.items[0]!.label).toBe(`Building ${count - 1}`);
+    expect(chart.items.at(-1)!.label).toBe(`Building ${count - RANKING_MAX_BARS}`);
+    expect(chart.table.rows).toHaveLength(count);
+    expect(chart.title).toContain(`the ${RANKING_MAX_BARS} highest of ${count} buildings`);
+    expect(chart.description).toContain(`All ${count} buildings are in the table`);
+    // A portfolio that fits draws every building, under the plain title.
+    const small = intensityChart(contexts.slice(0, 3))!;
+    expect(small.items).toHaveLength(3);
+    expect(small.title).toBe("Energy use intensity, last 12 months (kWh per m²)");
   });
 
   it("weather-normalized change: +10 % when adjusted use rises 10 % (hand-computed)", () => {
