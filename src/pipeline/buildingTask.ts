@@ -21,6 +21,43 @@ export interface BuildingTask {
 
 const WEEK_MS = 7 * 24 * 3_600_000;
 
+/** Bills and bill lines of each building, in the portfolio's order, made once per portfolio. */
+interface PortfolioRows {
+  bills: Map<string, Portfolio<Tariff>["bills"]>;
+  billLines: Map<string, Portfolio<Tariff>["billLines"]>;
+}
+
+const rowsByPortfolio = new WeakMap<Portfolio<Tariff>, PortfolioRows>();
+
+/**
+ * One pass over the portfolio's bills and bill lines instead of one per building (a thousand
+ * buildings have about a hundred thousand bills and several times as many lines).
+ */
+function rowsByBuilding(portfolio: Portfolio<Tariff>): PortfolioRows {
+  let rows = rowsByPortfolio.get(portfolio);
+  if (rows) return rows;
+  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
+  const buildingOfBill = new Map<string, string>();
+  rows = { bills: new Map(), billLines: new Map() };
+  for (const bill of portfolio.bills) {
+    const buildingId = buildingOfMeter.get(bill.meterId);
+    if (buildingId === undefined) continue;
+    buildingOfBill.set(bill.billId, buildingId);
+    const list = rows.bills.get(buildingId);
+    if (list) list.push(bill);
+    else rows.bills.set(buildingId, [bill]);
+  }
+  for (const line of portfolio.billLines) {
+    const buildingId = buildingOfBill.get(line.billId);
+    if (buildingId === undefined) continue;
+    const list = rows.billLines.get(buildingId);
+    if (list) list.push(line);
+    else rows.billLines.set(buildingId, [line]);
+  }
+  rowsByPortfolio.set(portfolio, rows);
+  return rows;
+}
+
 /** The part of `portfolio` that analysing `building` reads (see the module comment). */
 export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array>, onBug: BugPolicy = "fail"): BuildingTask {
   const own = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
@@ -41,9 +78,7 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
   const buildings = portfolio.buildings.filter((b) => buildingIds.has(b.buildingId));
   const meters = portfolio.meters.filter((m) => meterIds.has(m.meterId));
   const stations = new Set(buildings.map((b) => b.weatherStation));
-  const ownIds = new Set(own.map((m) => m.meterId));
-  const bills = portfolio.bills.filter((b) => ownIds.has(b.meterId));
-  const billIds = new Set(bills.map((b) => b.billId));
+  const rows = rowsByBuilding(portfolio);
   const pick = <V>(map: ReadonlyMap<string, V>, keep: (k: string) => boolean) => new Map([...map].filter(([k]) => keep(k)));
   return {
     buildingId: building.buildingId,
@@ -55,8 +90,8 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
       report: { files: [] },
       buildings,
       meters,
-      bills,
-      billLines: portfolio.billLines.filter((l) => billIds.has(l.billId)),
+      bills: rows.bills.get(building.buildingId) ?? [],
+      billLines: rows.billLines.get(building.buildingId) ?? [],
       intervals: pick(portfolio.intervals, (k) => meterIds.has(k)),
       weather: pick(portfolio.weather, (k) => stations.has(k)),
       normals: pick(portfolio.normals, (k) => stations.has(k)),
