@@ -78,6 +78,13 @@ describe("plain results across the worker boundary", () => {
     const direct = analyseBuilding(portfolio, building, masks);
     const task = buildingTask(portfolio, building, masks);
     expect(task.portfolio.meters.map((m) => m.meterId)).toEqual(["ASH-E", "ASH-G", "ASH-W"]);
+    // The building's own bills and bill lines, in the portfolio's order.
+    const own = new Set(["ASH-E", "ASH-G", "ASH-W"]);
+    const ownBills = portfolio.bills.filter((b) => own.has(b.meterId));
+    expect(task.portfolio.bills).toEqual(ownBills);
+    const ownBillIds = new Set(ownBills.map((b) => b.billId));
+    expect(task.portfolio.billLines).toEqual(portfolio.billLines.filter((l) => ownBillIds.has(l.billId)));
+    expect(task.portfolio.billLines.length).toBeGreaterThan(0);
     const viaClone = hydrateResults(structuredClone(plainResults(analyseBuilding(task.portfolio, building, task.masks))));
     expect(viaClone.findings).toEqual(direct.findings);
     expect([...viaClone.priced.keys()]).toEqual([...direct.priced.keys()]);
