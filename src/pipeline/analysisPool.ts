@@ -18,6 +18,7 @@ import { availableParallelism } from "node:os";
 import Tinypool from "tinypool";
 import type { Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
+import { internStrings } from "../core/internStrings.ts";
 import { OhmbookError, type BugPolicy } from "../core/errors.ts";
 import type { BuildingResults } from "../report/index.ts";
 import { analyseTask, buildingTask, hydrateResults, type BuildingTask, type PlainResults } from "./buildingTask.ts";
@@ -62,6 +63,8 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
   const cache = options.cache ?? null;
   if (cache) keyTariffs(cache, portfolio.tariffs);
   const results: BuildingResults[] = new Array(buildings.length);
+  // Results from threads and the cache carry a copy of every string; keep one of each (internStrings.ts).
+  const strings = new Map<string, string>();
   let done = 0;
   // Threads start only when a building is not in the cache.
   let pool: Tinypool | null = null;
@@ -87,7 +90,7 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
           if (cache && key && plain.bugReport === undefined) await writeCached(cache, key, plain);
         }
         if (plain.bugReport !== undefined) options.onBugReport?.(buildings[i]!.buildingId, plain.bugReport);
-        results[i] = hydrateResults(plain);
+        results[i] = hydrateResults(internStrings(plain, strings));
         options.onDone?.(++done, buildings.length, buildings[i]!.buildingId);
       }
     };
