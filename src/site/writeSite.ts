@@ -309,9 +309,6 @@ export async function writeSite(
   }
 }
 
-/** Garbage allowed to pile up while the data files are made: small beside the memory target, and few collections (about four at 1,000 buildings). */
-const GARBAGE_BUDGET_BYTES = 256 * 2 ** 20;
-
 /** Carries an error thrown while a data file was being made, so it reaches the caller unchanged. */
 class DataFileMakerError extends Error {
   constructor(readonly original: unknown) {
@@ -327,7 +324,7 @@ function isIterable(value: object): value is Iterable<readonly [string, string]>
 async function writeDataFiles(entries: Iterable<readonly [string, string]>, dataDir: string): Promise<Record<string, number>> {
   const sizes: Record<string, number> = {};
   // Making the files leaves about ten times their size in garbage (measured: ~1 GB at 1,000 buildings).
-  const budget = garbageBudget(GARBAGE_BUDGET_BYTES);
+  const budget = garbageBudget();
   const iterator = entries[Symbol.iterator]();
   for (;;) {
     let next: IteratorResult<readonly [string, string]>;

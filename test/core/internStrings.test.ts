@@ -6,7 +6,7 @@ describe("internStrings", () => {
     const make = () => ({
       status: "exact",
       lines: [{ status: "exact", unit: "kWh", notes: ["Each line is rounded."] }, { status: "estimated", unit: "kWh", notes: [] }],
-      byBill: new Map([["b1", { unit: "kWh" }], ["b2", "exact"]]),
+      byBill: new Map<string, unknown>([["b1", { unit: "kWh" }], ["b2", "exact"]]),
       numbers: new Float64Array([1, 2]),
       when: new Date(0),
       tags: new Set(["kept as is"]),
