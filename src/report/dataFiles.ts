@@ -67,7 +67,7 @@ export function* dataFileEntries(input: OutputsInput): Generator<[name: string, 
   yield ["findings.csv", findingsToCsvText(findings)];
   yield ["disputes.csv", disputesCsv(input.disputes)];
   yield ["disputes.json", json(disputesJson(input.disputes))];
-  yield ["bills-recomputed.csv", billsRecomputedCsv(billContext, portfolio.bills, buildingOfMeter)];
+  yield ["bills-recomputed.csv", csvInSlices(portfolio.bills, (slice) => billsRecomputedCsv(billContext, slice, buildingOfMeter))];
   yield ["ingest-report.json", json({ files: portfolio.report.files })];
   yield ["data-quality.csv", toCsv(DATA_QUALITY_COLUMNS, qualityRows)];
   yield ["alignment.json", json(alignmentJson(input.quality))];
@@ -90,6 +90,25 @@ export function* dataFileEntries(input: OutputsInput): Generator<[name: string, 
     yield [`${folder}models.json`, json(modelsJson([r]))];
     if (input.forecast) yield [`${folder}forecast.csv`, toCsv(FORECAST_COLUMNS, (forecastOf.get(id) ?? []).map(roundForecastRow))];
   }
+}
+
+/** Rows per slice of a large CSV: the rows of one slice are made, written out and let go together. */
+const CSV_SLICE_ROWS = 5_000;
+
+/**
+ * The CSV `csvOf` makes of `items`, made a slice of rows at a time: the same text (each slice's
+ * header dropped but the first's), without a hundred thousand rows' intermediate objects alive
+ * at once (they made a 450 MB peak at 1,000 buildings). `csvOf` must write each row from its
+ * item alone, with "\n" line ends.
+ */
+export function csvInSlices<T>(items: readonly T[], csvOf: (slice: T[]) => string, size = CSV_SLICE_ROWS): string {
+  if (items.length <= size) return csvOf([...items]);
+  let text = "";
+  for (let i = 0; i < items.length; i += size) {
+    const part = csvOf(items.slice(i, i + size));
+    text += i === 0 ? part : part.slice(part.indexOf("\n") + 1);
+  }
+  return text;
 }
 
 /** `items` grouped by `keyOf`, each group in the items' order (items without a key are left out). */
