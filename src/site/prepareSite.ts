@@ -12,7 +12,6 @@ import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
 import { heatmapSvg } from "./charts/heatmapSvg.ts";
 import { forecastSpec } from "./charts/forecastSpec.ts";
 import { tenantSpec } from "./charts/tenantSpec.ts";
-import { garbageBudget } from "../core/collectGarbage.ts";
 
 /** The data files the dispute list offers for download, when this build wrote them. */
 const DISPUTE_FILES = ["disputes.csv", "disputes.json"];
@@ -44,12 +43,8 @@ export function chartSpec(chart: ChartModel): Record<string, unknown> {
   }
 }
 
-/** Vega leaves several megabytes of garbage per chart; a pass of pages makes hundreds of charts. */
-const chartGarbage = garbageBudget();
-
 /** Fills `spec`, `specJson` (compiled Vega) and `svg` of one chart. */
 export async function prepareChart<T extends ChartModel>(chart: T): Promise<T> {
-  chartGarbage.check();
   const spec = chartSpec(chart);
   const vega = await compileToVega(spec);
   // The heatmap's SVG from vega would hold one element per cell; ours bands them into paths.
