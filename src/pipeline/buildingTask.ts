@@ -6,6 +6,7 @@
 import type { Building, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { bugReportLine, type BugPolicy } from "../core/errors.ts";
+import { groupBy } from "../core/groupBy.ts";
 import { fitChangePointAt, SHORT_HISTORY_WEEKS } from "../model/index.ts";
 import type { BuildingResults } from "../report/index.ts";
 import { analyseBuilding, rethrow, type BugHandler } from "./analyseBuilding.ts";
@@ -37,23 +38,11 @@ function rowsByBuilding(portfolio: Portfolio<Tariff>): PortfolioRows {
   let rows = rowsByPortfolio.get(portfolio);
   if (rows) return rows;
   const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
-  const buildingOfBill = new Map<string, string>();
-  rows = { bills: new Map(), billLines: new Map() };
-  for (const bill of portfolio.bills) {
-    const buildingId = buildingOfMeter.get(bill.meterId);
-    if (buildingId === undefined) continue;
-    buildingOfBill.set(bill.billId, buildingId);
-    const list = rows.bills.get(buildingId);
-    if (list) list.push(bill);
-    else rows.bills.set(buildingId, [bill]);
-  }
-  for (const line of portfolio.billLines) {
-    const buildingId = buildingOfBill.get(line.billId);
-    if (buildingId === undefined) continue;
-    const list = rows.billLines.get(buildingId);
-    if (list) list.push(line);
-    else rows.billLines.set(buildingId, [line]);
-  }
+  const buildingOfBill = new Map(portfolio.bills.map((b) => [b.billId, buildingOfMeter.get(b.meterId)]));
+  rows = {
+    bills: groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId)),
+    billLines: groupBy(portfolio.billLines, (l) => buildingOfBill.get(l.billId)),
+  };
   rowsByPortfolio.set(portfolio, rows);
   return rows;
 }

@@ -1,5 +1,4 @@
 /** Assembles the whole site's view model from pipeline results. Pure: no I/O, no clock. */
-import type { Bill } from "../domain/types.ts";
 import type { ReportInput } from "./input.ts";
 import type { SiteModel } from "./siteModel.ts";
 import { buildBuildingPage, type BuildingContext } from "./buildingPage.ts";
@@ -15,6 +14,7 @@ import { buildDisputesPage } from "./disputesPage.ts";
 import { buildClaimSheets } from "./claimSheet.ts";
 import { billLinesByBill, buildMeterBillsPage, meterAnalysis } from "./meterBillsPage.ts";
 import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
+import { groupBy } from "../core/groupBy.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
@@ -52,12 +52,7 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
   const heat = input.heatContentByMeter;
   const heatContentOf = (m: { meterId: string }): number => heat?.get(m.meterId) ?? DEFAULT_HEAT_CONTENT_THERM_PER_CCF;
 
-  const billsByMeter = new Map<string, Bill[]>();
-  for (const b of portfolio.bills) {
-    const list = billsByMeter.get(b.meterId);
-    if (list) list.push(b);
-    else billsByMeter.set(b.meterId, [b]);
-  }
+  const billsByMeter = groupBy(portfolio.bills, (b) => b.meterId);
   for (const list of billsByMeter.values()) {
     list.sort((a, b) => (a.periodStart < b.periodStart ? -1 : a.periodStart > b.periodStart ? 1 : a.billId < b.billId ? -1 : 1));
   }

@@ -25,6 +25,7 @@ import { buildingUsageLast12m, effectiveAsOf, KWH_PER_REPORT_UNIT, REPORT_UNIT, 
 import { unitFactor } from "../tariff/index.ts";
 import { kwhPerM2ToKbtuPerFt2 } from "./energy.ts";
 import { moneyCell, roundCents } from "../core/money.ts";
+import { groupBy } from "../core/groupBy.ts";
 
 export interface OutputsInput {
   portfolio: Portfolio<Tariff>;
@@ -62,7 +63,8 @@ export function* dataFileEntries(input: OutputsInput): Generator<[name: string, 
   const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
   const qualityRows = dataQualityRows(input);
   const billContext = billsRecomputedContext(input);
-  yield ["portfolio.json", json(portfolioJson(input))];
+  const billsOf = groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId));
+  yield ["portfolio.json", json(portfolioJson(input, billsOf))];
   yield ["findings.json", json(toFindingsJson(findings))];
   yield ["findings.csv", findingsToCsvText(findings)];
   yield ["disputes.csv", disputesCsv(input.disputes)];
@@ -77,7 +79,6 @@ export function* dataFileEntries(input: OutputsInput): Generator<[name: string, 
   // thousand-building portfolio has about a hundred thousand bills).
   const findingsOf = groupBy(findings, (f) => f.buildingId);
   const disputesOf = groupBy(input.disputes, (d) => d.buildingId);
-  const billsOf = groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId));
   const qualityOf = groupBy(qualityRows, (row) => row.building_id);
   const forecastOf = groupBy(input.forecast?.forecast.rows ?? [], (row) => row.building_id);
   for (const r of input.results) {
@@ -109,19 +110,6 @@ export function csvInSlices<T>(items: readonly T[], csvOf: (slice: T[]) => strin
     text += i === 0 ? part : part.slice(part.indexOf("\n") + 1);
   }
   return text;
-}
-
-/** `items` grouped by `keyOf`, each group in the items' order (items without a key are left out). */
-function groupBy<T>(items: readonly T[], keyOf: (item: T) => string | undefined): Map<string, T[]> {
-  const groups = new Map<string, T[]>();
-  for (const item of items) {
-    const key = keyOf(item);
-    if (key === undefined) continue;
-    const group = groups.get(key);
-    if (group) group.push(item);
-    else groups.set(key, [item]);
-  }
-  return groups;
 }
 
 const FORECAST_COLUMNS = ["building_id", "meter_id", "month", "usage_p50", "cost_p10", "cost_p50", "cost_p90"] as const;
@@ -283,13 +271,12 @@ function originAccuracyJson(a: { meterMonths: number; actualTotal: number; forec
     : null;
 }
 
-function portfolioJson(input: OutputsInput) {
+/** portfolio.json; `billsOf`: the portfolio's bills by building id. */
+function portfolioJson(input: OutputsInput, billsOf: ReadonlyMap<string, Bill[]>) {
   const { portfolio, results } = input;
   const asOf = effectiveAsOf(portfolio);
   const heatContent = (tariffId: string) => portfolio.tariffs.get(tariffId)?.heatContentThermPerCcf ?? DEFAULT_HEAT_CONTENT_THERM_PER_CCF;
   const fc = input.forecast;
-  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
-  const billsOf = groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId));
   const forecastOf = new Map((fc?.forecast.buildings ?? []).map((f) => [f.buildingId, f]));
   return {
     name: portfolio.settings.name,
