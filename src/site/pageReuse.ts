@@ -6,25 +6,62 @@
  * - the client bundle's tags (hashed asset names);
  * - `site.meta`, the only portfolio-level part a per-building template reads (see writeSite.ts);
  * - the page's own view model, before its charts are rendered, and the sizes of its data files.
- * The manifest (`pages.json` in the cache folder) records each published page's key and the
- * SHA-256 of the file written; a page is reused only when its key matches AND the file now in
- * the published folder still has that hash, so a site changed, replaced or half-deleted by hand
- * is rendered again, never trusted. The reused site is byte-identical to a full render
- * (test/site/pageReuse.test.ts).
+ * The manifest (`pages.json` in the cache folder) records each published page's key, the
+ * SHA-256 of the file written and the file's size, modification time and inode; a page is reused
+ * only when its key matches AND the file now in the published folder still has that hash, so a
+ * site changed, replaced or half-deleted by hand is rendered again, never trusted. A file whose
+ * size, modification time (to the nanosecond) and inode are all as recorded is taken to hold
+ * the recorded bytes without reading it, as make and rsync do; any difference and it is read and
+ * hashed. A reused page is hard-linked into the new site (copied where links are refused), so
+ * it keeps its inode and time and the next build again need not read it. The reused site is
+ * byte-identical to a full render (test/site/pageReuse.test.ts).
  */
 import { createHash } from "node:crypto";
-import { copyFile, mkdir, readFile, rename, rm, writeFile } from "node:fs/promises";
+import { copyFile, link, mkdir, readFile, rename, rm, stat, writeFile } from "node:fs/promises";
 import { dirname, join } from "node:path";
 import { contentHash, hashFolder } from "../core/contentHash.ts";
 
 /** Bump when the manifest's format or the key's recipe changes. */
-const FORMAT = "ohmbook-page-cache/1";
+const FORMAT = "ohmbook-page-cache/2";
 const MANIFEST = "pages.json";
 
 interface Manifest {
   format: string;
-  /** Site-relative path → the page's key and the SHA-256 of the file published. */
-  pages: Record<string, { key: string; sha256: string }>;
+  /** Site-relative path → the page's key, the SHA-256 of the file published and its stat. */
+  pages: Record<string, PageRecord>;
+}
+
+interface PageRecord {
+  key: string;
+  sha256: string;
+  /** The published file's size, modification time in ns and inode (decimal strings). */
+  size: string;
+  mtimeNs: string;
+  ino: string;
+}
+
+/** Size, modification time and inode of a file (null when it is missing). */
+async function fileStat(path: string): Promise<Pick<PageRecord, "size" | "mtimeNs" | "ino"> | null> {
+  const st = await stat(path, { bigint: true }).catch(() => null);
+  return st === null || !st.isFile() ? null : { size: String(st.size), mtimeNs: String(st.mtimeNs), ino: String(st.ino) };
+}
+
+/** Whether the file at `path` still holds the bytes `record` was made from. */
+async function unchangedSince(path: string, record: PageRecord): Promise<boolean> {
+  const now = await fileStat(path);
+  if (now === null) return false;
+  if (now.size === record.size && now.mtimeNs === record.mtimeNs && now.ino === record.ino) return true;
+  const bytes = await readFile(path).catch(() => null);
+  return bytes !== null && sha256(bytes) === record.sha256;
+}
+
+/** Puts the published file at `to`: a hard link (no bytes copied), or a copy where links fail (another file system, no link support). */
+async function linkOrCopy(from: string, to: string): Promise<void> {
+  try {
+    await link(from, to);
+  } catch {
+    await copyFile(from, to);
+  }
 }
 
 export interface PageReuse {
@@ -60,6 +97,13 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
     // no manifest yet, or unreadable: every page is rendered
   }
   const next: Manifest["pages"] = {};
+  // Folders already made in the new site (most pages share a few).
+  const folders = new Set<string>();
+  const madeFolder = async (dir: string) => {
+    if (folders.has(dir)) return;
+    await mkdir(dir, { recursive: true });
+    folders.add(dir);
+  };
   let reused = 0;
   let renderedCount = 0;
   return {
@@ -70,17 +114,24 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
       const before = previous[path];
       if (!before || before.key !== key) return false;
       const published = join(publishedDir, path);
-      const bytes = await readFile(published).catch(() => null);
-      if (bytes === null || sha256(bytes) !== before.sha256) return false;
-      await mkdir(dirname(join(stage, path)), { recursive: true });
-      await copyFile(published, join(stage, path));
-      next[path] = before;
+      if (!(await unchangedSince(published, before))) return false;
+      const target = join(stage, path);
+      await madeFolder(dirname(target));
+      await linkOrCopy(published, target);
+      const now = await fileStat(target);
+      if (now === null) {
+        // Never render over a link: writing it in place would change the published file too.
+        await rm(target, { force: true });
+        return false;
+      }
+      next[path] = { ...before, ...now };
       reused++;
       return true;
     },
     async rendered(path, key, stage) {
-      const bytes = await readFile(join(stage, path));
-      next[path] = { key, sha256: sha256(bytes) };
+      const target = join(stage, path);
+      const bytes = await readFile(target);
+      next[path] = { key, sha256: sha256(bytes), ...(await fileStat(target))! };
       renderedCount++;
     },
     async save() {

@@ -2,7 +2,7 @@
 // last build published; the result is byte for byte the site a full render writes, and a page
 // changed by hand in the published folder is rendered again, never trusted.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises";
+import { mkdtemp, readdir, readFile, rm, stat, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, relative } from "node:path";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
@@ -55,6 +55,20 @@ describe("page reuse", () => {
     expectSameTree(await tree(join(work, "full")), await tree(out));
   }, 120_000);
 
+  it("a reused page is the published file itself (a hard link: same inode), not a copy read and written again", async () => {
+    const reuse = { cacheDir: join(work, "cache3"), program: "test-program" };
+    const out = join(work, "site3");
+    const model = buildSiteModel(fixtureInput());
+    await writeSite(model, DATA, out, { reuse });
+    const page = join(out, model.buildings[0]!.path);
+    const before = await stat(page);
+    const again = await writeSite(model, DATA, out, { reuse });
+    expect(again.pagesRendered).toBe(0);
+    const after = await stat(page);
+    expect(after.ino).toBe(before.ino);
+    expect(after.mtimeMs).toBe(before.mtimeMs);
+  }, 120_000);
+
   it("page models are plain JSON data, so their JSON text is a faithful key", () => {
     const model = buildSiteModel(fixtureInput());
     for (const page of [...model.buildings, ...model.meterBills, ...model.tenants, ...model.claims]) expect(JSON.parse(JSON.stringify(page))).toEqual(page);
@@ -70,6 +84,11 @@ describe("page reuse", () => {
     await writeFile(join(out, page), "edited by hand");
     const again = await writeSite(model, DATA, out, { reuse });
     expect(again.pagesRendered).toBe(1);
+    expect((await readFile(join(out, page))).equals(original)).toBe(true);
+    // A same-size edit (only the bytes differ) is caught too: the file's time changed, so it is read again.
+    await writeFile(join(out, page), Buffer.from(original).fill(32, 0, 10));
+    const sameSize = await writeSite(model, DATA, out, { reuse });
+    expect(sameSize.pagesRendered).toBe(1);
     expect((await readFile(join(out, page))).equals(original)).toBe(true);
     const otherProgram = await writeSite(model, DATA, out, { reuse: { ...reuse, program: "another version" } });
     expect(otherProgram.pagesReused).toBe(0);
