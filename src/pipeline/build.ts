@@ -25,7 +25,7 @@ import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/ind
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
-import { checkOutputFolder, SiteWriteError, writeSite } from "../site/index.ts";
+import { checkOutputFolder, SiteWriteError, startClientBundle, writeSite, type EarlyBundle } from "../site/index.ts";
 import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
 import { analyseBuildings } from "./analysisPool.ts";
 import { cacheMemo, defaultCacheDir, openAnalysisCache, programFingerprint, type AnalysisCache } from "./analysisCache.ts";
@@ -112,6 +112,18 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   await checkOutputFolder(options.outDir, options.dir);
   if (options.cacheDir !== undefined) checkCacheFolder(options.cacheDir, options.outDir, options.dir);
   const cache = options.cacheDir !== undefined ? await openAnalysisCache(options.cacheDir) : undefined;
+  // With a cache, pages unchanged since the last build into this folder are copied from it.
+  const reuse = options.cacheDir !== undefined && !options.requireCached ? { cacheDir: join(options.cacheDir, "site"), program: cache!.program } : undefined;
+  // The client bundle depends on no input: made by a child process while this one works.
+  const bundle = startClientBundle(options.outDir, { reuse });
+  try {
+    return await buildWithBundle(options, reporter, cache, reuse, bundle);
+  } finally {
+    await bundle.dispose();
+  }
+}
+
+async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache: AnalysisCache | undefined, reuse: { cacheDir: string; program: string } | undefined, bundle: EarlyBundle): Promise<BuildResult> {
   const { weatherGaps, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, cache);
   const dataDate = effectiveAsOf(portfolio);
   const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
@@ -162,11 +174,9 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps, forecast });
   const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
   // The internal site's building pages are made a few buildings at a time as they are written.
-  // With a cache, pages unchanged since the last build into this folder are copied from it.
-  const reuse = options.cacheDir !== undefined && !options.requireCached ? { cacheDir: join(options.cacheDir, "site"), program: cache!.program } : undefined;
   const written = options.audience === "tenants"
-    ? await writeSite(tenantSiteModel(buildSiteModel(reportInput)), {}, options.outDir, { onProgress, reuse })
-    : await writeSite(siteModelInParts(reportInput), dataFiles, options.outDir, { onProgress, reuse });
+    ? await writeSite(tenantSiteModel(buildSiteModel(reportInput)), {}, options.outDir, { onProgress, reuse, bundle })
+    : await writeSite(siteModelInParts(reportInput), dataFiles, options.outDir, { onProgress, reuse, bundle });
   reporter.finish();
 
   const count = (s: "error" | "warning" | "info") => findings.filter((f) => f.severity === s).length;

@@ -8,11 +8,12 @@ import { createHash } from "node:crypto";
 import { copyFile, mkdir, readFile, rename, rm, writeFile } from "node:fs/promises";
 import { dirname, join } from "node:path";
 import { hashFolder } from "../core/contentHash.ts";
-import { buildClientBundle, type ClientBundle } from "./clientBundle.ts";
+import type { ClientBundle } from "./clientBundle.ts";
 
 const FORMAT = "ohmbook-bundle-cache/1";
 
-async function copyFiles(files: readonly string[], from: string, to: string): Promise<void> {
+/** Copies the relative `files` from folder `from` to folder `to`. */
+export async function copyFiles(files: readonly string[], from: string, to: string): Promise<void> {
   for (const f of files) {
     await mkdir(dirname(join(to, f)), { recursive: true });
     await copyFile(join(from, f), join(to, f));
@@ -21,16 +22,15 @@ async function copyFiles(files: readonly string[], from: string, to: string): Pr
 
 /**
  * The client bundle written into `siteDir`: copied from `reuse.cacheDir` when this program built
- * it from the same assets before, else built by Vite (buildClientBundle) and kept there.
+ * it from the same assets before, else made by `make` (which writes it into `siteDir`) and kept there.
  */
 export async function clientBundleOnce(
   contentDir: string,
   siteDir: string,
-  workDir: string,
-  viteOptions: Record<string, unknown>,
+  make: () => Promise<ClientBundle>,
   reuse?: { cacheDir: string; program: string },
 ): Promise<{ bundle: ClientBundle; reused: boolean }> {
-  if (!reuse) return { bundle: await buildClientBundle(contentDir, siteDir, workDir, viteOptions), reused: false };
+  if (!reuse) return { bundle: await make(), reused: false };
   const hash = createHash("sha256").update(FORMAT).update(reuse.program);
   hashFolder(hash, join(contentDir, "assets"), /./);
   const folder = join(reuse.cacheDir, `bundle-${hash.digest("hex").slice(0, 32)}`);
@@ -43,7 +43,7 @@ export async function clientBundleOnce(
   } catch {
     // not kept yet, or damaged: build it
   }
-  const bundle = await buildClientBundle(contentDir, siteDir, workDir, viteOptions);
+  const bundle = await make();
   // Kept atomically: a whole folder renamed into place, so a reader never sees half a bundle.
   const temporary = `${folder}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
   try {

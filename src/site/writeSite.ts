@@ -9,15 +9,15 @@ import { mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from "node:fs/pr
 import { rmSync } from "node:fs";
 import { basename, dirname, join, relative, resolve, sep } from "node:path";
 import { fileURLToPath } from "node:url";
-import { createRequire } from "node:module";
 import Eleventy from "@11ty/eleventy";
 import type { SiteModel, SiteModelInParts } from "../report/index.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { collectGarbage, garbageBudget } from "../core/collectGarbage.ts";
-import { sameFolderAssetsPlugin } from "./sameFolderAssets.ts";
 import { buildingDataSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
 import { applyClientBundle, type ClientBundle } from "./clientBundle.ts";
-import { clientBundleOnce } from "./bundleReuse.ts";
+import { clientBundleOnce, copyFiles } from "./bundleReuse.ts";
+import { BundleChildError, buildClientBundleInChild, stopBundleChildren } from "./bundleInChild.ts";
+export { viteOptions } from "./viteOptions.ts";
 import { openPageReuse, type PageReuse } from "./pageReuse.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
@@ -44,6 +44,8 @@ export interface WriteSiteOptions {
    * `program` fingerprints the code.
    */
   reuse?: { cacheDir: string; program: string };
+  /** The client bundle started earlier (startClientBundle, same content folder and reuse); default: made here. */
+  bundle?: EarlyBundle;
 }
 
 /** What a build wrote afresh and what it took unchanged from the previous site. */
@@ -98,6 +100,7 @@ const activeScratch = new Set<string>();
  * or not, and a half-done swap is repaired by the next build (see recoverInterruptedSwap).
  */
 export function removeActiveScratch(): void {
+  stopBundleChildren();
   for (const path of activeScratch) {
     try {
       rmSync(path, { recursive: true, force: true });
@@ -191,47 +194,6 @@ async function exists(path: string): Promise<boolean> {
   }
 }
 
-/** Vite options of the site's client bundle (exported for the test that builds a site through the Eleventy Vite plugin too). */
-export function viteOptions(verbose: boolean, onError: (error: Error) => void): Record<string, unknown> {
-  const require = createRequire(join(PROJECT_ROOT, "package.json"));
-  return {
-    // When Vite fails, the Eleventy plugin's attempt to restore its folder can fail too and hide
-    // the real cause; keep Vite's own error so the caller sees it.
-    plugins: [
-      {
-        name: "ohmbook-keep-build-error",
-        buildEnd(error?: Error) {
-          if (error) onError(error);
-        },
-        renderError(error?: Error) {
-          if (error) onError(error);
-        },
-      },
-      // Pages opened from disk (file://) stay styled: no crossorigin on same-folder assets.
-      sameFolderAssetsPlugin(),
-    ],
-    // Relative asset URLs: the site works under any path prefix and from a plain file server.
-    base: "./",
-    configFile: false,
-    logLevel: verbose ? "info" : "silent",
-    clearScreen: false,
-    // Inline (empty) PostCSS config: Vite would otherwise search the output's parent folders
-    // and could pick up an unrelated project's config.
-    css: { postcss: {} },
-    resolve: {
-      // The scratch folder may sit outside the project, where bare imports would not resolve.
-      // Object form: the plugin deep-merges its own object-form alias with ours.
-      alias: { vega: require.resolve("vega"), "vega-interpreter": require.resolve("vega-interpreter") },
-    },
-    build: {
-      emptyOutDir: true,
-      // One shared bundle of the vega runtime is expected to be large; it is cached across pages.
-      chunkSizeWarningLimit: 2000,
-      reportCompressedSize: false,
-    },
-  };
-}
-
 /**
  * Renders `model` into `outDir` with every file in `dataFiles` (name relative to data/ → text, or
  * such pairs one at a time: each is written and let go before the next is made) under
@@ -265,12 +227,11 @@ export async function writeSite(
   }
   activeScratch.add(scratch);
   const stage = join(scratch, "site");
-  let bundleError: Error | null = null;
   try {
     // The client bundle first (Vite empties the folder it writes to), then the pages beside it.
-    const { bundle, reused: bundleReused } = await clientBundleOnce(contentDir, stage, scratch, viteOptions(verbose, (error) => {
-      bundleError ??= error;
-    }), options.reuse);
+    const { bundle, reused: bundleReused } = options.bundle
+      ? await takeEarlyBundle(options.bundle, stage)
+      : await clientBundleOnce(contentDir, stage, () => buildClientBundleInChild(contentDir, stage, scratch, verbose), options.reuse);
     const meta = ("pagesOf" in model ? model.shell : model).meta;
     const pages = options.reuse
       ? await openPageReuse({ cacheDir: options.reuse.cacheDir, publishedDir: out, program: options.reuse.program, contentDir, shared: { meta, headTags: bundle.headTags } })
@@ -298,8 +259,8 @@ export async function writeSite(
   } catch (error) {
     if (error instanceof SiteWriteError) throw error;
     if (error instanceof DataFileMakerError) throw error.original;
-    const cause: Error = bundleError ?? (error as Error);
-    const stageName = bundleError ? "bundling scripts and styles (Vite)" : "rendering pages";
+    const cause = error as Error;
+    const stageName = error instanceof BundleChildError ? "bundling scripts and styles (Vite)" : "rendering pages";
     // Vite colours its messages for terminals; the CLI prints this text as is.
     const message = cause.message.replace(/\u001b\[[0-9;]*m/g, "");
     throw new SiteWriteError(`could not write the site to ${outDir} while ${stageName}: ${message}`, { cause });
@@ -307,6 +268,59 @@ export async function writeSite(
     await rm(scratch, { recursive: true, force: true });
     activeScratch.delete(scratch);
   }
+}
+
+/** The client bundle being made ahead of the site (startClientBundle). */
+export interface EarlyBundle {
+  readonly made: Promise<{ bundle: ClientBundle; reused: boolean; dir: string }>;
+  /** Stops the bundler if it still runs and removes its folder (call when the build ends, however it ends). */
+  dispose(): Promise<void>;
+}
+
+/**
+ * Starts making the client bundle for a site to be written to `outDir`, in a child process and
+ * a scratch folder of its own next to `outDir`, so it runs while the build analyses and its
+ * memory is not the build's. Pass the result to writeSite (`options.bundle`) and dispose of it
+ * when the build ends. `contentDir`, `verbose` and `reuse` as for writeSite.
+ */
+export function startClientBundle(outDir: string, options: Pick<WriteSiteOptions, "contentDir" | "verbose" | "reuse"> = {}): EarlyBundle {
+  const out = resolve(outDir);
+  const contentDir = resolve(options.contentDir ?? CONTENT_DIR);
+  const abort = new AbortController();
+  let scratch: string | null = null;
+  const made = (async () => {
+    try {
+      await mkdir(dirname(out), { recursive: true });
+      scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
+    } catch (error) {
+      throw new SiteWriteError(`cannot write next to ${out} (${(error as NodeJS.ErrnoException).code ?? "error"}): ${(error as Error).message}; check that the folder exists, is writable and has free space`, { cause: error });
+    }
+    activeScratch.add(scratch);
+    const dir = join(scratch, "site");
+    const work = scratch;
+    const result = await clientBundleOnce(contentDir, dir, () => buildClientBundleInChild(contentDir, dir, work, options.verbose ?? false, abort.signal), options.reuse);
+    return { ...result, dir };
+  })();
+  // writeSite awaits it; a build that stops before then has no use for its error.
+  made.catch(() => undefined);
+  return {
+    made,
+    async dispose() {
+      abort.abort();
+      await made.catch(() => undefined);
+      if (scratch !== null) {
+        await rm(scratch, { recursive: true, force: true });
+        activeScratch.delete(scratch);
+      }
+    },
+  };
+}
+
+/** The early bundle's files copied into `stage`. */
+async function takeEarlyBundle(early: EarlyBundle, stage: string): Promise<{ bundle: ClientBundle; reused: boolean }> {
+  const { bundle, reused, dir } = await early.made;
+  await copyFiles(bundle.files, dir, stage);
+  return { bundle, reused };
 }
 
 /** Carries an error thrown while a data file was being made, so it reaches the caller unchanged. */
