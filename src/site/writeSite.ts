@@ -19,6 +19,7 @@ import { buildingDataSizes, prepareBuildingPages, prepareMeterPages, preparePort
 import { applyClientBundle, type ClientBundle } from "./clientBundle.ts";
 import { clientBundleOnce } from "./bundleReuse.ts";
 import { openPageReuse, type PageReuse } from "./pageReuse.ts";
+import { cacheNunjucksTemplates } from "./nunjucksCache.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
 const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -448,6 +449,7 @@ async function eleventyPass(site: SiteModel, ctx: RenderContext, record: Set<str
     configPath: ELEVENTY_CONFIG,
     config(eleventyConfig) {
       eleventyConfig.addGlobalData("site", site);
+      cacheNunjucksTemplates(eleventyConfig);
       // Eleventy warns about slow configuration code (our transform) even in quiet mode.
       const bench = eleventyConfig.benchmarkManager as { get?(name: string): { setIsVerbose?(verbose: boolean): void } } | undefined;
       if (!ctx.verbose) bench?.get?.("Configuration")?.setIsVerbose?.(false);
