@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mkdir, mkdtemp, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { join, resolve } from "node:path";
+import { pathToFileURL } from "node:url";
 import Eleventy from "@11ty/eleventy";
 import { cacheNunjucksTemplates, nunjucksCompileCount } from "../../src/site/nunjucksCache.ts";
 
@@ -74,5 +75,15 @@ describe("cacheNunjucksTemplates", () => {
     await render(other, true);
     await render(other, true);
     expect(nunjucksCompileCount() - before).toBe(first);
+  });
+
+  it("regression: leaves Eleventy's static compile cache empty, which would keep each run's environment and pages alive", async () => {
+    // Eleventy's module, the very instance the Eleventy class uses (not in its package exports).
+    const url = pathToFileURL(resolve("node_modules/@11ty/eleventy/src/TemplateContent.js")).href;
+    const { default: TemplateContent } = (await import(url)) as { default: { _compileCache: Map<string, Map<string, unknown>> } };
+    await render(input, true);
+    const held = [...TemplateContent._compileCache.values()].reduce((n, m) => n + m.size, 0);
+    expect(TemplateContent._compileCache.size).toBeGreaterThan(0);
+    expect(held).toBe(0);
   });
 });
