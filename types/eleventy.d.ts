@@ -12,6 +12,10 @@ declare module "@11ty/eleventy" {
     /** Called with each output's content before it is written; `this.page.outputPath` names it. */
     addTransform(name: string, fn: (this: { page?: { outputPath?: unknown } }, content: string) => string | Promise<string>): void;
     setNunjucksEnvironmentOptions(options: Record<string, unknown>): void;
+    /** A custom template language, or an override of a built-in one (e.g. "njk"). */
+    addExtension(extension: string, options: Record<string, unknown>): void;
+    /** Listens to an Eleventy event (e.g. "eleventy.engine.njk" with the Nunjucks environment). */
+    on(event: string, listener: (...args: any[]) => unknown): void;
     setQuietMode(quiet: boolean): void;
     setUseGitIgnore?(use: boolean): void;
     ignores: { add(glob: string): void };

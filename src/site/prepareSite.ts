@@ -47,9 +47,11 @@ export function chartSpec(chart: ChartModel): Record<string, unknown> {
 export async function prepareChart<T extends ChartModel>(chart: T): Promise<T> {
   const spec = chartSpec(chart);
   const vega = await compileToVega(spec);
+  // Written before the server render, which reuses parts of `vega` (renderSvg's `compiled`).
+  const specJson = jsonForScript(vega);
   // The heatmap's SVG from vega would hold one element per cell; ours bands them into paths.
-  const svg = chart.kind === "quality-heatmap" ? heatmapSvg(chart) : await renderSvg(spec, chart.description);
-  return { ...chart, spec, specJson: jsonForScript(vega), svg };
+  const svg = chart.kind === "quality-heatmap" ? heatmapSvg(chart) : await renderSvg(spec, chart.description, vega);
+  return { ...chart, spec, specJson, svg };
 }
 
 async function prepareAll<T extends ChartModel>(charts: readonly T[]): Promise<T[]> {

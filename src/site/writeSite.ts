@@ -19,6 +19,7 @@ import { clientBundleOnce, copyFiles } from "./bundleReuse.ts";
 import { BundleChildError, buildClientBundleInChild, stopBundleChildren } from "./bundleInChild.ts";
 export { viteOptions } from "./viteOptions.ts";
 import { openPageReuse, type PageReuse } from "./pageReuse.ts";
+import { cacheNunjucksTemplates } from "./nunjucksCache.ts";
 
 /** Project root (where content/ and .eleventy.js live), independent of the process cwd. */
 const PROJECT_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -462,6 +463,7 @@ async function eleventyPass(site: SiteModel, ctx: RenderContext, record: Set<str
     configPath: ELEVENTY_CONFIG,
     config(eleventyConfig) {
       eleventyConfig.addGlobalData("site", site);
+      cacheNunjucksTemplates(eleventyConfig);
       // Eleventy warns about slow configuration code (our transform) even in quiet mode.
       const bench = eleventyConfig.benchmarkManager as { get?(name: string): { setIsVerbose?(verbose: boolean): void } } | undefined;
       if (!ctx.verbose) bench?.get?.("Configuration")?.setIsVerbose?.(false);

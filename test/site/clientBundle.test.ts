@@ -75,6 +75,16 @@ describe("applyClientBundle", () => {
     expect(applyClientBundle(page(""), "index.html", bundle)).toContain(`  <script type="module" src="./assets/site-abc.js"></script>\n`);
   });
 
+  it("takes the line break and indentation before a source tag, and only those (as the pattern (\\n[ \\t]*)?<tag…> does)", () => {
+    const head = (css: string) => `<!doctype html>\n<html>\n<head>${css}\n<script type="module" src="./assets/site.js"></script>\n</head>\n<body></body>\n</html>\n`;
+    const link = '<link rel="stylesheet" href="./assets/site.css">';
+    const expected = (rest: string) => `<!doctype html>\n<html>\n<head>${rest}\n  <script type="module" src="./assets/site-abc.js"></script>\n  <link rel="stylesheet" href="./assets/site-def.css">\n</head>\n<body></body>\n</html>\n`;
+    expect(applyClientBundle(head(`\n\t ${link}`), "index.html", bundle)).toBe(expected(""));
+    expect(applyClientBundle(head(`\n\n${link}`), "index.html", bundle)).toBe(expected("\n"));
+    expect(applyClientBundle(head(`\nx ${link}`), "index.html", bundle)).toBe(expected("\nx "));
+    expect(applyClientBundle(head(`<title>t</title>${link}`), "index.html", bundle)).toBe(expected("<title>t</title>"));
+  });
+
   it("refuses what Vite would rewrite and this does not", () => {
     expect(() => applyClientBundle(page("", '<img src="logo.png" alt="">'), "index.html", bundle)).toThrow(/local asset URL/);
     expect(() => applyClientBundle(page("", "<style>p{}</style>"), "index.html", bundle)).toThrow(/inline <style>/);

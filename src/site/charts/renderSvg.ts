@@ -2,6 +2,8 @@
  * Server-side SVG of a Vega-Lite spec, for pages read without JavaScript.
  * vega-lite compile → vega parse → headless View (renderer "none") → toSVG.
  */
+import { serverVegaSpec } from "./serverSpec.ts";
+
 type VegaModule = typeof import("vega");
 type VegaLiteModule = typeof import("vega-lite");
 
@@ -33,16 +35,15 @@ export async function compileToVega(spec: Record<string, unknown>): Promise<Reco
 
 /**
  * Renders a Vega-Lite spec to an accessible SVG string: `role="img"`, `aria-label` and a
- * `<title>` taken from `label` (falling back to the spec's description or title).
+ * `<title>` taken from `label` (falling back to the spec's description or title). Given
+ * `compiled`, the spec's compile by compileToVega, the server's Vega spec is made from it
+ * (serverSpec.ts) instead of compiling the spec a second time, when it can be.
  * @throws when the spec does not compile (a programming error in a spec builder).
  * @example await renderSvg(monthlyUsageSpec(chart), "Electricity use by month") // "<svg …"
  */
-export async function renderSvg(spec: Record<string, unknown>, label?: string): Promise<string> {
+export async function renderSvg(spec: Record<string, unknown>, label?: string, compiled?: Record<string, unknown>): Promise<string> {
   const { vega, vl } = await loadLibs();
-  const serverSpec = { ...spec };
-  if (serverSpec.width === "container") serverSpec.width = SERVER_WIDTH_PX;
-  const compiled = vl.compile(serverSpec as never).spec;
-  const view = new vega.View(vega.parse(compiled), { renderer: "none" });
+  const view = new vega.View(vega.parse(serverVega(vl, spec, compiled) as never), { renderer: "none" });
   try {
     const svg = await view.toSVG();
     const text = label ?? String(spec.description ?? spec.title ?? "Chart");
@@ -55,4 +56,14 @@ export async function renderSvg(spec: Record<string, unknown>, label?: string): 
   } finally {
     view.finalize();
   }
+}
+
+/** The Vega spec rendered on the server: `width: "container"` becomes SERVER_WIDTH_PX (no container exists here). */
+function serverVega(vl: VegaLiteModule, spec: Record<string, unknown>, compiled: Record<string, unknown> | undefined): unknown {
+  if (compiled && spec.width !== "container") return compiled;
+  const derived = compiled ? serverVegaSpec(spec, compiled, SERVER_WIDTH_PX) : null;
+  if (derived) return derived;
+  const serverSpec = { ...spec };
+  if (serverSpec.width === "container") serverSpec.width = SERVER_WIDTH_PX;
+  return vl.compile(serverSpec as never).spec;
 }
