@@ -37,7 +37,7 @@ export function portfolioLists(input: ReportInput, contexts: readonly BuildingCo
  * Builds the index page from per-building contexts (in display order). Its totals (cost cards,
  * headline counts) cover every building; its two per-building lists show every building of a
  * short portfolio and the first rows of a long one (indexLists.ts), linking the whole list.
- * @example buildIndexPage(input, contexts, window).buildingsTable.rows.length // number of buildings, at most INDEX_LIST_WHOLE_MAX
+ * @example buildIndexPage(input, contexts, window).buildingsTable.rows.length // every building up to INDEX_LIST_WHOLE_MAX, else INDEX_LIST_SHOWN
  */
 export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], asOf: string | null, lists: PortfolioLists = portfolioLists(input, contexts, asOf)): Omit<IndexPage, "canonical"> {
   const { settings } = input.portfolio;
