@@ -2,7 +2,8 @@
 import type { ReportInput } from "./input.ts";
 import type { SiteModel } from "./siteModel.ts";
 import { buildBuildingPage, type BuildingContext } from "./buildingPage.ts";
-import { buildIndexPage } from "./indexPage.ts";
+import { buildIndexPage, portfolioLists } from "./indexPage.ts";
+import { buildBuildingListPage, buildForecastListPage } from "./listPages.ts";
 import { buildMethodsPage } from "./methodsPage.ts";
 import { buildDataPage } from "./dataPage.ts";
 import { last12MonthsText } from "./periods.ts";
@@ -18,8 +19,8 @@ import { groupBy } from "../core/groupBy.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
- * (in buildings.csv order), one bills page per meter, methods, data, the dispute list and one
- * claim sheet per dispute. Does not mutate its input.
+ * (in buildings.csv order), one bills page per meter, methods, data, the dispute list, one
+ * claim sheet per dispute, and the lists of every building (buildings.html, forecast.html). Does not mutate its input.
  * @example buildSiteModel(input).buildings.map((b) => b.path) // ["buildings/B1.html", ...]
  */
 export function buildSiteModel(input: ReportInput): SiteModel {
@@ -73,6 +74,8 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
     canonical: canonicalFor(settings.basePath, page.path),
   });
 
+  // Every building's rows, made once: the index shows all or the first of them, the list pages all.
+  const lists = portfolioLists(input, contexts, asOf);
   const shell: SiteModel = {
     meta: {
       portfolioName: settings.name,
@@ -83,13 +86,15 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
       stamp: `${input.buildDateKind === "data" ? "Figures as of" : "Built"} ${formatDate(input.buildDate)}`,
       basePath: settings.basePath,
     },
-    index: withCanonical(buildIndexPage(input, contexts, asOf)),
+    index: withCanonical(buildIndexPage(input, contexts, asOf, lists)),
     buildings: [],
     meterBills: [],
     tenants: [],
     methods: withCanonical(buildMethodsPage(currency, last12MonthsText(asOf), settings.tolerances)),
     data: withCanonical(buildDataPage(portfolio.report, input.issues)),
     disputes: withCanonical(buildDisputesPage(input)),
+    buildingList: withCanonical(buildBuildingListPage(input, lists.buildings)),
+    forecastList: withCanonical(buildForecastListPage(input, lists.forecast)),
     claims: buildClaimSheets(input.disputes, portfolio, formatDate(input.buildDate)).map(withCanonical),
   };
   return {

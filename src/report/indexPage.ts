@@ -1,75 +1,52 @@
 /** View model of the portfolio index: bills to dispute first, headline figures, the building table. */
-import type { ReportFinding, ReportInput } from "./input.ts";
+import type { ReportInput } from "./input.ts";
 import { billCheckState } from "../tariff/index.ts";
-import type { HeadlineFigure, IndexPage, LabelValue, TableCell } from "./siteModel.ts";
-import { NOT_AVAILABLE, formatMoney, formatNumber, formatQuantity } from "./format.ts";
-import { DISPUTES_PATH, buildingPath, navFor } from "./nav.ts";
-import type { CommodityUsage } from "./usageSummary.ts";
+import type { HeadlineFigure, IndexPage, LabelValue } from "./siteModel.ts";
+import { NOT_AVAILABLE, formatMoney, formatNumber } from "./format.ts";
+import { buildingPath, navFor } from "./nav.ts";
 import type { BuildingContext } from "./buildingPage.ts";
-import { buildingUsage, last12mCost } from "./buildingPage.ts";
 import { monthlyCostChart } from "./costChart.ts";
 import { EUI_BASIS, findingsByCheckTable, intensityChart, normalizedChangePct } from "./portfolioCharts.ts";
-import { buildIndexDisputes, sumCents } from "./disputesPage.ts";
-import type { Dispute } from "../disputes/index.ts";
+import { buildIndexDisputes } from "./disputesPage.ts";
 import { last12MonthsText } from "./periods.ts";
 import { tenantPath } from "./tenantPage.ts";
-import { forecastChangeTable } from "./forecastIndex.ts";
+import { forecastChangeTable, type ForecastChangeTable } from "./forecastIndex.ts";
 import { trackRecordVerdict } from "./forecastSection.ts";
+import { buildingsTable, type BuildingsTable } from "./buildingsTable.ts";
+import { indexBuildingsList, indexForecastList } from "./indexLists.ts";
 
-/** Table cell of one commodity's usage, e.g. "12,345 kWh", or "—" when none. */
-function usageCell(usage: readonly CommodityUsage[], commodity: CommodityUsage["commodity"]): TableCell {
-  const u = usage.find((x) => x.commodity === commodity);
-  if (!u || u.actualLast12m === null) return { text: NOT_AVAILABLE, sort: "" };
-  return { text: formatQuantity(u.actualLast12m, u.unit), sort: String(u.actualLast12m) };
-}
-
-/** Number of audit findings of one building. */
-function buildingFindingCount(findings: readonly ReportFinding[] | undefined, buildingId: string): number {
-  let count = 0;
-  for (const f of findings ?? []) if (f.buildingId === buildingId) count++;
-  return count;
-}
-
-/** Total of one building's claims (kind `claim`), cent-exact: its share of the index's "Bills to dispute". */
-function buildingClaimTotal(disputes: readonly Dispute[] | undefined, buildingId: string): number {
-  return sumCents((disputes ?? []).filter((d) => d.kind === "claim" && d.buildingId === buildingId).map((d) => d.claimAmount));
+/** The complete per-building lists, made once for the index and for the pages of their own (listPages.ts). */
+export interface PortfolioLists {
+  buildings: BuildingsTable;
+  /** Null when no building has forecast drivers. */
+  forecast: ForecastChangeTable | null;
 }
 
 /**
- * Builds the index page from per-building contexts (in display order).
- * @example buildIndexPage(input, contexts, window).buildingsTable.rows.length // number of buildings
+ * Every building's row of the buildings table and of the forecast ranking.
+ * @example portfolioLists(input, contexts, asOf).buildings.table.rows.length // number of buildings
  */
-export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], asOf: string | null): Omit<IndexPage, "canonical"> {
+export function portfolioLists(input: ReportInput, contexts: readonly BuildingContext[], asOf: string | null): PortfolioLists {
+  return {
+    buildings: buildingsTable(input, contexts, asOf),
+    forecast: forecastChangeTable(contexts, input.buildingForecasts, input.portfolio.settings.currency),
+  };
+}
+
+/**
+ * Builds the index page from per-building contexts (in display order). Its totals (cost cards,
+ * headline counts) cover every building; its two per-building lists show every building of a
+ * short portfolio and the first rows of a long one (indexLists.ts), linking the whole list.
+ * @example buildIndexPage(input, contexts, window).buildingsTable.rows.length // every building up to INDEX_LIST_WHOLE_MAX, else INDEX_LIST_SHOWN
+ */
+export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], asOf: string | null, lists: PortfolioLists = portfolioLists(input, contexts, asOf)): Omit<IndexPage, "canonical"> {
   const { settings } = input.portfolio;
   const currency = settings.currency;
+  // Over every building, in table order, never only the rows the index shows.
   let totalCost = 0;
-  const rows: TableCell[][] = contexts.map((ctx) => {
-    const b = ctx.building;
-    const bills = ctx.meters.flatMap((m) => ctx.billsByMeter.get(m.meterId) ?? []);
-    const cost = last12mCost(ctx);
-    totalCost += cost ?? 0;
-    const usage = buildingUsage(ctx);
-    const findingCount = buildingFindingCount(input.findings, b.buildingId);
-    const claimed = buildingClaimTotal(input.disputes, b.buildingId);
-    const auditHref = `${buildingPath(b.buildingId)}#audit-h`;
-    const rejectedMap = input.rejectedRowsByBuilding;
-    const rejected = rejectedMap?.get(b.buildingId) ?? 0;
-    return [
-      { text: b.name, href: buildingPath(b.buildingId), sort: b.name.toLowerCase() },
-      { text: b.useType ?? NOT_AVAILABLE },
-      { text: formatNumber(b.floorAreaM2), sort: String(b.floorAreaM2) },
-      { text: formatMoney(cost, currency), sort: cost == null ? "" : String(cost) },
-      // Money to claim next to the cost, so a wide table never scrolls it out of sight.
-      ...(input.disputes
-        ? [{ text: formatMoney(claimed, currency), sort: String(claimed), href: claimed > 0 ? DISPUTES_PATH : undefined, tone: claimed > 0 ? ("warn" as const) : undefined }]
-        : []),
-      ...(input.findings ? [{ text: formatNumber(findingCount), sort: String(findingCount), href: auditHref }] : []),
-      ...(["electricity", "gas", "water"] as const).map((c) => usageCell(usage, c)),
-      { text: formatNumber(bills.length), sort: String(bills.length) },
-      // The column exists only when ingest attributed rejected rows to buildings.
-      ...(rejectedMap ? [{ text: formatNumber(rejected), sort: String(rejected), tone: rejected > 0 ? ("warn" as const) : undefined }] : []),
-    ];
-  });
+  for (const cost of lists.buildings.lastYearCosts) totalCost += cost ?? 0;
+  const buildingList = indexBuildingsList(lists.buildings, currency);
+  const forecastList = indexForecastList(lists.forecast, currency);
   // What was checked: counts only. The money (claims, risks, last year's and next year's cost)
   // leads the page in its own cards (costFigures, disputes), never in this list.
   const headline: LabelValue[] = [
@@ -141,7 +118,8 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     intensityNote: EUI_BASIS,
     disputes: buildIndexDisputes(input),
     findingsTable: findingsByCheckTable(input.findings, input.disputes, currency),
-    forecastChangeTable: forecastChangeTable(contexts, input.buildingForecasts, currency),
+    forecastChangeTable: forecastList?.table ?? null,
+    forecastCut: forecastList?.cut ?? null,
     forecastTrackRecord: input.portfolioTrackRecord ? trackRecordVerdict(input.portfolioTrackRecord) : null,
     tenantLinks: contexts.filter((c) => c.building.tenantPage).map((c) => ({ name: c.building.name, href: tenantPath(c.building.buildingId) })),
     lede: `Utility bills for ${formatNumber(contexts.length)} ${contexts.length === 1 ? "building" : "buildings"}, each re-priced from its tariff and checked.${asOf ? ` “Last 12 months” means ${last12MonthsText(asOf)}, so a bill not yet received does not read as a drop.` : ""}`,
@@ -153,23 +131,7 @@ export function buildIndexPage(input: ReportInput, contexts: BuildingContext[], 
     energyTrend,
     windowText: last12MonthsText(asOf),
     buildings: contexts.map((c) => ({ buildingId: c.building.buildingId, name: c.building.name, href: buildingPath(c.building.buildingId) })),
-    buildingsTable: {
-      caption: `Buildings: floor area, billed cost and billed use over the last 12 months (${last12MonthsText(asOf)}; gas in therms, water in gallons)${input.disputes ? ", the total of each building's claims" : ""}${input.findings ? ` ${input.disputes ? "and" : "and each building's"} audit findings` : ""}`,
-      sortable: true,
-      columns: [
-        { label: "Building", numeric: false },
-        { label: "Use type", numeric: false },
-        { label: "Floor area (m²)", numeric: true },
-        { label: "Billed cost, 12 months", numeric: true },
-        ...(input.disputes ? [{ label: "To dispute", numeric: true }] : []),
-        ...(input.findings ? [{ label: "Findings", numeric: true }] : []),
-        { label: "Electricity use", numeric: true },
-        { label: "Gas use", numeric: true },
-        { label: "Water use", numeric: true },
-        { label: "Bills", numeric: true },
-        ...(input.rejectedRowsByBuilding ? [{ label: "Rows rejected", numeric: true }] : []),
-      ],
-      rows,
-    },
+    buildingsTable: buildingList.table,
+    buildingsCut: buildingList.cut,
   };
 }

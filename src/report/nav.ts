@@ -1,16 +1,20 @@
 /** Site navigation with links relative to the page showing it, so the site works under any path prefix. */
 import type { NavLink } from "./siteModel.ts";
 
-export type PageKey = "index" | "disputes" | "methods" | "data" | "building";
+export type PageKey = "index" | "buildings" | "forecast" | "disputes" | "methods" | "data" | "building";
 
 /**
  * Navigation links for a page at depth given by `root` ("" at the site root, "../" one level down).
- * @example navFor("methods", "")[1] // { label: "Methods", href: "methods.html", current: true }
+ * The two lists of every building stand beside the dispute list, so a large portfolio's building
+ * is two clicks from any page although the index shows only the first rows (indexSubset.ts).
+ * @example navFor("methods", "")[4] // { label: "Methods", href: "methods.html", current: true }
  */
 export function navFor(current: PageKey, root: string): NavLink[] {
   return [
     { label: "Portfolio", href: `${root}index.html`, current: current === "index" },
     { label: "Bills to dispute", href: `${root}${DISPUTES_PATH}`, current: current === "disputes" },
+    { label: "Buildings", href: `${root}${BUILDING_LIST_PATH}`, current: current === "buildings" },
+    { label: "Next year's cost", href: `${root}${FORECAST_LIST_PATH}`, current: current === "forecast" },
     { label: "Methods", href: `${root}methods.html`, current: current === "methods" },
     { label: "Data and downloads", href: `${root}data.html`, current: current === "data" },
   ];
@@ -33,6 +37,12 @@ export function buildingPath(buildingId: string): string {
 
 /** The dispute list (every claim and back-billing risk), relative to the site root. */
 export const DISPUTES_PATH = "disputes.html";
+
+/** The table of every building (the index shows only the first rows of a long portfolio). */
+export const BUILDING_LIST_PATH = "buildings.html";
+
+/** Next year's cost against last year of every building with a forecast. */
+export const FORECAST_LIST_PATH = "forecast.html";
 
 /**
  * A text made safe for a file name or fragment: letters, digits, `_` and `-` stay; every other

@@ -177,6 +177,23 @@ export interface HeadlineFigure {
   note: string;
 }
 
+/**
+ * What the index says of a per-building list it shows only in part (indexSubset.ts), and its
+ * link to the page with every row.
+ */
+export interface IndexListCut {
+  /** Which rows are shown and in what order, e.g. "Showing the 10 of 48 buildings with the largest billed cost …". */
+  shown: string;
+  /** Totals over every building of the list, never only the rows shown. */
+  totals: string;
+  /** The page with the whole list, relative to the site root. */
+  href: string;
+  /** e.g. "All 48 buildings". */
+  linkText: string;
+  /** What follows the link in its sentence, e.g. ": the same columns, …". */
+  linkNote: string;
+}
+
 export interface IndexPage extends PageBase {
   /** Opening sentence, e.g. "Utility bills for 6 buildings, each re-priced from its tariff and checked." */
   lede: string;
@@ -186,7 +203,10 @@ export interface IndexPage extends PageBase {
   costFigures: HeadlineFigure[];
   /** One sentence on the weather-adjusted change of site energy; null without weather baselines. */
   energyTrend: string | null;
+  /** Every building, or only the first INDEX_LIST_SHOWN of a long portfolio (then `buildingsCut` says which). */
   buildingsTable: TableModel;
+  /** Null when `buildingsTable` holds every building. */
+  buildingsCut: IndexListCut | null;
   /** Sentence naming the 12-month window used, e.g. "Jan 1, 2025 – Dec 31, 2025". */
   windowText: string;
   buildings: IndexBuildingRow[];
@@ -200,12 +220,31 @@ export interface IndexPage extends PageBase {
   disputes: IndexDisputes | null;
   /** Findings by check with their claims and money; null when the audit did not run or found nothing. */
   findingsTable: TableModel | null;
-  /** Buildings ranked by forecast change vs last year, with the drivers; null without forecast drivers. */
+  /** Buildings ranked by forecast change vs last year, with the drivers (all, or the subset `forecastCut` names); null without forecast drivers. */
   forecastChangeTable: TableModel | null;
+  /** Null when `forecastChangeTable` holds every building with drivers (or there is none). */
+  forecastCut: IndexListCut | null;
   /** Sentence on the portfolio's forecast track record; null without a backtest. */
   forecastTrackRecord: string | null;
   /** Tenant pages, for the index's list. */
   tenantLinks: { name: string; href: string }[];
+}
+
+/** buildings.html: the table of every building, in the portfolio's order. */
+export interface BuildingListPage extends PageBase {
+  lede: string;
+  table: TableModel;
+}
+
+/** forecast.html: next year's cost against last year of every building with forecast drivers. */
+export interface ForecastListPage extends PageBase {
+  lede: string;
+  /** Totals over every building of the table; null without forecast drivers. */
+  totals: string | null;
+  /** Sentence on the portfolio's forecast track record; null without a backtest. */
+  trackRecord: string | null;
+  /** Null without forecast drivers (the lede says so). */
+  table: TableModel | null;
 }
 
 /** One meter on its building's page: a summary of its bills and a link to its bills page. */
@@ -411,6 +450,10 @@ export interface SiteModel {
   data: DataPage;
   /** Every claim and back-billing risk (disputes.html). */
   disputes: DisputesPage;
+  /** Every building (buildings.html). */
+  buildingList: BuildingListPage;
+  /** Next year's cost of every building (forecast.html). */
+  forecastList: ForecastListPage;
   /** One printable sheet per dispute (claims/<id>.html). */
   claims: ClaimSheet[];
 }

@@ -30,7 +30,7 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
     siteDir = site;
     // Building pages and tenant pages (buildings/<id>/tenant.html).
     const built = (await readdir(join(site, "buildings"), { recursive: true })).map((f) => f.split("\\").join("/"));
-    pages = ["index.html", "methods.html", "data.html", ...built.filter((f) => f.endsWith(".html")).sort().map((f) => `buildings/${f}`)];
+    pages = ["index.html", "buildings.html", "forecast.html", "methods.html", "data.html", ...built.filter((f) => f.endsWith(".html")).sort().map((f) => `buildings/${f}`)];
     server = await serveStatic(site, PREFIX);
     context = await launchBrowser(join(work, "profile"), outsideRequests);
   }, 180_000);
@@ -134,6 +134,23 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("the demo site in chromium"
       if (claimedCents > 0) expect(row![col("To dispute")].href, b.name).toBe("disputes.html");
     }
     expect(compared).toBeGreaterThanOrEqual(20);
+  }, 60_000);
+
+  it("buildings.html lists every building of portfolio.json and forecast.html every building the index ranks; the index (8 buildings) shows them all with no link to the lists", async () => {
+    const json = JSON.parse(await readFile(join(siteDir, "data", "portfolio.json"), "utf8")) as { buildings: { name: string }[] };
+    const { page: list } = await openPage(context, `${server.origin}${PREFIX}buildings.html`, dialogs);
+    const names = await list.locator('table:has(caption:text("Buildings: floor area")) tbody th').allInnerTexts();
+    expect(names.map((n) => n.trim())).toEqual(json.buildings.map((b) => b.name));
+    expect(await list.locator('nav a[aria-current="page"]').innerText()).toBe("Buildings");
+    await list.close();
+    const { page: index } = await openPage(context, `${server.origin}${PREFIX}index.html`, dialogs);
+    expect(await index.locator('table:has(caption:text("Buildings: floor area")) tbody tr').count()).toBe(json.buildings.length);
+    expect(await index.locator(".all-link").count()).toBe(0);
+    const ranked = await index.locator('section[aria-labelledby="forecast-h"] table tbody th').allInnerTexts();
+    await index.close();
+    const { page: forecast } = await openPage(context, `${server.origin}${PREFIX}forecast.html`, dialogs);
+    expect(await forecast.locator("table tbody th").allInnerTexts()).toEqual(ranked);
+    await forecast.close();
   }, 60_000);
 
   it("asked no host other than 127.0.0.1", () => {

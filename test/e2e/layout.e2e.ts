@@ -130,6 +130,8 @@ describe.skipIf(!HAVE_CHROMIUM || !existsSync(DEMO))("layout of the demo site at
     pages.push("methods.html");
     // The dispute list and a claim sheet, once the site has them.
     if (existsSync(join(site, "disputes.html"))) pages.push("disputes.html");
+    // The lists of every building (the index shows only part of a long portfolio's).
+    for (const list of ["buildings.html", "forecast.html"]) if (existsSync(join(site, list))) pages.push(list);
     if (existsSync(join(site, "claims"))) {
       const sheets = (await readdir(join(site, "claims"))).filter((f) => f.endsWith(".html")).sort();
       if (sheets.length) pages.push(`claims/${sheets[0]}`);

@@ -13,7 +13,7 @@ describe("buildSiteModel on the fixture portfolio", () => {
     expect(model.buildings.map((b) => b.path)).toEqual(["buildings/B1.html", "buildings/B2.html"]);
     expect(model.index.buildingsTable.rows.map((r) => r[0].href)).toEqual(["buildings/B1.html", "buildings/B2.html"]);
     expect(b1.root).toBe("../");
-    expect(b1.nav.map((n) => n.href)).toEqual(["../index.html", "../disputes.html", "../methods.html", "../data.html"]);
+    expect(b1.nav.map((n) => n.href)).toEqual(["../index.html", "../disputes.html", "../buildings.html", "../forecast.html", "../methods.html", "../data.html"]);
     expect(model.index.nav.every((n) => !n.href.startsWith("/"))).toBe(true);
   });
 

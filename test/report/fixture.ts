@@ -266,3 +266,28 @@ export function fullFixtureInput(): ReportInput {
   input.portfolioTrackRecord = { model: { months: 12, annualErrorPct: -2.4, cvRmsePct: 7.9, coverage: 10 / 12 }, naive: { months: 12, annualErrorPct: 6.1, cvRmsePct: 12, coverage: null } };
   return input;
 }
+
+/**
+ * The full fixture grown to `count` buildings: B1 and B2 as there, then B3 … with one electricity
+ * meter each whose bills are E2's scaled by the building's number (so billed cost grows with it),
+ * and forecast drivers for every building whose change alternates in sign and grows in size
+ * (building k: (−1)^k × 100 k), so the largest changes either way are the last buildings.
+ */
+export function manyBuildingsInput(count: number): ReportInput {
+  const input = fullFixtureInput();
+  const { portfolio } = input;
+  const e2Bills = portfolio.bills.filter((b) => b.meterId === "E2");
+  for (let k = 3; k <= count; k++) {
+    const id = `B${k}`;
+    portfolio.buildings.push(building(id, `Building ${String(k).padStart(3, "0")}`, 10_000 + k * 100, "office"));
+    portfolio.meters.push(meter(`E${k}`, id, "electricity", "kWh"));
+    for (const b of e2Bills) portfolio.bills.push({ ...b, billId: b.billId.replace("E2", `E${k}`), meterId: `E${k}`, total: Math.round(b.total * k * 100) / 100 });
+  }
+  const template = input.buildingForecasts![0];
+  input.buildingForecasts = portfolio.buildings.map((b, i) => {
+    const k = i + 1;
+    const change = (k % 2 === 0 ? 1 : -1) * 100 * k;
+    return { ...template, buildingId: b.buildingId, drivers: { months: ["2024-04"], lastYearCost: 1000 * k, forecastCost: 1000 * k + change, change, weather: 0, rates: change, usageTrend: 0 } };
+  });
+  return input;
+}

@@ -35,7 +35,7 @@ describe("writeSite", () => {
 
   it("writes index, building, methods and data pages, data files and a bundled script", async () => {
     const files = await readdir(out, { recursive: true });
-    for (const f of [".ohmbook-site", "index.html", "methods.html", "data.html", "buildings/B1.html", "buildings/B2.html", "data/findings.csv", "data/portfolio.json"]) {
+    for (const f of [".ohmbook-site", "index.html", "methods.html", "data.html", "buildings.html", "forecast.html", "buildings/B1.html", "buildings/B2.html", "data/findings.csv", "data/portfolio.json"]) {
       expect(files).toContain(f);
     }
     expect(await readFile(join(out, "data/findings.csv"), "utf8")).toBe(DATA["findings.csv"]);
@@ -103,6 +103,14 @@ describe("writeSite", () => {
     expect(await readFile(join(out, "data/buildings/B1/bills.csv"), "utf8")).toBe(DATA["buildings/B1/bills.csv"]);
     const b2 = await readFile(join(out, "buildings/B2.html"), "utf8");
     expect(b2).not.toContain("data/buildings/B1/");
+  });
+
+  it("a short portfolio's index lists every building with no link to the whole list (its page exists all the same)", async () => {
+    const index = await readFile(join(out, "index.html"), "utf8");
+    expect(index).not.toContain('class="more all-link"');
+    expect(index).toContain('<li><a href="buildings.html">Buildings</a></li>');
+    const list = await readFile(join(out, "buildings.html"), "utf8");
+    expect(list.match(/<tr>\s*<th scope="row"/g)).toHaveLength(2);
   });
 
   it("puts the portfolio charts on the index (cost by month, intensity ranking) and the findings by check as a table", async () => {
