@@ -83,8 +83,10 @@ export interface IndexDisputes {
   claims: DisputeTable | null;
   /** "Showing the 10 largest of 14 claims." when cut; null when all are shown. */
   moreText: string | null;
-  /** Back-billing risks, largest first (all of them); null when none. */
+  /** The largest back-billing risks (at most 10, like the claims), largest first; null when none. */
   risks: DisputeTable | null;
+  /** "Showing the 10 largest of 40 risks." when cut; null when all are shown. */
+  riskMoreText: string | null;
 }
 
 /** The dispute list page. */

@@ -163,7 +163,7 @@ export function disputeTable(
     kind,
     caption: claim
       ? `Bills to dispute${cut ? `: the ${formatNumber(shown.length)} largest of ${formatNumber(list.length)} claims` : ""}, largest claim first. Claim = billed − corrected, in ${currency}.`
-      : `Budget risk: bills too low or periods not billed, largest first. Not yet billed = corrected − billed, in ${currency}; the utility may bill it later.`,
+      : `Budget risk: bills too low or periods not billed${cut ? `: the ${formatNumber(shown.length)} largest of ${formatNumber(list.length)} risks` : ""}, largest first. Not yet billed = corrected − billed, in ${currency}; the utility may bill it later.`,
     amountLabel: claim ? "Claim" : "Not yet billed",
     rows: shown.map((d) => disputeRow(d, buildings, currency)),
     totals,
@@ -180,8 +180,8 @@ function distinctBills(list: readonly Dispute[]): number {
 
 /**
  * The index's dispute block: the claim total (the sum of `claimAmount` over kind `claim`, the
- * same figure as the dispute list and disputes.csv), the largest claims and every back-billing
- * risk. Null when the dispute stage did not run.
+ * same figure as the dispute list and disputes.csv), the largest claims and the largest
+ * back-billing risks (every one is on the dispute list). Null when the dispute stage did not run.
  * @example buildIndexDisputes(input)?.claimTotal // "$24,967.83"
  */
 export function buildIndexDisputes(input: ReportInput): IndexDisputes | null {
@@ -199,7 +199,8 @@ export function buildIndexDisputes(input: ReportInput): IndexDisputes | null {
     href: DISPUTES_PATH,
     claims: claims.length ? disputeTable("index-claims", "claim", claims, buildings, currency, INDEX_CLAIM_LIMIT) : null,
     moreText: claims.length > INDEX_CLAIM_LIMIT ? `Showing the ${formatNumber(INDEX_CLAIM_LIMIT)} largest of ${formatNumber(claims.length)} claims.` : null,
-    risks: risks.length ? disputeTable("index-risks", "back-bill-risk", risks, buildings, currency) : null,
+    risks: risks.length ? disputeTable("index-risks", "back-bill-risk", risks, buildings, currency, INDEX_CLAIM_LIMIT) : null,
+    riskMoreText: risks.length > INDEX_CLAIM_LIMIT ? `Showing the ${formatNumber(INDEX_CLAIM_LIMIT)} largest of ${formatNumber(risks.length)} risks.` : null,
   };
 }
 

@@ -93,6 +93,23 @@ describe("index: bills to dispute", () => {
     expect(d.risks).toBeNull();
   });
 
+  it("shows the 10 largest back-billing risks when there are more (a large portfolio's index stays short), the footer totalling all of them", () => {
+    // Risks: billed 100, corrected 100 + 1.01 × k, so "not yet billed" is 1.01 × k for k = 1 … 13.
+    const risks = manyClaims(13).map((d) => ({ ...d, disputeId: d.disputeId.replace("many", "risk"), kind: "back-bill-risk" as const, billedTotal: d.correctedTotal, correctedTotal: d.billedTotal, claimAmount: d.correctedTotal - d.billedTotal }));
+    const d = buildIndexDisputes(inputWith(risks))!;
+    expect(d.risks!.rows).toHaveLength(INDEX_CLAIM_LIMIT);
+    expect(d.risks!.rows[0].amount).toBe("$13.13");
+    expect(d.risks!.caption).toMatch(/the 10 largest of 13 risks/);
+    expect(d.riskMoreText).toBe("Showing the 10 largest of 13 risks.");
+    // 1.01 × (1 + … + 13) = 91.91; the ten largest: 91.91 − 1.01 × (1 + 2 + 3) = 85.85.
+    expect(d.risks!.totals.map((t) => [t.label, t.amount])).toEqual([
+      ["Total of these 10", "$85.85"],
+      ["Total, all 13 risks", "$91.91"],
+    ]);
+    expect(d.riskTotal).toBe("$91.91");
+    expect(buildIndexDisputes(inputWith())!.riskMoreText).toBeNull();
+  });
+
   it("has no dispute block when the dispute stage did not run, and an empty one when nothing is disputed", () => {
     expect(buildIndexDisputes(fixtureInput())).toBeNull();
     const none = buildIndexDisputes(inputWith([]))!;
