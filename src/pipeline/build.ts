@@ -21,6 +21,7 @@ import { meteredViewsByBill } from "../audit/index.ts";
 import { toReportInput, type BuildingResults } from "../report/index.ts";
 import { dataFileEntries } from "../report/index.ts";
 import { collectGarbage } from "../core/collectGarbage.ts";
+import { oneShot } from "../core/oneShot.ts";
 import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
 import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "../report/index.ts";
@@ -165,13 +166,16 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
 
   collectGarbage();
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
-  const forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined);
+  let forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined);
 
   collectGarbage();
   reporter.stage(`Writing the site to ${options.outDir}`);
   // Made one file at a time as the site writer puts each on disk.
-  const dataFiles = dataFileEntries({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) });
+  // Iterated once by the site writer, then let go: the forecast's scenario matrices it holds are
+  // freed before the pages are made (the pages read only reportInput's summaries of them).
+  const dataFiles = oneShot(dataFileEntries({ portfolio, results, findings, disputes, priced, monthlyMetered, weatherGaps, quality: quality.meters, forecast, meteredViews: meteredViewsByBill(portfolio, masks) }));
   const reportInput = toReportInput({ portfolio, priced, monthlyMetered, issues, buildDate, buildDateKind, findings, disputes, results, quality: quality.meters, weatherGaps, forecast });
+  forecast = null;
   const onProgress = (done: number, total: number) => reporter.step(done, total, "building pages");
   // The internal site's building pages are made a few buildings at a time as they are written.
   const written = options.audience === "tenants"

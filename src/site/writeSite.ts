@@ -213,7 +213,7 @@ export async function writeSite(
   const verbose = options.verbose ?? false;
   const contentDir = resolve(options.contentDir ?? CONTENT_DIR);
   const out = resolve(outDir);
-  const dataEntries = isIterable(dataFiles) ? dataFiles : Object.entries(dataFiles);
+  let dataEntries: Iterable<readonly [string, string]> | null = isIterable(dataFiles) ? dataFiles : Object.entries(dataFiles);
   // Refuse bad data-file names before any work (and before touching the disk) when they are known.
   if (!isIterable(dataFiles)) for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
   await checkOutputFolder(out);
@@ -239,6 +239,9 @@ export async function writeSite(
       : null;
     // The data files first (the pages list them with their sizes), each written as it is made.
     const sizes = await writeDataFiles(dataEntries, join(stage, "data"));
+    // What made the files (the forecast's scenarios…) is not kept while the pages are made.
+    dataEntries = null;
+    dataFiles = {};
     await renderPages(model, sizes, { contentDir, stage, bundle, verbose, buildingsPerPass: options.buildingsPerPass ?? BUILDINGS_PER_PASS, onProgress: options.onProgress, pages });
     if (!(await exists(join(stage, "index.html")))) {
       throw new SiteWriteError("the site build produced no index.html");
