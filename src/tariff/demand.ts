@@ -115,6 +115,41 @@ export function maxWindowDemandByPeriodKw(
   return Array.from(best, (b) => (b === -Infinity ? null : b / hours));
 }
 
+/**
+ * `maxWindowDemandKw` (whole period) and `maxWindowDemandByPeriodKw` together, in one pass: both
+ * keep the highest of the same running window sums, so they give the same numbers as the two
+ * calls (a tariff with a whole-period and a time-of-use demand charge on the same window).
+ * @example periods [0,0,1,1], 15-minute kWh [5,5,30,30], 30-minute window -> { kw: 120, byPeriod: [20, 120] }
+ */
+export function maxWindowDemandsKw(
+  startMs: Float64Array,
+  kwh: Float64Array,
+  intervalMinutes: number,
+  windowMinutes: number,
+  periodIdx: Int8Array,
+  periodCount: number,
+): { whole: WindowDemand; byPeriod: (number | null)[] } {
+  const k = intervalsPerWindow(windowMinutes, intervalMinutes);
+  const hours = (k * intervalMinutes) / 60;
+  const stepMs = intervalMinutes * 60_000;
+  const ends = windowEnds(startMs, stepMs, k, null);
+  const endsIn = windowEnds(startMs, stepMs, k, periodIdx);
+  let best = -Infinity;
+  const bestIn = new Float64Array(periodCount).fill(-Infinity);
+  let sum = 0;
+  for (let i = 0; i < kwh.length; i++) {
+    sum += kwh[i];
+    if (i >= k) sum -= kwh[i - k];
+    if (ends[i] === 0 && sum > best) best = sum;
+    const p = endsIn[i];
+    if (p >= 0 && sum > bestIn[p]) bestIn[p] = sum;
+  }
+  return {
+    whole: { kw: best === -Infinity ? null : best / hours, intervalsPerWindow: k },
+    byPeriod: Array.from(bestIn, (b) => (b === -Infinity ? null : b / hours)),
+  };
+}
+
 /*
  * Which windows count depends only on the instants, the window and the periods, not on the
  * readings: a forecast prices the same month's instants hundreds of times with scaled readings,

@@ -1,7 +1,7 @@
 /** Demand from interval data (common practice: kW = kWh × 60 / interval minutes; rolling window). */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { billingDemandKw, intervalsPerWindow, maxWindowDemandByPeriodKw, maxWindowDemandKw } from "../../src/tariff/demand.ts";
+import { billingDemandKw, intervalsPerWindow, maxWindowDemandByPeriodKw, maxWindowDemandKw, maxWindowDemandsKw } from "../../src/tariff/demand.ts";
 
 const starts = (n: number, minutes = 15, gapAt = -1) =>
   Float64Array.from({ length: n }, (_, i) => i * minutes * 60_000 + (gapAt >= 0 && i >= gapAt ? 3_600_000 : 0));
@@ -106,6 +106,9 @@ describe("window demand: bit-identical to dividing every window (x ↦ x / hours
             const kwh = Float64Array.from(slots, (_, i) => r[i]!);
             expect(maxWindowDemandKw(startMs, kwh, 15, window).kw).toBe(referenceMaxKw(startMs, kwh, 15, window));
             expect(maxWindowDemandByPeriodKw(startMs, kwh, 15, window, idx, 3)).toEqual(referenceByPeriodKw(startMs, kwh, 15, window, idx, 3));
+            const both = maxWindowDemandsKw(startMs, kwh, 15, window, idx, 3);
+            expect(both.whole.kw).toBe(referenceMaxKw(startMs, kwh, 15, window));
+            expect(both.byPeriod).toEqual(referenceByPeriodKw(startMs, kwh, 15, window, idx, 3));
           }
         },
       ),
