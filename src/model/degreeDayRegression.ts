@@ -412,7 +412,12 @@ function gridOf(min: number, max: number, step: number): number[] {
 }
 
 function columnAt(periods: readonly DegreeDayPeriod[], kind: "h" | "c", base: number): Float64Array {
-  return Float64Array.from(periods, (p) => (kind === "h" ? hddPerDay(p.profile, base) : cddPerDay(p.profile, base)));
+  // A plain loop: Float64Array.from with a mapping function goes through the iterator protocol,
+  // and the base searches (refitted for every left-out bill) build hundreds of thousands of columns.
+  const out = new Float64Array(periods.length);
+  if (kind === "h") for (let i = 0; i < out.length; i++) out[i] = hddPerDay(periods[i]!.profile, base);
+  else for (let i = 0; i < out.length; i++) out[i] = cddPerDay(periods[i]!.profile, base);
+  return out;
 }
 
 /** Indices of the best few local minima of a 1-D score array (the refine step starts from each). */
