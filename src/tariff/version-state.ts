@@ -128,12 +128,15 @@ export class VersionState {
   periodSplit(): PeriodSplit {
     if (this.split) return this.split;
     const n = this.version.periods.length;
-    const usage = new Array<number>(n).fill(0);
+    let usage = new Array<number>(n).fill(0);
     const iv = this.ctx.intervals;
     const unit = this.ctx.tariff.usageUnit;
     if (iv && iv.startMs.length > 0) {
       const idx = this.intervalPeriods();
-      for (let i = 0; i < idx.length; i++) usage[idx[i]] += iv.usage[i];
+      // Summed in a typed array (a forecast splits thousands of scaled months), in the same order.
+      const sums = new Float64Array(n);
+      for (let i = 0; i < idx.length; i++) sums[idx[i]] += iv.usage[i];
+      usage = Array.from(sums);
       const metered = sumAmounts(usage);
       if (this.ctx.req.intervalsGive === "shape" && metered > 0) {
         const agrees = iv.startMs.length >= iv.expectedCount && agreesWithinRounding(metered, this.ctx.usage);
