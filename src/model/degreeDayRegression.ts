@@ -421,9 +421,30 @@ function columnAt(periods: readonly DegreeDayPeriod[], kind: "h" | "c", base: nu
   // A plain loop: Float64Array.from with a mapping function goes through the iterator protocol,
   // and the base searches (refitted for every left-out bill) build hundreds of thousands of columns.
   const out = new Float64Array(periods.length);
-  if (kind === "h") for (let i = 0; i < out.length; i++) out[i] = hddPerDay(periods[i]!.profile, base);
-  else for (let i = 0; i < out.length; i++) out[i] = cddPerDay(periods[i]!.profile, base);
+  for (let i = 0; i < out.length; i++) out[i] = degreeDaysAt(periods[i]!.profile, kind, base);
   return out;
+}
+
+/*
+ * Degree-days per day of one period at one base, kept per profile: the leave-one-out refits of
+ * the outlier bands search the same bases over the same periods once per left-out bill, and
+ * every form searches the same coarse grid.
+ */
+const degreeDaysByProfile = new WeakMap<TemperatureProfile, { h: Map<number, number>; c: Map<number, number> }>();
+
+function degreeDaysAt(profile: TemperatureProfile, kind: "h" | "c", base: number): number {
+  // A Map takes −0 and 0 as one key; their degree-days may differ in the sign of a zero.
+  if (Object.is(base, -0)) return kind === "h" ? hddPerDay(profile, base) : cddPerDay(profile, base);
+  let cached = degreeDaysByProfile.get(profile);
+  if (cached === undefined) degreeDaysByProfile.set(profile, (cached = { h: new Map(), c: new Map() }));
+  const byBase = kind === "h" ? cached.h : cached.c;
+  let v = byBase.get(base);
+  if (v === undefined) {
+    v = kind === "h" ? hddPerDay(profile, base) : cddPerDay(profile, base);
+    if (byBase.size >= 4096) byBase.clear(); // a bound, not an eviction policy
+    byBase.set(base, v);
+  }
+  return v;
 }
 
 /** Indices of the best few local minima of a 1-D score array (the refine step starts from each). */
