@@ -12,7 +12,7 @@
 import type { Building, IntervalSeries, Meter, Portfolio } from "../domain/types.ts";
 import { stationAgreement } from "./stationAgreement.ts";
 import type { WeatherGap } from "../domain/types.ts";
-import { detectAnomalies, type Detection, type DetectConfigInput } from "./detect/index.ts";
+import { detectAnomalies, type Detection, type DetectConfigInput, type DetectionResult } from "./detect/index.ts";
 import { suggestAlignment, type AlignmentSuggestion } from "./alignment.ts";
 import { noMemo, type Memo } from "../core/memo.ts";
 
@@ -61,6 +61,9 @@ export function assessIntervalMeters(portfolio: Portfolio, memo: Memo = noMemo):
   const intervals = new Map(portfolio.intervals);
   const meters: MeterQuality[] = [];
   // First every meter's own scan, then agreement across each weather station, then corrections.
+  // The scan screens the series as read; when no offset is applied the screening below is the
+  // same computation on the same series, so it reuses that result instead of running it again.
+  const screenedRaw = new Map<IntervalSeries, DetectionResult>();
   const scans: Array<{ meter: Meter; building: Building; raw: IntervalSeries; stationId: string; suggestion: AlignmentSuggestion | null; skipped: string | null }> = [];
   for (const meter of portfolio.meters) {
     const raw = portfolio.intervals.get(meter.meterId);
@@ -73,7 +76,11 @@ export function assessIntervalMeters(portfolio: Portfolio, memo: Memo = noMemo):
     else if (meter.commodity !== "electricity") skipped = "alignment is scanned for electricity meters only";
     else {
       const timezone = building.timezone;
-      suggestion = memo("alignment-scan", { raw, weather, timezone, config }, () => suggestAlignment(raw, weather, timezone, { mask: detectAnomalies(raw, config, { timezone }).mask }));
+      suggestion = memo("alignment-scan", { raw, weather, timezone, config }, () => {
+        const screened = detectAnomalies(raw, config, { timezone });
+        screenedRaw.set(raw, screened);
+        return suggestAlignment(raw, weather, timezone, { mask: screened.mask });
+      });
     }
     scans.push({ meter, building, raw, stationId: building.weatherStation, suggestion, skipped });
   }
@@ -93,7 +100,7 @@ export function assessIntervalMeters(portfolio: Portfolio, memo: Memo = noMemo):
     const series = shiftSeries(raw, applied);
     intervals.set(meter.meterId, series);
     const timezone = building.timezone;
-    const { detections, mask } = memo("screening", { series, timezone, config }, () => detectAnomalies(series, config, { timezone }));
+    const { detections, mask } = memo("screening", { series, timezone, config }, () => screenedRaw.get(series) ?? detectAnomalies(series, config, { timezone }));
     meters.push({
       meterId: meter.meterId,
       buildingId: meter.buildingId,

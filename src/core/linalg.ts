@@ -149,8 +149,10 @@ export function leastSquaresInPlace(a: Float64Array, y: Float64Array, m: number,
   for (let c = 0; c < k; c++) {
     let colNorm2 = 0;
     for (let i = 0; i < m; i++) colNorm2 += a[c * m + i] ** 2;
+    // For the first column both sums run over the same entries in the same order.
     let nrm2 = 0;
-    for (let i = c; i < m; i++) nrm2 += a[c * m + i] ** 2;
+    if (c === 0) nrm2 = colNorm2;
+    else for (let i = c; i < m; i++) nrm2 += a[c * m + i] ** 2;
     let nrm = Math.sqrt(nrm2);
     // colNorm2 is of the column after earlier reflections, whose norm they preserve.
     if (nrm === 0 || nrm <= RANK_TOLERANCE * Math.sqrt(colNorm2)) return Number.NaN;

@@ -42,7 +42,7 @@ import type { Tariff } from "../tariff/index.ts";
 import { meterPricingContexts, meterScenarioSetup, DEFAULT_SCENARIOS, type MeterForecastInput } from "./forecastMeter.ts";
 import { buildingForecastInputs } from "./portfolioInputs.ts";
 import { priceForecastMonth } from "./priceMonth.ts";
-import { bandOf } from "./quantiles.ts";
+import { bandOf, p50Of } from "./quantiles.ts";
 import { monthColumn } from "./scenarioMatrix.ts";
 import type { ScenarioNoise, ScenarioSetup } from "./usageScenarios.ts";
 import { actualMonthlyCost, naiveFromKnown } from "./trackRecord.ts";
@@ -216,6 +216,13 @@ function usageQuantiles(setup: ScenarioSetup | null, factor: number): { lo: numb
   return { lo: bands.map((b) => b.p10), mid: bands.map((b) => b.p50), hi: bands.map((b) => b.p90) };
 }
 
+/** Usage P50 per forecast month at factor c (`usageQuantiles(…).mid`, without the P10 and P90 nobody reads). */
+function usageMedians(setup: ScenarioSetup | null, factor: number): number[] | null {
+  if (!setup) return null;
+  const usage = setup.at(factor);
+  return Array.from({ length: usage.months }, (_, k) => p50Of(monthColumn(usage, k)));
+}
+
 /** The input with the typical year of `basis` (unchanged when the basis is not available for it). */
 function withBasis(input: MeterForecastInput, basis: WeatherBasisId): MeterForecastInput {
   if (!input.fit) return input;
@@ -354,8 +361,8 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
         const paths: BacktestMeter["p50ByBasis"] = {};
         for (const basis of bases) {
           try {
-            const q = usageQuantiles(setupOf(withBasis(r.input, basis), r.drawn), 1);
-            if (q) paths[basis] = pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter));
+            const mid = usageMedians(setupOf(withBasis(r.input, basis), r.drawn), 1);
+            if (mid) paths[basis] = pick(pricePath(r.input, r.contexts, mid), keepOf(r.meter));
           } catch (error) {
             expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
           }
@@ -404,8 +411,8 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
         if (adjustment === "none") return basis ? r.meter.p50ByBasis[basis] ?? null : null;
         return memo("backtest-adjusted-path", { ...keyOf(r), basis, adjustment }, () => {
           try {
-            const q = usageQuantiles(setupOf({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, r.drawn), 1);
-            return q ? pick(pricePath(r.input, r.contexts, q.mid), keepOf(r.meter)) : null;
+            const mid = usageMedians(setupOf({ ...(basis ? withBasis(r.input, basis) : r.input), adjustment }, r.drawn), 1);
+            return mid ? pick(pricePath(r.input, r.contexts, mid), keepOf(r.meter)) : null;
           } catch (error) {
             expectedProblem(error);
             return null;

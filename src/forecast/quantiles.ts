@@ -27,3 +27,16 @@ export function bandOf(values: ArrayLike<number>): Band {
   const [p10, p50, p90] = quantile(xs as unknown as number[], [0.1, 0.5, 0.9]) as number[];
   return { p10: p10!, p50: p50!, p90: p90! };
 }
+
+/**
+ * P50 of `values` alone: the same number as `bandOf(values).p50` (the same order statistics,
+ * selected without the four that P10 and P90 need), for callers that read only the median.
+ * @throws ForecastInputError as bandOf.
+ * @example p50Of([1, 2, 3, 4, 5]) // 3
+ */
+export function p50Of(values: ArrayLike<number>): number {
+  if (values.length === 0) throw new ForecastInputError("no scenarios to take quantiles of");
+  const xs = values instanceof Float64Array ? values : Float64Array.from(values);
+  for (let i = 0; i < xs.length; i++) if (!Number.isFinite(xs[i]!)) throw new ForecastInputError(`scenario value ${xs[i]} is not a finite number`);
+  return quantile(xs as unknown as number[], 0.5) as number;
+}

@@ -39,6 +39,21 @@ export function residualByCalendarMonth(
   fit: ChangePointFit, bills: readonly Bill[], years: readonly WeatherYear[], asOf: string, mode: MonthAdjustment,
 ): number[] | null {
   if (mode === "none") return null;
+  // The backtests ask again for the same meter and origin (each adjustment scored, then the
+  // bands of the chosen one): kept per fit, bills, weather years, as-of date and mode.
+  let byFit = residualsByFit.get(fit);
+  if (byFit === undefined) residualsByFit.set(fit, (byFit = []));
+  for (const r of byFit) if (r.bills === bills && r.years === years && r.asOf === asOf && r.mode === mode) return r.residual;
+  const residual = computeResidual(fit, bills, years, asOf, mode);
+  byFit.push({ bills, years, asOf, mode, residual });
+  return residual;
+}
+
+const residualsByFit = new WeakMap<ChangePointFit, { bills: readonly Bill[]; years: readonly WeatherYear[]; asOf: string; mode: MonthAdjustment; residual: number[] }[]>();
+
+function computeResidual(
+  fit: ChangePointFit, bills: readonly Bill[], years: readonly WeatherYear[], asOf: string, mode: Exclude<MonthAdjustment, "none">,
+): number[] {
   const from = mode === "last-year" ? addMonthsIso(asOf, -12).slice(0, 7) : "";
   const known = billsKnownAt(bills, asOf).filter((b) => b.readType !== "estimated");
   const sums = new Array<number>(12).fill(0);

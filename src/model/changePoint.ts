@@ -208,10 +208,63 @@ export function fitChangePointAt(
   return { kind, beta, breakpoints: bps, slopes, parameterCount: p, stats, rmse, ols, predict, predictWithInterval };
 }
 
-/** A column of a search design, as a function of temperature. */
-type Column = (t: number) => number;
+/**
+ * A column of a search design, as a function of temperature t, described by data (an operation
+ * and a breakpoint b) rather than a closure: the searches fill thousands of designs per meter,
+ * and a loop over one known operation runs far faster than a call per cell through a call site
+ * that sees every kind of closure. Each operation is the expression the closures computed.
+ */
+interface Column {
+  op: ColumnOp;
+  b: number;
+}
 
-const ONE: Column = () => 1;
+type ColumnOp =
+  | "one" // 1
+  | "t" // t
+  | "below" // min(t − b, 0)
+  | "above" // max(t − b, 0)
+  | "atOrAbove" // t ≥ b ? 1 : 0
+  | "atOrBelow" // t ≤ b ? 1 : 0
+  | "tAtOrAbove" // t · (t ≥ b ? 1 : 0)
+  | "tAtOrBelow"; // t · (t ≤ b ? 1 : 0)
+
+const ONE: Column = { op: "one", b: 0 };
+const T: Column = { op: "t", b: 0 };
+const belowCol = (b: number): Column => ({ op: "below", b });
+const aboveCol = (b: number): Column => ({ op: "above", b });
+
+/** Writes w[i] · column(t[i]) for every row into out[off …]. */
+function fillColumn(col: Column, temps: readonly number[], sqrtW: Float64Array, out: Float64Array, off: number): void {
+  const m = temps.length;
+  const b = col.b;
+  switch (col.op) {
+    case "one":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * 1;
+      break;
+    case "t":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * temps[i];
+      break;
+    case "below":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * Math.min(temps[i] - b, 0);
+      break;
+    case "above":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * Math.max(temps[i] - b, 0);
+      break;
+    case "atOrAbove":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * (temps[i] >= b ? 1 : 0);
+      break;
+    case "atOrBelow":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * (temps[i] <= b ? 1 : 0);
+      break;
+    case "tAtOrAbove":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * (temps[i] * (temps[i] >= b ? 1 : 0));
+      break;
+    case "tAtOrBelow":
+      for (let i = 0; i < m; i++) out[off + i] = sqrtW[i] * (temps[i] * (temps[i] <= b ? 1 : 0));
+      break;
+  }
+}
 
 /**
  * Workspace for the breakpoint searches: fits small weighted least-squares problems in
@@ -232,12 +285,8 @@ class SearchWorkspace {
   /** Weighted SSE of y on the given columns (NaN when singular); coefficients in `coef`. */
   fit(columns: readonly Column[]): number {
     const m = this.temps.length;
-    for (let i = 0; i < m; i++) {
-      const w = this.sqrtW[i];
-      const t = this.temps[i];
-      for (let c = 0; c < columns.length; c++) this.a[c * m + i] = w * columns[c](t);
-      this.rhs[i] = w * this.y[i];
-    }
+    for (let c = 0; c < columns.length; c++) fillColumn(columns[c], this.temps, this.sqrtW, this.a, c * m);
+    for (let i = 0; i < m; i++) this.rhs[i] = this.sqrtW[i] * this.y[i];
     return leastSquaresInPlace(this.a, this.rhs, m, columns.length, this.coef);
   }
   /** Weighted SSE of a change-point form at fixed breakpoints; Infinity when singular. */
@@ -252,15 +301,15 @@ function hingeColumns(kind: ChangePointKind, bps: readonly number[]): Column[] {
     case "1P":
       return [];
     case "2P":
-      return [(t) => t];
+      return [T];
     case "3PC":
-      return [(t) => Math.max(t - bps[0], 0)];
+      return [aboveCol(bps[0])];
     case "3PH":
-      return [(t) => Math.min(t - bps[0], 0)];
+      return [belowCol(bps[0])];
     case "4P":
-      return [(t) => Math.min(t - bps[0], 0), (t) => Math.max(t - bps[0], 0)];
+      return [belowCol(bps[0]), aboveCol(bps[0])];
     case "5P":
-      return [(t) => Math.min(t - bps[0], 0), (t) => Math.max(t - bps[1], 0)];
+      return [belowCol(bps[0]), aboveCol(bps[1])];
   }
 }
 
@@ -276,8 +325,9 @@ function hingeColumns(kind: ChangePointKind, bps: readonly number[]): Column[] {
  */
 function intervalCandidates(ws: SearchWorkspace, k0: number, k1: number, fixed: readonly Column[], activeAbove: boolean): number[] {
   const out = [k0, k1, (k0 + k1) / 2];
-  const a: Column = activeAbove ? (t) => (t >= k1 ? 1 : 0) : (t) => (t <= k0 ? 1 : 0);
-  const sse = ws.fit([...fixed, (t) => t * a(t), a]);
+  const a: Column = activeAbove ? { op: "atOrAbove", b: k1 } : { op: "atOrBelow", b: k0 };
+  const ta: Column = activeAbove ? { op: "tAtOrAbove", b: k1 } : { op: "tAtOrBelow", b: k0 };
+  const sse = ws.fit([...fixed, ta, a]);
   if (!Number.isNaN(sse)) {
     const k = fixed.length;
     const b = -ws.coef[k + 1] / ws.coef[k];
@@ -335,7 +385,7 @@ export function fitChangePoint(
   const above = (b: number): number => temps.filter((t) => t >= b).length;
 
   if (nb === 1) {
-    const fixed: Column[] = kind === "4P" ? [ONE, (t) => t] : [ONE];
+    const fixed: Column[] = kind === "4P" ? [ONE, T] : [ONE];
     const activeAbove = kind !== "3PH";
     for (let i = 0; i + 1 < knots.length; i++) {
       if (below(knots[i + 1]) < minPts || above(knots[i]) < minPts) continue;
@@ -352,7 +402,7 @@ export function fitChangePoint(
     }
     /** Best of the exact candidates for one breakpoint with the other fixed. */
     const solveOne = (which: 0 | 1, other: number, i: number): { bps: number[]; sse: number } | null => {
-      const fixed: Column[] = which === 1 ? [ONE, (t) => Math.min(t - other, 0)] : [ONE, (t) => Math.max(t - other, 0)];
+      const fixed: Column[] = which === 1 ? [ONE, belowCol(other)] : [ONE, aboveCol(other)];
       let arg: { bps: number[]; sse: number } | null = null;
       const cands = intervalCandidates(ws, knots[i], knots[i + 1], fixed, which === 1);
       // When both breakpoints share an interval, also try the middle of the part left free.
@@ -376,9 +426,9 @@ export function fitChangePoint(
       for (const j of highIdx) {
         if (j < i) continue;
         const [a0, a1, c0, c1] = [knots[i], knots[i + 1], knots[j], knots[j + 1]];
-        const l: Column = (t) => (t <= a0 ? 1 : 0);
-        const r: Column = (t) => (t >= c1 ? 1 : 0);
-        const sse = ws.fit([ONE, (t) => t * l(t), l, (t) => t * r(t), r]);
+        const l: Column = { op: "atOrBelow", b: a0 };
+        const r: Column = { op: "atOrAbove", b: c1 };
+        const sse = ws.fit([ONE, { op: "tAtOrBelow", b: a0 }, l, { op: "tAtOrAbove", b: c1 }, r]);
         if (!Number.isNaN(sse)) {
           const b1 = -ws.coef[2] / ws.coef[1];
           const b2 = -ws.coef[4] / ws.coef[3];

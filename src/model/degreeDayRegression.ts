@@ -354,47 +354,42 @@ class SearchData {
     for (let i = 0; i < this.n; i++) syy += this.w[i] * (this.y[i] - this.yBar) ** 2;
     this.syy = syy;
   }
-  /** Weighted SSE of y on [1, x] and the slope; slope NaN when x is constant. */
-  one(x: Float64Array): { sse: number; slope: number } {
+  /**
+   * The parts of a fit that depend on one column alone: its weighted mean, its centred values
+   * and the weighted sums Σ w·d·d and Σ w·d·(y − ȳ), each added in row order exactly as the
+   * fused loops of a fit added them. A base search pairs every heating column with every
+   * cooling column, so each column's parts are worked out once instead of once per pair.
+   */
+  prepare(x: Float64Array): PreparedColumn {
     let sx = 0;
     for (let i = 0; i < this.n; i++) sx += this.w[i] * x[i];
-    const xBar = sx / this.sw;
-    let sxx = 0;
-    let sxy = 0;
+    const bar = sx / this.sw;
+    const d = new Float64Array(this.n);
+    let sdd = 0;
+    let sdy = 0;
     for (let i = 0; i < this.n; i++) {
-      const dx = x[i] - xBar;
-      sxx += this.w[i] * dx * dx;
-      sxy += this.w[i] * dx * (this.y[i] - this.yBar);
+      const dx = x[i] - bar;
+      d[i] = dx;
+      sdd += this.w[i] * dx * dx;
+      sdy += this.w[i] * dx * (this.y[i] - this.yBar);
     }
+    return { bar, d, sdd, sdy };
+  }
+  /** Weighted SSE of y on [1, x] and the slope; slope NaN when x is constant. */
+  one(x: PreparedColumn): { sse: number; slope: number } {
+    const { bar: xBar, sdd: sxx, sdy: sxy } = x;
     if (!(sxx > 1e-12 * Math.max(1, xBar * xBar) * this.sw)) return { sse: Number.POSITIVE_INFINITY, slope: Number.NaN };
     const slope = sxy / sxx;
     return { sse: this.syy - slope * sxy, slope };
   }
   /** Weighted SSE of y on [1, a, b] and both slopes (centred 2 × 2 normal equations). */
-  two(a: Float64Array, b: Float64Array): { sse: number; slopeA: number; slopeB: number } {
-    let sa = 0;
-    let sb = 0;
-    for (let i = 0; i < this.n; i++) {
-      sa += this.w[i] * a[i];
-      sb += this.w[i] * b[i];
-    }
-    const aBar = sa / this.sw;
-    const bBar = sb / this.sw;
-    let saa = 0;
-    let sbb = 0;
+  two(a: PreparedColumn, b: PreparedColumn): { sse: number; slopeA: number; slopeB: number } {
+    const { sdd: saa, sdy: say } = a;
+    const { sdd: sbb, sdy: sby } = b;
+    const da = a.d;
+    const db = b.d;
     let sab = 0;
-    let say = 0;
-    let sby = 0;
-    for (let i = 0; i < this.n; i++) {
-      const da = a[i] - aBar;
-      const db = b[i] - bBar;
-      const dy = this.y[i] - this.yBar;
-      saa += this.w[i] * da * da;
-      sbb += this.w[i] * db * db;
-      sab += this.w[i] * da * db;
-      say += this.w[i] * da * dy;
-      sby += this.w[i] * db * dy;
-    }
+    for (let i = 0; i < this.n; i++) sab += this.w[i] * da[i] * db[i];
     const det = saa * sbb - sab * sab;
     // Near-collinear HDD and CDD columns (e.g. both bases in a narrow band): no usable fit.
     if (!(saa > 0 && sbb > 0 && det > 1e-9 * saa * sbb)) return { sse: Number.POSITIVE_INFINITY, slopeA: Number.NaN, slopeB: Number.NaN };
@@ -402,6 +397,17 @@ class SearchData {
     const slopeB = (saa * sby - sab * say) / det;
     return { sse: this.syy - slopeA * say - slopeB * sby, slopeA, slopeB };
   }
+}
+
+/** One column's share of a fit (SearchData.prepare). */
+interface PreparedColumn {
+  bar: number;
+  /** x − mean, per row. */
+  d: Float64Array;
+  /** Σ w·d·d */
+  sdd: number;
+  /** Σ w·d·(y − ȳ) */
+  sdy: number;
 }
 
 function gridOf(min: number, max: number, step: number): number[] {
@@ -412,7 +418,33 @@ function gridOf(min: number, max: number, step: number): number[] {
 }
 
 function columnAt(periods: readonly DegreeDayPeriod[], kind: "h" | "c", base: number): Float64Array {
-  return Float64Array.from(periods, (p) => (kind === "h" ? hddPerDay(p.profile, base) : cddPerDay(p.profile, base)));
+  // A plain loop: Float64Array.from with a mapping function goes through the iterator protocol,
+  // and the base searches (refitted for every left-out bill) build hundreds of thousands of columns.
+  const out = new Float64Array(periods.length);
+  for (let i = 0; i < out.length; i++) out[i] = degreeDaysAt(periods[i]!.profile, kind, base);
+  return out;
+}
+
+/*
+ * Degree-days per day of one period at one base, kept per profile: the leave-one-out refits of
+ * the outlier bands search the same bases over the same periods once per left-out bill, and
+ * every form searches the same coarse grid.
+ */
+const degreeDaysByProfile = new WeakMap<TemperatureProfile, { h: Map<number, number>; c: Map<number, number> }>();
+
+function degreeDaysAt(profile: TemperatureProfile, kind: "h" | "c", base: number): number {
+  // A Map takes −0 and 0 as one key; their degree-days may differ in the sign of a zero.
+  if (Object.is(base, -0)) return kind === "h" ? hddPerDay(profile, base) : cddPerDay(profile, base);
+  let cached = degreeDaysByProfile.get(profile);
+  if (cached === undefined) degreeDaysByProfile.set(profile, (cached = { h: new Map(), c: new Map() }));
+  const byBase = kind === "h" ? cached.h : cached.c;
+  let v = byBase.get(base);
+  if (v === undefined) {
+    v = kind === "h" ? hddPerDay(profile, base) : cddPerDay(profile, base);
+    if (byBase.size >= 4096) byBase.clear(); // a bound, not an eviction policy
+    byBase.set(base, v);
+  }
+  return v;
 }
 
 /** Indices of the best few local minima of a 1-D score array (the refine step starts from each). */
@@ -438,7 +470,7 @@ function searchBases(
   if (form !== "HC") {
     const kind = form === "HO" ? "h" : "c";
     const sseAt = (base: number): number => {
-      const r = data.one(columnAt(periods, kind, base));
+      const r = data.one(data.prepare(columnAt(periods, kind, base)));
       // Physical constraint: a heating (cooling) slope must be positive.
       return r.slope > 0 ? r.sse : Number.POSITIVE_INFINITY;
     };
@@ -461,9 +493,9 @@ function searchBases(
     return form === "HO" ? { heatingBase: best, coolingBase: null } : { heatingBase: null, coolingBase: best };
   }
   const coarse = gridOf(range.min, range.max, range.step);
-  const hCols = coarse.map((b) => columnAt(periods, "h", b));
-  const cCols = coarse.map((b) => columnAt(periods, "c", b));
-  const pairSse = (a: Float64Array, b: Float64Array): number => {
+  const hCols = coarse.map((b) => data.prepare(columnAt(periods, "h", b)));
+  const cCols = coarse.map((b) => data.prepare(columnAt(periods, "c", b)));
+  const pairSse = (a: PreparedColumn, b: PreparedColumn): number => {
     const r = data.two(a, b);
     return r.slopeA > 0 && r.slopeB > 0 ? r.sse : Number.POSITIVE_INFINITY;
   };
@@ -480,9 +512,9 @@ function searchBases(
   for (const s of starts.slice(0, 3)) {
     const hs = gridOf(Math.max(range.min, s.h - range.step), Math.min(range.max, s.h + range.step), range.refineStep);
     const cs = gridOf(Math.max(range.min, s.c - range.step), Math.min(range.max, s.c + range.step), range.refineStep);
-    const cColsFine = cs.map((b) => columnAt(periods, "c", b));
+    const cColsFine = cs.map((b) => data.prepare(columnAt(periods, "c", b)));
     for (const h of hs) {
-      const hCol = columnAt(periods, "h", h);
+      const hCol = data.prepare(columnAt(periods, "h", h));
       cs.forEach((c, k) => {
         if (c < h) return;
         const sse = pairSse(hCol, cColsFine[k]);

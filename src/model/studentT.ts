@@ -119,6 +119,21 @@ export function studentTQuantile(p: number, df: number): number {
   checkDf(df);
   if (!(p > 0 && p < 1)) throw new ModelInputError(`quantile probability must be in (0, 1), got ${p}`);
   if (p === 0.5) return 0;
+  // Prediction intervals ask for the same few (p, df) thousands of times (a forecast scenario
+  // setup per weather year and month): the root is found once per pair and kept.
+  const key = `${p}|${df}`;
+  let t = quantiles.get(key);
+  if (t === undefined) {
+    if (quantiles.size >= 4096) quantiles.clear(); // a bound, not an eviction policy
+    quantiles.set(key, (t = solveQuantile(p, df)));
+  }
+  return t;
+}
+
+const quantiles = new Map<string, number>();
+
+/** The Newton/bisection root of studentTQuantile (p ≠ 0.5). */
+function solveQuantile(p: number, df: number): number {
   // Solve Q(t) = q on t ≥ 0 by symmetry; q is the smaller tail.
   const q = p > 0.5 ? 1 - p : p;
   let lo = 0;

@@ -48,26 +48,42 @@ export function maxWindowDemandKw(
   period = -1,
 ): WindowDemand {
   const k = intervalsPerWindow(windowMinutes, intervalMinutes);
-  const stepMs = intervalMinutes * 60_000;
-  const spanMs = (k - 1) * stepMs;
+  const hours = (k * intervalMinutes) / 60;
+  if (periodIdx !== null) return { kw: maxWindowInPeriodKw(startMs, kwh, intervalMinutes, k, periodIdx, period), intervalsPerWindow: k };
+  const ends = windowEnds(startMs, intervalMinutes * 60_000, k, null);
+  // The highest window sum, divided once: x ↦ x / hours never decreases, so max(sum) / hours is
+  // the largest window average, the same number as dividing every sum and keeping the largest.
+  let best = -Infinity;
+  let sum = 0;
+  for (let i = 0; i < kwh.length; i++) {
+    sum += kwh[i];
+    if (i >= k) sum -= kwh[i - k];
+    if (ends[i] === 0 && sum > best) best = sum;
+  }
+  return { kw: best === -Infinity ? null : best / hours, intervalsPerWindow: k };
+}
+
+/** `maxWindowDemandKw` inside one period: windows whose instants span k intervals and all start in `period`. */
+function maxWindowInPeriodKw(startMs: Float64Array, kwh: Float64Array, intervalMinutes: number, k: number, periodIdx: Int8Array, period: number): number | null {
+  const spanMs = (k - 1) * intervalMinutes * 60_000;
   const hours = (k * intervalMinutes) / 60;
   let best = -Infinity;
   let sum = 0;
   let inside = 0; // intervals of the current window inside the period
   for (let i = 0; i < kwh.length; i++) {
     sum += kwh[i];
-    if (periodIdx !== null && periodIdx[i] === period) inside++;
+    if (periodIdx[i] === period) inside++;
     if (i >= k) {
       sum -= kwh[i - k];
-      if (periodIdx !== null && periodIdx[i - k] === period) inside--;
+      if (periodIdx[i - k] === period) inside--;
     }
     if (i < k - 1) continue;
     if (startMs[i] - startMs[i - k + 1] !== spanMs) continue;
-    if (periodIdx !== null && inside !== k) continue;
+    if (inside !== k) continue;
     const kw = sum / hours;
     if (kw > best) best = kw;
   }
-  return { kw: best === -Infinity ? null : best, intervalsPerWindow: k };
+  return best === -Infinity ? null : best;
 }
 
 /**
@@ -86,22 +102,89 @@ export function maxWindowDemandByPeriodKw(
   periodCount: number,
 ): (number | null)[] {
   const k = intervalsPerWindow(windowMinutes, intervalMinutes);
-  const stepMs = intervalMinutes * 60_000;
   const hours = (k * intervalMinutes) / 60;
+  const ends = windowEnds(startMs, intervalMinutes * 60_000, k, periodIdx);
   const best = new Float64Array(periodCount).fill(-Infinity);
   let sum = 0;
-  let run = 0; // consecutive contiguous intervals in the same period, ending at i
   for (let i = 0; i < kwh.length; i++) {
     sum += kwh[i];
     if (i >= k) sum -= kwh[i - k];
-    run = i > 0 && periodIdx[i] === periodIdx[i - 1] && startMs[i] - startMs[i - 1] === stepMs ? run + 1 : 1;
-    if (run >= k) {
-      const p = periodIdx[i];
-      const kw = sum / hours;
-      if (p >= 0 && kw > best[p]) best[p] = kw;
+    const p = ends[i];
+    if (p >= 0 && sum > best[p]) best[p] = sum;
+  }
+  return Array.from(best, (b) => (b === -Infinity ? null : b / hours));
+}
+
+/**
+ * `maxWindowDemandKw` (whole period) and `maxWindowDemandByPeriodKw` together, in one pass: both
+ * keep the highest of the same running window sums, so they give the same numbers as the two
+ * calls (a tariff with a whole-period and a time-of-use demand charge on the same window).
+ * @example periods [0,0,1,1], 15-minute kWh [5,5,30,30], 30-minute window -> { kw: 120, byPeriod: [20, 120] }
+ */
+export function maxWindowDemandsKw(
+  startMs: Float64Array,
+  kwh: Float64Array,
+  intervalMinutes: number,
+  windowMinutes: number,
+  periodIdx: Int8Array,
+  periodCount: number,
+): { whole: WindowDemand; byPeriod: (number | null)[] } {
+  const k = intervalsPerWindow(windowMinutes, intervalMinutes);
+  const hours = (k * intervalMinutes) / 60;
+  const stepMs = intervalMinutes * 60_000;
+  const ends = windowEnds(startMs, stepMs, k, null);
+  const endsIn = windowEnds(startMs, stepMs, k, periodIdx);
+  let best = -Infinity;
+  const bestIn = new Float64Array(periodCount).fill(-Infinity);
+  let sum = 0;
+  for (let i = 0; i < kwh.length; i++) {
+    sum += kwh[i];
+    if (i >= k) sum -= kwh[i - k];
+    if (ends[i] === 0 && sum > best) best = sum;
+    const p = endsIn[i];
+    if (p >= 0 && sum > bestIn[p]) bestIn[p] = sum;
+  }
+  return {
+    whole: { kw: best === -Infinity ? null : best / hours, intervalsPerWindow: k },
+    byPeriod: Array.from(bestIn, (b) => (b === -Infinity ? null : b / hours)),
+  };
+}
+
+/*
+ * Which windows count depends only on the instants, the window and the periods, not on the
+ * readings: a forecast prices the same month's instants hundreds of times with scaled readings,
+ * so the answer is kept per instants array (and periods array). Neither array is mutated by the
+ * pricing code once made (context.ts shares the instants' local times the same way).
+ */
+const endsByInstants = new WeakMap<ArrayBufferLike, Map<string, { startMs: Float64Array; periodIdx: Int8Array | null; ends: Int8Array }[]>>();
+
+/**
+ * For each i, whether a window of `k` intervals ending at i counts: −1 when it does not (fewer
+ * than k intervals so far, a gap in time, or — with periods — intervals in different periods),
+ * else the window's period index (0 without periods).
+ */
+function windowEnds(startMs: Float64Array, stepMs: number, k: number, periodIdx: Int8Array | null): Int8Array {
+  let byView = endsByInstants.get(startMs.buffer);
+  if (byView === undefined) endsByInstants.set(startMs.buffer, (byView = new Map()));
+  const key = `${startMs.byteOffset}|${startMs.length}|${stepMs}|${k}`;
+  let list = byView.get(key);
+  if (list === undefined) byView.set(key, (list = []));
+  for (const e of list) if (e.periodIdx === periodIdx && e.startMs.length === startMs.length) return e.ends;
+  const n = startMs.length;
+  const ends = new Int8Array(n).fill(-1);
+  const spanMs = (k - 1) * stepMs;
+  let run = 0; // consecutive contiguous intervals in the same period, ending at i
+  for (let i = 0; i < n; i++) {
+    if (periodIdx === null) {
+      if (i >= k - 1 && startMs[i] - startMs[i - k + 1] === spanMs) ends[i] = 0;
+    } else {
+      run = i > 0 && periodIdx[i] === periodIdx[i - 1] && startMs[i] - startMs[i - 1] === stepMs ? run + 1 : 1;
+      if (run >= k) ends[i] = periodIdx[i];
     }
   }
-  return Array.from(best, (b) => (b === -Infinity ? null : b));
+  if (list.length >= 8) list.shift(); // a bound: a few period arrays per set of instants
+  list.push({ startMs, periodIdx, ends });
+  return ends;
 }
 
 /**

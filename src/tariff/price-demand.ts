@@ -5,7 +5,7 @@
  */
 import type { ComputedLine, LinePart, LineStatus } from "./types.ts";
 import type { Charge } from "./model.ts";
-import { billingDemandKw, maxWindowDemandByPeriodKw, maxWindowDemandKw } from "./demand.ts";
+import { billingDemandKw, maxWindowDemandKw } from "./demand.ts";
 import { groupedNumber } from "./format.ts";
 import { line } from "./lines.ts";
 import { agreesWithinRounding, type VersionState } from "./version-state.ts";
@@ -24,7 +24,7 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
     let status: LineStatus = "exact";
     let source: string;
     if (iv && iv.kwh && iv.startMs.length > 0) {
-      const d = maxWindowDemandKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes);
+      const d = st.windowDemand(charge.windowMinutes);
       measured = d.kw;
       source = ctx.detail ? `highest ${d.intervalsPerWindow * iv.intervalMinutes}-minute average from interval data` : "";
       // Shape only: the bill's demand governs; the meter's more precise figure is used only when it is the same reading.
@@ -64,7 +64,7 @@ export function priceDemand(st: VersionState, charge: Extract<Charge, { kind: "d
   let status: LineStatus = "exact";
   let note: string;
   if (iv && iv.kwh && iv.startMs.length > 0) {
-    const byPeriod = maxWindowDemandByPeriodKw(iv.startMs, iv.kwh, iv.intervalMinutes, charge.windowMinutes, st.intervalPeriods(), version.periods.length);
+    const byPeriod = st.windowDemandByPeriod(charge.windowMinutes);
     // Shape only: period peaks scaled so the highest of them matches the billed demand.
     let scale = 1;
     note = `highest ${windowText} average inside each period, from interval data`;

@@ -7,6 +7,7 @@ import type { LineStatus } from "./types.ts";
 import type { TariffVersion } from "./model.ts";
 import type { BillContext } from "./context.ts";
 import { periodIndices } from "./calendar.ts";
+import { maxWindowDemandByPeriodKw, maxWindowDemandKw, maxWindowDemandsKw, type WindowDemand } from "./demand.ts";
 import { groupedNumber } from "./format.ts";
 import { sumAmounts } from "../core/money.ts";
 
@@ -35,6 +36,7 @@ export class VersionState {
   private periodIdx: Int8Array | null = null;
   private hourlyIdx: Int8Array | null = null;
   private split: PeriodSplit | null = null;
+  private demands: Map<number, { whole: WindowDemand | null; byPeriod: (number | null)[] | null }> | null = null;
   constructor(
     readonly ctx: BillContext,
     readonly version: TariffVersion,
@@ -43,6 +45,54 @@ export class VersionState {
   intervalPeriods(): Int8Array {
     if (this.periodIdx === null) this.periodIdx = periodIndices(this.ctx.intervals!.local, this.version);
     return this.periodIdx;
+  }
+
+  /** Highest window average over the whole period from the interval data (kW), per window length. */
+  windowDemand(windowMinutes: number): WindowDemand {
+    const d = this.windowDemands(windowMinutes);
+    if (d.whole === null) {
+      const iv = this.ctx.intervals!;
+      d.whole = maxWindowDemandKw(iv.startMs, iv.kwh!, iv.intervalMinutes, windowMinutes);
+    }
+    return d.whole;
+  }
+
+  /** Highest window average inside each period from the interval data (kW), per window length. */
+  windowDemandByPeriod(windowMinutes: number): (number | null)[] {
+    const d = this.windowDemands(windowMinutes);
+    if (d.byPeriod === null) {
+      const iv = this.ctx.intervals!;
+      d.byPeriod = maxWindowDemandByPeriodKw(iv.startMs, iv.kwh!, iv.intervalMinutes, windowMinutes, this.intervalPeriods(), this.version.periods.length);
+    }
+    return d.byPeriod;
+  }
+
+  /**
+   * The demands of one window length. When the version has both a whole-period and a per-period
+   * demand charge on that window, both are found in one pass over the readings (the same numbers
+   * as two passes: maxWindowDemandsKw).
+   */
+  private windowDemands(windowMinutes: number): { whole: WindowDemand | null; byPeriod: (number | null)[] | null } {
+    this.demands ??= new Map();
+    let d = this.demands.get(windowMinutes);
+    if (d === undefined) {
+      d = { whole: null, byPeriod: null };
+      let flat = false;
+      let periods = false;
+      for (const c of this.version.charges) {
+        if (c.kind !== "demand" || c.windowMinutes !== windowMinutes) continue;
+        if ("flat" in c.rate) flat = true;
+        else periods = true;
+      }
+      if (flat && periods) {
+        const iv = this.ctx.intervals!;
+        const both = maxWindowDemandsKw(iv.startMs, iv.kwh!, iv.intervalMinutes, windowMinutes, this.intervalPeriods(), this.version.periods.length);
+        d.whole = both.whole;
+        d.byPeriod = both.byPeriod;
+      }
+      this.demands.set(windowMinutes, d);
+    }
+    return d;
   }
 
   hourlyPeriods(): Int8Array {
@@ -78,12 +128,15 @@ export class VersionState {
   periodSplit(): PeriodSplit {
     if (this.split) return this.split;
     const n = this.version.periods.length;
-    const usage = new Array<number>(n).fill(0);
+    let usage = new Array<number>(n).fill(0);
     const iv = this.ctx.intervals;
     const unit = this.ctx.tariff.usageUnit;
     if (iv && iv.startMs.length > 0) {
       const idx = this.intervalPeriods();
-      for (let i = 0; i < idx.length; i++) usage[idx[i]] += iv.usage[i];
+      // Summed in a typed array (a forecast splits thousands of scaled months), in the same order.
+      const sums = new Float64Array(n);
+      for (let i = 0; i < idx.length; i++) sums[idx[i]] += iv.usage[i];
+      usage = Array.from(sums);
       const metered = sumAmounts(usage);
       if (this.ctx.req.intervalsGive === "shape" && metered > 0) {
         const agrees = iv.startMs.length >= iv.expectedCount && agreesWithinRounding(metered, this.ctx.usage);

@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { quantile } from "simple-statistics";
-import { bandOf } from "../../src/forecast/quantiles.ts";
+import fc from "fast-check";
+import { bandOf, p50Of } from "../../src/forecast/quantiles.ts";
+import { ForecastInputError } from "../../src/forecast/errors.ts";
 
 describe("bandOf (P10/P50/P90, type-7 quantiles)", () => {
   it("matches simple-statistics quantile on a random sample", () => {
@@ -37,5 +39,21 @@ describe("bandOf (P10/P50/P90, type-7 quantiles)", () => {
   it("rejects an empty sample and non-finite values", () => {
     expect(() => bandOf([])).toThrow(/no scenarios/);
     expect(() => bandOf([1, NaN])).toThrow(/not a finite number/);
+  });
+});
+
+describe("p50Of", () => {
+  it("is bandOf's p50, bit for bit, for any length (reference: bandOf, simple-statistics type 7)", () => {
+    fc.assert(
+      fc.property(fc.array(fc.double({ min: 0, max: 1e6, noNaN: true }), { minLength: 1, maxLength: 320 }), (xs) => {
+        expect(Object.is(p50Of(xs), bandOf(xs).p50)).toBe(true);
+        expect(Object.is(p50Of(Float64Array.from(xs)), bandOf(Float64Array.from(xs)).p50)).toBe(true);
+      }),
+      { numRuns: 300 },
+    );
+  });
+  it("rejects what bandOf rejects", () => {
+    expect(() => p50Of([])).toThrow(ForecastInputError);
+    expect(() => p50Of([1, NaN])).toThrow(ForecastInputError);
   });
 });

@@ -1,7 +1,7 @@
 /** Demand from interval data (common practice: kW = kWh × 60 / interval minutes; rolling window). */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { billingDemandKw, intervalsPerWindow, maxWindowDemandByPeriodKw, maxWindowDemandKw } from "../../src/tariff/demand.ts";
+import { billingDemandKw, intervalsPerWindow, maxWindowDemandByPeriodKw, maxWindowDemandKw, maxWindowDemandsKw } from "../../src/tariff/demand.ts";
 
 const starts = (n: number, minutes = 15, gapAt = -1) =>
   Float64Array.from({ length: n }, (_, i) => i * minutes * 60_000 + (gapAt >= 0 && i >= gapAt ? 3_600_000 : 0));
@@ -57,5 +57,62 @@ describe("billingDemandKw", () => {
     expect(billingDemandKw(300, [500, 400], { percent: 80, months: 11 }, 10)).toEqual({ kw: 400, by: "ratchet", ratchetKw: 400 });
     expect(billingDemandKw(5, [], { percent: 80, months: 11 }, 10)).toEqual({ kw: 10, by: "minimum", ratchetKw: null });
     expect(billingDemandKw(450, [500], { percent: 80, months: 11 }, null).by).toBe("measured");
+  });
+});
+
+/** The implementations before the window flags were kept per instants array: every window divided, then compared. */
+function referenceMaxKw(startMs: Float64Array, kwh: Float64Array, intervalMinutes: number, windowMinutes: number): number | null {
+  const k = intervalsPerWindow(windowMinutes, intervalMinutes);
+  const spanMs = (k - 1) * intervalMinutes * 60_000;
+  const hours = (k * intervalMinutes) / 60;
+  let best = -Infinity;
+  let sum = 0;
+  for (let i = 0; i < kwh.length; i++) {
+    sum += kwh[i]!;
+    if (i >= k) sum -= kwh[i - k]!;
+    if (i < k - 1 || startMs[i]! - startMs[i - k + 1]! !== spanMs) continue;
+    if (sum / hours > best) best = sum / hours;
+  }
+  return best === -Infinity ? null : best;
+}
+function referenceByPeriodKw(startMs: Float64Array, kwh: Float64Array, intervalMinutes: number, windowMinutes: number, periodIdx: Int8Array, periodCount: number): (number | null)[] {
+  const k = intervalsPerWindow(windowMinutes, intervalMinutes);
+  const stepMs = intervalMinutes * 60_000;
+  const hours = (k * intervalMinutes) / 60;
+  const best = new Float64Array(periodCount).fill(-Infinity);
+  let sum = 0;
+  let run = 0;
+  for (let i = 0; i < kwh.length; i++) {
+    sum += kwh[i]!;
+    if (i >= k) sum -= kwh[i - k]!;
+    run = i > 0 && periodIdx[i] === periodIdx[i - 1] && startMs[i]! - startMs[i - 1]! === stepMs ? run + 1 : 1;
+    if (run >= k && periodIdx[i]! >= 0 && sum / hours > best[periodIdx[i]!]!) best[periodIdx[i]!] = sum / hours;
+  }
+  return Array.from(best, (b) => (b === -Infinity ? null : b));
+}
+
+describe("window demand: bit-identical to dividing every window (x ↦ x / hours never decreases)", () => {
+  it("random readings with gaps, NaN and -0, the same instants priced with several sets of readings (reference: the former per-window loop)", () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.record({ gap: fc.boolean(), period: fc.integer({ min: 0, max: 2 }) }), { minLength: 1, maxLength: 60 }),
+        fc.array(fc.array(fc.oneof(fc.double({ min: -5, max: 500, noNaN: true }), fc.constant(NaN), fc.constant(-0)), { minLength: 60, maxLength: 60 }), { minLength: 1, maxLength: 3 }),
+        fc.constantFrom(15, 30, 45, 60),
+        (slots, readings, window) => {
+          let t = 0;
+          const startMs = Float64Array.from(slots, (s) => (t += s.gap ? 3_600_000 : 900_000));
+          const idx = Int8Array.from(slots, (s) => s.period);
+          for (const r of readings) {
+            const kwh = Float64Array.from(slots, (_, i) => r[i]!);
+            expect(maxWindowDemandKw(startMs, kwh, 15, window).kw).toBe(referenceMaxKw(startMs, kwh, 15, window));
+            expect(maxWindowDemandByPeriodKw(startMs, kwh, 15, window, idx, 3)).toEqual(referenceByPeriodKw(startMs, kwh, 15, window, idx, 3));
+            const both = maxWindowDemandsKw(startMs, kwh, 15, window, idx, 3);
+            expect(both.whole.kw).toBe(referenceMaxKw(startMs, kwh, 15, window));
+            expect(both.byPeriod).toEqual(referenceByPeriodKw(startMs, kwh, 15, window, idx, 3));
+          }
+        },
+      ),
+      { numRuns: 300 },
+    );
   });
 });

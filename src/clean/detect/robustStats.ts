@@ -111,7 +111,7 @@ function finiteSorted(values: ArrayLike<number>): Float64Array {
 }
 
 /** Median of an ascending array (NaN when empty). */
-function medianOfSorted(xs: Float64Array): number {
+export function medianOfSorted(xs: Float64Array): number {
   const n = xs.length;
   if (n === 0) return NaN;
   const mid = n >> 1;

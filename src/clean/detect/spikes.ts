@@ -1,5 +1,6 @@
 import type { IntervalSeries } from "../../domain/types.ts";
 import { MAD_TO_SIGMA, medianOf, rollingMedianBounds } from "./robustStats.ts";
+import { slidingWeekMedians } from "./weekWindowMedians.ts";
 import { detectionForRun, flaggedRuns, fmt, followsDirectly, intervalMs, intervalsForHours } from "./seriesGrid.ts";
 import type { Detection } from "./types.ts";
 import { meterResolution } from "./resolution.ts";
@@ -150,21 +151,9 @@ function hourOfWeekSigma(series: IntervalSeries, resid: Float64Array, clockMs: F
   }
   const buckets: number[][] = Array.from({ length: weeks * 168 }, () => []);
   for (let i = 0; i < n; i++) if (Number.isFinite(resid[i]!)) buckets[weekOf[i]! * 168 + howOf[i]!]!.push(Math.abs(resid[i]!));
-  const cache = new Map<number, number>();
+  const sdOfKey = slidingWeekMedians(buckets, weeks, halfWindowWeeks);
   const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const key = weekOf[i]! * 168 + howOf[i]!;
-    let sd = cache.get(key);
-    if (sd === undefined) {
-      const xs: number[] = [];
-      for (let w = Math.max(0, weekOf[i]! - halfWindowWeeks); w <= Math.min(weeks - 1, weekOf[i]! + halfWindowWeeks); w++) {
-        for (const dh of [-1, 0, 1]) for (const x of buckets[w * 168 + ((howOf[i]! + dh + 168) % 168)]!) xs.push(x);
-      }
-      sd = xs.length >= 12 ? MAD_TO_SIGMA * medianOf(xs) : NaN;
-      cache.set(key, sd);
-    }
-    out[i] = sd;
-  }
+  for (let i = 0; i < n; i++) out[i] = sdOfKey[weekOf[i]! * 168 + howOf[i]!]!;
   return out;
 }
 
