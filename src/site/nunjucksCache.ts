@@ -19,7 +19,6 @@ import type { UserConfig } from "@11ty/eleventy";
 
 /** The parts of the nunjucks module and environment used here (Eleventy ships nunjucks 3.2). */
 interface NunjucksLib {
-  compiler: { compile(src: string, asyncFilters: string[], extensions: unknown[], name: string | null, opts: unknown): string };
   Template: new (src: string | { type: "code"; obj: unknown }, env: NunjucksEnv, path: string | null, eagerCompile: boolean) => NunjucksTemplate;
 }
 interface NunjucksEnv {
@@ -28,6 +27,8 @@ interface NunjucksEnv {
   opts: Record<string, unknown>;
 }
 interface NunjucksTemplate {
+  rootRenderFunc: unknown;
+  blocks: Record<string, unknown>;
   render(data: unknown, cb: (error: Error | null, result: string) => void): void;
 }
 
@@ -59,7 +60,10 @@ function templateFor(lib: NunjucksLib, env: NunjucksEnv, str: string, path: stri
   if (code === undefined) {
     try {
       compiles++;
-      code = new Function(lib.compiler.compile(str, env.asyncFilters, env.extensionsList, path, env.opts))();
+      // Nunjucks compiles it (eagerly); its root and block functions are the code object a
+      // Template accepts back ({ root, b_<name> }), so this module never evaluates code itself.
+      const first = new lib.Template(str, env, path, true);
+      code = { root: first.rootRenderFunc, ...Object.fromEntries(Object.entries(first.blocks).map(([name, fn]) => [`b_${name}`, fn])) };
     } catch {
       // Let Nunjucks compile it when rendering, so the error reads as it always did.
       return new lib.Template(str, env, path, false);
