@@ -156,7 +156,14 @@ export function maxWindowDemandsKw(
  * so the answer is kept per instants array (and periods array). Neither array is mutated by the
  * pricing code once made (context.ts shares the instants' local times the same way).
  */
-const endsByInstants = new WeakMap<ArrayBufferLike, Map<string, { startMs: Float64Array; periodIdx: Int8Array | null; ends: Int8Array }[]>>();
+const endsWithoutPeriods = new WeakMap<ArrayBufferLike, Map<string, Int8Array>>();
+/*
+ * With periods, kept per periods array (each pricing state makes its own), so an entry lives as
+ * long as that array and no longer: keyed by the instants' buffer instead, the entries of every
+ * state that ever priced a slice of a meter's series stayed alive with the series (measured:
+ * +1.5 GB in the forecast of a 1,000-building portfolio).
+ */
+const endsWithPeriods = new WeakMap<Int8Array, { startMs: Float64Array; key: string; ends: Int8Array }[]>();
 
 /**
  * For each i, whether a window of `k` intervals ending at i counts: −1 when it does not (fewer
@@ -164,12 +171,23 @@ const endsByInstants = new WeakMap<ArrayBufferLike, Map<string, { startMs: Float
  * else the window's period index (0 without periods).
  */
 function windowEnds(startMs: Float64Array, stepMs: number, k: number, periodIdx: Int8Array | null): Int8Array {
-  let byView = endsByInstants.get(startMs.buffer);
-  if (byView === undefined) endsByInstants.set(startMs.buffer, (byView = new Map()));
   const key = `${startMs.byteOffset}|${startMs.length}|${stepMs}|${k}`;
-  let list = byView.get(key);
-  if (list === undefined) byView.set(key, (list = []));
-  for (const e of list) if (e.periodIdx === periodIdx && e.startMs.length === startMs.length) return e.ends;
+  if (periodIdx === null) {
+    let byKey = endsWithoutPeriods.get(startMs.buffer);
+    if (byKey === undefined) endsWithoutPeriods.set(startMs.buffer, (byKey = new Map()));
+    let ends = byKey.get(key);
+    if (ends === undefined) byKey.set(key, (ends = computeWindowEnds(startMs, stepMs, k, null)));
+    return ends;
+  }
+  let list = endsWithPeriods.get(periodIdx);
+  if (list === undefined) endsWithPeriods.set(periodIdx, (list = []));
+  for (const e of list) if (e.key === key && e.startMs.buffer === startMs.buffer) return e.ends;
+  const ends = computeWindowEnds(startMs, stepMs, k, periodIdx);
+  list.push({ startMs, key, ends });
+  return ends;
+}
+
+function computeWindowEnds(startMs: Float64Array, stepMs: number, k: number, periodIdx: Int8Array | null): Int8Array {
   const n = startMs.length;
   const ends = new Int8Array(n).fill(-1);
   const spanMs = (k - 1) * stepMs;
@@ -182,8 +200,6 @@ function windowEnds(startMs: Float64Array, stepMs: number, k: number, periodIdx:
       if (run >= k) ends[i] = periodIdx[i];
     }
   }
-  if (list.length >= 8) list.shift(); // a bound: a few period arrays per set of instants
-  list.push({ startMs, periodIdx, ends });
   return ends;
 }
 
