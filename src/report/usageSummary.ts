@@ -126,15 +126,22 @@ export function buildingUsageLast12m(
       if (!window) continue;
       const { start, end } = window;
       const factor = unitFactor(commodity, meter.unit, REPORT_UNIT[commodity], heatContentByMeter(meter)) ?? NaN;
-      const days = new Set<string>();
+      // Days of the window some bill covers, each counted once (bills may overlap), by day number.
+      const covered = new Uint8Array(Math.max(0, daysBetween(start, end)));
       for (const bill of bills) {
         if (bill.meterId !== meter.meterId) continue;
         const part = billUsageInWindow(bill, start, end);
         if (part > 0 || (bill.periodStart < end && bill.periodEnd > start)) touched = true;
         total += part * factor;
-        for (let d = bill.periodStart > start ? bill.periodStart : start; d < end && d < bill.periodEnd; d = addDays(d, 1)) days.add(d);
+        const from = Math.max(0, daysBetween(start, bill.periodStart));
+        const to = Math.min(covered.length, daysBetween(start, bill.periodEnd));
+        for (let d = from; d < to; d++) {
+          if (covered[d] === 0) {
+            covered[d] = 1;
+            coveredDays++;
+          }
+        }
       }
-      coveredDays += days.size;
     }
     out.push({
       commodity,

@@ -47,6 +47,19 @@ describe("last-12-months usage", () => {
     expect(gas!.coverage).toBeCloseTo(360 / 365, 10);
   });
 
+  it("coverage counts each day of the window once, however many bills cover it (hand-computed)", () => {
+    // Window 2024-12-10 … 2025-12-09 (last read 2025-12-10). Bills: 2025-01-01..2025-03-01 (59 days),
+    // an overlapping 2025-02-01..2025-04-01 (31 new days: March), a duplicate of the first, and
+    // one starting before the window, 2024-12-01..2024-12-20 (10 days inside): 59 + 31 + 10 = 100.
+    const bills = [
+      bill("E", "2025-01-01", "2025-03-01", 1), bill("E", "2025-02-01", "2025-04-01", 1), { ...bill("E", "2025-01-01", "2025-03-01", 1), billId: "dup" },
+      bill("E", "2024-12-01", "2024-12-20", 1), bill("E", "2025-12-01", "2025-12-10", 1),
+    ];
+    const [el] = buildingUsageLast12m(building, [meter("E", "electricity", "kWh")], bills, "2025-12-31");
+    // + the 9 days 2025-12-01 … 2025-12-09 of the last bill: 109 of 365.
+    expect(el!.coverage).toBeCloseTo(109 / 365, 12);
+  });
+
   it("a meter's window ends at the earlier of as_of and its last read (hand-computed)", () => {
     const bills = [bill("E", "2025-10-10", "2025-11-10", 1), bill("E", "2025-11-10", "2025-12-10", 1)];
     // Last read 2025-12-10 (exclusive end) is before as_of 2025-12-31: the 365 days up to it.
