@@ -6,19 +6,14 @@ import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { chartSpec, prepareChart } from "../../src/site/prepareSite.ts";
 import { heatmapSvg } from "../../src/site/charts/heatmapSvg.ts";
 import { fullFixtureInput } from "../report/fixture.ts";
+import { everyChart } from "./everyChart.ts";
 import { validate } from "./jsonSchema.ts";
 
 // Sources: the JSON Schemas vega-lite 6.4.3 and vega 6.4.0 ship in node_modules.
 const vlSchema = JSON.parse(readFileSync(resolve("node_modules/vega-lite/build/vega-lite-schema.json"), "utf8")) as Record<string, unknown>;
 
 const model = buildSiteModel(fullFixtureInput());
-const charts: ChartModel[] = [
-  ...model.index.charts,
-  model.index.intensityChart!,
-  ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...(b.forecast?.chart ? [b.forecast.chart] : [])]),
-  ...model.meterBills.flatMap((m) => [...(m.baseline?.charts ?? []), ...(m.quality?.charts ?? [])]),
-  ...model.tenants.flatMap((t) => t.commodities.flatMap((c) => (c.chart ? [c.chart] : []))),
-];
+const charts: ChartModel[] = everyChart(model);
 
 describe("analysis chart specs", () => {
   it("covers every chart kind", () => {

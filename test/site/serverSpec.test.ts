@@ -6,15 +6,10 @@ import { chartSpec } from "../../src/site/prepareSite.ts";
 import { serverVegaSpec } from "../../src/site/charts/serverSpec.ts";
 import { SERVER_WIDTH_PX, compileToVega } from "../../src/site/charts/renderSvg.ts";
 import { fullFixtureInput } from "../report/fixture.ts";
+import { everyChart } from "./everyChart.ts";
 
 const model = buildSiteModel(fullFixtureInput());
-const charts: ChartModel[] = [
-  ...model.index.charts,
-  model.index.intensityChart!,
-  ...model.buildings.flatMap((b) => [...b.commodities.flatMap((c) => c.charts), ...(b.forecast?.chart ? [b.forecast.chart] : [])]),
-  ...model.meterBills.flatMap((m) => [...(m.baseline?.charts ?? []), ...(m.quality?.charts ?? [])]),
-  ...model.tenants.flatMap((t) => t.commodities.flatMap((c) => (c.chart ? [c.chart] : []))),
-];
+const charts: ChartModel[] = everyChart(model);
 
 /** vega-lite's own compile of the spec at the server width: what serverVegaSpec must equal. */
 function compiledAtServerWidth(spec: Record<string, unknown>): Record<string, unknown> {
