@@ -217,22 +217,13 @@ export async function writeSite(
   // Refuse bad data-file names before any work (and before touching the disk) when they are known.
   if (!isIterable(dataFiles)) for (const name of Object.keys(dataFiles)) safeDataPath(join(out, "data"), name);
   await checkOutputFolder(out);
-  let scratch: string;
-  try {
-    await mkdir(dirname(out), { recursive: true });
-    await removeStaleScratch(out);
-    scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
-  } catch (error) {
-    // read-only, full or missing parent folder: a user problem, named with its path and cause
-    throw new SiteWriteError(`cannot write next to ${out} (${(error as NodeJS.ErrnoException).code ?? "error"}): ${(error as Error).message}; check that the folder exists, is writable and has free space`, { cause: error });
-  }
-  activeScratch.add(scratch);
+  const scratch = await makeScratch(out);
   const stage = join(scratch, "site");
+  // The caller's bundle, started earlier, or one started now.
+  const early = options.bundle ?? startClientBundle(out, { contentDir, verbose, reuse: options.reuse });
   try {
-    // The client bundle first (Vite empties the folder it writes to), then the pages beside it.
-    const { bundle, reused: bundleReused } = options.bundle
-      ? await takeEarlyBundle(options.bundle, stage)
-      : await clientBundleOnce(contentDir, stage, () => buildClientBundleInChild(contentDir, stage, scratch, verbose), options.reuse);
+    // The client bundle first, then the pages beside it.
+    const { bundle, reused: bundleReused } = await takeEarlyBundle(early, stage);
     const meta = ("pagesOf" in model ? model.shell : model).meta;
     const pages = options.reuse
       ? await openPageReuse({ cacheDir: options.reuse.cacheDir, publishedDir: out, program: options.reuse.program, contentDir, shared: { meta, headTags: bundle.headTags } })
@@ -269,9 +260,29 @@ export async function writeSite(
     const message = cause.message.replace(/\u001b\[[0-9;]*m/g, "");
     throw new SiteWriteError(`could not write the site to ${outDir} while ${stageName}: ${message}`, { cause });
   } finally {
+    if (options.bundle === undefined) await early.dispose();
     await rm(scratch, { recursive: true, force: true });
     activeScratch.delete(scratch);
   }
+}
+
+/**
+ * A fresh scratch folder next to `out` (after removing old ones killed builds left), registered
+ * so a signal handler can remove it.
+ * @throws SiteWriteError when the parent folder cannot be written.
+ */
+async function makeScratch(out: string): Promise<string> {
+  let scratch: string;
+  try {
+    await mkdir(dirname(out), { recursive: true });
+    await removeStaleScratch(out);
+    scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
+  } catch (error) {
+    // read-only, full or missing parent folder: a user problem, named with its path and cause
+    throw new SiteWriteError(`cannot write next to ${out} (${(error as NodeJS.ErrnoException).code ?? "error"}): ${(error as Error).message}; check that the folder exists, is writable and has free space`, { cause: error });
+  }
+  activeScratch.add(scratch);
+  return scratch;
 }
 
 /** The client bundle being made ahead of the site (startClientBundle). */
@@ -293,15 +304,8 @@ export function startClientBundle(outDir: string, options: Pick<WriteSiteOptions
   const abort = new AbortController();
   let scratch: string | null = null;
   const made = (async () => {
-    try {
-      await mkdir(dirname(out), { recursive: true });
-      scratch = await mkdtemp(join(dirname(out), scratchPrefix(out)));
-    } catch (error) {
-      throw new SiteWriteError(`cannot write next to ${out} (${(error as NodeJS.ErrnoException).code ?? "error"}): ${(error as Error).message}; check that the folder exists, is writable and has free space`, { cause: error });
-    }
-    activeScratch.add(scratch);
-    const dir = join(scratch, "site");
-    const work = scratch;
+    const work = (scratch = await makeScratch(out));
+    const dir = join(work, "site");
     const result = await clientBundleOnce(contentDir, dir, () => buildClientBundleInChild(contentDir, dir, work, options.verbose ?? false, abort.signal), options.reuse);
     return { ...result, dir };
   })();
@@ -320,7 +324,7 @@ export function startClientBundle(outDir: string, options: Pick<WriteSiteOptions
   };
 }
 
-/** The early bundle's files copied into `stage`. */
+/** The bundle's files (made in its own scratch folder, or kept in the cache) copied into `stage`. */
 async function takeEarlyBundle(early: EarlyBundle, stage: string): Promise<{ bundle: ClientBundle; reused: boolean }> {
   const { bundle, reused, dir } = await early.made;
   await copyFiles(bundle.files, dir, stage);
