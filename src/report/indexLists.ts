@@ -18,7 +18,7 @@ export interface IndexList {
 }
 
 /** `n` with its noun, e.g. "1 building", "48 buildings". */
-function buildingsText(n: number): string {
+export function buildingsText(n: number): string {
   return `${formatNumber(n)} ${n === 1 ? "building" : "buildings"}`;
 }
 
@@ -29,8 +29,8 @@ function byName(a: string, b: string): number {
   return la < lb ? -1 : la > lb ? 1 : a < b ? -1 : a > b ? 1 : 0;
 }
 
-/** Sum in row order (the order the index's billed-cost card sums in, so the two agree to the last digit). */
-function total(values: readonly (number | null)[]): number {
+/** Sum in row order, nulls as 0 (the order the index's billed-cost card sums in, so the two agree to the last digit). */
+export function total(values: readonly (number | null)[]): number {
   let sum = 0;
   for (const v of values) sum += v ?? 0;
   return sum;

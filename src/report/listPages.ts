@@ -3,9 +3,9 @@ import type { ReportInput } from "./input.ts";
 import type { BuildingListPage, ForecastListPage } from "./siteModel.ts";
 import type { BuildingsTable } from "./buildingsTable.ts";
 import type { ForecastChangeTable } from "./forecastIndex.ts";
-import { formatMoney, formatNumber } from "./format.ts";
+import { formatMoney } from "./format.ts";
 import { BUILDING_LIST_PATH, FORECAST_LIST_PATH, navFor } from "./nav.ts";
-import { forecastTotalsText } from "./indexLists.ts";
+import { buildingsText, forecastTotalsText, total } from "./indexLists.ts";
 import { trackRecordVerdict } from "./forecastSection.ts";
 
 /**
@@ -15,15 +15,14 @@ import { trackRecordVerdict } from "./forecastSection.ts";
  */
 export function buildBuildingListPage(input: ReportInput, list: BuildingsTable): Omit<BuildingListPage, "canonical"> {
   const n = list.table.rows.length;
-  let billed = 0;
-  for (const c of list.lastYearCosts) billed += c ?? 0;
+  const billed = total(list.lastYearCosts);
   const anyBilled = list.lastYearCosts.some((c) => c != null);
   return {
     title: "Buildings",
     root: "",
     path: BUILDING_LIST_PATH,
     nav: navFor("buildings", ""),
-    lede: `All ${formatNumber(n)} ${n === 1 ? "building" : "buildings"} of the portfolio, in its own order (buildings.csv)${anyBilled ? `, billed ${formatMoney(billed, input.portfolio.settings.currency)} together over the last 12 months` : ""}. Column headings sort the table when JavaScript is on.`,
+    lede: `All ${buildingsText(n)} of the portfolio, in its own order (buildings.csv)${anyBilled ? `, billed ${formatMoney(billed, input.portfolio.settings.currency)} together over the last 12 months` : ""}. Column headings sort the table when JavaScript is on.`,
     table: list.table,
   };
 }
