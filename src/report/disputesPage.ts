@@ -178,6 +178,11 @@ function distinctBills(list: readonly Dispute[]): number {
   return new Set(list.flatMap((d) => d.billIds)).size;
 }
 
+/** "Showing the 10 largest of 14 claims." when the index cuts a list of `count`, else null. */
+function cutText(count: number, noun: string): string | null {
+  return count > INDEX_CLAIM_LIMIT ? `Showing the ${formatNumber(INDEX_CLAIM_LIMIT)} largest of ${formatNumber(count)} ${noun}.` : null;
+}
+
 /**
  * The index's dispute block: the claim total (the sum of `claimAmount` over kind `claim`, the
  * same figure as the dispute list and disputes.csv), the largest claims and the largest
@@ -198,9 +203,9 @@ export function buildIndexDisputes(input: ReportInput): IndexDisputes | null {
     riskCount: countText(risks.length, "back-bill-risk"),
     href: DISPUTES_PATH,
     claims: claims.length ? disputeTable("index-claims", "claim", claims, buildings, currency, INDEX_CLAIM_LIMIT) : null,
-    moreText: claims.length > INDEX_CLAIM_LIMIT ? `Showing the ${formatNumber(INDEX_CLAIM_LIMIT)} largest of ${formatNumber(claims.length)} claims.` : null,
+    moreText: cutText(claims.length, "claims"),
     risks: risks.length ? disputeTable("index-risks", "back-bill-risk", risks, buildings, currency, INDEX_CLAIM_LIMIT) : null,
-    riskMoreText: risks.length > INDEX_CLAIM_LIMIT ? `Showing the ${formatNumber(INDEX_CLAIM_LIMIT)} largest of ${formatNumber(risks.length)} risks.` : null,
+    riskMoreText: cutText(risks.length, "risks"),
   };
 }
 
