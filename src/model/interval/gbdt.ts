@@ -201,8 +201,9 @@ function boost(
   const rows = new Int32Array(nTrain);
   const work = new TreeWork(f, nb, o.maxDepth);
 
+  // negative gradient of ½(y − ŷ)²; after the first round it is worked out in the loss loop
+  for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!;
   for (let t = 0; t < nTrees; t++) {
-    for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!; // negative gradient of ½(y − ŷ)²
     let sample: Int32Array;
     if (sampleSize < nTrain) {
       // partial Fisher–Yates: the first sampleSize entries become a uniform sample
@@ -231,8 +232,13 @@ function boost(
       }
       for (let i = nTrain; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
     }
+    // the loss after this round, and the next round's gradients (the same differences)
     let sse = 0;
-    for (let i = 0; i < nTrain; i++) sse += (y[i]! - pred[i]!) ** 2;
+    for (let i = 0; i < nTrain; i++) {
+      const d = y[i]! - pred[i]!;
+      grad[i] = d;
+      sse += d ** 2;
+    }
     trainLoss.push(sse / nTrain);
     if (stop && validationLoss) {
       let v = 0;
@@ -414,15 +420,22 @@ function growTree(
     const task = stack.pop()!;
     const { node, start, end, depth } = task;
     const count = end - start;
-    let gSum = task.gSum ?? 0;
-    if (task.gSum === null) for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
+    const splittable = canSplit(count, depth);
+    let hist = task.hist;
+    // Σ gradient in row order: known from the parent's pass, or from this node's histogram
+    // pass (which adds it in the same order), or added up here.
+    let gSum = 0;
+    if (task.gSum !== null) gSum = task.gSum;
+    else if (!hist && splittable) {
+      hist = work.take();
+      gSum = buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
+    } else for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
     value[node] = (o.learningRate * gSum) / (count + o.l2Leaf);
-    if (!canSplit(count, depth)) {
-      if (task.hist) work.give(task.hist);
+    if (!splittable) {
+      if (hist) work.give(hist);
       work.addLeaf(node, start, end);
       continue;
     }
-    let hist = task.hist;
     if (!hist) {
       hist = work.take();
       buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
@@ -456,13 +469,19 @@ function growTree(
       work.addLeaf(node, start, end);
       continue;
     }
-    // partition rows[start, end) in place: bin ≤ bestBin first
+    // partition rows[start, end) in place: bin ≤ bestBin first. A left row is in its final
+    // place when i passes it, in position order, so the left child's gradient sum is added
+    // here in the order its own loop would add it.
     const col = binned[bestF]!;
     let i = start;
     let k = end - 1;
+    let gLeft = 0;
     while (i <= k) {
-      if (col[rows[i]!]! <= bestBin) i++;
-      else {
+      const row = rows[i]!;
+      if (col[row]! <= bestBin) {
+        gLeft += grad[row]!;
+        i++;
+      } else {
         const tmp = rows[i]!;
         rows[i] = rows[k]!;
         rows[k] = tmp;
@@ -476,7 +495,7 @@ function growTree(
     const r = newNode();
     left[node] = l;
     right[node] = r;
-    const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, hist: null, gSum: null };
+    const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, hist: null, gSum: gLeft };
     const rTask: NodeTask = { node: r, start: i, end, depth: depth + 1, hist: null, gSum: null };
     if (canSplit(i - start, depth + 1) || canSplit(end - i, depth + 1)) {
       const [small, large] = i - start <= end - i ? [lTask, rTask] : [rTask, lTask];

@@ -1,0 +1,531 @@
+/**
+ * The gradient-boosted trees as they were before the CPU work of issue 17 (commit daa4bc8,
+ * src/model/interval/gbdt.ts), kept only so that test/model/interval/gbdtSameAsBefore.test.ts can
+ * show that the current code gives the same numbers bit for bit. Not for use outside that test.
+ */
+/**
+ * Histogram-based gradient-boosted regression trees with squared-error (L2) loss
+ * (Friedman 2001, "Greedy function approximation: a gradient boosting machine"; the
+ * histogram split search of histogram gradient boosting, Ke et al. 2017). Each tree is grown depth-first on the
+ * negative gradients (residuals), leaves take the mean residual, shrunk by the learning rate.
+ *
+ * Options: shrinkage, maximum depth, minimum rows per leaf, ≤ 255 quantile bins per feature,
+ * seeded row subsampling, early stopping on a trailing validation block (time order).
+ */
+import { ModelInputError } from "../../../../src/model/errors.ts";
+import { binColumn, binCuts } from "../../../../src/model/interval/gbdtBins.ts";
+import type { FeatureBins } from "../../../../src/model/interval/gbdtBins.ts";
+import { mulberry32 } from "../../../../src/core/random.ts";
+
+export interface GbdtOptions {
+  /** Number of boosting rounds (trees). Default 200. */
+  nTrees?: number;
+  /** Shrinkage applied to each tree's leaf values, in (0, 1]. Default 0.1. */
+  learningRate?: number;
+  /** Maximum tree depth (root = depth 0). Default 6. */
+  maxDepth?: number;
+  /** Minimum training rows in a leaf. Default 20. */
+  minSamplesLeaf?: number;
+  /** Bins per feature (2 … 255). Default 64. */
+  maxBins?: number;
+  /** L2 penalty on leaf values (λ in G²/(n + λ)). Default 0. */
+  l2Leaf?: number;
+  /** Fraction of rows drawn (without replacement) for each tree. Default 1 (no subsampling). */
+  subsample?: number;
+  /** Seed of the subsampling generator. Default 1. */
+  seed?: number;
+  /**
+   * Early stopping: the last `validationRows` rows (the latest in time when rows are in time
+   * order) are held out; boosting stops when their loss has not improved for `patience`
+   * rounds, and the model keeps the best round. With `refit` (default true) the model is then
+   * refitted on all rows with that many trees.
+   */
+  earlyStopping?: { validationRows: number; patience?: number; refit?: boolean };
+}
+
+/** One tree in flat arrays; node 0 is the root; feature −1 marks a leaf. */
+export interface GbdtTree {
+  feature: Int16Array;
+  /** Go left when x ≤ threshold (NaN goes right). */
+  threshold: Float64Array;
+  left: Int32Array;
+  right: Int32Array;
+  /** Leaf output, already multiplied by the learning rate. */
+  value: Float64Array;
+  /** Bin index of each split (the threshold is that bin's upper cut). */
+  splitBin: Int16Array;
+}
+
+export interface GbdtModel {
+  baseScore: number;
+  trees: GbdtTree[];
+  featureCount: number;
+  /** Training mean squared error after each round (before any refit: of the rows trained on). */
+  trainLoss: number[];
+  /** Validation mean squared error after each round, when early stopping was used. */
+  validationLoss: number[] | null;
+  /** Number of trees kept. */
+  bestIteration: number;
+  /**
+   * Predictions of the kept trees for every row given to the fit (held-out rows included),
+   * computed from the bins: the same numbers `predict` gives for those rows.
+   */
+  fitted: Float64Array;
+  /** Predict for feature columns (same order as in training). */
+  predict(columns: readonly ArrayLike<number>[]): Float64Array;
+}
+
+function resolve(o: GbdtOptions): Required<Omit<GbdtOptions, "earlyStopping">> {
+  const r = {
+    nTrees: o.nTrees ?? 200,
+    learningRate: o.learningRate ?? 0.1,
+    maxDepth: o.maxDepth ?? 6,
+    minSamplesLeaf: o.minSamplesLeaf ?? 20,
+    maxBins: o.maxBins ?? 64,
+    l2Leaf: o.l2Leaf ?? 0,
+    subsample: o.subsample ?? 1,
+    seed: o.seed ?? 1,
+  };
+  if (!(Number.isInteger(r.nTrees) && r.nTrees >= 1)) throw new ModelInputError(`nTrees must be a positive integer, got ${r.nTrees}`);
+  if (!(r.learningRate > 0 && r.learningRate <= 1)) throw new ModelInputError(`learningRate must be in (0, 1], got ${r.learningRate}`);
+  if (!(Number.isInteger(r.maxDepth) && r.maxDepth >= 1 && r.maxDepth <= 16)) throw new ModelInputError(`maxDepth must be an integer in 1 … 16, got ${r.maxDepth}`);
+  if (!(Number.isInteger(r.minSamplesLeaf) && r.minSamplesLeaf >= 1)) throw new ModelInputError(`minSamplesLeaf must be a positive integer, got ${r.minSamplesLeaf}`);
+  if (!(r.l2Leaf >= 0)) throw new ModelInputError(`l2Leaf must be ≥ 0, got ${r.l2Leaf}`);
+  if (!(r.subsample > 0 && r.subsample <= 1)) throw new ModelInputError(`subsample must be in (0, 1], got ${r.subsample}`);
+  return r;
+}
+
+/**
+ * Fit gradient-boosted trees to y from feature columns.
+ * @param columns one array per feature, each of y's length (finite values expected; NaN goes right).
+ * @param cache binned columns kept between fits on these same columns (e.g. a second target).
+ * @throws ModelInputError on bad options, ragged columns, non-finite y, or no rows.
+ * @example fitGbdt([x], y, { nTrees: 100 }).predict([x])
+ */
+export function fitGbdt(columns: readonly ArrayLike<number>[], y: ArrayLike<number>, options: GbdtOptions = {}, cache?: GbdtBinCache): GbdtModel {
+  const o = resolve(options);
+  const n = y.length;
+  if (n === 0) throw new ModelInputError("gradient boosting needs at least one row");
+  if (columns.length === 0) throw new ModelInputError("gradient boosting needs at least one feature");
+  for (const [j, c] of columns.entries()) if (c.length !== n) throw new ModelInputError(`feature ${j} has ${c.length} rows, y has ${n}`);
+  for (let i = 0; i < n; i++) if (!Number.isFinite(y[i]!)) throw new ModelInputError(`y[${i}] is not a finite number`);
+
+  const es = options.earlyStopping;
+  if (!es) return boost(columns, y, n, o, null, o.nTrees, cache);
+  const nVal = es.validationRows;
+  if (!(Number.isInteger(nVal) && nVal >= 1 && nVal < n)) throw new ModelInputError(`validationRows must be an integer in 1 … ${n - 1}, got ${nVal}`);
+  const nTrain = n - nVal;
+  const first = boost(columns, y, nTrain, o, { patience: es.patience ?? 20 }, o.nTrees, cache);
+  if (es.refit === false) return first;
+  const refit = boost(columns, y, n, o, null, first.bestIteration, cache);
+  return { ...refit, validationLoss: first.validationLoss };
+}
+
+/**
+ * Feature columns cut into bins for boosting: the bins come from the first `nTrain` rows (the
+ * rows trained on), every row is binned. It depends on the columns only, not on the target, so
+ * fits of different targets on the same columns share it (see {@link GbdtBinCache}).
+ */
+export interface GbdtBinnedColumns {
+  nTrain: number;
+  maxBins: number;
+  bins: FeatureBins[];
+  /** Column-major bins (one array per feature). */
+  binned: Uint8Array[];
+  /**
+   * Row-major histogram offsets: entry i·f + j is where row i's bin of feature j sits in an
+   * interleaved histogram (2·(j·(maxBins + 1) + bin)), so the histogram pass reads one row's
+   * entries side by side and does no index arithmetic.
+   */
+  rowOffsets: Int32Array;
+}
+
+/**
+ * Binned columns of one set of feature columns, by training-window length and bin count. Pass
+ * the same cache only with the same columns (same values, same order).
+ */
+export type GbdtBinCache = Map<string, GbdtBinnedColumns>;
+
+/**
+ * Bin feature columns for boosting on their first `nTrain` rows.
+ * @example binFeatureColumns([x], x.length, 64).binned[0]
+ */
+export function binFeatureColumns(columns: readonly ArrayLike<number>[], nTrain: number, maxBins: number): GbdtBinnedColumns {
+  const n = columns[0]?.length ?? 0;
+  const f = columns.length;
+  const bins = columns.map((c) => binCuts(c, maxBins, nTrain));
+  const binned = columns.map((c, j) => binColumn(bins[j]!, c));
+  const nb2 = 2 * (maxBins + 1);
+  const rowOffsets = new Int32Array(n * f);
+  for (let j = 0; j < f; j++) {
+    const col = binned[j]!;
+    for (let i = 0; i < n; i++) rowOffsets[i * f + j] = j * nb2 + 2 * col[i]!;
+  }
+  return { nTrain, maxBins, bins, binned, rowOffsets };
+}
+
+function binnedFor(columns: readonly ArrayLike<number>[], nTrain: number, maxBins: number, cache: GbdtBinCache | undefined): GbdtBinnedColumns {
+  const key = `${nTrain}/${maxBins}`;
+  const hit = cache?.get(key);
+  if (hit) return hit;
+  const out = binFeatureColumns(columns, nTrain, maxBins);
+  cache?.set(key, out);
+  return out;
+}
+
+/** Boost on rows 0 … nTrain − 1; with `stop`, rows nTrain … end are the validation block. */
+function boost(
+  columns: readonly ArrayLike<number>[],
+  y: ArrayLike<number>,
+  nTrain: number,
+  o: ReturnType<typeof resolve>,
+  stop: { patience: number } | null,
+  nTrees: number,
+  cache: GbdtBinCache | undefined,
+): GbdtModel {
+  const n = y.length;
+  const f = columns.length;
+  const { bins, binned, rowOffsets } = binnedFor(columns, nTrain, o.maxBins, cache);
+  const nb = o.maxBins + 1; // NaN bin included
+  let base = 0;
+  for (let i = 0; i < nTrain; i++) base += y[i]!;
+  base /= nTrain;
+  const pred = new Float64Array(n).fill(base);
+  const grad = new Float64Array(nTrain);
+  const trees: GbdtTree[] = [];
+  const trainLoss: number[] = [];
+  const validationLoss: number[] | null = stop ? [] : null;
+  let best = 0;
+  let bestLoss = Number.POSITIVE_INFINITY;
+  // predictions of the best round so far (early stopping keeps that round's trees)
+  const bestPred = stop ? new Float64Array(n) : null;
+  const rand = mulberry32(o.seed);
+  const all = new Int32Array(nTrain);
+  for (let i = 0; i < nTrain; i++) all[i] = i;
+  const sampleSize = Math.max(1, Math.round(o.subsample * nTrain));
+  const rows = new Int32Array(nTrain);
+  const work = new TreeWork(f, nb, o.maxDepth);
+
+  for (let t = 0; t < nTrees; t++) {
+    for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!; // negative gradient of ½(y − ŷ)²
+    let sample: Int32Array;
+    if (sampleSize < nTrain) {
+      // partial Fisher–Yates: the first sampleSize entries become a uniform sample
+      rows.set(all);
+      for (let i = 0; i < sampleSize; i++) {
+        const j = i + Math.floor(rand() * (nTrain - i));
+        const tmp = rows[i]!;
+        rows[i] = rows[j]!;
+        rows[j] = tmp;
+      }
+      sample = rows.subarray(0, sampleSize);
+    } else {
+      rows.set(all);
+      sample = rows;
+    }
+    const tree = growTree(sample, grad, rowOffsets, binned, bins, o, nb, work);
+    trees.push(tree);
+    if (sampleSize < nTrain) {
+      for (let i = 0; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
+    } else {
+      // every training row sits in exactly one leaf's range of `rows`: add that leaf's value
+      // (the same number walking the tree would find), then walk only the validation rows
+      for (let k = 0; k < work.leafCount; k++) {
+        const v = tree.value[work.leafNode[k]!]!;
+        for (let r = work.leafStart[k]!, e = work.leafEnd[k]!; r < e; r++) pred[rows[r]!]! += v;
+      }
+      for (let i = nTrain; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
+    }
+    let sse = 0;
+    for (let i = 0; i < nTrain; i++) sse += (y[i]! - pred[i]!) ** 2;
+    trainLoss.push(sse / nTrain);
+    if (stop && validationLoss) {
+      let v = 0;
+      for (let i = nTrain; i < n; i++) v += (y[i]! - pred[i]!) ** 2;
+      v /= n - nTrain;
+      validationLoss.push(v);
+      if (v < bestLoss) {
+        bestLoss = v;
+        best = t + 1;
+        bestPred!.set(pred);
+      } else if (t + 1 - best >= stop.patience) break;
+    }
+  }
+  const kept = stop ? trees.slice(0, Math.max(best, 1)) : trees;
+  // best = 0 only if no round improved on +∞ (a NaN loss): keep the first tree's predictions
+  let fitted: Float64Array = stop && best > 0 ? bestPred! : pred;
+  if (stop && best === 0) fitted = predictTrees(base, kept, columns, f);
+  return {
+    fitted,
+    baseScore: base,
+    trees: kept,
+    featureCount: f,
+    trainLoss,
+    validationLoss,
+    bestIteration: kept.length,
+    predict: (cols) => predictTrees(base, kept, cols, f),
+  };
+}
+
+/**
+ * Scratch space of one boosting run, reused by every tree: a pool of histograms (one per depth
+ * is enough for a depth-first walk that keeps at most one pending histogram per level, plus
+ * one) and the leaves of the last tree with their ranges of the row array.
+ */
+class TreeWork {
+  /** Interleaved histograms: [gradient sum, row count] per (feature, bin). */
+  private readonly pool: Float64Array[] = [];
+  readonly size: number;
+  leafCount = 0;
+  leafNode: Int32Array;
+  leafStart: Int32Array;
+  leafEnd: Int32Array;
+  constructor(f: number, nb: number, maxDepth: number) {
+    this.size = 2 * f * nb;
+    const maxLeaves = 2 ** maxDepth;
+    this.leafNode = new Int32Array(maxLeaves);
+    this.leafStart = new Int32Array(maxLeaves);
+    this.leafEnd = new Int32Array(maxLeaves);
+  }
+  take(): Float64Array {
+    return this.pool.pop() ?? new Float64Array(this.size);
+  }
+  give(h: Float64Array): void {
+    this.pool.push(h);
+  }
+  addLeaf(node: number, start: number, end: number): void {
+    this.leafNode[this.leafCount] = node;
+    this.leafStart[this.leafCount] = start;
+    this.leafEnd[this.leafCount] = end;
+    this.leafCount++;
+  }
+}
+
+interface NodeTask {
+  node: number;
+  start: number;
+  end: number;
+  depth: number;
+  /** Interleaved gradient sums and counts per (feature, bin), when already known (histogram subtraction). */
+  hist: Float64Array | null;
+  /** Σ gradient over the node's rows in row order, when already summed with its histogram. */
+  gSum: number | null;
+}
+
+/**
+ * Histogram of rows[start, end) into `h` (zeroed here); returns the rows' gradient sum. Each
+ * bin's gradients, and the sum, are added in row order, so the numbers do not depend on how
+ * the loop is written.
+ */
+function buildHistogram(h: Float64Array, rows: Int32Array, start: number, end: number, grad: Float64Array, offs: Int32Array, f: number): number {
+  if (f === 10) return buildHistogram10(h, rows, start, end, grad, offs);
+  h.fill(0);
+  let gSum = 0;
+  for (let r = start; r < end; r++) {
+    const i = rows[r]!;
+    const g = grad[i]!;
+    gSum += g;
+    for (let p = i * f, e = p + f; p < e; p++) {
+      const b = offs[p]!;
+      h[b]! += g;
+      h[b + 1]!++;
+    }
+  }
+  return gSum;
+}
+
+/**
+ * {@link buildHistogram} for ten features (the single-meter hourly model), written out: V8
+ * runs the loop without an inner loop 2–3 times faster (measured on this machine kind).
+ */
+function buildHistogram10(h: Float64Array, rows: Int32Array, start: number, end: number, grad: Float64Array, offs: Int32Array): number {
+  h.fill(0);
+  let gSum = 0;
+  for (let r = start; r < end; r++) {
+    const i = rows[r]!;
+    const g = grad[i]!;
+    gSum += g;
+    const p = i * 10;
+    let b = offs[p]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 1]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 2]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 3]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 4]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 5]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 6]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 7]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 8]!;
+    h[b]! += g;
+    h[b + 1]!++;
+    b = offs[p + 9]!;
+    h[b]! += g;
+    h[b + 1]!++;
+  }
+  return gSum;
+}
+
+/**
+ * Grow one tree depth-first. The child with fewer rows gets its histogram built from its rows;
+ * the larger child's is the parent's minus it (the histogram subtraction of Ke et al. 2017), which
+ * roughly halves the histogram work. Leaves and their row ranges are left in `work`.
+ */
+function growTree(
+  rows: Int32Array,
+  grad: Float64Array,
+  rowOffsets: Int32Array,
+  binned: Uint8Array[],
+  bins: FeatureBins[],
+  o: ReturnType<typeof resolve>,
+  nb: number,
+  work: TreeWork,
+): GbdtTree {
+  const feature: number[] = [];
+  const threshold: number[] = [];
+  const splitBin: number[] = [];
+  const left: number[] = [];
+  const right: number[] = [];
+  const value: number[] = [];
+  const newNode = (): number => {
+    feature.push(-1);
+    threshold.push(0);
+    splitBin.push(-1);
+    left.push(-1);
+    right.push(-1);
+    value.push(0);
+    return feature.length - 1;
+  };
+  const f = bins.length;
+  const nb2 = 2 * nb;
+  work.leafCount = 0;
+  const canSplit = (count: number, depth: number): boolean => depth < o.maxDepth && count >= 2 * o.minSamplesLeaf;
+  const stack: NodeTask[] = [{ node: newNode(), start: 0, end: rows.length, depth: 0, hist: null, gSum: null }];
+  while (stack.length) {
+    const task = stack.pop()!;
+    const { node, start, end, depth } = task;
+    const count = end - start;
+    let gSum = task.gSum ?? 0;
+    if (task.gSum === null) for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
+    value[node] = (o.learningRate * gSum) / (count + o.l2Leaf);
+    if (!canSplit(count, depth)) {
+      if (task.hist) work.give(task.hist);
+      work.addLeaf(node, start, end);
+      continue;
+    }
+    let hist = task.hist;
+    if (!hist) {
+      hist = work.take();
+      buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
+    }
+    const parentScore = (gSum * gSum) / (count + o.l2Leaf);
+    let bestGain = 1e-12 * Math.max(parentScore, 1e-300);
+    let bestF = -1;
+    let bestBin = -1;
+    for (let j = 0; j < f; j++) {
+      const off = j * nb2;
+      const nCuts = bins[j]!.cuts.length;
+      let gl = 0;
+      let nl = 0;
+      for (let b = 0; b < nCuts; b++) {
+        gl += hist[off + 2 * b]!;
+        nl += hist[off + 2 * b + 1]!;
+        const nr = count - nl;
+        if (nl < o.minSamplesLeaf) continue;
+        if (nr < o.minSamplesLeaf) break;
+        const gr = gSum - gl;
+        const gain = (gl * gl) / (nl + o.l2Leaf) + (gr * gr) / (nr + o.l2Leaf) - parentScore;
+        if (gain > bestGain) {
+          bestGain = gain;
+          bestF = j;
+          bestBin = b;
+        }
+      }
+    }
+    if (bestF < 0) {
+      work.give(hist);
+      work.addLeaf(node, start, end);
+      continue;
+    }
+    // partition rows[start, end) in place: bin ≤ bestBin first
+    const col = binned[bestF]!;
+    let i = start;
+    let k = end - 1;
+    while (i <= k) {
+      if (col[rows[i]!]! <= bestBin) i++;
+      else {
+        const tmp = rows[i]!;
+        rows[i] = rows[k]!;
+        rows[k] = tmp;
+        k--;
+      }
+    }
+    feature[node] = bestF;
+    threshold[node] = bins[bestF]!.cuts[bestBin]!;
+    splitBin[node] = bestBin;
+    const l = newNode();
+    const r = newNode();
+    left[node] = l;
+    right[node] = r;
+    const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, hist: null, gSum: null };
+    const rTask: NodeTask = { node: r, start: i, end, depth: depth + 1, hist: null, gSum: null };
+    if (canSplit(i - start, depth + 1) || canSplit(end - i, depth + 1)) {
+      const [small, large] = i - start <= end - i ? [lTask, rTask] : [rTask, lTask];
+      const sh = work.take();
+      small.gSum = buildHistogram(sh, rows, small.start, small.end, grad, rowOffsets, f);
+      small.hist = sh;
+      // the parent's histogram is not needed any more: reuse it for the larger child
+      for (let b = 0; b < hist.length; b++) hist[b]! -= sh[b]!;
+      large.hist = hist;
+    } else work.give(hist);
+    stack.push(rTask, lTask);
+  }
+  return {
+    feature: Int16Array.from(feature),
+    threshold: Float64Array.from(threshold),
+    left: Int32Array.from(left),
+    right: Int32Array.from(right),
+    value: Float64Array.from(value),
+    splitBin: Int16Array.from(splitBin),
+  };
+}
+
+/** Leaf value for row i, walking by bins (bin ≤ splitBin ⇔ x ≤ threshold). */
+function leafValueBinned(tree: GbdtTree, binned: Uint8Array[], i: number): number {
+  let node = 0;
+  while (tree.feature[node]! >= 0) {
+    node = binned[tree.feature[node]!]![i]! <= tree.splitBin[node]! ? tree.left[node]! : tree.right[node]!;
+  }
+  return tree.value[node]!;
+}
+
+function predictTrees(base: number, trees: GbdtTree[], cols: readonly ArrayLike<number>[], f: number): Float64Array {
+  if (cols.length !== f) throw new ModelInputError(`model was trained on ${f} features, got ${cols.length}`);
+  const n = cols[0]!.length;
+  const out = new Float64Array(n).fill(base);
+  for (const tree of trees) {
+    for (let i = 0; i < n; i++) {
+      let node = 0;
+      while (tree.feature[node]! >= 0) {
+        const x = cols[tree.feature[node]!]![i]!;
+        node = x <= tree.threshold[node]! ? tree.left[node]! : tree.right[node]!;
+      }
+      out[i]! += tree.value[node]!;
+    }
+  }
+  return out;
+}
