@@ -425,6 +425,52 @@ function columnAt(periods: readonly DegreeDayPeriod[], kind: "h" | "c", base: nu
   return out;
 }
 
+/** Degree-day columns of the periods a fit is given, by kind and base. */
+type ColumnSource = (kind: "h" | "c", base: number) => Float64Array;
+
+/**
+ * Degree-day columns of a fixed list of periods, kept by base, so fits on subsets of the list
+ * (the leave-one-out refits of an outlier band, the rejection rounds) take their columns from
+ * it instead of looking every period's degree-days up again. The numbers are the same as
+ * without it: a subset's column is the list's column at the subset's rows.
+ * @example fitDegreeDayForm(periods.slice(1), "HO", {}, new DegreeDayColumns(periods))
+ */
+export class DegreeDayColumns {
+  readonly periods: readonly DegreeDayPeriod[];
+  private readonly rowOf = new Map<DegreeDayPeriod, number>();
+  private readonly h = new Map<number, Float64Array>();
+  private readonly c = new Map<number, Float64Array>();
+  constructor(periods: readonly DegreeDayPeriod[]) {
+    this.periods = periods;
+    periods.forEach((p, i) => {
+      if (!this.rowOf.has(p)) this.rowOf.set(p, i);
+    });
+  }
+  /** The column source for `periods`, or null when one of them is not in the list. */
+  sourceFor(periods: readonly DegreeDayPeriod[]): ColumnSource | null {
+    const rows = new Int32Array(periods.length);
+    for (let i = 0; i < periods.length; i++) {
+      const r = this.rowOf.get(periods[i]!);
+      if (r === undefined) return null;
+      rows[i] = r;
+    }
+    return (kind, base) => {
+      // A Map takes −0 and 0 as one key; their degree-days may differ in the sign of a zero.
+      if (Object.is(base, -0)) return columnAt(periods, kind, base);
+      const byBase = kind === "h" ? this.h : this.c;
+      let full = byBase.get(base);
+      if (full === undefined) {
+        full = columnAt(this.periods, kind, base);
+        if (byBase.size >= 4096) byBase.clear(); // a bound, not an eviction policy
+        byBase.set(base, full);
+      }
+      const out = new Float64Array(rows.length);
+      for (let i = 0; i < rows.length; i++) out[i] = full[rows[i]!]!;
+      return out;
+    };
+  }
+}
+
 /*
  * Degree-days per day of one period at one base, kept per profile: the leave-one-out refits of
  * the outlier bands search the same bases over the same periods once per left-out bill, and
@@ -459,18 +505,28 @@ function bestLocalMinima(scores: readonly number[], count: number): number[] {
   return idx.sort((a, b) => scores[a] - scores[b]).slice(0, count);
 }
 
+/** Insert `s` into `top` (≤ 3 entries, ascending SSE) after every entry with an SSE ≤ its own. */
+function keepBestThree(top: { h: number; c: number; sse: number }[], s: { h: number; c: number; sse: number }): void {
+  let at = top.length;
+  while (at > 0 && top[at - 1].sse > s.sse) at--;
+  if (at >= 3) return;
+  top.splice(at, 0, s);
+  if (top.length > 3) top.pop();
+}
+
 /** Best admissible base(s) of one form, by coarse grid then local fine grids. */
 function searchBases(
   periods: readonly DegreeDayPeriod[],
   form: "HO" | "CO" | "HC",
   range: BaseSearchRange,
   weightByDays: boolean,
+  columnAt: ColumnSource,
 ): { heatingBase: number | null; coolingBase: number | null } | null {
   const data = new SearchData(periods, weightByDays);
   if (form !== "HC") {
     const kind = form === "HO" ? "h" : "c";
     const sseAt = (base: number): number => {
-      const r = data.one(data.prepare(columnAt(periods, kind, base)));
+      const r = data.one(data.prepare(columnAt(kind, base)));
       // Physical constraint: a heating (cooling) slope must be positive.
       return r.slope > 0 ? r.sse : Number.POSITIVE_INFINITY;
     };
@@ -493,28 +549,29 @@ function searchBases(
     return form === "HO" ? { heatingBase: best, coolingBase: null } : { heatingBase: null, coolingBase: best };
   }
   const coarse = gridOf(range.min, range.max, range.step);
-  const hCols = coarse.map((b) => data.prepare(columnAt(periods, "h", b)));
-  const cCols = coarse.map((b) => data.prepare(columnAt(periods, "c", b)));
+  const hCols = coarse.map((b) => data.prepare(columnAt("h", b)));
+  const cCols = coarse.map((b) => data.prepare(columnAt("c", b)));
   const pairSse = (a: PreparedColumn, b: PreparedColumn): number => {
     const r = data.two(a, b);
     return r.slopeA > 0 && r.slopeB > 0 ? r.sse : Number.POSITIVE_INFINITY;
   };
+  // The three best admissible pairs in the order a stable sort by SSE would give them (equal
+  // SSEs keep their grid order): only those start a fine search.
   const starts: { h: number; c: number; sse: number }[] = [];
   for (let i = 0; i < coarse.length; i++) {
     for (let j = i; j < coarse.length; j++) {
       const sse = pairSse(hCols[i], cCols[j]);
-      if (Number.isFinite(sse)) starts.push({ h: coarse[i], c: coarse[j], sse });
+      if (Number.isFinite(sse)) keepBestThree(starts, { h: coarse[i], c: coarse[j], sse });
     }
   }
   if (starts.length === 0) return null;
-  starts.sort((p, q) => p.sse - q.sse);
   let best = starts[0];
-  for (const s of starts.slice(0, 3)) {
+  for (const s of starts) {
     const hs = gridOf(Math.max(range.min, s.h - range.step), Math.min(range.max, s.h + range.step), range.refineStep);
     const cs = gridOf(Math.max(range.min, s.c - range.step), Math.min(range.max, s.c + range.step), range.refineStep);
-    const cColsFine = cs.map((b) => data.prepare(columnAt(periods, "c", b)));
+    const cColsFine = cs.map((b) => data.prepare(columnAt("c", b)));
     for (const h of hs) {
-      const hCol = data.prepare(columnAt(periods, "h", h));
+      const hCol = data.prepare(columnAt("h", h));
       cs.forEach((c, k) => {
         if (c < h) return;
         const sse = pairSse(hCol, cColsFine[k]);
@@ -532,7 +589,7 @@ function searchBases(
  * @throws ModelInputError on bad periods, too few periods, or no admissible base.
  * @example fitDegreeDayForm(periods, "HO").heatingBase // ≈ 15
  */
-export function fitDegreeDayForm(periods: readonly DegreeDayPeriod[], form: DegreeDayForm, options: DegreeDayFitOptions = {}): DegreeDayFit {
+export function fitDegreeDayForm(periods: readonly DegreeDayPeriod[], form: DegreeDayForm, options: DegreeDayFitOptions = {}, columns?: DegreeDayColumns): DegreeDayFit {
   checkPeriods(periods);
   if (form === "constant") return fitDegreeDayFormAt(periods, form, {}, options);
   const p = DEGREE_DAY_PARAMETER_COUNT[form];
@@ -541,7 +598,8 @@ export function fitDegreeDayForm(periods: readonly DegreeDayPeriod[], form: Degr
   if (!(range.min < range.max && range.step > 0 && range.refineStep > 0)) {
     throw new ModelInputError(`base search range must have min < max and positive steps, got ${JSON.stringify(range)}`);
   }
-  const bases = searchBases(periods, form, range, options.weightByDays ?? true);
+  const source = columns?.sourceFor(periods) ?? ((kind: "h" | "c", base: number) => columnAt(periods, kind, base));
+  const bases = searchBases(periods, form, range, options.weightByDays ?? true, source);
   if (bases === null) throw new ModelInputError(`${form}: no base in ${range.min}…${range.max} gives a positive ${form === "CO" ? "cooling" : "heating"} slope${form === "HC" ? " and a positive cooling slope" : ""}`);
   return fitDegreeDayFormAt(periods, form, bases, options);
 }
@@ -578,13 +636,13 @@ export interface DegreeDaySelection {
  * within 1e-9 go to fewer parameters. The constant model is always admissible as a fallback.
  * @example fitDegreeDayModel(periods, { tempUnit: "C" }).chosen?.form // "HO"
  */
-export function fitDegreeDayModel(periods: readonly DegreeDayPeriod[], options: DegreeDaySelectionOptions = {}): DegreeDaySelection {
+export function fitDegreeDayModel(periods: readonly DegreeDayPeriod[], options: DegreeDaySelectionOptions = {}, columns?: DegreeDayColumns): DegreeDaySelection {
   const minAbsT = options.minAbsT ?? 2;
   const tried: DegreeDayCandidate[] = [];
   for (const form of options.forms ?? DEGREE_DAY_FORMS) {
     let fit: DegreeDayFit;
     try {
-      fit = fitDegreeDayForm(periods, form, options);
+      fit = fitDegreeDayForm(periods, form, options, columns);
     } catch (e) {
       if (e instanceof ModelInputError) {
         tried.push({ form, accepted: false, reasons: [e.message], notes: [] });

@@ -37,7 +37,7 @@
  */
 import { studentTQuantile } from "./studentT.ts";
 import { ModelInputError } from "./errors.ts";
-import { fitDegreeDayForm, fitDegreeDayModel } from "./degreeDayRegression.ts";
+import { DegreeDayColumns, fitDegreeDayForm, fitDegreeDayModel } from "./degreeDayRegression.ts";
 import type { DegreeDayFit, DegreeDayForm, DegreeDayPeriod, DegreeDaySelection, DegreeDaySelectionOptions } from "./degreeDayRegression.ts";
 
 /** Anything that predicts use per day for a point. */
@@ -221,15 +221,17 @@ export function degreeDayOutlierBand(
   if (!(maxShare >= 0 && maxShare < 1)) throw new ModelInputError(`maxRejectedShare must be in [0, 1), got ${maxShare}`);
   const maxRejected = Math.max(1, Math.ceil(maxShare * train.length));
   const asBand = (b: DegreeDayBandBill): BandPoint<DegreeDayPeriod> => ({ id: b.id, point: b, usePerDay: b.usePerDay, days: b.days });
+  // Every fit below is on a subset of the training bills: their columns are worked out once.
+  const columns = new DegreeDayColumns(train);
   const refit = (form: DegreeDayForm) => (pts: DegreeDayPeriod[]): BandModel<DegreeDayPeriod> => {
-    const f = fitDegreeDayForm(pts, form, options);
+    const f = fitDegreeDayForm(pts, form, options, columns);
     return { predictPerDay: (p) => f.predictPerDay(p.profile) };
   };
   const bandOptions = { ...options, rejectionRounds: 0 };
   const rejected: string[] = [];
   let kept = [...train];
   for (;;) {
-    const selection = fitDegreeDayModel(kept, options);
+    const selection = fitDegreeDayModel(kept, options, columns);
     if (!selection.chosen) return { fit: null, tried: selection.tried, bands: new Map(), rejected, band: null };
     // Band the kept bills (to find the worst) and the targets in one pass; ids are shared.
     const keptIds = new Set(kept.map((b) => b.id));

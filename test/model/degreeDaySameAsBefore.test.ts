@@ -1,0 +1,77 @@
+/**
+ * CPU work on the degree-day models (issue 17: the leave-one-out and rejection refits of an
+ * outlier band take their degree-day columns from one table of the training bills, and the HC
+ * search keeps its three best coarse pairs instead of sorting them all) must not move a single
+ * bit: on random bills, fitDegreeDayModel and degreeDayOutlierBand give exactly the forms,
+ * bases, coefficients, statistics, bands and rejections of the code before it
+ * (test/model/former/, verbatim copies of commit daa4bc8). Tolerance: none (Object.is on every number).
+ */
+import { describe, expect, it } from "vitest";
+import fc from "fast-check";
+import { fitDegreeDayModel, temperatureProfileFromHourly, type DegreeDayPeriod } from "../../src/model/degreeDayRegression.ts";
+import { degreeDayOutlierBand, type DegreeDayBandBill } from "../../src/model/outlierBand.ts";
+import { fitDegreeDayModel as formerFitDegreeDayModel } from "./former/degreeDayRegression.ts";
+import { degreeDayOutlierBand as formerDegreeDayOutlierBand } from "./former/outlierBand.ts";
+import { mulberry32 } from "../../src/core/random.ts";
+
+/** Monthly bills over `months` months of a seasonal climate; use = base + heating + cooling + noise, with a few leaks. */
+function bills(seed: number, months: number, heat: number, cool: number, noise: number, leaks: number): DegreeDayBandBill[] {
+  const rand = mulberry32(seed);
+  return Array.from({ length: months }, (_, m) => {
+    const days = 28 + Math.floor(rand() * 6);
+    const season = 12 - 14 * Math.cos((2 * Math.PI * (m + 0.5)) / 12);
+    const temps = Array.from({ length: days * 24 }, (_, h) => season + 6 * Math.sin((2 * Math.PI * h) / 24) + (rand() - 0.5) * 8);
+    const profile = temperatureProfileFromHourly(temps);
+    let hdd = 0;
+    let cdd = 0;
+    for (const t of temps) {
+      hdd += Math.max(0, 15 - t);
+      cdd += Math.max(0, t - 20);
+    }
+    let use = 100 + (heat * hdd) / temps.length + (cool * cdd) / temps.length + (rand() - 0.5) * noise;
+    if (m < leaks) use *= 1.6;
+    return { id: `B${m}`, profile, usePerDay: Math.max(0, use), days };
+  });
+}
+
+function same(a: unknown, b: unknown): boolean {
+  if (typeof a === "number" && typeof b === "number") return Object.is(a, b);
+  if (typeof a === "function" || typeof b === "function") return true;
+  if (a instanceof Map && b instanceof Map) return same([...a], [...b]);
+  if (ArrayBuffer.isView(a) && ArrayBuffer.isView(b)) return same(Array.from(a as unknown as ArrayLike<number>), Array.from(b as unknown as ArrayLike<number>));
+  if (Array.isArray(a) && Array.isArray(b)) return a.length === b.length && a.every((v, i) => same(v, b[i]));
+  if (a && b && typeof a === "object" && typeof b === "object") {
+    const ka = Object.keys(a).sort();
+    const kb = Object.keys(b).sort();
+    return same(ka, kb) && ka.every((k) => same((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+  }
+  return Object.is(a, b);
+}
+
+const period = (b: DegreeDayBandBill): DegreeDayPeriod => b;
+
+describe("degree-day models give the former code's numbers bit for bit", () => {
+  it("form selection and leave-one-out bands with rejection, on random bills", () => {
+    fc.assert(
+      fc.property(
+        fc.record({
+          seed: fc.integer({ min: 1, max: 1 << 30 }),
+          months: fc.integer({ min: 4, max: 40 }),
+          heat: fc.constantFrom(0, 3, 20),
+          cool: fc.constantFrom(0, 5, 30),
+          noise: fc.constantFrom(0, 5, 40),
+          leaks: fc.constantFrom(0, 1, 3),
+          unit: fc.constantFrom("C" as const, "F" as const),
+        }),
+        (r) => {
+          const train = bills(r.seed, r.months, r.heat, r.cool, r.noise, r.leaks);
+          const targets = [...train, ...bills(r.seed + 1, 3, r.heat, r.cool, r.noise, 0).map((b) => ({ ...b, id: `T-${b.id}` }))];
+          const options = { tempUnit: r.unit };
+          expect(same(fitDegreeDayModel(train.map(period), options), formerFitDegreeDayModel(train.map(period), options))).toBe(true);
+          expect(same(degreeDayOutlierBand(train, targets, options), formerDegreeDayOutlierBand(train, targets, options))).toBe(true);
+        },
+      ),
+      { numRuns: 40, seed: 17 },
+    );
+  });
+});

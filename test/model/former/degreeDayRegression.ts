@@ -1,0 +1,622 @@
+/**
+ * src/model/degreeDayRegression.ts as it was before the CPU work of issue 17 (commit daa4bc8), kept only so that
+ * test/model/degreeDaySameAsBefore.test.ts can show that the current code gives the same numbers bit
+ * for bit. Not for use outside that test.
+ */
+/**
+ * Bill-level variable-base degree-day regression (the variable-base degree-day method, Fels 1986, Energy and
+ * Buildings 9; the variable-base degree-day method of ASHRAE Handbook — Fundamentals):
+ *
+ *   constant: use/day = β₀
+ *   HO:       use/day = β₀ + βH·HDD(τH)/day                      (heating only)
+ *   CO:       use/day = β₀ + βC·CDD(τC)/day                      (cooling only)
+ *   HC:       use/day = β₀ + βH·HDD(τH)/day + βC·CDD(τC)/day     (τH ≤ τC)
+ *
+ * Degree-days are integrated from hourly temperatures over each billing period, so a month
+ * whose mean is above the balance point still counts the heating its cold nights need, which
+ * a model on mean period temperature cannot see. The base temperatures τ are searched (a
+ * coarse grid, then a fine grid around the best coarse optima) for the least weighted sum of
+ * squared errors, with the physical constraints βH > 0, βC > 0 and τH ≤ τC; with the bases
+ * fixed the rest is ordinary weighted least squares (src/model/ols.ts).
+ *
+ * Parameters p count the searched bases (HO: β₀, βH, τH → p = 3; HC: p = 5), so the
+ * Guideline 14 statistics, the RMSE and the prediction interval use n − p. Slope t values come
+ * from the fit with bases fixed (df n − k) and ignore the base search: they are optimistic.
+ */
+import { fitOls } from "../../../src/model/ols.ts";
+import type { IntervalPrediction, OlsFit } from "../../../src/model/ols.ts";
+import { guideline14Stats, mean } from "../../../src/model/stats.ts";
+import type { Guideline14Stats } from "../../../src/model/stats.ts";
+import { studentTQuantile } from "../../../src/model/studentT.ts";
+import type { HourlyTemps } from "../../../src/model/degreeDays.ts";
+import { ModelInputError } from "../../../src/model/errors.ts";
+
+const HOUR_MS = 3_600_000;
+
+/**
+ * The hourly temperatures of one period in a form that gives degree-days for any base in
+ * O(log h): temperatures sorted ascending with prefix sums of their hour weights and of
+ * weight × temperature. HDD(τ)/day = Σ_{T<τ} w(τ − T) / Σw = (τ·W(<τ) − S(<τ)) / Σw.
+ */
+export interface TemperatureProfile {
+  /** Covered hourly temperatures, ascending. */
+  sortedTemps: Float64Array;
+  /** cumHours[i] = Σ_{j<i} wⱼ (length h + 1); wⱼ is the share of hour j inside the period. */
+  cumHours: Float64Array;
+  /** cumHourTemps[i] = Σ_{j<i} wⱼ·Tⱼ (length h + 1). */
+  cumHourTemps: Float64Array;
+  /** Σw: hours of the period with a temperature. */
+  hoursCovered: number;
+  /** Hours of the period, covered or not. */
+  hoursTotal: number;
+}
+
+/**
+ * Build a profile from hourly temperatures, each standing for `weights[i]` hours (default 1).
+ * Non-finite temperatures are skipped and counted as missing (hoursTotal − hoursCovered).
+ * @example hddPerDay(temperatureProfileFromHourly([10, 20]), 15) // 2.5 (mean of 5 and 0)
+ */
+export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?: ArrayLike<number>): TemperatureProfile {
+  if (weights && weights.length !== temps.length) throw new ModelInputError(`weights have ${weights.length} values but temps have ${temps.length}`);
+  const idx: number[] = [];
+  let hoursTotal = 0;
+  for (let i = 0; i < temps.length; i++) {
+    const w = weights ? weights[i] : 1;
+    if (!(w >= 0 && Number.isFinite(w))) throw new ModelInputError(`hour weight ${i} must be finite and non-negative, got ${w}`);
+    hoursTotal += w;
+    if (Number.isFinite(temps[i]) && w > 0) idx.push(i);
+  }
+  idx.sort((a, b) => temps[a] - temps[b]);
+  const h = idx.length;
+  const sortedTemps = new Float64Array(h);
+  const cumHours = new Float64Array(h + 1);
+  const cumHourTemps = new Float64Array(h + 1);
+  for (let r = 0; r < h; r++) {
+    const i = idx[r];
+    const w = weights ? weights[i] : 1;
+    sortedTemps[r] = temps[i];
+    cumHours[r + 1] = cumHours[r] + w;
+    cumHourTemps[r + 1] = cumHourTemps[r] + w * temps[i];
+  }
+  return { sortedTemps, cumHours, cumHourTemps, hoursCovered: cumHours[h], hoursTotal };
+}
+
+/**
+ * The profile of the period [startMs, endMs) of an hourly series; hours straddling an edge
+ * count by their overlap, as in degreeDaysForPeriod (src/model/degreeDays.ts).
+ *
+ * `blockHours` = 24 averages each run of 24 hours from the period start first (daily means,
+ * the temperatures of the mean-temperature method and of the variable-base degree-day method, Fels 1986), so degree-days
+ * become Σ over days of (τ − daily mean)⁺; the default 1 integrates hourly values. A block's
+ * weight is its covered hours; a block with none is skipped. Bills start at local midnight, so
+ * the blocks are local days except after a DST change inside the period (off by one hour).
+ * @throws ModelInputError when endMs ≤ startMs or blockHours is not a positive integer.
+ * @example temperatureProfileForPeriod({ startMs, temps }, billStartMs, billEndMs)
+ */
+export function temperatureProfileForPeriod(series: HourlyTemps, startMs: number, endMs: number, options: { blockHours?: number } = {}): TemperatureProfile {
+  if (!(endMs > startMs)) throw new ModelInputError(`period end must be after its start (${startMs} … ${endMs})`);
+  const blockHours = options.blockHours ?? 1;
+  if (!(Number.isInteger(blockHours) && blockHours >= 1)) throw new ModelInputError(`blockHours must be a positive integer, got ${blockHours}`);
+  const first = Math.max(0, Math.floor((startMs - series.startMs) / HOUR_MS));
+  const last = Math.min(series.temps.length - 1, Math.ceil((endMs - series.startMs) / HOUR_MS) - 1);
+  const temps: number[] = [];
+  const weights: number[] = [];
+  let blockIndex = -1;
+  let blockW = 0;
+  let blockWT = 0;
+  const flush = (): void => {
+    if (blockW > 0) {
+      temps.push(blockWT / blockW);
+      weights.push(blockW);
+    }
+    blockW = 0;
+    blockWT = 0;
+  };
+  for (let i = first; i <= last; i++) {
+    const h0 = series.startMs + i * HOUR_MS;
+    const overlap = (Math.min(h0 + HOUR_MS, endMs) - Math.max(h0, startMs)) / HOUR_MS;
+    if (overlap <= 0) continue;
+    const t = series.temps[i];
+    if (blockHours === 1) {
+      temps.push(t);
+      weights.push(overlap);
+      continue;
+    }
+    const b = Math.floor((Math.max(h0, startMs) - startMs) / (blockHours * HOUR_MS));
+    if (b !== blockIndex) {
+      flush();
+      blockIndex = b;
+    }
+    if (Number.isFinite(t)) {
+      blockW += overlap;
+      blockWT += overlap * t;
+    }
+  }
+  flush();
+  const profile = temperatureProfileFromHourly(temps, weights);
+  // Hours beyond the series are missing too.
+  return { ...profile, hoursTotal: (endMs - startMs) / HOUR_MS };
+}
+
+/** Number of sorted temperatures strictly below `base` (binary search). */
+function countBelow(sorted: Float64Array, base: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid] < base) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/**
+ * Heating degree-days per day at `base` over the covered hours: mean of (base − T)⁺.
+ * Missing hours are treated as having the covered hours' mean (the "scaled" reading of
+ * degreeDaysForPeriod). NaN when no hour is covered.
+ * @example hddPerDay(temperatureProfileFromHourly([...Array(12).fill(60), ...Array(12).fill(70)]), 65) // 2.5
+ */
+export function hddPerDay(profile: TemperatureProfile, base: number): number {
+  const i = countBelow(profile.sortedTemps, base);
+  return (base * profile.cumHours[i] - profile.cumHourTemps[i]) / profile.hoursCovered;
+}
+
+/**
+ * Cooling degree-days per day at `base`: mean of (T − base)⁺ over the covered hours.
+ * @example cddPerDay(temperatureProfileFromHourly([...Array(12).fill(60), ...Array(12).fill(70)]), 65) // 2.5
+ */
+export function cddPerDay(profile: TemperatureProfile, base: number): number {
+  const i = countBelow(profile.sortedTemps, base);
+  const h = profile.sortedTemps.length;
+  return (profile.cumHourTemps[h] - profile.cumHourTemps[i] - base * (profile.cumHours[h] - profile.cumHours[i])) / profile.hoursCovered;
+}
+
+export type DegreeDayForm = "constant" | "HO" | "CO" | "HC";
+
+const DEGREE_DAY_FORMS: readonly DegreeDayForm[] = ["constant", "HO", "CO", "HC"];
+
+/** p for each form: intercept + slopes + searched bases. */
+const DEGREE_DAY_PARAMETER_COUNT: Record<DegreeDayForm, number> = { constant: 1, HO: 3, CO: 3, HC: 5 };
+
+/** One billing period. */
+export interface DegreeDayPeriod {
+  profile: TemperatureProfile;
+  /** Average use per day over the period (kWh/day, therm/day, …). */
+  usePerDay: number;
+  /** Billing days (the weight when weighting by days). */
+  days: number;
+}
+
+/** Where bases are searched: a coarse grid [min, max] by `step`, then ±step around the best by `refineStep`. */
+export interface BaseSearchRange {
+  min: number;
+  max: number;
+  step: number;
+  refineStep: number;
+}
+
+/**
+ * Default search ranges. 5–25 °C spans the balance points of real buildings (heating balance
+ * points of 10–18 °C and cooling ones of 12–24 °C are usual; Fels 1986 reports bases of
+ * roughly 40–75 °F for houses); 0.5 °C steps keep the coarse grid at 41 values and the refine
+ * step of 0.05 °C is well below what monthly data can resolve. °F: the same span, 41–77 °F.
+ */
+const DEFAULT_BASE_RANGE: Record<"C" | "F", BaseSearchRange> = {
+  C: { min: 5, max: 25, step: 0.5, refineStep: 0.05 },
+  F: { min: 41, max: 77, step: 1, refineStep: 0.1 },
+};
+
+export interface DegreeDayFitOptions {
+  /** Temperature unit of the profiles; chooses the default base range. Default "C". */
+  tempUnit?: "C" | "F";
+  baseRange?: BaseSearchRange;
+  /** Weighted least squares with billing days as weights. Default true. */
+  weightByDays?: boolean;
+  /** Guideline 14 limits to judge against. Default "monthly". */
+  resolution?: "monthly" | "hourly";
+}
+
+export interface DegreeDaySlope {
+  role: "heating" | "cooling";
+  value: number;
+  standardError: number;
+  tValue: number;
+}
+
+export interface DegreeDayFit {
+  form: DegreeDayForm;
+  /** τH and τC (null when the form has none), temperature units. */
+  heatingBase: number | null;
+  coolingBase: number | null;
+  /** β₀: use per day independent of weather. */
+  intercept: number;
+  slopes: DegreeDaySlope[];
+  parameterCount: number;
+  /** Guideline 14 statistics of use per day (unweighted), p = parameterCount. */
+  stats: Guideline14Stats;
+  /** sqrt(Σwᵢeᵢ² / (n − p)). */
+  rmse: number;
+  /** Least squares with the bases fixed (df n − k). */
+  ols: OlsFit;
+  /** Regressor row [HDD/day?, CDD/day?] of a period for this fit's bases. */
+  regressors(profile: TemperatureProfile): number[];
+  /** Predicted use per day for a period. */
+  predictPerDay(profile: TemperatureProfile): number;
+  /**
+   * Prediction interval for a new period's use per day, bases fixed:
+   *   ŷ ± t(1 − α/2, n − p) · RMSE · sqrt(1/w₀ + x₀ᵀ(XᵀWX)⁻¹x₀),
+   * w₀ = the period's days when weighted (default: mean training days).
+   */
+  predictWithInterval(profile: TemperatureProfile, level: number, days?: number): IntervalPrediction;
+}
+
+function regressorRow(form: DegreeDayForm, profile: TemperatureProfile, tH: number | null, tC: number | null): number[] {
+  switch (form) {
+    case "constant":
+      return [];
+    case "HO":
+      return [hddPerDay(profile, tH as number)];
+    case "CO":
+      return [cddPerDay(profile, tC as number)];
+    case "HC":
+      return [hddPerDay(profile, tH as number), cddPerDay(profile, tC as number)];
+  }
+}
+
+function checkPeriods(periods: readonly DegreeDayPeriod[]): void {
+  periods.forEach((p, i) => {
+    if (!Number.isFinite(p.usePerDay)) throw new ModelInputError(`period ${i}: use per day is not a finite number`);
+    if (!(p.days > 0 && Number.isFinite(p.days))) throw new ModelInputError(`period ${i}: billing days must be positive, got ${p.days}`);
+    if (!(p.profile.hoursCovered > 0)) throw new ModelInputError(`period ${i}: no hour has a temperature`);
+  });
+}
+
+/**
+ * Fit one form with its bases given (no search).
+ * @throws ModelInputError on bad periods, a missing base, τH > τC, too few periods or a singular design.
+ * @example fitDegreeDayFormAt(periods, "HO", { heatingBase: 15 })
+ */
+export function fitDegreeDayFormAt(
+  periods: readonly DegreeDayPeriod[],
+  form: DegreeDayForm,
+  bases: { heatingBase?: number | null; coolingBase?: number | null },
+  options: DegreeDayFitOptions = {},
+): DegreeDayFit {
+  checkPeriods(periods);
+  const tH = form === "HO" || form === "HC" ? (bases.heatingBase ?? null) : null;
+  const tC = form === "CO" || form === "HC" ? (bases.coolingBase ?? null) : null;
+  if ((form === "HO" || form === "HC") && !Number.isFinite(tH)) throw new ModelInputError(`${form} needs a heating base`);
+  if ((form === "CO" || form === "HC") && !Number.isFinite(tC)) throw new ModelInputError(`${form} needs a cooling base`);
+  if (form === "HC" && !((tH as number) <= (tC as number))) throw new ModelInputError(`heating base ${tH} is above cooling base ${tC}`);
+  const p = DEGREE_DAY_PARAMETER_COUNT[form];
+  const n = periods.length;
+  if (n <= p) throw new ModelInputError(`${form} needs more than ${p} periods, got ${n}`);
+  const weightByDays = options.weightByDays ?? true;
+  const x = periods.map((pd) => regressorRow(form, pd.profile, tH, tC));
+  const y = periods.map((pd) => pd.usePerDay);
+  const weights = weightByDays ? periods.map((pd) => pd.days) : undefined;
+  const roles: DegreeDaySlope["role"][] = form === "HO" ? ["heating"] : form === "CO" ? ["cooling"] : form === "HC" ? ["heating", "cooling"] : [];
+  const ols = fitOls(x, y, { weights, columnNames: roles.map((r) => `${r} degree-days per day`) });
+  const slopes = roles.map((role, j) => ({
+    role,
+    value: ols.coefficients[j + 1],
+    standardError: ols.standardErrors[j + 1],
+    tValue: ols.tValues[j + 1],
+  }));
+  const rmse = Math.sqrt(ols.sse / (n - p));
+  const stats = guideline14Stats(y, ols.fitted, p, options.resolution ?? "monthly");
+  const meanDays = weights ? mean(weights) : 1;
+  const regressors = (profile: TemperatureProfile): number[] => regressorRow(form, profile, tH, tC);
+  const predictPerDay = (profile: TemperatureProfile): number => ols.predict(regressors(profile));
+  const predictWithInterval = (profile: TemperatureProfile, level: number, days?: number): IntervalPrediction => {
+    if (!(level > 0 && level < 1)) throw new ModelInputError(`interval level must be in (0, 1), got ${level}`);
+    const w0 = weights ? (days ?? meanDays) : 1;
+    if (!(w0 > 0)) throw new ModelInputError(`billing days must be positive, got ${days}`);
+    const base = ols.predictWithInterval(regressors(profile), 0.5, w0);
+    // From the least-squares residual SE (df n − k) to the model RMSE (df n − p, bases counted).
+    const scale = ols.residualStdError === 0 ? 0 : rmse / ols.residualStdError;
+    const sePrediction = base.sePrediction * scale;
+    const tCrit = studentTQuantile(1 - (1 - level) / 2, n - p);
+    return { fit: base.fit, lower: base.fit - tCrit * sePrediction, upper: base.fit + tCrit * sePrediction, sePrediction, seMean: base.seMean * scale };
+  };
+  return {
+    form,
+    heatingBase: tH,
+    coolingBase: tC,
+    intercept: ols.coefficients[0],
+    slopes,
+    parameterCount: p,
+    stats,
+    rmse,
+    ols,
+    regressors,
+    predictPerDay,
+    predictWithInterval,
+  };
+}
+
+/** Weighted sums for a least-squares fit of y on an intercept and one or two regressors. */
+class SearchData {
+  readonly n: number;
+  readonly w: Float64Array;
+  readonly y: Float64Array;
+  readonly sw: number;
+  readonly yBar: number;
+  readonly syy: number;
+  constructor(periods: readonly DegreeDayPeriod[], weightByDays: boolean) {
+    this.n = periods.length;
+    this.w = Float64Array.from(periods, (p) => (weightByDays ? p.days : 1));
+    this.y = Float64Array.from(periods, (p) => p.usePerDay);
+    let sw = 0;
+    let swy = 0;
+    for (let i = 0; i < this.n; i++) {
+      sw += this.w[i];
+      swy += this.w[i] * this.y[i];
+    }
+    this.sw = sw;
+    this.yBar = swy / sw;
+    let syy = 0;
+    for (let i = 0; i < this.n; i++) syy += this.w[i] * (this.y[i] - this.yBar) ** 2;
+    this.syy = syy;
+  }
+  /**
+   * The parts of a fit that depend on one column alone: its weighted mean, its centred values
+   * and the weighted sums Σ w·d·d and Σ w·d·(y − ȳ), each added in row order exactly as the
+   * fused loops of a fit added them. A base search pairs every heating column with every
+   * cooling column, so each column's parts are worked out once instead of once per pair.
+   */
+  prepare(x: Float64Array): PreparedColumn {
+    let sx = 0;
+    for (let i = 0; i < this.n; i++) sx += this.w[i] * x[i];
+    const bar = sx / this.sw;
+    const d = new Float64Array(this.n);
+    let sdd = 0;
+    let sdy = 0;
+    for (let i = 0; i < this.n; i++) {
+      const dx = x[i] - bar;
+      d[i] = dx;
+      sdd += this.w[i] * dx * dx;
+      sdy += this.w[i] * dx * (this.y[i] - this.yBar);
+    }
+    return { bar, d, sdd, sdy };
+  }
+  /** Weighted SSE of y on [1, x] and the slope; slope NaN when x is constant. */
+  one(x: PreparedColumn): { sse: number; slope: number } {
+    const { bar: xBar, sdd: sxx, sdy: sxy } = x;
+    if (!(sxx > 1e-12 * Math.max(1, xBar * xBar) * this.sw)) return { sse: Number.POSITIVE_INFINITY, slope: Number.NaN };
+    const slope = sxy / sxx;
+    return { sse: this.syy - slope * sxy, slope };
+  }
+  /** Weighted SSE of y on [1, a, b] and both slopes (centred 2 × 2 normal equations). */
+  two(a: PreparedColumn, b: PreparedColumn): { sse: number; slopeA: number; slopeB: number } {
+    const { sdd: saa, sdy: say } = a;
+    const { sdd: sbb, sdy: sby } = b;
+    const da = a.d;
+    const db = b.d;
+    let sab = 0;
+    for (let i = 0; i < this.n; i++) sab += this.w[i] * da[i] * db[i];
+    const det = saa * sbb - sab * sab;
+    // Near-collinear HDD and CDD columns (e.g. both bases in a narrow band): no usable fit.
+    if (!(saa > 0 && sbb > 0 && det > 1e-9 * saa * sbb)) return { sse: Number.POSITIVE_INFINITY, slopeA: Number.NaN, slopeB: Number.NaN };
+    const slopeA = (sbb * say - sab * sby) / det;
+    const slopeB = (saa * sby - sab * say) / det;
+    return { sse: this.syy - slopeA * say - slopeB * sby, slopeA, slopeB };
+  }
+}
+
+/** One column's share of a fit (SearchData.prepare). */
+interface PreparedColumn {
+  bar: number;
+  /** x − mean, per row. */
+  d: Float64Array;
+  /** Σ w·d·d */
+  sdd: number;
+  /** Σ w·d·(y − ȳ) */
+  sdy: number;
+}
+
+function gridOf(min: number, max: number, step: number): number[] {
+  const out: number[] = [];
+  const count = Math.round((max - min) / step);
+  for (let i = 0; i <= count; i++) out.push(Math.min(max, min + i * step));
+  return out;
+}
+
+function columnAt(periods: readonly DegreeDayPeriod[], kind: "h" | "c", base: number): Float64Array {
+  // A plain loop: Float64Array.from with a mapping function goes through the iterator protocol,
+  // and the base searches (refitted for every left-out bill) build hundreds of thousands of columns.
+  const out = new Float64Array(periods.length);
+  for (let i = 0; i < out.length; i++) out[i] = degreeDaysAt(periods[i]!.profile, kind, base);
+  return out;
+}
+
+/*
+ * Degree-days per day of one period at one base, kept per profile: the leave-one-out refits of
+ * the outlier bands search the same bases over the same periods once per left-out bill, and
+ * every form searches the same coarse grid.
+ */
+const degreeDaysByProfile = new WeakMap<TemperatureProfile, { h: Map<number, number>; c: Map<number, number> }>();
+
+function degreeDaysAt(profile: TemperatureProfile, kind: "h" | "c", base: number): number {
+  // A Map takes −0 and 0 as one key; their degree-days may differ in the sign of a zero.
+  if (Object.is(base, -0)) return kind === "h" ? hddPerDay(profile, base) : cddPerDay(profile, base);
+  let cached = degreeDaysByProfile.get(profile);
+  if (cached === undefined) degreeDaysByProfile.set(profile, (cached = { h: new Map(), c: new Map() }));
+  const byBase = kind === "h" ? cached.h : cached.c;
+  let v = byBase.get(base);
+  if (v === undefined) {
+    v = kind === "h" ? hddPerDay(profile, base) : cddPerDay(profile, base);
+    if (byBase.size >= 4096) byBase.clear(); // a bound, not an eviction policy
+    byBase.set(base, v);
+  }
+  return v;
+}
+
+/** Indices of the best few local minima of a 1-D score array (the refine step starts from each). */
+function bestLocalMinima(scores: readonly number[], count: number): number[] {
+  const idx: number[] = [];
+  for (let i = 0; i < scores.length; i++) {
+    if (!Number.isFinite(scores[i])) continue;
+    const left = i === 0 ? Number.POSITIVE_INFINITY : scores[i - 1];
+    const right = i === scores.length - 1 ? Number.POSITIVE_INFINITY : scores[i + 1];
+    if (scores[i] <= left && scores[i] <= right) idx.push(i);
+  }
+  return idx.sort((a, b) => scores[a] - scores[b]).slice(0, count);
+}
+
+/** Best admissible base(s) of one form, by coarse grid then local fine grids. */
+function searchBases(
+  periods: readonly DegreeDayPeriod[],
+  form: "HO" | "CO" | "HC",
+  range: BaseSearchRange,
+  weightByDays: boolean,
+): { heatingBase: number | null; coolingBase: number | null } | null {
+  const data = new SearchData(periods, weightByDays);
+  if (form !== "HC") {
+    const kind = form === "HO" ? "h" : "c";
+    const sseAt = (base: number): number => {
+      const r = data.one(data.prepare(columnAt(periods, kind, base)));
+      // Physical constraint: a heating (cooling) slope must be positive.
+      return r.slope > 0 ? r.sse : Number.POSITIVE_INFINITY;
+    };
+    const coarse = gridOf(range.min, range.max, range.step);
+    const scores = coarse.map(sseAt);
+    let best: number | null = null;
+    let bestSse = Number.POSITIVE_INFINITY;
+    for (const i of bestLocalMinima(scores, 3)) {
+      const lo = Math.max(range.min, coarse[i] - range.step);
+      const hi = Math.min(range.max, coarse[i] + range.step);
+      for (const b of gridOf(lo, hi, range.refineStep)) {
+        const s = sseAt(b);
+        if (s < bestSse) {
+          bestSse = s;
+          best = b;
+        }
+      }
+    }
+    if (best === null) return null;
+    return form === "HO" ? { heatingBase: best, coolingBase: null } : { heatingBase: null, coolingBase: best };
+  }
+  const coarse = gridOf(range.min, range.max, range.step);
+  const hCols = coarse.map((b) => data.prepare(columnAt(periods, "h", b)));
+  const cCols = coarse.map((b) => data.prepare(columnAt(periods, "c", b)));
+  const pairSse = (a: PreparedColumn, b: PreparedColumn): number => {
+    const r = data.two(a, b);
+    return r.slopeA > 0 && r.slopeB > 0 ? r.sse : Number.POSITIVE_INFINITY;
+  };
+  const starts: { h: number; c: number; sse: number }[] = [];
+  for (let i = 0; i < coarse.length; i++) {
+    for (let j = i; j < coarse.length; j++) {
+      const sse = pairSse(hCols[i], cCols[j]);
+      if (Number.isFinite(sse)) starts.push({ h: coarse[i], c: coarse[j], sse });
+    }
+  }
+  if (starts.length === 0) return null;
+  starts.sort((p, q) => p.sse - q.sse);
+  let best = starts[0];
+  for (const s of starts.slice(0, 3)) {
+    const hs = gridOf(Math.max(range.min, s.h - range.step), Math.min(range.max, s.h + range.step), range.refineStep);
+    const cs = gridOf(Math.max(range.min, s.c - range.step), Math.min(range.max, s.c + range.step), range.refineStep);
+    const cColsFine = cs.map((b) => data.prepare(columnAt(periods, "c", b)));
+    for (const h of hs) {
+      const hCol = data.prepare(columnAt(periods, "h", h));
+      cs.forEach((c, k) => {
+        if (c < h) return;
+        const sse = pairSse(hCol, cColsFine[k]);
+        if (sse < best.sse) best = { h, c, sse };
+      });
+    }
+  }
+  return { heatingBase: best.h, coolingBase: best.c };
+}
+
+/**
+ * Fit one form, searching its base(s) for the least weighted SSE under βH > 0, βC > 0, τH ≤ τC.
+ * Search: every base of the coarse grid (every admissible pair for HC), then a grid of
+ * `refineStep` within ±step of the three best coarse optima.
+ * @throws ModelInputError on bad periods, too few periods, or no admissible base.
+ * @example fitDegreeDayForm(periods, "HO").heatingBase // ≈ 15
+ */
+export function fitDegreeDayForm(periods: readonly DegreeDayPeriod[], form: DegreeDayForm, options: DegreeDayFitOptions = {}): DegreeDayFit {
+  checkPeriods(periods);
+  if (form === "constant") return fitDegreeDayFormAt(periods, form, {}, options);
+  const p = DEGREE_DAY_PARAMETER_COUNT[form];
+  if (periods.length <= p) throw new ModelInputError(`${form} needs more than ${p} periods, got ${periods.length}`);
+  const range = options.baseRange ?? DEFAULT_BASE_RANGE[options.tempUnit ?? "C"];
+  if (!(range.min < range.max && range.step > 0 && range.refineStep > 0)) {
+    throw new ModelInputError(`base search range must have min < max and positive steps, got ${JSON.stringify(range)}`);
+  }
+  const bases = searchBases(periods, form, range, options.weightByDays ?? true);
+  if (bases === null) throw new ModelInputError(`${form}: no base in ${range.min}…${range.max} gives a positive ${form === "CO" ? "cooling" : "heating"} slope${form === "HC" ? " and a positive cooling slope" : ""}`);
+  return fitDegreeDayFormAt(periods, form, bases, options);
+}
+
+export interface DegreeDaySelectionOptions extends DegreeDayFitOptions {
+  /** Forms to try. Default all of DEGREE_DAY_FORMS. */
+  forms?: readonly DegreeDayForm[];
+  /** Minimum |t| on every slope. Default 2 (the change-point selection's rule). */
+  minAbsT?: number;
+}
+
+export interface DegreeDayCandidate {
+  form: DegreeDayForm;
+  fit?: DegreeDayFit;
+  accepted: boolean;
+  reasons: string[];
+  /**
+   * Remarks that do not reject the form, e.g. a base on the edge of the search range: the
+   * optimum may lie beyond it, and a base at the cold (hot) end makes CDD (HDD) per day almost
+   * linear in temperature, i.e. the model behaves like a straight line in mean temperature.
+   */
+  notes: string[];
+}
+
+export interface DegreeDaySelection {
+  /** The accepted form with the lowest CV(RMSE) (ties → fewer parameters); null if none. */
+  chosen: DegreeDayFit | null;
+  tried: DegreeDayCandidate[];
+}
+
+/**
+ * Fit every form and choose one: slopes positive and |t| ≥ minAbsT on every slope; among the
+ * accepted forms the lowest CV(RMSE) wins (it charges for parameters through n − p), ties
+ * within 1e-9 go to fewer parameters. The constant model is always admissible as a fallback.
+ * @example fitDegreeDayModel(periods, { tempUnit: "C" }).chosen?.form // "HO"
+ */
+export function fitDegreeDayModel(periods: readonly DegreeDayPeriod[], options: DegreeDaySelectionOptions = {}): DegreeDaySelection {
+  const minAbsT = options.minAbsT ?? 2;
+  const tried: DegreeDayCandidate[] = [];
+  for (const form of options.forms ?? DEGREE_DAY_FORMS) {
+    let fit: DegreeDayFit;
+    try {
+      fit = fitDegreeDayForm(periods, form, options);
+    } catch (e) {
+      if (e instanceof ModelInputError) {
+        tried.push({ form, accepted: false, reasons: [e.message], notes: [] });
+        continue;
+      }
+      throw e;
+    }
+    const reasons: string[] = [];
+    for (const s of fit.slopes) {
+      if (!(s.value > 0)) reasons.push(`${s.role} slope ${s.value.toPrecision(4)} is not positive`);
+      if (!(Math.abs(s.tValue) >= minAbsT)) reasons.push(`|t| of the ${s.role} slope is ${Math.abs(s.tValue).toFixed(2)} < ${minAbsT}`);
+    }
+    if (!Number.isFinite(fit.stats.cvRmsePct)) reasons.push("CV(RMSE) is not finite");
+    const range = options.baseRange ?? DEFAULT_BASE_RANGE[options.tempUnit ?? "C"];
+    const notes: string[] = [];
+    for (const [label, base] of [["heating", fit.heatingBase], ["cooling", fit.coolingBase]] as const) {
+      if (base !== null && (base <= range.min || base >= range.max)) notes.push(`${label} base ${base} is on the edge of the search range ${range.min}…${range.max}`);
+    }
+    tried.push({ form, fit, accepted: reasons.length === 0, reasons, notes });
+  }
+  let chosen: DegreeDayFit | null = null;
+  for (const c of tried) {
+    if (!c.accepted || !c.fit) continue;
+    const cv = c.fit.stats.cvRmsePct;
+    if (chosen === null || cv < chosen.stats.cvRmsePct - 1e-9 || (Math.abs(cv - chosen.stats.cvRmsePct) <= 1e-9 && c.fit.parameterCount < chosen.parameterCount)) {
+      chosen = c.fit;
+    }
+  }
+  return { chosen, tried };
+}
