@@ -61,8 +61,10 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
     hoursTotal += w;
     if (Number.isFinite(temps[i]) && w > 0) idx.push(i);
   }
-  idx.sort((a, b) => temps[a] - temps[b]);
   const h = idx.length;
+  const fast = equalWeightProfile(temps, weights, idx, hoursTotal);
+  if (fast) return fast;
+  idx.sort((a, b) => temps[a] - temps[b]);
   const sortedTemps = new Float64Array(h);
   const cumHours = new Float64Array(h + 1);
   const cumHourTemps = new Float64Array(h + 1);
@@ -72,6 +74,34 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
     sortedTemps[r] = temps[i];
     cumHours[r + 1] = cumHours[r] + w;
     cumHourTemps[r + 1] = cumHourTemps[r] + w * temps[i];
+  }
+  return { sortedTemps, cumHours, cumHourTemps, hoursCovered: cumHours[h], hoursTotal };
+}
+
+/**
+ * temperatureProfileFromHourly when every used hour has the same weight (whole hours of a bill
+ * that starts on the hour): equal temperatures then add equal terms, so the order among them —
+ * which the general path takes from a stable sort of the hours — does not change any sum, and
+ * a typed-array sort of the values gives the same profile. A −0 would sort apart from a +0 it
+ * ties with (and might land elsewhere in sortedTemps), so then the general path is taken (null).
+ */
+function equalWeightProfile(temps: ArrayLike<number>, weights: ArrayLike<number> | undefined, idx: readonly number[], hoursTotal: number): TemperatureProfile | null {
+  const h = idx.length;
+  const w = weights && h > 0 ? weights[idx[0]] : 1;
+  const sortedTemps = new Float64Array(h);
+  for (let r = 0; r < h; r++) {
+    const i = idx[r];
+    if (weights && weights[i] !== w) return null;
+    const t = temps[i];
+    if (Object.is(t, -0)) return null;
+    sortedTemps[r] = t;
+  }
+  sortedTemps.sort();
+  const cumHours = new Float64Array(h + 1);
+  const cumHourTemps = new Float64Array(h + 1);
+  for (let r = 0; r < h; r++) {
+    cumHours[r + 1] = cumHours[r] + w;
+    cumHourTemps[r + 1] = cumHourTemps[r] + w * sortedTemps[r];
   }
   return { sortedTemps, cumHours, cumHourTemps, hoursCovered: cumHours[h], hoursTotal };
 }

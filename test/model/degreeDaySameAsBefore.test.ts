@@ -1,8 +1,9 @@
 /**
  * CPU work on the degree-day models (issue 17: the leave-one-out and rejection refits of an
  * outlier band take their degree-day columns from one table of the training bills, and the HC
- * search keeps its three best coarse pairs instead of sorting them all) must not move a single
- * bit: on random bills, fitDegreeDayModel and degreeDayOutlierBand give exactly the forms,
+ * search keeps its three best coarse pairs instead of sorting them all, a period of whole hours
+ * is sorted as typed values) must not move a single bit: on random hours, temperature profiles
+ * are the same; on random bills, fitDegreeDayModel and degreeDayOutlierBand give exactly the forms,
  * bases, coefficients, statistics, bands and rejections of the code before it
  * (test/model/former/, verbatim copies of commit daa4bc8). Tolerance: none (Object.is on every number).
  */
@@ -10,7 +11,7 @@ import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { fitDegreeDayModel, temperatureProfileFromHourly, type DegreeDayPeriod } from "../../src/model/degreeDayRegression.ts";
 import { degreeDayOutlierBand, type DegreeDayBandBill } from "../../src/model/outlierBand.ts";
-import { fitDegreeDayModel as formerFitDegreeDayModel } from "./former/degreeDayRegression.ts";
+import { fitDegreeDayModel as formerFitDegreeDayModel, temperatureProfileFromHourly as formerProfile } from "./former/degreeDayRegression.ts";
 import { degreeDayOutlierBand as formerDegreeDayOutlierBand } from "./former/outlierBand.ts";
 import { mulberry32 } from "../../src/core/random.ts";
 
@@ -72,6 +73,28 @@ describe("degree-day models give the former code's numbers bit for bit", () => {
         },
       ),
       { numRuns: 40, seed: 17 },
+    );
+  });
+
+  it("temperature profiles of random hours (ties, ±0, NaN, equal and unequal weights)", () => {
+    const temp = fc.oneof(fc.constantFrom(0, -0, 1.5, -3, 10, Number.NaN), fc.double({ min: -40, max: 45, noNaN: true }));
+    fc.assert(
+      fc.property(
+        fc.array(temp, { maxLength: 200 }),
+        fc.constantFrom("none", "ones", "equal", "edges", "random"),
+        fc.integer({ min: 1, max: 1 << 30 }),
+        (temps, kind, seed) => {
+          const rand = mulberry32(seed);
+          const weights =
+            kind === "none"
+              ? undefined
+              : temps.map((_, i) =>
+                  kind === "ones" ? 1 : kind === "equal" ? 0.75 : kind === "edges" ? (i === 0 || i === temps.length - 1 ? 0.5 : 1) : Math.floor(rand() * 3) / 2,
+                );
+          expect(same(temperatureProfileFromHourly(temps, weights), formerProfile(temps, weights))).toBe(true);
+        },
+      ),
+      { numRuns: 400, seed: 17 },
     );
   });
 });
