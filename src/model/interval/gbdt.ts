@@ -200,6 +200,7 @@ function boost(
   const sampleSize = Math.max(1, Math.round(o.subsample * nTrain));
   const rows = new Int32Array(nTrain);
   const work = new TreeWork(f, nb, o.maxDepth);
+  work.sameRootRows = sampleSize >= nTrain;
 
   // negative gradient of ½(y − ŷ)²; after the first round it is worked out in the loss loop
   for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!;
@@ -221,24 +222,27 @@ function boost(
     }
     const tree = growTree(sample, grad, rowOffsets, binned, bins, o, nb, work);
     trees.push(tree);
+    // the next round's gradients: y − ŷ after this round
     if (sampleSize < nTrain) {
       for (let i = 0; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
+      for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!;
     } else {
       // every training row sits in exactly one leaf's range of `rows`: add that leaf's value
       // (the same number walking the tree would find), then walk only the validation rows
       for (let k = 0; k < work.leafCount; k++) {
         const v = tree.value[work.leafNode[k]!]!;
-        for (let r = work.leafStart[k]!, e = work.leafEnd[k]!; r < e; r++) pred[rows[r]!]! += v;
+        for (let r = work.leafStart[k]!, e = work.leafEnd[k]!; r < e; r++) {
+          const i = rows[r]!;
+          const p = pred[i]! + v;
+          pred[i] = p;
+          grad[i] = y[i]! - p;
+        }
       }
       for (let i = nTrain; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
     }
-    // the loss after this round, and the next round's gradients (the same differences)
+    // the loss after this round, added in row order
     let sse = 0;
-    for (let i = 0; i < nTrain; i++) {
-      const d = y[i]! - pred[i]!;
-      grad[i] = d;
-      sse += d ** 2;
-    }
+    for (let i = 0; i < nTrain; i++) sse += grad[i]! ** 2;
     trainLoss.push(sse / nTrain);
     if (stop && validationLoss) {
       let v = 0;
@@ -278,6 +282,12 @@ class TreeWork {
   private readonly pool: Float64Array[] = [];
   readonly size: number;
   leafCount = 0;
+  /**
+   * Row counts per (feature, bin) of the root, when every tree's root holds the same rows (no
+   * subsampling): set by the first tree, then copied into each root histogram instead of counted.
+   */
+  rootCounts: Float64Array | null = null;
+  sameRootRows = false;
   leafNode: Int32Array;
   leafStart: Int32Array;
   leafEnd: Int32Array;
@@ -311,6 +321,59 @@ interface NodeTask {
   hist: Float64Array | null;
   /** Σ gradient over the node's rows in row order, when already summed with its histogram. */
   gSum: number | null;
+}
+
+/**
+ * The root's histogram: as {@link buildHistogram} over every row, but when each tree's root
+ * holds the same rows the counts are those of the first tree's root, copied instead of counted
+ * again (integers, so the same numbers). Returns the rows' gradient sum.
+ */
+function rootHistogram(h: Float64Array, rows: Int32Array, grad: Float64Array, offs: Int32Array, f: number, work: TreeWork): number {
+  if (!work.sameRootRows || !work.rootCounts) {
+    const gSum = buildHistogram(h, rows, 0, rows.length, grad, offs, f);
+    if (work.sameRootRows) work.rootCounts = h.slice();
+    return gSum;
+  }
+  const counts = work.rootCounts;
+  const gSum = f === 10 ? gradientHistogram10(h, rows, rows.length, grad, offs) : gradientHistogram(h, rows, rows.length, grad, offs, f);
+  for (let b = 1; b < h.length; b += 2) h[b] = counts[b]!;
+  return gSum;
+}
+
+/** Gradient sums only (counts left 0) of rows[0, end), in row order, as buildHistogram adds them. */
+function gradientHistogram(h: Float64Array, rows: Int32Array, end: number, grad: Float64Array, offs: Int32Array, f: number): number {
+  h.fill(0);
+  let gSum = 0;
+  for (let r = 0; r < end; r++) {
+    const i = rows[r]!;
+    const g = grad[i]!;
+    gSum += g;
+    for (let p = i * f, e = p + f; p < e; p++) h[offs[p]!]! += g;
+  }
+  return gSum;
+}
+
+/** {@link gradientHistogram} for ten features, written out (see buildHistogram10). */
+function gradientHistogram10(h: Float64Array, rows: Int32Array, end: number, grad: Float64Array, offs: Int32Array): number {
+  h.fill(0);
+  let gSum = 0;
+  for (let r = 0; r < end; r++) {
+    const i = rows[r]!;
+    const g = grad[i]!;
+    gSum += g;
+    const p = i * 10;
+    h[offs[p]!]! += g;
+    h[offs[p + 1]!]! += g;
+    h[offs[p + 2]!]! += g;
+    h[offs[p + 3]!]! += g;
+    h[offs[p + 4]!]! += g;
+    h[offs[p + 5]!]! += g;
+    h[offs[p + 6]!]! += g;
+    h[offs[p + 7]!]! += g;
+    h[offs[p + 8]!]! += g;
+    h[offs[p + 9]!]! += g;
+  }
+  return gSum;
 }
 
 /**
@@ -428,7 +491,7 @@ function growTree(
     if (task.gSum !== null) gSum = task.gSum;
     else if (!hist && splittable) {
       hist = work.take();
-      gSum = buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
+      gSum = node === 0 ? rootHistogram(hist, rows, grad, rowOffsets, f, work) : buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
     } else for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
     value[node] = (o.learningRate * gSum) / (count + o.l2Leaf);
     if (!splittable) {
@@ -502,8 +565,11 @@ function growTree(
       const sh = work.take();
       small.gSum = buildHistogram(sh, rows, small.start, small.end, grad, rowOffsets, f);
       small.hist = sh;
-      // the parent's histogram is not needed any more: reuse it for the larger child
-      for (let b = 0; b < hist.length; b++) hist[b]! -= sh[b]!;
+      // the parent's histogram is not needed any more: reuse it for the larger child (only a
+      // feature's bins 0 … cuts.length are ever filled; the rest stay 0 in both)
+      for (let j = 0; j < f; j++) {
+        for (let b = j * nb2, e = b + 2 * (bins[j]!.cuts.length + 1); b < e; b++) hist[b]! -= sh[b]!;
+      }
       large.hist = hist;
     } else work.give(hist);
     stack.push(rTask, lTask);

@@ -1,6 +1,7 @@
 /**
- * CPU work on the trees (issue 17: gradients worked out in the loss loop, the left child's
- * gradient sum added while partitioning, a node's sum taken from its histogram pass) must not
+ * CPU work on the trees (issue 17: gradients worked out as the leaves are added, the left
+ * child's gradient sum added while partitioning, a node's sum taken from its histogram pass,
+ * the root's counts copied from the first tree, histograms subtracted over used bins only) must not
  * move a single bit: on random data and options, the current fitGbdt gives exactly the trees,
  * fitted values, losses and predictions of the code before it (test/model/interval/former/gbdt.ts,
  * a verbatim copy of commit daa4bc8). Tolerance: none (Object.is on every number).
