@@ -147,12 +147,16 @@ export function qrUnscaledCovariance(f: QrFactorization): number[][] {
 export function leastSquaresInPlace(a: Float64Array, y: Float64Array, m: number, k: number, coef?: Float64Array): number {
   const rDiag = new Float64Array(k);
   for (let c = 0; c < k; c++) {
+    // Both sums in one pass, each adding its entries in row order: the column's (i ≥ 0) and the
+    // part from the diagonal down (i ≥ c); for the first column they are the same sum.
     let colNorm2 = 0;
-    for (let i = 0; i < m; i++) colNorm2 += a[c * m + i] ** 2;
-    // For the first column both sums run over the same entries in the same order.
+    for (let i = 0; i < c; i++) colNorm2 += a[c * m + i] ** 2;
     let nrm2 = 0;
-    if (c === 0) nrm2 = colNorm2;
-    else for (let i = c; i < m; i++) nrm2 += a[c * m + i] ** 2;
+    for (let i = c; i < m; i++) {
+      const sq = a[c * m + i] ** 2;
+      colNorm2 += sq;
+      nrm2 += sq;
+    }
     let nrm = Math.sqrt(nrm2);
     // colNorm2 is of the column after earlier reflections, whose norm they preserve.
     if (nrm === 0 || nrm <= RANK_TOLERANCE * Math.sqrt(colNorm2)) return Number.NaN;
