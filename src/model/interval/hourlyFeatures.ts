@@ -7,9 +7,10 @@ import type { WeatherSeries } from "../../domain/types.ts";
 import { savgolFilter } from "../../clean/index.ts";
 import { ModelInputError } from "../errors.ts";
 import type { HourlyFeatures } from "./types.ts";
-import { hourOfWeek, isUsFederalHoliday, localPartsOf } from "../../core/time/index.ts";
+import { civilDay, hourOfWeek, isUsFederalHoliday, localMs, type LocalDay } from "../../core/time/index.ts";
 
 export const HOUR_MS = 3_600_000;
+const DAY_MS = 86_400_000;
 
 /** Options of the derived temperature features. */
 export interface HourlyFeatureOptions {
@@ -128,25 +129,30 @@ export function hourlyFeaturesAt(
     tempRollingMeanC: new Float64Array(n),
   };
   let fallbacks = 0;
-  let lastDayKey = Number.NaN;
+  let lastDayNum = Number.NaN;
+  let day: LocalDay | null = null;
   let lastHoliday = 0;
   for (let r = 0; r < n; r++) {
     const ms = hourStartMs[r]!;
+    // The local clock once per hour, the calendar (and the holiday lookup) once per local day:
+    // the numbers hourOfWeek and localPartsOf give, without their date string every hour.
+    let local: number;
     try {
-      f.hourOfWeek[r] = hourOfWeek(ms, zone);
+      if (!Number.isFinite(ms)) hourOfWeek(ms, zone); // throws its RangeError
+      local = localMs(ms, zone);
     } catch (e) {
       throw new ModelInputError((e as Error).message);
     }
-    // Holiday lookup once per local day (the offset changes at most twice a year).
-    const local = localPartsOf(ms, zone);
-    const dayKey = local.year * 400 + local.dayOfYear;
-    if (dayKey !== lastDayKey) {
-      lastDayKey = dayKey;
-      lastHoliday = isUsFederalHoliday(local.date) ? 1 : 0;
+    const dayNum = Math.floor(local / DAY_MS);
+    if (dayNum !== lastDayNum || day === null) {
+      lastDayNum = dayNum;
+      day = civilDay(dayNum);
+      lastHoliday = isUsFederalHoliday(day.date) ? 1 : 0;
     }
+    f.hourOfWeek[r] = (day.isoWeekday - 1) * 24 + Math.floor(Math.floor((local - dayNum * DAY_MS) / 60_000) / 60);
     f.holiday[r] = lastHoliday;
-    f.dayOfYear[r] = local.dayOfYear;
-    f.month[r] = local.month;
+    f.dayOfYear[r] = day.dayOfYear;
+    f.month[r] = day.month;
     const i = Math.round((ms - weather.startMs) / HOUR_MS);
     const t = i >= 0 && i < weather.tempC.length ? weather.tempC[i]! : Number.NaN;
     f.tempC[r] = t;
