@@ -47,6 +47,32 @@ export interface ForecastRunOptions {
    * so a rebuild prices only the meters whose inputs changed. Default: none.
    */
   memo?: Memo;
+  /**
+   * The analysis's billed-basis pricing of the portfolio's bills as read (before the audit's
+   * corrections), so the ratchet history need not be priced again at every origin: used for a
+   * meter only where it gives the very numbers re-pricing would (see `analysedBillingDemands`).
+   */
+  analysed?: AnalysedPricing;
+}
+
+/** Bills as the analysis priced them and each one's billing demand (kW; null when none or not priced). */
+export interface AnalysedPricing {
+  /** The portfolio's bills before corrections, in file order. */
+  bills: readonly Bill[];
+  /** Bill id → the billed-basis recomputation's billing demand; absent = not priced by the analysis. */
+  billingDemandKw: ReadonlyMap<string, number | null>;
+}
+
+/**
+ * The analysis's pricing in the form `analysed` takes: each bill's billed-basis billing demand.
+ * Undefined when bill ids repeat in `bills` (the analysis's results are keyed by id, so a
+ * repeated id could read another bill's result).
+ */
+export function analysedPricing(bills: readonly Bill[], priced: ReadonlyMap<string, { computed: { billingDemandKw: number | null } | null }>): AnalysedPricing | undefined {
+  if (new Set(bills.map((b) => b.billId)).size !== bills.length) return undefined;
+  const billingDemandKw = new Map<string, number | null>();
+  for (const [id, p] of priced) billingDemandKw.set(id, p.computed?.billingDemandKw ?? null);
+  return { bills, billingDemandKw };
 }
 
 /** Bills whose period ends by the day after `asOf` (the ingest rule for as_of). */
@@ -140,7 +166,9 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       bills,
       billedBills: options.billedBills ? billsKnownAt(billsOfMeter(options.billedBills, meter.meterId), options.asOf) : undefined,
       intervals: series.get(meter.meterId) ?? null,
-      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? recentBillingDemands(meter, bills, tariff!, building.timezone, series.get(meter.meterId)) : [],
+      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined)
+        ? analysedBillingDemands(bills, options.analysed && billsOfMeter(options.analysed.bills, meter.meterId), options.analysed?.billingDemandKw) ?? recentBillingDemands(meter, bills, tariff!, building.timezone, series.get(meter.meterId))
+        : [],
       loadShapeByHourOfWeek: shapeOf(meter),
       escalation: portfolio.settings.escalation[meter.commodity] ?? 0,
       scenarios: options.scenarios,
@@ -151,10 +179,39 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   });
 }
 
+/** Bills in pricing order (priceMeterBills: period start, then bill id). */
+function pricingOrder(bills: readonly Bill[]): Bill[] {
+  return [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
+}
+
+/**
+ * `recentBillingDemands` read from the analysis's pricing instead of pricing again, or null when
+ * that could differ. Pricing a bill reads only its own period's intervals (the same in the
+ * series cut at the origin) and the billing demands of the bills before it in pricing order, so
+ * when the known bills are, object for object, the first bills of the meter's pricing order as
+ * the analysis priced them (no correction, removal or addition among them, none of the analysed
+ * ones ordered between them left out), each one's billing demand is the analysis's. Bill ids
+ * must be unique within the meter (results are keyed by id) and every known bill priced.
+ * @example analysedBillingDemands(known, analysedBillsOfMeter, demandsById) // [412.5, 430, …] or null
+ */
+export function analysedBillingDemands(known: readonly Bill[], analysedBills: readonly Bill[] | undefined, billingDemandKw: ReadonlyMap<string, number | null> | undefined): number[] | null {
+  if (!analysedBills || !billingDemandKw || known.length > analysedBills.length) return null;
+  const ordered = pricingOrder(known);
+  const all = pricingOrder(analysedBills);
+  if (new Set(all.map((b) => b.billId)).size !== all.length) return null;
+  const demands: number[] = [];
+  for (let i = 0; i < ordered.length; i++) {
+    if (ordered[i] !== all[i] || !billingDemandKw.has(ordered[i]!.billId)) return null;
+    const d = billingDemandKw.get(ordered[i]!.billId);
+    if (d !== null && d !== undefined) demands.push(d);
+  }
+  return demands.slice(-12);
+}
+
 /** Billing demands of the last 12 bills (oldest first), from re-pricing the known bills in order. */
-function recentBillingDemands(meter: Meter, bills: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined): number[] {
+export function recentBillingDemands(meter: Meter, bills: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined): number[] {
   const priced = priceMeterBills({ meter, bills, timezone, series, price: (r) => priceBill(tariff, r), meteredBasis: false });
-  const ordered = [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
+  const ordered = pricingOrder(bills);
   const demands: number[] = [];
   for (const b of ordered) {
     const d = priced.get(b.billId)?.computed?.billingDemandKw;
