@@ -18,7 +18,8 @@ import { effectiveAsOf } from "../../src/report/usageSummary.ts";
 import { groupBy } from "../../src/core/groupBy.ts";
 import { contentHash } from "../../src/core/contentHash.ts";
 import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../../src/core/units.ts";
-import { fixtureInput, fullFixtureInput, manyBuildingsInput } from "./fixture.ts";
+import { fixtureInput, fullFixtureInput, manyBuildingsInput, withForecastMethod } from "./fixture.ts";
+import { disputeFixture } from "./disputeFixture.ts";
 
 /** Every building's pages made from the whole input, as siteModelInParts made them before slices. */
 function pagesFromWholeInput(input: ReportInput): unknown[] {
@@ -51,31 +52,15 @@ function withTenantPages(input: ReportInput): ReportInput {
   return { ...input, portfolio: { ...input.portfolio, buildings: input.portfolio.buildings.map((b) => ({ ...b, tenantPage: true })) } };
 }
 
-/** The input with a forecast method (as the forecast stage reports it), one meter of each building uncalibrated. */
-function withForecastMethod(input: ReportInput): ReportInput {
-  const meters = input.portfolio.buildings.map((b) => input.portfolio.meters.find((m) => m.buildingId === b.buildingId)!);
-  return {
-    ...input,
-    forecastMethod: {
-      basisLabel: "the mean of the most recent 10 years",
-      basisReason: "smallest mean absolute meter annual cost error over 2 rolling origin(s)",
-      adjustmentLabel: "none",
-      adjustments: [{ label: "none", meanAbsAnnualErrorPct: 4.21, cvRmsePct: 9.87, chosen: true }, { label: "last year's departure", meanAbsAnnualErrorPct: 5.5, cvRmsePct: 11.2, chosen: false }],
-      bases: [{ label: "recent 10 years", meanAbsAnnualErrorPct: 4.21, cvRmsePct: 9.87, chosen: true }, { label: "normals", meanAbsAnnualErrorPct: 6.02, cvRmsePct: 10.4, chosen: false }],
-      origins: [{ cut: "2024-03-31", meters: 3, historyMonths: { min: 12, max: 14 }, modelAnnualErrorPct: -2.4, naiveAnnualErrorPct: 6.1, modelCvRmsePct: 7.9, naiveCvRmsePct: 12, coverage: 0.83, factor: 1.25, calibrated: true }],
-      factor: 1.25,
-      calibrated: true,
-      coverage: 0.81,
-      uncalibratedMeters: meters.map((m) => ({ meterId: m.meterId, buildingId: m.buildingId, months: 14 })),
-      correctedBills: 2,
-    },
-  };
+/** The richest input: tenant pages, a forecast method and the hand-made disputes. */
+function richInput(): ReportInput {
+  return { ...withForecastMethod(withTenantPages(fullFixtureInput())), disputes: disputeFixture() };
 }
 
 const inputs: [string, () => ReportInput][] = [
   ["the small fixture", fixtureInput],
   ["the full fixture", fullFixtureInput],
-  ["the full fixture with tenant pages and a forecast method", () => withForecastMethod(withTenantPages(fullFixtureInput()))],
+  ["the full fixture with tenant pages, a forecast method and disputes", richInput],
   ["five buildings", () => manyBuildingsInput(5)],
 ];
 
@@ -91,7 +76,7 @@ describe("building slices", () => {
   });
 
   it("a slice is plain data (no function: the content hash would skip it)", () => {
-    const parts = siteModelInParts(withTenantPages(fullFixtureInput()));
+    const parts = siteModelInParts(richInput());
     const functions: string[] = [];
     const seen = new Set<unknown>();
     const walk = (v: unknown, path: string): void => {
@@ -106,7 +91,7 @@ describe("building slices", () => {
   });
 
   it("any change to the input that changes a building's pages changes that building's slice hash", () => {
-    const original = withForecastMethod(withTenantPages(fullFixtureInput()));
+    const original = richInput();
     const leaves = leafPaths(original);
     // Several instances of every kind of leaf (same path with the indices and map keys left out).
     const byShape = new Map<string, Step[][]>();
