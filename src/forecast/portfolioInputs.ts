@@ -8,7 +8,7 @@ import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } 
 import type { Tariff } from "../tariff/index.ts";
 import { priceBill } from "../tariff/index.ts";
 import { fitForecastBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
-import { priceMeterBills } from "../tariff/index.ts";
+import { priceMeterBills, samePricingFields } from "../tariff/index.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
@@ -187,11 +187,13 @@ function pricingOrder(bills: readonly Bill[]): Bill[] {
 /**
  * `recentBillingDemands` read from the analysis's pricing instead of pricing again, or null when
  * that could differ. Pricing a bill reads only its own period's intervals (the same in the
- * series cut at the origin) and the billing demands of the bills before it in pricing order, so
- * when the known bills are, object for object, the first bills of the meter's pricing order as
- * the analysis priced them (no correction, removal or addition among them, none of the analysed
- * ones ordered between them left out), each one's billing demand is the analysis's. Bill ids
- * must be unique within the meter (results are keyed by id) and every known bill priced.
+ * series cut at the origin), its own pricing fields (PRICING_FIELDS) and the billing demands of
+ * the bills before it in pricing order, so when the known bills are, field for field, the first
+ * bills of the meter's pricing order as the analysis priced them (no correction of usage or
+ * demand, removal or addition among them, none of the analysed ones ordered between them left
+ * out; a corrected total alone changes nothing pricing reads), each one's billing demand is the
+ * analysis's. Bill ids must be unique within the meter (results are keyed by id) and every known
+ * bill priced.
  * @example analysedBillingDemands(known, analysedBillsOfMeter, demandsById) // [412.5, 430, …] or null
  */
 export function analysedBillingDemands(known: readonly Bill[], analysedBills: readonly Bill[] | undefined, billingDemandKw: ReadonlyMap<string, number | null> | undefined): number[] | null {
@@ -201,7 +203,7 @@ export function analysedBillingDemands(known: readonly Bill[], analysedBills: re
   if (new Set(all.map((b) => b.billId)).size !== all.length) return null;
   const demands: number[] = [];
   for (let i = 0; i < ordered.length; i++) {
-    if (ordered[i] !== all[i] || !billingDemandKw.has(ordered[i]!.billId)) return null;
+    if (!samePricingFields(ordered[i]!, all[i]!) || !billingDemandKw.has(ordered[i]!.billId)) return null;
     const d = billingDemandKw.get(ordered[i]!.billId);
     if (d !== null && d !== undefined) demands.push(d);
   }

@@ -9,7 +9,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { loadPortfolio } from "../../src/ingest/index.ts";
 import type { Bill, Portfolio } from "../../src/domain/types.ts";
-import { priceBill, priceMeterBills, type PricedBill, type Tariff } from "../../src/tariff/index.ts";
+import { priceBill, priceMeterBills, samePricingFields, type PricedBill, type Tariff } from "../../src/tariff/index.ts";
 import { analysedBillingDemands, analysedPricing, billsKnownAt, recentBillingDemands } from "../../src/forecast/portfolioInputs.ts";
 import { forecastWithTrackRecord } from "../../src/forecast/index.ts";
 import { addMonthsIso } from "../../src/core/time/index.ts";
@@ -76,9 +76,28 @@ describe("analysedBillingDemands", () => {
   });
 
   it("leaves the demo's forecast, backtests and track record exactly as pricing again does", () => {
-    const without = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12, scenarios: 40 });
-    const withAnalysed = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12, scenarios: 40, analysed: analysedPricing(portfolio.bills, priced) });
-    expect(withAnalysed).toEqual(without);
+    // The audit's corrections of each demand meter's bills: a total alone, a demand, a usage, a removal, an added gap bill.
+    const findings = portfolio.meters
+      .filter((m) => portfolio.tariffs.get(m.tariffId)?.versions.some((v) => v.charges.some((c) => c.kind === "demand")))
+      .flatMap((m, k) => {
+        const mine = portfolio.bills.filter((b) => b.meterId === m.meterId);
+        const b = mine[10 + k]!;
+        const correction = { billId: b.billId, periodStart: b.periodStart, periodEnd: b.periodEnd, billedTotal: b.total, correctedTotal: b.total - 50, corrected: null, usage: null, demandKw: null, correctedOn: "billed" };
+        const variants = [
+          correction,
+          { ...correction, demandKw: (b.demandKw ?? 100) * 0.9 },
+          { ...correction, usage: b.usage * 0.95 },
+          { ...correction, correctedTotal: 0 },
+          { ...correction, billId: null, periodStart: "2025-12-20", periodEnd: "2025-12-31", billedTotal: 0, correctedTotal: 100, demandKw: 80 },
+        ];
+        return [{ severity: "warning", amountAtStake: 50, meterId: m.meterId, corrections: [variants[k % variants.length]!] }];
+      });
+    expect(findings.length).toBeGreaterThan(4);
+    for (const f of [[], findings]) {
+      const without = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12, scenarios: 40, findings: f });
+      const withAnalysed = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12, scenarios: 40, findings: f, analysed: analysedPricing(portfolio.bills, priced) });
+      expect(withAnalysed).toEqual(without);
+    }
   }, 180_000);
 
   it("answers null where a bill is not the analysed one, an analysed bill is left out before a known one, or ids repeat", () => {
@@ -86,7 +105,9 @@ describe("analysedBillingDemands", () => {
     const demands = new Map<string, number | null>([[bills[0]!.billId, 50], [bills[1]!.billId, 40]]);
     expect(analysedBillingDemands(bills, bills, demands)).toEqual([50, 40]);
     expect(analysedBillingDemands([bills[0]!], bills, demands)).toEqual([50]);
-    expect(analysedBillingDemands([{ ...bills[0]! }], bills, demands)).toBeNull(); // a corrected copy
+    expect(analysedBillingDemands([{ ...bills[0]!, demandKw: 45 }], bills, demands)).toBeNull(); // a corrected demand
+    expect(analysedBillingDemands([{ ...bills[0]!, usage: 90 }], bills, demands)).toBeNull(); // a corrected usage
+    expect(analysedBillingDemands([{ ...bills[0]!, total: 9 }], bills, demands)).toEqual([50]); // a corrected total alone: priced the same
     expect(analysedBillingDemands([bills[1]!], bills, demands)).toBeNull(); // the first analysed bill left out
     expect(analysedBillingDemands(bills, bills, new Map([[bills[0]!.billId, 50]]))).toBeNull(); // not priced
     expect(analysedBillingDemands(bills, undefined, demands)).toBeNull();
@@ -97,11 +118,12 @@ describe("analysedBillingDemands", () => {
     const tariff = tariffFrom(RATCHET_YAML);
     const m = meter({ tariffId: "t-ratchet" });
     const day = (d: number) => new Date(Date.UTC(2023, 0, 1) + d * 86_400_000).toISOString().slice(0, 10);
+    let hits = 0;
     const billArb = fc.record({ start: fc.integer({ min: 0, max: 700 }), days: fc.integer({ min: 20, max: 70 }), usage: fc.integer({ min: 0, max: 5000 }), kw: fc.integer({ min: 1, max: 400 }) });
     fc.assert(
       fc.property(
         fc.array(billArb, { minLength: 1, maxLength: 24 }),
-        fc.array(fc.record({ index: fc.nat(), kind: fc.constantFrom("demand", "remove", "add") }), { maxLength: 3 }),
+        fc.array(fc.record({ index: fc.nat(), kind: fc.constantFrom("demand", "total", "remove", "add") }), { maxLength: 3 }),
         fc.integer({ min: 0, max: 800 }),
         (specs, corrections, cutDay) => {
           const analysedBills: Bill[] = specs.map((s, i) => bill(day(s.start), day(s.start + s.days), s.usage, 0, { billId: `B${i}`, demandKw: s.kw }));
@@ -112,15 +134,40 @@ describe("analysedBillingDemands", () => {
           for (const c of corrections) {
             const i = c.index % corrected.length;
             if (c.kind === "demand") corrected[i] = { ...corrected[i]!, demandKw: (corrected[i]!.demandKw ?? 0) + 7 };
+            else if (c.kind === "total") corrected[i] = { ...corrected[i]!, total: corrected[i]!.total + 3 };
             else if (c.kind === "remove" && corrected.length > 1) corrected = corrected.filter((_, j) => j !== i);
             else if (c.kind === "add") corrected.push(bill(day(c.index % 700), day((c.index % 700) + 30), 10, 0, { billId: `gap:${c.index}`, demandKw: 99 }));
           }
           const known = billsKnownAt(corrected, day(cutDay));
           const fromAnalysis = analysedBillingDemands(known, analysedBills, pricing.billingDemandKw);
-          if (fromAnalysis !== null) expect(fromAnalysis).toEqual(recentBillingDemands(m, known, tariff, "UTC", undefined));
+          if (fromAnalysis !== null) {
+            hits++;
+            expect(fromAnalysis).toEqual(recentBillingDemands(m, known, tariff, "UTC", undefined));
+          }
         },
       ),
       { numRuns: 300, seed: 17 },
+    );
+    expect(hits).toBeGreaterThan(100);
+  });
+
+  it("pricing reads no bill field outside PRICING_FIELDS (so equal pricing fields price the same)", () => {
+    const tariff = tariffFrom(RATCHET_YAML);
+    const m = meter({ tariffId: "t-ratchet" });
+    fc.assert(
+      fc.property(
+        fc.array(fc.record({ start: fc.integer({ min: 0, max: 700 }), days: fc.integer({ min: 20, max: 70 }), usage: fc.integer({ min: 0, max: 5000 }), kw: fc.option(fc.integer({ min: 1, max: 400 })) }), { minLength: 1, maxLength: 12 }),
+        fc.record({ total: fc.double({ noNaN: true }), readType: fc.constantFrom("actual", "estimated"), statementDate: fc.option(fc.constant("2030-01-01")), line: fc.nat() }),
+        (specs, other) => {
+          const day = (d: number) => new Date(Date.UTC(2023, 0, 1) + d * 86_400_000).toISOString().slice(0, 10);
+          const bills = specs.map((s, i) => bill(day(s.start), day(s.start + s.days), s.usage, 100, { billId: `B${i}`, demandKw: s.kw }));
+          const changed = bills.map((b) => ({ ...b, total: other.total, readType: other.readType as Bill["readType"], statementDate: other.statementDate, source: { file: "elsewhere.csv", line: other.line } }));
+          expect(changed.every((b, i) => samePricingFields(b, bills[i]!))).toBe(true);
+          const price = (list: Bill[]) => priceMeterBills({ meter: m, bills: list, timezone: "UTC", series: undefined, price: (r) => priceBill(tariff, r) });
+          expect(price(changed)).toEqual(price(bills));
+        },
+      ),
+      { numRuns: 100, seed: 3 },
     );
   });
 });
