@@ -16,7 +16,7 @@ import { buildClaimSheets } from "./claimSheet.ts";
 import { billLinesByBill, buildMeterBillsPage, meterAnalysis } from "./meterBillsPage.ts";
 import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 import { groupBy } from "../core/groupBy.ts";
-import { buildingSlice, type BuildingSlice } from "./buildingSlice.ts";
+import { buildingSlice, sliceSource, type BuildingSlice } from "./buildingSlice.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
@@ -76,7 +76,7 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
   }));
 
   const linesByBill = billLinesByBill(portfolio.billLines);
-  const source = { input, billsByMeter, linesByBill, asOf };
+  const source = sliceSource(input, billsByMeter, linesByBill, asOf);
 
   const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({
     ...page,

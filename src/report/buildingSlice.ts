@@ -31,12 +31,34 @@ export interface BuildingSlice {
   input: ReportInput;
 }
 
-/** The parts of a whole input shared by every building's slice, grouped once per build. */
+/** The parts of a whole input shared by every building's slice, grouped once per build (sliceSource). */
 export interface SliceSource {
   input: ReportInput;
   billsByMeter: ReadonlyMap<string, Bill[]>;
   linesByBill: ReadonlyMap<string, BillLine[]>;
   asOf: string | null;
+  /** Bills and printed lines by building id, in file order. */
+  billsByBuilding: ReadonlyMap<string, Bill[]>;
+  linesByBuilding: ReadonlyMap<string, BillLine[]>;
+}
+
+/** The source of every building's slice (one pass over the bills and lines, not one per building). */
+export function sliceSource(input: ReportInput, billsByMeter: ReadonlyMap<string, Bill[]>, linesByBill: ReadonlyMap<string, BillLine[]>, asOf: string | null): SliceSource {
+  const { portfolio } = input;
+  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
+  const buildingOfBill = new Map(portfolio.bills.map((b) => [b.billId, buildingOfMeter.get(b.meterId)]));
+  const billsByBuilding = new Map<string, Bill[]>();
+  for (const b of portfolio.bills) push(billsByBuilding, buildingOfMeter.get(b.meterId), b);
+  const linesByBuilding = new Map<string, BillLine[]>();
+  for (const l of portfolio.billLines) push(linesByBuilding, buildingOfBill.get(l.billId), l);
+  return { input, billsByMeter, linesByBill, asOf, billsByBuilding, linesByBuilding };
+}
+
+function push<T>(map: Map<string, T[]>, key: string | undefined, value: T): void {
+  if (key === undefined) return;
+  const list = map.get(key);
+  if (list) list.push(value);
+  else map.set(key, [value]);
 }
 
 /**
@@ -63,8 +85,13 @@ export function buildingSlice(source: SliceSource, building: Building): Building
   }
   const ownMeter = (meterId: string | null | undefined) => meterId != null && meterIds.has(meterId);
   const ownBill = (billId: string | null | undefined) => billId != null && billIds.has(billId);
-  const mapOf = <V>(map: ReadonlyMap<string, V> | undefined, keep: (key: string) => boolean): Map<string, V> | undefined =>
-    map === undefined ? undefined : new Map([...map].filter(([k]) => keep(k)));
+  // Looked up by the building's own keys (its meters, its bills), in their order.
+  const mapOf = <V>(map: ReadonlyMap<string, V> | undefined, keys: Iterable<string>): Map<string, V> | undefined => {
+    if (map === undefined) return undefined;
+    const out = new Map<string, V>();
+    for (const k of keys) if (map.has(k)) out.set(k, map.get(k)!);
+    return out;
+  };
   const ofBuilding = <T extends { buildingId: string; meterId?: string | null }>(rows: readonly T[] | undefined): T[] | undefined =>
     rows?.filter((r) => r.buildingId === id || ownMeter(r.meterId));
   const ofMeters = <T extends { meterId: string }>(rows: readonly T[] | undefined): T[] | undefined => rows?.filter((r) => ownMeter(r.meterId));
@@ -73,9 +100,10 @@ export function buildingSlice(source: SliceSource, building: Building): Building
     settings: portfolio.settings,
     buildings: [building],
     meters,
-    bills: portfolio.bills.filter((b) => ownMeter(b.meterId)),
-    billLines: portfolio.billLines.filter((l) => ownBill(l.billId)),
-    intervals: mapOf(portfolio.intervals, ownMeter)!,
+    // A bill whose meter is not in meters.csv belongs to no building (as the pages see it).
+    bills: source.billsByBuilding.get(id) ?? [],
+    billLines: source.linesByBuilding.get(id) ?? [],
+    intervals: mapOf(portfolio.intervals, meterIds)!,
     weather: new Map(),
     normals: new Map(),
     tariffs: new Map(),
@@ -83,13 +111,13 @@ export function buildingSlice(source: SliceSource, building: Building): Building
   };
   const own: ReportInput = {
     portfolio: ownPortfolio,
-    priced: mapOf(input.priced, ownBill)!,
-    monthlyMetered: mapOf(input.monthlyMetered, ownMeter)!,
+    priced: mapOf(input.priced, billIds)!,
+    monthlyMetered: mapOf(input.monthlyMetered, meterIds)!,
     issues: [],
     buildDate: input.buildDate,
     buildDateKind: input.buildDateKind,
-    heatContentByMeter: mapOf(input.heatContentByMeter, ownMeter),
-    rejectedRowsByBuilding: mapOf(input.rejectedRowsByBuilding, (k) => k === id),
+    heatContentByMeter: mapOf(input.heatContentByMeter, meterIds),
+    rejectedRowsByBuilding: mapOf(input.rejectedRowsByBuilding, [id]),
     findings: input.findings?.filter((f) => f.buildingId === id || ownMeter(f.meterId) || ownBill(f.billId)),
     disputes: input.disputes?.filter((d) => d.buildingId === id || ownMeter(d.meterId) || d.billIds.some(ownBill) || d.bills.some((b) => ownBill(b.billId)) || d.relatedBillIds.some(ownBill)),
     models: ofMeters(input.models),

@@ -79,7 +79,7 @@ export interface PageReuse {
   reuse(path: string, key: string, stage: string): Promise<boolean>;
   /** Records a page rendered into `stage` (its key and the hash of the file written). */
   rendered(path: string, key: string, stage: string): Promise<void>;
-  /** The key of a group's input (any value contentHash reads: Map, typed arrays…) under this build's shared inputs. */
+  /** The key of a group's input (plain data contentHash reads: objects, arrays, Map, Set, typed arrays; no function) under this build's shared inputs. */
   groupKeyOf(input: unknown): string;
   /** Copies every page of `group` from the published site into `stage` when the group's key and all its files are unchanged; else copies none. */
   reuseGroup(group: string, key: string, stage: string): Promise<boolean>;
@@ -153,7 +153,10 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
       next[path] = { key, sha256: sha256(bytes), ...(await fileStat(target))! };
       renderedCount++;
     },
-    // A different prefix from page keys: a group key never equals a page key by construction.
+    // By content (contentHash: numbers by value, keys sorted), not by node:v8's bytes: those
+    // depend on how V8 happens to store a value (a number as a small integer or a double),
+    // which differs between a value computed and one read back from the analysis cache.
+    // A different prefix from page keys: the two never meet.
     groupKeyOf: (input) => createHash("sha256").update(base).update("group\0").update(contentHash(input)).digest("hex"),
     async reuseGroup(group, key, stage) {
       const before = previousGroups[group];
