@@ -166,9 +166,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       bills,
       billedBills: options.billedBills ? billsKnownAt(billsOfMeter(options.billedBills, meter.meterId), options.asOf) : undefined,
       intervals: series.get(meter.meterId) ?? null,
-      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined)
-        ? analysedBillingDemands(bills, options.analysed && billsOfMeter(options.analysed.bills, meter.meterId), options.analysed?.billingDemandKw) ?? recentBillingDemands(meter, bills, tariff!, building.timezone, series.get(meter.meterId))
-        : [],
+      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? ratchetHistory(portfolio, meter, bills, tariff!, building.timezone, series.get(meter.meterId), options.analysed) : [],
       loadShapeByHourOfWeek: shapeOf(meter),
       escalation: portfolio.settings.escalation[meter.commodity] ?? 0,
       scenarios: options.scenarios,
@@ -208,6 +206,41 @@ export function analysedBillingDemands(known: readonly Bill[], analysedBills: re
     if (d !== null && d !== undefined) demands.push(d);
   }
   return demands.slice(-12);
+}
+
+/**
+ * The billing demands of the last 12 of `known` (the meter's bills known at an origin, from
+ * `portfolio.bills`), oldest first: recentBillingDemands's numbers, read from the analysis's
+ * pricing or from the meter's bills priced once where that gives the very same numbers
+ * (analysedBillingDemands), priced again only where neither does. `series` is the meter's
+ * interval data as seen at the origin (readings before it).
+ */
+export function ratchetHistory(portfolio: Portfolio<Tariff>, meter: Meter, known: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined, analysed?: AnalysedPricing): number[] {
+  return analysedBillingDemands(known, analysed && billsOfMeter(analysed.bills, meter.meterId), analysed?.billingDemandKw)
+    ?? analysedBillingDemands(known, billsOfMeter(portfolio.bills, meter.meterId), pricedOnce(portfolio, meter, tariff, timezone))
+    ?? recentBillingDemands(meter, known, tariff, timezone, series);
+}
+
+/**
+ * Every bill of `meter` in `portfolio` priced once (billed basis, the meter's whole series),
+ * each one's billing demand by bill id: at every origin and in the forecast itself the known
+ * bills are mostly the first ones of that pricing order, so analysedBillingDemands reads their
+ * history from here instead of pricing them again (the same argument as for the analysis's
+ * pricing). Kept per portfolio object (the backtests and the forecast share one; no stage
+ * changes a portfolio once made).
+ */
+const pricedOnceByPortfolio = new WeakMap<Portfolio<Tariff>, Map<string, Map<string, number | null>>>();
+function pricedOnce(portfolio: Portfolio<Tariff>, meter: Meter, tariff: Tariff, timezone: string): Map<string, number | null> {
+  let byMeter = pricedOnceByPortfolio.get(portfolio);
+  if (!byMeter) pricedOnceByPortfolio.set(portfolio, (byMeter = new Map()));
+  let demands = byMeter.get(meter.meterId);
+  if (!demands) {
+    const bills = billsOfMeter(portfolio.bills, meter.meterId);
+    const priced = priceMeterBills({ meter, bills, timezone, series: portfolio.intervals.get(meter.meterId), price: (r) => priceBill(tariff, r), meteredBasis: false });
+    demands = new Map([...priced].map(([id, p]) => [id, p.computed?.billingDemandKw ?? null]));
+    byMeter.set(meter.meterId, demands);
+  }
+  return demands;
 }
 
 /** Billing demands of the last 12 bills (oldest first), from re-pricing the known bills in order. */

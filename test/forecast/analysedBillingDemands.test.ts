@@ -10,7 +10,10 @@ import fc from "fast-check";
 import { loadPortfolio } from "../../src/ingest/index.ts";
 import type { Bill, Portfolio } from "../../src/domain/types.ts";
 import { priceBill, priceMeterBills, samePricingFields, type PricedBill, type Tariff } from "../../src/tariff/index.ts";
-import { analysedBillingDemands, analysedPricing, billsKnownAt, recentBillingDemands } from "../../src/forecast/portfolioInputs.ts";
+import { analysedBillingDemands, analysedPricing, billsKnownAt, ratchetHistory, recentBillingDemands } from "../../src/forecast/portfolioInputs.ts";
+import { correctBills } from "../../src/forecast/correctedBills.ts";
+import { addDays, localMidnightMs } from "../../src/core/time/index.ts";
+import { lowerBound } from "../../src/core/sorted.ts";
 import { forecastWithTrackRecord } from "../../src/forecast/index.ts";
 import { addMonthsIso } from "../../src/core/time/index.ts";
 import { bill, meter, tariffFrom } from "./helpers.ts";
@@ -26,6 +29,27 @@ function pricedAsAnalysis(portfolio: Portfolio<Tariff>): Map<string, PricedBill>
     for (const [id, p] of out) priced.set(id, p);
   }
   return priced;
+}
+
+function demandMeters(portfolio: Portfolio<Tariff>) {
+  return portfolio.meters.filter((m) => portfolio.tariffs.get(m.tariffId)?.versions.some((v) => v.charges.some((c) => c.kind === "demand")));
+}
+
+/** The audit's corrections of each demand meter's bills, one of each kind: a total alone, a demand, a usage, a removal, an added gap bill. */
+function demoCorrections(portfolio: Portfolio<Tariff>) {
+  return demandMeters(portfolio).flatMap((m, k) => {
+    const mine = portfolio.bills.filter((b) => b.meterId === m.meterId);
+    const b = mine[10 + k]!;
+    const correction = { billId: b.billId as string | null, periodStart: b.periodStart, periodEnd: b.periodEnd, billedTotal: b.total, correctedTotal: b.total - 50, corrected: null, usage: null as number | null, demandKw: null as number | null, correctedOn: "billed" };
+    const variants = [
+      correction,
+      { ...correction, demandKw: (b.demandKw ?? 100) * 0.9 },
+      { ...correction, usage: b.usage * 0.95 },
+      { ...correction, correctedTotal: 0 },
+      { ...correction, billId: null, periodStart: "2025-12-20", periodEnd: "2025-12-31", billedTotal: 0, correctedTotal: 100, demandKw: 80 },
+    ];
+    return [{ severity: "warning", amountAtStake: 50, meterId: m.meterId, corrections: [variants[k % variants.length]!] }];
+  });
 }
 
 const RATCHET_YAML = `
@@ -52,50 +76,40 @@ describe("analysedBillingDemands", () => {
     priced = pricedAsAnalysis(portfolio);
   }, 120_000);
 
-  it("gives the re-priced ratchet history of every demo demand meter at every origin, and is used there", () => {
+  it("gives the re-priced ratchet history of every demo demand meter at every origin, with and without the audit's corrections", () => {
     const analysed = analysedPricing(portfolio.bills, priced)!;
     expect(analysed).toBeDefined();
-    let used = 0;
-    for (const m of portfolio.meters) {
-      const tariff = portfolio.tariffs.get(m.tariffId);
-      if (!tariff?.versions.some((v) => v.charges.some((c) => c.kind === "demand"))) continue;
-      const building = portfolio.buildings.find((b) => b.buildingId === m.buildingId)!;
-      const mine = portfolio.bills.filter((b) => b.meterId === m.meterId);
-      for (const k of [0, 1, 2, 3]) {
-        const cut = addMonthsIso("2025-12-31", -12 * k);
-        const known = billsKnownAt(mine, cut);
-        const fromAnalysis = analysedBillingDemands(known, mine, analysed.billingDemandKw);
-        const again = recentBillingDemands(m, known, tariff, building.timezone, portfolio.intervals.get(m.meterId));
-        if (fromAnalysis !== null) {
-          used++;
-          expect(fromAnalysis).toEqual(again);
+    let fromAnalysis = 0;
+    for (const corrections of [[], demoCorrections(portfolio)]) {
+      // The forecast's portfolio: bills as they should have been (correctedBills.ts).
+      const base: Portfolio<Tariff> = { ...portfolio, bills: correctBills(portfolio.bills, corrections).bills };
+      for (const m of demandMeters(portfolio)) {
+        const tariff = portfolio.tariffs.get(m.tariffId)!;
+        const building = portfolio.buildings.find((b) => b.buildingId === m.buildingId)!;
+        const mine = base.bills.filter((b) => b.meterId === m.meterId);
+        for (const k of [0, 1, 2, 3]) {
+          const cut = addMonthsIso("2025-12-31", -12 * k);
+          const known = billsKnownAt(mine, cut);
+          const untilMs = localMidnightMs(addDays(cut, 1), building.timezone);
+          const full = portfolio.intervals.get(m.meterId);
+          const n = full ? lowerBound(full.startMs, untilMs) : 0;
+          const series = full && n > 0 ? { ...full, startMs: full.startMs.subarray(0, n), values: full.values.subarray(0, n) } : undefined;
+          const again = recentBillingDemands(m, known, tariff, building.timezone, series);
+          expect(ratchetHistory(base, m, known, tariff, building.timezone, series, analysed)).toEqual(again);
+          expect(ratchetHistory(base, m, known, tariff, building.timezone, series)).toEqual(again);
+          if (analysedBillingDemands(known, portfolio.bills.filter((b) => b.meterId === m.meterId), analysed.billingDemandKw) !== null) fromAnalysis++;
         }
       }
     }
-    expect(used).toBeGreaterThan(8);
+    expect(fromAnalysis).toBeGreaterThan(8);
   });
 
-  it("leaves the demo's forecast, backtests and track record exactly as pricing again does", () => {
-    // The audit's corrections of each demand meter's bills: a total alone, a demand, a usage, a removal, an added gap bill.
-    const findings = portfolio.meters
-      .filter((m) => portfolio.tariffs.get(m.tariffId)?.versions.some((v) => v.charges.some((c) => c.kind === "demand")))
-      .flatMap((m, k) => {
-        const mine = portfolio.bills.filter((b) => b.meterId === m.meterId);
-        const b = mine[10 + k]!;
-        const correction = { billId: b.billId, periodStart: b.periodStart, periodEnd: b.periodEnd, billedTotal: b.total, correctedTotal: b.total - 50, corrected: null, usage: null, demandKw: null, correctedOn: "billed" };
-        const variants = [
-          correction,
-          { ...correction, demandKw: (b.demandKw ?? 100) * 0.9 },
-          { ...correction, usage: b.usage * 0.95 },
-          { ...correction, correctedTotal: 0 },
-          { ...correction, billId: null, periodStart: "2025-12-20", periodEnd: "2025-12-31", billedTotal: 0, correctedTotal: 100, demandKw: 80 },
-        ];
-        return [{ severity: "warning", amountAtStake: 50, meterId: m.meterId, corrections: [variants[k % variants.length]!] }];
-      });
+  it("leaves the demo's forecast, backtests and track record the same with the analysis's pricing as without (with corrections too)", () => {
+    const findings = demoCorrections(portfolio);
     expect(findings.length).toBeGreaterThan(4);
     for (const f of [[], findings]) {
       const without = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12, scenarios: 40, findings: f });
-      const withAnalysed = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12, scenarios: 40, findings: f, analysed: analysedPricing(portfolio.bills, priced) });
+        const withAnalysed = forecastWithTrackRecord(portfolio, { asOf: "2025-12-31", months: 12, scenarios: 40, findings: f, analysed: analysedPricing(portfolio.bills, priced) });
       expect(withAnalysed).toEqual(without);
     }
   }, 180_000);
@@ -119,6 +133,7 @@ describe("analysedBillingDemands", () => {
     const m = meter({ tariffId: "t-ratchet" });
     const day = (d: number) => new Date(Date.UTC(2023, 0, 1) + d * 86_400_000).toISOString().slice(0, 10);
     let hits = 0;
+    let onceHits = 0;
     const billArb = fc.record({ start: fc.integer({ min: 0, max: 700 }), days: fc.integer({ min: 20, max: 70 }), usage: fc.integer({ min: 0, max: 5000 }), kw: fc.integer({ min: 1, max: 400 }) });
     fc.assert(
       fc.property(
@@ -140,15 +155,24 @@ describe("analysedBillingDemands", () => {
           }
           const known = billsKnownAt(corrected, day(cutDay));
           const fromAnalysis = analysedBillingDemands(known, analysedBills, pricing.billingDemandKw);
+          const again = recentBillingDemands(m, known, tariff, "UTC", undefined);
           if (fromAnalysis !== null) {
             hits++;
-            expect(fromAnalysis).toEqual(recentBillingDemands(m, known, tariff, "UTC", undefined));
+            expect(fromAnalysis).toEqual(again);
+          }
+          // The corrected bills priced once (portfolioInputs.ts pricedOnce): the known ones are mostly their first.
+          const pricedCorrected = priceMeterBills({ meter: m, bills: corrected, timezone: "UTC", series: undefined, price: (r) => priceBill(tariff, r), meteredBasis: false });
+          const once = analysedBillingDemands(known, corrected, analysedPricing(corrected, pricedCorrected)?.billingDemandKw);
+          if (once !== null) {
+            onceHits++;
+            expect(once).toEqual(again);
           }
         },
       ),
       { numRuns: 300, seed: 17 },
     );
     expect(hits).toBeGreaterThan(100);
+    expect(onceHits).toBeGreaterThan(hits);
   });
 
   it("pricing reads no bill field outside PRICING_FIELDS (so equal pricing fields price the same)", () => {
