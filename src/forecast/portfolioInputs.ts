@@ -115,6 +115,26 @@ function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): Interv
   return n === 0 ? undefined : { ...s, startMs: s.startMs.subarray(0, n), values: s.values.subarray(0, n) };
 }
 
+/**
+ * weatherYears of a station's series cut at `untilMs`, made once per series, zone, unit and cut:
+ * the buildings on one station ask for the same years at every origin. Frozen, as they are
+ * shared by every meter's input (a change would throw, not leak into another meter).
+ */
+const weatherYearsByStation = new WeakMap<WeatherSeries, Map<string, WeatherYear[]>>();
+function weatherYearsOnce(station: WeatherSeries | undefined, cut: WeatherSeries | undefined, zone: string, unit: "C" | "F", untilMs: number): WeatherYear[] {
+  if (!station) return weatherYears(cut, zone, unit, untilMs);
+  let byCut = weatherYearsByStation.get(station);
+  if (!byCut) weatherYearsByStation.set(station, (byCut = new Map()));
+  const key = `${zone}\0${unit}\0${untilMs}`;
+  let years = byCut.get(key);
+  if (!years) {
+    years = weatherYears(cut, zone, unit, untilMs);
+    for (const y of years) Object.freeze(Object.freeze(y).monthlyTemp);
+    byCut.set(key, Object.freeze(years) as WeatherYear[]);
+  }
+  return years;
+}
+
 function hasRatchetOrDemand(tariff: Tariff | undefined): boolean {
   return !!tariff?.versions.some((v) => v.charges.some((c) => c.kind === "demand"));
 }
@@ -130,7 +150,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   const tempUnit = portfolio.settings.degreeDayBase.unit;
   const weather = weatherBefore(portfolio.weather.get(building.weatherStation), untilMs);
   const normals = portfolio.normals.get(building.weatherStation);
-  const years: WeatherYear[] = weatherYears(weather, building.timezone, tempUnit, untilMs);
+  const years = weatherYearsOnce(portfolio.weather.get(building.weatherStation), weather, building.timezone, tempUnit, untilMs);
   const normalsC = normals ? typicalMonthlyTempC(normals, building.timezone) : null;
   const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? cToF(t) : t)) : null;
   const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
