@@ -40,7 +40,7 @@
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { meterPricingContexts, meterScenarioSetup, DEFAULT_SCENARIOS, type MeterForecastInput } from "./forecastMeter.ts";
-import { buildingForecastInputs } from "./portfolioInputs.ts";
+import { buildingForecastInputs, type AnalysedPricing } from "./portfolioInputs.ts";
 import { priceForecastMonth } from "./priceMonth.ts";
 import { bandOf, p50Of } from "./quantiles.ts";
 import { monthColumn } from "./scenarioMatrix.ts";
@@ -160,6 +160,8 @@ export interface BacktestOptions {
    * a rebuild prices only the meters whose inputs changed. Default: none.
    */
   memo?: Memo;
+  /** The analysis's pricing, for the ratchet history (ForecastRunOptions.analysed). */
+  analysed?: AnalysedPricing;
 }
 
 /**
@@ -315,7 +317,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   // Inputs per origin (refitted on the truncated data), and the months each meter is judged on.
   const perOrigin = origins.map((cut) => {
     const inputs = portfolio.buildings.flatMap((b) =>
-      buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed, memo: options.memo }),
+      buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed, memo: options.memo, analysed: options.analysed }),
     );
     const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts>; drawn: { noise?: ScenarioNoise }; key?: string }[] = [];
     for (const input of inputs) {

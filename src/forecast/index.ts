@@ -5,7 +5,7 @@
  */
 export { forecastMeter, DEFAULT_SCENARIOS, DEFAULT_SEED, type MeterForecastInput, type MeterForecast, type MonthForecast } from "./forecastMeter.ts";
 export { forecastPortfolio, type PortfolioForecast, type BuildingForecast } from "./forecastPortfolio.ts";
-export { buildingForecastInputs, billsKnownAt, type ForecastRunOptions } from "./portfolioInputs.ts";
+export { analysedPricing, buildingForecastInputs, billsKnownAt, type AnalysedPricing, type ForecastRunOptions } from "./portfolioInputs.ts";
 export { forecastRows, buildingCostBand, buildingMonthlyCostBands, type ForecastRow } from "./rollup.ts";
 export { trackRecord, trackRecordFromBacktest, backtestInputs, backtestAsOf, compareWithActuals, actualMonthlyCost, naiveSameMonthLastYear, pooledAccuracy,
   type TrackRecord, type MeterTrackRecord, type AccuracySummary, type MonthComparison, type TrackRecordOptions } from "./trackRecord.ts";

@@ -8,7 +8,7 @@ import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } 
 import type { Tariff } from "../tariff/index.ts";
 import { priceBill } from "../tariff/index.ts";
 import { fitForecastBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
-import { priceMeterBills } from "../tariff/index.ts";
+import { priceMeterBills, samePricingFields } from "../tariff/index.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
@@ -47,6 +47,32 @@ export interface ForecastRunOptions {
    * so a rebuild prices only the meters whose inputs changed. Default: none.
    */
   memo?: Memo;
+  /**
+   * The analysis's billed-basis pricing of the portfolio's bills as read (before the audit's
+   * corrections), so the ratchet history need not be priced again at every origin: used for a
+   * meter only where it gives the very numbers re-pricing would (see `analysedBillingDemands`).
+   */
+  analysed?: AnalysedPricing;
+}
+
+/** Bills as the analysis priced them and each one's billing demand (kW; null when none or not priced). */
+export interface AnalysedPricing {
+  /** The portfolio's bills before corrections, in file order. */
+  bills: readonly Bill[];
+  /** Bill id → the billed-basis recomputation's billing demand; absent = not priced by the analysis. */
+  billingDemandKw: ReadonlyMap<string, number | null>;
+}
+
+/**
+ * The analysis's pricing in the form `analysed` takes: each bill's billed-basis billing demand.
+ * Undefined when bill ids repeat in `bills` (the analysis's results are keyed by id, so a
+ * repeated id could read another bill's result).
+ */
+export function analysedPricing(bills: readonly Bill[], priced: ReadonlyMap<string, { computed: { billingDemandKw: number | null } | null }>): AnalysedPricing | undefined {
+  if (new Set(bills.map((b) => b.billId)).size !== bills.length) return undefined;
+  const billingDemandKw = new Map<string, number | null>();
+  for (const [id, p] of priced) billingDemandKw.set(id, p.computed?.billingDemandKw ?? null);
+  return { bills, billingDemandKw };
 }
 
 /** Bills whose period ends by the day after `asOf` (the ingest rule for as_of). */
@@ -89,6 +115,26 @@ function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): Interv
   return n === 0 ? undefined : { ...s, startMs: s.startMs.subarray(0, n), values: s.values.subarray(0, n) };
 }
 
+/**
+ * weatherYears of a station's series cut at `untilMs`, made once per series, zone, unit and cut:
+ * the buildings on one station ask for the same years at every origin. Frozen, as they are
+ * shared by every meter's input (a change would throw, not leak into another meter).
+ */
+const weatherYearsByStation = new WeakMap<WeatherSeries, Map<string, WeatherYear[]>>();
+function weatherYearsOnce(station: WeatherSeries | undefined, cut: WeatherSeries | undefined, zone: string, unit: "C" | "F", untilMs: number): WeatherYear[] {
+  if (!station) return weatherYears(cut, zone, unit, untilMs);
+  let byCut = weatherYearsByStation.get(station);
+  if (!byCut) weatherYearsByStation.set(station, (byCut = new Map()));
+  const key = `${zone}\0${unit}\0${untilMs}`;
+  let years = byCut.get(key);
+  if (!years) {
+    years = weatherYears(cut, zone, unit, untilMs);
+    for (const y of years) Object.freeze(Object.freeze(y).monthlyTemp);
+    byCut.set(key, Object.freeze(years) as WeatherYear[]);
+  }
+  return years;
+}
+
 function hasRatchetOrDemand(tariff: Tariff | undefined): boolean {
   return !!tariff?.versions.some((v) => v.charges.some((c) => c.kind === "demand"));
 }
@@ -104,7 +150,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   const tempUnit = portfolio.settings.degreeDayBase.unit;
   const weather = weatherBefore(portfolio.weather.get(building.weatherStation), untilMs);
   const normals = portfolio.normals.get(building.weatherStation);
-  const years: WeatherYear[] = weatherYears(weather, building.timezone, tempUnit, untilMs);
+  const years = weatherYearsOnce(portfolio.weather.get(building.weatherStation), weather, building.timezone, tempUnit, untilMs);
   const normalsC = normals ? typicalMonthlyTempC(normals, building.timezone) : null;
   const normalsMonthlyTemp = normalsC ? normalsC.map((t) => (tempUnit === "F" ? cToF(t) : t)) : null;
   const meters = portfolio.meters.filter((m) => m.buildingId === building.buildingId);
@@ -140,7 +186,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       bills,
       billedBills: options.billedBills ? billsKnownAt(billsOfMeter(options.billedBills, meter.meterId), options.asOf) : undefined,
       intervals: series.get(meter.meterId) ?? null,
-      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? recentBillingDemands(meter, bills, tariff!, building.timezone, series.get(meter.meterId)) : [],
+      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? ratchetHistory(portfolio, meter, bills, tariff!, building.timezone, series.get(meter.meterId), options.analysed) : [],
       loadShapeByHourOfWeek: shapeOf(meter),
       escalation: portfolio.settings.escalation[meter.commodity] ?? 0,
       scenarios: options.scenarios,
@@ -151,10 +197,76 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
   });
 }
 
+/** Bills in pricing order (priceMeterBills: period start, then bill id). */
+function pricingOrder(bills: readonly Bill[]): Bill[] {
+  return [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
+}
+
+/**
+ * `recentBillingDemands` read from the analysis's pricing instead of pricing again, or null when
+ * that could differ. Pricing a bill reads only its own period's intervals (the same in the
+ * series cut at the origin), its own pricing fields (PRICING_FIELDS) and the billing demands of
+ * the bills before it in pricing order, so when the known bills are, field for field, the first
+ * bills of the meter's pricing order as the analysis priced them (no correction of usage or
+ * demand, removal or addition among them, none of the analysed ones ordered between them left
+ * out; a corrected total alone changes nothing pricing reads), each one's billing demand is the
+ * analysis's. Bill ids must be unique within the meter (results are keyed by id) and every known
+ * bill priced.
+ * @example analysedBillingDemands(known, analysedBillsOfMeter, demandsById) // [412.5, 430, …] or null
+ */
+export function analysedBillingDemands(known: readonly Bill[], analysedBills: readonly Bill[] | undefined, billingDemandKw: ReadonlyMap<string, number | null> | undefined): number[] | null {
+  if (!analysedBills || !billingDemandKw || known.length > analysedBills.length) return null;
+  const ordered = pricingOrder(known);
+  const all = pricingOrder(analysedBills);
+  if (new Set(all.map((b) => b.billId)).size !== all.length) return null;
+  const demands: number[] = [];
+  for (let i = 0; i < ordered.length; i++) {
+    if (!samePricingFields(ordered[i]!, all[i]!) || !billingDemandKw.has(ordered[i]!.billId)) return null;
+    const d = billingDemandKw.get(ordered[i]!.billId);
+    if (d !== null && d !== undefined) demands.push(d);
+  }
+  return demands.slice(-12);
+}
+
+/**
+ * The billing demands of the last 12 of `known` (the meter's bills known at an origin, from
+ * `portfolio.bills`), oldest first: recentBillingDemands's numbers, read from the analysis's
+ * pricing or from the meter's bills priced once where that gives the very same numbers
+ * (analysedBillingDemands), priced again only where neither does. `series` is the meter's
+ * interval data as seen at the origin (readings before it).
+ */
+export function ratchetHistory(portfolio: Portfolio<Tariff>, meter: Meter, known: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined, analysed?: AnalysedPricing): number[] {
+  return analysedBillingDemands(known, analysed && billsOfMeter(analysed.bills, meter.meterId), analysed?.billingDemandKw)
+    ?? analysedBillingDemands(known, billsOfMeter(portfolio.bills, meter.meterId), pricedOnce(portfolio, meter, tariff, timezone))
+    ?? recentBillingDemands(meter, known, tariff, timezone, series);
+}
+
+/**
+ * Every bill of `meter` in `portfolio` priced once (billed basis, the meter's whole series),
+ * each one's billing demand by bill id: at every origin and in the forecast itself the known
+ * bills are mostly the first ones of that pricing order, so analysedBillingDemands reads their
+ * history from here instead of pricing them again (the same argument as for the analysis's
+ * pricing). Kept per portfolio object (the backtests and the forecast share one; no stage
+ * changes a portfolio once made).
+ */
+const pricedOnceByPortfolio = new WeakMap<Portfolio<Tariff>, Map<string, Map<string, number | null>>>();
+function pricedOnce(portfolio: Portfolio<Tariff>, meter: Meter, tariff: Tariff, timezone: string): Map<string, number | null> {
+  let byMeter = pricedOnceByPortfolio.get(portfolio);
+  if (!byMeter) pricedOnceByPortfolio.set(portfolio, (byMeter = new Map()));
+  let demands = byMeter.get(meter.meterId);
+  if (!demands) {
+    const bills = billsOfMeter(portfolio.bills, meter.meterId);
+    const priced = priceMeterBills({ meter, bills, timezone, series: portfolio.intervals.get(meter.meterId), price: (r) => priceBill(tariff, r), meteredBasis: false });
+    demands = new Map([...priced].map(([id, p]) => [id, p.computed?.billingDemandKw ?? null]));
+    byMeter.set(meter.meterId, demands);
+  }
+  return demands;
+}
+
 /** Billing demands of the last 12 bills (oldest first), from re-pricing the known bills in order. */
-function recentBillingDemands(meter: Meter, bills: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined): number[] {
+export function recentBillingDemands(meter: Meter, bills: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined): number[] {
   const priced = priceMeterBills({ meter, bills, timezone, series, price: (r) => priceBill(tariff, r), meteredBasis: false });
-  const ordered = [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
+  const ordered = pricingOrder(bills);
   const demands: number[] = [];
   for (const b of ordered) {
     const d = priced.get(b.billId)?.computed?.billingDemandKw;

@@ -11,6 +11,7 @@ import { rollingBacktest, MIN_TRACK_RECORD_MONTHS, type RollingBacktest } from "
 import { forecastPortfolio, type PortfolioForecast } from "./forecastPortfolio.ts";
 import { trackRecordFromBacktest, type TrackRecord } from "./trackRecord.ts";
 import type { Memo } from "../core/memo.ts";
+import type { AnalysedPricing } from "./portfolioInputs.ts";
 
 export interface CalibrationResult {
   /** Noise factor of the forecast for meters with a track record (1 = the model's own band). */
@@ -50,11 +51,13 @@ export function forecastWithTrackRecord(
     findings?: readonly (MoneyFindingLike & { meterId: string })[];
     /** Keeps each meter's backtest paths and forecast between builds (see rollingBacktest, forecastPortfolio). */
     memo?: Memo;
+    /** The analysis's pricing of `portfolio.bills` (analysedPricing), so the ratchet history is not priced again. */
+    analysed?: AnalysedPricing;
   },
 ): ForecastBundle {
   const corrected = correctBills(portfolio.bills, options.findings ?? []);
   const base: Portfolio<Tariff> = { ...portfolio, bills: corrected.bills };
-  const backtest = rollingBacktest(base, { asOf: options.asOf, scenarios: options.scenarios, seed: options.seed, memo: options.memo });
+  const backtest = rollingBacktest(base, { asOf: options.asOf, scenarios: options.scenarios, seed: options.seed, memo: options.memo, analysed: options.analysed });
   const calibrationByMeter = new Map(
     portfolio.meters.map((m) => [m.meterId, backtest.calibrated && (backtest.monthsOfBills.get(m.meterId) ?? 0) >= MIN_TRACK_RECORD_MONTHS ? backtest.factor : 1]),
   );
@@ -70,6 +73,7 @@ export function forecastWithTrackRecord(
     calibrationByMeter,
     billedBills: portfolio.bills,
     memo: options.memo,
+    analysed: options.analysed,
   });
   const chosen = backtest.coverageByFactor.find((c) => c.factor === backtest.factor);
   const calibration: CalibrationResult = {

@@ -23,7 +23,7 @@ import { dataFileEntries } from "../report/index.ts";
 import { collectGarbage } from "../core/collectGarbage.ts";
 import { oneShot } from "../core/oneShot.ts";
 import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
-import { forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
+import { analysedPricing, forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, SiteWriteError, startClientBundle, writeSite, type EarlyBundle } from "../site/index.ts";
@@ -166,7 +166,7 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
 
   collectGarbage();
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
-  let forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined);
+  let forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined, priced);
 
   collectGarbage();
   reporter.stage(`Writing the site to ${options.outDir}`);
@@ -213,12 +213,14 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
  * across buildings). A failure here costs the forecast, never the rest of the site: it becomes a
  * warning and the pages say no forecast was made.
  */
-function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow, memo?: Memo): ForecastBundle | null {
+function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow, memo?: Memo, priced?: ReadonlyMap<string, PricedBill>): ForecastBundle | null {
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
   try {
-    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo });
+    // The ratchet history reads the analysis's pricing where it is the same as pricing again (portfolioInputs.ts).
+    const analysed = priced ? analysedPricing(portfolio.bills, priced) : undefined;
+    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo, analysed });
   } catch (error) {
     issues.push({
       file: "portfolio.yaml",

@@ -16,6 +16,7 @@ import { buildClaimSheets } from "./claimSheet.ts";
 import { billLinesByBill, buildMeterBillsPage, meterAnalysis } from "./meterBillsPage.ts";
 import { DEFAULT_HEAT_CONTENT_THERM_PER_CCF } from "../core/units.ts";
 import { groupBy } from "../core/groupBy.ts";
+import { buildingSlice, sliceSource, type BuildingSlice } from "./buildingSlice.ts";
 
 /**
  * Turns pipeline results into the view models of every page: index, one page per building
@@ -39,6 +40,13 @@ export interface SiteModelInParts {
    * in buildings.csv order: concatenated over consecutive ranges they equal buildSiteModel's.
    */
   pagesOf(from: number, to: number): Pick<SiteModel, "buildings" | "meterBills" | "tenants">;
+  /**
+   * Everything the pages of building `index` (buildings.csv order) are made from
+   * (buildingSlice.ts): equal slices give equal pages. Plain data, for a content hash.
+   */
+  sliceOf(index: number): BuildingSlice;
+  /** The pages of one building made from its slice (what pagesOf gives for that building). */
+  pagesOfSlice(slice: BuildingSlice): Pick<SiteModel, "buildings" | "meterBills" | "tenants">;
 }
 
 /**
@@ -68,6 +76,7 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
   }));
 
   const linesByBill = billLinesByBill(portfolio.billLines);
+  const source = sliceSource(input, billsByMeter, linesByBill, asOf);
 
   const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({
     ...page,
@@ -101,17 +110,38 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
     shell,
     buildingCount: contexts.length,
     pagesOf(from, to) {
-      const slice = contexts.slice(from, to);
-      // Each meter's baseline and quality sections: verdicts on the building page, detail on the meter page.
-      const analyses = slice.map((ctx) => meterAnalysis(input, ctx));
-      return {
-        buildings: slice.map((ctx, i) => withCanonical(buildBuildingPage(input, ctx, analyses[i]))),
-        meterBills: slice.flatMap((ctx, i) => ctx.meters.map((m) => withCanonical(buildMeterBillsPage(input, ctx, m, analyses[i], linesByBill)))),
-        tenants: slice
-          .filter((ctx) => ctx.building.tenantPage)
-          .map((ctx) => withCanonical(buildTenantPage(ctx.building, ctx.meters, billsByMeter, input.baselines, settings.contacts?.[ctx.building.buildingId] ?? null))),
-      };
+      const pages = contexts.slice(from, to).map((ctx) => pagesOfSlice(buildingSlice(source, ctx.building)));
+      return { buildings: pages.flatMap((p) => p.buildings), meterBills: pages.flatMap((p) => p.meterBills), tenants: pages.flatMap((p) => p.tenants) };
     },
+    sliceOf: (index) => buildingSlice(source, contexts[index]!.building),
+    pagesOfSlice,
+  };
+}
+
+/**
+ * The pages of one building, made from its slice alone (never from the whole input: the slice
+ * is their key, buildingSlice.ts). Page links need only the slice's settings.
+ */
+export function pagesOfSlice(slice: BuildingSlice): Pick<SiteModel, "buildings" | "meterBills" | "tenants"> {
+  const { input, building } = slice;
+  const { settings } = input.portfolio;
+  const heat = input.heatContentByMeter;
+  const ctx: BuildingContext = {
+    building,
+    meters: slice.meters,
+    billsByMeter: slice.billsByMeter,
+    asOf: slice.asOf,
+    heatContentOf: (m) => heat?.get(m.meterId) ?? DEFAULT_HEAT_CONTENT_THERM_PER_CCF,
+    currency: settings.currency,
+    forecastMethod: slice.forecastMethod,
+  };
+  const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({ ...page, canonical: canonicalFor(settings.basePath, page.path) });
+  // Each meter's baseline and quality sections: verdicts on the building page, detail on the meter page.
+  const analysis = meterAnalysis(input, ctx);
+  return {
+    buildings: [withCanonical(buildBuildingPage(input, ctx, analysis))],
+    meterBills: ctx.meters.map((m) => withCanonical(buildMeterBillsPage(input, ctx, m, analysis, slice.linesByBill))),
+    tenants: building.tenantPage ? [withCanonical(buildTenantPage(building, ctx.meters, slice.billsByMeter, input.baselines, settings.contacts?.[building.buildingId] ?? null))] : [],
   };
 }
 

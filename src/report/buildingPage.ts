@@ -15,7 +15,7 @@ import { billsTable, claimsByBill } from "./billTables.ts";
 import { commodityCharts } from "./usageCharts.ts";
 import { findingsTable, forecastTable, modelsTable } from "./analysisTables.ts";
 import { weatherQualityTable } from "./qualitySection.ts";
-import { forecastSection } from "./forecastSection.ts";
+import { forecastMethodShown, forecastSection } from "./forecastSection.ts";
 import { tenantPath } from "./tenantPage.ts";
 import { meterAnalysis, type MeterAnalysis } from "./meterBillsPage.ts";
 
@@ -32,6 +32,8 @@ export interface BuildingContext {
   /** Therm per ccf for a gas meter (its tariff's heat content, else 1.037). */
   heatContentOf: (meter: Meter) => number;
   currency: string;
+  /** The forecast method as this building's page shows it (forecastMethodShown), when the caller made it already. */
+  forecastMethod?: ReturnType<typeof forecastMethodShown>;
 }
 
 /**
@@ -106,7 +108,7 @@ export function buildBuildingPage(input: ReportInput, ctx: BuildingContext, sect
     qualityTable: qualityTable(meters, analysis),
     weatherQualityTable: weatherQualityTable(b, input.weatherDetections, input.portfolio.settings.weatherMaxGapHours),
     weatherQualityNote: `Gaps of up to ${formatNumber(input.portfolio.settings.weatherMaxGapHours)} hours are filled by straight-line interpolation between the hours on either side; longer gaps are left missing, so no temperature is made up for them.`,
-    forecast: forecastSection(b.buildingId, meters, input, currency),
+    forecast: forecastSection(b.buildingId, meters, input, currency, ctx.forecastMethod),
     // Relative from buildings/<id>.html to buildings/<id>/tenant.html.
     tenantHref: b.tenantPage ? tenantPath(b.buildingId).slice("buildings/".length) : null,
   };

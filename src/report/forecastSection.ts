@@ -57,9 +57,9 @@ function pct(v: number | null, digits = 1): string {
  * How the forecast was made, in sentences and two tables: the weather basis chosen by the
  * rolling-origin backtests (every basis scored), and each origin's model-vs-naive figures with
  * its out-of-sample coverage. Null when the forecast stage did not run.
- * @example methodOf(input, meters)?.sentences[0] // "Typical weather: the mean of the most recent 10 years …"
+ * @example forecastMethodShown(input, meters)?.sentences[0] // "Typical weather: the mean of the most recent 10 years …"
  */
-function methodOf(input: ReportInput, meters: Meter[]): { sentences: string[]; tables: TableModel[] } | null {
+export function forecastMethodShown(input: Pick<ReportInput, "forecastMethod">, meters: readonly Meter[]): { sentences: string[]; tables: TableModel[] } | null {
   const m = input.forecastMethod;
   if (!m) return null;
   const ids = new Set(meters.map((x) => x.meterId));
@@ -334,7 +334,14 @@ export function escalationSentences(settings: Pick<PortfolioSettings, "escalatio
  * present, otherwise from summing the monthly rows (then the range is the wider sum of
  * per-month percentiles, and the page says so).
  */
-export function forecastSection(buildingId: string, meters: Meter[], input: ReportInput, currency: string): ForecastSection | null {
+export function forecastSection(
+  buildingId: string,
+  meters: Meter[],
+  input: ReportInput,
+  currency: string,
+  /** forecastMethodShown(input, meters) when the caller made it already (a building slice carries it). */
+  methodShown?: ReturnType<typeof forecastMethodShown>,
+): ForecastSection | null {
   const detail = input.buildingForecasts?.find((b) => b.buildingId === buildingId && b.monthly.length > 0) ?? null;
   const chart = detail ? forecastChart(buildingId, detail, currency) : null;
   const monthlyTable = chart ? chart.table : forecastTable(buildingId, input, currency);
@@ -354,7 +361,7 @@ export function forecastSection(buildingId: string, meters: Meter[], input: Repo
   }
   const commodities = [...new Set(meters.map((m) => m.commodity))];
   const drivers = detail?.drivers ?? null;
-  const method = methodOf(input, meters);
+  const method = methodShown !== undefined ? methodShown : forecastMethodShown(input, meters);
   return {
     summary,
     chart,

@@ -2,6 +2,7 @@
  * Maps the pipeline's results onto the report stage's input (src/report/input.ts): plain data,
  * nothing computed here that a page shows without a source in the pipeline.
  */
+import { groupBy } from "../core/groupBy.ts";
 import type { Dispute } from "../disputes/index.ts";
 import type { InputIssue } from "../core/issues.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
@@ -202,7 +203,8 @@ export function buildingForecastDetail(b: BuildingForecast, bills: readonly Bill
  */
 function lastYearCosts(priced: readonly MeterForecast[], bills: readonly Bill[], asOf: string, months: readonly string[]): (number | null)[] {
   if (priced.length === 0) return months.map(() => null);
-  const perMeter = priced.map((m) => actualMonthlyCost(bills.filter((x) => x.meterId === m.meterId), asOf));
+  const byMeter = billsByMeterOf(bills);
+  const perMeter = priced.map((m) => actualMonthlyCost(byMeter.get(m.meterId) ?? [], asOf));
   return months.map((month) => {
     const last = shiftMonth(month, -12);
     let sum = 0;
@@ -213,6 +215,17 @@ function lastYearCosts(priced: readonly MeterForecast[], bills: readonly Bill[],
     }
     return sum;
   });
+}
+
+/**
+ * Bills grouped by meter in file order, once per bill list (every building asks; filtering the
+ * whole list for each meter grew with meters × bills). Keyed by the list, which no stage changes.
+ */
+const byMeterOfBills = new WeakMap<readonly Bill[], Map<string, Bill[]>>();
+function billsByMeterOf(bills: readonly Bill[]): Map<string, Bill[]> {
+  let byMeter = byMeterOfBills.get(bills);
+  if (!byMeter) byMeterOfBills.set(bills, (byMeter = groupBy(bills, (b) => b.meterId)));
+  return byMeter;
 }
 
 function commodityOrder(a: string, b: string): number {

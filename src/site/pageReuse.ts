@@ -15,6 +15,12 @@
  * hashed. A reused page is hard-linked into the new site (copied where links are refused), so
  * it keeps its inode and time and the next build again need not read it. The reused site is
  * byte-identical to a full render (test/site/pageReuse.test.ts).
+ *
+ * A group of pages made from one input (a building's pages from its slice of the report input,
+ * src/report/buildingSlice.ts) can also be reused whole, before its view models are made: the
+ * manifest records the group's key (the content hash of that input, under the same shared
+ * inputs) and its pages; when the key matches and every page of the group still holds its
+ * recorded bytes, all are reused, else none is (and each page is then keyed as above).
  */
 import { createHash } from "node:crypto";
 import { copyFile, link, mkdir, readFile, rename, rm, stat, writeFile } from "node:fs/promises";
@@ -22,13 +28,15 @@ import { dirname, join } from "node:path";
 import { contentHash, hashFolder } from "../core/contentHash.ts";
 
 /** Bump when the manifest's format or the key's recipe changes. */
-const FORMAT = "ohmbook-page-cache/2";
+const FORMAT = "ohmbook-page-cache/3";
 const MANIFEST = "pages.json";
 
 interface Manifest {
   format: string;
   /** Site-relative path → the page's key, the SHA-256 of the file published and its stat. */
   pages: Record<string, PageRecord>;
+  /** Group name → the key of the input its pages are made from, and their site-relative paths. */
+  groups: Record<string, { key: string; paths: string[] }>;
 }
 
 interface PageRecord {
@@ -71,6 +79,12 @@ export interface PageReuse {
   reuse(path: string, key: string, stage: string): Promise<boolean>;
   /** Records a page rendered into `stage` (its key and the hash of the file written). */
   rendered(path: string, key: string, stage: string): Promise<void>;
+  /** The key of a group's input (plain data contentHash reads: objects, arrays, Map, Set, typed arrays; no function) under this build's shared inputs. */
+  groupKeyOf(input: unknown): string;
+  /** Copies every page of `group` from the published site into `stage` when the group's key and all its files are unchanged; else copies none. */
+  reuseGroup(group: string, key: string, stage: string): Promise<boolean>;
+  /** Records that `paths` (each already rendered or reused by this build) are the pages of `group`, made from an input of key `key`. */
+  madeGroup(group: string, key: string, paths: readonly string[]): void;
   /** Writes the manifest of this build's pages (after the site is published). */
   save(): Promise<void>;
   readonly reused: number;
@@ -90,13 +104,18 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
   hashFolder(hash, options.contentDir, /./);
   const base = hash.update(contentHash(options.shared)).digest("hex");
   let previous: Manifest["pages"] = {};
+  let previousGroups: Manifest["groups"] = {};
   try {
     const m = JSON.parse(await readFile(join(cacheDir, MANIFEST), "utf8")) as Manifest;
-    if (m.format === FORMAT && m.pages && typeof m.pages === "object") previous = m.pages;
+    if (m.format === FORMAT && m.pages && typeof m.pages === "object" && m.groups && typeof m.groups === "object") {
+      previous = m.pages;
+      previousGroups = m.groups;
+    }
   } catch {
     // no manifest yet, or unreadable: every page is rendered
   }
   const next: Manifest["pages"] = {};
+  const nextGroups: Manifest["groups"] = {};
   // Folders already made in the new site (most pages share a few).
   const folders = new Set<string>();
   const madeFolder = async (dir: string) => {
@@ -134,13 +153,51 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
       next[path] = { key, sha256: sha256(bytes), ...(await fileStat(target))! };
       renderedCount++;
     },
+    // By content (contentHash: numbers by value, keys sorted), not by node:v8's bytes: those
+    // depend on how V8 happens to store a value (a number as a small integer or a double),
+    // which differs between a value computed and one read back from the analysis cache.
+    // A different prefix from page keys: the two never meet.
+    groupKeyOf: (input) => createHash("sha256").update(base).update("group\0").update(contentHash(input)).digest("hex"),
+    async reuseGroup(group, key, stage) {
+      const before = previousGroups[group];
+      if (!before || before.key !== key || !Array.isArray(before.paths)) return false;
+      const records: [string, PageRecord][] = [];
+      for (const path of before.paths) {
+        const record = previous[path];
+        if (!record || !(await unchangedSince(join(publishedDir, path), record))) return false;
+        records.push([path, record]);
+      }
+      const linked: string[] = [];
+      for (const [path, record] of records) {
+        const target = join(stage, path);
+        await madeFolder(dirname(target));
+        await linkOrCopy(join(publishedDir, path), target);
+        linked.push(target);
+        const now = await fileStat(target);
+        if (now === null) {
+          // Never render over a link (see reuse); the group is rendered whole instead.
+          for (const t of linked) await rm(t, { force: true });
+          for (const [p] of records) delete next[p];
+          return false;
+        }
+        next[path] = { ...record, ...now };
+      }
+      nextGroups[group] = { key, paths: [...before.paths] };
+      reused += records.length;
+      return true;
+    },
+    madeGroup(group, key, paths) {
+      // Only pages this build recorded: a group with a page missing is not kept (made again next time).
+      if (paths.every((p) => next[p] !== undefined)) nextGroups[group] = { key, paths: [...paths] };
+    },
     async save() {
       await mkdir(cacheDir, { recursive: true });
       const target = join(cacheDir, MANIFEST);
       const temporary = `${target}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
       try {
         const sorted = Object.fromEntries(Object.entries(next).sort(([a], [b]) => (a < b ? -1 : 1)));
-        await writeFile(temporary, JSON.stringify({ format: FORMAT, pages: sorted } satisfies Manifest));
+        const groups = Object.fromEntries(Object.entries(nextGroups).sort(([a], [b]) => (a < b ? -1 : 1)));
+        await writeFile(temporary, JSON.stringify({ format: FORMAT, pages: sorted, groups } satisfies Manifest));
         await rename(temporary, target);
       } catch {
         // a manifest that cannot be written costs only the next build's time

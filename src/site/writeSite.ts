@@ -419,7 +419,12 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
   for (let i = 0; i < passes; i++) {
     const from = i * size;
     const to = Math.min(buildingCount, from + size);
-    const all = parts ? parts.pagesOf(from, to) : { buildings: share(full!.buildings, i), meterBills: share(full!.meterBills, i), tenants: share(full!.tenants, i) };
+    // A building whose slice (everything its pages are made from) and data files are unchanged
+    // has its pages copied whole, without making their view models; the others are made.
+    const groups = parts && ctx.pages ? await freshBuildings(parts, from, to, sizes, ctx) : null;
+    const all = groups
+      ? joinPages(groups.map((g) => g.pages))
+      : parts ? parts.pagesOf(from, to) : { buildings: share(full!.buildings, i), meterBills: share(full!.meterBills, i), tenants: share(full!.tenants, i) };
     // Pages unchanged since the last build are copied from it; only the others are made.
     const fresh = <T extends { path: string }>(list: readonly T[], keyInput: (page: T) => unknown) => keepFresh(ctx, list, keyInput);
     const buildings = await fresh(all.buildings, (page) => ({ page, sizes: buildingDataSizes(page.buildingId, sizes) }));
@@ -439,9 +444,40 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
       // Each pass leaves its page strings behind; without this the heap grows with the passes.
       collectGarbage();
     }
+    for (const g of groups ?? []) ctx.pages!.madeGroup(g.group, g.key, pagePaths(g.pages));
     written += to - from;
     ctx.onProgress?.(written, buildingCount);
   }
+}
+
+type BuildingPages = ReturnType<SiteModelInParts["pagesOfSlice"]>;
+
+/** The page manifest's group of a building's pages. */
+const buildingGroup = (buildingId: string) => `building:${buildingId}`;
+
+/**
+ * Buildings `from` to `to` whose pages must be made, each with its pages, group and group key
+ * (its slice and the sizes of its data files, which its page lists); the pages of the others
+ * were copied whole from the previous site.
+ */
+async function freshBuildings(parts: SiteModelInParts, from: number, to: number, sizes: Record<string, number>, ctx: RenderContext): Promise<{ group: string; key: string; pages: BuildingPages }[]> {
+  const out: { group: string; key: string; pages: BuildingPages }[] = [];
+  for (let j = from; j < to; j++) {
+    const slice = parts.sliceOf(j);
+    const id = slice.building.buildingId;
+    const key = ctx.pages!.groupKeyOf({ slice, sizes: buildingDataSizes(id, sizes) });
+    if (await ctx.pages!.reuseGroup(buildingGroup(id), key, ctx.stage)) continue;
+    out.push({ group: buildingGroup(id), key, pages: parts.pagesOfSlice(slice) });
+  }
+  return out;
+}
+
+function joinPages(list: readonly BuildingPages[]): BuildingPages {
+  return { buildings: list.flatMap((p) => p.buildings), meterBills: list.flatMap((p) => p.meterBills), tenants: list.flatMap((p) => p.tenants) };
+}
+
+function pagePaths(pages: BuildingPages): string[] {
+  return [...pages.buildings, ...pages.meterBills, ...pages.tenants].map((p) => p.path);
 }
 
 /**

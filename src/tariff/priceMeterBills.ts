@@ -82,6 +82,18 @@ export function intervalUsageForBill(
 export type Pricer = (request: PriceRequest) => ComputedBill;
 
 /**
+ * The fields of a bill that pricing reads (with the meter, its series and the bills before it):
+ * two bills equal in these price the same. Others (total, read type, statement date, source) are
+ * never read, so a bill whose total the audit corrected prices as the bill billed.
+ */
+export const PRICING_FIELDS = ["billId", "meterId", "periodStart", "periodEnd", "usage", "demandKw", "powerFactor"] as const satisfies readonly (keyof Bill)[];
+
+/** Whether `a` and `b` agree on every field pricing reads (PRICING_FIELDS). */
+export function samePricingFields(a: Bill, b: Bill): boolean {
+  return a === b || PRICING_FIELDS.every((k) => Object.is(a[k], b[k]));
+}
+
+/**
  * Metered usage of a bill's period from its intervals (multiplier applied): the sum scaled up by
  * coverage, so a period with a few missing intervals is not compared as if complete (the audit's
  * usage-vs-meter uses the same rule).

@@ -291,3 +291,25 @@ export function manyBuildingsInput(count: number): ReportInput {
   });
   return input;
 }
+
+/** The input with a forecast method (as the forecast stage reports it), one meter of each building uncalibrated. */
+export function withForecastMethod(input: ReportInput): ReportInput {
+  const meters = input.portfolio.buildings.map((b) => input.portfolio.meters.find((m) => m.buildingId === b.buildingId)!);
+  return {
+    ...input,
+    forecastMethod: {
+      basisLabel: "the mean of the most recent 10 years",
+      basisReason: "smallest mean absolute meter annual cost error over 2 rolling origin(s)",
+      adjustmentLabel: "none",
+      adjustments: [{ label: "none", meanAbsAnnualErrorPct: 4.21, cvRmsePct: 9.87, chosen: true }, { label: "last year's departure", meanAbsAnnualErrorPct: 5.5, cvRmsePct: 11.2, chosen: false }],
+      bases: [{ label: "recent 10 years", meanAbsAnnualErrorPct: 4.21, cvRmsePct: 9.87, chosen: true }, { label: "normals", meanAbsAnnualErrorPct: 6.02, cvRmsePct: 10.4, chosen: false }],
+      origins: [{ cut: "2024-03-31", meters: 3, historyMonths: { min: 12, max: 14 }, modelAnnualErrorPct: -2.4, naiveAnnualErrorPct: 6.1, modelCvRmsePct: 7.9, naiveCvRmsePct: 12, coverage: 0.83, factor: 1.25, calibrated: true }],
+      factor: 1.25,
+      calibrated: true,
+      coverage: 0.81,
+      uncalibratedMeters: meters.map((m) => ({ meterId: m.meterId, buildingId: m.buildingId, months: 14 })),
+      correctedBills: 2,
+    },
+  };
+}
+

@@ -5,9 +5,11 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mkdtemp, readdir, readFile, rm, stat, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join, relative } from "node:path";
-import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
+import { buildSiteModel, siteModelInParts, type SiteModelInParts } from "../../src/report/buildSiteModel.ts";
+import type { ReportInput } from "../../src/report/input.ts";
 import { writeSite } from "../../src/site/writeSite.ts";
-import { fixtureInput } from "../report/fixture.ts";
+import { fixtureInput, fullFixtureInput, withForecastMethod } from "../report/fixture.ts";
+import { disputeFixture } from "../report/disputeFixture.ts";
 
 const DATA = { "findings.csv": "building_id,check\nB1,total-mismatch\n", "buildings/B1/bills.csv": "bill_id\nE1-01\n" };
 
@@ -94,4 +96,45 @@ describe("page reuse", () => {
     expect(otherProgram.pagesReused).toBe(0);
     expect(otherProgram.bundleReused).toBe(false);
   }, 120_000);
+
+  it("reuses a building's pages whole, without making their view models, until an input they show changes; then writes what a full render writes", async () => {
+    const reuse = { cacheDir: join(work, "cache-groups"), program: "test-program" };
+    const out = join(work, "site-groups");
+    const base = (): ReportInput => ({ ...withForecastMethod(fullFixtureInput()), disputes: disputeFixture() });
+    // The view models made: pagesOfSlice is called once per building whose pages are made.
+    let made: string[] = [];
+    const counted = (input: ReportInput): SiteModelInParts => {
+      const parts = siteModelInParts(input);
+      return { ...parts, pagesOfSlice: (slice) => (made.push(slice.building.buildingId), parts.pagesOfSlice(slice)) };
+    };
+    await writeSite(counted(base()), DATA, out, { reuse });
+    made = [];
+    const again = await writeSite(counted(base()), DATA, out, { reuse });
+    expect(made).toEqual([]);
+    expect(again.pagesRendered).toBe(0);
+
+    const b1 = (input: ReportInput) => input.portfolio.bills.find((b) => b.meterId === "E1")!;
+    const changes: [string, (input: ReportInput) => void, string[]][] = [
+      ["a bill's total", (i) => void (b1(i).total += 0.01), ["B1"]],
+      ["a finding's message", (i) => void (i.findings!.find((f) => f.buildingId === "B1")!.message += " (again)"), ["B1"]],
+      ["a priced bill's line", (i) => void (i.priced.get(b1(i).billId)!.computed!.total += 1), ["B1"]],
+      ["an interval reading", (i) => void (i.portfolio.intervals.get("E1")!.values[5] = 123.25), ["B1"]],
+      ["the forecast method's text", (i) => void (i.forecastMethod!.basisLabel = "the normals file"), ["B1", "B2"]],
+      ["the currency", (i) => void (i.portfolio.settings.currency = "EUR"), ["B1", "B2"]],
+      ["a data file of B1 (its size)", () => undefined, ["B1"]],
+    ];
+    for (const [what, change, buildings] of changes) {
+      const input = base();
+      change(input);
+      const data = what.startsWith("a data file") ? { ...DATA, "buildings/B1/bills.csv": "bill_id\nE1-01\nE1-02\n" } : DATA;
+      made = [];
+      await writeSite(counted(input), data, out, { reuse });
+      expect(made, what).toEqual(buildings);
+      const full = join(work, `full-groups-${buildings.join("")}-${made.length}-${what.length}`);
+      await writeSite(siteModelInParts(input), data, full);
+      expectSameTree(await tree(full), await tree(out));
+      // Back to the base for the next change (its pages made again once).
+      await writeSite(counted(base()), DATA, out, { reuse });
+    }
+  }, 300_000);
 });
