@@ -232,8 +232,11 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
+  // The backtest reads each meter's readings at several as-of dates and keeps what it read until
+  // the stage ends: one copy in memory for the stage, not one per read from the shelf.
+  const held: Portfolio<Tariff> = { ...portfolio, intervals: new Map(portfolio.intervals) };
   try {
-    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo });
+    return forecastWithTrackRecord(held, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo });
   } catch (error) {
     issues.push({
       file: "portfolio.yaml",
