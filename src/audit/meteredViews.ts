@@ -5,7 +5,8 @@
  * no money figure rests on a flagged reading). Showing both lets a reader see when a flagged
  * outage or spike sits inside a bill.
  */
-import type { Portfolio } from "../domain/types.ts";
+import type { Bill, IntervalSeries, Portfolio } from "../domain/types.ts";
+import { groupBy } from "../core/groupBy.ts";
 import { localMidnightMs } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
 
@@ -23,27 +24,38 @@ export interface MeteredViews {
 export function meteredViewsByBill(portfolio: Portfolio, masks: ReadonlyMap<string, Uint8Array>): Map<string, MeteredViews> {
   const meters = new Map(portfolio.meters.map((m) => [m.meterId, m]));
   const zones = new Map(portfolio.buildings.map((b) => [b.buildingId, b.timezone]));
-  const out = new Map<string, MeteredViews>();
-  for (const bill of portfolio.bills) {
-    const meter = meters.get(bill.meterId);
-    const series = portfolio.intervals.get(bill.meterId);
+  // A meter's bills together: its readings are fetched once (they may be read from disk).
+  const views: (MeteredViews | null)[] = new Array(portfolio.bills.length).fill(null);
+  const positions = portfolio.bills.map((_, i) => i);
+  for (const [meterId, at] of groupBy(positions, (i) => portfolio.bills[i]!.meterId)) {
+    const meter = meters.get(meterId);
     const zone = meter ? zones.get(meter.buildingId) : undefined;
+    const series = meter && zone ? portfolio.intervals.get(meterId) : undefined;
     if (!meter || !series || !zone) continue;
-    const mask = masks.get(bill.meterId);
-    const from = lowerBound(series.startMs, localMidnightMs(bill.periodStart, zone));
-    const to = lowerBound(series.startMs, localMidnightMs(bill.periodEnd, zone));
-    if (to <= from) continue;
-    let raw = 0;
-    let cleaned = 0;
-    let flagged = 0;
-    for (let i = from; i < to; i++) {
-      const v = series.values[i]!;
-      if (!Number.isFinite(v)) continue;
-      raw += v;
-      if (mask?.[i]) flagged++;
-      else cleaned += v;
-    }
-    out.set(bill.billId, { raw: raw * meter.multiplier, cleaned: cleaned * meter.multiplier, flaggedIntervals: flagged, intervals: to - from });
+    for (const i of at) views[i] = billViews(portfolio.bills[i]!, series, masks.get(meterId), zone, meter.multiplier);
   }
+  // Keyed in the order of the bills (a repeated bill id keeps its first place and last value).
+  const out = new Map<string, MeteredViews>();
+  portfolio.bills.forEach((bill, i) => {
+    const v = views[i];
+    if (v) out.set(bill.billId, v);
+  });
   return out;
+}
+
+function billViews(bill: Bill, series: IntervalSeries, mask: Uint8Array | undefined, zone: string, multiplier: number): MeteredViews | null {
+  const from = lowerBound(series.startMs, localMidnightMs(bill.periodStart, zone));
+  const to = lowerBound(series.startMs, localMidnightMs(bill.periodEnd, zone));
+  if (to <= from) return null;
+  let raw = 0;
+  let cleaned = 0;
+  let flagged = 0;
+  for (let i = from; i < to; i++) {
+    const v = series.values[i]!;
+    if (!Number.isFinite(v)) continue;
+    raw += v;
+    if (mask?.[i]) flagged++;
+    else cleaned += v;
+  }
+  return { raw: raw * multiplier, cleaned: cleaned * multiplier, flaggedIntervals: flagged, intervals: to - from };
 }

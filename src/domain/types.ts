@@ -147,7 +147,7 @@ export interface Portfolio<TariffT = unknown> {
   bills: Bill[];
   billLines: BillLine[];
   /** Keyed by meter_id. */
-  intervals: Map<string, IntervalSeries>;
+  intervals: ReadonlyMap<string, IntervalSeries>;
   /** Keyed by station_id; hourly, gaps filled up to the configured limit. */
   weather: Map<string, WeatherSeries>;
   /** Typical-year hourly temperatures by station, when weather/normals has them. */

@@ -26,7 +26,8 @@ import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/ind
 import { analysedPricing, forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
-import { checkOutputFolder, SiteWriteError, startClientBundle, writeSite, type EarlyBundle } from "../site/index.ts";
+import { checkOutputFolder, makeScratchFolder, removeScratchFolder, SiteWriteError, startClientBundle, writeSite, type EarlyBundle } from "../site/index.ts";
+import { IntervalShelf } from "./intervalShelf.ts";
 import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
 import { analyseBuildings } from "./analysisPool.ts";
 import { cacheMemo, defaultCacheDir, openAnalysisCache, programFingerprint, type AnalysisCache } from "./analysisCache.ts";
@@ -117,15 +118,29 @@ export async function buildPortfolioSite(options: BuildOptions): Promise<BuildRe
   const reuse = options.cacheDir !== undefined && !options.requireCached ? { cacheDir: join(options.cacheDir, "site"), program: cache!.program } : undefined;
   // The client bundle depends on no input: made by a child process while this one works.
   const bundle = startClientBundle(options.outDir, { reuse });
+  const scratch = scratchBeside(options.outDir);
   try {
-    return await buildWithBundle(options, reporter, cache, reuse, bundle);
+    return await buildWithBundle(options, reporter, cache, reuse, bundle, scratch.dir);
   } finally {
     await bundle.dispose();
+    await scratch.remove();
   }
 }
 
-async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache: AnalysisCache | undefined, reuse: { cacheDir: string; program: string } | undefined, bundle: EarlyBundle): Promise<BuildResult> {
-  const { weatherGaps, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, cache);
+/** A scratch folder next to `path`, made when first asked for (see makeScratchFolder). */
+function scratchBeside(path: string): { dir: () => Promise<string>; remove: () => Promise<void> } {
+  let made: Promise<string> | null = null;
+  return {
+    dir: () => (made ??= makeScratchFolder(path)),
+    async remove() {
+      const dir = await made?.catch(() => null);
+      if (dir) await removeScratchFolder(dir);
+    },
+  };
+}
+
+async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache: AnalysisCache | undefined, reuse: { cacheDir: string; program: string } | undefined, bundle: EarlyBundle, scratch: () => Promise<string>): Promise<BuildResult> {
+  const { weatherGaps, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, scratch, cache);
   const dataDate = effectiveAsOf(portfolio);
   const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
@@ -217,10 +232,13 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
+  // The backtest reads each meter's readings at several as-of dates and keeps what it read until
+  // the stage ends: one copy in memory for the stage, not one per read from the shelf.
+  const held: Portfolio<Tariff> = { ...portfolio, intervals: new Map(portfolio.intervals) };
   try {
     // The ratchet history reads the analysis's pricing where it is the same as pricing again (portfolioInputs.ts).
     const analysed = priced ? analysedPricing(portfolio.bills, priced) : undefined;
-    return forecastWithTrackRecord(portfolio, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo, analysed });
+    return forecastWithTrackRecord(held, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo, analysed });
   } catch (error) {
     issues.push({
       file: "portfolio.yaml",
@@ -286,7 +304,7 @@ function summaryText(s: BuildSummary, currency: string): string {
  * cut at the as-of date, screen interval data and align meter clocks.
  * @throws InputError when inputs are unusable (or, with `strict`, when any row was rejected).
  */
-async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, cache?: AnalysisCache) {
+async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, shelfDir: () => Promise<string>, cache?: AnalysisCache) {
   reporter.stage(`Reading ${dir}`);
   const loaded = await loadPortfolio(dir);
   const issues = loaded.issues;
@@ -298,9 +316,12 @@ async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, c
   reporter.stage("Screening interval data and aligning meter clocks");
   // With a cache, meters whose interval data and weather are unchanged are not screened again.
   const quality = assessIntervalMeters(cut.portfolio, cache ? cacheMemo(cache) : undefined);
-  // From here on every stage sees the corrected clocks (flagged readings stay in the record).
-  // The portfolio as read is not returned: where as_of cuts a series, its uncut copy can go.
-  return { weatherGaps: loaded.weatherGaps, issues, quality, portfolio: quality.portfolio as Portfolio<Tariff> };
+  // From here on every stage sees the corrected clocks (flagged readings stay in the record),
+  // read from the shelf a meter at a time. Neither the portfolio as read nor its in-memory
+  // readings are returned, so they can go.
+  const shelf = IntervalShelf.fill(await shelfDir(), quality.portfolio.intervals);
+  const portfolio = { ...quality.portfolio, intervals: shelf } as Portfolio<Tariff>;
+  return { weatherGaps: loaded.weatherGaps, issues, quality: { meters: quality.meters }, portfolio };
 }
 
 export interface ShardOptions {
@@ -328,7 +349,16 @@ export interface ShardResult {
 export async function buildShard(options: ShardOptions): Promise<ShardResult> {
   const reporter = options.reporter ?? silentReporter;
   await preparePartialDir(options.partialDir);
-  const { issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter);
+  const scratch = scratchBeside(options.partialDir);
+  try {
+    return await analyseShard(options, reporter, scratch.dir);
+  } finally {
+    await scratch.remove();
+  }
+}
+
+async function analyseShard(options: ShardOptions, reporter: Reporter, scratch: () => Promise<string>): Promise<ShardResult> {
+  const { issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, scratch);
   const only = new Set(portfolio.buildings.filter((b) => shardOf(b.buildingId, options.shard.count) === options.shard.index).map((b) => b.buildingId));
   reporter.stage(`Shard ${options.shard.index} of ${options.shard.count}: pricing, checking and modelling ${only.size} of ${portfolio.buildings.length} building(s)`);
   const cache = await openAnalysisCache(partialAnalysesDir(options.partialDir));

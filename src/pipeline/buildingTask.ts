@@ -68,7 +68,8 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
   const meters = portfolio.meters.filter((m) => meterIds.has(m.meterId));
   const stations = new Set(buildings.map((b) => b.weatherStation));
   const rows = rowsByBuilding(portfolio);
-  const pick = <V>(map: ReadonlyMap<string, V>, keep: (k: string) => boolean) => new Map([...map].filter(([k]) => keep(k)));
+  // Keys first: reading a value may mean reading a file (IntervalShelf).
+  const pick = <V>(map: ReadonlyMap<string, V>, keep: (k: string) => boolean) => new Map([...map.keys()].filter(keep).map((k) => [k, map.get(k)!]));
   return {
     buildingId: building.buildingId,
     onBug,

@@ -296,7 +296,7 @@ export function qualitySections(
   building: Building,
   meters: Meter[],
   quality: readonly ReportMeterQuality[] | undefined,
-  intervals: Map<string, IntervalSeries>,
+  intervals: ReadonlyMap<string, IntervalSeries>,
 ): QualitySection[] {
   if (!quality) return [];
   const out: QualitySection[] = [];

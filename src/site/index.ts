@@ -1,2 +1,2 @@
 /** The site writer: view models → files on disk, written atomically. */
-export { checkOutputFolder, writeSite, removeActiveScratch, startClientBundle, SiteWriteError, type EarlyBundle } from "./writeSite.ts";
+export { checkOutputFolder, writeSite, removeActiveScratch, makeScratchFolder, removeScratchFolder, startClientBundle, SiteWriteError, type EarlyBundle } from "./writeSite.ts";

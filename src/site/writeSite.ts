@@ -285,6 +285,21 @@ async function makeScratch(out: string): Promise<string> {
   return scratch;
 }
 
+/**
+ * A scratch folder of the build's own next to `outDir` (for files the build keeps out of memory
+ * between stages), removed on a signal like the site's and, if a killed build left it, by a later
+ * build. Remove it with removeScratchFolder when the build ends.
+ * @throws SiteWriteError when the parent folder cannot be written.
+ */
+export function makeScratchFolder(outDir: string): Promise<string> {
+  return makeScratch(resolve(outDir));
+}
+
+export async function removeScratchFolder(path: string): Promise<void> {
+  await rm(path, { recursive: true, force: true });
+  activeScratch.delete(path);
+}
+
 /** The client bundle being made ahead of the site (startClientBundle). */
 export interface EarlyBundle {
   readonly made: Promise<{ bundle: ClientBundle; reused: boolean; dir: string }>;

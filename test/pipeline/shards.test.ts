@@ -55,6 +55,9 @@ describe("sharded build and merge", () => {
     const files = await listFiles(one);
     expect(await listFiles(merged)).toEqual(files);
     for (const f of files) expect((await readFile(join(merged, f))).equals(await readFile(join(one, f))), f).toBe(true);
+    // The scratch folders of the shards and builds (interval readings on disk, the site being
+    // written) are gone once they end.
+    expect((await readdir(work)).filter((name) => name.includes(".ohmbook-build-"))).toEqual([]);
   }, 240_000);
 
   it("refuses a missing shard, a shard given twice, and a mix with another portfolio's partials", async () => {

@@ -151,7 +151,7 @@ export function fullFixtureInput(): ReportInput {
   const { portfolio } = input;
   portfolio.buildings[0].tenantPage = true;
   const e1 = officeIntervals();
-  portfolio.intervals.set("E1", { meterId: "E1", intervalMinutes: 15, startMs: e1.startMs, values: e1.values });
+  portfolio.intervals = new Map([...portfolio.intervals, ["E1", { meterId: "E1", intervalMinutes: 15, startMs: e1.startMs, values: e1.values }]]);
   const mask = new Uint8Array(e1.startMs.length);
   for (let i = 0; i < e1.startMs.length; i++) {
     if (e1.startMs[i] >= ZERO_RUN.startMs && e1.startMs[i] < ZERO_RUN.endMs) {

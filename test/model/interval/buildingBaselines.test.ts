@@ -14,7 +14,7 @@ describe("interval baselines in the build", () => {
     const meter = p.meters.find((m) => m.commodity === "electricity" && p.intervals.has(m.meterId))!;
     const series = p.intervals.get(meter.meterId)!;
     const cut = series.startMs.length - 4 * 7 * 96; // last 4 weeks of 15-minute data
-    p.intervals.set(meter.meterId, { ...series, startMs: series.startMs.slice(cut), values: series.values.slice(cut) });
+    p.intervals = new Map([...p.intervals, [meter.meterId, { ...series, startMs: series.startMs.slice(cut), values: series.values.slice(cut) }]]);
     expect(4).toBeLessThan(SHORT_HISTORY_WEEKS);
     const building = p.buildings.find((b) => b.buildingId === meter.buildingId)!;
     const [outcome] = fitBuildingIntervalBaselines(p, building, new Map()).filter((o) => o.meterId === meter.meterId);
