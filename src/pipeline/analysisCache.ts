@@ -77,6 +77,11 @@ function entryPath(cache: AnalysisCache, key: string): string {
   return join(cache.dir, `${key}.v8`);
 }
 
+/** Whether `key` has an entry (reading it may still fail; the building is then analysed). */
+export function isCached(cache: AnalysisCache, key: string): boolean {
+  return existsSync(entryPath(cache, key));
+}
+
 /** The cached results of `key`, or null (missing or unreadable: analysed again). */
 export async function readCached(cache: AnalysisCache, key: string): Promise<PlainResults | null> {
   cache.used.add(key);

@@ -16,13 +16,13 @@
  */
 import { availableParallelism } from "node:os";
 import Tinypool from "tinypool";
-import type { Portfolio } from "../domain/types.ts";
+import type { Building, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { internStrings } from "../core/internStrings.ts";
 import { OhmbookError, type BugPolicy } from "../core/errors.ts";
 import type { BuildingResults } from "../report/index.ts";
 import { analyseTask, buildingTask, hydrateResults, type BuildingTask, type PlainResults } from "./buildingTask.ts";
-import { cacheKey, keyTariffs, pruneCache, readCached, writeCached, type AnalysisCache } from "./analysisCache.ts";
+import { cacheKey, isCached, keyTariffs, pruneCache, readCached, writeCached, type AnalysisCache } from "./analysisCache.ts";
 
 export interface AnalyseOptions {
   /** Worker threads; 1 analyses in this thread. Default: os.availableParallelism(). */
@@ -66,11 +66,13 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
   // Results from threads and the cache carry a copy of every string; keep one of each (internStrings.ts).
   const strings = new Map<string, string>();
   let done = 0;
+  const onBug = options.onBug ?? "fail";
+  const { threads, keys } = threadsWorthStarting(portfolio, buildings, masks, jobs, cache, onBug);
   // Threads start only when a building is not in the cache.
   let pool: Tinypool | null = null;
   const analyse = async (task: BuildingTask): Promise<PlainResults> => {
-    if (jobs <= 1) return analyseTask(task);
-    pool ??= new Tinypool({ filename: workerFilename(), minThreads: jobs, maxThreads: jobs, idleTimeout: 1000 });
+    if (threads <= 1) return analyseTask(task);
+    pool ??= new Tinypool({ filename: workerFilename(), minThreads: threads, maxThreads: threads, idleTimeout: 1000 });
     return (await pool.run(task)) as PlainResults;
   };
   try {
@@ -78,14 +80,16 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
     const run = async (): Promise<void> => {
       while (next < buildings.length) {
         const i = next++;
-        const task = buildingTask(portfolio, buildings[i]!, masks, options.onBug ?? "fail");
-        const key = cache ? cacheKey(cache, task) : null;
+        // A building whose key is known and cached needs no task (its slice is not even made).
+        let slice: BuildingTask | null = null;
+        const task = () => (slice ??= buildingTask(portfolio, buildings[i]!, masks, onBug));
+        const key = cache ? (keys[i] ?? cacheKey(cache, task())) : null;
         let plain = cache && key ? await readCached(cache, key) : null;
         if (!plain && options.requireCached) {
           throw new OhmbookError(`building ${buildings[i]!.buildingId} is in no partial result with these inputs: a shard was built from other input files, settings or program; build the shards again`);
         }
         if (!plain) {
-          plain = await analyse(task);
+          plain = await analyse(task());
           // A bug's outcome is not kept: the next build (or a fixed ohmbook) tries again.
           if (cache && key && plain.bugReport === undefined) await writeCached(cache, key, plain);
         }
@@ -95,10 +99,27 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
       }
     };
     // With threads, two tasks per thread in flight, so the slices waiting to be sent stay few.
-    await Promise.all(Array.from({ length: jobs <= 1 ? 1 : jobs * 2 }, run));
+    await Promise.all(Array.from({ length: threads <= 1 ? 1 : threads * 2 }, run));
   } finally {
     await (pool as Tinypool | null)?.destroy();
   }
   if (cache) await pruneCache(cache);
   return results;
+}
+
+/**
+ * Threads pay for themselves only with two or more buildings to analyse (each thread loads the
+ * whole analysis code first): with a cache, the keys are worked out until a second building
+ * missing from it is found, and with fewer than two the analysis runs in this thread (the
+ * results are the same either way). The keys worked out are kept for the run.
+ */
+export function threadsWorthStarting(portfolio: Portfolio<Tariff>, buildings: readonly Building[], masks: ReadonlyMap<string, Uint8Array>, jobs: number, cache: AnalysisCache | null, onBug: BugPolicy): { threads: number; keys: (string | undefined)[] } {
+  const keys: (string | undefined)[] = new Array(buildings.length);
+  if (!cache || jobs <= 1) return { threads: jobs, keys };
+  let misses = 0;
+  for (let i = 0; i < buildings.length && misses < 2; i++) {
+    const key = (keys[i] = cacheKey(cache, buildingTask(portfolio, buildings[i]!, masks, onBug)));
+    if (!isCached(cache, key)) misses++;
+  }
+  return { threads: misses < 2 ? 1 : jobs, keys };
 }

@@ -6,9 +6,10 @@ import { cp, mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises"
 import { join, relative } from "node:path";
 import { tmpdir } from "node:os";
 import { buildPortfolioSite } from "../../src/pipeline/build.ts";
-import { cacheKey, defaultCacheDir, keyTariffs, openAnalysisCache } from "../../src/pipeline/analysisCache.ts";
+import { cacheKey, defaultCacheDir, keyTariffs, openAnalysisCache, writeCached } from "../../src/pipeline/analysisCache.ts";
+import { threadsWorthStarting } from "../../src/pipeline/analysisPool.ts";
 import { contentHash } from "../../src/core/contentHash.ts";
-import { buildingTask } from "../../src/pipeline/buildingTask.ts";
+import { buildingTask, type PlainResults } from "../../src/pipeline/buildingTask.ts";
 import { runCli, type CliIo } from "../../src/cli/main.ts";
 import { loadPortfolio } from "../../src/ingest/index.ts";
 import type { Portfolio } from "../../src/domain/types.ts";
@@ -90,6 +91,31 @@ describe("analysis cache", () => {
     // Another building's bills do not touch this building's key.
     const otherBills = { ...portfolio, bills: portfolio.bills.map((b) => (b.meterId === "E3-W" ? { ...b, total: b.total + 1 } : b)) };
     expect(cacheKey(cache, buildingTask(otherBills, building, new Map()))).toBe(key);
+  }, 60_000);
+
+  it("starts threads only with two or more buildings missing from the cache, and keeps the keys it worked out", async () => {
+    const loaded = await loadPortfolio("test/fixtures/spec-portfolio");
+    const portfolio = loaded.portfolio as Portfolio<Tariff>;
+    const cache = await openAnalysisCache(join(work, "threads"));
+    keyTariffs(cache, portfolio.tariffs);
+    const { buildings } = portfolio;
+    expect(buildings.length).toBeGreaterThanOrEqual(3);
+    const keyOf = (i: number) => cacheKey(cache, buildingTask(portfolio, buildings[i]!, new Map()));
+    // Nothing cached: threads as asked, after the keys of the first two buildings only.
+    const cold = threadsWorthStarting(portfolio, buildings, new Map(), 2, cache, "fail");
+    expect(cold.threads).toBe(2);
+    expect(cold.keys.filter((k) => k !== undefined)).toEqual([keyOf(0), keyOf(1)]);
+    // Every building but the last cached: it is analysed in this thread; every key is kept.
+    for (let i = 0; i < buildings.length - 1; i++) await writeCached(cache, keyOf(i), {} as PlainResults);
+    const warm = threadsWorthStarting(portfolio, buildings, new Map(), 2, cache, "fail");
+    expect(warm.threads).toBe(1);
+    expect(warm.keys).toEqual(buildings.map((_, i) => keyOf(i)));
+    // Two missing: threads again.
+    await rm(join(cache.dir, `${keyOf(0)}.v8`));
+    expect(threadsWorthStarting(portfolio, buildings, new Map(), 2, cache, "fail").threads).toBe(2);
+    // Without a cache, or with one job, nothing is worked out ahead.
+    expect(threadsWorthStarting(portfolio, buildings, new Map(), 2, null, "fail")).toEqual({ threads: 2, keys: new Array(buildings.length) });
+    expect(threadsWorthStarting(portfolio, buildings, new Map(), 1, cache, "fail").keys.every((k) => k === undefined)).toBe(true);
   }, 60_000);
 
   it("hashes content, not V8's storage of it", () => {
