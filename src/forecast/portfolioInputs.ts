@@ -8,7 +8,7 @@ import type { Bill, Building, IntervalSeries, Meter, Portfolio, WeatherSeries } 
 import type { Tariff } from "../tariff/index.ts";
 import { priceBill } from "../tariff/index.ts";
 import { fitForecastBaseline, typicalMonthlyTempC, type MeterBaseline } from "../model/index.ts";
-import { priceMeterBills, samePricingFields } from "../tariff/index.ts";
+import { priceMeterBills, pricingOrder, samePricingFields } from "../tariff/index.ts";
 import { loadShapeByHourOfWeek } from "./profile.ts";
 import { weatherYears, type WeatherYear } from "./weatherYears.ts";
 import type { MeterForecastInput } from "./forecastMeter.ts";
@@ -195,11 +195,6 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       adjustment: options.adjustment,
     };
   });
-}
-
-/** Bills in pricing order (priceMeterBills: period start, then bill id). */
-function pricingOrder(bills: readonly Bill[]): Bill[] {
-  return [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
 }
 
 /**

@@ -10,7 +10,7 @@ export { maxWindowDemandKw, billingDemandKw } from "./demand.ts";
 
 // Used by other folders (see test/architecture/layers.test.ts).
 export type { Tariff } from "./model.ts";
-export { billCheckState, intervalUsageForBill, priceMeterBills, PRICING_FIELDS, samePricingFields } from "./priceMeterBills.ts";
+export { billCheckState, intervalUsageForBill, priceMeterBills, pricingOrder, PRICING_FIELDS, samePricingFields } from "./priceMeterBills.ts";
 export type { BillCheckState, PricedBill } from "./priceMeterBills.ts";
 export type { ComputedBill, ComputedLine, IntervalUsage, LineStatus, PriceRequest } from "./types.ts";
 export { yamlLimitProblem } from "./yaml-check.ts";

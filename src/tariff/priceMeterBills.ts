@@ -82,6 +82,14 @@ export function intervalUsageForBill(
 export type Pricer = (request: PriceRequest) => ComputedBill;
 
 /**
+ * The order priceMeterBills prices a meter's bills in (period start, then bill id): each bill's
+ * ratchet reads the billing demands of the bills before it in this order.
+ */
+export function pricingOrder<B extends Pick<Bill, "periodStart" | "billId">>(bills: readonly B[]): B[] {
+  return [...bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
+}
+
+/**
  * The fields of a bill that pricing reads (with the meter, its series and the bills before it):
  * two bills equal in these price the same. Others (total, read type, statement date, source) are
  * never read, so a bill whose total the audit corrected prices as the bill billed.
@@ -132,7 +140,7 @@ export function priceMeterBills(options: {
   const { meter, timezone, series, price } = options;
   const minCoverage = options.minCoverage ?? 0.9;
   const results = new Map<string, PricedBill>();
-  const ordered = [...options.bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart) || a.billId.localeCompare(b.billId));
+  const ordered = pricingOrder(options.bills);
   const previousDemandsKw: number[] = [];
   for (const bill of ordered) {
     if (!price) {
