@@ -6,9 +6,8 @@
 import type { Building, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { bugReportLine, type BugPolicy } from "../core/errors.ts";
-import { groupBy } from "../core/groupBy.ts";
 import { fitChangePointAt, SHORT_HISTORY_WEEKS } from "../model/index.ts";
-import type { BuildingResults } from "../report/index.ts";
+import { billRowsByBuilding, type BuildingResults } from "../report/index.ts";
 import { analyseBuilding, rethrow, type BugHandler } from "./analyseBuilding.ts";
 
 /** One building's work, as sent to a worker: plain, structured-clonable data. */
@@ -21,31 +20,6 @@ export interface BuildingTask {
 }
 
 const WEEK_MS = 7 * 24 * 3_600_000;
-
-/** Bills and bill lines of each building, in the portfolio's order, made once per portfolio. */
-interface PortfolioRows {
-  bills: Map<string, Portfolio<Tariff>["bills"]>;
-  billLines: Map<string, Portfolio<Tariff>["billLines"]>;
-}
-
-const rowsByPortfolio = new WeakMap<Portfolio<Tariff>, PortfolioRows>();
-
-/**
- * One pass over the portfolio's bills and bill lines instead of one per building (a thousand
- * buildings have about a hundred thousand bills and several times as many lines).
- */
-function rowsByBuilding(portfolio: Portfolio<Tariff>): PortfolioRows {
-  let rows = rowsByPortfolio.get(portfolio);
-  if (rows) return rows;
-  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
-  const buildingOfBill = new Map(portfolio.bills.map((b) => [b.billId, buildingOfMeter.get(b.meterId)]));
-  rows = {
-    bills: groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId)),
-    billLines: groupBy(portfolio.billLines, (l) => buildingOfBill.get(l.billId)),
-  };
-  rowsByPortfolio.set(portfolio, rows);
-  return rows;
-}
 
 /** The part of `portfolio` that analysing `building` reads (see the module comment). */
 export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array>, onBug: BugPolicy = "fail"): BuildingTask {
@@ -67,7 +41,7 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
   const buildings = portfolio.buildings.filter((b) => buildingIds.has(b.buildingId));
   const meters = portfolio.meters.filter((m) => meterIds.has(m.meterId));
   const stations = new Set(buildings.map((b) => b.weatherStation));
-  const rows = rowsByBuilding(portfolio);
+  const rows = billRowsByBuilding(portfolio);
   // Keys first: reading a value may mean reading a file (IntervalShelf).
   const pick = <V>(map: ReadonlyMap<string, V>, keep: (k: string) => boolean) => new Map([...map.keys()].filter(keep).map((k) => [k, map.get(k)!]));
   return {

@@ -16,6 +16,7 @@ import type { Bill, BillLine, Building, Meter, Portfolio } from "../domain/types
 import type { ReportInput } from "./input.ts";
 import type { TableModel } from "./siteModel.ts";
 import { forecastMethodShown } from "./forecastSection.ts";
+import { groupBy } from "../core/groupBy.ts";
 
 export interface BuildingSlice {
   building: Building;
@@ -44,21 +45,29 @@ export interface SliceSource {
 
 /** The source of every building's slice (one pass over the bills and lines, not one per building). */
 export function sliceSource(input: ReportInput, billsByMeter: ReadonlyMap<string, Bill[]>, linesByBill: ReadonlyMap<string, BillLine[]>, asOf: string | null): SliceSource {
-  const { portfolio } = input;
-  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
-  const buildingOfBill = new Map(portfolio.bills.map((b) => [b.billId, buildingOfMeter.get(b.meterId)]));
-  const billsByBuilding = new Map<string, Bill[]>();
-  for (const b of portfolio.bills) push(billsByBuilding, buildingOfMeter.get(b.meterId), b);
-  const linesByBuilding = new Map<string, BillLine[]>();
-  for (const l of portfolio.billLines) push(linesByBuilding, buildingOfBill.get(l.billId), l);
-  return { input, billsByMeter, linesByBill, asOf, billsByBuilding, linesByBuilding };
+  const rows = billRowsByBuilding(input.portfolio);
+  return { input, billsByMeter, linesByBill, asOf, billsByBuilding: rows.bills, linesByBuilding: rows.billLines };
 }
 
-function push<T>(map: Map<string, T[]>, key: string | undefined, value: T): void {
-  if (key === undefined) return;
-  const list = map.get(key);
-  if (list) list.push(value);
-  else map.set(key, [value]);
+const rowsByPortfolio = new WeakMap<Pick<Portfolio, "meters" | "bills" | "billLines">, { bills: Map<string, Bill[]>; billLines: Map<string, BillLine[]> }>();
+
+/**
+ * Bills and printed bill lines of each building, in file order (a bill whose meter is in no
+ * building, and its lines, in none), grouped once per portfolio object: the analysis tasks and
+ * the page slices both cut the portfolio by building, and filtering every bill per building
+ * grows with buildings × bills.
+ */
+export function billRowsByBuilding(portfolio: Pick<Portfolio, "meters" | "bills" | "billLines">): { bills: Map<string, Bill[]>; billLines: Map<string, BillLine[]> } {
+  let rows = rowsByPortfolio.get(portfolio);
+  if (rows) return rows;
+  const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
+  const buildingOfBill = new Map(portfolio.bills.map((b) => [b.billId, buildingOfMeter.get(b.meterId)]));
+  rows = {
+    bills: groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId)),
+    billLines: groupBy(portfolio.billLines, (l) => buildingOfBill.get(l.billId)),
+  };
+  rowsByPortfolio.set(portfolio, rows);
+  return rows;
 }
 
 /**
