@@ -123,6 +123,19 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
     await mkdir(dir, { recursive: true });
     folders.add(dir);
   };
+  /**
+   * Links (or copies) the published page at `path` into `stage` and returns its stat there, or
+   * null after removing it when it cannot be read back: a page must never be rendered over a
+   * link, since writing it in place would change the published file too.
+   */
+  const takePublished = async (path: string, stage: string): Promise<Awaited<ReturnType<typeof fileStat>>> => {
+    const target = join(stage, path);
+    await madeFolder(dirname(target));
+    await linkOrCopy(join(publishedDir, path), target);
+    const now = await fileStat(target);
+    if (now === null) await rm(target, { force: true });
+    return now;
+  };
   let reused = 0;
   let renderedCount = 0;
   return {
@@ -134,15 +147,8 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
       if (!before || before.key !== key) return false;
       const published = join(publishedDir, path);
       if (!(await unchangedSince(published, before))) return false;
-      const target = join(stage, path);
-      await madeFolder(dirname(target));
-      await linkOrCopy(published, target);
-      const now = await fileStat(target);
-      if (now === null) {
-        // Never render over a link: writing it in place would change the published file too.
-        await rm(target, { force: true });
-        return false;
-      }
+      const now = await takePublished(path, stage);
+      if (now === null) return false;
       next[path] = { ...before, ...now };
       reused++;
       return true;
@@ -167,19 +173,16 @@ export async function openPageReuse(options: { cacheDir: string; publishedDir: s
         if (!record || !(await unchangedSince(join(publishedDir, path), record))) return false;
         records.push([path, record]);
       }
-      const linked: string[] = [];
+      const taken: string[] = [];
       for (const [path, record] of records) {
-        const target = join(stage, path);
-        await madeFolder(dirname(target));
-        await linkOrCopy(join(publishedDir, path), target);
-        linked.push(target);
-        const now = await fileStat(target);
+        const now = await takePublished(path, stage);
         if (now === null) {
-          // Never render over a link (see reuse); the group is rendered whole instead.
-          for (const t of linked) await rm(t, { force: true });
+          // The group is rendered whole instead: none of its links may stay (see takePublished).
+          for (const p of taken) await rm(join(stage, p), { force: true });
           for (const [p] of records) delete next[p];
           return false;
         }
+        taken.push(path);
         next[path] = { ...record, ...now };
       }
       nextGroups[group] = { key, paths: [...before.paths] };
