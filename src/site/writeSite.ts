@@ -261,8 +261,7 @@ export async function writeSite(
     throw new SiteWriteError(`could not write the site to ${outDir} while ${stageName}: ${message}`, { cause });
   } finally {
     if (options.bundle === undefined) await early.dispose();
-    await rm(scratch, { recursive: true, force: true });
-    activeScratch.delete(scratch);
+    await removeScratchFolder(scratch);
   }
 }
 
@@ -295,6 +294,7 @@ export function makeScratchFolder(outDir: string): Promise<string> {
   return makeScratch(resolve(outDir));
 }
 
+/** Removes a scratch folder made by makeScratchFolder (or by this module) and forgets it. */
 export async function removeScratchFolder(path: string): Promise<void> {
   await rm(path, { recursive: true, force: true });
   activeScratch.delete(path);
@@ -331,10 +331,7 @@ export function startClientBundle(outDir: string, options: Pick<WriteSiteOptions
     async dispose() {
       abort.abort();
       await made.catch(() => undefined);
-      if (scratch !== null) {
-        await rm(scratch, { recursive: true, force: true });
-        activeScratch.delete(scratch);
-      }
+      if (scratch !== null) await removeScratchFolder(scratch);
     },
   };
 }
