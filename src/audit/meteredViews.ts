@@ -25,21 +25,20 @@ export function meteredViewsByBill(portfolio: Portfolio, masks: ReadonlyMap<stri
   const meters = new Map(portfolio.meters.map((m) => [m.meterId, m]));
   const zones = new Map(portfolio.buildings.map((b) => [b.buildingId, b.timezone]));
   // A meter's bills together: its readings are fetched once (they may be read from disk).
-  const views: (MeteredViews | null)[] = new Array(portfolio.bills.length).fill(null);
-  const positions = portfolio.bills.map((_, i) => i);
-  for (const [meterId, at] of groupBy(positions, (i) => portfolio.bills[i]!.meterId)) {
+  const views = new Map<Bill, MeteredViews | null>();
+  for (const [meterId, bills] of groupBy(portfolio.bills, (b) => b.meterId)) {
     const meter = meters.get(meterId);
     const zone = meter ? zones.get(meter.buildingId) : undefined;
     const series = meter && zone ? portfolio.intervals.get(meterId) : undefined;
     if (!meter || !series || !zone) continue;
-    for (const i of at) views[i] = billViews(portfolio.bills[i]!, series, masks.get(meterId), zone, meter.multiplier);
+    for (const bill of bills) views.set(bill, billViews(bill, series, masks.get(meterId), zone, meter.multiplier));
   }
   // Keyed in the order of the bills (a repeated bill id keeps its first place and last value).
   const out = new Map<string, MeteredViews>();
-  portfolio.bills.forEach((bill, i) => {
-    const v = views[i];
+  for (const bill of portfolio.bills) {
+    const v = views.get(bill);
     if (v) out.set(bill.billId, v);
-  });
+  }
   return out;
 }
 
