@@ -78,10 +78,7 @@ export function siteModelInParts(input: ReportInput): SiteModelInParts {
   const linesByBill = billLinesByBill(portfolio.billLines);
   const source = sliceSource(input, billsByMeter, linesByBill, asOf);
 
-  const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({
-    ...page,
-    canonical: canonicalFor(settings.basePath, page.path),
-  });
+  const withCanonical = canonicalIn(settings.basePath);
 
   // Every building's rows, made once: the index shows all or the first of them, the list pages all.
   const lists = portfolioLists(input, contexts, asOf);
@@ -135,7 +132,7 @@ export function pagesOfSlice(slice: BuildingSlice): Pick<SiteModel, "buildings" 
     currency: settings.currency,
     forecastMethod: slice.forecastMethod,
   };
-  const withCanonical = <T extends { path: string }>(page: T): T & { canonical: string } => ({ ...page, canonical: canonicalFor(settings.basePath, page.path) });
+  const withCanonical = canonicalIn(settings.basePath);
   // Each meter's baseline and quality sections: verdicts on the building page, detail on the meter page.
   const analysis = meterAnalysis(input, ctx);
   return {
@@ -169,4 +166,9 @@ export function tenantSiteModel(model: SiteModel): SiteModel {
     claims: [],
     tenantIndex: index,
   };
+}
+
+/** A page model with its canonical address under the site's base path. */
+function canonicalIn(basePath: string) {
+  return <T extends { path: string }>(page: T): T & { canonical: string } => ({ ...page, canonical: canonicalFor(basePath, page.path) });
 }
