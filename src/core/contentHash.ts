@@ -17,8 +17,13 @@ export function contentHash(value: unknown): string {
   const hash = createHash("sha256");
   const out = new HashInput(hash);
   const walk = (v: unknown): void => {
+    let digest: string | undefined;
     if (v === null) out.byte(0x6e); // n
     else if (v === undefined) out.byte(0x75); // u
+    else if (typeof v === "object" && (digest = digests.get(v)) !== undefined) {
+      out.tagged(0x23, digest.length); // #<length>: (no other value starts so)
+      out.text(digest);
+    }
     else if (typeof v === "boolean") out.byte(v ? 0x54 : 0x46); // T F
     else if (typeof v === "number") {
       out.byte(0x64); // d
@@ -66,6 +71,37 @@ export function contentHash(value: unknown): string {
   walk(value);
   out.flush();
   return hash.digest("hex");
+}
+
+/** Digests standing for values in contentHash (withContentDigest); weak, so a value let go takes its digest with it. */
+const digests = new WeakMap<object, string>();
+
+/**
+ * Records `digest` as what contentHash hashes for `value` instead of walking it, and returns
+ * `value`: for large values that many keys contain (a meter's readings, read again for every key
+ * that holds them). `digest` must change whenever `value`'s content would (contentHash(value)
+ * taken once, or a hash of the inputs a pure computation made `value` from), and `value` must not
+ * change afterwards: a changed value would keep its old digest. A value with a digest hashes
+ * differently from the same content without one: at worst a cache miss, never a wrong hit.
+ * @example contentHash({ s: withContentDigest(series, "ab12…") }) // walks { s: "#ab12…" }, not the readings
+ */
+export function withContentDigest<T extends object>(value: T, digest: string): T {
+  digests.set(value, digest);
+  return value;
+}
+
+/** The digest recorded for `value` by withContentDigest, if any. */
+export function contentDigestOf(value: object): string | undefined {
+  return digests.get(value);
+}
+
+/**
+ * `value` with its own contentHash recorded as its digest (withContentDigest): hashed once here,
+ * not again by every key that contains it. `value` must not change afterwards.
+ * @example for (const bill of bills) hashedOnce(bill)
+ */
+export function hashedOnce<T extends object>(value: T): T {
+  return digests.has(value) ? value : withContentDigest(value, contentHash(value));
 }
 
 /**

@@ -17,7 +17,8 @@ import type { MonthAdjustment } from "./residual.ts";
 import { addDays, localMidnightMs } from "../core/time/index.ts";
 import { lowerBound } from "../core/sorted.ts";
 import { cToF } from "../core/units.ts";
-import type { Memo } from "../core/memo.ts";
+import { noMemo, type Memo } from "../core/memo.ts";
+import { contentDigestOf, contentHash, withContentDigest } from "../core/contentHash.ts";
 
 const HOUR_MS = 3_600_000;
 
@@ -108,11 +109,18 @@ function weatherBefore(w: WeatherSeries | undefined, untilMs: number): WeatherSe
   return { ...w, tempC: w.tempC.subarray(0, hours), filled: w.filled.subarray(0, hours) };
 }
 
-/** Interval readings starting before `untilMs`. */
+/**
+ * Interval readings starting before `untilMs`. A series with a content digest (withContentDigest)
+ * gives a cut with one too, made from the series' digest and the cut's length (the cut is its
+ * first n readings), so the forecast keys of every origin do not hash the readings again.
+ */
 function intervalsBefore(s: IntervalSeries | undefined, untilMs: number): IntervalSeries | undefined {
   if (!s) return undefined;
   const n = lowerBound(s.startMs, untilMs);
-  return n === 0 ? undefined : { ...s, startMs: s.startMs.subarray(0, n), values: s.values.subarray(0, n) };
+  if (n === 0) return undefined;
+  const cut = { ...s, startMs: s.startMs.subarray(0, n), values: s.values.subarray(0, n) };
+  const whole = contentDigestOf(s);
+  return whole === undefined ? cut : withContentDigest(cut, contentHash(["first readings", whole, n]));
 }
 
 /**
@@ -186,7 +194,7 @@ export function buildingForecastInputs(portfolio: Portfolio<Tariff>, building: B
       bills,
       billedBills: options.billedBills ? billsKnownAt(billsOfMeter(options.billedBills, meter.meterId), options.asOf) : undefined,
       intervals: series.get(meter.meterId) ?? null,
-      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? ratchetHistory(portfolio, meter, bills, tariff!, building.timezone, series.get(meter.meterId), options.analysed) : [],
+      previousBillingDemandsKw: hasRatchetOrDemand(tariff ?? undefined) ? ratchetHistory(portfolio, meter, bills, tariff!, building.timezone, series.get(meter.meterId), options.analysed, options.memo) : [],
       loadShapeByHourOfWeek: shapeOf(meter),
       escalation: portfolio.settings.escalation[meter.commodity] ?? 0,
       scenarios: options.scenarios,
@@ -230,9 +238,9 @@ export function analysedBillingDemands(known: readonly Bill[], analysedBills: re
  * (analysedBillingDemands), priced again only where neither does. `series` is the meter's
  * interval data as seen at the origin (readings before it).
  */
-export function ratchetHistory(portfolio: Portfolio<Tariff>, meter: Meter, known: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined, analysed?: AnalysedPricing): number[] {
+export function ratchetHistory(portfolio: Portfolio<Tariff>, meter: Meter, known: Bill[], tariff: Tariff, timezone: string, series: IntervalSeries | undefined, analysed?: AnalysedPricing, memo?: Memo): number[] {
   return analysedBillingDemands(known, analysed && billsOfMeter(analysed.bills, meter.meterId), analysed?.billingDemandKw)
-    ?? analysedBillingDemands(known, billsOfMeter(portfolio.bills, meter.meterId), pricedOnce(portfolio, meter, tariff, timezone))
+    ?? analysedBillingDemands(known, billsOfMeter(portfolio.bills, meter.meterId), pricedOnce(portfolio, meter, tariff, timezone, memo))
     ?? recentBillingDemands(meter, known, tariff, timezone, series);
 }
 
@@ -242,17 +250,21 @@ export function ratchetHistory(portfolio: Portfolio<Tariff>, meter: Meter, known
  * bills are mostly the first ones of that pricing order, so analysedBillingDemands reads their
  * history from here instead of pricing them again (the same argument as for the analysis's
  * pricing). Kept per portfolio object (the backtests and the forecast share one; no stage
- * changes a portfolio once made).
+ * changes a portfolio once made), and in `memo` between builds: a function of the meter, its
+ * bills, tariff, zone and readings alone.
  */
 const pricedOnceByPortfolio = new WeakMap<Portfolio<Tariff>, Map<string, Map<string, number | null>>>();
-function pricedOnce(portfolio: Portfolio<Tariff>, meter: Meter, tariff: Tariff, timezone: string): Map<string, number | null> {
+function pricedOnce(portfolio: Portfolio<Tariff>, meter: Meter, tariff: Tariff, timezone: string, memo: Memo = noMemo): Map<string, number | null> {
   let byMeter = pricedOnceByPortfolio.get(portfolio);
   if (!byMeter) pricedOnceByPortfolio.set(portfolio, (byMeter = new Map()));
   let demands = byMeter.get(meter.meterId);
   if (!demands) {
     const bills = billsOfMeter(portfolio.bills, meter.meterId);
-    const priced = priceMeterBills({ meter, bills, timezone, series: portfolio.intervals.get(meter.meterId), price: (r) => priceBill(tariff, r), meteredBasis: false });
-    demands = new Map([...priced].map(([id, p]) => [id, p.computed?.billingDemandKw ?? null]));
+    const series = portfolio.intervals.get(meter.meterId);
+    demands = memo("meter-billing-demands", { meter, bills, tariff, timezone, series }, () => {
+      const priced = priceMeterBills({ meter, bills, timezone, series, price: (r) => priceBill(tariff, r), meteredBasis: false });
+      return new Map([...priced].map(([id, p]) => [id, p.computed?.billingDemandKw ?? null]));
+    });
     byMeter.set(meter.meterId, demands);
   }
   return demands;

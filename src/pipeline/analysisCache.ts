@@ -20,10 +20,11 @@ import { serialize } from "node:v8";
 import { deserializeOwned } from "../core/deserializeOwned.ts";
 import type { BuildingTask, PlainResults } from "./buildingTask.ts";
 import type { Memo } from "../core/memo.ts";
-import { contentHash, hashFolder } from "../core/contentHash.ts";
+import { contentHash, hashFolder, withContentDigest } from "../core/contentHash.ts";
+import type { BuildingResults } from "../report/index.ts";
 
 /** Bump when the entry format or the key's recipe changes. */
-const FORMAT = "ohmbook-analysis-cache/1";
+const FORMAT = "ohmbook-analysis-cache/2";
 const PRUNE_AFTER_DAYS = 30;
 
 export interface AnalysisCache {
@@ -71,6 +72,17 @@ export function keyTariffs(cache: AnalysisCache, tariffs: ReadonlyMap<string, un
 export function cacheKey(cache: AnalysisCache, task: BuildingTask): string {
   const own = { ...task, onBug: null, portfolio: { ...task.portfolio, tariffs: null } };
   return createHash("sha256").update(cache.program).update(cache.tariffs).update(contentHash(own)).digest("hex");
+}
+
+/**
+ * Gives each bill's pricing in `results` (the analysis whose cache key is `key`) a content digest
+ * made from that key and the bill's id (core/contentHash.ts withContentDigest): the key names
+ * everything the analysis read, so it names each bill's pricing too, and the building's page
+ * key hashes a digest per bill instead of every priced line again. Nothing changes a pricing
+ * after the analysis.
+ */
+export function digestPricing(results: Pick<BuildingResults, "priced">, key: string): void {
+  for (const [billId, priced] of results.priced) withContentDigest(priced, contentHash(["analysed pricing", key, billId]));
 }
 
 function entryPath(cache: AnalysisCache, key: string): string {

@@ -28,6 +28,7 @@ import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, makeScratchFolder, removeScratchFolder, SiteWriteError, startClientBundle, writeSite, type EarlyBundle } from "../site/index.ts";
 import { IntervalShelf } from "./intervalShelf.ts";
+import { withInputDigests } from "./hashOnce.ts";
 import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
 import { analyseBuildings } from "./analysisPool.ts";
 import { cacheMemo, defaultCacheDir, openAnalysisCache, programFingerprint, type AnalysisCache } from "./analysisCache.ts";
@@ -320,7 +321,8 @@ async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, s
   // read from the shelf a meter at a time. Neither the portfolio as read nor its in-memory
   // readings are returned, so they can go.
   const shelf = IntervalShelf.fill(await shelfDir(), quality.portfolio.intervals);
-  const portfolio = { ...quality.portfolio, intervals: shelf } as Portfolio<Tariff>;
+  // Bills, lines, tariffs and weather hashed once for every cache key that holds them (hashOnce.ts).
+  const portfolio = withInputDigests({ ...quality.portfolio, intervals: shelf } as Portfolio<Tariff>);
   return { weatherGaps: loaded.weatherGaps, issues, quality: { meters: quality.meters }, portfolio };
 }
 

@@ -28,7 +28,7 @@ import { dirname, join } from "node:path";
 import { contentHash, hashFolder } from "../core/contentHash.ts";
 
 /** Bump when the manifest's format or the key's recipe changes. */
-const FORMAT = "ohmbook-page-cache/3";
+const FORMAT = "ohmbook-page-cache/4";
 const MANIFEST = "pages.json";
 
 interface Manifest {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { createHash } from "node:crypto";
-import { contentHash } from "../../src/core/contentHash.ts";
+import { contentDigestOf, contentHash, hashedOnce, withContentDigest } from "../../src/core/contentHash.ts";
 
 /**
  * The recipe as first written, one `Hash.update` per piece (kept here as the reference): the
@@ -80,5 +80,33 @@ describe("contentHash", () => {
   it("does not depend on key order or on function members", () => {
     expect(contentHash({ a: 1, b: [2], f: () => 1 })).toBe(contentHash({ b: [2], a: 1 }));
     expect(contentHash(1)).not.toBe(contentHash("1"));
+  });
+
+  it("hashes a value with a recorded digest by that digest: the same wherever it sits, different from its content walked and from another digest", () => {
+    const readings = { meterId: "M1", values: new Float64Array([1, 2, 3]) };
+    const digested = withContentDigest({ ...readings }, "d1");
+    expect(contentDigestOf(digested)).toBe("d1");
+    expect(contentHash({ s: digested, n: 1 })).toBe(contentHash({ n: 1, s: withContentDigest({ ...readings }, "d1") }));
+    expect(contentHash({ s: digested })).not.toBe(contentHash({ s: readings }));
+    expect(contentHash({ s: digested })).not.toBe(contentHash({ s: withContentDigest({ ...readings }, "d2") }));
+    // The digest is not mistaken for a string of the same text.
+    expect(contentHash([digested])).not.toBe(contentHash(["d1"]));
+    // A copy has no digest: it is walked.
+    expect(contentHash({ ...digested })).toBe(contentHash(readings));
+  });
+
+  it("hashedOnce records the value's own hash: values of equal content hash alike, and any change of content changes the hash", () => {
+    fc.assert(
+      fc.property(fc.array(fc.double(), { minLength: 1, maxLength: 30 }), fc.nat(), (xs, at) => {
+        const a = hashedOnce({ id: "B1", xs: [...xs] });
+        const b = hashedOnce({ id: "B1", xs: [...xs] });
+        expect(contentDigestOf(a)).toBe(contentHash({ id: "B1", xs }));
+        expect(contentHash([a])).toBe(contentHash([b]));
+        const changed = [...xs];
+        const i = at % xs.length;
+        changed[i] = Object.is(changed[i], 1) ? 2 : 1;
+        expect(contentHash([hashedOnce({ id: "B1", xs: changed })])).not.toBe(contentHash([a]));
+      }),
+    );
   });
 });

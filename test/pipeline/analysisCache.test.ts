@@ -76,6 +76,29 @@ describe("analysis cache", () => {
     await expectSameFiles(join(work, "d"), join(work, "c"));
   }, 300_000);
 
+  it("one interval reading changed: re-analyses that meter's building only, makes its pages again, and writes the site a build without cache writes", async () => {
+    const cacheDir = join(work, "cache-readings");
+    const out = join(work, "readings");
+    await buildPortfolioSite({ dir, outDir: out, strict: false, jobs: 1, cacheDir });
+    // The 50th reading of SOUTH-2's electricity meter, 20 → 21 kWh.
+    const file = join(dir, "intervals", "S2-E-2025-01.csv");
+    const original = await readFile(file, "utf8");
+    const rows = original.split("\n");
+    const cells = rows[50]!.split(",");
+    cells[2] = String(Number(cells[2]) + 1);
+    rows[50] = cells.join(",");
+    await writeFile(file, rows.join("\n"));
+    try {
+      const rebuilt = await buildPortfolioSite({ dir, outDir: out, strict: false, jobs: 1, cacheDir });
+      expect(rebuilt.summary.buildingsFromCache).toBe(2);
+      expect(rebuilt.summary.pagesReused).toBeGreaterThan(0);
+      await buildPortfolioSite({ dir, outDir: join(work, "readings-fresh"), strict: false, jobs: 1 });
+      await expectSameFiles(join(work, "readings-fresh"), out);
+    } finally {
+      await writeFile(file, original);
+    }
+  }, 300_000);
+
   it("keys on the program and the settings as well as the building's own data", async () => {
     const loaded = await loadPortfolio("test/fixtures/spec-portfolio");
     const portfolio = loaded.portfolio as Portfolio<Tariff>;

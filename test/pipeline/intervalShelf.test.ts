@@ -5,6 +5,7 @@ import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import type { IntervalSeries } from "../../src/domain/types.ts";
 import { IntervalShelf } from "../../src/pipeline/intervalShelf.ts";
+import { contentDigestOf, contentHash } from "../../src/core/contentHash.ts";
 
 const seriesArb = fc.array(fc.double({ noDefaultInfinity: false, noNaN: false }), { maxLength: 300 }).map((values) => ({
   intervalMinutes: 15,
@@ -81,5 +82,30 @@ describe("IntervalShelf", () => {
     for (const f of readdirSync(dir2)) truncateSync(join(dir2, f), 8);
     expect(() => other.get("M")).toThrow(/scratch file .* is shorter than written/);
     other.dispose();
+  });
+
+  it("gives every series read back its content digest: equal for equal readings, changed by any one reading (so every key holding it changes)", () => {
+    fc.assert(
+      fc.property(seriesArb.filter((s) => s.values.length > 0), fc.nat(), fc.double({ noNaN: true }), (s, at, replacement) => {
+        const i = at % s.values.length;
+        fc.pre(!Object.is(s.values[i], replacement));
+        const source = new Map<string, IntervalSeries>([["M", { meterId: "M", ...s }]]);
+        const changedValues = Float64Array.from(s.values);
+        changedValues[i] = replacement;
+        const changed = new Map<string, IntervalSeries>([["M", { meterId: "M", ...s, values: changedValues }]]);
+        const [a, b, c] = [IntervalShelf.fill(freshDir(), source), IntervalShelf.fill(freshDir(), source), IntervalShelf.fill(freshDir(), changed)];
+        try {
+          expect(a.digestOf("M")).toBe(contentHash(source.get("M")));
+          expect(contentDigestOf(a.get("M")!)).toBe(a.digestOf("M"));
+          expect(contentHash({ readings: a.get("M") })).toBe(contentHash({ readings: b.get("M") }));
+          expect(c.digestOf("M")).not.toBe(a.digestOf("M"));
+          expect(contentHash({ readings: c.get("M") })).not.toBe(contentHash({ readings: a.get("M") }));
+          expect(a.digestOf("not a meter")).toBeUndefined();
+        } finally {
+          for (const shelf of [a, b, c]) shelf.dispose();
+        }
+      }),
+      { numRuns: 40 },
+    );
   });
 });
