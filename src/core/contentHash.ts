@@ -68,10 +68,17 @@ export function contentHash(value: unknown): string {
       out.byte(0x7d); // }
     }
   };
-  walk(value);
-  out.flush();
+  try {
+    walk(value);
+    out.flush();
+  } finally {
+    out.release();
+  }
   return hash.digest("hex");
 }
+
+/** The buffer HashInput lends out (undefined while lent). */
+let sharedBuffer: Buffer | undefined = Buffer.allocUnsafe(1 << 16);
 
 /** Digests standing for values in contentHash (withContentDigest); weak, so a value let go takes its digest with it. */
 const digests = new WeakMap<object, string>();
@@ -113,10 +120,24 @@ export function hashedOnce<T extends object>(value: T): T {
  * updates gave (strings as UTF-8), so keys do not change (test/core/contentHash.test.ts).
  */
 class HashInput {
-  private readonly buffer = Buffer.allocUnsafe(1 << 16);
+  private readonly buffer: Buffer;
   private used = 0;
 
-  constructor(private readonly hash: Hash) {}
+  /**
+   * One buffer for every hash taken: allocating 64 KiB per call cost more than hashing the small
+   * values most keys are. A hash taken while another is being taken (a getter that hashes) gets
+   * a buffer of its own; `release` hands the shared one back.
+   */
+  constructor(private readonly hash: Hash) {
+    if (sharedBuffer !== undefined) {
+      this.buffer = sharedBuffer;
+      sharedBuffer = undefined;
+    } else this.buffer = Buffer.allocUnsafe(1 << 16);
+  }
+
+  release(): void {
+    sharedBuffer = this.buffer;
+  }
 
   byte(b: number): void {
     if (this.used === this.buffer.length) this.flush();

@@ -75,14 +75,15 @@ export function cacheKey(cache: AnalysisCache, task: BuildingTask): string {
 }
 
 /**
- * Gives each bill's pricing in `results` (the analysis whose cache key is `key`) a content digest
- * made from that key and the bill's id (core/contentHash.ts withContentDigest): the key names
- * everything the analysis read, so it names each bill's pricing too, and the building's page
- * key hashes a digest per bill instead of every priced line again. Nothing changes a pricing
- * after the analysis.
+ * Gives each bill's pricing and each meter's baseline in `results` (the analysis whose cache key
+ * is `key`) a content digest made from that key and the bill's or meter's id
+ * (core/contentHash.ts withContentDigest): the key names everything the analysis read, so it
+ * names each of its results too, and the building's page key hashes a digest per bill and meter
+ * instead of every priced line and model point again. Nothing changes them after the analysis.
  */
-export function digestPricing(results: Pick<BuildingResults, "priced">, key: string): void {
+export function digestAnalysis(results: Pick<BuildingResults, "priced" | "baselines">, key: string): void {
   for (const [billId, priced] of results.priced) withContentDigest(priced, contentHash(["analysed pricing", key, billId]));
+  results.baselines.forEach((b, i) => withContentDigest(b, contentHash(["analysed baseline", key, i, b.meterId])));
 }
 
 function entryPath(cache: AnalysisCache, key: string): string {

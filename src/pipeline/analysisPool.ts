@@ -22,7 +22,7 @@ import { internStrings } from "../core/internStrings.ts";
 import { OhmbookError, type BugPolicy } from "../core/errors.ts";
 import type { BuildingResults } from "../report/index.ts";
 import { analyseTask, buildingTask, hydrateResults, type BuildingTask, type PlainResults } from "./buildingTask.ts";
-import { cacheKey, digestPricing, isCached, keyTariffs, pruneCache, readCached, writeCached, type AnalysisCache } from "./analysisCache.ts";
+import { cacheKey, digestAnalysis, isCached, keyTariffs, pruneCache, readCached, writeCached, type AnalysisCache } from "./analysisCache.ts";
 
 export interface AnalyseOptions {
   /** Worker threads; 1 analyses in this thread. Default: os.availableParallelism(). */
@@ -95,7 +95,7 @@ export async function analyseBuildings(portfolio: Portfolio<Tariff>, masks: Read
         }
         if (plain.bugReport !== undefined) options.onBugReport?.(buildings[i]!.buildingId, plain.bugReport);
         results[i] = hydrateResults(internStrings(plain, strings));
-        if (key) digestPricing(results[i]!, key);
+        if (key) digestAnalysis(results[i]!, key);
         options.onDone?.(++done, buildings.length, buildings[i]!.buildingId);
       }
     };

@@ -2,6 +2,7 @@
  * Maps the pipeline's results onto the report stage's input (src/report/input.ts): plain data,
  * nothing computed here that a page shows without a source in the pipeline.
  */
+import { contentDigestOf, contentHash, withContentDigest } from "../core/contentHash.ts";
 import { groupBy } from "../core/groupBy.ts";
 import type { Dispute } from "../disputes/index.ts";
 import type { InputIssue } from "../core/issues.ts";
@@ -73,7 +74,7 @@ export function toReportInput(parts: ReportInputParts): ReportInput {
     findings: parts.findings,
     disputes: parts.disputes,
     models: modelSummaries(results),
-    baselines: baselines.map((b) => reportBaseline(b, unitOf.get(b.meterId) ?? "")),
+    baselines: baselines.map((b) => digestedLike(b, "report baseline", reportBaseline(b, unitOf.get(b.meterId) ?? ""), unitOf.get(b.meterId) ?? "")),
     quality: parts.quality.map(reportQuality),
     weatherDetections: parts.weatherGaps.map((g) => ({ stationId: g.stationId, startMs: g.startMs, endMs: g.endMs, hours: g.hours, action: g.action })),
     forecast: forecast?.forecast.rows.map((r) => ({
@@ -269,6 +270,16 @@ function modelSummaries(results: BuildingResults[]): ReportModelSummary[] {
     }
   }
   return rows;
+}
+
+/**
+ * `made` (what `kind` made of `from` and `extra`, a pure function of them) with a content digest
+ * made from `from`'s, when `from` has one (core/contentHash.ts withContentDigest): a page key
+ * then hashes it as cheaply as the analysis result it was made from.
+ */
+function digestedLike<T extends object>(from: object, kind: string, made: T, extra: unknown): T {
+  const digest = contentDigestOf(from);
+  return digest === undefined ? made : withContentDigest(made, contentHash([kind, digest, extra]));
 }
 
 function reportBaseline(b: MeterBaseline, unit: string): ReportBaseline {
