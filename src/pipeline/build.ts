@@ -316,13 +316,13 @@ async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, s
   issues.push(...cut.issues);
   reporter.stage("Screening interval data and aligning meter clocks");
   // With a cache, meters whose interval data and weather are unchanged are not screened again.
-  const quality = assessIntervalMeters(cut.portfolio, cache ? cacheMemo(cache) : undefined);
+  // Bills, lines, tariffs and weather hashed once for every cache key that holds them (hashOnce.ts).
+  const quality = assessIntervalMeters(withInputDigests(cut.portfolio), cache ? cacheMemo(cache) : undefined);
   // From here on every stage sees the corrected clocks (flagged readings stay in the record),
   // read from the shelf a meter at a time. Neither the portfolio as read nor its in-memory
   // readings are returned, so they can go.
   const shelf = IntervalShelf.fill(await shelfDir(), quality.portfolio.intervals);
-  // Bills, lines, tariffs and weather hashed once for every cache key that holds them (hashOnce.ts).
-  const portfolio = withInputDigests({ ...quality.portfolio, intervals: shelf } as Portfolio<Tariff>);
+  const portfolio = { ...quality.portfolio, intervals: shelf } as Portfolio<Tariff>;
   return { weatherGaps: loaded.weatherGaps, issues, quality: { meters: quality.meters }, portfolio };
 }
 
