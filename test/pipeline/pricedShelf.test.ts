@@ -43,6 +43,11 @@ describe("PricedShelf", () => {
           }
           expect(shelf.get("not a bill")).toBeUndefined();
           expect(shelf.has("not a bill")).toBe(false);
+          // Bills of many buildings in any order (one record read at a time) on a fresh shelf.
+          const again = PricedShelf.fill(dir, buildings);
+          const ids = [...merged.keys()].reverse();
+          for (let k = 0; k < ids.length; k += 2) expect(again.get(ids[k]!)).toEqual(merged.get(ids[k]!));
+          for (const id of ids) expect(again.get(id)).toEqual(merged.get(id));
           const seen: [string, PricedBill][] = [];
           shelf.forEach((v, k) => seen.push([k, v]));
           expect(seen).toEqual([...merged]);
