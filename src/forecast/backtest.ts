@@ -51,6 +51,7 @@ import { MONTH_ADJUSTMENTS, type MonthAdjustment } from "./residual.ts";
 import { addMonthsIso, monthsAfter } from "../core/time/index.ts";
 import { expectedProblem } from "../core/errors.ts";
 import { noMemo, type Memo } from "../core/memo.ts";
+import { garbageBudget } from "../core/collectGarbage.ts";
 import { contentHash } from "../core/contentHash.ts";
 
 /** Noise factors tried. */
@@ -315,10 +316,14 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   };
 
   // Inputs per origin (refitted on the truncated data), and the months each meter is judged on.
+  // Each row's scenarios are made and dropped many times over; V8 let that garbage reach twice
+  // the live heap (the forecast stage's peak): collected as it piles up.
+  const budget = garbageBudget();
   const perOrigin = origins.map((cut) => {
-    const inputs = portfolio.buildings.flatMap((b) =>
-      buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed, memo: options.memo, analysed: options.analysed }),
-    );
+    const inputs = portfolio.buildings.flatMap((b) => {
+      budget.check();
+      return buildingForecastInputs(portfolio, b, { asOf: cut, months: 12, scenarios: options.scenarios, seed: options.seed, memo: options.memo, analysed: options.analysed });
+    });
     const rows: { input: MeterForecastInput; meter: BacktestMeter; contexts: ReturnType<typeof meterPricingContexts>; drawn: { noise?: ScenarioNoise }; key?: string }[] = [];
     for (const input of inputs) {
       const id = input.meter.meterId;
@@ -359,6 +364,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   // Weather basis: the P50 path of every candidate at the model's own noise.
   for (const rows of perOrigin) {
     for (const r of rows) {
+      budget.check();
       r.meter.p50ByBasis = memo("backtest-basis-paths", { ...keyOf(r), bases }, () => {
         const paths: BacktestMeter["p50ByBasis"] = {};
         for (const basis of bases) {
@@ -410,6 +416,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
     const byOrigin: BasisScore["byOrigin"] = [];
     perOrigin.forEach((rows, o) => {
       const paths = rows.map((r) => {
+        budget.check();
         if (adjustment === "none") return basis ? r.meter.p50ByBasis[basis] ?? null : null;
         return memo("backtest-adjusted-path", { ...keyOf(r), basis, adjustment }, () => {
           try {
@@ -435,6 +442,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
   // Band: priced P10/P90 paths at the chosen basis and adjustment for every factor.
   for (const rows of perOrigin) {
     for (const r of rows) {
+      budget.check();
       r.meter.bandByFactor = memo("backtest-bands", { ...keyOf(r), basis, adjustment, grid }, () => {
         const input = { ...(basis ? withBasis(r.input, basis) : r.input), adjustment };
         const bands: BacktestMeter["bandByFactor"] = [];

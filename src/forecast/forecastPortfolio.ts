@@ -14,6 +14,7 @@ import type { WeatherBasisId } from "./weatherBasis.ts";
 import type { MonthAdjustment } from "./residual.ts";
 import { scenarioYears } from "./weatherYears.ts";
 import { noMemo } from "../core/memo.ts";
+import { garbageBudget } from "../core/collectGarbage.ts";
 import { contentHash } from "../core/contentHash.ts";
 import { scenarioTotals } from "./scenarioMatrix.ts";
 
@@ -52,7 +53,9 @@ export function forecastPortfolio(portfolio: Portfolio<Tariff>, options: Forecas
   const inputsByBuilding = portfolio.buildings.map((building) => buildingForecastInputs(portfolio, building, options));
   // One calendar year per scenario for the whole portfolio, so totals keep the weather's correlation across stations.
   const scenarioYearOrder = [...new Set(inputsByBuilding.flat().flatMap((i) => scenarioYears(i.weatherYears).map((y) => y.year)))].sort((a, b) => a - b);
+  const budget = garbageBudget();
   const buildings = portfolio.buildings.map((building, b) => {
+    budget.check();
     const inputs = inputsByBuilding[b]!.map((i) => ({ ...i, scenarioYearOrder }));
     // Each input hashed once for the memo (not at all without one).
     const keys = inputs.map((input) => (memo === noMemo ? "" : contentHash(input)));

@@ -23,12 +23,13 @@ import { dataFileEntries } from "../report/index.ts";
 import { collectGarbage } from "../core/collectGarbage.ts";
 import { oneShot } from "../core/oneShot.ts";
 import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
-import { analysedPricing, forecastWithTrackRecord, type ForecastBundle } from "../forecast/index.ts";
+import { analysedPricing, forecastWithTrackRecord, type AnalysedPricing, type ForecastBundle } from "../forecast/index.ts";
 import { effectiveAsOf } from "../report/index.ts";
 import { cutAtAsOf } from "./asOf.ts";
 import { checkOutputFolder, makeScratchFolder, removeScratchFolder, SiteWriteError, startClientBundle, writeSite, type EarlyBundle } from "../site/index.ts";
 import { IntervalShelf } from "./intervalShelf.ts";
 import { withInputDigests } from "./hashOnce.ts";
+import { PricedShelf } from "./pricedShelf.ts";
 import { problemOrBug, rethrow, type BugHandler } from "./analyseBuilding.ts";
 import { analyseBuildings } from "./analysisPool.ts";
 import { cacheMemo, defaultCacheDir, openAnalysisCache, programFingerprint, type AnalysisCache } from "./analysisCache.ts";
@@ -151,7 +152,7 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
   reporter.stage(`Pricing, checking and modelling ${portfolio.buildings.length} building(s)`);
   const masks = new Map(quality.meters.map((q) => [q.meterId, q.mask]));
   reporter.step(0, portfolio.buildings.length, "");
-  const results = await analyseBuildings(portfolio, masks, {
+  const analysed = await analyseBuildings(portfolio, masks, {
     jobs: options.jobs,
     cache,
     onBug: (options.onBug ?? "fail") === "fail" || options.strict ? "fail" : "report",
@@ -161,7 +162,7 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
   });
   reporter.finish();
 
-  const failed = results.filter((r) => r.failure !== null);
+  const failed = analysed.filter((r) => r.failure !== null);
   if (options.strict && failed.length > 0) {
     throw new InputError(
       failed.map((r) => ({
@@ -174,15 +175,24 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
     );
   }
 
-  const findings = results.flatMap((r) => r.findings);
-  const priced = new Map<string, PricedBill>();
-  for (const r of results) for (const [id, p] of r.priced) priced.set(id, p);
-  const disputes = portfolioDisputes(portfolio, findings, priced);
+  const findings = analysed.flatMap((r) => r.findings);
+  const allPriced = new Map<string, PricedBill>();
+  for (const r of analysed) for (const [id, p] of r.priced) allPriced.set(id, p);
+  // What the later stages need from every bill's pricing at once, taken before it goes on disk.
+  const disputes = portfolioDisputes(portfolio, findings, allPriced);
+  const tally = pricingTally(allPriced);
+  const ratchetPricing = analysedPricing(portfolio.bills, allPriced);
+  allPriced.clear();
+  // From here on a building's priced bills (with their lines) are read from disk when its pages
+  // or data files ask for them (pricedShelf.ts).
+  const priced = PricedShelf.fill(await scratch(), analysed.map((r) => r.priced));
+  const results: BuildingResults[] = analysed.map((r, i) => ({ ...r, priced: priced.building(i) }));
+  analysed.length = 0;
   const monthlyMetered = monthlyMeteredByMeter(portfolio);
 
   collectGarbage();
   reporter.stage(`Forecasting the next ${portfolio.settings.forecastMonths} months`);
-  let forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined, priced);
+  let forecast = runForecast(portfolio, results, issues, findings, bugHandler(options, reporter, "forecasting"), cache ? cacheMemo(cache) : undefined, ratchetPricing);
 
   collectGarbage();
   reporter.stage(`Writing the site to ${options.outDir}`);
@@ -204,9 +214,7 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
     outDir: options.outDir,
     buildings: portfolio.buildings.length,
     bills: portfolio.bills.length,
-    billsPriced: [...priced.values()].filter((p) => p.computed !== null).length,
-    billsCheckedExactly: [...priced.values()].filter((p) => billCheckState(p) === "exact").length,
-    billsEstimated: [...priced.values()].filter((p) => { const s = billCheckState(p); return s === "estimated" || s === "needs-interval-data"; }).length,
+    ...tally,
     claims: moneyOf(disputes.filter((d) => d.kind === "claim")),
     backBillRisks: moneyOf(disputes.filter((d) => d.kind === "back-bill-risk")),
     findings: { error: count("error"), warning: count("warning"), info: count("info") },
@@ -229,7 +237,7 @@ async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache:
  * across buildings). A failure here costs the forecast, never the rest of the site: it becomes a
  * warning and the pages say no forecast was made.
  */
-function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow, memo?: Memo, priced?: ReadonlyMap<string, PricedBill>): ForecastBundle | null {
+function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], issues: InputIssue[], findings: readonly Finding[], onBug: BugHandler = rethrow, memo?: Memo, analysed?: AnalysedPricing): ForecastBundle | null {
   const asOf = effectiveAsOf(portfolio);
   if (!asOf) return null;
   const baselines = new Map(results.flatMap((r) => r.baselines.map((b) => [b.meterId, b] as const)));
@@ -238,7 +246,6 @@ function runForecast(portfolio: Portfolio<Tariff>, results: BuildingResults[], i
   const held: Portfolio<Tariff> = { ...portfolio, intervals: new Map(portfolio.intervals) };
   try {
     // The ratchet history reads the analysis's pricing where it is the same as pricing again (portfolioInputs.ts).
-    const analysed = priced ? analysedPricing(portfolio.bills, priced) : undefined;
     return forecastWithTrackRecord(held, { asOf, months: portfolio.settings.forecastMonths, baselines, findings, memo, analysed });
   } catch (error) {
     issues.push({
@@ -275,6 +282,20 @@ function checkCacheFolder(cacheDir: string, outDir: string, inputDir: string): v
 
 function moneyOf(disputes: Dispute[]): { count: number; total: number } {
   return { count: disputes.length, total: roundCents(disputes.reduce((s, d) => s + d.claimAmount, 0)) };
+}
+
+/** How far the bills could be checked, for the summary. */
+function pricingTally(priced: ReadonlyMap<string, PricedBill>): Pick<BuildSummary, "billsPriced" | "billsCheckedExactly" | "billsEstimated"> {
+  let billsPriced = 0;
+  let billsCheckedExactly = 0;
+  let billsEstimated = 0;
+  for (const p of priced.values()) {
+    if (p.computed !== null) billsPriced++;
+    const state = billCheckState(p);
+    if (state === "exact") billsCheckedExactly++;
+    else if (state === "estimated" || state === "needs-interval-data") billsEstimated++;
+  }
+  return { billsPriced, billsCheckedExactly, billsEstimated };
 }
 
 /** The dispute list of the whole portfolio, from every building's findings. */

@@ -2,7 +2,7 @@
  * The machine-readable files every build publishes under OUT/data/ (contract: outputs.md),
  * as text keyed by file name. Pure: the site writer does the writing.
  */
-import { billCheckState } from "../tariff/index.ts";
+import { billCheckState, type BillCheckState } from "../tariff/index.ts";
 import { disputesCsv, disputesJson, type Dispute } from "../disputes/index.ts";
 import type { Bill, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
@@ -26,6 +26,7 @@ import { unitFactor } from "../tariff/index.ts";
 import { kwhPerM2ToKbtuPerFt2 } from "./energy.ts";
 import { moneyCell, roundCents } from "../core/money.ts";
 import { groupBy } from "../core/groupBy.ts";
+import { garbageBudget } from "../core/collectGarbage.ts";
 
 export interface OutputsInput {
   portfolio: Portfolio<Tariff>;
@@ -33,7 +34,7 @@ export interface OutputsInput {
   findings: Finding[];
   /** Claims and back-billing risks (src/disputes), in page order. */
   disputes: Dispute[];
-  priced: Map<string, PricedBill>;
+  priced: ReadonlyMap<string, PricedBill>;
   monthlyMetered: Map<string, MonthTotal[]>;
   weatherGaps: WeatherGap[];
   quality: MeterQuality[];
@@ -69,7 +70,13 @@ export function* dataFileEntries(input: OutputsInput): Generator<[name: string, 
   yield ["findings.csv", findingsToCsvText(findings)];
   yield ["disputes.csv", disputesCsv(input.disputes)];
   yield ["disputes.json", json(disputesJson(input.disputes))];
-  yield ["bills-recomputed.csv", csvInSlices(portfolio.bills, (slice) => billsRecomputedCsv(billContext, slice, buildingOfMeter))];
+  // Its slices' rows outlive young-generation collections, and V8 let the old generation fill
+  // with them (a 460 MB rise at 1,000 buildings, the site stage's peak): collected as they pile up.
+  const budget = garbageBudget();
+  yield ["bills-recomputed.csv", csvInSlices(portfolio.bills, (slice) => {
+    budget.check();
+    return billsRecomputedCsv(billContext, slice, buildingOfMeter);
+  })];
   yield ["ingest-report.json", json({ files: portfolio.report.files })];
   yield ["data-quality.csv", toCsv(DATA_QUALITY_COLUMNS, qualityRows)];
   yield ["alignment.json", json(alignmentJson(input.quality))];
@@ -118,27 +125,46 @@ function roundForecastRow(row: ForecastRow): ForecastRow {
   return { ...row, usage_p50: Number(row.usage_p50.toFixed(3)), cost_p10: roundCents(row.cost_p10), cost_p50: roundCents(row.cost_p50), cost_p90: roundCents(row.cost_p90) };
 }
 
+/** What bills-recomputed.csv reads of a bill's pricing (not its lines: `priced` may be on disk, see pricedShelf.ts). */
+interface PricingFacts {
+  computed: { total: number; exact: boolean } | null;
+  metered: { total: number; exact: boolean } | null;
+  state: BillCheckState;
+  error: string | null;
+}
+
 /** What every cut of bills-recomputed.csv reads, gathered once. */
 interface BillsRecomputedContext {
   input: OutputsInput;
-  computed: Map<string, PricedBill["computed"]>;
+  computed: Map<string, PricingFacts["computed"]>;
+  facts: Map<string, PricingFacts>;
   claimOf: Map<string, { id: string; amount: number }>;
 }
 
 function billsRecomputedContext(input: OutputsInput): BillsRecomputedContext {
-  const computed = new Map([...input.priced].map(([id, p]) => [id, p.computed]));
+  // One pass over every bill's pricing, keeping only what the rows show.
+  const facts = new Map<string, PricingFacts>();
+  for (const [id, p] of input.priced) {
+    facts.set(id, {
+      computed: p.computed ? { total: p.computed.total, exact: p.computed.exact } : null,
+      metered: p.metered ? { total: p.metered.total, exact: p.metered.exact } : null,
+      state: billCheckState(p),
+      error: p.error,
+    });
+  }
+  const computed = new Map([...facts].map(([id, f]) => [id, f.computed]));
   const claimOf = new Map<string, { id: string; amount: number }>();
   for (const d of input.disputes) for (const b of d.bills) if (b.billId) claimOf.set(b.billId, { id: d.disputeId, amount: b.claimAmount });
-  return { input, computed, claimOf };
+  return { input, computed, facts, claimOf };
 }
 
 function billsRecomputedCsv(context: BillsRecomputedContext, bills: Bill[], buildingOfMeter: Map<string, string>): string {
-  const { input, computed, claimOf } = context;
+  const { input, computed, facts, claimOf } = context;
   const billed = new Map(bills.map((b) => [b.billId, b.total]));
   const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", computed).map((row) => {
     const metered = input.meteredViews.get(row.bill_id);
-    const p = input.priced.get(row.bill_id);
-    const state = billCheckState(p);
+    const p = facts.get(row.bill_id);
+    const state = p?.state ?? billCheckState(undefined);
     const onMeter = p?.metered ?? null;
     const claim = claimOf.get(row.bill_id);
     return {

@@ -33,7 +33,7 @@ export interface HourlyModelOutcome {
 /** Everything computed for one building; a building that fails carries only `failure`. */
 export interface BuildingResults {
   building: Building;
-  priced: Map<string, PricedBill>;
+  priced: ReadonlyMap<string, PricedBill>;
   findings: Finding[];
   baselines: MeterBaseline[];
   /** Hourly models of the building's interval meters (TOWT, gradient-boosted trees, ensembles). */
@@ -45,7 +45,7 @@ const CURVE_SAMPLES = 60;
 
 export interface ReportInputParts {
   portfolio: Portfolio;
-  priced: Map<string, PricedBill>;
+  priced: ReadonlyMap<string, PricedBill>;
   monthlyMetered: Map<string, MonthTotal[]>;
   issues: InputIssue[];
   buildDate: string;

@@ -291,7 +291,7 @@ export interface ReportInput {
   /** The validated portfolio from ingest (buildings, meters, bills, settings, ingest report). */
   portfolio: Portfolio;
   /** Re-pricing result per bill, keyed by `billId`. A bill missing here is shown as "not priced". */
-  priced: Map<string, PricedBill>;
+  priced: ReadonlyMap<string, PricedBill>;
   /** Interval data summed by calendar month, keyed by `meterId`, months ascending. */
   monthlyMetered: Map<string, MonthlyMetered[]>;
   /** Every problem found while reading inputs (errors and warnings), for the data page. */

@@ -5,6 +5,7 @@
 import { describe, expect, it } from "vitest";
 import type { Bill } from "../../src/domain/types.ts";
 import type { ComputedBill } from "../../src/tariff/types.ts";
+import type { PricedBill } from "../../src/tariff/index.ts";
 import type { Dispute, DisputeBill } from "../../src/disputes/types.ts";
 import type { ReportInput } from "../../src/report/input.ts";
 import type { TableModel } from "../../src/report/siteModel.ts";
@@ -81,8 +82,9 @@ function plantedInput(): { input: ReportInput; e1: Bill[] } {
   const input = fixtureInput();
   const e1 = input.portfolio.bills.filter((b) => b.meterId === "E1");
   const [b6, b7, b8] = [e1[5], e1[6], e1[7]];
+  const priced = input.priced as Map<string, PricedBill>;
   // E1-06: billed total − $100.00 on billed quantities, − $1,381.20 on metered quantities.
-  input.priced.set(b6.billId, {
+  priced.set(b6.billId, {
     computed: computedBill(Math.round((b6.total - 100) * 100) / 100),
     error: null,
     metered: computedBill(Math.round((b6.total - 1381.2) * 100) / 100),
@@ -90,8 +92,8 @@ function plantedInput(): { input: ReportInput; e1: Bill[] } {
     meteredDemandKw: 42.25,
   });
   // E1-07: a time-of-use split by the building's load shape: $250 below the bill, but an estimate.
-  input.priced.set(b7.billId, { computed: computedBill(Math.round((b7.total - 250) * 100) / 100, "estimated"), error: null });
-  input.priced.set(b8.billId, { computed: computedBill(b8.total), error: null });
+  priced.set(b7.billId, { computed: computedBill(Math.round((b7.total - 250) * 100) / 100, "estimated"), error: null });
+  priced.set(b8.billId, { computed: computedBill(b8.total), error: null });
   // Per-bill claims whose sum is not a "round" float (0.1 + 0.2 style): each shown as stated.
   input.disputes = [dispute("D-meter-1", [disputeBill(b6, 1381.2), disputeBill(b8, 0.3)], 1381.5)];
   return { input, e1 };
