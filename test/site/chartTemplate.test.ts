@@ -5,7 +5,7 @@ import type { ChartModel } from "../../src/report/siteModel.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { jsonForScript } from "../../src/report/format.ts";
 import { chartSpec } from "../../src/site/prepareSite.ts";
-import { chartTemplate, fillable, fillTemplate } from "../../src/site/charts/chartTemplate.ts";
+import { chartTemplate, fillPlanOf, fillTemplate } from "../../src/site/charts/chartTemplate.ts";
 import { accessibleSvg, compileToVega, renderSvg, SERVER_WIDTH_PX } from "../../src/site/charts/renderSvg.ts";
 import { serverVegaSpec } from "../../src/site/charts/serverSpec.ts";
 import { fullFixtureInput } from "../report/fixture.ts";
@@ -65,7 +65,7 @@ describe("charts sharing a shape (chartTemplate.ts, renderSvg.ts)", () => {
       // The shared path is taken: the shape compiles to something fillable.
       const t = chartTemplate(spec);
       expect(t, c.id).not.toBeNull();
-      expect(fillable(vl.compile(t!.shape as never).spec, t!.strings.length, t!.data.length), c.id).toBe(true);
+      expect(fillPlanOf(vl.compile(t!.shape as never).spec, t!.strings.length, t!.data.length), c.id).not.toBeNull();
       for (const s of [spec, ...variants(spec)]) {
         const label = String(s.description);
         // The shared path may let vega add fields to the data rows, as rendering does: each path its own copy.
@@ -104,14 +104,17 @@ describe("charts sharing a shape (chartTemplate.ts, renderSvg.ts)", () => {
   it("fills the holes with the chart's own data arrays and strings, and refuses unfillable results", () => {
     const spec = chartSpec(charts.find((c) => c.kind === "monthly-usage")!);
     const t = chartTemplate(spec)!;
-    const filled = fillTemplate({ a: t.shape, b: [t.shape] }, t);
+    const plan = fillPlanOf({ a: t.shape, b: [t.shape] }, t.strings.length, t.data.length)!;
+    const filled = fillTemplate(plan, t) as { a: Record<string, unknown>; b: Record<string, unknown>[] };
     expect((filled.a.data as { values: unknown }).values).toBe((spec.data as { values: unknown }).values);
     expect(filled.a.description).toBe(spec.description);
+    // A sub-object reached twice stays one object; the shape itself is copied, not changed.
     expect(filled.b[0]).toBe(filled.a);
-    expect(fillable(t.shape, t.strings.length, t.data.length)).toBe(true);
+    expect(filled.a).not.toBe(t.shape);
+    expect(String(t.shape.description)).toContain("\u0001");
     // A hole dropped, or a marker inside other text, cannot be filled exactly.
-    expect(fillable({ ...t.shape, description: "x" }, t.strings.length, t.data.length)).toBe(false);
-    expect(fillable({ ...t.shape, note: `${String(t.shape.description)}!` }, t.strings.length, t.data.length)).toBe(false);
-    expect(fillable({ ...t.shape, f: () => 1 }, t.strings.length, t.data.length)).toBe(false);
+    expect(fillPlanOf({ ...t.shape, description: "x" }, t.strings.length, t.data.length)).toBeNull();
+    expect(fillPlanOf({ ...t.shape, note: `${String(t.shape.description)}!` }, t.strings.length, t.data.length)).toBeNull();
+    expect(fillPlanOf({ ...t.shape, f: () => 1 }, t.strings.length, t.data.length)).toBeNull();
   });
 });

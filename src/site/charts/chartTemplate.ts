@@ -70,54 +70,36 @@ export function chartTemplate(spec: Record<string, unknown>): ChartTemplate | nu
 }
 
 /**
- * `value` (a compile or parse of a template's shape) with the template's holes filled: a copy,
- * shared sub-objects kept shared and prototypes kept, except the data arrays, which are the
- * template's own. A string hole is filled where it stands whole, and inside generated code
- * where vega wrote it as a string literal.
- * @throws when `value` holds a marker it cannot fill (check it first with fillable).
+ * What filling one compile or parse of a shape needs to know about it, found once
+ * (fillPlanOf): the objects it reaches more than once (copied once, and kept shared), its data
+ * markers with their hole index, and its strings holding a string hole.
  */
-export function fillTemplate<T>(value: T, template: ChartTemplate): T {
-  const literals = template.strings.map((_, i) => JSON.stringify(sentinel(i)));
-  const copies = new Map<object, unknown>();
-  const fill = (v: unknown): unknown => {
-    if (typeof v === "string") return fillString(v, template.strings, literals);
-    if (typeof v !== "object" || v === null) return v;
-    const done = copies.get(v);
-    if (done !== undefined) return done;
-    const mark = dataMark(v);
-    if (mark !== null) {
-      const values = template.data[mark];
-      if (values === undefined) throw new Error(`chart template: no data for hole ${mark}`);
-      return values;
-    }
-    if (Array.isArray(v)) {
-      const out: unknown[] = [];
-      copies.set(v, out);
-      for (const item of v) out.push(fill(item));
-      return out;
-    }
-    const out = Object.create(Object.getPrototypeOf(v) as object | null) as Record<string, unknown>;
-    copies.set(v, out);
-    for (const k of Object.keys(v)) out[k] = fill((v as Record<string, unknown>)[k]);
-    return out;
-  };
-  return fill(value) as T;
+export interface FillPlan {
+  readonly value: unknown;
+  readonly shared: ReadonlySet<object>;
+  readonly marks: ReadonlyMap<object, number>;
+  readonly holed: ReadonlySet<string>;
 }
 
 /**
- * Whether fillTemplate can fill `value` (a compile or parse of a template's shape with
- * `holes` string holes and `dataHoles` data holes) exactly as if the real spec had been compiled
- * or parsed: only plain objects, arrays and class instances with plain own fields; every marker
- * a whole hole or a string literal in code; every hole present (none dropped, none mangled).
+ * The fill plan of `value` (a compile or parse of a template's shape with `holes` string holes
+ * and `dataHoles` data holes), or null when fillTemplate could not fill it exactly as if the
+ * real spec had been compiled or parsed: anything but plain objects, arrays and class instances
+ * with plain own fields; a marker that is neither a whole hole nor a string literal in code; a
+ * hole dropped or mangled.
  */
-export function fillable(value: unknown, holes: number, dataHoles: number): boolean {
+export function fillPlanOf(value: unknown, holes: number, dataHoles: number): FillPlan | null {
   const literals = Array.from({ length: holes }, (_, i) => JSON.stringify(sentinel(i)));
   const seenStrings = new Set<number>();
   const seenData = new Set<number>();
   const visited = new Set<object>();
+  const shared = new Set<object>();
+  const marks = new Map<object, number>();
+  const holed = new Set<string>();
   const ok = (v: unknown): boolean => {
     if (typeof v === "string") {
       if (!v.includes("\u0001") && !v.includes("\\u0001")) return true;
+      holed.add(v);
       for (let i = 0; i < holes; i++) {
         if (v === sentinel(i)) return seenStrings.add(i), true;
       }
@@ -133,10 +115,10 @@ export function fillable(value: unknown, holes: number, dataHoles: number): bool
     }
     if (typeof v === "function" || typeof v === "symbol" || typeof v === "bigint") return false;
     if (typeof v !== "object" || v === null) return true;
-    if (visited.has(v)) return true;
+    if (visited.has(v)) return shared.add(v), true;
     visited.add(v);
     const mark = dataMark(v);
-    if (mark !== null) return mark < dataHoles && (seenData.add(mark), true);
+    if (mark !== null) return mark < dataHoles && (seenData.add(mark), marks.set(v, mark), true);
     if (!Array.isArray(v) && !plainFields(v)) return false;
     if (Object.getOwnPropertySymbols(v).length > 0) return false;
     for (const k of Object.keys(v)) {
@@ -145,7 +127,41 @@ export function fillable(value: unknown, holes: number, dataHoles: number): bool
     }
     return true;
   };
-  return ok(value) && seenStrings.size === holes && seenData.size === dataHoles;
+  return ok(value) && seenStrings.size === holes && seenData.size === dataHoles ? { value, shared, marks, holed } : null;
+}
+
+/**
+ * The plan's value with the template's holes filled: a copy, shared sub-objects kept shared and
+ * prototypes kept, except the data arrays, which are the template's own. A string hole is
+ * filled where it stands whole, and inside generated code where vega wrote it as a string literal.
+ */
+export function fillTemplate(plan: FillPlan, template: ChartTemplate): unknown {
+  const literals = template.strings.map((_, i) => JSON.stringify(sentinel(i)));
+  const copies = new Map<object, unknown>();
+  const { shared, marks, holed } = plan;
+  const fill = (v: unknown): unknown => {
+    if (typeof v === "string") return holed.has(v) ? fillString(v, template.strings, literals) : v;
+    if (typeof v !== "object" || v === null) return v;
+    const mark = marks.get(v);
+    if (mark !== undefined) return template.data[mark];
+    const isShared = shared.has(v);
+    if (isShared) {
+      const done = copies.get(v);
+      if (done !== undefined) return done;
+    }
+    if (Array.isArray(v)) {
+      const out: unknown[] = new Array<unknown>(v.length);
+      if (isShared) copies.set(v, out);
+      for (let i = 0; i < v.length; i++) out[i] = fill(v[i]);
+      return out;
+    }
+    const proto = Object.getPrototypeOf(v) as object | null;
+    const out = (proto === Object.prototype ? {} : Object.create(proto)) as Record<string, unknown>;
+    if (isShared) copies.set(v, out);
+    for (const k of Object.keys(v)) out[k] = fill((v as Record<string, unknown>)[k]);
+    return out;
+  };
+  return fill(plan.value);
 }
 
 /** A plain object, or an instance of a class of plain fields (vega's parser writes its operators as such). */

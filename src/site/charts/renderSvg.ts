@@ -6,7 +6,7 @@
  * parse were about half the cost of a chart.
  */
 import { serverVegaSpec } from "./serverSpec.ts";
-import { chartTemplate, fillable, fillTemplate, type ChartTemplate } from "./chartTemplate.ts";
+import { chartTemplate, fillPlanOf, fillTemplate, type ChartTemplate, type FillPlan } from "./chartTemplate.ts";
 
 type VegaModule = typeof import("vega");
 type VegaLiteModule = typeof import("vega-lite");
@@ -36,7 +36,7 @@ export async function compileToVega(spec: Record<string, unknown>): Promise<Reco
   const { vl } = await loadLibs();
   const template = chartTemplate(spec);
   const shape = template ? shapeOf(vl, template) : null;
-  if (template && shape?.compiled) return fillTemplate(shape.compiled, template);
+  if (template && shape?.compiled) return fillTemplate(shape.compiled, template) as Record<string, unknown>;
   return vl.compile(spec as never).spec as unknown as Record<string, unknown>;
 }
 
@@ -47,8 +47,8 @@ export async function compileToVega(spec: Record<string, unknown>): Promise<Reco
  */
 interface Shape {
   spec: Record<string, unknown>;
-  compiled: Record<string, unknown> | null;
-  runtime?: unknown;
+  compiled: FillPlan | null;
+  runtime?: FillPlan | null;
 }
 
 /** Shapes seen, by key; a portfolio's charts come in a few dozen shapes, so the oldest go past this many. */
@@ -58,7 +58,7 @@ function shapeOf(vl: VegaLiteModule, template: ChartTemplate): Shape {
   let shape = shapes.get(template.key);
   if (shape) return shape;
   const compiled = vl.compile(template.shape as never).spec as unknown as Record<string, unknown>;
-  shape = { spec: template.shape, compiled: fillable(compiled, template.strings.length, template.data.length) ? compiled : null };
+  shape = { spec: template.shape, compiled: fillPlanOf(compiled, template.strings.length, template.data.length) };
   if (shapes.size >= MAX_SHAPES) shapes.delete(shapes.keys().next().value!);
   shapes.set(template.key, shape);
   return shape;
@@ -73,8 +73,8 @@ function runtimeOf(vega: VegaModule, vl: VegaLiteModule, spec: Record<string, un
   const shape = template ? shapeOf(vl, template) : null;
   if (template && shape?.compiled) {
     if (shape.runtime === undefined) {
-      const runtime = vega.parse(serverVega(vl, shape.spec, shape.compiled) as never);
-      shape.runtime = fillable(runtime, template.strings.length, template.data.length) ? runtime : null;
+      const runtime = vega.parse(serverVega(vl, shape.spec, shape.compiled.value as Record<string, unknown>) as never);
+      shape.runtime = fillPlanOf(runtime, template.strings.length, template.data.length);
     }
     if (shape.runtime !== null) return fillTemplate(shape.runtime, template);
   }
