@@ -6,16 +6,17 @@
  * parse were about half the cost of a chart.
  */
 import { serverVegaSpec } from "./serverSpec.ts";
+import { keptExpressions, type ExpressionCodegen } from "./vegaExpressions.ts";
 import { chartTemplate, fillPlanOf, fillTemplate, type ChartTemplate, type FillPlan } from "./chartTemplate.ts";
 
 type VegaModule = typeof import("vega");
 type VegaLiteModule = typeof import("vega-lite");
 
-let libs: Promise<{ vega: VegaModule; vl: VegaLiteModule }> | null = null;
+let libs: Promise<{ vega: VegaModule; vl: VegaLiteModule; expr: ExpressionCodegen }> | null = null;
 
-/** Loads vega and vega-lite once per process (≈0.5 s); later charts reuse them. */
-function loadLibs(): Promise<{ vega: VegaModule; vl: VegaLiteModule }> {
-  libs ??= Promise.all([import("vega"), import("vega-lite")]).then(([vega, vl]) => ({ vega, vl }));
+/** Loads vega and vega-lite once per process (≈0.5 s); later charts reuse them, and the expressions compiled for earlier charts (vegaExpressions.ts). */
+function loadLibs(): Promise<{ vega: VegaModule; vl: VegaLiteModule; expr: ExpressionCodegen }> {
+  libs ??= Promise.all([import("vega"), import("vega-lite")]).then(([vega, vl]) => ({ vega, vl, expr: keptExpressions(vega) }));
   return libs;
 }
 
@@ -90,8 +91,8 @@ function runtimeOf(vega: VegaModule, vl: VegaLiteModule, spec: Record<string, un
  * @example await renderSvg(monthlyUsageSpec(chart), "Electricity use by month") // "<svg …"
  */
 export async function renderSvg(spec: Record<string, unknown>, label?: string, compiled?: Record<string, unknown>): Promise<string> {
-  const { vega, vl } = await loadLibs();
-  const view = new vega.View(runtimeOf(vega, vl, spec, compiled) as never, { renderer: "none" });
+  const { vega, vl, expr } = await loadLibs();
+  const view = new vega.View(runtimeOf(vega, vl, spec, compiled) as never, { renderer: "none", expr } as never);
   try {
     return accessibleSvg(await view.toSVG(), spec, label);
   } finally {
