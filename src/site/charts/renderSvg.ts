@@ -52,12 +52,20 @@ interface Shape {
   runtime?: FillPlan | null;
 }
 
-/** Shapes seen, by key; a portfolio's charts come in a few dozen shapes, so the oldest go past this many. */
-const MAX_SHAPES = 256;
+/**
+ * Shapes seen, by key, least recently used first. Most of a site's charts come in a few dozen
+ * shapes; the rest (a heatmap's colour scale, a scatter's legend) are one-offs that pass
+ * through. A shape keeps about 200 KB (its compile and parse), so at most this many are kept.
+ */
+const MAX_SHAPES = 64;
 const shapes = new Map<string, Shape>();
 function shapeOf(vl: VegaLiteModule, template: ChartTemplate): Shape {
   let shape = shapes.get(template.key);
-  if (shape) return shape;
+  if (shape) {
+    shapes.delete(template.key);
+    shapes.set(template.key, shape);
+    return shape;
+  }
   const compiled = vl.compile(template.shape as never).spec as unknown as Record<string, unknown>;
   shape = { spec: template.shape, compiled: fillPlanOf(compiled, template.strings.length, template.data.length) };
   if (shapes.size >= MAX_SHAPES) shapes.delete(shapes.keys().next().value!);

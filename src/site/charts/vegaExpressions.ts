@@ -30,8 +30,12 @@ interface VegaRuntime {
   runtimeContext(df: { events(): void }, transforms: object, functions: null): { expr: ExpressionCodegen };
 }
 
-/** Functions kept (by kind and code); a site's charts use a few thousand, past this many all go. */
-const MAX_FUNCTIONS = 20_000;
+/**
+ * Functions kept (by kind and code). Charts of a site share a few hundred; each chart adds one
+ * or two of its own (its title's text is in its code), so past this many all go and the shared
+ * ones are made again, once.
+ */
+const MAX_FUNCTIONS = 1000;
 
 /**
  * vega's default code generator (the one a View uses without `expr`), with the functions it makes
