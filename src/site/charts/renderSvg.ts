@@ -1,17 +1,22 @@
 /**
  * Server-side SVG of a Vega-Lite spec, for pages read without JavaScript.
  * vega-lite compile → vega parse → headless View (renderer "none") → toSVG.
+ * Charts that differ only in their data, title and description (chartTemplate.ts) share one
+ * compile and one parse: a site's charts come in a few dozen such shapes, and the compile and
+ * parse were about half the cost of a chart.
  */
 import { serverVegaSpec } from "./serverSpec.ts";
+import { keptExpressions, type ExpressionCodegen } from "./vegaExpressions.ts";
+import { chartTemplate, fillPlanOf, fillTemplate, type ChartTemplate, type FillPlan } from "./chartTemplate.ts";
 
 type VegaModule = typeof import("vega");
 type VegaLiteModule = typeof import("vega-lite");
 
-let libs: Promise<{ vega: VegaModule; vl: VegaLiteModule }> | null = null;
+let libs: Promise<{ vega: VegaModule; vl: VegaLiteModule; expr: ExpressionCodegen }> | null = null;
 
-/** Loads vega and vega-lite once per process (≈0.5 s); later charts reuse them. */
-function loadLibs(): Promise<{ vega: VegaModule; vl: VegaLiteModule }> {
-  libs ??= Promise.all([import("vega"), import("vega-lite")]).then(([vega, vl]) => ({ vega, vl }));
+/** Loads vega and vega-lite once per process (≈0.5 s); later charts reuse them, and the expressions compiled for earlier charts (vegaExpressions.ts). */
+function loadLibs(): Promise<{ vega: VegaModule; vl: VegaLiteModule; expr: ExpressionCodegen }> {
+  libs ??= Promise.all([import("vega"), import("vega-lite")]).then(([vega, vl]) => ({ vega, vl, expr: keptExpressions(vega) }));
   return libs;
 }
 
@@ -30,7 +35,59 @@ function escapeXml(s: string): string {
  */
 export async function compileToVega(spec: Record<string, unknown>): Promise<Record<string, unknown>> {
   const { vl } = await loadLibs();
+  const template = chartTemplate(spec);
+  const shape = template ? shapeOf(vl, template) : null;
+  if (template && shape?.compiled) return fillTemplate(shape.compiled, template) as Record<string, unknown>;
   return vl.compile(spec as never).spec as unknown as Record<string, unknown>;
+}
+
+/**
+ * What vega-lite and vega's parser made of one shape of chart (chartTemplate.ts): its compile
+ * and the parse of its server spec, each null when it cannot be filled exactly (the chart is
+ * then compiled or parsed as it is), the parse made on first use.
+ */
+interface Shape {
+  spec: Record<string, unknown>;
+  compiled: FillPlan | null;
+  runtime?: FillPlan | null;
+}
+
+/**
+ * Shapes seen, by key, least recently used first. Most of a site's charts come in a few dozen
+ * shapes; the rest (a heatmap's colour scale, a scatter's legend) are one-offs that pass
+ * through. A shape keeps about 200 KB (its compile and parse), so at most this many are kept.
+ */
+const MAX_SHAPES = 64;
+const shapes = new Map<string, Shape>();
+function shapeOf(vl: VegaLiteModule, template: ChartTemplate): Shape {
+  let shape = shapes.get(template.key);
+  if (shape) {
+    shapes.delete(template.key);
+    shapes.set(template.key, shape);
+    return shape;
+  }
+  const compiled = vl.compile(template.shape as never).spec as unknown as Record<string, unknown>;
+  shape = { spec: template.shape, compiled: fillPlanOf(compiled, template.strings.length, template.data.length) };
+  if (shapes.size >= MAX_SHAPES) shapes.delete(shapes.keys().next().value!);
+  shapes.set(template.key, shape);
+  return shape;
+}
+
+/**
+ * vega's parse of the server spec of `spec` (whose compile by compileToVega is `compiled`): its
+ * shape's parse with the holes filled, or parsed as it is when the shape's cannot be filled.
+ */
+function runtimeOf(vega: VegaModule, vl: VegaLiteModule, spec: Record<string, unknown>, compiled: Record<string, unknown> | undefined): unknown {
+  const template = chartTemplate(spec);
+  const shape = template ? shapeOf(vl, template) : null;
+  if (template && shape?.compiled) {
+    if (shape.runtime === undefined) {
+      const runtime = vega.parse(serverVega(vl, shape.spec, shape.compiled.value as Record<string, unknown>) as never);
+      shape.runtime = fillPlanOf(runtime, template.strings.length, template.data.length);
+    }
+    if (shape.runtime !== null) return fillTemplate(shape.runtime, template);
+  }
+  return vega.parse(serverVega(vl, spec, compiled) as never);
 }
 
 /**
@@ -42,20 +99,28 @@ export async function compileToVega(spec: Record<string, unknown>): Promise<Reco
  * @example await renderSvg(monthlyUsageSpec(chart), "Electricity use by month") // "<svg …"
  */
 export async function renderSvg(spec: Record<string, unknown>, label?: string, compiled?: Record<string, unknown>): Promise<string> {
-  const { vega, vl } = await loadLibs();
-  const view = new vega.View(vega.parse(serverVega(vl, spec, compiled) as never), { renderer: "none" });
+  const { vega, vl, expr } = await loadLibs();
+  const view = new vega.View(runtimeOf(vega, vl, spec, compiled) as never, { renderer: "none", expr } as never);
   try {
-    const svg = await view.toSVG();
-    const text = label ?? String(spec.description ?? spec.title ?? "Chart");
-    const safe = escapeXml(text);
-    // Vega writes its own root <svg ...>; add the accessible name and a <title> right inside it.
-    return svg.replace(/^<svg\b([^>]*)>/, (_m, attrs: string) => {
-      const cleaned = attrs.replace(/\s(role|aria-label)="[^"]*"/g, "");
-      return `<svg${cleaned} role="img" aria-label="${safe}"><title>${safe}</title>`;
-    });
+    return accessibleSvg(await view.toSVG(), spec, label);
   } finally {
     view.finalize();
   }
+}
+
+/**
+ * Vega's SVG of `spec` with its accessible name: `role="img"`, `aria-label` and a `<title>`
+ * from `label` (falling back to the spec's description or title).
+ * @example accessibleSvg('<svg class="marks">…', spec, "Use") // '<svg class="marks" role="img" aria-label="Use"><title>Use</title>…'
+ */
+export function accessibleSvg(svg: string, spec: Record<string, unknown>, label?: string): string {
+  const text = label ?? String(spec.description ?? spec.title ?? "Chart");
+  const safe = escapeXml(text);
+  // Vega writes its own root <svg ...>; add the accessible name and a <title> right inside it.
+  return svg.replace(/^<svg\b([^>]*)>/, (_m, attrs: string) => {
+    const cleaned = attrs.replace(/\s(role|aria-label)="[^"]*"/g, "");
+    return `<svg${cleaned} role="img" aria-label="${safe}"><title>${safe}</title>`;
+  });
 }
 
 /** The Vega spec rendered on the server: `width: "container"` becomes SERVER_WIDTH_PX (no container exists here). */
