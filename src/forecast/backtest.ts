@@ -234,6 +234,17 @@ function withBasis(input: MeterForecastInput, basis: WeatherBasisId): MeterForec
 }
 
 /**
+ * Whether two typical years are the same numbers (Object.is per month, so −0 and NaN count as
+ * themselves): `withBasis` changes nothing else, so the same typical year is the same input.
+ */
+function sameTypical(a: readonly number[] | null, b: readonly number[] | null): boolean {
+  if (a === b) return true;
+  if (a === null || b === null || a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) return false;
+  return true;
+}
+
+/**
  * Accuracy over meter-months (see `Accuracy`); null when nothing was compared.
  * @example accuracyOf([{ actual: [100, 100], forecast: [110, 90] }]) // annual 0 %, CV(RMSE) 10 %
  */
@@ -367,13 +378,25 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
       budget.check();
       r.meter.p50ByBasis = memo("backtest-basis-paths", { ...keyOf(r), bases }, () => {
         const paths: BacktestMeter["p50ByBasis"] = {};
+        // Bases often give the very same typical year (every window covers the whole history, or
+        // no normals and no fit): the input is then the same, so is its path; priced once.
+        const done: { typical: readonly number[] | null; path: number[] | undefined }[] = [];
         for (const basis of bases) {
+          const input = withBasis(r.input, basis);
+          const twin = done.find((d) => sameTypical(d.typical, input.typicalMonthlyTemp));
+          if (twin) {
+            if (twin.path) paths[basis] = [...twin.path];
+            continue;
+          }
+          let path: number[] | undefined;
           try {
-            const mid = usageMedians(setupOf(withBasis(r.input, basis), r.drawn), 1);
-            if (mid) paths[basis] = pick(pricePath(r.input, r.contexts, mid), keepOf(r.meter));
+            const mid = usageMedians(setupOf(input, r.drawn), 1);
+            if (mid) path = pick(pricePath(r.input, r.contexts, mid), keepOf(r.meter));
           } catch (error) {
             expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
           }
+          if (path) paths[basis] = path;
+          done.push({ typical: input.typicalMonthlyTemp, path: path && [...path] });
         }
         return paths;
       });
