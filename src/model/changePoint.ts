@@ -371,10 +371,32 @@ export function fitChangePoint(
   const ok = (bps: number[]): boolean => segmentCountsOk(kind, temps, bps, minPts);
   let best: number[] | null = null;
   let bestSse = Number.POSITIVE_INFINITY;
+  // The searches meet the same breakpoints many times (an interval's upper knot is the next
+  // one's lower knot; the 5P passes revisit pairs): each one's SSE is a function of the
+  // breakpoints alone, so it is solved once. A repeat cannot change `best` (its SSE is not
+  // below the best seen, which counted it). −0 is left out: a Map key does not tell it from 0.
+  const seen = new Map<number, number | Map<number, number>>();
+  const solved = (bps: number[]): number => {
+    if (bps.some((b) => Object.is(b, -0))) return ok(bps) ? ws.sseAt(kind, bps) : Number.POSITIVE_INFINITY;
+    const [b0, b1] = bps as [number, number?];
+    let byB1: Map<number, number> | undefined;
+    if (b1 === undefined) {
+      const known = seen.get(b0) as number | undefined;
+      if (known !== undefined) return known;
+    } else {
+      byB1 = seen.get(b0) as Map<number, number> | undefined;
+      if (!byB1) seen.set(b0, (byB1 = new Map()));
+      const known = byB1.get(b1);
+      if (known !== undefined) return known;
+    }
+    const sse = ok(bps) ? ws.sseAt(kind, bps) : Number.POSITIVE_INFINITY;
+    if (byB1) byB1.set(b1!, sse);
+    else seen.set(b0, sse);
+    return sse;
+  };
   /** SSE at `bps` (Infinity when inadmissible); remembers the best seen. */
   const consider = (bps: number[]): number => {
-    if (!ok(bps)) return Number.POSITIVE_INFINITY;
-    const sse = ws.sseAt(kind, bps);
+    const sse = solved(bps);
     if (sse < bestSse) {
       bestSse = sse;
       best = bps;
