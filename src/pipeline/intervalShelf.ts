@@ -19,6 +19,7 @@
 import { closeSync, openSync, readSync, rmSync, writeSync } from "node:fs";
 import { join } from "node:path";
 import type { IntervalSeries } from "../domain/types.ts";
+import { OnDemandMap } from "../core/onDemandMap.ts";
 import { contentHash, withContentDigest } from "../core/contentHash.ts";
 
 interface Shelved {
@@ -33,12 +34,13 @@ interface Shelved {
 /** Series read last, newest first (small: a meter's readings are ~0.7 MB a year at 15 minutes). */
 const KEEP_RECENT = 4;
 
-export class IntervalShelf implements ReadonlyMap<string, IntervalSeries> {
+export class IntervalShelf extends OnDemandMap<IntervalSeries> {
   readonly #index = new Map<string, Shelved>();
   #recent: [string, IntervalSeries][] = [];
   readonly #dir: string;
 
   private constructor(dir: string) {
+    super();
     this.#dir = dir;
   }
 
@@ -91,35 +93,12 @@ export class IntervalShelf implements ReadonlyMap<string, IntervalSeries> {
     return this.#index.keys();
   }
 
-  entries(): MapIterator<[string, IntervalSeries]> {
-    return readEach(this.#index.keys(), (key) => [key, this.get(key)!] as [string, IntervalSeries]);
-  }
-
-  values(): MapIterator<IntervalSeries> {
-    return readEach(this.#index.keys(), (key) => this.get(key)!);
-  }
-
-  [Symbol.iterator](): MapIterator<[string, IntervalSeries]> {
-    return this.entries();
-  }
-
-  forEach(callback: (value: IntervalSeries, key: string, map: ReadonlyMap<string, IntervalSeries>) => void, thisArg?: unknown): void {
-    for (const [key, value] of this.entries()) callback.call(thisArg, value, key, this);
-  }
-
   /** Removes the files (the shelf is empty afterwards). */
   dispose(): void {
     this.#index.clear();
     this.#recent = [];
     rmSync(this.#dir, { recursive: true, force: true });
   }
-}
-
-/** Reads lazily, one series at a time (Node 20 has no iterator helpers). */
-function readEach<T>(keys: Iterable<string>, read: (key: string) => T): MapIterator<T> {
-  return (function* () {
-    for (const key of keys) yield read(key);
-  })() as unknown as MapIterator<T>;
 }
 
 function bytesOf(a: Float64Array): Uint8Array {

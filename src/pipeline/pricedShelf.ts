@@ -20,6 +20,7 @@ import { serialize } from "node:v8";
 import type { PricedBill } from "../tariff/index.ts";
 import { deserializeOwned } from "../core/deserializeOwned.ts";
 import { contentDigestOf, withContentDigest } from "../core/contentHash.ts";
+import { OnDemandMap } from "../core/onDemandMap.ts";
 
 /** Buildings read last, newest first: a page pass reads one building's bills many times in a row. */
 const KEEP_RECENT = 4;
@@ -32,7 +33,7 @@ interface Record {
   digest?: string;
 }
 
-export class PricedShelf implements ReadonlyMap<string, PricedBill> {
+export class PricedShelf extends OnDemandMap<PricedBill> {
   /** Bill id → its record (for a repeated id, the later building's), in the merged map's key order. */
   readonly #records = new Map<string, Record>();
   /** Each building's bill ids in its own map's order, their records, and its file. */
@@ -41,7 +42,9 @@ export class PricedShelf implements ReadonlyMap<string, PricedBill> {
   /** The building of the last bill read alone: a second one in a row reads the whole file. */
   #lastAlone = -1;
 
-  private constructor() {}
+  private constructor() {
+    super();
+  }
 
   /**
    * Writes each map of `byBuilding` to its own file in `dir` (an existing folder; the files are
@@ -80,7 +83,7 @@ export class PricedShelf implements ReadonlyMap<string, PricedBill> {
     const kept = this.#recent.find(([i]) => i === index);
     if (kept) return kept[1];
     const { keys, records, file } = this.#buildings[index]!;
-    const bytes = readScratch(file, () => readFileSync(file));
+    const bytes = fromScratch(file, () => readFileSync(file));
     const map = new Map<string, PricedBill>();
     keys.forEach((key, i) => map.set(key, decode(bytes, records[i]!, file)));
     this.#recent = [[index, map] as [number, ReadonlyMap<string, PricedBill>], ...this.#recent].slice(0, KEEP_RECENT);
@@ -108,7 +111,7 @@ export class PricedShelf implements ReadonlyMap<string, PricedBill> {
   /** One bill's record, without reading the rest of its building's file. */
   #readAlone(record: Record): PricedBill {
     const file = this.#buildings[record.building]!.file;
-    const bytes = readScratch(file, () => {
+    const bytes = fromScratch(file, () => {
       const buffer = Buffer.allocUnsafe(record.length);
       const fd = openSync(file, "r");
       try {
@@ -129,30 +132,14 @@ export class PricedShelf implements ReadonlyMap<string, PricedBill> {
     return this.#records.keys();
   }
 
-  entries(): MapIterator<[string, PricedBill]> {
-    return lazily(this.#records.keys(), (key) => [key, this.#inSweep(key)] as [string, PricedBill]);
-  }
-
-  values(): MapIterator<PricedBill> {
-    return lazily(this.#records.keys(), (key) => this.#inSweep(key));
-  }
-
   /** A sweep reads whole buildings (its keys come building after building). */
-  #inSweep(key: string): PricedBill {
+  protected override valueInOrder(key: string): PricedBill {
     return this.read(this.#records.get(key)!.building).get(key)!;
-  }
-
-  [Symbol.iterator](): MapIterator<[string, PricedBill]> {
-    return this.entries();
-  }
-
-  forEach(callback: (value: PricedBill, key: string, map: ReadonlyMap<string, PricedBill>) => void, thisArg?: unknown): void {
-    for (const [key, value] of this.entries()) callback.call(thisArg, value, key, this);
   }
 }
 
-/** Reads a scratch file, naming it if it is missing or damaged. */
-function readScratch(file: string, read: () => Buffer): Buffer {
+/** What `read` makes of a scratch file, naming the file if it is missing or damaged. */
+function fromScratch<T>(file: string, read: () => T): T {
   try {
     return read();
   } catch (error) {
@@ -162,17 +149,13 @@ function readScratch(file: string, read: () => Buffer): Buffer {
 
 function decode(bytes: Buffer, record: Record, file: string): PricedBill {
   if (record.offset + record.length > bytes.length) throw new Error(`the build's scratch file ${file} is shorter than written; was it removed or truncated while the build ran?`);
-  try {
-    const value = deserializeOwned(bytes.subarray(record.offset, record.offset + record.length)) as PricedBill;
-    // The analysis named the bill's pricing by a digest (digestAnalysis): the copy read back keeps it.
-    return record.digest === undefined ? value : withContentDigest(value, record.digest);
-  } catch (error) {
-    throw new Error(`the build's scratch file ${file} could not be read back (${(error as Error).message}); was it removed or changed while the build ran?`, { cause: error });
-  }
+  const value = fromScratch(file, () => deserializeOwned(bytes.subarray(record.offset, record.offset + record.length)) as PricedBill);
+  // The analysis named the bill's pricing by a digest (digestAnalysis): the copy read back keeps it.
+  return record.digest === undefined ? value : withContentDigest(value, record.digest);
 }
 
 /** One building's priced bills, read from the shelf when asked for. */
-class BuildingView implements ReadonlyMap<string, PricedBill> {
+class BuildingView extends OnDemandMap<PricedBill> {
   readonly #keys: ReadonlySet<string>;
 
   constructor(
@@ -180,6 +163,7 @@ class BuildingView implements ReadonlyMap<string, PricedBill> {
     private readonly index: number,
     keys: readonly string[],
   ) {
+    super();
     this.#keys = new Set(keys);
   }
 
@@ -198,27 +182,4 @@ class BuildingView implements ReadonlyMap<string, PricedBill> {
   keys(): MapIterator<string> {
     return this.#keys.keys() as MapIterator<string>;
   }
-
-  entries(): MapIterator<[string, PricedBill]> {
-    return lazily(this.#keys, (key) => [key, this.get(key)!] as [string, PricedBill]);
-  }
-
-  values(): MapIterator<PricedBill> {
-    return lazily(this.#keys, (key) => this.get(key)!);
-  }
-
-  [Symbol.iterator](): MapIterator<[string, PricedBill]> {
-    return this.entries();
-  }
-
-  forEach(callback: (value: PricedBill, key: string, map: ReadonlyMap<string, PricedBill>) => void, thisArg?: unknown): void {
-    for (const [key, value] of this.entries()) callback.call(thisArg, value, key, this);
-  }
-}
-
-/** Node 20 has no iterator helpers. */
-function lazily<T>(keys: Iterable<string>, read: (key: string) => T): MapIterator<T> {
-  return (function* () {
-    for (const key of keys) yield read(key);
-  })() as unknown as MapIterator<T>;
 }
