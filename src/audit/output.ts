@@ -88,7 +88,7 @@ export interface BillRecomputedRow {
  * bills-recomputed.csv rows: every bill, computed total and difference (billed − computed) with
  * two decimals; empty when the bill could not be priced. `exact` says whether every line was exact.
  */
-export function billsRecomputedRows(bills: Bill[], buildingOfMeter: (meterId: string) => string, priced: ReadonlyMap<string, Pick<ComputedBill, "total" | "exact"> | null>): BillRecomputedRow[] {
+export function billsRecomputedRows(bills: Bill[], buildingOfMeter: (meterId: string) => string, priced: { get(billId: string): Pick<ComputedBill, "total" | "exact"> | null | undefined }): BillRecomputedRow[] {
   return bills.map((b) => {
     const c = priced.get(b.billId) ?? null;
     return {

@@ -136,7 +136,6 @@ interface PricingFacts {
 /** What every cut of bills-recomputed.csv reads, gathered once. */
 interface BillsRecomputedContext {
   input: OutputsInput;
-  computed: Map<string, PricingFacts["computed"]>;
   facts: Map<string, PricingFacts>;
   claimOf: Map<string, { id: string; amount: number }>;
 }
@@ -152,16 +151,15 @@ function billsRecomputedContext(input: OutputsInput): BillsRecomputedContext {
       error: p.error,
     });
   }
-  const computed = new Map([...facts].map(([id, f]) => [id, f.computed]));
   const claimOf = new Map<string, { id: string; amount: number }>();
   for (const d of input.disputes) for (const b of d.bills) if (b.billId) claimOf.set(b.billId, { id: d.disputeId, amount: b.claimAmount });
-  return { input, computed, facts, claimOf };
+  return { input, facts, claimOf };
 }
 
 function billsRecomputedCsv(context: BillsRecomputedContext, bills: Bill[], buildingOfMeter: Map<string, string>): string {
-  const { input, computed, facts, claimOf } = context;
+  const { input, facts, claimOf } = context;
   const billed = new Map(bills.map((b) => [b.billId, b.total]));
-  const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", computed).map((row) => {
+  const rows = billsRecomputedRows(bills, (id) => buildingOfMeter.get(id) ?? "", { get: (id) => facts.get(id)?.computed }).map((row) => {
     const metered = input.meteredViews.get(row.bill_id);
     const p = facts.get(row.bill_id);
     const state = p?.state ?? billCheckState(undefined);
