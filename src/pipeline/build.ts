@@ -142,7 +142,7 @@ function scratchBeside(path: string): { dir: () => Promise<string>; remove: () =
 }
 
 async function buildWithBundle(options: BuildOptions, reporter: Reporter, cache: AnalysisCache | undefined, reuse: { cacheDir: string; program: string } | undefined, bundle: EarlyBundle, scratch: () => Promise<string>): Promise<BuildResult> {
-  const { weatherGaps, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, scratch, cache);
+  const { weatherGaps, issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, scratch, { cache, keyed: cache !== undefined });
   const dataDate = effectiveAsOf(portfolio);
   const buildDate = options.buildDate ?? dataDate ?? new Date().toISOString().slice(0, 10);
   const buildDateKind = options.buildDate === undefined && dataDate !== null ? "data" : "built";
@@ -326,7 +326,7 @@ function summaryText(s: BuildSummary, currency: string): string {
  * cut at the as-of date, screen interval data and align meter clocks.
  * @throws InputError when inputs are unusable (or, with `strict`, when any row was rejected).
  */
-async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, shelfDir: () => Promise<string>, cache?: AnalysisCache) {
+async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, shelfDir: () => Promise<string>, { cache, keyed }: { cache?: AnalysisCache; keyed: boolean }) {
   reporter.stage(`Reading ${dir}`);
   const loaded = await loadPortfolio(dir);
   const issues = loaded.issues;
@@ -337,12 +337,13 @@ async function readAndScreen(dir: string, strict: boolean, reporter: Reporter, s
   issues.push(...cut.issues);
   reporter.stage("Screening interval data and aligning meter clocks");
   // With a cache, meters whose interval data and weather are unchanged are not screened again.
-  // Bills, lines, tariffs and weather hashed once for every cache key that holds them (hashOnce.ts).
-  const quality = assessIntervalMeters(withInputDigests(cut.portfolio), cache ? cacheMemo(cache) : undefined);
+  // Bills, lines, tariffs and weather hashed once for every cache key that holds them (hashOnce.ts);
+  // a build without a cache takes no key, so nothing is hashed.
+  const quality = assessIntervalMeters(keyed ? withInputDigests(cut.portfolio) : cut.portfolio, cache ? cacheMemo(cache) : undefined);
   // From here on every stage sees the corrected clocks (flagged readings stay in the record),
   // read from the shelf a meter at a time. Neither the portfolio as read nor its in-memory
   // readings are returned, so they can go.
-  const shelf = IntervalShelf.fill(await shelfDir(), quality.portfolio.intervals);
+  const shelf = IntervalShelf.fill(await shelfDir(), quality.portfolio.intervals, { digests: keyed });
   const portfolio = { ...quality.portfolio, intervals: shelf } as Portfolio<Tariff>;
   return { weatherGaps: loaded.weatherGaps, issues, quality: { meters: quality.meters }, portfolio };
 }
@@ -381,7 +382,7 @@ export async function buildShard(options: ShardOptions): Promise<ShardResult> {
 }
 
 async function analyseShard(options: ShardOptions, reporter: Reporter, scratch: () => Promise<string>): Promise<ShardResult> {
-  const { issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, scratch);
+  const { issues, quality, portfolio } = await readAndScreen(options.dir, options.strict, reporter, scratch, { keyed: true });
   const only = new Set(portfolio.buildings.filter((b) => shardOf(b.buildingId, options.shard.count) === options.shard.index).map((b) => b.buildingId));
   reporter.stage(`Shard ${options.shard.index} of ${options.shard.count}: pricing, checking and modelling ${only.size} of ${portfolio.buildings.length} building(s)`);
   const cache = await openAnalysisCache(partialAnalysesDir(options.partialDir));

@@ -11,10 +11,10 @@
  * It is a read-only map: code that iterates every entry reads every file, which is what it
  * would have held in memory anyway.
  *
- * Each series is hashed once, when shelved, and every series read back carries that hash as its
- * content digest (core/contentHash.ts withContentDigest): the cache keys that hold a meter's
- * readings (its building's analysis, its forecasts, its building's pages) hash 64 bytes instead
- * of a year of readings each time.
+ * Each series is hashed once, when shelved (unless the build takes no cache key), and every
+ * series read back carries that hash as its content digest (core/contentHash.ts
+ * withContentDigest): the cache keys that hold a meter's readings (its building's analysis, its
+ * forecasts, its building's pages) hash 64 bytes instead of a year of readings each time.
  */
 import { closeSync, openSync, readSync, rmSync, writeSync } from "node:fs";
 import { join } from "node:path";
@@ -27,8 +27,8 @@ interface Shelved {
   meterId: string;
   intervalMinutes: number;
   length: number;
-  /** contentHash of the series as shelved (the series read back has the same content). */
-  digest: string;
+  /** contentHash of the series as shelved (the series read back has the same content); undefined when not taken. */
+  digest: string | undefined;
 }
 
 /** Series read last, newest first (small: a meter's readings are ~0.7 MB a year at 15 minutes). */
@@ -46,9 +46,10 @@ export class IntervalShelf extends OnDemandMap<IntervalSeries> {
 
   /**
    * Writes every series of `series` into `dir` (an empty folder this shelf then owns) and
-   * returns the shelf that reads them back, in the same key order.
+   * returns the shelf that reads them back, in the same key order. `digests: false` leaves the
+   * series without a content digest (for a build that takes no cache key: nothing would read it).
    */
-  static fill(dir: string, series: ReadonlyMap<string, IntervalSeries>): IntervalShelf {
+  static fill(dir: string, series: ReadonlyMap<string, IntervalSeries>, { digests = true }: { digests?: boolean } = {}): IntervalShelf {
     const shelf = new IntervalShelf(dir);
     let n = 0;
     for (const [key, s] of series) {
@@ -60,7 +61,7 @@ export class IntervalShelf extends OnDemandMap<IntervalSeries> {
       } finally {
         closeSync(fd);
       }
-      const digest = contentHash({ meterId: s.meterId, intervalMinutes: s.intervalMinutes, startMs: s.startMs, values: s.values } satisfies IntervalSeries);
+      const digest = digests ? contentHash({ meterId: s.meterId, intervalMinutes: s.intervalMinutes, startMs: s.startMs, values: s.values } satisfies IntervalSeries) : undefined;
       shelf.#index.set(key, { file, meterId: s.meterId, intervalMinutes: s.intervalMinutes, length: s.startMs.length, digest });
     }
     return shelf;
@@ -123,7 +124,8 @@ function readSeries(entry: Shelved): IntervalSeries {
   } finally {
     closeSync(fd);
   }
-  return withContentDigest({ meterId: entry.meterId, intervalMinutes: entry.intervalMinutes, startMs, values }, entry.digest);
+  const series: IntervalSeries = { meterId: entry.meterId, intervalMinutes: entry.intervalMinutes, startMs, values };
+  return entry.digest === undefined ? series : withContentDigest(series, entry.digest);
 }
 
 function readAll(fd: number, bytes: Uint8Array, position: number, file: string): void {

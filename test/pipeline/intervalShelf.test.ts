@@ -108,4 +108,19 @@ describe("IntervalShelf", () => {
       { numRuns: 40 },
     );
   });
+
+  it("takes no digest when told the build takes no cache key, and gives the same readings", () => {
+    const source = new Map<string, IntervalSeries>([["M", { meterId: "M", intervalMinutes: 15, startMs: new Float64Array([1, 2]), values: new Float64Array([3, 4]) }]]);
+    const plain = IntervalShelf.fill(freshDir(), source, { digests: false });
+    const named = IntervalShelf.fill(freshDir(), source);
+    try {
+      expect(plain.digestOf("M")).toBeUndefined();
+      expect(contentDigestOf(plain.get("M")!)).toBeUndefined();
+      expect(plain.get("M")).toEqual(named.get("M"));
+      expect(contentDigestOf(named.get("M")!)).toBe(contentHash(source.get("M")));
+    } finally {
+      plain.dispose();
+      named.dispose();
+    }
+  });
 });
