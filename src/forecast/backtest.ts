@@ -396,7 +396,7 @@ export function rollingBacktest(portfolio: Portfolio<Tariff>, options: BacktestO
             expectedProblem(error); // a month the tariff cannot price leaves this basis out for the meter
           }
           if (path) paths[basis] = path;
-          done.push({ typical: input.typicalMonthlyTemp, path: path && [...path] });
+          done.push({ typical: input.typicalMonthlyTemp, path });
         }
         return paths;
       });
