@@ -5,7 +5,7 @@
  * a scratch folder next to `outDir` and swapped in by rename, so a failed build never leaves
  * a half-written site and a reader never sees one mid-build.
  */
-import { mkdir, mkdtemp, readdir, rename, rm, stat, writeFile } from "node:fs/promises";
+import { mkdir, mkdtemp, readdir, rename, rm, stat, utimes, writeFile } from "node:fs/promises";
 import { rmSync } from "node:fs";
 import { basename, dirname, join, relative, resolve, sep } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -61,8 +61,13 @@ function scratchPrefix(outDir: string): string {
   return `.${basename(outDir)}.ohmbook-build-`;
 }
 
-/** Scratch folders older than this are leftovers of a killed build (no build takes an hour). */
+/**
+ * Scratch folders untouched for longer than this are leftovers of a killed build. A build keeps
+ * its own folders fresh every SCRATCH_HEARTBEAT_MS however long it runs (a build of thousands of
+ * buildings takes hours), so a concurrent build never takes a live one for a leftover.
+ */
 const STALE_SCRATCH_MS = 60 * 60 * 1000;
+const SCRATCH_HEARTBEAT_MS = 5 * 60 * 1000;
 
 /** Scratch folders of builds into `outDir` (full paths), in progress or left by killed builds. */
 async function scratchFolders(outDir: string): Promise<string[]> {
@@ -94,6 +99,30 @@ async function removeStaleScratch(outDir: string): Promise<void> {
 
 /** Scratch folders of builds in progress in this process, so a signal handler can remove them. */
 const activeScratch = new Set<string>();
+let heartbeat: NodeJS.Timeout | null = null;
+
+/**
+ * Marks this process's scratch folders as in use (their modification time set to now), so a
+ * build started later next to the same output does not remove them as stale. Called every
+ * SCRATCH_HEARTBEAT_MS while any exists; a folder that cannot be touched is left as it is.
+ */
+export async function refreshActiveScratch(now = new Date()): Promise<void> {
+  await Promise.all([...activeScratch].map((path) => utimes(path, now, now).catch(() => undefined)));
+}
+
+function trackScratch(path: string): void {
+  activeScratch.add(path);
+  // unref: the timer never keeps a finished process alive
+  heartbeat ??= setInterval(() => void refreshActiveScratch(), SCRATCH_HEARTBEAT_MS).unref();
+}
+
+function untrackScratch(path: string): void {
+  activeScratch.delete(path);
+  if (activeScratch.size === 0 && heartbeat) {
+    clearInterval(heartbeat);
+    heartbeat = null;
+  }
+}
 
 /**
  * Removes the scratch folders of builds still in progress (synchronously: for a signal handler
@@ -109,7 +138,7 @@ export function removeActiveScratch(): void {
       // best effort on the way out
     }
   }
-  activeScratch.clear();
+  for (const path of [...activeScratch]) untrackScratch(path);
 }
 
 /**
@@ -280,7 +309,7 @@ async function makeScratch(out: string): Promise<string> {
     // read-only, full or missing parent folder: a user problem, named with its path and cause
     throw new SiteWriteError(`cannot write next to ${out} (${(error as NodeJS.ErrnoException).code ?? "error"}): ${(error as Error).message}; check that the folder exists, is writable and has free space`, { cause: error });
   }
-  activeScratch.add(scratch);
+  trackScratch(scratch);
   return scratch;
 }
 
@@ -297,7 +326,7 @@ export function makeScratchFolder(outDir: string): Promise<string> {
 /** Removes a scratch folder made by makeScratchFolder (or by this module) and forgets it. */
 export async function removeScratchFolder(path: string): Promise<void> {
   await rm(path, { recursive: true, force: true });
-  activeScratch.delete(path);
+  untrackScratch(path);
 }
 
 /** The client bundle being made ahead of the site (startClientBundle). */
