@@ -31,6 +31,32 @@ interface Amounted {
   note: string | null;
 }
 
+/**
+ * sumAmounts (core/money.ts) one value at a time: the same Neumaier steps in the same order, so
+ * `total()` is the number sumAmounts gives for the values added since `reset()`; no array.
+ */
+export class Compensated {
+  private sum = 0;
+  private c = 0;
+  count = 0;
+  reset(): this {
+    this.sum = 0;
+    this.c = 0;
+    this.count = 0;
+    return this;
+  }
+  add(v: number): void {
+    const sum = this.sum;
+    const t = sum + v;
+    this.c += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
+    this.sum = t;
+    this.count++;
+  }
+  total(): number {
+    return this.sum + this.c;
+  }
+}
+
 const RANK: Record<LineStatus, number> = { exact: 0, estimated: 1, "needs-interval-data": 2 };
 const NO_PF_NOTE = "no power factor given: no adjustment computed";
 
@@ -130,7 +156,7 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
   const charges = version.charges;
   const slots: (Amounted | null)[] = new Array(charges.length).fill(null);
   let billingKw: number | null = null;
-  const pieces: number[] = [];
+  const pieces = new Compensated();
   for (let i = 0; i < charges.length; i++) {
     const charge = charges[i]!;
     switch (charge.kind) {
@@ -139,7 +165,7 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
         break;
       case "blocks": {
         const scale = charge.scaleByDays ? ctx.days / 30 : 1;
-        pieces.length = 0;
+        pieces.reset();
         let firstRate = 0;
         let lower = 0;
         let remaining = ctx.usage;
@@ -148,13 +174,13 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
           const upper = block.upTo === null ? Infinity : block.upTo * scale;
           const q = b === 0 && remaining < 0 ? remaining : Math.max(0, Math.min(remaining, upper - lower));
           if (q !== 0 || b === 0) {
-            if (pieces.length === 0) firstRate = block.rate;
-            pieces.push(q * block.rate);
+            if (pieces.count === 0) firstRate = block.rate;
+            pieces.add(q * block.rate);
           }
           remaining -= q;
           lower = upper;
         }
-        slots[i] = amounted(charge, ctx.usage, pieces.length === 1 ? firstRate : null, sumAmounts(pieces), 0);
+        slots[i] = amounted(charge, ctx.usage, pieces.count === 1 ? firstRate : null, pieces.total(), 0);
         break;
       }
       case "energy": {
@@ -164,9 +190,9 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
         }
         const split = st.periodSplit();
         const rates = pv.energyRates[i]!;
-        pieces.length = 0;
-        for (let p = 0; p < rates.length; p++) pieces.push(split.usage[p]! * rates[p]!);
-        slots[i] = amounted(charge, split.total, null, sumAmounts(pieces), RANK[split.status]);
+        pieces.reset();
+        for (let p = 0; p < rates.length; p++) pieces.add(split.usage[p]! * rates[p]!);
+        slots[i] = amounted(charge, split.total, null, pieces.total(), RANK[split.status]);
         break;
       }
       case "demand": {
@@ -185,15 +211,15 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
         break;
       }
       case "power-factor": {
-        pieces.length = 0;
+        pieces.reset();
         let status = 0;
         for (let j = 0; j < i; j++) {
           const l = slots[j];
           if (l === null || !l!.demand) continue;
-          pieces.push(l!.amount);
+          pieces.add(l!.amount);
           if (l!.status > status) status = l!.status;
         }
-        const base = sumAmounts(pieces);
+        const base = pieces.total();
         const pf = ctx.req.powerFactor;
         if (pf == null) slots[i] = amounted(charge, base, 0, 0, status, NO_PF_NOTE);
         else if (pf >= charge.targetPf) slots[i] = amounted(charge, base, 0, 0, status);
@@ -210,14 +236,14 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
 
   let minLine: Amounted | null = null;
   if (version.minimumBill !== null) {
-    pieces.length = 0;
+    pieces.reset();
     let status = 0;
     for (const l of slots) {
       if (l === null) continue;
-      pieces.push(l.amount);
+      pieces.add(l.amount);
       if (l.status > status) status = l.status;
     }
-    const subtotal = roundCents(sumAmounts(pieces));
+    const subtotal = roundCents(pieces.total());
     if (subtotal < version.minimumBill) {
       const amount = roundCents(version.minimumBill - subtotal);
       minLine = { label: MINIMUM_BILL_LABEL, demand: false, quantity: 1, rate: amount, amount, status, note: null };
@@ -234,14 +260,14 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
       ordered.push(minLine);
       minLine = null;
     }
-    pieces.length = 0;
+    pieces.reset();
     let status = 0;
     for (const l of ordered) {
       if (charge.of !== "all" && !charge.of.includes(l.label)) continue;
-      pieces.push(l.amount);
+      pieces.add(l.amount);
       if (l.status > status) status = l.status;
     }
-    const baseAmount = roundCents(sumAmounts(pieces));
+    const baseAmount = roundCents(pieces.total());
     const rate = charge.percent / 100;
     ordered.push(amounted(charge, baseAmount, rate, baseAmount * rate, status));
   }
@@ -250,13 +276,13 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
 }
 
 /** A per-period demand charge (priceDemand's second half, without billed-demand scaling: no shape mode here). */
-function periodDemand(st: VersionState, pv: PreparedVersion, charge: Extract<Charge, { kind: "demand" }>, periods: { index: number[]; rate: number[] }, pieces: number[]): Amounted {
+function periodDemand(st: VersionState, pv: PreparedVersion, charge: Extract<Charge, { kind: "demand" }>, periods: { index: number[]; rate: number[] }, pieces: Compensated): Amounted {
   const { ctx } = st;
   const iv = ctx.intervals;
   const demandKw = ctx.req.demandKw;
   const count = periods.index.length;
   const kws = new Array<number>(count);
-  pieces.length = 0;
+  pieces.reset();
   let status: number;
   if ((iv && iv.kwh && iv.startMs.length > 0) || demandKw != null) {
     const fromIntervals = !!(iv && iv.kwh && iv.startMs.length > 0);
@@ -269,18 +295,18 @@ function periodDemand(st: VersionState, pv: PreparedVersion, charge: Extract<Cha
       let kw = byPeriod !== null ? (byPeriod[p] ?? 0) * scale : peaks !== null && peaks.overall > 0 ? (demandKw! * peaks.byPeriod[p]!) / peaks.overall : demandKw!;
       if (charge.minimumKw !== null && kw < charge.minimumKw) kw = charge.minimumKw;
       kws[j] = kw;
-      pieces.push(kw * periods.rate[j]!);
+      pieces.add(kw * periods.rate[j]!);
     }
     status = fromIntervals ? 0 : shaped ? 1 : 2;
   } else {
     for (let j = 0; j < count; j++) {
       kws[j] = 0;
-      pieces.push(0);
+      pieces.add(0);
     }
     status = 2;
   }
   const single = count === 1;
-  return amounted(charge, single ? kws[0]! : null, single ? periods.rate[0]! : null, sumAmounts(pieces), status);
+  return amounted(charge, single ? kws[0]! : null, single ? periods.rate[0]! : null, pieces.total(), status);
 }
 
 /** Highest hour weight overall and inside each period (usage-independent: once per plan and version). */

@@ -147,9 +147,9 @@ export class VersionState {
     return this.ctx.frame.hourWeights();
   }
 
+  /** Whether the bill has a load shape with some use (the frame's request carries the same shape). */
   hasShape(): boolean {
-    const s = this.ctx.req.loadShapeByHourOfWeek;
-    return !!s && s.length === 168 && s.some((v) => v > 0);
+    return this.ctx.frame.hasShape();
   }
 
   /** Share of each period in the hours' weights: usage-independent, so kept on the frame per version. */
