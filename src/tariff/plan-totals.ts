@@ -231,6 +231,11 @@ function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[
       }
       case "percent":
         break; // after the minimum bill
+      default: {
+        // A new charge kind must be priced here as in priceVersion (price-version.ts).
+        const unknown: never = charge;
+        throw new Error(`plan-totals: charge kind of ${JSON.stringify(unknown)} is not priced`);
+      }
     }
   }
 
