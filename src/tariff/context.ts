@@ -159,7 +159,8 @@ export function billContext(tariff: Tariff, req: PriceRequest, frame?: BillFrame
   // A plan's frame checked its load shape once (pricingPlan); the request carries the same one.
   if (own) checkLoadShape(req.loadShapeByHourOfWeek);
   const prev = req.previousBillingDemandsKw ?? [];
-  for (const v of prev) {
+  for (let i = 0; i < prev.length; i++) {
+    const v = prev[i];
     if (!(Number.isFinite(v) && v >= 0)) throw new PricingError("previous billing demands must be non-negative numbers (kW)");
   }
   const { startMs, endMs, usageFactor } = frame;

@@ -16,7 +16,7 @@ import { MINIMUM_BILL_LABEL } from "./model.ts";
 import { billingDemandKw } from "./demand.ts";
 import { rateOf } from "./lines.ts";
 import { VersionState } from "./version-state.ts";
-import { roundCents, sumAmounts } from "../core/money.ts";
+import { roundCents } from "../core/money.ts";
 
 /** A line as far as totals need it: what mergeLine compares and what the total adds. */
 interface Amounted {
@@ -100,28 +100,46 @@ export function prepareVersions(inForce: readonly { version: TariffVersion; days
  */
 export function plannedTotals(ctx: BillContext, prepared: VersionsInForce): { total: number; billingDemandKw: number | null; exact: boolean } {
   const n = prepared.versions.length;
+  const acc = new Compensated();
+  if (n === 1) {
+    const r = versionLines(ctx, prepared.versions[0]!, acc);
+    acc.reset();
+    let exact = true;
+    for (const l of r.lines) {
+      acc.add(l.amount);
+      if (l.status !== 0) exact = false;
+    }
+    const total = roundCents(acc.total());
+    let billingDemandKw: number | null = null;
+    if (r.billingKw !== null) {
+      acc.reset();
+      acc.add(r.billingKw * (prepared.days[0]! / ctx.days));
+      billingDemandKw = acc.total();
+    }
+    return { total, billingDemandKw, exact };
+  }
   const results: Amounted[][] = [];
   const billing: (number | null)[] = [];
   for (let v = 0; v < n; v++) {
-    const r = versionLines(ctx, prepared.versions[v]!);
+    const r = versionLines(ctx, prepared.versions[v]!, acc);
     results.push(r.lines);
     billing.push(r.billingKw);
   }
   const weights = prepared.days.map((days) => days / ctx.days);
-  const lines = n === 1 ? results[0]! : mergeByLabel(results, weights);
-  const amounts = new Array<number>(lines.length);
+  const lines = mergeByLabel(results, weights);
+  acc.reset();
   let exact = true;
-  for (let i = 0; i < lines.length; i++) {
-    amounts[i] = lines[i]!.amount;
-    if (lines[i]!.status !== 0) exact = false;
+  for (const l of lines) {
+    acc.add(l.amount);
+    if (l.status !== 0) exact = false;
   }
+  const total = roundCents(acc.total());
   let anyDemand = false;
   for (const b of billing) if (b !== null) anyDemand = true;
-  return {
-    total: roundCents(sumAmounts(amounts)),
-    billingDemandKw: anyDemand ? sumAmounts(billing.map((b, i) => (b ?? 0) * weights[i]!)) : null,
-    exact,
-  };
+  if (!anyDemand) return { total, billingDemandKw: null, exact };
+  acc.reset();
+  for (let i = 0; i < n; i++) acc.add((billing[i] ?? 0) * weights[i]!);
+  return { total, billingDemandKw: acc.total(), exact };
 }
 
 /** mergeLine of price.ts without detail, for every label in order of first appearance. */
@@ -149,14 +167,13 @@ function amounted(charge: Charge, quantity: number | null, rate: number | null, 
 }
 
 /** priceVersion without detail: the lines' amounts, quantities, rates and statuses, and the billing demand. */
-function versionLines(ctx: BillContext, pv: PreparedVersion): { lines: Amounted[]; billingKw: number | null } {
+function versionLines(ctx: BillContext, pv: PreparedVersion, pieces: Compensated): { lines: Amounted[]; billingKw: number | null } {
   const { version } = pv;
   const st = new VersionState(ctx, version);
   const prev = ctx.req.previousBillingDemandsKw ?? [];
   const charges = version.charges;
   const slots: (Amounted | null)[] = new Array(charges.length).fill(null);
   let billingKw: number | null = null;
-  const pieces = new Compensated();
   for (let i = 0; i < charges.length; i++) {
     const charge = charges[i]!;
     switch (charge.kind) {
