@@ -61,6 +61,8 @@ export interface BillFrame {
   hourly(): { startMs: Float64Array; local: LocalTimes };
   /** Weight of each hour of the period: the load shape when known, else 1 (split by hours). Not to be mutated. */
   hourWeights(): Float64Array;
+  /** Whether the request's load shape has 168 values, some above 0 (checked once). */
+  hasShape(): boolean;
   /** Usage-independent results cached per tariff version (version-state.ts). */
   byVersion: Map<TariffVersion, unknown>;
 }
@@ -107,6 +109,7 @@ function frameAfterChecks(req: FrameRequest, days: number, requestUnit: string, 
   const endMs = localMidnightMs(req.periodEnd, req.timezone);
   let hourlyCache: { startMs: Float64Array; local: LocalTimes } | null = null;
   let weights: Float64Array | null = null;
+  let shaped: boolean | null = null;
   const hourly = () => (hourlyCache ??= hourlyGrid(startMs, endMs, req.timezone));
   return {
     days,
@@ -127,6 +130,10 @@ function frameAfterChecks(req: FrameRequest, days: number, requestUnit: string, 
         w.fill(1);
       }
       return (weights = w);
+    },
+    hasShape() {
+      const s = req.loadShapeByHourOfWeek;
+      return (shaped ??= !!s && s.length === 168 && s.some((v) => v > 0));
     },
     byVersion: new Map(),
   };
@@ -152,7 +159,8 @@ export function billContext(tariff: Tariff, req: PriceRequest, frame?: BillFrame
   // A plan's frame checked its load shape once (pricingPlan); the request carries the same one.
   if (own) checkLoadShape(req.loadShapeByHourOfWeek);
   const prev = req.previousBillingDemandsKw ?? [];
-  for (const v of prev) {
+  for (let i = 0; i < prev.length; i++) {
+    const v = prev[i];
     if (!(Number.isFinite(v) && v >= 0)) throw new PricingError("previous billing demands must be non-negative numbers (kW)");
   }
   const { startMs, endMs, usageFactor } = frame;

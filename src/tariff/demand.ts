@@ -53,13 +53,7 @@ export function maxWindowDemandKw(
   const ends = windowEnds(startMs, intervalMinutes * 60_000, k, null);
   // The highest window sum, divided once: x ↦ x / hours never decreases, so max(sum) / hours is
   // the largest window average, the same number as dividing every sum and keeping the largest.
-  let best = -Infinity;
-  let sum = 0;
-  for (let i = 0; i < kwh.length; i++) {
-    sum += kwh[i];
-    if (i >= k) sum -= kwh[i - k];
-    if (ends[i] === 0 && sum > best) best = sum;
-  }
+  const best = windowPeaks(kwh, k, ends, null, 0).best;
   return { kw: best === -Infinity ? null : best / hours, intervalsPerWindow: k };
 }
 
@@ -104,14 +98,7 @@ export function maxWindowDemandByPeriodKw(
   const k = intervalsPerWindow(windowMinutes, intervalMinutes);
   const hours = (k * intervalMinutes) / 60;
   const ends = windowEnds(startMs, intervalMinutes * 60_000, k, periodIdx);
-  const best = new Float64Array(periodCount).fill(-Infinity);
-  let sum = 0;
-  for (let i = 0; i < kwh.length; i++) {
-    sum += kwh[i];
-    if (i >= k) sum -= kwh[i - k];
-    const p = ends[i];
-    if (p >= 0 && sum > best[p]) best[p] = sum;
-  }
+  const best = windowPeaks(kwh, k, null, ends, periodCount).bestIn!;
   return Array.from(best, (b) => (b === -Infinity ? null : b / hours));
 }
 
@@ -134,20 +121,103 @@ export function maxWindowDemandsKw(
   const stepMs = intervalMinutes * 60_000;
   const ends = windowEnds(startMs, stepMs, k, null);
   const endsIn = windowEnds(startMs, stepMs, k, periodIdx);
-  let best = -Infinity;
-  const bestIn = new Float64Array(periodCount).fill(-Infinity);
-  let sum = 0;
-  for (let i = 0; i < kwh.length; i++) {
-    sum += kwh[i];
-    if (i >= k) sum -= kwh[i - k];
-    if (ends[i] === 0 && sum > best) best = sum;
-    const p = endsIn[i];
-    if (p >= 0 && sum > bestIn[p]) bestIn[p] = sum;
-  }
+  const peaks = windowPeaks(kwh, k, ends, endsIn, periodCount);
+  const best = peaks.best;
+  const bestIn = peaks.bestIn!;
   return {
     whole: { kw: best === -Infinity ? null : best / hours, intervalsPerWindow: k },
     byPeriod: Array.from(bestIn, (b) => (b === -Infinity ? null : b / hours)),
   };
+}
+
+/**
+ * The running window sums of `kwh` (add each reading, take off the one k back) and the highest
+ * of them where a window counts: over the whole period (`ends[i] === 0`) and inside each period
+ * (`endsIn[i]` = the period). The loop the three functions above shared, the same additions and
+ * comparisons in the same order; after the first k readings it goes by runs of equal
+ * eligibility (eligibilityRuns), with the current period's highest sum held in a local.
+ */
+function windowPeaks(kwh: Float64Array, k: number, ends: Int8Array | null, endsIn: Int8Array | null, periodCount: number): { best: number; bestIn: Float64Array | null } {
+  let best = -Infinity;
+  const bestIn = endsIn !== null ? new Float64Array(periodCount).fill(-Infinity) : null;
+  let sum = 0;
+  const head = Math.min(k, kwh.length);
+  for (let i = 0; i < head; i++) {
+    sum += kwh[i]!;
+    if (ends !== null && ends[i] === 0 && sum > best) best = sum;
+    if (endsIn !== null) {
+      const p = endsIn[i]!;
+      if (p >= 0 && sum > bestIn![p]!) bestIn![p] = sum;
+    }
+  }
+  const runs = eligibilityRuns(ends, endsIn, head, kwh.length);
+  for (let r = 0; r < runs.length; r += 4) {
+    const whole = runs[r] === 1;
+    const p = runs[r + 1]!;
+    const end = runs[r + 3]!;
+    let i = runs[r + 2]!;
+    if (p >= 0) {
+      let bp = bestIn![p]!;
+      if (whole) {
+        for (; i < end; i++) {
+          sum += kwh[i]!;
+          sum -= kwh[i - k]!;
+          if (sum > best) best = sum;
+          if (sum > bp) bp = sum;
+        }
+      } else {
+        for (; i < end; i++) {
+          sum += kwh[i]!;
+          sum -= kwh[i - k]!;
+          if (sum > bp) bp = sum;
+        }
+      }
+      bestIn![p] = bp;
+    } else if (whole) {
+      for (; i < end; i++) {
+        sum += kwh[i]!;
+        sum -= kwh[i - k]!;
+        if (sum > best) best = sum;
+      }
+    } else {
+      for (; i < end; i++) {
+        sum += kwh[i]!;
+        sum -= kwh[i - k]!;
+      }
+    }
+  }
+  return { best, bestIn };
+}
+
+/*
+ * Runs of equal eligibility from index `from` to `n`: [whole (1 when ends[i] === 0), period
+ * (endsIn[i], −1 without), first, end) quadruples. They depend on the ends arrays alone, which
+ * are made once per instants (windowEnds), so the runs are kept with them, weakly.
+ */
+const runsByEnds = new WeakMap<Int8Array, { other: Int8Array | null; from: number; n: number; runs: Int32Array }[]>();
+
+function eligibilityRuns(ends: Int8Array | null, endsIn: Int8Array | null, from: number, n: number): Int32Array {
+  // Kept with the per-period array when there is one (it lives no longer than the whole-period one).
+  const key = endsIn ?? ends;
+  if (key === null) return Int32Array.of(0, -1, from, n);
+  const other = endsIn === null ? null : ends;
+  let list = runsByEnds.get(key);
+  if (list === undefined) runsByEnds.set(key, (list = []));
+  for (const e of list) if (e.other === other && e.from === from && e.n === n) return e.runs;
+  const out: number[] = [];
+  const wholeAt = (i: number) => (ends !== null && ends[i] === 0 ? 1 : 0);
+  const periodAt = (i: number) => (endsIn !== null ? endsIn[i]! : -1);
+  for (let i = from; i < n; ) {
+    const w = wholeAt(i);
+    const p = periodAt(i);
+    let j = i + 1;
+    while (j < n && wholeAt(j) === w && periodAt(j) === p) j++;
+    out.push(w, p, i, j);
+    i = j;
+  }
+  const runs = Int32Array.from(out);
+  list.push({ other, from, n, runs });
+  return runs;
 }
 
 /*

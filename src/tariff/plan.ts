@@ -3,7 +3,7 @@
  * (a forecast prices each month once per scenario, 300 times). What does not depend on the
  * quantities is checked and prepared once — the dates, zone and unit, the versions in force and
  * their weights, the hours with their local times and load-shape weights, the time-of-use
- * shares of those hours — and no line notes are written (nobody reads them). Each price is the
+ * shares of those hours — and no lines are made, only their amounts (plan-totals.ts). Each price is the
  * same total, billing demand and exactness as `priceBill` with the same request
  * (test/tariff/plan.test.ts).
  */
@@ -11,6 +11,7 @@ import type { PriceRequest } from "./types.ts";
 import type { Tariff } from "./model.ts";
 import { billContext, billFrame, checkLoadShape, type FrameRequest } from "./context.ts";
 import { priceInContext, versionsInForce } from "./price.ts";
+import { plannedTotals, prepareVersions } from "./plan-totals.ts";
 
 /** The quantities that change from one price of a plan to the next. */
 export type PlanQuantities = Pick<PriceRequest, "usage" | "demandKw" | "intervals" | "previousBillingDemandsKw">;
@@ -37,6 +38,8 @@ export function pricingPlan(tariff: Tariff, fixed: FrameRequest & Pick<PriceRequ
   const frame = billFrame(tariff, fixed);
   checkLoadShape(fixed.loadShapeByHourOfWeek);
   const inForce = versionsInForce(tariff, fixed.periodStart, fixed.periodEnd);
+  // Totals without lines (plan-totals.ts), except where interval data give only the shape.
+  const prepared = fixed.intervalsGive === "shape" ? null : prepareVersions(inForce);
   return {
     price(quantities) {
       const req: PriceRequest = {
@@ -52,7 +55,9 @@ export function pricingPlan(tariff: Tariff, fixed: FrameRequest & Pick<PriceRequ
         intervals: quantities.intervals,
         previousBillingDemandsKw: quantities.previousBillingDemandsKw,
       };
-      const bill = priceInContext(billContext(tariff, req, frame, false), inForce);
+      const ctx = billContext(tariff, req, frame, false);
+      if (prepared !== null) return plannedTotals(ctx, prepared);
+      const bill = priceInContext(ctx, inForce);
       return { total: bill.total, billingDemandKw: bill.billingDemandKw, exact: bill.exact };
     },
   };

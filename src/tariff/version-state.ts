@@ -31,6 +31,48 @@ export function agreesWithinRounding(a: number, b: number): boolean {
   return Math.abs(a - b) <= Math.max(0.01, 0.0005 * Math.max(Math.abs(a), Math.abs(b)));
 }
 
+/*
+ * Runs of equal period index ([period, first, end) triples), per period-index array: they
+ * depend on the instants and the version only, and a forecast splits the same month's instants
+ * once per scenario. Kept as long as the index array (calendar.ts caches that per instants).
+ */
+const runsByIndices = new WeakMap<Int8Array, Int32Array>();
+
+function periodRuns(idx: Int8Array): Int32Array {
+  let runs = runsByIndices.get(idx);
+  if (runs === undefined) {
+    const out: number[] = [];
+    for (let i = 0; i < idx.length; ) {
+      let j = i + 1;
+      while (j < idx.length && idx[j] === idx[i]) j++;
+      out.push(idx[i]!, i, j);
+      i = j;
+    }
+    runsByIndices.set(idx, (runs = Int32Array.from(out)));
+  }
+  return runs;
+}
+
+/**
+ * Usage per period: `sums[idx[i]] += usage[i]` in interval order (an index outside the periods
+ * adds nothing), the same additions in the same order, but each run of one period is added in
+ * a local sum instead of through memory, which does not wait on a store per interval.
+ * @example usageByPeriod(Float64Array.of(1, 2, 4), Int8Array.of(0, 0, 1), 2) // Float64Array [3, 4]
+ */
+export function usageByPeriod(usage: Float64Array, idx: Int8Array, periodCount: number): Float64Array {
+  const sums = new Float64Array(periodCount);
+  const runs = periodRuns(idx);
+  for (let r = 0; r < runs.length; r += 3) {
+    const p = runs[r]!;
+    if (p < 0 || p >= periodCount) continue;
+    const end = runs[r + 2]!;
+    let acc = sums[p]!;
+    for (let i = runs[r + 1]!; i < end; i++) acc += usage[i]!;
+    sums[p] = acc;
+  }
+  return sums;
+}
+
 /** Per-version cache of work shared by several charges. */
 export class VersionState {
   private periodIdx: Int8Array | null = null;
@@ -105,9 +147,9 @@ export class VersionState {
     return this.ctx.frame.hourWeights();
   }
 
+  /** Whether the bill has a load shape with some use (the frame's request carries the same shape). */
   hasShape(): boolean {
-    const s = this.ctx.req.loadShapeByHourOfWeek;
-    return !!s && s.length === 168 && s.some((v) => v > 0);
+    return this.ctx.frame.hasShape();
   }
 
   /** Share of each period in the hours' weights: usage-independent, so kept on the frame per version. */
@@ -133,10 +175,8 @@ export class VersionState {
     const unit = this.ctx.tariff.usageUnit;
     if (iv && iv.startMs.length > 0) {
       const idx = this.intervalPeriods();
-      // Summed in a typed array (a forecast splits thousands of scaled months), in the same order.
-      const sums = new Float64Array(n);
-      for (let i = 0; i < idx.length; i++) sums[idx[i]] += iv.usage[i];
-      usage = Array.from(sums);
+      // Summed in a typed array by runs of one period (a forecast splits thousands of scaled months), in the same order.
+      usage = Array.from(usageByPeriod(iv.usage, idx, n));
       const metered = sumAmounts(usage);
       if (this.ctx.req.intervalsGive === "shape" && metered > 0) {
         const agrees = iv.startMs.length >= iv.expectedCount && agreesWithinRounding(metered, this.ctx.usage);
