@@ -13,6 +13,7 @@
 import { ModelInputError } from "../errors.ts";
 import { fitTowt, fitTowtOnTable } from "./towt.ts";
 import type { TowtModel, TowtOptions } from "./towt.ts";
+import { frameCutFrom } from "./hourlyFrame.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyFrame, HourlyModelSpec } from "./types.ts";
 
 export interface TowtMonthlyOptions extends TowtOptions {
@@ -61,6 +62,12 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   const n = train.kwh.length;
   const monthHours = new Int32Array(13);
   for (let i = 0; i < n; i++) monthHours[train.month[i]!]!++;
+  // A fold's table lost one block of its frame's rows: a segment whose months lost none is the
+  // frame's segment row for row, and its fit (or failure) is the frame's.
+  const key = JSON.stringify(options);
+  const parent = frameCutFrom(train);
+  const parentSegments = parent ? segmentsByTable.get(parent)?.get(key) : undefined;
+  const segments: SegmentFits = { monthHours, fits: new Array<TowtModel | null>(13).fill(null) };
   const byMonth: TowtModel[] = [];
   const fallbackMonths: number[] = [];
   let parameterCount = 0;
@@ -68,7 +75,9 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
     let model: TowtModel | null = null;
     let weight = 0;
     for (let k = 1; k <= 12; k++) weight += segmentWeight(m, k, neighbourWeight) * monthHours[k]!;
-    if (weight >= minSegmentWeight) {
+    if (parentSegments && sameSegment(m, neighbourWeight, monthHours, parentSegments.monthHours)) {
+      model = parentSegments.fits[m]!;
+    } else if (weight >= minSegmentWeight) {
       let size = 0;
       for (let i = 0; i < n; i++) if (segmentWeight(m, train.month[i]!, neighbourWeight) > 0) size++;
       const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
@@ -88,10 +97,14 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
         if (!(e instanceof ModelInputError)) throw e;
       }
     }
+    segments.fits[m] = model;
     if (!model) fallbackMonths.push(m);
     byMonth.push(model ?? overall);
     parameterCount = Math.max(parameterCount, (model ?? overall).parameterCount);
   }
+  let byOptions = segmentsByTable.get(train);
+  if (!byOptions) segmentsByTable.set(train, (byOptions = new Map()));
+  byOptions.set(key, segments);
   const predict = (f: HourlyFeatures): Float64Array => {
     const out = new Float64Array(f.tempC.length);
     // Predict with each month's model only on that month's rows.
@@ -106,6 +119,25 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
     return out;
   };
   return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict };
+}
+
+/** A table's segment fits: its hours per month (index 1 … 12) and each month's fit, null where it fell back. */
+interface SegmentFits {
+  monthHours: Int32Array;
+  fits: (TowtModel | null)[];
+}
+
+/** Segment fits of each table fitted, by options (JSON): what the tables cut from it reuse. */
+const segmentsByTable = new WeakMap<HourlyFrame, Map<string, SegmentFits>>();
+
+/**
+ * Whether month m's segment of a table cut from a frame (its rows some of the frame's, in the
+ * same order) holds every row of the frame's segment: then they are the same rows, weights
+ * and order, and so the same fit.
+ */
+function sameSegment(m: number, neighbourWeight: number, hours: Int32Array, frameHours: Int32Array): boolean {
+  for (let k = 1; k <= 12; k++) if (segmentWeight(m, k, neighbourWeight) > 0 && hours[k] !== frameHours[k]) return false;
+  return true;
 }
 
 function pickRows(f: HourlyFeatures, rows: number[]): HourlyFeatures {
