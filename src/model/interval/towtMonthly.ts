@@ -106,16 +106,20 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   if (!byOptions) segmentsByTable.set(train, (byOptions = new Map()));
   byOptions.set(key, segments);
   const predict = (f: HourlyFeatures): Float64Array => {
-    const out = new Float64Array(f.tempC.length);
-    // Predict with each month's model only on that month's rows.
-    const rowsOf: number[][] = Array.from({ length: 12 }, () => []);
-    for (let i = 0; i < out.length; i++) rowsOf[f.month[i]! - 1]!.push(i);
-    rowsOf.forEach((rows, k) => {
-      if (rows.length === 0) return;
-      const sub = pickRows(f, rows);
-      const p = byMonth[k]!.predict(sub);
-      rows.forEach((r, j) => (out[r] = p[j]!));
-    });
+    const n = f.tempC.length;
+    const out = new Float64Array(n);
+    // Predict with each month's model only on that month's rows (grouped by month, in row order).
+    const start = new Int32Array(14);
+    for (let i = 0; i < n; i++) {
+      const month = f.month[i]!;
+      if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
+      start[month + 1]!++;
+    }
+    for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
+    const rows = new Int32Array(n);
+    const next = start.slice(0, 13);
+    for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
+    for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
     return out;
   };
   return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict };
@@ -138,16 +142,6 @@ const segmentsByTable = new WeakMap<HourlyFrame, Map<string, SegmentFits>>();
 function sameSegment(m: number, neighbourWeight: number, hours: Int32Array, frameHours: Int32Array): boolean {
   for (let k = 1; k <= 12; k++) if (segmentWeight(m, k, neighbourWeight) > 0 && hours[k] !== frameHours[k]) return false;
   return true;
-}
-
-function pickRows(f: HourlyFeatures, rows: number[]): HourlyFeatures {
-  // TOWT reads hour of week, holiday and temperature only.
-  return {
-    ...f,
-    hourOfWeek: Uint8Array.from(rows, (i) => f.hourOfWeek[i]!),
-    holiday: Uint8Array.from(rows, (i) => f.holiday[i]!),
-    tempC: Float64Array.from(rows, (i) => f.tempC[i]!),
-  };
 }
 
 /**
