@@ -51,10 +51,13 @@ export function segmentWeight(segmentMonth: number, rowMonth: number, neighbour:
  * p (for the Guideline 14 statistics) is the largest coefficient count of the models used: each
  * hour's prediction comes from one month's TOWT. (The sum over all twelve, ~2,000, would leave
  * a four-week validation block with n ≤ p; the page states the convention, as for trees.)
+ * @param kept segment fits of earlier tables fitted with the same options: a table cut from one
+ *   of them (frameCutFrom) reuses its segment fits where its months lost no row; this table's
+ *   are added. The same numbers as without it.
  * @throws ModelInputError when not even the all-hours TOWT can be fitted.
  * @example fitTowtMonthly(frame).predict(frame)
  */
-export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions = {}): TowtMonthlyModel {
+export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions = {}, kept?: TowtMonthlySegmentFits): TowtMonthlyModel {
   const { neighbourWeight = 0.5, minSegmentWeight = 336, ...towtOptions } = options;
   if (!(neighbourWeight > 0 && neighbourWeight <= 1)) throw new ModelInputError(`neighbour weight must be in (0, 1], got ${neighbourWeight}`);
   // the TOWT candidate's fit on the same table, when it has been fitted already
@@ -64,9 +67,8 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   for (let i = 0; i < n; i++) monthHours[train.month[i]!]!++;
   // A fold's table lost one block of its frame's rows: a segment whose months lost none is the
   // frame's segment row for row, and its fit (or failure) is the frame's.
-  const key = JSON.stringify(options);
-  const parent = frameCutFrom(train);
-  const parentSegments = parent ? segmentsByTable.get(parent)?.get(key) : undefined;
+  const parent = kept ? frameCutFrom(train) : undefined;
+  const parentSegments = parent ? kept!.get(parent) : undefined;
   const segments: SegmentFits = { monthHours, fits: new Array<TowtModel | null>(13).fill(null) };
   const byMonth: TowtModel[] = [];
   const fallbackMonths: number[] = [];
@@ -102,9 +104,7 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
     byMonth.push(model ?? overall);
     parameterCount = Math.max(parameterCount, (model ?? overall).parameterCount);
   }
-  let byOptions = segmentsByTable.get(train);
-  if (!byOptions) segmentsByTable.set(train, (byOptions = new Map()));
-  byOptions.set(key, segments);
+  kept?.set(train, segments);
   const predict = (f: HourlyFeatures): Float64Array => {
     const n = f.tempC.length;
     const out = new Float64Array(n);
@@ -131,8 +131,12 @@ interface SegmentFits {
   fits: (TowtModel | null)[];
 }
 
-/** Segment fits of each table fitted, by options (JSON): what the tables cut from it reuse. */
-const segmentsByTable = new WeakMap<HourlyFrame, Map<string, SegmentFits>>();
+/**
+ * The segment fits of each table fitted with one set of options, for the tables cut from it
+ * (a frame's cross-validation folds) to reuse: one per model spec, so it lives as long as the
+ * spec and holds no table beyond its own life.
+ */
+export type TowtMonthlySegmentFits = WeakMap<HourlyFrame, SegmentFits>;
 
 /**
  * Whether month m's segment of a table cut from a frame (its rows some of the frame's, in the
@@ -149,5 +153,6 @@ function sameSegment(m: number, neighbourWeight: number, hours: Int32Array, fram
  * @example towtMonthlySpec().kind // "towt-monthly"
  */
 export function towtMonthlySpec(options: TowtMonthlyOptions = {}): HourlyModelSpec {
-  return { kind: "towt-monthly", fit: (train) => fitTowtMonthly(train, options) };
+  const kept: TowtMonthlySegmentFits = new WeakMap();
+  return { kind: "towt-monthly", fit: (train) => fitTowtMonthly(train, options, kept) };
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { fitTowtMonthly, segmentWeight, towtMonthlySpec } from "../../../src/model/interval/towtMonthly.ts";
+import { fitTowtMonthly, segmentWeight, towtMonthlySpec, type TowtMonthlySegmentFits } from "../../../src/model/interval/towtMonthly.ts";
 import { fitTowt, towtSpec } from "../../../src/model/interval/towt.ts";
 import { selectFrameRows } from "../../../src/model/interval/hourlyFrame.ts";
 import { rmse, schoolYear } from "./syntheticSchool.ts";
@@ -72,12 +72,13 @@ describe("month-segmented predictions (definition: each hour from its month's TO
 });
 
 describe("a fold's table reuses its frame's segment fits where its months lost no row", () => {
-  // The reference is the same fold table fitted from scratch: a copy of it that was not cut
-  // from anything (frameCutFrom undefined) fits every segment itself. Equal bit for bit.
+  // The reference is the same fold table fitted from scratch (no kept fits): every segment
+  // fitted on its own. Equal bit for bit.
   const frame = schoolYear(2021, 4);
   const same = (a: Float64Array, b: Float64Array): void => expect(Array.from(a)).toEqual(Array.from(b));
   it("blocked and expanding folds, any block: same months fallen back, same predictions", () => {
-    const whole = fitTowtMonthly(frame);
+    const kept: TowtMonthlySegmentFits = new WeakMap();
+    const whole = fitTowtMonthly(frame, {}, kept);
     const n = frame.kwh.length;
     fc.assert(
       fc.property(fc.integer({ min: 0, max: n - 1 }), fc.integer({ min: 1, max: 24 * 75 }), fc.boolean(), (start, len, expanding) => {
@@ -85,8 +86,8 @@ describe("a fold's table reuses its frame's segment fits where its months lost n
         const end = Math.min(n, start + len);
         const rows = Array.from({ length: n }, (_, i) => i).filter((i) => i < start || (!expanding && i >= end));
         const fold = selectFrameRows(frame, rows);
-        const reused = fitTowtMonthly(fold);
-        const fresh = fitTowtMonthly({ ...fold });
+        const reused = fitTowtMonthly(fold, {}, kept);
+        const fresh = fitTowtMonthly(fold);
         expect(reused.fallbackMonths).toEqual(fresh.fallbackMonths);
         expect(reused.parameterCount).toBe(fresh.parameterCount);
         reused.byMonth.forEach((m, k) => expect(m.coefficients).toEqual(fresh.byMonth[k]!.coefficients));
