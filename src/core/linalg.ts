@@ -145,36 +145,17 @@ export function qrUnscaledCovariance(f: QrFactorization): number[][] {
  * rank-deficient; writes the coefficients into `coef` when given.
  */
 export function leastSquaresInPlace(a: Float64Array, y: Float64Array, m: number, k: number, coef?: Float64Array): number {
-  const rDiag = new Float64Array(k);
-  for (let c = 0; c < k; c++) {
-    // Both sums in one pass, each adding its entries in row order: the column's (i ≥ 0) and the
-    // part from the diagonal down (i ≥ c); for the first column they are the same sum.
-    let colNorm2 = 0;
-    for (let i = 0; i < c; i++) colNorm2 += a[c * m + i] ** 2;
-    let nrm2 = 0;
-    for (let i = c; i < m; i++) {
-      const sq = a[c * m + i] ** 2;
-      colNorm2 += sq;
-      nrm2 += sq;
-    }
-    let nrm = Math.sqrt(nrm2);
-    // colNorm2 is of the column after earlier reflections, whose norm they preserve.
-    if (nrm === 0 || nrm <= RANK_TOLERANCE * Math.sqrt(colNorm2)) return Number.NaN;
-    if (a[c * m + c] < 0) nrm = -nrm;
-    for (let i = c; i < m; i++) a[c * m + i] /= nrm;
-    a[c * m + c] += 1;
-    for (let j = c + 1; j < k; j++) {
-      let s = 0;
-      for (let i = c; i < m; i++) s += a[c * m + i] * a[j * m + i];
-      s = -s / a[c * m + c];
-      for (let i = c; i < m; i++) a[j * m + i] += s * a[c * m + i];
-    }
-    let s = 0;
-    for (let i = c; i < m; i++) s += a[c * m + i] * y[i];
-    s = -s / a[c * m + c];
-    for (let i = c; i < m; i++) y[i] += s * a[c * m + i];
-    rDiag[c] = -nrm;
-  }
+  return leastSquaresFrom(a, y, m, k, 0, new Float64Array(k), coef);
+}
+
+/**
+ * {@link leastSquaresInPlace} from column `from` on: columns 0 … from − 1 of `a` already hold
+ * their Householder vectors (as the steps leave them) with their R diagonal in rDiag, and the
+ * later columns and y have had those reflections applied, in column order (see
+ * {@link householderStep} and {@link applyReflection}). The same numbers as solving from 0.
+ */
+export function leastSquaresFrom(a: Float64Array, y: Float64Array, m: number, k: number, from: number, rDiag: Float64Array, coef?: Float64Array): number {
+  for (let c = from; c < k; c++) if (!householderStep(a, y, m, k, c, rDiag)) return Number.NaN;
   let sse = 0;
   for (let i = k; i < m; i++) sse += y[i] * y[i];
   if (coef) {
@@ -185,4 +166,43 @@ export function leastSquaresInPlace(a: Float64Array, y: Float64Array, m: number,
     }
   }
   return sse;
+}
+
+/**
+ * Step c of {@link leastSquaresInPlace}: the reflection that zeroes column c below the
+ * diagonal, applied to columns c + 1 … k − 1 and to y; column c keeps its Householder vector.
+ * Returns false when column c is (numerically) a combination of the earlier ones.
+ */
+export function householderStep(a: Float64Array, y: Float64Array, m: number, k: number, c: number, rDiag: Float64Array): boolean {
+  // Both sums in one pass, each adding its entries in row order: the column's (i ≥ 0) and the
+  // part from the diagonal down (i ≥ c); for the first column they are the same sum.
+  let colNorm2 = 0;
+  for (let i = 0; i < c; i++) colNorm2 += a[c * m + i] ** 2;
+  let nrm2 = 0;
+  for (let i = c; i < m; i++) {
+    const sq = a[c * m + i] ** 2;
+    colNorm2 += sq;
+    nrm2 += sq;
+  }
+  let nrm = Math.sqrt(nrm2);
+  // colNorm2 is of the column after earlier reflections, whose norm they preserve.
+  if (nrm === 0 || nrm <= RANK_TOLERANCE * Math.sqrt(colNorm2)) return false;
+  if (a[c * m + c] < 0) nrm = -nrm;
+  for (let i = c; i < m; i++) a[c * m + i] /= nrm;
+  a[c * m + c] += 1;
+  for (let j = c + 1; j < k; j++) applyReflection(a, m, c, a, j * m);
+  applyReflection(a, m, c, y, 0);
+  rDiag[c] = -nrm;
+  return true;
+}
+
+/**
+ * Apply the reflection of step c (its vector in column c of `a`) to the m entries of x from
+ * `off` on: the update {@link householderStep} makes to each later column and to y.
+ */
+export function applyReflection(a: Float64Array, m: number, c: number, x: Float64Array, off: number): void {
+  let s = 0;
+  for (let i = c; i < m; i++) s += a[c * m + i] * x[off + i];
+  s = -s / a[c * m + c];
+  for (let i = c; i < m; i++) x[off + i] += s * a[c * m + i];
 }

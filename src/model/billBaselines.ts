@@ -15,7 +15,7 @@ import type { Bill, Building, Meter, Portfolio, WeatherSeries } from "../domain/
 import { fitChangePointAt, selectChangePointModel, type ChangePointFit, type ChangePointPoint } from "./changePoint.ts";
 import { noMemo, type Memo } from "../core/memo.ts";
 import { temperatureProfileForPeriod, type DegreeDayFit } from "./degreeDayRegression.ts";
-import { degreeDayOutlierBand, type DegreeDayBandBill } from "./outlierBand.ts";
+import { degreeDayOutlierBand, type DegreeDayBandBill, type DegreeDayOutlierBand } from "./outlierBand.ts";
 import { meetsGuideline14 } from "./stats.ts";
 import { daysBetween, localMidnightMs, LocalMonthCalendar } from "../core/time/index.ts";
 import { cToF } from "../core/units.ts";
@@ -268,6 +268,52 @@ export function fitMeterBaseline(options: BaselineOptions & {
   };
 }
 
+/** A bill as a point of a meter's degree-day band: its temperature profile in the model's unit (null when the weather covers too little of it). */
+interface BandInputs {
+  pointOf(bill: Bill): DegreeDayBandBill | null;
+}
+
+function bandInputs(building: Building, weather: WeatherSeries, tempUnit: "C" | "F"): BandInputs {
+  const temps = tempUnit === "F" ? weather.tempC.map(cToF) : weather.tempC;
+  const hourly = { startMs: weather.startMs, temps };
+  return {
+    pointOf: (bill) => {
+      const days = daysBetween(bill.periodStart, bill.periodEnd);
+      const profile = temperatureProfileForPeriod(hourly, localMidnightMs(bill.periodStart, building.timezone), localMidnightMs(bill.periodEnd, building.timezone));
+      if (profile.hoursTotal === 0 || profile.hoursCovered / profile.hoursTotal < MIN_WEATHER_COVERAGE) return null;
+      return { id: bill.billId, profile, days, usePerDay: bill.usage / days };
+    },
+  };
+}
+
+/**
+ * The degree-day band of a meter's bills (train on actual reads, one bill per period; band
+ * every bill with weather; null with too few training bills), and how a further bill becomes a
+ * point; null without weather.
+ */
+function meterDegreeDayBand(
+  options: { building: Building; bills: Bill[]; weather: WeatherSeries | undefined },
+  tempUnit: "C" | "F",
+): { result: DegreeDayOutlierBand | null; inputs: BandInputs } | null {
+  const { weather, building } = options;
+  if (!weather) return null;
+  const inputs = bandInputs(building, weather, tempUnit);
+  const targets: DegreeDayBandBill[] = [];
+  const train: DegreeDayBandBill[] = [];
+  const seen = new Set<string>();
+  for (const bill of [...options.bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart))) {
+    const item = inputs.pointOf(bill);
+    if (!item) continue;
+    targets.push(item);
+    const key = `${bill.periodStart}/${bill.periodEnd}`;
+    if (bill.readType === "actual" && !seen.has(key)) {
+      seen.add(key);
+      train.push(item);
+    }
+  }
+  return { result: train.length < MIN_POINTS ? null : degreeDayOutlierBand(train, targets, { tempUnit }), inputs };
+}
+
 /**
  * The degree-day model and its leave-one-out band for every bill with weather (train on actual
  * reads, one bill per period; band every bill, estimates and repeats included).
@@ -277,28 +323,8 @@ function degreeDayBand(
   tempUnit: "C" | "F",
 ): Pick<MeterBaseline, "degreeDay" | "expectedByBill"> {
   const expectedByBill = new Map<string, { p50: number; low: number; high: number }>();
-  const { weather, building } = options;
-  if (!weather) return { degreeDay: null, expectedByBill };
-  const temps = tempUnit === "F" ? weather.tempC.map(cToF) : weather.tempC;
-  const hourly = { startMs: weather.startMs, temps };
-  const targets: DegreeDayBandBill[] = [];
-  const train: DegreeDayBandBill[] = [];
-  const seen = new Set<string>();
-  for (const bill of [...options.bills].sort((a, b) => a.periodStart.localeCompare(b.periodStart))) {
-    const days = daysBetween(bill.periodStart, bill.periodEnd);
-    const profile = temperatureProfileForPeriod(hourly, localMidnightMs(bill.periodStart, building.timezone), localMidnightMs(bill.periodEnd, building.timezone));
-    if (profile.hoursTotal === 0 || profile.hoursCovered / profile.hoursTotal < MIN_WEATHER_COVERAGE) continue;
-    const item = { id: bill.billId, profile, days, usePerDay: bill.usage / days };
-    targets.push(item);
-    const key = `${bill.periodStart}/${bill.periodEnd}`;
-    if (bill.readType === "actual" && !seen.has(key)) {
-      seen.add(key);
-      train.push(item);
-    }
-  }
-  if (train.length < MIN_POINTS) return { degreeDay: null, expectedByBill };
-  const result = degreeDayOutlierBand(train, targets, { tempUnit });
-  if (!result.fit) return { degreeDay: null, expectedByBill };
+  const result = meterDegreeDayBand(options, tempUnit)?.result;
+  if (!result?.fit) return { degreeDay: null, expectedByBill };
   for (const [id, band] of result.bands) expectedByBill.set(id, { p50: band.expected, low: band.low, high: band.high });
   return {
     degreeDay: {
@@ -326,15 +352,25 @@ function degreeDayBand(
  */
 export function expectedUsageForStretch(portfolio: Portfolio, building: Building): (meterId: string, periodStart: string, periodEnd: string) => { p50: number; low: number; high: number; basis: string } | null {
   const tempUnit = portfolio.settings.degreeDayBase.unit;
+  // The stretch is one more target that is never trained on (an estimated read), so the model
+  // and band are the meter's own: fitted once per meter, however many stretches it has.
+  const byMeter = new Map<string, ReturnType<typeof meterDegreeDayBand>>();
   return (meterId, periodStart, periodEnd) => {
     const bills = portfolio.bills.filter((b) => b.meterId === meterId);
     if (bills.length === 0) return null;
+    let band = byMeter.get(meterId);
+    if (band === undefined) {
+      band = meterDegreeDayBand({ building, bills, weather: portfolio.weather.get(building.weatherStation) }, tempUnit);
+      byMeter.set(meterId, band);
+    }
+    if (!band) return null;
     const id = "\u0000stretch";
     const stretch: Bill = { ...bills[0], billId: id, periodStart, periodEnd, usage: 0, readType: "estimated", demandKw: null, total: 0 };
-    const band = degreeDayBand({ building, bills: [...bills, stretch], weather: portfolio.weather.get(building.weatherStation) }, tempUnit);
-    const e = band.expectedByBill.get(id);
-    const form = band.degreeDay?.fit ? ` (${band.degreeDay.fit.form})` : "";
-    return e ? { p50: e.p50, low: e.low, high: e.high, basis: `the meter's degree-day model${form} at the stretch's actual temperatures, with its prediction band` } : null;
+    const point = band.inputs.pointOf(stretch);
+    if (!band.result?.fit) return null;
+    const e = point ? band.result.bandOf(point) : null;
+    const form = ` (${band.result.fit.form})`;
+    return e ? { p50: e.expected, low: e.low, high: e.high, basis: `the meter's degree-day model${form} at the stretch's actual temperatures, with its prediction band` } : null;
   };
 }
 

@@ -25,7 +25,7 @@
  */
 import { fitOls } from "./ols.ts";
 import type { IntervalPrediction, OlsFit } from "./ols.ts";
-import { leastSquaresInPlace } from "../core/linalg.ts";
+import { applyReflection, householderStep, leastSquaresFrom, leastSquaresInPlace } from "../core/linalg.ts";
 import { guideline14Stats, mean } from "./stats.ts";
 import type { Guideline14Stats } from "./stats.ts";
 import { studentTQuantile } from "./studentT.ts";
@@ -266,14 +266,36 @@ function fillColumn(col: Column, temps: readonly number[], sqrtW: Float64Array, 
   }
 }
 
+/** The factorization state after the leading column(s) of a search design (SearchWorkspace). */
+interface PrefixState {
+  /** The column's Householder vector. */
+  vector: Float64Array;
+  rDiag: number;
+  /** The weighted response after this column's reflection (and the earlier ones'). */
+  rhs: Float64Array;
+}
+
 /**
  * Workspace for the breakpoint searches: fits small weighted least-squares problems in
  * preallocated arrays (thousands of fits per meter, so no allocation per fit).
+ *
+ * Every design starts with the constant column, and many share their second column (4P's
+ * temperature column, a 5P breakpoint held fixed while the other is solved): Householder QR
+ * works column by column, and a column's reflection depends on it and the columns before it
+ * only, so the state after those leading columns is kept and each fit starts from it,
+ * applying the kept reflections to its own columns (the same operations in the same order as
+ * a fit from scratch, so the same numbers).
  */
 class SearchWorkspace {
   private readonly a: Float64Array;
   private readonly rhs: Float64Array;
+  private readonly rDiag = new Float64Array(6);
   readonly coef = new Float64Array(6);
+  /** State after the constant column; null until the first fit, false when it is singular. */
+  private one: PrefixState | null | false = null;
+  /** States after [constant, column], by the column's operation and breakpoint. */
+  private readonly second = new Map<ColumnOp, Map<number, PrefixState>>();
+  private secondCount = 0;
   constructor(
     private readonly temps: readonly number[],
     private readonly y: Float64Array,
@@ -285,9 +307,62 @@ class SearchWorkspace {
   /** Weighted SSE of y on the given columns (NaN when singular); coefficients in `coef`. */
   fit(columns: readonly Column[]): number {
     const m = this.temps.length;
-    for (let c = 0; c < columns.length; c++) fillColumn(columns[c], this.temps, this.sqrtW, this.a, c * m);
-    for (let i = 0; i < m; i++) this.rhs[i] = this.sqrtW[i] * this.y[i];
-    return leastSquaresInPlace(this.a, this.rhs, m, columns.length, this.coef);
+    const k = columns.length;
+    if (k === 0 || columns[0]!.op !== "one") {
+      for (let c = 0; c < k; c++) fillColumn(columns[c]!, this.temps, this.sqrtW, this.a, c * m);
+      for (let i = 0; i < m; i++) this.rhs[i] = this.sqrtW[i]! * this.y[i]!;
+      return leastSquaresInPlace(this.a, this.rhs, m, k, this.coef);
+    }
+    const one = this.oneState();
+    if (one === false) return Number.NaN;
+    const { a, rhs, rDiag } = this;
+    a.set(one.vector, 0);
+    rDiag[0] = one.rDiag;
+    // The second column's state pays for its keeping when at least two columns follow it.
+    const col1 = k >= 4 ? columns[1]! : null;
+    const kept = col1 && !Object.is(col1.b, -0) ? this.second.get(col1.op)?.get(col1.b) : undefined;
+    if (kept) {
+      a.set(kept.vector, m);
+      rDiag[1] = kept.rDiag;
+      rhs.set(kept.rhs);
+      for (let c = 2; c < k; c++) {
+        fillColumn(columns[c]!, this.temps, this.sqrtW, a, c * m);
+        applyReflection(a, m, 0, a, c * m);
+        applyReflection(a, m, 1, a, c * m);
+      }
+      return leastSquaresFrom(a, rhs, m, k, 2, rDiag, this.coef);
+    }
+    rhs.set(one.rhs);
+    for (let c = 1; c < k; c++) {
+      fillColumn(columns[c]!, this.temps, this.sqrtW, a, c * m);
+      applyReflection(a, m, 0, a, c * m);
+    }
+    if (col1 && !Object.is(col1.b, -0)) {
+      if (!householderStep(a, rhs, m, k, 1, rDiag)) return Number.NaN;
+      let byB = this.second.get(col1.op);
+      if (!byB) this.second.set(col1.op, (byB = new Map()));
+      if (this.secondCount >= 4096) {
+        // a bound, not an eviction policy
+        for (const map of this.second.values()) map.clear();
+        this.secondCount = 0;
+      }
+      byB.set(col1.b, { vector: a.slice(m, 2 * m), rDiag: rDiag[1]!, rhs: rhs.slice() });
+      this.secondCount++;
+      return leastSquaresFrom(a, rhs, m, k, 2, rDiag, this.coef);
+    }
+    return leastSquaresFrom(a, rhs, m, k, 1, rDiag, this.coef);
+  }
+  /** The state after the constant column (the first step of every fit). */
+  private oneState(): PrefixState | false {
+    if (this.one !== null) return this.one;
+    const m = this.temps.length;
+    const a = new Float64Array(m);
+    const rhs = new Float64Array(m);
+    const rDiag = new Float64Array(1);
+    fillColumn(ONE, this.temps, this.sqrtW, a, 0);
+    for (let i = 0; i < m; i++) rhs[i] = this.sqrtW[i]! * this.y[i]!;
+    this.one = householderStep(a, rhs, m, 1, 0, rDiag) ? { vector: a, rDiag: rDiag[0]!, rhs } : false;
+    return this.one;
   }
   /** Weighted SSE of a change-point form at fixed breakpoints; Infinity when singular. */
   sseAt(kind: ChangePointKind, bps: readonly number[]): number {

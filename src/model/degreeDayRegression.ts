@@ -370,8 +370,12 @@ class SearchData {
   readonly syy: number;
   constructor(periods: readonly DegreeDayPeriod[], weightByDays: boolean) {
     this.n = periods.length;
-    this.w = Float64Array.from(periods, (p) => (weightByDays ? p.days : 1));
-    this.y = Float64Array.from(periods, (p) => p.usePerDay);
+    this.w = new Float64Array(this.n);
+    this.y = new Float64Array(this.n);
+    for (let i = 0; i < this.n; i++) {
+      this.w[i] = weightByDays ? periods[i]!.days : 1;
+      this.y[i] = periods[i]!.usePerDay;
+    }
     let sw = 0;
     let swy = 0;
     for (let i = 0; i < this.n; i++) {
@@ -390,23 +394,42 @@ class SearchData {
    * fused loops of a fit added them. A base search pairs every heating column with every
    * cooling column, so each column's parts are worked out once instead of once per pair.
    */
-  prepare(x: Float64Array): PreparedColumn {
+  prepare(x: ColumnView): PreparedColumn {
+    const { values, rows } = x;
     let sx = 0;
-    for (let i = 0; i < this.n; i++) sx += this.w[i] * x[i];
+    for (let i = 0; i < this.n; i++) sx += this.w[i] * values[rows[i]];
     const bar = sx / this.sw;
     const d = new Float64Array(this.n);
     let sdd = 0;
     let sdy = 0;
     for (let i = 0; i < this.n; i++) {
-      const dx = x[i] - bar;
+      const dx = values[rows[i]] - bar;
       d[i] = dx;
       sdd += this.w[i] * dx * dx;
       sdy += this.w[i] * dx * (this.y[i] - this.yBar);
     }
     return { bar, d, sdd, sdy };
   }
+  /**
+   * Weighted SSE of y on [1, x] and the slope, straight from the column: the same sums as
+   * {@link prepare} in the same order, without keeping the centred values (only a pair needs them).
+   */
+  oneAt(x: ColumnView): { sse: number; slope: number } {
+    const { values, rows } = x;
+    let sx = 0;
+    for (let i = 0; i < this.n; i++) sx += this.w[i] * values[rows[i]];
+    const bar = sx / this.sw;
+    let sdd = 0;
+    let sdy = 0;
+    for (let i = 0; i < this.n; i++) {
+      const dx = values[rows[i]] - bar;
+      sdd += this.w[i] * dx * dx;
+      sdy += this.w[i] * dx * (this.y[i] - this.yBar);
+    }
+    return this.one({ bar, sdd, sdy });
+  }
   /** Weighted SSE of y on [1, x] and the slope; slope NaN when x is constant. */
-  one(x: PreparedColumn): { sse: number; slope: number } {
+  one(x: Omit<PreparedColumn, "d">): { sse: number; slope: number } {
     const { bar: xBar, sdd: sxx, sdy: sxy } = x;
     if (!(sxx > 1e-12 * Math.max(1, xBar * xBar) * this.sw)) return { sse: Number.POSITIVE_INFINITY, slope: Number.NaN };
     const slope = sxy / sxx;
@@ -455,8 +478,29 @@ function columnAt(periods: readonly DegreeDayPeriod[], kind: "h" | "c", base: nu
   return out;
 }
 
+/**
+ * A degree-day column of the periods a fit is given: period i's value is values[rows[i]]
+ * (a longer list's column read at the fit's rows, so no copy is made per fit).
+ */
+interface ColumnView {
+  values: Float64Array;
+  rows: Int32Array;
+}
+
 /** Degree-day columns of the periods a fit is given, by kind and base. */
-type ColumnSource = (kind: "h" | "c", base: number) => Float64Array;
+type ColumnSource = (kind: "h" | "c", base: number) => ColumnView;
+
+function identityRows(n: number): Int32Array {
+  const rows = new Int32Array(n);
+  for (let i = 0; i < n; i++) rows[i] = i;
+  return rows;
+}
+
+/** The column source of periods on their own (no list kept). */
+function ownColumns(periods: readonly DegreeDayPeriod[]): ColumnSource {
+  const rows = identityRows(periods.length);
+  return (kind, base) => ({ values: columnAt(periods, kind, base), rows });
+}
 
 /**
  * Degree-day columns of a fixed list of periods, kept by base, so fits on subsets of the list
@@ -484,9 +528,10 @@ export class DegreeDayColumns {
       if (r === undefined) return null;
       rows[i] = r;
     }
+    let own: Int32Array | null = null;
     return (kind, base) => {
       // A Map takes −0 and 0 as one key; their degree-days may differ in the sign of a zero.
-      if (Object.is(base, -0)) return columnAt(periods, kind, base);
+      if (Object.is(base, -0)) return { values: columnAt(periods, kind, base), rows: (own ??= identityRows(periods.length)) };
       const byBase = kind === "h" ? this.h : this.c;
       let full = byBase.get(base);
       if (full === undefined) {
@@ -494,9 +539,7 @@ export class DegreeDayColumns {
         if (byBase.size >= 4096) byBase.clear(); // a bound, not an eviction policy
         byBase.set(base, full);
       }
-      const out = new Float64Array(rows.length);
-      for (let i = 0; i < rows.length; i++) out[i] = full[rows[i]!]!;
-      return out;
+      return { values: full, rows };
     };
   }
 }
@@ -556,7 +599,7 @@ function searchBases(
   if (form !== "HC") {
     const kind = form === "HO" ? "h" : "c";
     const sseAt = (base: number): number => {
-      const r = data.one(data.prepare(columnAt(kind, base)));
+      const r = data.oneAt(columnAt(kind, base));
       // Physical constraint: a heating (cooling) slope must be positive.
       return r.slope > 0 ? r.sse : Number.POSITIVE_INFINITY;
     };
@@ -628,7 +671,7 @@ export function fitDegreeDayForm(periods: readonly DegreeDayPeriod[], form: Degr
   if (!(range.min < range.max && range.step > 0 && range.refineStep > 0)) {
     throw new ModelInputError(`base search range must have min < max and positive steps, got ${JSON.stringify(range)}`);
   }
-  const source = columns?.sourceFor(periods) ?? ((kind: "h" | "c", base: number) => columnAt(periods, kind, base));
+  const source = columns?.sourceFor(periods) ?? ownColumns(periods);
   const bases = searchBases(periods, form, range, options.weightByDays ?? true, source);
   if (bases === null) throw new ModelInputError(`${form}: no base in ${range.min}…${range.max} gives a positive ${form === "CO" ? "cooling" : "heating"} slope${form === "HC" ? " and a positive cooling slope" : ""}`);
   return fitDegreeDayFormAt(periods, form, bases, options);

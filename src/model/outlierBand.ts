@@ -100,6 +100,16 @@ function median(values: number[]): number {
   return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
+/** The band of one point around the model's prediction (see the module comment for the half-width). */
+function bandAround<P>(model: BandModel<P>, k: number, scale: number, pt: BandPoint<P>, relative: boolean, minRel: number): BillBand {
+  const perDay = model.predictPerDay(pt.point);
+  const expected = perDay * pt.days;
+  const spread = relative ? k * scale * Math.abs(expected) : k * scale * pt.days;
+  const minimum = minRel * Math.abs(expected);
+  const half = Math.max(spread, minimum);
+  return { id: pt.id, expected, low: Math.max(0, expected - half), high: expected + half, atMinimumWidth: minimum >= spread };
+}
+
 /**
  * Expected-usage bands from leave-one-out prediction errors (see the module comment).
  * @param train bills the model may learn from (actual reads, one per period).
@@ -150,14 +160,7 @@ export function outlierBand<P>(
     const scale = MAD_TO_SIGMA * median(loo.map((l) => Math.abs(l.residual)));
     const effectiveDf = Math.max(1, Math.floor(efficiency * loo.length));
     const k = studentTQuantile(1 - (1 - level) / 2, effectiveDf);
-    const bandFor = (pt: BandPoint<P>): BillBand => {
-      const perDay = model.predictPerDay(pt.point);
-      const expected = perDay * pt.days;
-      const spread = relative ? k * scale * Math.abs(expected) : k * scale * pt.days;
-      const minimum = minRel * Math.abs(expected);
-      const half = Math.max(spread, minimum);
-      return { id: pt.id, expected, low: Math.max(0, expected - half), high: expected + half, atMinimumWidth: minimum >= spread };
-    };
+    const bandFor = (pt: BandPoint<P>): BillBand => bandAround(model, k, scale, pt, relative, minRel);
     const outside = kept.filter((pt) => {
       const b = bandFor(pt);
       const used = pt.usePerDay * pt.days;
@@ -191,6 +194,11 @@ export interface DegreeDayOutlierBand {
   rejected: string[];
   /** Leave-one-out statistics of the final band; null when no band. */
   band: Pick<OutlierBandResult<DegreeDayPeriod>, "looResiduals" | "scale" | "k" | "effectiveDf"> | null;
+  /**
+   * The band of a further bill that is not trained on (an estimated read, a stretch nobody
+   * billed), from the final model: what it would get as one more target. Null when no band.
+   */
+  bandOf(bill: DegreeDayBandBill): BillBand | null;
 }
 
 export interface DegreeDayOutlierBandOptions extends DegreeDaySelectionOptions, Omit<OutlierBandOptions, "rejectionRounds"> {
@@ -232,12 +240,12 @@ export function degreeDayOutlierBand(
   let kept = [...train];
   for (;;) {
     const selection = fitDegreeDayModel(kept, options, columns);
-    if (!selection.chosen) return { fit: null, tried: selection.tried, bands: new Map(), rejected, band: null };
+    if (!selection.chosen) return { fit: null, tried: selection.tried, bands: new Map(), rejected, band: null, bandOf: () => null };
     // Band the kept bills (to find the worst) and the targets in one pass; ids are shared.
     const keptIds = new Set(kept.map((b) => b.id));
     const toBand = [...kept, ...targets.filter((t) => !keptIds.has(t.id))].map(asBand);
     const res = outlierBand(kept.map(asBand), refit(selection.chosen.form), toBand, bandOptions);
-    if (!res) return { fit: selection.chosen, tried: selection.tried, bands: new Map(), rejected, band: null };
+    if (!res) return { fit: selection.chosen, tried: selection.tried, bands: new Map(), rejected, band: null, bandOf: () => null };
     let worst: { id: string; excess: number } | null = null;
     for (const b of kept) {
       const band = res.bands.get(b.id)!;
@@ -250,7 +258,10 @@ export function degreeDayOutlierBand(
       const bands = new Map<string, BillBand>();
       for (const t of targets) bands.set(t.id, res.bands.get(t.id)!);
       const { looResiduals, scale, k, effectiveDf } = res;
-      return { fit: selection.chosen, tried: selection.tried, bands, rejected, band: { looResiduals, scale, k, effectiveDf } };
+      const relative = (options.residualScale ?? "absolute") === "relative";
+      const minRel = options.minRelativeHalfWidth ?? 0.1;
+      const bandOf = (bill: DegreeDayBandBill): BillBand => bandAround(res.model, k, scale, asBand(bill), relative, minRel);
+      return { fit: selection.chosen, tried: selection.tried, bands, rejected, band: { looResiduals, scale, k, effectiveDf }, bandOf };
     }
     rejected.push(worst.id);
     kept = kept.filter((b) => b.id !== worst!.id);

@@ -1,6 +1,8 @@
 /**
  * CPU work on the change-point search (issue 17: a breakpoint the search meets again, such as an
- * interval's upper knot that is the next interval's lower knot, is solved once) must not move a
+ * interval's upper knot that is the next interval's lower knot, is solved once; each design's QR
+ * starts from the kept state after its constant column, and after its second column when that
+ * column was seen before) must not move a
  * single bit: on random bills (repeated temperatures, ±0, flat and V-shaped use, with and without
  * day weights), fitChangePoint and selectChangePointModel give exactly the breakpoints,
  * coefficients, statistics and choices of the code before it (test/model/former/changePoint.ts,

@@ -107,12 +107,32 @@ function emptyFrame(): Omit<HourlyFrame, "accounting"> {
   };
 }
 
+/** The frame each table made by selectFrameRows with ascending rows was cut from. */
+const cutFrom = new WeakMap<HourlyFrame, HourlyFrame>();
+
 /**
  * Rows `indices` of a frame (features and target); accounting is carried over unchanged.
  * @example selectFrameRows(frame, [0, 1, 2]).kwh.length // 3
  */
 export function selectFrameRows(frame: HourlyFrame, indices: ArrayLike<number>): HourlyFrame {
   const kwh = new Float64Array(indices.length);
-  for (let i = 0; i < indices.length; i++) kwh[i] = frame.kwh[indices[i]!]!;
-  return { ...selectFeatureRows(frame, indices), kwh, accounting: frame.accounting };
+  let ascending = true;
+  for (let i = 0; i < indices.length; i++) {
+    kwh[i] = frame.kwh[indices[i]!]!;
+    if (i > 0 && !(indices[i]! > indices[i - 1]!)) ascending = false;
+  }
+  const out: HourlyFrame = { ...selectFeatureRows(frame, indices), kwh, accounting: frame.accounting };
+  if (ascending) cutFrom.set(out, frame);
+  return out;
+}
+
+/**
+ * The frame a table was cut from by {@link selectFrameRows} with strictly ascending rows (a
+ * cross-validation fold's training table), or undefined. Its rows are then some of that
+ * frame's rows in the same order: a model whose fit depends on a subset of rows (one calendar
+ * month's) may reuse the frame's fit when that subset lost no row.
+ * @example frameCutFrom(selectFrameRows(frame, [0, 1])) === frame // true
+ */
+export function frameCutFrom(table: HourlyFrame): HourlyFrame | undefined {
+  return cutFrom.get(table);
 }

@@ -73,6 +73,8 @@ export interface TowtModel extends FittedHourlyModel {
    * holiday columns after removing hour-of-week means ("within"; its residuals are the model's).
    */
   ols: OlsFit;
+  /** {@link predict} for the given rows of `features` only, written into out at those rows. */
+  predictRows(features: HourlyFeatures, rows: ArrayLike<number>, out: Float64Array): void;
 }
 
 const MIN_HOLIDAY_ROWS = 8;
@@ -296,21 +298,24 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     const src = hs.length ? hs : hoursSeen;
     fallback[mode] = src.reduce((s, h) => s + beta[seen[h]!]!, 0) / src.length;
   }
+  /** The prediction for row i of f; `tail` is scratch space of m entries. */
+  const valueAt = (f: HourlyFeatures, i: number, tail: Float64Array): number => {
+    const h = f.hourOfWeek[i]!;
+    if (!Number.isFinite(f.tempC[i]!)) return Number.NaN; // no temperature, no prediction (callers count these hours)
+    writeTail(h, f.holiday[i]!, f.tempC[i]!, tail, 0);
+    let s = seen[h]! >= 0 ? beta[seen[h]!]! : fallback[occupied[h]!]!;
+    for (let j = 0; j < m; j++) s += tail[j]! * beta[nHow + j]!;
+    return s;
+  };
   const predict = (f: HourlyFeatures): Float64Array => {
     const out = new Float64Array(f.tempC.length);
     const tail = new Float64Array(m);
-    for (let i = 0; i < out.length; i++) {
-      const h = f.hourOfWeek[i]!;
-      if (!Number.isFinite(f.tempC[i]!)) {
-        out[i] = Number.NaN; // no temperature, no prediction (callers count these hours)
-        continue;
-      }
-      writeTail(h, f.holiday[i]!, f.tempC[i]!, tail, 0);
-      let s = seen[h]! >= 0 ? beta[seen[h]!]! : fallback[occupied[h]!]!;
-      for (let j = 0; j < m; j++) s += tail[j]! * beta[nHow + j]!;
-      out[i] = s;
-    }
+    for (let i = 0; i < out.length; i++) out[i] = valueAt(f, i, tail);
     return out;
+  };
+  const predictRows = (f: HourlyFeatures, rows: ArrayLike<number>, out: Float64Array): void => {
+    const tail = new Float64Array(m);
+    for (let r = 0; r < rows.length; r++) out[rows[r]!] = valueAt(f, rows[r]!, tail);
   };
   return {
     kind: "towt",
@@ -326,6 +331,7 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     solver,
     ols,
     predict,
+    predictRows,
   };
 }
 

@@ -13,6 +13,7 @@
 import { ModelInputError } from "../errors.ts";
 import { fitTowt, fitTowtOnTable } from "./towt.ts";
 import type { TowtModel, TowtOptions } from "./towt.ts";
+import { frameCutFrom } from "./hourlyFrame.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyFrame, HourlyModelSpec } from "./types.ts";
 
 export interface TowtMonthlyOptions extends TowtOptions {
@@ -50,10 +51,13 @@ export function segmentWeight(segmentMonth: number, rowMonth: number, neighbour:
  * p (for the Guideline 14 statistics) is the largest coefficient count of the models used: each
  * hour's prediction comes from one month's TOWT. (The sum over all twelve, ~2,000, would leave
  * a four-week validation block with n ≤ p; the page states the convention, as for trees.)
+ * @param kept segment fits of earlier tables fitted with the same options: a table cut from one
+ *   of them (frameCutFrom) reuses its segment fits where its months lost no row; this table's
+ *   are added. The same numbers as without it.
  * @throws ModelInputError when not even the all-hours TOWT can be fitted.
  * @example fitTowtMonthly(frame).predict(frame)
  */
-export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions = {}): TowtMonthlyModel {
+export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions = {}, kept?: TowtMonthlySegmentFits): TowtMonthlyModel {
   const { neighbourWeight = 0.5, minSegmentWeight = 336, ...towtOptions } = options;
   if (!(neighbourWeight > 0 && neighbourWeight <= 1)) throw new ModelInputError(`neighbour weight must be in (0, 1], got ${neighbourWeight}`);
   // the TOWT candidate's fit on the same table, when it has been fitted already
@@ -61,6 +65,11 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   const n = train.kwh.length;
   const monthHours = new Int32Array(13);
   for (let i = 0; i < n; i++) monthHours[train.month[i]!]!++;
+  // A fold's table lost one block of its frame's rows: a segment whose months lost none is the
+  // frame's segment row for row, and its fit (or failure) is the frame's.
+  const parent = kept ? frameCutFrom(train) : undefined;
+  const parentSegments = parent ? kept!.get(parent) : undefined;
+  const segments: SegmentFits = { monthHours, fits: new Array<TowtModel | null>(13).fill(null) };
   const byMonth: TowtModel[] = [];
   const fallbackMonths: number[] = [];
   let parameterCount = 0;
@@ -68,7 +77,9 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
     let model: TowtModel | null = null;
     let weight = 0;
     for (let k = 1; k <= 12; k++) weight += segmentWeight(m, k, neighbourWeight) * monthHours[k]!;
-    if (weight >= minSegmentWeight) {
+    if (parentSegments && sameSegment(m, neighbourWeight, monthHours, parentSegments.monthHours)) {
+      model = parentSegments.fits[m]!;
+    } else if (weight >= minSegmentWeight) {
       let size = 0;
       for (let i = 0; i < n; i++) if (segmentWeight(m, train.month[i]!, neighbourWeight) > 0) size++;
       const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
@@ -88,34 +99,53 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
         if (!(e instanceof ModelInputError)) throw e;
       }
     }
+    segments.fits[m] = model;
     if (!model) fallbackMonths.push(m);
     byMonth.push(model ?? overall);
     parameterCount = Math.max(parameterCount, (model ?? overall).parameterCount);
   }
+  kept?.set(train, segments);
   const predict = (f: HourlyFeatures): Float64Array => {
-    const out = new Float64Array(f.tempC.length);
-    // Predict with each month's model only on that month's rows.
-    const rowsOf: number[][] = Array.from({ length: 12 }, () => []);
-    for (let i = 0; i < out.length; i++) rowsOf[f.month[i]! - 1]!.push(i);
-    rowsOf.forEach((rows, k) => {
-      if (rows.length === 0) return;
-      const sub = pickRows(f, rows);
-      const p = byMonth[k]!.predict(sub);
-      rows.forEach((r, j) => (out[r] = p[j]!));
-    });
+    const n = f.tempC.length;
+    const out = new Float64Array(n);
+    // Predict with each month's model only on that month's rows (grouped by month, in row order).
+    const start = new Int32Array(14);
+    for (let i = 0; i < n; i++) {
+      const month = f.month[i]!;
+      if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
+      start[month + 1]!++;
+    }
+    for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
+    const rows = new Int32Array(n);
+    const next = start.slice(0, 13);
+    for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
+    for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
     return out;
   };
   return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict };
 }
 
-function pickRows(f: HourlyFeatures, rows: number[]): HourlyFeatures {
-  // TOWT reads hour of week, holiday and temperature only.
-  return {
-    ...f,
-    hourOfWeek: Uint8Array.from(rows, (i) => f.hourOfWeek[i]!),
-    holiday: Uint8Array.from(rows, (i) => f.holiday[i]!),
-    tempC: Float64Array.from(rows, (i) => f.tempC[i]!),
-  };
+/** A table's segment fits: its hours per month (index 1 … 12) and each month's fit, null where it fell back. */
+interface SegmentFits {
+  monthHours: Int32Array;
+  fits: (TowtModel | null)[];
+}
+
+/**
+ * The segment fits of each table fitted with one set of options, for the tables cut from it
+ * (a frame's cross-validation folds) to reuse: one per model spec, so it lives as long as the
+ * spec and holds no table beyond its own life.
+ */
+export type TowtMonthlySegmentFits = WeakMap<HourlyFrame, SegmentFits>;
+
+/**
+ * Whether month m's segment of a table cut from a frame (its rows some of the frame's, in the
+ * same order) holds every row of the frame's segment: then they are the same rows, weights
+ * and order, and so the same fit.
+ */
+function sameSegment(m: number, neighbourWeight: number, hours: Int32Array, frameHours: Int32Array): boolean {
+  for (let k = 1; k <= 12; k++) if (segmentWeight(m, k, neighbourWeight) > 0 && hours[k] !== frameHours[k]) return false;
+  return true;
 }
 
 /**
@@ -123,5 +153,6 @@ function pickRows(f: HourlyFeatures, rows: number[]): HourlyFeatures {
  * @example towtMonthlySpec().kind // "towt-monthly"
  */
 export function towtMonthlySpec(options: TowtMonthlyOptions = {}): HourlyModelSpec {
-  return { kind: "towt-monthly", fit: (train) => fitTowtMonthly(train, options) };
+  const kept: TowtMonthlySegmentFits = new WeakMap();
+  return { kind: "towt-monthly", fit: (train) => fitTowtMonthly(train, options, kept) };
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { fitTowtMonthly, segmentWeight, towtMonthlySpec } from "../../../src/model/interval/towtMonthly.ts";
+import fc from "fast-check";
+import { fitTowtMonthly, segmentWeight, towtMonthlySpec, type TowtMonthlySegmentFits } from "../../../src/model/interval/towtMonthly.ts";
 import { fitTowt, towtSpec } from "../../../src/model/interval/towt.ts";
 import { selectFrameRows } from "../../../src/model/interval/hourlyFrame.ts";
 import { rmse, schoolYear } from "./syntheticSchool.ts";
@@ -54,5 +55,51 @@ describe("month-segmented TOWT (invented school-like data)", () => {
     expect(m.byMonth[5]).toBe(m.byMonth[6]);
     expect(m.byMonth[0]).not.toBe(m.byMonth[5]);
     expect(m.parameterCount).toBe(Math.max(...m.byMonth.map((b) => b.parameterCount)));
+  });
+});
+
+describe("month-segmented predictions (definition: each hour from its month's TOWT)", () => {
+  it("every hour's prediction is, bit for bit, its month's model's prediction of the whole table there", () => {
+    const train = schoolYear(2021, 5);
+    const other = schoolYear(2022, 6);
+    other.tempC[100] = Number.NaN; // no temperature, no prediction
+    const m = fitTowtMonthly(train);
+    const got = m.predict(other);
+    const byMonth = m.byMonth.map((b) => b.predict(other));
+    for (let i = 0; i < got.length; i++) expect(Object.is(got[i], byMonth[other.month[i]! - 1]![i])).toBe(true);
+    expect(Number.isNaN(got[100]!)).toBe(true);
+  });
+});
+
+describe("a fold's table reuses its frame's segment fits where its months lost no row", () => {
+  // The reference is the same fold table fitted from scratch (no kept fits): every segment
+  // fitted on its own. Equal bit for bit.
+  const frame = schoolYear(2021, 4);
+  const same = (a: Float64Array, b: Float64Array): void => expect(Array.from(a)).toEqual(Array.from(b));
+  it("blocked and expanding folds, any block: same months fallen back, same predictions", () => {
+    const kept: TowtMonthlySegmentFits = new WeakMap();
+    const whole = fitTowtMonthly(frame, {}, kept);
+    const n = frame.kwh.length;
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: n - 1 }), fc.integer({ min: 1, max: 24 * 75 }), fc.boolean(), (start, len, expanding) => {
+        if (expanding && start < 24 * 14) return; // a fold trains on at least two weeks (timeSeriesCv)
+        const end = Math.min(n, start + len);
+        const rows = Array.from({ length: n }, (_, i) => i).filter((i) => i < start || (!expanding && i >= end));
+        const fold = selectFrameRows(frame, rows);
+        const reused = fitTowtMonthly(fold, {}, kept);
+        const fresh = fitTowtMonthly(fold);
+        expect(reused.fallbackMonths).toEqual(fresh.fallbackMonths);
+        expect(reused.parameterCount).toBe(fresh.parameterCount);
+        reused.byMonth.forEach((m, k) => expect(m.coefficients).toEqual(fresh.byMonth[k]!.coefficients));
+        same(reused.predict(frame), fresh.predict(frame));
+        // and months the block did not touch are the frame's own fits
+        const touched = new Set(Array.from(frame.month.subarray(start, expanding ? n : end)));
+        for (let m = 1; m <= 12; m++) {
+          const near = [m, (m % 12) + 1, ((m + 10) % 12) + 1];
+          if (!near.some((k) => touched.has(k)) && !whole.fallbackMonths.includes(m)) expect(reused.byMonth[m - 1]).toBe(whole.byMonth[m - 1]);
+        }
+      }),
+      { numRuns: 8, examples: [[0, 1, true]] },
+    );
   });
 });
