@@ -14,6 +14,8 @@ declare module "nunjucks" {
       prototype: { set(name: string, val: unknown, resolveUp?: boolean): void };
     };
   };
-  const nunjucks: { Environment: typeof Environment; runtime: typeof runtime };
+  /** Nunjucks' compiler module: template text to the source of its code. */
+  export const compiler: { compile(...args: unknown[]): string };
+  const nunjucks: { Environment: typeof Environment; runtime: typeof runtime; compiler: typeof compiler };
   export default nunjucks;
 }
