@@ -136,7 +136,16 @@ export function formatPeriod(periodStart: string, periodEnd: string): string {
  * `\u003c` so no `</script>` or `<!--` inside a string can end the block early.
  */
 export function jsonForScript(value: unknown): string {
-  return JSON.stringify(value)
+  return scriptSafeJson(JSON.stringify(value));
+}
+
+/**
+ * JSON text made safe for a `<script type="application/json">` block as jsonForScript makes it:
+ * `<`, U+2028 and U+2029 written as escapes (the text means the same JSON).
+ * @example scriptSafeJson('{"a":"</script>"}') // '{"a":"\\u003c/script>"}'
+ */
+export function scriptSafeJson(json: string): string {
+  return json
     .replace(/</g, "\\u003c")
     .replace(/\u2028/g, "\\u2028")
     .replace(/\u2029/g, "\\u2029");

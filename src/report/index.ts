@@ -4,7 +4,7 @@ export type * from "./siteModel.ts";
 export { buildSiteModel, siteModelInParts, tenantSiteModel, type SiteModelInParts } from "./buildSiteModel.ts";
 export { billRowsByBuilding, type BuildingSlice } from "./buildingSlice.ts";
 export { describeDataFiles, describeDataFile, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";
-export { jsonForScript } from "./format.ts";
+export { jsonForScript, scriptSafeJson } from "./format.ts";
 
 // Used by other folders (see test/architecture/layers.test.ts).
 export { buildDataFiles, dataFileEntries } from "./dataFiles.ts";

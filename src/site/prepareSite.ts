@@ -5,10 +5,9 @@
  */
 import type { ChartModel, SiteModel } from "../report/index.ts";
 import { buildingDataFolder, describeDataFiles } from "../report/index.ts";
-import { jsonForScript } from "../report/index.ts";
 import { monthlyUsageSpec } from "./charts/monthlyUsageSpec.ts";
 import { baselineScatterSpec, baselineTimeSpec, heatmapSpec, rankingSpec } from "./charts/analysisSpecs.ts";
-import { compileToVega, renderSvg } from "./charts/renderSvg.ts";
+import { compileToVegaJson, renderSvg } from "./charts/renderSvg.ts";
 import { heatmapSvg } from "./charts/heatmapSvg.ts";
 import { forecastSpec } from "./charts/forecastSpec.ts";
 import { tenantSpec } from "./charts/tenantSpec.ts";
@@ -46,11 +45,10 @@ export function chartSpec(chart: ChartModel): Record<string, unknown> {
 /** Fills `spec`, `specJson` (compiled Vega) and `svg` of one chart. */
 export async function prepareChart<T extends ChartModel>(chart: T): Promise<T> {
   const spec = chartSpec(chart);
-  const vega = await compileToVega(spec);
-  // Written before the server render, which reuses parts of `vega` (renderSvg's `compiled`).
-  const specJson = jsonForScript(vega);
+  // The JSON is written before the server render, which may reuse parts of the compile.
+  const { json: specJson, compiled } = await compileToVegaJson(spec);
   // The heatmap's SVG from vega would hold one element per cell; ours bands them into paths.
-  const svg = chart.kind === "quality-heatmap" ? heatmapSvg(chart) : await renderSvg(spec, chart.description, vega);
+  const svg = chart.kind === "quality-heatmap" ? heatmapSvg(chart) : await renderSvg(spec, chart.description, compiled);
   return { ...chart, spec, specJson, svg };
 }
 

@@ -1,12 +1,13 @@
 import { describe, expect, it } from "vitest";
+import fc from "fast-check";
 import * as vega from "vega";
 import * as vl from "vega-lite";
 import type { ChartModel } from "../../src/report/siteModel.ts";
 import { buildSiteModel } from "../../src/report/buildSiteModel.ts";
 import { jsonForScript } from "../../src/report/format.ts";
 import { chartSpec } from "../../src/site/prepareSite.ts";
-import { chartTemplate, fillPlanOf, fillTemplate } from "../../src/site/charts/chartTemplate.ts";
-import { accessibleSvg, compileToVega, renderSvg, SERVER_WIDTH_PX } from "../../src/site/charts/renderSvg.ts";
+import { chartTemplate, fillJson, fillPlanOf, fillTemplate, jsonFillable, type ChartTemplate } from "../../src/site/charts/chartTemplate.ts";
+import { accessibleSvg, compileToVega, compileToVegaJson, renderSvg, SERVER_WIDTH_PX } from "../../src/site/charts/renderSvg.ts";
 import { serverVegaSpec } from "../../src/site/charts/serverSpec.ts";
 import { fullFixtureInput } from "../report/fixture.ts";
 import { everyChart } from "./everyChart.ts";
@@ -31,6 +32,10 @@ async function direct(spec: Record<string, unknown>, label: string): Promise<{ j
 async function shared(spec: Record<string, unknown>, label: string, kind: string): Promise<{ json: string; svg: string }> {
   const compiled = await compileToVega(spec);
   const json = jsonForScript(compiled);
+  // The site's path: the JSON written from the shape's text, the compile made only if needed.
+  const page = await compileToVegaJson(structuredClone(spec));
+  expect(page.json).toBe(json);
+  expect(jsonForScript(page.compiled())).toBe(json);
   return { json, svg: kind === "quality-heatmap" ? "" : await renderSvg(spec, label, compiled) };
 }
 
@@ -116,5 +121,34 @@ describe("charts sharing a shape (chartTemplate.ts, renderSvg.ts)", () => {
     expect(fillPlanOf({ ...t.shape, description: "x" }, t.strings.length, t.data.length)).toBeNull();
     expect(fillPlanOf({ ...t.shape, note: `${String(t.shape.description)}!` }, t.strings.length, t.data.length)).toBeNull();
     expect(fillPlanOf({ ...t.shape, f: () => 1 }, t.strings.length, t.data.length)).toBeNull();
+  });
+
+  // Tolerance: none. The JSON written from a shape's text must be JSON.stringify of the filled
+  // copy, byte for byte, for any hole text (quotes, backslashes, `<`, non-ASCII) and data,
+  // wherever the holes stand: whole strings, string literals inside code, data markers.
+  it("fillJson writes the JSON of fillTemplate's copy, for any holes", () => {
+    const t = chartTemplate({ description: "d", title: "t", data: { values: [{ a: 1 }] }, mark: "bar" })!;
+    const [s0, s1] = [t.shape.description as string, t.shape.title as string];
+    const marker = (t.shape.data as { values: unknown }).values;
+    const value = { a: s0, code: `f(${JSON.stringify(s0)}, datum.x) + ${JSON.stringify(s1)} + ${JSON.stringify(s0)}`, d: marker, b: [s1, { c: s0, n: null, x: 1.5 }], e: { d: marker } };
+    const plan = fillPlanOf(value, 2, 1)!;
+    expect(plan).not.toBeNull();
+    expect(jsonFillable(plan)).toBe(true);
+    const hole = fc.string({ minLength: 1, maxLength: 20, unit: "binary" }).filter((x) => !/[\u0001\u2028\u2029]/.test(x) && !x.includes("\\u0001"));
+    const rows = fc.array(fc.record({ a: fc.oneof(fc.integer(), fc.string(), fc.constant(null)), b: fc.constantFrom("<", "\"", "\\", "é") }), { maxLength: 4 });
+    fc.assert(
+      fc.property(hole, hole, rows, (a, b, data) => {
+        const template: ChartTemplate = { key: "", shape: {}, data: [data], strings: [a, b] };
+        expect(fillJson(JSON.stringify(plan.value), template)).toBe(JSON.stringify(fillTemplate(plan, template)));
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it("fillJson is not used for a value JSON.stringify would read differently from its copy", () => {
+    const t = chartTemplate({ description: "d", data: { values: [{ a: 1 }] }, mark: "bar" })!;
+    const marker = (t.shape.data as { values: unknown }).values;
+    const withToJson = { a: t.shape.description, d: marker, toJSON: () => "x" };
+    expect(jsonFillable(fillPlanOf(withToJson, 1, 1) ?? { value: withToJson, shared: new Set(), marks: new Map(), holed: new Set() })).toBe(false);
   });
 });

@@ -4,6 +4,7 @@ import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 import Eleventy from "@11ty/eleventy";
+import nunjucks from "nunjucks";
 import { cacheNunjucksTemplates, nunjucksCompileCount } from "../../src/site/nunjucksCache.ts";
 
 /** A tiny site: a layout, an imported macro, a paginated template with a templated string permalink. */
@@ -68,13 +69,33 @@ describe("cacheNunjucksTemplates", () => {
     const before = nunjucksCompileCount();
     await render(other, true);
     const first = nunjucksCompileCount() - before;
-    // page.njk, its permalink, index.njk and its permalink, the layout: at most one compile each,
-    // whatever the number of pages.
+    // page.njk, its permalink, index.njk and its permalink, the layout, the imported m.njk: at
+    // most one compile each, whatever the number of pages.
     expect(first).toBeGreaterThan(0);
-    expect(first).toBeLessThanOrEqual(5);
+    expect(first).toBeLessThanOrEqual(6);
     await render(other, true);
     await render(other, true);
     expect(nunjucksCompileCount() - before).toBe(first);
+  });
+
+  it("compiles an imported template once per process, not once per Eleventy run", async () => {
+    const plain = await render(other, false);
+    await render(other, true);
+    // Nunjucks' own compiler (the module Eleventy's engine uses) is not called again: the
+    // imported m.njk comes back from its loader as compiled code.
+    const compiler = nunjucks.compiler as { compile: (...args: unknown[]) => string };
+    const compile = compiler.compile;
+    let calls = 0;
+    compiler.compile = (...args: unknown[]) => {
+      calls++;
+      return compile(...args);
+    };
+    try {
+      expect(await render(other, true)).toEqual(plain);
+    } finally {
+      compiler.compile = compile;
+    }
+    expect(calls).toBe(0);
   });
 
   it("regression: leaves Eleventy's static compile cache empty, which would keep each run's environment and pages alive", async () => {

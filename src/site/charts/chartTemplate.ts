@@ -164,6 +164,57 @@ export function fillTemplate(plan: FillPlan, template: ChartTemplate): unknown {
   return fill(plan.value);
 }
 
+/**
+ * Whether fillJson can make the JSON of the plan's fills: every object in its value an array, a
+ * plain object or an instance of a class with nothing but its constructor (vega-lite's
+ * SignalRefWrapper), with no toJSON, so that JSON.stringify writes each value from its own
+ * enumerable fields alone, as fillTemplate copies them.
+ */
+export function jsonFillable(plan: FillPlan): boolean {
+  const seen = new Set<object>();
+  const plain = (v: unknown): boolean => {
+    if (typeof v !== "object" || v === null || seen.has(v)) return true;
+    seen.add(v);
+    if (plan.marks.has(v)) return true;
+    const proto = Object.getPrototypeOf(v) as object | null;
+    if (Array.isArray(v) ? proto !== Array.prototype : !bareClass(proto)) return false;
+    for (const [k, d] of Object.entries(Object.getOwnPropertyDescriptors(v))) {
+      if (k === "toJSON") return false;
+      // A getter (SignalRefWrapper's `signal`) is read as fillTemplate and JSON.stringify read it.
+      if (d.enumerable && !plain("value" in d ? d.value : (v as Record<string, unknown>)[k])) return false;
+    }
+    return true;
+  };
+  return plain(plan.value);
+}
+
+/** Object.prototype, or the prototype of a class that adds nothing but its constructor to it. */
+function bareClass(proto: object | null): boolean {
+  if (proto === Object.prototype) return true;
+  if (proto === null || Object.getPrototypeOf(proto) !== Object.prototype) return false;
+  const own = Reflect.ownKeys(proto);
+  return own.length === 1 && own[0] === "constructor";
+}
+
+/** A data marker, a whole string hole, and a string hole's literal inside a string (generated code), as JSON.stringify writes them. */
+const HOLE_JSON = /\[\{"\\u0001data":(\d+)\}\]|"\\u0001h(\d+)\\u0001"|\\"\\\\u0001h(\d+)\\\\u0001\\"/g;
+
+/**
+ * JSON.stringify(fillTemplate(plan, template)) made from `json`, the JSON of a plan's value
+ * (jsonFillable), without the copy: JSON text is written value by value, so each hole's text
+ * is replaced by its fill's. A data marker becomes its data's JSON, a whole string hole its
+ * string's, and a hole's string literal inside a string (code vega generated) the JSON of the
+ * literal of its string, as fillString writes it there.
+ * @example fillJson(JSON.stringify(plan.value), template) === JSON.stringify(fillTemplate(plan, template)) // true
+ */
+export function fillJson(json: string, template: ChartTemplate): string {
+  return json.replace(HOLE_JSON, (_m, data: string | undefined, whole: string | undefined, literal: string | undefined) => {
+    if (data !== undefined) return JSON.stringify(template.data[Number(data)]);
+    if (whole !== undefined) return JSON.stringify(template.strings[Number(whole)]);
+    return JSON.stringify(JSON.stringify(template.strings[Number(literal)])).slice(1, -1);
+  });
+}
+
 /** A plain object, or an instance of a class of plain fields (vega's parser writes its operators as such). */
 function plainFields(v: object): boolean {
   const proto = Object.getPrototypeOf(v) as object | null;

@@ -7,7 +7,8 @@
  */
 import { serverVegaSpec } from "./serverSpec.ts";
 import { keptExpressions, type ExpressionCodegen } from "./vegaExpressions.ts";
-import { chartTemplate, fillPlanOf, fillTemplate, type ChartTemplate, type FillPlan } from "./chartTemplate.ts";
+import { chartTemplate, fillJson, fillPlanOf, fillTemplate, jsonFillable, type ChartTemplate, type FillPlan } from "./chartTemplate.ts";
+import { jsonForScript, scriptSafeJson } from "../../report/index.ts";
 
 type VegaModule = typeof import("vega");
 type VegaLiteModule = typeof import("vega-lite");
@@ -42,6 +43,27 @@ export async function compileToVega(spec: Record<string, unknown>): Promise<Reco
 }
 
 /**
+ * compileToVega(spec) as a page carries it (jsonForScript), with the compile itself made only
+ * when `compiled` is called: a chart of a known shape has its JSON written from its shape's
+ * (fillJson), without a copy of the compile. Give `compiled` to renderSvg.
+ * @throws when the spec does not compile.
+ * @example (await compileToVegaJson(spec)).json === jsonForScript(await compileToVega(spec)) // true
+ */
+export async function compileToVegaJson(spec: Record<string, unknown>): Promise<{ json: string; compiled: () => Record<string, unknown> }> {
+  const { vl } = await loadLibs();
+  const template = chartTemplate(spec);
+  const shape = template ? shapeOf(vl, template) : null;
+  if (template && shape?.compiled) {
+    const plan = shape.compiled;
+    if (shape.json === undefined) shape.json = jsonFillable(plan) ? JSON.stringify(plan.value) : null;
+    const compiled = () => fillTemplate(plan, template) as Record<string, unknown>;
+    return { json: shape.json === null ? jsonForScript(compiled()) : scriptSafeJson(fillJson(shape.json, template)), compiled };
+  }
+  const vega = vl.compile(spec as never).spec as unknown as Record<string, unknown>;
+  return { json: jsonForScript(vega), compiled: () => vega };
+}
+
+/**
  * What vega-lite and vega's parser made of one shape of chart (chartTemplate.ts): its compile
  * and the parse of its server spec, each null when it cannot be filled exactly (the chart is
  * then compiled or parsed as it is), the parse made on first use.
@@ -50,6 +72,8 @@ interface Shape {
   spec: Record<string, unknown>;
   compiled: FillPlan | null;
   runtime?: FillPlan | null;
+  /** JSON of the compile's plan (null: it is not jsonFillable), made on first use. */
+  json?: string | null;
 }
 
 /**
@@ -77,7 +101,7 @@ function shapeOf(vl: VegaLiteModule, template: ChartTemplate): Shape {
  * vega's parse of the server spec of `spec` (whose compile by compileToVega is `compiled`): its
  * shape's parse with the holes filled, or parsed as it is when the shape's cannot be filled.
  */
-function runtimeOf(vega: VegaModule, vl: VegaLiteModule, spec: Record<string, unknown>, compiled: Record<string, unknown> | undefined): unknown {
+function runtimeOf(vega: VegaModule, vl: VegaLiteModule, spec: Record<string, unknown>, compiled: Compiled | undefined): unknown {
   const template = chartTemplate(spec);
   const shape = template ? shapeOf(vl, template) : null;
   if (template && shape?.compiled) {
@@ -87,18 +111,22 @@ function runtimeOf(vega: VegaModule, vl: VegaLiteModule, spec: Record<string, un
     }
     if (shape.runtime !== null) return fillTemplate(shape.runtime, template);
   }
-  return vega.parse(serverVega(vl, spec, compiled) as never);
+  return vega.parse(serverVega(vl, spec, typeof compiled === "function" ? compiled() : compiled) as never);
 }
+
+/** A spec's compile by compileToVega, or the function compileToVegaJson gives that makes it. */
+type Compiled = Record<string, unknown> | (() => Record<string, unknown>);
 
 /**
  * Renders a Vega-Lite spec to an accessible SVG string: `role="img"`, `aria-label` and a
  * `<title>` taken from `label` (falling back to the spec's description or title). Given
- * `compiled`, the spec's compile by compileToVega, the server's Vega spec is made from it
- * (serverSpec.ts) instead of compiling the spec a second time, when it can be.
+ * `compiled`, the spec's compile by compileToVega (or compileToVegaJson's `compiled`), the
+ * server's Vega spec is made from it (serverSpec.ts) instead of compiling the spec a second
+ * time, when it can be.
  * @throws when the spec does not compile (a programming error in a spec builder).
  * @example await renderSvg(monthlyUsageSpec(chart), "Electricity use by month") // "<svg …"
  */
-export async function renderSvg(spec: Record<string, unknown>, label?: string, compiled?: Record<string, unknown>): Promise<string> {
+export async function renderSvg(spec: Record<string, unknown>, label?: string, compiled?: Compiled): Promise<string> {
   const { vega, vl, expr } = await loadLibs();
   const view = new vega.View(runtimeOf(vega, vl, spec, compiled) as never, { renderer: "none", expr } as never);
   try {
