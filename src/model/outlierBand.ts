@@ -90,6 +90,8 @@ export interface OutlierBandResult<P> {
   effectiveDf: number;
   /** Training bills left out of the final fit because they fell outside an earlier band. */
   rejected: string[];
+  /** The band of any point from the final model: what it gets as one more target. */
+  bandOf(pt: BandPoint<P>): BillBand;
 }
 
 const MAD_TO_SIGMA = 1.4826;
@@ -98,16 +100,6 @@ function median(values: number[]): number {
   const s = [...values].sort((a, b) => a - b);
   const m = s.length >> 1;
   return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
-
-/** The band of one point around the model's prediction (see the module comment for the half-width). */
-function bandAround<P>(model: BandModel<P>, k: number, scale: number, pt: BandPoint<P>, relative: boolean, minRel: number): BillBand {
-  const perDay = model.predictPerDay(pt.point);
-  const expected = perDay * pt.days;
-  const spread = relative ? k * scale * Math.abs(expected) : k * scale * pt.days;
-  const minimum = minRel * Math.abs(expected);
-  const half = Math.max(spread, minimum);
-  return { id: pt.id, expected, low: Math.max(0, expected - half), high: expected + half, atMinimumWidth: minimum >= spread };
 }
 
 /**
@@ -160,7 +152,14 @@ export function outlierBand<P>(
     const scale = MAD_TO_SIGMA * median(loo.map((l) => Math.abs(l.residual)));
     const effectiveDf = Math.max(1, Math.floor(efficiency * loo.length));
     const k = studentTQuantile(1 - (1 - level) / 2, effectiveDf);
-    const bandFor = (pt: BandPoint<P>): BillBand => bandAround(model, k, scale, pt, relative, minRel);
+    const bandFor = (pt: BandPoint<P>): BillBand => {
+      const perDay = model.predictPerDay(pt.point);
+      const expected = perDay * pt.days;
+      const spread = relative ? k * scale * Math.abs(expected) : k * scale * pt.days;
+      const minimum = minRel * Math.abs(expected);
+      const half = Math.max(spread, minimum);
+      return { id: pt.id, expected, low: Math.max(0, expected - half), high: expected + half, atMinimumWidth: minimum >= spread };
+    };
     const outside = kept.filter((pt) => {
       const b = bandFor(pt);
       const used = pt.usePerDay * pt.days;
@@ -174,7 +173,7 @@ export function outlierBand<P>(
     }
     const bands = new Map<string, BillBand>();
     for (const t of targets) bands.set(t.id, bandFor(t));
-    return { bands, model, looResiduals: loo, scale, k, effectiveDf, rejected };
+    return { bands, model, looResiduals: loo, scale, k, effectiveDf, rejected, bandOf: bandFor };
   }
 }
 
@@ -258,9 +257,7 @@ export function degreeDayOutlierBand(
       const bands = new Map<string, BillBand>();
       for (const t of targets) bands.set(t.id, res.bands.get(t.id)!);
       const { looResiduals, scale, k, effectiveDf } = res;
-      const relative = (options.residualScale ?? "absolute") === "relative";
-      const minRel = options.minRelativeHalfWidth ?? 0.1;
-      const bandOf = (bill: DegreeDayBandBill): BillBand => bandAround(res.model, k, scale, asBand(bill), relative, minRel);
+      const bandOf = (bill: DegreeDayBandBill): BillBand => res.bandOf(asBand(bill));
       return { fit: selection.chosen, tried: selection.tried, bands, rejected, band: { looResiduals, scale, k, effectiveDf }, bandOf };
     }
     rejected.push(worst.id);
