@@ -31,14 +31,35 @@ export function roundCents(amount: number): number {
  * a person would add them.
  */
 export function sumAmounts(values: readonly number[]): number {
-  let sum = 0;
-  let c = 0;
-  for (const v of values) {
-    const t = sum + v;
-    c += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
-    sum = t;
+  const acc = new Compensated();
+  for (const v of values) acc.add(v);
+  return acc.total();
+}
+
+/**
+ * {@link sumAmounts} one value at a time (the same Neumaier steps in the same order): `total()`
+ * is the number sumAmounts gives for the values added since `reset()`, without an array.
+ */
+export class Compensated {
+  private sum = 0;
+  private c = 0;
+  count = 0;
+  reset(): this {
+    this.sum = 0;
+    this.c = 0;
+    this.count = 0;
+    return this;
   }
-  return sum + c;
+  add(v: number): void {
+    const sum = this.sum;
+    const t = sum + v;
+    this.c += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
+    this.sum = t;
+    this.count++;
+  }
+  total(): number {
+    return this.sum + this.c;
+  }
 }
 
 /** An amount rounded to the cent as a whole number of cents. @example toCents(-2.345) // -235 */

@@ -3,7 +3,11 @@ import type { ComputedLine, LinePart, LineStatus } from "./types.ts";
 import type { Charge, RateSpec } from "./model.ts";
 import { roundCents } from "../core/money.ts";
 
-const STATUS_RANK: Record<LineStatus, number> = { exact: 0, estimated: 1, "needs-interval-data": 2 };
+/** Statuses by trust, least trustworthy highest (what worstStatus compares). */
+export const STATUS_RANK: Readonly<Record<LineStatus, number>> = { exact: 0, estimated: 1, "needs-interval-data": 2 };
+
+/** The note of a power-factor line when the bill gives no power factor (kept even without detail). */
+export const NO_POWER_FACTOR_NOTE = "no power factor given: no adjustment computed";
 
 /** The least trustworthy of the statuses (needs-interval-data > estimated > exact). */
 export function worstStatus(statuses: Iterable<LineStatus>): LineStatus {

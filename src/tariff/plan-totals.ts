@@ -9,14 +9,13 @@
  * Not for interval data that give only the shape (`intervalsGive: "shape"`): plans with it use
  * priceInContext. test/tariff/plan.test.ts checks every figure against priceBill.
  */
-import type { LineStatus } from "./types.ts";
 import type { Charge, TariffVersion } from "./model.ts";
 import type { BillContext } from "./context.ts";
 import { MINIMUM_BILL_LABEL } from "./model.ts";
 import { billingDemandKw } from "./demand.ts";
-import { rateOf } from "./lines.ts";
+import { NO_POWER_FACTOR_NOTE, rateOf, STATUS_RANK } from "./lines.ts";
 import { VersionState } from "./version-state.ts";
-import { roundCents } from "../core/money.ts";
+import { Compensated, roundCents } from "../core/money.ts";
 
 /** A line as far as totals need it: what mergeLine compares and what the total adds. */
 interface Amounted {
@@ -30,35 +29,6 @@ interface Amounted {
   /** The one note a line carries without detail (no power factor given), else null. */
   note: string | null;
 }
-
-/**
- * sumAmounts (core/money.ts) one value at a time: the same Neumaier steps in the same order, so
- * `total()` is the number sumAmounts gives for the values added since `reset()`; no array.
- */
-export class Compensated {
-  private sum = 0;
-  private c = 0;
-  count = 0;
-  reset(): this {
-    this.sum = 0;
-    this.c = 0;
-    this.count = 0;
-    return this;
-  }
-  add(v: number): void {
-    const sum = this.sum;
-    const t = sum + v;
-    this.c += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
-    this.sum = t;
-    this.count++;
-  }
-  total(): number {
-    return this.sum + this.c;
-  }
-}
-
-const RANK: Record<LineStatus, number> = { exact: 0, estimated: 1, "needs-interval-data": 2 };
-const NO_PF_NOTE = "no power factor given: no adjustment computed";
 
 /** What a version's charges need that does not depend on the quantities, made once per plan. */
 interface PreparedVersion {
@@ -103,13 +73,7 @@ export function plannedTotals(ctx: BillContext, prepared: VersionsInForce): { to
   const acc = new Compensated();
   if (n === 1) {
     const r = versionLines(ctx, prepared.versions[0]!, acc);
-    acc.reset();
-    let exact = true;
-    for (const l of r.lines) {
-      acc.add(l.amount);
-      if (l.status !== 0) exact = false;
-    }
-    const total = roundCents(acc.total());
+    const { total, exact } = linesTotal(r.lines, acc);
     let billingDemandKw: number | null = null;
     if (r.billingKw !== null) {
       acc.reset();
@@ -126,20 +90,24 @@ export function plannedTotals(ctx: BillContext, prepared: VersionsInForce): { to
     billing.push(r.billingKw);
   }
   const weights = prepared.days.map((days) => days / ctx.days);
-  const lines = mergeByLabel(results, weights);
-  acc.reset();
-  let exact = true;
-  for (const l of lines) {
-    acc.add(l.amount);
-    if (l.status !== 0) exact = false;
-  }
-  const total = roundCents(acc.total());
+  const { total, exact } = linesTotal(mergeByLabel(results, weights), acc);
   let anyDemand = false;
   for (const b of billing) if (b !== null) anyDemand = true;
   if (!anyDemand) return { total, billingDemandKw: null, exact };
   acc.reset();
   for (let i = 0; i < n; i++) acc.add((billing[i] ?? 0) * weights[i]!);
   return { total, billingDemandKw: acc.total(), exact };
+}
+
+/** The bill's total (its lines' amounts added as sumAmounts adds them, rounded) and whether every line is exact. */
+function linesTotal(lines: readonly Amounted[], acc: Compensated): { total: number; exact: boolean } {
+  acc.reset();
+  let exact = true;
+  for (const l of lines) {
+    acc.add(l.amount);
+    if (l.status !== 0) exact = false;
+  }
+  return { total: roundCents(acc.total()), exact };
 }
 
 /** mergeLine of price.ts without detail, for every label in order of first appearance. */
@@ -209,7 +177,7 @@ function versionLines(ctx: BillContext, pv: PreparedVersion, pieces: Compensated
         const rates = pv.energyRates[i]!;
         pieces.reset();
         for (let p = 0; p < rates.length; p++) pieces.add(split.usage[p]! * rates[p]!);
-        slots[i] = amounted(charge, split.total, null, pieces.total(), RANK[split.status]);
+        slots[i] = amounted(charge, split.total, null, pieces.total(), STATUS_RANK[split.status]);
         break;
       }
       case "demand": {
@@ -238,7 +206,7 @@ function versionLines(ctx: BillContext, pv: PreparedVersion, pieces: Compensated
         }
         const base = pieces.total();
         const pf = ctx.req.powerFactor;
-        if (pf == null) slots[i] = amounted(charge, base, 0, 0, status, NO_PF_NOTE);
+        if (pf == null) slots[i] = amounted(charge, base, 0, 0, status, NO_POWER_FACTOR_NOTE);
         else if (pf >= charge.targetPf) slots[i] = amounted(charge, base, 0, 0, status);
         else {
           const factor = charge.targetPf / pf - 1;
@@ -303,7 +271,8 @@ function periodDemand(st: VersionState, pv: PreparedVersion, charge: Extract<Cha
   const iv = ctx.intervals;
   const demandKw = ctx.req.demandKw;
   const count = periods.index.length;
-  const kws = new Array<number>(count);
+  // the line shows a quantity only for a single period: its billed kW
+  let firstKw = 0;
   pieces.reset();
   let status: number;
   if ((iv && iv.kwh && iv.startMs.length > 0) || demandKw != null) {
@@ -311,24 +280,20 @@ function periodDemand(st: VersionState, pv: PreparedVersion, charge: Extract<Cha
     const byPeriod = fromIntervals ? st.windowDemandByPeriod(charge.windowMinutes) : null;
     const shaped = !fromIntervals && st.hasShape();
     const peaks = shaped ? hourPeaksOf(st, pv) : null;
-    const scale = 1;
     for (let j = 0; j < count; j++) {
       const p = periods.index[j]!;
-      let kw = byPeriod !== null ? (byPeriod[p] ?? 0) * scale : peaks !== null && peaks.overall > 0 ? (demandKw! * peaks.byPeriod[p]!) / peaks.overall : demandKw!;
+      let kw = byPeriod !== null ? (byPeriod[p] ?? 0) : peaks !== null && peaks.overall > 0 ? (demandKw! * peaks.byPeriod[p]!) / peaks.overall : demandKw!;
       if (charge.minimumKw !== null && kw < charge.minimumKw) kw = charge.minimumKw;
-      kws[j] = kw;
+      if (j === 0) firstKw = kw;
       pieces.add(kw * periods.rate[j]!);
     }
     status = fromIntervals ? 0 : shaped ? 1 : 2;
   } else {
-    for (let j = 0; j < count; j++) {
-      kws[j] = 0;
-      pieces.add(0);
-    }
+    for (let j = 0; j < count; j++) pieces.add(0);
     status = 2;
   }
   const single = count === 1;
-  return amounted(charge, single ? kws[0]! : null, single ? periods.rate[0]! : null, pieces.total(), status);
+  return amounted(charge, single ? firstKw : null, single ? periods.rate[0]! : null, pieces.total(), status);
 }
 
 /** Highest hour weight overall and inside each period (usage-independent: once per plan and version). */

@@ -7,7 +7,7 @@ import type { Charge, TariffVersion } from "./model.ts";
 import type { BillContext } from "./context.ts";
 import { MINIMUM_BILL_LABEL } from "./model.ts";
 import { groupedNumber } from "./format.ts";
-import { line, rateOf, worstStatus } from "./lines.ts";
+import { line, NO_POWER_FACTOR_NOTE, rateOf, worstStatus } from "./lines.ts";
 import { priceDemand } from "./price-demand.ts";
 import { VersionState } from "./version-state.ts";
 import { roundCents, sumAmounts } from "../core/money.ts";
@@ -101,7 +101,7 @@ export function priceVersion(ctx: BillContext, version: TariffVersion): VersionR
         const status = worstStatus(demandLines.map((l) => l.status));
         const pf = ctx.req.powerFactor;
         if (pf == null) {
-          slots[i] = line(charge, base, ctx.tariff.currency, 0, 0, "no power factor given: no adjustment computed", status);
+          slots[i] = line(charge, base, ctx.tariff.currency, 0, 0, NO_POWER_FACTOR_NOTE, status);
         } else if (pf >= charge.targetPf) {
           slots[i] = line(charge, base, ctx.tariff.currency, 0, 0, ctx.detail ? `power factor ${fmt(pf)} meets the target ${fmt(charge.targetPf)}` : null, status);
         } else {

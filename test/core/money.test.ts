@@ -1,7 +1,7 @@
 /** roundCents' shortcut away from half cents gives exactly what cleaning to 15 digits gives (fast-check). */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { roundCents } from "../../src/core/money.ts";
+import { Compensated, roundCents, sumAmounts } from "../../src/core/money.ts";
 
 /** The rule as written before the shortcut: clean the cents to 15 significant digits, then round half up. */
 function reference(amount: number): number {
@@ -36,5 +36,37 @@ describe("roundCents", () => {
     expect(roundCents(-2.345)).toBe(-2.35);
     expect(roundCents(421_696_373.6845)).toBe(421_696_373.68);
     expect(Object.is(roundCents(-0.001), -0)).toBe(Object.is(reference(-0.001), -0));
+  });
+});
+
+/** sumAmounts' loop as written before it went through Compensated: Neumaier's compensated sum. */
+function formerSumAmounts(values: readonly number[]): number {
+  let sum = 0;
+  let c = 0;
+  for (const v of values) {
+    const t = sum + v;
+    c += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
+    sum = t;
+  }
+  return sum + c;
+}
+
+describe("sumAmounts and Compensated", () => {
+  it("keep what plain addition loses (Neumaier's example, from memory: 1 + 1e100 + 1 − 1e100 = 2; ten dimes are a dollar)", () => {
+    expect(sumAmounts([1, 1e100, 1, -1e100])).toBe(2);
+    expect(sumAmounts(new Array(10).fill(0.1))).toBe(1);
+  });
+
+  it("add one value at a time to the former loop's number, -0 and huge cancellations included", () => {
+    fc.assert(
+      fc.property(fc.array(fc.oneof(fc.double({ noNaN: true, noDefaultInfinity: true }), fc.double({ min: -1e3, max: 1e3 }), fc.constant(-0), fc.constant(1e308)), { maxLength: 12 }), (xs) => {
+        const acc = new Compensated().reset();
+        for (const x of xs) acc.add(x);
+        expect(Object.is(acc.total(), formerSumAmounts(xs))).toBe(true);
+        expect(Object.is(sumAmounts(xs), formerSumAmounts(xs))).toBe(true);
+        expect(acc.count).toBe(xs.length);
+      }),
+      { numRuns: 500 },
+    );
   });
 });
