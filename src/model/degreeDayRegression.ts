@@ -395,26 +395,19 @@ class SearchData {
    * cooling column, so each column's parts are worked out once instead of once per pair.
    */
   prepare(x: ColumnView): PreparedColumn {
-    const { values, rows } = x;
-    let sx = 0;
-    for (let i = 0; i < this.n; i++) sx += this.w[i] * values[rows[i]];
-    const bar = sx / this.sw;
     const d = new Float64Array(this.n);
-    let sdd = 0;
-    let sdy = 0;
-    for (let i = 0; i < this.n; i++) {
-      const dx = values[rows[i]] - bar;
-      d[i] = dx;
-      sdd += this.w[i] * dx * dx;
-      sdy += this.w[i] * dx * (this.y[i] - this.yBar);
-    }
+    const { bar, sdd, sdy } = this.moments(x, d);
     return { bar, d, sdd, sdy };
   }
   /**
-   * Weighted SSE of y on [1, x] and the slope, straight from the column: the same sums as
-   * {@link prepare} in the same order, without keeping the centred values (only a pair needs them).
+   * Weighted SSE of y on [1, x] and the slope, straight from the column: {@link prepare}'s sums
+   * without keeping the centred values (only a pair of columns needs them).
    */
   oneAt(x: ColumnView): { sse: number; slope: number } {
+    return this.one(this.moments(x, null));
+  }
+  /** The column's weighted mean and sums of {@link prepare}, writing the centred values into `d` when given. */
+  private moments(x: ColumnView, d: Float64Array | null): Omit<PreparedColumn, "d"> {
     const { values, rows } = x;
     let sx = 0;
     for (let i = 0; i < this.n; i++) sx += this.w[i] * values[rows[i]];
@@ -423,10 +416,11 @@ class SearchData {
     let sdy = 0;
     for (let i = 0; i < this.n; i++) {
       const dx = values[rows[i]] - bar;
+      if (d !== null) d[i] = dx;
       sdd += this.w[i] * dx * dx;
       sdy += this.w[i] * dx * (this.y[i] - this.yBar);
     }
-    return this.one({ bar, sdd, sdy });
+    return { bar, sdd, sdy };
   }
   /** Weighted SSE of y on [1, x] and the slope; slope NaN when x is constant. */
   one(x: Omit<PreparedColumn, "d">): { sse: number; slope: number } {
