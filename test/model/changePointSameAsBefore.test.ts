@@ -9,6 +9,7 @@
  * a verbatim copy of commit 1e71146). Tolerance: none (Object.is on every number).
  */
 import { describe, expect, it } from "vitest";
+import { sameBits as same } from "./sameBits.ts";
 import fc from "fast-check";
 import { fitChangePoint, selectChangePointModel, type ChangePointKind, type ChangePointPoint } from "../../src/model/changePoint.ts";
 import { fitChangePoint as formerFitChangePoint, selectChangePointModel as formerSelect } from "./former/changePoint.ts";
@@ -24,19 +25,6 @@ function points(seed: number, n: number, heat: number, cool: number, noise: numb
     const usePerDay = Math.max(0, 100 + heat * Math.max(0, 12 - temp) + cool * Math.max(0, temp - 20) + (rand() - 0.5) * noise);
     return { temp, usePerDay, days: 28 + Math.floor(rand() * 6) };
   });
-}
-
-function same(a: unknown, b: unknown): boolean {
-  if (typeof a === "number" && typeof b === "number") return Object.is(a, b);
-  if (typeof a === "function" || typeof b === "function") return true;
-  if (ArrayBuffer.isView(a) && ArrayBuffer.isView(b)) return same(Array.from(a as unknown as ArrayLike<number>), Array.from(b as unknown as ArrayLike<number>));
-  if (Array.isArray(a) && Array.isArray(b)) return a.length === b.length && a.every((v, i) => same(v, b[i]));
-  if (a && b && typeof a === "object" && typeof b === "object") {
-    const ka = Object.keys(a).sort();
-    const kb = Object.keys(b).sort();
-    return same(ka, kb) && ka.every((k) => same((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
-  }
-  return Object.is(a, b);
 }
 
 /** The result, or the error's message (both versions must fail alike). */

@@ -10,6 +10,7 @@
  * (test/model/former/, verbatim copies of commit daa4bc8). Tolerance: none (Object.is on every number).
  */
 import { describe, expect, it } from "vitest";
+import { sameBits as same } from "./sameBits.ts";
 import fc from "fast-check";
 import { fitDegreeDayModel, temperatureProfileFromHourly, type DegreeDayPeriod } from "../../src/model/degreeDayRegression.ts";
 import { degreeDayOutlierBand, type DegreeDayBandBill } from "../../src/model/outlierBand.ts";
@@ -35,20 +36,6 @@ function bills(seed: number, months: number, heat: number, cool: number, noise: 
     if (m < leaks) use *= 1.6;
     return { id: `B${m}`, profile, usePerDay: Math.max(0, use), days };
   });
-}
-
-function same(a: unknown, b: unknown): boolean {
-  if (typeof a === "number" && typeof b === "number") return Object.is(a, b);
-  if (typeof a === "function" || typeof b === "function") return true;
-  if (a instanceof Map && b instanceof Map) return same([...a], [...b]);
-  if (ArrayBuffer.isView(a) && ArrayBuffer.isView(b)) return same(Array.from(a as unknown as ArrayLike<number>), Array.from(b as unknown as ArrayLike<number>));
-  if (Array.isArray(a) && Array.isArray(b)) return a.length === b.length && a.every((v, i) => same(v, b[i]));
-  if (a && b && typeof a === "object" && typeof b === "object") {
-    const ka = Object.keys(a).sort();
-    const kb = Object.keys(b).sort();
-    return same(ka, kb) && ka.every((k) => same((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
-  }
-  return Object.is(a, b);
 }
 
 const period = (b: DegreeDayBandBill): DegreeDayPeriod => b;
