@@ -1,6 +1,6 @@
 /**
  * Scale benchmark (a script, not a test):
- *   npm run bench:scale -- --buildings N [--jobs J] [--seed S] [--repeat R] [--shards K] [--rebuild] [--keep]
+ *   npm run bench:scale -- --buildings N [--jobs J] [--seed S] [--repeat R] [--shards K] [--rebuild] [--keep] [--source]
  *
  * Writes a synthetic portfolio of N buildings with the demo's mix (bench/lib/scalePortfolio.ts:
  * the demo's 8 buildings replicated with unique ids) into a temporary folder, builds it once in a
@@ -12,8 +12,15 @@
  * that the merged site equals the single build's byte for byte. With --rebuild it builds with a
  * cache, changes one bill, rebuilds (the incremental case) and compares the rebuilt site with a
  * build of the changed folder without the cache.
+ *
+ * It measures the program `ohmbook` runs: the launcher runs the CLI compiled by esbuild
+ * (package.json's `prepare`), not the TypeScript through tsx, whose loader, per-function name
+ * wrappers and source maps cost 5–13 % more CPU. So the builds run a bundle made here with the
+ * same esbuild options as `prepare` (in dist/bench, beside dist/cli, so every path the code
+ * derives from its own location is the same); `--source` runs the TypeScript through tsx instead.
  */
 import { spawn, spawnSync } from "node:child_process";
+import { readFileSync, rmSync } from "node:fs";
 import { mkdtemp, readdir, readFile, rm, writeFile } from "node:fs/promises";
 import { availableParallelism, loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
@@ -31,6 +38,7 @@ const { values } = parseArgs({
     keep: { type: "boolean", default: false },
     shards: { type: "string" },
     rebuild: { type: "boolean", default: false },
+    source: { type: "boolean", default: false },
   },
 });
 const buildings = Number(values.buildings);
@@ -46,12 +54,14 @@ interface ChildReport {
   failed: number;
 }
 
+const compiled = values.source ? null : compileForBench();
 const folder = await mkdtemp(join(tmpdir(), `ohmbook-scale-${buildings}-`));
 const dir = join(folder, "portfolio");
 const generated = await writeScalePortfolio(join(root, "data", "demo"), dir, buildings, Number(values.seed));
 const s = (ms: number) => (ms / 1000).toFixed(1).padStart(7);
 console.log(`# ohmbook scale benchmark: ${generated.buildings} buildings, ${generated.meters} meters (${generated.intervalMeters} with 15-minute data), ${generated.bills} bills`);
 console.log(`# machine: ${availableParallelism()} cores, load average ${loadavg().map((x) => x.toFixed(2)).join(" ")}; ${join(folder)}`);
+console.log(`# program: ${compiled ? "compiled by esbuild as ohmbook runs it (dist/bench)" : "TypeScript source through tsx (--source)"}`);
 const options: Record<string, unknown> = {};
 if (values.jobs !== undefined) options.jobs = Number(values.jobs);
 try {
@@ -60,14 +70,16 @@ try {
     printReport(`run ${run + 1}${values.jobs !== undefined ? ` (--jobs ${values.jobs})` : ""}`, buildOnce(out, options), true);
   }
   if (values.rebuild) await rebuildRun();
-  if (values.shards !== undefined) await shardRun(Number(values.shards), join(folder, "site-0"));
+  // --rebuild changed a bill: the shards then build the changed folder, whose single build is site-fresh
+  if (values.shards !== undefined) await shardRun(Number(values.shards), join(folder, values.rebuild ? "site-fresh" : "site-0"));
 } finally {
   if (!values.keep) await rm(folder, { recursive: true, force: true });
 }
 
 /** One build of the portfolio in a fresh child process (bench/lib/scaleChild.ts), its report. */
 function buildOnce(out: string, buildOptions: Record<string, unknown>): ChildReport {
-  const child = spawnSync(process.execPath, ["--expose-gc", "--import", "tsx", join(root, "bench", "lib", "scaleChild.ts"), dir, out, JSON.stringify(buildOptions)], {
+  const program = compiled ? [join(compiled, "scaleChild.js")] : ["--import", "tsx", join(root, "bench", "lib", "scaleChild.ts")];
+  const child = spawnSync(process.execPath, ["--expose-gc", ...program, dir, out, JSON.stringify(buildOptions)], {
     cwd: root,
     encoding: "utf8",
     maxBuffer: 1 << 26,
@@ -122,11 +134,29 @@ async function sameTree(a: string, b: string): Promise<boolean> {
   return JSON.stringify(await filesOf(b)) === JSON.stringify(files) && (await Promise.all(files.map(async (f) => (await readFile(join(a, f))).equals(await readFile(join(b, f)))))).every(Boolean);
 }
 
-/** The CLI from source in a child process; resolves with its wall time, rejects on a failure. */
+/**
+ * The bench's own bundle of the CLI, the analysis worker, the client-bundle child and the bench
+ * child, made with package.json's `prepare` command (its esbuild options) into dist/bench.
+ * Returns the folder.
+ */
+function compileForBench(): string {
+  const pkg = JSON.parse(readFileSync(join(root, "package.json"), "utf8")) as { scripts: Record<string, string> };
+  const [tool, ...args] = pkg.scripts.prepare!.split(/\s+/);
+  const outdir = join("dist", "bench");
+  if (tool !== "esbuild" || !args.some((a) => a.startsWith("--outdir="))) throw new Error(`package.json's prepare is not the esbuild command this bench expects: ${pkg.scripts.prepare}`);
+  // emptied first: chunk names change with the code, and old chunks would stay beside the new
+  rmSync(join(root, outdir), { recursive: true, force: true });
+  const built = spawnSync(join(root, "node_modules", ".bin", "esbuild"), [...args.map((a) => (a.startsWith("--outdir=") ? `--outdir=${outdir}` : a)), "scaleChild=bench/lib/scaleChild.ts"], { cwd: root, encoding: "utf8" });
+  if (built.status !== 0) throw new Error(`esbuild failed:\n${built.stderr}`);
+  return join(root, outdir);
+}
+
+/** The CLI in a child process (the bench's bundle, or the source through tsx); resolves with its wall time, rejects on a failure. */
 function cli(args: string[]): Promise<number> {
   const t0 = performance.now();
+  const program = compiled ? [join(compiled, "main.js")] : ["--import", "tsx", join(root, "src", "cli", "main.ts")];
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ["--import", "tsx", join(root, "src", "cli", "main.ts"), ...args], { cwd: root, stdio: ["ignore", "ignore", "pipe"], env: childEnv() });
+    const child = spawn(process.execPath, [...program, ...args], { cwd: root, stdio: ["ignore", "ignore", "pipe"], env: childEnv() });
     let err = "";
     child.stderr.on("data", (d) => (err += String(d)));
     child.on("close", (code) => (code === 0 ? resolve(performance.now() - t0) : reject(new Error(`ohmbook ${args.join(" ")} failed:\n${err}`))));
