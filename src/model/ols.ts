@@ -79,53 +79,73 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
   if (cm && cm.data.length !== cm.rows * cm.cols) throw new ModelInputError(`column-major data has ${cm.data.length} values, expected ${cm.rows * cm.cols}`);
   const weights = options.weights;
   if (weights && weights.length !== n) throw new ModelInputError(`weights have ${weights.length} values but y has ${n}`);
-  for (let i = 0; i < n; i++) {
+  checkValues(y, weights);
+  // The fit itself always gets columns and typed arrays (the same numbers): V8 throws away a
+  // function's optimized code when it meets a kind of array it has not seen before.
+  const columns = cm ?? columnsOfRows(x as Matrix);
+  if (columns === null) throwForRaggedRows(x as Matrix, intercept, weights);
+  return fitColumns(columns, Float64Array.from(y), weights ? Float64Array.from(weights) : null, intercept, options.columnNames);
+}
+
+function checkValues(y: ArrayLike<number>, weights: ArrayLike<number> | undefined): void {
+  for (let i = 0; i < y.length; i++) {
     if (!Number.isFinite(y[i])) throw new ModelInputError(`y[${i}] is not a finite number`);
     if (weights && !(weights[i] > 0 && Number.isFinite(weights[i]))) {
       throw new ModelInputError(`weight[${i}] must be positive and finite, got ${weights[i]}`);
     }
   }
-  // Only read below: without an intercept the rows (or columns) are used as given.
-  let design: Matrix | null = null;
-  let cmDesign: ColumnMajorMatrix | null = null;
-  let k: number;
-  if (cm) {
-    k = cm.cols + (intercept ? 1 : 0);
-    if (intercept) {
-      const data = new Float64Array(n * k);
-      data.fill(1, 0, n);
-      data.set(cm.data, n);
-      cmDesign = { rows: n, cols: k, data };
-    } else cmDesign = cm;
-  } else {
-    const rows = x as Matrix;
-    design = intercept ? rows.map((row) => [1, ...row]) : rows;
-    k = design.length === 0 ? (intercept ? 1 : 0) : design[0].length;
+}
+
+/** Rows stored by column (the same numbers); null when the rows differ in length. */
+function columnsOfRows(rows: Matrix): ColumnMajorMatrix | null {
+  const n = rows.length;
+  const cols = n === 0 ? 0 : rows[0]!.length;
+  const data = new Float64Array(n * cols);
+  for (let i = 0; i < n; i++) {
+    const row = rows[i]!;
+    if (row.length !== cols) return null;
+    for (let j = 0; j < cols; j++) data[j * n + i] = row[j]!;
   }
+  return { rows: n, cols, data };
+}
+
+/** Throws the error a fit on ragged rows meets: too few rows, or householderQr's (as the rows come). */
+function throwForRaggedRows(rows: Matrix, intercept: boolean, weights: ArrayLike<number> | undefined): never {
+  const n = rows.length;
+  const design = intercept ? rows.map((row) => [1, ...row]) : rows;
+  const k = design[0]!.length;
+  if (n <= k) throw new ModelInputError(`need more observations than coefficients (n=${n}, k=${k})`);
+  const wDesign = weights ? design.map((row, i) => row.map((v) => v * Math.sqrt(weights[i]!))) : design;
+  householderQr(wDesign);
+  throw new Error("ragged rows passed the QR checks");
+}
+
+/** fitOls on checked inputs: regressors by column (without the intercept), y and weights typed. */
+function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Array | null, intercept: boolean, columnNames: readonly string[] | undefined): OlsFit {
+  const n = y.length;
+  // Only read below: without an intercept the columns are used as given.
+  let cmDesign: ColumnMajorMatrix;
+  const k = cm.cols + (intercept ? 1 : 0);
+  if (intercept) {
+    const data = new Float64Array(n * k);
+    data.fill(1, 0, n);
+    data.set(cm.data, n);
+    cmDesign = { rows: n, cols: k, data };
+  } else cmDesign = cm;
   if (n <= k) throw new ModelInputError(`need more observations than coefficients (n=${n}, k=${k})`);
   const sqrtW = new Float64Array(n);
   for (let i = 0; i < n; i++) sqrtW[i] = weights ? Math.sqrt(weights[i]) : 1;
   // Unweighted, the weighted design is the design itself (v · 1 = v exactly).
-  let wDesign: Matrix | ColumnMajorMatrix;
-  if (cmDesign) {
-    if (weights) {
-      const data = new Float64Array(n * k);
-      for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) data[j * n + i] = cmDesign.data[j * n + i] * sqrtW[i];
-      wDesign = { rows: n, cols: k, data };
-    } else wDesign = cmDesign;
-  } else {
-    wDesign = weights
-      ? design!.map((row, i) => {
-          const out = new Array<number>(row.length);
-          for (let j = 0; j < row.length; j++) out[j] = row[j] * sqrtW[i];
-          return out;
-        })
-      : design!;
-  }
+  let wDesign: ColumnMajorMatrix;
+  if (weights) {
+    const data = new Float64Array(n * k);
+    for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) data[j * n + i] = cmDesign.data[j * n + i] * sqrtW[i];
+    wDesign = { rows: n, cols: k, data };
+  } else wDesign = cmDesign;
   const wY = new Float64Array(n);
   for (let i = 0; i < n; i++) wY[i] = y[i] * sqrtW[i];
 
-  const names = [...(intercept ? ["intercept"] : []), ...(options.columnNames ?? [])];
+  const names = [...(intercept ? ["intercept"] : []), ...(columnNames ?? [])];
   const qr = householderQr(wDesign, names.length === k ? names : undefined);
   const beta = Array.from(qrSolve(qr, wY));
   const cov = qrUnscaledCovariance(qr);
@@ -135,8 +155,7 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
   const wSq = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let f = 0;
-    if (cmDesign) for (let j = 0; j < k; j++) f += cmDesign.data[j * n + i] * beta[j];
-    else for (let j = 0; j < k; j++) f += design![i][j] * beta[j];
+    for (let j = 0; j < k; j++) f += cmDesign.data[j * n + i] * beta[j];
     fitted[i] = f;
     resid[i] = y[i] - f;
     wSq[i] = (weights ? weights[i] : 1) * resid[i] * resid[i];
@@ -167,21 +186,12 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
   const pValues = tValues.map((t) => (Number.isFinite(t) ? studentTTwoSidedP(t, dfResidual) : 0));
   const s = Math.sqrt(s2);
 
-  const toRow = (xr: readonly number[]): number[] => {
-    const row = intercept ? [1, ...xr] : [...xr];
-    if (row.length !== k) throw new ModelInputError(`prediction row has ${xr.length} regressors, expected ${k - (intercept ? 1 : 0)}`);
-    return row;
-  };
-  const predict = (xr: readonly number[]): number => {
-    const row = toRow(xr);
-    let f = 0;
-    for (let j = 0; j < k; j++) f += row[j] * beta[j];
-    return f;
-  };
+  // A bound module-level function, not a closure: V8 keeps its optimized code between fits.
+  const predict = predictRow.bind(null, beta, intercept);
   const predictWithInterval = (xr: readonly number[], level: number, weight = 1): IntervalPrediction => {
     if (!(level > 0 && level < 1)) throw new ModelInputError(`interval level must be in (0, 1), got ${level}`);
     if (!(weight > 0)) throw new ModelInputError(`weight must be positive, got ${weight}`);
-    const row = toRow(xr);
+    const row = rowWithIntercept(xr, k, intercept);
     let quad = 0;
     for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) quad += row[i] * cov[i][j] * row[j];
     const fit = predict(xr);
@@ -210,4 +220,20 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
     predict,
     predictWithInterval,
   };
+}
+
+/** A prediction row: the intercept's 1 (when fitted) before the regressors. */
+function rowWithIntercept(xr: readonly number[], k: number, intercept: boolean): number[] {
+  const row = intercept ? [1, ...xr] : [...xr];
+  if (row.length !== k) throw new ModelInputError(`prediction row has ${xr.length} regressors, expected ${k - (intercept ? 1 : 0)}`);
+  return row;
+}
+
+/** OlsFit.predict of the fit with coefficients `beta`. */
+function predictRow(beta: readonly number[], intercept: boolean, xr: readonly number[]): number {
+  const k = beta.length;
+  const row = rowWithIntercept(xr, k, intercept);
+  let f = 0;
+  for (let j = 0; j < k; j++) f += row[j] * beta[j];
+  return f;
 }
