@@ -156,6 +156,11 @@ const SLOPE_ROLES: Record<ChangePointKind, readonly SlopeTerm["role"][]> = {
   "5P": ["heating", "cooling"],
 };
 
+/** ChangePointFit.predict of a fit at breakpoints `bps`. */
+function predictAt(ols: OlsFit, kind: ChangePointKind, bps: readonly number[], temp: number): number {
+  return ols.predict(designRow(kind, temp, bps));
+}
+
 /**
  * Fit one change-point form with its breakpoints given (no search).
  * @throws ModelInputError on bad points, wrong breakpoint count, too few points, or a singular design.
@@ -201,7 +206,8 @@ export function fitChangePointAt(
   const rmse = Math.sqrt(ols.sse / dfModel);
   const stats = guideline14Stats(y, ols.fitted, p, options.resolution ?? "monthly");
   const meanDays = weights ? mean(weights) : 1;
-  const predict = (temp: number): number => ols.predict(designRow(kind, temp, bps));
+  // A bound module-level function, not a closure: V8 keeps its optimized code between fits.
+  const predict = predictAt.bind(null, ols, kind, bps);
   const predictWithInterval = (temp: number, level: number, days?: number): IntervalPrediction => {
     if (!(level > 0 && level < 1)) throw new ModelInputError(`interval level must be in (0, 1), got ${level}`);
     const w0 = weights ? (days ?? meanDays) : 1;
