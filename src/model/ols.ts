@@ -126,8 +126,12 @@ function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Arra
   // Only read below: without an intercept the columns are used as given.
   let cmDesign: ColumnMajorMatrix;
   const k = cm.cols + (intercept ? 1 : 0);
+  // The arrays are made whether needed or not (empty when not): a `new` that V8 has not yet
+  // seen run deoptimizes the whole fit when it first runs.
+  const withOnes = new Float64Array(intercept ? n * k : 0);
+  const weighted = new Float64Array(weights ? n * k : 0);
   if (intercept) {
-    const data = new Float64Array(n * k);
+    const data = withOnes;
     data.fill(1, 0, n);
     data.set(cm.data, n);
     cmDesign = { rows: n, cols: k, data };
@@ -138,14 +142,17 @@ function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Arra
   // Unweighted, the weighted design is the design itself (v · 1 = v exactly).
   let wDesign: ColumnMajorMatrix;
   if (weights) {
-    const data = new Float64Array(n * k);
+    const data = weighted;
     for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) data[j * n + i] = cmDesign.data[j * n + i] * sqrtW[i];
     wDesign = { rows: n, cols: k, data };
   } else wDesign = cmDesign;
   const wY = new Float64Array(n);
   for (let i = 0; i < n; i++) wY[i] = y[i] * sqrtW[i];
 
-  const names = [...(intercept ? ["intercept"] : []), ...(columnNames ?? [])];
+  // Pushes rather than spreads: spreading arrays of several kinds kept deoptimizing the fit.
+  const names: string[] = [];
+  if (intercept) names.push("intercept");
+  if (columnNames) for (const name of columnNames) names.push(name);
   const qr = householderQr(wDesign, names.length === k ? names : undefined);
   const beta = Array.from(qrSolve(qr, wY));
   const cov = qrUnscaledCovariance(qr);
@@ -164,19 +171,18 @@ function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Arra
   const dfResidual = n - k;
   const s2 = sse / dfResidual;
 
+  // One scratch array for either branch: a `new` V8 has not yet seen run deoptimizes the fit.
+  const terms = new Float64Array(n);
   let tss: number;
   if (intercept) {
     const wSum = weights ? compensatedSum(weights) : n;
-    const wy = new Float64Array(n);
-    for (let i = 0; i < n; i++) wy[i] = (weights ? weights[i] : 1) * y[i];
-    const yBar = compensatedSum(wy) / wSum;
-    const dev = new Float64Array(n);
-    for (let i = 0; i < n; i++) dev[i] = (weights ? weights[i] : 1) * (y[i] - yBar) ** 2;
-    tss = compensatedSum(dev);
+    for (let i = 0; i < n; i++) terms[i] = (weights ? weights[i] : 1) * y[i];
+    const yBar = compensatedSum(terms) / wSum;
+    for (let i = 0; i < n; i++) terms[i] = (weights ? weights[i] : 1) * (y[i] - yBar) ** 2;
+    tss = compensatedSum(terms);
   } else {
-    const sq = new Float64Array(n);
-    for (let i = 0; i < n; i++) sq[i] = (weights ? weights[i] : 1) * y[i] * y[i];
-    tss = compensatedSum(sq);
+    for (let i = 0; i < n; i++) terms[i] = (weights ? weights[i] : 1) * y[i] * y[i];
+    tss = compensatedSum(terms);
   }
   const r2 = tss === 0 ? Number.NaN : 1 - sse / tss;
   const adjR2 = 1 - ((1 - r2) * (n - (intercept ? 1 : 0))) / dfResidual;
