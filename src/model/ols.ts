@@ -120,6 +120,31 @@ function throwForRaggedRows(rows: Matrix, intercept: boolean, weights: ArrayLike
   throw new Error("ragged rows passed the QR checks");
 }
 
+// The two helpers below hold branches that only some callers take (with or without an
+// intercept, names or not): kept out of fitColumns, a branch it has not yet run does not
+// deoptimize the whole fit.
+
+/** Σ w(y − ȳ)² about the weighted mean with an intercept, Σ w·y² without one. */
+function totalSumOfSquares(y: Float64Array, weights: Float64Array | null, intercept: boolean): number {
+  const n = y.length;
+  if (intercept) {
+    const wSum = weights ? compensatedSum(weights) : n;
+    const wy = new Float64Array(n);
+    for (let i = 0; i < n; i++) wy[i] = (weights ? weights[i] : 1) * y[i];
+    const yBar = compensatedSum(wy) / wSum;
+    const dev = new Float64Array(n);
+    for (let i = 0; i < n; i++) dev[i] = (weights ? weights[i] : 1) * (y[i] - yBar) ** 2;
+    return compensatedSum(dev);
+  }
+  const sq = new Float64Array(n);
+  for (let i = 0; i < n; i++) sq[i] = (weights ? weights[i] : 1) * y[i] * y[i];
+  return compensatedSum(sq);
+}
+
+function coefficientNames(intercept: boolean, columnNames: readonly string[] | undefined): string[] {
+  return [...(intercept ? ["intercept"] : []), ...(columnNames ?? [])];
+}
+
 /** fitOls on checked inputs: regressors by column (without the intercept), y and weights typed. */
 function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Array | null, intercept: boolean, columnNames: readonly string[] | undefined): OlsFit {
   const n = y.length;
@@ -149,10 +174,7 @@ function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Arra
   const wY = new Float64Array(n);
   for (let i = 0; i < n; i++) wY[i] = y[i] * sqrtW[i];
 
-  // Pushes rather than spreads: spreading arrays of several kinds kept deoptimizing the fit.
-  const names: string[] = [];
-  if (intercept) names.push("intercept");
-  if (columnNames) for (const name of columnNames) names.push(name);
+  const names = coefficientNames(intercept, columnNames);
   const qr = householderQr(wDesign, names.length === k ? names : undefined);
   const beta = Array.from(qrSolve(qr, wY));
   const cov = qrUnscaledCovariance(qr);
@@ -171,19 +193,7 @@ function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Arra
   const dfResidual = n - k;
   const s2 = sse / dfResidual;
 
-  // One scratch array for either branch: a `new` V8 has not yet seen run deoptimizes the fit.
-  const terms = new Float64Array(n);
-  let tss: number;
-  if (intercept) {
-    const wSum = weights ? compensatedSum(weights) : n;
-    for (let i = 0; i < n; i++) terms[i] = (weights ? weights[i] : 1) * y[i];
-    const yBar = compensatedSum(terms) / wSum;
-    for (let i = 0; i < n; i++) terms[i] = (weights ? weights[i] : 1) * (y[i] - yBar) ** 2;
-    tss = compensatedSum(terms);
-  } else {
-    for (let i = 0; i < n; i++) terms[i] = (weights ? weights[i] : 1) * y[i] * y[i];
-    tss = compensatedSum(terms);
-  }
+  const tss = totalSumOfSquares(y, weights, intercept);
   const r2 = tss === 0 ? Number.NaN : 1 - sse / tss;
   const adjR2 = 1 - ((1 - r2) * (n - (intercept ? 1 : 0))) / dfResidual;
 
