@@ -197,9 +197,15 @@ function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Arra
   const r2 = tss === 0 ? Number.NaN : 1 - sse / tss;
   const adjR2 = 1 - ((1 - r2) * (n - (intercept ? 1 : 0))) / dfResidual;
 
-  const se = beta.map((_, j) => Math.sqrt(s2 * cov[j][j]));
-  const tValues = beta.map((b, j) => b / se[j]);
-  const pValues = tValues.map((t) => (Number.isFinite(t) ? studentTTwoSidedP(t, dfResidual) : 0));
+  // Plain loops rather than map callbacks, whose optimized code would be lost between fits.
+  const se: number[] = [];
+  const tValues: number[] = [];
+  const pValues: number[] = [];
+  for (let j = 0; j < k; j++) {
+    se.push(Math.sqrt(s2 * cov[j][j]));
+    tValues.push(beta[j] / se[j]);
+    pValues.push(Number.isFinite(tValues[j]) ? studentTTwoSidedP(tValues[j], dfResidual) : 0);
+  }
   const s = Math.sqrt(s2);
 
   // A bound module-level function, not a closure: V8 keeps its optimized code between fits.
