@@ -64,7 +64,8 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
   const h = idx.length;
   const fast = equalWeightProfile(temps, weights, idx, hoursTotal);
   if (fast) return fast;
-  idx.sort((a, b) => temps[a] - temps[b]);
+  // A bound module-level comparator, not a closure: V8 keeps its optimized code between calls.
+  idx.sort(compareTemperatures.bind(null, temps));
   const sortedTemps = new Float64Array(h);
   const cumHours = new Float64Array(h + 1);
   const cumHourTemps = new Float64Array(h + 1);
@@ -76,6 +77,11 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
     cumHourTemps[r + 1] = cumHourTemps[r] + w * temps[i];
   }
   return { sortedTemps, cumHours, cumHourTemps, hoursCovered: cumHours[h], hoursTotal };
+}
+
+/** Orders hour indices by their temperatures. */
+function compareTemperatures(temps: ArrayLike<number>, a: number, b: number): number {
+  return temps[a] - temps[b];
 }
 
 /**
