@@ -61,9 +61,15 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
     hoursTotal += w;
     if (Number.isFinite(temps[i]) && w > 0) idx.push(i);
   }
+  return equalWeightProfile(temps, weights, idx, hoursTotal) ?? sortedProfile(temps, weights, idx, hoursTotal);
+}
+
+/**
+ * temperatureProfileFromHourly's general path: the hours stably sorted by temperature. A
+ * function of its own, so the rarely taken path does not deoptimize its caller.
+ */
+function sortedProfile(temps: ArrayLike<number>, weights: ArrayLike<number> | undefined, idx: number[], hoursTotal: number): TemperatureProfile {
   const h = idx.length;
-  const fast = equalWeightProfile(temps, weights, idx, hoursTotal);
-  if (fast) return fast;
   // A bound module-level comparator, not a closure: V8 keeps its optimized code between calls.
   idx.sort(compareTemperatures.bind(null, temps));
   const sortedTemps = new Float64Array(h);
