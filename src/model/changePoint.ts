@@ -184,11 +184,13 @@ export function fitChangePointAt(
   if (n <= p) throw new ModelInputError(`${kind} needs more than ${p} points, got ${n}`);
   // Plain loops rather than map callbacks, whose optimized code would be lost between fits.
   const x: number[][] = [];
-  const y: number[] = [];
+  // y typed, as the interval models give theirs to the statistics below (one kind of array).
+  const y = new Float64Array(points.length);
   const weights: number[] | undefined = weightByDays ? [] : undefined;
-  for (const pt of points) {
+  for (let i = 0; i < points.length; i++) {
+    const pt = points[i]!;
     x.push(designRow(kind, pt.temp, bps));
-    y.push(pt.usePerDay);
+    y[i] = pt.usePerDay;
     if (weights) weights.push(pt.days as number);
   }
   const ols = fitOls(x, y, { weights, columnNames: kind === "4P" || kind === "5P" ? ["left slope", "right slope"] : ["slope"] });

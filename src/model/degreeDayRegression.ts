@@ -347,11 +347,13 @@ export function fitDegreeDayFormAt(
   // Plain loops and module-level functions rather than closures made per fit: V8 keeps their
   // optimized code between fits (a closure's is dropped once every closure made with it has died).
   const x: number[][] = [];
-  const y: number[] = [];
+  // y typed, as the interval models give theirs to the statistics below (one kind of array).
+  const y = new Float64Array(periods.length);
   const weights: number[] | undefined = weightByDays ? [] : undefined;
-  for (const pd of periods) {
+  for (let i = 0; i < periods.length; i++) {
+    const pd = periods[i]!;
     x.push(regressorRow(form, tH, tC, pd.profile));
-    y.push(pd.usePerDay);
+    y[i] = pd.usePerDay;
     if (weights) weights.push(pd.days);
   }
   const roles = SLOPE_ROLES[form];
