@@ -50,16 +50,40 @@ export function householderQr(x: Matrix | ColumnMajorMatrix, columnNames?: reado
   if (m < n || n === 0) throw new ModelInputError(`need at least as many rows as columns (rows=${m}, columns=${n})`);
   if (cm && cm.data.length !== m * n) throw new ModelInputError(`column-major data has ${cm.data.length} values, expected ${m * n}`);
   const qr = cm ? Float64Array.from(cm.data) : new Float64Array(m * n);
-  const colNorm = new Float64Array(n);
+  if (rowsX) copyRows(rowsX, qr, m, n);
+  else checkColumns(qr, m, n);
+  return factorInPlace(qr, m, n, columnNames);
+}
+
+// The checks of householderQr for each kind of input, apart from the factorization: V8 then
+// optimizes the factorization for one kind of input instead of deoptimizing it for the other.
+
+/** Copies rows into column-major `qr`, checking them row by row. */
+function copyRows(rows: Matrix, qr: Float64Array, m: number, n: number): void {
   for (let i = 0; i < m; i++) {
-    const row = rowsX?.[i];
-    if (row && row.length !== n) throw new ModelInputError(`row ${i} has ${row.length} values, expected ${n}`);
+    const row = rows[i]!;
+    if (row.length !== n) throw new ModelInputError(`row ${i} has ${row.length} values, expected ${n}`);
     for (let j = 0; j < n; j++) {
-      const v = row ? row[j] : qr[j * m + i];
+      const v = row[j]!;
       if (!Number.isFinite(v) || Math.abs(v) > 1e150) throw new ModelInputError(`non-finite or huge value at row ${i}, column ${j}`);
       qr[j * m + i] = v;
     }
   }
+}
+
+/** Checks column-major values row by row (the order copyRows meets them in). */
+function checkColumns(qr: Float64Array, m: number, n: number): void {
+  for (let i = 0; i < m; i++) {
+    for (let j = 0; j < n; j++) {
+      const v = qr[j * m + i];
+      if (!Number.isFinite(v) || Math.abs(v) > 1e150) throw new ModelInputError(`non-finite or huge value at row ${i}, column ${j}`);
+    }
+  }
+}
+
+/** The Householder QR of householderQr on its checked column-major copy. */
+function factorInPlace(qr: Float64Array, m: number, n: number, columnNames: readonly string[] | undefined): QrFactorization {
+  const colNorm = new Float64Array(n);
   // Plain sums of squares: Math.hypot is slow in V8, and meter and weather magnitudes are far
   // from overflow (|v| < 1e150).
   for (let j = 0; j < n; j++) {
@@ -112,21 +136,34 @@ export function qrSolve(f: QrFactorization, y: ArrayLike<number>): Float64Array 
   return out;
 }
 
+// Module-level helpers rather than closures made per call: V8 keeps their optimized code.
+
+/** Entry (i, j), i ≤ j, of R. */
+function rEntry(f: QrFactorization, i: number, j: number): number {
+  return i === j ? f.rDiag[i] : f.qr[j * f.rows + i];
+}
+
+/** An n×n array of rows of zeros. */
+function zeroRows(n: number): number[][] {
+  const out: number[][] = [];
+  for (let i = 0; i < n; i++) out.push(new Array<number>(n).fill(0));
+  return out;
+}
+
 /** (XᵀX)⁻¹ = R⁻¹R⁻ᵀ from a QR factorization, as an n×n array of rows. */
 export function qrUnscaledCovariance(f: QrFactorization): number[][] {
-  const { rows: m, cols: n, qr, rDiag } = f;
-  const r = (i: number, j: number): number => (i === j ? rDiag[i] : qr[j * m + i]);
+  const n = f.cols;
   // Invert the upper-triangular R column by column.
-  const rInv: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  const rInv = zeroRows(n);
   for (let j = 0; j < n; j++) {
-    rInv[j][j] = 1 / r(j, j);
+    rInv[j][j] = 1 / rEntry(f, j, j);
     for (let i = j - 1; i >= 0; i--) {
       let s = 0;
-      for (let k = i + 1; k <= j; k++) s += r(i, k) * rInv[k][j];
-      rInv[i][j] = -s / r(i, i);
+      for (let k = i + 1; k <= j; k++) s += rEntry(f, i, k) * rInv[k][j];
+      rInv[i][j] = -s / rEntry(f, i, i);
     }
   }
-  const cov: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  const cov = zeroRows(n);
   for (let i = 0; i < n; i++) {
     for (let j = i; j < n; j++) {
       let s = 0;

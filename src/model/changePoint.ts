@@ -123,13 +123,14 @@ function designRow(kind: ChangePointKind, t: number, bps: readonly number[]): nu
 }
 
 function checkPoints(points: readonly ChangePointPoint[], weightByDays: boolean): void {
-  points.forEach((pt, i) => {
+  for (let i = 0; i < points.length; i++) {
+    const pt = points[i]!;
     if (!Number.isFinite(pt.temp)) throw new ModelInputError(`point ${i}: temperature is not a finite number`);
     if (!Number.isFinite(pt.usePerDay)) throw new ModelInputError(`point ${i}: use per day is not a finite number`);
     if (weightByDays && !(pt.days !== undefined && pt.days > 0)) {
       throw new ModelInputError(`point ${i}: billing days must be positive when weighting by days`);
     }
-  });
+  }
 }
 
 function segmentCountsOk(kind: ChangePointKind, temps: readonly number[], bps: readonly number[], minPts: number): boolean {
@@ -144,6 +145,20 @@ function segmentCountsOk(kind: ChangePointKind, temps: readonly number[], bps: r
     if (t >= hi) above++;
   }
   return below >= minPts && above >= minPts;
+}
+
+const SLOPE_ROLES: Record<ChangePointKind, readonly SlopeTerm["role"][]> = {
+  "1P": [],
+  "2P": ["linear"],
+  "3PC": ["cooling"],
+  "3PH": ["heating"],
+  "4P": ["left", "right"],
+  "5P": ["heating", "cooling"],
+};
+
+/** ChangePointFit.predict of a fit at breakpoints `bps`. */
+function predictAt(ols: OlsFit, kind: ChangePointKind, bps: readonly number[], temp: number): number {
+  return ols.predict(designRow(kind, temp, bps));
 }
 
 /**
@@ -167,32 +182,34 @@ export function fitChangePointAt(
   const p = CHANGE_POINT_PARAMETER_COUNT[kind];
   const n = points.length;
   if (n <= p) throw new ModelInputError(`${kind} needs more than ${p} points, got ${n}`);
-  const x = points.map((pt) => designRow(kind, pt.temp, bps));
-  const y = points.map((pt) => pt.usePerDay);
-  const weights = weightByDays ? points.map((pt) => pt.days as number) : undefined;
+  // Plain loops rather than map callbacks, whose optimized code would be lost between fits.
+  const x: number[][] = [];
+  // y typed, as the interval models give theirs to the statistics below (one kind of array).
+  const y = new Float64Array(points.length);
+  const weights: number[] | undefined = weightByDays ? [] : undefined;
+  for (let i = 0; i < points.length; i++) {
+    const pt = points[i]!;
+    x.push(designRow(kind, pt.temp, bps));
+    y[i] = pt.usePerDay;
+    if (weights) weights.push(pt.days as number);
+  }
   const ols = fitOls(x, y, { weights, columnNames: kind === "4P" || kind === "5P" ? ["left slope", "right slope"] : ["slope"] });
 
   const c = ols.coefficients;
   const beta = [...c, ...bps];
   const slopes: SlopeTerm[] = [];
-  const roles: Record<ChangePointKind, SlopeTerm["role"][]> = {
-    "1P": [],
-    "2P": ["linear"],
-    "3PC": ["cooling"],
-    "3PH": ["heating"],
-    "4P": ["left", "right"],
-    "5P": ["heating", "cooling"],
-  };
-  roles[kind].forEach((role, idx) => {
+  const roles = SLOPE_ROLES[kind];
+  for (let idx = 0; idx < roles.length; idx++) {
     const j = idx + 1;
-    slopes.push({ beta: (idx + 2) as 2 | 3, role, value: c[j], standardError: ols.standardErrors[j], tValue: ols.tValues[j] });
-  });
+    slopes.push({ beta: (idx + 2) as 2 | 3, role: roles[idx]!, value: c[j], standardError: ols.standardErrors[j], tValue: ols.tValues[j] });
+  }
 
   const dfModel = n - p;
   const rmse = Math.sqrt(ols.sse / dfModel);
   const stats = guideline14Stats(y, ols.fitted, p, options.resolution ?? "monthly");
   const meanDays = weights ? mean(weights) : 1;
-  const predict = (temp: number): number => ols.predict(designRow(kind, temp, bps));
+  // A bound module-level function, not a closure: V8 keeps its optimized code between fits.
+  const predict = predictAt.bind(null, ols, kind, bps);
   const predictWithInterval = (temp: number, level: number, days?: number): IntervalPrediction => {
     if (!(level > 0 && level < 1)) throw new ModelInputError(`interval level must be in (0, 1), got ${level}`);
     const w0 = weights ? (days ?? meanDays) : 1;
@@ -434,89 +451,86 @@ export function fitChangePoint(
   const weightByDays = options.weightByDays ?? false;
   checkPoints(points, weightByDays);
   const minPts = options.minPointsPerSegment ?? 3;
-  const temps = points.map((pt) => pt.temp);
-  const y = Float64Array.from(points, (pt) => pt.usePerDay);
-  const sqrtW = Float64Array.from(points, (pt) => (weightByDays ? Math.sqrt(pt.days as number) : 1));
-  const n = temps.length;
+  const n = points.length;
+  const temps: number[] = [];
+  const y = new Float64Array(n);
+  const sqrtW = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const pt = points[i]!;
+    temps.push(pt.temp);
+    y[i] = pt.usePerDay;
+    sqrtW[i] = weightByDays ? Math.sqrt(pt.days as number) : 1;
+  }
   if (n < 2 * minPts || n <= CHANGE_POINT_PARAMETER_COUNT[kind]) {
     throw new ModelInputError(`${kind} needs at least ${Math.max(2 * minPts, CHANGE_POINT_PARAMETER_COUNT[kind] + 1)} points, got ${n}`);
   }
   const ws = new SearchWorkspace(temps, y, sqrtW);
-  const knots = [...new Set(temps)].sort((a, b) => a - b);
-  const ok = (bps: number[]): boolean => segmentCountsOk(kind, temps, bps, minPts);
-  let best: number[] | null = null;
-  let bestSse = Number.POSITIVE_INFINITY;
+  const knots = [...new Set(temps)].sort(ascending);
+  const search = new BreakpointSearch(ws, kind, temps, knots, minPts);
+  if (nb === 1) search.oneBreakpoint();
+  else search.twoBreakpoints();
+  if (search.best === null) throw new ModelInputError(`${kind}: no breakpoint leaves ${minPts} points on each side`);
+  return fitChangePointAt(points, kind, search.best, options);
+}
+
+function ascending(a: number, b: number): number {
+  return a - b;
+}
+
+function byPairSse(p: { sse: number }, q: { sse: number }): number {
+  return p.sse - q.sse;
+}
+
+/** Index of the first interval [knots[i], knots[i + 1]] that holds `v`, or −1. */
+function intervalIndexOf(knots: readonly number[], v: number): number {
+  for (let idx = 0; idx < knots.length; idx++) {
+    if (idx + 1 < knots.length && v >= knots[idx] && v <= knots[idx + 1]) return idx;
+  }
+  return -1;
+}
+
+/**
+ * The breakpoint search of one fitChangePoint call (see there). Its steps are methods rather
+ * than closures made per call, so V8 keeps their optimized code from one meter to the next.
+ */
+class BreakpointSearch {
+  /** The breakpoints with the least SSE seen so far (null until an admissible one). */
+  best: number[] | null = null;
+  private bestSse = Number.POSITIVE_INFINITY;
   // The searches meet the same breakpoints many times (an interval's upper knot is the next
   // one's lower knot; the 5P passes revisit pairs): each one's SSE is a function of the
   // breakpoints alone, so it is solved once. A repeat cannot change `best` (its SSE is not
   // below the best seen, which counted it). −0 is left out: a Map key does not tell it from 0.
-  const seen = new Map<number, number | Map<number, number>>();
-  const solved = (bps: number[]): number => {
-    if (bps.some((b) => Object.is(b, -0))) return ok(bps) ? ws.sseAt(kind, bps) : Number.POSITIVE_INFINITY;
-    const [b0, b1] = bps as [number, number?];
-    let byB1: Map<number, number> | undefined;
-    if (b1 === undefined) {
-      const known = seen.get(b0) as number | undefined;
-      if (known !== undefined) return known;
-    } else {
-      byB1 = seen.get(b0) as Map<number, number> | undefined;
-      if (!byB1) seen.set(b0, (byB1 = new Map()));
-      const known = byB1.get(b1);
-      if (known !== undefined) return known;
-    }
-    const sse = ok(bps) ? ws.sseAt(kind, bps) : Number.POSITIVE_INFINITY;
-    if (byB1) byB1.set(b1!, sse);
-    else seen.set(b0, sse);
-    return sse;
-  };
-  /** SSE at `bps` (Infinity when inadmissible); remembers the best seen. */
-  const consider = (bps: number[]): number => {
-    const sse = solved(bps);
-    if (sse < bestSse) {
-      bestSse = sse;
-      best = bps;
-    }
-    return sse;
-  };
-  const below = (b: number): number => temps.filter((t) => t <= b).length;
-  const above = (b: number): number => temps.filter((t) => t >= b).length;
+  private readonly seen = new Map<number, number | Map<number, number>>();
+  constructor(
+    private readonly ws: SearchWorkspace,
+    private readonly kind: ChangePointKind,
+    private readonly temps: readonly number[],
+    private readonly knots: readonly number[],
+    private readonly minPts: number,
+  ) {}
 
-  if (nb === 1) {
-    const fixed: Column[] = kind === "4P" ? [ONE, T] : [ONE];
-    const activeAbove = kind !== "3PH";
+  /** 3PC, 3PH, 4P: every interval between consecutive knots, solved exactly. */
+  oneBreakpoint(): void {
+    const { knots, minPts } = this;
+    const fixed: Column[] = this.kind === "4P" ? [ONE, T] : [ONE];
+    const activeAbove = this.kind !== "3PH";
     for (let i = 0; i + 1 < knots.length; i++) {
-      if (below(knots[i + 1]) < minPts || above(knots[i]) < minPts) continue;
-      for (const b of intervalCandidates(ws, knots[i], knots[i + 1], fixed, activeAbove)) consider([b]);
+      if (this.below(knots[i + 1]) < minPts || this.above(knots[i]) < minPts) continue;
+      for (const b of intervalCandidates(this.ws, knots[i], knots[i + 1], fixed, activeAbove)) this.consider([b]);
     }
-  } else {
-    // 5P: Y = β₁ + β₂(X − b₁)⁻ + β₃(X − b₂)⁺.
+  }
+
+  /** 5P: Y = β₁ + β₂(X − b₁)⁻ + β₃(X − b₂)⁺. */
+  twoBreakpoints(): void {
+    const { knots, minPts, ws } = this;
     // Intervals where each breakpoint can lie (closure admissible on its own side).
     const lowIdx: number[] = [];
     const highIdx: number[] = [];
     for (let i = 0; i + 1 < knots.length; i++) {
-      if (below(knots[i + 1]) >= minPts) lowIdx.push(i);
-      if (above(knots[i]) >= minPts) highIdx.push(i);
+      if (this.below(knots[i + 1]) >= minPts) lowIdx.push(i);
+      if (this.above(knots[i]) >= minPts) highIdx.push(i);
     }
-    /** Best of the exact candidates for one breakpoint with the other fixed. */
-    const solveOne = (which: 0 | 1, other: number, i: number): { bps: number[]; sse: number } | null => {
-      const fixed: Column[] = which === 1 ? [ONE, belowCol(other)] : [ONE, aboveCol(other)];
-      let arg: { bps: number[]; sse: number } | null = null;
-      const cands = intervalCandidates(ws, knots[i], knots[i + 1], fixed, which === 1);
-      // When both breakpoints share an interval, also try the middle of the part left free.
-      if (which === 1 && other > knots[i] && other < knots[i + 1]) cands.push((other + knots[i + 1]) / 2);
-      if (which === 0 && other > knots[i] && other < knots[i + 1]) cands.push((knots[i] + other) / 2);
-      for (const b of cands) {
-        const bps = which === 1 ? [other, b] : [b, other];
-        const sse = consider(bps);
-        if (Number.isFinite(sse) && (arg === null || sse < arg.sse)) arg = { bps, sse };
-      }
-      return arg;
-    };
-    /** A starting point inside a pair of intervals: the midpoints, or the thirds of a shared interval. */
-    const pairStart = (i: number, j: number): number[] => {
-      const [a0, a1, c0, c1] = [knots[i], knots[i + 1], knots[j], knots[j + 1]];
-      return i === j ? [a0 + (a1 - a0) / 3, a0 + (2 * (a1 - a0)) / 3] : [(a0 + a1) / 2, (c0 + c1) / 2];
-    };
     // (1) Both hinges stationary, per pair of intervals.
     const pairScores: { i: number; j: number; sse: number }[] = [];
     for (const i of lowIdx) {
@@ -529,41 +543,109 @@ export function fitChangePoint(
         if (!Number.isNaN(sse)) {
           const b1 = -ws.coef[2] / ws.coef[1];
           const b2 = -ws.coef[4] / ws.coef[3];
-          if (b1 > a0 && b1 < a1 && b2 > c0 && b2 < c1 && b1 <= b2) consider([b1, b2]);
+          if (b1 > a0 && b1 < a1 && b2 > c0 && b2 < c1 && b1 <= b2) this.consider([b1, b2]);
         }
-        pairScores.push({ i, j, sse: consider(pairStart(i, j)) });
+        pairScores.push({ i, j, sse: this.consider(this.pairStart(i, j)) });
       }
     }
     // (2) One breakpoint at an observed temperature, the other solved exactly.
     for (const e of knots) {
-      for (const j of highIdx) if (knots[j + 1] > e) solveOne(1, e, j);
-      for (const i of lowIdx) if (knots[i] < e) solveOne(0, e, i);
+      for (const j of highIdx) if (knots[j + 1] > e) this.solveOne(1, e, j);
+      for (const i of lowIdx) if (knots[i] < e) this.solveOne(0, e, i);
     }
     // (3) Exact coordinate descent inside the most promising pairs.
-    pairScores.sort((p, q) => p.sse - q.sse);
-    const starts: { i: number; j: number; bps: number[] }[] = pairScores
-      .slice(0, 8)
-      .map((p) => ({ i: p.i, j: p.j, bps: pairStart(p.i, p.j) }));
-    const b0: number[] | null = best;
-    if (b0 !== null) {
-      const bb: number[] = b0;
-      const i = Math.max(0, knots.findIndex((k, idx) => idx + 1 < knots.length && bb[0] >= k && bb[0] <= knots[idx + 1]));
-      const j = Math.max(0, knots.findIndex((k, idx) => idx + 1 < knots.length && bb[1] >= k && bb[1] <= knots[idx + 1]));
+    pairScores.sort(byPairSse);
+    const starts: { i: number; j: number; bps: number[] }[] = [];
+    for (const p of pairScores.slice(0, 8)) starts.push({ i: p.i, j: p.j, bps: this.pairStart(p.i, p.j) });
+    const bb = this.best;
+    if (bb !== null) {
+      const i = Math.max(0, intervalIndexOf(knots, bb[0]));
+      const j = Math.max(0, intervalIndexOf(knots, bb[1]));
       starts.push({ i, j, bps: bb });
     }
     for (const s of starts) {
       let cur = s.bps;
       for (let round = 0; round < 6 && cur[0] <= cur[1]; round++) {
-        const n1 = solveOne(0, cur[1], s.i);
+        const n1 = this.solveOne(0, cur[1], s.i);
         if (n1 === null) break;
-        const n2 = solveOne(1, n1.bps[0], s.j);
+        const n2 = this.solveOne(1, n1.bps[0], s.j);
         if (n2 === null || (n2.bps[0] === cur[0] && n2.bps[1] === cur[1])) break;
         cur = n2.bps;
       }
     }
   }
-  if (best === null) throw new ModelInputError(`${kind}: no breakpoint leaves ${minPts} points on each side`);
-  return fitChangePointAt(points, kind, best, options);
+
+  /** Points at or below `b`. */
+  private below(b: number): number {
+    let count = 0;
+    for (const t of this.temps) if (t <= b) count++;
+    return count;
+  }
+
+  /** Points at or above `b`. */
+  private above(b: number): number {
+    let count = 0;
+    for (const t of this.temps) if (t >= b) count++;
+    return count;
+  }
+
+  private ok(bps: number[]): boolean {
+    return segmentCountsOk(this.kind, this.temps, bps, this.minPts);
+  }
+
+  /** SSE at `bps`, solved once per distinct breakpoints (Infinity when inadmissible). */
+  private solved(bps: number[]): number {
+    for (const b of bps) if (Object.is(b, -0)) return this.ok(bps) ? this.ws.sseAt(this.kind, bps) : Number.POSITIVE_INFINITY;
+    const [b0, b1] = bps as [number, number?];
+    let byB1: Map<number, number> | undefined;
+    if (b1 === undefined) {
+      const known = this.seen.get(b0) as number | undefined;
+      if (known !== undefined) return known;
+    } else {
+      byB1 = this.seen.get(b0) as Map<number, number> | undefined;
+      if (!byB1) this.seen.set(b0, (byB1 = new Map()));
+      const known = byB1.get(b1);
+      if (known !== undefined) return known;
+    }
+    const sse = this.ok(bps) ? this.ws.sseAt(this.kind, bps) : Number.POSITIVE_INFINITY;
+    if (byB1) byB1.set(b1!, sse);
+    else this.seen.set(b0, sse);
+    return sse;
+  }
+
+  /** SSE at `bps` (Infinity when inadmissible); remembers the best seen. */
+  private consider(bps: number[]): number {
+    const sse = this.solved(bps);
+    if (sse < this.bestSse) {
+      this.bestSse = sse;
+      this.best = bps;
+    }
+    return sse;
+  }
+
+  /** Best of the exact candidates for one breakpoint with the other fixed. */
+  private solveOne(which: 0 | 1, other: number, i: number): { bps: number[]; sse: number } | null {
+    const knots = this.knots;
+    const fixed: Column[] = which === 1 ? [ONE, belowCol(other)] : [ONE, aboveCol(other)];
+    let arg: { bps: number[]; sse: number } | null = null;
+    const cands = intervalCandidates(this.ws, knots[i], knots[i + 1], fixed, which === 1);
+    // When both breakpoints share an interval, also try the middle of the part left free.
+    if (which === 1 && other > knots[i] && other < knots[i + 1]) cands.push((other + knots[i + 1]) / 2);
+    if (which === 0 && other > knots[i] && other < knots[i + 1]) cands.push((knots[i] + other) / 2);
+    for (const b of cands) {
+      const bps = which === 1 ? [other, b] : [b, other];
+      const sse = this.consider(bps);
+      if (Number.isFinite(sse) && (arg === null || sse < arg.sse)) arg = { bps, sse };
+    }
+    return arg;
+  }
+
+  /** A starting point inside a pair of intervals: the midpoints, or the thirds of a shared interval. */
+  private pairStart(i: number, j: number): number[] {
+    const knots = this.knots;
+    const [a0, a1, c0, c1] = [knots[i], knots[i + 1], knots[j], knots[j + 1]];
+    return i === j ? [a0 + (a1 - a0) / 3, a0 + (2 * (a1 - a0)) / 3] : [(a0 + a1) / 2, (c0 + c1) / 2];
+  }
 }
 
 export interface ChangePointSelectionOptions extends ChangePointFitOptions {
@@ -591,22 +673,19 @@ export interface ChangePointSelection {
 function shapeReasons(fit: ChangePointFit, minAbsT: number): string[] {
   const reasons: string[] = [];
   const [s1, s2] = fit.slopes;
-  const sign = (cond: boolean, msg: string): void => {
-    if (!cond) reasons.push(msg);
-  };
   switch (fit.kind) {
     case "3PH":
-      sign(s1.value < 0, `heating slope ${s1.value.toPrecision(4)} is not negative`);
+      if (!(s1.value < 0)) reasons.push(`heating slope ${s1.value.toPrecision(4)} is not negative`);
       break;
     case "3PC":
-      sign(s1.value > 0, `cooling slope ${s1.value.toPrecision(4)} is not positive`);
+      if (!(s1.value > 0)) reasons.push(`cooling slope ${s1.value.toPrecision(4)} is not positive`);
       break;
     case "4P":
-      sign(s1.value < s2.value, `left slope ${s1.value.toPrecision(4)} is not below right slope ${s2.value.toPrecision(4)} (use must not fall faster as it warms past the breakpoint)`);
+      if (!(s1.value < s2.value)) reasons.push(`left slope ${s1.value.toPrecision(4)} is not below right slope ${s2.value.toPrecision(4)} (use must not fall faster as it warms past the breakpoint)`);
       break;
     case "5P":
-      sign(s1.value < 0, `heating slope ${s1.value.toPrecision(4)} is not negative`);
-      sign(s2.value > 0, `cooling slope ${s2.value.toPrecision(4)} is not positive`);
+      if (!(s1.value < 0)) reasons.push(`heating slope ${s1.value.toPrecision(4)} is not negative`);
+      if (!(s2.value > 0)) reasons.push(`cooling slope ${s2.value.toPrecision(4)} is not positive`);
       break;
     default:
       break;

@@ -61,10 +61,17 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
     hoursTotal += w;
     if (Number.isFinite(temps[i]) && w > 0) idx.push(i);
   }
+  return equalWeightProfile(temps, weights, idx, hoursTotal) ?? sortedProfile(temps, weights, idx, hoursTotal);
+}
+
+/**
+ * temperatureProfileFromHourly's general path: the hours stably sorted by temperature. A
+ * function of its own, so the rarely taken path does not deoptimize its caller.
+ */
+function sortedProfile(temps: ArrayLike<number>, weights: ArrayLike<number> | undefined, idx: number[], hoursTotal: number): TemperatureProfile {
   const h = idx.length;
-  const fast = equalWeightProfile(temps, weights, idx, hoursTotal);
-  if (fast) return fast;
-  idx.sort((a, b) => temps[a] - temps[b]);
+  // A bound module-level comparator, not a closure: V8 keeps its optimized code between calls.
+  idx.sort(compareTemperatures.bind(null, temps));
   const sortedTemps = new Float64Array(h);
   const cumHours = new Float64Array(h + 1);
   const cumHourTemps = new Float64Array(h + 1);
@@ -76,6 +83,11 @@ export function temperatureProfileFromHourly(temps: ArrayLike<number>, weights?:
     cumHourTemps[r + 1] = cumHourTemps[r] + w * temps[i];
   }
   return { sortedTemps, cumHours, cumHourTemps, hoursCovered: cumHours[h], hoursTotal };
+}
+
+/** Orders hour indices by their temperatures. */
+function compareTemperatures(temps: ArrayLike<number>, a: number, b: number): number {
+  return temps[a] - temps[b];
 }
 
 /**
@@ -275,7 +287,7 @@ export interface DegreeDayFit {
   predictWithInterval(profile: TemperatureProfile, level: number, days?: number): IntervalPrediction;
 }
 
-function regressorRow(form: DegreeDayForm, profile: TemperatureProfile, tH: number | null, tC: number | null): number[] {
+function regressorRow(form: DegreeDayForm, tH: number | null, tC: number | null, profile: TemperatureProfile): number[] {
   switch (form) {
     case "constant":
       return [];
@@ -289,11 +301,26 @@ function regressorRow(form: DegreeDayForm, profile: TemperatureProfile, tH: numb
 }
 
 function checkPeriods(periods: readonly DegreeDayPeriod[]): void {
-  periods.forEach((p, i) => {
+  for (let i = 0; i < periods.length; i++) {
+    const p = periods[i]!;
     if (!Number.isFinite(p.usePerDay)) throw new ModelInputError(`period ${i}: use per day is not a finite number`);
     if (!(p.days > 0 && Number.isFinite(p.days))) throw new ModelInputError(`period ${i}: billing days must be positive, got ${p.days}`);
     if (!(p.profile.hoursCovered > 0)) throw new ModelInputError(`period ${i}: no hour has a temperature`);
-  });
+  }
+}
+
+const SLOPE_ROLES: Record<DegreeDayForm, readonly DegreeDaySlope["role"][]> = { constant: [], HO: ["heating"], CO: ["cooling"], HC: ["heating", "cooling"] };
+
+const COLUMN_NAMES: Record<DegreeDayForm, readonly string[]> = {
+  constant: [],
+  HO: ["heating degree-days per day"],
+  CO: ["cooling degree-days per day"],
+  HC: ["heating degree-days per day", "cooling degree-days per day"],
+};
+
+/** DegreeDayFit.predictPerDay of a fit with these bases. */
+function predictPerDayOf(ols: OlsFit, form: DegreeDayForm, tH: number | null, tC: number | null, profile: TemperatureProfile): number {
+  return ols.predict(regressorRow(form, tH, tC, profile));
 }
 
 /**
@@ -317,22 +344,29 @@ export function fitDegreeDayFormAt(
   const n = periods.length;
   if (n <= p) throw new ModelInputError(`${form} needs more than ${p} periods, got ${n}`);
   const weightByDays = options.weightByDays ?? true;
-  const x = periods.map((pd) => regressorRow(form, pd.profile, tH, tC));
-  const y = periods.map((pd) => pd.usePerDay);
-  const weights = weightByDays ? periods.map((pd) => pd.days) : undefined;
-  const roles: DegreeDaySlope["role"][] = form === "HO" ? ["heating"] : form === "CO" ? ["cooling"] : form === "HC" ? ["heating", "cooling"] : [];
-  const ols = fitOls(x, y, { weights, columnNames: roles.map((r) => `${r} degree-days per day`) });
-  const slopes = roles.map((role, j) => ({
-    role,
-    value: ols.coefficients[j + 1],
-    standardError: ols.standardErrors[j + 1],
-    tValue: ols.tValues[j + 1],
-  }));
+  // Plain loops and module-level functions rather than closures made per fit: V8 keeps their
+  // optimized code between fits (a closure's is dropped once every closure made with it has died).
+  const x: number[][] = [];
+  // y typed, as the interval models give theirs to the statistics below (one kind of array).
+  const y = new Float64Array(periods.length);
+  const weights: number[] | undefined = weightByDays ? [] : undefined;
+  for (let i = 0; i < periods.length; i++) {
+    const pd = periods[i]!;
+    x.push(regressorRow(form, tH, tC, pd.profile));
+    y[i] = pd.usePerDay;
+    if (weights) weights.push(pd.days);
+  }
+  const roles = SLOPE_ROLES[form];
+  const ols = fitOls(x, y, { weights, columnNames: COLUMN_NAMES[form] });
+  const slopes: DegreeDaySlope[] = [];
+  for (let j = 0; j < roles.length; j++) {
+    slopes.push({ role: roles[j]!, value: ols.coefficients[j + 1], standardError: ols.standardErrors[j + 1], tValue: ols.tValues[j + 1] });
+  }
   const rmse = Math.sqrt(ols.sse / (n - p));
   const stats = guideline14Stats(y, ols.fitted, p, options.resolution ?? "monthly");
   const meanDays = weights ? mean(weights) : 1;
-  const regressors = (profile: TemperatureProfile): number[] => regressorRow(form, profile, tH, tC);
-  const predictPerDay = (profile: TemperatureProfile): number => ols.predict(regressors(profile));
+  const regressors = regressorRow.bind(null, form, tH, tC);
+  const predictPerDay = predictPerDayOf.bind(null, ols, form, tH, tC);
   const predictWithInterval = (profile: TemperatureProfile, level: number, days?: number): IntervalPrediction => {
     if (!(level > 0 && level < 1)) throw new ModelInputError(`interval level must be in (0, 1), got ${level}`);
     const w0 = weights ? (days ?? meanDays) : 1;
@@ -481,8 +515,13 @@ interface ColumnView {
   rows: Int32Array;
 }
 
-/** Degree-day columns of the periods a fit is given, by kind and base. */
-type ColumnSource = (kind: "h" | "c", base: number) => ColumnView;
+/**
+ * Degree-day columns of the periods a fit is given, by kind and base. Objects with a method
+ * rather than closures, so V8 keeps the optimized code between fits.
+ */
+interface ColumnSource {
+  column(kind: "h" | "c", base: number): ColumnView;
+}
 
 function identityRows(n: number): Int32Array {
   const rows = new Int32Array(n);
@@ -491,9 +530,29 @@ function identityRows(n: number): Int32Array {
 }
 
 /** The column source of periods on their own (no list kept). */
-function ownColumns(periods: readonly DegreeDayPeriod[]): ColumnSource {
-  const rows = identityRows(periods.length);
-  return (kind, base) => ({ values: columnAt(periods, kind, base), rows });
+class OwnColumns implements ColumnSource {
+  private readonly rows: Int32Array;
+  constructor(private readonly periods: readonly DegreeDayPeriod[]) {
+    this.rows = identityRows(periods.length);
+  }
+  column(kind: "h" | "c", base: number): ColumnView {
+    return { values: columnAt(this.periods, kind, base), rows: this.rows };
+  }
+}
+
+/** The columns of a subset of a DegreeDayColumns list (DegreeDayColumns.sourceFor). */
+class SubsetColumns implements ColumnSource {
+  private own: Int32Array | null = null;
+  constructor(
+    private readonly list: DegreeDayColumns,
+    private readonly periods: readonly DegreeDayPeriod[],
+    private readonly rows: Int32Array,
+  ) {}
+  column(kind: "h" | "c", base: number): ColumnView {
+    // A Map takes −0 and 0 as one key; their degree-days may differ in the sign of a zero.
+    if (Object.is(base, -0)) return { values: columnAt(this.periods, kind, base), rows: (this.own ??= identityRows(this.periods.length)) };
+    return { values: this.list.fullColumn(kind, base), rows: this.rows };
+  }
 }
 
 /**
@@ -510,9 +569,9 @@ export class DegreeDayColumns {
   private readonly c = new Map<number, Float64Array>();
   constructor(periods: readonly DegreeDayPeriod[]) {
     this.periods = periods;
-    periods.forEach((p, i) => {
-      if (!this.rowOf.has(p)) this.rowOf.set(p, i);
-    });
+    for (let i = 0; i < periods.length; i++) {
+      if (!this.rowOf.has(periods[i]!)) this.rowOf.set(periods[i]!, i);
+    }
   }
   /** The column source for `periods`, or null when one of them is not in the list. */
   sourceFor(periods: readonly DegreeDayPeriod[]): ColumnSource | null {
@@ -522,19 +581,18 @@ export class DegreeDayColumns {
       if (r === undefined) return null;
       rows[i] = r;
     }
-    let own: Int32Array | null = null;
-    return (kind, base) => {
-      // A Map takes −0 and 0 as one key; their degree-days may differ in the sign of a zero.
-      if (Object.is(base, -0)) return { values: columnAt(periods, kind, base), rows: (own ??= identityRows(periods.length)) };
-      const byBase = kind === "h" ? this.h : this.c;
-      let full = byBase.get(base);
-      if (full === undefined) {
-        full = columnAt(this.periods, kind, base);
-        if (byBase.size >= 4096) byBase.clear(); // a bound, not an eviction policy
-        byBase.set(base, full);
-      }
-      return { values: full, rows };
-    };
+    return new SubsetColumns(this, periods, rows);
+  }
+  /** The whole list's column at `base` (not −0), kept by base. */
+  fullColumn(kind: "h" | "c", base: number): Float64Array {
+    const byBase = kind === "h" ? this.h : this.c;
+    let full = byBase.get(base);
+    if (full === undefined) {
+      full = columnAt(this.periods, kind, base);
+      if (byBase.size >= 4096) byBase.clear(); // a bound, not an eviction policy
+      byBase.set(base, full);
+    }
+    return full;
   }
 }
 
@@ -581,31 +639,50 @@ function keepBestThree(top: { h: number; c: number; sse: number }[], s: { h: num
   if (top.length > 3) top.pop();
 }
 
-/** Best admissible base(s) of one form, by coarse grid then local fine grids. */
+/** Weighted SSE of a one-slope fit on the column at `base`; Infinity when its slope is not positive. */
+function oneSlopeSse(data: SearchData, columns: ColumnSource, kind: "h" | "c", base: number): number {
+  const r = data.oneAt(columns.column(kind, base));
+  // Physical constraint: a heating (cooling) slope must be positive.
+  return r.slope > 0 ? r.sse : Number.POSITIVE_INFINITY;
+}
+
+/** Weighted SSE of a two-slope fit; Infinity unless both slopes are positive. */
+function pairSse(data: SearchData, a: PreparedColumn, b: PreparedColumn): number {
+  const r = data.two(a, b);
+  return r.slopeA > 0 && r.slopeB > 0 ? r.sse : Number.POSITIVE_INFINITY;
+}
+
+/** The prepared columns of `kind` at each base. */
+function preparedColumns(data: SearchData, columns: ColumnSource, kind: "h" | "c", bases: readonly number[]): PreparedColumn[] {
+  const out: PreparedColumn[] = [];
+  for (const b of bases) out.push(data.prepare(columns.column(kind, b)));
+  return out;
+}
+
+/**
+ * Best admissible base(s) of one form, by coarse grid then local fine grids. Its helpers are
+ * module-level functions, not closures, so V8 keeps their optimized code between searches.
+ */
 function searchBases(
   periods: readonly DegreeDayPeriod[],
   form: "HO" | "CO" | "HC",
   range: BaseSearchRange,
   weightByDays: boolean,
-  columnAt: ColumnSource,
+  columns: ColumnSource,
 ): { heatingBase: number | null; coolingBase: number | null } | null {
   const data = new SearchData(periods, weightByDays);
   if (form !== "HC") {
     const kind = form === "HO" ? "h" : "c";
-    const sseAt = (base: number): number => {
-      const r = data.oneAt(columnAt(kind, base));
-      // Physical constraint: a heating (cooling) slope must be positive.
-      return r.slope > 0 ? r.sse : Number.POSITIVE_INFINITY;
-    };
     const coarse = gridOf(range.min, range.max, range.step);
-    const scores = coarse.map(sseAt);
+    const scores: number[] = [];
+    for (const b of coarse) scores.push(oneSlopeSse(data, columns, kind, b));
     let best: number | null = null;
     let bestSse = Number.POSITIVE_INFINITY;
     for (const i of bestLocalMinima(scores, 3)) {
       const lo = Math.max(range.min, coarse[i] - range.step);
       const hi = Math.min(range.max, coarse[i] + range.step);
       for (const b of gridOf(lo, hi, range.refineStep)) {
-        const s = sseAt(b);
+        const s = oneSlopeSse(data, columns, kind, b);
         if (s < bestSse) {
           bestSse = s;
           best = b;
@@ -616,18 +693,14 @@ function searchBases(
     return form === "HO" ? { heatingBase: best, coolingBase: null } : { heatingBase: null, coolingBase: best };
   }
   const coarse = gridOf(range.min, range.max, range.step);
-  const hCols = coarse.map((b) => data.prepare(columnAt("h", b)));
-  const cCols = coarse.map((b) => data.prepare(columnAt("c", b)));
-  const pairSse = (a: PreparedColumn, b: PreparedColumn): number => {
-    const r = data.two(a, b);
-    return r.slopeA > 0 && r.slopeB > 0 ? r.sse : Number.POSITIVE_INFINITY;
-  };
+  const hCols = preparedColumns(data, columns, "h", coarse);
+  const cCols = preparedColumns(data, columns, "c", coarse);
   // The three best admissible pairs in the order a stable sort by SSE would give them (equal
   // SSEs keep their grid order): only those start a fine search.
   const starts: { h: number; c: number; sse: number }[] = [];
   for (let i = 0; i < coarse.length; i++) {
     for (let j = i; j < coarse.length; j++) {
-      const sse = pairSse(hCols[i], cCols[j]);
+      const sse = pairSse(data, hCols[i], cCols[j]);
       if (Number.isFinite(sse)) keepBestThree(starts, { h: coarse[i], c: coarse[j], sse });
     }
   }
@@ -636,14 +709,15 @@ function searchBases(
   for (const s of starts) {
     const hs = gridOf(Math.max(range.min, s.h - range.step), Math.min(range.max, s.h + range.step), range.refineStep);
     const cs = gridOf(Math.max(range.min, s.c - range.step), Math.min(range.max, s.c + range.step), range.refineStep);
-    const cColsFine = cs.map((b) => data.prepare(columnAt("c", b)));
+    const cColsFine = preparedColumns(data, columns, "c", cs);
     for (const h of hs) {
-      const hCol = data.prepare(columnAt("h", h));
-      cs.forEach((c, k) => {
-        if (c < h) return;
-        const sse = pairSse(hCol, cColsFine[k]);
+      const hCol = data.prepare(columns.column("h", h));
+      for (let k = 0; k < cs.length; k++) {
+        const c = cs[k];
+        if (c < h) continue;
+        const sse = pairSse(data, hCol, cColsFine[k]);
         if (sse < best.sse) best = { h, c, sse };
-      });
+      }
     }
   }
   return { heatingBase: best.h, coolingBase: best.c };
@@ -665,7 +739,7 @@ export function fitDegreeDayForm(periods: readonly DegreeDayPeriod[], form: Degr
   if (!(range.min < range.max && range.step > 0 && range.refineStep > 0)) {
     throw new ModelInputError(`base search range must have min < max and positive steps, got ${JSON.stringify(range)}`);
   }
-  const source = columns?.sourceFor(periods) ?? ownColumns(periods);
+  const source = columns?.sourceFor(periods) ?? new OwnColumns(periods);
   const bases = searchBases(periods, form, range, options.weightByDays ?? true, source);
   if (bases === null) throw new ModelInputError(`${form}: no base in ${range.min}…${range.max} gives a positive ${form === "CO" ? "cooling" : "heating"} slope${form === "HC" ? " and a positive cooling slope" : ""}`);
   return fitDegreeDayFormAt(periods, form, bases, options);

@@ -79,53 +79,102 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
   if (cm && cm.data.length !== cm.rows * cm.cols) throw new ModelInputError(`column-major data has ${cm.data.length} values, expected ${cm.rows * cm.cols}`);
   const weights = options.weights;
   if (weights && weights.length !== n) throw new ModelInputError(`weights have ${weights.length} values but y has ${n}`);
-  for (let i = 0; i < n; i++) {
+  checkValues(y, weights);
+  // The fit itself always gets columns and typed arrays (the same numbers): V8 throws away a
+  // function's optimized code when it meets a kind of array it has not seen before.
+  const columns = cm ?? columnsOfRows(x as Matrix);
+  if (columns === null) throwForRaggedRows(x as Matrix, intercept, weights);
+  return fitColumns(columns, Float64Array.from(y), weights ? Float64Array.from(weights) : null, intercept, options.columnNames);
+}
+
+function checkValues(y: ArrayLike<number>, weights: ArrayLike<number> | undefined): void {
+  for (let i = 0; i < y.length; i++) {
     if (!Number.isFinite(y[i])) throw new ModelInputError(`y[${i}] is not a finite number`);
     if (weights && !(weights[i] > 0 && Number.isFinite(weights[i]))) {
       throw new ModelInputError(`weight[${i}] must be positive and finite, got ${weights[i]}`);
     }
   }
-  // Only read below: without an intercept the rows (or columns) are used as given.
-  let design: Matrix | null = null;
-  let cmDesign: ColumnMajorMatrix | null = null;
-  let k: number;
-  if (cm) {
-    k = cm.cols + (intercept ? 1 : 0);
-    if (intercept) {
-      const data = new Float64Array(n * k);
-      data.fill(1, 0, n);
-      data.set(cm.data, n);
-      cmDesign = { rows: n, cols: k, data };
-    } else cmDesign = cm;
-  } else {
-    const rows = x as Matrix;
-    design = intercept ? rows.map((row) => [1, ...row]) : rows;
-    k = design.length === 0 ? (intercept ? 1 : 0) : design[0].length;
+}
+
+/** Rows stored by column (the same numbers); null when the rows differ in length. */
+function columnsOfRows(rows: Matrix): ColumnMajorMatrix | null {
+  const n = rows.length;
+  const cols = n === 0 ? 0 : rows[0]!.length;
+  const data = new Float64Array(n * cols);
+  for (let i = 0; i < n; i++) {
+    const row = rows[i]!;
+    if (row.length !== cols) return null;
+    for (let j = 0; j < cols; j++) data[j * n + i] = row[j]!;
   }
+  return { rows: n, cols, data };
+}
+
+/** Throws the error a fit on ragged rows meets: too few rows, or householderQr's (as the rows come). */
+function throwForRaggedRows(rows: Matrix, intercept: boolean, weights: ArrayLike<number> | undefined): never {
+  const n = rows.length;
+  const design = intercept ? rows.map((row) => [1, ...row]) : rows;
+  const k = design[0]!.length;
+  if (n <= k) throw new ModelInputError(`need more observations than coefficients (n=${n}, k=${k})`);
+  const wDesign = weights ? design.map((row, i) => row.map((v) => v * Math.sqrt(weights[i]!))) : design;
+  householderQr(wDesign);
+  throw new Error("ragged rows passed the QR checks");
+}
+
+// The two helpers below hold branches that only some callers take (with or without an
+// intercept, names or not): kept out of fitColumns, a branch it has not yet run does not
+// deoptimize the whole fit.
+
+/** Σ w(y − ȳ)² about the weighted mean with an intercept, Σ w·y² without one. */
+function totalSumOfSquares(y: Float64Array, weights: Float64Array | null, intercept: boolean): number {
+  const n = y.length;
+  if (intercept) {
+    const wSum = weights ? compensatedSum(weights) : n;
+    const wy = new Float64Array(n);
+    for (let i = 0; i < n; i++) wy[i] = (weights ? weights[i] : 1) * y[i];
+    const yBar = compensatedSum(wy) / wSum;
+    const dev = new Float64Array(n);
+    for (let i = 0; i < n; i++) dev[i] = (weights ? weights[i] : 1) * (y[i] - yBar) ** 2;
+    return compensatedSum(dev);
+  }
+  const sq = new Float64Array(n);
+  for (let i = 0; i < n; i++) sq[i] = (weights ? weights[i] : 1) * y[i] * y[i];
+  return compensatedSum(sq);
+}
+
+function coefficientNames(intercept: boolean, columnNames: readonly string[] | undefined): string[] {
+  return [...(intercept ? ["intercept"] : []), ...(columnNames ?? [])];
+}
+
+/** fitOls on checked inputs: regressors by column (without the intercept), y and weights typed. */
+function fitColumns(cm: ColumnMajorMatrix, y: Float64Array, weights: Float64Array | null, intercept: boolean, columnNames: readonly string[] | undefined): OlsFit {
+  const n = y.length;
+  // Only read below: without an intercept the columns are used as given.
+  let cmDesign: ColumnMajorMatrix;
+  const k = cm.cols + (intercept ? 1 : 0);
+  // The arrays are made whether needed or not (empty when not): a `new` that V8 has not yet
+  // seen run deoptimizes the whole fit when it first runs.
+  const withOnes = new Float64Array(intercept ? n * k : 0);
+  const weighted = new Float64Array(weights ? n * k : 0);
+  if (intercept) {
+    const data = withOnes;
+    data.fill(1, 0, n);
+    data.set(cm.data, n);
+    cmDesign = { rows: n, cols: k, data };
+  } else cmDesign = cm;
   if (n <= k) throw new ModelInputError(`need more observations than coefficients (n=${n}, k=${k})`);
   const sqrtW = new Float64Array(n);
   for (let i = 0; i < n; i++) sqrtW[i] = weights ? Math.sqrt(weights[i]) : 1;
   // Unweighted, the weighted design is the design itself (v · 1 = v exactly).
-  let wDesign: Matrix | ColumnMajorMatrix;
-  if (cmDesign) {
-    if (weights) {
-      const data = new Float64Array(n * k);
-      for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) data[j * n + i] = cmDesign.data[j * n + i] * sqrtW[i];
-      wDesign = { rows: n, cols: k, data };
-    } else wDesign = cmDesign;
-  } else {
-    wDesign = weights
-      ? design!.map((row, i) => {
-          const out = new Array<number>(row.length);
-          for (let j = 0; j < row.length; j++) out[j] = row[j] * sqrtW[i];
-          return out;
-        })
-      : design!;
-  }
+  let wDesign: ColumnMajorMatrix;
+  if (weights) {
+    const data = weighted;
+    for (let j = 0; j < k; j++) for (let i = 0; i < n; i++) data[j * n + i] = cmDesign.data[j * n + i] * sqrtW[i];
+    wDesign = { rows: n, cols: k, data };
+  } else wDesign = cmDesign;
   const wY = new Float64Array(n);
   for (let i = 0; i < n; i++) wY[i] = y[i] * sqrtW[i];
 
-  const names = [...(intercept ? ["intercept"] : []), ...(options.columnNames ?? [])];
+  const names = coefficientNames(intercept, columnNames);
   const qr = householderQr(wDesign, names.length === k ? names : undefined);
   const beta = Array.from(qrSolve(qr, wY));
   const cov = qrUnscaledCovariance(qr);
@@ -135,8 +184,7 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
   const wSq = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let f = 0;
-    if (cmDesign) for (let j = 0; j < k; j++) f += cmDesign.data[j * n + i] * beta[j];
-    else for (let j = 0; j < k; j++) f += design![i][j] * beta[j];
+    for (let j = 0; j < k; j++) f += cmDesign.data[j * n + i] * beta[j];
     fitted[i] = f;
     resid[i] = y[i] - f;
     wSq[i] = (weights ? weights[i] : 1) * resid[i] * resid[i];
@@ -145,43 +193,27 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
   const dfResidual = n - k;
   const s2 = sse / dfResidual;
 
-  let tss: number;
-  if (intercept) {
-    const wSum = weights ? compensatedSum(weights) : n;
-    const wy = new Float64Array(n);
-    for (let i = 0; i < n; i++) wy[i] = (weights ? weights[i] : 1) * y[i];
-    const yBar = compensatedSum(wy) / wSum;
-    const dev = new Float64Array(n);
-    for (let i = 0; i < n; i++) dev[i] = (weights ? weights[i] : 1) * (y[i] - yBar) ** 2;
-    tss = compensatedSum(dev);
-  } else {
-    const sq = new Float64Array(n);
-    for (let i = 0; i < n; i++) sq[i] = (weights ? weights[i] : 1) * y[i] * y[i];
-    tss = compensatedSum(sq);
-  }
+  const tss = totalSumOfSquares(y, weights, intercept);
   const r2 = tss === 0 ? Number.NaN : 1 - sse / tss;
   const adjR2 = 1 - ((1 - r2) * (n - (intercept ? 1 : 0))) / dfResidual;
 
-  const se = beta.map((_, j) => Math.sqrt(s2 * cov[j][j]));
-  const tValues = beta.map((b, j) => b / se[j]);
-  const pValues = tValues.map((t) => (Number.isFinite(t) ? studentTTwoSidedP(t, dfResidual) : 0));
+  // Plain loops rather than map callbacks, whose optimized code would be lost between fits.
+  const se: number[] = [];
+  const tValues: number[] = [];
+  const pValues: number[] = [];
+  for (let j = 0; j < k; j++) {
+    se.push(Math.sqrt(s2 * cov[j][j]));
+    tValues.push(beta[j] / se[j]);
+    pValues.push(Number.isFinite(tValues[j]) ? studentTTwoSidedP(tValues[j], dfResidual) : 0);
+  }
   const s = Math.sqrt(s2);
 
-  const toRow = (xr: readonly number[]): number[] => {
-    const row = intercept ? [1, ...xr] : [...xr];
-    if (row.length !== k) throw new ModelInputError(`prediction row has ${xr.length} regressors, expected ${k - (intercept ? 1 : 0)}`);
-    return row;
-  };
-  const predict = (xr: readonly number[]): number => {
-    const row = toRow(xr);
-    let f = 0;
-    for (let j = 0; j < k; j++) f += row[j] * beta[j];
-    return f;
-  };
+  // A bound module-level function, not a closure: V8 keeps its optimized code between fits.
+  const predict = predictRow.bind(null, beta, intercept);
   const predictWithInterval = (xr: readonly number[], level: number, weight = 1): IntervalPrediction => {
     if (!(level > 0 && level < 1)) throw new ModelInputError(`interval level must be in (0, 1), got ${level}`);
     if (!(weight > 0)) throw new ModelInputError(`weight must be positive, got ${weight}`);
-    const row = toRow(xr);
+    const row = rowWithIntercept(xr, k, intercept);
     let quad = 0;
     for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) quad += row[i] * cov[i][j] * row[j];
     const fit = predict(xr);
@@ -210,4 +242,20 @@ export function fitOls(x: Matrix | ColumnMajorMatrix, y: ArrayLike<number>, opti
     predict,
     predictWithInterval,
   };
+}
+
+/** A prediction row: the intercept's 1 (when fitted) before the regressors. */
+function rowWithIntercept(xr: readonly number[], k: number, intercept: boolean): number[] {
+  const row = intercept ? [1, ...xr] : [...xr];
+  if (row.length !== k) throw new ModelInputError(`prediction row has ${xr.length} regressors, expected ${k - (intercept ? 1 : 0)}`);
+  return row;
+}
+
+/** OlsFit.predict of the fit with coefficients `beta`. */
+function predictRow(beta: readonly number[], intercept: boolean, xr: readonly number[]): number {
+  const k = beta.length;
+  const row = rowWithIntercept(xr, k, intercept);
+  let f = 0;
+  for (let j = 0; j < k; j++) f += row[j] * beta[j];
+  return f;
 }

@@ -96,10 +96,33 @@ export interface OutlierBandResult<P> {
 
 const MAD_TO_SIGMA = 1.4826;
 
+function ascending(a: number, b: number): number {
+  return a - b;
+}
+
 function median(values: number[]): number {
-  const s = [...values].sort((a, b) => a - b);
+  const s = [...values].sort(ascending);
   const m = s.length >> 1;
   return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+}
+
+// The helpers below are module-level functions rather than closures made per call, so V8 keeps
+// their optimized code between meters.
+
+/** The model fitted on the points of `pts`, without the one at `leaveOut` (−1: none); null when it cannot be fitted. */
+function tryFit<P>(fit: (points: P[]) => BandModel<P> | null, pts: readonly BandPoint<P>[], leaveOut: number): BandModel<P> | null {
+  const points: P[] = [];
+  for (let j = 0; j < pts.length; j++) if (j !== leaveOut) points.push(pts[j]!.point);
+  try {
+    return fit(points);
+  } catch (e) {
+    if (e instanceof ModelInputError) return null;
+    throw e;
+  }
+}
+
+function residualOf<P>(pt: BandPoint<P>, predicted: number, relative: boolean): number {
+  return relative ? (pt.usePerDay - predicted) / predicted : pt.usePerDay - predicted;
 }
 
 /**
@@ -126,30 +149,22 @@ export function outlierBand<P>(
   if (!(minRel >= 0)) throw new ModelInputError(`minimum relative half-width must be ≥ 0, got ${minRel}`);
   if (!(efficiency > 0 && efficiency <= 1)) throw new ModelInputError(`MAD efficiency must be in (0, 1], got ${efficiency}`);
 
-  const tryFit = (pts: readonly BandPoint<P>[]): BandModel<P> | null => {
-    try {
-      return fit(pts.map((p) => p.point));
-    } catch (e) {
-      if (e instanceof ModelInputError) return null;
-      throw e;
-    }
-  };
-  const residualOf = (pt: BandPoint<P>, predicted: number): number => (relative ? (pt.usePerDay - predicted) / predicted : pt.usePerDay - predicted);
-
   let kept = [...train];
   const rejected: string[] = [];
   for (let round = 0; ; round++) {
-    const model = tryFit(kept);
+    const model = tryFit(fit, kept, -1);
     if (model === null) return null;
     const loo: { id: string; residual: number }[] = [];
     for (let i = 0; i < kept.length; i++) {
-      const m = tryFit(kept.filter((_, j) => j !== i));
+      const m = tryFit(fit, kept, i);
       if (m === null) return null;
-      const r = residualOf(kept[i], m.predictPerDay(kept[i].point));
+      const r = residualOf(kept[i], m.predictPerDay(kept[i].point), relative);
       if (!Number.isFinite(r)) return null;
       loo.push({ id: kept[i].id, residual: r });
     }
-    const scale = MAD_TO_SIGMA * median(loo.map((l) => Math.abs(l.residual)));
+    const sizes: number[] = [];
+    for (const l of loo) sizes.push(Math.abs(l.residual));
+    const scale = MAD_TO_SIGMA * median(sizes);
     const effectiveDf = Math.max(1, Math.floor(efficiency * loo.length));
     const k = studentTQuantile(1 - (1 - level) / 2, effectiveDf);
     const bandFor = (pt: BandPoint<P>): BillBand => {
@@ -160,11 +175,12 @@ export function outlierBand<P>(
       const half = Math.max(spread, minimum);
       return { id: pt.id, expected, low: Math.max(0, expected - half), high: expected + half, atMinimumWidth: minimum >= spread };
     };
-    const outside = kept.filter((pt) => {
+    const outside: BandPoint<P>[] = [];
+    for (const pt of kept) {
       const b = bandFor(pt);
       const used = pt.usePerDay * pt.days;
-      return used < b.low || used > b.high;
-    });
+      if (used < b.low || used > b.high) outside.push(pt);
+    }
     if (round < rounds && outside.length > 0 && kept.length - outside.length > 0) {
       const drop = new Set(outside.map((o) => o.id));
       rejected.push(...drop);
@@ -205,6 +221,30 @@ export interface DegreeDayOutlierBandOptions extends DegreeDaySelectionOptions, 
   maxRejectedShare?: number;
 }
 
+function asBand(b: DegreeDayBandBill): BandPoint<DegreeDayPeriod> {
+  return { id: b.id, point: b, usePerDay: b.usePerDay, days: b.days };
+}
+
+/** Refits one degree-day form on subsets of the training bills (a class: V8 keeps its methods' optimized code). */
+class FormRefit {
+  constructor(
+    private readonly form: DegreeDayForm,
+    private readonly options: DegreeDayOutlierBandOptions,
+    private readonly columns: DegreeDayColumns,
+  ) {}
+  fit(pts: DegreeDayPeriod[]): BandModel<DegreeDayPeriod> {
+    return new PeriodModel(fitDegreeDayForm(pts, this.form, this.options, this.columns));
+  }
+}
+
+/** A degree-day fit as a band model of periods. */
+class PeriodModel implements BandModel<DegreeDayPeriod> {
+  constructor(private readonly fit: DegreeDayFit) {}
+  predictPerDay(p: DegreeDayPeriod): number {
+    return this.fit.predictPerDay(p.profile);
+  }
+}
+
 /**
  * The recommended `usage-outlier` band: variable-base degree-day model (fitDegreeDayModel) with a
  * leave-one-out band (outlierBand), bases re-searched in every leave-one-out fit.
@@ -227,13 +267,8 @@ export function degreeDayOutlierBand(
   const maxShare = options.maxRejectedShare ?? 0.1;
   if (!(maxShare >= 0 && maxShare < 1)) throw new ModelInputError(`maxRejectedShare must be in [0, 1), got ${maxShare}`);
   const maxRejected = Math.max(1, Math.ceil(maxShare * train.length));
-  const asBand = (b: DegreeDayBandBill): BandPoint<DegreeDayPeriod> => ({ id: b.id, point: b, usePerDay: b.usePerDay, days: b.days });
   // Every fit below is on a subset of the training bills: their columns are worked out once.
   const columns = new DegreeDayColumns(train);
-  const refit = (form: DegreeDayForm) => (pts: DegreeDayPeriod[]): BandModel<DegreeDayPeriod> => {
-    const f = fitDegreeDayForm(pts, form, options, columns);
-    return { predictPerDay: (p) => f.predictPerDay(p.profile) };
-  };
   const bandOptions = { ...options, rejectionRounds: 0 };
   const rejected: string[] = [];
   let kept = [...train];
@@ -243,7 +278,8 @@ export function degreeDayOutlierBand(
     // Band the kept bills (to find the worst) and the targets in one pass; ids are shared.
     const keptIds = new Set(kept.map((b) => b.id));
     const toBand = [...kept, ...targets.filter((t) => !keptIds.has(t.id))].map(asBand);
-    const res = outlierBand(kept.map(asBand), refit(selection.chosen.form), toBand, bandOptions);
+    const refit = new FormRefit(selection.chosen.form, options, columns);
+    const res = outlierBand(kept.map(asBand), (pts) => refit.fit(pts), toBand, bandOptions);
     if (!res) return { fit: selection.chosen, tried: selection.tried, bands: new Map(), rejected, band: null, bandOf: () => null };
     let worst: { id: string; excess: number } | null = null;
     for (const b of kept) {
