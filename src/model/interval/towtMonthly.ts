@@ -105,24 +105,29 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
     parameterCount = Math.max(parameterCount, (model ?? overall).parameterCount);
   }
   kept?.set(train, segments);
-  const predict = (f: HourlyFeatures): Float64Array => {
-    const n = f.tempC.length;
-    const out = new Float64Array(n);
-    // Predict with each month's model only on that month's rows (grouped by month, in row order).
-    const start = new Int32Array(14);
-    for (let i = 0; i < n; i++) {
-      const month = f.month[i]!;
-      if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
-      start[month + 1]!++;
-    }
-    for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
-    const rows = new Int32Array(n);
-    const next = start.slice(0, 13);
-    for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
-    for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
-    return out;
-  };
-  return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict };
+  return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict: (f) => predictByMonth(byMonth, f) };
+}
+
+/**
+ * Predictions of the month-segmented model: each month's model on that month's rows only.
+ * Module-level (not a closure per fit) so V8 keeps its optimized code between fits.
+ */
+function predictByMonth(byMonth: readonly TowtModel[], f: HourlyFeatures): Float64Array {
+  const n = f.tempC.length;
+  const out = new Float64Array(n);
+  // Predict with each month's model only on that month's rows (grouped by month, in row order).
+  const start = new Int32Array(14);
+  for (let i = 0; i < n; i++) {
+    const month = f.month[i]!;
+    if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
+    start[month + 1]!++;
+  }
+  for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
+  const rows = new Int32Array(n);
+  const next = start.slice(0, 13);
+  for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
+  for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
+  return out;
 }
 
 /** A table's segment fits: its hours per month (index 1 … 12) and each month's fit, null where it fell back. */
