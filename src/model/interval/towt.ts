@@ -182,7 +182,8 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   let occupied: Uint8Array;
   if (options.occupancy) {
     if (options.occupancy.length !== 168) throw new ModelInputError(`occupancy needs 168 entries, got ${options.occupancy.length}`);
-    occupied = Uint8Array.from(options.occupancy, (v) => (v ? 1 : 0));
+    occupied = new Uint8Array(168);
+    for (let h = 0; h < 168; h++) occupied[h] = options.occupancy[h] ? 1 : 0;
   } else {
     occupied = occupancyFromResiduals(data, knotsC, minPoints, threshold);
   }
@@ -211,12 +212,12 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   const useHoliday = (options.holidayTerm ?? true) && holidayOccRows >= MIN_HOLIDAY_ROWS && holidayOccRows < occTemps.length;
   const nHow = hoursSeen.length;
   const k = nHow + nOcc + nUnocc + (useHoliday ? 1 : 0);
-  const columnNames = [
-    ...hoursSeen.map((h) => `how${h}`),
-    ...Array.from({ length: nOcc }, (_, j) => `tempOcc${j}`),
-    ...Array.from({ length: nUnocc }, (_, j) => `tempUnocc${j}`),
-    ...(useHoliday ? ["holidayOccupied"] : []),
-  ];
+  // (loops, not callbacks: a callback made per fit and inlined here would cost V8 this whole function's optimized code)
+  const columnNames: string[] = [];
+  for (const h of hoursSeen) columnNames.push(`how${h}`);
+  for (let j = 0; j < nOcc; j++) columnNames.push(`tempOcc${j}`);
+  for (let j = 0; j < nUnocc; j++) columnNames.push(`tempUnocc${j}`);
+  if (useHoliday) columnNames.push("holidayOccupied");
   const row = (h: number, hol: number, t: number, howCol: number): number[] => {
     const r = new Array<number>(k).fill(0);
     if (howCol >= 0) r[howCol] = 1;
