@@ -198,16 +198,27 @@ const preparedCache = new WeakMap<Float64Array, Prepared>();
 
 const FEATURE_KEYS = ["hourOfWeek", "holiday", "dayOfYear", "tempC", "tempSmoothC", "tempSlopeCPerHour", "tempLagC", "tempRollingMeanC", "buildingIndex"] as const;
 
+/** Whether two tables hold the same feature arrays (a loop, not a callback made per call). */
+function sameFeatureArrays(a: HourlyFeatures, b: HourlyFeatures): boolean {
+  for (const k of FEATURE_KEYS) if (a[k] !== b[k]) return false;
+  return true;
+}
+
 function preparedColumns(train: HourlyFeatures, calendar: boolean, order: Int32Array | null, key: string): { cols: Float64Array[]; binCache: GbdtBinCache } {
   let entry = preparedCache.get(train.tempC);
-  if (!entry || !FEATURE_KEYS.every((k) => entry!.source[k] === train[k])) {
+  if (!entry || !sameFeatureArrays(entry.source, train)) {
     entry = { source: { ...train }, byKey: new Map() };
     preparedCache.set(train.tempC, entry);
   }
   let hit = entry.byKey.get(key);
   if (!hit) {
     const base = gbdtFeatureColumns(train, calendar);
-    hit = { cols: order ? base.map((c) => permuted(c, order)) : base, binCache: new Map() };
+    let cols = base;
+    if (order) {
+      cols = [];
+      for (const c of base) cols.push(permuted(c, order));
+    }
+    hit = { cols, binCache: new Map() };
     entry.byKey.set(key, hit);
   }
   return hit;

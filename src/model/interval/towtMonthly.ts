@@ -62,9 +62,11 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   if (!(neighbourWeight > 0 && neighbourWeight <= 1)) throw new ModelInputError(`neighbour weight must be in (0, 1], got ${neighbourWeight}`);
   // the TOWT candidate's fit on the same table, when it has been fitted already
   const overall = fitTowtOnTable(train, towtOptions);
-  const n = train.kwh.length;
+  // the columns read once (tables come in several object shapes)
+  const { month, hourOfWeek, holiday, tempC, kwh } = train;
+  const n = kwh.length;
   const monthHours = new Int32Array(13);
-  for (let i = 0; i < n; i++) monthHours[train.month[i]!]!++;
+  for (let i = 0; i < n; i++) monthHours[month[i]!]!++;
   // A fold's table lost one block of its frame's rows: a segment whose months lost none is the
   // frame's segment row for row, and its fit (or failure) is the frame's.
   const parent = kept ? frameCutFrom(train) : undefined;
@@ -81,15 +83,15 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
       model = parentSegments.fits[m]!;
     } else if (weight >= minSegmentWeight) {
       let size = 0;
-      for (let i = 0; i < n; i++) if (segmentWeight(m, train.month[i]!, neighbourWeight) > 0) size++;
+      for (let i = 0; i < n; i++) if (segmentWeight(m, month[i]!, neighbourWeight) > 0) size++;
       const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
       for (let i = 0, r = 0; i < n; i++) {
-        const wi = segmentWeight(m, train.month[i]!, neighbourWeight);
+        const wi = segmentWeight(m, month[i]!, neighbourWeight);
         if (wi > 0) {
-          seg.hourOfWeek[r] = train.hourOfWeek[i]!;
-          seg.holiday[r] = train.holiday[i]!;
-          seg.tempC[r] = train.tempC[i]!;
-          seg.kwh[r] = train.kwh[i]!;
+          seg.hourOfWeek[r] = hourOfWeek[i]!;
+          seg.holiday[r] = holiday[i]!;
+          seg.tempC[r] = tempC[i]!;
+          seg.kwh[r] = kwh[i]!;
           seg.weights[r++] = wi;
         }
       }
