@@ -282,7 +282,7 @@ function boost(
  */
 class TreeWork {
   /** Interleaved histograms: [gradient sum, row count] per (feature, bin). */
-  private readonly pool: Float64Array[] = [];
+  private readonly pool: Float64Array[];
   readonly size: number;
   leafCount = 0;
   /**
@@ -296,6 +296,9 @@ class TreeWork {
   leafEnd: Int32Array;
   constructor(f: number, nb: number, maxDepth: number) {
     this.size = 2 * f * nb;
+    // created holding a histogram (the first take() needs one anyway), so the array holds objects
+    // from the start and V8 never sees its element kind change
+    this.pool = [new Float64Array(this.size)];
     const maxLeaves = 2 ** maxDepth;
     this.leafNode = new Int32Array(maxLeaves);
     this.leafStart = new Int32Array(maxLeaves);

@@ -96,7 +96,8 @@ export function selectKnots(temps: ArrayLike<number>, knots: readonly number[], 
       while (s < ks.length && temps[i]! >= ks[s]!) s++;
       counts[s]!++;
     }
-    const thin = counts.findIndex((c) => c < minPoints);
+    let thin = -1;
+    for (let s = 0; s < counts.length && thin < 0; s++) if (counts[s]! < minPoints) thin = s;
     if (thin < 0) return ks;
     ks.splice(thin === 0 ? 0 : thin - 1, 1);
   }
