@@ -83,25 +83,49 @@ function cvRmseN(actual: ArrayLike<number>, pred: ArrayLike<number>, mean: numbe
  * same value as cvRmseN(actual, combinePredictions(members, w, p, floor), mean), with each
  * member's x^p (or ln x) computed once instead of once per weight vector. The sums run in the
  * same order as generalizedWeightedMean's, so the numbers are identical.
- * @throws ModelInputError when p is not finite (as generalizedWeightedMean would).
+ * A class rather than a returned closure: its `score` method lives as long as the process, so V8
+ * keeps its optimized code from one meter to the next.
  */
-function powerMeanScorer(actual: ArrayLike<number>, members: readonly ArrayLike<number>[], p: number, floor: number, mean: number): (w: readonly number[]) => number {
-  if (!Number.isFinite(p)) throw new ModelInputError(`exponent must be finite, got ${p}`);
-  const m = members.length;
-  const n = actual.length;
-  const geometric = p !== 1 && Math.abs(p) < GEOMETRIC_EPS;
-  // row-major n × m of each member's value as the mean uses it
-  const t = new Float64Array(n * m);
-  const missing = new Uint8Array(n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < m; j++) {
-      const x = members[j]![i]!;
-      if (Number.isNaN(x)) missing[i] = 1;
-      const v = p === 1 ? x : Math.max(x, floor);
-      t[i * m + j] = p === 1 ? v : geometric ? Math.log(v) : v ** p;
+class PowerMeanScorer {
+  private readonly m: number;
+  private readonly n: number;
+  private readonly geometric: boolean;
+  /** Row-major n × m of each member's value as the mean uses it. */
+  private readonly t: Float64Array;
+  private readonly missing: Uint8Array;
+
+  /** @throws ModelInputError when p is not finite (as generalizedWeightedMean would). */
+  constructor(
+    private readonly actual: ArrayLike<number>,
+    members: readonly ArrayLike<number>[],
+    private readonly p: number,
+    floor: number,
+    private readonly mean: number,
+  ) {
+    if (!Number.isFinite(p)) throw new ModelInputError(`exponent must be finite, got ${p}`);
+    const m = members.length;
+    const n = actual.length;
+    const geometric = p !== 1 && Math.abs(p) < GEOMETRIC_EPS;
+    const t = new Float64Array(n * m);
+    const missing = new Uint8Array(n);
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < m; j++) {
+        const x = members[j]![i]!;
+        if (Number.isNaN(x)) missing[i] = 1;
+        const v = p === 1 ? x : Math.max(x, floor);
+        t[i * m + j] = p === 1 ? v : geometric ? Math.log(v) : v ** p;
+      }
     }
+    this.m = m;
+    this.n = n;
+    this.geometric = geometric;
+    this.t = t;
+    this.missing = missing;
   }
-  return (w) => {
+
+  /** CV(RMSE), %, of the power mean with weights w. */
+  score(w: readonly number[]): number {
+    const { m, n, p, geometric, t, missing, actual } = this;
     let wSum = 0;
     for (let j = 0; j < m; j++) {
       if (!(w[j]! >= 0)) throw new ModelInputError(`weights must be ≥ 0, got ${w[j]}`);
@@ -125,8 +149,8 @@ function powerMeanScorer(actual: ArrayLike<number>, members: readonly ArrayLike<
       }
       sse += (actual[i]! - y) ** 2;
     }
-    return (100 * Math.sqrt(sse / n)) / mean;
-  };
+    return (100 * Math.sqrt(sse / n)) / this.mean;
+  }
 }
 
 /**
@@ -163,12 +187,12 @@ export function searchEnsemble(
   };
   const exponents = options.exponents ?? [-1, 0, 0.5, 1, 2];
   const grid = simplexGrid(m, options.weightStep ?? 0.1).filter((w) => w.filter((x) => x > 0).length >= 2); // single models are scored above
-  const scorers = exponents.map((e) => (grid.length > 0 ? powerMeanScorer(actual, members, e, floor, mean) : null));
+  const scorers = exponents.map((e) => (grid.length > 0 ? new PowerMeanScorer(actual, members, e, floor, mean) : null));
   for (const w of grid) {
-    exponents.forEach((e, k) => {
-      const cv = scorers[k]!(w);
-      if (cv < best.cv) best = { weights: w, exponent: e, cv };
-    });
+    for (let k = 0; k < exponents.length; k++) {
+      const cv = scorers[k]!.score(w);
+      if (cv < best.cv) best = { weights: w, exponent: exponents[k]!, cv };
+    }
   }
   // an exact single model (CV(RMSE) = 0) cannot be beaten: gain 0 rather than 0/0
   const gainPct = single[bestSingle]! > 0 ? (100 * (single[bestSingle]! - best.cv)) / single[bestSingle]! : 0;

@@ -219,7 +219,7 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
   let memberPreds: Float64Array[] = [];
   if (scored.length >= 2 && common.length > 0) {
     memberPreds = scored.map((c) => pick(c.cv!, common));
-    const actual = Float64Array.from(common, (i) => frame.kwh[i]!);
+    const actual = valuesAt(frame.kwh, common);
     ensemble = searchEnsemble(actual, memberPreds, scored.map((c) => c.spec.kind), o.ensemble);
   }
 
@@ -286,12 +286,23 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
   if (activeCv.length === active.length) {
     const rows = commonRows(activeCv);
     const pred = combine(activeCv.map((cv) => pick(cv, rows)));
-    const resid = Float64Array.from(rows, (i, k) => frame.kwh[i]! - pred[k]!);
-    band = residualBand(resid, Uint8Array.from(rows, (i) => frame.hourOfWeek[i]! % 24), level);
+    const resid = new Float64Array(rows.length);
+    const hourOfDay = new Uint8Array(rows.length);
+    for (let k = 0; k < rows.length; k++) {
+      resid[k] = frame.kwh[rows[k]!]! - pred[k]!;
+      hourOfDay[k] = frame.hourOfWeek[rows[k]!]! % 24;
+    }
+    band = residualBand(resid, hourOfDay, level);
     bandSource = "cross-validation";
   } else {
     const pred = combine(active.map((m) => fittedOn(m.c.model!, frame)));
-    band = residualBand(Float64Array.from(frame.kwh, (v, i) => v - pred[i]!), Uint8Array.from(frame.hourOfWeek, (h) => h % 24), level);
+    const resid = new Float64Array(frame.kwh.length);
+    const hourOfDay = new Uint8Array(frame.kwh.length);
+    for (let i = 0; i < resid.length; i++) {
+      resid[i] = frame.kwh[i]! - pred[i]!;
+      hourOfDay[i] = frame.hourOfWeek[i]! % 24;
+    }
+    band = residualBand(resid, hourOfDay, level);
     bandSource = "training";
   }
 
@@ -305,7 +316,7 @@ export function fitIntervalBaseline(input: IntervalBaselineInput): IntervalBasel
     const pTotal = Math.min(active.reduce((s, m) => s + m.c.model!.parameterCount, 0), frame.kwh.length - 1);
     chosenTrain = safeBlock(frame.kwh, combine(active.map((m) => fittedOn(m.c.model!, frame))), pTotal);
     const rows = commonRows(activeCv);
-    chosenCv = safeBlock(Float64Array.from(rows, (i) => frame.kwh[i]!), combine(activeCv.map((cv) => pick(cv, rows))), Math.min(pTotal, rows.length - 1));
+    chosenCv = safeBlock(valuesAt(frame.kwh, rows), combine(activeCv.map((cv) => pick(cv, rows))), Math.min(pTotal, rows.length - 1));
   }
 
   const featureOptions = o.frame ?? {};
@@ -409,13 +420,24 @@ function commonRows(cvs: readonly CvResult[]): Int32Array {
   if (cvs.length === 0) return new Int32Array(0);
   const counts = new Map<number, number>();
   for (const cv of cvs) for (const r of cv.validationRows) counts.set(r, (counts.get(r) ?? 0) + 1);
-  return Int32Array.from([...counts].filter(([, c]) => c === cvs.length).map(([r]) => r)).sort();
+  const rows: number[] = [];
+  for (const [r, c] of counts) if (c === cvs.length) rows.push(r);
+  return Int32Array.from(rows).sort();
 }
 
 /** A CV result's predictions at the given frame rows (rows must all be scored by it). */
 function pick(cv: CvResult, rows: Int32Array): Float64Array {
   const at = new Map<number, number>();
-  cv.validationRows.forEach((r, k) => at.set(r, k));
-  return Float64Array.from(rows, (r) => cv.validationPredicted[at.get(r)!]!);
+  for (let k = 0; k < cv.validationRows.length; k++) at.set(cv.validationRows[k]!, k);
+  const out = new Float64Array(rows.length);
+  for (let k = 0; k < rows.length; k++) out[k] = cv.validationPredicted[at.get(rows[k]!)!]!;
+  return out;
+}
+
+/** values[rows[k]] for each k. Loops rather than callbacks here and above: a callback made per call would lose V8's optimized code between meters. */
+function valuesAt(values: Float64Array, rows: Int32Array): Float64Array {
+  const out = new Float64Array(rows.length);
+  for (let k = 0; k < rows.length; k++) out[k] = values[rows[k]!]!;
+  return out;
 }
 

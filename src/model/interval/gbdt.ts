@@ -148,8 +148,11 @@ export type GbdtBinCache = Map<string, GbdtBinnedColumns>;
 export function binFeatureColumns(columns: readonly ArrayLike<number>[], nTrain: number, maxBins: number): GbdtBinnedColumns {
   const n = columns[0]?.length ?? 0;
   const f = columns.length;
-  const bins = columns.map((c) => binCuts(c, maxBins, nTrain));
-  const binned = columns.map((c, j) => binColumn(bins[j]!, c));
+  // loops rather than map callbacks, which V8 would recompile (with binCuts inlined) at each call
+  const bins: FeatureBins[] = [];
+  const binned: Uint8Array[] = [];
+  for (let j = 0; j < f; j++) bins.push(binCuts(columns[j]!, maxBins, nTrain));
+  for (let j = 0; j < f; j++) binned.push(binColumn(bins[j]!, columns[j]!));
   const nb2 = 2 * (maxBins + 1);
   const rowOffsets = new Int32Array(n * f);
   for (let j = 0; j < f; j++) {
@@ -279,7 +282,7 @@ function boost(
  */
 class TreeWork {
   /** Interleaved histograms: [gradient sum, row count] per (feature, bin). */
-  private readonly pool: Float64Array[] = [];
+  private readonly pool: Float64Array[];
   readonly size: number;
   leafCount = 0;
   /**
@@ -293,6 +296,9 @@ class TreeWork {
   leafEnd: Int32Array;
   constructor(f: number, nb: number, maxDepth: number) {
     this.size = 2 * f * nb;
+    // created holding a histogram (the first take() needs one anyway), so the array holds objects
+    // from the start and V8 never sees its element kind change
+    this.pool = [new Float64Array(this.size)];
     const maxLeaves = 2 ** maxDepth;
     this.leafNode = new Int32Array(maxLeaves);
     this.leafStart = new Int32Array(maxLeaves);
@@ -459,31 +465,17 @@ function growTree(
   nb: number,
   work: TreeWork,
 ): GbdtTree {
-  const feature: number[] = [];
-  const threshold: number[] = [];
-  const splitBin: number[] = [];
-  const left: number[] = [];
-  const right: number[] = [];
-  const value: number[] = [];
-  const newNode = (): number => {
-    feature.push(-1);
-    threshold.push(0);
-    splitBin.push(-1);
-    left.push(-1);
-    right.push(-1);
-    value.push(0);
-    return feature.length - 1;
-  };
+  const nodes = new TreeNodes();
+  const { feature, threshold, splitBin, left, right, value } = nodes;
   const f = bins.length;
   const nb2 = 2 * nb;
   work.leafCount = 0;
-  const canSplit = (count: number, depth: number): boolean => depth < o.maxDepth && count >= 2 * o.minSamplesLeaf;
-  const stack: NodeTask[] = [{ node: newNode(), start: 0, end: rows.length, depth: 0, hist: null, gSum: null }];
+  const stack: NodeTask[] = [{ node: nodes.add(), start: 0, end: rows.length, depth: 0, hist: null, gSum: null }];
   while (stack.length) {
     const task = stack.pop()!;
     const { node, start, end, depth } = task;
     const count = end - start;
-    const splittable = canSplit(count, depth);
+    const splittable = canSplit(count, depth, o);
     let hist = task.hist;
     // Σ gradient in row order: known from the parent's pass, or from this node's histogram
     // pass (which adds it in the same order), or added up here.
@@ -554,13 +546,13 @@ function growTree(
     feature[node] = bestF;
     threshold[node] = bins[bestF]!.cuts[bestBin]!;
     splitBin[node] = bestBin;
-    const l = newNode();
-    const r = newNode();
+    const l = nodes.add();
+    const r = nodes.add();
     left[node] = l;
     right[node] = r;
     const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, hist: null, gSum: gLeft };
     const rTask: NodeTask = { node: r, start: i, end, depth: depth + 1, hist: null, gSum: null };
-    if (canSplit(i - start, depth + 1) || canSplit(end - i, depth + 1)) {
+    if (canSplit(i - start, depth + 1, o) || canSplit(end - i, depth + 1, o)) {
       const [small, large] = i - start <= end - i ? [lTask, rTask] : [rTask, lTask];
       const sh = work.take();
       small.gSum = buildHistogram(sh, rows, small.start, small.end, grad, rowOffsets, f);
@@ -582,6 +574,35 @@ function growTree(
     value: Float64Array.from(value),
     splitBin: Int16Array.from(splitBin),
   };
+}
+
+/**
+ * The nodes of a tree being grown, one array per field. A class and a module-level canSplit
+ * rather than closures made per tree, which V8 would recompile (with growTree around them).
+ */
+class TreeNodes {
+  readonly feature: number[] = [];
+  readonly threshold: number[] = [];
+  readonly splitBin: number[] = [];
+  readonly left: number[] = [];
+  readonly right: number[] = [];
+  readonly value: number[] = [];
+
+  /** A new leaf (no split, value 0); returns its index. */
+  add(): number {
+    this.feature.push(-1);
+    this.threshold.push(0);
+    this.splitBin.push(-1);
+    this.left.push(-1);
+    this.right.push(-1);
+    this.value.push(0);
+    return this.feature.length - 1;
+  }
+}
+
+/** Whether a node of `count` rows at `depth` may still be split. */
+function canSplit(count: number, depth: number, o: ReturnType<typeof resolve>): boolean {
+  return depth < o.maxDepth && count >= 2 * o.minSamplesLeaf;
 }
 
 /** Leaf value for row i, walking by bins (bin ≤ splitBin ⇔ x ≤ threshold). */

@@ -4,7 +4,7 @@
  */
 import { fitGbdt } from "./gbdt.ts";
 import type { GbdtBinCache, GbdtModel, GbdtOptions } from "./gbdt.ts";
-import type { FittedHourlyModel, HourlyFeatures, HourlyModelSpec } from "./types.ts";
+import type { FittedHourlyModel, HourlyFeatures, HourlyFrame, HourlyModelSpec } from "./types.ts";
 
 /** Names of the tree features, in column order (buildingIndex only in pooled models). */
 export const GBDT_FEATURE_NAMES = [
@@ -89,41 +89,63 @@ export interface GbdtHourlyModel extends FittedHourlyModel {
  * @example gbdtSpec().fit(frame).predict(frame)
  */
 export function gbdtSpec(options: GbdtHourlyOptions = {}): HourlyModelSpec {
-  const { validationHours = 336, patience = 20, calendar = true, stoppingRows = calendar ? "spread" : "latest", ...gbdtOptions } = options;
-  return {
-    kind: "gbdt",
-    fit(train): GbdtHourlyModel {
-      const n = train.kwh.length;
-      const useStop = validationHours > 0 && n >= 3 * validationHours;
-      const order = useStop && stoppingRows === "spread" ? spreadHoldoutOrder(n, validationHours) : null;
-      // fitGbdt holds out the last rows: with "spread" the chosen days are moved there (the refit uses every row).
-      const { cols, binCache } = preparedColumns(train, calendar, order, `${calendar}/${order ? validationHours : 0}`);
-      const y = order ? permuted(train.kwh, order) : train.kwh;
-      const gbdt = fitGbdt(
-        cols,
-        y,
-        {
-          nTrees: 300,
-          ...gbdtOptions,
-          ...(useStop ? { earlyStopping: { validationRows: validationHours, patience, refit: stoppingRows === "latest" } } : {}),
-        },
-        binCache,
-      );
-      // the trees' predictions for the training rows, back in the table's order
-      let fitted: Float64Array | undefined;
-      if (gbdt.fitted.length === n) {
-        fitted = order ? new Float64Array(n) : gbdt.fitted;
-        if (order) for (let k = 0; k < n; k++) fitted[order[k]!] = gbdt.fitted[k]!;
-      }
-      return {
-        kind: "gbdt",
-        parameterCount: cols.length,
-        gbdt,
-        fitted,
-        predict: (f) => gbdt.predict(gbdtFeatureColumns(f, calendar)),
-      };
-    },
-  };
+  return new GbdtHourlySpec(options);
+}
+
+/**
+ * The spec {@link gbdtSpec} returns. A class, so that its `fit` is one function for the whole
+ * process (a spec object with its own `fit` closure per call would lose V8's optimized code
+ * whenever the spec is collected).
+ */
+class GbdtHourlySpec implements HourlyModelSpec {
+  readonly kind = "gbdt";
+  private readonly validationHours: number;
+  private readonly patience: number;
+  private readonly calendar: boolean;
+  private readonly stoppingRows: "latest" | "spread";
+  private readonly gbdtOptions: Omit<GbdtHourlyOptions, "validationHours" | "patience" | "calendar" | "stoppingRows">;
+
+  constructor(options: GbdtHourlyOptions) {
+    const { validationHours = 336, patience = 20, calendar = true, stoppingRows = calendar ? "spread" : "latest", ...gbdtOptions } = options;
+    this.validationHours = validationHours;
+    this.patience = patience;
+    this.calendar = calendar;
+    this.stoppingRows = stoppingRows;
+    this.gbdtOptions = gbdtOptions;
+  }
+
+  fit(train: HourlyFrame): GbdtHourlyModel {
+    const { validationHours, patience, calendar, stoppingRows, gbdtOptions } = this;
+    const n = train.kwh.length;
+    const useStop = validationHours > 0 && n >= 3 * validationHours;
+    const order = useStop && stoppingRows === "spread" ? spreadHoldoutOrder(n, validationHours) : null;
+    // fitGbdt holds out the last rows: with "spread" the chosen days are moved there (the refit uses every row).
+    const { cols, binCache } = preparedColumns(train, calendar, order, `${calendar}/${order ? validationHours : 0}`);
+    const y = order ? permuted(train.kwh, order) : train.kwh;
+    const gbdt = fitGbdt(
+      cols,
+      y,
+      {
+        nTrees: 300,
+        ...gbdtOptions,
+        ...(useStop ? { earlyStopping: { validationRows: validationHours, patience, refit: stoppingRows === "latest" } } : {}),
+      },
+      binCache,
+    );
+    // the trees' predictions for the training rows, back in the table's order
+    let fitted: Float64Array | undefined;
+    if (gbdt.fitted.length === n) {
+      fitted = order ? new Float64Array(n) : gbdt.fitted;
+      if (order) for (let k = 0; k < n; k++) fitted[order[k]!] = gbdt.fitted[k]!;
+    }
+    return {
+      kind: "gbdt",
+      parameterCount: cols.length,
+      gbdt,
+      fitted,
+      predict: (f) => gbdt.predict(gbdtFeatureColumns(f, calendar)),
+    };
+  }
 }
 
 /**
@@ -176,16 +198,27 @@ const preparedCache = new WeakMap<Float64Array, Prepared>();
 
 const FEATURE_KEYS = ["hourOfWeek", "holiday", "dayOfYear", "tempC", "tempSmoothC", "tempSlopeCPerHour", "tempLagC", "tempRollingMeanC", "buildingIndex"] as const;
 
+/** Whether two tables hold the same feature arrays (a loop, not a callback made per call). */
+function sameFeatureArrays(a: HourlyFeatures, b: HourlyFeatures): boolean {
+  for (const k of FEATURE_KEYS) if (a[k] !== b[k]) return false;
+  return true;
+}
+
 function preparedColumns(train: HourlyFeatures, calendar: boolean, order: Int32Array | null, key: string): { cols: Float64Array[]; binCache: GbdtBinCache } {
   let entry = preparedCache.get(train.tempC);
-  if (!entry || !FEATURE_KEYS.every((k) => entry!.source[k] === train[k])) {
+  if (!entry || !sameFeatureArrays(entry.source, train)) {
     entry = { source: { ...train }, byKey: new Map() };
     preparedCache.set(train.tempC, entry);
   }
   let hit = entry.byKey.get(key);
   if (!hit) {
     const base = gbdtFeatureColumns(train, calendar);
-    hit = { cols: order ? base.map((c) => permuted(c, order)) : base, binCache: new Map() };
+    let cols = base;
+    if (order) {
+      cols = [];
+      for (const c of base) cols.push(permuted(c, order));
+    }
+    hit = { cols, binCache: new Map() };
     entry.byKey.set(key, hit);
   }
   return hit;

@@ -7,7 +7,7 @@ import type { IntervalSeries, WeatherSeries } from "../../domain/types.ts";
 import { ModelInputError } from "../errors.ts";
 import { HOUR_MS, hourlyFeaturesAt, selectFeatureRows } from "./hourlyFeatures.ts";
 import type { HourlyFeatureOptions } from "./hourlyFeatures.ts";
-import type { HourlyAccounting, HourlyFrame } from "./types.ts";
+import type { HourlyAccounting, HourlyFeatures, HourlyFrame } from "./types.ts";
 
 export interface HourlyFrameOptions extends HourlyFeatureOptions {
   /** Meter multiplier applied to every value (default 1): energy = value × multiplier. */
@@ -48,7 +48,7 @@ export function hourlyFrame(
     excluded: { masked: 0, nonFinite: 0, incomplete: 0, noWeather: 0 },
     derivedFeatureFallbacks: 0,
   };
-  if (n === 0) return { ...emptyFrame(), accounting };
+  if (n === 0) return frameOf(emptyFeatures(), new Float64Array(0), accounting);
   const firstHour = Math.floor(series.startMs[0]! / HOUR_MS) * HOUR_MS;
   const lastHour = Math.floor(series.startMs[n - 1]! / HOUR_MS) * HOUR_MS;
   const hours = Math.round((lastHour - firstHour) / HOUR_MS) + 1;
@@ -88,10 +88,34 @@ export function hourlyFrame(
   accounting.hoursUsed = keep.length;
   // hourlyFeaturesAt counts fallbacks only on hours with a temperature, i.e. exactly the kept ones.
   accounting.derivedFeatureFallbacks = table.derivedFallbacks;
-  return { ...features, kwh, accounting };
+  return frameOf(features, kwh, accounting);
 }
 
-function emptyFrame(): Omit<HourlyFrame, "accounting"> {
+/**
+ * A frame from its feature columns, target and accounting, written out field by field in one
+ * order: every frame then has the same object shape (an object spread can give each table a
+ * shape of its own, and V8 discards the optimized code of the functions reading frames at each).
+ */
+function frameOf(f: HourlyFeatures, kwh: Float64Array, accounting: HourlyAccounting): HourlyFrame {
+  const frame: HourlyFrame = {
+    hourStartMs: f.hourStartMs,
+    hourOfWeek: f.hourOfWeek,
+    holiday: f.holiday,
+    dayOfYear: f.dayOfYear,
+    month: f.month,
+    tempC: f.tempC,
+    tempSmoothC: f.tempSmoothC,
+    tempSlopeCPerHour: f.tempSlopeCPerHour,
+    tempLagC: f.tempLagC,
+    tempRollingMeanC: f.tempRollingMeanC,
+    kwh,
+    accounting,
+  };
+  if (f.buildingIndex) frame.buildingIndex = f.buildingIndex;
+  return frame;
+}
+
+function emptyFeatures(): HourlyFeatures {
   return {
     hourStartMs: new Float64Array(0),
     hourOfWeek: new Uint8Array(0),
@@ -103,7 +127,6 @@ function emptyFrame(): Omit<HourlyFrame, "accounting"> {
     tempRollingMeanC: new Float64Array(0),
     dayOfYear: new Uint16Array(0),
     month: new Uint8Array(0),
-    kwh: new Float64Array(0),
   };
 }
 
@@ -121,7 +144,7 @@ export function selectFrameRows(frame: HourlyFrame, indices: ArrayLike<number>):
     kwh[i] = frame.kwh[indices[i]!]!;
     if (i > 0 && !(indices[i]! > indices[i - 1]!)) ascending = false;
   }
-  const out: HourlyFrame = { ...selectFeatureRows(frame, indices), kwh, accounting: frame.accounting };
+  const out = frameOf(selectFeatureRows(frame, indices), kwh, frame.accounting);
   if (ascending) cutFrom.set(out, frame);
   return out;
 }

@@ -160,7 +160,9 @@ export interface PreparedFolds {
  */
 export function prepareFolds(frame: HourlyFrame, options: TimeSeriesCvOptions = {}): PreparedFolds {
   const minTrain = options.minTrainRows ?? 336;
-  const folds = timeSeriesFolds(frame.hourStartMs, options).map((d): PreparedFold => {
+  // a loop, not a map callback: V8 would recompile the callback (with selectFrameRows inlined) for every meter
+  const folds: PreparedFold[] = [];
+  for (const d of timeSeriesFolds(frame.hourStartMs, options)) {
     const nTrain = d.trainEnd + (frame.kwh.length - d.trainResume);
     const nValid = d.validEnd - d.validStart;
     const validIdx = range(d.validStart, d.validEnd);
@@ -172,8 +174,8 @@ export function prepareFolds(frame: HourlyFrame, options: TimeSeriesCvOptions = 
       out.train = selectFrameRows(frame, trainIdx);
       out.valid = selectFrameRows(frame, validIdx);
     }
-    return out;
-  });
+    folds.push(out);
+  }
   return { frame, folds };
 }
 
@@ -215,7 +217,7 @@ export function crossValidate(frame: HourlyFrame, spec: HourlyModelSpec, options
   }
   const validationRows = Int32Array.from(rows);
   const validationPredicted = Float64Array.from(preds);
-  const actual = Float64Array.from(rows, (i) => frame.kwh[i]!);
+  const actual = valuesAt(frame.kwh, rows);
   let pooled: Guideline14Stats | null = null;
   let selectionCvRmsePct = Number.NaN;
   if (rows.length > p && rows.length > 0) {
@@ -227,6 +229,13 @@ export function crossValidate(frame: HourlyFrame, spec: HourlyModelSpec, options
     }
   }
   return { kind: spec.kind, folds, p, validationRows, validationPredicted, pooled, selectionCvRmsePct };
+}
+
+/** values[rows[k]] for each k (a loop, not a per-call callback, so V8 keeps its optimized code between calls). */
+function valuesAt(values: Float64Array, rows: readonly number[]): Float64Array {
+  const out = new Float64Array(rows.length);
+  for (let k = 0; k < rows.length; k++) out[k] = values[rows[k]!]!;
+  return out;
 }
 
 function range(a: number, b: number): Int32Array {

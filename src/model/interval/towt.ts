@@ -96,7 +96,8 @@ export function selectKnots(temps: ArrayLike<number>, knots: readonly number[], 
       while (s < ks.length && temps[i]! >= ks[s]!) s++;
       counts[s]!++;
     }
-    const thin = counts.findIndex((c) => c < minPoints);
+    let thin = -1;
+    for (let s = 0; s < counts.length && thin < 0; s++) if (counts[s]! < minPoints) thin = s;
     if (thin < 0) return ks;
     ks.splice(thin === 0 ? 0 : thin - 1, 1);
   }
@@ -165,36 +166,45 @@ export function occupancyFromResiduals(data: TowtData, knotsC: readonly number[]
  * @example fitTowt(frame).predict(frame) // fitted hourly kWh
  */
 export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
+  // One object shape for the fit whatever table the columns come in (a frame, a fold's table, a
+  // month's segment): V8 then keeps fitTowtColumns' optimized code instead of discarding it at
+  // each new shape.
+  const columns: TowtData = { hourOfWeek: data.hourOfWeek, holiday: data.holiday, tempC: data.tempC, kwh: data.kwh, weights: data.weights };
+  return fitTowtColumns(columns, options);
+}
+
+function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   const knotsC = options.knotsC ?? DEFAULT_TOWT_KNOTS_C;
   const minPoints = options.minPointsPerSegment ?? 20;
   const threshold = options.occupancyThreshold ?? 0.65;
-  const n = data.kwh.length;
+  const { hourOfWeek, holiday, tempC, kwh } = data;
+  const n = kwh.length;
   if (n === 0) throw new ModelInputError("TOWT needs training rows, got none");
   let occupied: Uint8Array;
   if (options.occupancy) {
     if (options.occupancy.length !== 168) throw new ModelInputError(`occupancy needs 168 entries, got ${options.occupancy.length}`);
-    occupied = Uint8Array.from(options.occupancy, (v) => (v ? 1 : 0));
+    occupied = new Uint8Array(168);
+    for (let h = 0; h < 168; h++) occupied[h] = options.occupancy[h] ? 1 : 0;
   } else {
     occupied = occupancyFromResiduals(data, knotsC, minPoints, threshold);
   }
+  // hours of week seen, ascending, and each one's indicator column (−1 = not seen)
   const seen = new Int16Array(168).fill(-1);
+  for (let i = 0; i < n; i++) seen[hourOfWeek[i]!] = 0;
   const hoursSeen: number[] = [];
-  for (let i = 0; i < n; i++) {
-    const h = data.hourOfWeek[i]!;
-    if (seen[h] === -1) {
-      seen[h] = 0;
+  for (let h = 0; h < 168; h++) {
+    if (seen[h] === 0) {
+      seen[h] = hoursSeen.length;
       hoursSeen.push(h);
     }
   }
-  hoursSeen.sort((a, b) => a - b);
-  hoursSeen.forEach((h, j) => (seen[h] = j));
   const occTemps: number[] = [];
   const unoccTemps: number[] = [];
   let holidayOccRows = 0;
   for (let i = 0; i < n; i++) {
-    const occ = occupied[data.hourOfWeek[i]!]!;
-    (occ ? occTemps : unoccTemps).push(data.tempC[i]!);
-    if (occ && data.holiday[i]) holidayOccRows++;
+    const occ = occupied[hourOfWeek[i]!]!;
+    (occ ? occTemps : unoccTemps).push(tempC[i]!);
+    if (occ && holiday[i]) holidayOccRows++;
   }
   const knotsOcc = occTemps.length ? selectKnots(occTemps, knotsC, minPoints) : [];
   const knotsUnocc = unoccTemps.length ? selectKnots(unoccTemps, knotsC, minPoints) : [];
@@ -203,12 +213,12 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
   const useHoliday = (options.holidayTerm ?? true) && holidayOccRows >= MIN_HOLIDAY_ROWS && holidayOccRows < occTemps.length;
   const nHow = hoursSeen.length;
   const k = nHow + nOcc + nUnocc + (useHoliday ? 1 : 0);
-  const columnNames = [
-    ...hoursSeen.map((h) => `how${h}`),
-    ...Array.from({ length: nOcc }, (_, j) => `tempOcc${j}`),
-    ...Array.from({ length: nUnocc }, (_, j) => `tempUnocc${j}`),
-    ...(useHoliday ? ["holidayOccupied"] : []),
-  ];
+  // (loops, not callbacks: a callback made per fit and inlined here would cost V8 this whole function's optimized code)
+  const columnNames: string[] = [];
+  for (const h of hoursSeen) columnNames.push(`how${h}`);
+  for (let j = 0; j < nOcc; j++) columnNames.push(`tempOcc${j}`);
+  for (let j = 0; j < nUnocc; j++) columnNames.push(`tempUnocc${j}`);
+  if (useHoliday) columnNames.push("holidayOccupied");
   const row = (h: number, hol: number, t: number, howCol: number): number[] => {
     const r = new Array<number>(k).fill(0);
     if (howCol >= 0) r[howCol] = 1;
@@ -222,20 +232,11 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     }
     return r;
   };
-  // The temperature and holiday columns of one row (all but the hour-of-week indicators), written
-  // into out[off … off + k − nHow) with zeros where they do not apply; the same values as `row`.
+  // The temperature and holiday columns of one row (all but the hour-of-week indicators).
   const m = k - nHow;
   if (knotsOcc.length) components(0, knotsOcc);
   if (knotsUnocc.length) components(0, knotsUnocc);
-  const writeTail = (h: number, hol: number, t: number, out: Float64Array, off: number): void => {
-    for (let j = 0; j < m; j++) out[off + j] = 0;
-    if (occupied[h]) {
-      if (nOcc > 0) writeComponents(t, knotsOcc, out, off);
-      if (useHoliday && hol) out[off + m - 1] = 1;
-    } else if (nUnocc > 0) {
-      writeComponents(t, knotsUnocc, out, off + nOcc);
-    }
-  };
+  const tail = new TowtTail(occupied, knotsOcc, knotsUnocc, nOcc, nUnocc, useHoliday, m);
   if (n <= k) throw new ModelInputError(`TOWT needs more hours than coefficients (n=${n}, k=${k})`);
   const solver = options.solver ?? "within";
   let ols: OlsFit;
@@ -243,8 +244,8 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
   let residualStdError: number;
   let standardErrors: number[];
   if (solver === "full") {
-    const x = Array.from({ length: n }, (_, i) => row(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, seen[data.hourOfWeek[i]!]!));
-    ols = fitOls(x, data.kwh, { intercept: false, columnNames, ...(data.weights ? { weights: data.weights } : {}) });
+    const x = Array.from({ length: n }, (_, i) => row(hourOfWeek[i]!, holiday[i]!, tempC[i]!, seen[hourOfWeek[i]!]!));
+    ols = fitOls(x, kwh, { intercept: false, columnNames, ...(data.weights ? { weights: data.weights } : {}) });
     beta = ols.coefficients;
     residualStdError = ols.residualStdError;
     standardErrors = ols.standardErrors;
@@ -255,17 +256,17 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     // design, at the cost of a 13-column instead of a 180-column factorization.
     // row-major n × m, one row's columns side by side
     const xr = new Float64Array(n * m);
-    for (let i = 0; i < n; i++) writeTail(data.hourOfWeek[i]!, data.holiday[i]!, data.tempC[i]!, xr, i * m);
+    for (let i = 0; i < n; i++) tail.write(hourOfWeek[i]!, holiday[i]!, tempC[i]!, xr, i * m);
     const groupN = new Float64Array(nHow);
     const groupY = new Float64Array(nHow);
     const groupX = new Float64Array(nHow * m);
     // Weighted least squares: the same identity holds with weighted group means.
     const w = data.weights;
     for (let i = 0; i < n; i++) {
-      const g = seen[data.hourOfWeek[i]!]!;
+      const g = seen[hourOfWeek[i]!]!;
       const wi = w ? w[i]! : 1;
       groupN[g]! += wi;
-      groupY[g]! += wi * data.kwh[i]!;
+      groupY[g]! += wi * kwh[i]!;
       for (let j = 0; j < m; j++) groupX[g * m + j]! += wi * xr[i * m + j]!;
     }
     for (let g = 0; g < nHow; g++) {
@@ -276,47 +277,38 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     // demeaned columns, stored by column (no array per row)
     const xd = { rows: n, cols: m, data: new Float64Array(n * m) };
     for (let i = 0; i < n; i++) {
-      const g = seen[data.hourOfWeek[i]!]!;
-      yd[i] = data.kwh[i]! - groupY[g]!;
+      const g = seen[hourOfWeek[i]!]!;
+      yd[i] = kwh[i]! - groupY[g]!;
       for (let j = 0; j < m; j++) xd.data[j * n + i] = xr[i * m + j]! - groupX[g * m + j]!;
     }
-    const tail = columnNames.slice(nHow);
     // m ≥ 1: every row is in one mode, and each mode with rows has at least one temperature column
-    ols = fitOls(xd, yd, { intercept: false, columnNames: tail, ...(w ? { weights: w } : {}) });
-    const bTail = ols.coefficients;
-    const alpha = Array.from({ length: nHow }, (_, g) => groupY[g]! - bTail.reduce((acc, b, j) => acc + b * groupX[g * m + j]!, 0));
-    beta = [...alpha, ...bTail];
+    ols = fitOls(xd, yd, { intercept: false, columnNames: columnNames.slice(nHow), ...(w ? { weights: w } : {}) });
+    // the tail coefficients as doubles (fitOls's arrays may come in several element kinds)
+    const bTail = Float64Array.from(ols.coefficients);
+    beta = [];
+    for (let g = 0; g < nHow; g++) {
+      let fitted = 0;
+      for (let j = 0; j < bTail.length; j++) fitted = fitted + bTail[j]! * groupX[g * m + j]!;
+      beta.push(groupY[g]! - fitted);
+    }
+    for (let j = 0; j < bTail.length; j++) beta.push(bTail[j]!);
     residualStdError = Math.sqrt(ols.sse / (n - k));
     // (X̃ᵀX̃)⁻¹ of the demeaned columns is the matching block of the full (XᵀX)⁻¹ (FWL), so only the
     // residual variance needs the full design's degrees of freedom. Indicator SEs are not computed.
-    standardErrors = [...new Array<number>(nHow).fill(Number.NaN), ...bTail.map((_, j) => residualStdError * Math.sqrt(ols.unscaledCovariance[j]![j]!))];
+    standardErrors = new Array<number>(nHow).fill(Number.NaN);
+    for (let j = 0; j < bTail.length; j++) standardErrors.push(residualStdError * Math.sqrt(ols.unscaledCovariance[j]![j]!));
   }
   // Hours of week never seen in training borrow the mean indicator of their mode (or of all hours).
   const fallback = new Float64Array(2);
   for (const mode of [0, 1]) {
-    const hs = hoursSeen.filter((h) => occupied[h] === mode);
-    const src = hs.length ? hs : hoursSeen;
-    fallback[mode] = src.reduce((s, h) => s + beta[seen[h]!]!, 0) / src.length;
+    let count = 0;
+    for (const h of hoursSeen) if (occupied[h] === mode) count++;
+    const all = count === 0;
+    let s = 0;
+    for (const h of hoursSeen) if (all || occupied[h] === mode) s = s + beta[seen[h]!]!;
+    fallback[mode] = s / (all ? hoursSeen.length : count);
   }
-  /** The prediction for row i of f; `tail` is scratch space of m entries. */
-  const valueAt = (f: HourlyFeatures, i: number, tail: Float64Array): number => {
-    const h = f.hourOfWeek[i]!;
-    if (!Number.isFinite(f.tempC[i]!)) return Number.NaN; // no temperature, no prediction (callers count these hours)
-    writeTail(h, f.holiday[i]!, f.tempC[i]!, tail, 0);
-    let s = seen[h]! >= 0 ? beta[seen[h]!]! : fallback[occupied[h]!]!;
-    for (let j = 0; j < m; j++) s += tail[j]! * beta[nHow + j]!;
-    return s;
-  };
-  const predict = (f: HourlyFeatures): Float64Array => {
-    const out = new Float64Array(f.tempC.length);
-    const tail = new Float64Array(m);
-    for (let i = 0; i < out.length; i++) out[i] = valueAt(f, i, tail);
-    return out;
-  };
-  const predictRows = (f: HourlyFeatures, rows: ArrayLike<number>, out: Float64Array): void => {
-    const tail = new Float64Array(m);
-    for (let r = 0; r < rows.length; r++) out[rows[r]!] = valueAt(f, rows[r]!, tail);
-  };
+  const predictor = new TowtPredictor(tail, seen, Float64Array.from(beta), fallback, nHow);
   return {
     kind: "towt",
     parameterCount: k,
@@ -330,9 +322,77 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
     dfResidual: n - k,
     solver,
     ols,
-    predict,
-    predictRows,
+    predict: (f) => predictor.predict(f),
+    predictRows: (f, rows, out) => predictor.predictRows(f, rows, out),
   };
+}
+
+/**
+ * The temperature and holiday columns of a TOWT design row (all but the hour-of-week
+ * indicators). A class rather than closures made per fit, so V8 keeps the optimized code of
+ * `write` (called for every row of every fit and prediction) from one fit to the next.
+ */
+class TowtTail {
+  constructor(
+    /** 1 = occupied, per hour of week. */
+    readonly occupied: Uint8Array,
+    private readonly knotsOcc: readonly number[],
+    private readonly knotsUnocc: readonly number[],
+    private readonly nOcc: number,
+    private readonly nUnocc: number,
+    private readonly useHoliday: boolean,
+    /** Number of columns. */
+    readonly m: number,
+  ) {}
+
+  /** The row's columns written into out[off … off + m), zeros where they do not apply. */
+  write(h: number, hol: number, t: number, out: Float64Array, off: number): void {
+    const m = this.m;
+    for (let j = 0; j < m; j++) out[off + j] = 0;
+    if (this.occupied[h]) {
+      if (this.nOcc > 0) writeComponents(t, this.knotsOcc, out, off);
+      if (this.useHoliday && hol) out[off + m - 1] = 1;
+    } else if (this.nUnocc > 0) {
+      writeComponents(t, this.knotsUnocc, out, off + this.nOcc);
+    }
+  }
+}
+
+/** A fitted TOWT's predictions (a class for the same reason as {@link TowtTail}). */
+class TowtPredictor {
+  constructor(
+    private readonly tail: TowtTail,
+    /** Coefficient index of each hour of week's indicator, −1 when not seen in training. */
+    private readonly seen: Int16Array,
+    /** All coefficients: the nHow indicators, then the tail's. */
+    private readonly beta: Float64Array,
+    /** Indicator of an unseen hour of week, by occupancy mode (0, 1). */
+    private readonly fallback: Float64Array,
+    private readonly nHow: number,
+  ) {}
+
+  /** The prediction for row i of f; `scratch` has room for the tail's m columns. */
+  private valueAt(f: HourlyFeatures, i: number, scratch: Float64Array): number {
+    const h = f.hourOfWeek[i]!;
+    if (!Number.isFinite(f.tempC[i]!)) return Number.NaN; // no temperature, no prediction (callers count these hours)
+    const { tail, seen, beta, nHow } = this;
+    tail.write(h, f.holiday[i]!, f.tempC[i]!, scratch, 0);
+    let s = seen[h]! >= 0 ? beta[seen[h]!]! : this.fallback[tail.occupied[h]!]!;
+    for (let j = 0; j < tail.m; j++) s += scratch[j]! * beta[nHow + j]!;
+    return s;
+  }
+
+  predict(f: HourlyFeatures): Float64Array {
+    const out = new Float64Array(f.tempC.length);
+    const scratch = new Float64Array(this.tail.m);
+    for (let i = 0; i < out.length; i++) out[i] = this.valueAt(f, i, scratch);
+    return out;
+  }
+
+  predictRows(f: HourlyFeatures, rows: ArrayLike<number>, out: Float64Array): void {
+    const scratch = new Float64Array(this.tail.m);
+    for (let r = 0; r < rows.length; r++) out[rows[r]!] = this.valueAt(f, rows[r]!, scratch);
+  }
 }
 
 /** Fits per training table (keyed by its temperature array), by options. */

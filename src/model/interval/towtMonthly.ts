@@ -62,9 +62,11 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   if (!(neighbourWeight > 0 && neighbourWeight <= 1)) throw new ModelInputError(`neighbour weight must be in (0, 1], got ${neighbourWeight}`);
   // the TOWT candidate's fit on the same table, when it has been fitted already
   const overall = fitTowtOnTable(train, towtOptions);
-  const n = train.kwh.length;
+  // the columns read once (tables come in several object shapes)
+  const { month, hourOfWeek, holiday, tempC, kwh } = train;
+  const n = kwh.length;
   const monthHours = new Int32Array(13);
-  for (let i = 0; i < n; i++) monthHours[train.month[i]!]!++;
+  for (let i = 0; i < n; i++) monthHours[month[i]!]!++;
   // A fold's table lost one block of its frame's rows: a segment whose months lost none is the
   // frame's segment row for row, and its fit (or failure) is the frame's.
   const parent = kept ? frameCutFrom(train) : undefined;
@@ -81,15 +83,15 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
       model = parentSegments.fits[m]!;
     } else if (weight >= minSegmentWeight) {
       let size = 0;
-      for (let i = 0; i < n; i++) if (segmentWeight(m, train.month[i]!, neighbourWeight) > 0) size++;
+      for (let i = 0; i < n; i++) if (segmentWeight(m, month[i]!, neighbourWeight) > 0) size++;
       const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
       for (let i = 0, r = 0; i < n; i++) {
-        const wi = segmentWeight(m, train.month[i]!, neighbourWeight);
+        const wi = segmentWeight(m, month[i]!, neighbourWeight);
         if (wi > 0) {
-          seg.hourOfWeek[r] = train.hourOfWeek[i]!;
-          seg.holiday[r] = train.holiday[i]!;
-          seg.tempC[r] = train.tempC[i]!;
-          seg.kwh[r] = train.kwh[i]!;
+          seg.hourOfWeek[r] = hourOfWeek[i]!;
+          seg.holiday[r] = holiday[i]!;
+          seg.tempC[r] = tempC[i]!;
+          seg.kwh[r] = kwh[i]!;
           seg.weights[r++] = wi;
         }
       }
@@ -105,24 +107,29 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
     parameterCount = Math.max(parameterCount, (model ?? overall).parameterCount);
   }
   kept?.set(train, segments);
-  const predict = (f: HourlyFeatures): Float64Array => {
-    const n = f.tempC.length;
-    const out = new Float64Array(n);
-    // Predict with each month's model only on that month's rows (grouped by month, in row order).
-    const start = new Int32Array(14);
-    for (let i = 0; i < n; i++) {
-      const month = f.month[i]!;
-      if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
-      start[month + 1]!++;
-    }
-    for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
-    const rows = new Int32Array(n);
-    const next = start.slice(0, 13);
-    for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
-    for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
-    return out;
-  };
-  return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict };
+  return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict: (f) => predictByMonth(byMonth, f) };
+}
+
+/**
+ * Predictions of the month-segmented model: each month's model on that month's rows only.
+ * Module-level (not a closure per fit) so V8 keeps its optimized code between fits.
+ */
+function predictByMonth(byMonth: readonly TowtModel[], f: HourlyFeatures): Float64Array {
+  const n = f.tempC.length;
+  const out = new Float64Array(n);
+  // Predict with each month's model only on that month's rows (grouped by month, in row order).
+  const start = new Int32Array(14);
+  for (let i = 0; i < n; i++) {
+    const month = f.month[i]!;
+    if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
+    start[month + 1]!++;
+  }
+  for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
+  const rows = new Int32Array(n);
+  const next = start.slice(0, 13);
+  for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
+  for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
+  return out;
 }
 
 /** A table's segment fits: its hours per month (index 1 … 12) and each month's fit, null where it fell back. */
