@@ -21,6 +21,7 @@ import { meteredViewsByBill } from "../audit/index.ts";
 import { toReportInput, type BuildingResults } from "../report/index.ts";
 import { dataFileEntries } from "../report/index.ts";
 import { collectGarbage } from "../core/collectGarbage.ts";
+import { tuneCompilerForBuilds } from "../core/compilerTuning.ts";
 import { oneShot } from "../core/oneShot.ts";
 import { buildSiteModel, siteModelInParts, tenantSiteModel } from "../report/index.ts";
 import { analysedPricing, forecastWithTrackRecord, type AnalysedPricing, type ForecastBundle } from "../forecast/index.ts";
@@ -111,6 +112,7 @@ const SEVERITY_RANK = { info: 0, warning: 1, error: 2 } as const;
  */
 export async function buildPortfolioSite(options: BuildOptions): Promise<BuildResult> {
   const reporter = options.reporter ?? silentReporter;
+  tuneCompilerForBuilds();
 
   // A wrong output folder is refused before any work.
   await checkOutputFolder(options.outDir, options.dir);
@@ -372,6 +374,7 @@ export interface ShardResult {
  */
 export async function buildShard(options: ShardOptions): Promise<ShardResult> {
   const reporter = options.reporter ?? silentReporter;
+  tuneCompilerForBuilds();
   await preparePartialDir(options.partialDir);
   const scratch = scratchBeside(options.partialDir);
   try {
