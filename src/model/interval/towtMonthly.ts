@@ -12,7 +12,7 @@
  */
 import { ModelInputError } from "../errors.ts";
 import { fitTowt, fitTowtOnTable } from "./towt.ts";
-import type { TowtModel, TowtOptions } from "./towt.ts";
+import type { TowtData, TowtModel, TowtOptions } from "./towt.ts";
 import { frameCutFrom } from "./hourlyFrame.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyFrame, HourlyModelSpec } from "./types.ts";
 
@@ -65,8 +65,8 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   // the columns read once (tables come in several object shapes)
   const { month, hourOfWeek, holiday, tempC, kwh } = train;
   const n = kwh.length;
-  const monthHours = new Int32Array(13);
-  for (let i = 0; i < n; i++) monthHours[month[i]!]!++;
+  // the loops over rows are functions of their own, each optimized by V8 with complete feedback
+  const monthHours = hoursPerMonth(month, n);
   // A fold's table lost one block of its frame's rows: a segment whose months lost none is the
   // frame's segment row for row, and its fit (or failure) is the frame's.
   const parent = kept ? frameCutFrom(train) : undefined;
@@ -77,24 +77,11 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   let parameterCount = 0;
   for (let m = 1; m <= 12; m++) {
     let model: TowtModel | null = null;
-    let weight = 0;
-    for (let k = 1; k <= 12; k++) weight += segmentWeight(m, k, neighbourWeight) * monthHours[k]!;
+    const weight = segmentTotalWeight(m, neighbourWeight, monthHours);
     if (parentSegments && sameSegment(m, neighbourWeight, monthHours, parentSegments.monthHours)) {
       model = parentSegments.fits[m]!;
     } else if (weight >= minSegmentWeight) {
-      let size = 0;
-      for (let i = 0; i < n; i++) if (segmentWeight(m, month[i]!, neighbourWeight) > 0) size++;
-      const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
-      for (let i = 0, r = 0; i < n; i++) {
-        const wi = segmentWeight(m, month[i]!, neighbourWeight);
-        if (wi > 0) {
-          seg.hourOfWeek[r] = hourOfWeek[i]!;
-          seg.holiday[r] = holiday[i]!;
-          seg.tempC[r] = tempC[i]!;
-          seg.kwh[r] = kwh[i]!;
-          seg.weights[r++] = wi;
-        }
-      }
+      const seg = segmentRows(m, neighbourWeight, month, hourOfWeek, holiday, tempC, kwh);
       try {
         model = fitTowt(seg, towtOptions);
       } catch (e) {
@@ -108,6 +95,47 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   }
   kept?.set(train, segments);
   return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict: (f) => predictByMonth(byMonth, f) };
+}
+
+/** Rows per month (index 1 … 12) of rows 0 … n − 1. */
+function hoursPerMonth(month: ArrayLike<number>, n: number): Int32Array {
+  const monthHours = new Int32Array(13);
+  for (let i = 0; i < n; i++) monthHours[month[i]!]!++;
+  return monthHours;
+}
+
+/** Total weight of month m's segment, from the hours per month. */
+function segmentTotalWeight(m: number, neighbourWeight: number, monthHours: Int32Array): number {
+  let weight = 0;
+  for (let k = 1; k <= 12; k++) weight += segmentWeight(m, k, neighbourWeight) * monthHours[k]!;
+  return weight;
+}
+
+/** The rows of month m's segment (own month and neighbours), in row order, with their weights. */
+function segmentRows(
+  m: number,
+  neighbourWeight: number,
+  month: ArrayLike<number>,
+  hourOfWeek: ArrayLike<number>,
+  holiday: ArrayLike<number>,
+  tempC: ArrayLike<number>,
+  kwh: ArrayLike<number>,
+): TowtData {
+  const n = kwh.length;
+  let size = 0;
+  for (let i = 0; i < n; i++) if (segmentWeight(m, month[i]!, neighbourWeight) > 0) size++;
+  const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
+  for (let i = 0, r = 0; i < n; i++) {
+    const wi = segmentWeight(m, month[i]!, neighbourWeight);
+    if (wi > 0) {
+      seg.hourOfWeek[r] = hourOfWeek[i]!;
+      seg.holiday[r] = holiday[i]!;
+      seg.tempC[r] = tempC[i]!;
+      seg.kwh[r] = kwh[i]!;
+      seg.weights[r++] = wi;
+    }
+  }
+  return seg;
 }
 
 /**
