@@ -153,13 +153,19 @@ export function binFeatureColumns(columns: readonly ArrayLike<number>[], nTrain:
   const binned: Uint8Array[] = [];
   for (let j = 0; j < f; j++) bins.push(binCuts(columns[j]!, maxBins, nTrain));
   for (let j = 0; j < f; j++) binned.push(binColumn(bins[j]!, columns[j]!));
-  const nb2 = 2 * (maxBins + 1);
+  const rowOffsets = histogramOffsets(binned, n, 2 * (maxBins + 1));
+  return { nTrain, maxBins, bins, binned, rowOffsets };
+}
+
+/** Row-major histogram offsets of binned columns (see GbdtBinnedColumns; a function of its own for V8's optimizer). */
+function histogramOffsets(binned: Uint8Array[], n: number, nb2: number): Int32Array {
+  const f = binned.length;
   const rowOffsets = new Int32Array(n * f);
   for (let j = 0; j < f; j++) {
     const col = binned[j]!;
     for (let i = 0; i < n; i++) rowOffsets[i * f + j] = j * nb2 + 2 * col[i]!;
   }
-  return { nTrain, maxBins, bins, binned, rowOffsets };
+  return rowOffsets;
 }
 
 function binnedFor(columns: readonly ArrayLike<number>[], nTrain: number, maxBins: number, cache: GbdtBinCache | undefined): GbdtBinnedColumns {
@@ -332,8 +338,8 @@ class TreeWork {
   sameRootRows = false;
   /** Bin of the split found by findBestSplit. */
   bestBin = -1;
-  /** Gradient sum of the left part found by partitionRows. */
-  gLeft = 0;
+  /** [0]: gradient sum of the left part found by partitionRows (a typed array: a double field would change the object's map). */
+  readonly gLeft = new Float64Array(1);
   leafNode: Int32Array;
   leafStart: Int32Array;
   leafEnd: Int32Array;
@@ -549,7 +555,7 @@ function growTree(
     }
     const bestBin = work.bestBin;
     const i = partitionRows(rows, start, end, binned[bestF]!, bestBin, grad, work);
-    const gLeft = work.gLeft;
+    const gLeft = work.gLeft[0]!;
     feature[node] = bestF;
     threshold[node] = bins[bestF]!.cuts[bestBin]!;
     splitBin[node] = bestBin;
@@ -634,7 +640,7 @@ function findBestSplit(
 /**
  * Partition rows[start, end) in place: bin ≤ bestBin first; returns where the right part
  * starts. A left row is in its final place when i passes it, in position order, so the left
- * child's gradient sum (left in work.gLeft) is added here in the order its own loop would add it.
+ * child's gradient sum (left in work.gLeft[0]) is added here in the order its own loop would add it.
  */
 function partitionRows(rows: Int32Array, start: number, end: number, col: Uint8Array, bestBin: number, grad: Float64Array, work: TreeWork): number {
   let i = start;
@@ -652,7 +658,7 @@ function partitionRows(rows: Int32Array, start: number, end: number, col: Uint8A
       k--;
     }
   }
-  work.gLeft = gLeft;
+  work.gLeft[0] = gLeft;
   return i;
 }
 
