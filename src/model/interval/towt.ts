@@ -198,8 +198,9 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   // hours of week seen, ascending, and each one's indicator column (−1 = not seen)
   const seen = new Int16Array(168).fill(-1);
   const hoursSeen = indexHoursSeen(hourOfWeek, n, seen);
-  const occTemps: number[] = [];
-  const unoccTemps: number[] = [];
+  const nOccRows = occupiedRowCount(occupied, hourOfWeek, n);
+  const occTemps = new Float64Array(nOccRows);
+  const unoccTemps = new Float64Array(n - nOccRows);
   const holidayOccRows = splitTempsByMode(occupied, hourOfWeek, holiday, tempC, n, occTemps, unoccTemps);
   const knotsOcc = occTemps.length ? selectKnots(occTemps, knotsC, minPoints) : [];
   const knotsUnocc = unoccTemps.length ? selectKnots(unoccTemps, knotsC, minPoints) : [];
@@ -262,21 +263,34 @@ function indexHoursSeen(hourOfWeek: ArrayLike<number>, n: number, seen: Int16Arr
   return hoursSeen;
 }
 
-/** Temperatures of occupied and of unoccupied rows, in row order; returns the number of occupied holiday rows. */
+/** Number of rows 0 … n − 1 in occupied hours of week. */
+function occupiedRowCount(occupied: Uint8Array, hourOfWeek: ArrayLike<number>, n: number): number {
+  let count = 0;
+  for (let i = 0; i < n; i++) if (occupied[hourOfWeek[i]!]) count++;
+  return count;
+}
+
+/**
+ * Temperatures of occupied and of unoccupied rows, in row order, into arrays of the right
+ * lengths (typed arrays: one element kind whatever the temperatures); returns the number of
+ * occupied holiday rows.
+ */
 function splitTempsByMode(
   occupied: Uint8Array,
   hourOfWeek: ArrayLike<number>,
   holiday: ArrayLike<number>,
   tempC: ArrayLike<number>,
   n: number,
-  occTemps: number[],
-  unoccTemps: number[],
+  occTemps: Float64Array,
+  unoccTemps: Float64Array,
 ): number {
   let holidayOccRows = 0;
+  let o = 0;
+  let u = 0;
   for (let i = 0; i < n; i++) {
     const occ = occupied[hourOfWeek[i]!]!;
-    if (occ) occTemps.push(tempC[i]!);
-    else unoccTemps.push(tempC[i]!);
+    if (occ) occTemps[o++] = tempC[i]!;
+    else unoccTemps[u++] = tempC[i]!;
     if (occ && holiday[i]) holidayOccRows++;
   }
   return holidayOccRows;
