@@ -146,18 +146,25 @@ function predictByMonth(byMonth: readonly TowtModel[], f: HourlyFeatures): Float
   const n = f.tempC.length;
   const out = new Float64Array(n);
   // Predict with each month's model only on that month's rows (grouped by month, in row order).
+  // (the grouping is a function of its own, so V8 optimizes it and this loop separately)
   const start = new Int32Array(14);
+  const rows = rowsByMonth(f.month, n, start);
+  for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
+  return out;
+}
+
+/** Rows 0 … n − 1 grouped by month, in row order; month k's are rows[start[k] … start[k + 1]). */
+function rowsByMonth(month: ArrayLike<number>, n: number, start: Int32Array): Int32Array {
   for (let i = 0; i < n; i++) {
-    const month = f.month[i]!;
-    if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
-    start[month + 1]!++;
+    const m = month[i]!;
+    if (!(m >= 1 && m <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${m} at row ${i}`);
+    start[m + 1]!++;
   }
   for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
   const rows = new Int32Array(n);
   const next = start.slice(0, 13);
-  for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
-  for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
-  return out;
+  for (let i = 0; i < n; i++) rows[next[month[i]!]!++] = i;
+  return rows;
 }
 
 /** A table's segment fits: its hours per month (index 1 … 12) and each month's fit, null where it fell back. */
