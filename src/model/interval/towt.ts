@@ -384,7 +384,7 @@ function solveWithin(data: TowtData, tail: TowtTail, seen: Int16Array, nHow: num
   const groupX = new Float64Array(nHow * m);
   // Weighted least squares: the same identity holds with weighted group means.
   const w = data.weights;
-  groupMeans(seen, hourOfWeek, kwh, w ?? null, xr, n, m, groupN, groupY, groupX);
+  groupMeans(seen, hourOfWeek, kwh, w ?? null, xr, n, m, nHow, groupN, groupY, groupX);
   const yd = new Float64Array(n);
   // demeaned columns, stored by column (no array per row)
   const xd = { rows: n, cols: m, data: new Float64Array(n * m) };
@@ -417,6 +417,7 @@ function groupMeans(
   xr: Float64Array,
   n: number,
   m: number,
+  nHow: number,
   groupN: Float64Array,
   groupY: Float64Array,
   groupX: Float64Array,
@@ -428,7 +429,9 @@ function groupMeans(
     groupY[g]! += wi * kwh[i]!;
     for (let j = 0; j < m; j++) groupX[g * m + j]! += wi * xr[i * m + j]!;
   }
-  for (let g = 0; g < groupN.length; g++) {
+  // (nHow passed in, not read as groupN.length: V8 may optimize this function inside the first
+  // loop, before the second loop's property read has any feedback)
+  for (let g = 0; g < nHow; g++) {
     groupY[g]! /= groupN[g]!;
     for (let j = 0; j < m; j++) groupX[g * m + j]! /= groupN[g]!;
   }
