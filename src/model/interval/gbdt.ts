@@ -153,13 +153,19 @@ export function binFeatureColumns(columns: readonly ArrayLike<number>[], nTrain:
   const binned: Uint8Array[] = [];
   for (let j = 0; j < f; j++) bins.push(binCuts(columns[j]!, maxBins, nTrain));
   for (let j = 0; j < f; j++) binned.push(binColumn(bins[j]!, columns[j]!));
-  const nb2 = 2 * (maxBins + 1);
+  const rowOffsets = histogramOffsets(binned, n, 2 * (maxBins + 1));
+  return { nTrain, maxBins, bins, binned, rowOffsets };
+}
+
+/** Row-major histogram offsets of binned columns (see GbdtBinnedColumns; a function of its own for V8's optimizer). */
+function histogramOffsets(binned: Uint8Array[], n: number, nb2: number): Int32Array {
+  const f = binned.length;
   const rowOffsets = new Int32Array(n * f);
   for (let j = 0; j < f; j++) {
     const col = binned[j]!;
     for (let i = 0; i < n; i++) rowOffsets[i * f + j] = j * nb2 + 2 * col[i]!;
   }
-  return { nTrain, maxBins, bins, binned, rowOffsets };
+  return rowOffsets;
 }
 
 function binnedFor(columns: readonly ArrayLike<number>[], nTrain: number, maxBins: number, cache: GbdtBinCache | undefined): GbdtBinnedColumns {
@@ -185,8 +191,7 @@ function boost(
   const f = columns.length;
   const { bins, binned, rowOffsets } = binnedFor(columns, nTrain, o.maxBins, cache);
   const nb = o.maxBins + 1; // NaN bin included
-  let base = 0;
-  for (let i = 0; i < nTrain; i++) base += y[i]!;
+  let base = sumOf(y, nTrain);
   base /= nTrain;
   const pred = new Float64Array(n).fill(base);
   const grad = new Float64Array(nTrain);
@@ -206,18 +211,13 @@ function boost(
   work.sameRootRows = sampleSize >= nTrain;
 
   // negative gradient of ½(y − ŷ)²; after the first round it is worked out in the loss loop
-  for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!;
+  // (each phase of a round is a small function of its own: V8 optimizes each with complete
+  // feedback, instead of optimizing boost in its first loop and discarding it at the later ones)
+  residualsInto(grad, y, pred, nTrain);
   for (let t = 0; t < nTrees; t++) {
     let sample: Int32Array;
     if (sampleSize < nTrain) {
-      // partial Fisher–Yates: the first sampleSize entries become a uniform sample
-      rows.set(all);
-      for (let i = 0; i < sampleSize; i++) {
-        const j = i + Math.floor(rand() * (nTrain - i));
-        const tmp = rows[i]!;
-        rows[i] = rows[j]!;
-        rows[j] = tmp;
-      }
+      drawSample(rows, all, sampleSize, nTrain, rand);
       sample = rows.subarray(0, sampleSize);
     } else {
       rows.set(all);
@@ -227,29 +227,16 @@ function boost(
     trees.push(tree);
     // the next round's gradients: y − ŷ after this round
     if (sampleSize < nTrain) {
-      for (let i = 0; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
-      for (let i = 0; i < nTrain; i++) grad[i] = y[i]! - pred[i]!;
+      addTreeToRows(pred, tree, binned, 0, n);
+      residualsInto(grad, y, pred, nTrain);
     } else {
-      // every training row sits in exactly one leaf's range of `rows`: add that leaf's value
-      // (the same number walking the tree would find), then walk only the validation rows
-      for (let k = 0; k < work.leafCount; k++) {
-        const v = tree.value[work.leafNode[k]!]!;
-        for (let r = work.leafStart[k]!, e = work.leafEnd[k]!; r < e; r++) {
-          const i = rows[r]!;
-          const p = pred[i]! + v;
-          pred[i] = p;
-          grad[i] = y[i]! - p;
-        }
-      }
-      for (let i = nTrain; i < n; i++) pred[i]! += leafValueBinned(tree, binned, i);
+      addLeafValues(tree, work, rows, y, pred, grad);
+      addTreeToRows(pred, tree, binned, nTrain, n);
     }
     // the loss after this round, added in row order
-    let sse = 0;
-    for (let i = 0; i < nTrain; i++) sse += grad[i]! ** 2;
-    trainLoss.push(sse / nTrain);
+    trainLoss.push(sumOfSquares(grad, nTrain) / nTrain);
     if (stop && validationLoss) {
-      let v = 0;
-      for (let i = nTrain; i < n; i++) v += (y[i]! - pred[i]!) ** 2;
+      let v = validationSse(y, pred, nTrain, n);
       v /= n - nTrain;
       validationLoss.push(v);
       if (v < bestLoss) {
@@ -275,6 +262,64 @@ function boost(
   };
 }
 
+/** y[0] + … + y[n − 1], in order. */
+function sumOf(y: ArrayLike<number>, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) s += y[i]!;
+  return s;
+}
+
+/** grad[i] = y[i] − pred[i] for rows 0 … n − 1. */
+function residualsInto(grad: Float64Array, y: ArrayLike<number>, pred: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) grad[i] = y[i]! - pred[i]!;
+}
+
+/** Partial Fisher–Yates: the first sampleSize entries of rows (reset to `all`) become a uniform sample. */
+function drawSample(rows: Int32Array, all: Int32Array, sampleSize: number, nTrain: number, rand: () => number): void {
+  rows.set(all);
+  for (let i = 0; i < sampleSize; i++) {
+    const j = i + Math.floor(rand() * (nTrain - i));
+    const tmp = rows[i]!;
+    rows[i] = rows[j]!;
+    rows[j] = tmp;
+  }
+}
+
+/** The tree's value added to pred[i] for rows start … end − 1, walking the tree by bins. */
+function addTreeToRows(pred: Float64Array, tree: GbdtTree, binned: Uint8Array[], start: number, end: number): void {
+  for (let i = start; i < end; i++) pred[i]! += leafValueBinned(tree, binned, i);
+}
+
+/**
+ * Every training row sits in exactly one leaf's range of `rows`: add that leaf's value (the
+ * same number walking the tree would find) and set the row's next gradient.
+ */
+function addLeafValues(tree: GbdtTree, work: TreeWork, rows: Int32Array, y: ArrayLike<number>, pred: Float64Array, grad: Float64Array): void {
+  for (let k = 0; k < work.leafCount; k++) {
+    const v = tree.value[work.leafNode[k]!]!;
+    for (let r = work.leafStart[k]!, e = work.leafEnd[k]!; r < e; r++) {
+      const i = rows[r]!;
+      const p = pred[i]! + v;
+      pred[i] = p;
+      grad[i] = y[i]! - p;
+    }
+  }
+}
+
+/** Σ g[i]² over rows 0 … n − 1, in order. */
+function sumOfSquares(g: Float64Array, n: number): number {
+  let sse = 0;
+  for (let i = 0; i < n; i++) sse += g[i]! ** 2;
+  return sse;
+}
+
+/** Σ (y[i] − pred[i])² over rows start … end − 1, in order. */
+function validationSse(y: ArrayLike<number>, pred: Float64Array, start: number, end: number): number {
+  let v = 0;
+  for (let i = start; i < end; i++) v += (y[i]! - pred[i]!) ** 2;
+  return v;
+}
+
 /**
  * Scratch space of one boosting run, reused by every tree: a pool of histograms (one per depth
  * is enough for a depth-first walk that keeps at most one pending histogram per level, plus
@@ -291,6 +336,10 @@ class TreeWork {
    */
   rootCounts: Float64Array | null = null;
   sameRootRows = false;
+  /** Bin of the split found by findBestSplit. */
+  bestBin = -1;
+  /** [0]: gradient sum of the left part found by partitionRows (a typed array: a double field would change the object's map). */
+  readonly gLeft = new Float64Array(1);
   leafNode: Int32Array;
   leafStart: Int32Array;
   leafEnd: Int32Array;
@@ -484,7 +533,7 @@ function growTree(
     else if (!hist && splittable) {
       hist = work.take();
       gSum = node === 0 ? rootHistogram(hist, rows, grad, rowOffsets, f, work) : buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
-    } else for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
+    } else gSum = gradientSum(rows, start, end, grad);
     value[node] = (o.learningRate * gSum) / (count + o.l2Leaf);
     if (!splittable) {
       if (hist) work.give(hist);
@@ -496,53 +545,17 @@ function growTree(
       buildHistogram(hist, rows, start, end, grad, rowOffsets, f);
     }
     const parentScore = (gSum * gSum) / (count + o.l2Leaf);
-    let bestGain = 1e-12 * Math.max(parentScore, 1e-300);
-    let bestF = -1;
-    let bestBin = -1;
-    for (let j = 0; j < f; j++) {
-      const off = j * nb2;
-      const nCuts = bins[j]!.cuts.length;
-      let gl = 0;
-      let nl = 0;
-      for (let b = 0; b < nCuts; b++) {
-        gl += hist[off + 2 * b]!;
-        nl += hist[off + 2 * b + 1]!;
-        const nr = count - nl;
-        if (nl < o.minSamplesLeaf) continue;
-        if (nr < o.minSamplesLeaf) break;
-        const gr = gSum - gl;
-        const gain = (gl * gl) / (nl + o.l2Leaf) + (gr * gr) / (nr + o.l2Leaf) - parentScore;
-        if (gain > bestGain) {
-          bestGain = gain;
-          bestF = j;
-          bestBin = b;
-        }
-      }
-    }
+    // the split search, the partition and the histogram subtraction are functions of their own,
+    // so V8 optimizes each with complete feedback (not growTree inside its first loop)
+    const bestF = findBestSplit(hist, bins, nb2, count, gSum, parentScore, o, work);
     if (bestF < 0) {
       work.give(hist);
       work.addLeaf(node, start, end);
       continue;
     }
-    // partition rows[start, end) in place: bin ≤ bestBin first. A left row is in its final
-    // place when i passes it, in position order, so the left child's gradient sum is added
-    // here in the order its own loop would add it.
-    const col = binned[bestF]!;
-    let i = start;
-    let k = end - 1;
-    let gLeft = 0;
-    while (i <= k) {
-      const row = rows[i]!;
-      if (col[row]! <= bestBin) {
-        gLeft += grad[row]!;
-        i++;
-      } else {
-        const tmp = rows[i]!;
-        rows[i] = rows[k]!;
-        rows[k] = tmp;
-        k--;
-      }
-    }
+    const bestBin = work.bestBin;
+    const i = partitionRows(rows, start, end, binned[bestF]!, bestBin, grad, work);
+    const gLeft = work.gLeft[0]!;
     feature[node] = bestF;
     threshold[node] = bins[bestF]!.cuts[bestBin]!;
     splitBin[node] = bestBin;
@@ -553,15 +566,15 @@ function growTree(
     const lTask: NodeTask = { node: l, start, end: i, depth: depth + 1, hist: null, gSum: gLeft };
     const rTask: NodeTask = { node: r, start: i, end, depth: depth + 1, hist: null, gSum: null };
     if (canSplit(i - start, depth + 1, o) || canSplit(end - i, depth + 1, o)) {
-      const [small, large] = i - start <= end - i ? [lTask, rTask] : [rTask, lTask];
+      const leftSmaller = i - start <= end - i;
+      const small = leftSmaller ? lTask : rTask;
+      const large = leftSmaller ? rTask : lTask;
       const sh = work.take();
       small.gSum = buildHistogram(sh, rows, small.start, small.end, grad, rowOffsets, f);
       small.hist = sh;
       // the parent's histogram is not needed any more: reuse it for the larger child (only a
       // feature's bins 0 … cuts.length are ever filled; the rest stay 0 in both)
-      for (let j = 0; j < f; j++) {
-        for (let b = j * nb2, e = b + 2 * (bins[j]!.cuts.length + 1); b < e; b++) hist[b]! -= sh[b]!;
-      }
+      subtractHistogram(hist, sh, bins, nb2);
       large.hist = hist;
     } else work.give(hist);
     stack.push(rTask, lTask);
@@ -574,6 +587,86 @@ function growTree(
     value: Float64Array.from(value),
     splitBin: Int16Array.from(splitBin),
   };
+}
+
+/** Σ grad over rows[start, end), in row order. */
+function gradientSum(rows: Int32Array, start: number, end: number, grad: Float64Array): number {
+  let gSum = 0;
+  for (let r = start; r < end; r++) gSum += grad[rows[r]!]!;
+  return gSum;
+}
+
+/**
+ * The best split of a node from its histogram: returns its feature (−1 when no split gains)
+ * and leaves its bin in work.bestBin.
+ */
+function findBestSplit(
+  hist: Float64Array,
+  bins: FeatureBins[],
+  nb2: number,
+  count: number,
+  gSum: number,
+  parentScore: number,
+  o: ReturnType<typeof resolve>,
+  work: TreeWork,
+): number {
+  let bestGain = 1e-12 * Math.max(parentScore, 1e-300);
+  let bestF = -1;
+  let bestBin = -1;
+  for (let j = 0; j < bins.length; j++) {
+    const off = j * nb2;
+    const nCuts = bins[j]!.cuts.length;
+    let gl = 0;
+    let nl = 0;
+    for (let b = 0; b < nCuts; b++) {
+      gl += hist[off + 2 * b]!;
+      nl += hist[off + 2 * b + 1]!;
+      const nr = count - nl;
+      if (nl < o.minSamplesLeaf) continue;
+      if (nr < o.minSamplesLeaf) break;
+      const gr = gSum - gl;
+      const gain = (gl * gl) / (nl + o.l2Leaf) + (gr * gr) / (nr + o.l2Leaf) - parentScore;
+      if (gain > bestGain) {
+        bestGain = gain;
+        bestF = j;
+        bestBin = b;
+      }
+    }
+  }
+  work.bestBin = bestBin;
+  return bestF;
+}
+
+/**
+ * Partition rows[start, end) in place: bin ≤ bestBin first; returns where the right part
+ * starts. A left row is in its final place when i passes it, in position order, so the left
+ * child's gradient sum (left in work.gLeft[0]) is added here in the order its own loop would add it.
+ */
+function partitionRows(rows: Int32Array, start: number, end: number, col: Uint8Array, bestBin: number, grad: Float64Array, work: TreeWork): number {
+  let i = start;
+  let k = end - 1;
+  let gLeft = 0;
+  while (i <= k) {
+    const row = rows[i]!;
+    if (col[row]! <= bestBin) {
+      gLeft += grad[row]!;
+      i++;
+    } else {
+      const tmp = rows[i]!;
+      rows[i] = rows[k]!;
+      rows[k] = tmp;
+      k--;
+    }
+  }
+  work.gLeft[0] = gLeft;
+  return i;
+}
+
+/** hist −= sh over each feature's filled bins. */
+function subtractHistogram(hist: Float64Array, sh: Float64Array, bins: FeatureBins[], nb2: number): void {
+  for (let j = 0; j < bins.length; j++) {
+    for (let b = j * nb2, e = b + 2 * (bins[j]!.cuts.length + 1); b < e; b++) hist[b]! -= sh[b]!;
+  }
 }
 
 /**

@@ -54,12 +54,32 @@ function derivedWeather(weather: WeatherSeries, o: Required<HourlyFeatureOptions
   if (hit) return hit;
   const t = weather.tempC;
   const n = t.length;
-  const nanArray = (): Float64Array => new Float64Array(n).fill(Number.NaN);
-  const smooth = n >= o.savgolWindowHours ? savgolFilter(t, o.savgolWindowHours, o.savgolOrder) : nanArray();
-  const slope = n >= o.savgolWindowHours ? savgolFilter(t, o.savgolWindowHours, o.savgolOrder, 1, 1) : nanArray();
-  const lag = nanArray();
-  for (let i = o.lagHours; i < n; i++) lag[i] = t[i - o.lagHours]!;
-  const rolling = nanArray();
+  const smooth = n >= o.savgolWindowHours ? savgolFilter(t, o.savgolWindowHours, o.savgolOrder) : nanArray(n);
+  const slope = n >= o.savgolWindowHours ? savgolFilter(t, o.savgolWindowHours, o.savgolOrder, 1, 1) : nanArray(n);
+  const lag = laggedColumn(t, o.lagHours);
+  const rolling = trailingMean(t, o.rollingHours);
+  const out = { smooth, slope, lag, rolling };
+  perSeries.set(key, out);
+  return out;
+}
+
+/** n NaNs. (Module-level functions rather than closures per call, so V8 keeps their optimized code.) */
+function nanArray(n: number): Float64Array {
+  return new Float64Array(n).fill(Number.NaN);
+}
+
+/** t lagged by `lagHours` (NaN for the first hours). */
+function laggedColumn(t: ArrayLike<number>, lagHours: number): Float64Array {
+  const n = t.length;
+  const lag = nanArray(n);
+  for (let i = lagHours; i < n; i++) lag[i] = t[i - lagHours]!;
+  return lag;
+}
+
+/** Trailing mean of the finite values among the last `rollingHours`, where at least half are present. */
+function trailingMean(t: ArrayLike<number>, rollingHours: number): Float64Array {
+  const n = t.length;
+  const rolling = nanArray(n);
   let sum = 0;
   let count = 0;
   for (let i = 0; i < n; i++) {
@@ -67,16 +87,14 @@ function derivedWeather(weather: WeatherSeries, o: Required<HourlyFeatureOptions
       sum += t[i]!;
       count++;
     }
-    const drop = i - o.rollingHours;
+    const drop = i - rollingHours;
     if (drop >= 0 && Number.isFinite(t[drop]!)) {
       sum -= t[drop]!;
       count--;
     }
-    if (count * 2 >= o.rollingHours) rolling[i] = sum / count;
+    if (count * 2 >= rollingHours) rolling[i] = sum / count;
   }
-  const out = { smooth, slope, lag, rolling };
-  perSeries.set(key, out);
-  return out;
+  return rolling;
 }
 
 function checkOptions(options: HourlyFeatureOptions): Required<HourlyFeatureOptions> {
@@ -128,7 +146,15 @@ export function hourlyFeaturesAt(
     tempLagC: new Float64Array(n),
     tempRollingMeanC: new Float64Array(n),
   };
-  let fallbacks = 0;
+  // the calendar and the temperatures in two loops of their own (each optimized on its own)
+  calendarColumns(f, hourStartMs, zone);
+  const fallbacks = temperatureColumns(f, hourStartMs, weather.startMs, weather.tempC, d);
+  return { features: f, derivedFallbacks: fallbacks };
+}
+
+/** Local hour of week, holiday flag, day of year and month of each hour start. */
+function calendarColumns(f: HourlyFeatures, hourStartMs: ArrayLike<number>, zone: string): void {
+  const n = hourStartMs.length;
   let lastDayNum = Number.NaN;
   let day: LocalDay | null = null;
   let lastHoliday = 0;
@@ -136,13 +162,7 @@ export function hourlyFeaturesAt(
     const ms = hourStartMs[r]!;
     // The local clock once per hour, the calendar (and the holiday lookup) once per local day:
     // the numbers hourOfWeek and localPartsOf give, without their date string every hour.
-    let local: number;
-    try {
-      if (!Number.isFinite(ms)) hourOfWeek(ms, zone); // throws its RangeError
-      local = localMs(ms, zone);
-    } catch (e) {
-      throw new ModelInputError((e as Error).message);
-    }
+    const local = localMsOrThrow(ms, zone);
     const dayNum = Math.floor(local / DAY_MS);
     if (dayNum !== lastDayNum || day === null) {
       lastDayNum = dayNum;
@@ -153,8 +173,30 @@ export function hourlyFeaturesAt(
     f.holiday[r] = lastHoliday;
     f.dayOfYear[r] = day.dayOfYear;
     f.month[r] = day.month;
-    const i = Math.round((ms - weather.startMs) / HOUR_MS);
-    const t = i >= 0 && i < weather.tempC.length ? weather.tempC[i]! : Number.NaN;
+  }
+}
+
+/** localMs, its errors as ModelInputError (a function of its own: no try/catch in the hot loop). */
+function localMsOrThrow(ms: number, zone: string): number {
+  try {
+    if (!Number.isFinite(ms)) hourOfWeek(ms, zone); // throws its RangeError
+    return localMs(ms, zone);
+  } catch (e) {
+    throw new ModelInputError((e as Error).message);
+  }
+}
+
+/**
+ * Temperature and derived temperatures of each hour start (see hourlyFeaturesAt); returns the
+ * number of rows whose derived values fell back.
+ */
+function temperatureColumns(f: HourlyFeatures, hourStartMs: ArrayLike<number>, gridStartMs: number, tempC: ArrayLike<number>, d: DerivedWeather): number {
+  const n = hourStartMs.length;
+  let fallbacks = 0;
+  for (let r = 0; r < n; r++) {
+    const ms = hourStartMs[r]!;
+    const i = Math.round((ms - gridStartMs) / HOUR_MS);
+    const t = i >= 0 && i < tempC.length ? tempC[i]! : Number.NaN;
     f.tempC[r] = t;
     if (!Number.isFinite(t)) {
       f.tempSmoothC[r] = f.tempSlopeCPerHour[r] = f.tempLagC[r] = f.tempRollingMeanC[r] = Number.NaN;
@@ -171,7 +213,7 @@ export function hourlyFeaturesAt(
     f.tempLagC[r] = Number.isFinite(lg) ? lg : t;
     f.tempRollingMeanC[r] = Number.isFinite(rm) ? rm : t;
   }
-  return { features: f, derivedFallbacks: fallbacks };
+  return fallbacks;
 }
 
 /**

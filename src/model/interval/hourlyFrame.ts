@@ -57,38 +57,80 @@ export function hourlyFrame(
   const count = new Uint16Array(hours);
   const masked = new Uint8Array(hours);
   const bad = new Uint8Array(hours);
+  // each long loop is a small function of its own, so V8 optimizes each with complete feedback
+  // instead of optimizing hourlyFrame inside its first loop and discarding it at the next
+  sumIntoHours(series.startMs, series.values, mask, multiplier, firstHour, sum, count, masked, bad);
+  const candidates = candidateHours(accounting.excluded, count, masked, bad, perHour, firstHour);
+  const table = hourlyFeaturesAt(weather, zone, candidates, options);
+  const keep = rowsWithTemperature(table.features.tempC, candidates.length);
+  accounting.excluded.noWeather += candidates.length - keep.length;
+  const features = selectFeatureRows(table.features, keep);
+  const kwh = new Float64Array(keep.length);
+  accounting.intervalsUsed += targetOfRows(features.hourStartMs, firstHour, sum, count, kwh);
+  accounting.hoursUsed = keep.length;
+  // hourlyFeaturesAt counts fallbacks only on hours with a temperature, i.e. exactly the kept ones.
+  accounting.derivedFeatureFallbacks = table.derivedFallbacks;
+  return frameOf(features, kwh, accounting);
+}
+
+/** Interval values summed into their UTC hours (with counts and masked / non-finite flags per hour). */
+function sumIntoHours(
+  startMs: ArrayLike<number>,
+  values: ArrayLike<number>,
+  mask: Uint8Array | null,
+  multiplier: number,
+  firstHour: number,
+  sum: Float64Array,
+  count: Uint16Array,
+  masked: Uint8Array,
+  bad: Uint8Array,
+): void {
+  const n = values.length;
   for (let i = 0; i < n; i++) {
-    const h = Math.floor((series.startMs[i]! - firstHour) / HOUR_MS);
-    const v = series.values[i]!;
+    const h = Math.floor((startMs[i]! - firstHour) / HOUR_MS);
+    const v = values[i]!;
     count[h]!++;
     if (mask && mask[i]) masked[h] = 1;
     else if (!Number.isFinite(v)) bad[h] = 1;
     else sum[h]! += v * multiplier;
   }
+}
+
+/** Start of each complete, unmasked, finite hour; the others counted in `excluded` by reason. */
+function candidateHours(
+  excluded: HourlyAccounting["excluded"],
+  count: Uint16Array,
+  masked: Uint8Array,
+  bad: Uint8Array,
+  perHour: number,
+  firstHour: number,
+): number[] {
   const candidates: number[] = [];
-  for (let h = 0; h < hours; h++) {
-    if (masked[h]) accounting.excluded.masked++;
-    else if (bad[h]) accounting.excluded.nonFinite++;
-    else if (count[h]! < perHour) accounting.excluded.incomplete++;
+  for (let h = 0; h < count.length; h++) {
+    if (masked[h]) excluded.masked++;
+    else if (bad[h]) excluded.nonFinite++;
+    else if (count[h]! < perHour) excluded.incomplete++;
     else candidates.push(firstHour + h * HOUR_MS);
   }
-  const table = hourlyFeaturesAt(weather, zone, candidates, options);
+  return candidates;
+}
+
+/** Rows 0 … n − 1 whose temperature is finite. */
+function rowsWithTemperature(tempC: Float64Array, n: number): number[] {
   const keep: number[] = [];
-  for (let r = 0; r < candidates.length; r++) {
-    if (Number.isFinite(table.features.tempC[r]!)) keep.push(r);
-    else accounting.excluded.noWeather++;
-  }
-  const features = selectFeatureRows(table.features, keep);
-  const kwh = new Float64Array(keep.length);
-  for (let r = 0; r < keep.length; r++) {
-    const h = Math.round((features.hourStartMs[r]! - firstHour) / HOUR_MS);
+  for (let r = 0; r < n; r++) if (Number.isFinite(tempC[r]!)) keep.push(r);
+  return keep;
+}
+
+/** Each kept hour's summed energy written into kwh; returns the number of intervals in those hours. */
+function targetOfRows(hourStartMs: Float64Array, firstHour: number, sum: Float64Array, count: Uint16Array, kwh: Float64Array): number {
+  let used = 0;
+  for (let r = 0; r < kwh.length; r++) {
+    const h = Math.round((hourStartMs[r]! - firstHour) / HOUR_MS);
     kwh[r] = sum[h]!;
-    accounting.intervalsUsed += count[h]!;
+    used += count[h]!;
   }
-  accounting.hoursUsed = keep.length;
-  // hourlyFeaturesAt counts fallbacks only on hours with a temperature, i.e. exactly the kept ones.
-  accounting.derivedFeatureFallbacks = table.derivedFallbacks;
-  return frameOf(features, kwh, accounting);
+  return used;
 }
 
 /**

@@ -136,21 +136,32 @@ export function occupancyFromResiduals(data: TowtData, knotsC: readonly number[]
   const c = knots.length === 0 ? 1 : knots.length + 1;
   if (knots.length) components(0, knots);
   const x = { rows: n, cols: c, data: new Float64Array(n * c) };
-  const row = new Float64Array(c);
-  for (let i = 0; i < n; i++) {
-    writeComponents(data.tempC[i]!, knots, row, 0);
-    for (let j = 0; j < c; j++) x.data[j * n + i] = row[j]!;
-  }
+  // the loops are functions of their own, each optimized by V8 with complete feedback
+  temperatureDesign(data.tempC, knots, n, c, x.data);
   const w = data.weights;
   const fit = fitOls(x, data.kwh, w ? { weights: w } : {});
+  return occupancyFromShares(data.hourOfWeek, fit.residuals, w ?? null, data.kwh.length, threshold);
+}
+
+/** Temperature components of rows 0 … n − 1, stored by column (c columns). */
+function temperatureDesign(tempC: ArrayLike<number>, knots: number[], n: number, c: number, out: Float64Array): void {
+  const row = new Float64Array(c);
+  for (let i = 0; i < n; i++) {
+    writeComponents(tempC[i]!, knots, row, 0);
+    for (let j = 0; j < c; j++) out[j * n + i] = row[j]!;
+  }
+}
+
+/** 1 for each hour of week whose (weighted) share of positive residuals exceeds the threshold. */
+function occupancyFromShares(hourOfWeek: ArrayLike<number>, residuals: ArrayLike<number>, w: ArrayLike<number> | null, n: number, threshold: number): Uint8Array {
   // With weights, the share of positive residuals is a weighted share.
   const pos = new Float64Array(168);
   const all = new Float64Array(168);
-  for (let i = 0; i < data.kwh.length; i++) {
-    const h = data.hourOfWeek[i]!;
+  for (let i = 0; i < n; i++) {
+    const h = hourOfWeek[i]!;
     const wi = w ? w[i]! : 1;
     all[h]! += wi;
-    if (fit.residuals[i]! > 0) pos[h]! += wi;
+    if (residuals[i]! > 0) pos[h]! += wi;
   }
   const occ = new Uint8Array(168);
   for (let h = 0; h < 168; h++) occ[h] = all[h]! > 0 && pos[h]! / all[h]! > threshold ? 1 : 0;
@@ -173,6 +184,9 @@ export function fitTowt(data: TowtData, options: TowtOptions = {}): TowtModel {
   return fitTowtColumns(columns, options);
 }
 
+// fitTowtColumns keeps only the steps; each long loop is a module-level function of its own, so
+// V8 optimizes each with complete feedback (a big function optimized inside its first loop is
+// discarded when it reaches the later ones, and compiled again).
 function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   const knotsC = options.knotsC ?? DEFAULT_TOWT_KNOTS_C;
   const minPoints = options.minPointsPerSegment ?? 20;
@@ -180,32 +194,14 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   const { hourOfWeek, holiday, tempC, kwh } = data;
   const n = kwh.length;
   if (n === 0) throw new ModelInputError("TOWT needs training rows, got none");
-  let occupied: Uint8Array;
-  if (options.occupancy) {
-    if (options.occupancy.length !== 168) throw new ModelInputError(`occupancy needs 168 entries, got ${options.occupancy.length}`);
-    occupied = new Uint8Array(168);
-    for (let h = 0; h < 168; h++) occupied[h] = options.occupancy[h] ? 1 : 0;
-  } else {
-    occupied = occupancyFromResiduals(data, knotsC, minPoints, threshold);
-  }
+  const occupied = options.occupancy ? fixedOccupancy(options.occupancy) : occupancyFromResiduals(data, knotsC, minPoints, threshold);
   // hours of week seen, ascending, and each one's indicator column (−1 = not seen)
   const seen = new Int16Array(168).fill(-1);
-  for (let i = 0; i < n; i++) seen[hourOfWeek[i]!] = 0;
-  const hoursSeen: number[] = [];
-  for (let h = 0; h < 168; h++) {
-    if (seen[h] === 0) {
-      seen[h] = hoursSeen.length;
-      hoursSeen.push(h);
-    }
-  }
-  const occTemps: number[] = [];
-  const unoccTemps: number[] = [];
-  let holidayOccRows = 0;
-  for (let i = 0; i < n; i++) {
-    const occ = occupied[hourOfWeek[i]!]!;
-    (occ ? occTemps : unoccTemps).push(tempC[i]!);
-    if (occ && holiday[i]) holidayOccRows++;
-  }
+  const hoursSeen = indexHoursSeen(hourOfWeek, n, seen);
+  const nOccRows = occupiedRowCount(occupied, hourOfWeek, n);
+  const occTemps = new Float64Array(nOccRows);
+  const unoccTemps = new Float64Array(n - nOccRows);
+  const holidayOccRows = splitTempsByMode(occupied, hourOfWeek, holiday, tempC, n, occTemps, unoccTemps);
   const knotsOcc = occTemps.length ? selectKnots(occTemps, knotsC, minPoints) : [];
   const knotsUnocc = unoccTemps.length ? selectKnots(unoccTemps, knotsC, minPoints) : [];
   const nOcc = occTemps.length ? knotsOcc.length + 1 : 0;
@@ -213,25 +209,7 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   const useHoliday = (options.holidayTerm ?? true) && holidayOccRows >= MIN_HOLIDAY_ROWS && holidayOccRows < occTemps.length;
   const nHow = hoursSeen.length;
   const k = nHow + nOcc + nUnocc + (useHoliday ? 1 : 0);
-  // (loops, not callbacks: a callback made per fit and inlined here would cost V8 this whole function's optimized code)
-  const columnNames: string[] = [];
-  for (const h of hoursSeen) columnNames.push(`how${h}`);
-  for (let j = 0; j < nOcc; j++) columnNames.push(`tempOcc${j}`);
-  for (let j = 0; j < nUnocc; j++) columnNames.push(`tempUnocc${j}`);
-  if (useHoliday) columnNames.push("holidayOccupied");
-  const row = (h: number, hol: number, t: number, howCol: number): number[] => {
-    const r = new Array<number>(k).fill(0);
-    if (howCol >= 0) r[howCol] = 1;
-    if (occupied[h]) {
-      const c = components(t, knotsOcc);
-      for (let j = 0; j < nOcc; j++) r[nHow + j] = c[j]!;
-      if (useHoliday && hol) r[k - 1] = 1;
-    } else if (nUnocc > 0) {
-      const c = components(t, knotsUnocc);
-      for (let j = 0; j < nUnocc; j++) r[nHow + nOcc + j] = c[j]!;
-    }
-    return r;
-  };
+  const columnNames = towtColumnNames(hoursSeen, nOcc, nUnocc, useHoliday);
   // The temperature and holiday columns of one row (all but the hour-of-week indicators).
   const m = k - nHow;
   if (knotsOcc.length) components(0, knotsOcc);
@@ -239,75 +217,12 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   const tail = new TowtTail(occupied, knotsOcc, knotsUnocc, nOcc, nUnocc, useHoliday, m);
   if (n <= k) throw new ModelInputError(`TOWT needs more hours than coefficients (n=${n}, k=${k})`);
   const solver = options.solver ?? "within";
-  let ols: OlsFit;
-  let beta: number[];
-  let residualStdError: number;
-  let standardErrors: number[];
-  if (solver === "full") {
-    const x = Array.from({ length: n }, (_, i) => row(hourOfWeek[i]!, holiday[i]!, tempC[i]!, seen[hourOfWeek[i]!]!));
-    ols = fitOls(x, kwh, { intercept: false, columnNames, ...(data.weights ? { weights: data.weights } : {}) });
-    beta = ols.coefficients;
-    residualStdError = ols.residualStdError;
-    standardErrors = ols.standardErrors;
-  } else {
-    // Frisch–Waugh–Lovell: with one indicator per hour of week, regressing on the indicators is
-    // subtracting each hour-of-week group's mean. Fit the other columns on the demeaned data,
-    // then each indicator is its group's mean of y − Xβ. Same β and residuals as the full
-    // design, at the cost of a 13-column instead of a 180-column factorization.
-    // row-major n × m, one row's columns side by side
-    const xr = new Float64Array(n * m);
-    for (let i = 0; i < n; i++) tail.write(hourOfWeek[i]!, holiday[i]!, tempC[i]!, xr, i * m);
-    const groupN = new Float64Array(nHow);
-    const groupY = new Float64Array(nHow);
-    const groupX = new Float64Array(nHow * m);
-    // Weighted least squares: the same identity holds with weighted group means.
-    const w = data.weights;
-    for (let i = 0; i < n; i++) {
-      const g = seen[hourOfWeek[i]!]!;
-      const wi = w ? w[i]! : 1;
-      groupN[g]! += wi;
-      groupY[g]! += wi * kwh[i]!;
-      for (let j = 0; j < m; j++) groupX[g * m + j]! += wi * xr[i * m + j]!;
-    }
-    for (let g = 0; g < nHow; g++) {
-      groupY[g]! /= groupN[g]!;
-      for (let j = 0; j < m; j++) groupX[g * m + j]! /= groupN[g]!;
-    }
-    const yd = new Float64Array(n);
-    // demeaned columns, stored by column (no array per row)
-    const xd = { rows: n, cols: m, data: new Float64Array(n * m) };
-    for (let i = 0; i < n; i++) {
-      const g = seen[hourOfWeek[i]!]!;
-      yd[i] = kwh[i]! - groupY[g]!;
-      for (let j = 0; j < m; j++) xd.data[j * n + i] = xr[i * m + j]! - groupX[g * m + j]!;
-    }
-    // m ≥ 1: every row is in one mode, and each mode with rows has at least one temperature column
-    ols = fitOls(xd, yd, { intercept: false, columnNames: columnNames.slice(nHow), ...(w ? { weights: w } : {}) });
-    // the tail coefficients as doubles (fitOls's arrays may come in several element kinds)
-    const bTail = Float64Array.from(ols.coefficients);
-    beta = [];
-    for (let g = 0; g < nHow; g++) {
-      let fitted = 0;
-      for (let j = 0; j < bTail.length; j++) fitted = fitted + bTail[j]! * groupX[g * m + j]!;
-      beta.push(groupY[g]! - fitted);
-    }
-    for (let j = 0; j < bTail.length; j++) beta.push(bTail[j]!);
-    residualStdError = Math.sqrt(ols.sse / (n - k));
-    // (X̃ᵀX̃)⁻¹ of the demeaned columns is the matching block of the full (XᵀX)⁻¹ (FWL), so only the
-    // residual variance needs the full design's degrees of freedom. Indicator SEs are not computed.
-    standardErrors = new Array<number>(nHow).fill(Number.NaN);
-    for (let j = 0; j < bTail.length; j++) standardErrors.push(residualStdError * Math.sqrt(ols.unscaledCovariance[j]![j]!));
-  }
-  // Hours of week never seen in training borrow the mean indicator of their mode (or of all hours).
-  const fallback = new Float64Array(2);
-  for (const mode of [0, 1]) {
-    let count = 0;
-    for (const h of hoursSeen) if (occupied[h] === mode) count++;
-    const all = count === 0;
-    let s = 0;
-    for (const h of hoursSeen) if (all || occupied[h] === mode) s = s + beta[seen[h]!]!;
-    fallback[mode] = s / (all ? hoursSeen.length : count);
-  }
+  const sol =
+    solver === "full"
+      ? solveFull(data, occupied, seen, knotsOcc, knotsUnocc, nHow, nOcc, nUnocc, useHoliday, k, columnNames)
+      : solveWithin(data, tail, seen, nHow, m, k, columnNames);
+  const { ols, beta, residualStdError, standardErrors } = sol;
+  const fallback = unseenHourFallback(hoursSeen, occupied, seen, beta);
   const predictor = new TowtPredictor(tail, seen, Float64Array.from(beta), fallback, nHow);
   return {
     kind: "towt",
@@ -325,6 +240,247 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
     predict: (f) => predictor.predict(f),
     predictRows: (f, rows, out) => predictor.predictRows(f, rows, out),
   };
+}
+
+/** A given occupancy (168 entries) as 0/1. */
+function fixedOccupancy(occupancy: ArrayLike<number>): Uint8Array {
+  if (occupancy.length !== 168) throw new ModelInputError(`occupancy needs 168 entries, got ${occupancy.length}`);
+  const occupied = new Uint8Array(168);
+  for (let h = 0; h < 168; h++) occupied[h] = occupancy[h] ? 1 : 0;
+  return occupied;
+}
+
+/** Hours of week present in rows 0 … n − 1, ascending; `seen` (all −1) gets each one's index among them. */
+function indexHoursSeen(hourOfWeek: ArrayLike<number>, n: number, seen: Int16Array): number[] {
+  for (let i = 0; i < n; i++) seen[hourOfWeek[i]!] = 0;
+  const hoursSeen: number[] = [];
+  for (let h = 0; h < 168; h++) {
+    if (seen[h] === 0) {
+      seen[h] = hoursSeen.length;
+      hoursSeen.push(h);
+    }
+  }
+  return hoursSeen;
+}
+
+/** Number of rows 0 … n − 1 in occupied hours of week. */
+function occupiedRowCount(occupied: Uint8Array, hourOfWeek: ArrayLike<number>, n: number): number {
+  let count = 0;
+  for (let i = 0; i < n; i++) if (occupied[hourOfWeek[i]!]) count++;
+  return count;
+}
+
+/**
+ * Temperatures of occupied and of unoccupied rows, in row order, into arrays of the right
+ * lengths (typed arrays: one element kind whatever the temperatures); returns the number of
+ * occupied holiday rows.
+ */
+function splitTempsByMode(
+  occupied: Uint8Array,
+  hourOfWeek: ArrayLike<number>,
+  holiday: ArrayLike<number>,
+  tempC: ArrayLike<number>,
+  n: number,
+  occTemps: Float64Array,
+  unoccTemps: Float64Array,
+): number {
+  let holidayOccRows = 0;
+  let o = 0;
+  let u = 0;
+  for (let i = 0; i < n; i++) {
+    const occ = occupied[hourOfWeek[i]!]!;
+    if (occ) occTemps[o++] = tempC[i]!;
+    else unoccTemps[u++] = tempC[i]!;
+    if (occ && holiday[i]) holidayOccRows++;
+  }
+  return holidayOccRows;
+}
+
+/** Names of the design columns, in coefficient order. */
+function towtColumnNames(hoursSeen: readonly number[], nOcc: number, nUnocc: number, useHoliday: boolean): string[] {
+  // (loops, not callbacks made per fit)
+  const columnNames: string[] = [];
+  for (const h of hoursSeen) columnNames.push(`how${h}`);
+  for (let j = 0; j < nOcc; j++) columnNames.push(`tempOcc${j}`);
+  for (let j = 0; j < nUnocc; j++) columnNames.push(`tempUnocc${j}`);
+  if (useHoliday) columnNames.push("holidayOccupied");
+  return columnNames;
+}
+
+/** The least-squares solution of a TOWT design, as fitTowtColumns uses it. */
+interface TowtSolution {
+  ols: OlsFit;
+  beta: number[];
+  residualStdError: number;
+  standardErrors: number[];
+}
+
+/** One row of the full design (hour-of-week indicators, temperature components, holiday term). */
+function fullDesignRow(
+  k: number,
+  occupied: Uint8Array,
+  knotsOcc: number[],
+  knotsUnocc: number[],
+  nHow: number,
+  nOcc: number,
+  nUnocc: number,
+  useHoliday: boolean,
+  h: number,
+  hol: number,
+  t: number,
+  howCol: number,
+): number[] {
+  const r = new Array<number>(k).fill(0);
+  if (howCol >= 0) r[howCol] = 1;
+  if (occupied[h]) {
+    const c = components(t, knotsOcc);
+    for (let j = 0; j < nOcc; j++) r[nHow + j] = c[j]!;
+    if (useHoliday && hol) r[k - 1] = 1;
+  } else if (nUnocc > 0) {
+    const c = components(t, knotsUnocc);
+    for (let j = 0; j < nUnocc; j++) r[nHow + nOcc + j] = c[j]!;
+  }
+  return r;
+}
+
+/** fitOls on the whole design ("full" solver). */
+function solveFull(
+  data: TowtData,
+  occupied: Uint8Array,
+  seen: Int16Array,
+  knotsOcc: number[],
+  knotsUnocc: number[],
+  nHow: number,
+  nOcc: number,
+  nUnocc: number,
+  useHoliday: boolean,
+  k: number,
+  columnNames: string[],
+): TowtSolution {
+  const { hourOfWeek, holiday, tempC, kwh } = data;
+  const n = kwh.length;
+  const x: number[][] = [];
+  for (let i = 0; i < n; i++) {
+    x.push(fullDesignRow(k, occupied, knotsOcc, knotsUnocc, nHow, nOcc, nUnocc, useHoliday, hourOfWeek[i]!, holiday[i]!, tempC[i]!, seen[hourOfWeek[i]!]!));
+  }
+  const ols = fitOls(x, kwh, { intercept: false, columnNames, ...(data.weights ? { weights: data.weights } : {}) });
+  return { ols, beta: ols.coefficients, residualStdError: ols.residualStdError, standardErrors: ols.standardErrors };
+}
+
+/**
+ * Frisch–Waugh–Lovell: with one indicator per hour of week, regressing on the indicators is
+ * subtracting each hour-of-week group's mean. Fit the other columns on the demeaned data,
+ * then each indicator is its group's mean of y − Xβ. Same β and residuals as the full
+ * design, at the cost of a 13-column instead of a 180-column factorization.
+ */
+function solveWithin(data: TowtData, tail: TowtTail, seen: Int16Array, nHow: number, m: number, k: number, columnNames: string[]): TowtSolution {
+  const { hourOfWeek, holiday, tempC, kwh } = data;
+  const n = kwh.length;
+  // row-major n × m, one row's columns side by side
+  const xr = new Float64Array(n * m);
+  writeTailRows(tail, hourOfWeek, holiday, tempC, n, xr);
+  const groupN = new Float64Array(nHow);
+  const groupY = new Float64Array(nHow);
+  const groupX = new Float64Array(nHow * m);
+  // Weighted least squares: the same identity holds with weighted group means.
+  const w = data.weights;
+  groupMeans(seen, hourOfWeek, kwh, w ?? null, xr, n, m, nHow, groupN, groupY, groupX);
+  const yd = new Float64Array(n);
+  // demeaned columns, stored by column (no array per row)
+  const xd = { rows: n, cols: m, data: new Float64Array(n * m) };
+  demean(seen, hourOfWeek, kwh, xr, groupY, groupX, n, m, yd, xd.data);
+  // m ≥ 1: every row is in one mode, and each mode with rows has at least one temperature column
+  const ols = fitOls(xd, yd, { intercept: false, columnNames: columnNames.slice(nHow), ...(w ? { weights: w } : {}) });
+  // the tail coefficients as doubles (fitOls's arrays may come in several element kinds)
+  const bTail = Float64Array.from(ols.coefficients);
+  const beta = withinCoefficients(bTail, groupY, groupX, nHow, m);
+  const residualStdError = Math.sqrt(ols.sse / (n - k));
+  // (X̃ᵀX̃)⁻¹ of the demeaned columns is the matching block of the full (XᵀX)⁻¹ (FWL), so only the
+  // residual variance needs the full design's degrees of freedom. Indicator SEs are not computed.
+  const standardErrors = new Array<number>(nHow).fill(Number.NaN);
+  for (let j = 0; j < bTail.length; j++) standardErrors.push(residualStdError * Math.sqrt(ols.unscaledCovariance[j]![j]!));
+  return { ols, beta, residualStdError, standardErrors };
+}
+
+/** The tail columns of rows 0 … n − 1, row-major into xr. */
+function writeTailRows(tail: TowtTail, hourOfWeek: ArrayLike<number>, holiday: ArrayLike<number>, tempC: ArrayLike<number>, n: number, xr: Float64Array): void {
+  const m = tail.m;
+  for (let i = 0; i < n; i++) tail.write(hourOfWeek[i]!, holiday[i]!, tempC[i]!, xr, i * m);
+}
+
+/** (Weighted) means of y and of each tail column per hour-of-week group. */
+function groupMeans(
+  seen: Int16Array,
+  hourOfWeek: ArrayLike<number>,
+  kwh: ArrayLike<number>,
+  w: ArrayLike<number> | null,
+  xr: Float64Array,
+  n: number,
+  m: number,
+  nHow: number,
+  groupN: Float64Array,
+  groupY: Float64Array,
+  groupX: Float64Array,
+): void {
+  for (let i = 0; i < n; i++) {
+    const g = seen[hourOfWeek[i]!]!;
+    const wi = w ? w[i]! : 1;
+    groupN[g]! += wi;
+    groupY[g]! += wi * kwh[i]!;
+    for (let j = 0; j < m; j++) groupX[g * m + j]! += wi * xr[i * m + j]!;
+  }
+  // (nHow passed in, not read as groupN.length: V8 may optimize this function inside the first
+  // loop, before the second loop's property read has any feedback)
+  for (let g = 0; g < nHow; g++) {
+    groupY[g]! /= groupN[g]!;
+    for (let j = 0; j < m; j++) groupX[g * m + j]! /= groupN[g]!;
+  }
+}
+
+/** y and the tail columns minus their group means (columns stored by column in xd). */
+function demean(
+  seen: Int16Array,
+  hourOfWeek: ArrayLike<number>,
+  kwh: ArrayLike<number>,
+  xr: Float64Array,
+  groupY: Float64Array,
+  groupX: Float64Array,
+  n: number,
+  m: number,
+  yd: Float64Array,
+  xd: Float64Array,
+): void {
+  for (let i = 0; i < n; i++) {
+    const g = seen[hourOfWeek[i]!]!;
+    yd[i] = kwh[i]! - groupY[g]!;
+    for (let j = 0; j < m; j++) xd[j * n + i] = xr[i * m + j]! - groupX[g * m + j]!;
+  }
+}
+
+/** All coefficients: each indicator (its group's mean of y − Xβ), then the tail's. */
+function withinCoefficients(bTail: Float64Array, groupY: Float64Array, groupX: Float64Array, nHow: number, m: number): number[] {
+  const beta: number[] = [];
+  for (let g = 0; g < nHow; g++) {
+    let fitted = 0;
+    for (let j = 0; j < bTail.length; j++) fitted = fitted + bTail[j]! * groupX[g * m + j]!;
+    beta.push(groupY[g]! - fitted);
+  }
+  for (let j = 0; j < bTail.length; j++) beta.push(bTail[j]!);
+  return beta;
+}
+
+/** Hours of week never seen in training borrow the mean indicator of their mode (or of all hours). */
+function unseenHourFallback(hoursSeen: readonly number[], occupied: Uint8Array, seen: Int16Array, beta: readonly number[]): Float64Array {
+  const fallback = new Float64Array(2);
+  for (let mode = 0; mode <= 1; mode++) {
+    let count = 0;
+    for (const h of hoursSeen) if (occupied[h] === mode) count++;
+    const all = count === 0;
+    let s = 0;
+    for (const h of hoursSeen) if (all || occupied[h] === mode) s = s + beta[seen[h]!]!;
+    fallback[mode] = s / (all ? hoursSeen.length : count);
+  }
+  return fallback;
 }
 
 /**

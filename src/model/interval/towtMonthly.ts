@@ -12,7 +12,7 @@
  */
 import { ModelInputError } from "../errors.ts";
 import { fitTowt, fitTowtOnTable } from "./towt.ts";
-import type { TowtModel, TowtOptions } from "./towt.ts";
+import type { TowtData, TowtModel, TowtOptions } from "./towt.ts";
 import { frameCutFrom } from "./hourlyFrame.ts";
 import type { FittedHourlyModel, HourlyFeatures, HourlyFrame, HourlyModelSpec } from "./types.ts";
 
@@ -65,8 +65,8 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   // the columns read once (tables come in several object shapes)
   const { month, hourOfWeek, holiday, tempC, kwh } = train;
   const n = kwh.length;
-  const monthHours = new Int32Array(13);
-  for (let i = 0; i < n; i++) monthHours[month[i]!]!++;
+  // the loops over rows are functions of their own, each optimized by V8 with complete feedback
+  const monthHours = hoursPerMonth(month, n);
   // A fold's table lost one block of its frame's rows: a segment whose months lost none is the
   // frame's segment row for row, and its fit (or failure) is the frame's.
   const parent = kept ? frameCutFrom(train) : undefined;
@@ -77,24 +77,11 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   let parameterCount = 0;
   for (let m = 1; m <= 12; m++) {
     let model: TowtModel | null = null;
-    let weight = 0;
-    for (let k = 1; k <= 12; k++) weight += segmentWeight(m, k, neighbourWeight) * monthHours[k]!;
+    const weight = segmentTotalWeight(m, neighbourWeight, monthHours);
     if (parentSegments && sameSegment(m, neighbourWeight, monthHours, parentSegments.monthHours)) {
       model = parentSegments.fits[m]!;
     } else if (weight >= minSegmentWeight) {
-      let size = 0;
-      for (let i = 0; i < n; i++) if (segmentWeight(m, month[i]!, neighbourWeight) > 0) size++;
-      const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
-      for (let i = 0, r = 0; i < n; i++) {
-        const wi = segmentWeight(m, month[i]!, neighbourWeight);
-        if (wi > 0) {
-          seg.hourOfWeek[r] = hourOfWeek[i]!;
-          seg.holiday[r] = holiday[i]!;
-          seg.tempC[r] = tempC[i]!;
-          seg.kwh[r] = kwh[i]!;
-          seg.weights[r++] = wi;
-        }
-      }
+      const seg = segmentRows(m, neighbourWeight, month, hourOfWeek, holiday, tempC, kwh);
       try {
         model = fitTowt(seg, towtOptions);
       } catch (e) {
@@ -110,6 +97,47 @@ export function fitTowtMonthly(train: HourlyFrame, options: TowtMonthlyOptions =
   return { kind: "towt-monthly", parameterCount, byMonth, fallbackMonths, predict: (f) => predictByMonth(byMonth, f) };
 }
 
+/** Rows per month (index 1 … 12) of rows 0 … n − 1. */
+function hoursPerMonth(month: ArrayLike<number>, n: number): Int32Array {
+  const monthHours = new Int32Array(13);
+  for (let i = 0; i < n; i++) monthHours[month[i]!]!++;
+  return monthHours;
+}
+
+/** Total weight of month m's segment, from the hours per month. */
+function segmentTotalWeight(m: number, neighbourWeight: number, monthHours: Int32Array): number {
+  let weight = 0;
+  for (let k = 1; k <= 12; k++) weight += segmentWeight(m, k, neighbourWeight) * monthHours[k]!;
+  return weight;
+}
+
+/** The rows of month m's segment (own month and neighbours), in row order, with their weights. */
+function segmentRows(
+  m: number,
+  neighbourWeight: number,
+  month: ArrayLike<number>,
+  hourOfWeek: ArrayLike<number>,
+  holiday: ArrayLike<number>,
+  tempC: ArrayLike<number>,
+  kwh: ArrayLike<number>,
+): TowtData {
+  const n = kwh.length;
+  let size = 0;
+  for (let i = 0; i < n; i++) if (segmentWeight(m, month[i]!, neighbourWeight) > 0) size++;
+  const seg = { hourOfWeek: new Uint8Array(size), holiday: new Uint8Array(size), tempC: new Float64Array(size), kwh: new Float64Array(size), weights: new Float64Array(size) };
+  for (let i = 0, r = 0; i < n; i++) {
+    const wi = segmentWeight(m, month[i]!, neighbourWeight);
+    if (wi > 0) {
+      seg.hourOfWeek[r] = hourOfWeek[i]!;
+      seg.holiday[r] = holiday[i]!;
+      seg.tempC[r] = tempC[i]!;
+      seg.kwh[r] = kwh[i]!;
+      seg.weights[r++] = wi;
+    }
+  }
+  return seg;
+}
+
 /**
  * Predictions of the month-segmented model: each month's model on that month's rows only.
  * Module-level (not a closure per fit) so V8 keeps its optimized code between fits.
@@ -118,18 +146,25 @@ function predictByMonth(byMonth: readonly TowtModel[], f: HourlyFeatures): Float
   const n = f.tempC.length;
   const out = new Float64Array(n);
   // Predict with each month's model only on that month's rows (grouped by month, in row order).
+  // (the grouping is a function of its own, so V8 optimizes it and this loop separately)
   const start = new Int32Array(14);
+  const rows = rowsByMonth(f.month, n, start);
+  for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
+  return out;
+}
+
+/** Rows 0 … n − 1 grouped by month, in row order; month k's are rows[start[k] … start[k + 1]). */
+function rowsByMonth(month: ArrayLike<number>, n: number, start: Int32Array): Int32Array {
   for (let i = 0; i < n; i++) {
-    const month = f.month[i]!;
-    if (!(month >= 1 && month <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${month} at row ${i}`);
-    start[month + 1]!++;
+    const m = month[i]!;
+    if (!(m >= 1 && m <= 12)) throw new ModelInputError(`month must be 1 … 12, got ${m} at row ${i}`);
+    start[m + 1]!++;
   }
   for (let k = 1; k <= 13; k++) start[k]! += start[k - 1]!;
   const rows = new Int32Array(n);
   const next = start.slice(0, 13);
-  for (let i = 0; i < n; i++) rows[next[f.month[i]!]!++] = i;
-  for (let k = 1; k <= 12; k++) if (start[k + 1]! > start[k]!) byMonth[k - 1]!.predictRows(f, rows.subarray(start[k]!, start[k + 1]!), out);
-  return out;
+  for (let i = 0; i < n; i++) rows[next[month[i]!]!++] = i;
+  return rows;
 }
 
 /** A table's segment fits: its hours per month (index 1 … 12) and each month's fit, null where it fell back. */
