@@ -219,7 +219,7 @@ function fitTowtColumns(data: TowtData, options: TowtOptions): TowtModel {
   const solver = options.solver ?? "within";
   const sol =
     solver === "full"
-      ? solveFull(data, occupied, seen, knotsOcc, knotsUnocc, nHow, nOcc, nUnocc, useHoliday, k, columnNames)
+      ? solveFull(data, tail, seen, nHow, k, columnNames)
       : solveWithin(data, tail, seen, nHow, m, k, columnNames);
   const { ols, beta, residualStdError, standardErrors } = sol;
   const fallback = unseenHourFallback(hoursSeen, occupied, seen, beta);
@@ -315,54 +315,22 @@ interface TowtSolution {
   standardErrors: number[];
 }
 
-/** One row of the full design (hour-of-week indicators, temperature components, holiday term). */
-function fullDesignRow(
-  k: number,
-  occupied: Uint8Array,
-  knotsOcc: number[],
-  knotsUnocc: number[],
-  nHow: number,
-  nOcc: number,
-  nUnocc: number,
-  useHoliday: boolean,
-  h: number,
-  hol: number,
-  t: number,
-  howCol: number,
-): number[] {
+/** One row of the full design: the hour-of-week indicator (none at −1), then the tail's columns. */
+function fullDesignRow(tail: TowtTail, k: number, nHow: number, howCol: number, h: number, hol: number, t: number, scratch: Float64Array): number[] {
   const r = new Array<number>(k).fill(0);
   if (howCol >= 0) r[howCol] = 1;
-  if (occupied[h]) {
-    const c = components(t, knotsOcc);
-    for (let j = 0; j < nOcc; j++) r[nHow + j] = c[j]!;
-    if (useHoliday && hol) r[k - 1] = 1;
-  } else if (nUnocc > 0) {
-    const c = components(t, knotsUnocc);
-    for (let j = 0; j < nUnocc; j++) r[nHow + nOcc + j] = c[j]!;
-  }
+  tail.write(h, hol, t, scratch, 0);
+  for (let j = 0; j < tail.m; j++) r[nHow + j] = scratch[j]!;
   return r;
 }
 
 /** fitOls on the whole design ("full" solver). */
-function solveFull(
-  data: TowtData,
-  occupied: Uint8Array,
-  seen: Int16Array,
-  knotsOcc: number[],
-  knotsUnocc: number[],
-  nHow: number,
-  nOcc: number,
-  nUnocc: number,
-  useHoliday: boolean,
-  k: number,
-  columnNames: string[],
-): TowtSolution {
+function solveFull(data: TowtData, tail: TowtTail, seen: Int16Array, nHow: number, k: number, columnNames: string[]): TowtSolution {
   const { hourOfWeek, holiday, tempC, kwh } = data;
   const n = kwh.length;
+  const scratch = new Float64Array(tail.m);
   const x: number[][] = [];
-  for (let i = 0; i < n; i++) {
-    x.push(fullDesignRow(k, occupied, knotsOcc, knotsUnocc, nHow, nOcc, nUnocc, useHoliday, hourOfWeek[i]!, holiday[i]!, tempC[i]!, seen[hourOfWeek[i]!]!));
-  }
+  for (let i = 0; i < n; i++) x.push(fullDesignRow(tail, k, nHow, seen[hourOfWeek[i]!]!, hourOfWeek[i]!, holiday[i]!, tempC[i]!, scratch));
   const ols = fitOls(x, kwh, { intercept: false, columnNames, ...(data.weights ? { weights: data.weights } : {}) });
   return { ols, beta: ols.coefficients, residualStdError: ols.residualStdError, standardErrors: ols.standardErrors };
 }
