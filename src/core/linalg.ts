@@ -58,6 +58,11 @@ export function householderQr(x: Matrix | ColumnMajorMatrix, columnNames?: reado
 // The checks of householderQr for each kind of input, apart from the factorization: V8 then
 // optimizes the factorization for one kind of input instead of deoptimizing it for the other.
 
+/** A design entry householderQr accepts: finite and far from overflow (see factorInPlace). */
+function checkEntry(v: number, i: number, j: number): void {
+  if (!Number.isFinite(v) || Math.abs(v) > 1e150) throw new ModelInputError(`non-finite or huge value at row ${i}, column ${j}`);
+}
+
 /** Copies rows into column-major `qr`, checking them row by row. */
 function copyRows(rows: Matrix, qr: Float64Array, m: number, n: number): void {
   for (let i = 0; i < m; i++) {
@@ -65,7 +70,7 @@ function copyRows(rows: Matrix, qr: Float64Array, m: number, n: number): void {
     if (row.length !== n) throw new ModelInputError(`row ${i} has ${row.length} values, expected ${n}`);
     for (let j = 0; j < n; j++) {
       const v = row[j]!;
-      if (!Number.isFinite(v) || Math.abs(v) > 1e150) throw new ModelInputError(`non-finite or huge value at row ${i}, column ${j}`);
+      checkEntry(v, i, j);
       qr[j * m + i] = v;
     }
   }
@@ -75,8 +80,7 @@ function copyRows(rows: Matrix, qr: Float64Array, m: number, n: number): void {
 function checkColumns(qr: Float64Array, m: number, n: number): void {
   for (let i = 0; i < m; i++) {
     for (let j = 0; j < n; j++) {
-      const v = qr[j * m + i];
-      if (!Number.isFinite(v) || Math.abs(v) > 1e150) throw new ModelInputError(`non-finite or huge value at row ${i}, column ${j}`);
+      checkEntry(qr[j * m + i], i, j);
     }
   }
 }
