@@ -91,15 +91,22 @@ function escapeRegExp(s: string): string {
 
 /** Things Vite would rewrite in a page that `applyClientBundle` does not: refused, never skipped. */
 const UNHANDLED: { re: RegExp; what: string }[] = [
-  { re: /<style[\s>]/i, what: "an inline <style> element" },
-  { re: /\sstyle\s*=\s*("[^"]*(url|image-set)\(|'[^']*(url|image-set)\()/i, what: "a style attribute with url()" },
-  { re: /<(img|image|use|audio|video|source|track|embed|object|input)\b[^>]*\s(src|srcset|href|xlink:href|data|poster)\s*=\s*["']?(?![#"']|data:|https?:|\/\/)/i, what: "an element with a local asset URL (img, image, use, media, object, input)" },
+  { re: /<style[\s>]/iy, what: "an inline <style> element" },
+  { re: /\sstyle\s*=\s*("[^"]*(url|image-set)\(|'[^']*(url|image-set)\()/iy, what: "a style attribute with url()" },
+  { re: /<(img|image|use|audio|video|source|track|embed|object|input)\b[^>]*\s(src|srcset|href|xlink:href|data|poster)\s*=\s*["']?(?![#"']|data:|https?:|\/\/)/iy, what: "an element with a local asset URL (img, image, use, media, object, input)" },
 ];
+
+/** Other stylesheets and module scripts, which Vite would bundle too. */
+const OTHER_STYLESHEET = /<link\b[^>]*rel="stylesheet"/iy;
+const OTHER_MODULE = /<script\b[^>]*type="module"/iy;
+
+/** Vite removes the attribute itself, not the space before it: `href="…" vite-ignore>` → `href="…" >`. */
+const VITE_IGNORE = /(<[a-z][^>]*?\s)vite-ignore(?:="")?(?=[\s>/])/gi;
 
 /** The source stylesheet link and module script, each as a pattern of the whole tag (sticky: tried where its opener stands). */
 const SOURCE_TAGS = [
-  { url: SOURCE_CSS, tag: "link", opener: "<link", re: sourceTagPattern("link", "href", SOURCE_CSS, "") },
-  { url: SOURCE_JS, tag: "script", opener: "<script", re: sourceTagPattern("script", "src", SOURCE_JS, "\\s*</script>") },
+  { url: SOURCE_CSS, tag: "link", re: sourceTagPattern("link", "href", SOURCE_CSS, "") },
+  { url: SOURCE_JS, tag: "script", re: sourceTagPattern("script", "src", SOURCE_JS, "\\s*</script>") },
 ];
 
 function sourceTagPattern(tag: string, attr: string, url: string, close: string): RegExp {
@@ -108,62 +115,179 @@ function sourceTagPattern(tag: string, attr: string, url: string, close: string)
 }
 
 /**
- * `html` without each whole tag `re` matches where `opener` stands, each taken with the line
- * break and indentation before it when only spaces or tabs stand between them: what
- * `html.replace(/(\n[ \t]*)?<tag…>/g, "")` does, but found with indexOf instead of trying the
- * pattern (and its optional group) at every character of the page. Also returns how many.
+ * Every place where one of the patterns above can start: the tags they begin with, and the words
+ * `style` (an attribute, after a space) and `vite-ignore`. Each pattern begins with one of these,
+ * so trying it only here finds what trying it at every character finds, in one pass over the page
+ * instead of one per pattern (pages are up to a megabyte of two-byte characters).
  */
-function removeTags(html: string, opener: string, re: RegExp): { html: string; found: number } {
-  let out = "";
-  let last = 0;
-  let found = 0;
-  for (let at = html.indexOf(opener); at !== -1; ) {
-    re.lastIndex = at;
-    const m = re.exec(html);
-    if (m === null) {
-      at = html.indexOf(opener, at + 1);
-      continue;
-    }
-    let start = at;
-    // The previous match ends with ">", so this walk never reaches into it.
-    while (start > last && (html[start - 1] === " " || html[start - 1] === "\t")) start--;
-    start = start > last && html[start - 1] === "\n" ? start - 1 : at;
-    out += html.slice(last, start);
-    last = at + m[0].length;
-    found++;
-    at = html.indexOf(opener, last);
+const SPOTS = /<(link|script|style|img|image|use|audio|video|source|track|embed|object|input)\b|style|vite-ignore/gi;
+
+interface Spot {
+  at: number;
+  /** `<` and the tag name in lower case (`<link`), or the word in lower case (`style`, `vite-ignore`). */
+  what: string;
+}
+
+function spotsOf(html: string): Spot[] {
+  const out: Spot[] = [];
+  SPOTS.lastIndex = 0;
+  for (let m = SPOTS.exec(html); m !== null; m = SPOTS.exec(html)) out.push({ at: m.index, what: m[1] === undefined ? m[0].toLowerCase() : `<${m[1].toLowerCase()}` });
+  return out;
+}
+
+/** Whether sticky pattern `re` matches `html` at `at`. */
+function matchesAt(re: RegExp, html: string, at: number): RegExpExecArray | null {
+  re.lastIndex = at;
+  return re.exec(html);
+}
+
+/** Ranges [start, end) of the page taken out, in order, none overlapping. */
+class Removals {
+  readonly starts: number[] = [];
+  readonly ends: number[] = [];
+  /** Whether position `at` lies inside a removed range. */
+  covers(at: number): boolean {
+    for (let k = 0; k < this.starts.length; k++) if (at >= this.starts[k]! && at < this.ends[k]!) return true;
+    return false;
   }
-  return { html: found === 0 ? html : out + html.slice(last), found };
+  /** The position of the character before `at` in the page with the ranges taken out (−1 at the start). */
+  before(at: number): number {
+    let p = at;
+    for (let k = this.ends.length - 1; k >= 0; k--) if (this.ends[k] === p) p = this.starts[k]!;
+    return p - 1;
+  }
+  add(start: number, end: number): void {
+    // Kept in order; a range whose line break was found before removed ones takes them in.
+    let k = 0;
+    while (k < this.starts.length && this.starts[k]! < start) k++;
+    let n = 0;
+    while (k + n < this.starts.length && this.ends[k + n]! <= end) n++;
+    this.starts.splice(k, n, start);
+    this.ends.splice(k, n, end);
+  }
+}
+
+/**
+ * Takes out each source tag `re` matches at the spots named `tag`, with the line break and
+ * indentation before it when only spaces or tabs stand between them, as
+ * `html.replace(/(\n[ \t]*)?<tag…>/g, "")` would over the page as earlier removals left it.
+ * Returns how many.
+ */
+function removeSourceTags(html: string, spots: readonly Spot[], tag: string, re: RegExp, removed: Removals): number {
+  let found = 0;
+  // No walk reaches into the previous match of this pattern (it ends with ">").
+  let last = 0;
+  for (const { at, what } of spots) {
+    if (what !== `<${tag}` || at < last || removed.covers(at)) continue;
+    const m = matchesAt(re, html, at);
+    if (m === null) continue;
+    let start = at;
+    for (let p = removed.before(start); p >= last && (html[p] === " " || html[p] === "\t"); p = removed.before(start)) start = p;
+    const p = removed.before(start);
+    start = p >= last && html[p] === "\n" ? p : at;
+    last = at + m[0].length;
+    removed.add(start, last);
+    found++;
+  }
+  return found;
 }
 
 /**
  * `html` (a page at `pagePath`, relative to the site's root) with the edits Vite makes to it:
  * the source stylesheet link and module script removed (each with the blank line before it),
  * `vite-ignore` attributes removed, and the bundle's tags injected before `</head>`.
+ *
+ * The page is read once for the places any rule can apply (spotsOf) and the result made from
+ * slices of it, instead of a pass and a copy per edit: the same page as making the edits one after
+ * another (test/site/clientBundleSameAsBefore.test.ts), for pages whose tags each close before
+ * the next one opens.
  * @throws Error when the page has something else Vite would rewrite (see UNHANDLED).
  * @example applyClientBundle(page, "buildings/a.html", bundle)
  */
 export function applyClientBundle(html: string, pagePath: string, bundle: ClientBundle): string {
   const root = relativeRoot(pagePath);
-  let out = html;
-  for (const { url, tag, opener, re } of SOURCE_TAGS) {
-    const removed = removeTags(out, opener, re);
-    out = removed.html;
-    if (removed.found !== 1) throw new Error(`${pagePath}: expected one <${tag}> of ${url}, found ${removed.found}; every page links the site's stylesheet and script once (content/_includes/base.njk)`);
+  const spots = spotsOf(html);
+  const removed = new Removals();
+  for (const { url, tag, re } of SOURCE_TAGS) {
+    const found = removeSourceTags(html, spots, tag, re, removed);
+    if (found !== 1) throw new Error(`${pagePath}: expected one <${tag}> of ${url}, found ${found}; every page links the site's stylesheet and script once (content/_includes/base.njk)`);
   }
-  if (/<link\b[^>]*rel="stylesheet"/i.test(out) || /<script\b[^>]*type="module"/i.test(out)) {
+  const kept = spots.filter((s) => !removed.covers(s.at));
+  if (kept.some((s) => (s.what === "<link" && matchesAt(OTHER_STYLESHEET, html, s.at)) || (s.what === "<script" && matchesAt(OTHER_MODULE, html, s.at)))) {
     throw new Error(`${pagePath}: a stylesheet or module script other than ${SOURCE_CSS} and ${SOURCE_JS}; add it to content/assets/site.js instead`);
   }
   for (const u of UNHANDLED) {
-    if (u.re.test(out)) throw new Error(`${pagePath}: the page has ${u.what}, which the site writer does not bundle; link assets from content/assets/site.js or site.css instead`);
+    if (kept.some((s) => unhandledAt(u.re, html, s))) throw new Error(`${pagePath}: the page has ${u.what}, which the site writer does not bundle; link assets from content/assets/site.js or site.css instead`);
   }
-  // Vite removes the attribute itself, not the space before it: `href="…" vite-ignore>` → `href="…" >`.
-  // Looking for the word first is a few times cheaper than the pattern, and pages rarely hold it.
-  if (/vite-ignore/i.test(out)) out = out.replace(/(<[a-z][^>]*?\s)vite-ignore(?:="")?(?=[\s>/])/gi, "$1");
-  const indent = /([ \t]*)<\/head>/i.exec(out);
-  if (!indent) throw new Error(`${pagePath}: the page has no </head>`);
-  const pad = `${indent[1]}${indent[1]![0] === "\t" ? "\t" : "  "}`;
+  const edits = viteIgnoreEdits(html, kept);
+  const head = headEnd(html, removed);
+  if (head === null) throw new Error(`${pagePath}: the page has no </head>`);
+  const pad = `${head.indent}${head.indent[0] === "\t" ? "\t" : "  "}`;
   const tags = bundle.headTags.map((t) => `${pad}${t.replace(/(href|src)="\.\//g, `$1="${root}`)}\n`).join("");
-  return out.replace(/([ \t]*)<\/head>/i, (m) => `${tags}${m}`);
+  for (let k = 0; k < removed.starts.length; k++) edits.push({ from: removed.starts[k]!, to: removed.ends[k]!, text: "" });
+  edits.push({ from: head.indentStart, to: head.indentStart, text: tags });
+  return spliced(html, edits);
 }
 
+/** Whether an UNHANDLED pattern matches at spot `s` (the style-attribute pattern starts at the space before the word). */
+function unhandledAt(re: RegExp, html: string, s: Spot): boolean {
+  if (s.what === "style") return s.at > 0 && matchesAt(re, html, s.at - 1) !== null;
+  if (s.what === "vite-ignore") return false;
+  return matchesAt(re, html, s.at) !== null;
+}
+
+interface Edit {
+  from: number;
+  to: number;
+  text: string;
+}
+
+/**
+ * The vite-ignore removals: VITE_IGNORE replaced in each stretch between two `>` that holds the
+ * word (a match never holds `>`; its look-ahead may read the closing one), the same replacements
+ * as over the whole page.
+ */
+function viteIgnoreEdits(html: string, spots: readonly Spot[]): Edit[] {
+  const edits: Edit[] = [];
+  let done = -1;
+  for (const s of spots) {
+    if (s.what !== "vite-ignore" || s.at < done) continue;
+    const from = html.lastIndexOf(">", s.at) + 1;
+    const close = html.indexOf(">", s.at);
+    const to = close === -1 ? html.length : close + 1;
+    const stretch = html.slice(from, to);
+    const text = stretch.replace(VITE_IGNORE, "$1");
+    if (text !== stretch) edits.push({ from, to, text });
+    done = to;
+  }
+  return edits;
+}
+
+/** The first `</head>` outside the removed ranges, and the spaces or tabs before it in the edited page. */
+function headEnd(html: string, removed: Removals): { indentStart: number; indent: string } | null {
+  const re = /<\/head>/gi;
+  for (let m = re.exec(html); m !== null; m = re.exec(html)) {
+    if (removed.covers(m.index)) continue;
+    let start = m.index;
+    let indent = "";
+    for (let p = removed.before(start); p >= 0 && (html[p] === " " || html[p] === "\t"); p = removed.before(start)) {
+      indent = html[p] + indent;
+      start = p;
+    }
+    return { indentStart: start, indent };
+  }
+  return null;
+}
+
+/** `html` with each edit's range replaced by its text (ranges apart; an insertion before a removal at the same place). */
+function spliced(html: string, edits: Edit[]): string {
+  edits.sort((a, b) => a.from - b.from || a.to - b.to);
+  // Slices of the page and a concatenation, not a copy per edit: the page is copied once, when written.
+  let out = "";
+  let at = 0;
+  for (const e of edits) {
+    out += html.slice(at, e.from) + e.text;
+    at = e.to;
+  }
+  return out + html.slice(at);
+}
