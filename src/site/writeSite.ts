@@ -13,7 +13,7 @@ import Eleventy from "@11ty/eleventy";
 import type { SiteModel, SiteModelInParts } from "../report/index.ts";
 import { OhmbookError } from "../core/errors.ts";
 import { collectGarbage, garbageBudget } from "../core/collectGarbage.ts";
-import { buildingDataSizes, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
+import { buildingDataSizeIndex, prepareBuildingPages, prepareMeterPages, preparePortfolioPages, prepareTenantPages } from "./prepareSite.ts";
 import { applyClientBundle, type ClientBundle } from "./clientBundle.ts";
 import { clientBundleOnce, copyFiles } from "./bundleReuse.ts";
 import { BundleChildError, buildClientBundleInChild, stopBundleChildren } from "./bundleInChild.ts";
@@ -439,6 +439,7 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
   // A whole model may have tenant pages and no building pages (the tenant site): count both.
   const buildingCount = parts ? parts.buildingCount : Math.max(full!.buildings.length, full!.tenants.length);
   const portfolioPages = await preparePortfolioPages(base, sizes);
+  const ownSizes = buildingDataSizeIndex(sizes);
   // Claim sheets, one per dispute, are reused like the building pages when unchanged, and made
   // in shares alongside the building passes (there are about as many as buildings).
   const claims = await keepFresh(ctx, portfolioPages.claims, (page) => page);
@@ -462,13 +463,13 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
     const to = Math.min(buildingCount, from + size);
     // A building whose slice (everything its pages are made from) and data files are unchanged
     // has its pages copied whole, without making their view models; the others are made.
-    const groups = parts && ctx.pages ? await freshBuildings(parts, from, to, sizes, ctx) : null;
+    const groups = parts && ctx.pages ? await freshBuildings(parts, from, to, ownSizes, ctx) : null;
     const all = groups
       ? joinPages(groups.map((g) => g.pages))
       : parts ? parts.pagesOf(from, to) : { buildings: share(full!.buildings, i), meterBills: share(full!.meterBills, i), tenants: share(full!.tenants, i) };
     // Pages unchanged since the last build are copied from it; only the others are made.
     const fresh = <T extends { path: string }>(list: readonly T[], keyInput: (page: T) => unknown) => keepFresh(ctx, list, keyInput);
-    const buildings = await fresh(all.buildings, (page) => ({ page, sizes: buildingDataSizes(page.buildingId, sizes) }));
+    const buildings = await fresh(all.buildings, (page) => ({ page, sizes: ownSizes(page.buildingId) }));
     const meterBills = await fresh(all.meterBills, (page) => page);
     const tenants = await fresh(all.tenants, (page) => page);
     const passClaims = share(claims, i);
@@ -476,7 +477,7 @@ async function renderPages(model: SiteModel | SiteModelInParts, sizes: Record<st
       const site: SiteModel = {
         ...shell,
         claims: passClaims.map((f) => f.page),
-        buildings: await prepareBuildingPages(buildings.map((f) => f.page), sizes),
+        buildings: await prepareBuildingPages(buildings.map((f) => f.page), ownSizes),
         meterBills: await prepareMeterPages(meterBills.map((f) => f.page)),
         tenants: await prepareTenantPages(tenants.map((f) => f.page)),
       };
@@ -501,12 +502,12 @@ const buildingGroup = (buildingId: string) => `building:${buildingId}`;
  * (its slice and the sizes of its data files, which its page lists); the pages of the others
  * were copied whole from the previous site.
  */
-async function freshBuildings(parts: SiteModelInParts, from: number, to: number, sizes: Record<string, number>, ctx: RenderContext): Promise<{ group: string; key: string; pages: BuildingPages }[]> {
+async function freshBuildings(parts: SiteModelInParts, from: number, to: number, ownSizes: (buildingId: string) => Record<string, number>, ctx: RenderContext): Promise<{ group: string; key: string; pages: BuildingPages }[]> {
   const out: { group: string; key: string; pages: BuildingPages }[] = [];
   for (let j = from; j < to; j++) {
     const slice = parts.sliceOf(j);
     const id = slice.building.buildingId;
-    const key = ctx.pages!.groupKeyOf({ slice, sizes: buildingDataSizes(id, sizes) });
+    const key = ctx.pages!.groupKeyOf({ slice, sizes: ownSizes(id) });
     if (await ctx.pages!.reuseGroup(buildingGroup(id), key, ctx.stage)) continue;
     out.push({ group: buildingGroup(id), key, pages: parts.pagesOfSlice(slice) });
   }
