@@ -41,12 +41,105 @@ export interface SliceSource {
   /** Bills and printed lines by building id, in file order. */
   billsByBuilding: ReadonlyMap<string, Bill[]>;
   linesByBuilding: ReadonlyMap<string, BillLine[]>;
+  /** The input's other portfolio-wide lists by building (ownedRows). */
+  owned: OwnedRows;
 }
 
 /** The source of every building's slice (one pass over the bills and lines, not one per building). */
 export function sliceSource(input: ReportInput, billsByMeter: ReadonlyMap<string, Bill[]>, linesByBill: ReadonlyMap<string, BillLine[]>, asOf: string | null): SliceSource {
   const rows = billRowsByBuilding(input.portfolio);
-  return { input, billsByMeter, linesByBill, asOf, billsByBuilding: rows.bills, linesByBuilding: rows.billLines };
+  return { input, billsByMeter, linesByBill, asOf, billsByBuilding: rows.bills, linesByBuilding: rows.billLines, owned: ownedRows(input, billsByMeter) };
+}
+
+/** A list of the input cut by building: each building's rows in list order; absent when the list is. */
+type ByBuilding<T> = ReadonlyMap<string, T[]> | undefined;
+
+/**
+ * The rows of the input's portfolio-wide lists that belong to each building, grouped once per
+ * build: filtering every list for every building grew with buildings × rows (at 1,000 buildings,
+ * seconds). A row belongs to every building it names: by its building id, its meter's or its
+ * bills' (a dispute can name several); weather detections go by station.
+ */
+interface OwnedRows {
+  meters: ReadonlyMap<string, Meter[]>;
+  findings: ByBuilding<NonNullable<ReportInput["findings"]>[number]>;
+  disputes: ByBuilding<NonNullable<ReportInput["disputes"]>[number]>;
+  models: ByBuilding<NonNullable<ReportInput["models"]>[number]>;
+  forecast: ByBuilding<NonNullable<ReportInput["forecast"]>[number]>;
+  quality: ByBuilding<NonNullable<ReportInput["quality"]>[number]>;
+  weatherByStation: ReadonlyMap<string, NonNullable<ReportInput["weatherDetections"]>[number][]> | undefined;
+  baselines: ByBuilding<NonNullable<ReportInput["baselines"]>[number]>;
+  trackRecord: ByBuilding<NonNullable<ReportInput["trackRecord"]>[number]>;
+  forecastTotals: ByBuilding<NonNullable<ReportInput["forecastTotals"]>[number]>;
+  buildingForecasts: ByBuilding<NonNullable<ReportInput["buildingForecasts"]>[number]>;
+  trackRecordNotes: ByBuilding<NonNullable<ReportInput["trackRecordNotes"]>[number]>;
+}
+
+function ownedRows(input: ReportInput, billsByMeter: ReadonlyMap<string, Bill[]>): OwnedRows {
+  const { portfolio } = input;
+  const buildingsOfMeter = new Map<string, string[]>();
+  for (const m of portfolio.meters) addOwner(buildingsOfMeter, m.meterId, m.buildingId);
+  // A bill is a building's when its meter is (the bills grouped under one of the building's meters).
+  const buildingsOfBill = new Map<string, string[]>();
+  for (const [meterId, bills] of billsByMeter) for (const owner of buildingsOfMeter.get(meterId) ?? []) for (const b of bills) addOwner(buildingsOfBill, b.billId, owner);
+  const ofMeter = (meterId: string | null | undefined): readonly string[] => (meterId == null ? NONE : (buildingsOfMeter.get(meterId) ?? NONE));
+  const ofBill = (billId: string | null | undefined): readonly string[] => (billId == null ? NONE : (buildingsOfBill.get(billId) ?? NONE));
+  const byIdOrMeter = <T extends { buildingId: string; meterId?: string | null }>(rows: readonly T[] | undefined) => groupByOwners(rows, (r, add) => {
+    add(r.buildingId);
+    for (const o of ofMeter(r.meterId)) add(o);
+  });
+  const byMeter = <T extends { meterId: string }>(rows: readonly T[] | undefined) => groupByOwners(rows, (r, add) => {
+    for (const o of ofMeter(r.meterId)) add(o);
+  });
+  const byId = <T extends { buildingId: string }>(rows: readonly T[] | undefined) => groupByOwners(rows, (r, add) => add(r.buildingId));
+  return {
+    meters: groupByOwners(portfolio.meters, (m, add) => add(m.buildingId))!,
+    findings: groupByOwners(input.findings, (f, add) => {
+      add(f.buildingId);
+      for (const o of ofMeter(f.meterId)) add(o);
+      for (const o of ofBill(f.billId)) add(o);
+    }),
+    disputes: groupByOwners(input.disputes, (d, add) => {
+      add(d.buildingId);
+      for (const o of ofMeter(d.meterId)) add(o);
+      for (const id of d.billIds) for (const o of ofBill(id)) add(o);
+      for (const b of d.bills) for (const o of ofBill(b.billId)) add(o);
+      for (const id of d.relatedBillIds) for (const o of ofBill(id)) add(o);
+    }),
+    models: byMeter(input.models),
+    forecast: byIdOrMeter(input.forecast),
+    quality: byIdOrMeter(input.quality),
+    weatherByStation: input.weatherDetections === undefined ? undefined : groupBy(input.weatherDetections, (w) => w.stationId),
+    baselines: byMeter(input.baselines),
+    trackRecord: byMeter(input.trackRecord),
+    forecastTotals: byId(input.forecastTotals),
+    buildingForecasts: byId(input.buildingForecasts),
+    trackRecordNotes: byIdOrMeter(input.trackRecordNotes),
+  };
+}
+
+const NONE: readonly string[] = [];
+
+function addOwner(owners: Map<string, string[]>, key: string, owner: string): void {
+  const list = owners.get(key);
+  if (list === undefined) owners.set(key, [owner]);
+  else if (!list.includes(owner)) list.push(owner);
+}
+
+/** `rows` under each building `owners` names for a row (a row once per building, however often named), in list order. */
+function groupByOwners<T>(rows: readonly T[] | undefined, owners: (row: T, add: (buildingId: string | null | undefined) => void) => void): Map<string, T[]> | undefined {
+  if (rows === undefined) return undefined;
+  const out = new Map<string, T[]>();
+  for (const row of rows) {
+    owners(row, (buildingId) => {
+      if (buildingId == null) return;
+      const list = out.get(buildingId);
+      if (list === undefined) out.set(buildingId, [row]);
+      // Rows are added in list order, so a row named twice for a building is that list's last.
+      else if (list[list.length - 1] !== row) list.push(row);
+    });
+  }
+  return out;
 }
 
 const rowsByPortfolio = new WeakMap<Pick<Portfolio, "meters" | "bills" | "billLines">, { bills: Map<string, Bill[]>; billLines: Map<string, BillLine[]> }>();
@@ -78,7 +171,10 @@ export function buildingSlice(source: SliceSource, building: Building): Building
   const { input } = source;
   const { portfolio } = input;
   const id = building.buildingId;
-  const meters = portfolio.meters.filter((m) => m.buildingId === id);
+  const { owned } = source;
+  // The building's rows of a list (a copy: a caller may change its slice's lists); absent when the list is.
+  const rowsOf = <T>(index: ReadonlyMap<string, T[]> | undefined, key: string = id): T[] | undefined => (index === undefined ? undefined : [...(index.get(key) ?? [])]);
+  const meters = rowsOf(owned.meters)!;
   const meterIds = new Set(meters.map((m) => m.meterId));
   const billsByMeter = new Map<string, Bill[]>();
   for (const m of meters) {
@@ -92,8 +188,6 @@ export function buildingSlice(source: SliceSource, building: Building): Building
     const lines = source.linesByBill.get(b.billId);
     if (lines) linesByBill.set(b.billId, lines);
   }
-  const ownMeter = (meterId: string | null | undefined) => meterId != null && meterIds.has(meterId);
-  const ownBill = (billId: string | null | undefined) => billId != null && billIds.has(billId);
   // Looked up by the building's own keys (its meters, its bills), in their order.
   const mapOf = <V>(map: ReadonlyMap<string, V> | undefined, keys: Iterable<string>): Map<string, V> | undefined => {
     if (map === undefined) return undefined;
@@ -101,9 +195,6 @@ export function buildingSlice(source: SliceSource, building: Building): Building
     for (const k of keys) if (map.has(k)) out.set(k, map.get(k)!);
     return out;
   };
-  const ofBuilding = <T extends { buildingId: string; meterId?: string | null }>(rows: readonly T[] | undefined): T[] | undefined =>
-    rows?.filter((r) => r.buildingId === id || ownMeter(r.meterId));
-  const ofMeters = <T extends { meterId: string }>(rows: readonly T[] | undefined): T[] | undefined => rows?.filter((r) => ownMeter(r.meterId));
   const ownPortfolio: Portfolio = {
     root: "",
     settings: portfolio.settings,
@@ -127,17 +218,17 @@ export function buildingSlice(source: SliceSource, building: Building): Building
     buildDateKind: input.buildDateKind,
     heatContentByMeter: mapOf(input.heatContentByMeter, meterIds),
     rejectedRowsByBuilding: mapOf(input.rejectedRowsByBuilding, [id]),
-    findings: input.findings?.filter((f) => f.buildingId === id || ownMeter(f.meterId) || ownBill(f.billId)),
-    disputes: input.disputes?.filter((d) => d.buildingId === id || ownMeter(d.meterId) || d.billIds.some(ownBill) || d.bills.some((b) => ownBill(b.billId)) || d.relatedBillIds.some(ownBill)),
-    models: ofMeters(input.models),
-    forecast: ofBuilding(input.forecast),
-    quality: ofBuilding(input.quality),
-    weatherDetections: input.weatherDetections?.filter((w) => w.stationId === building.weatherStation),
-    baselines: ofMeters(input.baselines),
-    trackRecord: ofMeters(input.trackRecord),
-    forecastTotals: input.forecastTotals?.filter((t) => t.buildingId === id),
-    buildingForecasts: input.buildingForecasts?.filter((t) => t.buildingId === id),
-    trackRecordNotes: ofBuilding(input.trackRecordNotes),
+    findings: rowsOf(owned.findings),
+    disputes: rowsOf(owned.disputes),
+    models: rowsOf(owned.models),
+    forecast: rowsOf(owned.forecast),
+    quality: rowsOf(owned.quality),
+    weatherDetections: rowsOf(owned.weatherByStation, building.weatherStation),
+    baselines: rowsOf(owned.baselines),
+    trackRecord: rowsOf(owned.trackRecord),
+    forecastTotals: rowsOf(owned.forecastTotals),
+    buildingForecasts: rowsOf(owned.buildingForecasts),
+    trackRecordNotes: rowsOf(owned.trackRecordNotes),
   };
   return {
     building,

@@ -75,6 +75,48 @@ describe("building slices", () => {
     expect(all.buildings).toEqual(fromSlices.flatMap((p) => p.buildings));
   });
 
+  it("each slice's lists are the whole input's rows of the building (its id, its meters, its bills), in order, as filtering them per building gives", () => {
+    const input = richInput();
+    const { portfolio } = input;
+    // Rows that name two buildings: a finding of one building on another's meter, a dispute over both's bills.
+    const [a, b] = portfolio.buildings;
+    const meterOfB = portfolio.meters.find((m) => m.buildingId === b!.buildingId)!;
+    const billOfB = portfolio.bills.find((x) => x.meterId === meterOfB.meterId)!;
+    const findings = [...(input.findings ?? [])];
+    findings.splice(1, 0, { ...findings[0]!, buildingId: a!.buildingId, meterId: meterOfB.meterId });
+    findings.push({ ...findings[0]!, buildingId: "elsewhere", meterId: null, billId: billOfB.billId } as never);
+    const disputes = (input.disputes ?? []).map((d, i) => (i === 0 ? { ...d, relatedBillIds: [...d.relatedBillIds, billOfB.billId] } : d));
+    const crossed: ReportInput = { ...input, findings, disputes };
+    const parts = siteModelInParts(crossed);
+    const billsByMeter = groupBy(portfolio.bills, (x) => x.meterId);
+    for (let i = 0; i < parts.buildingCount; i++) {
+      const slice = parts.sliceOf(i);
+      const id = slice.building.buildingId;
+      const meterIds = new Set(portfolio.meters.filter((m) => m.buildingId === id).map((m) => m.meterId));
+      const billIds = new Set([...meterIds].flatMap((m) => billsByMeter.get(m) ?? []).map((x) => x.billId));
+      const ownMeter = (m: string | null | undefined) => m != null && meterIds.has(m);
+      const ownBill = (x: string | null | undefined) => x != null && billIds.has(x);
+      const own = slice.input;
+      expect(slice.meters).toEqual(portfolio.meters.filter((m) => m.buildingId === id));
+      expect(own.findings).toEqual(crossed.findings!.filter((f) => f.buildingId === id || ownMeter(f.meterId) || ownBill(f.billId)));
+      expect(own.disputes).toEqual(crossed.disputes!.filter((d) => d.buildingId === id || ownMeter(d.meterId) || d.billIds.some(ownBill) || d.bills.some((x) => ownBill(x.billId)) || d.relatedBillIds.some(ownBill)));
+      expect(own.models).toEqual(crossed.models?.filter((r) => ownMeter(r.meterId)));
+      expect(own.baselines).toEqual(crossed.baselines?.filter((r) => ownMeter(r.meterId)));
+      expect(own.trackRecord).toEqual(crossed.trackRecord?.filter((r) => ownMeter(r.meterId)));
+      expect(own.forecast).toEqual(crossed.forecast?.filter((r) => r.buildingId === id || ownMeter(r.meterId)));
+      expect(own.quality).toEqual(crossed.quality?.filter((r) => r.buildingId === id || ownMeter(r.meterId)));
+      expect(own.trackRecordNotes).toEqual(crossed.trackRecordNotes?.filter((r) => r.buildingId === id || ownMeter(r.meterId)));
+      expect(own.weatherDetections).toEqual(crossed.weatherDetections?.filter((w) => w.stationId === slice.building.weatherStation));
+      expect(own.forecastTotals).toEqual(crossed.forecastTotals?.filter((t) => t.buildingId === id));
+      expect(own.buildingForecasts).toEqual(crossed.buildingForecasts?.filter((t) => t.buildingId === id));
+    }
+    // The crossed rows are in both buildings' slices.
+    expect(parts.sliceOf(0).input.findings).toContain(findings[1]);
+    expect(parts.sliceOf(1).input.findings).toContain(findings[1]);
+    expect(parts.sliceOf(1).input.findings).toContain(findings[findings.length - 1]);
+    expect(parts.sliceOf(1).input.disputes).toContain(disputes[0]);
+  });
+
   it("a slice is plain data (contentHash would skip a function, and read a class instance as its fields)", () => {
     const parts = siteModelInParts(richInput());
     const odd: string[] = [];
