@@ -156,6 +156,19 @@ class Removals {
     for (let k = this.ends.length - 1; k >= 0; k--) if (this.ends[k] === p) p = this.starts[k]!;
     return p - 1;
   }
+  /**
+   * The spaces and tabs just before `at` in the page with the ranges taken out, not reaching below
+   * `floor`: where they start, and what they are.
+   */
+  blanksBefore(html: string, at: number, floor: number): { start: number; blanks: string } {
+    let start = at;
+    let blanks = "";
+    for (let p = this.before(start); p >= floor && (html[p] === " " || html[p] === "\t"); p = this.before(start)) {
+      blanks = html[p] + blanks;
+      start = p;
+    }
+    return { start, blanks };
+  }
   add(start: number, end: number): void {
     // Kept in order; a range whose line break was found before removed ones takes them in.
     let k = 0;
@@ -181,10 +194,8 @@ function removeSourceTags(html: string, spots: readonly Spot[], tag: string, re:
     if (what !== `<${tag}` || at < last || removed.covers(at)) continue;
     const m = matchesAt(re, html, at);
     if (m === null) continue;
-    let start = at;
-    for (let p = removed.before(start); p >= last && (html[p] === " " || html[p] === "\t"); p = removed.before(start)) start = p;
-    const p = removed.before(start);
-    start = p >= last && html[p] === "\n" ? p : at;
+    const p = removed.before(removed.blanksBefore(html, at, last).start);
+    const start = p >= last && html[p] === "\n" ? p : at;
     last = at + m[0].length;
     removed.add(start, last);
     found++;
@@ -268,13 +279,8 @@ function headEnd(html: string, removed: Removals): { indentStart: number; indent
   const re = /<\/head>/gi;
   for (let m = re.exec(html); m !== null; m = re.exec(html)) {
     if (removed.covers(m.index)) continue;
-    let start = m.index;
-    let indent = "";
-    for (let p = removed.before(start); p >= 0 && (html[p] === " " || html[p] === "\t"); p = removed.before(start)) {
-      indent = html[p] + indent;
-      start = p;
-    }
-    return { indentStart: start, indent };
+    const { start, blanks } = removed.blanksBefore(html, m.index, 0);
+    return { indentStart: start, indent: blanks };
   }
   return null;
 }
