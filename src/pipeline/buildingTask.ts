@@ -3,12 +3,11 @@
  * plain data, its analysis, and its results as plain data and back. Imports nothing of the site
  * writer, so a worker thread loads only the analysis.
  */
-import type { Building, Meter, Portfolio } from "../domain/types.ts";
-import { groupBy } from "../core/groupBy.ts";
+import type { Building, Portfolio } from "../domain/types.ts";
 import type { Tariff } from "../tariff/index.ts";
 import { bugReportLine, type BugPolicy } from "../core/errors.ts";
 import { fitChangePointAt, SHORT_HISTORY_WEEKS } from "../model/index.ts";
-import { billRowsByBuilding, type BuildingResults } from "../report/index.ts";
+import { rowsByBuilding, type BuildingResults } from "../report/index.ts";
 import { analyseBuilding, rethrow, type BugHandler } from "./analyseBuilding.ts";
 
 /** One building's work, as sent to a worker: plain, structured-clonable data. */
@@ -22,18 +21,10 @@ export interface BuildingTask {
 
 const WEEK_MS = 7 * 24 * 3_600_000;
 
-const metersByBuilding = new WeakMap<readonly Meter[], Map<string, Meter[]>>();
-
-/** The meters of a building, in file order, from a grouping made once per meters list (filtering them all per building grows with buildings × meters). */
-function metersOf(meters: readonly Meter[], buildingId: string): Meter[] {
-  let groups = metersByBuilding.get(meters);
-  if (groups === undefined) metersByBuilding.set(meters, (groups = groupBy(meters, (m) => m.buildingId)));
-  return [...(groups.get(buildingId) ?? [])];
-}
-
 /** The part of `portfolio` that analysing `building` reads (see the module comment). */
 export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, masks: ReadonlyMap<string, Uint8Array>, onBug: BugPolicy = "fail"): BuildingTask {
-  const own = metersOf(portfolio.meters, building.buildingId);
+  const rows = rowsByBuilding(portfolio);
+  const own = [...(rows.meters.get(building.buildingId) ?? [])];
   const short = own.some((m) => {
     const s = m.commodity === "electricity" ? portfolio.intervals.get(m.meterId) : undefined;
     return s !== undefined && s.startMs.length > 0 && (s.startMs[s.startMs.length - 1]! - s.startMs[0]!) / WEEK_MS < SHORT_HISTORY_WEEKS;
@@ -52,7 +43,6 @@ export function buildingTask(portfolio: Portfolio<Tariff>, building: Building, m
   // Meter ids are unique (readMeters refuses a repeat): without other buildings' meters, the building's own.
   const meters = short ? portfolio.meters.filter((m) => meterIds.has(m.meterId)) : own;
   const stations = new Set(buildings.map((b) => b.weatherStation));
-  const rows = billRowsByBuilding(portfolio);
   // Keys first: reading a value may mean reading a file (IntervalShelf).
   const pick = <V>(map: ReadonlyMap<string, V>, keep: (k: string) => boolean) => new Map([...map.keys()].filter(keep).map((k) => [k, map.get(k)!]));
   return {

@@ -38,7 +38,8 @@ export interface SliceSource {
   billsByMeter: ReadonlyMap<string, Bill[]>;
   linesByBill: ReadonlyMap<string, BillLine[]>;
   asOf: string | null;
-  /** Bills and printed lines by building id, in file order. */
+  /** Meters, bills and printed lines by building id, in file order. */
+  metersByBuilding: ReadonlyMap<string, Meter[]>;
   billsByBuilding: ReadonlyMap<string, Bill[]>;
   linesByBuilding: ReadonlyMap<string, BillLine[]>;
   /** The input's other portfolio-wide lists by building (ownedRows). */
@@ -47,8 +48,8 @@ export interface SliceSource {
 
 /** The source of every building's slice (one pass over the bills and lines, not one per building). */
 export function sliceSource(input: ReportInput, billsByMeter: ReadonlyMap<string, Bill[]>, linesByBill: ReadonlyMap<string, BillLine[]>, asOf: string | null): SliceSource {
-  const rows = billRowsByBuilding(input.portfolio);
-  return { input, billsByMeter, linesByBill, asOf, billsByBuilding: rows.bills, linesByBuilding: rows.billLines, owned: ownedRows(input, billsByMeter) };
+  const rows = rowsByBuilding(input.portfolio);
+  return { input, billsByMeter, linesByBill, asOf, metersByBuilding: rows.meters, billsByBuilding: rows.bills, linesByBuilding: rows.billLines, owned: ownedRows(input, billsByMeter) };
 }
 
 /** A list of the input cut by building: each building's rows in list order; absent when the list is. */
@@ -61,7 +62,6 @@ type ByBuilding<T> = ReadonlyMap<string, T[]> | undefined;
  * bills' (a dispute can name several); weather detections go by station.
  */
 interface OwnedRows {
-  meters: ReadonlyMap<string, Meter[]>;
   findings: ByBuilding<NonNullable<ReportInput["findings"]>[number]>;
   disputes: ByBuilding<NonNullable<ReportInput["disputes"]>[number]>;
   models: ByBuilding<NonNullable<ReportInput["models"]>[number]>;
@@ -93,7 +93,6 @@ function ownedRows(input: ReportInput, billsByMeter: ReadonlyMap<string, Bill[]>
   });
   const byId = <T extends { buildingId: string }>(rows: readonly T[] | undefined) => groupByOwners(rows, (r, add) => add(r.buildingId));
   return {
-    meters: groupByOwners(portfolio.meters, (m, add) => add(m.buildingId))!,
     findings: groupByOwners(input.findings, (f, add) => {
       add(f.buildingId);
       for (const o of ofMeter(f.meterId)) add(o);
@@ -142,20 +141,28 @@ function groupByOwners<T>(rows: readonly T[] | undefined, owners: (row: T, add: 
   return out;
 }
 
-const rowsByPortfolio = new WeakMap<Pick<Portfolio, "meters" | "bills" | "billLines">, { bills: Map<string, Bill[]>; billLines: Map<string, BillLine[]> }>();
+/** Meters, bills and printed bill lines of each building, in file order. */
+export interface RowsByBuilding {
+  meters: Map<string, Meter[]>;
+  bills: Map<string, Bill[]>;
+  billLines: Map<string, BillLine[]>;
+}
+
+const rowsByPortfolio = new WeakMap<Pick<Portfolio, "meters" | "bills" | "billLines">, RowsByBuilding>();
 
 /**
- * Bills and printed bill lines of each building, in file order (a bill whose meter is in no
- * building, and its lines, in none), grouped once per portfolio object: the analysis tasks and
- * the page slices both cut the portfolio by building, and filtering every bill per building
- * grows with buildings × bills.
+ * Meters, bills and printed bill lines of each building, in file order (a bill whose meter is in
+ * no building, and its lines, in none), grouped once per portfolio object: the analysis tasks and
+ * the page slices both cut the portfolio by building, and filtering every meter or bill per
+ * building grows with buildings × rows. The lists are shared: take a copy to change one.
  */
-export function billRowsByBuilding(portfolio: Pick<Portfolio, "meters" | "bills" | "billLines">): { bills: Map<string, Bill[]>; billLines: Map<string, BillLine[]> } {
+export function rowsByBuilding(portfolio: Pick<Portfolio, "meters" | "bills" | "billLines">): RowsByBuilding {
   let rows = rowsByPortfolio.get(portfolio);
   if (rows) return rows;
   const buildingOfMeter = new Map(portfolio.meters.map((m) => [m.meterId, m.buildingId]));
   const buildingOfBill = new Map(portfolio.bills.map((b) => [b.billId, buildingOfMeter.get(b.meterId)]));
   rows = {
+    meters: groupBy(portfolio.meters, (m) => m.buildingId),
     bills: groupBy(portfolio.bills, (b) => buildingOfMeter.get(b.meterId)),
     billLines: groupBy(portfolio.billLines, (l) => buildingOfBill.get(l.billId)),
   };
@@ -174,7 +181,7 @@ export function buildingSlice(source: SliceSource, building: Building): Building
   const { owned } = source;
   // The building's rows of a list (a copy: a caller may change its slice's lists); absent when the list is.
   const rowsOf = <T>(index: ReadonlyMap<string, T[]> | undefined, key: string = id): T[] | undefined => (index === undefined ? undefined : [...(index.get(key) ?? [])]);
-  const meters = rowsOf(owned.meters)!;
+  const meters = rowsOf(source.metersByBuilding)!;
   const meterIds = new Set(meters.map((m) => m.meterId));
   const billsByMeter = new Map<string, Bill[]>();
   for (const m of meters) {

@@ -2,7 +2,7 @@
 export type * from "./input.ts";
 export type * from "./siteModel.ts";
 export { buildSiteModel, siteModelInParts, tenantSiteModel, type SiteModelInParts } from "./buildSiteModel.ts";
-export { billRowsByBuilding, type BuildingSlice } from "./buildingSlice.ts";
+export { rowsByBuilding, type BuildingSlice } from "./buildingSlice.ts";
 export { describeDataFiles, describeDataFile, formatBytes, DATA_FILE_DESCRIPTIONS } from "./dataPage.ts";
 export { jsonForScript, scriptSafeJson } from "./format.ts";
 
