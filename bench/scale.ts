@@ -5,7 +5,8 @@
  * Writes a synthetic portfolio of N buildings with the demo's mix (bench/lib/scalePortfolio.ts:
  * the demo's 8 buildings replicated with unique ids) into a temporary folder, builds it once in a
  * fresh child process (bench/lib/scaleChild.ts) and prints, per pipeline stage and in total, wall
- * time and CPU time (all threads), the peak RSS of the build process and CPU per building.
+ * time and CPU time (all threads, and the client bundler it forks), the peak RSS of the build
+ * process and CPU per building.
  * Other processes sharing the machine stretch wall time, not CPU time. The folder and the site
  * are removed afterwards unless --keep. With --shards K it then runs K local shard processes at
  * once (ohmbook build --shard k/K --partial …) and a merge, prints their wall times, and checks

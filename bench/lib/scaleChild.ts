@@ -2,12 +2,14 @@
  * Child process of bench/scale.ts: builds one portfolio through the pipeline
  * (buildPortfolioSite) with a reporter that timestamps every stage, then prints one JSON line
  * with each stage's wall time and CPU time (process.cpuUsage: every thread of the process, so
- * worker threads count) and the process's peak RSS (process.resourceUsage().maxRSS, KiB).
+ * worker threads count; plus the children it has waited for, the client bundler: childCpu.ts)
+ * and the process's peak RSS (process.resourceUsage().maxRSS, KiB).
  * Usage: tsx bench/lib/scaleChild.ts DIR OUT [build options as JSON]
  */
 import { readFileSync, writeFileSync } from "node:fs";
 import { buildPortfolioSite } from "../../src/pipeline/build.ts";
 import type { Reporter } from "../../src/cli/progress.ts";
+import { finishedChildrenCpuMs } from "./childCpu.ts";
 
 const [dir, out, extra] = process.argv.slice(2);
 if (!dir || !out) throw new Error("usage: scaleChild.ts DIR OUT [options-json]");
@@ -16,7 +18,7 @@ const options = extra ? (JSON.parse(extra) as Record<string, unknown>) : {};
 interface Stage { name: string; wallMs: number; cpuMs: number; rssEndMiB: number; peakRssMiB: number | null; heapAfterGcMiB: number | null; buffersAfterGcMiB: number | null }
 const stages: Stage[] = [];
 let current: { name: string; wall: number; cpu: number } | null = null;
-const cpuNow = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1000; };
+const cpuNow = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1000 + finishedChildrenCpuMs(); };
 // With --expose-gc (bench/scale.ts passes it) each stage ends with a full collection, outside
 // its timing, so the heap left is what the stage keeps, not garbage it has not collected yet.
 const gc = (globalThis as { gc?: () => void }).gc;
