@@ -14,6 +14,7 @@
 import { getHeapSpaceStatistics } from "node:v8";
 import { monthlyUsageSpec } from "../src/site/charts/monthlyUsageSpec.ts";
 import { compileToVegaJson, renderSvg } from "../src/site/charts/renderSvg.ts";
+import { monthsAfter } from "../src/core/time/index.ts";
 
 const gc = (globalThis as { gc?: (options?: { type: "minor" | "major" }) => void }).gc;
 if (!gc) {
@@ -21,7 +22,7 @@ if (!gc) {
   process.exit(2);
 }
 const charts = Number(process.argv[2] ?? 3);
-const months = Array.from({ length: 36 }, (_, i) => `${2023 + Math.floor(i / 12)}-${String((i % 12) + 1).padStart(2, "0")}`);
+const months = monthsAfter("2022-12-31", 36).map((m) => m.month);
 
 async function renderOne(k: number): Promise<void> {
   const chart = {
