@@ -40,9 +40,24 @@ function isCurrencyCode(currency: string): boolean {
   }
 }
 
+/**
+ * U+2060 WORD JOINER, put between a sign and the currency symbol that follows it. Line breakers
+ * treat "−", "+" and "$" alike as prefix characters and may break between them (Chromium does,
+ * in a narrow column), which leaves "$4,683.46" at the start of the next line reading as a
+ * positive amount. The joiner is invisible and screen readers skip it.
+ */
+export const SIGN_JOINER = "\u2060";
+
+/** A leading minus joined to what follows (Intl puts the currency symbol between it and the digits). */
+function joinSign(text: string): string {
+  return text.startsWith("-") ? `-${SIGN_JOINER}${text.slice(1)}` : text;
+}
+
 /** Formats money; an unusable currency code degrades to "1,234.50 XX" instead of throwing. */
 function money(amount: number, currency: string, digits: number): string {
-  if (isCurrencyCode(currency)) return moneyFormatter(currency, digits).format(amount);
+  if (isCurrencyCode(currency)) {
+    return joinSign(moneyFormatter(currency, digits).format(amount));
+  }
   const n = cachedFormatter({ minimumFractionDigits: digits, maximumFractionDigits: digits }).format(amount);
   return currency ? `${n} ${currency}` : n;
 }
@@ -59,14 +74,15 @@ export function formatMoney(amount: number | null | undefined, currency: string)
 }
 
 /**
- * Money with an explicit sign, for differences (billed − recomputed).
- * @example formatMoneySigned(4.5, "USD") // "+$4.50"
+ * Money with an explicit sign, for differences (billed − recomputed); the sign is joined to the
+ * amount (SIGN_JOINER) so a line never ends with it.
+ * @example formatMoneySigned(4.5, "USD") // "+\u2060$4.50", shown as "+$4.50"
  */
 export function formatMoneySigned(amount: number | null | undefined, currency: string): string {
   if (amount == null || !Number.isFinite(amount)) return NOT_AVAILABLE;
   const rounded = roundCents(amount);
   if (rounded === 0) return formatMoney(0, currency);
-  return (rounded > 0 ? "+" : "−") + formatMoney(Math.abs(rounded), currency);
+  return (rounded > 0 ? "+" : "−") + SIGN_JOINER + formatMoney(Math.abs(rounded), currency);
 }
 
 /**
@@ -76,7 +92,7 @@ export function formatMoneySigned(amount: number | null | undefined, currency: s
 export function formatRate(rate: number | null | undefined, currency: string, unit: string): string {
   if (rate == null || !Number.isFinite(rate)) return NOT_AVAILABLE;
   const text = isCurrencyCode(currency)
-    ? cachedFormatter({ style: "currency", currency, minimumFractionDigits: 2, maximumFractionDigits: 6 }).format(rate)
+    ? joinSign(cachedFormatter({ style: "currency", currency, minimumFractionDigits: 2, maximumFractionDigits: 6 }).format(rate))
     : `${cachedFormatter({ minimumFractionDigits: 2, maximumFractionDigits: 6 }).format(rate)} ${currency}`.trim();
   return unit ? `${text} per ${unit}` : text;
 }

@@ -142,9 +142,9 @@ describe("bills table", () => {
     const row = rowOf(table, "E1-06");
     const b6 = e1[5];
     expect(row[column(table, "Re-priced on billed quantities")].text).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(b6.total - 100));
-    expect(row[column(table, "Difference (billed quantities)")]).toEqual({ text: "+$100.00", sort: "100", tone: "pos" });
+    expect(row[column(table, "Difference (billed quantities)")]).toEqual({ text: "+\u2060$100.00", sort: "100", tone: "pos" });
     expect(row[column(table, "Re-priced on metered quantities")].text).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(b6.total - 1381.2));
-    expect(row[column(table, "Difference (metered quantities)")]).toEqual({ text: "+$1,381.20", sort: "1381.2", tone: "pos" });
+    expect(row[column(table, "Difference (metered quantities)")]).toEqual({ text: "+\u2060$1,381.20", sort: "1381.2", tone: "pos" });
     // A bill without interval data for its period: no metered figure, no metered difference.
     const other = rowOf(table, "E1-08");
     expect(other[column(table, "Re-priced on metered quantities")].text).toBe("no interval data");
@@ -152,8 +152,8 @@ describe("bills table", () => {
 
     const detail = billDetail(b6, meter, input, [], claimsByBill(input.disputes, "USD"), "USD");
     expect(detail.bases.map((b) => [b.basis, b.heading, b.difference])).toEqual([
-      ["billed", "Re-priced on the billed quantities", "+$100.00"],
-      ["metered", "Re-priced on the metered quantities", "+$1,381.20"],
+      ["billed", "Re-priced on the billed quantities", "+\u2060$100.00"],
+      ["metered", "Re-priced on the metered quantities", "+\u2060$1,381.20"],
     ]);
     expect(detail.bases[1].facts).toEqual(
       expect.arrayContaining([
@@ -188,7 +188,7 @@ describe("bills table", () => {
     const { input: risky, e1: bills } = plantedInput();
     risky.disputes = [dispute("D-low-1", [disputeBill(bills[8], -512.34)], -512.34, "back-bill-risk")];
     const t = billsTable([meter], bills, risky, "USD");
-    expect(rowOf(t, "E1-09")[column(t, "Claim")]).toMatchObject({ text: "back-billing risk −$512.34", href: "claims/D-low-1.html" });
+    expect(rowOf(t, "E1-09")[column(t, "Claim")]).toMatchObject({ text: "back-billing risk −\u2060$512.34", href: "claims/D-low-1.html" });
   });
 
   it("links each bill to its anchor on the meter's bills page and shortens periods within a year", () => {
@@ -215,7 +215,7 @@ describe("printed lines beside the tariff's", () => {
     expect(billed.showPrinted).toBe(true);
     expect(billed.lines.map((l) => [l.label, l.printed, l.printedDifference])).toEqual([
       ["Customer charge", "$25.00", "$0.00"],
-      ["Energy", new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(energy + 60), "+$60.00"],
+      ["Energy", new Intl.NumberFormat("en-US", { style: "currency", currency: "USD" }).format(energy + 60), "+\u2060$60.00"],
     ]);
     expect(billed.unmatchedPrinted).toEqual([{ label: "Late fee", amount: "$40.00" }]);
     // The metered basis is never set beside the printed (billed-quantity) lines.

@@ -48,13 +48,13 @@ describe("claim sheet", () => {
     expect(value(b.facts, "Billed total")).toBeUndefined();
     expect(value(s.bills[1].facts, "Billed total")).toBe("$24,967.83");
     expect(value(s.bills[1].facts, "Corrected total")).toBe("$12,483.91");
-    expect(value(s.bills[1].facts, "Difference (billed − corrected)")).toBe("+$12,483.92");
+    expect(value(s.bills[1].facts, "Difference (billed − corrected)")).toBe("+\u2060$12,483.92");
     expect(value(b.facts, "Tariff")).toBe("T-electricity");
     expect(value(b.facts, "Tariff versions applied")).toBe("version in force from Jan 1, 2023: 31 billing days (100%)");
     expect(value(b.facts, "Corrected bill priced on")).toBe("metered usage and demand (interval data, multiplier 1)");
     expect(b.lines!.columns.map((c) => c.label)).toEqual(["Line", "Printed", "Corrected", "Difference (printed − corrected)"]);
-    expect(b.lines!.rows[1].map((c) => c.text)).toEqual(["Energy", "$24,942.83", "$12,458.92", "+$12,483.91"]);
-    expect(b.lines!.foot!.map((c) => c.text)).toEqual(["Bill total", "$24,967.83", "$12,483.92", "+$12,483.91"]);
+    expect(b.lines!.rows[1].map((c) => c.text)).toEqual(["Energy", "$24,942.83", "$12,458.92", "+\u2060$12,483.91"]);
+    expect(b.lines!.foot!.map((c) => c.text)).toEqual(["Bill total", "$24,967.83", "$12,483.92", "+\u2060$12,483.91"]);
     expect(b.arithmetic!.rows[1].map((c) => c.text)).toEqual(["Energy", "100,000 kWh", "$0.124589 per kWh", "$12,458.92", "flat rate"]);
     expect(b.quantities.rows.map((r) => r.map((c) => c.text))).toEqual([
       ["Usage (kWh)", "200,000 kWh", "100,000 kWh", "100,000 kWh"],
@@ -74,7 +74,7 @@ describe("claim sheet", () => {
     const lines = s.bills[0].lines!;
     expect(lines.rows.map((r) => r.map((c) => c.text))).toEqual([
       ["Energy", "$3,369.33", "$3,369.33", "$0.00"],
-      ["Sales tax", "$282.27", "$210.67", "+$71.60"],
+      ["Sales tax", "$282.27", "$210.67", "+\u2060$71.60"],
       ["Meter access fee", "$0.00", "—", "—"],
     ]);
     expect(s.bills[0].arithmetic!.rows.map((r) => r[0].text)).toEqual(["Energy", "Sales tax"]);

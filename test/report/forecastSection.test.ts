@@ -35,14 +35,14 @@ describe("building forecast section", () => {
   });
 
   it("drivers in currency and words; they add up to the change (−120 + 300 + 70 = 250)", () => {
-    expect(f.drivers[0]).toBe("Over the same 2 calendar months (Apr 2024 to May 2024 last year), next year's likely cost is $8,930.00 against $8,680.00 billed: +$250.00 (+2.9 %).");
-    expect(f.drivers[1]).toMatch(/^Weather: −\$120\.00\. Last year's weather was harsher than a typical year/);
-    expect(f.drivers[2]).toMatch(/^Rates: \+\$300\.00\. .*costs more/);
-    expect(f.drivers[3]).toMatch(/^Usage trend: \+\$70\.00\./);
+    expect(f.drivers[0]).toBe("Over the same 2 calendar months (Apr 2024 to May 2024 last year), next year's likely cost is $8,930.00 against $8,680.00 billed: +\u2060$250.00 (+2.9 %).");
+    expect(f.drivers[1]).toMatch(/^Weather: −\u2060\$120\.00\. Last year's weather was harsher than a typical year/);
+    expect(f.drivers[2]).toMatch(/^Rates: \+\u2060\$300\.00\. .*costs more/);
+    expect(f.drivers[3]).toMatch(/^Usage trend: \+\u2060\$70\.00\./);
     // Columns: months, billed, as it should have been (no correction here), forecast, change, billing errors corrected, weather, rates, usage trend.
-    expect(f.driversTable!.rows[0].map((c) => c.text)).toEqual(["Apr 2024 – May 2024", "$8,680.00", "$8,680.00", "$8,930.00", "+$250.00 (+2.9 %)", "$0.00", "−$120.00", "+$300.00", "+$70.00"]);
+    expect(f.driversTable!.rows[0].map((c) => c.text)).toEqual(["Apr 2024 – May 2024", "$8,680.00", "$8,680.00", "$8,930.00", "+\u2060$250.00 (+2.9 %)", "$0.00", "−\u2060$120.00", "+\u2060$300.00", "+\u2060$70.00"]);
     const warm = driverSentences({ months: ["2024-01"], lastYearCost: 0, forecastCost: 10, change: 10, weather: 10, rates: 0, usageTrend: 0 }, "USD");
-    expect(warm[0]).toContain("+$10.00.");
+    expect(warm[0]).toContain("+\u2060$10.00.");
     expect(warm[1]).toContain("kinder than a typical year");
     expect(warm[2]).toBe("Rates: no effect (the same prices apply next year).");
   });
@@ -71,11 +71,11 @@ describe("index forecast ranking", () => {
     input.buildingForecasts!.push({ ...input.buildingForecasts![0], buildingId: "B2", drivers: { months: ["2024-04"], lastYearCost: 1000, forecastCost: 1500, change: 500, weather: 0, rates: 100, usageTrend: 400 } });
     const t = buildSiteModel(input).index.forecastChangeTable!;
     expect(t.rows.map((r) => [r[0].href, r[3].text, r[4].text])).toEqual([
-      ["buildings/B2.html", "+$500.00", "+50 %"],
-      ["buildings/B1.html", "+$250.00", "+2.9 %"],
+      ["buildings/B2.html", "+\u2060$500.00", "+50 %"],
+      ["buildings/B1.html", "+\u2060$250.00", "+2.9 %"],
     ]);
     // Columns from the sixth: billing errors corrected (none here), weather, rates, usage trend.
-    expect(t.rows[1].slice(5).map((c) => c.text)).toEqual(["$0.00", "−$120.00", "+$300.00", "+$70.00"]);
+    expect(t.rows[1].slice(5).map((c) => c.text)).toEqual(["$0.00", "−\u2060$120.00", "+\u2060$300.00", "+\u2060$70.00"]);
     expect(buildSiteModel(input).index.forecastTrackRecord).toMatch(/^Better than/);
   });
 });

@@ -28,9 +28,21 @@ describe("money", () => {
     expect(formatRate(0.1, "DOLLARS", "kWh")).toBe("0.10 DOLLARS per kWh");
   });
   it("gives differences an explicit sign and no negative zero", () => {
-    expect(formatMoneySigned(12.34, "USD")).toBe("+$12.34");
-    expect(formatMoneySigned(-3, "USD")).toBe("−$3.00");
+    expect(formatMoneySigned(12.34, "USD")).toBe("+\u2060$12.34");
+    expect(formatMoneySigned(-3, "USD")).toBe("−\u2060$3.00");
     expect(formatMoneySigned(-0.001, "USD")).toBe("$0.00");
+  });
+  // Unicode Standard Annex #14 (line breaking): "+", "−" (U+2212), "-" before "$" and "$" itself
+  // are prefix characters (class PR, HY), and nothing in the algorithm forbids a break between
+  // two of them, so a narrow cell may end a line with the sign and start the next with "$4.50";
+  // U+2060 WORD JOINER (class WJ) forbids a break on either side (rule LB11).
+  it("joins a sign to the currency symbol so no line break can separate them", () => {
+    for (const text of [formatMoneySigned(4.5, "USD"), formatMoneySigned(-4.5, "USD"), formatMoney(-4.5, "USD"), formatRate(-0.01, "USD", "kWh")]) {
+      expect(text).toMatch(/^[+−-]\u2060\$/);
+      expect(text.replace("\u2060", "")).toMatch(/^[+−-]\$\d/);
+    }
+    expect(formatMoney(-4.5, "USD")).toBe("-\u2060$4.50");
+    expect(formatMoney(4.5, "USD")).toBe("$4.50");
   });
   it("shows rates with up to six decimals", () => {
     expect(formatRate(0.123456, "USD", "kWh")).toBe("$0.123456 per kWh");

@@ -81,7 +81,7 @@ describe("indexForecastList", () => {
     // Σ shown = (2,200 + … + 1,000) − (900 + 1,000 + 1,100) = 11,200 − 3,000 = 8,200.
     expect(cut).toEqual({
       shown: "Showing the 10 of 23 buildings whose cost changes most, up or down, from the largest increase to the largest decrease.",
-      totals: "Over all 23 buildings the changes add up to +$6,600.00, +2.9 % of last year's $230,000.00: 11 cost more, 11 less, 1 the same. The 10 shown add up to +$8,200.00.",
+      totals: "Over all 23 buildings the changes add up to +\u2060$6,600.00, +2.9 % of last year's $230,000.00: 11 cost more, 11 less, 1 the same. The 10 shown add up to +\u2060$8,200.00.",
       href: "forecast.html",
       linkText: "Next year's cost of all 23 buildings",
       linkNote: ", ranked by the change, on a page of its own.",
@@ -105,10 +105,10 @@ describe("the index and the list pages of a 24-building portfolio", () => {
     const shownCosts = model.index.buildingsTable.rows.map(cost);
     expect(shownCosts).toEqual([...shownCosts].sort((a, b) => b - a));
     // change of building k = (−1)^k × 100 k: the 10 largest either way are 15 … 24, increases first
-    expect(model.index.forecastChangeTable!.rows.map((r) => r[3].text)).toEqual(["+$2,400.00", "+$2,200.00", "+$2,000.00", "+$1,800.00", "+$1,600.00", "−$1,500.00", "−$1,700.00", "−$1,900.00", "−$2,100.00", "−$2,300.00"]);
+    expect(model.index.forecastChangeTable!.rows.map((r) => r[3].text)).toEqual(["+\u2060$2,400.00", "+\u2060$2,200.00", "+\u2060$2,000.00", "+\u2060$1,800.00", "+\u2060$1,600.00", "−\u2060$1,500.00", "−\u2060$1,700.00", "−\u2060$1,900.00", "−\u2060$2,100.00", "−\u2060$2,300.00"]);
     expect(model.index.forecastCut?.href).toBe("forecast.html");
     expect(model.forecastList.table!.rows).toHaveLength(24);
-    expect(model.forecastList.totals).toBe("Over all 24 buildings the changes add up to +$1,200.00, +0.4 % of last year's $300,000.00: 12 cost more, 12 less.");
+    expect(model.forecastList.totals).toBe("Over all 24 buildings the changes add up to +\u2060$1,200.00, +0.4 % of last year's $300,000.00: 12 cost more, 12 less.");
   });
 
   it("the billed-cost card and the list page sum every building, not the 10 shown", () => {

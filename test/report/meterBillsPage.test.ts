@@ -55,7 +55,7 @@ describe("meter bills pages", () => {
   });
 
   it("lists a claim or risk that covers no bill on its own, with the dispute's figure", () => {
-    expect(e1.otherClaims).toEqual([{ label: "Back-billing risk", amount: "−$5,715.45", title: "A month nobody billed", href: "claims/D-gap-1.html" }]);
+    expect(e1.otherClaims).toEqual([{ label: "Back-billing risk", amount: "−\u2060$5,715.45", title: "A month nobody billed", href: "claims/D-gap-1.html" }]);
   });
 
   it("the building page keeps one row per meter and no per-bill math", () => {

@@ -58,7 +58,7 @@ describe("the lists of every building, rendered", () => {
     expect(list).not.toContain('<a href="/');
     const forecast = pages["forecast.html"];
     expect(tableRows(forecast, "Buildings ranked by the forecast change")).toHaveLength(24);
-    expect(forecast).toContain("Over all 24 buildings the changes add up to +$1,200.00");
+    expect(forecast).toContain("Over all 24 buildings the changes add up to +\u2060$1,200.00");
     expect(forecast).toContain('<li><a href="forecast.html" aria-current="page">Next year&#39;s cost</a></li>');
     expect(forecast).not.toContain('<a href="/');
   });
