@@ -1,9 +1,9 @@
 /**
  * Layout of the demo site (data/demo) in chromium at a phone (390 px), a small laptop (1024 px)
  * and a desktop (1440 px) width: no page scrolls sideways, every amount in a table can be read
- * (on screen, never cut off by its table), chart text is never cut short or clipped, building
- * pages stay small, every bill links to its re-pricing, no raw state code reaches a page, and
- * axe-core finds no violations in either table layout.
+ * (on screen, never cut off by its table) and no line ends with an amount's sign, chart text is
+ * never cut short or clipped, building pages stay small, every bill links to its re-pricing, no
+ * raw state code reaches a page, and axe-core finds no violations in either table layout.
  */
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { existsSync } from "node:fs";
