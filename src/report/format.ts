@@ -46,7 +46,7 @@ function isCurrencyCode(currency: string): boolean {
  * in a narrow column), which leaves "$4,683.46" at the start of the next line reading as a
  * positive amount. The joiner is invisible and screen readers skip it.
  */
-export const SIGN_JOINER = "\u2060";
+const SIGN_JOINER = "\u2060";
 
 /** A leading minus joined to what follows (Intl puts the currency symbol between it and the digits). */
 function joinSign(text: string): string {
@@ -55,9 +55,7 @@ function joinSign(text: string): string {
 
 /** Formats money; an unusable currency code degrades to "1,234.50 XX" instead of throwing. */
 function money(amount: number, currency: string, digits: number): string {
-  if (isCurrencyCode(currency)) {
-    return joinSign(moneyFormatter(currency, digits).format(amount));
-  }
+  if (isCurrencyCode(currency)) return joinSign(moneyFormatter(currency, digits).format(amount));
   const n = cachedFormatter({ minimumFractionDigits: digits, maximumFractionDigits: digits }).format(amount);
   return currency ? `${n} ${currency}` : n;
 }
